@@ -1,0 +1,176 @@
+package fitcore
+
+import (
+	"fmt"
+	"strings"
+)
+
+// Summarize combines the checks into one verdict per assumption of the
+// straight-line fit, each with a plain sentence and, when something is
+// wrong, a short piece of advice:
+//
+//	linearity     Curvature and LackOfFit (when there are repeats)
+//	spread        BreuschPagan and White
+//	independence  DurbinWatson and Runs (in entry order)
+//	normality     ShapiroWilk
+//	influence     the flagged readings of Influence, named by their number
+//	              from 1 ("Reading 7 …")
+//	x exactness   XExactness, when it was run
+//
+// The verdict of an assumption is the worst verdict among its checks that
+// could be run (fail > warn > pass); it is NA only when none could be run.
+// For influence: fail when some reading is an outlier by the Bonferroni test
+// or has Cook's distance above the F(p, n−p) median, warn when readings are
+// flagged only by the milder thresholds (see Influence), pass otherwise
+// (common practice).
+func Summarize(c Checks, infl []PointInfluence) Assumptions {
+	var a Assumptions
+	lin := []Check{c.Curvature}
+	if c.LackOfFit != nil {
+		lin = append(lin, *c.LackOfFit)
+	}
+	a.Linearity = ckCombine(lin,
+		"The readings follow a straight line.",
+		"The readings may bend slightly away from a straight line.",
+		"The readings bend away from a straight line.",
+		"Look at the advice for a transform, use only the part of the range that is straight, or follow the instrument maker's procedure for a curved response.",
+		"Linearity could not be checked")
+	a.Spread = ckCombine([]Check{c.BreuschPagan, c.White},
+		"The scatter about the line is about the same across the whole range.",
+		"The scatter about the line may change across the range.",
+		"The scatter about the line changes across the range (bigger at one end or in the middle).",
+		"Use a weighted fit or the transform in the advice, and do not quote one ± figure for the whole range.",
+		"Evenness of scatter could not be checked")
+	a.Independence = ckCombine([]Check{c.DurbinWatson, c.Runs},
+		"In the order entered, the readings look independent of each other.",
+		"In the order entered, neighbouring readings may be related (a drift or a pattern).",
+		"In the order entered, neighbouring readings are related: there is a drift or a pattern.",
+		"Check for drift (warm-up, temperature, a sensor settling) and, if you can, repeat the readings in a shuffled order.",
+		"Independence could not be checked")
+	a.Normality = ckCombine([]Check{c.ShapiroWilk},
+		"The scatter about the line has the usual bell shape.",
+		"The scatter about the line may not have the usual bell shape.",
+		"The scatter about the line does not have the usual bell shape.",
+		"Look for outlying readings first; intervals and limits from this line may be less reliable than stated.",
+		"Normality could not be checked")
+	a.Influence = ckSummarizeInfluence(infl)
+	if c.XExactness != nil {
+		x := *c.XExactness
+		as := Assumption{Verdict: x.Verdict, Message: x.Message}
+		if x.Verdict == Warn || x.Verdict == Fail {
+			as.Advice = "Use the Deming fit, which allows for error in x as well as y, or calibrate with more exact x standards."
+		}
+		a.XExactness = &as
+	}
+	return a
+}
+
+// ckVerdictRank orders verdicts from NA (nothing known) to Fail.
+func ckVerdictRank(v Verdict) int {
+	switch v {
+	case Pass:
+		return 1
+	case Warn:
+		return 2
+	case Fail:
+		return 3
+	}
+	return 0
+}
+
+// ckCombine takes the worst verdict of the checks that ran and words it.
+func ckCombine(cs []Check, pass, warn, fail, advice, naLead string) Assumption {
+	worst := NA
+	var worstMsg string
+	var why []string
+	for _, c := range cs {
+		if ckVerdictRank(c.Verdict) == 0 {
+			if c.Message != "" {
+				why = append(why, c.Message)
+			}
+			continue
+		}
+		if ckVerdictRank(c.Verdict) > ckVerdictRank(worst) {
+			worst, worstMsg = c.Verdict, c.Message
+		}
+	}
+	switch worst {
+	case Pass:
+		return Assumption{Verdict: Pass, Message: pass}
+	case Warn:
+		return Assumption{Verdict: Warn, Message: warn + " " + worstMsg, Advice: advice}
+	case Fail:
+		return Assumption{Verdict: Fail, Message: fail + " " + worstMsg, Advice: advice}
+	}
+	msg := naLead + "."
+	if len(why) > 0 {
+		msg = naLead + ": " + why[0]
+	}
+	return Assumption{Verdict: NA, Message: msg}
+}
+
+// ckSummarizeInfluence words the flagged readings.
+func ckSummarizeInfluence(infl []PointInfluence) Assumption {
+	if len(infl) == 0 {
+		return Assumption{Verdict: NA, Message: "The influence of single readings could not be checked."}
+	}
+	var serious, mild []int
+	for _, p := range infl {
+		if !p.Flagged {
+			continue
+		}
+		isSerious := false
+		for _, r := range p.Reasons {
+			if strings.HasPrefix(r, ckReasonOutlier) || strings.HasPrefix(r, ckReasonVeryInfluence) || strings.HasPrefix(r, ckReasonLeverageOne) {
+				isSerious = true
+			}
+		}
+		if isSerious {
+			serious = append(serious, p.Index+1)
+		} else {
+			mild = append(mild, p.Index+1)
+		}
+	}
+	switch {
+	case len(serious) > 0:
+		msg := fmt.Sprintf("%s %s out of line with the rest or %s the line strongly.",
+			ckReadingList(serious), ckPlural(len(serious), "is", "are"), ckPlural(len(serious), "pulls", "pull"))
+		if len(mild) > 0 {
+			msg += fmt.Sprintf(" %s also %s out.", ckReadingList(mild), ckPlural(len(mild), "stands", "stand"))
+		}
+		return Assumption{Verdict: Fail, Message: msg,
+			Advice: "Check those readings for a typing or reading mistake and repeat them if you can; exclude a reading only with a recorded reason."}
+	case len(mild) > 0:
+		return Assumption{Verdict: Warn,
+			Message: fmt.Sprintf("%s %s out from the rest (see the reasons listed with each reading).", ckReadingList(mild), ckPlural(len(mild), "stands", "stand")),
+			Advice:  "Check those readings; a reading far from the others in x deserves a repeat or a neighbour."}
+	}
+	return Assumption{Verdict: Pass, Message: "No single reading dominates the line."}
+}
+
+// ckReadingList names readings by number from 1: "Reading 7",
+// "Readings 3 and 7", "Readings 1, 4, 9, 12, 15 and 3 more".
+func ckReadingList(ix []int) string {
+	const show = 5
+	parts := make([]string, 0, show)
+	for i, v := range ix {
+		if i == show {
+			break
+		}
+		parts = append(parts, fmt.Sprint(v))
+	}
+	if len(ix) == 1 {
+		return "Reading " + parts[0]
+	}
+	if len(ix) > show {
+		return fmt.Sprintf("Readings %s and %d more", strings.Join(parts, ", "), len(ix)-show)
+	}
+	return "Readings " + strings.Join(parts[:len(parts)-1], ", ") + " and " + parts[len(parts)-1]
+}
+
+func ckPlural(n int, one, many string) string {
+	if n == 1 {
+		return one
+	}
+	return many
+}
