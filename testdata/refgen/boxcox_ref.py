@@ -14,7 +14,7 @@ the profile log-likelihood is computed directly in its textbook form
     l(lam) = -n/2 * log(RSS(lam)/n) + (lam - 1) * sum(log y)
 
 (Box & Cox 1964, JRSS B 26, eq. 9), with y^(lam) from scipy.special.boxcox
-and RSS from a statsmodels OLS fit of y^(lam) on [1, x]. This is a different
+(or y^lam/lam, the same up to a constant, where that would cancel) and RSS from a statsmodels OLS fit of y^(lam) on [1, x]. This is a different
 route from the Go code (no geometric-mean scaling, a library least-squares
 solver), which is the point. The maximum is located on a grid of step 0.001
 over [-3, 3] and refined with scipy.optimize.minimize_scalar (bounded); the
@@ -49,7 +49,13 @@ PROFILE_AT = [-2.0, -1.0, -0.5, 0.0, 0.5, 1.0, 2.0]
 
 def loglik(x, y, lam):
     n = len(y)
-    z = sp.boxcox(y, lam)
+    if abs(lam) * np.max(np.abs(np.log(y))) <= 1:
+        z = sp.boxcox(y, lam)
+    else:
+        # (y^lam - 1)/lam loses its digits to the "- 1" when y^lam is far
+        # from 1 (y near 1e6, lam = -2); the constant goes into the intercept
+        # anyway, so leave it out.
+        z = np.power(y, lam) / lam
     rss = sm.OLS(z, sm.add_constant(x)).fit().ssr
     return -n / 2 * np.log(rss / n) + (lam - 1) * np.sum(np.log(y))
 

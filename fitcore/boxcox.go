@@ -1,0 +1,333 @@
+package fitcore
+
+import (
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// The interval BoxCoxProfile searches for λ. Values of |λ| above 3 have no
+// practical reading as a scale and are common practice to leave out.
+const (
+	bcLambdaMin = -3.0
+	bcLambdaMax = 3.0
+	bcGridStep  = 0.1 // coarse grid before the 1-D maximizer
+)
+
+// BoxCoxProfile estimates the Box–Cox power λ for the straight-line model
+//
+//	y^(λ) = b0 + b1·x + e,  e ~ N(0, σ²),
+//	y^(λ) = (y^λ − 1)/λ  (λ ≠ 0),   log y  (λ = 0),
+//
+// by maximizing the profile log-likelihood (Box & Cox 1964, "An analysis of
+// transformations", JRSS B 26, 211–252, eq. 9)
+//
+//	ℓ(λ) = −n/2 · log(RSS(λ)/n) + (λ − 1) · Σ log y_i,
+//
+// where RSS(λ) is the residual sum of squares of the least-squares line of
+// y^(λ) on x. The search is over [−3, 3]: a coarse grid (step 0.1) and then
+// Brent's parabolic/golden-section maximizer on the bracket around the best
+// grid point. The interval is the likelihood-ratio set
+//
+//	{λ : 2·(ℓ(λ̂) − ℓ(λ)) ≤ χ²₁(level)}
+//
+// (Box & Cox 1964, section 4), with its ends found by bisection; an end that
+// does not fall inside [−3, 3] is reported as the bound itself. level is the
+// confidence level, 0 < level < 1, and 0 means 0.95.
+//
+// Numerics: y is rescaled by its geometric mean ġ, which turns ℓ into
+// −n/2·log(RSS_u/n) + constant with u_i = ((y_i/ġ)^λ − 1)/λ, computed as
+// expm1(λ·log(y_i/ġ))/λ (so λ → 0 gives log(y_i/ġ) smoothly) or, when λ·log
+// is large, as a scaled exponential whose logarithm carries the scale, so no
+// power overflows. Each evaluation is O(n).
+//
+// It returns an error, in a sentence, when a y is zero or negative, a value
+// is not finite, x does not vary, there are fewer than 3 pairs, or the
+// transformed readings lie exactly on a line (λ is then not defined).
+func BoxCoxProfile(x, y []float64, level float64) (*BoxCox, error) {
+	p, err := bcNewProfile(x, y)
+	if err != nil {
+		return nil, err
+	}
+	if level == 0 {
+		level = 0.95
+	}
+	if !(level > 0 && level < 1) {
+		return nil, fmt.Errorf("%w: the confidence level must lie between 0 and 1 (got %v)", ErrBadOption, level)
+	}
+	cut := distuv.ChiSquared{K: 1}.Quantile(level) / 2
+
+	// Coarse grid.
+	nGrid := int(math.Round((bcLambdaMax-bcLambdaMin)/bcGridStep)) + 1
+	lams := make([]float64, nGrid)
+	ells := make([]float64, nGrid)
+	best := 0
+	for i := range lams {
+		lams[i] = bcLambdaMin + float64(i)*bcGridStep
+		if i == nGrid-1 {
+			lams[i] = bcLambdaMax
+		}
+		ells[i] = p.loglik(lams[i])
+		if ells[i] > ells[best] {
+			best = i
+		}
+	}
+
+	// Refine on the bracket around the best grid point.
+	lo := lams[max(best-1, 0)]
+	hi := lams[min(best+1, nGrid-1)]
+	lamHat, ellHat := bcBrentMax(p.loglik, lo, hi, 1e-10)
+	if ells[best] > ellHat { // a bound is the maximum
+		lamHat, ellHat = lams[best], ells[best]
+	}
+	if p.floored {
+		return nil, fmt.Errorf("%w: the readings lie on an exact straight line after a power transform, so the Box–Cox power is not defined (n = %d)", ErrDegenerate, p.n)
+	}
+
+	// Likelihood-ratio interval: g(λ) = ℓ(λ) − (ℓ̂ − cut) ≥ 0 inside.
+	g := func(l float64) float64 { return p.loglik(l) - (ellHat - cut) }
+	ciLow, ciHigh := bcLambdaMin, bcLambdaMax
+	inside := lamHat
+	for i := nGrid - 1; i >= 0; i-- { // largest grid point below λ̂ that is outside
+		if lams[i] >= lamHat {
+			continue
+		}
+		if ells[i]-(ellHat-cut) < 0 {
+			ciLow = bcBisect(g, lams[i], inside)
+			break
+		}
+		inside = lams[i]
+	}
+	inside = lamHat
+	for i := 0; i < nGrid; i++ {
+		if lams[i] <= lamHat {
+			continue
+		}
+		if ells[i]-(ellHat-cut) < 0 {
+			ciHigh = bcBisect(g, lams[i], inside)
+			break
+		}
+		inside = lams[i]
+	}
+	bc := &BoxCox{Lambda: lamHat, CILow: ciLow, CIHigh: ciHigh}
+	if !bcFinite(bc.Lambda) || !bcFinite(bc.CILow) || !bcFinite(bc.CIHigh) {
+		return nil, fmt.Errorf("%w: the Box–Cox power could not be computed for these readings (n = %d)", ErrDegenerate, p.n)
+	}
+	return bc, nil
+}
+
+// bcProfile holds what every evaluation of ℓ(λ) needs.
+type bcProfile struct {
+	n       int
+	xc      []float64 // x − x̄
+	sxx     float64
+	w       []float64 // log(y/ġ)
+	wMin    float64
+	wMax    float64
+	u       []float64 // work space
+	floored bool      // set when an RSS hit the exact-fit floor
+}
+
+// bcNewProfile validates the data and precomputes centred x and log(y/ġ).
+func bcNewProfile(x, y []float64) (*bcProfile, error) {
+	if len(x) != len(y) {
+		return nil, fmt.Errorf("%w: x has %d readings, y has %d", ErrLengthMismatch, len(x), len(y))
+	}
+	n := len(y)
+	if n < 3 {
+		return nil, fmt.Errorf("%w: the Box–Cox power needs at least 3 (got %d)", ErrTooFewPoints, n)
+	}
+	var mx, my float64
+	for i := range y {
+		if !bcFinite(x[i]) {
+			return nil, &DataError{Index: i, Column: "x", Value: x[i], Err: ErrNotFinite}
+		}
+		if !bcFinite(y[i]) {
+			return nil, &DataError{Index: i, Column: "y", Value: y[i], Err: ErrNotFinite}
+		}
+		if !(y[i] > 0) {
+			return nil, &DataError{Index: i, Column: "y", Value: y[i], Err: ErrTransformDomain,
+				Hint: "The Box–Cox power needs every y reading above zero"}
+		}
+		mx += x[i]
+	}
+	mx /= float64(n)
+	p := &bcProfile{n: n, xc: make([]float64, n), w: make([]float64, n), u: make([]float64, n)}
+	for i := range x {
+		p.xc[i] = x[i] - mx
+		p.sxx += p.xc[i] * p.xc[i]
+		p.w[i] = math.Log(y[i])
+		my += p.w[i]
+	}
+	if !(p.sxx > 0) || !bcFinite(p.sxx) {
+		return nil, fmt.Errorf("%w (all %d are %v), so the Box–Cox power cannot be estimated", ErrNoSpreadInX, n, x[0])
+	}
+	my /= float64(n)
+	p.wMin, p.wMax = math.Inf(1), math.Inf(-1)
+	for i := range p.w {
+		p.w[i] -= my
+		p.wMin = math.Min(p.wMin, p.w[i])
+		p.wMax = math.Max(p.wMax, p.w[i])
+	}
+	if p.wMax-p.wMin == 0 {
+		return nil, fmt.Errorf("%w (all %d are %v), so the Box–Cox power cannot be estimated", ErrNoSpreadInY, n, y[0])
+	}
+	return p, nil
+}
+
+// logRSS returns log RSS_u(λ) for u = ((y/ġ)^λ − 1)/λ regressed on x.
+func (p *bcProfile) logRSS(lam float64) float64 {
+	wAbs := math.Max(-p.wMin, p.wMax)
+	logScale := 0.0
+	if math.Abs(lam)*wAbs <= 100 {
+		for i, w := range p.w {
+			if lam == 0 {
+				p.u[i] = w
+			} else {
+				p.u[i] = math.Expm1(lam*w) / lam
+			}
+		}
+	} else {
+		// u ≡ e^{λw}/λ up to a constant = e^{λc}/λ · e^{λ(w−c)}, with c chosen
+		// so that every exponent is ≤ 0; RSS scales by e^{2λc}/λ².
+		c := p.wMax
+		if lam < 0 {
+			c = p.wMin
+		}
+		for i, w := range p.w {
+			p.u[i] = math.Exp(lam * (w - c))
+		}
+		logScale = 2*lam*c - 2*math.Log(math.Abs(lam))
+	}
+	var mu float64
+	for _, v := range p.u {
+		mu += v
+	}
+	mu /= float64(p.n)
+	var sxy, syy float64
+	for i, v := range p.u {
+		d := v - mu
+		sxy += p.xc[i] * d
+		syy += d * d
+	}
+	b := sxy / p.sxx
+	var rss float64
+	for i, v := range p.u {
+		r := v - mu - b*p.xc[i]
+		rss += r * r
+	}
+	// An exact fit would make ℓ infinite; floor the RSS at the rounding level
+	// of the data and remember that it happened.
+	if floor := syy * 1e-26; rss <= floor {
+		rss = floor
+		p.floored = true
+	}
+	if !(rss > 0) || !bcFinite(rss) {
+		return math.Inf(1) // treated as the worst possible λ
+	}
+	return math.Log(rss) + logScale
+}
+
+// loglik returns ℓ(λ) up to a constant that does not depend on λ.
+func (p *bcProfile) loglik(lam float64) float64 {
+	v := -0.5 * float64(p.n) * p.logRSS(lam)
+	if math.IsNaN(v) {
+		return math.Inf(-1)
+	}
+	return v
+}
+
+// bcBrentMax maximizes f on [a, b] by Brent's method (golden section with
+// parabolic steps; Brent 1973, "Algorithms for Minimization without
+// Derivatives", ch. 5), to an absolute tolerance of about tol in x.
+func bcBrentMax(f func(float64) float64, a, b, tol float64) (float64, float64) {
+	const cgold = 0.3819660112501051
+	const eps = 1.5e-8 // ≈ sqrt(machine epsilon)
+	x := a + cgold*(b-a)
+	w, v := x, x
+	fx := -f(x)
+	fw, fv := fx, fx
+	var d, e float64
+	for iter := 0; iter < 200; iter++ {
+		xm := 0.5 * (a + b)
+		tol1 := eps*math.Abs(x) + tol/3
+		tol2 := 2 * tol1
+		if math.Abs(x-xm) <= tol2-0.5*(b-a) {
+			break
+		}
+		golden := true
+		if math.Abs(e) > tol1 {
+			r := (x - w) * (fx - fv)
+			q := (x - v) * (fx - fw)
+			pp := (x-v)*q - (x-w)*r
+			q = 2 * (q - r)
+			if q > 0 {
+				pp = -pp
+			}
+			q = math.Abs(q)
+			if math.Abs(pp) < math.Abs(0.5*q*e) && pp > q*(a-x) && pp < q*(b-x) {
+				e = d
+				d = pp / q
+				u := x + d
+				if u-a < tol2 || b-u < tol2 {
+					d = math.Copysign(tol1, xm-x)
+				}
+				golden = false
+			}
+		}
+		if golden {
+			if x >= xm {
+				e = a - x
+			} else {
+				e = b - x
+			}
+			d = cgold * e
+		}
+		u := x + d
+		if math.Abs(d) < tol1 {
+			u = x + math.Copysign(tol1, d)
+		}
+		fu := -f(u)
+		if fu <= fx {
+			if u >= x {
+				a = x
+			} else {
+				b = x
+			}
+			v, fv = w, fw
+			w, fw = x, fx
+			x, fx = u, fu
+		} else {
+			if u < x {
+				a = u
+			} else {
+				b = u
+			}
+			if fu <= fw || w == x {
+				v, fv = w, fw
+				w, fw = u, fu
+			} else if fu <= fv || v == x || v == w {
+				v, fv = u, fu
+			}
+		}
+	}
+	return x, -fx
+}
+
+// bcBisect finds the root of g between out (g < 0) and in (g ≥ 0) by
+// bisection to 1e-12 in λ.
+func bcBisect(g func(float64) float64, out, in float64) float64 {
+	for k := 0; k < 100 && math.Abs(in-out) > 1e-12; k++ {
+		mid := 0.5 * (in + out)
+		if g(mid) >= 0 {
+			in = mid
+		} else {
+			out = mid
+		}
+	}
+	return 0.5 * (in + out)
+}
+
+// bcFinite reports whether v is neither NaN nor infinite.
+func bcFinite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
