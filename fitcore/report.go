@@ -243,6 +243,9 @@ type Prediction struct {
 	CIHigh float64 `json:"ci_high"`
 	PILow  float64 `json:"pi_low"`
 	PIHigh float64 `json:"pi_high"`
+	// Message explains an interval end that could not be given (set to 0)
+	// or an x outside the range of the readings.
+	Message string `json:"message,omitempty"`
 }
 
 // Inverse is the x behind an observed y (or the mean of M repeats), with its
@@ -322,4 +325,15 @@ type Report struct {
 	Limits      *Limits           `json:"limits"`
 	Acceptance  *AcceptanceResult `json:"acceptance"`
 	Notes       []string          `json:"notes,omitempty"`
+
+	// TransformLambda is the Box–Cox λ used (given or estimated); nil for
+	// other transforms.
+	TransformLambda *float64 `json:"transform_lambda,omitempty"`
+	// Smearing is Duan's smearing factor applied to mean predictions on a
+	// log scale (1 otherwise).
+	Smearing float64 `json:"smearing,omitempty"`
+	// Weights are the weights used by a weighted fit (nil otherwise), and
+	// WeightPower the estimated variance power for WeightsPowerFit.
+	Weights     []float64 `json:"weights,omitempty"`
+	WeightPower float64   `json:"weight_power,omitempty"`
 }

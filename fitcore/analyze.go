@@ -1,0 +1,266 @@
+package fitcore
+
+import (
+	"fmt"
+	"math"
+	"reflect"
+)
+
+// Analyze fits a straight line to the pairs (x[i], y[i]) as opt asks and
+// returns everything Pairline reports about it: estimates with standard
+// errors, t tests, confidence intervals and the tests against SlopeRef and
+// InterceptRef; residual standard error, r, R², adjusted R², F and the
+// ANOVA table; fitted values and residuals; the assumption checks and their
+// summary; case influence; the Box–Cox profile (when every y > 0); the
+// transform advice (unless opt.SkipAdvice); predictions, inverse
+// predictions, detection limits and acceptance criteria when asked for.
+//
+// Bad data give an error, never a panic: fewer than three pairs
+// (ErrTooFewPoints), unequal lengths (ErrLengthMismatch), a NaN or infinite
+// reading (*DataError wrapping ErrNotFinite), all x equal (ErrNoSpreadInX),
+// all y equal (ErrNoSpreadInY), bad weights (*DataError wrapping
+// ErrBadWeight), a transform the readings cannot take (*DataError wrapping
+// ErrTransformDomain) and invalid options (ErrBadOption). No NaN or Inf is
+// ever stored in the Report, so it always marshals to JSON.
+func Analyze(x, y []float64, opt Options) (*Report, error) {
+	o, err := normalizeOptions(opt)
+	if err != nil {
+		return nil, err
+	}
+	if err := validatePairs(x, y); err != nil {
+		return nil, err
+	}
+	rep := &Report{N: len(x), Model: o.Model, Transform: o.Transform, Level: o.Level}
+
+	// Transformed scale.
+	tr, err := newTransformer(o.Transform, x, y, o, rep)
+	if err != nil {
+		return nil, err
+	}
+	xt, yt, err := tr.apply(x, y)
+	if err != nil {
+		return nil, err
+	}
+	if err := checkSpread(xt, yt); err != nil {
+		return nil, err
+	}
+
+	var f *lineFit
+	var w []float64
+	wm := &weightModel{scheme: WeightsNone}
+	origin := o.Model == ModelOrigin
+	switch o.Model {
+	case ModelDeming:
+		f, err = fitDeming(xt, yt, o.VarianceRatio)
+	default:
+		if o.Weights != WeightsNone {
+			w, wm, err = schemeWeights(o.Weights, xt, yt, o.GivenWeights, origin, rep)
+			if err != nil {
+				return nil, err
+			}
+			rep.Weights = w
+		}
+		f, err = fitLS(xt, yt, w, origin)
+	}
+	if err != nil {
+		return nil, err
+	}
+	slopeRef, interceptRef := 1.0, 0.0
+	if o.SlopeRef != nil {
+		slopeRef = *o.SlopeRef
+	}
+	if o.InterceptRef != nil {
+		interceptRef = *o.InterceptRef
+	}
+	if o.Model == ModelDeming {
+		inferDeming(f, o.Level, slopeRef, interceptRef, rep)
+	} else {
+		inferLS(f, o.Level, slopeRef, interceptRef, rep)
+	}
+	// r is always the centred (weighted) Pearson correlation.
+	if origin {
+		if c, err := fitLS(xt, yt, w, false); err == nil {
+			rep.R = c.pearsonR()
+			rep.MeanX, rep.MeanY = c.xc/c.kx, c.a/c.ky
+		}
+	} else {
+		rep.R = f.pearsonR()
+	}
+	rep.Fitted, rep.Residuals = f.fittedResiduals(xt, yt)
+	tr.setSmearing(rep.Residuals)
+	if tr.isLogY() {
+		rep.Smearing = tr.smearing
+	}
+
+	fc := &fitContext{f: f, tr: tr, wm: wm, x: x, y: y, xt: xt, yt: yt, w: w, opt: o, rep: rep}
+	fc.predictions()
+	fc.inverses()
+	fc.limits()
+	fc.acceptance()
+	scrubReport(rep)
+	return rep, nil
+}
+
+// fitContext carries what the later stages of Analyze need.
+type fitContext struct {
+	f      *lineFit
+	tr     *transformer
+	wm     *weightModel
+	x, y   []float64 // original units
+	xt, yt []float64 // fitted scale
+	w      []float64 // weights as used (original scale), nil when unweighted
+	opt    Options
+	rep    *Report
+}
+
+// normalizeOptions fills defaults and rejects invalid values.
+func normalizeOptions(opt Options) (Options, error) {
+	o := opt
+	if o.Model == "" {
+		o.Model = ModelOLS
+	}
+	if o.Transform == "" {
+		o.Transform = TransformNone
+	}
+	if o.Level == 0 {
+		o.Level = 0.95
+	}
+	if !(o.Level > 0 && o.Level < 1) {
+		return o, fmt.Errorf("%w: the confidence level must be between 0 and 1 (for example 0.95), got %s", ErrBadOption, formatValue(o.Level))
+	}
+	switch o.Model {
+	case ModelOLS, ModelOrigin, ModelWeighted, ModelDeming:
+	default:
+		return o, fmt.Errorf("%w: unknown fit model %q (use ols, origin, weighted or deming)", ErrBadOption, o.Model)
+	}
+	switch o.Transform {
+	case TransformNone, TransformLogY, TransformSqrtY, TransformReciprocal, TransformLogLog, TransformBoxCox:
+	default:
+		return o, fmt.Errorf("%w: unknown transform %q", ErrBadOption, o.Transform)
+	}
+	switch o.Weights {
+	case WeightsNone, WeightsGiven, WeightsX, WeightsX2, WeightsFitted2, WeightsRepeats, WeightsPowerFit:
+	default:
+		return o, fmt.Errorf("%w: unknown weight scheme %q", ErrBadOption, o.Weights)
+	}
+	if o.Model == ModelWeighted && o.Weights == WeightsNone {
+		if o.GivenWeights == nil {
+			return o, fmt.Errorf("%w: a weighted fit needs weights: give them, or say where they come from (x, x2, fitted2, repeats or power)", ErrBadOption)
+		}
+		o.Weights = WeightsGiven
+	}
+	if o.Model == ModelOLS && o.Weights != WeightsNone {
+		o.Model = ModelWeighted
+	}
+	if o.Model == ModelDeming {
+		if o.Weights != WeightsNone {
+			return o, fmt.Errorf("%w: Deming regression does not take weights", ErrBadOption)
+		}
+		if o.VarianceRatio == 0 {
+			o.VarianceRatio = 1
+		}
+		if !(o.VarianceRatio > 0) || math.IsInf(o.VarianceRatio, 0) {
+			return o, fmt.Errorf("%w: the variance ratio for Deming regression must be a positive number, got %s", ErrBadOption, formatValue(o.VarianceRatio))
+		}
+	}
+	for _, v := range []*float64{o.SlopeRef, o.InterceptRef, o.BoxCoxLambda} {
+		if v != nil && !isFiniteNum(*v) {
+			return o, fmt.Errorf("%w: a reference value or λ is not a finite number", ErrBadOption)
+		}
+	}
+	if !isFiniteNum(o.XUncertainty) || o.XUncertainty < 0 || !isFiniteNum(o.YUncertainty) || o.YUncertainty < 0 {
+		return o, fmt.Errorf("%w: reading uncertainties must be zero or positive numbers", ErrBadOption)
+	}
+	return o, nil
+}
+
+func isFiniteNum(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+
+// validatePairs checks lengths, count and finiteness.
+func validatePairs(x, y []float64) error {
+	if len(x) != len(y) {
+		return fmt.Errorf("%w: %d x readings but %d y readings", ErrLengthMismatch, len(x), len(y))
+	}
+	if len(x) < 3 {
+		return fmt.Errorf("%w: got %d; a straight line needs at least 3 pairs to be checked", ErrTooFewPoints, len(x))
+	}
+	for i := range x {
+		if !isFiniteNum(x[i]) {
+			return &DataError{Index: i, Column: "x", Value: x[i], Err: ErrNotFinite, Hint: "Correct or remove this reading."}
+		}
+		if !isFiniteNum(y[i]) {
+			return &DataError{Index: i, Column: "y", Value: y[i], Err: ErrNotFinite, Hint: "Correct or remove this reading."}
+		}
+	}
+	return nil
+}
+
+// checkSpread rejects constant x or constant y.
+func checkSpread(x, y []float64) error {
+	if allEqual(x) {
+		return fmt.Errorf("%w (every x is %s): a slope needs readings at two or more different x values", ErrNoSpreadInX, formatValue(x[0]))
+	}
+	if allEqual(y) {
+		return fmt.Errorf("%w (every y is %s): the instrument shows no response, so there is no line to check", ErrNoSpreadInY, formatValue(y[0]))
+	}
+	return nil
+}
+
+func allEqual(v []float64) bool {
+	for _, a := range v[1:] {
+		if a != v[0] {
+			return false
+		}
+	}
+	return true
+}
+
+// scrubReport is the last guard of the no-NaN/Inf promise: any non-finite
+// float left anywhere in the report (including the checks) becomes 0 and a
+// note says so. It should never fire.
+func scrubReport(rep *Report) {
+	if n := scrubValue(reflect.ValueOf(rep).Elem()); n > 0 {
+		rep.Notes = append(rep.Notes, fmt.Sprintf("%d value(s) could not be computed on these readings and are shown as 0.", n))
+	}
+}
+
+func scrubValue(v reflect.Value) int {
+	switch v.Kind() {
+	case reflect.Float64:
+		if f := v.Float(); !isFiniteNum(f) {
+			if v.CanSet() {
+				v.SetFloat(0)
+			}
+			return 1
+		}
+	case reflect.Slice:
+		if fs, ok := v.Interface().([]float64); ok {
+			n := 0
+			for i, f := range fs {
+				if !isFiniteNum(f) {
+					fs[i] = 0
+					n++
+				}
+			}
+			return n
+		}
+		n := 0
+		for i := range v.Len() {
+			n += scrubValue(v.Index(i))
+		}
+		return n
+	case reflect.Pointer:
+		if !v.IsNil() {
+			return scrubValue(v.Elem())
+		}
+	case reflect.Struct:
+		n := 0
+		for i := range v.NumField() {
+			if v.Type().Field(i).IsExported() {
+				n += scrubValue(v.Field(i))
+			}
+		}
+		return n
+	}
+	return 0
+}

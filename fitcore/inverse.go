@@ -1,0 +1,122 @@
+package fitcore
+
+import (
+	"fmt"
+	"math"
+)
+
+// inverseAt estimates the x behind the mean ȳ0 of m readings of one
+// unknown, x̂ = (ȳ0 − b0)/b1, with
+//
+//	SE(x̂) = s/|b1|·√(1/m + 1/n + (ȳ0 − ȳ)²/(b1²·Sxx))
+//
+// (Draper & Smith §3.2; NIST/SEMATECH e-Handbook §2.3.6.7.1; for weighted
+// and Deming fits the general form √(s²/(m·w(x̂)) + Var(ŷ(x̂)))/|b1|) and the
+// Fieller interval: the set of x with
+//
+//	(ȳ0 − ŷ(x))² ≤ t²·(s²/(m·w) + Var(ŷ(x))),
+//
+// a quadratic A·u² + B·u + C ≤ 0 in u = x − x̄ with A = b1² − t²·Var(b1).
+// It is a bounded interval only when A > 0, that is when the slope differs
+// from zero at the level (g = t²·Var(b1)/b1² < 1); otherwise the interval
+// is unbounded and Low, High are 0 with a message. Fieller, J. R. Stat.
+// Soc. Suppl. 7 (1940); Draper & Smith §3.2.
+func (fc *fitContext) inverseAt(q InverseQuery) Inverse {
+	inv := Inverse{M: len(q.Y)}
+	f, tr := fc.f, fc.tr
+	if len(q.Y) == 0 {
+		inv.Message = "No readings were given for this unknown."
+		return inv
+	}
+	var sum, sumT lnKSum
+	for i, v := range q.Y {
+		if !isFiniteNum(v) {
+			inv.Message = fmt.Sprintf("Reading %d of this unknown (%s) is not a finite number.", i+1, formatValue(v))
+			return inv
+		}
+		u, ok := tr.fwdY(v)
+		if !ok {
+			inv.Message = fmt.Sprintf("Reading %d of this unknown (%s) cannot be put on the fitted scale. %s", i+1, formatValue(v), tr.domainSentence())
+			return inv
+		}
+		sum.add(v)
+		sumT.add(u)
+	}
+	m := float64(len(q.Y))
+	inv.Y = sum.val() / m
+	if f.b1 == 0 {
+		inv.Message = "The slope is zero, so no x can be read back from y."
+		return inv
+	}
+	d := sumT.val()/m*f.ky - f.a
+	uhat := d / f.b1
+	xsHat := f.xc + uhat
+	xtHat := xsHat / f.kx
+	s2 := f.s2()
+	wx, wok := fc.wm.at(xtHat)
+	if !wok {
+		inv.Message = "The weighting gives no weight at this x, so no uncertainty can be given."
+		inv.X = tr.backX(xtHat)
+		return inv
+	}
+	vnew := s2 / (m * wx * f.cw)
+	se := math.Sqrt(math.Max(vnew+f.va+2*f.cab*uhat+f.v1*uhat*uhat, 0)) / math.Abs(f.b1) / f.kx
+	inv.X = tr.backX(xtHat)
+	if tr.kind == TransformLogLog {
+		se *= inv.X // delta method: SE(x) = x·SE(ln x)
+	}
+	inv.SE = se
+	var msgs []string
+	if fc.wm.scheme != WeightsNone {
+		msgs = append(msgs, "the weight of the unknown is taken at the estimated x")
+	}
+	t := lnTCrit(fc.rep.Level, f.df)
+	t2 := t * t
+	A := f.b1*f.b1 - t2*f.v1
+	B := -2 * (f.b1*d + t2*f.cab)
+	C := d*d - t2*(vnew+f.va)
+	disc := B*B - 4*A*C
+	if !(A > 0) || !(disc >= 0) {
+		inv.Bounded = false
+		msgs = append(msgs, fmt.Sprintf("the slope is not clearly different from zero at the %s level, so the interval for x is unbounded (shown as 0 to 0)", levelText(fc.rep.Level)))
+		inv.Message = joinSentences(msgs)
+		return inv
+	}
+	// Stable roots: q = −(B + sign(B)·√disc)/2, u1 = q/A, u2 = C/q.
+	sq := math.Sqrt(disc)
+	var u1, u2 float64
+	if B == 0 {
+		u1, u2 = -sq/(2*A), sq/(2*A)
+	} else {
+		qq := -0.5 * (B + math.Copysign(sq, B))
+		u1, u2 = qq/A, C/qq
+		if qq == 0 {
+			u2 = u1
+		}
+	}
+	if u1 > u2 {
+		u1, u2 = u2, u1
+	}
+	inv.Low = tr.backX((f.xc + u1) / f.kx)
+	inv.High = tr.backX((f.xc + u2) / f.kx)
+	inv.Bounded = true
+	if lo, hi := rangeOf(fc.x); inv.X < lo || inv.X > hi {
+		msgs = append(msgs, fmt.Sprintf("x lies outside the calibrated range %s to %s; the line may not hold there", formatValue(lo), formatValue(hi)))
+	}
+	inv.Message = joinSentences(msgs)
+	return inv
+}
+
+func (fc *fitContext) inverses() {
+	if len(fc.opt.Inverse) == 0 {
+		return
+	}
+	fc.rep.Inverse = make([]Inverse, len(fc.opt.Inverse))
+	for i, q := range fc.opt.Inverse {
+		fc.rep.Inverse[i] = fc.inverseAt(q)
+	}
+}
+
+func levelText(level float64) string {
+	return formatValue(math.Round(level*1e6)/1e4) + " %"
+}

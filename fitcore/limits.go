@@ -1,0 +1,37 @@
+package fitcore
+
+import "math"
+
+// Detection and quantitation limits from the calibration line,
+//
+//	LOD = 3.3·σ/|b1|,  LOQ = 10·σ/|b1|,
+//
+// with σ the residual standard error of the line (ICH Q2(R1), Validation of
+// Analytical Procedures, §6.3 and §7.3, "based on the standard deviation of
+// the response and the slope"). For a weighted fit σ is the standard
+// deviation of one reading at the lowest standard, s/√w(x_min). They are
+// given only for untransformed fits, in x units.
+func (fc *fitContext) limits() {
+	rep := fc.rep
+	if fc.tr.kind != TransformNone {
+		return
+	}
+	b1 := math.Abs(rep.Slope.Estimate)
+	if !(b1 > 0) {
+		return
+	}
+	sigma := rep.ResidualSE
+	if fc.wm.scheme != WeightsNone {
+		lo, _ := rangeOf(fc.x)
+		w, ok := fc.wm.at(lo)
+		if !ok {
+			return
+		}
+		sigma /= math.Sqrt(w)
+	}
+	lod, loq := 3.3*sigma/b1, 10*sigma/b1
+	if !isFiniteNum(lod) || !isFiniteNum(loq) {
+		return
+	}
+	rep.Limits = &Limits{LOD: lod, LOQ: loq}
+}

@@ -1,0 +1,494 @@
+package fitcore
+
+import (
+	"cmp"
+	"fmt"
+	"math"
+	"slices"
+)
+
+// This file holds the least-squares engine shared by every model: ordinary
+// least squares with intercept, the fit through the origin and weighted
+// least squares (Draper & Smith, Applied Regression Analysis, 3rd ed.,
+// ch. 1, 9). The sums are taken about the (weighted) means in two passes
+// with the Chan–Golub–LeVeque correction term (The American Statistician
+// 37, 1983) and block-wise compensated (Neumaier) accumulation, and every
+// value is first scaled by a power of two so that squares neither overflow
+// nor underflow. Scaling by a power of two is exact, so no digit is lost.
+
+// lnBlock is the length of the plain inner sums whose results are then
+// added with compensation: the error grows like blk·ε inside a block and
+// stays O(ε) across blocks.
+const lnBlock = 256
+
+// lnKSum is a Neumaier compensated sum.
+type lnKSum struct{ s, c float64 }
+
+func (k *lnKSum) add(v float64) {
+	t := k.s + v
+	if math.Abs(k.s) >= math.Abs(v) {
+		k.c += (k.s - t) + v
+	} else {
+		k.c += (v - t) + k.s
+	}
+	k.s = t
+}
+
+func (k lnKSum) val() float64 { return k.s + k.c }
+
+// lnPow2Scale returns a power of two k such that m·k lies in [0.5, 1) when m
+// is outside the range where squares of n such numbers are safe, and 1
+// otherwise (so ordinary data keep their exact values).
+func lnPow2Scale(m float64) float64 {
+	if m == 0 || (m > 0x1p-400 && m < 0x1p400) {
+		return 1
+	}
+	_, e := math.Frexp(m)
+	return math.Ldexp(1, -e)
+}
+
+// lineFit is a least-squares straight line in internal (scaled) units:
+// x_s = x·kx, y_s = y·ky, w_s = w·cw and ŷ_s = a + b1·(x_s − xc).
+// Va, V1 and Cab are the variances of a and b1 and their covariance in
+// internal units (s²/Σw, s²/Sxx and 0 for least squares; jackknife values
+// for Deming).
+type lineFit struct {
+	n        int
+	origin   bool
+	weighted bool
+	kx, ky   float64
+	cw       float64
+	xc, a    float64
+	b1       float64
+	sw       float64 // Σw (n when unweighted)
+	sxx, syy float64 // centred (uncentred through the origin) weighted sums
+	sxy      float64
+	sse      float64
+	df       float64
+	va, v1   float64
+	cab      float64
+	w        []float64 // internal weights, nil when unweighted
+}
+
+// s2 is the residual mean square in internal units.
+func (f *lineFit) s2() float64 {
+	if f.df <= 0 {
+		return 0
+	}
+	return f.sse / f.df
+}
+
+// slope and intercept in original units.
+func (f *lineFit) slope() float64 { return f.b1 * f.kx / f.ky }
+
+func (f *lineFit) intercept() float64 {
+	if f.origin {
+		return 0
+	}
+	return (f.a - f.b1*f.xc) / f.ky
+}
+
+// fitLS fits y = b0 + b1·x (or y = b1·x when origin) by least squares with
+// optional weights w (nil = unweighted; weights must already be validated
+// positive and finite). Data must be finite with len(x) = len(y) ≥ 2.
+//
+// With Sxx = Σw(x−x̄)², Sxy = Σw(x−x̄)(y−ȳ): b1 = Sxy/Sxx, b0 = ȳ − b1·x̄;
+// through the origin b1 = Σwxy/Σwx² (Draper & Smith §1.2, §9.2).
+func fitLS(x, y, w []float64, origin bool) (*lineFit, error) {
+	n := len(x)
+	f := &lineFit{n: n, origin: origin, weighted: w != nil, kx: 1, ky: 1, cw: 1}
+	// Pass 1: largest magnitudes and plain sums.
+	var mx, my, mw float64
+	var kxs, kys, kws lnKSum
+	for s := 0; s < n; s += lnBlock {
+		e := min(s+lnBlock, n)
+		var bx, by, bw float64
+		if w == nil {
+			for i := s; i < e; i++ {
+				xi, yi := x[i], y[i]
+				bx += xi
+				by += yi
+				mx = max(mx, math.Abs(xi))
+				my = max(my, math.Abs(yi))
+			}
+		} else {
+			for i := s; i < e; i++ {
+				xi, yi, wi := x[i], y[i], w[i]
+				bx += wi * xi
+				by += wi * yi
+				bw += wi
+				mx = max(mx, math.Abs(xi))
+				my = max(my, math.Abs(yi))
+				mw = max(mw, wi)
+			}
+		}
+		kxs.add(bx)
+		kys.add(by)
+		kws.add(bw)
+	}
+	f.kx, f.ky = lnPow2Scale(mx), lnPow2Scale(my)
+	if w != nil {
+		f.cw = lnPow2Scale(mw)
+		if f.cw != 1 || f.kx != 1 || f.ky != 1 || math.IsInf(kws.val(), 0) {
+			// Scale the weights to a max in [0.5, 1) whenever anything is scaled.
+			_, e := math.Frexp(mw)
+			f.cw = math.Ldexp(1, -e)
+		}
+		ws := make([]float64, n)
+		for i, wi := range w {
+			ws[i] = wi * f.cw
+		}
+		f.w = ws
+	}
+	kx, ky := f.kx, f.ky
+	wi := f.w
+	var sw, sx, sy float64
+	if kx == 1 && ky == 1 && f.cw == 1 && !math.IsInf(kxs.val(), 0) && !math.IsInf(kys.val(), 0) {
+		sx, sy = kxs.val(), kys.val()
+		if w == nil {
+			sw = float64(n)
+		} else {
+			sw = kws.val()
+		}
+	} else {
+		var ax, ay, aw lnKSum
+		for s := 0; s < n; s += lnBlock {
+			e := min(s+lnBlock, n)
+			var bx, by, bw float64
+			for i := s; i < e; i++ {
+				ww := 1.0
+				if wi != nil {
+					ww = wi[i]
+				}
+				bx += ww * x[i] * kx
+				by += ww * y[i] * ky
+				bw += ww
+			}
+			ax.add(bx)
+			ay.add(by)
+			aw.add(bw)
+		}
+		sx, sy, sw = ax.val(), ay.val(), aw.val()
+	}
+	f.sw = sw
+	var xbar, ybar float64
+	if !origin {
+		xbar, ybar = sx/sw, sy/sw
+	}
+	// Pass 2: centred sums with the correction term.
+	var cx, cy, cxx, cyy, cxy lnKSum
+	for s := 0; s < n; s += lnBlock {
+		e := min(s+lnBlock, n)
+		var bx, by, bxx, byy, bxy float64
+		if wi == nil {
+			for i := s; i < e; i++ {
+				dx := x[i]*kx - xbar
+				dy := y[i]*ky - ybar
+				bx += dx
+				by += dy
+				bxx += dx * dx
+				byy += dy * dy
+				bxy += dx * dy
+			}
+		} else {
+			for i := s; i < e; i++ {
+				dx := x[i]*kx - xbar
+				dy := y[i]*ky - ybar
+				ww := wi[i]
+				bx += ww * dx
+				by += ww * dy
+				bxx += ww * dx * dx
+				byy += ww * dy * dy
+				bxy += ww * dx * dy
+			}
+		}
+		cx.add(bx)
+		cy.add(by)
+		cxx.add(bxx)
+		cyy.add(byy)
+		cxy.add(bxy)
+	}
+	f.sxx, f.syy, f.sxy = cxx.val(), cyy.val(), cxy.val()
+	if !origin {
+		ex, ey := cx.val(), cy.val()
+		f.sxx -= ex * ex / sw
+		f.syy -= ey * ey / sw
+		f.sxy -= ex * ey / sw
+		xbar += ex / sw
+		ybar += ey / sw
+	}
+	if !(f.sxx > 0) {
+		return nil, ErrNoSpreadInX
+	}
+	f.xc, f.a = xbar, ybar
+	f.b1 = f.sxy / f.sxx
+	// Pass 3: residual sum of squares, taken directly (never as Syy − b1·Sxy,
+	// which cancels badly when R² is near 1).
+	f.sse = f.residualSS(x, y)
+	if origin {
+		f.df = float64(n - 1)
+	} else {
+		f.df = float64(n - 2)
+	}
+	s2 := f.s2()
+	f.v1 = s2 / f.sxx
+	if !origin {
+		f.va = s2 / sw
+	}
+	return f, nil
+}
+
+// residualSS returns Σw(y_s − ŷ_s)² in internal units.
+func (f *lineFit) residualSS(x, y []float64) float64 {
+	n := len(x)
+	kx, ky, xc, a, b1 := f.kx, f.ky, f.xc, f.a, f.b1
+	var acc lnKSum
+	for s := 0; s < n; s += lnBlock {
+		e := min(s+lnBlock, n)
+		var b float64
+		if f.w == nil {
+			for i := s; i < e; i++ {
+				r := y[i]*ky - a - b1*(x[i]*kx-xc)
+				b += r * r
+			}
+		} else {
+			for i := s; i < e; i++ {
+				r := y[i]*ky - a - b1*(x[i]*kx-xc)
+				b += f.w[i] * r * r
+			}
+		}
+		acc.add(b)
+	}
+	return acc.val()
+}
+
+// fittedResiduals fills fitted values and residuals in original units.
+func (f *lineFit) fittedResiduals(x, y []float64) (fitted, resid []float64) {
+	n := len(x)
+	fitted = make([]float64, n)
+	resid = make([]float64, n)
+	kx, ky, xc, a, b1 := f.kx, f.ky, f.xc, f.a, f.b1
+	iy := 1 / ky
+	for i := range n {
+		fs := a + b1*(x[i]*kx-xc)
+		fitted[i] = fs * iy
+		resid[i] = (y[i]*ky - fs) * iy
+	}
+	return fitted, resid
+}
+
+// fitAt is ŷ at x (original units in and out).
+func (f *lineFit) fitAt(x float64) float64 {
+	return (f.a + f.b1*(x*f.kx-f.xc)) / f.ky
+}
+
+// meanVarAt is the variance of the fitted line at x, in internal y units²:
+// Va + 2·Cab·u + V1·u² with u = x_s − xc.
+func (f *lineFit) meanVarAt(x float64) float64 {
+	u := x*f.kx - f.xc
+	return f.va + 2*f.cab*u + f.v1*u*u
+}
+
+// pearsonR is the (weighted) correlation of x and y about their means.
+// Through the origin the sums are uncentred, so it is recomputed centred.
+func (f *lineFit) pearsonR() float64 {
+	if !(f.sxx > 0) || !(f.syy > 0) {
+		return 0
+	}
+	r := f.sxy / math.Sqrt(f.sxx) / math.Sqrt(f.syy)
+	return math.Max(-1, math.Min(1, r))
+}
+
+// weightModel gives the weight of a reading at any x (fitted scale), in
+// original units, for predictions and inverse predictions of a weighted fit.
+type weightModel struct {
+	scheme WeightScheme
+	power  float64
+	first  *lineFit  // unweighted first pass, for WeightsFitted2
+	x, w   []float64 // observed x and weights, for given and repeat weights
+}
+
+// at returns the weight at x; ok is false when the scheme gives no finite
+// positive weight there.
+func (m *weightModel) at(x float64) (float64, bool) {
+	var w float64
+	switch m.scheme {
+	case WeightsNone:
+		return 1, true
+	case WeightsX:
+		w = 1 / x
+	case WeightsX2:
+		w = 1 / (x * x)
+	case WeightsFitted2:
+		f := m.first.fitAt(x)
+		w = 1 / (f * f)
+	case WeightsPowerFit:
+		w = math.Pow(math.Abs(x), -m.power)
+	default: // given, repeats: the weight of the nearest observed x
+		best, bd := -1, math.Inf(1)
+		for i, xi := range m.x {
+			if d := math.Abs(xi - x); d < bd {
+				best, bd = i, d
+			}
+		}
+		if best < 0 {
+			return 0, false
+		}
+		w = m.w[best]
+	}
+	return w, w > 0 && isFiniteNum(w)
+}
+
+// schemeWeights returns the weights w_i = 1/var_i for a weighted fit and
+// the model that extends them to any x:
+//
+//	given    Options.GivenWeights
+//	x        w = 1/x                (var ∝ x; every x > 0)
+//	x2       w = 1/x²               (var ∝ x²; every x ≠ 0)
+//	fitted2  w = 1/ŷ²               (var ∝ ŷ², ŷ from an unweighted first fit)
+//	repeats  w = 1/s²_j             (s²_j the sample variance of the repeats at x_j)
+//	power    w = |x|^(−p)           (p the slope of ln e² on ln|x| over the
+//	                                 unweighted residuals e; Carroll & Ruppert,
+//	                                 Transformation and Weighting in Regression, 1988, §3.3)
+//
+// Source for the weighting: Draper & Smith §9.2; NIST/SEMATECH e-Handbook §4.4.5.2.
+func schemeWeights(scheme WeightScheme, x, y, given []float64, origin bool, rep *Report) ([]float64, *weightModel, error) {
+	n := len(x)
+	m := &weightModel{scheme: scheme}
+	w := make([]float64, n)
+	bad := func(i int, col string, v float64, hint string) error {
+		return &DataError{Index: i, Column: col, Value: v, Err: ErrBadWeight, Hint: hint}
+	}
+	switch scheme {
+	case WeightsGiven:
+		if len(given) != n {
+			return nil, nil, fmt.Errorf("%w: %d weights for %d pairs", ErrLengthMismatch, len(given), n)
+		}
+		copy(w, given)
+	case WeightsX:
+		for i, v := range x {
+			if !(v > 0) {
+				return nil, nil, bad(i, "x", v, "Weights 1/x need every x above zero.")
+			}
+			w[i] = 1 / v
+		}
+	case WeightsX2:
+		for i, v := range x {
+			w[i] = 1 / (v * v)
+			if v == 0 {
+				return nil, nil, bad(i, "x", v, "Weights 1/x² cannot be used at x = 0.")
+			}
+		}
+	case WeightsFitted2:
+		f, err := fitLS(x, y, nil, origin)
+		if err != nil {
+			return nil, nil, err
+		}
+		m.first = f
+		for i, v := range x {
+			fv := f.fitAt(v)
+			w[i] = 1 / (fv * fv)
+			if fv == 0 {
+				return nil, nil, bad(i, "fitted y", fv, "Weights 1/ŷ² cannot be used where the line passes through zero.")
+			}
+		}
+	case WeightsRepeats:
+		if err := repeatWeights(x, y, w); err != nil {
+			return nil, nil, err
+		}
+	case WeightsPowerFit:
+		p, err := estimatePower(x, y, origin)
+		if err != nil {
+			return nil, nil, err
+		}
+		m.power = p
+		rep.WeightPower = p
+		for i, v := range x {
+			w[i] = math.Pow(math.Abs(v), -p)
+		}
+	}
+	for i, v := range w {
+		if !(v > 0) || !isFiniteNum(v) {
+			col := "weight"
+			val := v
+			if scheme != WeightsGiven {
+				col, val = "x", x[i]
+			}
+			return nil, nil, bad(i, col, val, "Every weight must be a positive finite number; check this reading or choose another weighting.")
+		}
+	}
+	if scheme == WeightsGiven || scheme == WeightsRepeats {
+		m.x, m.w = x, w
+	}
+	return w, m, nil
+}
+
+// repeatWeights sets w_i = 1/s²_j from the repeats at each distinct x.
+func repeatWeights(x, y, w []float64) error {
+	idx := make([]int, len(x))
+	for i := range idx {
+		idx[i] = i
+	}
+	slices.SortFunc(idx, func(a, b int) int { return cmp.Compare(x[a], x[b]) })
+	for s := 0; s < len(idx); {
+		e := s + 1
+		for e < len(idx) && x[idx[e]] == x[idx[s]] {
+			e++
+		}
+		g := idx[s:e]
+		if len(g) < 2 {
+			return &DataError{Index: g[0], Column: "x", Value: x[g[0]], Err: ErrNoRepeats,
+				Hint: "Weights from repeats need at least two readings at every x; add repeats here or choose another weighting."}
+		}
+		var mu float64
+		for _, i := range g {
+			mu += y[i]
+		}
+		mu /= float64(len(g))
+		var ss float64
+		for _, i := range g {
+			d := y[i] - mu
+			ss += d * d
+		}
+		v := ss / float64(len(g)-1)
+		if !(v > 0) {
+			return &DataError{Index: g[0], Column: "x", Value: x[g[0]], Err: ErrNoRepeats,
+				Hint: "The repeat readings at this x are identical, so their spread gives no weight; choose another weighting."}
+		}
+		for _, i := range g {
+			w[i] = 1 / v
+		}
+		s = e
+	}
+	return nil
+}
+
+// estimatePower regresses ln e² on ln|x| over the unweighted residuals.
+func estimatePower(x, y []float64, origin bool) (float64, error) {
+	f, err := fitLS(x, y, nil, origin)
+	if err != nil {
+		return 0, err
+	}
+	lx := make([]float64, 0, len(x))
+	le := make([]float64, 0, len(x))
+	for i, v := range x {
+		e := (y[i]*f.ky - f.a - f.b1*(v*f.kx-f.xc)) / f.ky
+		if v == 0 || e == 0 {
+			continue
+		}
+		lx = append(lx, math.Log(math.Abs(v)))
+		le = append(le, 2*math.Log(math.Abs(e)))
+	}
+	if len(lx) < 3 || allEqual(lx) {
+		return 0, fmt.Errorf("%w: the variance power cannot be estimated (needs at least 3 readings with x ≠ 0 at two or more x values)", ErrBadWeight)
+	}
+	g, err := fitLS(lx, le, nil, false)
+	if err != nil {
+		return 0, err
+	}
+	p := g.slope()
+	if !isFiniteNum(p) {
+		return 0, fmt.Errorf("%w: the variance power could not be estimated", ErrBadWeight)
+	}
+	return p, nil
+}
