@@ -1,0 +1,869 @@
+package session
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"crypto/subtle"
+	"encoding/binary"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"time"
+	"unicode/utf8"
+
+	"github.com/vmihailenco/msgpack/v5"
+	"github.com/vmihailenco/msgpack/v5/msgpcode"
+
+	"pairline/fitcore"
+)
+
+// The session file. docs/session-file.md is the full specification; in short:
+//
+//	offset  size  content
+//	0       8     Magic
+//	8       2     major format version, big-endian
+//	10      2     minor format version, big-endian
+//	12      8     body length n, big-endian
+//	20      n     body: a MessagePack map holding the sessions
+//	20+n    32    SHA-256 of bytes 0 … 20+n−1 (header and body)
+const (
+	// FileExtension is the file name extension of session files.
+	FileExtension = ".pairline"
+	// MediaType is the media type of session files.
+	MediaType = "application/vnd.pairline.session"
+	// FormatMajor and FormatMinor are the version this package writes. A
+	// new minor version only adds map keys that older readers may skip; a
+	// new major version changes what existing keys mean.
+	FormatMajor = 1
+	FormatMinor = 0
+
+	headerSize   = 20
+	checksumSize = sha256.Size
+	maxBodySize  = MaxFileSize - headerSize - checksumSize
+	maxDepth     = 32 // nesting allowed inside skipped (unknown) values
+	maxKeyLen    = 64
+)
+
+// Magic opens every session file: "PAIRLN", a NUL byte (so text tools treat
+// the file as binary) and 0xA7 (so a transfer that strips the 8th bit is
+// caught at once).
+var Magic = [8]byte{'P', 'A', 'I', 'R', 'L', 'N', 0x00, 0xA7}
+
+// The kinds of damage Decode reports. Every error Decode returns is a
+// *FormatError wrapping one of them; test with errors.Is.
+var (
+	ErrNotSessionFile = errors.New("this is not a Pairline session file")
+	ErrNewerVersion   = errors.New("the file was written by a newer version of Pairline; update Pairline to open it")
+	ErrChecksum       = errors.New("the file is damaged: its contents do not match the checksum stored in it")
+	ErrTruncated      = errors.New("the file is incomplete: it ends too early (was the copy or download cut short?)")
+	ErrTooLarge       = errors.New("the file is larger than Pairline accepts")
+	ErrInvalidField   = errors.New("the file holds a value Pairline cannot accept")
+)
+
+// FormatError is a problem with a session file: where (byte offset from the
+// start of the file, and the field's path such as "sessions[0].readings[3].x"
+// when known) and what (Err wraps one of the Err… sentinels).
+type FormatError struct {
+	Offset int64
+	Field  string
+	Err    error
+}
+
+func (e *FormatError) Error() string {
+	if e.Field != "" {
+		return fmt.Sprintf("%v (at byte %d, in %s)", e.Err, e.Offset, e.Field)
+	}
+	return fmt.Sprintf("%v (at byte %d)", e.Err, e.Offset)
+}
+
+func (e *FormatError) Unwrap() error { return e.Err }
+
+// File is a decoded session file.
+type File struct {
+	Major    int        `json:"major"`
+	Minor    int        `json:"minor"`
+	Sessions []*Session `json:"sessions"`
+	// Warnings are things the reader should know, such as a newer minor
+	// version whose extra details were skipped.
+	Warnings []string `json:"warnings"`
+	// Checksum is the SHA-256 stored in the file (lowercase hex); Decode
+	// returns a File only when the contents match it.
+	Checksum string `json:"checksum"`
+}
+
+// Encode writes sessions as one session file (format FormatMajor.FormatMinor).
+// It refuses to write what Decode would refuse: no sessions, more than
+// MaxSessions, a session that fails Validate, or a file larger than
+// MaxFileSize. The error then wraps ErrInvalidField or ErrTooLarge.
+func Encode(w io.Writer, sessions []*Session) error {
+	if len(sessions) == 0 {
+		return invalid("a session file holds at least one session")
+	}
+	if len(sessions) > MaxSessions {
+		return fmt.Errorf("%w: %d sessions, at most %d in one file", ErrTooLarge, len(sessions), MaxSessions)
+	}
+	seen := make(map[string]bool, len(sessions))
+	for i, s := range sessions {
+		if s == nil {
+			return fmt.Errorf("sessions[%d]: %w", i, invalid("the session is missing"))
+		}
+		if f, err := s.validate(); err != nil {
+			return fmt.Errorf("sessions[%d].%s: %w", i, f, err)
+		}
+		if seen[s.ID] {
+			return fmt.Errorf("sessions[%d].id: %w", i, invalid("two sessions share the ID %s", s.ID))
+		}
+		seen[s.ID] = true
+	}
+	var buf bytes.Buffer
+	buf.Write(make([]byte, headerSize))
+	e := msgpack.NewEncoder(&buf)
+	if err := encodeBundle(e, sessions); err != nil {
+		return err
+	}
+	n := buf.Len() - headerSize
+	if n > maxBodySize {
+		return fmt.Errorf("%w: the sessions need %d bytes, at most %d fit in one file", ErrTooLarge, n+headerSize+checksumSize, MaxFileSize)
+	}
+	b := buf.Bytes()
+	copy(b, Magic[:])
+	binary.BigEndian.PutUint16(b[8:], FormatMajor)
+	binary.BigEndian.PutUint16(b[10:], FormatMinor)
+	binary.BigEndian.PutUint64(b[12:], uint64(n))
+	sum := sha256.Sum256(b)
+	buf.Write(sum[:])
+	_, err := w.Write(buf.Bytes())
+	return err
+}
+
+// msgpack writes into a bytes.Buffer cannot fail, so the encoder's errors
+// are collected once at the end of each helper.
+type enc struct {
+	*msgpack.Encoder
+	err error
+}
+
+func (e *enc) str(key, v string) {
+	e.key(key)
+	e.keep(e.EncodeString(v))
+}
+func (e *enc) key(k string) { e.keep(e.EncodeString(k)) }
+func (e *enc) keep(err error) {
+	if e.err == nil {
+		e.err = err
+	}
+}
+func (e *enc) f64(key string, v float64) {
+	e.key(key)
+	e.keep(e.EncodeFloat64(v))
+}
+func (e *enc) optF64(key string, p *float64) {
+	e.key(key)
+	if p == nil {
+		e.keep(e.EncodeNil())
+		return
+	}
+	e.keep(e.EncodeFloat64(*p))
+}
+func (e *enc) boolean(key string, v bool) {
+	e.key(key)
+	e.keep(e.EncodeBool(v))
+}
+func (e *enc) tm(key string, t time.Time) {
+	e.key(key)
+	if t.IsZero() {
+		e.keep(e.EncodeNil())
+		return
+	}
+	e.keep(e.EncodeTime(t.UTC()))
+}
+func (e *enc) mapLen(n int) { e.keep(e.EncodeMapLen(n)) }
+
+func encodeBundle(me *msgpack.Encoder, sessions []*Session) error {
+	e := &enc{Encoder: me}
+	e.mapLen(2)
+	e.str("written_by", "pairline")
+	e.key("sessions")
+	e.keep(e.EncodeArrayLen(len(sessions)))
+	for _, s := range sessions {
+		encodeSession(e, s)
+	}
+	return e.err
+}
+
+func encodeSession(e *enc, s *Session) {
+	e.mapLen(17)
+	e.str("id", s.ID)
+	e.str("title", s.Title)
+	e.tm("created", s.Created)
+	e.tm("modified", s.Modified)
+	e.str("site", s.Site)
+	e.key("instrument")
+	e.mapLen(2)
+	e.str("description", s.Instrument.Description)
+	e.str("serial", s.Instrument.Serial)
+	e.str("operator", s.Operator)
+	e.str("x_name", s.XName)
+	e.str("x_unit", s.XUnit)
+	e.str("y_name", s.YName)
+	e.str("y_unit", s.YUnit)
+	e.str("notes", s.Notes)
+	e.key("decimal_comma")
+	if s.DecimalComma == nil {
+		e.keep(e.EncodeNil())
+	} else {
+		e.keep(e.EncodeBool(*s.DecimalComma))
+	}
+	e.key("location")
+	if l := s.Location; l == nil {
+		e.keep(e.EncodeNil())
+	} else {
+		e.mapLen(4)
+		e.f64("lat", l.Lat)
+		e.f64("lon", l.Lon)
+		e.f64("accuracy_m", l.AccuracyM)
+		e.tm("taken", l.Taken)
+	}
+	e.key("readings")
+	e.keep(e.EncodeArrayLen(len(s.Readings)))
+	for i := range s.Readings {
+		r := &s.Readings[i]
+		e.mapLen(6)
+		e.str("x", r.X)
+		e.str("y", r.Y)
+		e.str("note", r.Note)
+		e.tm("taken", r.Taken)
+		e.boolean("excluded", r.Excluded)
+		e.str("exclude_reason", r.ExcludeReason)
+	}
+	e.key("settings")
+	st := &s.Settings
+	e.mapLen(11)
+	e.str("model", string(st.Model))
+	e.str("transform", string(st.Transform))
+	e.optF64("box_cox_lambda", st.BoxCoxLambda)
+	e.str("weights", string(st.Weights))
+	e.f64("level", st.Level)
+	e.optF64("slope_ref", st.SlopeRef)
+	e.optF64("intercept_ref", st.InterceptRef)
+	e.f64("variance_ratio", st.VarianceRatio)
+	e.f64("x_uncertainty", st.XUncertainty)
+	e.f64("y_uncertainty", st.YUncertainty)
+	e.key("acceptance")
+	if a := st.Acceptance; a == nil {
+		e.keep(e.EncodeNil())
+	} else {
+		e.mapLen(7)
+		e.optF64("min_r_squared", a.MinRSquared)
+		e.optF64("slope_low", a.SlopeLow)
+		e.optF64("slope_high", a.SlopeHigh)
+		e.optF64("intercept_low", a.InterceptLow)
+		e.optF64("intercept_high", a.InterceptHigh)
+		e.optF64("max_residual", a.MaxResidual)
+		e.boolean("max_residual_percent_of_span", a.MaxResidualPercentOfSpan)
+	}
+	e.key("history")
+	e.keep(e.EncodeArrayLen(len(s.History)))
+	for i := range s.History {
+		h := &s.History[i]
+		e.mapLen(5)
+		e.tm("at", h.At)
+		e.str("field", h.Field)
+		e.key("row")
+		e.keep(e.EncodeInt(int64(h.Row)))
+		e.str("old", h.Old)
+		e.str("new", h.New)
+	}
+}
+
+// Decode reads one session file. It reads at most MaxFileSize bytes and
+// never allocates more than the bytes it has actually read could hold,
+// whatever the length fields claim. It checks, in order: the magic bytes, the
+// major version (newer: ErrNewerVersion; this package has no older major
+// version to migrate from), the body length, that the file is complete and
+// has nothing after the checksum, the SHA-256 checksum, and then every field
+// (finite numbers, bounded and valid UTF-8 text, times in MinTime … MaxTime,
+// counts within the Max… limits). A newer minor version is read, its unknown
+// keys skipped, and a warning added. Errors are *FormatError.
+func Decode(r io.Reader) (*File, error) {
+	var hdr [headerSize]byte
+	n, err := io.ReadFull(r, hdr[:])
+	if err != nil && !errors.Is(err, io.ErrUnexpectedEOF) && !errors.Is(err, io.EOF) {
+		return nil, &FormatError{Offset: int64(n), Err: fmt.Errorf("%w: the file could not be read: %v", ErrTruncated, err)}
+	}
+	m := min(n, len(Magic))
+	if !bytes.Equal(hdr[:m], Magic[:m]) {
+		return nil, &FormatError{Offset: 0, Err: notSessionFile(hdr[:n])}
+	}
+	if n == 0 {
+		return nil, &FormatError{Offset: 0, Err: fmt.Errorf("%w: the file is empty", ErrTruncated)}
+	}
+	if n < headerSize {
+		return nil, &FormatError{Offset: int64(n), Err: fmt.Errorf("%w: the file ends inside its %d-byte header", ErrTruncated, headerSize)}
+	}
+	major := int(binary.BigEndian.Uint16(hdr[8:]))
+	minor := int(binary.BigEndian.Uint16(hdr[10:]))
+	if major > FormatMajor {
+		return nil, &FormatError{Offset: 8, Field: "major version", Err: fmt.Errorf(
+			"%w (the file has format %d.%d; this Pairline reads format %d.x)", ErrNewerVersion, major, minor, FormatMajor)}
+	}
+	if major < 1 {
+		return nil, &FormatError{Offset: 8, Field: "major version", Err: invalid("format version %d.%d was never written by Pairline", major, minor)}
+	}
+	length := binary.BigEndian.Uint64(hdr[12:])
+	if length > maxBodySize {
+		return nil, &FormatError{Offset: 12, Field: "body length", Err: fmt.Errorf(
+			"%w: it claims %d bytes of contents, at most %d are allowed", ErrTooLarge, length, maxBodySize)}
+	}
+	want := int64(length) + checksumSize
+	var buf bytes.Buffer
+	buf.Grow(int(min(want, 64<<10)))
+	got, err := buf.ReadFrom(io.LimitReader(r, want))
+	if err != nil {
+		return nil, &FormatError{Offset: headerSize + got, Err: fmt.Errorf("%w: the file could not be read: %v", ErrTruncated, err)}
+	}
+	if got < want {
+		return nil, &FormatError{Offset: headerSize + got, Err: fmt.Errorf(
+			"%w: the file has %d bytes, its header says %d", ErrTruncated, headerSize+got, headerSize+want)}
+	}
+	var extra [1]byte
+	if k, _ := io.ReadFull(r, extra[:]); k > 0 {
+		return nil, &FormatError{Offset: headerSize + want, Err: invalid("there are extra bytes after the end of the file")}
+	}
+	rest := buf.Bytes()
+	body, stored := rest[:length], rest[length:]
+	h := sha256.New()
+	h.Write(hdr[:])
+	h.Write(body)
+	if subtle.ConstantTimeCompare(h.Sum(nil), stored) != 1 {
+		return nil, &FormatError{Offset: headerSize + int64(length), Field: "checksum", Err: ErrChecksum}
+	}
+	f := &File{Major: major, Minor: minor, Checksum: hex.EncodeToString(stored)}
+	d := newBodyDecoder(body)
+	sessions, starts, ferr := d.bundle()
+	if ferr != nil {
+		return nil, ferr
+	}
+	seen := make(map[string]bool, len(sessions))
+	for i, s := range sessions {
+		if field, err := s.validate(); err != nil {
+			return nil, &FormatError{Offset: starts[i], Field: fmt.Sprintf("sessions[%d].%s", i, field), Err: err}
+		}
+		if seen[s.ID] {
+			return nil, &FormatError{Offset: starts[i], Field: fmt.Sprintf("sessions[%d].id", i), Err: invalid("two sessions share the ID %s", s.ID)}
+		}
+		seen[s.ID] = true
+	}
+	f.Sessions = sessions
+	if minor > FormatMinor {
+		f.Warnings = append(f.Warnings, fmt.Sprintf(
+			"The file was written by a newer Pairline (format %d.%d; this one knows %d.%d). "+
+				"Everything this version knows was read; newer details were skipped and are lost if you save from here.",
+			major, minor, FormatMajor, FormatMinor))
+	}
+	migrate(f)
+	return f, nil
+}
+
+// migrate brings sessions read from an older minor version up to date.
+// Format 1.0 is the first version, so there is nothing to do yet; a future
+// 1.1 reader fills in here what 1.0 files lack.
+func migrate(f *File) {}
+
+func notSessionFile(b []byte) error {
+	text := len(b) > 0
+	for _, c := range b {
+		if c < 0x09 || (c > 0x0d && c < 0x20) {
+			text = false
+		}
+	}
+	if text && utf8.Valid(b[:max(0, len(b)-utf8.UTFMax)]) {
+		return fmt.Errorf("%w: it starts with text (perhaps a CSV file: import it instead of opening it)", ErrNotSessionFile)
+	}
+	return ErrNotSessionFile
+}
+
+// bodyDecoder reads the MessagePack body field by field. It does not use
+// msgpack's reflection decoding, because that pre-allocates slices from the
+// length a hostile file claims; here every length is checked against the
+// bytes left before anything is allocated.
+type bodyDecoder struct {
+	d    *msgpack.Decoder
+	r    *bytes.Reader
+	size int64
+}
+
+func newBodyDecoder(body []byte) *bodyDecoder {
+	r := bytes.NewReader(body)
+	return &bodyDecoder{d: msgpack.NewDecoder(r), r: r, size: int64(len(body))}
+}
+
+// off is the file offset of the next unread byte.
+func (b *bodyDecoder) off() int64 { return headerSize + b.size - int64(b.r.Len()) }
+
+func (b *bodyDecoder) fail(off int64, field string, err error) *FormatError {
+	return &FormatError{Offset: off, Field: field, Err: err}
+}
+
+// wrap turns a msgpack error into an invalid-field error.
+func (b *bodyDecoder) wrap(off int64, field, want string, err error) *FormatError {
+	if errors.Is(err, io.EOF) || errors.Is(err, io.ErrUnexpectedEOF) {
+		return b.fail(off, field, invalid("the contents end in the middle of %s", want))
+	}
+	return b.fail(off, field, invalid("expected %s", want))
+}
+
+func (b *bodyDecoder) isNil() bool {
+	c, err := b.d.PeekCode()
+	return err == nil && c == msgpcode.Nil
+}
+
+// mapEach reads a map with string keys, calling fn for each key; duplicate
+// keys are refused (two values for one field would be ambiguous evidence).
+func (b *bodyDecoder) mapEach(field string, fn func(key, path string) *FormatError) *FormatError {
+	off := b.off()
+	n, err := b.d.DecodeMapLen()
+	if err != nil || n < 0 {
+		return b.wrap(off, field, "a map", err)
+	}
+	if int64(n)*2 > int64(b.r.Len()) {
+		return b.fail(off, field, invalid("the map claims %d entries but only %d bytes are left", n, b.r.Len()))
+	}
+	var seen []string
+	for i := 0; i < n; i++ {
+		koff := b.off()
+		k, err := b.d.DecodeString()
+		if err != nil {
+			return b.wrap(koff, field, "a field name", err)
+		}
+		if len(k) > maxKeyLen || !utf8.ValidString(k) {
+			return b.fail(koff, field, invalid("a field name is longer than %d bytes or not valid UTF-8", maxKeyLen))
+		}
+		for _, s := range seen {
+			if s == k {
+				return b.fail(koff, join(field, k), invalid("the field appears twice"))
+			}
+		}
+		seen = append(seen, k)
+		if ferr := fn(k, join(field, k)); ferr != nil {
+			return ferr
+		}
+	}
+	return nil
+}
+
+func join(field, key string) string {
+	if field == "" {
+		return key
+	}
+	return field + "." + key
+}
+
+// arrayLen reads an array header, refusing more than max elements or more
+// than the bytes left could hold (each element takes at least one byte).
+// nil reads as an empty array.
+func (b *bodyDecoder) arrayLen(field string, max int) (int, *FormatError) {
+	off := b.off()
+	if b.isNil() {
+		_ = b.d.DecodeNil()
+		return 0, nil
+	}
+	n, err := b.d.DecodeArrayLen()
+	if err != nil {
+		return 0, b.wrap(off, field, "a list", err)
+	}
+	if n > max {
+		return 0, b.fail(off, field, fmt.Errorf("%w: the list has %d entries, at most %d are allowed", ErrTooLarge, n, max))
+	}
+	if int64(n) > int64(b.r.Len()) {
+		return 0, b.fail(off, field, invalid("the list claims %d entries but only %d bytes are left", n, b.r.Len()))
+	}
+	return n, nil
+}
+
+func (b *bodyDecoder) str(field string, max int, p *string) *FormatError {
+	off := b.off()
+	n, err := b.d.PeekCode()
+	if err != nil || !msgpcode.IsString(n) {
+		return b.wrap(off, field, "text", err)
+	}
+	s, err := b.d.DecodeString()
+	if err != nil {
+		return b.wrap(off, field, "text", err)
+	}
+	if len(s) > max {
+		return b.fail(off, field, invalid("the text is longer than %d bytes (%d)", max, len(s)))
+	}
+	if !utf8.ValidString(s) {
+		return b.fail(off, field, invalid("the text is not valid UTF-8"))
+	}
+	*p = s
+	return nil
+}
+
+func (b *bodyDecoder) f64(field string, p *float64) *FormatError {
+	off := b.off()
+	v, err := b.d.DecodeFloat64()
+	if err != nil {
+		return b.wrap(off, field, "a number", err)
+	}
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return b.fail(off, field, invalid("the number is not finite (%v)", v))
+	}
+	*p = v
+	return nil
+}
+
+func (b *bodyDecoder) optF64(field string, p **float64) *FormatError {
+	if b.isNil() {
+		_ = b.d.DecodeNil()
+		*p = nil
+		return nil
+	}
+	var v float64
+	if ferr := b.f64(field, &v); ferr != nil {
+		return ferr
+	}
+	*p = &v
+	return nil
+}
+
+func (b *bodyDecoder) boolean(field string, p *bool) *FormatError {
+	off := b.off()
+	v, err := b.d.DecodeBool()
+	if err != nil {
+		return b.wrap(off, field, "true or false", err)
+	}
+	*p = v
+	return nil
+}
+
+// tm reads a MessagePack timestamp (extension type −1, 4, 8 or 12 bytes) or
+// nil (the zero time). Only this form is accepted.
+func (b *bodyDecoder) tm(field string, p *time.Time) *FormatError {
+	off := b.off()
+	if b.isNil() {
+		_ = b.d.DecodeNil()
+		*p = time.Time{}
+		return nil
+	}
+	id, n, err := b.d.DecodeExtHeader()
+	if err != nil || id != -1 || (n != 4 && n != 8 && n != 12) {
+		return b.wrap(off, field, "a time", err)
+	}
+	var raw [12]byte
+	if err := b.d.ReadFull(raw[:n]); err != nil {
+		return b.wrap(off, field, "a time", err)
+	}
+	var sec int64
+	var nsec uint32
+	switch n {
+	case 4:
+		sec = int64(binary.BigEndian.Uint32(raw[:4]))
+	case 8:
+		v := binary.BigEndian.Uint64(raw[:8])
+		nsec, sec = uint32(v>>34), int64(v&(1<<34-1))
+	case 12:
+		nsec, sec = binary.BigEndian.Uint32(raw[:4]), int64(binary.BigEndian.Uint64(raw[4:12]))
+	}
+	if nsec >= 1e9 {
+		return b.fail(off, field, invalid("the time has %d nanoseconds", nsec))
+	}
+	if sec < MinTime.Unix() || sec >= MaxTime.Unix() {
+		return b.fail(off, field, invalid("the time is outside %d–%d", MinTime.Year(), MaxTime.Year()-1))
+	}
+	*p = time.Unix(sec, int64(nsec)).UTC()
+	return nil
+}
+
+func (b *bodyDecoder) integer(field string, lo, hi int64, p *int) *FormatError {
+	off := b.off()
+	v, err := b.d.DecodeInt64()
+	if err != nil {
+		return b.wrap(off, field, "a whole number", err)
+	}
+	if v < lo || v > hi {
+		return b.fail(off, field, invalid("%d is outside %d … %d", v, lo, hi))
+	}
+	*p = int(v)
+	return nil
+}
+
+// skip passes over a value of an unknown key, with bounded nesting (the
+// library's own Skip recurses without a limit).
+func (b *bodyDecoder) skip(field string, depth int) *FormatError {
+	off := b.off()
+	c, err := b.d.PeekCode()
+	if err != nil {
+		return b.wrap(off, field, "a value", err)
+	}
+	isMap := msgpcode.IsFixedMap(c) || c == msgpcode.Map16 || c == msgpcode.Map32
+	isArr := msgpcode.IsFixedArray(c) || c == msgpcode.Array16 || c == msgpcode.Array32
+	if !isMap && !isArr {
+		if err := b.d.Skip(); err != nil {
+			return b.wrap(off, field, "a value", err)
+		}
+		return nil
+	}
+	if depth >= maxDepth {
+		return b.fail(off, field, invalid("values are nested more than %d deep", maxDepth))
+	}
+	var n int
+	if isMap {
+		n, err = b.d.DecodeMapLen()
+		n *= 2
+	} else {
+		n, err = b.d.DecodeArrayLen()
+	}
+	if err != nil {
+		return b.wrap(off, field, "a value", err)
+	}
+	if int64(n) > int64(b.r.Len()) {
+		return b.fail(off, field, invalid("a value claims %d entries but only %d bytes are left", n, b.r.Len()))
+	}
+	for i := 0; i < n; i++ {
+		if ferr := b.skip(field, depth+1); ferr != nil {
+			return ferr
+		}
+	}
+	return nil
+}
+
+func (b *bodyDecoder) bundle() ([]*Session, []int64, *FormatError) {
+	var sessions []*Session
+	var starts []int64
+	var have bool
+	ferr := b.mapEach("", func(k, path string) *FormatError {
+		switch k {
+		case "sessions":
+			have = true
+			n, ferr := b.arrayLen(path, MaxSessions)
+			if ferr != nil {
+				return ferr
+			}
+			sessions = make([]*Session, n)
+			starts = make([]int64, n)
+			for i := range sessions {
+				starts[i] = b.off()
+				sessions[i] = new(Session)
+				if ferr := b.session(fmt.Sprintf("sessions[%d]", i), sessions[i]); ferr != nil {
+					return ferr
+				}
+			}
+			return nil
+		case "written_by":
+			var s string
+			return b.str(path, MaxShortText, &s)
+		}
+		return b.skip(path, 0)
+	})
+	if ferr != nil {
+		return nil, nil, ferr
+	}
+	if b.r.Len() > 0 {
+		return nil, nil, b.fail(b.off(), "", invalid("there are %d bytes after the contents", b.r.Len()))
+	}
+	if !have || len(sessions) == 0 {
+		return nil, nil, b.fail(headerSize, "sessions", invalid("the file holds no sessions"))
+	}
+	return sessions, starts, nil
+}
+
+func (b *bodyDecoder) session(field string, s *Session) *FormatError {
+	return b.mapEach(field, func(k, path string) *FormatError {
+		switch k {
+		case "id":
+			return b.str(path, 32, &s.ID)
+		case "title":
+			return b.str(path, MaxShortText, &s.Title)
+		case "created":
+			return b.tm(path, &s.Created)
+		case "modified":
+			return b.tm(path, &s.Modified)
+		case "site":
+			return b.str(path, MaxShortText, &s.Site)
+		case "instrument":
+			return b.mapEach(path, func(k, p string) *FormatError {
+				switch k {
+				case "description":
+					return b.str(p, MaxShortText, &s.Instrument.Description)
+				case "serial":
+					return b.str(p, MaxShortText, &s.Instrument.Serial)
+				}
+				return b.skip(p, 0)
+			})
+		case "operator":
+			return b.str(path, MaxShortText, &s.Operator)
+		case "x_name":
+			return b.str(path, MaxShortText, &s.XName)
+		case "x_unit":
+			return b.str(path, MaxShortText, &s.XUnit)
+		case "y_name":
+			return b.str(path, MaxShortText, &s.YName)
+		case "y_unit":
+			return b.str(path, MaxShortText, &s.YUnit)
+		case "notes":
+			return b.str(path, MaxLongText, &s.Notes)
+		case "decimal_comma":
+			if b.isNil() {
+				_ = b.d.DecodeNil()
+				s.DecimalComma = nil
+				return nil
+			}
+			var v bool
+			if ferr := b.boolean(path, &v); ferr != nil {
+				return ferr
+			}
+			s.DecimalComma = &v
+			return nil
+		case "location":
+			if b.isNil() {
+				_ = b.d.DecodeNil()
+				s.Location = nil
+				return nil
+			}
+			l := new(Location)
+			s.Location = l
+			return b.mapEach(path, func(k, p string) *FormatError {
+				switch k {
+				case "lat":
+					return b.f64(p, &l.Lat)
+				case "lon":
+					return b.f64(p, &l.Lon)
+				case "accuracy_m":
+					return b.f64(p, &l.AccuracyM)
+				case "taken":
+					return b.tm(p, &l.Taken)
+				}
+				return b.skip(p, 0)
+			})
+		case "readings":
+			n, ferr := b.arrayLen(path, MaxReadings)
+			if ferr != nil {
+				return ferr
+			}
+			s.Readings = make([]Reading, n)
+			for i := range s.Readings {
+				if ferr := b.reading(fmt.Sprintf("%s[%d]", path, i), &s.Readings[i]); ferr != nil {
+					return ferr
+				}
+			}
+			return nil
+		case "settings":
+			return b.settings(path, &s.Settings)
+		case "history":
+			n, ferr := b.arrayLen(path, MaxHistory)
+			if ferr != nil {
+				return ferr
+			}
+			s.History = make([]Edit, n)
+			for i := range s.History {
+				if ferr := b.edit(fmt.Sprintf("%s[%d]", path, i), &s.History[i]); ferr != nil {
+					return ferr
+				}
+			}
+			return nil
+		}
+		return b.skip(path, 0)
+	})
+}
+
+func (b *bodyDecoder) reading(field string, r *Reading) *FormatError {
+	return b.mapEach(field, func(k, p string) *FormatError {
+		switch k {
+		case "x":
+			return b.str(p, MaxCellText, &r.X)
+		case "y":
+			return b.str(p, MaxCellText, &r.Y)
+		case "note":
+			return b.str(p, MaxNoteText, &r.Note)
+		case "taken":
+			return b.tm(p, &r.Taken)
+		case "excluded":
+			return b.boolean(p, &r.Excluded)
+		case "exclude_reason":
+			return b.str(p, MaxShortText, &r.ExcludeReason)
+		}
+		return b.skip(p, 0)
+	})
+}
+
+func (b *bodyDecoder) edit(field string, e *Edit) *FormatError {
+	return b.mapEach(field, func(k, p string) *FormatError {
+		switch k {
+		case "at":
+			return b.tm(p, &e.At)
+		case "field":
+			return b.str(p, MaxFieldName, &e.Field)
+		case "row":
+			return b.integer(p, -1, MaxReadings, &e.Row)
+		case "old":
+			return b.str(p, MaxLongText, &e.Old)
+		case "new":
+			return b.str(p, MaxLongText, &e.New)
+		}
+		return b.skip(p, 0)
+	})
+}
+
+func (b *bodyDecoder) settings(field string, st *Settings) *FormatError {
+	var model, transform, weights string
+	ferr := b.mapEach(field, func(k, p string) *FormatError {
+		switch k {
+		case "model":
+			return b.str(p, maxKeyLen, &model)
+		case "transform":
+			return b.str(p, maxKeyLen, &transform)
+		case "box_cox_lambda":
+			return b.optF64(p, &st.BoxCoxLambda)
+		case "weights":
+			return b.str(p, maxKeyLen, &weights)
+		case "level":
+			return b.f64(p, &st.Level)
+		case "slope_ref":
+			return b.optF64(p, &st.SlopeRef)
+		case "intercept_ref":
+			return b.optF64(p, &st.InterceptRef)
+		case "variance_ratio":
+			return b.f64(p, &st.VarianceRatio)
+		case "x_uncertainty":
+			return b.f64(p, &st.XUncertainty)
+		case "y_uncertainty":
+			return b.f64(p, &st.YUncertainty)
+		case "acceptance":
+			if b.isNil() {
+				_ = b.d.DecodeNil()
+				st.Acceptance = nil
+				return nil
+			}
+			a := new(fitcore.Criteria)
+			st.Acceptance = a
+			return b.mapEach(p, func(k, q string) *FormatError {
+				switch k {
+				case "min_r_squared":
+					return b.optF64(q, &a.MinRSquared)
+				case "slope_low":
+					return b.optF64(q, &a.SlopeLow)
+				case "slope_high":
+					return b.optF64(q, &a.SlopeHigh)
+				case "intercept_low":
+					return b.optF64(q, &a.InterceptLow)
+				case "intercept_high":
+					return b.optF64(q, &a.InterceptHigh)
+				case "max_residual":
+					return b.optF64(q, &a.MaxResidual)
+				case "max_residual_percent_of_span":
+					return b.boolean(q, &a.MaxResidualPercentOfSpan)
+				}
+				return b.skip(q, 0)
+			})
+		}
+		return b.skip(p, 0)
+	})
+	st.Model = fitcore.Model(model)
+	st.Transform = fitcore.Transform(transform)
+	st.Weights = fitcore.WeightScheme(weights)
+	return ferr
+}

@@ -1,0 +1,516 @@
+// Package session holds Pairline's session record (one set of paired
+// readings with its metadata, fit settings and edit history), the parser for
+// numbers as technicians type them, the .pairline file codec and CSV/TSV
+// import and export.
+//
+// The package is pure Go: no syscall/js, no UI code and no I/O beyond the
+// io.Reader and io.Writer it is handed, so the browser build and the native
+// `pairline` command read and write exactly the same files.
+//
+// A session is evidence. Cells keep the text as typed (an invalid cell is
+// kept and shown, never silently dropped), excluding a reading keeps it with
+// its reason, and every change made through the methods appends an [Edit] to
+// the history.
+package session
+
+import (
+	"crypto/rand"
+	"encoding/hex"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"strconv"
+	"time"
+
+	"pairline/fitcore"
+)
+
+// Session is one record of paired readings: for example a calibration of one
+// instrument against a set of standards, or gauge height against flow at one
+// site. Change it through its methods so that History stays complete; the
+// fields are exported so that the codec, the UI and tests can read them.
+type Session struct {
+	ID         string     `json:"id"` // 32 lowercase hex digits (128 random bits)
+	Title      string     `json:"title"`
+	Created    time.Time  `json:"created"`  // UTC
+	Modified   time.Time  `json:"modified"` // UTC; time of the last change
+	Site       string     `json:"site"`
+	Instrument Instrument `json:"instrument"`
+	Operator   string     `json:"operator"`
+	XName      string     `json:"x_name"`
+	XUnit      string     `json:"x_unit"`
+	YName      string     `json:"y_name"`
+	YUnit      string     `json:"y_unit"`
+	Notes      string     `json:"notes"`
+	// DecimalComma says how a cell like "1,234" (a comma followed by exactly
+	// three digits, the one case ParseNumber cannot decide alone) is read:
+	// nil = not decided, the cell is reported as a problem; true = decimal
+	// comma (1.234); false = thousands separator (1234). See ParseNumberHint.
+	DecimalComma *bool     `json:"decimal_comma"`
+	Location     *Location `json:"location"`
+	Readings     []Reading `json:"readings"`
+	Settings     Settings  `json:"settings"`
+	History      []Edit    `json:"history"` // append-only
+}
+
+// Instrument identifies the instrument whose readings are recorded.
+type Instrument struct {
+	Description string `json:"description"`
+	Serial      string `json:"serial"`
+}
+
+// Location is where the readings were taken, as reported by the device.
+type Location struct {
+	Lat       float64   `json:"lat"`        // degrees, WGS 84, −90 … 90
+	Lon       float64   `json:"lon"`        // degrees, WGS 84, −180 … 180
+	AccuracyM float64   `json:"accuracy_m"` // radius in metres; 0 = unknown
+	Taken     time.Time `json:"taken"`      // UTC; zero = unknown
+}
+
+// Reading is one pair. X and Y hold the text as typed, so that a cell that
+// is not a number is kept and shown; Pairs parses them.
+type Reading struct {
+	X             string    `json:"x"`
+	Y             string    `json:"y"`
+	Note          string    `json:"note"`
+	Taken         time.Time `json:"taken"` // UTC; zero = not recorded
+	Excluded      bool      `json:"excluded"`
+	ExcludeReason string    `json:"exclude_reason"`
+}
+
+// Settings are the fit settings stored with a session. They map one to one
+// onto fitcore.Options (see Options); a nil pointer means fitcore's default.
+type Settings struct {
+	Model         fitcore.Model        `json:"model"`
+	Transform     fitcore.Transform    `json:"transform"`
+	BoxCoxLambda  *float64             `json:"box_cox_lambda"`
+	Weights       fitcore.WeightScheme `json:"weights"`
+	Level         float64              `json:"level"` // 0 < Level < 1; 0 = 0.95
+	SlopeRef      *float64             `json:"slope_ref"`
+	InterceptRef  *float64             `json:"intercept_ref"`
+	VarianceRatio float64              `json:"variance_ratio"`
+	XUncertainty  float64              `json:"x_uncertainty"`
+	YUncertainty  float64              `json:"y_uncertainty"`
+	Acceptance    *fitcore.Criteria    `json:"acceptance"`
+}
+
+// Edit is one entry of a session's history. Row is the reading's index (from
+// 0) or −1 when the edit is not about a row. Old and New are the values as
+// text.
+type Edit struct {
+	At    time.Time `json:"at"`
+	Field string    `json:"field"`
+	Row   int       `json:"row"`
+	Old   string    `json:"old"`
+	New   string    `json:"new"`
+}
+
+// Column names a cell of a reading.
+type Column int
+
+// The columns of a reading.
+const (
+	ColumnX Column = iota
+	ColumnY
+	ColumnNote
+)
+
+// String returns "x", "y" or "note", the names used in the history.
+func (c Column) String() string {
+	switch c {
+	case ColumnX:
+		return "x"
+	case ColumnY:
+		return "y"
+	case ColumnNote:
+		return "note"
+	}
+	return "column(" + strconv.Itoa(int(c)) + ")"
+}
+
+// CellProblem is a cell that could not be used as a number.
+type CellProblem struct {
+	Row    int    `json:"row"` // reading index from 0 (for CSV results: see ParsedPairs)
+	Column Column `json:"column"`
+	Text   string `json:"text"`
+	Reason string `json:"reason"` // e.g. "is not a number"; follows the quoted text
+}
+
+// String is the sentence shown to the technician, with rows counted from 1.
+func (p CellProblem) String() string {
+	return fmt.Sprintf("row %d, %s: %q %s", p.Row+1, p.Column, p.Text, p.Reason)
+}
+
+// Errors returned by the editing methods.
+var (
+	ErrNoSuchRow   = errors.New("there is no such row")
+	ErrNoSuchField = errors.New("there is no such field")
+	ErrBadValue    = errors.New("the value is not allowed")
+)
+
+// Names accepted by SetField.
+const (
+	FieldTitle        = "title"
+	FieldSite         = "site"
+	FieldInstrument   = "instrument"
+	FieldSerial       = "serial"
+	FieldOperator     = "operator"
+	FieldXName        = "x_name"
+	FieldXUnit        = "x_unit"
+	FieldYName        = "y_name"
+	FieldYUnit        = "y_unit"
+	FieldNotes        = "notes"
+	FieldDecimalComma = "decimal_comma" // "true", "false" or "" (undecided)
+)
+
+// DefaultSettings are the settings of a new session: an unweighted ordinary
+// least-squares line at the 95 % level, slope tested against 1 and intercept
+// against 0 (fitcore's defaults, written out).
+func DefaultSettings() Settings {
+	return Settings{Model: fitcore.ModelOLS, Transform: fitcore.TransformNone, Level: 0.95}
+}
+
+// NewID returns a new session ID: 128 bits from random (crypto/rand.Reader
+// when random is nil) as 32 lowercase hex digits.
+func NewID(random io.Reader) (string, error) {
+	if random == nil {
+		random = rand.Reader
+	}
+	var b [16]byte
+	if _, err := io.ReadFull(random, b[:]); err != nil {
+		return "", fmt.Errorf("could not make a session ID: the random source failed: %w", err)
+	}
+	return hex.EncodeToString(b[:]), nil
+}
+
+// New returns an empty session with a fresh ID, the given title, Created and
+// Modified set to now (in UTC) and DefaultSettings. random may be nil
+// (crypto/rand). Creating a session is not an edit, so History starts empty.
+func New(title string, now time.Time, random io.Reader) (*Session, error) {
+	id, err := NewID(random)
+	if err != nil {
+		return nil, err
+	}
+	now = now.UTC()
+	return &Session{ID: id, Title: title, Created: now, Modified: now, Settings: DefaultSettings()}, nil
+}
+
+func (s *Session) record(now time.Time, field string, row int, old, new string) {
+	now = now.UTC()
+	s.History = append(s.History, Edit{At: now, Field: field, Row: row, Old: old, New: new})
+	s.Modified = now
+}
+
+// AddRow appends a reading with the given cell texts and returns its index.
+// The history gets a "row" edit and one edit per non-empty cell.
+func (s *Session) AddRow(x, y string, now time.Time) int {
+	i := len(s.Readings)
+	s.Readings = append(s.Readings, Reading{Taken: now.UTC()})
+	s.record(now, "row", i, "", "added")
+	if x != "" {
+		s.Readings[i].X = x
+		s.record(now, ColumnX.String(), i, "", x)
+	}
+	if y != "" {
+		s.Readings[i].Y = y
+		s.record(now, ColumnY.String(), i, "", y)
+	}
+	return i
+}
+
+// SetCell sets the text of one cell. Setting the text it already has changes
+// nothing and records nothing.
+func (s *Session) SetCell(row int, col Column, text string, now time.Time) error {
+	if row < 0 || row >= len(s.Readings) {
+		return fmt.Errorf("%w: row %d (the session has %d rows)", ErrNoSuchRow, row+1, len(s.Readings))
+	}
+	r := &s.Readings[row]
+	var p *string
+	switch col {
+	case ColumnX:
+		p = &r.X
+	case ColumnY:
+		p = &r.Y
+	case ColumnNote:
+		p = &r.Note
+	default:
+		return fmt.Errorf("%w: %s", ErrNoSuchField, col)
+	}
+	if *p == text {
+		return nil
+	}
+	old := *p
+	*p = text
+	s.record(now, col.String(), row, old, text)
+	return nil
+}
+
+// Exclude leaves a reading out of the fit. The reading and its cells stay;
+// the reason is kept and shown. A reason is required: a calibration record
+// has to say why a point was left out. Excluding an excluded reading with a
+// new reason replaces the reason (and records it).
+func (s *Session) Exclude(row int, reason string, now time.Time) error {
+	if row < 0 || row >= len(s.Readings) {
+		return fmt.Errorf("%w: row %d (the session has %d rows)", ErrNoSuchRow, row+1, len(s.Readings))
+	}
+	if reason == "" {
+		return fmt.Errorf("%w: give a reason for leaving out row %d", ErrBadValue, row+1)
+	}
+	r := &s.Readings[row]
+	if !r.Excluded {
+		r.Excluded = true
+		s.record(now, "excluded", row, "false", "true")
+	}
+	if r.ExcludeReason != reason {
+		old := r.ExcludeReason
+		r.ExcludeReason = reason
+		s.record(now, "exclude_reason", row, old, reason)
+	}
+	return nil
+}
+
+// Include puts an excluded reading back into the fit and clears its reason
+// (the old reason stays in the history).
+func (s *Session) Include(row int, now time.Time) error {
+	if row < 0 || row >= len(s.Readings) {
+		return fmt.Errorf("%w: row %d (the session has %d rows)", ErrNoSuchRow, row+1, len(s.Readings))
+	}
+	r := &s.Readings[row]
+	if !r.Excluded {
+		return nil
+	}
+	r.Excluded = false
+	s.record(now, "excluded", row, "true", "false")
+	if r.ExcludeReason != "" {
+		old := r.ExcludeReason
+		r.ExcludeReason = ""
+		s.record(now, "exclude_reason", row, old, "")
+	}
+	return nil
+}
+
+// SetField sets one metadata field by name (the Field… constants). Setting
+// the value it already has records nothing.
+func (s *Session) SetField(name, value string, now time.Time) error {
+	if name == FieldDecimalComma {
+		var nv *bool
+		switch value {
+		case "":
+		case "true", "false":
+			b := value == "true"
+			nv = &b
+		default:
+			return fmt.Errorf("%w: decimal_comma must be \"true\", \"false\" or empty, not %q", ErrBadValue, value)
+		}
+		old := boolPtrText(s.DecimalComma)
+		if old == value {
+			return nil
+		}
+		s.DecimalComma = nv
+		s.record(now, name, -1, old, value)
+		return nil
+	}
+	var p *string
+	switch name {
+	case FieldTitle:
+		p = &s.Title
+	case FieldSite:
+		p = &s.Site
+	case FieldInstrument:
+		p = &s.Instrument.Description
+	case FieldSerial:
+		p = &s.Instrument.Serial
+	case FieldOperator:
+		p = &s.Operator
+	case FieldXName:
+		p = &s.XName
+	case FieldXUnit:
+		p = &s.XUnit
+	case FieldYName:
+		p = &s.YName
+	case FieldYUnit:
+		p = &s.YUnit
+	case FieldNotes:
+		p = &s.Notes
+	default:
+		return fmt.Errorf("%w: %q", ErrNoSuchField, name)
+	}
+	if *p == value {
+		return nil
+	}
+	old := *p
+	*p = value
+	s.record(now, name, -1, old, value)
+	return nil
+}
+
+func boolPtrText(b *bool) string {
+	if b == nil {
+		return ""
+	}
+	return strconv.FormatBool(*b)
+}
+
+// SetLocation sets (or, with nil, clears) where the readings were taken.
+func (s *Session) SetLocation(loc *Location, now time.Time) error {
+	if loc != nil {
+		if f, err := loc.validate(); err != nil {
+			return fmt.Errorf("%w: location %s %v", ErrBadValue, f, err)
+		}
+		c := *loc
+		c.Taken = c.Taken.UTC()
+		loc = &c
+	}
+	old, new := loc0Text(s.Location), loc0Text(loc)
+	if old == new {
+		return nil
+	}
+	s.Location = loc
+	s.record(now, "location", -1, old, new)
+	return nil
+}
+
+func loc0Text(l *Location) string {
+	if l == nil {
+		return ""
+	}
+	b, _ := json.Marshal(l)
+	return string(b)
+}
+
+// SetSettings replaces the fit settings. The history records old and new
+// settings as JSON. Settings with values fitcore would refuse (a level
+// outside (0, 1), a negative uncertainty, a model it does not know, …) are
+// refused here.
+func (s *Session) SetSettings(st Settings, now time.Time) error {
+	if f, err := st.validate(); err != nil {
+		return fmt.Errorf("%w: settings %s %v", ErrBadValue, f, err)
+	}
+	st = st.clone()
+	old, new := settingsText(s.Settings), settingsText(st)
+	if old == new {
+		return nil
+	}
+	s.Settings = st
+	s.record(now, "settings", -1, old, new)
+	return nil
+}
+
+func settingsText(st Settings) string {
+	b, _ := json.Marshal(st)
+	return string(b)
+}
+
+func copyFloat(p *float64) *float64 {
+	if p == nil {
+		return nil
+	}
+	v := *p
+	return &v
+}
+
+func (st Settings) clone() Settings {
+	c := st
+	c.BoxCoxLambda = copyFloat(st.BoxCoxLambda)
+	c.SlopeRef = copyFloat(st.SlopeRef)
+	c.InterceptRef = copyFloat(st.InterceptRef)
+	if st.Acceptance != nil {
+		a := *st.Acceptance
+		a.MinRSquared = copyFloat(a.MinRSquared)
+		a.SlopeLow = copyFloat(a.SlopeLow)
+		a.SlopeHigh = copyFloat(a.SlopeHigh)
+		a.InterceptLow = copyFloat(a.InterceptLow)
+		a.InterceptHigh = copyFloat(a.InterceptHigh)
+		a.MaxResidual = copyFloat(a.MaxResidual)
+		c.Acceptance = &a
+	}
+	return c
+}
+
+// Options converts the settings to the options of fitcore.Analyze. Pointer
+// fields are copied, so changing the options later does not change the
+// session. The session holds no per-reading weights, so WeightsGiven is
+// passed on without GivenWeights (fitcore then reports the missing weights).
+func (st Settings) Options() fitcore.Options {
+	c := st.clone()
+	return fitcore.Options{
+		Model:         c.Model,
+		Transform:     c.Transform,
+		BoxCoxLambda:  c.BoxCoxLambda,
+		Weights:       c.Weights,
+		Level:         c.Level,
+		SlopeRef:      c.SlopeRef,
+		InterceptRef:  c.InterceptRef,
+		VarianceRatio: c.VarianceRatio,
+		XUncertainty:  c.XUncertainty,
+		YUncertainty:  c.YUncertainty,
+		Acceptance:    c.Acceptance,
+	}
+}
+
+// Pairs parses the cells with ParseNumberHint (using DecimalComma when set,
+// ParseNumber otherwise) and returns the usable pairs: readings that are not
+// excluded and whose x and y cells are both numbers, with their row indexes.
+// Every cell of a non-excluded reading that is not a number gives a
+// CellProblem. A reading with both cells empty is an unfinished row, not a
+// problem, and is skipped silently; one empty cell beside a filled one is a
+// problem ("is empty"). Excluded readings are neither used nor checked.
+func (s *Session) Pairs() (x, y []float64, rows []int, problems []CellProblem) {
+	parse := ParseNumber
+	if s.DecimalComma != nil {
+		dc := *s.DecimalComma
+		parse = func(t string) (float64, error) { return ParseNumberHint(t, dc) }
+	}
+	for i, r := range s.Readings {
+		if r.Excluded || (isBlank(r.X) && isBlank(r.Y)) {
+			continue
+		}
+		xv, xerr := parse(r.X)
+		yv, yerr := parse(r.Y)
+		if xerr != nil {
+			problems = append(problems, CellProblem{Row: i, Column: ColumnX, Text: r.X, Reason: reasonOf(xerr)})
+		}
+		if yerr != nil {
+			problems = append(problems, CellProblem{Row: i, Column: ColumnY, Text: r.Y, Reason: reasonOf(yerr)})
+		}
+		if xerr == nil && yerr == nil {
+			x = append(x, xv)
+			y = append(y, yv)
+			rows = append(rows, i)
+		}
+	}
+	return x, y, rows, problems
+}
+
+func reasonOf(err error) string {
+	var ne *NumberError
+	if errors.As(err, &ne) {
+		return ne.Reason
+	}
+	return err.Error()
+}
+
+// Counts summarises the readings of a session.
+type Counts struct {
+	Rows     int `json:"rows"`     // all readings
+	Excluded int `json:"excluded"` // left out with a reason
+	Blank    int `json:"blank"`    // not excluded, both cells empty
+	Usable   int `json:"usable"`   // not excluded, both cells numbers
+	Problems int `json:"problems"` // cells that are not numbers
+}
+
+// Count returns the reading counts shown beside a session.
+func (s *Session) Count() Counts {
+	_, _, rows, problems := s.Pairs()
+	c := Counts{Rows: len(s.Readings), Usable: len(rows), Problems: len(problems)}
+	for _, r := range s.Readings {
+		switch {
+		case r.Excluded:
+			c.Excluded++
+		case isBlank(r.X) && isBlank(r.Y):
+			c.Blank++
+		}
+	}
+	return c
+}
