@@ -93,10 +93,19 @@ func Analyze(x, y []float64, opt Options) (*Report, error) {
 	}
 
 	fc := &fitContext{f: f, tr: tr, wm: wm, x: x, y: y, xt: xt, yt: yt, w: w, opt: o, rep: rep}
+	fc.runChecks()
+	if allPositive(y) {
+		if bc, err := BoxCoxProfile(x, y, o.Level); err == nil {
+			rep.BoxCox = bc
+		}
+	}
 	fc.predictions()
 	fc.inverses()
 	fc.limits()
 	fc.acceptance()
+	if !o.SkipAdvice {
+		rep.Advice = advise(x, y, opt, rep)
+	}
 	scrubReport(rep)
 	return rep, nil
 }
@@ -111,6 +120,74 @@ type fitContext struct {
 	w      []float64 // weights as used (original scale), nil when unweighted
 	opt    Options
 	rep    *Report
+}
+
+// runChecks runs the assumption checks on the fitted scale and summarises
+// them. Weighted fits give the spread, independence and normality checks
+// the Pearson residuals √w·e and the influence measures the raw residuals
+// with w. When the readings had to be scaled by a power of two to keep
+// their squares representable, the checks (all scale-free) see the scaled
+// values and the one unit-bearing output, PointInfluence.Residual, is
+// scaled back.
+func (fc *fitContext) runChecks() {
+	f, rep := fc.f, fc.rep
+	origin := fc.opt.Model == ModelOrigin
+	xs, ys, res, w := fc.xt, fc.yt, rep.Residuals, fc.w
+	scaled := f.kx != 1 || f.ky != 1 || f.cw != 1
+	if scaled {
+		xs = scaledCopy(fc.xt, f.kx)
+		ys = scaledCopy(fc.yt, f.ky)
+		res = scaledCopy(rep.Residuals, f.ky)
+		w = f.w
+	}
+	pr := res
+	if w != nil {
+		pr = make([]float64, len(res))
+		for i, e := range res {
+			pr[i] = math.Sqrt(w[i]) * e
+		}
+	}
+	c := &rep.Checks
+	c.Curvature = CurvatureTest(xs, ys, w, rep.Level)
+	c.LackOfFit = LackOfFit(xs, ys, w, origin)
+	c.BreuschPagan = BreuschPagan(xs, pr)
+	c.White = White(xs, pr)
+	c.DurbinWatson = DurbinWatson(xs, pr, origin)
+	c.Runs = RunsTest(pr)
+	c.ShapiroWilk = ShapiroWilkCheck(pr)
+	rep.Influence = Influence(xs, res, w, origin)
+	if scaled {
+		for i := range rep.Influence {
+			rep.Influence[i].Residual /= f.ky
+		}
+	}
+	var xa *Assumption
+	if fc.opt.XUncertainty > 0 {
+		ck, a := XExactness(fc.x, fc.y, fc.opt.XUncertainty, fc.opt.YUncertainty, rep.Level)
+		c.XExactness = &ck
+		xa = &a
+	}
+	rep.Assumptions = Summarize(rep.Checks, rep.Influence)
+	if xa != nil && rep.Assumptions.XExactness == nil {
+		rep.Assumptions.XExactness = xa
+	}
+}
+
+func scaledCopy(v []float64, k float64) []float64 {
+	out := make([]float64, len(v))
+	for i, a := range v {
+		out[i] = a * k
+	}
+	return out
+}
+
+func allPositive(v []float64) bool {
+	for _, a := range v {
+		if !(a > 0) {
+			return false
+		}
+	}
+	return true
 }
 
 // normalizeOptions fills defaults and rejects invalid values.

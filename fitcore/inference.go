@@ -3,6 +3,7 @@ package fitcore
 import (
 	"math"
 
+	"gonum.org/v1/gonum/mathext"
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
@@ -24,7 +25,9 @@ func lnTwoSidedP(t, df float64) float64 {
 	if math.IsInf(t, 0) || math.Abs(t) >= math.MaxFloat64 {
 		return 0
 	}
-	p := 2 * distuv.StudentsT{Mu: 0, Sigma: 1, Nu: df}.Survival(math.Abs(t))
+	// P(|T| ≥ |t|) = I_{df/(df+t²)}(df/2, 1/2) (Abramowitz & Stegun 26.7.1,
+	// 26.5.27), direct so that tiny p are not lost to 1 − CDF.
+	p := mathext.RegIncBeta(df/2, 0.5, df/(df+t*t))
 	return lnClampP(p)
 }
 
@@ -39,7 +42,8 @@ func lnFUpperP(f, d1, d2 float64) float64 {
 	if f <= 0 {
 		return 1
 	}
-	return lnClampP(distuv.F{D1: d1, D2: d2}.Survival(f))
+	// P(F ≥ f) = I_{d2/(d2+d1·f)}(d2/2, d1/2) (Abramowitz & Stegun 26.6.2).
+	return lnClampP(mathext.RegIncBeta(d2/2, d1/2, d2/(d2+d1*f)))
 }
 
 func lnClampP(p float64) float64 {

@@ -60,6 +60,7 @@ type lineFit struct {
 	cw       float64
 	xc, a    float64
 	b1       float64
+	b0       float64 // intercept, internal units (0 through the origin)
 	sw       float64 // Σw (n when unweighted)
 	sxx, syy float64 // centred (uncentred through the origin) weighted sums
 	sxy      float64
@@ -85,7 +86,7 @@ func (f *lineFit) intercept() float64 {
 	if f.origin {
 		return 0
 	}
-	return (f.a - f.b1*f.xc) / f.ky
+	return f.b0 / f.ky
 }
 
 // fitLS fits y = b0 + b1·x (or y = b1·x when origin) by least squares with
@@ -222,9 +223,9 @@ func fitLS(x, y, w []float64, origin bool) (*lineFit, error) {
 	}
 	f.xc, f.a = xbar, ybar
 	f.b1 = f.sxy / f.sxx
-	// Pass 3: residual sum of squares, taken directly (never as Syy − b1·Sxy,
-	// which cancels badly when R² is near 1).
-	f.sse = f.residualSS(x, y)
+	// Pass 3: residuals, taken directly (never as Syy − b1·Sxy, which
+	// cancels when R² is near 1), and one step of iterative refinement.
+	f.refine(x, y)
 	if origin {
 		f.df = float64(n - 1)
 	} else {
@@ -236,6 +237,77 @@ func fitLS(x, y, w []float64, origin bool) (*lineFit, error) {
 		f.va = s2 / sw
 	}
 	return f, nil
+}
+
+// twoSum returns s = a+b rounded and the exact error e, a+b = s+e
+// (Knuth, TAOCP vol. 2, §4.2.2).
+func twoSum(a, b float64) (s, e float64) {
+	s = a + b
+	bb := s - a
+	e = (a - (s - bb)) + (b - bb)
+	return s, e
+}
+
+// refine computes the residual sum of squares and refines the slope and
+// intercept by one step of iterative refinement: with the residuals e_i of
+// the double-precision line, taken with error-free differences (twoSum)
+// and a fused multiply–add, the exact least-squares slope is b1 + δ with
+// δ = Σw(dx−m_dx)(e−m_e)/Sxx, and the intercept is
+// (ȳc − b1·x̄c) + m_e − δ·x̄ with the first term from one FMA. This keeps
+// the intercept's digits even when |b0| ≪ |b1·x̄| (NIST StRD Norris), which
+// plain ȳ − b1·x̄ cannot, because b1's own rounding would be multiplied by x̄.
+// Source: Higham, Accuracy and Stability of Numerical Algorithms, 2nd ed.,
+// §4.3 (compensated sums), §12.1 (iterative refinement).
+func (f *lineFit) refine(x, y []float64) {
+	n := len(x)
+	kx, ky, xc, yc, b1 := f.kx, f.ky, f.xc, f.a, f.b1
+	var se, sde, see, sd lnKSum
+	for s := 0; s < n; s += lnBlock {
+		e := min(s+lnBlock, n)
+		var be, bde, bee, bd float64
+		if f.w == nil {
+			for i := s; i < e; i++ {
+				dxh, dxl := twoSum(x[i]*kx, -xc)
+				dyh, dyl := twoSum(y[i]*ky, -yc)
+				r := math.FMA(-b1, dxh, dyh) + (dyl - b1*dxl)
+				be += r
+				bde += dxh * r
+				bee += r * r
+				bd += dxh + dxl
+			}
+		} else {
+			for i := s; i < e; i++ {
+				dxh, dxl := twoSum(x[i]*kx, -xc)
+				dyh, dyl := twoSum(y[i]*ky, -yc)
+				r := math.FMA(-b1, dxh, dyh) + (dyl - b1*dxl)
+				ww := f.w[i]
+				wr := ww * r
+				be += wr
+				bde += dxh * wr
+				bee += wr * r
+				bd += ww * (dxh + dxl)
+			}
+		}
+		se.add(be)
+		sde.add(bde)
+		see.add(bee)
+		sd.add(bd)
+	}
+	if f.origin {
+		rho := sde.val()
+		delta := rho / f.sxx
+		f.b1 = b1 + delta
+		f.sse = math.Max(see.val()-delta*rho, 0)
+		return
+	}
+	sw := f.sw
+	me, md := se.val()/sw, sd.val()/sw
+	rho := sde.val() - sw*md*me
+	delta := rho / f.sxx
+	f.b1 = b1 + delta
+	f.b0 = math.FMA(-b1, xc, yc) + me - delta*(xc+md)
+	f.a = yc + me - delta*md
+	f.sse = math.Max(see.val()-sw*me*me-delta*rho, 0)
 }
 
 // residualSS returns Σw(y_s − ŷ_s)² in internal units.

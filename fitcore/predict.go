@@ -35,6 +35,9 @@ func (fc *fitContext) predictAt(x float64) Prediction {
 	vm := math.Max(f.meanVarAt(xt), 0)
 	wx, wok := fc.wm.at(xt)
 	var msgs []string
+	if wok && (fc.wm.scheme == WeightsGiven || fc.wm.scheme == WeightsRepeats) {
+		msgs = append(msgs, "a new reading is given the weight of the nearest calibration reading")
+	}
 	ci := tc * math.Sqrt(vm)
 	pi := 0.0
 	if wok {
