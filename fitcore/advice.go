@@ -1,0 +1,332 @@
+package fitcore
+
+import (
+	"fmt"
+	"math"
+	"strings"
+)
+
+// advise looks for a change of scale or a weighting that cures a spread or
+// straightness problem of the fit in before, and recommends one.
+//
+// Nothing is tried when before.Assumptions.Spread and .Linearity are both
+// pass or n/a: the advice is RemedyNone with After nil. Otherwise each remedy
+// is tried in this fixed order, by refitting with Analyze (intercept model,
+// the same level and reference values, SkipAdvice) and re-running all the
+// checks:
+//
+//	log_y         ln y on x                   needs every y > 0
+//	log_log       ln y on ln x                needs every x > 0 and y > 0
+//	sqrt_y        √y on x                     needs every y ≥ 0
+//	reciprocal_y  1/y on x                    needs every y > 0
+//	box_cox       (y^λ − 1)/λ on x, λ from BoxCoxProfile   needs every y > 0
+//	weighted      original units, w = |x|^(−p), p estimated by Analyze's
+//	              WeightsPowerFit (slope of ln e² on ln|x|; Carroll &
+//	              Ruppert 1988, §3.3)             needs every x ≠ 0
+//
+// A remedy the readings cannot take is listed with Usable false and a Why
+// naming the readings that prevent it; it is never recommended.
+//
+// Ranking (higher is better; the original fit is scored the same way with no
+// preference cost, and a remedy must beat it by at least adMinGain):
+//
+//	score = 3·(v(spread) + v(linearity))            v: pass 2, warn 1, fail 0, n/a 1
+//	      + 0.5·(q(p_BP) + q(p_curvature))          q(p) = min(p, 0.5)/0.5
+//	      − 2·(steps by which independence, normality or influence got worse)
+//	      − preference cost
+//
+// so a better verdict always outweighs the p-values, a new problem
+// elsewhere costs as much as a verdict step lost, and among equally good
+// remedies the simpler and more meaningful scale wins. Preference costs
+// (common practice: a log scale reads as a constant percentage error and is
+// the usual first choice; an estimated power, of y or of the weights, adds
+// uncertainty and is harder to explain): log_y, log_log 0; sqrt_y 0.25;
+// reciprocal_y 0.5; weighted 0.5; box_cox 0.75, plus 0.75 more when its λ
+// interval contains 0, ½, −1 or 1 (the plain log, square root, reciprocal or
+// no transform then does the same job). Ties keep the order above.
+//
+// Everything is deterministic; no randomness is used.
+func advise(x, y []float64, opt Options, before *Report) *Advice {
+	if before == nil {
+		return &Advice{Remedy: RemedyNone, Reason: "There is no fitted line to give advice on."}
+	}
+	ad := &Advice{Before: adSummarize(before)}
+	spreadBad := adBad(before.Assumptions.Spread.Verdict)
+	lineBad := adBad(before.Assumptions.Linearity.Verdict)
+	if !spreadBad && !lineBad {
+		ad.Remedy = RemedyNone
+		ad.Reason = "The scatter about the line is even across the range and the readings follow a straight line, " +
+			"so no change of scale or weighting is needed."
+		return ad
+	}
+
+	base := adScore(ad.Before, ad.Before, 0)
+	best := -1
+	for _, r := range []Remedy{RemedyLogY, RemedyLogLog, RemedySqrtY, RemedyReciprocal, RemedyBoxCox, RemedyWeighted} {
+		c := adTry(x, y, opt, r, ad.Before)
+		ad.Candidates = append(ad.Candidates, c)
+		if c.Usable && c.Score >= base+adMinGain && (best < 0 || c.Score > ad.Candidates[best].Score) {
+			best = len(ad.Candidates) - 1
+		}
+	}
+	problem := adProblem(spreadBad, lineBad)
+	if best < 0 {
+		ad.Remedy = RemedyNone
+		ad.Reason = problem + " None of the changes of scale or weightings tried made this better without " +
+			"causing a new problem, so none is recommended. Look at the plot of the residuals, check the readings " +
+			"at the ends of the range, and follow the instrument maker's procedure."
+		return ad
+	}
+	c := ad.Candidates[best]
+	after := c.Summary
+	ad.Remedy = c.Remedy
+	ad.After = &after
+	ad.Reason = problem + " " + adHow(c) + " " + adAchieved(ad.Before, after) + " "
+	if c.Remedy != RemedyWeighted {
+		ad.Reason += "Predictions are converted back to the original units. "
+	}
+	ad.Reason += adCaution
+	return ad
+}
+
+// adMinGain is how much a remedy must improve on the original fit's score to
+// be recommended: a quarter of the p-value part, so that a remedy that only
+// nudges the p-values without changing any verdict is not worth the change
+// of scale (common practice: keep the original units unless there is a
+// clear gain).
+const adMinGain = 0.25
+
+const adCaution = "Before relying on the results for safety-related work, check them against the " +
+	"instrument maker's procedure and local rules."
+
+// adTry fits one remedy and scores it against the original summary.
+func adTry(x, y []float64, opt Options, r Remedy, before CheckSummary) Candidate {
+	c := Candidate{Remedy: r}
+	o := Options{Model: ModelOLS, Level: opt.Level, SlopeRef: opt.SlopeRef, InterceptRef: opt.InterceptRef, SkipAdvice: true}
+	cost := 0.0
+	var note string
+	switch r {
+	case RemedyLogY:
+		if why := adDomain("A log scale needs every y above zero", "y", y, adPositive); why != "" {
+			c.Why = why
+			return c
+		}
+		o.Transform = TransformLogY
+	case RemedyLogLog:
+		if why := adDomain("A log–log scale needs every x above zero", "x", x, adPositive); why != "" {
+			c.Why = why
+			return c
+		}
+		if why := adDomain("A log–log scale needs every y above zero", "y", y, adPositive); why != "" {
+			c.Why = why
+			return c
+		}
+		o.Transform = TransformLogLog
+	case RemedySqrtY:
+		if why := adDomain("A square-root scale needs every y at zero or above", "y", y, adNonNegative); why != "" {
+			c.Why = why
+			return c
+		}
+		o.Transform = TransformSqrtY
+		cost = 0.25
+	case RemedyReciprocal:
+		if why := adDomain("A reciprocal scale needs every y above zero", "y", y, adPositive); why != "" {
+			c.Why = why
+			return c
+		}
+		o.Transform = TransformReciprocal
+		cost = 0.5
+	case RemedyBoxCox:
+		if why := adDomain("The Box–Cox transform needs every y above zero", "y", y, adPositive); why != "" {
+			c.Why = why
+			return c
+		}
+		bc, err := BoxCoxProfile(x, y, opt.Level)
+		if err != nil {
+			c.Why = "The Box–Cox power could not be estimated: " + err.Error() + "."
+			return c
+		}
+		lam := bc.Lambda
+		c.Lambda = lam
+		o.Transform = TransformBoxCox
+		o.BoxCoxLambda = &lam
+		cost = 0.75
+		note = fmt.Sprintf("λ = %.3g (%g %% interval %.3g to %.3g).", lam, 100*adLevel(opt.Level), bc.CILow, bc.CIHigh)
+		for _, s := range []struct {
+			lam  float64
+			name string
+		}{{0, "the plain log scale"}, {0.5, "the square-root scale"}, {-1, "the reciprocal scale"}, {1, "no transform at all"}} {
+			if bc.CILow <= s.lam && s.lam <= bc.CIHigh {
+				cost += 0.75
+				note += fmt.Sprintf(" The interval contains %g, so %s does the same job more simply.", s.lam, s.name)
+				break
+			}
+		}
+	case RemedyWeighted:
+		if why := adDomain("Weights that follow a power of x need every x other than zero", "x", x, adNonZero); why != "" {
+			c.Why = why
+			return c
+		}
+		o.Weights = WeightsPowerFit
+		o.Model = ModelWeighted
+		cost = 0.5
+	}
+	rep, err := Analyze(x, y, o)
+	if err != nil {
+		c.Why = "The refit on this scale failed: " + err.Error() + "."
+		return c
+	}
+	if r == RemedyWeighted {
+		c.Power = rep.WeightPower
+		note = fmt.Sprintf("Scatter taken to grow as |x|^%.2g.", c.Power)
+	}
+	c.Usable = true
+	c.Summary = adSummarize(rep)
+	c.Slope = rep.Slope.Estimate
+	c.Intercept = rep.Intercept.Estimate
+	c.Score = adScore(c.Summary, before, cost)
+	c.Why = strings.TrimSpace(fmt.Sprintf("Scatter: %s; straightness: %s; score %.2f. %s",
+		adVerdictWord(c.Summary.Assumptions.Spread.Verdict), adVerdictWord(c.Summary.Assumptions.Linearity.Verdict), c.Score, note))
+	return c
+}
+
+// adScore is the ranking score documented on advise.
+func adScore(s, before CheckSummary, cost float64) float64 {
+	a, b := s.Assumptions, before.Assumptions
+	score := 3*(adValue(a.Spread.Verdict)+adValue(a.Linearity.Verdict)) +
+		0.5*(adQ(s.BreuschPaganP)+adQ(s.CurvatureP)) - cost
+	for _, pair := range [][2]Verdict{
+		{a.Independence.Verdict, b.Independence.Verdict},
+		{a.Normality.Verdict, b.Normality.Verdict},
+		{a.Influence.Verdict, b.Influence.Verdict},
+	} {
+		if d := adRank(pair[0]) - adRank(pair[1]); d > 0 {
+			score -= 2 * float64(d)
+		}
+	}
+	return score
+}
+
+func adValue(v Verdict) float64 {
+	switch v {
+	case Pass:
+		return 2
+	case Fail:
+		return 0
+	}
+	return 1 // warn, or n/a (unknown)
+}
+
+// adRank orders verdicts by how bad they are; n/a counts as pass here, so a
+// check that could not be run is never taken for a new problem.
+func adRank(v Verdict) int {
+	switch v {
+	case Warn:
+		return 1
+	case Fail:
+		return 2
+	}
+	return 0
+}
+
+func adQ(p float64) float64 {
+	if !(p > 0) || math.IsNaN(p) {
+		return 0
+	}
+	return math.Min(p, 0.5) / 0.5
+}
+
+func adBad(v Verdict) bool { return v == Warn || v == Fail }
+
+func adLevel(l float64) float64 {
+	if l == 0 {
+		return 0.95
+	}
+	return l
+}
+
+// adSummarize is the short form of a report used for before and after.
+func adSummarize(r *Report) CheckSummary {
+	return CheckSummary{
+		Assumptions:   r.Assumptions,
+		RSquared:      r.RSquared,
+		BreuschPaganP: r.Checks.BreuschPagan.P,
+		CurvatureP:    r.Checks.Curvature.P,
+	}
+}
+
+func adPositive(v float64) bool    { return v > 0 }
+func adNonNegative(v float64) bool { return v >= 0 }
+func adNonZero(v float64) bool     { return v != 0 }
+
+// adDomain returns "" when every value passes ok, or a sentence naming the
+// readings (counted from 1) that do not, with their values.
+func adDomain(need, col string, v []float64, ok func(float64) bool) string {
+	var bad []string
+	count := 0
+	for i, a := range v {
+		if ok(a) {
+			continue
+		}
+		count++
+		if len(bad) < 3 {
+			bad = append(bad, fmt.Sprintf("reading %d has %s = %.6g", i+1, col, a))
+		}
+	}
+	if count == 0 {
+		return ""
+	}
+	s := need + "; " + strings.Join(bad, ", ")
+	if count > len(bad) {
+		s += fmt.Sprintf(" (and %d more)", count-len(bad))
+	}
+	return s + "."
+}
+
+func adProblem(spread, line bool) string {
+	switch {
+	case spread && line:
+		return "The scatter about the line changes across the range and the readings bend away from a straight line."
+	case spread:
+		return "The scatter about the line changes across the range, so one ± figure does not fit the whole range."
+	}
+	return "The readings bend away from a straight line."
+}
+
+// adHow says in plain words what the recommended remedy does.
+func adHow(c Candidate) string {
+	switch c.Remedy {
+	case RemedyLogY:
+		return "Fit the line to the logarithm of y against x: on a log scale, scatter that grows in proportion to the reading (a constant percentage error) becomes even."
+	case RemedyLogLog:
+		return "Fit the logarithm of y against the logarithm of x: this evens out a constant percentage error and straightens a response that follows a power of x; a slope of 1 on this scale means y is proportional to x."
+	case RemedySqrtY:
+		return "Fit the square root of y against x: this evens out scatter that grows with the size of the reading, as with counts."
+	case RemedyReciprocal:
+		return "Fit 1/y against x: this evens out scatter that grows quickly with the size of the reading."
+	case RemedyBoxCox:
+		return fmt.Sprintf("Fit y raised to the power %.2g (the Box–Cox transform) against x: this is the power the readings themselves favour.", c.Lambda)
+	case RemedyWeighted:
+		return fmt.Sprintf("Keep the original units but weight the readings: where the scatter is larger a reading counts for less. The scatter was found to grow about as x to the power %.2g.", c.Power)
+	}
+	return ""
+}
+
+// adAchieved compares the spread and straightness verdicts before and after.
+func adAchieved(before, after CheckSummary) string {
+	return fmt.Sprintf("With this change the scatter check goes from %s to %s and the straight-line check from %s to %s.",
+		adVerdictWord(before.Assumptions.Spread.Verdict), adVerdictWord(after.Assumptions.Spread.Verdict),
+		adVerdictWord(before.Assumptions.Linearity.Verdict), adVerdictWord(after.Assumptions.Linearity.Verdict))
+}
+
+func adVerdictWord(v Verdict) string {
+	switch v {
+	case Pass:
+		return "pass"
+	case Warn:
+		return "warning"
+	case Fail:
+		return "fail"
+	}
+	return "not checked"
+}
