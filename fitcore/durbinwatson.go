@@ -33,7 +33,7 @@ import (
 // count. The traces are computed from an orthonormal basis of X in O(n).
 //
 // resid must be the residuals of that fit, in entry order. The check is NA
-// with a reason for fewer than k+3 readings, non-finite input or all-zero
+// with a reason for fewer than k+2 readings, non-finite input or all-zero
 // residuals. Verdict (common practice): p < 0.01 fails, p < 0.05 warns.
 func DurbinWatson(x, resid []float64, origin bool) Check {
 	const name = "Durbin–Watson"
@@ -45,8 +45,8 @@ func DurbinWatson(x, resid []float64, origin bool) Check {
 	if origin {
 		k = 1
 	}
-	if n < k+3 {
-		return ckNA(name, fmt.Sprintf("The Durbin–Watson check needs at least %d readings for this fit; there are %d.", k+3, n))
+	if n < k+2 {
+		return ckNA(name, fmt.Sprintf("The Durbin–Watson check needs at least %d readings for this fit; there are %d.", k+2, n))
 	}
 	d, ok := ckDWStat(resid)
 	if !ok {
