@@ -47,7 +47,7 @@ type refCase struct {
 		DFLOF float64 `json:"df_lof"`
 		DFPE  float64 `json:"df_pe"`
 	} `json:"lack_of_fit"`
-	BreuschPagan struct{ LM, P float64 } `json:"breusch_pagan"`
+	BreuschPagan struct{ LM, P float64 }  `json:"breusch_pagan"`
 	White        *struct{ LM, P float64 } `json:"white"`
 	DurbinWatson struct {
 		D, Mean, Var, P float64
