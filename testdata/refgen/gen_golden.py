@@ -155,7 +155,7 @@ def design(x, origin):
     return x.reshape(-1, 1) if origin else sm.add_constant(x, has_constant="add")
 
 
-def predictions(res, xs, origin, level, weights_at=None):
+def predictions(res, xs, origin, level, weights_at=None, no_pi=False):
     if not xs:
         return []
     xs = np.asarray(xs, dtype=float)
@@ -164,6 +164,10 @@ def predictions(res, xs, origin, level, weights_at=None):
     sf = res.get_prediction(ex, weights=w).summary_frame(alpha=1 - level)
     out = []
     for k, x0 in enumerate(xs):
+        if no_pi:
+            # No weight is defined for a new reading at x0 (repeat-based
+            # weights), so there is no reference prediction interval.
+            sf.loc[sf.index[k], ["obs_ci_lower", "obs_ci_upper"]] = np.nan
         out.append({
             "x": fnum(x0),
             "fit": fnum(sf["mean"].iloc[k]),
@@ -212,7 +216,10 @@ def checks(x, y, res):
 
     if n >= 3:
         sw = scipy.stats.shapiro(e)
-        out["shapiro_wilk"] = {"statistic": fnum(sw.statistic), "p": fnum(sw.pvalue)}
+        # scipy's n = 3 formula can round to a tiny negative p; a probability
+        # is clamped to [0, 1]. Note: scipy's swilk works in single precision
+        # (float32 arrays), so W is good to ~1e-7 and p to ~1e-5 relative.
+        out["shapiro_wilk"] = {"statistic": fnum(sw.statistic), "p": fnum(min(1.0, max(0.0, sw.pvalue)))}
     else:
         out["shapiro_wilk"] = None
 
@@ -388,7 +395,8 @@ def fit_block(x, y, spec):
     }
     if w is not None:
         out["weights"] = flist(w)
-    out["predictions"] = predictions(res, spec.get("predict_x", []), origin, level, weights_at)
+    out["predictions"] = predictions(res, spec.get("predict_x", []), origin, level, weights_at,
+                                     no_pi=(wname == "repeats"))
     if model != "weighted":
         out["influence"] = influence(res)
         out["inverse"] = inverse(res, origin, level, spec.get("inverse", []))
