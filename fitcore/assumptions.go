@@ -55,12 +55,8 @@ func Summarize(c Checks, infl []PointInfluence) Assumptions {
 		"Normality could not be checked")
 	a.Influence = ckSummarizeInfluence(infl)
 	if c.XExactness != nil {
-		x := *c.XExactness
-		as := Assumption{Verdict: x.Verdict, Message: x.Message}
-		if x.Verdict == Warn || x.Verdict == Fail {
-			as.Advice = "Use the Deming fit, which allows for error in x as well as y, or calibrate with more exact x standards."
-		}
-		a.XExactness = &as
+		x := ckXExactAssumption(*c.XExactness)
+		a.XExactness = &x
 	}
 	return a
 }

@@ -49,7 +49,8 @@ const ckStudentCap = 1e10
 // |DFFITS| > 2√(p/n). A reading with leverage 1 is flagged because it alone
 // fixes the line; its t, D and DFFITS are reported as 0. |t| is capped at
 // 1e10 when the other readings lie exactly on a line. With n − p − 1 < 1 the
-// studentized residual, outlier p and DFFITS are 0 and 1 (not computable).
+// studentized residual, outlier p and DFFITS are 0 and 1 (not computable)
+// and Cook's distance is reported but not flagged.
 //
 // Influence returns nil when the inputs are invalid (lengths differ,
 // non-finite values, non-positive weights, x without spread) or n ≤ p.
@@ -164,6 +165,8 @@ func ckInfluenceReasons(pi PointInfluence, levHigh, levVery, fMedian, cookLow, d
 		}
 	}
 	switch {
+	case !studentOK:
+		// With n − p − 1 < 1 there is no scatter left to judge influence by.
 	case ckFinite(fMedian) && pi.CooksD > fMedian:
 		rs = append(rs, fmt.Sprintf("%s: Cook's distance %.3g > %.3g, the median of F(p, n−p)", ckReasonVeryInfluence, pi.CooksD, fMedian))
 	case pi.CooksD > cookLow:

@@ -104,16 +104,12 @@ func XExactness(x, y []float64, xu, yu float64, level float64) (Check, Assumptio
 	zc := distuv.UnitNormal.Quantile(1 - (1-level)/2)
 	cover := distuv.UnitNormal.CDF(zc-az) - distuv.UnitNormal.CDF(-zc-az)
 	detail := fmt.Sprintf("slope %.6g treating x as exact, %.6g allowing for x error; difference %.2f standard errors", b, bd, z)
-	a := Assumption{Verdict: c.Verdict}
-	switch c.Verdict {
-	case Pass:
+	if c.Verdict == Pass {
 		c.Message = fmt.Sprintf("The uncertainty of the x readings is too small to matter for the slope (%s).", detail)
-		a.Message = "The x readings are exact enough: their uncertainty hardly changes the slope."
-	default:
+	} else {
 		c.Message = fmt.Sprintf("The uncertainty of the x readings shifts the slope noticeably (%s); the %.0f %% interval for the slope would cover the true slope only about %.0f %% of the time.", detail, 100*level, 100*cover)
-		a.Message = fmt.Sprintf("The x readings are not exact enough: allowing for their uncertainty moves the slope by %.1f standard errors.", az)
-		a.Advice = "Use the Deming fit, which allows for error in x as well as y, or calibrate with more exact x standards."
 	}
+	a := ckXExactAssumption(c)
 	return c, a
 }
 
@@ -134,4 +130,18 @@ func ckDemingSlope(sxx, syy, sxy, delta float64) (float64, bool) {
 		b = 2 * delta * sxy / (root - d)
 	}
 	return b, ckFinite(b)
+}
+
+// ckXExactAssumption words the x-exactness check for the technician; z is
+// the check's Statistic.
+func ckXExactAssumption(c Check) Assumption {
+	switch c.Verdict {
+	case Pass:
+		return Assumption{Verdict: Pass, Message: "The x readings are exact enough: their uncertainty hardly changes the slope."}
+	case Warn, Fail:
+		return Assumption{Verdict: c.Verdict,
+			Message: fmt.Sprintf("The x readings are not exact enough: allowing for their uncertainty moves the slope by %.1f standard errors.", math.Abs(c.Statistic)),
+			Advice:  "Use the Deming fit, which allows for error in x as well as y, or calibrate with more exact x standards."}
+	}
+	return Assumption{Verdict: NA, Message: c.Message}
 }

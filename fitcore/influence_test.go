@@ -1,0 +1,128 @@
+package fitcore
+
+import (
+	"fmt"
+	"strings"
+	"testing"
+)
+
+// TestInfluenceReference compares leverage, externally studentized residual,
+// Cook's distance, DFFITS and the Bonferroni outlier p with statsmodels
+// OLSInfluence (hat_matrix_diag, resid_studentized_external, cooks_distance,
+// dffits) and outlier_test(method='bonf') on the fit of √w·y on √w·X
+// (checks.json). Reference entries that are NaN/Inf (leverage 1, as reading
+// 8 of Anscombe's fourth set) are null and checked for the documented 0.
+func TestInfluenceReference(t *testing.T) {
+	for _, c := range refCases(t) {
+		t.Run(c.Name, func(t *testing.T) {
+			got := Influence(c.X, refResid(t, c), c.W, c.Origin)
+			if len(got) != c.N {
+				t.Fatalf("%d results for %d readings", len(got), c.N)
+			}
+			ri := c.Influence
+			for i, p := range got {
+				if p.Index != i {
+					t.Fatalf("index %d at %d", p.Index, i)
+				}
+				for _, v := range []float64{p.Leverage, p.Studentized, p.OutlierP, p.CooksD, p.DFFITS, p.Residual} {
+					if !ckFinite(v) {
+						t.Fatalf("reading %d: non-finite %+v", i+1, p)
+					}
+				}
+				if ri.Leverage[i] != nil {
+					refCheck(t, fmt.Sprintf("h[%d]", i), p.Leverage, *ri.Leverage[i], 1e-9, 1e-13)
+				}
+				if ri.Studentized[i] == nil || ri.DFFITS[i] == nil {
+					if p.Studentized != 0 || p.DFFITS != 0 || !p.Flagged {
+						t.Errorf("reading %d: reference undefined, want 0 and flagged, got %+v", i+1, p)
+					}
+					continue
+				}
+				refCheck(t, fmt.Sprintf("t[%d]", i), p.Studentized, *ri.Studentized[i], 1e-8, 1e-11)
+				refCheck(t, fmt.Sprintf("D[%d]", i), p.CooksD, *ri.Cooks[i], 1e-8, 1e-13)
+				refCheck(t, fmt.Sprintf("DFFITS[%d]", i), p.DFFITS, *ri.DFFITS[i], 1e-8, 1e-11)
+				refCheck(t, fmt.Sprintf("Bonferroni p[%d]", i), p.OutlierP, *ri.BonfP[i], 1e-7, 1e-13)
+			}
+		})
+	}
+}
+
+// TestInfluenceFlags checks the common-practice thresholds on invented data:
+// reading 9 of syn_outlier14 carries a gross error (+2.5) and must be the
+// only outlier.
+func TestInfluenceFlags(t *testing.T) {
+	var c refCase
+	for _, k := range loadRef(t).Cases {
+		if k.Name == "syn_outlier14" {
+			c = k
+		}
+	}
+	if c.X == nil {
+		t.Fatal("syn_outlier14 missing from checks.json")
+	}
+	got := Influence(c.X, refResid(t, c), nil, false)
+	for i, p := range got {
+		isOut := false
+		for _, r := range p.Reasons {
+			isOut = isOut || strings.HasPrefix(r, ckReasonOutlier)
+		}
+		if isOut != (i == 8) {
+			t.Errorf("reading %d: outlier flag %v, reasons %q", i+1, isOut, p.Reasons)
+		}
+	}
+	a := Summarize(Checks{}, got)
+	if a.Influence.Verdict != Fail || !strings.Contains(a.Influence.Message, "Reading 9") {
+		t.Errorf("summary %+v", a.Influence)
+	}
+}
+
+func TestInfluenceEdges(t *testing.T) {
+	tests := []struct {
+		name       string
+		x, r, w    []float64
+		origin     bool
+		wantNil    bool
+		wantFlagAt int // -1: none
+	}{
+		{"two readings", []float64{1, 2}, []float64{0, 0}, nil, false, true, -1},
+		{"x constant", []float64{1, 1, 1}, []float64{1, -1, 0}, nil, false, true, -1},
+		{"NaN", []float64{1, 2, 3}, []float64{1, nan(), 0}, nil, false, true, -1},
+		{"bad weight", []float64{1, 2, 3}, []float64{1, -1, 0}, []float64{1, -1, 1}, false, true, -1},
+		{"all zero residuals", []float64{1, 2, 3, 4, 5}, []float64{0, 0, 0, 0, 0}, nil, false, false, -1},
+		{"leverage one", []float64{1, 1, 1, 1, 9}, []float64{0.1, -0.1, 0.2, -0.2, 0}, nil, false, false, 4},
+		{"three points", []float64{1, 2, 3}, []float64{0.1, -0.2, 0.1}, nil, false, false, -1},
+		{"origin, far x", []float64{1, 2, 3, 4}, []float64{0.1, -0.1, 0.05, 0}, nil, true, false, 3}, // h = 16/30 > 2/4
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			got := Influence(tc.x, tc.r, tc.w, tc.origin)
+			if tc.wantNil {
+				if got != nil {
+					t.Fatalf("want nil, got %+v", got)
+				}
+				return
+			}
+			for i, p := range got {
+				if tc.wantFlagAt >= 0 && i == tc.wantFlagAt && !p.Flagged {
+					t.Errorf("reading %d should be flagged: %+v", i+1, p)
+				}
+				if tc.wantFlagAt < 0 && p.Flagged {
+					t.Errorf("reading %d flagged: %q", i+1, p.Reasons)
+				}
+			}
+		})
+	}
+}
+
+func ExampleInfluence() {
+	// Invented flow-gauge readings; reading 6 was mistyped.
+	x := []float64{1, 2, 3, 4, 5, 6, 7, 8}
+	y := []float64{2.1, 3.9, 6.1, 8.0, 9.9, 15.0, 14.1, 15.9}
+	_, _, r, _ := ckLine(x, y, nil, false)
+	for _, p := range Influence(x, r, nil, false) {
+		if p.Flagged {
+			fmt.Printf("reading %d: %s\n", p.Index+1, p.Reasons[0])
+		}
+	}
+	// Output: reading 6: outlier: studentized residual 25.9, Bonferroni p = 1.29e-05 < 0.05
+}
