@@ -242,7 +242,7 @@ func TestAdviceDeterministicAndFinite(t *testing.T) {
 	}
 	for _, c := range a1.Candidates {
 		for _, v := range []float64{c.Score, c.Slope, c.Intercept, c.Lambda, c.Power} {
-			if !bcFinite(v) {
+			if !isFiniteNum(v) {
 				t.Errorf("%s: non-finite value in %+v", c.Remedy, c)
 			}
 		}
@@ -311,7 +311,7 @@ func FuzzAdvise(f *testing.F) {
 			t.Fatalf("advice %+v", a)
 		}
 		for _, c := range a.Candidates {
-			if !bcFinite(c.Score) || !bcFinite(c.Power) || !bcFinite(c.Lambda) {
+			if !isFiniteNum(c.Score) || !isFiniteNum(c.Power) || !isFiniteNum(c.Lambda) {
 				t.Fatalf("non-finite candidate %+v", c)
 			}
 		}

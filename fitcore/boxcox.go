@@ -111,7 +111,7 @@ func BoxCoxProfile(x, y []float64, level float64) (*BoxCox, error) {
 		inside = lams[i]
 	}
 	bc := &BoxCox{Lambda: lamHat, CILow: ciLow, CIHigh: ciHigh}
-	if !bcFinite(bc.Lambda) || !bcFinite(bc.CILow) || !bcFinite(bc.CIHigh) {
+	if !isFiniteNum(bc.Lambda) || !isFiniteNum(bc.CILow) || !isFiniteNum(bc.CIHigh) {
 		return nil, fmt.Errorf("%w: the Box–Cox power could not be computed for these readings (n = %d)", ErrDegenerate, p.n)
 	}
 	return bc, nil
@@ -140,10 +140,10 @@ func bcNewProfile(x, y []float64) (*bcProfile, error) {
 	}
 	var mx, my float64
 	for i := range y {
-		if !bcFinite(x[i]) {
+		if !isFiniteNum(x[i]) {
 			return nil, &DataError{Index: i, Column: "x", Value: x[i], Err: ErrNotFinite}
 		}
-		if !bcFinite(y[i]) {
+		if !isFiniteNum(y[i]) {
 			return nil, &DataError{Index: i, Column: "y", Value: y[i], Err: ErrNotFinite}
 		}
 		if !(y[i] > 0) {
@@ -160,7 +160,7 @@ func bcNewProfile(x, y []float64) (*bcProfile, error) {
 		p.w[i] = math.Log(y[i])
 		my += p.w[i]
 	}
-	if !(p.sxx > 0) || !bcFinite(p.sxx) {
+	if !(p.sxx > 0) || !isFiniteNum(p.sxx) {
 		return nil, fmt.Errorf("%w (all %d are %v), so the Box–Cox power cannot be estimated", ErrNoSpreadInX, n, x[0])
 	}
 	my /= float64(n)
@@ -223,7 +223,7 @@ func (p *bcProfile) logRSS(lam float64) float64 {
 		rss = floor
 		p.floored = true
 	}
-	if !(rss > 0) || !bcFinite(rss) {
+	if !(rss > 0) || !isFiniteNum(rss) {
 		return math.Inf(1) // treated as the worst possible λ
 	}
 	return math.Log(rss) + logScale
@@ -328,6 +328,3 @@ func bcBisect(g func(float64) float64, out, in float64) float64 {
 	}
 	return 0.5 * (in + out)
 }
-
-// bcFinite reports whether v is neither NaN nor infinite.
-func bcFinite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }

@@ -276,7 +276,7 @@ func FuzzBoxCoxProfile(f *testing.F) {
 			}
 			return
 		}
-		if !bcFinite(bc.Lambda) || !bcFinite(bc.CILow) || !bcFinite(bc.CIHigh) {
+		if !isFiniteNum(bc.Lambda) || !isFiniteNum(bc.CILow) || !isFiniteNum(bc.CIHigh) {
 			t.Fatalf("non-finite result %+v", *bc)
 		}
 		if bc.Lambda < bcLambdaMin || bc.Lambda > bcLambdaMax || bc.CILow > bc.Lambda || bc.CIHigh < bc.Lambda {
