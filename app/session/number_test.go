@@ -1,0 +1,183 @@
+package session
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+func TestParseNumber(t *testing.T) {
+	// Expected values are the plain decimal reading of each text, checked
+	// by strconv.ParseFloat on the normalised form (the reference for
+	// decimal text); the separator rules are common practice for
+	// spreadsheet and instrument exports.
+	tests := []struct {
+		in   string
+		want float64
+		err  string // substring of the reason; "" = no error
+	}{
+		{"3.14", 3.14, ""},
+		{"3,14", 3.14, ""},
+		{"  -2.5  ", -2.5, ""},
+		{"+7", 7, ""},
+		{"−0,125", -0.125, ""}, // U+2212 minus
+		{"0,123", 0.123, ""},   // a leading 0 cannot start a thousands group
+		{"1234,567", 1234.567, ""},
+		{"1 234,5", 1234.5, ""},
+		{"1\u00a0234,5", 1234.5, ""},
+		{"1,234.5", 1234.5, ""},
+		{"1.234,5", 1234.5, ""},
+		{"1.234.567", 1234567, ""},
+		{"1,234,567.25", 1234567.25, ""},
+		{"1'234.5", 1234.5, ""},
+		{"1.234", 1.234, ""}, // a single dot is a decimal point without a hint
+		{".5", 0.5, ""},
+		{"-,5", -0.5, ""},
+		{"1e3", 1000, ""},
+		{"1,5E-3", 0.0015, ""},
+		{"2.01e+3", 2010, ""},
+		{"12.5 µS/cm", 12.5, ""},
+		{"7.1 mg/L", 7.1, ""},
+		{"7.1mg/L", 7.1, ""},
+		{"20 °C", 20, ""},
+		{"45%", 45, ""},
+		{"3 em", 3, ""},
+		{"1e-400", 0, ""}, // underflow reads as 0, as strconv does
+		{"1,234", 0, "could mean 1.234 or 1234"},
+		{"", 0, "is empty"},
+		{"   ", 0, "is empty"},
+		{"abc", 0, "is not a number"},
+		{"NaN", 0, "not a finite number"},
+		{"-Inf", 0, "not a finite number"},
+		{"infinity", 0, "not a finite number"},
+		{"1e400", 0, "too large"},
+		{"0x1F", 0, "hexadecimal"},
+		{"12.5 13.2", 0, "mixes separators"},
+		{"12 13", 0, "more than one number"},
+		{"12.5 mg 13", 0, "more than one number"},
+		{"12;5", 0, "not a unit"},
+		{"1,2,3", 0, "groups of three"},
+		{"12,34.5", 0, "groups of three"},
+		{"1.234,5,6", 0, "mixes separators"},
+		{"12.", 0, "separator with no digits"},
+		{"3e", 0, "exponent with no digits"},
+		{"3e+", 0, "exponent with no digits"},
+		{"<0.5", 0, "is a limit"},
+		{"-", 0, "sign without a number"},
+		{"--5", 0, "not a number"},
+		{strings.Repeat("1", MaxNumberText+1), 0, "too long"},
+		{"\xff1", 0, "not valid text"},
+	}
+	for _, tc := range tests {
+		got, err := ParseNumber(tc.in)
+		if tc.err != "" {
+			var ne *NumberError
+			if !errors.As(err, &ne) {
+				t.Errorf("ParseNumber(%q) = %v, %v; want a *NumberError containing %q", tc.in, got, err, tc.err)
+				continue
+			}
+			if !strings.Contains(ne.Reason, tc.err) || ne.Text != tc.in {
+				t.Errorf("ParseNumber(%q) error %q; want text %q and reason containing %q", tc.in, err, tc.in, tc.err)
+			}
+			continue
+		}
+		if err != nil || got != tc.want {
+			t.Errorf("ParseNumber(%q) = %v, %v; want %v", tc.in, got, err, tc.want)
+		}
+	}
+}
+
+func TestParseNumberHint(t *testing.T) {
+	tests := []struct {
+		in    string
+		comma bool
+		want  float64
+	}{
+		{"1,234", true, 1.234},
+		{"1,234", false, 1234},
+		{"1.234", true, 1234},
+		{"1.234", false, 1.234},
+		{"-12,500", true, -12.5},
+		{"-12,500", false, -12500},
+		{"3,14", false, 3.14}, // unambiguous text ignores the hint
+		{"3.14", true, 3.14},
+		{"1.234,5", false, 1234.5},
+		{"1,234.5", true, 1234.5},
+	}
+	for _, tc := range tests {
+		got, err := ParseNumberHint(tc.in, tc.comma)
+		if err != nil || got != tc.want {
+			t.Errorf("ParseNumberHint(%q, %v) = %v, %v; want %v", tc.in, tc.comma, got, err, tc.want)
+		}
+	}
+}
+
+// plainDecimal is the text strconv.ParseFloat and ParseNumber must agree on.
+var plainDecimal = regexp.MustCompile(`^[+-]?(\d+(\.\d+)?|\.\d+)([eE][+-]?\d+)?$`)
+
+func FuzzParseNumber(f *testing.F) {
+	for _, s := range []string{"3.14", "3,14", "1 234,5", "1,234.5", "1.234,5", "1,234", "12.5 µS/cm",
+		"-1e-3", "NaN", "0x10", "<5", "1e400", ".5", "1'234'567.8", "−2", "7.1mg/L"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		v, err := ParseNumber(s)
+		if err != nil {
+			var ne *NumberError
+			if !errors.As(err, &ne) || ne.Text != s || ne.Reason == "" {
+				t.Fatalf("ParseNumber(%q): error %v is not a complete *NumberError", s, err)
+			}
+		} else if math.IsNaN(v) || math.IsInf(v, 0) {
+			t.Fatalf("ParseNumber(%q) = %v, not finite", s, v)
+		}
+		// Without ambiguity the hint changes nothing for a dot reader.
+		if err == nil {
+			if w, err2 := ParseNumberHint(s, false); err2 != nil || w != v {
+				t.Fatalf("ParseNumber(%q) = %v but ParseNumberHint(false) = %v, %v", s, v, w, err2)
+			}
+		}
+		// Plain decimal text reads exactly as strconv reads it.
+		if len(s) <= MaxNumberText && plainDecimal.MatchString(s) {
+			w, serr := strconv.ParseFloat(s, 64)
+			if serr == nil && (err != nil || v != w) {
+				t.Fatalf("ParseNumber(%q) = %v, %v; strconv gives %v", s, v, err, w)
+			}
+		}
+		// A value printed back in Go's shortest form reads back the same.
+		if err == nil {
+			back := strconv.FormatFloat(v, 'g', -1, 64)
+			if w, err := ParseNumberHint(back, false); err != nil || w != v {
+				t.Fatalf("%q → %v → %q → %v, %v", s, v, back, w, err)
+			}
+		}
+	})
+}
+
+func ExampleParseNumber() {
+	for _, s := range []string{"1 234,5", "12.5 µS/cm", "1,234", "n/a"} {
+		v, err := ParseNumber(s)
+		fmt.Println(v, err)
+	}
+	// Output:
+	// 1234.5 <nil>
+	// 12.5 <nil>
+	// 0 "1,234" could mean 1.234 or 1234: type it with a decimal point (1.234) or without the separator (1234)
+	// 0 "n/a" is not a number
+}
+
+func ExampleParseNumberHint() {
+	a, _ := ParseNumberHint("1,234", true)
+	b, _ := ParseNumberHint("1,234", false)
+	fmt.Println(a, b)
+	// Output: 1.234 1234
+}
+
+func BenchmarkParseNumber(b *testing.B) {
+	for i := 0; i < b.N; i++ {
+		_, _ = ParseNumber("1 234,567 µS/cm")
+	}
+}
