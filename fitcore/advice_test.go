@@ -53,8 +53,7 @@ func adLog(t *testing.T, a *Advice) {
 }
 
 // A constant-percentage error makes the scatter grow in proportion to the
-// reading; the usual remedy is a log scale (common practice; the NIST/SEMATECH
-// e-Handbook makes the same point for the Alaska pipeline data in 4.6.3.4).
+// reading; the usual remedy is a log scale (common practice).
 // On y = 2x(1+0.02ε) log y against log x is exactly a straight line with
 // even scatter, so log_log (or log_y) must be chosen, and the after-summary
 // must show the spread problem gone.
@@ -180,8 +179,8 @@ func TestAdviceNoConcern(t *testing.T) {
 // NIST/SEMATECH e-Handbook 4.6.3 (Alaska pipeline ultrasonic calibration):
 // the field readings scatter more for larger defects (4.6.3.3); the
 // handbook cures this by a transformation (4.6.3.4, logs of both sizes) or by
-// weighting (4.6.3.5). The advice must find a remedy under which the spread
-// check no longer warns.
+// weighting (4.6.3.5) (section contents from memory). The advice must find a
+// remedy under which the spread check no longer warns.
 func TestAdviceAlaskaPipeline(t *testing.T) {
 	x, y := bcReadAlaska(t) // x = lab defect size, y = field defect size
 	before, a := adRun(t, x, y, Options{})

@@ -32,7 +32,7 @@ const (
 //
 //	{λ : 2·(ℓ(λ̂) − ℓ(λ)) ≤ χ²₁(level)}
 //
-// (Box & Cox 1964, section 4), with its ends found by bisection; an end that
+// (Box & Cox 1964, section 4), with its ends found by the Illinois regula falsi; an end that
 // does not fall inside [−3, 3] is reported as the bound itself. level is the
 // confidence level, 0 < level < 1, and 0 means 0.95.
 //
@@ -88,27 +88,29 @@ func BoxCoxProfile(x, y []float64, level float64) (*BoxCox, error) {
 	// Likelihood-ratio interval: g(λ) = ℓ(λ) − (ℓ̂ − cut) ≥ 0 inside.
 	g := func(l float64) float64 { return p.loglik(l) - (ellHat - cut) }
 	ciLow, ciHigh := bcLambdaMin, bcLambdaMax
-	inside := lamHat
+	inside, gInside := lamHat, cut
 	for i := nGrid - 1; i >= 0; i-- { // largest grid point below λ̂ that is outside
 		if lams[i] >= lamHat {
 			continue
 		}
-		if ells[i]-(ellHat-cut) < 0 {
-			ciLow = bcBisect(g, lams[i], inside)
+		if gi := ells[i] - (ellHat - cut); gi < 0 {
+			ciLow = bcRoot(g, lams[i], gi, inside, gInside)
 			break
+		} else {
+			inside, gInside = lams[i], gi
 		}
-		inside = lams[i]
 	}
-	inside = lamHat
+	inside, gInside = lamHat, cut
 	for i := 0; i < nGrid; i++ {
 		if lams[i] <= lamHat {
 			continue
 		}
-		if ells[i]-(ellHat-cut) < 0 {
-			ciHigh = bcBisect(g, lams[i], inside)
+		if gi := ells[i] - (ellHat - cut); gi < 0 {
+			ciHigh = bcRoot(g, lams[i], gi, inside, gInside)
 			break
+		} else {
+			inside, gInside = lams[i], gi
 		}
-		inside = lams[i]
 	}
 	bc := &BoxCox{Lambda: lamHat, CILow: ciLow, CIHigh: ciHigh}
 	if !isFiniteNum(bc.Lambda) || !isFiniteNum(bc.CILow) || !isFiniteNum(bc.CIHigh) {
@@ -315,16 +317,36 @@ func bcBrentMax(f func(float64) float64, a, b, tol float64) (float64, float64) {
 	return x, -fx
 }
 
-// bcBisect finds the root of g between out (g < 0) and in (g ≥ 0) by
-// bisection to 1e-12 in λ.
-func bcBisect(g func(float64) float64, out, in float64) float64 {
+// bcRoot finds the root of g between out (g(out) = gOut < 0) and in
+// (g(in) = gIn ≥ 0) by the Illinois variant of regula falsi (Dowell &
+// Jarratt 1971, BIT 11), which keeps the bracket and converges
+// superlinearly, to about 1e-12 in λ.
+func bcRoot(g func(float64) float64, out, gOut, in, gIn float64) float64 {
+	side := 0
+	c := in
 	for k := 0; k < 100 && math.Abs(in-out) > 1e-12; k++ {
-		mid := 0.5 * (in + out)
-		if g(mid) >= 0 {
-			in = mid
+		prev := c
+		c = in - gIn*(in-out)/(gIn-gOut)
+		if !(c > math.Min(in, out) && c < math.Max(in, out)) {
+			c = 0.5 * (in + out)
+		}
+		gc := g(c)
+		if gc >= 0 {
+			in, gIn = c, gc
+			if side == 1 {
+				gOut /= 2
+			}
+			side = 1
 		} else {
-			out = mid
+			out, gOut = c, gc
+			if side == -1 {
+				gIn /= 2
+			}
+			side = -1
+		}
+		if math.Abs(c-prev) <= 1e-13 || gc == 0 {
+			break
 		}
 	}
-	return 0.5 * (in + out)
+	return c
 }
