@@ -35,9 +35,9 @@ import (
 //	      − 2·(steps by which independence, normality or influence got worse)
 //	      − preference cost
 //
-// so a better verdict always outweighs the p-values, a new problem
-// elsewhere costs as much as a verdict step lost, and among equally good
-// remedies the simpler and more meaningful scale wins. Preference costs
+// so a better verdict always outweighs the p-values, each step by which a
+// check elsewhere gets worse costs two thirds of a verdict step, and among
+// equally good remedies the simpler and more meaningful scale wins. Preference costs
 // (common practice: a log scale reads as a constant percentage error and is
 // the usual first choice; an estimated power, of y or of the weights, adds
 // uncertainty and is harder to explain): log_y, log_log 0; sqrt_y 0.25;
