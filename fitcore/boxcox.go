@@ -81,6 +81,9 @@ func BoxCoxProfile(x, y []float64, level float64) (*BoxCox, error) {
 	if ells[best] > ellHat { // a bound is the maximum
 		lamHat, ellHat = lams[best], ells[best]
 	}
+	if !isFiniteNum(ellHat) {
+		return nil, fmt.Errorf("%w: the Box–Cox likelihood could not be computed for these readings (n = %d)", ErrDegenerate, p.n)
+	}
 	if p.floored {
 		return nil, fmt.Errorf("%w: the readings lie on an exact straight line after a power transform, so the Box–Cox power is not defined (n = %d)", ErrDegenerate, p.n)
 	}
