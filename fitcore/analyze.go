@@ -311,6 +311,19 @@ func scrubValue(v reflect.Value) int {
 			return 1
 		}
 	case reflect.Slice:
+		if pi, ok := v.Interface().([]PointInfluence); ok {
+			n := 0
+			for i := range pi {
+				p := &pi[i]
+				for _, f := range []*float64{&p.Leverage, &p.Residual, &p.Studentized, &p.OutlierP, &p.CooksD, &p.DFFITS} {
+					if !isFiniteNum(*f) {
+						*f = 0
+						n++
+					}
+				}
+			}
+			return n
+		}
 		if fs, ok := v.Interface().([]float64); ok {
 			n := 0
 			for i, f := range fs {

@@ -96,85 +96,101 @@ func (f *lineFit) intercept() float64 {
 // With Sxx = Σw(x−x̄)², Sxy = Σw(x−x̄)(y−ȳ): b1 = Sxy/Sxx, b0 = ȳ − b1·x̄;
 // through the origin b1 = Σwxy/Σwx² (Draper & Smith §1.2, §9.2).
 func fitLS(x, y, w []float64, origin bool) (*lineFit, error) {
-	n := len(x)
-	f := &lineFit{n: n, origin: origin, weighted: w != nil, kx: 1, ky: 1, cw: 1}
-	// Pass 1: largest magnitudes and plain sums.
-	var mx, my, mw float64
-	var kxs, kys, kws lnKSum
-	for s := 0; s < n; s += lnBlock {
-		e := min(s+lnBlock, n)
-		var bx, by, bw float64
-		if w == nil {
-			for i := s; i < e; i++ {
-				xi, yi := x[i], y[i]
-				bx += xi
-				by += yi
-				mx = max(mx, math.Abs(xi))
-				my = max(my, math.Abs(yi))
-			}
-		} else {
-			for i := s; i < e; i++ {
-				xi, yi, wi := x[i], y[i], w[i]
-				bx += wi * xi
-				by += wi * yi
-				bw += wi
-				mx = max(mx, math.Abs(xi))
-				my = max(my, math.Abs(yi))
-				mw = max(mw, wi)
-			}
-		}
-		kxs.add(bx)
-		kys.add(by)
-		kws.add(bw)
+	f := new(lineFit)
+	if err := fitLine(f, x, y, w, origin); err != nil {
+		return nil, err
 	}
-	f.kx, f.ky = lnPow2Scale(mx), lnPow2Scale(my)
-	if w != nil {
-		f.cw = lnPow2Scale(mw)
-		if f.cw != 1 || f.kx != 1 || f.ky != 1 || math.IsInf(kws.val(), 0) {
-			// Scale the weights to a max in [0.5, 1) whenever anything is scaled.
-			_, e := math.Frexp(mw)
-			f.cw = math.Ldexp(1, -e)
+	return f, nil
+}
+
+// fitLine is fitLS writing into f (no allocation when unweighted).
+func fitLine(f *lineFit, x, y, w []float64, origin bool) error {
+	// Fast path: unscaled. Ordinary readings keep their exact values; only
+	// when a sum overflows or a sum of squares leaves the safe range are
+	// the readings scaled by powers of two and the sums taken again.
+	if fitScaled(f, x, y, w, origin, 1, 1, 1) && f.safe() {
+		return f.finish(x, y)
+	}
+	var mx, my, mw float64
+	for i := range x {
+		mx = max(mx, math.Abs(x[i]))
+		my = max(my, math.Abs(y[i]))
+		if w != nil {
+			mw = max(mw, w[i])
 		}
+	}
+	cw := 1.0
+	if w != nil {
+		_, e := math.Frexp(mw)
+		cw = math.Ldexp(1, -e)
+	}
+	if !fitScaled(f, x, y, w, origin, lnPow2Scale(mx), lnPow2Scale(my), cw) || !(f.sxx > 0) || !isFiniteNum(f.sxx) {
+		return ErrNoSpreadInX
+	}
+	return f.finish(x, y)
+}
+
+// safe says whether the unscaled sums stayed in the range where their
+// squares and products are exact to rounding.
+func (f *lineFit) safe() bool {
+	const lo, hi = 0x1p-900, 0x1p900
+	return f.sxx > lo && f.sxx < hi && (f.syy == 0 || (f.syy > lo && f.syy < hi)) && isFiniteNum(f.sxy) &&
+		isFiniteNum(f.xc) && isFiniteNum(f.a) && math.Abs(f.xc) < hi && math.Abs(f.a) < hi
+}
+
+// fitScaled takes the (weighted) means and centred sums of x·kx, y·ky with
+// weights w·cw into f; false when the weights sum to nothing usable.
+func fitScaled(f *lineFit, x, y, w []float64, origin bool, kx, ky, cw float64) bool {
+	n := len(x)
+	*f = lineFit{n: n, origin: origin, weighted: w != nil, kx: kx, ky: ky, cw: cw}
+	if w != nil {
 		ws := make([]float64, n)
 		for i, wi := range w {
-			ws[i] = wi * f.cw
+			ws[i] = wi * cw
 		}
 		f.w = ws
 	}
-	kx, ky := f.kx, f.ky
 	wi := f.w
-	var sw, sx, sy float64
-	if kx == 1 && ky == 1 && f.cw == 1 && !math.IsInf(kxs.val(), 0) && !math.IsInf(kys.val(), 0) {
-		sx, sy = kxs.val(), kys.val()
-		if w == nil {
-			sw = float64(n)
-		} else {
-			sw = kws.val()
-		}
-	} else {
-		var ax, ay, aw lnKSum
-		for s := 0; s < n; s += lnBlock {
-			e := min(s+lnBlock, n)
-			var bx, by, bw float64
+	scaled := kx != 1 || ky != 1
+	// Pass 1: (weighted) sums for the means.
+	var ax, ay, aw lnKSum
+	for s := 0; s < n; s += lnBlock {
+		e := min(s+lnBlock, n)
+		var bx, by, bw float64
+		switch {
+		case wi == nil && !scaled:
 			for i := s; i < e; i++ {
-				ww := 1.0
-				if wi != nil {
-					ww = wi[i]
-				}
+				bx += x[i]
+				by += y[i]
+			}
+		case wi == nil:
+			for i := s; i < e; i++ {
+				bx += x[i] * kx
+				by += y[i] * ky
+			}
+		default:
+			for i := s; i < e; i++ {
+				ww := wi[i]
 				bx += ww * x[i] * kx
 				by += ww * y[i] * ky
 				bw += ww
 			}
-			ax.add(bx)
-			ay.add(by)
-			aw.add(bw)
 		}
-		sx, sy, sw = ax.val(), ay.val(), aw.val()
+		ax.add(bx)
+		ay.add(by)
+		aw.add(bw)
+	}
+	sw := float64(n)
+	if wi != nil {
+		sw = aw.val()
+	}
+	if !(sw > 0) || !isFiniteNum(sw) {
+		return false
 	}
 	f.sw = sw
 	var xbar, ybar float64
 	if !origin {
-		xbar, ybar = sx/sw, sy/sw
+		xbar, ybar = ax.val()/sw, ay.val()/sw
 	}
 	// Pass 2: centred sums with the correction term.
 	var cx, cy, cxx, cyy, cxy lnKSum
@@ -196,11 +212,12 @@ func fitLS(x, y, w []float64, origin bool) (*lineFit, error) {
 				dx := x[i]*kx - xbar
 				dy := y[i]*ky - ybar
 				ww := wi[i]
-				bx += ww * dx
+				wdx := ww * dx
+				bx += wdx
 				by += ww * dy
-				bxx += ww * dx * dx
+				bxx += wdx * dx
 				byy += ww * dy * dy
-				bxy += ww * dx * dy
+				bxy += wdx * dy
 			}
 		}
 		cx.add(bx)
@@ -218,74 +235,76 @@ func fitLS(x, y, w []float64, origin bool) (*lineFit, error) {
 		xbar += ex / sw
 		ybar += ey / sw
 	}
-	if !(f.sxx > 0) {
-		return nil, ErrNoSpreadInX
-	}
 	f.xc, f.a = xbar, ybar
+	return true
+}
+
+// finish computes the slope, the residual sum of squares (pass 3) and the
+// coefficient variances.
+func (f *lineFit) finish(x, y []float64) error {
+	if !(f.sxx > 0) {
+		return ErrNoSpreadInX
+	}
 	f.b1 = f.sxy / f.sxx
 	// Pass 3: residuals, taken directly (never as Syy − b1·Sxy, which
 	// cancels when R² is near 1), and one step of iterative refinement.
 	f.refine(x, y)
-	if origin {
+	n := f.n
+	if f.origin {
 		f.df = float64(n - 1)
 	} else {
 		f.df = float64(n - 2)
 	}
 	s2 := f.s2()
 	f.v1 = s2 / f.sxx
-	if !origin {
-		f.va = s2 / sw
+	if !f.origin {
+		f.va = s2 / f.sw
 	}
-	return f, nil
-}
-
-// twoSum returns s = a+b rounded and the exact error e, a+b = s+e
-// (Knuth, TAOCP vol. 2, §4.2.2).
-func twoSum(a, b float64) (s, e float64) {
-	s = a + b
-	bb := s - a
-	e = (a - (s - bb)) + (b - bb)
-	return s, e
+	return nil
 }
 
 // refine computes the residual sum of squares and refines the slope and
-// intercept by one step of iterative refinement: with the residuals e_i of
-// the double-precision line, taken with error-free differences (twoSum)
-// and a fused multiply–add, the exact least-squares slope is b1 + δ with
-// δ = Σw(dx−m_dx)(e−m_e)/Sxx, and the intercept is
-// (ȳc − b1·x̄c) + m_e − δ·x̄ with the first term from one FMA. This keeps
-// the intercept's digits even when |b0| ≪ |b1·x̄| (NIST StRD Norris), which
-// plain ȳ − b1·x̄ cannot, because b1's own rounding would be multiplied by x̄.
-// Source: Higham, Accuracy and Stability of Numerical Algorithms, 2nd ed.,
-// §4.3 (compensated sums), §12.1 (iterative refinement).
+// intercept by one step of iterative refinement. With b1 the double slope,
+// b0g = fma(−b1, x̄c, ȳc) and r_i = fma(−b1, x_i, y_i) − b0g (each fused
+// multiply–add rounds once, so r_i keeps its digits even when |b0| ≪ |b1·x̄|),
+// the exact least-squares slope is b1 + δ with δ = Σw(dx−m_dx)(r−m_r)/Sxx and
+// the intercept b0g + m_r − δ·x̄. Plain ȳ − b1·x̄ cannot reach full accuracy
+// there (NIST StRD Norris): b1's own rounding would be multiplied by x̄.
+// SSE = Σw(r−m_r)² − δ·ρ. Source: Higham, Accuracy and Stability of
+// Numerical Algorithms, 2nd ed., §4.3 (compensated sums), §12.1 (iterative
+// refinement).
 func (f *lineFit) refine(x, y []float64) {
 	n := len(x)
 	kx, ky, xc, yc, b1 := f.kx, f.ky, f.xc, f.a, f.b1
+	b0g := 0.0
+	if !f.origin {
+		b0g = math.FMA(-b1, xc, yc)
+	} else {
+		xc, yc = 0, 0
+	}
 	var se, sde, see, sd lnKSum
 	for s := 0; s < n; s += lnBlock {
 		e := min(s+lnBlock, n)
 		var be, bde, bee, bd float64
 		if f.w == nil {
 			for i := s; i < e; i++ {
-				dxh, dxl := twoSum(x[i]*kx, -xc)
-				dyh, dyl := twoSum(y[i]*ky, -yc)
-				r := math.FMA(-b1, dxh, dyh) + (dyl - b1*dxl)
+				dx := x[i]*kx - xc
+				r := math.FMA(-b1, dx, y[i]*ky-yc)
 				be += r
-				bde += dxh * r
+				bde += dx * r
 				bee += r * r
-				bd += dxh + dxl
+				bd += dx
 			}
 		} else {
 			for i := s; i < e; i++ {
-				dxh, dxl := twoSum(x[i]*kx, -xc)
-				dyh, dyl := twoSum(y[i]*ky, -yc)
-				r := math.FMA(-b1, dxh, dyh) + (dyl - b1*dxl)
+				dx := x[i]*kx - xc
+				r := math.FMA(-b1, dx, y[i]*ky-yc)
 				ww := f.w[i]
 				wr := ww * r
 				be += wr
-				bde += dxh * wr
+				bde += dx * wr
 				bee += wr * r
-				bd += ww * (dxh + dxl)
+				bd += ww * dx
 			}
 		}
 		se.add(be)
@@ -305,7 +324,7 @@ func (f *lineFit) refine(x, y []float64) {
 	rho := sde.val() - sw*md*me
 	delta := rho / f.sxx
 	f.b1 = b1 + delta
-	f.b0 = math.FMA(-b1, xc, yc) + me - delta*(xc+md)
+	f.b0 = b0g + me - delta*(xc+md)
 	f.a = yc + me - delta*md
 	f.sse = math.Max(see.val()-sw*me*me-delta*rho, 0)
 }
