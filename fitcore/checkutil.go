@@ -5,6 +5,7 @@ import (
 	"math"
 	"sort"
 
+	"gonum.org/v1/gonum/mathext"
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
@@ -263,9 +264,14 @@ func ckT2(t, df float64) float64 {
 	return ckClampP(2 * distuv.StudentsT{Mu: 0, Sigma: 1, Nu: df}.Survival(math.Abs(t)))
 }
 
-// ckFSF is P(F(d1, d2) > x).
+// ckFSF is P(F(d1, d2) > x) = I_{d2/(d2+d1·x)}(d2/2, d1/2), the regularized
+// incomplete beta function (Abramowitz & Stegun 26.6.2). It is evaluated
+// directly rather than as 1 − CDF so that tiny p-values keep their digits.
 func ckFSF(x, d1, d2 float64) float64 {
-	return ckClampP(distuv.F{D1: d1, D2: d2}.Survival(x))
+	if !(x > 0) {
+		return 1
+	}
+	return ckClampP(mathext.RegIncBeta(d2/2, d1/2, d2/(d2+d1*x)))
 }
 
 // ckZ2 is the two-sided standard-normal p of z.

@@ -90,8 +90,15 @@ func Influence(x, resid, w []float64, origin bool) []PointInfluence {
 	s2 := sse / dfRes
 	dfDel := dfRes - 1
 	var tdist distuv.StudentsT
+	// Below |t| = tOne the Bonferroni p, n·2·P(T > |t|), is at least 1 and
+	// so exactly 1 after capping: skip the incomplete-beta call there.
+	tOne := 0.0
 	if dfDel >= 1 {
 		tdist = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: dfDel}
+		tOne = tdist.Quantile(1 - 1/(2*nf))
+		if !ckFinite(tOne) {
+			tOne = 0
+		}
 	}
 	fMedian := distuv.F{D1: pf, D2: dfRes}.Quantile(0.5)
 	levHigh, levVery := 2*pf/nf, 3*pf/nf
@@ -128,7 +135,9 @@ func Influence(x, resid, w []float64, origin bool) []PointInfluence {
 					t = math.Copysign(ckStudentCap, t)
 				}
 				pi.Studentized = t
-				pi.OutlierP = ckClampP(nf * 2 * tdist.Survival(math.Abs(t)))
+				if math.Abs(t) > tOne {
+					pi.OutlierP = ckClampP(nf * 2 * tdist.Survival(math.Abs(t)))
+				}
 				pi.DFFITS = t * math.Sqrt(h[i]/om)
 			}
 		}
