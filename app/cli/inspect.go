@@ -2,6 +2,8 @@ package cli
 
 import (
 	"encoding/json"
+	"errors"
+	"flag"
 	"fmt"
 	"io"
 	"os"
@@ -139,14 +141,9 @@ func Inspect(args []string, stdout, stderr io.Writer) int {
 }
 
 // oneFile parses the flags and the single FILE argument.
-func oneFile(fs interface {
-	Parse([]string) error
-	NArg() int
-	Arg(int) string
-	Usage()
-}, args []string) (string, int, bool) {
+func oneFile(fs *flag.FlagSet, args []string) (string, int, bool) {
 	if err := fs.Parse(args); err != nil {
-		if err.Error() == "flag: help requested" {
+		if errors.Is(err, flag.ErrHelp) {
 			return "", ExitOK, false
 		}
 		return "", ExitUsage, false
