@@ -152,8 +152,9 @@ func parseNumber(s string, hint numberHint) (float64, numInfo, *NumberError) {
 
 	// Mantissa: digit groups joined by separators, each separator followed
 	// directly by a digit.
-	var groups []string
-	var seps []rune
+	var groupBuf [8]string
+	var sepBuf [8]rune
+	groups, seps := groupBuf[:0], sepBuf[:0]
 	i := 0
 	start := 0
 	for {
@@ -242,11 +243,17 @@ func parseNumber(s string, hint numberHint) (float64, numInfo, *NumberError) {
 	// Decide which separator is the decimal one.
 	intGroups, frac := groups, ""
 	var group rune // thousands separator kind, 0 = none
-	kinds := map[rune]int{}
+	// kinds counts each separator kind; nk is the number of kinds used.
+	var kinds [4]int
+	kindIndex := func(k rune) int { return strings.IndexRune(".,' ", k) }
+	nk := 0
 	for _, k := range seps {
-		kinds[k]++
+		if kinds[kindIndex(k)] == 0 {
+			nk++
+		}
+		kinds[kindIndex(k)]++
 	}
-	switch len(kinds) {
+	switch nk {
 	case 0:
 	case 1:
 		k := seps[0]
@@ -276,7 +283,7 @@ func parseNumber(s string, hint numberHint) (float64, numInfo, *NumberError) {
 		}
 	case 2:
 		last := seps[len(seps)-1]
-		if (last != '.' && last != ',') || kinds[last] != 1 {
+		if (last != '.' && last != ',') || kinds[kindIndex(last)] != 1 {
 			return fail("mixes separators in a way that is not a number")
 		}
 		group = seps[0]
