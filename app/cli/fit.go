@@ -71,7 +71,8 @@ flags:
   --transform T        none | log_y | sqrt_y | reciprocal_y | log_log | box_cox
   --box-cox-lambda L   fix λ for --transform box_cox (default: estimated)
   --level P            confidence level, 0 < P < 1 (default 0.95)
-  --x-col C, --y-col C column number (1 = first) or header name
+  --x-col C, --y-col C column number (1 = first) or header name; the other
+                       column, if not given, is the first numeric one left
   --predict-x X        fitted y with intervals at X (repeatable)
   --inverse-y Y        x behind reading Y; "Y1;Y2;Y3" for repeat readings of
                        one unknown (repeatable, one unknown per flag)

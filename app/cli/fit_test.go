@@ -339,3 +339,14 @@ func BenchmarkFitJSON(b *testing.B) {
 		}
 	}
 }
+
+// TestFitHelp: --help prints the usage on stdout and succeeds (common
+// practice for command-line tools).
+func TestFitHelp(t *testing.T) {
+	for _, arg := range []string{"--help", "-h"} {
+		code, out, errs := runFitCmd(t, "", arg)
+		if code != ExitOK || !strings.HasPrefix(out, "usage: pairline fit") || errs != "" {
+			t.Errorf("%s: exit %d, stdout %.40q, stderr %q", arg, code, out, errs)
+		}
+	}
+}
