@@ -10,6 +10,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strconv"
 	"time"
 	"unicode/utf8"
 
@@ -443,22 +444,33 @@ func (b *bodyDecoder) mapEach(field string, fn func(key, path string) *FormatErr
 		}
 		for _, s := range seen {
 			if s == k {
-				return b.fail(koff, join(field, k), invalid("the field appears twice"))
+				return b.fail(koff, k, invalid("the field appears twice"))
 			}
 		}
 		seen = append(seen, k)
-		if ferr := fn(k, join(field, k)); ferr != nil {
+		if ferr := fn(k, ""); ferr != nil {
+			ferr.Field = prefixKey(k, ferr.Field)
 			return ferr
 		}
 	}
 	return nil
 }
 
-func join(field, key string) string {
-	if field == "" {
+// Paths are built only when something fails: each level of the body
+// decoder reports its failure with the path below it (empty for a value
+// itself), and each enclosing map or list prefixes its key or index.
+func prefixKey(key, rest string) string {
+	switch {
+	case rest == "":
 		return key
+	case rest[0] == '[':
+		return key + rest
 	}
-	return field + "." + key
+	return key + "." + rest
+}
+
+func prefixIndex(i int, rest string) string {
+	return prefixKey("["+strconv.Itoa(i)+"]", rest)
 }
 
 // arrayLen reads an array header, refusing more than max elements or more
@@ -648,7 +660,8 @@ func (b *bodyDecoder) bundle() ([]*Session, []int64, *FormatError) {
 			for i := range sessions {
 				starts[i] = b.off()
 				sessions[i] = new(Session)
-				if ferr := b.session(fmt.Sprintf("sessions[%d]", i), sessions[i]); ferr != nil {
+				if ferr := b.session("", sessions[i]); ferr != nil {
+					ferr.Field = prefixIndex(i, ferr.Field)
 					return ferr
 				}
 			}
@@ -746,7 +759,8 @@ func (b *bodyDecoder) session(field string, s *Session) *FormatError {
 			}
 			s.Readings = make([]Reading, n)
 			for i := range s.Readings {
-				if ferr := b.reading(fmt.Sprintf("%s[%d]", path, i), &s.Readings[i]); ferr != nil {
+				if ferr := b.reading("", &s.Readings[i]); ferr != nil {
+					ferr.Field = prefixIndex(i, ferr.Field)
 					return ferr
 				}
 			}
@@ -760,7 +774,8 @@ func (b *bodyDecoder) session(field string, s *Session) *FormatError {
 			}
 			s.History = make([]Edit, n)
 			for i := range s.History {
-				if ferr := b.edit(fmt.Sprintf("%s[%d]", path, i), &s.History[i]); ferr != nil {
+				if ferr := b.edit("", &s.History[i]); ferr != nil {
+					ferr.Field = prefixIndex(i, ferr.Field)
 					return ferr
 				}
 			}
