@@ -3,11 +3,15 @@ module pairline
 go 1.26
 
 require (
-	github.com/chromedp/cdproto v0.159.0 // indirect
-	github.com/chromedp/chromedp v0.23.0 // indirect
+	github.com/chromedp/cdproto v0.159.0
+	github.com/chromedp/chromedp v0.23.0
+	github.com/maxence-charriere/go-app/v10 v10.1.11
+	github.com/vmihailenco/msgpack/v5 v5.4.1
+	gonum.org/v1/gonum v0.17.0
+)
+
+require (
 	github.com/go-json-experiment/json v0.0.0-20260213210345-44df1a37e875 // indirect
-	github.com/maxence-charriere/go-app/v10 v10.1.11 // indirect
-	github.com/vmihailenco/msgpack/v5 v5.4.1 // indirect
+	github.com/google/uuid v1.6.0 // indirect
 	github.com/vmihailenco/tagparser/v2 v2.0.0 // indirect
-	gonum.org/v1/gonum v0.17.0 // indirect
 )
