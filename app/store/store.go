@@ -1,0 +1,71 @@
+// Package store keeps sessions on the device. In the browser (js/wasm) it
+// uses IndexedDB; elsewhere (the native build and go-app's server-side
+// prerendering) it keeps them in memory, so the same UI code runs in both.
+//
+// A session is stored as its encoded session file (the bytes the codec in
+// app/session writes) next to a small summary used by the session list, both
+// in one IndexedDB transaction: a replaced record is either written whole or
+// not at all, so a crash in the middle of a save leaves the previous state.
+package store
+
+import (
+	"errors"
+	"time"
+)
+
+// Summary is what the session list shows without decoding a session.
+type Summary struct {
+	ID       string
+	Title    string
+	Site     string
+	Modified time.Time
+	Readings int
+	// Deleted is when the session went to the trash; zero when it is not there.
+	Deleted time.Time
+}
+
+// TrashDays is how long a deleted session can be restored.
+const TrashDays = 30
+
+// Errors the store returns. Each reads as a sentence for the technician.
+var (
+	ErrNotFound    = errors.New("this session is not stored on this device")
+	ErrQuota       = errors.New("the device has no room left for Pairline's data: export and delete old sessions, then try again; the last saved state is kept")
+	ErrUnavailable = errors.New("this browser does not let Pairline store data (private mode or storage turned off): readings will be lost when the tab closes")
+)
+
+// Usage is what the browser reports of the storage used and allowed.
+type Usage struct {
+	Used, Quota int64
+	Persistent  bool
+}
+
+// Store is the device storage. Calls block until the browser has answered,
+// so call them off the UI goroutine (go-app's ctx.Async).
+type Store interface {
+	// List returns the sessions not in the trash, newest first.
+	List() ([]Summary, error)
+	// Trash returns the sessions in the trash, newest deletion first.
+	Trash() ([]Summary, error)
+	// Load returns a session's encoded bytes.
+	Load(id string) ([]byte, error)
+	// Save writes a session's bytes and summary in one transaction.
+	Save(sum Summary, body []byte) error
+	// Delete moves a session to the trash.
+	Delete(id string, now time.Time) error
+	// Restore takes a session out of the trash.
+	Restore(id string) error
+	// Purge removes for good the sessions deleted more than TrashDays before now.
+	Purge(now time.Time) (int, error)
+	// SetLast remembers the session that is open, to reopen it after a reload.
+	SetLast(id string) error
+	// Last returns the session last open, or "".
+	Last() (string, error)
+	// Usage asks for persistent storage and reports what is used.
+	Usage() (Usage, error)
+}
+
+// expired reports whether a trashed summary is past its restore window.
+func expired(s Summary, now time.Time) bool {
+	return !s.Deleted.IsZero() && now.Sub(s.Deleted) > TrashDays*24*time.Hour
+}
