@@ -1,0 +1,150 @@
+package ui
+
+import (
+	"strconv"
+	"time"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"pairline/app/session"
+)
+
+// renderReadings draws the readings table: quantity names and units on top,
+// one row of x and y cells per reading, and the count of usable pairs.
+func (c *Shell) renderReadings() app.UI {
+	s := c.sess
+	nProblems := len(c.view.problems)
+	return app.Section().Class("pl-card pl-readings").Attr("aria-label", "Readings").Body(
+		app.H2().Text("Readings"),
+		app.Div().Class("pl-quantities").Body(
+			c.quantity("x", "Known value (x)", s.XName, s.XUnit, session.FieldXName, session.FieldXUnit),
+			c.quantity("y", "Instrument value (y)", s.YName, s.YUnit, session.FieldYName, session.FieldYUnit),
+		),
+		app.Table().Class("pl-grid").Body(
+			app.THead().Body(app.Tr().Body(
+				app.Th().Text("#"),
+				app.Th().Text(colHead(s.XName, s.XUnit, "x")),
+				app.Th().Text(colHead(s.YName, s.YUnit, "y")),
+			)),
+			app.TBody().Body(
+				app.Range(s.Readings).Slice(func(i int) app.UI { return c.row(i) }),
+			),
+		),
+		app.Div().Class("pl-grid-foot").Body(
+			app.Button().Class("pl-btn pl-btn-wide").Text("+ Add reading").DataSet("testid", "add-row").
+				OnClick(func(ctx app.Context, e app.Event) {
+					i := c.sess.AddRow("", "", time.Now())
+					c.edited(ctx)
+					ctx.Defer(func(ctx app.Context) { focus("x-input-" + strconv.Itoa(i)) })
+				}),
+			app.P().Class("pl-count").DataSet("testid", "usable-count").DataSet("value", strconv.Itoa(c.view.usable)).
+				Text(countText(c.view.usable, nProblems)),
+		),
+	)
+}
+
+func colHead(name, unit, fallback string) string {
+	if name == "" {
+		name = fallback
+	}
+	if unit != "" {
+		return name + " (" + unit + ")"
+	}
+	return name
+}
+
+func countText(usable, problems int) string {
+	t := strconv.Itoa(usable) + " usable pair"
+	if usable != 1 {
+		t += "s"
+	}
+	switch problems {
+	case 0:
+	case 1:
+		t += " · 1 cell needs attention"
+	default:
+		t += " · " + strconv.Itoa(problems) + " cells need attention"
+	}
+	return t
+}
+
+func (c *Shell) quantity(col, label, name, unit, nameField, unitField string) app.UI {
+	return app.FieldSet().Class("pl-quantity").Body(
+		app.Legend().Text(label),
+		app.Label().Body(
+			app.Span().Text("Quantity"),
+			app.Input().Type("text").Value(name).DataSet("testid", col+"-name").
+				Attr("placeholder", "e.g. Reference standard").OnChange(c.onField(nameField)),
+		),
+		app.Label().Body(
+			app.Span().Text("Unit"),
+			app.Input().Type("text").Value(unit).DataSet("testid", col+"-unit").
+				Attr("placeholder", "e.g. µS/cm").OnChange(c.onField(unitField)),
+		),
+	)
+}
+
+func (c *Shell) row(i int) app.UI {
+	r := c.sess.Readings[i]
+	n := strconv.Itoa(i)
+	xProblem := c.view.problems[cellKey{i, session.ColumnX}]
+	yProblem := c.view.problems[cellKey{i, session.ColumnY}]
+	cls := "pl-row"
+	if r.Excluded {
+		cls += " pl-row-excluded"
+	}
+	return app.Tr().Class(cls).Body(
+		app.Td().Class("pl-rownum").Text(strconv.Itoa(i+1)),
+		c.cell(i, session.ColumnX, "x-input-"+n, r.X, xProblem),
+		c.cell(i, session.ColumnY, "y-input-"+n, r.Y, yProblem),
+	)
+}
+
+func (c *Shell) cell(row int, col session.Column, testid, text, problem string) app.UI {
+	label := "x"
+	if col == session.ColumnY {
+		label = "y"
+	}
+	in := app.Input().Type("text").Class("pl-cell").Value(text).
+		Attr("inputmode", "decimal").Attr("autocomplete", "off").Attr("enterkeyhint", "next").
+		Attr("aria-label", label+" of reading "+strconv.Itoa(row+1)).
+		DataSet("testid", testid).
+		OnInput(func(ctx app.Context, e app.Event) {
+			if err := c.sess.SetCell(row, col, ctx.JSSrc().Get("value").String(), time.Now()); err != nil {
+				c.notice = err.Error()
+				return
+			}
+			c.edited(ctx)
+		}).
+		OnKeyDown(func(ctx app.Context, e app.Event) {
+			if e.Get("key").String() != "Enter" {
+				return
+			}
+			e.PreventDefault()
+			c.enter(ctx, row, col)
+		})
+	if problem != "" {
+		in = in.Attr("aria-invalid", "true").Attr("title", problem)
+	}
+	return app.Td().Class("pl-cellwrap").Body(
+		in,
+		app.If(problem != "", func() app.UI {
+			return app.Span().Class("pl-problem").DataSet("testid", testid+"-problem").Text(problem)
+		}),
+	)
+}
+
+// enter moves on after Enter: x → y of the same row, y → x of the next row,
+// creating that row when it does not exist yet.
+func (c *Shell) enter(ctx app.Context, row int, col session.Column) {
+	if col == session.ColumnX {
+		focus("y-input-" + strconv.Itoa(row))
+		return
+	}
+	next := row + 1
+	if next >= len(c.sess.Readings) {
+		c.sess.AddRow("", "", time.Now())
+		c.edited(ctx)
+	}
+	ctx.Defer(func(ctx app.Context) { focus("x-input-" + strconv.Itoa(next)) })
+}

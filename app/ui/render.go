@@ -1,0 +1,116 @@
+package ui
+
+import (
+	"strconv"
+	"time"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"pairline/app/numfmt"
+	"pairline/app/session"
+)
+
+func digitsOf(text string) int { return numfmt.DigitsOf(text) }
+
+// Render draws the whole screen.
+func (c *Shell) Render() app.UI {
+	return app.Div().Class("pl-app").Body(
+		c.renderBar(),
+		app.If(c.updateReady, func() app.UI {
+			return app.Div().Class("pl-strip pl-strip-update").DataSet("testid", "update-ready").Body(
+				app.Span().Text("A new version of Pairline is ready. Your readings are saved; reload when it suits you."),
+				app.Button().Class("pl-btn").Text("Reload now").OnClick(func(ctx app.Context, e app.Event) { ctx.Reload() }),
+			)
+		}),
+		app.If(c.notice != "", func() app.UI {
+			return app.Div().Class("pl-strip").Attr("role", "status").Text(c.notice)
+		}),
+		app.If(c.listOpen, c.renderSessions),
+		app.If(c.sess == nil, func() app.UI {
+			return app.Main().Class("pl-main").Body(app.P().Class("pl-wait").Text("Opening your sessions…"))
+		}).Else(func() app.UI {
+			return app.Main().Class("pl-main").Body(
+				c.renderReadings(),
+				c.renderLine(),
+			)
+		}),
+	)
+}
+
+func (c *Shell) renderBar() app.UI {
+	title := ""
+	if c.sess != nil {
+		title = c.sess.Title
+	}
+	return app.Header().Class("pl-bar").Body(
+		app.Img().Class("pl-mark").Src("/web/icons/icon.svg").Alt(""),
+		app.Span().Class("pl-name").Text("Pairline"),
+		app.Input().Class("pl-title").Type("text").Value(title).
+			Attr("aria-label", "Session title").DataSet("testid", "session-title").
+			OnChange(c.onField(session.FieldTitle)),
+		app.Span().Class("pl-save").DataSet("testid", "save-status").DataSet("state", c.saveState).
+			Attr("role", "status").Text(saveText(c.saveState, c.saveMessage)),
+		app.Button().Class("pl-btn pl-btn-quiet").Text(listLabel(c.listOpen, len(c.sessions))).
+			DataSet("testid", "sessions-open").Attr("aria-expanded", strconv.FormatBool(c.listOpen)).
+			OnClick(func(ctx app.Context, e app.Event) { c.listOpen = !c.listOpen; c.confirmDel = "" }),
+		app.Button().Class("pl-btn").Text("New session").DataSet("testid", "session-new").OnClick(c.onNew),
+	)
+}
+
+func listLabel(open bool, n int) string {
+	if open {
+		return "Close list"
+	}
+	return "Sessions (" + strconv.Itoa(n) + ")"
+}
+
+func saveText(state, msg string) string {
+	switch state {
+	case "saved":
+		return "Saved on this device"
+	case "saving":
+		return "Saving…"
+	case "failed":
+		return "Not saved: " + msg
+	}
+	return ""
+}
+
+func (c *Shell) onField(field string) app.EventHandler {
+	return func(ctx app.Context, e app.Event) {
+		if c.sess == nil {
+			return
+		}
+		if err := c.sess.SetField(field, ctx.JSSrc().Get("value").String(), time.Now()); err != nil {
+			c.notice = err.Error()
+			return
+		}
+		c.edited(ctx)
+	}
+}
+
+func (c *Shell) onNew(ctx app.Context, e app.Event) {
+	s, err := newSession(time.Now())
+	if err != nil {
+		c.notice = err.Error()
+		return
+	}
+	c.show(s)
+	c.listOpen = false
+	c.save(ctx)
+	st := c.st
+	ctx.Async(func() {
+		if st != nil {
+			st.SetLast(s.ID)
+		}
+	})
+	ctx.Defer(func(ctx app.Context) { focus("x-input-0") })
+}
+
+// focus moves the keyboard focus to the element with that data-testid.
+func focus(testid string) {
+	el := app.Window().Get("document").Call("querySelector", `[data-testid="`+testid+`"]`)
+	if el.Truthy() {
+		el.Call("focus")
+	}
+}

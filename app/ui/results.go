@@ -1,0 +1,65 @@
+package ui
+
+import (
+	"strconv"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"pairline/app/numfmt"
+)
+
+// renderLine draws the fitted line's headline numbers, or the sentence that
+// says why there is no line yet.
+func (c *Shell) renderLine() app.UI {
+	rep := c.view.report
+	if rep == nil {
+		return app.Section().Class("pl-card pl-line").Attr("aria-label", "Line").Body(
+			app.H2().Text("Line"),
+			app.P().Class("pl-message").DataSet("testid", "result-message").Text(c.view.message),
+		)
+	}
+	sig := numfmt.Precision(c.view.digits)
+	xu, yu := c.sess.XUnit, c.sess.YUnit
+	slopeUnit := ""
+	if xu != "" || yu != "" {
+		slopeUnit = unitOr(yu, "y") + " per " + unitOr(xu, "x")
+	}
+	return app.Section().Class("pl-card pl-line").Attr("aria-label", "Line").Body(
+		app.H2().Text("Line"),
+		app.P().Class("pl-equation").Text("y = "+numfmt.Sig(rep.Intercept.Estimate, sig)+" + "+numfmt.Sig(rep.Slope.Estimate, sig)+" · x"),
+		app.Dl().Class("pl-figures").Body(
+			figure("result-n", "Pairs used (n)", float64(rep.N), itoa(rep.N), ""),
+			figure("result-slope", "Slope", rep.Slope.Estimate, numfmt.Sig(rep.Slope.Estimate, sig), slopeUnit+"  ± "+numfmt.Sig(rep.Slope.SE, 2)+" (SE)"),
+			figure("result-intercept", "Intercept", rep.Intercept.Estimate, numfmt.Sig(rep.Intercept.Estimate, sig), joinUnit(yu, " ± "+numfmt.Sig(rep.Intercept.SE, 2)+" (SE)")),
+			figure("result-r", "Correlation r", rep.R, numfmt.Decimals(rep.R, 6), ""),
+			figure("result-r-squared", "R²", rep.RSquared, numfmt.Decimals(rep.RSquared, 6), ""),
+			figure("result-residual-se", "Residual SD", rep.ResidualSE, numfmt.Sig(rep.ResidualSE, 3), yu),
+		),
+	)
+}
+
+func figure(testid, label string, value float64, shown, unit string) app.UI {
+	return app.Div().Class("pl-figure").Body(
+		app.Dt().Text(label),
+		app.Dd().Body(
+			app.Span().Class("pl-num").DataSet("testid", testid).DataSet("value", numfmt.Full(value)).Text(shown),
+			app.If(unit != "", func() app.UI { return app.Span().Class("pl-unit").Text(" " + unit) }),
+		),
+	)
+}
+
+func unitOr(u, fallback string) string {
+	if u == "" {
+		return fallback + " unit"
+	}
+	return u
+}
+
+func joinUnit(unit, rest string) string {
+	if unit == "" {
+		return rest[1:]
+	}
+	return unit + rest
+}
+
+func itoa(n int) string { return strconv.Itoa(n) }

@@ -1,0 +1,259 @@
+// Package ui holds Pairline's go-app components. Components keep only UI
+// state and render what fitcore and app/session compute; they never compute
+// statistics themselves.
+package ui
+
+import (
+	"bytes"
+	"fmt"
+	"time"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"pairline/app/session"
+	"pairline/app/store"
+	"pairline/fitcore"
+)
+
+// Register declares the app's pages. The browser and the native build (which
+// prerenders the pages) must both call it.
+func Register() {
+	app.Route("/", func() app.Composer { return &Shell{} })
+}
+
+// Shell is the whole app screen: the session being edited, its readings and
+// its line, and the list of stored sessions.
+type Shell struct {
+	app.Compo
+
+	st      store.Store
+	storeOK bool
+	sess    *session.Session
+	view    analysis
+
+	sessions    []store.Summary
+	listOpen    bool
+	confirmDel  string // id of the session whose deletion is being confirmed
+	renaming    string // id of the session being renamed
+	renameText  string
+	saveState   string // "saved", "saving", "failed", "" before the first save
+	saveMessage string
+	notice      string // a sentence shown in the message strip
+	updateReady bool
+
+	saves chan saveJob
+}
+
+type saveJob struct {
+	sum  store.Summary
+	body []byte
+}
+
+// analysis is what the screen shows of a session: the report (or the reason
+// there is none) and the cells that could not be used.
+type analysis struct {
+	report   *fitcore.Report
+	message  string // why there is no report
+	problems map[cellKey]string
+	usable   int
+	digits   int // most significant digits typed in any usable cell
+}
+
+type cellKey struct {
+	row int
+	col session.Column
+}
+
+// OnMount opens the device store and reopens the last session.
+func (c *Shell) OnMount(ctx app.Context) {
+	c.updateReady = ctx.AppUpdateAvailable()
+	c.saves = make(chan saveJob, 1)
+	ctx.Async(func() {
+		st, err := store.Open()
+		if err != nil {
+			st = store.NewMemory()
+			ctx.Dispatch(func(ctx app.Context) { c.notice = err.Error() })
+		} else {
+			st.Purge(time.Now())
+		}
+		sess, err := openLast(st)
+		list, _ := st.List()
+		ctx.Dispatch(func(ctx app.Context) {
+			c.st, c.storeOK = st, err == nil
+			c.sessions = list
+			if err != nil {
+				c.notice = err.Error()
+			}
+			c.show(sess)
+			c.startSaver(ctx)
+			if len(list) == 0 || list[0].ID != sess.ID {
+				c.save(ctx)
+			}
+			ctx.Async(func() { st.SetLast(sess.ID) })
+		})
+	})
+}
+
+// OnAppUpdate is called by go-app once a new version has been installed in
+// the background. The technician decides when to reload.
+func (c *Shell) OnAppUpdate(ctx app.Context) {
+	c.updateReady = ctx.AppUpdateAvailable()
+}
+
+// openLast returns the session open before the page was closed, the newest
+// stored one when that is gone, or a new one.
+func openLast(st store.Store) (*session.Session, error) {
+	if id, err := st.Last(); err == nil && id != "" {
+		if s, err := load(st, id); err == nil {
+			return s, nil
+		}
+	}
+	if list, err := st.List(); err == nil && len(list) > 0 {
+		if s, err := load(st, list[0].ID); err == nil {
+			return s, nil
+		}
+	}
+	return newSession(time.Now())
+}
+
+func load(st store.Store, id string) (*session.Session, error) {
+	b, err := st.Load(id)
+	if err != nil {
+		return nil, err
+	}
+	f, err := session.Decode(bytes.NewReader(b))
+	if err != nil {
+		return nil, fmt.Errorf("the stored session could not be read: %w", err)
+	}
+	if len(f.Sessions) != 1 {
+		return nil, fmt.Errorf("the stored record holds %d sessions, not one", len(f.Sessions))
+	}
+	return f.Sessions[0], nil
+}
+
+// newSession starts an empty session with one blank row, ready for typing.
+func newSession(now time.Time) (*session.Session, error) {
+	s, err := session.New("Session of "+now.Format("2 Jan 2006 15:04"), now, nil)
+	if err != nil {
+		return nil, err
+	}
+	s.XName, s.YName = "Reference", "Reading"
+	s.AddRow("", "", now)
+	return s, nil
+}
+
+// show makes s the open session and analyses it.
+func (c *Shell) show(s *session.Session) {
+	c.sess = s
+	c.analyse()
+}
+
+// analyse runs fitcore on the usable pairs of the open session.
+func (c *Shell) analyse() {
+	x, y, rows, problems := c.sess.Pairs()
+	a := analysis{problems: make(map[cellKey]string, len(problems)), usable: len(rows)}
+	for _, p := range problems {
+		a.problems[cellKey{p.Row, p.Column}] = p.Reason
+	}
+	for _, r := range rows {
+		a.digits = max(a.digits, digitsOf(c.sess.Readings[r].X), digitsOf(c.sess.Readings[r].Y))
+	}
+	rep, err := fitcore.Analyze(x, y, c.sess.Settings.Options())
+	if err != nil {
+		a.message = plainFitError(err, len(rows))
+	} else {
+		a.report = rep
+	}
+	c.view = a
+}
+
+// edited is called after every change to the open session: the screen is
+// re-analysed and the session written to the device at once.
+func (c *Shell) edited(ctx app.Context) {
+	c.analyse()
+	c.save(ctx)
+}
+
+// save encodes the open session and hands it to the saver. Only the newest
+// state waits: an older pending one is replaced, never written after it.
+func (c *Shell) save(ctx app.Context) {
+	if c.st == nil || c.sess == nil {
+		return
+	}
+	job, err := encodeJob(c.sess)
+	if err != nil {
+		c.saveState, c.saveMessage = "failed", "This session could not be saved: "+err.Error()
+		return
+	}
+	select {
+	case <-c.saves:
+	default:
+	}
+	c.saves <- job
+	c.saveState = "saving"
+}
+
+// encodeJob encodes a session as its stored record and summary.
+func encodeJob(s *session.Session) (saveJob, error) {
+	var buf bytes.Buffer
+	if err := session.Encode(&buf, []*session.Session{s}); err != nil {
+		return saveJob{}, err
+	}
+	return saveJob{
+		sum:  store.Summary{ID: s.ID, Title: s.Title, Site: s.Site, Modified: s.Modified, Readings: len(s.Readings)},
+		body: buf.Bytes(),
+	}, nil
+}
+
+// saveNow writes a session that is not the open one (call off the UI goroutine).
+func saveNow(st store.Store, s *session.Session) error {
+	job, err := encodeJob(s)
+	if err != nil {
+		return err
+	}
+	return st.Save(job.sum, job.body)
+}
+
+// startSaver writes queued states one after the other, off the UI goroutine.
+func (c *Shell) startSaver(ctx app.Context) {
+	st, saves := c.st, c.saves
+	ctx.Async(func() {
+		for job := range saves {
+			err := st.Save(job.sum, job.body)
+			list, _ := st.List()
+			ctx.Dispatch(func(ctx app.Context) {
+				c.sessions = list
+				if err != nil {
+					c.saveState, c.saveMessage = "failed", err.Error()
+					return
+				}
+				if len(c.saves) == 0 {
+					c.saveState, c.saveMessage = "saved", ""
+				}
+			})
+		}
+	})
+}
+
+// OnDismount stops the saver.
+func (c *Shell) OnDismount() {
+	if c.saves != nil {
+		close(c.saves)
+		c.saves = nil
+	}
+}
+
+func plainFitError(err error, usable int) string {
+	switch {
+	case usable < 3:
+		return fmt.Sprintf("A line needs at least 3 usable pairs of readings; there %s %d so far.", isAre(usable), usable)
+	}
+	return err.Error()
+}
+
+func isAre(n int) string {
+	if n == 1 {
+		return "is"
+	}
+	return "are"
+}
