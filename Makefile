@@ -1,0 +1,83 @@
+SHELL := /bin/bash
+# Pairline — build, serve and test. `make run` and `make test` are all a new
+# machine needs (see README.md).
+
+ADDR      ?= 127.0.0.1:8000
+GO        ?= go
+WASM_LDFLAGS := -s -w
+CHROMIUM  ?= $(shell command -v chromium || command -v chromium-browser || true)
+
+.PHONY: all wasm bin run build test fmt-check vet unit browser bench fuzz refcheck icons clean
+
+all: wasm bin
+
+## wasm: compile the app to web/app.wasm
+wasm:
+	GOOS=js GOARCH=wasm $(GO) build -trimpath -ldflags="$(WASM_LDFLAGS)" -o web/app.wasm ./wasm
+
+## bin: build the native command bin/pairline
+bin:
+	$(GO) build -trimpath -o bin/pairline ./wasm
+
+## run: build everything and serve the app at http://$(ADDR)
+run: wasm bin
+	./bin/pairline serve --addr $(ADDR)
+
+## build: write the static site to dist/
+build: wasm bin
+	rm -rf dist
+	./bin/pairline build --out dist
+
+## test: formatting, vet, unit tests and browser tests
+test: fmt-check vet unit browser
+
+fmt-check:
+	@out="$$(gofmt -l app fitcore wasm web testdata)"; \
+	if [ -n "$$out" ]; then echo "gofmt needed on:"; echo "$$out"; exit 1; fi
+
+vet:
+	$(GO) vet ./...
+	GOOS=js GOARCH=wasm $(GO) vet ./wasm ./app/...
+
+unit:
+	$(GO) test -count=1 ./...
+
+## browser: the end-to-end tests in headless Chromium against the real server
+browser: wasm bin
+	@chromium="$(CHROMIUM)"; \
+	if [ -z "$$chromium" ]; then \
+	  if [ "$$CI" = "true" ]; then echo "FAIL: Chromium is not installed, and CI needs the browser tests (.ci/run installs it)"; exit 1; fi; \
+	  if [ "$$(id -u)" = "0" ] && command -v apt-get >/dev/null; then \
+	    echo "Chromium is missing: installing Debian's chromium"; \
+	    apt-get update -q && DEBIAN_FRONTEND=noninteractive apt-get install -y -q chromium || exit 1; \
+	    chromium="$$(command -v chromium)"; \
+	  else \
+	    echo "SKIPPED browser tests: Chromium is not installed (apt-get install chromium, as root)"; exit 0; \
+	  fi; \
+	fi; \
+	PAIRLINE_CHROMIUM="$$chromium" PAIRLINE_BIN="$(CURDIR)/bin/pairline" PAIRLINE_WEB="$(CURDIR)/web" \
+	  $(GO) test -count=1 -tags e2e -timeout 20m -v ./app/e2e/
+
+## bench: the benchmarks of the numerical core and the session codec
+bench:
+	$(GO) test -run '^$$' -bench . -benchmem ./fitcore/ ./app/session/
+
+## fuzz: a short run of every fuzz test (FUZZTIME per target)
+FUZZTIME ?= 15s
+fuzz:
+	@for pkg in ./fitcore ./app/session ./app/numfmt; do \
+	  for f in $$($(GO) test -list '^Fuzz' $$pkg | grep '^Fuzz'); do \
+	    echo "fuzz $$pkg $$f"; $(GO) test -run '^$$' -fuzz "^$$f$$" -fuzztime $(FUZZTIME) $$pkg || exit 1; \
+	  done; \
+	done
+
+## refcheck: regenerate the statsmodels/scipy goldens and compare
+refcheck:
+	bash testdata/refgen/refcheck.sh
+
+## icons: redraw the app icons
+icons:
+	$(GO) run web/icons/gen.go
+
+clean:
+	rm -rf bin dist web/app.wasm

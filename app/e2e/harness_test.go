@@ -1,0 +1,224 @@
+//go:build e2e
+
+package e2e
+
+import (
+	"context"
+	"fmt"
+	"net"
+	"net/http"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"sync"
+	"testing"
+	"time"
+
+	"github.com/chromedp/cdproto/cdp"
+	"github.com/chromedp/cdproto/network"
+	"github.com/chromedp/chromedp"
+)
+
+// Viewports used for screenshots: a 10-inch tablet in portrait and a phone.
+var (
+	tablet = [2]int64{800, 1280}
+	phone  = [2]int64{390, 844}
+)
+
+// chromiumPath returns the browser to drive. Without one the tests fail in
+// CI (CI=true) and skip visibly elsewhere.
+func chromiumPath(t testing.TB) string {
+	p := os.Getenv("PAIRLINE_CHROMIUM")
+	if p == "" {
+		for _, c := range []string{"chromium", "chromium-browser"} {
+			if lp, err := exec.LookPath(c); err == nil {
+				p = lp
+				break
+			}
+		}
+	}
+	if p == "" {
+		if os.Getenv("CI") == "true" {
+			t.Fatal("Chromium is not installed: CI must run the browser tests")
+		}
+		t.Skip("SKIPPED browser tests: Chromium is not installed")
+	}
+	return p
+}
+
+// server is a running `pairline serve`.
+type server struct {
+	URL  string
+	cmd  *exec.Cmd
+	once sync.Once
+}
+
+// startServer runs the native command on a free loopback port.
+func startServer(t testing.TB) *server {
+	t.Helper()
+	bin := os.Getenv("PAIRLINE_BIN")
+	web := os.Getenv("PAIRLINE_WEB")
+	if bin == "" || web == "" {
+		root, _ := filepath.Abs("../..")
+		bin, web = filepath.Join(root, "bin", "pairline"), filepath.Join(root, "web")
+	}
+	if _, err := os.Stat(filepath.Join(web, "app.wasm")); err != nil {
+		t.Fatalf("the app is not built (%v): run `make browser`", err)
+	}
+	ln, err := net.Listen("tcp", "127.0.0.1:0")
+	if err != nil {
+		t.Fatal(err)
+	}
+	addr := ln.Addr().String()
+	ln.Close()
+	cmd := exec.Command(bin, "serve", "--addr", addr, "--web", web)
+	cmd.Stdout, cmd.Stderr = os.Stderr, os.Stderr
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	s := &server{URL: "http://" + addr, cmd: cmd}
+	t.Cleanup(s.Stop)
+	deadline := time.Now().Add(15 * time.Second)
+	for {
+		resp, err := http.Get(s.URL + "/web/app.wasm")
+		if err == nil {
+			resp.Body.Close()
+			if resp.StatusCode == 200 {
+				return s
+			}
+		}
+		if time.Now().After(deadline) {
+			t.Fatalf("the server did not answer at %s: %v", s.URL, err)
+		}
+		time.Sleep(100 * time.Millisecond)
+	}
+}
+
+// Stop ends the server process and waits until the port no longer answers.
+func (s *server) Stop() {
+	s.once.Do(func() {
+		s.cmd.Process.Kill()
+		s.cmd.Wait()
+	})
+}
+
+// browser is one headless Chromium with a fresh profile, and the record of
+// every URL the page asked for.
+type browser struct {
+	ctx      context.Context
+	mu       sync.Mutex
+	requests []string
+}
+
+func newBrowser(t testing.TB, size [2]int64) *browser {
+	t.Helper()
+	opts := []chromedp.ExecAllocatorOption{
+		chromedp.ExecPath(chromiumPath(t)),
+		chromedp.Headless,
+		chromedp.NoSandbox,
+		chromedp.DisableGPU,
+		chromedp.NoFirstRun,
+		chromedp.Flag("disable-quic", true),
+		chromedp.Flag("disable-background-networking", true),
+		chromedp.Flag("disable-component-update", true),
+		chromedp.Flag("disable-sync", true),
+		chromedp.Flag("disable-dev-shm-usage", true),
+		chromedp.UserDataDir(t.TempDir()),
+		chromedp.WindowSize(int(size[0]), int(size[1])),
+	}
+	actx, cancelA := chromedp.NewExecAllocator(context.Background(), opts...)
+	ctx, cancelC := chromedp.NewContext(actx)
+	ctx, cancelT := context.WithTimeout(ctx, 4*time.Minute)
+	t.Cleanup(func() { cancelT(); cancelC(); cancelA() })
+	b := &browser{ctx: ctx}
+	if err := chromedp.Do(ctx, chromedp.EmulateViewport(size[0], size[1])); err != nil {
+		t.Fatalf("cannot start Chromium: %v", err)
+	}
+	events := chromedp.Events(ctx, network.RequestWillBeSent)
+	if err := chromedp.Do(ctx, chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
+		_, err := cdp.Call(ctx, tg, network.Enable, network.EnableParams{})
+		return err
+	})); err != nil {
+		t.Fatal(err)
+	}
+	go func() {
+		for ev, err := range events {
+			if err != nil {
+				return
+			}
+			b.mu.Lock()
+			b.requests = append(b.requests, ev.Request.URL)
+			b.mu.Unlock()
+		}
+	}()
+	return b
+}
+
+// foreign returns the requests that went anywhere but origin.
+func (b *browser) foreign(origin string) []string {
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	var out []string
+	for _, u := range b.requests {
+		if strings.HasPrefix(u, origin+"/") || u == origin || strings.HasPrefix(u, "data:") || strings.HasPrefix(u, "blob:") {
+			continue
+		}
+		out = append(out, u)
+	}
+	return out
+}
+
+func (b *browser) do(t testing.TB, actions ...chromedp.Action[chromedp.Void]) {
+	t.Helper()
+	if err := chromedp.Do(b.ctx, actions...); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// eval evaluates a JavaScript expression (awaiting a promise) and returns its value.
+func eval[T any](t testing.TB, b *browser, expr string) T {
+	t.Helper()
+	v, err := chromedp.Run(b.ctx, chromedp.Evaluate[T](expr, chromedp.EvalAwaitPromise))
+	if err != nil {
+		t.Fatalf("evaluating %s: %v", expr, err)
+	}
+	return v
+}
+
+// waitFor polls a JavaScript condition until it is true.
+func waitFor(t testing.TB, b *browser, what, cond string, timeout time.Duration) {
+	t.Helper()
+	ctx, cancel := context.WithTimeout(b.ctx, timeout)
+	defer cancel()
+	if _, err := chromedp.Run(ctx, chromedp.Poll[bool](cond, chromedp.WithPollingInterval(50*time.Millisecond))); err != nil {
+		t.Fatalf("waiting for %s: %v", what, err)
+	}
+}
+
+func sel(testid string) chromedp.CSS { return chromedp.CSS(`[data-testid="` + testid + `"]`) }
+
+// attr reads an attribute of the element with that data-testid.
+func attr(t testing.TB, b *browser, testid, name string) string {
+	t.Helper()
+	return eval[string](t, b, fmt.Sprintf(`(document.querySelector('[data-testid=%q]')||{getAttribute:()=>"<missing>"}).getAttribute(%q) || ""`, testid, name))
+}
+
+// screenshot saves a full-page PNG under artifacts/ (PAIRLINE_ARTIFACTS overrides).
+func screenshot(t testing.TB, b *browser, name string) {
+	t.Helper()
+	dir := os.Getenv("PAIRLINE_ARTIFACTS")
+	if dir == "" {
+		dir, _ = filepath.Abs("../../artifacts")
+	}
+	os.MkdirAll(dir, 0o755)
+	buf, err := chromedp.Run(b.ctx, chromedp.FullScreenshot(100))
+	if err != nil {
+		t.Fatalf("screenshot: %v", err)
+	}
+	path := filepath.Join(dir, name+".png")
+	if err := os.WriteFile(path, buf, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("screenshot: %s", path)
+}
