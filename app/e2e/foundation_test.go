@@ -65,7 +65,7 @@ func TestFoundation(t *testing.T) {
 		t.Error("a first visit must not announce an update")
 	}
 	typePairs(t, b, fivePairs)
-	waitFor(t, b, "the line", `!!document.querySelector('[data-testid="result-slope"]')`, 5*time.Second)
+	waitFor(t, b, "the line from 5 pairs", `document.querySelector('[data-testid="result-n"]')?.dataset.value === "5"`, 10*time.Second)
 	if got := num(t, b, "result-n"); got != 5 {
 		t.Fatalf("n = %v, want 5", got)
 	}

@@ -186,14 +186,22 @@ func eval[T any](t testing.TB, b *browser, expr string) T {
 	return v
 }
 
-// waitFor polls a JavaScript condition until it is true.
+// waitFor evaluates a JavaScript condition (which may be a promise) every
+// 100 ms until it is truthy.
 func waitFor(t testing.TB, b *browser, what, cond string, timeout time.Duration) {
 	t.Helper()
-	ctx, cancel := context.WithTimeout(b.ctx, timeout)
-	defer cancel()
-	if _, err := chromedp.Run(ctx, chromedp.Poll[bool](cond, chromedp.WithPollingInterval(50*time.Millisecond))); err != nil {
-		t.Fatalf("waiting for %s: %v", what, err)
+	expr := "(async () => !!(await (" + cond + ")))()"
+	deadline := time.Now().Add(timeout)
+	var last error
+	for time.Now().Before(deadline) {
+		ok, err := chromedp.Run(b.ctx, chromedp.Evaluate[bool](expr, chromedp.EvalAwaitPromise))
+		if err == nil && ok {
+			return
+		}
+		last = err
+		time.Sleep(100 * time.Millisecond)
 	}
+	t.Fatalf("waiting for %s: not true after %v (last error: %v)", what, timeout, last)
 }
 
 func sel(testid string) chromedp.CSS { return chromedp.CSS(`[data-testid="` + testid + `"]`) }
