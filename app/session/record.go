@@ -196,10 +196,30 @@ func New(title string, now time.Time, random io.Reader) (*Session, error) {
 	return &Session{ID: id, Title: title, Created: now, Modified: now, Settings: DefaultSettings()}, nil
 }
 
+// TypingWindow is how close together successive changes of one cell must be
+// to count as one edit: typing "12.5" key by key is one change from "" to
+// "12.5", not four. A pause longer than this starts a new history entry.
+const TypingWindow = 20 * time.Second
+
 func (s *Session) record(now time.Time, field string, row int, old, new string) {
 	now = now.UTC()
-	s.History = append(s.History, Edit{At: now, Field: field, Row: row, Old: old, New: new})
 	s.Modified = now
+	if n := len(s.History); n > 0 && isCellField(field) {
+		last := &s.History[n-1]
+		if last.Field == field && last.Row == row && last.New == old && now.Sub(last.At) >= 0 && now.Sub(last.At) < TypingWindow {
+			last.New, last.At = new, now
+			if last.New == last.Old {
+				// Typed back to what it was: nothing changed after all.
+				s.History = s.History[:n-1]
+			}
+			return
+		}
+	}
+	s.History = append(s.History, Edit{At: now, Field: field, Row: row, Old: old, New: new})
+}
+
+func isCellField(field string) bool {
+	return field == ColumnX.String() || field == ColumnY.String() || field == ColumnNote.String()
 }
 
 // AddRow appends a reading with the given cell texts and returns its index.
