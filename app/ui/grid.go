@@ -14,6 +14,7 @@ import (
 func (c *Shell) renderReadings() app.UI {
 	s := c.sess
 	nProblems := len(c.view.problems)
+	lo, hi := c.pageRange()
 	return app.Section().Class("pl-card pl-readings").Attr("aria-label", "Readings").Body(
 		app.H2().Text("Readings"),
 		app.Div().Class("pl-quantities").Body(
@@ -27,19 +28,44 @@ func (c *Shell) renderReadings() app.UI {
 				app.Th().Text(colHead(s.YName, s.YUnit, "y")),
 			)),
 			app.TBody().Body(
-				app.Range(s.Readings).Slice(func(i int) app.UI { return c.row(i) }),
+				app.Range(make([]struct{}, hi-lo)).Slice(func(i int) app.UI { return c.row(lo + i) }),
 			),
 		),
+		app.If(len(s.Readings) > pageSize, func() app.UI { return c.pager(lo, hi) }),
 		app.Div().Class("pl-grid-foot").Body(
 			app.Button().Class("pl-btn pl-btn-wide").Text("+ Add reading").DataSet("testid", "add-row").
 				OnClick(func(ctx app.Context, e app.Event) {
 					i := c.sess.AddRow("", "", time.Now())
+					c.page = i / pageSize
 					c.edited(ctx)
 					ctx.Defer(func(ctx app.Context) { focus("x-input-" + strconv.Itoa(i)) })
 				}),
 			app.P().Class("pl-count").DataSet("testid", "usable-count").DataSet("value", strconv.Itoa(c.view.usable)).
 				Text(countText(c.view.usable, nProblems)),
 		),
+	)
+}
+
+// pageSize is how many readings the grid shows at once; long sessions are
+// paged so that the page stays quick (the statistics use every reading).
+const pageSize = 100
+
+func (c *Shell) pageRange() (lo, hi int) {
+	n := len(c.sess.Readings)
+	last := max(0, (n-1)/pageSize)
+	c.page = min(max(c.page, 0), last)
+	lo = c.page * pageSize
+	return lo, min(n, lo+pageSize)
+}
+
+func (c *Shell) pager(lo, hi int) app.UI {
+	n := len(c.sess.Readings)
+	return app.Div().Class("pl-pager").Body(
+		app.Button().Class("pl-btn pl-btn-quiet").Text("‹ Previous").DataSet("testid", "page-prev").
+			Disabled(lo == 0).OnClick(func(ctx app.Context, e app.Event) { c.page-- }),
+		app.Span().DataSet("testid", "page-info").Text("Readings "+strconv.Itoa(lo+1)+"–"+strconv.Itoa(hi)+" of "+strconv.Itoa(n)),
+		app.Button().Class("pl-btn pl-btn-quiet").Text("Next ›").DataSet("testid", "page-next").
+			Disabled(hi >= n).OnClick(func(ctx app.Context, e app.Event) { c.page++ }),
 	)
 }
 
@@ -146,5 +172,6 @@ func (c *Shell) enter(ctx app.Context, row int, col session.Column) {
 		c.sess.AddRow("", "", time.Now())
 		c.edited(ctx)
 	}
+	c.page = next / pageSize
 	ctx.Defer(func(ctx app.Context) { focus("x-input-" + strconv.Itoa(next)) })
 }

@@ -26,6 +26,9 @@ func (c *Shell) renderLine() app.UI {
 	}
 	return app.Section().Class("pl-card pl-line").Attr("aria-label", "Line").Body(
 		app.H2().Text("Line"),
+		app.If(c.view.stale, func() app.UI {
+			return app.P().Class("pl-stale").DataSet("testid", "result-stale").Text("Updating after your last change…")
+		}),
 		app.P().Class("pl-equation").Text("y = "+numfmt.Sig(rep.Intercept.Estimate, sig)+" + "+numfmt.Sig(rep.Slope.Estimate, sig)+" · x"),
 		app.Dl().Class("pl-figures").Body(
 			figure("result-n", "Pairs used (n)", float64(rep.N), itoa(rep.N), ""),

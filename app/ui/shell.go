@@ -41,7 +41,9 @@ type Shell struct {
 	notice      string // a sentence shown in the message strip
 	updateReady bool
 
-	saves chan saveJob
+	saves   chan saveJob
+	editSeq int // counts edits, to run delayed work only for the latest
+	page    int // page of the readings grid shown (pageSize rows each)
 }
 
 type saveJob struct {
@@ -56,7 +58,8 @@ type analysis struct {
 	message  string // why there is no report
 	problems map[cellKey]string
 	usable   int
-	digits   int // most significant digits typed in any usable cell
+	digits   int  // most significant digits typed in any usable cell
+	stale    bool // readings changed since the report was computed
 }
 
 type cellKey struct {
@@ -145,6 +148,7 @@ func newSession(now time.Time) (*session.Session, error) {
 // show makes s the open session and analyses it.
 func (c *Shell) show(s *session.Session) {
 	c.sess = s
+	c.page = 0
 	c.analyse()
 }
 
@@ -167,11 +171,34 @@ func (c *Shell) analyse() {
 	c.view = a
 }
 
+// bigSession is the number of readings from which analysing and encoding a
+// session takes longer than a keystroke may (measured: tens of ms in the
+// browser); such sessions are analysed and saved once typing pauses.
+const bigSession = 2000
+
+// idleDelay is the pause in typing after which a big session is analysed
+// and saved.
+const idleDelay = 250 * time.Millisecond
+
 // edited is called after every change to the open session: the screen is
-// re-analysed and the session written to the device at once.
+// re-analysed and the session written to the device at once (for big
+// sessions, as soon as typing pauses, so that typing never stalls).
 func (c *Shell) edited(ctx app.Context) {
-	c.analyse()
-	c.save(ctx)
+	c.editSeq++
+	if len(c.sess.Readings) < bigSession {
+		c.analyse()
+		c.save(ctx)
+		return
+	}
+	c.view.stale = true
+	seq := c.editSeq
+	ctx.After(idleDelay, func(ctx app.Context) {
+		if seq != c.editSeq {
+			return
+		}
+		c.analyse()
+		c.save(ctx)
+	})
 }
 
 // save encodes the open session and hands it to the saver. Only the newest

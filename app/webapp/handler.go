@@ -41,9 +41,17 @@ const (
 
 // staticFiles are the files under web/ that the app uses and the service
 // worker must cache, besides app.wasm and the icons that go-app adds itself.
-var staticFiles = []string{
+var staticFiles = append([]string{"/web/icons/icon.svg"}, stylesheets...)
+
+// stylesheets are loaded in this order; each part of the UI keeps its rules
+// in a file of its own.
+var stylesheets = []string{
 	"/web/pairline.css",
-	"/web/icons/icon.svg",
+	"/web/analysis.css",
+	"/web/plots.css",
+	"/web/report.css",
+	"/web/transfer.css",
+	"/web/themes.css",
 }
 
 // Handler returns the go-app handler for Pairline. webDir is the folder
@@ -70,7 +78,7 @@ func Handler(webDir, version string) *app.Handler {
 		BackgroundColor:       BackgroundColor,
 		ThemeColor:            ThemeColor,
 		LoadingLabel:          "Loading Pairline… {progress}%",
-		Styles:                []string{"/web/pairline.css"},
+		Styles:                stylesheets,
 		CacheableResources:    staticFiles,
 		RawHeaders:            []string{`<meta http-equiv="Content-Security-Policy" content="` + ContentSecurityPolicy + `">`},
 		ServiceWorkerTemplate: workerJS,
