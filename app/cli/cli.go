@@ -27,8 +27,9 @@ Usage:
       (pairline fit --help lists the flags).
   pairline inspect [--json] FILE
       Show a .pairline session file: metadata, checksum status, analysis.
-  pairline export-csv FILE
-      Write the readings of a .pairline session file as CSV.
+  pairline export-csv [--session N|ID] FILE
+      Write the readings of a .pairline session file as CSV (the first
+      session, or the one chosen by number from 1 or by ID).
   pairline help
       Show this text.
 `
@@ -60,6 +61,12 @@ func Main(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 // file of this package.
 var commands = map[string]func(args []string, stdin io.Reader, stdout, stderr io.Writer) int{
 	"fit": Fit,
+	"inspect": func(args []string, _ io.Reader, stdout, stderr io.Writer) int {
+		return Inspect(args, stdout, stderr)
+	},
+	"export-csv": func(args []string, _ io.Reader, stdout, stderr io.Writer) int {
+		return ExportCSV(args, stdout, stderr)
+	},
 }
 
 func newFlags(name string, stderr io.Writer) *flag.FlagSet {

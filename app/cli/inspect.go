@@ -17,14 +17,6 @@ import (
 )
 
 // The session-file commands register themselves beside fit.
-func init() {
-	commands["inspect"] = func(args []string, _ io.Reader, stdout, stderr io.Writer) int {
-		return Inspect(args, stdout, stderr)
-	}
-	commands["export-csv"] = func(args []string, _ io.Reader, stdout, stderr io.Writer) int {
-		return ExportCSV(args, stdout, stderr)
-	}
-}
 
 const inspectUsage = `usage: pairline inspect [--json] FILE
 
