@@ -101,11 +101,7 @@ func domError(v js.Value) error {
 	if !v.Truthy() {
 		return errors.New("the browser's storage refused the operation")
 	}
-	name := v.Get("name").String()
-	if name == "QuotaExceededError" {
-		return ErrQuota
-	}
-	return fmt.Errorf("%s: %s", name, v.Get("message").String())
+	return errorForName(v.Get("name").String(), v.Get("message").String())
 }
 
 // call runs fn and turns a thrown JavaScript exception into an error.
@@ -232,6 +228,30 @@ func (s *idb) Save(sum Summary, body []byte) error {
 	if _, err := call(func() js.Value {
 		tx.Call("objectStore", bodiesStore).Call("put", map[string]any{"id": sum.ID, "body": u8})
 		return tx.Call("objectStore", indexStore).Call("put", toJS(sum))
+	}); err != nil {
+		tx.Call("abort")
+		return err
+	}
+	return awaitTx(tx)
+}
+
+func (s *idb) SaveAll(sums []Summary, bodies [][]byte) error {
+	if len(sums) != len(bodies) {
+		return errors.New("SaveAll needs one body per summary")
+	}
+	tx, err := s.tx("readwrite", bodiesStore, indexStore)
+	if err != nil {
+		return err
+	}
+	if _, err := call(func() js.Value {
+		bs, is := tx.Call("objectStore", bodiesStore), tx.Call("objectStore", indexStore)
+		for i, sum := range sums {
+			u8 := js.Global().Get("Uint8Array").New(len(bodies[i]))
+			js.CopyBytesToJS(u8, bodies[i])
+			bs.Call("put", map[string]any{"id": sum.ID, "body": u8})
+			is.Call("put", toJS(sum))
+		}
+		return js.Undefined()
 	}); err != nil {
 		tx.Call("abort")
 		return err

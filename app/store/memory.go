@@ -1,6 +1,7 @@
 package store
 
 import (
+	"errors"
 	"sort"
 	"sync"
 	"time"
@@ -65,6 +66,20 @@ func (m *Memory) Save(sum Summary, body []byte) error {
 	defer m.mu.Unlock()
 	m.bodies[sum.ID] = append([]byte(nil), body...)
 	m.sums[sum.ID] = sum
+	return nil
+}
+
+// SaveAll implements Store.
+func (m *Memory) SaveAll(sums []Summary, bodies [][]byte) error {
+	if len(sums) != len(bodies) {
+		return errors.New("SaveAll needs one body per summary")
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	for i, sum := range sums {
+		m.bodies[sum.ID] = append([]byte(nil), bodies[i]...)
+		m.sums[sum.ID] = sum
+	}
 	return nil
 }
 

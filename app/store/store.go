@@ -51,6 +51,10 @@ type Store interface {
 	Load(id string) ([]byte, error)
 	// Save writes a session's bytes and summary in one transaction.
 	Save(sum Summary, body []byte) error
+	// SaveAll writes several sessions in one transaction: all of them or,
+	// when anything fails (a full device, say), none. sums[i] goes with
+	// bodies[i].
+	SaveAll(sums []Summary, bodies [][]byte) error
 	// Delete moves a session to the trash.
 	Delete(id string, now time.Time) error
 	// Restore takes a session out of the trash.
@@ -69,3 +73,23 @@ type Store interface {
 func expired(s Summary, now time.Time) bool {
 	return !s.Deleted.IsZero() && now.Sub(s.Deleted) > TrashDays*24*time.Hour
 }
+
+// errorForName maps the name of a DOMException thrown by the browser's
+// storage to the error shown to the technician. Chromium and Safari name a
+// full quota "QuotaExceededError" (the WebIDL name, DOMException code 22);
+// older Firefox releases report "NS_ERROR_DOM_QUOTA_REACHED" (from memory).
+func errorForName(name, message string) error {
+	switch name {
+	case "QuotaExceededError", "NS_ERROR_DOM_QUOTA_REACHED":
+		return ErrQuota
+	case "":
+		return errors.New("the browser's storage refused the operation")
+	}
+	if message == "" {
+		return errors.New(name)
+	}
+	return errors.New(name + ": " + message)
+}
+
+// IsQuota reports whether err says that the device ran out of room.
+func IsQuota(err error) bool { return errors.Is(err, ErrQuota) }
