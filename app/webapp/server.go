@@ -52,7 +52,7 @@ func Serve(ctx context.Context, o ServeOptions) error {
 	}
 	srv := &http.Server{
 		Addr:              o.Addr,
-		Handler:           WithHeaders(Handler(o.WebDir, "")),
+		Handler:           WithHeaders(WithManifest(Handler(o.WebDir, ""))),
 		ReadHeaderTimeout: 10 * time.Second,
 	}
 	ln, err := net.Listen("tcp", o.Addr)
@@ -94,7 +94,11 @@ func Build(outDir, webDir string) error {
 	if err := os.MkdirAll(outDir, 0o755); err != nil {
 		return err
 	}
-	if err := app.GenerateStaticWebsite(outDir, Handler(webDir, "")); err != nil {
+	h := Handler(webDir, "")
+	if err := app.GenerateStaticWebsite(outDir, h); err != nil {
+		return err
+	}
+	if err := writeManifest(outDir, h); err != nil {
 		return err
 	}
 	return copyTree(filepath.Join(outDir, "web"), webDir)
