@@ -36,7 +36,10 @@ func (c *Shell) renderReadings() app.UI {
 			app.Button().Class("pl-btn pl-btn-wide").Text("+ Add reading").DataSet("testid", "add-row").
 				OnClick(func(ctx app.Context, e app.Event) {
 					i := c.sess.AddRow("", "", time.Now())
-					c.page = i / pageSize
+					if p := i / pageSize; p != c.page {
+						c.page = p
+						c.resyncInputs()
+					}
 					c.edited(ctx)
 					ctx.Defer(func(ctx app.Context) { focus("x-input-" + strconv.Itoa(i)) })
 				}),
@@ -62,10 +65,10 @@ func (c *Shell) pager(lo, hi int) app.UI {
 	n := len(c.sess.Readings)
 	return app.Div().Class("pl-pager").Body(
 		app.Button().Class("pl-btn pl-btn-quiet").Text("‹ Previous").DataSet("testid", "page-prev").
-			Disabled(lo == 0).OnClick(func(ctx app.Context, e app.Event) { c.page-- }),
+			Disabled(lo == 0).OnClick(func(ctx app.Context, e app.Event) { c.page--; c.resyncInputs() }),
 		app.Span().DataSet("testid", "page-info").Text("Readings "+strconv.Itoa(lo+1)+"–"+strconv.Itoa(hi)+" of "+strconv.Itoa(n)),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Next ›").DataSet("testid", "page-next").
-			Disabled(hi >= n).OnClick(func(ctx app.Context, e app.Event) { c.page++ }),
+			Disabled(hi >= n).OnClick(func(ctx app.Context, e app.Event) { c.page++; c.resyncInputs() }),
 	)
 }
 
@@ -172,6 +175,9 @@ func (c *Shell) enter(ctx app.Context, row int, col session.Column) {
 		c.sess.AddRow("", "", time.Now())
 		c.edited(ctx)
 	}
-	c.page = next / pageSize
+	if p := next / pageSize; p != c.page {
+		c.page = p
+		c.resyncInputs()
+	}
 	ctx.Defer(func(ctx app.Context) { focus("x-input-" + strconv.Itoa(next)) })
 }

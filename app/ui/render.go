@@ -14,6 +14,7 @@ func digitsOf(text string) int { return numfmt.DigitsOf(text) }
 
 // Render draws the whole screen.
 func (c *Shell) Render() app.UI {
+	c.syncInputs()
 	return app.Div().Class("pl-app").Body(
 		c.renderBar(),
 		app.If(c.updateReady, func() app.UI {

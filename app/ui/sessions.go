@@ -75,12 +75,12 @@ func sessionMeta(s store.Summary) string {
 
 func (c *Shell) open(ctx app.Context, id string) {
 	st := c.st
-	ctx.Async(func() {
+	c.ui.Async(func() {
 		s, err := load(st, id)
 		if err == nil {
 			st.SetLast(id)
 		}
-		ctx.Dispatch(func(ctx app.Context) {
+		c.ui.Dispatch(func(ctx app.Context) {
 			if err != nil {
 				c.notice = err.Error()
 				return
@@ -102,7 +102,7 @@ func (c *Shell) rename(ctx app.Context, id, title string) {
 		return
 	}
 	st := c.st
-	ctx.Async(func() {
+	c.ui.Async(func() {
 		s, err := load(st, id)
 		if err == nil {
 			err = s.SetField("title", title, time.Now())
@@ -111,7 +111,7 @@ func (c *Shell) rename(ctx app.Context, id, title string) {
 			err = saveNow(st, s)
 		}
 		list, _ := st.List()
-		ctx.Dispatch(func(ctx app.Context) {
+		c.ui.Dispatch(func(ctx app.Context) {
 			c.sessions = list
 			if err != nil {
 				c.notice = err.Error()
@@ -124,19 +124,23 @@ func (c *Shell) delete(ctx app.Context, id string) {
 	c.confirmDel = ""
 	st := c.st
 	wasOpen := c.sess != nil && c.sess.ID == id
-	ctx.Async(func() {
+	c.ui.Async(func() {
 		err := st.Delete(id, time.Now())
 		list, _ := st.List()
-		ctx.Dispatch(func(ctx app.Context) {
+		c.ui.Dispatch(func(ctx app.Context) {
 			c.sessions = list
 			if err != nil {
 				c.notice = err.Error()
 				return
 			}
 			c.notice = "The session went to the trash."
-			if wasOpen {
+			if !wasOpen {
+				return
+			}
+			if len(list) > 0 {
+				c.open(ctx, list[0].ID)
+			} else {
 				c.onNew(ctx, app.Event{})
-				c.listOpen = true
 			}
 		})
 	})

@@ -6,7 +6,10 @@ package ui
 import (
 	"bytes"
 	"fmt"
+	"strconv"
+	"strings"
 	"time"
+	"unicode"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
@@ -44,6 +47,13 @@ type Shell struct {
 	saves   chan saveJob
 	editSeq int // counts edits, to run delayed work only for the latest
 	page    int // page of the readings grid shown (pageSize rows each)
+
+	needSync bool // text fields must be set from the session at the next render
+
+	// ui is the Shell's own context (from OnMount). Work that finishes after
+	// an event must dispatch through it: go-app drops a dispatch whose
+	// source element has left the page, as a button in a closed list has.
+	ui app.Context
 }
 
 type saveJob struct {
@@ -69,6 +79,7 @@ type cellKey struct {
 
 // OnMount opens the device store and reopens the last session.
 func (c *Shell) OnMount(ctx app.Context) {
+	c.ui = ctx
 	c.updateReady = ctx.AppUpdateAvailable()
 	c.saves = make(chan saveJob, 1)
 	ctx.Async(func() {
@@ -150,6 +161,45 @@ func (c *Shell) show(s *session.Session) {
 	c.sess = s
 	c.page = 0
 	c.analyse()
+	c.resyncInputs()
+}
+
+// resyncInputs asks the next render to make every text field show the open
+// session's values. go-app v10.1.11 does not clear an input's value when the
+// new value is empty (it removes the attribute, which leaves the typed value
+// in place), so switching to a session with empty cells would otherwise show
+// the previous session's text. Go-app keeps an input's element from one
+// render to the next, so setting the property before it diffs is enough.
+func (c *Shell) resyncInputs() { c.needSync = true }
+
+// syncInputs runs at the start of Render when a sync is pending. Natively
+// (prerendering) there is no document and it does nothing.
+func (c *Shell) syncInputs() {
+	if !c.needSync || c.sess == nil {
+		return
+	}
+	c.needSync = false
+	doc := app.Window().Get("document")
+	if !doc.Truthy() {
+		return
+	}
+	s := c.sess
+	want := map[string]string{
+		"session-title": s.Title,
+		"x-name":        s.XName, "x-unit": s.XUnit,
+		"y-name": s.YName, "y-unit": s.YUnit,
+	}
+	lo, hi := c.pageRange()
+	for i := lo; i < hi; i++ {
+		n := strconv.Itoa(i)
+		want["x-input-"+n], want["y-input-"+n] = s.Readings[i].X, s.Readings[i].Y
+	}
+	for id, v := range want {
+		el := doc.Call("querySelector", `[data-testid="`+id+`"]`)
+		if el.Truthy() && el.Get("value").String() != v {
+			el.Set("value", v)
+		}
+	}
 }
 
 // analyse runs fitcore on the usable pairs of the open session.
@@ -271,11 +321,24 @@ func (c *Shell) OnDismount() {
 }
 
 func plainFitError(err error, usable int) string {
-	switch {
-	case usable < 3:
+	if usable < 3 {
 		return fmt.Sprintf("A line needs at least 3 usable pairs of readings; there %s %d so far.", isAre(usable), usable)
 	}
-	return err.Error()
+	return sentence(err.Error())
+}
+
+// sentence starts a message with a capital letter and ends it with a full stop.
+func sentence(s string) string {
+	if s == "" {
+		return s
+	}
+	r := []rune(s)
+	r[0] = unicode.ToUpper(r[0])
+	s = string(r)
+	if !strings.HasSuffix(s, ".") {
+		s += "."
+	}
+	return s
 }
 
 func isAre(n int) string {

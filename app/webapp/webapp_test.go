@@ -118,7 +118,7 @@ func TestManifest(t *testing.T) {
 	_, body := get(t, Handler(testWeb(t), "test"), "/manifest.webmanifest")
 	var m struct {
 		Name, ShortName, StartURL, Display, ThemeColor string
-		Icons                                        []struct{ Src, Sizes, Purpose, Type string }
+		Icons                                          []struct{ Src, Sizes, Purpose, Type string }
 	}
 	if err := json.Unmarshal([]byte(body), &m); err != nil {
 		t.Fatalf("manifest: %v\n%s", err, body)
