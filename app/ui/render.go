@@ -33,6 +33,7 @@ func (c *Shell) Render() app.UI {
 			return app.Main().Class("pl-main").Body(
 				c.renderReadings(),
 				c.renderLine(),
+				c.renderChecks(), c.renderAdvice(), c.renderAcceptance(), c.renderUseLine(), c.renderSettings(),
 			)
 		}),
 	)

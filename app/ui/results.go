@@ -38,6 +38,7 @@ func (c *Shell) renderLine() app.UI {
 			figure("result-r-squared", "R²", rep.RSquared, numfmt.Decimals(rep.RSquared, 6), ""),
 			figure("result-residual-se", "Residual SD", rep.ResidualSE, numfmt.Sig(rep.ResidualSE, 3), yu),
 		),
+		c.renderMoreNumbers(),
 	)
 }
 

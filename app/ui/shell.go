@@ -48,6 +48,8 @@ type Shell struct {
 	editSeq int // counts edits, to run delayed work only for the latest
 	page    int // page of the readings grid shown (pageSize rows each)
 
+	analysisUI // settings, checks, advice, use of the line, acceptance (settings.go)
+
 	needSync bool // text fields must be set from the session at the next render
 
 	// ui is the Shell's own context (from OnMount). Work that finishes after
@@ -70,6 +72,8 @@ type analysis struct {
 	usable   int
 	digits   int  // most significant digits typed in any usable cell
 	stale    bool // readings changed since the report was computed
+
+	rows []int // session row of each usable pair (fitcore's index → grid row)
 }
 
 type cellKey struct {
@@ -82,6 +86,7 @@ func (c *Shell) OnMount(ctx app.Context) {
 	c.ui = ctx
 	c.updateReady = ctx.AppUpdateAvailable()
 	c.saves = make(chan saveJob, 1)
+	c.anLoadTemplates(ctx)
 	ctx.Async(func() {
 		st, err := store.Open()
 		if err != nil {
@@ -205,14 +210,16 @@ func (c *Shell) syncInputs() {
 // analyse runs fitcore on the usable pairs of the open session.
 func (c *Shell) analyse() {
 	x, y, rows, problems := c.sess.Pairs()
-	a := analysis{problems: make(map[cellKey]string, len(problems)), usable: len(rows)}
+	a := analysis{problems: make(map[cellKey]string, len(problems)), usable: len(rows), rows: rows}
 	for _, p := range problems {
 		a.problems[cellKey{p.Row, p.Column}] = p.Reason
 	}
 	for _, r := range rows {
 		a.digits = max(a.digits, digitsOf(c.sess.Readings[r].X), digitsOf(c.sess.Readings[r].Y))
 	}
-	rep, err := fitcore.Analyze(x, y, c.sess.Settings.Options())
+	opt := c.sess.Settings.Options()
+	c.anQueries(&opt, x)
+	rep, err := fitcore.Analyze(x, y, opt)
 	if err != nil {
 		a.message = plainFitError(err, len(rows))
 	} else {

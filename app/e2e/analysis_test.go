@@ -1,0 +1,444 @@
+//go:build e2e
+
+package e2e
+
+import (
+	"encoding/json"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/chromedp/chromedp"
+
+	"pairline/app/session"
+	"pairline/fitcore"
+)
+
+// The data sets below are invented for these tests (the fictional
+// Larkwater Valley Water Board); none is a real measurement.
+
+// anCalibration is an invented conductivity probe check against ten
+// reference standards (µS/cm): a nearly ideal straight line.
+var anCalibration = [][2]string{
+	{"0", "1.8"}, {"100", "101.9"}, {"200", "200.7"}, {"300", "302.6"}, {"400", "401.1"},
+	{"500", "499.4"}, {"600", "601.8"}, {"700", "700.2"}, {"800", "802.1"}, {"900", "899.0"},
+	{"1000", "1001.3"}, {"1200", "1198.8"},
+}
+
+// anPercentPairs is invented: y = 2x·(1 + 0.06·ε), ε standard normal from
+// a seeded PCG, x log-spaced over two decades, so the scatter is a
+// constant percentage of the reading.
+func anPercentPairs(n int, seed uint64) [][2]string {
+	r := rand.New(rand.NewPCG(seed, 7))
+	out := make([][2]string, n)
+	for i := range out {
+		x := math.Pow(10, 2*float64(i)/float64(n-1))
+		y := 2 * x * (1 + 0.06*r.NormFloat64())
+		out[i] = [2]string{strconv.FormatFloat(x, 'f', 3, 64), strconv.FormatFloat(y, 'f', 3, 64)}
+	}
+	return out
+}
+
+// anParsed parses the pairs as the app does (session.ParseNumber).
+func anParsed(t *testing.T, pairs [][2]string) (x, y []float64) {
+	t.Helper()
+	for _, p := range pairs {
+		a, err := session.ParseNumber(p[0])
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, err := session.ParseNumber(p[1])
+		if err != nil {
+			t.Fatal(err)
+		}
+		x, y = append(x, a), append(y, b)
+	}
+	return x, y
+}
+
+// anFill types the pairs into the grid through input events on the cells
+// (adding rows with the add-row button), as fast as the app takes them.
+func anFill(t *testing.T, b *browser, pairs [][2]string) {
+	t.Helper()
+	anFillRaw(t, b, pairs)
+	waitFor(t, b, "the line from the typed pairs", fmt.Sprintf(`document.querySelector('[data-testid="result-n"]')?.dataset.value === "%d"`, len(pairs)), 20*time.Second)
+}
+
+// anSet sets an input's text and fires the event its handler listens to.
+func anSet(t *testing.T, b *browser, testid, value, event string) {
+	t.Helper()
+	eval[bool](t, b, fmt.Sprintf(`(() => { const el = document.querySelector('[data-testid=%q]'); if (!el) throw new Error('no %s');
+		el.value = %q; el.dispatchEvent(new Event(%q, { bubbles: true })); return true; })()`, testid, testid, value, event))
+}
+
+func anClick(t *testing.T, b *browser, testid string) {
+	t.Helper()
+	waitFor(t, b, testid+" to be shown", fmt.Sprintf(`!!document.querySelector('[data-testid=%q]')`, testid), 10*time.Second)
+	eval[bool](t, b, fmt.Sprintf(`(document.querySelector('[data-testid=%q]').click(), true)`, testid))
+}
+
+func anExists(t *testing.T, b *browser, testid string) bool {
+	t.Helper()
+	return eval[bool](t, b, fmt.Sprintf(`!!document.querySelector('[data-testid=%q]')`, testid))
+}
+
+// anNumAttr reads a numeric attribute of an element.
+func anNumAttr(t *testing.T, b *browser, testid, name string) float64 {
+	t.Helper()
+	v := attr(t, b, testid, name)
+	f, err := strconv.ParseFloat(v, 64)
+	if err != nil {
+		t.Fatalf("%s has %s %q: %v", testid, name, v, err)
+	}
+	return f
+}
+
+// relClose compares to 1e-12 relative (the browser's wasm and the native
+// test may differ in the last bits of math library calls).
+func relClose(got, want float64) bool {
+	if got == want {
+		return true
+	}
+	return math.Abs(got-want) <= 1e-12*math.Max(math.Abs(want), 1e-300)
+}
+
+func anExpect(t *testing.T, b *browser, testid, name string, want float64) {
+	t.Helper()
+	if got := anNumAttr(t, b, testid, name); !relClose(got, want) {
+		t.Errorf("%s %s = %v, fitcore says %v", testid, name, got, want)
+	}
+}
+
+func anAnalyze(t *testing.T, x, y []float64, o fitcore.Options) *fitcore.Report {
+	t.Helper()
+	rep, err := fitcore.Analyze(x, y, o)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return rep
+}
+
+// anCheckVerdicts compares every check row's data-verdict with fitcore's
+// Assumptions.
+func anCheckVerdicts(t *testing.T, b *browser, a fitcore.Assumptions) {
+	t.Helper()
+	for id, v := range map[string]fitcore.Verdict{
+		"check-linearity": a.Linearity.Verdict, "check-spread": a.Spread.Verdict,
+		"check-independence": a.Independence.Verdict, "check-normality": a.Normality.Verdict,
+		"check-influence": a.Influence.Verdict,
+	} {
+		if got := attr(t, b, id, "data-verdict"); got != string(v) {
+			t.Errorf("%s data-verdict = %q, fitcore says %q", id, got, v)
+		}
+	}
+	if a.XExactness == nil {
+		if anExists(t, b, "check-x-exactness") {
+			t.Error("check-x-exactness is shown without an x uncertainty")
+		}
+	} else if got := attr(t, b, "check-x-exactness", "data-verdict"); got != string(a.XExactness.Verdict) {
+		t.Errorf("check-x-exactness data-verdict = %q, fitcore says %q", got, a.XExactness.Verdict)
+	}
+}
+
+// TestAnalysisScreens follows a technician through the analysis cards on an
+// invented conductivity calibration: every number on screen equals
+// fitcore's for the same readings and settings, the check verdicts match,
+// an unknown is converted, a prediction made, acceptance criteria judged
+// and saved as a template.
+func TestAnalysisScreens(t *testing.T) {
+	srv := startServer(t)
+	b := newBrowser(t, tablet)
+	b.do(t, chromedp.Navigate(srv.URL))
+	waitFor(t, b, "the app to start", appReady, 60*time.Second)
+	anFill(t, b, anCalibration)
+	x, y := anParsed(t, anCalibration)
+	rep := anAnalyze(t, x, y, fitcore.Options{})
+
+	// Headline figures and the "More numbers" disclosure.
+	anExpect(t, b, "result-slope", "data-value", rep.Slope.Estimate)
+	anExpect(t, b, "result-intercept", "data-value", rep.Intercept.Estimate)
+	if anExists(t, b, "more-numbers-body") {
+		t.Error("More numbers must start closed")
+	}
+	anClick(t, b, "more-numbers")
+	waitFor(t, b, "More numbers to open", `!!document.querySelector('[data-testid="more-numbers-body"]')`, 5*time.Second)
+	for id, want := range map[string]float64{
+		"result-slope-estimate": rep.Slope.Estimate, "result-slope-se": rep.Slope.SE, "result-slope-t": rep.Slope.T,
+		"result-slope-p": rep.Slope.P, "result-slope-ci-low": rep.Slope.CILow, "result-slope-ci-high": rep.Slope.CIHigh,
+		"result-slope-t-ref": rep.Slope.TRef, "result-slope-p-ref": rep.Slope.PRef, "result-slope-ref": rep.Slope.Ref,
+		"result-intercept-se": rep.Intercept.SE, "result-intercept-t": rep.Intercept.T, "result-intercept-p": rep.Intercept.P,
+		"result-intercept-ci-low": rep.Intercept.CILow, "result-intercept-ci-high": rep.Intercept.CIHigh,
+		"result-intercept-t-ref": rep.Intercept.TRef, "result-intercept-p-ref": rep.Intercept.PRef,
+		"result-residual-se-full": rep.ResidualSE, "result-df": rep.DF, "result-r-full": rep.R,
+		"result-r-squared-full": rep.RSquared, "result-adj-r-squared": rep.AdjRSquared,
+		"result-f": rep.F, "result-f-p": rep.FP, "result-cov": rep.CovSlopeIntercept,
+		"anova-0-ss": rep.Anova[0].SS, "anova-1-ss": rep.Anova[1].SS, "anova-2-ss": rep.Anova[2].SS,
+		"anova-1-ms": rep.Anova[1].MS, "anova-0-f": rep.Anova[0].F, "anova-1-df": rep.Anova[1].DF,
+	} {
+		anExpect(t, b, id, "data-value", want)
+	}
+
+	// Checks: verdicts as fitcore's, numbers behind a tap.
+	anCheckVerdicts(t, b, rep.Assumptions)
+	if anExists(t, b, "test-curvature-p") {
+		t.Error("the test numbers must start hidden")
+	}
+	anClick(t, b, "check-linearity-more")
+	waitFor(t, b, "the linearity numbers", `!!document.querySelector('[data-testid="test-curvature-p"]')`, 5*time.Second)
+	anExpect(t, b, "test-curvature-p", "data-value", rep.Checks.Curvature.P)
+	anExpect(t, b, "test-curvature-statistic", "data-value", rep.Checks.Curvature.Statistic)
+	anClick(t, b, "check-spread-more")
+	waitFor(t, b, "the spread numbers", `!!document.querySelector('[data-testid="test-breusch-pagan-p"]')`, 5*time.Second)
+	anExpect(t, b, "test-breusch-pagan-p", "data-value", rep.Checks.BreuschPagan.P)
+	if h := eval[float64](t, b, `document.querySelector('[data-testid="check-spread-more"]').getBoundingClientRect().height`); h < 48 {
+		t.Errorf("the numbers button is %v px high, want at least 48", h)
+	}
+	if got := attr(t, b, "advice", "data-transform"); got != string(rep.Advice.Remedy) {
+		t.Errorf("advice data-transform = %q, fitcore says %q", got, rep.Advice.Remedy)
+	}
+
+	// Use the line: three repeat readings of an unknown (decimal comma,
+	// semicolons and spaces), and a prediction.
+	anSet(t, b, "inverse-input", "455,2; 456,0 455.6", "input")
+	waitFor(t, b, "the inverse result", `!!document.querySelector('[data-testid="inverse-result"]')`, 10*time.Second)
+	anSet(t, b, "predict-input", "650", "input")
+	waitFor(t, b, "the prediction", `!!document.querySelector('[data-testid="predict-result"]')`, 10*time.Second)
+	q := anAnalyze(t, x, y, fitcore.Options{Inverse: []fitcore.InverseQuery{{Y: []float64{455.2, 456.0, 455.6}}}, PredictX: []float64{650}})
+	inv := q.Inverse[0]
+	if !inv.Bounded || attr(t, b, "inverse-result", "data-bounded") != "true" {
+		t.Errorf("inverse bounded: fitcore %v, screen %q", inv.Bounded, attr(t, b, "inverse-result", "data-bounded"))
+	}
+	if got := attr(t, b, "inverse-result", "data-m"); got != "3" {
+		t.Errorf("inverse used %s readings, want 3", got)
+	}
+	anExpect(t, b, "inverse-result", "data-value", inv.X)
+	anExpect(t, b, "inverse-result", "data-low", inv.Low)
+	anExpect(t, b, "inverse-result", "data-high", inv.High)
+	p := q.Predictions[0]
+	anExpect(t, b, "predict-result", "data-value", p.Fit)
+	anExpect(t, b, "predict-result", "data-ci-low", p.CILow)
+	anExpect(t, b, "predict-result", "data-pi-high", p.PIHigh)
+	if q.Limits == nil {
+		t.Fatal("fitcore gives no limits for an untransformed calibration")
+	}
+	anExpect(t, b, "limits", "data-lod", q.Limits.LOD)
+	anExpect(t, b, "limits", "data-loq", q.Limits.LOQ)
+	anSet(t, b, "inverse-input", "455.2 abc", "input")
+	waitFor(t, b, "the inverse problem", `!!document.querySelector('[data-testid="inverse-problem"]')`, 5*time.Second)
+
+	// Acceptance: no criteria → n/a; a passing set; a failing set.
+	if got := attr(t, b, "verdict", "data-verdict"); got != "n/a" {
+		t.Errorf("verdict without criteria = %q, want n/a", got)
+	}
+	if !anExists(t, b, "caution") {
+		t.Error("no caution beside the verdict")
+	}
+	anSet(t, b, "acceptance-min-r2", "0.9999", "change")
+	waitFor(t, b, "the verdict", `document.querySelector('[data-testid="verdict"]').dataset.verdict !== "n/a"`, 10*time.Second)
+	anSet(t, b, "acceptance-slope-low", "0.995", "change")
+	anSet(t, b, "acceptance-slope-high", "1.005", "change")
+	anSet(t, b, "acceptance-max-residual", "0,2", "change")
+	anSet(t, b, "acceptance-residual-percent", "", "click")
+	crit := fitcore.Criteria{MinRSquared: ptr(0.9999), SlopeLow: ptr(0.995), SlopeHigh: ptr(1.005), MaxResidual: ptr(0.2), MaxResidualPercentOfSpan: true}
+	want := anAnalyze(t, x, y, fitcore.Options{Acceptance: &crit}).Acceptance
+	wantV := "fail"
+	if want.Pass {
+		wantV = "pass"
+	}
+	// Three results: R², the slope window (one criterion) and the residual.
+	waitFor(t, b, "three criteria judged", `document.querySelectorAll('[data-testid="verdict-reason"]').length === 3 &&
+		document.querySelector('[data-testid="verdict-reason"][data-name="max_residual"]').textContent.includes("% of the span")`, 10*time.Second)
+	if got := attr(t, b, "verdict", "data-verdict"); got != wantV {
+		t.Errorf("verdict = %q, fitcore says %q (%s)", got, wantV, want.Summary)
+	}
+	screenshot(t, b, "analysis-tablet")
+	anSet(t, b, "acceptance-max-residual", "0.001", "change")
+	crit.MaxResidual = ptr(0.001)
+	want = anAnalyze(t, x, y, fitcore.Options{Acceptance: &crit}).Acceptance
+	if want.Pass {
+		t.Fatal("a residual limit of 0.001 % of the span should fail these invented readings")
+	}
+	waitFor(t, b, "the failing verdict", `document.querySelector('[data-testid="verdict"]').dataset.verdict === "fail"`, 10*time.Second)
+
+	// Templates: save, reload (localStorage), use in a new session, delete.
+	anSet(t, b, "template-name", "Weekly probe check (invented)", "input")
+	anClick(t, b, "template-save")
+	waitFor(t, b, "the template", `!!document.querySelector('[data-testid="template-item"][data-name="Weekly probe check (invented)"]')`, 5*time.Second)
+	anClick(t, b, "session-new")
+	waitFor(t, b, "a new session", `document.querySelector('[data-testid="usable-count"]').dataset.value === "0"`, 10*time.Second)
+	b.do(t, chromedp.Reload())
+	waitFor(t, b, "the app after reload", appReady, 30*time.Second)
+	anFill(t, b, anCalibration)
+	anClick(t, b, "template-use")
+	waitFor(t, b, "the template's verdict", `document.querySelector('[data-testid="verdict"]').dataset.verdict === "fail"`, 10*time.Second)
+	if got := eval[string](t, b, `document.querySelector('[data-testid="acceptance-max-residual"]').value`); got != "0.001" {
+		t.Errorf("template residual limit shows %q, want 0.001", got)
+	}
+	anClick(t, b, "template-delete")
+	anClick(t, b, "template-delete-confirm")
+	waitFor(t, b, "the template to go", `!document.querySelector('[data-testid="template-item"]')`, 5*time.Second)
+	if n := eval[int](t, b, `JSON.parse(localStorage.getItem("pairline.acceptance-templates") || "[]").length`); n != 0 {
+		t.Errorf("%d templates left in localStorage after delete", n)
+	}
+
+	// Settings: an x uncertainty adds the x-exactness check; the level
+	// changes the intervals.
+	anSet(t, b, "settings-x-uncertainty", "2", "change")
+	waitFor(t, b, "the x-exactness check", `!!document.querySelector('[data-testid="check-x-exactness"]')`, 10*time.Second)
+	anClick(t, b, "settings-level-99")
+	if !anExists(t, b, "more-numbers-body") {
+		anClick(t, b, "more-numbers") // UI state: closed again after the reload
+	}
+	withX := anAnalyze(t, x, y, fitcore.Options{XUncertainty: 2, Level: 0.99, Acceptance: &crit})
+	waitFor(t, b, "the 99 % intervals", fmt.Sprintf(`document.querySelector('[data-testid="result-slope-ci-low"]')?.dataset.value === %q`, strconv.FormatFloat(withX.Slope.CILow, 'g', -1, 64)), 10*time.Second)
+	anCheckVerdicts(t, b, withX.Assumptions)
+	anClick(t, b, "settings-model-origin")
+	origin := anAnalyze(t, x, y, fitcore.Options{Model: fitcore.ModelOrigin, XUncertainty: 2, Level: 0.99})
+	waitFor(t, b, "the line through zero", fmt.Sprintf(`document.querySelector('[data-testid="result-slope"]')?.dataset.value === %q`, strconv.FormatFloat(origin.Slope.Estimate, 'g', -1, 64)), 10*time.Second)
+	screenshot(t, b, "analysis-settings-tablet")
+
+	// Phone size.
+	bp := newBrowser(t, phone)
+	bp.do(t, chromedp.Navigate(srv.URL))
+	waitFor(t, bp, "the app on a phone", appReady, 60*time.Second)
+	anFill(t, bp, anCalibration)
+	anSet(t, bp, "inverse-input", "455,2; 456,0 455.6", "input")
+	anSet(t, bp, "acceptance-min-r2", "0.9999", "change")
+	anClick(t, bp, "more-numbers")
+	anClick(t, bp, "check-influence-more")
+	anClick(t, bp, "check-independence-more")
+	waitFor(t, bp, "the inverse result on a phone", `!!document.querySelector('[data-testid="inverse-result"]')`, 10*time.Second)
+	screenshot(t, bp, "analysis-phone")
+	if w := eval[float64](t, bp, `document.documentElement.scrollWidth`); w > 392 {
+		t.Errorf("the page is %v px wide on a 390 px phone: something overflows", w)
+	}
+}
+
+func ptr(v float64) *float64 { return &v }
+
+// TestAnalysisAdvice: on invented readings whose scatter is a constant
+// percentage of the reading, the advice (fitcore's) is a log scale (common
+// practice: a log scale turns a constant percentage error into an even
+// scatter); one tap applies it (the fit changes to fitcore's on that
+// scale, and stays after a reload: it is stored with the session), one tap
+// reverts.
+func TestAnalysisAdvice(t *testing.T) {
+	srv := startServer(t)
+	b := newBrowser(t, tablet)
+	b.do(t, chromedp.Navigate(srv.URL))
+	waitFor(t, b, "the app to start", appReady, 60*time.Second)
+	pairs := anPercentPairs(40, 3)
+	anFill(t, b, pairs)
+	x, y := anParsed(t, pairs)
+	rep := anAnalyze(t, x, y, fitcore.Options{})
+	remedy := rep.Advice.Remedy
+	if remedy != fitcore.RemedyLogY && remedy != fitcore.RemedyLogLog {
+		t.Fatalf("fitcore advises %q on constant-percentage error, want a log scale", remedy)
+	}
+	if got := attr(t, b, "advice", "data-transform"); got != string(remedy) {
+		t.Fatalf("advice data-transform = %q, fitcore says %q", got, remedy)
+	}
+	anCheckVerdicts(t, b, rep.Assumptions)
+	var cand fitcore.Candidate
+	for _, c := range rep.Advice.Candidates {
+		if c.Remedy == remedy {
+			cand = c
+		}
+	}
+	anExpect(t, b, "advice-slope-after", "data-value", cand.Slope)
+	anExpect(t, b, "advice-slope-before", "data-value", rep.Slope.Estimate)
+	if got := attr(t, b, "advice-row-spread", "data-after"); got != string(rep.Advice.After.Assumptions.Spread.Verdict) {
+		t.Errorf("after-spread verdict %q, fitcore says %q", got, rep.Advice.After.Assumptions.Spread.Verdict)
+	}
+	screenshot(t, b, "analysis-advice-tablet")
+
+	anClick(t, b, "advice-apply")
+	tr := anAnalyze(t, x, y, fitcore.Options{Transform: fitcore.Transform(remedy)})
+	waitFor(t, b, "the fit on the log scale", fmt.Sprintf(`document.querySelector('[data-testid="result-slope"]')?.dataset.value === %q`, strconv.FormatFloat(tr.Slope.Estimate, 'g', -1, 64)), 10*time.Second)
+	if !relClose(tr.Slope.Estimate, cand.Slope) {
+		t.Errorf("applied slope %v differs from the advice's %v", tr.Slope.Estimate, cand.Slope)
+	}
+	anCheckVerdicts(t, b, tr.Assumptions)
+	if !anExists(t, b, "advice-applied") || !anExists(t, b, "original-units") {
+		t.Error("after applying, the fit in use and the line in original units must be shown")
+	}
+	if n := eval[int](t, b, `document.querySelectorAll('[data-testid="original-units-row"]').length`); n != 5 {
+		t.Errorf("%d rows in original units, want 5", n)
+	}
+	screenshot(t, b, "analysis-advice-applied-tablet")
+	waitFor(t, b, "the save", `document.querySelector('[data-testid="save-status"]').dataset.state === "saved"`, 10*time.Second)
+	b.do(t, chromedp.Reload())
+	waitFor(t, b, "the app after reload", appReady+` && document.querySelector('[data-testid="result-slope"]')`, 30*time.Second)
+	anExpect(t, b, "result-slope", "data-value", tr.Slope.Estimate)
+
+	anClick(t, b, "advice-revert")
+	waitFor(t, b, "the plain line again", fmt.Sprintf(`document.querySelector('[data-testid="result-slope"]')?.dataset.value === %q`, strconv.FormatFloat(rep.Slope.Estimate, 'g', -1, 64)), 10*time.Second)
+	if got := attr(t, b, "advice", "data-transform"); got != string(remedy) {
+		t.Errorf("after revert the advice is %q, want %q again", got, remedy)
+	}
+}
+
+// TestAnalysisInfluence: an invented pressure transmitter check with one
+// mistyped reading (row 6: 41.7 typed for 14.7) and a blank row before it,
+// so that grid rows and pair numbers differ; the influence row names the
+// grid row and jumps to it.
+func TestAnalysisInfluence(t *testing.T) {
+	srv := startServer(t)
+	b := newBrowser(t, tablet)
+	b.do(t, chromedp.Navigate(srv.URL))
+	waitFor(t, b, "the app to start", appReady, 60*time.Second)
+	pairs := [][2]string{{"0", "0.1"}, {"2", "2.0"}, {"", ""}, {"4", "4.1"}, {"6", "5.9"}, {"14", "41.7"},
+		{"8", "8.1"}, {"10", "9.9"}, {"12", "12.1"}, {"16", "15.9"}, {"18", "18.0"}, {"20", "20.1"}}
+	anFillRaw(t, b, pairs)
+	var used [][2]string
+	for _, p := range pairs {
+		if p[0] != "" {
+			used = append(used, p)
+		}
+	}
+	waitFor(t, b, "the line", fmt.Sprintf(`document.querySelector('[data-testid="result-n"]')?.dataset.value === "%d"`, len(used)), 20*time.Second)
+	x, y := anParsed(t, used)
+	rep := anAnalyze(t, x, y, fitcore.Options{})
+	anCheckVerdicts(t, b, rep.Assumptions)
+	if rep.Assumptions.Influence.Verdict != fitcore.Fail {
+		t.Fatalf("fitcore's influence verdict is %q on a mistyped reading, want fail", rep.Assumptions.Influence.Verdict)
+	}
+	flaggedRow6 := false
+	for _, p := range rep.Influence {
+		if p.Flagged && p.Index == 4 { // pair 5 (from 0: 4) is grid row 6
+			flaggedRow6 = true
+		}
+	}
+	if !flaggedRow6 {
+		t.Fatal("fitcore does not flag the mistyped reading")
+	}
+	anClick(t, b, "influence-jump-6")
+	waitFor(t, b, "the focus on row 6", `document.activeElement && document.activeElement.dataset.testid === "x-input-5"`, 5*time.Second)
+	if !strings.Contains(eval[string](t, b, `document.querySelector('[data-testid="check-influence-message"]').textContent`), "Reading") {
+		t.Error("the influence sentence does not name the reading")
+	}
+	screenshot(t, b, "analysis-influence-tablet")
+}
+
+// anFillRaw is anFill for pairs that may hold blank rows (no line count wait).
+func anFillRaw(t *testing.T, b *browser, pairs [][2]string) {
+	t.Helper()
+	js, _ := json.Marshal(pairs)
+	eval[bool](t, b, `(async (pairs) => {
+		const q = id => document.querySelector('[data-testid="' + id + '"]');
+		const wait = async f => { for (let i = 0; i < 500; i++) { const v = f(); if (v) return v; await new Promise(r => setTimeout(r, 10)); } throw new Error('timed out'); };
+		for (let i = 0; i < pairs.length; i++) {
+			if (!q('x-input-' + i)) { q('add-row').click(); await wait(() => q('x-input-' + i)); }
+			for (const [col, v] of [['x', pairs[i][0]], ['y', pairs[i][1]]]) {
+				const el = q(col + '-input-' + i);
+				el.value = v;
+				el.dispatchEvent(new Event('input', { bubbles: true }));
+			}
+		}
+		return true;
+	})(`+string(js)+`)`)
+}

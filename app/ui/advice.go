@@ -1,0 +1,295 @@
+package ui
+
+import (
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"pairline/app/numfmt"
+	"pairline/app/session"
+	"pairline/fitcore"
+)
+
+// anRemedyName is the plain name of a remedy.
+func anRemedyName(r fitcore.Remedy) string {
+	switch r {
+	case fitcore.RemedyLogY:
+		return "fit log y against x"
+	case fitcore.RemedyLogLog:
+		return "fit log y against log x"
+	case fitcore.RemedySqrtY:
+		return "fit √y against x"
+	case fitcore.RemedyReciprocal:
+		return "fit 1/y against x"
+	case fitcore.RemedyBoxCox:
+		return "fit a power of y (Box–Cox) against x"
+	case fitcore.RemedyWeighted:
+		return "weight the readings"
+	}
+	return "no change"
+}
+
+// anApplied says whether the settings already carry a change of scale or a
+// weighting (what the advice applies and revert takes back).
+func anApplied(st session.Settings) bool {
+	return (st.Transform != "" && st.Transform != fitcore.TransformNone) || st.Weights != fitcore.WeightsNone
+}
+
+// anWithRemedy returns the settings with the remedy applied, as the advice
+// fitted it: an intercept line on the new scale, or a weighted fit with the
+// variance power estimated from the readings.
+func anWithRemedy(st session.Settings, ad *fitcore.Advice) session.Settings {
+	s := st
+	s.Model, s.Weights, s.Transform, s.BoxCoxLambda = fitcore.ModelOLS, fitcore.WeightsNone, fitcore.TransformNone, nil
+	switch ad.Remedy {
+	case fitcore.RemedyWeighted:
+		s.Model, s.Weights = fitcore.ModelWeighted, fitcore.WeightsPowerFit
+	case fitcore.RemedyBoxCox:
+		s.Transform = fitcore.TransformBoxCox
+		for _, c := range ad.Candidates {
+			if c.Remedy == fitcore.RemedyBoxCox {
+				l := c.Lambda
+				s.BoxCoxLambda = &l
+			}
+		}
+	default:
+		s.Transform = fitcore.Transform(ad.Remedy)
+	}
+	return s
+}
+
+// anRevert returns the settings without the applied remedy: those before
+// the last apply when known, the plain least-squares line otherwise.
+func (c *Shell) anRevert(ctx app.Context) {
+	s := c.anSettings()
+	if c.anUndo != nil && c.anUndoFor == c.sess.ID && !anApplied(*c.anUndo) {
+		s = *c.anUndo
+	} else {
+		s.Transform, s.BoxCoxLambda, s.Weights = fitcore.TransformNone, nil, fitcore.WeightsNone
+		if s.Model == fitcore.ModelWeighted {
+			s.Model = fitcore.ModelOLS
+		}
+	}
+	c.anUndo = nil
+	c.anSetSettings(ctx, s)
+}
+
+// renderAdvice draws the transform or weighting advice: the remedy and its
+// reason, the checks and both fits before and after, and one button to
+// apply it (or to revert an applied one).
+func (c *Shell) renderAdvice() app.UI {
+	rep := c.view.report
+	st := c.sess.Settings
+	applied := anApplied(st)
+	if rep == nil {
+		if !applied {
+			return nil
+		}
+		// A change of scale the readings cannot take leaves no report: keep
+		// the way back visible.
+		return app.Section().Class("pl-card an-advice").Attr("aria-label", "Advice").
+			DataSet("testid", "advice").DataSet("transform", "none").Body(
+			app.H2().Text("Advice"),
+			app.P().Text("The fit uses a change of scale or a weighting that these readings cannot take."),
+			c.anRevertButton(),
+		)
+	}
+	ad := rep.Advice
+	remedy := fitcore.RemedyNone
+	if ad != nil {
+		remedy = ad.Remedy
+	}
+	body := []app.UI{app.H2().Text("Advice")}
+	if applied {
+		body = append(body, app.P().Class("an-applied").DataSet("testid", "advice-applied").Text(
+			"In use: "+c.anModelText(rep)+". Undo it to go back to the line in original units."),
+			c.anRevertButton())
+	}
+	if ad == nil {
+		body = append(body, app.P().Text("No advice could be worked out for this fit."))
+	} else {
+		body = append(body, app.P().Class("an-reason").DataSet("testid", "advice-reason").Text(ad.Reason))
+	}
+	if ad != nil && remedy != fitcore.RemedyNone {
+		body = append(body,
+			app.P().Class("an-remedy").Body(app.Strong().Text("Recommended: "), app.Span().Text(anRemedyName(remedy)+".")),
+			c.anBeforeAfter(rep, ad),
+			app.Button().Class("pl-btn pl-btn-wide").DataSet("testid", "advice-apply").DataSet("an", "advice-apply").
+				Text("Use this: "+anRemedyName(remedy)).
+				OnClick(c.anOn("advice-apply", func(ctx app.Context, e app.Event) {
+					if c.view.report == nil || c.view.report.Advice == nil {
+						return
+					}
+					undo := c.anSettings()
+					c.anUndo, c.anUndoFor = &undo, c.sess.ID
+					c.anSetSettings(ctx, anWithRemedy(undo, c.view.report.Advice))
+				})),
+		)
+	}
+	body = append(body, c.anOriginalUnits(rep))
+	return app.Section().Class("pl-card an-advice").Attr("aria-label", "Advice").
+		DataSet("testid", "advice").DataSet("transform", string(remedy)).Body(body...)
+}
+
+func (c *Shell) anRevertButton() app.UI {
+	return app.Button().Class("pl-btn pl-btn-quiet pl-btn-wide").DataSet("testid", "advice-revert").DataSet("an", "advice-revert").
+		Text("Undo: back to the plain line").OnClick(c.anOn("advice-revert", func(ctx app.Context, e app.Event) { c.anRevert(ctx) }))
+}
+
+// anModelText describes the fit in use.
+func (c *Shell) anModelText(rep *fitcore.Report) string {
+	t := ""
+	switch rep.Model {
+	case fitcore.ModelOrigin:
+		t = "a line through zero"
+	case fitcore.ModelWeighted:
+		t = "a weighted line"
+		if rep.WeightPower != 0 {
+			t += " (scatter taken to grow as |x|^" + numfmt.Sig(rep.WeightPower, 2) + ")"
+		}
+	case fitcore.ModelDeming:
+		t = "a Deming line"
+	default:
+		t = "a least-squares line"
+	}
+	switch rep.Transform {
+	case fitcore.TransformLogY:
+		t += " of log y against x"
+	case fitcore.TransformLogLog:
+		t += " of log y against log x"
+	case fitcore.TransformSqrtY:
+		t += " of √y against x"
+	case fitcore.TransformReciprocal:
+		t += " of 1/y against x"
+	case fitcore.TransformBoxCox:
+		t += " of a power of y against x"
+		if rep.TransformLambda != nil {
+			t += " (λ = " + numfmt.Sig(*rep.TransformLambda, 3) + ")"
+		}
+	}
+	return t
+}
+
+// anBeforeAfter is the table of the checks and of both fits, before and
+// after the remedy.
+func (c *Shell) anBeforeAfter(rep *fitcore.Report, ad *fitcore.Advice) app.UI {
+	if ad.After == nil {
+		return nil
+	}
+	var cand *fitcore.Candidate
+	for i := range ad.Candidates {
+		if ad.Candidates[i].Remedy == ad.Remedy {
+			cand = &ad.Candidates[i]
+		}
+	}
+	b, a := ad.Before, *ad.After
+	row := func(id, name string, vb, va fitcore.Verdict) app.UI {
+		return app.Tr().DataSet("testid", "advice-row-"+id).DataSet("before", string(vb)).DataSet("after", string(va)).Body(
+			app.Th().Attr("scope", "row").Text(name),
+			app.Td().Body(anBadge(vb)),
+			app.Td().Body(anBadge(va)),
+		)
+	}
+	sig := numfmt.Precision(c.view.digits)
+	rows := []app.UI{
+		row("linearity", "Straight line", b.Assumptions.Linearity.Verdict, a.Assumptions.Linearity.Verdict),
+		row("spread", "Even scatter", b.Assumptions.Spread.Verdict, a.Assumptions.Spread.Verdict),
+		row("independence", "Independent", b.Assumptions.Independence.Verdict, a.Assumptions.Independence.Verdict),
+		row("normality", "Bell-shaped", b.Assumptions.Normality.Verdict, a.Assumptions.Normality.Verdict),
+		row("influence", "No dominant reading", b.Assumptions.Influence.Verdict, a.Assumptions.Influence.Verdict),
+		app.Tr().Body(
+			app.Th().Attr("scope", "row").Text("R²"),
+			app.Td().Body(anNum("advice-r2-before", b.RSquared, numfmt.Decimals(b.RSquared, 4))),
+			app.Td().Body(anNum("advice-r2-after", a.RSquared, numfmt.Decimals(a.RSquared, 4))),
+		),
+		app.Tr().Body(
+			app.Th().Attr("scope", "row").Text("p of the scatter test"),
+			app.Td().Body(anNum("", b.BreuschPaganP, anP(b.BreuschPaganP))),
+			app.Td().Body(anNum("", a.BreuschPaganP, anP(a.BreuschPaganP))),
+		),
+		app.Tr().Body(
+			app.Th().Attr("scope", "row").Text("p of the bend test"),
+			app.Td().Body(anNum("", b.CurvatureP, anP(b.CurvatureP))),
+			app.Td().Body(anNum("", a.CurvatureP, anP(a.CurvatureP))),
+		),
+	}
+	if cand != nil {
+		rows = append(rows,
+			app.Tr().Body(
+				app.Th().Attr("scope", "row").Text("Slope"),
+				app.Td().Body(anNum("advice-slope-before", rep.Slope.Estimate, numfmt.Sig(rep.Slope.Estimate, sig))),
+				app.Td().Body(anNum("advice-slope-after", cand.Slope, numfmt.Sig(cand.Slope, sig))),
+			),
+			app.Tr().Body(
+				app.Th().Attr("scope", "row").Text("Intercept"),
+				app.Td().Body(anNum("advice-intercept-before", rep.Intercept.Estimate, numfmt.Sig(rep.Intercept.Estimate, sig))),
+				app.Td().Body(anNum("advice-intercept-after", cand.Intercept, numfmt.Sig(cand.Intercept, sig))),
+			),
+		)
+	}
+	after := "After"
+	switch ad.Remedy {
+	case fitcore.RemedyLogY:
+		after = "After (log y)"
+	case fitcore.RemedyLogLog:
+		after = "After (log y, log x)"
+	case fitcore.RemedySqrtY:
+		after = "After (√y)"
+	case fitcore.RemedyReciprocal:
+		after = "After (1/y)"
+	case fitcore.RemedyBoxCox:
+		after = "After (power of y)"
+	case fitcore.RemedyWeighted:
+		after = "After (weighted)"
+	}
+	return app.Div().Class("an-scroll").Body(
+		app.Table().Class("an-table an-ba").DataSet("testid", "advice-table").Body(
+			app.THead().Body(app.Tr().Body(app.Th().Text(""), app.Th().Text("Now"), app.Th().Text(after))),
+			app.TBody().Body(rows...),
+		),
+		app.If(cand != nil && ad.Remedy != fitcore.RemedyWeighted, func() app.UI {
+			return app.P().Class("an-hint").Text("After: slope and intercept on the new scale.")
+		}),
+	)
+}
+
+// anOriginalUnits shows a line fitted on a transformed scale back in the
+// units of y: fitcore's predictions (with Duan's smearing on log scales) at
+// five x across the readings.
+func (c *Shell) anOriginalUnits(rep *fitcore.Report) app.UI {
+	if rep.Transform == fitcore.TransformNone || rep.Transform == "" || len(c.anLineX) == 0 {
+		return nil
+	}
+	off := len(c.anPredX)
+	if len(rep.Predictions) < off+len(c.anLineX) {
+		return nil
+	}
+	preds := rep.Predictions[off : off+len(c.anLineX)]
+	sig := numfmt.Precision(c.view.digits)
+	lvl := anPercent(rep.Level)
+	note := ""
+	if rep.Smearing != 0 && rep.Smearing != 1 {
+		note = "Mean values include the small correction for the log scale (smearing factor " + numfmt.Sig(rep.Smearing, 5) + "). "
+	}
+	return app.Div().Class("an-orig").DataSet("testid", "original-units").Body(
+		app.H3().Text("Line in original units"),
+		app.P().Class("an-hint").Text(note+"Intervals are at "+lvl+"."),
+		app.Div().Class("an-scroll").Body(
+			app.Table().Class("an-table an-tests").Body(
+				app.THead().Body(app.Tr().Body(
+					app.Th().Text(colHead(c.sess.XName, c.sess.XUnit, "x")),
+					app.Th().Text("Fitted "+colHead(c.sess.YName, c.sess.YUnit, "y")),
+					app.Th().Text("Mean between"),
+					app.Th().Text("New reading between"),
+				)),
+				app.TBody().Body(app.Range(preds).Slice(func(i int) app.UI {
+					p := preds[i]
+					return app.Tr().DataSet("testid", "original-units-row").Body(
+						app.Th().Attr("scope", "row").Body(anNum("", p.X, numfmt.Sig(p.X, sig))),
+						app.Td().Body(anNum("", p.Fit, numfmt.Sig(p.Fit, sig))),
+						app.Td().Body(anNum("", p.CILow, numfmt.Sig(p.CILow, sig)), app.Text(" – "), anNum("", p.CIHigh, numfmt.Sig(p.CIHigh, sig))),
+						app.Td().Body(anNum("", p.PILow, numfmt.Sig(p.PILow, sig)), app.Text(" – "), anNum("", p.PIHigh, numfmt.Sig(p.PIHigh, sig))),
+					)
+				})),
+			),
+		),
+	)
+}

@@ -1,0 +1,272 @@
+package ui
+
+import (
+	"strconv"
+	"strings"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"pairline/app/numfmt"
+	"pairline/fitcore"
+)
+
+// anVerdict gives the icon and word of a verdict; the colour comes from the
+// class, so that the verdict never depends on colour alone.
+func anVerdict(v fitcore.Verdict) (icon, word, class string) {
+	switch v {
+	case fitcore.Pass:
+		return "✔", "Pass", "an-v-pass"
+	case fitcore.Warn:
+		return "▲", "Check", "an-v-warn"
+	case fitcore.Fail:
+		return "✖", "Fail", "an-v-fail"
+	}
+	return "○", "Not checked", "an-v-na"
+}
+
+func anBadge(v fitcore.Verdict) app.UI {
+	icon, word, cls := anVerdict(v)
+	return app.Span().Class("an-badge "+cls).Body(
+		app.Span().Class("an-badge-icon").Attr("aria-hidden", "true").Text(icon),
+		app.Span().Text(" "+word),
+	)
+}
+
+// renderChecks draws one row per assumption of the straight line, with its
+// verdict (icon, word and colour), fitcore's sentence and advice, and the
+// numbers of the underlying tests behind a button.
+func (c *Shell) renderChecks() app.UI {
+	rep := c.view.report
+	if rep == nil {
+		return nil
+	}
+	a := rep.Assumptions
+	k := rep.Checks
+	lin := []fitcore.Check{k.Curvature}
+	if k.LackOfFit != nil {
+		lin = append(lin, *k.LackOfFit)
+	}
+	rows := []app.UI{
+		c.anCheckRow("linearity", "Straight line", a.Linearity, c.anTests(lin)),
+		c.anCheckRow("spread", "Even scatter", a.Spread, c.anTests([]fitcore.Check{k.BreuschPagan, k.White})),
+		c.anCheckRow("independence", "Independent readings (in entry order)", a.Independence, c.anTests([]fitcore.Check{k.DurbinWatson, k.Runs})),
+		c.anCheckRow("normality", "Bell-shaped scatter", a.Normality, c.anTests([]fitcore.Check{k.ShapiroWilk})),
+		c.anInfluenceRow(a.Influence),
+	}
+	if a.XExactness != nil {
+		var tests app.UI
+		if k.XExactness != nil {
+			tests = c.anTests([]fitcore.Check{*k.XExactness})
+		}
+		rows = append(rows, c.anCheckRow("x-exactness", "x treated as exact", *a.XExactness, tests))
+	}
+	return app.Section().Class("pl-card an-checks").Attr("aria-label", "Checks").Body(
+		app.H2().Text("Can the line be trusted?"),
+		app.If(c.view.stale, func() app.UI {
+			return app.P().Class("pl-stale").Text("Updating after your last change…")
+		}),
+		app.Ul().Class("an-check-list").Body(rows...),
+	)
+}
+
+// anCheckRow is one assumption: verdict, sentence, what to do, numbers.
+func (c *Shell) anCheckRow(id, title string, a fitcore.Assumption, details app.UI, extra ...app.UI) app.UI {
+	_, _, cls := anVerdict(a.Verdict)
+	open := c.anOpen[id]
+	body := []app.UI{
+		app.Div().Class("an-check-head").Body(
+			anBadge(a.Verdict),
+			app.H3().Text(title),
+		),
+		app.P().Class("an-check-msg").DataSet("testid", "check-"+id+"-message").Text(a.Message),
+		app.If(a.Advice != "", func() app.UI {
+			return app.P().Class("an-check-todo").DataSet("testid", "check-"+id+"-advice").Body(
+				app.Strong().Text("What to do: "), app.Span().Text(a.Advice))
+		}),
+	}
+	body = append(body, extra...)
+	if details != nil {
+		label := "Show the numbers"
+		if open {
+			label = "Hide the numbers"
+		}
+		body = append(body,
+			app.Button().Class("pl-btn pl-btn-quiet an-toggle").Text(label).
+				DataSet("testid", "check-"+id+"-more").DataSet("an", "check-"+id+"-more").
+				Attr("aria-expanded", strconv.FormatBool(open)).
+				OnClick(c.anOn("check-"+id+"-more", func(ctx app.Context, e app.Event) {
+					if c.anOpen == nil {
+						c.anOpen = map[string]bool{}
+					}
+					c.anOpen[id] = !c.anOpen[id]
+				})),
+			app.If(open, func() app.UI { return details }),
+		)
+	}
+	return app.Li().Class("an-check "+cls).DataSet("testid", "check-"+id).DataSet("verdict", string(a.Verdict)).Body(body...)
+}
+
+// anStatName is the symbol of each test's statistic.
+func anStatName(name string) string {
+	switch name {
+	case "Curvature":
+		return "t"
+	case "Lack of fit":
+		return "F"
+	case "Durbin–Watson":
+		return "d"
+	case "Runs":
+		return "z"
+	case "Shapiro–Wilk":
+		return "W"
+	case "x exactness":
+		return "z"
+	}
+	if strings.HasPrefix(name, "Breusch") || strings.HasPrefix(name, "White") {
+		return "χ²"
+	}
+	return "statistic"
+}
+
+// anTests is the table of the tests behind an assumption.
+func (c *Shell) anTests(cs []fitcore.Check) app.UI {
+	return app.Div().Class("an-scroll").Body(
+		app.Table().Class("an-table an-tests").Body(
+			app.THead().Body(app.Tr().Body(
+				app.Th().Text("Test"), app.Th().Text("Statistic"), app.Th().Text("df"),
+				app.Th().Text("p"), app.Th().Text("Result"),
+			)),
+			app.TBody().Body(app.Range(cs).Slice(func(i int) app.UI {
+				k := cs[i]
+				id := "test-" + anSlug(k.Name) + "-"
+				df := ""
+				if k.DF != 0 {
+					df = anDF(k.DF)
+					if k.DF2 != 0 {
+						df += ", " + anDF(k.DF2)
+					}
+				}
+				ran := k.Verdict != fitcore.NA
+				return app.Tr().DataSet("testid", "test-"+anSlug(k.Name)).DataSet("verdict", string(k.Verdict)).Body(
+					app.Th().Attr("scope", "row").Body(
+						app.Span().Text(k.Name),
+						app.If(k.Message != "", func() app.UI { return app.Span().Class("an-test-msg").Text(k.Message) }),
+					),
+					app.Td().Body(app.If(ran, func() app.UI {
+						return app.Span().Body(app.Span().Class("pl-unit").Text(anStatName(k.Name)+" = "),
+							anNum(id+"statistic", k.Statistic, numfmt.Sig(k.Statistic, 4)))
+					})),
+					app.Td().Body(app.If(ran && df != "", func() app.UI { return anNum(id+"df", k.DF, df) })),
+					app.Td().Body(app.If(ran, func() app.UI { return anNum(id+"p", k.P, anP(k.P)) })),
+					app.Td().Body(anBadge(k.Verdict)),
+				)
+			})),
+		),
+	)
+}
+
+func anSlug(name string) string {
+	var b strings.Builder
+	for _, r := range strings.ToLower(name) {
+		switch {
+		case r >= 'a' && r <= 'z', r >= '0' && r <= '9':
+			b.WriteRune(r)
+		case r == ' ' || r == '–' || r == '-':
+			b.WriteByte('-')
+		}
+	}
+	return b.String()
+}
+
+// anInfluenceRow is the influence assumption: it names the flagged readings
+// by their row in the grid (from 1), each with a button that jumps there.
+func (c *Shell) anInfluenceRow(a fitcore.Assumption) app.UI {
+	rep := c.view.report
+	var flagged []fitcore.PointInfluence
+	for _, p := range rep.Influence {
+		if p.Flagged {
+			flagged = append(flagged, p)
+		}
+	}
+	var extra []app.UI
+	renumbered := false
+	for i, r := range c.view.rows {
+		if r != i {
+			renumbered = true
+			break
+		}
+	}
+	if len(flagged) > 0 {
+		const show = 12
+		btns := make([]app.UI, 0, min(len(flagged), show))
+		for i, p := range flagged {
+			if i == show {
+				break
+			}
+			row := c.anRowOf(p.Index)
+			btns = append(btns, app.Button().Class("pl-btn pl-btn-quiet an-jump").
+				Text("Go to row "+strconv.Itoa(row+1)).
+				DataSet("testid", "influence-jump-"+strconv.Itoa(row+1)).DataSet("row", strconv.Itoa(row+1)).
+				DataSet("an", "jump:"+strconv.Itoa(row)).
+				OnClick(c.anOn("jump:"+strconv.Itoa(row), func(ctx app.Context, e app.Event) { c.anJump(ctx, row) })))
+		}
+		if renumbered {
+			extra = append(extra, app.P().Class("an-hint").Text("Readings are counted among the usable pairs; the buttons go to the row in the readings table."))
+		}
+		extra = append(extra, app.Div().Class("an-jumps").DataSet("testid", "influence-rows").Body(btns...))
+	}
+	var details app.UI
+	if len(rep.Influence) > 0 {
+		details = c.anInfluenceTable(flagged)
+	}
+	return c.anCheckRow("influence", "No single reading dominates", a, details, extra...)
+}
+
+// anRowOf maps a position among the usable pairs to the row of the grid.
+func (c *Shell) anRowOf(i int) int {
+	if i >= 0 && i < len(c.view.rows) {
+		return c.view.rows[i]
+	}
+	return i
+}
+
+// anJump shows the grid page holding row and puts the focus on its x cell.
+func (c *Shell) anJump(ctx app.Context, row int) {
+	c.page = row / pageSize
+	id := "x-input-" + strconv.Itoa(row)
+	ctx.Defer(func(ctx app.Context) {
+		el := app.Window().Get("document").Call("querySelector", `[data-testid="`+id+`"]`)
+		if el.Truthy() {
+			el.Call("scrollIntoView", map[string]any{"block": "center"})
+		}
+		focus(id)
+	})
+}
+
+func (c *Shell) anInfluenceTable(flagged []fitcore.PointInfluence) app.UI {
+	if len(flagged) == 0 {
+		return app.P().Class("an-hint").Text("No reading is flagged by leverage, studentized residual, Cook's distance or DFFITS.")
+	}
+	sig := numfmt.Precision(c.view.digits)
+	return app.Div().Class("an-scroll").Body(
+		app.Table().Class("an-table an-tests").DataSet("testid", "influence-table").Body(
+			app.THead().Body(app.Tr().Body(
+				app.Th().Text("Row"), app.Th().Text("Residual"), app.Th().Text("Studentized"),
+				app.Th().Text("Leverage"), app.Th().Text("Cook's D"), app.Th().Text("Why"),
+			)),
+			app.TBody().Body(app.Range(flagged).Slice(func(i int) app.UI {
+				p := flagged[i]
+				row := strconv.Itoa(c.anRowOf(p.Index) + 1)
+				id := "influence-" + row + "-"
+				return app.Tr().Body(
+					app.Th().Attr("scope", "row").Text(row),
+					app.Td().Body(anNum(id+"residual", p.Residual, numfmt.Sig(p.Residual, sig))),
+					app.Td().Body(anNum(id+"studentized", p.Studentized, numfmt.Sig(p.Studentized, 3))),
+					app.Td().Body(anNum(id+"leverage", p.Leverage, numfmt.Sig(p.Leverage, 3))),
+					app.Td().Body(anNum(id+"cooks", p.CooksD, numfmt.Sig(p.CooksD, 3))),
+					app.Td().Class("an-why").Text(strings.Join(p.Reasons, "; ")),
+				)
+			})),
+		),
+	)
+}

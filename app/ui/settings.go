@@ -1,0 +1,688 @@
+package ui
+
+import (
+	"math"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"pairline/app/numfmt"
+	"pairline/app/session"
+	"pairline/fitcore"
+)
+
+// analysisUI is the UI-only state of the analysis cards (settings, the full
+// numbers, checks, advice, using the line, acceptance). Nothing here is
+// stored with the session: the session keeps only its Settings.
+type analysisUI struct {
+	anMoreOpen  bool            // "More numbers" disclosure
+	anOpen      map[string]bool // check rows whose test numbers are shown
+	anFieldErr  map[string]string
+	anOtherOpen bool // the custom confidence level field is shown
+
+	// Queries of "Use the line": they ride along in the one Analyze run.
+	anInvText, anInvErr   string
+	anInvY                []float64
+	anPredText, anPredErr string
+	anPredX               []float64
+	anLineX               []float64 // x values of the original-units table (transformed fits)
+
+	// anUndo holds the settings before the advice was applied, for revert,
+	// and anUndoFor the session they belong to.
+	anUndo    *session.Settings
+	anUndoFor string
+
+	// Acceptance templates, kept in the browser's localStorage.
+	// anHandlers holds this render's event handlers by the element's
+	// data-an key. go-app keeps an element's first handler when the new
+	// one comes from the same function literal, so handlers that capture
+	// per-element values (a row, a field, a template) are looked up here at
+	// event time instead (see anOn).
+	anHandlers map[string]app.EventHandler
+	// anFieldVals is the text each number field was last rendered with,
+	// and anSeenSess the session the fields were last synced for: go-app
+	// leaves an input's text in place when its value becomes empty, so
+	// anResync writes the fields after a change (see resyncInputs).
+	anFieldVals map[string]string
+	anSeenSess  string
+
+	anTemplates    []accTemplate
+	anTplName      string
+	anTplMsg       string
+	anTplConfirmDl string
+}
+
+// anOn registers h under key for this render and returns the dispatcher;
+// the element must carry DataSet("an", key).
+func (c *Shell) anOn(key string, h app.EventHandler) app.EventHandler {
+	if c.anHandlers == nil {
+		c.anHandlers = map[string]app.EventHandler{}
+	}
+	c.anHandlers[key] = h
+	return c.anDispatch
+}
+
+// anDispatch runs the handler registered for the element's data-an key,
+// then brings the number fields in line with the new state.
+func (c *Shell) anDispatch(ctx app.Context, e app.Event) {
+	key := ctx.JSSrc().Get("dataset").Get("an").String()
+	if h := c.anHandlers[key]; h != nil {
+		h(ctx, e)
+	}
+	ctx.Defer(func(ctx app.Context) { c.anResync() })
+}
+
+// anResync writes each number field's rendered text into the page, except
+// for fields whose typed text was refused (the text stays for correcting).
+func (c *Shell) anResync() {
+	doc := app.Window().Get("document")
+	for f, v := range c.anFieldVals {
+		if c.anFieldErr[f] != "" {
+			continue
+		}
+		el := doc.Call("querySelector", `[data-an="field:`+f+`"]`)
+		if el.Truthy() && el.Get("value").String() != v {
+			el.Set("value", v)
+		}
+	}
+	if el := doc.Call("querySelector", `[data-testid="template-name"]`); el.Truthy() && el.Get("value").String() != c.anTplName {
+		el.Set("value", c.anTplName)
+	}
+}
+
+// anSyncOnSwitch resyncs the fields once after another session was opened.
+func (c *Shell) anSyncOnSwitch() {
+	if c.sess == nil || c.sess.ID == c.anSeenSess {
+		return
+	}
+	first := c.anSeenSess == ""
+	c.anSeenSess = c.sess.ID
+	c.anFieldErr = nil
+	if first {
+		return
+	}
+	var fn app.Func
+	fn = app.FuncOf(func(this app.Value, args []app.Value) any {
+		c.anResync()
+		fn.Release()
+		return nil
+	})
+	app.Window().Call("setTimeout", fn, 0)
+}
+
+// anQueries adds the questions of "Use the line" and, on a transformed
+// scale, the x values of the original-units table to the options of the
+// one Analyze run of an edit. x are the usable readings.
+func (c *Shell) anQueries(o *fitcore.Options, x []float64) {
+	if len(c.anInvY) > 0 {
+		o.Inverse = []fitcore.InverseQuery{{Y: append([]float64(nil), c.anInvY...)}}
+	}
+	o.PredictX = append([]float64(nil), c.anPredX...)
+	c.anLineX = nil
+	if o.Transform != "" && o.Transform != fitcore.TransformNone && len(x) > 0 {
+		lo, hi := x[0], x[0]
+		for _, v := range x {
+			lo, hi = min(lo, v), max(hi, v)
+		}
+		const k = 5
+		for i := range k {
+			c.anLineX = append(c.anLineX, lo+(hi-lo)*float64(i)/float64(k-1))
+		}
+		o.PredictX = append(o.PredictX, c.anLineX...)
+	}
+}
+
+// anSetSettings stores changed settings in the session (and its history)
+// and re-analyses.
+func (c *Shell) anSetSettings(ctx app.Context, st session.Settings) {
+	if c.sess == nil {
+		return
+	}
+	if err := c.sess.SetSettings(st, time.Now()); err != nil {
+		c.notice = "This setting could not be used: " + err.Error()
+		return
+	}
+	c.edited(ctx)
+}
+
+// anSettings returns a copy of the session's settings whose pointer fields
+// may be replaced (SetSettings copies what it keeps).
+func (c *Shell) anSettings() session.Settings { return c.sess.Settings }
+
+// anParse reads one number as the readings are read (decimal comma allowed).
+func (c *Shell) anParse(text string) (float64, error) {
+	if c.sess != nil && c.sess.DecimalComma != nil {
+		return session.ParseNumberHint(text, *c.sess.DecimalComma)
+	}
+	return session.ParseNumber(text)
+}
+
+// anOptional parses an optional number: empty text gives nil.
+func (c *Shell) anOptional(field, text string) (*float64, bool) {
+	if c.anFieldErr == nil {
+		c.anFieldErr = map[string]string{}
+	}
+	delete(c.anFieldErr, field)
+	if strings.TrimSpace(text) == "" {
+		return nil, true
+	}
+	v, err := c.anParse(text)
+	if err != nil {
+		c.anFieldErr[field] = "Not used: " + err.Error() + "."
+		return nil, false
+	}
+	return &v, true
+}
+
+var anModels = []struct {
+	m     fitcore.Model
+	label string
+}{
+	{fitcore.ModelOLS, "Least squares"},
+	{fitcore.ModelOrigin, "Through zero"},
+	{fitcore.ModelWeighted, "Weighted"},
+	{fitcore.ModelDeming, "Deming (x has error)"},
+}
+
+var anWeightSchemes = []struct {
+	w     fitcore.WeightScheme
+	label string
+}{
+	{fitcore.WeightsX, "Scatter ∝ √x (w = 1/x)"},
+	{fitcore.WeightsX2, "Scatter ∝ x (w = 1/x²)"},
+	{fitcore.WeightsFitted2, "Scatter ∝ fitted y (w = 1/ŷ²)"},
+	{fitcore.WeightsRepeats, "From repeats at each x"},
+	{fitcore.WeightsPowerFit, "Power of x, estimated"},
+}
+
+var anTransforms = []struct {
+	t     fitcore.Transform
+	label string
+}{
+	{fitcore.TransformNone, "As read"},
+	{fitcore.TransformLogY, "log y"},
+	{fitcore.TransformSqrtY, "√y"},
+	{fitcore.TransformReciprocal, "1/y"},
+	{fitcore.TransformLogLog, "log y, log x"},
+	{fitcore.TransformBoxCox, "Power of y (Box–Cox)"},
+}
+
+var anLevels = []float64{0.90, 0.95, 0.99}
+
+// renderSettings draws the fit settings: model, scale, confidence level,
+// reference values and reading uncertainties. Every change is stored in
+// the session through SetSettings.
+func (c *Shell) renderSettings() app.UI {
+	c.anSyncOnSwitch()
+	st := c.sess.Settings
+	model := st.Model
+	if model == "" {
+		model = fitcore.ModelOLS
+	}
+	if model == fitcore.ModelOLS && st.Weights != fitcore.WeightsNone {
+		model = fitcore.ModelWeighted
+	}
+	tr := st.Transform
+	if tr == "" {
+		tr = fitcore.TransformNone
+	}
+	level := st.Level
+	if level == 0 {
+		level = 0.95
+	}
+	custom := true
+	for _, l := range anLevels {
+		if level == l {
+			custom = false
+		}
+	}
+	return app.Section().Class("pl-card an-settings").Attr("aria-label", "Fit settings").DataSet("testid", "settings").Body(
+		app.H2().Text("How the line is fitted"),
+		c.anChoice("Model", "settings-model", func() []app.UI {
+			out := make([]app.UI, len(anModels))
+			for i, m := range anModels {
+				out[i] = c.anChip("settings-model-"+string(m.m), m.label, model == m.m, func(ctx app.Context, e app.Event) {
+					s := c.anSettings()
+					s.Model = m.m
+					switch m.m {
+					case fitcore.ModelWeighted:
+						if s.Weights == fitcore.WeightsNone || s.Weights == fitcore.WeightsGiven {
+							s.Weights = fitcore.WeightsX2
+						}
+					default:
+						s.Weights = fitcore.WeightsNone
+					}
+					c.anSetSettings(ctx, s)
+				})
+			}
+			return out
+		}()),
+		app.If(model == fitcore.ModelWeighted, func() app.UI {
+			return c.anChoice("Weights", "settings-weights", func() []app.UI {
+				out := make([]app.UI, len(anWeightSchemes))
+				for i, w := range anWeightSchemes {
+					out[i] = c.anChip("settings-weights-"+string(w.w), w.label, st.Weights == w.w, func(ctx app.Context, e app.Event) {
+						s := c.anSettings()
+						s.Model, s.Weights = fitcore.ModelWeighted, w.w
+						c.anSetSettings(ctx, s)
+					})
+				}
+				return out
+			}())
+		}),
+		app.If(model == fitcore.ModelDeming, func() app.UI {
+			vr := ""
+			if st.VarianceRatio > 0 {
+				vr = numfmt.Full(st.VarianceRatio)
+			}
+			return c.anNumberField("settings_variance_ratio", "Variance ratio δ = var(y errors) / var(x errors)", "1 when left empty", vr,
+				func(ctx app.Context, p *float64) {
+					s := c.anSettings()
+					s.VarianceRatio = 0
+					if p != nil {
+						s.VarianceRatio = *p
+					}
+					c.anSetSettings(ctx, s)
+				})
+		}),
+		c.anChoice("Scale", "settings-transform", func() []app.UI {
+			out := make([]app.UI, len(anTransforms))
+			for i, t := range anTransforms {
+				out[i] = c.anChip("settings-transform-"+string(t.t), t.label, tr == t.t, func(ctx app.Context, e app.Event) {
+					s := c.anSettings()
+					s.Transform = t.t
+					if t.t != fitcore.TransformBoxCox {
+						s.BoxCoxLambda = nil
+					}
+					c.anSetSettings(ctx, s)
+				})
+			}
+			return out
+		}()),
+		app.If(tr == fitcore.TransformBoxCox, func() app.UI {
+			return c.anNumberField("settings_box_cox_lambda", "Power λ", "estimated when left empty", anOptText(st.BoxCoxLambda),
+				func(ctx app.Context, p *float64) {
+					s := c.anSettings()
+					s.BoxCoxLambda = p
+					c.anSetSettings(ctx, s)
+				})
+		}),
+		c.anChoice("Confidence level", "settings-level", func() []app.UI {
+			out := make([]app.UI, 0, len(anLevels)+1)
+			for _, l := range anLevels {
+				out = append(out, c.anChip("settings-level-"+strconv.Itoa(int(l*100+0.5)), anPercent(l), level == l && !c.anOtherOpen, func(ctx app.Context, e app.Event) {
+					c.anOtherOpen = false
+					s := c.anSettings()
+					s.Level = l
+					c.anSetSettings(ctx, s)
+				}))
+			}
+			out = append(out, c.anChip("settings-level-other", "Other…", custom || c.anOtherOpen, func(ctx app.Context, e app.Event) {
+				c.anOtherOpen = true
+			}))
+			return out
+		}()),
+		app.If(custom || c.anOtherOpen, func() app.UI {
+			return c.anNumberField("settings_level", "Confidence level in %", "between 50 and 99.99", numfmt.Full(anPct(level)),
+				func(ctx app.Context, p *float64) {
+					if p == nil {
+						return
+					}
+					if !(*p >= 50 && *p < 100) {
+						c.anFieldErr["settings_level"] = "Not used: give a level between 50 and 99.99 %."
+						return
+					}
+					s := c.anSettings()
+					s.Level = *p / 100
+					c.anSetSettings(ctx, s)
+				})
+		}),
+		app.Div().Class("an-fields").Body(
+			c.anNumberField("settings_slope_ref", "Test the slope against", "1 when left empty", anOptText(st.SlopeRef),
+				func(ctx app.Context, p *float64) {
+					s := c.anSettings()
+					s.SlopeRef = p
+					c.anSetSettings(ctx, s)
+				}),
+			c.anNumberField("settings_intercept_ref", "Test the intercept against", "0 when left empty", anOptText(st.InterceptRef),
+				func(ctx app.Context, p *float64) {
+					s := c.anSettings()
+					s.InterceptRef = p
+					c.anSetSettings(ctx, s)
+				}),
+			c.anNumberField("settings_x_uncertainty", "Standard uncertainty of one x "+anParen(c.sess.XUnit), "empty = x exact", anZeroText(st.XUncertainty),
+				func(ctx app.Context, p *float64) {
+					s := c.anSettings()
+					s.XUncertainty = anOr0(p)
+					c.anSetSettings(ctx, s)
+				}),
+			c.anNumberField("settings_y_uncertainty", "Standard uncertainty of one y "+anParen(c.sess.YUnit), "empty = not given", anZeroText(st.YUncertainty),
+				func(ctx app.Context, p *float64) {
+					s := c.anSettings()
+					s.YUncertainty = anOr0(p)
+					c.anSetSettings(ctx, s)
+				}),
+		),
+		app.If(st.XUncertainty > 0, func() app.UI {
+			return app.P().Class("an-hint").Text("With an x uncertainty the checks also test whether x may be treated as exact.")
+		}),
+	)
+}
+
+// anChoice is a labelled group of mutually exclusive buttons.
+func (c *Shell) anChoice(label, testid string, chips []app.UI) app.UI {
+	return app.Div().Class("an-choice").Attr("role", "group").Attr("aria-label", label).DataSet("testid", testid).Body(
+		app.Span().Class("an-choice-label").Text(label),
+		app.Div().Class("an-chips").Body(chips...),
+	)
+}
+
+func (c *Shell) anChip(testid, label string, on bool, h app.EventHandler) app.UI {
+	cls := "an-chip"
+	mark := ""
+	if on {
+		cls += " an-chip-on"
+		mark = "● "
+	}
+	return app.Button().Class(cls).Text(mark+label).DataSet("testid", testid).DataSet("an", testid).
+		Attr("aria-pressed", strconv.FormatBool(on)).OnClick(c.anOn(testid, h))
+}
+
+// anNumberField is a labelled number input applied on change (Enter or
+// leaving the field); empty text passes nil.
+func (c *Shell) anNumberField(field, label, hint, value string, apply func(app.Context, *float64)) app.UI {
+	problem := c.anFieldErr[field]
+	if c.anFieldVals == nil {
+		c.anFieldVals = map[string]string{}
+	}
+	c.anFieldVals[field] = value
+	in := app.Input().Type("text").Class("an-input").Value(value).
+		Attr("inputmode", "decimal").Attr("autocomplete", "off").Attr("placeholder", hint).
+		DataSet("testid", strings.ReplaceAll(field, "_", "-")).DataSet("an", "field:"+field).
+		OnChange(c.anOn("field:"+field, func(ctx app.Context, e app.Event) {
+			p, ok := c.anOptional(field, ctx.JSSrc().Get("value").String())
+			if !ok {
+				return
+			}
+			apply(ctx, p)
+		}))
+	if problem != "" {
+		in = in.Attr("aria-invalid", "true")
+	}
+	return app.Label().Class("an-field").Body(
+		app.Span().Class("an-field-label").Text(label),
+		in,
+		app.If(problem != "", func() app.UI { return app.Span().Class("pl-problem").Text(problem) }),
+	)
+}
+
+func anOptText(p *float64) string {
+	if p == nil {
+		return ""
+	}
+	return numfmt.Full(*p)
+}
+
+func anZeroText(v float64) string {
+	if v == 0 {
+		return ""
+	}
+	return numfmt.Full(v)
+}
+
+func anOr0(p *float64) float64 {
+	if p == nil {
+		return 0
+	}
+	return *p
+}
+
+func anParen(unit string) string {
+	if unit == "" {
+		return ""
+	}
+	return "(" + unit + ")"
+}
+
+// anPercent writes a level as "95 %".
+func anPercent(level float64) string {
+	return strconv.FormatFloat(anPct(level), 'f', -1, 64) + " %"
+}
+
+// anPct is a level in percent, rounded to hide binary noise (0.9 → 90).
+func anPct(level float64) float64 { return math.Round(level*1e6) / 1e4 }
+
+// anScale names the fitted scale of y and x ("ln y", "√y", …) and gives
+// the units the coefficients carry on it.
+type anScale struct {
+	transformed bool
+	yName       string // "y" in its unit, or the transformed quantity
+	y           string // unit of fitted y values (intercept, residual SD)
+	slope       string // unit of the slope
+	sq          string // unit of sums of squares
+	cov         string // unit of cov(intercept, slope)
+}
+
+func (c *Shell) anScaleOf(rep *fitcore.Report) anScale {
+	xu, yu := c.sess.XUnit, c.sess.YUnit
+	s := anScale{yName: "y"}
+	yq, xq := "", ""
+	switch rep.Transform {
+	case fitcore.TransformLogY:
+		yq = "ln y"
+	case fitcore.TransformLogLog:
+		yq, xq = "ln y", "ln x"
+	case fitcore.TransformSqrtY:
+		yq = "√y"
+	case fitcore.TransformReciprocal:
+		yq = "1/y"
+	case fitcore.TransformBoxCox:
+		yq = "Box–Cox y"
+		if rep.TransformLambda != nil {
+			yq = "Box–Cox y (λ = " + numfmt.Sig(*rep.TransformLambda, 3) + ")"
+		}
+	}
+	if yq == "" {
+		if xu == "" && yu == "" {
+			return s
+		}
+		s.y = yu
+		s.slope = unitOr(yu, "y") + " per " + unitOr(xu, "x")
+		if yu != "" {
+			s.sq = "(" + yu + ")²"
+			s.cov = s.sq + " per " + unitOr(xu, "x")
+		}
+		return s
+	}
+	s.transformed = true
+	s.yName = yq
+	xs := unitOr(xu, "x")
+	if xq != "" {
+		xs = xq
+	}
+	s.y = "in " + yq
+	s.slope = yq + " per " + xs
+	s.sq = "(" + yq + ")²"
+	s.cov = s.sq + " per " + xs
+	return s
+}
+
+// renderMoreNumbers is the "More numbers" disclosure of the Line card:
+// every statistic of the fit, each with data-value for tests.
+func (c *Shell) renderMoreNumbers() app.UI {
+	rep := c.view.report
+	if rep == nil {
+		return nil
+	}
+	open := c.anMoreOpen
+	label := "More numbers ▾"
+	if open {
+		label = "Fewer numbers ▴"
+	}
+	return app.Div().Class("an-more").Body(
+		app.Button().Class("pl-btn pl-btn-quiet an-toggle").Text(label).DataSet("testid", "more-numbers").DataSet("an", "more-numbers").
+			Attr("aria-expanded", strconv.FormatBool(open)).
+			OnClick(c.anOn("more-numbers", func(ctx app.Context, e app.Event) { c.anMoreOpen = !c.anMoreOpen })),
+		app.If(open, c.anNumbers),
+	)
+}
+
+func (c *Shell) anNumbers() app.UI {
+	rep := c.view.report
+	sig := numfmt.Precision(c.view.digits)
+	sc := c.anScaleOf(rep)
+	lvl := anPercent(rep.Level)
+	origin := rep.Model == fitcore.ModelOrigin
+	rows := []app.UI{
+		anCoefTable("slope", "Slope", rep.Slope, sc.slope, lvl, sig),
+	}
+	if !origin {
+		rows = append(rows, anCoefTable("intercept", "Intercept", rep.Intercept, sc.y, lvl, sig))
+	}
+	fit := []app.UI{
+		anRow("result-residual-se-full", "Residual standard deviation", rep.ResidualSE, numfmt.Sig(rep.ResidualSE, sig), sc.y),
+		anRow("result-df", "Degrees of freedom", rep.DF, anDF(rep.DF), ""),
+		anRow("result-r-full", "Correlation r", rep.R, numfmt.Decimals(rep.R, 6), ""),
+		anRow("result-r-squared-full", "R²", rep.RSquared, numfmt.Decimals(rep.RSquared, 6), ""),
+		anRow("result-adj-r-squared", "Adjusted R²", rep.AdjRSquared, numfmt.Decimals(rep.AdjRSquared, 6), ""),
+		anRow("result-f", "F (line explains y)", rep.F, numfmt.Sig(rep.F, 4), ""),
+		anRow("result-f-p", "p of F", rep.FP, anP(rep.FP), ""),
+	}
+	if !origin {
+		fit = append(fit, anRow("result-cov", "Covariance of intercept and slope", rep.CovSlopeIntercept, numfmt.Sig(rep.CovSlopeIntercept, 4), sc.cov))
+	}
+	fit = append(fit,
+		anRow("result-mean-x", "Mean of x", rep.MeanX, numfmt.Sig(rep.MeanX, sig), ""),
+		anRow("result-mean-y", "Mean of y", rep.MeanY, numfmt.Sig(rep.MeanY, sig), ""),
+	)
+	return app.Div().Class("an-numbers").DataSet("testid", "more-numbers-body").Body(
+		app.If(sc.transformed, func() app.UI {
+			return app.P().Class("an-hint").Text("These numbers are on the fitted scale (" + sc.yName + "). The table “Line in original units” below the advice gives the line back in " + unitOr(c.sess.YUnit, "y") + ".")
+		}),
+		app.Div().Class("an-coefs").Body(rows...),
+		app.Table().Class("an-table an-kv").Body(
+			app.Caption().Text("The fit as a whole"),
+			app.TBody().Body(fit...),
+		),
+		c.anAnova(rep, sig, sc),
+	)
+}
+
+func anCoefTable(id, name string, k fitcore.Coefficient, unit, lvl string, sig int) app.UI {
+	p := "result-" + id + "-"
+	return app.Table().Class("an-table an-kv").DataSet("testid", "coef-"+id).Body(
+		app.Caption().Text(name),
+		app.TBody().Body(
+			anRow(p+"estimate", "Estimate", k.Estimate, numfmt.Sig(k.Estimate, sig), unit),
+			anRow(p+"se", "Standard error", k.SE, numfmt.Sig(k.SE, 3), unit),
+			anRow(p+"t", "t (against 0)", k.T, numfmt.Sig(k.T, 4), ""),
+			anRow(p+"p", "p (against 0)", k.P, anP(k.P), ""),
+			app.Tr().Body(
+				app.Th().Attr("scope", "row").Text(lvl+" interval"),
+				app.Td().Body(
+					anNum(p+"ci-low", k.CILow, numfmt.Sig(k.CILow, sig)),
+					app.Span().Text(" to "),
+					anNum(p+"ci-high", k.CIHigh, numfmt.Sig(k.CIHigh, sig)),
+					app.If(unit != "", func() app.UI { return app.Span().Class("pl-unit").Text(" " + unit) }),
+				),
+			),
+			anRow(p+"ref", "Tested against", k.Ref, anFullText(k.Ref), unit),
+			anRow(p+"t-ref", "t (against "+anFullText(k.Ref)+")", k.TRef, numfmt.Sig(k.TRef, 4), ""),
+			anRow(p+"p-ref", "p (against "+anFullText(k.Ref)+")", k.PRef, anP(k.PRef), ""),
+		),
+	)
+}
+
+func (c *Shell) anAnova(rep *fitcore.Report, sig int, sc anScale) app.UI {
+	if len(rep.Anova) == 0 {
+		return nil
+	}
+	head := "Sum of squares"
+	if sc.sq != "" {
+		head += " " + sc.sq
+	}
+	return app.Div().Class("an-scroll").Body(
+		app.Table().Class("an-table an-anova").DataSet("testid", "anova").Body(
+			app.Caption().Text("Analysis of variance"),
+			app.THead().Body(app.Tr().Body(
+				app.Th().Text("Source"), app.Th().Text("df"), app.Th().Text(head),
+				app.Th().Text("Mean square"), app.Th().Text("F"), app.Th().Text("p"),
+			)),
+			app.TBody().Body(app.Range(rep.Anova).Slice(func(i int) app.UI {
+				r := rep.Anova[i]
+				id := "anova-" + strconv.Itoa(i) + "-"
+				hasF := r.Source == "regression"
+				hasMS := !strings.HasPrefix(r.Source, "total")
+				return app.Tr().Body(
+					app.Th().Attr("scope", "row").Text(anSource(r.Source)),
+					app.Td().Body(anNum(id+"df", r.DF, anDF(r.DF))),
+					app.Td().Body(anNum(id+"ss", r.SS, numfmt.Sig(r.SS, sig))),
+					app.Td().Body(app.If(hasMS, func() app.UI { return anNum(id+"ms", r.MS, numfmt.Sig(r.MS, sig)) })),
+					app.Td().Body(app.If(hasF, func() app.UI { return anNum(id+"f", r.F, numfmt.Sig(r.F, 4)) })),
+					app.Td().Body(app.If(hasF, func() app.UI { return anNum(id+"p", r.P, anP(r.P)) })),
+				)
+			})),
+		),
+	)
+}
+
+func anSource(s string) string {
+	switch strings.ToLower(s) {
+	case "regression":
+		return "Line"
+	case "residual":
+		return "Scatter about the line"
+	case "total":
+		return "Total"
+	case "total (uncorrected)":
+		return "Total (about zero)"
+	}
+	return s
+}
+
+// anRow is one labelled number of a two-column table.
+func anRow(testid, label string, v float64, shown, unit string) app.UI {
+	return app.Tr().Body(
+		app.Th().Attr("scope", "row").Text(label),
+		app.Td().Body(
+			anNum(testid, v, shown),
+			app.If(unit != "", func() app.UI { return app.Span().Class("pl-unit").Text(" " + unit) }),
+		),
+	)
+}
+
+// anNum shows a number with its full value in data-value.
+func anNum(testid string, v float64, shown string) app.UI {
+	s := app.Span().Class("an-num").DataSet("value", numfmt.Full(v)).Text(shown)
+	if testid != "" {
+		s = s.DataSet("testid", testid)
+	}
+	return s
+}
+
+// anFullText writes a value the technician typed (a reference, a query x)
+// as given, with a real minus sign.
+func anFullText(v float64) string {
+	if v < 0 {
+		return "−" + numfmt.Full(-v)
+	}
+	return numfmt.Full(v)
+}
+
+// anP writes a p-value: two significant digits, "< 0.0001" below that.
+func anP(p float64) string {
+	if p < 0.0001 {
+		return "< 0.0001"
+	}
+	return numfmt.Sig(p, 2)
+}
+
+// anDF writes degrees of freedom: whole numbers as such.
+func anDF(df float64) string {
+	if df == float64(int64(df)) {
+		return strconv.FormatInt(int64(df), 10)
+	}
+	return numfmt.Sig(df, 4)
+}

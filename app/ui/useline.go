@@ -1,0 +1,196 @@
+package ui
+
+import (
+	"strconv"
+	"strings"
+	"unicode"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"pairline/app/numfmt"
+)
+
+// anSplitReadings splits typed repeat readings at spaces and semicolons
+// (tabs and new lines too; a comma stays inside a number as a decimal
+// comma) and parses each as the readings are parsed. The error names the
+// reading, counted from 1.
+func (c *Shell) anSplitReadings(text string) ([]float64, string) {
+	fields := strings.FieldsFunc(text, func(r rune) bool { return r == ';' || unicode.IsSpace(r) })
+	out := make([]float64, 0, len(fields))
+	for i, f := range fields {
+		v, err := c.anParse(f)
+		if err != nil {
+			return nil, "Reading " + strconv.Itoa(i+1) + " is not used: " + err.Error() + "."
+		}
+		out = append(out, v)
+	}
+	return out, ""
+}
+
+// anRequery re-runs the analysis after a question of "Use the line"
+// changed. The questions ride along in the one Analyze run (see
+// anQueries); a big session waits for typing to pause, as edits do.
+func (c *Shell) anRequery(ctx app.Context) {
+	if c.sess == nil {
+		return
+	}
+	if len(c.sess.Readings) < bigSession {
+		c.analyse()
+		return
+	}
+	c.editSeq++
+	seq := c.editSeq
+	c.view.stale = true
+	ctx.After(idleDelay, func(ctx app.Context) {
+		if seq == c.editSeq {
+			c.analyse()
+		}
+	})
+}
+
+// renderUseLine draws "Use the line": an unknown's readings converted to
+// x with the Fieller interval, y predicted at an x with both intervals, and
+// the detection and quantitation limits.
+func (c *Shell) renderUseLine() app.UI {
+	rep := c.view.report
+	if rep == nil {
+		return nil
+	}
+	xq, yq := colHead(c.sess.XName, c.sess.XUnit, "x"), colHead(c.sess.YName, c.sess.YUnit, "y")
+	return app.Section().Class("pl-card an-use").Attr("aria-label", "Use the line").Body(
+		app.H2().Text("Use the line"),
+		app.Label().Class("an-field").Body(
+			app.Span().Class("an-field-label").Text("Readings of an unknown: "+yq),
+			app.Input().Type("text").Class("an-input").Value(c.anInvText).
+				Attr("inputmode", "decimal").Attr("autocomplete", "off").
+				Attr("placeholder", "one or more repeats, e.g. 12.4; 12.6; 12.5").
+				DataSet("testid", "inverse-input").
+				OnInput(func(ctx app.Context, e app.Event) {
+					c.anInvText = ctx.JSSrc().Get("value").String()
+					c.anInvY, c.anInvErr = c.anSplitReadings(c.anInvText)
+					c.anRequery(ctx)
+				}),
+		),
+		app.If(c.anInvErr != "", func() app.UI {
+			return app.P().Class("pl-problem").DataSet("testid", "inverse-problem").Text(c.anInvErr)
+		}),
+		c.anInverseResult(),
+		app.Label().Class("an-field").Body(
+			app.Span().Class("an-field-label").Text("Predict the reading at: "+xq),
+			app.Input().Type("text").Class("an-input").Value(c.anPredText).
+				Attr("inputmode", "decimal").Attr("autocomplete", "off").
+				Attr("placeholder", "an x value, or several").
+				DataSet("testid", "predict-input").
+				OnInput(func(ctx app.Context, e app.Event) {
+					c.anPredText = ctx.JSSrc().Get("value").String()
+					c.anPredX, c.anPredErr = c.anSplitReadings(c.anPredText)
+					c.anRequery(ctx)
+				}),
+		),
+		app.If(c.anPredErr != "", func() app.UI {
+			return app.P().Class("pl-problem").DataSet("testid", "predict-problem").Text(c.anPredErr)
+		}),
+		c.anPredictResult(),
+		c.anLimits(),
+	)
+}
+
+func (c *Shell) anInverseResult() app.UI {
+	rep := c.view.report
+	if len(c.anInvY) == 0 || len(rep.Inverse) == 0 {
+		return nil
+	}
+	inv := rep.Inverse[0]
+	sig := numfmt.Precision(c.view.digits)
+	xu := c.sess.XUnit
+	lvl := anPercent(rep.Level)
+	el := app.Div().Class("an-answer").DataSet("testid", "inverse-result").
+		DataSet("value", numfmt.Full(inv.X)).DataSet("low", numfmt.Full(inv.Low)).DataSet("high", numfmt.Full(inv.High)).
+		DataSet("bounded", strconv.FormatBool(inv.Bounded)).DataSet("m", strconv.Itoa(inv.M))
+	mean := "The reading " + numfmt.Sig(inv.Y, sig)
+	if inv.M > 1 {
+		mean = "The mean of " + strconv.Itoa(inv.M) + " readings, " + numfmt.Sig(inv.Y, sig) + ","
+	}
+	body := []app.UI{
+		app.P().Class("an-answer-main").Body(
+			app.Span().Text("x̂ = "),
+			app.Strong().Class("an-big").Text(numfmt.Sig(inv.X, sig)),
+			app.If(xu != "", func() app.UI { return app.Span().Class("pl-unit").Text(" " + xu) }),
+		),
+	}
+	if inv.Bounded {
+		body = append(body, app.P().Body(
+			app.Span().Text(lvl+" interval: "),
+			anNum("inverse-low", inv.Low, numfmt.Sig(inv.Low, sig)),
+			app.Span().Text(" to "),
+			anNum("inverse-high", inv.High, numfmt.Sig(inv.High, sig)),
+			app.If(xu != "", func() app.UI { return app.Span().Class("pl-unit").Text(" " + xu) }),
+			app.Span().Text(" · standard error "),
+			anNum("inverse-se", inv.SE, numfmt.Sig(inv.SE, 3)),
+		))
+	} else {
+		body = append(body, app.P().Class("an-warn-text").DataSet("testid", "inverse-unbounded").Text(
+			"▲ No interval can be given: the line is too flat against its scatter to read x back with confidence."))
+	}
+	body = append(body, app.P().Class("an-hint").Text(mean+" reads back as this x on the line."))
+	if inv.Message != "" {
+		body = append(body, app.P().Class("an-hint").DataSet("testid", "inverse-message").Text(inv.Message))
+	}
+	return el.Body(body...)
+}
+
+func (c *Shell) anPredictResult() app.UI {
+	rep := c.view.report
+	n := len(c.anPredX)
+	if n == 0 || len(rep.Predictions) < n {
+		return nil
+	}
+	sig := numfmt.Precision(c.view.digits)
+	yu := c.sess.YUnit
+	lvl := anPercent(rep.Level)
+	preds := rep.Predictions[:n]
+	return app.Div().Class("an-answer").DataSet("testid", "predict-result").
+		DataSet("value", numfmt.Full(preds[0].Fit)).
+		DataSet("ci-low", numfmt.Full(preds[0].CILow)).DataSet("ci-high", numfmt.Full(preds[0].CIHigh)).
+		DataSet("pi-low", numfmt.Full(preds[0].PILow)).DataSet("pi-high", numfmt.Full(preds[0].PIHigh)).Body(
+		app.Range(preds).Slice(func(i int) app.UI {
+			p := preds[i]
+			id := "predict-" + strconv.Itoa(i) + "-"
+			return app.Div().Class("an-pred").Body(
+				app.P().Class("an-answer-main").Body(
+					app.Span().Text("At x = "+anFullText(p.X)+": ŷ = "),
+					app.Strong().Class("an-big").Body(anNum(id+"fit", p.Fit, numfmt.Sig(p.Fit, sig))),
+					app.If(yu != "", func() app.UI { return app.Span().Class("pl-unit").Text(" " + yu) }),
+				),
+				app.P().Body(
+					app.Span().Text("Mean reading ("+lvl+"): "),
+					anNum(id+"ci-low", p.CILow, numfmt.Sig(p.CILow, sig)), app.Span().Text(" to "),
+					anNum(id+"ci-high", p.CIHigh, numfmt.Sig(p.CIHigh, sig)),
+				),
+				app.P().Body(
+					app.Span().Text("One new reading ("+lvl+"): "),
+					anNum(id+"pi-low", p.PILow, numfmt.Sig(p.PILow, sig)), app.Span().Text(" to "),
+					anNum(id+"pi-high", p.PIHigh, numfmt.Sig(p.PIHigh, sig)),
+				),
+				app.If(p.Message != "", func() app.UI { return app.P().Class("an-hint").Text(p.Message) }),
+			)
+		}),
+	)
+}
+
+func (c *Shell) anLimits() app.UI {
+	rep := c.view.report
+	if rep.Limits == nil {
+		return nil
+	}
+	xu := c.sess.XUnit
+	return app.Div().Class("an-limits").DataSet("testid", "limits").
+		DataSet("lod", numfmt.Full(rep.Limits.LOD)).DataSet("loq", numfmt.Full(rep.Limits.LOQ)).Body(
+		app.H3().Text("Smallest amounts the line can tell apart"),
+		app.Table().Class("an-table an-kv").Body(app.TBody().Body(
+			anRow("limits-lod", "Detection limit (3.3·s / slope)", rep.Limits.LOD, numfmt.Sig(rep.Limits.LOD, 3), xu),
+			anRow("limits-loq", "Quantitation limit (10·s / slope)", rep.Limits.LOQ, numfmt.Sig(rep.Limits.LOQ, 3), xu),
+		)),
+		app.P().Class("an-hint").Text("For calibrations: below the detection limit a result cannot be told from zero; below the quantitation limit it is too uncertain to report as a number."),
+	)
+}
