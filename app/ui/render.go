@@ -26,6 +26,7 @@ func (c *Shell) Render() app.UI {
 		app.If(c.notice != "", func() app.UI {
 			return app.Div().Class("pl-strip").Attr("role", "status").Text(c.notice)
 		}),
+		c.renderTransferStrips(),
 		app.If(c.listOpen, c.renderSessions),
 		app.If(c.sess == nil, func() app.UI {
 			return app.Main().Class("pl-main").Body(app.P().Class("pl-wait").Text("Opening your sessions…"))
@@ -33,6 +34,7 @@ func (c *Shell) Render() app.UI {
 			return app.Main().Class("pl-main").Body(
 				c.renderReadings(),
 				c.renderLine(),
+				c.renderTransfer(),
 				c.renderChecks(), c.renderAdvice(), c.renderAcceptance(), c.renderUseLine(), c.renderSettings(),
 			)
 		}),

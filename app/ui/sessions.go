@@ -20,6 +20,7 @@ func (c *Shell) renderSessions() app.UI {
 		app.Ul().Class("pl-session-list").DataSet("testid", "session-list").Body(
 			app.Range(c.sessions).Slice(func(i int) app.UI { return c.sessionItem(c.sessions[i]) }),
 		),
+		c.renderTrash(),
 	)
 }
 

@@ -48,6 +48,8 @@ type Shell struct {
 	editSeq int // counts edits, to run delayed work only for the latest
 	page    int // page of the readings grid shown (pageSize rows each)
 
+	transferState // files in and out, trash, storage, other tabs (transfer.go)
+
 	analysisUI // settings, checks, advice, use of the line, acceptance (settings.go)
 
 	needSync bool // text fields must be set from the session at the next render
@@ -86,6 +88,7 @@ func (c *Shell) OnMount(ctx app.Context) {
 	c.ui = ctx
 	c.updateReady = ctx.AppUpdateAvailable()
 	c.saves = make(chan saveJob, 1)
+	c.mountTransfer(ctx)
 	c.anLoadTemplates(ctx)
 	ctx.Async(func() {
 		st, err := store.Open()
@@ -165,6 +168,7 @@ func newSession(now time.Time) (*session.Session, error) {
 func (c *Shell) show(s *session.Session) {
 	c.sess = s
 	c.page = 0
+	c.opened(s)
 	c.analyse()
 	c.resyncInputs()
 }
@@ -311,6 +315,7 @@ func (c *Shell) startSaver(ctx app.Context) {
 					c.saveState, c.saveMessage = "failed", err.Error()
 					return
 				}
+				c.announceSaved(ctx, job.sum)
 				if len(c.saves) == 0 {
 					c.saveState, c.saveMessage = "saved", ""
 				}
