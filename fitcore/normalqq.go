@@ -1,8 +1,9 @@
 package fitcore
 
 import (
+	"cmp"
 	"math"
-	"sort"
+	"slices"
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -57,7 +58,7 @@ func NormalQQ(values []float64) []QQPoint {
 			idx = append(idx, i)
 		}
 	}
-	sort.SliceStable(idx, func(a, b int) bool { return values[idx[a]] < values[idx[b]] })
+	slices.SortStableFunc(idx, func(a, b int) int { return cmp.Compare(values[a], values[b]) })
 	z := NormalQuantiles(len(idx))
 	out := make([]QQPoint, len(idx))
 	for r, i := range idx {

@@ -15,8 +15,9 @@ func digitsOf(text string) int { return numfmt.DigitsOf(text) }
 // Render draws the whole screen.
 func (c *Shell) Render() app.UI {
 	c.syncInputs()
-	return app.Div().Class("pl-app").Body(
+	return app.Div().Class("pl-app", c.themeClass()).Body(
 		c.renderBar(),
+		c.renderTools(),
 		app.If(c.updateReady, func() app.UI {
 			return app.Div().Class("pl-strip pl-strip-update").DataSet("testid", "update-ready").Body(
 				app.Span().Text("A new version of Pairline is ready. Your readings are saved; reload when it suits you."),
@@ -34,10 +35,12 @@ func (c *Shell) Render() app.UI {
 			return app.Main().Class("pl-main").Body(
 				c.renderReadings(),
 				c.renderLine(),
+				c.renderPlots(),
 				c.renderTransfer(),
 				c.renderChecks(), c.renderAdvice(), c.renderAcceptance(), c.renderUseLine(), c.renderSettings(),
 			)
 		}),
+		app.If(c.rpOpen && c.sess != nil, c.renderReport),
 	)
 }
 

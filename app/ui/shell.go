@@ -52,6 +52,8 @@ type Shell struct {
 
 	analysisUI // settings, checks, advice, use of the line, acceptance (settings.go)
 
+	fieldUI // plots, report, undo, theme and demo (theme.go)
+
 	needSync bool // text fields must be set from the session at the next render
 
 	// ui is the Shell's own context (from OnMount). Work that finishes after
@@ -223,6 +225,7 @@ func (c *Shell) analyse() {
 	}
 	opt := c.sess.Settings.Options()
 	c.anQueries(&opt, x)
+	c.plotQueries(&opt, x)
 	rep, err := fitcore.Analyze(x, y, opt)
 	if err != nil {
 		a.message = plainFitError(err, len(rows))
@@ -246,6 +249,7 @@ const idleDelay = 250 * time.Millisecond
 // sessions, as soon as typing pauses, so that typing never stalls).
 func (c *Shell) edited(ctx app.Context) {
 	c.editSeq++
+	c.undoTrack()
 	if len(c.sess.Readings) < bigSession {
 		c.analyse()
 		c.save(ctx)

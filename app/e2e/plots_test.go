@@ -1,0 +1,246 @@
+//go:build e2e
+
+package e2e
+
+import (
+	"encoding/json"
+	"fmt"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/chromedp/chromedp"
+
+	"pairline/app/demo"
+	"pairline/fitcore"
+)
+
+// contrastJS returns the lowest text contrast on the page, by the WCAG 2
+// formula (relative luminance L = 0.2126 R + 0.7152 G + 0.0722 B of the
+// linearised channels; ratio (L1 + 0.05)/(L2 + 0.05); W3C WCAG 2.1 §1.4.6
+// asks 7:1 for enhanced contrast). Text in disabled controls is exempt
+// (WCAG), as is text drawn inside SVG (checked by the plot colours).
+const contrastJS = `((LIMIT) => {
+	const parse = c => { const m = c.match(/rgba?\(([^)]+)\)/); if (!m) return null; const p = m[1].split(',').map(Number); return {r: p[0], g: p[1], b: p[2], a: p.length > 3 ? p[3] : 1}; };
+	const lum = c => { const f = v => { v /= 255; return v <= 0.03928 ? v / 12.92 : Math.pow((v + 0.055) / 1.055, 2.4); }; return 0.2126 * f(c.r) + 0.7152 * f(c.g) + 0.0722 * f(c.b); };
+	const bg = el => { while (el) { const c = parse(getComputedStyle(el).backgroundColor); if (c && c.a > 0.5) return c; el = el.parentElement; } return {r: 255, g: 255, b: 255, a: 1}; };
+	let worst = 99, where = "", n = 0, low = [];
+	const w = document.createTreeWalker(document.body, NodeFilter.SHOW_TEXT);
+	while (w.nextNode()) {
+		const t = w.currentNode; if (!t.textContent.trim()) continue;
+		const el = t.parentElement; if (!el || el.closest('svg') || el.closest('[disabled]') || el.closest('option')) continue;
+		const st = getComputedStyle(el); if (st.visibility === 'hidden' || !el.getClientRects().length) continue;
+		const fg = parse(st.color), b = bg(el); if (!fg) continue;
+		const l1 = lum(fg), l2 = lum(b), r = (Math.max(l1, l2) + 0.05) / (Math.min(l1, l2) + 0.05);
+		n++;
+		if (r < LIMIT && low.length < 12) low.push(el.tagName + '.' + el.className + ' "' + t.textContent.trim().slice(0, 30) + '" ' + r.toFixed(2));
+		if (r < worst) { worst = r; where = el.tagName + '.' + el.className + ' "' + t.textContent.trim().slice(0, 40) + '" ' + st.color + ' on rgb(' + b.r + ',' + b.g + ',' + b.b + ')'; }
+	}
+	return JSON.stringify({worst, where, n, low});
+})`
+
+type contrast struct {
+	Worst float64
+	Where string
+	N     int
+	Low   []string // texts below the limit asked for
+}
+
+func fuContrast(t *testing.T, b *browser, limit float64) contrast {
+	t.Helper()
+	var c contrast
+	if err := json.Unmarshal([]byte(eval[string](t, b, contrastJS+"("+strconv.FormatFloat(limit, 'f', -1, 64)+")")), &c); err != nil {
+		t.Fatal(err)
+	}
+	return c
+}
+
+// overflowJS lists elements reaching past the right edge of the viewport.
+const overflowJS = `(() => {
+	const W = document.documentElement.clientWidth, out = [];
+	for (const el of document.querySelectorAll('.pl-app *')) {
+		const r = el.getBoundingClientRect();
+		if (r.width && r.right > W + 1 && !el.closest('.pl-report-view')) {
+			let scroller = false;
+			for (let p = el.parentElement; p; p = p.parentElement) { const o = getComputedStyle(p).overflowX; if (o === 'auto' || o === 'scroll' || o === 'hidden') { scroller = true; break; } }
+			if (!scroller) out.push(el.tagName + '.' + el.className + '[' + (el.dataset.testid || '') + '] in ' + (el.parentElement ? el.parentElement.className : '') + ' "' + el.textContent.trim().slice(0, 30) + '" right=' + Math.round(r.right));
+		}
+	}
+	return JSON.stringify({scroll: document.documentElement.scrollWidth, width: W, out: out.slice(0, 8)});
+})()`
+
+func fuOverflow(t *testing.T, b *browser, what string) {
+	t.Helper()
+	var o struct {
+		Scroll, Width int
+		Out           []string
+	}
+	if err := json.Unmarshal([]byte(eval[string](t, b, overflowJS)), &o); err != nil {
+		t.Fatal(err)
+	}
+	if o.Scroll > o.Width || len(o.Out) > 0 {
+		t.Errorf("%s: the page is %d px wide in a %d px viewport; overflowing: %v", what, o.Scroll, o.Width, o.Out)
+	}
+}
+
+// TestPlots: the four plots of demo C, a tap on the mistyped reading, leaving
+// it out with a reason (the line then equals fitcore's without it), undo,
+// and the plot-side checks that the readings drawn are fitcore's.
+func TestPlots(t *testing.T) {
+	srv := startServer(t)
+	b := newBrowser(t, tablet)
+	fuDemo(t, b, srv)
+	ss, reps := fuReports(t)
+	s, rep := ss[2], reps[2]
+	fuOpenTitled(t, b, s.Title)
+	waitFor(t, b, "the plots", `!!document.querySelector('[data-testid="plot-qq"]')`, 20*time.Second)
+
+	for _, id := range []string{"plot-fit", "plot-residuals", "plot-order", "plot-qq"} {
+		tag := eval[string](t, b, fmt.Sprintf(`document.querySelector('[data-testid=%q]').tagName`, id))
+		if tag != "svg" {
+			t.Errorf("%s is a %s, want svg", id, tag)
+		}
+		if l := attr(t, b, id, "aria-label"); len(l) < 40 {
+			t.Errorf("%s has aria-label %q, want a sentence", id, l)
+		}
+		if n := eval[int](t, b, fmt.Sprintf(`document.querySelectorAll('[data-testid=%q] .pl-plot-points [data-row]').length`, id)); n != rep.N {
+			t.Errorf("%s draws %d readings, want %d", id, n, rep.N)
+		}
+	}
+	// Normal Q–Q: the mistyped reading has the most negative studentized
+	// residual in fitcore's report, so it is the lowest, leftmost point.
+	lowest := eval[string](t, b, `(() => { let best = null, by = -1, bx = 1e9;
+		for (const e of document.querySelectorAll('[data-testid="plot-qq"] .pl-plot-points circle[data-row], [data-testid="plot-qq"] .pl-plot-points path[data-row]')) {
+			const r = e.getBoundingClientRect(), y = r.top + r.height / 2, x = r.left + r.width / 2;
+			if (y > by) { by = y; best = e; bx = x; }
+		}
+		return best ? best.dataset.row : ""; })()`)
+	if lowest != strconv.Itoa(demo.MistypedRow) {
+		t.Errorf("the lowest Q–Q point is reading %s, want %d", lowest, demo.MistypedRow)
+	}
+
+	// Tap the flagged point on the fit plot.
+	pt := fmt.Sprintf(`[data-testid="plot-fit"] .pl-pt-flag[data-row="%d"]`, demo.MistypedRow)
+	b.do(t, chromedp.Click(chromedp.CSS(pt)))
+	waitFor(t, b, "the reading panel", fmt.Sprintf(`document.querySelector('[data-testid="plot-point-panel"]')?.dataset.row === "%d"`, demo.MistypedRow), 10*time.Second)
+	idx := -1
+	_, _, rows, _ := s.Pairs()
+	for i, r := range rows {
+		if r == demo.MistypedRow {
+			idx = i
+		}
+	}
+	if got := num(t, b, "plot-point-residual"); !near(got, rep.Residuals[idx], 1e-12) {
+		t.Errorf("panel residual %v, fitcore %v", got, rep.Residuals[idx])
+	}
+	for _, p := range rep.Influence {
+		if p.Index == idx {
+			if got := num(t, b, "plot-point-cooks"); !near(got, p.CooksD, 1e-12) {
+				t.Errorf("panel Cook's distance %v, fitcore %v", got, p.CooksD)
+			}
+		}
+	}
+	if got := attr(t, b, "plot-point-flags", "class"); got == "<missing>" || got == "" {
+		t.Error("the panel does not list why the reading stands out")
+	}
+	screenshot(t, b, "plots-tablet-panel")
+
+	// Without a reason, nothing is left out.
+	fuClick(t, b, "plot-point-exclude")
+	waitFor(t, b, "the request for a reason", `!!document.querySelector('[data-testid="plot-point-message"]')`, 5*time.Second)
+	b.do(t, chromedp.SendKeys(sel("plot-point-reason"), "decimal point slipped (61.24 for 612.4)"))
+	fuClick(t, b, "plot-point-exclude")
+	waitFor(t, b, "the line without the slip", fmt.Sprintf(`document.querySelector('[data-testid="result-n"]')?.dataset.value === "%d"`, rep.N-1), 10*time.Second)
+	ex := *s
+	ex.Readings = append(ex.Readings[:0:0], s.Readings...)
+	if err := ex.Exclude(demo.MistypedRow, "decimal point slipped (61.24 for 612.4)", time.Now()); err != nil {
+		t.Fatal(err)
+	}
+	x2, y2, _, _ := ex.Pairs()
+	rep2, err := fitcore.Analyze(x2, y2, ex.Settings.Options())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := num(t, b, "result-slope"); !near(got, rep2.Slope.Estimate, 1e-12) {
+		t.Errorf("slope without the slip %v, fitcore %v", got, rep2.Slope.Estimate)
+	}
+	if n := eval[int](t, b, fmt.Sprintf(`document.querySelectorAll('[data-testid="plot-fit"] .pl-pt-excl[data-row="%d"]').length`, demo.MistypedRow)); n != 1 {
+		t.Errorf("the left-out reading is drawn %d times as a hollow square, want once", n)
+	}
+	if got := attr(t, b, "plot-fit", "data-excluded"); got != "1" {
+		t.Errorf("plot-fit data-excluded = %q, want 1", got)
+	}
+	screenshot(t, b, "plots-tablet-excluded")
+
+	// Undo puts it back; the history keeps both and records the undo.
+	fuClick(t, b, "undo")
+	waitFor(t, b, "the line after undo", fmt.Sprintf(`document.querySelector('[data-testid="result-n"]')?.dataset.value === "%d"`, rep.N), 10*time.Second)
+	if got := num(t, b, "result-slope"); !near(got, rep.Slope.Estimate, 1e-12) {
+		t.Errorf("slope after undo %v, fitcore %v", got, rep.Slope.Estimate)
+	}
+	fuClick(t, b, "report-open")
+	waitFor(t, b, "the report", `!!document.querySelector('[data-testid="report"]')`, 10*time.Second)
+	hist := eval[string](t, b, `document.querySelector('.pl-report-history').textContent`)
+	for _, want := range []string{"changes undone: 1", "readings left out or put back (with reasons): 2", "decimal point slipped"} {
+		if !strings.Contains(hist, want) {
+			t.Errorf("the report's history does not say %q: %s", want, hist)
+		}
+	}
+	fuClick(t, b, "report-close")
+}
+
+// TestThemesAndLayout: the outdoor theme keeps every text at 7:1 or more,
+// the choice survives a reload, the dark theme is applied, and nothing
+// overflows the screen at the tablet's two orientations and on a phone.
+func TestThemesAndLayout(t *testing.T) {
+	srv := startServer(t)
+	b := newBrowser(t, tablet)
+	fuDemo(t, b, srv)
+	setTheme := func(v string) {
+		eval[bool](t, b, fmt.Sprintf(`(() => { const s = document.querySelector('[data-testid="theme-select"]'); s.value = %q; s.dispatchEvent(new Event('change', {bubbles: true})); return true; })()`, v))
+		waitFor(t, b, "the "+v+" theme", fmt.Sprintf(`document.querySelector('.pl-app').classList.contains('pl-theme-%s')`, v), 5*time.Second)
+	}
+	std := fuContrast(t, b, 4.5)
+	t.Logf("standard theme: lowest text contrast %.2f:1 over %d texts (%s)", std.Worst, std.N, std.Where)
+	setTheme("outdoor")
+	c := fuContrast(t, b, 7)
+	t.Logf("outdoor theme: lowest text contrast %.2f:1 over %d texts (%s)", c.Worst, c.N, c.Where)
+	if c.Worst < 7 {
+		t.Errorf("outdoor theme: text contrast %.2f:1 < 7:1 at %s; all below: %v", c.Worst, c.Where, c.Low)
+	}
+	screenshot(t, b, "theme-outdoor-tablet")
+	b.do(t, chromedp.Reload())
+	waitFor(t, b, "the app after reload", appReady, 30*time.Second)
+	waitFor(t, b, "the stored theme", `document.querySelector('.pl-app').classList.contains('pl-theme-outdoor')`, 10*time.Second)
+	if v := eval[string](t, b, `document.querySelector('[data-testid="theme-select"]').value`); v != "outdoor" {
+		t.Errorf("theme select shows %q after reload, want outdoor", v)
+	}
+	setTheme("dark")
+	d := fuContrast(t, b, 4.5)
+	t.Logf("dark theme: lowest text contrast %.2f:1 over %d texts (%s)", d.Worst, d.N, d.Where)
+	if d.Worst < 4.5 {
+		t.Errorf("dark theme: text contrast %.2f:1 < 4.5:1 at %s; all below: %v", d.Worst, d.Where, d.Low)
+	}
+	screenshot(t, b, "theme-dark-tablet")
+
+	for _, v := range []struct {
+		name string
+		size [2]int64
+	}{{"tablet-portrait", tablet}, {"tablet-landscape", [2]int64{1280, 800}}, {"phone", phone}} {
+		vb := newBrowser(t, v.size)
+		fuDemo(t, vb, srv)
+		fuOverflow(t, vb, v.name+" (session list)")
+		fuOpenTitled(t, vb, demo.Titles[2])
+		eval[bool](t, vb, fmt.Sprintf(`(document.querySelector('[data-testid="plot-fit"] [data-row="%d"]').dispatchEvent(new MouseEvent('click', {bubbles: true})), true)`, demo.MistypedRow))
+		waitFor(t, vb, "the reading panel", `!!document.querySelector('[data-testid="plot-point-panel"]')`, 10*time.Second)
+		fuOverflow(t, vb, v.name)
+		screenshot(t, vb, "layout-"+v.name)
+		fuClick(t, vb, "report-open")
+		waitFor(t, vb, "the report", `!!document.querySelector('[data-testid="report"]')`, 10*time.Second)
+		if o := eval[bool](t, vb, `(() => { const r = document.querySelector('[data-testid="report"]'); return r.scrollWidth <= r.clientWidth + 1; })()`); !o {
+			t.Errorf("%s: the report is wider than its view", v.name)
+		}
+		screenshot(t, vb, "report-"+v.name)
+	}
+}

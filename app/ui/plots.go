@@ -1,0 +1,507 @@
+package ui
+
+import (
+	"math"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"pairline/app/numfmt"
+	"pairline/app/plot"
+	"pairline/app/session"
+	"pairline/fitcore"
+)
+
+// plotGridN is how many x values the fitted line and its bands are drawn
+// through; fitcore predicts each (Options.PredictX), so the curve of a fit
+// on a transformed scale is drawn in original units as fitcore computes it.
+const plotGridN = 61
+
+// plotMaxDraw is the most points one plot draws; bigger sessions are
+// thinned for drawing only (app/plot.Thin), the statistics use every reading.
+const plotMaxDraw = 2000
+
+// plotsUI is the state of the plots card: the reading tapped on a plot and
+// the reason being typed to leave it out, and the markup of the last
+// drawing (redrawn only when the report or the selection changes).
+type plotsUI struct {
+	plSel    int // selected reading + 1; 0 = none
+	plReason string
+	plMsg    string
+
+	plCacheRep  *fitcore.Report
+	plCacheSess *session.Session
+	plCacheSel  int
+	plCacheN    int
+	plCache     plSet
+}
+
+// plotQueries adds the x grid of the drawn line to the options of the one
+// Analyze run of an edit, after every other query (the plots read the last
+// plotGridN predictions). x are the usable readings.
+func (c *Shell) plotQueries(o *fitcore.Options, x []float64) {
+	o.PredictX = append(o.PredictX, plGrid(x, o.Transform == fitcore.TransformLogLog)...)
+}
+
+// plotGrid spreads plotGridN values over the range of x, evenly or, for a
+// log–log fit with every x above zero, evenly on the log scale.
+func plGrid(x []float64, logX bool) []float64 {
+	if len(x) == 0 {
+		return nil
+	}
+	lo, hi := x[0], x[0]
+	for _, v := range x {
+		lo, hi = min(lo, v), max(hi, v)
+	}
+	g := make([]float64, plotGridN)
+	for i := range g {
+		f := float64(i) / float64(plotGridN-1)
+		if logX && lo > 0 {
+			g[i] = lo * math.Pow(hi/lo, f)
+		} else {
+			g[i] = lo + (hi-lo)*f
+		}
+	}
+	g[plotGridN-1] = hi
+	return g
+}
+
+// bandOf returns the predictions on the plot grid: the last plotGridN.
+func plBand(rep *fitcore.Report) []fitcore.Prediction {
+	if rep == nil || len(rep.Predictions) < plotGridN {
+		return nil
+	}
+	return rep.Predictions[len(rep.Predictions)-plotGridN:]
+}
+
+// plSet is the four plots of a session as SVG markup with their one-line
+// summaries, as the screen and the report show them.
+type plSet struct {
+	Fit, Residuals, Order, QQ       string
+	FitSum, ResSum, OrderSum, QQSum string
+	Drawn, Total                    int
+	Excluded                        int
+}
+
+// buildPlots draws the plots of s from rep (rows maps fitcore's index to the
+// session row). sel is the selected row or −1. Nothing here is a statistic:
+// every number drawn is a reading, or comes from rep or fitcore.NormalQQ.
+func plBuild(s *session.Session, rep *fitcore.Report, rows []int, sel int) plSet {
+	var ps plSet
+	if s == nil || rep == nil || len(rows) != rep.N || len(rep.Residuals) != rep.N || len(rep.Fitted) != rep.N {
+		return ps
+	}
+	n := rep.N
+	x, y := make([]float64, n), make([]float64, n)
+	for i, r := range rows {
+		x[i], _ = plParseCell(s, s.Readings[r].X)
+		y[i], _ = plParseCell(s, s.Readings[r].Y)
+	}
+	flagged := make([]bool, n)
+	stud := make([]float64, n)
+	nFlag := 0
+	for _, p := range rep.Influence {
+		if p.Index >= 0 && p.Index < n {
+			flagged[p.Index] = p.Flagged
+			stud[p.Index] = p.Studentized
+			if p.Flagged {
+				nFlag++
+			}
+		}
+	}
+	keep := func(i int) bool { return flagged[i] || rows[i] == sel }
+	drawn := plot.Thin(n, plotMaxDraw, x, y, keep)
+	ps.Drawn, ps.Total = len(drawn), n
+	marker := func(i int) plot.Marker {
+		if flagged[i] {
+			return plot.Flagged
+		}
+		return plot.Dot
+	}
+	points := func(xs, ys []float64) []plot.Point {
+		pts := make([]plot.Point, 0, len(drawn))
+		for _, i := range drawn {
+			pts = append(pts, plot.Point{X: xs[i], Y: ys[i], Row: rows[i], Marker: marker(i), Selected: rows[i] == sel})
+		}
+		return pts
+	}
+
+	xTitle := colHead(s.XName, s.XUnit, "x")
+	yTitle := colHead(s.YName, s.YUnit, "y")
+	level := numfmt.Sig(rep.Level*100, 3)
+	level = strings.TrimRight(strings.TrimRight(level, "0"), ".")
+
+	// 1. Readings with the line and its bands (original units).
+	fitPts := points(x, y)
+	for r, rd := range s.Readings {
+		if !rd.Excluded {
+			continue
+		}
+		xv, okx := plParseCell(s, rd.X)
+		yv, oky := plParseCell(s, rd.Y)
+		if okx && oky {
+			fitPts = append(fitPts, plot.Point{X: xv, Y: yv, Row: r, Marker: plot.HollowSquare, Selected: r == sel})
+			ps.Excluded++
+		}
+	}
+	band := plBand(rep)
+	var gx, fit, ciLo, ciHi, piLo, piHi []float64
+	for _, p := range band {
+		gx, fit = append(gx, p.X), append(fit, p.Fit)
+		ciLo, ciHi = append(ciLo, p.CILow), append(ciHi, p.CIHigh)
+		piLo, piHi = append(piLo, p.PILow), append(piHi, p.PIHigh)
+	}
+	fitChart := plot.Chart{
+		TestID: "plot-fit", XTitle: xTitle, YTitle: yTitle, Points: fitPts,
+		Bands: []plot.Band{
+			{X: gx, Lo: piLo, Hi: piHi, Class: "pl-plot-pi", Fill: "#d3e6ea"},
+			{X: gx, Lo: ciLo, Hi: ciHi, Class: "pl-plot-ci", Fill: "#7fb4c0"},
+		},
+		Paths: []plot.Path{{X: gx, Y: fit, Class: "pl-plot-line"}},
+		Attrs: [][2]string{{"data-n", strconv.Itoa(n)}, {"data-drawn", strconv.Itoa(len(drawn))}, {"data-excluded", strconv.Itoa(ps.Excluded)}},
+	}
+	ps.FitSum = "Plot of " + plCount(n, "reading") + " of " + plNameOr(s.YName, "y") + " against " + plNameOr(s.XName, "x") +
+		" with the fitted line, its " + level + " % confidence band and the " + level + " % prediction band for a new reading; " +
+		plCount(nFlag, "reading") + " flagged as influential (diamonds) and " + plCount(ps.Excluded, "reading") + " left out (hollow squares)."
+	fitChart.Label = ps.FitSum
+	ps.Fit = fitChart.SVG()
+
+	// 2. Residuals against fitted values (on the fitted scale).
+	scale := plScaleName(rep.Transform)
+	resTitle, fitTitle := "Residual ("+unitOr(s.YUnit, "y")+")", "Fitted "+colHead(s.YName, s.YUnit, "y")
+	if scale != "" {
+		resTitle, fitTitle = "Residual on the "+scale+" scale", "Fitted value on the "+scale+" scale"
+	}
+	if rep.Weights != nil {
+		resTitle += ", unweighted"
+	}
+	lo, hi, loI, hiI := plExtremes(rep.Residuals)
+	resChart := plot.Chart{TestID: "plot-residuals", XTitle: fitTitle, YTitle: resTitle,
+		Points: points(rep.Fitted, rep.Residuals), HLines: []float64{0},
+		Attrs: [][2]string{{"data-n", strconv.Itoa(n)}}}
+	ps.ResSum = "Residuals against fitted values for " + plCount(n, "reading") + ", from " + numfmt.Sig(lo, 3) + " (reading " +
+		strconv.Itoa(rows[loI]+1) + ") to " + numfmt.Sig(hi, 3) + " (reading " + strconv.Itoa(rows[hiI]+1) + "); spread check: " +
+		plVerdictWord(rep.Assumptions.Spread.Verdict) + "."
+	resChart.Label = ps.ResSum
+	ps.Residuals = resChart.SVG()
+
+	// 3. Residuals in the order entered.
+	order := make([]float64, n)
+	for i, r := range rows {
+		order[i] = float64(r + 1)
+	}
+	var ox, oy []float64
+	for _, i := range drawn {
+		ox, oy = append(ox, order[i]), append(oy, rep.Residuals[i])
+	}
+	ordChart := plot.Chart{TestID: "plot-order", XTitle: "Reading number (order entered)", YTitle: resTitle,
+		Points: points(order, rep.Residuals), HLines: []float64{0},
+		Paths: []plot.Path{{X: ox, Y: oy, Class: "pl-plot-trace", Stroke: "#5b6770", Width: 1.2}},
+		Attrs: [][2]string{{"data-n", strconv.Itoa(n)}}}
+	ps.OrderSum = "Residuals of " + plCount(n, "reading") + " in the order entered, joined up so that a drift or a run shows; independence check: " +
+		plVerdictWord(rep.Assumptions.Independence.Verdict) + "."
+	ordChart.Label = ps.OrderSum
+	ps.Order = ordChart.SVG()
+
+	// 4. Normal Q–Q of the studentized residuals (Blom positions, fitcore).
+	qq := fitcore.NormalQQ(stud)
+	qx, qy := make([]float64, n), make([]float64, n)
+	for _, q := range qq {
+		qx[q.Index], qy[q.Index] = q.Theoretical, q.Sample
+	}
+	var refLo, refHi float64
+	if len(qq) > 0 {
+		refLo, refHi = qq[0].Theoretical, qq[len(qq)-1].Theoretical
+	}
+	qqChart := plot.Chart{TestID: "plot-qq", XTitle: "Expected normal quantile", YTitle: "Studentized residual",
+		Points: points(qx, qy),
+		Paths:  []plot.Path{{X: []float64{refLo, refHi}, Y: []float64{refLo, refHi}, Class: "pl-plot-line", Dash: "8 5", Width: 2}},
+		Attrs:  [][2]string{{"data-n", strconv.Itoa(n)}}}
+	ps.QQSum = "Normal Q–Q plot of " + plCount(n, "studentized residual") + " against the quantiles expected of a bell-shaped scatter; " +
+		"points near the dashed line mean normal scatter; normality check: " + plVerdictWord(rep.Assumptions.Normality.Verdict) + "."
+	qqChart.Label = ps.QQSum
+	ps.QQ = qqChart.SVG()
+	return ps
+}
+
+func plExtremes(v []float64) (lo, hi float64, loI, hiI int) {
+	for i, a := range v {
+		if i == 0 || a < lo {
+			lo, loI = a, i
+		}
+		if i == 0 || a > hi {
+			hi, hiI = a, i
+		}
+	}
+	return
+}
+
+// parseCell reads a cell as Pairs does (with the session's decimal-comma
+// choice); not a statistic.
+func plParseCell(s *session.Session, text string) (float64, bool) {
+	var v float64
+	var err error
+	if s.DecimalComma != nil {
+		v, err = session.ParseNumberHint(text, *s.DecimalComma)
+	} else {
+		v, err = session.ParseNumber(text)
+	}
+	return v, err == nil
+}
+
+func plScaleName(t fitcore.Transform) string {
+	switch t {
+	case fitcore.TransformLogY:
+		return "ln y"
+	case fitcore.TransformLogLog:
+		return "ln y (against ln x)"
+	case fitcore.TransformSqrtY:
+		return "√y"
+	case fitcore.TransformReciprocal:
+		return "1/y"
+	case fitcore.TransformBoxCox:
+		return "Box–Cox"
+	}
+	return ""
+}
+
+func plNameOr(name, fallback string) string {
+	if strings.TrimSpace(name) == "" {
+		return fallback
+	}
+	return name
+}
+
+func plCount(n int, word string) string {
+	if n == 1 {
+		return "1 " + word
+	}
+	return strconv.Itoa(n) + " " + word + "s"
+}
+
+// verdictWord is the plain word of a verdict.
+func plVerdictWord(v fitcore.Verdict) string {
+	switch v {
+	case fitcore.Pass:
+		return "pass"
+	case fitcore.Warn:
+		return "warning"
+	case fitcore.Fail:
+		return "fail"
+	}
+	return "not checked"
+}
+
+// plots returns the drawing of the open session, from the cache when
+// neither the report nor the selection changed.
+func (c *Shell) plots() plSet {
+	rep := c.view.report
+	if rep != c.plCacheRep || c.sess != c.plCacheSess || c.plSel != c.plCacheSel || len(c.sess.Readings) != c.plCacheN {
+		c.plCache = plBuild(c.sess, rep, c.view.rows, c.plSel-1)
+		c.plCacheRep, c.plCacheSess, c.plCacheSel, c.plCacheN = rep, c.sess, c.plSel, len(c.sess.Readings)
+	}
+	return c.plCache
+}
+
+// renderPlots draws the plots card: four plots, a legend, and the panel of
+// the tapped reading.
+func (c *Shell) renderPlots() app.UI {
+	if c.sess == nil || c.view.report == nil {
+		return app.Section().Class("pl-card pl-plots").Attr("aria-label", "Plots").Body(
+			app.H2().Text("Plots"),
+			app.P().Class("pl-plot-empty").Text("The plots appear once there are at least 3 usable pairs of readings."),
+		)
+	}
+	if c.plSel > len(c.sess.Readings) {
+		c.plSel = 0
+	}
+	ps := c.plots()
+	return app.Section().Class("pl-card pl-plots").Attr("aria-label", "Plots").Body(
+		app.H2().Text("Plots"),
+		app.P().Class("pl-plot-hint").Text("Tap a point to see that reading and to leave it out of the line or put it back."),
+		app.If(ps.Drawn < ps.Total, func() app.UI {
+			return app.P().Class("pl-plot-thinned").DataSet("testid", "plot-thinned").DataSet("value", strconv.Itoa(ps.Drawn)).
+				Text("Drawing " + strconv.Itoa(ps.Drawn) + " of " + strconv.Itoa(ps.Total) + " readings (every flagged reading and the extremes are drawn); the figures use all of them.")
+		}),
+		app.Div().Class("pl-plots-grid").OnClick(c.onPlotTap).Body(
+			plFigure("Readings and the fitted line", ps.Fit, plLegend(c.view.report.Level)),
+			app.If(c.plSel > 0, c.renderPointPanel),
+			plFigure("Residuals against fitted values", ps.Residuals, nil),
+			plFigure("Residuals in the order entered", ps.Order, nil),
+			plFigure("Normal Q–Q plot of the residuals", ps.QQ, nil),
+		),
+	)
+}
+
+func plFigure(title, svg string, legend app.UI) app.UI {
+	return app.Figure().Class("pl-plot").Body(
+		app.FigCaption().Text(title),
+		app.Raw(svg),
+		app.If(legend != nil, func() app.UI { return legend }),
+	)
+}
+
+// Legend swatches, drawn with the same shapes as the plots.
+const (
+	swatchDot  = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><circle cx="10" cy="10" r="5" fill="#101418"/></svg>`
+	swatchFlag = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><path d="M10 2.5L17.5 10L10 17.5L2.5 10Z" fill="#9b1c1c"/></svg>`
+	swatchExcl = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><rect x="4.5" y="4.5" width="11" height="11" fill="#fff" stroke="#101418" stroke-width="2"/></svg>`
+	swatchLine = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><line x1="1" y1="10" x2="19" y2="10" stroke="#0b4f5c" stroke-width="3"/></svg>`
+	swatchCI   = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><rect x="1" y="5" width="18" height="10" fill="#7fb4c0"/></svg>`
+	swatchPI   = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><rect x="1" y="5" width="18" height="10" fill="#d3e6ea" stroke="#7fb4c0"/></svg>`
+)
+
+func plLegend(level float64) app.UI {
+	l := strings.TrimRight(strings.TrimRight(numfmt.Sig(level*100, 3), "0"), ".")
+	item := func(sw, text string) app.UI {
+		return app.Li().Body(app.Raw(sw), app.Span().Text(text))
+	}
+	return app.Ul().Class("pl-legend").Body(
+		item(swatchDot, "reading used"),
+		item(swatchFlag, "influential reading"),
+		item(swatchExcl, "left out"),
+		item(swatchLine, "fitted line"),
+		item(swatchCI, l+" % band of the line"),
+		item(swatchPI, l+" % band of a new reading"),
+	)
+}
+
+// onPlotTap finds the reading under a tap (every marker carries data-row).
+func (c *Shell) onPlotTap(ctx app.Context, e app.Event) {
+	t := e.Get("target")
+	if !t.Truthy() || !t.Get("closest").Truthy() {
+		return
+	}
+	el := t.Call("closest", "[data-row]")
+	if !el.Truthy() {
+		return
+	}
+	row, err := strconv.Atoi(el.Call("getAttribute", "data-row").String())
+	if err != nil || row < 0 || c.sess == nil || row >= len(c.sess.Readings) {
+		return
+	}
+	c.selectPoint(row)
+}
+
+func (c *Shell) selectPoint(row int) {
+	if c.plSel != row+1 {
+		c.plReason, c.plMsg = "", ""
+	}
+	c.plSel = row + 1
+}
+
+// renderPointPanel shows the tapped reading: its cells and note, what the
+// line says of it, and the buttons to leave it out or put it back.
+func (c *Shell) renderPointPanel() app.UI {
+	row := c.plSel - 1
+	r := c.sess.Readings[row]
+	rep := c.view.report
+	idx := -1
+	for i, rr := range c.view.rows {
+		if rr == row {
+			idx = i
+			break
+		}
+	}
+	status := "Used in the line."
+	if r.Excluded {
+		status = "Left out of the line: " + r.ExcludeReason
+	} else if idx < 0 {
+		status = "Not used: a cell is empty or not a number."
+	}
+	var facts []app.UI
+	fact := func(testid, label string, v float64, shown string) {
+		facts = append(facts, app.Div().Class("pl-fact").Body(
+			app.Dt().Text(label),
+			app.Dd().Class("pl-num-sm").DataSet("testid", testid).DataSet("value", numfmt.Full(v)).Text(shown),
+		))
+	}
+	var reasons []string
+	if idx >= 0 && rep != nil && idx < len(rep.Residuals) {
+		scale := plScaleName(rep.Transform)
+		suffix := ""
+		if scale != "" {
+			suffix = " (" + scale + " scale)"
+		}
+		fact("plot-point-fitted", "Fitted"+suffix, rep.Fitted[idx], numfmt.Sig(rep.Fitted[idx], numfmt.Precision(c.view.digits)))
+		fact("plot-point-residual", "Residual"+suffix, rep.Residuals[idx], numfmt.Sig(rep.Residuals[idx], 3))
+		for _, p := range rep.Influence {
+			if p.Index == idx {
+				fact("plot-point-studentized", "Studentized residual", p.Studentized, numfmt.Sig(p.Studentized, 3))
+				fact("plot-point-leverage", "Leverage", p.Leverage, numfmt.Sig(p.Leverage, 3))
+				fact("plot-point-cooks", "Cook's distance", p.CooksD, numfmt.Sig(p.CooksD, 3))
+				if p.Flagged {
+					reasons = p.Reasons
+				}
+			}
+		}
+	}
+	n := len(c.sess.Readings)
+	return app.Aside().Class("pl-point-panel").DataSet("testid", "plot-point-panel").DataSet("row", strconv.Itoa(row)).
+		Attr("aria-label", "Reading "+strconv.Itoa(row+1)).Attr("aria-live", "polite").Body(
+		app.Div().Class("pl-point-head").Body(
+			app.H3().Text("Reading "+strconv.Itoa(row+1)),
+			app.Button().Class("pl-btn pl-btn-quiet").Text("‹").Attr("aria-label", "Previous reading").DataSet("testid", "plot-point-prev").
+				Disabled(row == 0).OnClick(func(ctx app.Context, e app.Event) { e.StopImmediatePropagation(); c.selectPoint(row - 1) }),
+			app.Button().Class("pl-btn pl-btn-quiet").Text("›").Attr("aria-label", "Next reading").DataSet("testid", "plot-point-next").
+				Disabled(row >= n-1).OnClick(func(ctx app.Context, e app.Event) { e.StopImmediatePropagation(); c.selectPoint(row + 1) }),
+			app.Button().Class("pl-btn pl-btn-quiet").Text("Close").DataSet("testid", "plot-point-close").
+				OnClick(func(ctx app.Context, e app.Event) { e.StopImmediatePropagation(); c.plSel = 0 }),
+		),
+		app.Dl().Class("pl-point-facts").Body(
+			app.Div().Class("pl-fact").Body(app.Dt().Text(colHead(c.sess.XName, c.sess.XUnit, "x")), app.Dd().Class("pl-num-sm").DataSet("testid", "plot-point-x").Text(r.X)),
+			app.Div().Class("pl-fact").Body(app.Dt().Text(colHead(c.sess.YName, c.sess.YUnit, "y")), app.Dd().Class("pl-num-sm").DataSet("testid", "plot-point-y").Text(r.Y)),
+			app.Range(facts).Slice(func(i int) app.UI { return facts[i] }),
+		),
+		app.If(r.Note != "", func() app.UI { return app.P().Class("pl-point-note").Text("Note: " + r.Note) }),
+		app.P().Class("pl-point-status").DataSet("testid", "plot-point-status").Text(status),
+		app.If(len(reasons) > 0, func() app.UI {
+			return app.Ul().Class("pl-point-reasons").DataSet("testid", "plot-point-flags").Body(
+				app.Range(reasons).Slice(func(i int) app.UI { return app.Li().Text("◆ " + reasons[i]) }),
+			)
+		}),
+		app.If(r.Excluded, func() app.UI {
+			return app.Button().Class("pl-btn").Text("Put back into the line").DataSet("testid", "plot-point-include").
+				OnClick(func(ctx app.Context, e app.Event) { e.StopImmediatePropagation(); c.includePoint(ctx, row) })
+		}).Else(func() app.UI {
+			return app.Div().Class("pl-point-exclude").Body(
+				app.Label().Body(
+					app.Span().Text("Reason for leaving it out"),
+					app.Input().Type("text").Value(c.plReason).DataSet("testid", "plot-point-reason").
+						Attr("placeholder", "e.g. decimal point slipped when typing").
+						OnInput(func(ctx app.Context, e app.Event) { c.plReason = ctx.JSSrc().Get("value").String() }),
+				),
+				app.Button().Class("pl-btn").Text("Leave out of the line").DataSet("testid", "plot-point-exclude").
+					OnClick(func(ctx app.Context, e app.Event) { e.StopImmediatePropagation(); c.excludePoint(ctx, row) }),
+			)
+		}),
+		app.If(c.plMsg != "", func() app.UI {
+			return app.P().Class("pl-point-msg").Attr("role", "alert").DataSet("testid", "plot-point-message").Text(c.plMsg)
+		}),
+	)
+}
+
+func (c *Shell) excludePoint(ctx app.Context, row int) {
+	reason := strings.TrimSpace(c.plReason)
+	if reason == "" {
+		c.plMsg = "Say why this reading is left out (for example “decimal point slipped”): the record has to show it."
+		return
+	}
+	if err := c.sess.Exclude(row, reason, time.Now()); err != nil {
+		c.plMsg = err.Error()
+		return
+	}
+	c.plReason, c.plMsg = "", ""
+	c.edited(ctx)
+}
+
+func (c *Shell) includePoint(ctx app.Context, row int) {
+	if err := c.sess.Include(row, time.Now()); err != nil {
+		c.plMsg = err.Error()
+		return
+	}
+	c.plMsg = ""
+	c.edited(ctx)
+}
