@@ -314,7 +314,7 @@ func TestAnalysisScreens(t *testing.T) {
 	waitFor(t, bp, "the inverse result on a phone", `!!document.querySelector('[data-testid="inverse-result"]')`, 10*time.Second)
 	screenshot(t, bp, "analysis-phone")
 	if w := eval[float64](t, bp, `document.documentElement.scrollWidth`); w > 392 {
-		t.Errorf("the page is %v px wide on a 390 px phone: something overflows", w)
+		t.Errorf("the page is %v px wide on a 390 px phone: something overflows: %s", w, eval[string](t, bp, `[...document.querySelectorAll('main *')].filter(e => !e.closest('.an-scroll') && e.getBoundingClientRect().right > 392 && !(e.parentElement && e.parentElement.getBoundingClientRect().right > 392)).slice(0, 8).map(e => e.tagName + '.' + e.className + '[' + (e.dataset.testid || '') + '] w=' + Math.round(e.getBoundingClientRect().width) + ' parent=' + e.parentElement.tagName + '.' + e.parentElement.className).join('; ')`))
 	}
 }
 
@@ -424,6 +424,24 @@ func TestAnalysisInfluence(t *testing.T) {
 	screenshot(t, b, "analysis-influence-tablet")
 }
 
+// anPaste pastes the pairs as one tab-separated block into the first x
+// cell (the grid's paste import), as from a spreadsheet.
+func anPaste(t *testing.T, b *browser, pairs [][2]string) {
+	t.Helper()
+	var sb strings.Builder
+	for _, p := range pairs {
+		sb.WriteString(p[0] + "\t" + p[1] + "\n")
+	}
+	js, _ := json.Marshal(sb.String())
+	eval[bool](t, b, `(() => {
+		const dt = new DataTransfer();
+		dt.setData('text/plain', `+string(js)+`);
+		document.querySelector('[data-testid="x-input-0"]').dispatchEvent(new ClipboardEvent('paste', { clipboardData: dt, bubbles: true, cancelable: true }));
+		return true;
+	})()`)
+	waitFor(t, b, "the line from the pasted pairs", fmt.Sprintf(`document.querySelector('[data-testid="result-n"]')?.dataset.value === "%d"`, len(pairs)), 60*time.Second)
+}
+
 // anFillRaw is anFill for pairs that may hold blank rows (no line count wait).
 func anFillRaw(t *testing.T, b *browser, pairs [][2]string) {
 	t.Helper()
@@ -441,4 +459,72 @@ func anFillRaw(t *testing.T, b *browser, pairs [][2]string) {
 		}
 		return true;
 	})(`+string(js)+`)`)
+}
+
+// TestAnalysisSpeed measures, at 1,000 invented readings with a constant
+// percentage error (so that the advice tries every remedy: the slowest
+// case), the time from an edit of one cell to the page showing the new
+// checks and advice. It logs the figures; it does not assert on time.
+func TestAnalysisSpeed(t *testing.T) {
+	srv := startServer(t)
+	b := newBrowser(t, tablet)
+	b.do(t, chromedp.Navigate(srv.URL))
+	waitFor(t, b, "the app to start", appReady, 60*time.Second)
+	pairs := anPercentPairs(1000, 5)
+	start := time.Now()
+	anPaste(t, b, pairs)
+	t.Logf("pasting 1,000 pairs into the grid took %v", time.Since(start).Round(time.Millisecond))
+	x, y := anParsed(t, pairs)
+	rep := anAnalyze(t, x, y, fitcore.Options{})
+	anExpect(t, b, "result-slope", "data-value", rep.Slope.Estimate)
+	if got := attr(t, b, "advice", "data-transform"); got != string(rep.Advice.Remedy) {
+		t.Errorf("advice at 1,000 readings = %q, fitcore says %q", got, rep.Advice.Remedy)
+	}
+	// Edit row 1 (shown on the first page) several times; each time wait
+	// for the slope and the advice's before-slope to change.
+	var times []float64
+	for i := 0; i < 8; i++ {
+		v := fmt.Sprintf("%.3f", 2.1+0.01*float64(i))
+		ms := eval[float64](t, b, fmt.Sprintf(`new Promise((resolve, reject) => {
+			const el = document.querySelector('[data-testid="y-input-0"]');
+			const before = document.querySelector('[data-testid="advice-slope-before"]')?.dataset.value;
+			const t0 = performance.now();
+			const done = () => {
+				const s = document.querySelector('[data-testid="advice-slope-before"]')?.dataset.value;
+				if (s !== before) { obs.disconnect(); resolve(performance.now() - t0); return true; }
+				return false;
+			};
+			const obs = new MutationObserver(done);
+			obs.observe(document.body, { subtree: true, attributes: true, childList: true });
+			setTimeout(() => { obs.disconnect(); reject(new Error('no update within 5 s')); }, 5000);
+			el.value = %q;
+			el.dispatchEvent(new Event('input', { bubbles: true }));
+		})`, v))
+		times = append(times, ms)
+	}
+	t.Logf("edit → checks and advice updated at 1,000 readings (ms): %.1f", times)
+	var qt []float64
+	for i := 0; i < 5; i++ {
+		ms := eval[float64](t, b, fmt.Sprintf(`new Promise((resolve, reject) => {
+			const el = document.querySelector('[data-testid="inverse-input"]');
+			const t0 = performance.now();
+			const want = %q;
+			const done = () => {
+				const r = document.querySelector('[data-testid="inverse-result"]');
+				if (r && r.dataset.m === want) { obs.disconnect(); resolve(performance.now() - t0); }
+			};
+			const obs = new MutationObserver(done);
+			obs.observe(document.body, { subtree: true, attributes: true, childList: true });
+			setTimeout(() => { obs.disconnect(); reject(new Error('no answer within 5 s')); }, 5000);
+			el.value = el.value + (el.value ? "; " : "") + "50";
+			el.dispatchEvent(new Event('input', { bubbles: true }));
+		})`, strconv.Itoa(i+1)))
+		qt = append(qt, ms)
+	}
+	t.Logf("unknown's readings typed → x̂ shown at 1,000 readings (ms): %.1f", qt)
+	pairs[0][1] = fmt.Sprintf("%.3f", 2.1+0.01*7)
+	x, y = anParsed(t, pairs)
+	rep = anAnalyze(t, x, y, fitcore.Options{})
+	anExpect(t, b, "result-slope", "data-value", rep.Slope.Estimate)
+	anCheckVerdicts(t, b, rep.Assumptions)
 }

@@ -283,7 +283,7 @@ func (c *Shell) anOriginalUnits(rep *fitcore.Report) app.UI {
 				app.TBody().Body(app.Range(preds).Slice(func(i int) app.UI {
 					p := preds[i]
 					return app.Tr().DataSet("testid", "original-units-row").Body(
-						app.Th().Attr("scope", "row").Body(anNum("", p.X, numfmt.Sig(p.X, sig))),
+						app.Th().Attr("scope", "row").Body(anNum("", p.X, numfmt.Sig(p.X, 4))),
 						app.Td().Body(anNum("", p.Fit, numfmt.Sig(p.Fit, sig))),
 						app.Td().Body(anNum("", p.CILow, numfmt.Sig(p.CILow, sig)), app.Text(" – "), anNum("", p.CIHigh, numfmt.Sig(p.CIHigh, sig))),
 						app.Td().Body(anNum("", p.PILow, numfmt.Sig(p.PILow, sig)), app.Text(" – "), anNum("", p.PIHigh, numfmt.Sig(p.PIHigh, sig))),

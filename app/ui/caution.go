@@ -11,9 +11,8 @@ func anCaution() app.UI {
 		app.Span().Class("an-caution-icon").Attr("aria-hidden", "true").Text("⚠"),
 		app.P().Body(
 			app.Strong().Text("Safety work: "),
-			app.Span().Text("this is a statistical check of your readings, not a certification. For gas detectors, structural loads, "+
-				"drinking water and other safety-related measurements, follow the instrument maker's procedure, your local codes "+
-				"and the judgement of licensed staff."),
+			app.Span().Text("this is a statistical check of the readings, not a certification. For gas detectors, structural "+
+				"loads, drinking water and the like, follow the instrument maker's procedure, local codes and licensed staff."),
 		),
 	)
 }

@@ -128,41 +128,33 @@ func anStatName(name string) string {
 	return "statistic"
 }
 
-// anTests is the table of the tests behind an assumption.
+// anTests lists the tests behind an assumption: name and result, then the
+// statistic, its degrees of freedom and p, then fitcore's sentence. Blocks
+// rather than a table, so that a phone needs no sideways scrolling.
 func (c *Shell) anTests(cs []fitcore.Check) app.UI {
-	return app.Div().Class("an-scroll").Body(
-		app.Table().Class("an-table an-tests").Body(
-			app.THead().Body(app.Tr().Body(
-				app.Th().Text("Test"), app.Th().Text("Statistic"), app.Th().Text("df"),
-				app.Th().Text("p"), app.Th().Text("Result"),
-			)),
-			app.TBody().Body(app.Range(cs).Slice(func(i int) app.UI {
-				k := cs[i]
-				id := "test-" + anSlug(k.Name) + "-"
-				df := ""
-				if k.DF != 0 {
-					df = anDF(k.DF)
-					if k.DF2 != 0 {
-						df += ", " + anDF(k.DF2)
-					}
+	return app.Ul().Class("an-tests-list").Body(app.Range(cs).Slice(func(i int) app.UI {
+		k := cs[i]
+		id := "test-" + anSlug(k.Name) + "-"
+		ran := k.Verdict != fitcore.NA
+		var nums []app.UI
+		if ran {
+			nums = append(nums,
+				app.Span().Text(anStatName(k.Name)+" = "), anNum(id+"statistic", k.Statistic, numfmt.Sig(k.Statistic, 4)))
+			if k.DF != 0 {
+				df := anDF(k.DF)
+				if k.DF2 != 0 {
+					df += ", " + anDF(k.DF2)
 				}
-				ran := k.Verdict != fitcore.NA
-				return app.Tr().DataSet("testid", "test-"+anSlug(k.Name)).DataSet("verdict", string(k.Verdict)).Body(
-					app.Th().Attr("scope", "row").Body(
-						app.Span().Text(k.Name),
-						app.If(k.Message != "", func() app.UI { return app.Span().Class("an-test-msg").Text(k.Message) }),
-					),
-					app.Td().Body(app.If(ran, func() app.UI {
-						return app.Span().Body(app.Span().Class("pl-unit").Text(anStatName(k.Name)+" = "),
-							anNum(id+"statistic", k.Statistic, numfmt.Sig(k.Statistic, 4)))
-					})),
-					app.Td().Body(app.If(ran && df != "", func() app.UI { return anNum(id+"df", k.DF, df) })),
-					app.Td().Body(app.If(ran, func() app.UI { return anNum(id+"p", k.P, anP(k.P)) })),
-					app.Td().Body(anBadge(k.Verdict)),
-				)
-			})),
-		),
-	)
+				nums = append(nums, app.Span().Text(" · df "), anNum(id+"df", k.DF, df))
+			}
+			nums = append(nums, app.Span().Text(" · p = "), anNum(id+"p", k.P, anP(k.P)))
+		}
+		return app.Li().Class("an-test").DataSet("testid", "test-"+anSlug(k.Name)).DataSet("verdict", string(k.Verdict)).Body(
+			app.Div().Class("an-test-head").Body(app.Strong().Text(k.Name), anBadge(k.Verdict)),
+			app.If(len(nums) > 0, func() app.UI { return app.P().Class("an-test-nums").Body(nums...) }),
+			app.If(k.Message != "", func() app.UI { return app.P().Class("an-test-msg").Text(k.Message) }),
+		)
+	}))
 }
 
 func anSlug(name string) string {
@@ -248,25 +240,19 @@ func (c *Shell) anInfluenceTable(flagged []fitcore.PointInfluence) app.UI {
 		return app.P().Class("an-hint").Text("No reading is flagged by leverage, studentized residual, Cook's distance or DFFITS.")
 	}
 	sig := numfmt.Precision(c.view.digits)
-	return app.Div().Class("an-scroll").Body(
-		app.Table().Class("an-table an-tests").DataSet("testid", "influence-table").Body(
-			app.THead().Body(app.Tr().Body(
-				app.Th().Text("Row"), app.Th().Text("Residual"), app.Th().Text("Studentized"),
-				app.Th().Text("Leverage"), app.Th().Text("Cook's D"), app.Th().Text("Why"),
-			)),
-			app.TBody().Body(app.Range(flagged).Slice(func(i int) app.UI {
-				p := flagged[i]
-				row := strconv.Itoa(c.anRowOf(p.Index) + 1)
-				id := "influence-" + row + "-"
-				return app.Tr().Body(
-					app.Th().Attr("scope", "row").Text(row),
-					app.Td().Body(anNum(id+"residual", p.Residual, numfmt.Sig(p.Residual, sig))),
-					app.Td().Body(anNum(id+"studentized", p.Studentized, numfmt.Sig(p.Studentized, 3))),
-					app.Td().Body(anNum(id+"leverage", p.Leverage, numfmt.Sig(p.Leverage, 3))),
-					app.Td().Body(anNum(id+"cooks", p.CooksD, numfmt.Sig(p.CooksD, 3))),
-					app.Td().Class("an-why").Text(strings.Join(p.Reasons, "; ")),
-				)
-			})),
-		),
-	)
+	return app.Ul().Class("an-tests-list").DataSet("testid", "influence-table").Body(app.Range(flagged).Slice(func(i int) app.UI {
+		p := flagged[i]
+		row := strconv.Itoa(c.anRowOf(p.Index) + 1)
+		id := "influence-" + row + "-"
+		return app.Li().Class("an-test").Body(
+			app.Div().Class("an-test-head").Body(app.Strong().Text("Row "+row)),
+			app.P().Class("an-test-nums").Body(
+				app.Span().Text("residual "), anNum(id+"residual", p.Residual, numfmt.Sig(p.Residual, sig)),
+				app.Span().Text(" · studentized "), anNum(id+"studentized", p.Studentized, numfmt.Sig(p.Studentized, 3)),
+				app.Span().Text(" · leverage "), anNum(id+"leverage", p.Leverage, numfmt.Sig(p.Leverage, 3)),
+				app.Span().Text(" · Cook's D "), anNum(id+"cooks", p.CooksD, numfmt.Sig(p.CooksD, 3)),
+			),
+			app.P().Class("an-test-msg").Text(strings.Join(p.Reasons, "; ")),
+		)
+	}))
 }

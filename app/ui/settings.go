@@ -28,6 +28,7 @@ type analysisUI struct {
 	anPredText, anPredErr string
 	anPredX               []float64
 	anLineX               []float64 // x values of the original-units table (transformed fits)
+	anReqSeq              int       // counts query changes, to answer only the latest in big sessions
 
 	// anUndo holds the settings before the advice was applied, for revert,
 	// and anUndoFor the session they belong to.

@@ -8,6 +8,7 @@ import (
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
 	"pairline/app/numfmt"
+	"pairline/fitcore"
 )
 
 // anSplitReadings splits typed repeat readings at spaces and semicolons
@@ -27,23 +28,42 @@ func (c *Shell) anSplitReadings(text string) ([]float64, string) {
 	return out, ""
 }
 
-// anRequery re-runs the analysis after a question of "Use the line"
-// changed. The questions ride along in the one Analyze run (see
-// anQueries); a big session waits for typing to pause, as edits do.
+// anRequery answers a changed question of "Use the line". Readings and
+// settings are unchanged, so the advice is too: the one Analyze run of the
+// keystroke leaves it out (SkipAdvice, several times faster) and the
+// report keeps the advice already shown. A big session waits for typing
+// to pause, as edits do.
 func (c *Shell) anRequery(ctx app.Context) {
 	if c.sess == nil {
 		return
 	}
+	run := func() {
+		prev := c.view.report
+		if prev == nil || c.view.stale {
+			c.analyse()
+			return
+		}
+		x, y, _, _ := c.sess.Pairs()
+		opt := c.sess.Settings.Options()
+		c.anQueries(&opt, x)
+		opt.SkipAdvice = true
+		rep, err := fitcore.Analyze(x, y, opt)
+		if err != nil {
+			c.analyse()
+			return
+		}
+		rep.Advice = prev.Advice
+		c.view.report = rep
+	}
 	if len(c.sess.Readings) < bigSession {
-		c.analyse()
+		run()
 		return
 	}
-	c.editSeq++
-	seq := c.editSeq
-	c.view.stale = true
+	c.anReqSeq++ // never editSeq: that would cancel an edit's pending save
+	seq := c.anReqSeq
 	ctx.After(idleDelay, func(ctx app.Context) {
-		if seq == c.editSeq {
-			c.analyse()
+		if seq == c.anReqSeq {
+			run()
 		}
 	})
 }
