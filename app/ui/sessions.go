@@ -18,8 +18,9 @@ func (c *Shell) renderSessions() app.UI {
 			return app.P().Text("No session is stored yet.")
 		}),
 		app.Ul().Class("pl-session-list").DataSet("testid", "session-list").Body(
-			app.Range(c.sessions).Slice(func(i int) app.UI { return c.sessionItem(c.sessions[i]) }),
+			app.Range(c.listShown()).Slice(func(i int) app.UI { return c.sessionItem(c.sessions[i]) }),
 		),
+		c.renderListMore(),
 		c.renderTrash(),
 	)
 }

@@ -269,7 +269,7 @@ func (c *Shell) edited(ctx app.Context) {
 // save encodes the open session and hands it to the saver. Only the newest
 // state waits: an older pending one is replaced, never written after it.
 func (c *Shell) save(ctx app.Context) {
-	if c.st == nil || c.sess == nil {
+	if c.st == nil || c.sess == nil || c.heldByOtherTab() {
 		return
 	}
 	job, err := encodeJob(c.sess)

@@ -182,3 +182,14 @@ func (c *Shell) keepAsCopy(ctx app.Context, k *changedElsewhere) {
 	st := c.st
 	ctx.Async(func() { st.SetLast(id) })
 }
+
+// heldByOtherTab keeps this tab from saving while it asks about a version
+// stored by another tab: saving first would overwrite that version before
+// the technician has chosen.
+func (c *Shell) heldByOtherTab() bool {
+	if c.elsewhere == nil || c.sess == nil || c.elsewhere.id != c.sess.ID {
+		return false
+	}
+	c.saveState, c.saveMessage = "failed", "another tab stored a newer version of this session; choose which to keep"
+	return true
+}

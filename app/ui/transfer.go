@@ -36,6 +36,7 @@ type transferState struct {
 	seen         int64     // Modified (Unix ms) of the stored version this tab has
 	shareOK      bool      // the browser can share files (Web Share API level 2)
 	importSeq    int       // counts finished imports (data-seq, for tests and screen readers)
+	listMore     int       // sessions the list draws beyond the first listPage
 }
 
 // importConflict asks, one session at a time, what to do with imported
@@ -58,7 +59,7 @@ type columnChoice struct {
 // chunkLines is how many lines of a CSV file are read between two pauses
 // that let the browser draw and handle input (Go's WebAssembly runs on the
 // page's only thread).
-const chunkLines = 4000
+const chunkLines = 1000
 
 // sessionAccept is what the file input offers: session files and tables.
 const sessionAccept = session.FileExtension + "," + session.MediaType + ",.csv,.tsv,.txt,text/csv,text/tab-separated-values,text/plain"
@@ -420,6 +421,13 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 		if yCol < len(probe.Header) && probe.Header[yCol] != "" {
 			s.YName = probe.Header[yCol]
 		}
+	}
+	// Room for every line at once: growing slices of 100,000 readings and
+	// three times as many history entries step by step costs more than the
+	// reading itself.
+	if lines := bytes.Count(data, []byte("\n")) + 1; lines <= session.MaxReadings {
+		s.Readings = make([]session.Reading, 0, lines)
+		s.History = make([]session.Edit, 0, 3*lines+2)
 	}
 	sum := csvSummary{}
 	started := time.Now()

@@ -83,3 +83,23 @@ func (c *Shell) restore(ctx app.Context, id string) {
 		})
 	})
 }
+
+// listPage is how many sessions the list draws at first (newest first) and
+// adds with each "show more": drawing hundreds of entries at once would make
+// the list slow to open on a tablet.
+const listPage = 50
+
+// listShown returns the sessions the list draws.
+func (c *Shell) listShown() []store.Summary {
+	return c.sessions[:min(len(c.sessions), max(c.listMore, listPage))]
+}
+
+// renderListMore offers the rest of a long list.
+func (c *Shell) renderListMore() app.UI {
+	shown := len(c.listShown())
+	return app.If(shown < len(c.sessions), func() app.UI {
+		return app.Button().Class("pl-btn pl-btn-quiet pl-btn-wide").DataSet("testid", "sessions-more").
+			Text("Show " + strconv.Itoa(min(listPage, len(c.sessions)-shown)) + " more of " + strconv.Itoa(len(c.sessions)-shown) + " older sessions").
+			OnClick(func(ctx app.Context, e app.Event) { c.listMore = shown + listPage })
+	})
+}
