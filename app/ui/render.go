@@ -35,7 +35,6 @@ func (c *Shell) Render() app.UI {
 			return app.Main().Class("pl-main").Body(
 				c.renderReadings(),
 				c.renderLine(),
-				c.renderTransfer(),
 				c.renderPlots(),
 				c.renderTransfer(),
 				c.renderChecks(), c.renderAdvice(), c.renderAcceptance(), c.renderUseLine(), c.renderSettings(),
