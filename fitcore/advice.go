@@ -47,6 +47,12 @@ import (
 //
 // Everything is deterministic; no randomness is used.
 func advise(x, y []float64, opt Options, before *Report) *Advice {
+	return adviseWith(x, y, opt, before, new(anScratch))
+}
+
+// adviseWith is advise sharing the work space sc of the analysis that
+// produced before.
+func adviseWith(x, y []float64, opt Options, before *Report, sc *anScratch) *Advice {
 	if before == nil {
 		return &Advice{Remedy: RemedyNone, Reason: "There is no fitted line to give advice on."}
 	}
@@ -63,7 +69,7 @@ func advise(x, y []float64, opt Options, before *Report) *Advice {
 	base := adScore(ad.Before, ad.Before, 0)
 	best := -1
 	for _, r := range []Remedy{RemedyLogY, RemedyLogLog, RemedySqrtY, RemedyReciprocal, RemedyBoxCox, RemedyWeighted} {
-		c := adTry(x, y, opt, r, ad.Before)
+		c := adTry(x, y, opt, r, ad.Before, sc)
 		ad.Candidates = append(ad.Candidates, c)
 		if c.Usable && c.Score >= base+adMinGain && (best < 0 || c.Score > ad.Candidates[best].Score) {
 			best = len(ad.Candidates) - 1
@@ -100,7 +106,7 @@ const adCaution = "Before relying on the results for safety-related work, check 
 	"instrument maker's procedure and local rules."
 
 // adTry fits one remedy and scores it against the original summary.
-func adTry(x, y []float64, opt Options, r Remedy, before CheckSummary) Candidate {
+func adTry(x, y []float64, opt Options, r Remedy, before CheckSummary, sc *anScratch) Candidate {
 	c := Candidate{Remedy: r}
 	o := Options{Model: ModelOLS, Level: opt.Level, SlopeRef: opt.SlopeRef, InterceptRef: opt.InterceptRef, SkipAdvice: true}
 	cost := 0.0
@@ -171,7 +177,7 @@ func adTry(x, y []float64, opt Options, r Remedy, before CheckSummary) Candidate
 		o.Model = ModelWeighted
 		cost = 0.5
 	}
-	rep, err := Analyze(x, y, o)
+	rep, err := analyze(x, y, o, sc)
 	if err != nil {
 		c.Why = "The refit on this scale failed: " + err.Error() + "."
 		return c

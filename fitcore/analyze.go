@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"reflect"
+	"slices"
 )
 
 // Analyze fits a straight line to the pairs (x[i], y[i]) as opt asks and
@@ -23,6 +24,35 @@ import (
 // ErrTransformDomain) and invalid options (ErrBadOption). No NaN or Inf is
 // ever stored in the Report, so it always marshals to JSON.
 func Analyze(x, y []float64, opt Options) (*Report, error) {
+	return analyze(x, y, opt, new(anScratch))
+}
+
+// anScratch is the work space one analysis shares with the refits of its
+// advice (which all see the same x).
+type anScratch struct {
+	sb     ckSortBuf
+	x      []float64 // the readings xOrder belongs to
+	xOrder []int32   // positions of x in ascending order; nil when x is in order
+}
+
+// orderOf returns the positions of x in ascending order (nil when x is
+// already in order), sorting only the first time it is asked about these
+// readings.
+func (s *anScratch) orderOf(x []float64) []int32 {
+	if s.x != nil && len(s.x) == len(x) && &s.x[0] == &x[0] {
+		return s.xOrder
+	}
+	s.x = x
+	if ckAscending(x) {
+		s.xOrder = nil
+	} else {
+		s.xOrder = slices.Clone(s.sb.order(x))
+	}
+	return s.xOrder
+}
+
+// analyze is Analyze with its work space in sc.
+func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	o, err := normalizeOptions(opt)
 	if err != nil {
 		return nil, err
@@ -92,7 +122,7 @@ func Analyze(x, y []float64, opt Options) (*Report, error) {
 		rep.Smearing = tr.smearing
 	}
 
-	fc := &fitContext{f: f, tr: tr, wm: wm, x: x, y: y, xt: xt, yt: yt, w: w, opt: o, rep: rep}
+	fc := &fitContext{f: f, tr: tr, wm: wm, x: x, y: y, xt: xt, yt: yt, w: w, opt: o, rep: rep, sc: sc}
 	fc.runChecks()
 	if allPositive(y) {
 		if bc, err := BoxCoxProfile(x, y, o.Level); err == nil {
@@ -104,7 +134,7 @@ func Analyze(x, y []float64, opt Options) (*Report, error) {
 	fc.limits()
 	fc.acceptance()
 	if !o.SkipAdvice {
-		rep.Advice = advise(x, y, opt, rep)
+		rep.Advice = adviseWith(x, y, opt, rep, sc)
 	}
 	scrubReport(rep)
 	return rep, nil
@@ -120,6 +150,7 @@ type fitContext struct {
 	w      []float64 // weights as used (original scale), nil when unweighted
 	opt    Options
 	rep    *Report
+	sc     *anScratch
 }
 
 // runChecks runs the assumption checks on the fitted scale and summarises
@@ -148,14 +179,26 @@ func (fc *fitContext) runChecks() {
 		}
 	}
 	c := &rep.Checks
-	c.Curvature = CurvatureTest(xs, ys, w, rep.Level)
-	c.LackOfFit = LackOfFit(xs, ys, w, origin)
-	c.BreuschPagan = BreuschPagan(xs, pr)
-	c.White = White(xs, pr)
-	c.DurbinWatson = DurbinWatson(xs, pr, origin)
-	c.Runs = RunsTest(pr)
-	c.ShapiroWilk = ShapiroWilkCheck(pr)
-	rep.Influence = Influence(xs, res, w, origin)
+	// The checks share what they need to know about x, and the inputs are
+	// validated once here rather than by every check.
+	pre := ckPrepare(xs)
+	pre.xyValid = ckValidate(xs, ys, w, "y value") == ""
+	pre.residValid = ckValidate(xs, pr, nil, "residual") == ""
+	inflValid := pre.residValid && (w == nil || ckValidate(xs, res, w, "residual") == "")
+	c.Curvature = curvatureTest(xs, ys, w, rep.Level, pre)
+	if pre.xyValid {
+		// Any order that sorts x also sorts xs, which is x scaled by a
+		// power of two or on a log scale.
+		c.LackOfFit = lackOfFit(xs, ys, w, origin, fc.sc.orderOf(fc.x))
+	} else {
+		c.LackOfFit = LackOfFit(xs, ys, w, origin)
+	}
+	c.BreuschPagan = ckSpread("Breusch–Pagan", xs, pr, false, pre)
+	c.White = ckSpread("White", xs, pr, true, pre)
+	c.DurbinWatson = durbinWatson(xs, pr, origin, pre)
+	c.Runs = runsTest(pr, pre.residValid)
+	c.ShapiroWilk = shapiroWilkCheck(pr, &fc.sc.sb, pre.residValid)
+	rep.Influence = influence(xs, res, w, origin, inflValid)
 	if scaled {
 		for i := range rep.Influence {
 			rep.Influence[i].Residual /= f.ky

@@ -172,8 +172,8 @@ func bcNewProfile(x, y []float64) (*bcProfile, error) {
 	p.wMin, p.wMax = math.Inf(1), math.Inf(-1)
 	for i := range p.w {
 		p.w[i] -= my
-		p.wMin = math.Min(p.wMin, p.w[i])
-		p.wMax = math.Max(p.wMax, p.w[i])
+		p.wMin = min(p.wMin, p.w[i])
+		p.wMax = max(p.wMax, p.w[i])
 	}
 	if p.wMax-p.wMin == 0 {
 		return nil, fmt.Errorf("%w (all %d are %v), so the Box–Cox power cannot be estimated", ErrNoSpreadInY, n, y[0])

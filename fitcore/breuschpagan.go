@@ -1,6 +1,9 @@
 package fitcore
 
-import "fmt"
+import (
+	"fmt"
+	"math"
+)
 
 // BreuschPagan is the studentized Breusch–Pagan test for residual spread
 // that changes with x, in Koenker's form: regress the squared residuals e²
@@ -18,47 +21,52 @@ import "fmt"
 // x without spread, or residuals whose squares are all equal (e.g. all zero).
 // Verdict (common practice): p < 0.01 fails, p < 0.05 warns.
 func BreuschPagan(x, resid []float64) Check {
-	return ckSpread("Breusch–Pagan", x, resid, false)
+	return ckSpread("Breusch–Pagan", x, resid, false, nil)
 }
 
 // ckSpread runs the auxiliary regression of e² on x (and on the centred
-// x² when quad is true) shared by BreuschPagan and White.
-func ckSpread(name string, x, resid []float64, quad bool) Check {
-	if s := ckValidate(x, resid, nil, "residual"); s != "" {
-		return ckNA(name, s)
+// x² when quad is true) shared by BreuschPagan and White; pre is what is
+// known about x (nil: work it out).
+func ckSpread(name string, x, resid []float64, quad bool, pre *ckPre) Check {
+	if pre == nil || !pre.residValid {
+		if s := ckValidate(x, resid, nil, "residual"); s != "" {
+			return ckNA(name, s)
+		}
 	}
 	n := len(x)
-	df := 1.0
 	minN := 3
 	if quad {
-		df, minN = 2, 4
+		minN = 4
 	}
 	if n < minN {
 		return ckNA(name, fmt.Sprintf("The %s check needs at least %d readings; there are %d.", name, minN, n))
 	}
-	xs, ok := ckStandardize(x)
-	if !ok {
+	if pre == nil {
+		pre = ckPrepare(x)
+	}
+	if !pre.ok {
 		return ckNA(name, "All x values are the same, so the spread cannot be related to x.")
 	}
-	cols := [][]float64{xs}
+	if quad && pre.distinct < 3 {
+		return ckNA(name, "The White check needs at least 3 different x values.")
+	}
+	bs := &pre.basis
+	df := 1.0
 	if quad {
-		if ckDistinct(x) < 3 {
-			return ckNA(name, "The White check needs at least 3 different x values.")
+		df = 2
+	}
+	var big float64
+	for _, e := range resid {
+		big = max(big, e*e)
+	}
+	if !ckFinite(big) {
+		for i, e := range resid {
+			if !ckFinite(e * e) {
+				return ckNA(name, fmt.Sprintf("A residual is too large to square: Reading %d has a squared residual that is not a number (%v).", i+1, e*e))
+			}
 		}
-		q := make([]float64, n)
-		for i, v := range xs {
-			q[i] = v * v
-		}
-		cols = append(cols, q)
 	}
-	e2 := make([]float64, n)
-	for i, e := range resid {
-		e2[i] = e * e
-	}
-	if s := ckFirstNonFinite("squared residual", e2); s != "" {
-		return ckNA(name, "A residual is too large to square: "+s)
-	}
-	r2, ok := ckAuxR2(e2, cols)
+	r2, ok := ckSpreadR2(x, resid, bs, quad)
 	if !ok {
 		return ckNA(name, "The residuals are all the same size (for example all zero), so their spread cannot change with x.")
 	}
@@ -74,4 +82,44 @@ func ckSpread(name string, x, resid []float64, quad bool) Check {
 		c.Message = fmt.Sprintf("The scatter about the line looks even along x (%s statistic %.3g, %s).", name, lm, ckFmtP(p))
 	}
 	return c
+}
+
+// ckSpreadR2 is ckAuxR2 for v = e² standardized (centred and scaled by its
+// rms) on the basis bs: R² = 1 − SSE/n. ok is false when e² has no spread
+// or a basis member is degenerate.
+func ckSpreadR2(x, resid []float64, bs *ckBasis, quad bool) (float64, bool) {
+	n := float64(len(resid))
+	var mean float64
+	for _, e := range resid {
+		mean += e * e
+	}
+	mean /= n
+	var ss, corr float64
+	for _, e := range resid {
+		d := e*e - mean
+		ss += d * d
+		corr += d
+	}
+	ss -= corr * corr / n
+	if ss < 0 {
+		ss = 0
+	}
+	mean += corr / n
+	rms := math.Sqrt(ss / n)
+	if rms == 0 || !ckFinite(rms) {
+		return 0, false
+	}
+	if !bs.okD || (quad && !bs.okG) {
+		return 0, false
+	}
+	is := 1 / rms
+	f := bs.project(x, nil, quad, resid, true, mean, is)
+	r2 := 1 - f.sse/n
+	if r2 < 0 {
+		r2 = 0
+	}
+	if r2 > 1 {
+		r2 = 1
+	}
+	return r2, ckFinite(r2)
 }

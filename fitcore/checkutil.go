@@ -3,7 +3,6 @@ package fitcore
 import (
 	"fmt"
 	"math"
-	"sort"
 
 	"gonum.org/v1/gonum/mathext"
 	"gonum.org/v1/gonum/stat/distuv"
@@ -11,8 +10,8 @@ import (
 
 // Small helpers shared by the assumption checks (curvature.go, lackoffit.go,
 // breuschpagan.go, white.go, durbinwatson.go, runs.go, shapirowilk.go,
-// influence.go, xexactness.go). They are deliberately self-contained so that
-// the checks compile with report.go alone.
+// influence.go, xexact.go), with checkbasis.go (the orthogonal basis in x
+// the auxiliary regressions use) and sortutil.go (sorting).
 
 // Common-practice significance thresholds for the assumption checks: a p below
 // ckWarnP earns a warning, a p below ckFailP a failure. These are the
@@ -132,128 +131,6 @@ func ckMeanSD(v []float64) (mean, rms float64) {
 	return mean + corr/n, math.Sqrt(ss / n)
 }
 
-// ckStandardize returns (v−mean)/rms, the centred and scaled copy of v used to
-// keep the small least-squares problems well conditioned, and whether v has
-// any spread at all.
-func ckStandardize(v []float64) ([]float64, bool) {
-	m, s := ckMeanSD(v)
-	out := make([]float64, len(v))
-	if s == 0 || !ckFinite(s) {
-		return out, false
-	}
-	for i, a := range v {
-		out[i] = (a - m) / s
-	}
-	return out, true
-}
-
-// ckLSQ is a least-squares fit by modified Gram–Schmidt with one full
-// re-orthogonalisation pass ("twice is enough", Giraud, Langou & Rozložník,
-// Computers & Mathematics with Applications 50, 2005). cols are the columns of
-// the design, y the response. On return q holds the orthonormal basis, proj[j]
-// = q_jᵀy, and resid the residual vector y − Σ proj[j]·q_j. ok is false when a
-// column is, to rounding, a combination of the earlier ones. Cost O(n·k²).
-type ckLSQ struct {
-	q     [][]float64
-	proj  []float64
-	resid []float64
-}
-
-func ckFit(cols [][]float64, y []float64) (ckLSQ, bool) {
-	n := len(y)
-	var f ckLSQ
-	for _, c := range cols {
-		v := append([]float64(nil), c...)
-		orig := ckNorm(v)
-		if orig == 0 {
-			return f, false
-		}
-		for pass := 0; pass < 2; pass++ {
-			for _, qj := range f.q {
-				d := ckDot(qj, v)
-				for i := range v {
-					v[i] -= d * qj[i]
-				}
-			}
-		}
-		nv := ckNorm(v)
-		if nv <= 1e-10*orig {
-			return f, false
-		}
-		for i := range v {
-			v[i] /= nv
-		}
-		f.q = append(f.q, v)
-	}
-	r := append([]float64(nil), y...)
-	f.proj = make([]float64, len(f.q))
-	for pass := 0; pass < 2; pass++ {
-		for j, qj := range f.q {
-			d := ckDot(qj, r)
-			f.proj[j] += d
-			for i := 0; i < n; i++ {
-				r[i] -= d * qj[i]
-			}
-		}
-	}
-	f.resid = r
-	return f, true
-}
-
-func ckDot(a, b []float64) float64 {
-	var s float64
-	for i := range a {
-		s += a[i] * b[i]
-	}
-	return s
-}
-
-// ckNorm is the Euclidean norm, scaled to avoid overflow and underflow.
-func ckNorm(v []float64) float64 {
-	var scale, ssq float64 = 0, 1
-	for _, a := range v {
-		if a == 0 {
-			continue
-		}
-		a = math.Abs(a)
-		if scale < a {
-			ssq = 1 + ssq*(scale/a)*(scale/a)
-			scale = a
-		} else {
-			ssq += (a / scale) * (a / scale)
-		}
-	}
-	return scale * math.Sqrt(ssq)
-}
-
-// ckAuxR2 is the centred R² of the auxiliary regression of v on an
-// intercept and the given columns, as used by the Breusch–Pagan and White
-// tests. ok is false when v has no spread or the columns are degenerate.
-func ckAuxR2(v []float64, cols [][]float64) (r2 float64, ok bool) {
-	vc, spread := ckStandardize(v)
-	if !spread {
-		return 0, false
-	}
-	ones := make([]float64, len(v))
-	for i := range ones {
-		ones[i] = 1
-	}
-	f, ok := ckFit(append([][]float64{ones}, cols...), vc)
-	if !ok {
-		return 0, false
-	}
-	// vc has mean 0 and Σvc² = n, so SST = n.
-	sse := ckDot(f.resid, f.resid)
-	r2 = 1 - sse/float64(len(v))
-	if r2 < 0 {
-		r2 = 0
-	}
-	if r2 > 1 {
-		r2 = 1
-	}
-	return r2, ckFinite(r2)
-}
-
 // ckChi2SF is P(χ²(df) > x).
 func ckChi2SF(x, df float64) float64 {
 	return ckClampP(distuv.ChiSquared{K: df}.Survival(x))
@@ -279,13 +156,6 @@ func ckZ2(z float64) float64 {
 	return ckClampP(2 * distuv.UnitNormal.Survival(math.Abs(z)))
 }
 
-// ckSorted returns v sorted ascending (O(n log n)).
-func ckSorted(v []float64) []float64 {
-	s := append([]float64(nil), v...)
-	sort.Float64s(s)
-	return s
-}
-
 // ckFmtP formats a p-value for a sentence.
 func ckFmtP(p float64) string {
 	switch {
@@ -303,8 +173,20 @@ func ckFmtP(p float64) string {
 // coefficients and raw residuals. ok is false when x has no spread (or is all
 // zero through the origin).
 func ckLine(x, y, w []float64, origin bool) (b0, b1 float64, resid []float64, ok bool) {
+	resid = make([]float64, len(x))
+	b0, b1, ok = ckLineCoef(x, y, w, origin)
+	if !ok {
+		return 0, 0, resid, false
+	}
+	for i := range x {
+		resid[i] = y[i] - b0 - b1*x[i]
+	}
+	return b0, b1, resid, true
+}
+
+// ckLineCoef is ckLine without the residuals.
+func ckLineCoef(x, y, w []float64, origin bool) (b0, b1 float64, ok bool) {
 	n := len(x)
-	resid = make([]float64, n)
 	if origin {
 		var sxx, sxy float64
 		for i := range x {
@@ -313,34 +195,29 @@ func ckLine(x, y, w []float64, origin bool) (b0, b1 float64, resid []float64, ok
 			sxy += wi * x[i] * y[i]
 		}
 		if sxx == 0 || !ckFinite(sxx) || !ckFinite(sxy) {
-			return 0, 0, resid, false
+			return 0, 0, false
 		}
-		b1 = sxy / sxx
-	} else {
-		var sw, mx, my float64
-		for i := range x {
-			wi := ckW(w, i)
-			sw += wi
-			mx += wi * x[i]
-			my += wi * y[i]
-		}
-		mx /= sw
-		my /= sw
-		var sxx, sxy float64
-		for i := range x {
-			wi := ckW(w, i)
-			dx := x[i] - mx
-			sxx += wi * dx * dx
-			sxy += wi * dx * (y[i] - my)
-		}
-		if sxx == 0 || !ckFinite(sxx) || !ckFinite(sxy) {
-			return 0, 0, resid, false
-		}
-		b1 = sxy / sxx
-		b0 = my - b1*mx
+		return 0, sxy / sxx, true
 	}
-	for i := range x {
-		resid[i] = y[i] - b0 - b1*x[i]
+	var sw, mx, my float64
+	for i := range n {
+		wi := ckW(w, i)
+		sw += wi
+		mx += wi * x[i]
+		my += wi * y[i]
 	}
-	return b0, b1, resid, true
+	mx /= sw
+	my /= sw
+	var sxx, sxy float64
+	for i := range n {
+		wi := ckW(w, i)
+		dx := x[i] - mx
+		sxx += wi * dx * dx
+		sxy += wi * dx * (y[i] - my)
+	}
+	if sxx == 0 || !ckFinite(sxx) || !ckFinite(sxy) {
+		return 0, 0, false
+	}
+	b1 = sxy / sxx
+	return my - b1*mx, b1, true
 }

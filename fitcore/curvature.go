@@ -3,6 +3,7 @@ package fitcore
 import (
 	"fmt"
 	"math"
+	"slices"
 )
 
 // CurvatureTest tests whether a straight line misses a bend in the readings.
@@ -20,8 +21,10 @@ import (
 // §5.1 and §6.1; NIST/SEMATECH e-Handbook of Statistical Methods §4.4.4).
 // Centring the square at x̄ leaves t unchanged but keeps the fit well
 // conditioned; internally x is also scaled by its spread and the fit uses
-// Gram–Schmidt orthogonalisation, so t equals the coefficient t-value a
-// QR-based least-squares program reports for the same model.
+// Gram–Schmidt orthogonalisation (on a basis held as a few sums, see
+// ckBasis, so the cost is O(n) with no n-sized copies), so t equals the
+// coefficient t-value a QR-based least-squares program reports for the
+// same model.
 //
 // Verdict (common practice): with α = 1 − level (level 0 means 0.95), a p
 // below α/5 fails (1 % at the default level) and a p below α warns (5 %).
@@ -29,9 +32,17 @@ import (
 // than 3 distinct x values, non-finite inputs, non-positive weights, or when
 // the readings lie exactly (to rounding) on a straight line.
 func CurvatureTest(x, y, w []float64, level float64) Check {
+	return curvatureTest(x, y, w, level, nil)
+}
+
+// curvatureTest is CurvatureTest with what is known about x in pre (nil:
+// work it out).
+func curvatureTest(x, y, w []float64, level float64, pre *ckPre) Check {
 	const name = "Curvature"
-	if s := ckValidate(x, y, w, "y value"); s != "" {
-		return ckNA(name, s)
+	if pre == nil || !pre.xyValid {
+		if s := ckValidate(x, y, w, "y value"); s != "" {
+			return ckNA(name, s)
+		}
 	}
 	n := len(x)
 	if n < 4 {
@@ -41,44 +52,41 @@ func CurvatureTest(x, y, w []float64, level float64) Check {
 		level = 0.95
 	}
 	alpha := 1 - level
-	xs, ok := ckStandardize(x)
-	if !ok {
+	if pre == nil {
+		pre = ckPrepare(x)
+	}
+	if !pre.ok {
 		return ckNA(name, "All x values are the same, so no line (or curve) can be fitted.")
 	}
-	if ckDistinct(x) < 3 {
+	if pre.distinct < 3 {
 		return ckNA(name, "The curvature check needs at least 3 different x values.")
 	}
-	sw := make([]float64, n)
-	c0 := make([]float64, n)
-	c1 := make([]float64, n)
-	c2 := make([]float64, n)
-	yw := make([]float64, n)
-	for i := range x {
-		sw[i] = math.Sqrt(ckW(w, i))
-		c0[i] = sw[i]
-		c1[i] = sw[i] * xs[i]
-		c2[i] = sw[i] * xs[i] * xs[i]
-		yw[i] = sw[i] * y[i]
+	bs := &pre.basis
+	if w != nil {
+		wb, ok := ckNewBasis(x, w, true)
+		if !ok {
+			return ckNA(name, "All x values are the same, so no line (or curve) can be fitted.")
+		}
+		bs = &wb
 	}
-	f, ok := ckFit([][]float64{c0, c1, c2}, yw)
-	if !ok {
+	if !bs.okD || !bs.okG {
 		return ckNA(name, "The x values do not spread enough to tell a curve from a line.")
 	}
+	f := bs.project(x, w, true, y, false, 0, 1)
 	df := float64(n - 3)
-	sse := ckDot(f.resid, f.resid)
-	s := math.Sqrt(sse / df)
-	scale := ckNorm(yw)
+	s := math.Sqrt(f.sse / df)
+	scale := ckWNorm(y, w, bs.wk)
 	if !ckFinite(s) || !ckFinite(scale) {
 		return ckNA(name, "The readings are too large to check for curvature.")
 	}
 	if s <= 1e-13*scale {
-		if math.Abs(f.proj[2]) <= 1e-13*scale {
+		if math.Abs(f.pg) <= 1e-13*scale {
 			return ckNA(name, "The readings lie exactly on a straight line, so there is nothing to test.")
 		}
 		return Check{Name: name, Statistic: 0, DF: df, P: 0, Verdict: Fail,
 			Message: "The readings lie exactly on a curve, not a straight line (the t statistic is unbounded)."}
 	}
-	t := f.proj[2] / s
+	t := f.pg / s
 	p := ckT2(t, df)
 	c := Check{Name: name, Statistic: t, DF: df, P: p, Verdict: ckVerdict(p, alpha, alpha/5)}
 	switch c.Verdict {
@@ -92,14 +100,50 @@ func CurvatureTest(x, y, w []float64, level float64) Check {
 	return c
 }
 
-// ckDistinct returns the number of distinct values in v (O(n log n)).
-func ckDistinct(v []float64) int {
-	s := ckSorted(v)
-	k := 0
-	for i := range s {
-		if i == 0 || s[i] != s[i-1] {
-			k++
+// ckDistinctAtLeast returns min(k, the number of distinct values in v) in
+// O(n·k), without sorting.
+func ckDistinctAtLeast(v []float64, k int) int {
+	seen := make([]float64, 0, k)
+	for _, a := range v {
+		if len(seen) == k {
+			break
+		}
+		if !slices.Contains(seen, a) {
+			seen = append(seen, a)
 		}
 	}
-	return k
+	return len(seen)
+}
+
+// ckWNorm is √Σ(wk·w)·v², scaled to avoid overflow and underflow (ckNorm
+// of √(wk·w)·v); w nil means all weights 1.
+func ckWNorm(v, w []float64, wk float64) float64 {
+	var ss float64
+	for i, a := range v {
+		if w != nil {
+			ss += w[i] * wk * a * a
+		} else {
+			ss += a * a
+		}
+	}
+	if ss > 0x1p-900 && ss < 0x1p900 {
+		return math.Sqrt(ss)
+	}
+	var scale, ssq float64 = 0, 1
+	for i, a := range v {
+		if w != nil {
+			a *= math.Sqrt(w[i] * wk)
+		}
+		if a == 0 {
+			continue
+		}
+		a = math.Abs(a)
+		if scale < a {
+			ssq = 1 + ssq*(scale/a)*(scale/a)
+			scale = a
+		} else {
+			ssq += (a / scale) * (a / scale)
+		}
+	}
+	return scale * math.Sqrt(ssq)
 }

@@ -36,9 +36,17 @@ import (
 // with a reason for fewer than k+2 readings, non-finite input or all-zero
 // residuals. Verdict (common practice): p < 0.01 fails, p < 0.05 warns.
 func DurbinWatson(x, resid []float64, origin bool) Check {
+	return durbinWatson(x, resid, origin, nil)
+}
+
+// durbinWatson is DurbinWatson with what is known about x in pre (nil:
+// work it out).
+func durbinWatson(x, resid []float64, origin bool, pre *ckPre) Check {
 	const name = "Durbin–Watson"
-	if s := ckValidate(x, resid, nil, "residual"); s != "" {
-		return ckNA(name, s)
+	if pre == nil || !pre.residValid {
+		if s := ckValidate(x, resid, nil, "residual"); s != "" {
+			return ckNA(name, s)
+		}
 	}
 	n := len(x)
 	k := 2
@@ -52,7 +60,14 @@ func DurbinWatson(x, resid []float64, origin bool) Check {
 	if !ok {
 		return ckNA(name, "The residuals are all zero, so there is no pattern in their order to test.")
 	}
-	mean, variance, ok := ckDWMoments(x, origin)
+	var mean, variance float64
+	if origin || pre == nil {
+		mean, variance, ok = ckDWMoments(x, origin)
+	} else if pre.ok {
+		mean, variance, ok = ckDWMomentsBasis(x, false, &pre.basis)
+	} else {
+		ok = false
+	}
 	if !ok {
 		return ckNA(name, "The x values do not spread enough to judge the order of the residuals.")
 	}
@@ -86,24 +101,28 @@ func DurbinWatson(x, resid []float64, origin bool) Check {
 	return c
 }
 
-// ckDWStat is Σ(e_t − e_{t−1})² / Σe_t², computed on e scaled by its
-// largest magnitude to avoid overflow. ok is false when all e are zero.
+// ckDWStat is Σ(e_t − e_{t−1})² / Σe_t², computed on e scaled by the power
+// of two nearest above its largest magnitude (exact) to avoid overflow. ok
+// is false when all e are zero.
 func ckDWStat(e []float64) (float64, bool) {
 	var big float64
 	for _, v := range e {
-		big = math.Max(big, math.Abs(v))
+		big = max(big, math.Abs(v))
 	}
 	if big == 0 {
 		return 0, false
 	}
-	var num, den float64
+	_, ex := math.Frexp(big)
+	k := math.Ldexp(1, -ex)
+	var num, den, prev float64
 	for t, v := range e {
-		v /= big
+		v *= k
 		den += v * v
 		if t > 0 {
-			dv := v - e[t-1]/big
+			dv := v - prev
 			num += dv * dv
 		}
+		prev = v
 	}
 	return num / den, den > 0
 }
@@ -114,74 +133,83 @@ func ckDWStat(e []float64) (float64, bool) {
 //	tr(A) = 2(n−1), tr(A²) = 6n − 8,
 //	P = tr(A) − Σ_j u_jᵀAu_j,
 //	Q = tr(A²) − 2Σ_j |Au_j|² + Σ_jl (u_jᵀAu_l)².
+//
+// With an intercept, u_1 = 1/√n and A·1 = 0 (the rows of A sum to zero),
+// so only u_2 = (x − x̄)/|x − x̄| contributes; through the origin u_1 =
+// x/|x|. Either way one pass gives u_jᵀAu_j = Σ_t (u_t − u_{t−1})² and
+// |Au_j|², with u evaluated as it goes (no n-sized column is stored).
 func ckDWMoments(x []float64, origin bool) (mean, variance float64, ok bool) {
+	var bs ckBasis
+	if !origin {
+		var spread bool
+		if bs, spread = ckNewBasis(x, nil, false); !spread {
+			return 0, 0, false
+		}
+	}
+	return ckDWMomentsBasis(x, origin, &bs)
+}
+
+// ckDWMomentsBasis is ckDWMoments with the linear basis of x already built
+// (ignored through the origin).
+func ckDWMomentsBasis(x []float64, origin bool, bs *ckBasis) (mean, variance float64, ok bool) {
 	n := len(x)
-	var cols [][]float64
+	// u_i = c·(x_i − m)·a − c·mz: the standardized, centred x, or x scaled
+	// by its largest magnitude (m = mz = 0).
+	var m, a, mz, c float64
 	if origin {
-		// Scale x by its largest magnitude; no centring through the origin.
 		var big float64
 		for _, v := range x {
-			big = math.Max(big, math.Abs(v))
+			big = max(big, math.Abs(v))
 		}
 		if big == 0 {
 			return 0, 0, false
 		}
-		c := make([]float64, n)
-		for i, v := range x {
-			c[i] = v / big
+		a = 1 / big
+		var ss float64
+		for _, v := range x {
+			v *= a
+			ss += v * v
 		}
-		cols = [][]float64{c}
+		c = 1 / math.Sqrt(ss)
 	} else {
-		xs, spread := ckStandardize(x)
-		if !spread {
+		if !bs.okD {
 			return 0, 0, false
 		}
-		ones := make([]float64, n)
-		for i := range ones {
-			ones[i] = 1
-		}
-		cols = [][]float64{ones, xs}
+		m, a, mz = bs.m, bs.is, bs.mz
+		c = 1 / math.Sqrt(bs.sdd)
 	}
-	f, ok := ckFit(cols, make([]float64, n))
-	if !ok {
+	if !ckFinite(c) || c == 0 {
 		return 0, 0, false
 	}
-	k := len(f.q)
-	au := make([][]float64, k)
-	for j, u := range f.q {
-		au[j] = ckDiffApply(u)
+	u := func(i int) float64 { return c * ((x[i]-m)*a - mz) }
+	var uau, au2 float64
+	prev, cur := 0.0, u(0)
+	for i := range n {
+		next := 0.0
+		if i < n-1 {
+			next = u(i + 1)
+		}
+		v := 0.0
+		if i > 0 {
+			dv := cur - prev
+			uau += dv * dv
+			v += dv
+		}
+		if i < n-1 {
+			v += cur - next
+		}
+		au2 += v * v
+		prev, cur = cur, next
 	}
 	nf := float64(n)
-	p := 2 * (nf - 1)
-	q := 6*nf - 8
-	for j := 0; j < k; j++ {
-		p -= ckDot(f.q[j], au[j])
-		q -= 2 * ckDot(au[j], au[j])
-		for l := 0; l < k; l++ {
-			v := ckDot(f.q[j], au[l])
-			q += v * v
-		}
+	k := 1.0
+	if !origin {
+		k = 2
 	}
-	dfr := nf - float64(k)
+	p := 2*(nf-1) - uau
+	q := 6*nf - 8 - 2*au2 + uau*uau
+	dfr := nf - k
 	mean = p / dfr
 	variance = 2 * (q - p*mean) / (dfr * (dfr + 2))
 	return mean, variance, ckFinite(mean) && ckFinite(variance)
-}
-
-// ckDiffApply returns A·u for the first-difference matrix A = DᵀD (diagonal
-// 1, 2, …, 2, 1 and −1 beside it).
-func ckDiffApply(u []float64) []float64 {
-	n := len(u)
-	out := make([]float64, n)
-	for i := range u {
-		v := 0.0
-		if i > 0 {
-			v += u[i] - u[i-1]
-		}
-		if i < n-1 {
-			v += u[i] - u[i+1]
-		}
-		out[i] = v
-	}
-	return out
 }

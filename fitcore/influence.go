@@ -1,8 +1,10 @@
 package fitcore
 
 import (
-	"fmt"
 	"math"
+	"math/bits"
+	"strconv"
+	"strings"
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -56,7 +58,13 @@ const ckStudentCap = 1e10
 // non-finite values, non-positive weights, x without spread) or n ≤ p.
 // Cost O(n).
 func Influence(x, resid, w []float64, origin bool) []PointInfluence {
-	if ckValidate(x, resid, w, "residual") != "" {
+	return influence(x, resid, w, origin, false)
+}
+
+// influence is Influence; valid says the inputs are already known to be
+// valid.
+func influence(x, resid, w []float64, origin, valid bool) []PointInfluence {
+	if !valid && ckValidate(x, resid, w, "residual") != "" {
 		return nil
 	}
 	n := len(x)
@@ -67,22 +75,27 @@ func Influence(x, resid, w []float64, origin bool) []PointInfluence {
 	if n <= p {
 		return nil
 	}
-	h, ok := ckLeverage(x, w, origin)
+	lev, ok := ckNewLeverage(x, w, origin)
 	if !ok {
 		return nil
 	}
 	nf, pf := float64(n), float64(p)
-	r := make([]float64, n)
+	// r_i = √w_i·e_i, evaluated where needed.
+	rAt := func(i int) float64 {
+		if w == nil {
+			return resid[i]
+		}
+		return math.Sqrt(w[i]) * resid[i]
+	}
 	var big float64
-	for i, e := range resid {
-		r[i] = math.Sqrt(ckW(w, i)) * e
-		big = math.Max(big, math.Abs(r[i]))
+	for i := range resid {
+		big = max(big, math.Abs(rAt(i)))
 	}
 	// Work with r scaled by its largest magnitude so S cannot overflow.
 	var sse float64
 	if big > 0 {
-		for _, v := range r {
-			v /= big
+		for i := range resid {
+			v := rAt(i) / big
 			sse += v * v
 		}
 	}
@@ -100,28 +113,32 @@ func Influence(x, resid, w []float64, origin bool) []PointInfluence {
 			tOne = 0
 		}
 	}
-	fMedian := distuv.F{D1: pf, D2: dfRes}.Quantile(0.5)
-	levHigh, levVery := 2*pf/nf, 3*pf/nf
-	cookLow := 4 / nf
-	dffitsCut := 2 * math.Sqrt(pf/nf)
+	cut := newInfluenceCuts(pf, nf, dfRes, dfDel >= 1)
 
 	out := make([]PointInfluence, n)
+	// Which reasons each reading has, as bits; the texts are written
+	// afterwards into one buffer sized for them all.
+	masks := make([]uint8, n)
+	nReasons := 0
 	for i := range out {
-		pi := PointInfluence{Index: i, Leverage: h[i], Residual: resid[i], OutlierP: 1}
+		pi := &out[i]
+		h := lev.at(i)
+		pi.Index, pi.Leverage, pi.Residual, pi.OutlierP = i, h, resid[i], 1
 		ri := 0.0
 		if big > 0 {
-			ri = r[i] / big
+			ri = rAt(i) / big
 		}
+		var m uint8
 		switch {
-		case h[i] >= 1-1e-12:
-			pi.Leverage = math.Min(h[i], 1)
-			pi.Reasons = append(pi.Reasons, fmt.Sprintf("%s: this reading alone fixes the line at its x, so its residual says nothing", ckReasonLeverageOne))
+		case h >= 1-1e-12:
+			pi.Leverage = math.Min(h, 1)
+			m = 1 << ckBitLeverageOne
 		case sse == 0:
 			// All residuals zero: nothing stands out.
 		default:
-			om := 1 - h[i]
+			om := 1 - h
 			if s2 > 0 {
-				pi.CooksD = ri * ri * h[i] / (pf * s2 * om * om)
+				pi.CooksD = ri * ri * h / (pf * s2 * om * om)
 			}
 			if dfDel >= 1 {
 				sd2 := (sse - ri*ri/om) / dfDel
@@ -138,7 +155,7 @@ func Influence(x, resid, w []float64, origin bool) []PointInfluence {
 				if math.Abs(t) > tOne {
 					pi.OutlierP = ckClampP(nf * 2 * tdist.Survival(math.Abs(t)))
 				}
-				pi.DFFITS = t * math.Sqrt(h[i]/om)
+				pi.DFFITS = t * math.Sqrt(h/om)
 			}
 		}
 		if !ckFinite(pi.CooksD) {
@@ -147,88 +164,218 @@ func Influence(x, resid, w []float64, origin bool) []PointInfluence {
 		if !ckFinite(pi.DFFITS) {
 			pi.DFFITS = 0
 		}
-		pi.Reasons = append(pi.Reasons, ckInfluenceReasons(pi, levHigh, levVery, fMedian, cookLow, dffitsCut, dfDel >= 1)...)
-		pi.Flagged = len(pi.Reasons) > 0
-		out[i] = pi
+		m |= cut.mask(pi)
+		if m != 0 {
+			masks[i] = m
+			pi.Flagged = true
+			nReasons += bits.OnesCount8(m)
+		}
+	}
+	if nReasons > 0 {
+		rw := newReasonWriter(nReasons)
+		for i, m := range masks {
+			if m != 0 {
+				out[i].Reasons = rw.write(&out[i], m, &cut)
+			}
+		}
 	}
 	return out
 }
 
-// ckInfluenceReasons lists the common-practice thresholds one reading exceeds.
-func ckInfluenceReasons(pi PointInfluence, levHigh, levVery, fMedian, cookLow, dffitsCut float64, studentOK bool) []string {
-	var rs []string
+// The reasons Influence can give a reading, in the order they are listed.
+const (
+	ckBitLeverageOne = iota
+	ckBitVeryLeverage
+	ckBitLeverage
+	ckBitOutlier
+	ckBitLargeResid
+	ckBitVeryInfluence
+	ckBitInfluence
+	ckBitDFFITS
+)
+
+// ckInfluenceCuts are the common-practice thresholds of Influence, with
+// the text that shows each one.
+type ckInfluenceCuts struct {
+	levHigh, levVery float64
+	fMedian, cookLow float64
+	dffitsCut        float64
+	studentOK        bool
+	levHighTxt       string
+	levVeryTxt       string
+	fMedianTxt       string
+	cookLowTxt       string
+	dffitsTxt        string
+}
+
+func newInfluenceCuts(pf, nf, dfRes float64, studentOK bool) ckInfluenceCuts {
+	c := ckInfluenceCuts{
+		levHigh: 2 * pf / nf, levVery: 3 * pf / nf,
+		fMedian:   distuv.F{D1: pf, D2: dfRes}.Quantile(0.5),
+		cookLow:   4 / nf,
+		dffitsCut: 2 * math.Sqrt(pf/nf),
+		studentOK: studentOK,
+	}
+	c.levHighTxt = " > 2p/n = " + ckG3(c.levHigh) + " (its x is far from the others)"
+	c.levVeryTxt = " > 3p/n = " + ckG3(c.levVery) + " (its x is far from the others)"
+	c.fMedianTxt = " > " + ckG3(c.fMedian) + ", the median of F(p, n−p)"
+	c.cookLowTxt = " > 4/n = " + ckG3(c.cookLow)
+	c.dffitsTxt = " beyond ±2√(p/n) = ±" + ckG3(c.dffitsCut)
+	return c
+}
+
+// ckG3 formats v as fmt's %.3g does.
+func ckG3(v float64) string { return strconv.FormatFloat(v, 'g', 3, 64) }
+
+// mask returns the bits of the thresholds one reading exceeds (all but
+// leverage 1, which Influence sets itself).
+func (c *ckInfluenceCuts) mask(pi *PointInfluence) uint8 {
+	var m uint8
 	if pi.Leverage < 1-1e-12 {
 		switch {
-		case pi.Leverage > levVery:
-			rs = append(rs, fmt.Sprintf("%s: h = %.3g > 3p/n = %.3g (its x is far from the others)", ckReasonVeryLeverage, pi.Leverage, levVery))
-		case pi.Leverage > levHigh:
-			rs = append(rs, fmt.Sprintf("%s: h = %.3g > 2p/n = %.3g (its x is far from the others)", ckReasonLeverage, pi.Leverage, levHigh))
+		case pi.Leverage > c.levVery:
+			m |= 1 << ckBitVeryLeverage
+		case pi.Leverage > c.levHigh:
+			m |= 1 << ckBitLeverage
 		}
 	}
-	if studentOK {
+	if c.studentOK {
 		switch {
 		case pi.OutlierP < 0.05:
-			rs = append(rs, fmt.Sprintf("%s: studentized residual %.3g, Bonferroni p = %.3g < 0.05", ckReasonOutlier, pi.Studentized, pi.OutlierP))
+			m |= 1 << ckBitOutlier
 		case math.Abs(pi.Studentized) > 3:
-			rs = append(rs, fmt.Sprintf("%s: studentized residual %.3g beyond ±3", ckReasonLargeResid, pi.Studentized))
+			m |= 1 << ckBitLargeResid
 		}
 	}
 	switch {
-	case !studentOK:
+	case !c.studentOK:
 		// With n − p − 1 < 1 there is no scatter left to judge influence by.
-	case ckFinite(fMedian) && pi.CooksD > fMedian:
-		rs = append(rs, fmt.Sprintf("%s: Cook's distance %.3g > %.3g, the median of F(p, n−p)", ckReasonVeryInfluence, pi.CooksD, fMedian))
-	case pi.CooksD > cookLow:
-		rs = append(rs, fmt.Sprintf("%s: Cook's distance %.3g > 4/n = %.3g", ckReasonInfluence, pi.CooksD, cookLow))
+	case ckFinite(c.fMedian) && pi.CooksD > c.fMedian:
+		m |= 1 << ckBitVeryInfluence
+	case pi.CooksD > c.cookLow:
+		m |= 1 << ckBitInfluence
 	}
-	if studentOK && math.Abs(pi.DFFITS) > dffitsCut {
-		rs = append(rs, fmt.Sprintf("%s: DFFITS %.3g beyond ±2√(p/n) = ±%.3g", ckReasonDFFITS, pi.DFFITS, dffitsCut))
+	if c.studentOK && math.Abs(pi.DFFITS) > c.dffitsCut {
+		m |= 1 << ckBitDFFITS
 	}
-	return rs
+	return m
 }
 
-// ckLeverage returns the hat-matrix diagonal of the weighted straight-line
-// fit (see Influence). ok is false when x has no spread (all zero through
-// the origin).
-func ckLeverage(x, w []float64, origin bool) ([]float64, bool) {
-	n := len(x)
-	h := make([]float64, n)
+// ckReasonWriter writes reason texts one after another into one buffer
+// and hands out each as a substring, so a long record costs a handful of
+// allocations; slab holds the strings of all readings.
+type ckReasonWriter struct {
+	sb   strings.Builder
+	slab []string
+	num  [32]byte
+}
+
+func newReasonWriter(nReasons int) *ckReasonWriter {
+	rw := &ckReasonWriter{slab: make([]string, 0, nReasons)}
+	rw.sb.Grow(nReasons * 96)
+	return rw
+}
+
+func (rw *ckReasonWriter) g3(v float64) {
+	rw.sb.Write(strconv.AppendFloat(rw.num[:0], v, 'g', 3, 64))
+}
+
+// write returns the reasons of one reading for the bits m. The wording of
+// each is part of the report.
+func (rw *ckReasonWriter) write(pi *PointInfluence, m uint8, c *ckInfluenceCuts) []string {
+	first := len(rw.slab)
+	for b := range 8 {
+		if m&(1<<b) == 0 {
+			continue
+		}
+		start := rw.sb.Len()
+		sb := &rw.sb
+		switch b {
+		case ckBitLeverageOne:
+			sb.WriteString(ckReasonLeverageOne + ": this reading alone fixes the line at its x, so its residual says nothing")
+		case ckBitVeryLeverage:
+			sb.WriteString(ckReasonVeryLeverage + ": h = ")
+			rw.g3(pi.Leverage)
+			sb.WriteString(c.levVeryTxt)
+		case ckBitLeverage:
+			sb.WriteString(ckReasonLeverage + ": h = ")
+			rw.g3(pi.Leverage)
+			sb.WriteString(c.levHighTxt)
+		case ckBitOutlier:
+			sb.WriteString(ckReasonOutlier + ": studentized residual ")
+			rw.g3(pi.Studentized)
+			sb.WriteString(", Bonferroni p = ")
+			rw.g3(pi.OutlierP)
+			sb.WriteString(" < 0.05")
+		case ckBitLargeResid:
+			sb.WriteString(ckReasonLargeResid + ": studentized residual ")
+			rw.g3(pi.Studentized)
+			sb.WriteString(" beyond ±3")
+		case ckBitVeryInfluence:
+			sb.WriteString(ckReasonVeryInfluence + ": Cook's distance ")
+			rw.g3(pi.CooksD)
+			sb.WriteString(c.fMedianTxt)
+		case ckBitInfluence:
+			sb.WriteString(ckReasonInfluence + ": Cook's distance ")
+			rw.g3(pi.CooksD)
+			sb.WriteString(c.cookLowTxt)
+		case ckBitDFFITS:
+			sb.WriteString(ckReasonDFFITS + ": DFFITS ")
+			rw.g3(pi.DFFITS)
+			sb.WriteString(c.dffitsTxt)
+		}
+		// Builder never changes bytes already written, so the substring
+		// stays valid (and, within the size grown for, shares the buffer).
+		rw.slab = append(rw.slab, rw.sb.String()[start:])
+	}
+	return rw.slab[first:len(rw.slab):len(rw.slab)]
+}
+
+// ckLev gives the hat-matrix diagonal of the weighted straight-line fit
+// (see Influence) at any reading, from a few sums.
+type ckLev struct {
+	x, w     []float64
+	origin   bool
+	big, sxx float64 // origin: x scaled by its largest magnitude
+	sw, mx   float64
+}
+
+// ckNewLeverage takes the sums behind the leverages; ok is false when x has
+// no spread (all zero through the origin).
+func ckNewLeverage(x, w []float64, origin bool) (ckLev, bool) {
+	l := ckLev{x: x, w: w, origin: origin}
 	if origin {
-		var big float64
 		for _, v := range x {
-			big = math.Max(big, math.Abs(v))
+			l.big = max(l.big, math.Abs(v))
 		}
-		if big == 0 {
-			return nil, false
-		}
-		var sxx float64
-		for i, v := range x {
-			v /= big
-			sxx += ckW(w, i) * v * v
+		if l.big == 0 {
+			return l, false
 		}
 		for i, v := range x {
-			v /= big
-			h[i] = ckW(w, i) * v * v / sxx
+			v /= l.big
+			l.sxx += ckW(w, i) * v * v
 		}
-		return h, sxx > 0 && ckFinite(sxx)
-	}
-	var sw, mx float64
-	for i, v := range x {
-		sw += ckW(w, i)
-		mx += ckW(w, i) * v
-	}
-	mx /= sw
-	var sxx float64
-	for i, v := range x {
-		d := v - mx
-		sxx += ckW(w, i) * d * d
-	}
-	if !(sxx > 0) || !ckFinite(sxx) || !ckFinite(sw) {
-		return nil, false
+		return l, l.sxx > 0 && ckFinite(l.sxx)
 	}
 	for i, v := range x {
-		d := v - mx
-		h[i] = ckW(w, i) * (1/sw + d*d/sxx)
+		l.sw += ckW(w, i)
+		l.mx += ckW(w, i) * v
 	}
-	return h, true
+	l.mx /= l.sw
+	for i, v := range x {
+		d := v - l.mx
+		l.sxx += ckW(w, i) * d * d
+	}
+	return l, l.sxx > 0 && ckFinite(l.sxx) && ckFinite(l.sw)
+}
+
+// at is the leverage h_i.
+func (l *ckLev) at(i int) float64 {
+	v := l.x[i]
+	if l.origin {
+		v /= l.big
+		return ckW(l.w, i) * v * v / l.sxx
+	}
+	d := v - l.mx
+	return ckW(l.w, i) * (1/l.sw + d*d/l.sxx)
 }

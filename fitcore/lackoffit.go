@@ -1,9 +1,6 @@
 package fitcore
 
-import (
-	"fmt"
-	"sort"
-)
+import "fmt"
 
 // LackOfFit is the lack-of-fit F test of a straight line against pure error,
 // possible when some x values are repeated. With m distinct x levels, group
@@ -32,15 +29,27 @@ func LackOfFit(x, y, w []float64, origin bool) *Check {
 		c := ckNA(name, s)
 		return &c
 	}
+	var b ckSortBuf
+	return lackOfFit(x, y, w, origin, b.order(x))
+}
+
+// lackOfFit is LackOfFit with the positions of x in ascending order given
+// (equal values in any order): idx[k] is the position of the k-th smallest
+// x, and nil idx means x is in ascending order already. Any order that
+// sorts x non-decreasingly will do, so the order of x also serves for x
+// scaled by a power of two or x on a log scale.
+func lackOfFit(x, y, w []float64, origin bool, idx []int32) *Check {
+	const name = "Lack of fit"
 	n := len(x)
-	idx := make([]int, n)
-	for i := range idx {
-		idx[i] = i
+	at := func(k int) int {
+		if idx == nil {
+			return k
+		}
+		return int(idx[k])
 	}
-	sort.SliceStable(idx, func(a, b int) bool { return x[idx[a]] < x[idx[b]] })
 	m := 0
-	for k := range idx {
-		if k == 0 || x[idx[k]] != x[idx[k-1]] {
+	for k := range n {
+		if k == 0 || x[at(k)] != x[at(k-1)] {
 			m++
 		}
 	}
@@ -52,7 +61,7 @@ func LackOfFit(x, y, w []float64, origin bool) *Check {
 	if dfPE <= 0 || dfLOF <= 0 {
 		return nil
 	}
-	b0, b1, _, ok := ckLine(x, y, w, origin)
+	b0, b1, ok := ckLineCoef(x, y, w, origin)
 	if !ok {
 		c := ckNA(name, "All x values are the same, so no line can be fitted.")
 		return &c
@@ -60,22 +69,24 @@ func LackOfFit(x, y, w []float64, origin bool) *Check {
 	var ssPE, ssLOF, ssY float64
 	for start := 0; start < n; {
 		end := start + 1
-		for end < n && x[idx[end]] == x[idx[start]] {
+		for end < n && x[at(end)] == x[at(start)] {
 			end++
 		}
 		var sw, sy float64
-		for _, i := range idx[start:end] {
+		for k := start; k < end; k++ {
+			i := at(k)
 			wi := ckW(w, i)
 			sw += wi
 			sy += wi * y[i]
 		}
 		mean := sy / sw
-		for _, i := range idx[start:end] {
+		for k := start; k < end; k++ {
+			i := at(k)
 			d := y[i] - mean
 			ssPE += ckW(w, i) * d * d
 			ssY += ckW(w, i) * y[i] * y[i]
 		}
-		d := mean - (b0 + b1*x[idx[start]])
+		d := mean - (b0 + b1*x[at(start)])
 		ssLOF += sw * d * d
 		start = end
 	}

@@ -26,9 +26,16 @@ import (
 // reason when fewer than 2 non-zero residuals of each sign remain, or for
 // non-finite input. Verdict (common practice): p < 0.01 fails, p < 0.05 warns.
 func RunsTest(resid []float64) Check {
+	return runsTest(resid, false)
+}
+
+// runsTest is RunsTest; valid says resid is already known to be finite.
+func runsTest(resid []float64, valid bool) Check {
 	const name = "Runs"
-	if s := ckFirstNonFinite("residual", resid); s != "" {
-		return ckNA(name, s)
+	if !valid {
+		if s := ckFirstNonFinite("residual", resid); s != "" {
+			return ckNA(name, s)
+		}
 	}
 	var npos, nneg, runs float64
 	last := 0

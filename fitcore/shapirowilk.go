@@ -44,35 +44,67 @@ const swBlock = 5000
 // −2 Σ ln p_j ~ χ²(2k) (Fisher, Statistical Methods for Research Workers,
 // 1932, §21.1).
 //
-// The cost is O(n log n) (sorting). ShapiroWilk returns an error for fewer
+// The cost is O(n log n) at most (sorting; a radix sort for large n, see
+// sortutil.go). ShapiroWilk returns an error for fewer
 // than 3 values, non-finite values, or values that are all the same.
 func ShapiroWilk(x []float64) (w, p float64, err error) {
+	var b ckSortBuf
+	return shapiroWilk(x, &b, false)
+}
+
+// shapiroWilk is ShapiroWilk with its work space in b. Groups of equal
+// size share their coefficients.
+// valid says x is already known to be finite.
+func shapiroWilk(x []float64, b *ckSortBuf, valid bool) (w, p float64, err error) {
 	n := len(x)
 	if n < 3 {
 		return 0, 0, errSWTooFew
 	}
-	for i, v := range x {
-		if !ckFinite(v) {
+	for i := 0; i < n && !valid; i++ {
+		if v := x[i]; !ckFinite(v) {
 			return 0, 0, fmt.Errorf("value %d (%v): %w", i+1, v, errSWNotFinite)
 		}
 	}
-	s := ckSorted(x)
-	w, p, ok := swSorted(s)
+	if n <= swBlock {
+		s := b.sortedCopy(x)
+		w, p, ok := swSorted(s, swCoefficients(n))
+		if !ok {
+			return 0, 0, errSWConstant
+		}
+		return w, p, nil
+	}
+	s := b.sortedCopy(x)
+	w, _, ok := swSorted(s, swCoefficients(n))
 	if !ok {
 		return 0, 0, errSWConstant
 	}
-	if n <= swBlock {
-		return w, p, nil
-	}
 	k := (n + swBlock - 1) / swBlock
+	// Group j holds the values at positions j, j+k, j+2k, …: n/k of them,
+	// one more for j < n mod k. The sorted sample is no longer needed, so
+	// its space holds one group at a time.
+	small := n / k
+	var aSmall, aBig []float64
 	var fisher float64
 	groups := 0
-	for j := 0; j < k; j++ {
-		g := make([]float64, 0, n/k+1)
+	for j := range k {
+		g := s[:0]
 		for i := j; i < n; i += k {
 			g = append(g, x[i])
 		}
-		_, pj, ok := swSorted(ckSorted(g))
+		b.sortInPlace(g)
+		var a []float64
+		if len(g) == small {
+			if aSmall == nil {
+				aSmall = swCoefficients(small)
+			}
+			a = aSmall
+		} else {
+			if aBig == nil {
+				aBig = swCoefficients(len(g))
+			}
+			a = aBig
+		}
+		_, pj, ok := swSorted(g, a)
 		if !ok {
 			// A group with no spread: treat it as uninformative.
 			pj = 1
@@ -83,16 +115,16 @@ func ShapiroWilk(x []float64) (w, p float64, err error) {
 	return w, ckChi2SF(fisher, float64(2*groups)), nil
 }
 
-// swSorted computes W and Royston's p for sorted s (3 ≤ n). ok is false when
-// s has no spread. Following AS R94, 1 − W is computed directly as
-// 1 − corr²(a, x) to keep its precision when W is close to 1.
-func swSorted(s []float64) (w, p float64, ok bool) {
+// swSorted computes W and Royston's p for sorted s (3 ≤ n) with a =
+// swCoefficients(len(s)). ok is false when s has no spread. Following AS
+// R94, 1 − W is computed directly as 1 − corr²(a, x) to keep its precision
+// when W is close to 1.
+func swSorted(s, a []float64) (w, p float64, ok bool) {
 	n := len(s)
 	rng := s[n-1] - s[0]
 	if !(rng > 0) || !ckFinite(rng) {
 		return 0, 0, false
 	}
-	a := swCoefficients(n)
 	// Centre at the middle value and scale by the range (as AS R94 does), then
 	// take the mean in a second pass.
 	mid := s[n/2]
@@ -139,7 +171,7 @@ func swCoefficients(n int) []float64 {
 	c1 := []float64{0, 0.221157, -0.147981, -2.07119, 4.434685, -2.706056}
 	c2 := []float64{0, 0.042981, -0.293762, -1.752461, 5.682633, -3.582633}
 	an := float64(n)
-	m := make([]float64, half)
+	m := a // m_i is computed in place and turned into a_i below
 	var summ2 float64
 	for i := 0; i < half; i++ {
 		m[i] = distuv.UnitNormal.Quantile((float64(i+1) - 0.375) / (an + 0.25))
@@ -208,14 +240,23 @@ func swPoly(c []float64, x float64) float64 {
 // With more than 5000 residuals the Message says how the p-value was
 // obtained (see ShapiroWilk). Errors become an NA check with the reason.
 func ShapiroWilkCheck(resid []float64) Check {
+	var b ckSortBuf
+	return shapiroWilkCheck(resid, &b, false)
+}
+
+// shapiroWilkCheck is ShapiroWilkCheck with its work space in b; valid
+// says resid is already known to be finite.
+func shapiroWilkCheck(resid []float64, b *ckSortBuf, valid bool) Check {
 	const name = "Shapiro–Wilk"
-	if s := ckFirstNonFinite("residual", resid); s != "" {
-		return ckNA(name, s)
+	if !valid {
+		if s := ckFirstNonFinite("residual", resid); s != "" {
+			return ckNA(name, s)
+		}
 	}
 	if len(resid) < 3 {
 		return ckNA(name, fmt.Sprintf("The Shapiro–Wilk check needs at least 3 readings; there are %d.", len(resid)))
 	}
-	w, p, err := ShapiroWilk(resid)
+	w, p, err := shapiroWilk(resid, b, true)
 	if err != nil {
 		return ckNA(name, "The residuals are all the same (for example all zero), so their shape cannot be judged.")
 	}

@@ -18,5 +18,5 @@ package fitcore
 // whose squares are all equal. Verdict (common practice): p < 0.01 fails,
 // p < 0.05 warns.
 func White(x, resid []float64) Check {
-	return ckSpread("White", x, resid, true)
+	return ckSpread("White", x, resid, true, nil)
 }

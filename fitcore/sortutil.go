@@ -1,0 +1,248 @@
+package fitcore
+
+import (
+	"math"
+	"slices"
+)
+
+// Sorting helpers for the checks. Large samples are sorted by a least
+// significant digit radix sort on order-preserving integer keys (Knuth, The
+// Art of Computer Programming, vol. 3, §5.2.5): six stable counting passes of
+// 11 bits over the 64-bit keys, skipping a pass when every key has the same
+// digit there, so the cost is O(n) with a small constant and never worse than
+// O(n log n). Small samples use slices.Sort.
+
+// ckRadixMin is the sample size from which the radix sort is used; below it
+// the comparison sort is faster.
+const ckRadixMin = 512
+
+const (
+	ckRadixBits   = 11
+	ckRadixSize   = 1 << ckRadixBits
+	ckRadixPasses = 6 // ⌈64/11⌉; ckRadixCount is written out for six
+)
+
+// ckSortKey maps a float64 to a uint64 whose unsigned order is the numeric
+// order of the (non-NaN) floats; −0 sorts just before +0.
+func ckSortKey(v float64) uint64 {
+	b := math.Float64bits(v)
+	if b>>63 != 0 {
+		return ^b
+	}
+	return b | 1<<63
+}
+
+// ckFromKey inverts ckSortKey.
+func ckFromKey(k uint64) float64 {
+	if k>>63 != 0 {
+		return math.Float64frombits(k &^ (1 << 63))
+	}
+	return math.Float64frombits(^k)
+}
+
+// ckSortBuf holds the work space of the sorts, so that one analysis (and
+// the refits of its advice) allocates it once.
+type ckSortBuf struct {
+	k1, k2 []uint64
+	p1, p2 []ckKeyIdx
+	idx    []int32
+	f      []float64 // sorted values
+}
+
+func ckGrowU64(b []uint64, n int) []uint64 {
+	if cap(b) < n {
+		return make([]uint64, n)
+	}
+	return b[:n]
+}
+
+func ckGrowI32(b []int32, n int) []int32 {
+	if cap(b) < n {
+		return make([]int32, n)
+	}
+	return b[:n]
+}
+
+func ckGrowF64(b []float64, n int) []float64 {
+	if cap(b) < n {
+		return make([]float64, n)
+	}
+	return b[:n]
+}
+
+// ckRadixCount counts the six digits of k (written out: this loop is the
+// hot spot of the sort).
+func ckRadixCount(cnt *[ckRadixPasses][ckRadixSize]int32, k uint64) {
+	const m = ckRadixSize - 1
+	cnt[0][k&m]++
+	cnt[1][(k>>ckRadixBits)&m]++
+	cnt[2][(k>>(2*ckRadixBits))&m]++
+	cnt[3][(k>>(3*ckRadixBits))&m]++
+	cnt[4][(k>>(4*ckRadixBits))&m]++
+	cnt[5][(k>>(5*ckRadixBits))&m]++
+}
+
+// ckRadixOffsets turns the per-digit counts of n keys into starting
+// offsets and says which passes are needed (a pass where every key has the
+// digit of the key k0 would move nothing).
+func ckRadixOffsets(k0 uint64, n int32, cnt *[ckRadixPasses][ckRadixSize]int32) (need [ckRadixPasses]bool) {
+	for p := range ckRadixPasses {
+		d := (k0 >> (p * ckRadixBits)) & (ckRadixSize - 1)
+		need[p] = cnt[p][d] != n
+		var sum int32
+		for d := range cnt[p] {
+			c := cnt[p][d]
+			cnt[p][d] = sum
+			sum += c
+		}
+	}
+	return need
+}
+
+// ckRadixKeys sorts keys ascending using tmp (same length) as work space
+// and returns the slice that holds the result (keys or tmp).
+func ckRadixKeys(keys, tmp []uint64) []uint64 {
+	var cnt [ckRadixPasses][ckRadixSize]int32
+	for _, k := range keys {
+		ckRadixCount(&cnt, k)
+	}
+	need := ckRadixOffsets(keys[0], int32(len(keys)), &cnt)
+	src, dst := keys, tmp
+	for p := range ckRadixPasses {
+		if !need[p] {
+			continue
+		}
+		c := &cnt[p]
+		sh := uint(p * ckRadixBits)
+		for _, k := range src {
+			d := (k >> sh) & (ckRadixSize - 1)
+			dst[c[d]] = k
+			c[d]++
+		}
+		src, dst = dst, src
+	}
+	return src
+}
+
+// ckKeyIdx is a sort key with the position of its value.
+type ckKeyIdx struct {
+	k uint64
+	i int32
+}
+
+// ckRadixPairs sorts p ascending by key, stable (equal keys keep their
+// order), with tmp (same length) as work space, and returns the slice that
+// holds the result (p or tmp).
+func ckRadixPairs(p, tmp []ckKeyIdx) []ckKeyIdx {
+	var cnt [ckRadixPasses][ckRadixSize]int32
+	for _, e := range p {
+		ckRadixCount(&cnt, e.k)
+	}
+	need := ckRadixOffsets(p[0].k, int32(len(p)), &cnt)
+	src, dst := p, tmp
+	for q := range ckRadixPasses {
+		if !need[q] {
+			continue
+		}
+		c := &cnt[q]
+		sh := uint(q * ckRadixBits)
+		for _, e := range src {
+			d := (e.k >> sh) & (ckRadixSize - 1)
+			dst[c[d]] = e
+			c[d]++
+		}
+		src, dst = dst, src
+	}
+	return src
+}
+
+// sortedCopy returns the values of v sorted ascending in a slice owned by b
+// (valid until the next use of b). v must hold no NaN.
+func (b *ckSortBuf) sortedCopy(v []float64) []float64 {
+	n := len(v)
+	b.f = ckGrowF64(b.f, n)
+	out := b.f
+	if n < ckRadixMin {
+		copy(out, v)
+		slices.Sort(out)
+		return out
+	}
+	b.k1 = ckGrowU64(b.k1, n)
+	b.k2 = ckGrowU64(b.k2, n)
+	for i, a := range v {
+		b.k1[i] = ckSortKey(a)
+	}
+	for i, k := range ckRadixKeys(b.k1, b.k2) {
+		out[i] = ckFromKey(k)
+	}
+	return out
+}
+
+// sortInPlace sorts v ascending, using b's key space. v must hold no NaN.
+func (b *ckSortBuf) sortInPlace(v []float64) {
+	n := len(v)
+	if n < ckRadixMin {
+		slices.Sort(v)
+		return
+	}
+	b.k1 = ckGrowU64(b.k1, n)
+	b.k2 = ckGrowU64(b.k2, n)
+	for i, a := range v {
+		b.k1[i] = ckSortKey(a)
+	}
+	for i, k := range ckRadixKeys(b.k1, b.k2) {
+		v[i] = ckFromKey(k)
+	}
+}
+
+// ckAscending says whether v is already in ascending order (−0 before +0).
+func ckAscending(v []float64) bool {
+	for i := 1; i < len(v); i++ {
+		if ckSortKey(v[i-1]) > ckSortKey(v[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// order returns the positions of v in ascending order of value, equal
+// values in order of position, in a slice owned by b (valid until the next
+// use of b). v must hold no NaN and len(v) < 2³¹.
+func (b *ckSortBuf) order(v []float64) []int32 {
+	n := len(v)
+	b.idx = ckGrowI32(b.idx, n)
+	if ckAscending(v) {
+		for i := range b.idx {
+			b.idx[i] = int32(i)
+		}
+		return b.idx
+	}
+	if n < ckRadixMin {
+		idx := b.idx
+		for i := range idx {
+			idx[i] = int32(i)
+		}
+		slices.SortStableFunc(idx, func(p, q int32) int {
+			switch kp, kq := ckSortKey(v[p]), ckSortKey(v[q]); {
+			case kp < kq:
+				return -1
+			case kp > kq:
+				return 1
+			}
+			return 0
+		})
+		return idx
+	}
+	if cap(b.p1) < n {
+		b.p1 = make([]ckKeyIdx, n)
+		b.p2 = make([]ckKeyIdx, n)
+	}
+	p1, p2 := b.p1[:n], b.p2[:n]
+	for i, a := range v {
+		p1[i] = ckKeyIdx{ckSortKey(a), int32(i)}
+	}
+	for j, e := range ckRadixPairs(p1, p2) {
+		b.idx[j] = e.i
+	}
+	return b.idx
+}
