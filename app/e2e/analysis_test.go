@@ -418,6 +418,9 @@ func TestAnalysisInfluence(t *testing.T) {
 	}
 	anClick(t, b, "influence-jump-6")
 	waitFor(t, b, "the focus on row 6", `document.activeElement && document.activeElement.dataset.testid === "x-input-5"`, 5*time.Second)
+	if note := eval[string](t, b, `document.querySelector('[data-testid="influence-rows-note"]')?.textContent || ""`); !strings.Contains(note, "reading 5 is row 6") {
+		t.Errorf("the note mapping readings to rows says %q, want it to say reading 5 is row 6", note)
+	}
 	if !strings.Contains(eval[string](t, b, `document.querySelector('[data-testid="check-influence-message"]').textContent`), "Reading") {
 		t.Error("the influence sentence does not name the reading")
 	}

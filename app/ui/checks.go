@@ -203,7 +203,15 @@ func (c *Shell) anInfluenceRow(a fitcore.Assumption) app.UI {
 				OnClick(c.anOn("jump:"+strconv.Itoa(row), func(ctx app.Context, e app.Event) { c.anJump(ctx, row) })))
 		}
 		if renumbered {
-			extra = append(extra, app.P().Class("an-hint").Text("Readings are counted among the usable pairs; the buttons go to the row in the readings table."))
+			var parts []string
+			for i, p := range flagged {
+				if i == 5 {
+					break
+				}
+				parts = append(parts, "reading "+strconv.Itoa(p.Index+1)+" is row "+strconv.Itoa(c.anRowOf(p.Index)+1))
+			}
+			extra = append(extra, app.P().Class("an-hint").DataSet("testid", "influence-rows-note").Text(
+				"Readings are counted among the usable pairs (blank and excluded rows left out): "+strings.Join(parts, ", ")+" of the table."))
 		}
 		extra = append(extra, app.Div().Class("an-jumps").DataSet("testid", "influence-rows").Body(btns...))
 	}
