@@ -301,6 +301,24 @@ func TestAnalysisScreens(t *testing.T) {
 	waitFor(t, b, "the line through zero", fmt.Sprintf(`document.querySelector('[data-testid="result-slope"]')?.dataset.value === %q`, strconv.FormatFloat(origin.Slope.Estimate, 'g', -1, 64)), 10*time.Second)
 	screenshot(t, b, "analysis-settings-tablet")
 
+	// Weighted (1/ŷ² by default, then 1/x², which the blank standard at
+	// x = 0 cannot take: fitcore's sentence is shown and the settings stay
+	// reachable), then Deming with a variance ratio.
+	anClick(t, b, "settings-model-weighted")
+	wls := anAnalyze(t, x, y, fitcore.Options{Model: fitcore.ModelWeighted, Weights: fitcore.WeightsFitted2, XUncertainty: 2, Level: 0.99})
+	waitFor(t, b, "the weighted line", fmt.Sprintf(`document.querySelector('[data-testid="result-slope"]')?.dataset.value === %q`, strconv.FormatFloat(wls.Slope.Estimate, 'g', -1, 64)), 10*time.Second)
+	anClick(t, b, "settings-weights-x2")
+	if _, err := fitcore.Analyze(x, y, fitcore.Options{Model: fitcore.ModelWeighted, Weights: fitcore.WeightsX2}); err == nil {
+		t.Fatal("fitcore takes 1/x² weights with a reading at x = 0")
+	}
+	waitFor(t, b, "the sentence instead of a line", `!!document.querySelector('[data-testid="result-message"]') && !!document.querySelector('[data-testid="settings-model-deming"]')`, 10*time.Second)
+	anClick(t, b, "settings-model-deming")
+	waitFor(t, b, "the variance ratio field", `!!document.querySelector('[data-testid="settings-variance-ratio"]')`, 10*time.Second)
+	anSet(t, b, "settings-variance-ratio", "4", "change")
+	dem := anAnalyze(t, x, y, fitcore.Options{Model: fitcore.ModelDeming, VarianceRatio: 4, XUncertainty: 2, Level: 0.99})
+	waitFor(t, b, "the Deming line", fmt.Sprintf(`document.querySelector('[data-testid="result-slope"]')?.dataset.value === %q`, strconv.FormatFloat(dem.Slope.Estimate, 'g', -1, 64)), 10*time.Second)
+	anExpect(t, b, "result-intercept", "data-value", dem.Intercept.Estimate)
+
 	// Phone size.
 	bp := newBrowser(t, phone)
 	bp.do(t, chromedp.Navigate(srv.URL))
@@ -525,6 +543,24 @@ func TestAnalysisSpeed(t *testing.T) {
 		qt = append(qt, ms)
 	}
 	t.Logf("unknown's readings typed → x̂ shown at 1,000 readings (ms): %.1f", qt)
+	// A tap that changes only what is shown (no analysis): the cost of
+	// rendering the page at 1,000 readings, for comparison.
+	var rt []float64
+	for i := 0; i < 4; i++ {
+		ms := eval[float64](t, b, `new Promise((resolve, reject) => {
+			const btn = document.querySelector('[data-testid="check-spread-more"]');
+			const was = btn.getAttribute('aria-expanded');
+			const t0 = performance.now();
+			const obs = new MutationObserver(() => {
+				if (document.querySelector('[data-testid="check-spread-more"]').getAttribute('aria-expanded') !== was) { obs.disconnect(); resolve(performance.now() - t0); }
+			});
+			obs.observe(document.body, { subtree: true, attributes: true, childList: true });
+			setTimeout(() => { obs.disconnect(); reject(new Error('no update within 5 s')); }, 5000);
+			btn.click();
+		})`)
+		rt = append(rt, ms)
+	}
+	t.Logf("tap that only re-renders (no analysis) at 1,000 readings (ms): %.1f", rt)
 	pairs[0][1] = fmt.Sprintf("%.3f", 2.1+0.01*7)
 	x, y = anParsed(t, pairs)
 	rep = anAnalyze(t, x, y, fitcore.Options{})

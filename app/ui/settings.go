@@ -250,7 +250,9 @@ func (c *Shell) renderSettings() app.UI {
 					switch m.m {
 					case fitcore.ModelWeighted:
 						if s.Weights == fitcore.WeightsNone || s.Weights == fitcore.WeightsGiven {
-							s.Weights = fitcore.WeightsX2
+							// 1/ŷ² needs no x other than zero, so a blank
+							// standard at x = 0 does not stop the fit.
+							s.Weights = fitcore.WeightsFitted2
 						}
 					default:
 						s.Weights = fitcore.WeightsNone
