@@ -293,3 +293,31 @@ func (c *Shell) anOriginalUnits(rep *fitcore.Report) app.UI {
 		),
 	)
 }
+
+// anEquation writes the fitted line on the scale it was fitted on
+// ("ln y = a + b · ln x" for a log–log fit; "y = b · x" through zero).
+func (c *Shell) anEquation(rep *fitcore.Report, sig int) string {
+	sc := c.anScaleOf(rep)
+	lhs, x := "y", "x"
+	if sc.transformed {
+		lhs = sc.yName
+		if rep.Transform == fitcore.TransformLogLog {
+			x = "ln x"
+		}
+	}
+	b := numfmt.Sig(rep.Slope.Estimate, sig) + " · " + x
+	if rep.Model == fitcore.ModelOrigin {
+		return lhs + " = " + b
+	}
+	return lhs + " = " + numfmt.Sig(rep.Intercept.Estimate, sig) + " + " + b
+}
+
+// anHeadlineUnits gives the units of the headline slope and of y-scale
+// figures: on a transformed scale those of the fitted scale, not of the
+// readings.
+func (c *Shell) anHeadlineUnits(rep *fitcore.Report, slope, y string) (string, string) {
+	if sc := c.anScaleOf(rep); sc.transformed {
+		return sc.slope, sc.y
+	}
+	return slope, y
+}

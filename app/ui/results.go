@@ -24,12 +24,13 @@ func (c *Shell) renderLine() app.UI {
 	if xu != "" || yu != "" {
 		slopeUnit = unitOr(yu, "y") + " per " + unitOr(xu, "x")
 	}
+	slopeUnit, yu = c.anHeadlineUnits(rep, slopeUnit, yu)
 	return app.Section().Class("pl-card pl-line").Attr("aria-label", "Line").Body(
 		app.H2().Text("Line"),
 		app.If(c.view.stale, func() app.UI {
 			return app.P().Class("pl-stale").DataSet("testid", "result-stale").Text("Updating after your last change…")
 		}),
-		app.P().Class("pl-equation").Text("y = "+numfmt.Sig(rep.Intercept.Estimate, sig)+" + "+numfmt.Sig(rep.Slope.Estimate, sig)+" · x"),
+		app.P().Class("pl-equation").Text(c.anEquation(rep, sig)),
 		app.Dl().Class("pl-figures").Body(
 			figure("result-n", "Pairs used (n)", float64(rep.N), itoa(rep.N), ""),
 			figure("result-slope", "Slope", rep.Slope.Estimate, numfmt.Sig(rep.Slope.Estimate, sig), slopeUnit+"  ± "+numfmt.Sig(rep.Slope.SE, 2)+" (SE)"),
