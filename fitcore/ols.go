@@ -105,12 +105,19 @@ func fitLS(x, y, w []float64, origin bool) (*lineFit, error) {
 
 // fitLine is fitLS writing into f (no allocation when unweighted).
 func fitLine(f *lineFit, x, y, w []float64, origin bool) error {
+	// Few unweighted readings: one block, so the compensated sums reduce to
+	// the plain ones and the same arithmetic runs without the block
+	// machinery.
+	if w == nil && len(x) <= lnBlock {
+		if done, err := fitSmall(f, x, y, origin); done {
+			return err
+		}
+	} else if fitScaled(f, x, y, w, origin, 1, 1, 1) && f.safe() {
+		return f.finish(x, y)
+	}
 	// Fast path: unscaled. Ordinary readings keep their exact values; only
 	// when a sum overflows or a sum of squares leaves the safe range are
 	// the readings scaled by powers of two and the sums taken again.
-	if fitScaled(f, x, y, w, origin, 1, 1, 1) && f.safe() {
-		return f.finish(x, y)
-	}
 	var mx, my, mw float64
 	for i := range x {
 		mx = max(mx, math.Abs(x[i]))
@@ -128,6 +135,99 @@ func fitLine(f *lineFit, x, y, w []float64, origin bool) error {
 		return ErrNoSpreadInX
 	}
 	return f.finish(x, y)
+}
+
+// fitSmall is fitLine for unweighted readings that fit in one block (n ≤
+// lnBlock), where the compensated sums reduce to the plain ones (a
+// compensated sum of one block is that block's sum, +0 for −0): the same
+// arithmetic as fitScaled, safe, finish and refine, in the same order, kept
+// in local variables. done is false when the readings need scaling (f is
+// then to be fitted by the general path).
+func fitSmall(f *lineFit, x, y []float64, origin bool) (done bool, err error) {
+	n := len(x)
+	y = y[:n]
+	sw := float64(n)
+	var xbar, ybar float64
+	if !origin {
+		var bx, by float64
+		for i, xi := range x {
+			bx += xi
+			by += y[i]
+		}
+		xbar, ybar = (bx+0)/sw, (by+0)/sw
+	}
+	var bx, by, bxx, byy, bxy float64
+	for i, xi := range x {
+		dx := xi - xbar
+		dy := y[i] - ybar
+		bx += dx
+		by += dy
+		bxx += dx * dx
+		byy += dy * dy
+		bxy += dx * dy
+	}
+	sxx, syy, sxy := bxx+0, byy+0, bxy+0
+	if !origin {
+		ex, ey := bx+0, by+0
+		sxx -= ex * ex / sw
+		syy -= ey * ey / sw
+		sxy -= ex * ey / sw
+		xbar += ex / sw
+		ybar += ey / sw
+	}
+	// safe
+	const lo, hi = 0x1p-900, 0x1p900
+	if !(sxx > lo && sxx < hi && (syy == 0 || (syy > lo && syy < hi)) && isFiniteNum(sxy) &&
+		isFiniteNum(xbar) && isFiniteNum(ybar) && math.Abs(xbar) < hi && math.Abs(ybar) < hi) {
+		return false, nil
+	}
+	// finish and refine
+	b1 := sxy / sxx
+	xc, yc := xbar, ybar
+	b0g := 0.0
+	if !origin {
+		b0g = math.FMA(-b1, xc, yc)
+	} else {
+		xc, yc = 0, 0
+	}
+	var be, bde, bee, bd float64
+	for i, xi := range x {
+		dx := xi - xc
+		r := math.FMA(-b1, dx, y[i]-yc)
+		be += r
+		bde += dx * r
+		bee += r * r
+		bd += dx
+	}
+	se, sde, see, sd := be+0, bde+0, bee+0, bd+0
+	var b0, a, sse, df float64
+	a = ybar
+	if origin {
+		rho := sde
+		delta := rho / sxx
+		b1 += delta
+		sse = max(see-delta*rho, 0)
+		df = float64(n - 1)
+	} else {
+		me, md := se/sw, sd/sw
+		rho := sde - sw*md*me
+		delta := rho / sxx
+		b1 += delta
+		b0 = b0g + me - delta*(xc+md)
+		a = yc + me - delta*md
+		sse = max(see-sw*me*me-delta*rho, 0)
+		df = float64(n - 2)
+	}
+	var s2, va float64
+	if df > 0 {
+		s2 = sse / df
+	}
+	if !origin {
+		va = s2 / sw
+	}
+	*f = lineFit{n: n, origin: origin, kx: 1, ky: 1, cw: 1, xc: xbar, a: a, b1: b1, b0: b0, sw: sw,
+		sxx: sxx, syy: syy, sxy: sxy, sse: sse, df: df, va: va, v1: s2 / sxx}
+	return true, nil
 }
 
 // safe says whether the unscaled sums stayed in the range where their
