@@ -392,6 +392,13 @@ func TestAnalysisAdvice(t *testing.T) {
 	b.do(t, chromedp.Reload())
 	waitFor(t, b, "the app after reload", appReady+` && document.querySelector('[data-testid="result-slope"]')`, 30*time.Second)
 	anExpect(t, b, "result-slope", "data-value", tr.Slope.Estimate)
+	// The change is in the session's history (shown in the report).
+	anClick(t, b, "report-open")
+	waitFor(t, b, "the report", `!!document.querySelector('[data-testid="report-view"] .pl-rt-hist')`, 20*time.Second)
+	if hist := eval[string](t, b, `document.querySelector('[data-testid="report-view"] .pl-rt-hist').textContent`); !strings.Contains(hist, `"transform":"`+string(remedy)+`"`) {
+		t.Errorf("the history does not record the applied %s: %q", remedy, hist)
+	}
+	anClick(t, b, "report-close")
 
 	anClick(t, b, "advice-revert")
 	waitFor(t, b, "the plain line again", fmt.Sprintf(`document.querySelector('[data-testid="result-slope"]')?.dataset.value === %q`, strconv.FormatFloat(rep.Slope.Estimate, 'g', -1, 64)), 10*time.Second)
