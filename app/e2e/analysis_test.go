@@ -450,6 +450,13 @@ func TestAnalysisInfluence(t *testing.T) {
 		t.Error("the influence sentence does not name the reading")
 	}
 	screenshot(t, b, "analysis-influence-tablet")
+	// The same screen with the tablet turned (landscape, two columns).
+	b.do(t, chromedp.EmulateViewport(1280, 800))
+	anClick(t, b, "check-influence-more")
+	screenshot(t, b, "analysis-influence-landscape")
+	if w := eval[float64](t, b, `document.documentElement.scrollWidth`); w > 1282 {
+		t.Errorf("the page is %v px wide on a 1280 px landscape tablet", w)
+	}
 }
 
 // anPaste pastes the pairs as one tab-separated block into the first x
@@ -573,4 +580,30 @@ func TestAnalysisSpeed(t *testing.T) {
 	rep = anAnalyze(t, x, y, fitcore.Options{})
 	anExpect(t, b, "result-slope", "data-value", rep.Slope.Estimate)
 	anCheckVerdicts(t, b, rep.Assumptions)
+}
+
+// TestAnalysisInverseUnbounded: on invented readings with no clear slope
+// the Fieller interval for x is unbounded (Fieller 1940; fitcore's
+// Inverse.Bounded false), and the screen says so in a sentence.
+func TestAnalysisInverseUnbounded(t *testing.T) {
+	srv := startServer(t)
+	b := newBrowser(t, tablet)
+	b.do(t, chromedp.Navigate(srv.URL))
+	waitFor(t, b, "the app to start", appReady, 60*time.Second)
+	pairs := [][2]string{{"1", "5.1"}, {"2", "4.8"}, {"3", "5.3"}, {"4", "4.9"}, {"5", "5.2"}, {"6", "5.0"}}
+	anFill(t, b, pairs)
+	x, y := anParsed(t, pairs)
+	inv := anAnalyze(t, x, y, fitcore.Options{Inverse: []fitcore.InverseQuery{{Y: []float64{5.05}}}}).Inverse[0]
+	if inv.Bounded {
+		t.Fatal("fitcore gives a bounded interval on a flat line")
+	}
+	anSet(t, b, "inverse-input", "5,05", "input")
+	waitFor(t, b, "the inverse result", `!!document.querySelector('[data-testid="inverse-result"]')`, 10*time.Second)
+	if got := attr(t, b, "inverse-result", "data-bounded"); got != "false" {
+		t.Errorf("data-bounded = %q, want false", got)
+	}
+	anExpect(t, b, "inverse-result", "data-value", inv.X)
+	if !anExists(t, b, "inverse-unbounded") {
+		t.Error("no sentence says the interval is unbounded")
+	}
 }
