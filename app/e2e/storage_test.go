@@ -114,6 +114,7 @@ func TestCapacity(t *testing.T) {
 	}
 	report := text(t, b, "import-report")
 	t.Logf("report: %s", report)
+	t.Logf("steps: %s", attr(t, b, "import-report", "data-timing"))
 	for _, w := range []string{"Imported 100000 readings", "2 blank rows", "1 incomplete row", "line 50005"} {
 		if !strings.Contains(report, w) {
 			t.Errorf("the report does not say %q: %s", w, report)
@@ -160,7 +161,7 @@ func TestCapacity(t *testing.T) {
 	waitFor(t, b, "the app after reload", appReady, 60*time.Second)
 	t.Logf("start with 501 sessions stored: %v", time.Since(start).Round(time.Millisecond))
 	waitFor(t, b, "the list count", `/\(50[12]\)/.test(document.querySelector('[data-testid="sessions-open"]').textContent)`, 30*time.Second)
-	var opens []float64
+	var opens, closes []float64
 	for i := 0; i < 3; i++ {
 		ms := eval[float64](t, b, `(async () => {
 			const t0 = performance.now();
@@ -174,9 +175,18 @@ func TestCapacity(t *testing.T) {
 		if i == 0 {
 			screenshot(t, b, "capacity-session-list-tablet")
 		}
-		click(t, b, "sessions-open")
-		waitFor(t, b, "the list to close", `!document.querySelector('[data-testid="session-list"]')`, 10*time.Second)
+		// Closing redraws the page without the list: the part of the time
+		// that is the page itself, not the list.
+		closes = append(closes, eval[float64](t, b, `(async () => {
+			const t0 = performance.now();
+			document.querySelector('[data-testid="sessions-open"]').click();
+			while (document.querySelector('[data-testid="session-list"]'))
+				await new Promise(r => setTimeout(r, 0));
+			await new Promise(r => requestAnimationFrame(() => r()));
+			return performance.now() - t0;
+		})()`))
 	}
+	t.Logf("closing it again (the page without the list): %.0f ms, %.0f ms, %.0f ms", closes[0], closes[1], closes[2])
 	t.Logf("opening the session list with %d sessions (the newest 50 drawn, more on request): %.0f ms, %.0f ms, %.0f ms (click to drawn)",
 		eval[int](t, b, `+document.querySelector('[data-testid="sessions-open"]').textContent.match(/\d+/)[0]`), opens[0], opens[1], opens[2])
 	u := attr(t, b, "storage-usage", "data-used")

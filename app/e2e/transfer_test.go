@@ -256,6 +256,28 @@ func TestTransferRoundTrip(t *testing.T) {
 	if n := len(decodeFile(t, rawAll).Sessions); n != len(after) {
 		t.Errorf("the bundle holds %d sessions, want %d", n, len(after))
 	}
+	// A table dropped onto the page, with three columns of numbers: Pairline
+	// asks which two to use (invented readings).
+	seq := eval[int](t, b, `+(document.querySelector('[data-testid="import-report"]')?.dataset.seq || 0)`)
+	eval[bool](t, b, `(() => {
+		const dt = new DataTransfer();
+		dt.items.add(new File(["site;reference;reading;water temp\n" +
+			"north;1;1,1;20,5\nnorth;2;2,1;20,7\n\nsouth;3;2,9;21,0\nsouth;4;;21,2\nsouth;5;5,2;21,4\n"], "three-columns.csv", {type: "text/csv"}));
+		document.querySelector(".pl-main").dispatchEvent(new DragEvent("drop", {dataTransfer: dt, bubbles: true, cancelable: true}));
+		return true;
+	})()`)
+	waitFor(t, b, "the column question", `!!document.querySelector('[data-testid="import-columns"]')`, 20*time.Second)
+	screenshot(t, b, "transfer-columns-tablet")
+	eval[bool](t, b, `(() => { const s = document.querySelector('[data-testid="import-y-col"]'); s.value = "3"; s.dispatchEvent(new Event("change", {bubbles: true})); return true })()`)
+	click(t, b, "import-columns-ok")
+	waitFor(t, b, "the table import", fmt.Sprintf(`+(document.querySelector('[data-testid="import-report"]')?.dataset.seq || 0) > %d`, seq), 20*time.Second)
+	report := text(t, b, "import-report")
+	for _, w := range []string{"Imported 5 readings", "x from column 2 “reference”", "y from column 4 “water temp”", "1 blank row"} {
+		if !strings.Contains(report, w) {
+			t.Errorf("the report does not say %q: %s", w, report)
+		}
+	}
+	checkPairs(t, b, [][2]string{{"1", "20,5"}, {"2", "20,7"}, {"3", "21,0"}, {"4", "21,2"}, {"5", "21,4"}})
 	screenshot(t, b, "transfer-tablet")
 	if bad := b.foreign(srv.URL); len(bad) > 0 {
 		t.Errorf("requests left the app's origin: %v", bad)

@@ -18,17 +18,20 @@ func (c *Shell) Render() app.UI {
 	return app.Div().Class("pl-app", c.themeClass()).Body(
 		c.renderBar(),
 		c.renderTools(),
-		app.If(c.updateReady, func() app.UI {
+		app.Div().Class("pl-slot").Body(app.If(c.updateReady, func() app.UI {
 			return app.Div().Class("pl-strip pl-strip-update").DataSet("testid", "update-ready").Body(
 				app.Span().Text("A new version of Pairline is ready. Your readings are saved; reload when it suits you."),
 				app.Button().Class("pl-btn").Text("Reload now").OnClick(func(ctx app.Context, e app.Event) { ctx.Reload() }),
 			)
-		}),
-		app.If(c.notice != "", func() app.UI {
+		})),
+		// Parts that come and go sit in fixed slots (.pl-slot, display:
+		// contents): go-app compares children by position, so a strip that
+		// appears before <main> would otherwise make it rebuild all of <main>.
+		app.Div().Class("pl-slot").Body(app.If(c.notice != "", func() app.UI {
 			return app.Div().Class("pl-strip").Attr("role", "status").Text(c.notice)
-		}),
+		})),
 		c.renderTransferStrips(),
-		app.If(c.listOpen, c.renderSessions),
+		app.Div().Class("pl-slot").Body(app.If(c.listOpen, c.renderSessions)),
 		app.If(c.sess == nil, func() app.UI {
 			return app.Main().Class("pl-main").Body(app.P().Class("pl-wait").Text("Opening your sessions…"))
 		}).Else(func() app.UI {

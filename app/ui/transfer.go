@@ -37,6 +37,8 @@ type transferState struct {
 	shareOK      bool      // the browser can share files (Web Share API level 2)
 	importSeq    int       // counts finished imports (data-seq, for tests and screen readers)
 	listMore     int       // sessions the list draws beyond the first listPage
+	importPhase  string    // what the import is doing now: "reading", "saving", …
+	importTiming string    // how long the steps of the last table import took
 }
 
 // importConflict asks, one session at a time, what to do with imported
@@ -166,7 +168,7 @@ func (c *Shell) importFile(ctx app.Context, f app.Value) {
 		return
 	}
 	c.importErr, c.importReport, c.choice, c.conflict = "", "", nil, nil
-	c.importing, c.progress = name, 0
+	c.importing, c.progress, c.importPhase = name, 0, "reading"
 	ctx.Async(func() {
 		data, err := readFile(f)
 		if err != nil {
@@ -198,6 +200,7 @@ func (c *Shell) importFailed(name string, err error) {
 // transaction; sessions whose ID is already stored wait for the technician.
 func (c *Shell) importSessionFile(ctx app.Context, name string, data []byte) {
 	st := c.st
+	ctx.Dispatch(func(ctx app.Context) { c.importPhase = "checking the file" })
 	f, err := session.Decode(bytes.NewReader(data))
 	if err != nil {
 		ctx.Dispatch(func(ctx app.Context) { c.importFailed(name, err) })
@@ -273,6 +276,9 @@ func saveAll(st store.Store, ss []*session.Session) error {
 			return err
 		}
 		sums[i], bodies[i] = job.sum, job.body
+		if i%20 == 19 {
+			time.Sleep(time.Millisecond) // give the page its turn
+		}
 	}
 	return st.SaveAll(sums, bodies)
 }
@@ -456,6 +462,9 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 				}
 				lines++
 			}
+			if start == 0 {
+				ctx.Dispatch(func(ctx app.Context) { c.importPhase = "reading the readings" })
+			}
 			res, err := session.ReadCSV(bytes.NewReader(data[start:end]), opt)
 			switch {
 			case errors.Is(err, session.ErrCSVNoData):
@@ -485,14 +494,24 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 		fail(&session.CSVError{Err: session.ErrCSVNoData})
 		return
 	}
+	// Encoding, storing and analysing a big session each take a while; a
+	// pause between them lets the page draw the progress in between.
+	parsed := time.Now()
+	ctx.Dispatch(func(ctx app.Context) { c.importPhase = "storing the session" })
+	time.Sleep(time.Millisecond)
 	job, err := encodeJob(s)
+	encoded := time.Now()
 	if err == nil {
+		time.Sleep(time.Millisecond)
 		err = st.Save(job.sum, job.body)
 	}
+	stored := time.Now()
 	if err != nil {
 		fail(err)
 		return
 	}
+	ctx.Dispatch(func(ctx app.Context) { c.importPhase = "fitting the line" })
+	time.Sleep(time.Millisecond)
 	took := time.Since(started)
 	list, _ := st.List()
 	report := sum.text(name, len(s.Readings), labels, xCol, yCol, took)
@@ -500,7 +519,11 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 		c.importing, c.progress = "", 1
 		c.importSeq++
 		c.sessions = list
+		t := time.Now()
 		c.openImported(ctx, s)
+		// How long each step took, for the record of speed (data-timing).
+		c.importTiming = fmt.Sprintf("read=%d encode=%d store=%d analyse=%d ms",
+			parsed.Sub(started).Milliseconds(), encoded.Sub(parsed).Milliseconds(), stored.Sub(encoded).Milliseconds(), time.Since(t).Milliseconds())
 		c.importReport = report
 		c.announceSaved(ctx, job.sum)
 	})
@@ -911,7 +934,7 @@ func (c *Shell) renderTransferStrips() app.UI {
 	return app.Div().Class("pl-xfer-strips").Body(
 		app.If(c.importing != "", func() app.UI {
 			return app.Div().Class("pl-strip pl-xfer-progress").Attr("role", "status").Body(
-				app.Span().Text("Importing “"+c.importing+"”…"),
+				app.Span().Text("Importing “"+c.importing+"”: "+c.importPhase+"…"),
 				app.Progress().Max(1).Value(c.progress).DataSet("testid", "import-progress").
 					DataSet("value", numfmt.Full(c.progress)).Attr("aria-label", "Import progress"),
 				app.Span().Text(strconv.Itoa(int(c.progress*100))+" %"),
@@ -982,7 +1005,7 @@ func (c *Shell) renderColumnChoice() app.UI {
 						c.importFailed(name, &session.CSVError{Err: session.ErrCSVSameColum})
 						return
 					}
-					c.choice, c.importing, c.progress = nil, name, 0
+					c.choice, c.importing, c.progress, c.importPhase = nil, name, 0, "reading"
 					ctx = c.ui
 					ctx.Async(func() { c.importCSV(ctx, name, data, x, y) })
 				}),
@@ -1023,7 +1046,7 @@ func (c *Shell) renderTransfer() app.UI {
 		),
 		app.P().Class("pl-xfer-hint").Text("Session files (.pairline) and CSV or tab-separated tables can also be dropped onto the page. A block copied from a spreadsheet can be pasted into an x cell."),
 		app.If(c.importReport != "", func() app.UI {
-			return app.P().Class("pl-xfer-report").DataSet("testid", "import-report").DataSet("seq", c.importSeq).Attr("role", "status").Text(c.importReport)
+			return app.P().Class("pl-xfer-report").DataSet("testid", "import-report").DataSet("seq", c.importSeq).DataSet("timing", c.importTiming).Attr("role", "status").Text(c.importReport)
 		}),
 		app.P().Class("pl-xfer-usage").DataSet("testid", "storage-usage").
 			DataSet("used", strconv.FormatInt(c.usage.Used, 10)).DataSet("quota", strconv.FormatInt(c.usage.Quota, 10)).
