@@ -147,7 +147,7 @@ func adTry(x, y []float64, opt Options, r Remedy, before CheckSummary, sc *anScr
 			c.Why = why
 			return c
 		}
-		bc, err := BoxCoxProfile(x, y, opt.Level)
+		bc, err := sc.boxCox(x, y, opt.Level)
 		if err != nil {
 			c.Why = "The Box–Cox power could not be estimated: " + err.Error() + "."
 			return c
@@ -177,7 +177,9 @@ func adTry(x, y []float64, opt Options, r Remedy, before CheckSummary, sc *anScr
 		o.Model = ModelWeighted
 		cost = 0.5
 	}
+	sc.refit = true
 	rep, err := analyze(x, y, o, sc)
+	sc.refit = false
 	if err != nil {
 		c.Why = "The refit on this scale failed: " + err.Error() + "."
 		return c

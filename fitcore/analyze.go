@@ -33,6 +33,32 @@ type anScratch struct {
 	sb     ckSortBuf
 	x      []float64 // the readings xOrder belongs to
 	xOrder []int32   // positions of x in ascending order; nil when x is in order
+
+	// The Box–Cox profile of the original readings, worked out once.
+	bcX, bcY []float64
+	bcLevel  float64
+	bc       *BoxCox
+	bcErr    error
+
+	// refit is set while the advice refits a remedy: only what a Candidate
+	// takes from the report is needed (no Box–Cox profile, no reasons
+	// texts or per-reading influence, residuals in the space below).
+	refit          bool
+	fitted, resids []float64
+}
+
+// boxCox returns BoxCoxProfile(x, y, level), computing it only the first
+// time it is asked about these readings and level.
+func (s *anScratch) boxCox(x, y []float64, level float64) (*BoxCox, error) {
+	if level == 0 {
+		level = 0.95
+	}
+	if s.bcX != nil && len(s.bcX) == len(x) && &s.bcX[0] == &x[0] && &s.bcY[0] == &y[0] && s.bcLevel == level {
+		return s.bc, s.bcErr
+	}
+	s.bc, s.bcErr = BoxCoxProfile(x, y, level)
+	s.bcX, s.bcY, s.bcLevel = x, y, level
+	return s.bc, s.bcErr
 }
 
 // orderOf returns the positions of x in ascending order (nil when x is
@@ -63,7 +89,7 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	rep := &Report{N: len(x), Model: o.Model, Transform: o.Transform, Level: o.Level}
 
 	// Transformed scale.
-	tr, err := newTransformer(o.Transform, x, y, o, rep)
+	tr, err := newTransformer(o.Transform, x, y, o, rep, sc)
 	if err != nil {
 		return nil, err
 	}
@@ -116,7 +142,14 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	} else {
 		rep.R = f.pearsonR()
 	}
-	rep.Fitted, rep.Residuals = f.fittedResiduals(xt, yt)
+	if sc.refit {
+		sc.fitted = ckGrowF64(sc.fitted, len(xt))
+		sc.resids = ckGrowF64(sc.resids, len(xt))
+		rep.Fitted, rep.Residuals = sc.fitted, sc.resids
+		f.fittedResidualsInto(xt, yt, rep.Fitted, rep.Residuals)
+	} else {
+		rep.Fitted, rep.Residuals = f.fittedResiduals(xt, yt)
+	}
 	tr.setSmearing(rep.Residuals)
 	if tr.isLogY() {
 		rep.Smearing = tr.smearing
@@ -124,8 +157,8 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 
 	fc := &fitContext{f: f, tr: tr, wm: wm, x: x, y: y, xt: xt, yt: yt, w: w, opt: o, rep: rep, sc: sc}
 	fc.runChecks()
-	if allPositive(y) {
-		if bc, err := BoxCoxProfile(x, y, o.Level); err == nil {
+	if !sc.refit && allPositive(y) {
+		if bc, err := sc.boxCox(x, y, o.Level); err == nil {
 			rep.BoxCox = bc
 		}
 	}
@@ -135,6 +168,10 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	fc.acceptance()
 	if !o.SkipAdvice {
 		rep.Advice = adviseWith(x, y, opt, rep, sc)
+	}
+	if sc.refit {
+		// The residuals live in sc and are not part of a candidate.
+		rep.Fitted, rep.Residuals, rep.Weights = nil, nil, nil
 	}
 	scrubReport(rep)
 	return rep, nil
@@ -198,6 +235,11 @@ func (fc *fitContext) runChecks() {
 	c.DurbinWatson = durbinWatson(xs, pr, origin, pre)
 	c.Runs = runsTest(pr, pre.residValid)
 	c.ShapiroWilk = shapiroWilkCheck(pr, &fc.sc.sb, pre.residValid)
+	if fc.sc.refit {
+		// A candidate needs only the influence summary.
+		rep.Assumptions = summarize(rep.Checks, influenceSummary(xs, res, w, origin, inflValid))
+		return
+	}
 	rep.Influence = influence(xs, res, w, origin, inflValid)
 	if scaled {
 		for i := range rep.Influence {

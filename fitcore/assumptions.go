@@ -24,6 +24,11 @@ import (
 // flagged only by the milder thresholds (see Influence), pass otherwise
 // (common practice).
 func Summarize(c Checks, infl []PointInfluence) Assumptions {
+	return summarize(c, ckSummarizeInfluence(infl))
+}
+
+// summarize is Summarize with the influence assumption already worded.
+func summarize(c Checks, influence Assumption) Assumptions {
 	var a Assumptions
 	lin := []Check{c.Curvature}
 	if c.LackOfFit != nil {
@@ -53,7 +58,7 @@ func Summarize(c Checks, infl []PointInfluence) Assumptions {
 		"The scatter about the line does not have the usual bell shape.",
 		"Look for outlying readings first; intervals and limits from this line may be less reliable than stated.",
 		"Normality could not be checked")
-	a.Influence = ckSummarizeInfluence(infl)
+	a.Influence = influence
 	if c.XExactness != nil {
 		x := ckXExactAssumption(*c.XExactness)
 		a.XExactness = &x
@@ -108,7 +113,7 @@ func ckCombine(cs []Check, pass, warn, fail, advice, naLead string) Assumption {
 // ckSummarizeInfluence words the flagged readings.
 func ckSummarizeInfluence(infl []PointInfluence) Assumption {
 	if len(infl) == 0 {
-		return Assumption{Verdict: NA, Message: "The influence of single readings could not be checked."}
+		return ckInfluenceNA()
 	}
 	var serious, mild []int
 	for _, p := range infl {
@@ -127,6 +132,17 @@ func ckSummarizeInfluence(infl []PointInfluence) Assumption {
 			mild = append(mild, p.Index+1)
 		}
 	}
+	return ckWordInfluence(serious, mild)
+}
+
+// ckInfluenceNA is the influence assumption when it could not be checked.
+func ckInfluenceNA() Assumption {
+	return Assumption{Verdict: NA, Message: "The influence of single readings could not be checked."}
+}
+
+// ckWordInfluence words the seriously and mildly flagged readings
+// (numbered from 1).
+func ckWordInfluence(serious, mild []int) Assumption {
 	switch {
 	case len(serious) > 0:
 		msg := fmt.Sprintf("%s %s out of line with the rest or %s the line strongly.",

@@ -64,8 +64,37 @@ func Influence(x, resid, w []float64, origin bool) []PointInfluence {
 // influence is Influence; valid says the inputs are already known to be
 // valid.
 func influence(x, resid, w []float64, origin, valid bool) []PointInfluence {
+	out, _ := influenceRun(x, resid, w, origin, valid, true)
+	return out
+}
+
+// influenceSummary is Summarize's influence assumption for Influence(x,
+// resid, w, origin), found without keeping the per-reading results.
+func influenceSummary(x, resid, w []float64, origin, valid bool) Assumption {
+	_, masks := influenceRun(x, resid, w, origin, valid, false)
+	if masks == nil {
+		return ckInfluenceNA()
+	}
+	const seriousBits = 1<<ckBitOutlier | 1<<ckBitVeryInfluence | 1<<ckBitLeverageOne
+	var serious, mild []int
+	for i, m := range masks {
+		switch {
+		case m&seriousBits != 0:
+			serious = append(serious, i+1)
+		case m != 0:
+			mild = append(mild, i+1)
+		}
+	}
+	return ckWordInfluence(serious, mild)
+}
+
+// influenceRun computes the diagnostics of Influence and the bits of the
+// reasons of every reading (masks; nil when Influence returns nil). With
+// keep it also returns the per-reading results with their reasons
+// written; without, only the bits.
+func influenceRun(x, resid, w []float64, origin, valid, keep bool) (out []PointInfluence, masks []uint8) {
 	if !valid && ckValidate(x, resid, w, "residual") != "" {
-		return nil
+		return nil, nil
 	}
 	n := len(x)
 	p := 2
@@ -73,11 +102,11 @@ func influence(x, resid, w []float64, origin, valid bool) []PointInfluence {
 		p = 1
 	}
 	if n <= p {
-		return nil
+		return nil, nil
 	}
 	lev, ok := ckNewLeverage(x, w, origin)
 	if !ok {
-		return nil
+		return nil, nil
 	}
 	nf, pf := float64(n), float64(p)
 	// r_i = √w_i·e_i, evaluated where needed.
@@ -115,15 +144,22 @@ func influence(x, resid, w []float64, origin, valid bool) []PointInfluence {
 	}
 	cut := newInfluenceCuts(pf, nf, dfRes, dfDel >= 1)
 
-	out := make([]PointInfluence, n)
+	if keep {
+		out = make([]PointInfluence, n)
+	}
 	// Which reasons each reading has, as bits; the texts are written
 	// afterwards into one buffer sized for them all.
-	masks := make([]uint8, n)
+	masks = make([]uint8, n)
 	nReasons := 0
-	for i := range out {
-		pi := &out[i]
+	var tmp PointInfluence
+	for i := range n {
+		pi := &tmp
+		if keep {
+			pi = &out[i]
+		}
 		h := lev.at(i)
 		pi.Index, pi.Leverage, pi.Residual, pi.OutlierP = i, h, resid[i], 1
+		pi.CooksD, pi.Studentized, pi.DFFITS = 0, 0, 0
 		ri := 0.0
 		if big > 0 {
 			ri = rAt(i) / big
@@ -171,7 +207,7 @@ func influence(x, resid, w []float64, origin, valid bool) []PointInfluence {
 			nReasons += bits.OnesCount8(m)
 		}
 	}
-	if nReasons > 0 {
+	if keep && nReasons > 0 {
 		rw := newReasonWriter(nReasons)
 		for i, m := range masks {
 			if m != 0 {
@@ -179,7 +215,7 @@ func influence(x, resid, w []float64, origin, valid bool) []PointInfluence {
 			}
 		}
 	}
-	return out
+	return out, masks
 }
 
 // The reasons Influence can give a reading, in the order they are listed.

@@ -453,11 +453,17 @@ func (f *lineFit) residualSS(x, y []float64) float64 {
 	return acc.val()
 }
 
-// fittedResiduals fills fitted values and residuals in original units.
+// fittedResiduals returns fitted values and residuals in original units.
 func (f *lineFit) fittedResiduals(x, y []float64) (fitted, resid []float64) {
+	fitted = make([]float64, len(x))
+	resid = make([]float64, len(x))
+	f.fittedResidualsInto(x, y, fitted, resid)
+	return fitted, resid
+}
+
+// fittedResidualsInto is fittedResiduals writing into fitted and resid.
+func (f *lineFit) fittedResidualsInto(x, y, fitted, resid []float64) {
 	n := len(x)
-	fitted = make([]float64, n)
-	resid = make([]float64, n)
 	kx, ky, xc, a, b1 := f.kx, f.ky, f.xc, f.a, f.b1
 	iy := 1 / ky
 	for i := range n {
@@ -465,7 +471,6 @@ func (f *lineFit) fittedResiduals(x, y []float64) (fitted, resid []float64) {
 		fitted[i] = fs * iy
 		resid[i] = (y[i]*ky - fs) * iy
 	}
-	return fitted, resid
 }
 
 // fitAt is ŷ at x (original units in and out).

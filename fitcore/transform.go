@@ -28,7 +28,7 @@ func (t *transformer) isLogY() bool {
 	return t.kind == TransformLogY || t.kind == TransformLogLog || (t.kind == TransformBoxCox && t.lambda == 0)
 }
 
-func newTransformer(kind Transform, x, y []float64, o Options, rep *Report) (*transformer, error) {
+func newTransformer(kind Transform, x, y []float64, o Options, rep *Report, sc *anScratch) (*transformer, error) {
 	t := &transformer{kind: kind, smearing: 1}
 	if kind == TransformBoxCox {
 		if o.BoxCoxLambda != nil {
@@ -38,7 +38,7 @@ func newTransformer(kind Transform, x, y []float64, o Options, rep *Report) (*tr
 				return nil, &DataError{Index: i, Column: "y", Value: y[i], Err: ErrTransformDomain,
 					Hint: "The Box–Cox transform needs every y above zero."}
 			}
-			bc, err := BoxCoxProfile(x, y, o.Level)
+			bc, err := sc.boxCox(x, y, o.Level)
 			if err != nil {
 				return nil, fmt.Errorf("%w: λ for the Box–Cox transform could not be estimated: %v", ErrTransformDomain, err)
 			}
