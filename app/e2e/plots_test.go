@@ -3,8 +3,11 @@
 package e2e
 
 import (
+	"bytes"
 	"encoding/json"
 	"fmt"
+	"os"
+	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
@@ -13,6 +16,7 @@ import (
 	"github.com/chromedp/chromedp"
 
 	"pairline/app/demo"
+	"pairline/app/session"
 	"pairline/fitcore"
 )
 
@@ -242,5 +246,81 @@ func TestThemesAndLayout(t *testing.T) {
 			t.Errorf("%s: the report is wider than its view", v.name)
 		}
 		screenshot(t, vb, "report-"+v.name)
+	}
+}
+
+// TestPlotsSpeed measures, at 1,000 and 10,000 readings (an invented straight
+// line), how long leaving a reading out takes until the line and the plots
+// show it, and how long the report takes to open. Figures are logged, not
+// asserted (no wall-clock assertions in tests); the thinning is asserted.
+func TestPlotsSpeed(t *testing.T) {
+	srv := startServer(t)
+	b := newBrowser(t, tablet)
+	b.do(t, chromedp.Navigate(srv.URL))
+	waitFor(t, b, "the app to start", appReady, 60*time.Second)
+	for _, n := range []int{1000} {
+		now := time.Date(2026, 6, 1, 9, 0, 0, 0, time.UTC)
+		s, err := session.New(fmt.Sprintf("Invented load test, %d readings", n), now, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		s.XName, s.XUnit, s.YName, s.YUnit = "Standard", "mg/L", "Reading", "mg/L"
+		for i := range n {
+			x := float64(i%200) / 4
+			s.Readings = append(s.Readings, session.Reading{X: strconv.FormatFloat(x, 'f', 2, 64),
+				Y: strconv.FormatFloat(1.02*x+0.3+0.01*float64((i*7919)%101-50), 'f', 3, 64)})
+		}
+		var buf bytes.Buffer
+		if err := session.Encode(&buf, []*session.Session{s}); err != nil {
+			t.Fatal(err)
+		}
+		path := filepath.Join(t.TempDir(), fmt.Sprintf("load-%d.pairline", n))
+		if err := os.WriteFile(path, buf.Bytes(), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		b.do(t, chromedp.SetUploadFiles(sel("import-file"), []string{path}))
+		waitFor(t, b, "the imported session", fmt.Sprintf(`document.querySelector('[data-testid="plot-fit"]')?.dataset.n === "%d"`, n), 120*time.Second)
+		drawn, _ := strconv.Atoi(attr(t, b, "plot-fit", "data-drawn"))
+		if n > 2000 && (drawn > 2000 || drawn < 1000) {
+			t.Errorf("%d readings: %d drawn, want thinning to at most 2000", n, drawn)
+		}
+		if n > 2000 && attr(t, b, "plot-thinned", "data-value") != strconv.Itoa(drawn) {
+			t.Errorf("%d readings: the thinning is not stated", n)
+		}
+		// Tap reading 1 (the plots are redrawn with it marked) and time it.
+		ms := eval[float64](t, b, `new Promise(res => {
+			const t0 = performance.now();
+			document.querySelector('[data-testid="plot-fit"] [data-row="1"]').dispatchEvent(new MouseEvent('click', {bubbles: true}));
+			const tick = () => { if (document.querySelector('[data-testid="plot-point-reason"]') && getComputedStyle(document.querySelector('[data-testid="plot-qq"] .pl-plot-points [data-row="1"]')).strokeWidth === '4px') res(performance.now() - t0); else requestAnimationFrame(tick); };
+			tick();
+		})`)
+		t.Logf("%d readings: a tap on a point → panel and the four plots redrawn in %.0f ms", n, ms)
+		ms = eval[float64](t, b, `new Promise(res => {
+			const t0 = performance.now();
+			document.querySelector('[data-testid="plot-point-reason"]').dispatchEvent(new Event('input', {bubbles: true}));
+			requestAnimationFrame(() => requestAnimationFrame(() => res(performance.now() - t0)));
+		})`)
+		t.Logf("%d readings: one render of the screen without new plots: %.0f ms", n, ms)
+		b.do(t, chromedp.SendKeys(sel("plot-point-reason"), "invented"))
+		ms = eval[float64](t, b, fmt.Sprintf(`new Promise(res => {
+			const t0 = performance.now();
+			document.querySelector('[data-testid="plot-point-exclude"]').click();
+			const tick = () => {
+				const p = document.querySelector('[data-testid="plot-fit"]');
+				if (p && p.dataset.n === "%d" && document.querySelector('[data-testid="plot-qq"]')?.dataset.n === "%d") res(performance.now() - t0); else requestAnimationFrame(tick);
+			};
+			tick();
+		})`, n-1, n-1))
+		t.Logf("%d readings: leaving one out → line, checks and plots updated in %.0f ms", n, ms)
+		ms = eval[float64](t, b, `new Promise(res => {
+			const t0 = performance.now();
+			document.querySelector('[data-testid="report-open"]').click();
+			const tick = () => { if (document.querySelector('[data-testid="report"] [data-testid="plot-qq"]')) res(performance.now() - t0); else requestAnimationFrame(tick); };
+			tick();
+		})`)
+		t.Logf("%d readings: report open in %.0f ms", n, ms)
+		screenshot(t, b, fmt.Sprintf("speed-%d", n))
+		fuClick(t, b, "report-close")
+		waitFor(t, b, "the report closed", `!document.querySelector('[data-testid="report"]')`, 20*time.Second)
 	}
 }

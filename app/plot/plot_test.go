@@ -159,6 +159,14 @@ func TestChartSVG(t *testing.T) {
 	if rows != 4 {
 		t.Errorf("%d elements carry data-row, want 4", rows)
 	}
+	for _, c := range []struct {
+		v    float64
+		want string
+	}{{0, "0"}, {-0.04, "0"}, {12.34, "12.3"}, {-12.36, "-12.4"}, {5, "5"}, {0.95, "1"}, {-0.5, "-0.5"}, {math.NaN(), "0"}} {
+		if got := num(c.v); got != c.want {
+			t.Errorf("num(%v) = %q, want %q", c.v, got, c.want)
+		}
+	}
 	for _, want := range []string{`data-testid="plot-fit"`, `aria-label="Readings &amp; &#34;line&#34;"`, `data-n="3"`, "Standard (µS/cm)", "pl-pt-flag", "pl-pt-excl"} {
 		if !strings.Contains(s, want) {
 			t.Errorf("missing %s", want)

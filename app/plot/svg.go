@@ -90,11 +90,43 @@ const (
 	paperColour = "#ffffff"
 )
 
+// num writes a coordinate with one decimal at most (a tenth of a viewBox
+// unit is far below a screen pixel), without the cost of a general float
+// formatter: plots of thousands of points are drawn on every edit.
 func num(v float64) string {
-	if !finite(v) {
+	if !finite(v) || math.Abs(v) > 1e12 {
+		if finite(v) {
+			return strconv.FormatFloat(v, 'f', 0, 64)
+		}
 		return "0"
 	}
-	return strconv.FormatFloat(math.Round(v*10)/10, 'f', -1, 64)
+	t := int64(math.Round(v * 10))
+	neg := t < 0
+	if neg {
+		t = -t
+	}
+	var buf [24]byte
+	i := len(buf)
+	if d := t % 10; d != 0 {
+		i--
+		buf[i] = byte('0' + d)
+		i--
+		buf[i] = '.'
+	}
+	t /= 10
+	for {
+		i--
+		buf[i] = byte('0' + t%10)
+		t /= 10
+		if t == 0 {
+			break
+		}
+	}
+	if neg && string(buf[i:]) != "0" {
+		i--
+		buf[i] = '-'
+	}
+	return string(buf[i:])
 }
 
 // SVG returns the chart as one <svg> element.
@@ -266,7 +298,7 @@ func writePath(b *strings.Builder, p Path, sx, sy Scale) {
 // writePoints draws the markers. Every marker carries a wide transparent
 // stroke, so a gloved finger finds it (about 20 viewBox units across).
 func writePoints(b *strings.Builder, pts []Point, sx, sy Scale) {
-	b.WriteString(`<g class="pl-plot-points" stroke="transparent" stroke-width="14">`)
+	b.WriteString(`<g class="pl-plot-points" stroke="transparent" stroke-width="14" fill="` + inkColour + `">`)
 	var sel *Point
 	for i := range pts {
 		p := &pts[i]
@@ -285,7 +317,7 @@ func writePoints(b *strings.Builder, pts []Point, sx, sy Scale) {
 			b.WriteString(`<g class="pl-pt pl-pt-excl" data-row="` + row + `"><circle cx="` + num(x) + `" cy="` + num(y) + `" r="9" fill="transparent"/>` +
 				`<rect x="` + num(x-s) + `" y="` + num(y-s) + `" width="` + num(2*s) + `" height="` + num(2*s) + `" fill="` + paperColour + `" stroke="` + inkColour + `" stroke-width="2"/></g>`)
 		default:
-			b.WriteString(`<circle class="pl-pt" data-row="` + row + `" cx="` + num(x) + `" cy="` + num(y) + `" r="4.5" fill="` + inkColour + `"/>`)
+			b.WriteString(`<circle data-row="` + row + `" cx="` + num(x) + `" cy="` + num(y) + `" r="4.5"/>`)
 		}
 		if p.Selected {
 			sel = p

@@ -33,9 +33,10 @@ type plotsUI struct {
 
 	plCacheRep  *fitcore.Report
 	plCacheSess *session.Session
-	plCacheSel  int
 	plCacheN    int
 	plCache     plSet
+	plStale     bool            // the plots shown are older than the report
+	plWaitFor   *fitcore.Report // the report a delayed redraw is waiting for
 }
 
 // plotQueries adds the x grid of the drawn line to the options of the one
@@ -85,8 +86,10 @@ type plSet struct {
 	Excluded                        int
 }
 
-// buildPlots draws the plots of s from rep (rows maps fitcore's index to the
-// session row). sel is the selected row or −1. Nothing here is a statistic:
+// plBuild draws the plots of s from rep (rows maps fitcore's index to the
+// session row). sel is a row that must be drawn even when the plots are
+// thinned (the selected one), or −1; the selection itself is marked by a
+// style rule (selectionStyle), so that a tap does not redraw the plots. Nothing here is a statistic:
 // every number drawn is a reading, or comes from rep or fitcore.NormalQQ.
 func plBuild(s *session.Session, rep *fitcore.Report, rows []int, sel int) plSet {
 	var ps plSet
@@ -123,7 +126,7 @@ func plBuild(s *session.Session, rep *fitcore.Report, rows []int, sel int) plSet
 	points := func(xs, ys []float64) []plot.Point {
 		pts := make([]plot.Point, 0, len(drawn))
 		for _, i := range drawn {
-			pts = append(pts, plot.Point{X: xs[i], Y: ys[i], Row: rows[i], Marker: marker(i), Selected: rows[i] == sel})
+			pts = append(pts, plot.Point{X: xs[i], Y: ys[i], Row: rows[i], Marker: marker(i)})
 		}
 		return pts
 	}
@@ -142,7 +145,7 @@ func plBuild(s *session.Session, rep *fitcore.Report, rows []int, sel int) plSet
 		xv, okx := plParseCell(s, rd.X)
 		yv, oky := plParseCell(s, rd.Y)
 		if okx && oky {
-			fitPts = append(fitPts, plot.Point{X: xv, Y: yv, Row: r, Marker: plot.HollowSquare, Selected: r == sel})
+			fitPts = append(fitPts, plot.Point{X: xv, Y: yv, Row: r, Marker: plot.HollowSquare})
 			ps.Excluded++
 		}
 	}
@@ -294,15 +297,53 @@ func plVerdictWord(v fitcore.Verdict) string {
 	return "not checked"
 }
 
-// plots returns the drawing of the open session, from the cache when
-// neither the report nor the selection changed.
+// plots returns the drawing of the open session, from the cache when the
+// report did not change (a new report comes with every edit).
+//
+// For big sessions (plotDeferN readings and more) a redraw after an edit
+// of the same session waits until edits pause for plotIdle: while someone
+// types, each keystroke updates the numbers at once and the plots follow
+// when the typing stops (they show "Updating…" meanwhile).
 func (c *Shell) plots() plSet {
 	rep := c.view.report
-	if rep != c.plCacheRep || c.sess != c.plCacheSess || c.plSel != c.plCacheSel || len(c.sess.Readings) != c.plCacheN {
-		c.plCache = plBuild(c.sess, rep, c.view.rows, c.plSel-1)
-		c.plCacheRep, c.plCacheSess, c.plCacheSel, c.plCacheN = rep, c.sess, c.plSel, len(c.sess.Readings)
+	if rep == c.plCacheRep && c.sess == c.plCacheSess && len(c.sess.Readings) == c.plCacheN {
+		return c.plCache
 	}
+	if rep != nil && rep.N >= plotDeferN && c.sess == c.plCacheSess && c.plCacheRep != nil && c.ui.Src() != nil {
+		c.plStale = true
+		if c.plWaitFor != rep {
+			c.plWaitFor = rep
+			c.ui.After(plotIdle, func(ctx app.Context) {
+				if c.view.report == rep && c.plWaitFor == rep {
+					c.plBuildNow()
+				}
+			})
+		}
+		return c.plCache
+	}
+	c.plBuildNow()
 	return c.plCache
+}
+
+// plotDeferN and plotIdle: see plots.
+const (
+	plotDeferN = 1000
+	plotIdle   = 150 * time.Millisecond
+)
+
+func (c *Shell) plBuildNow() {
+	c.plCache = plBuild(c.sess, c.view.report, c.view.rows, c.plSel-1)
+	c.plCacheRep, c.plCacheSess, c.plCacheN = c.view.report, c.sess, len(c.sess.Readings)
+	c.plStale, c.plWaitFor = false, nil
+}
+
+// selectionStyle marks the selected reading on every plot: a ring in the
+// focus colour around its marker.
+func selectionStyle(row int) string {
+	r := strconv.Itoa(row)
+	return `<style>.pl-plot-points [data-row="` + r + `"], .pl-plot-points [data-row="` + r + `"] rect {` +
+		`stroke: var(--focus); stroke-opacity: 1; stroke-width: 4px; paint-order: stroke; }` +
+		`.pl-plot-points > circle[data-row="` + r + `"] { r: 8px; }</style>`
 }
 
 // renderPlots draws the plots card: four plots, a legend, and the panel of
@@ -321,6 +362,9 @@ func (c *Shell) renderPlots() app.UI {
 	return app.Section().Class("pl-card pl-plots").Attr("aria-label", "Plots").Body(
 		app.H2().Text("Plots"),
 		app.P().Class("pl-plot-hint").Text("Tap a point to see that reading and to leave it out of the line or put it back."),
+		app.If(c.plStale, func() app.UI {
+			return app.P().Class("pl-plot-thinned").DataSet("testid", "plot-stale").Text("Updating the plots after your last change…")
+		}),
 		app.If(ps.Drawn < ps.Total, func() app.UI {
 			return app.P().Class("pl-plot-thinned").DataSet("testid", "plot-thinned").DataSet("value", strconv.Itoa(ps.Drawn)).
 				Text("Drawing " + strconv.Itoa(ps.Drawn) + " of " + strconv.Itoa(ps.Total) + " readings (every flagged reading and the extremes are drawn); the figures use all of them.")
@@ -328,6 +372,7 @@ func (c *Shell) renderPlots() app.UI {
 		app.Div().Class("pl-plots-grid").OnClick(c.onPlotTap).Body(
 			plFigure("Readings and the fitted line", ps.Fit, plLegend(c.view.report.Level)),
 			app.If(c.plSel > 0, c.renderPointPanel),
+			app.If(c.plSel > 0, func() app.UI { return app.Raw(selectionStyle(c.plSel - 1)) }),
 			plFigure("Residuals against fitted values", ps.Residuals, nil),
 			plFigure("Residuals in the order entered", ps.Order, nil),
 			plFigure("Normal Q–Q plot of the residuals", ps.QQ, nil),
@@ -345,12 +390,12 @@ func plFigure(title, svg string, legend app.UI) app.UI {
 
 // Legend swatches, drawn with the same shapes as the plots.
 const (
-	swatchDot  = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><circle cx="10" cy="10" r="5" fill="#101418"/></svg>`
-	swatchFlag = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><path d="M10 2.5L17.5 10L10 17.5L2.5 10Z" fill="#9b1c1c"/></svg>`
-	swatchExcl = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><rect x="4.5" y="4.5" width="11" height="11" fill="#fff" stroke="#101418" stroke-width="2"/></svg>`
-	swatchLine = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><line x1="1" y1="10" x2="19" y2="10" stroke="#0b4f5c" stroke-width="3"/></svg>`
-	swatchCI   = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><rect x="1" y="5" width="18" height="10" fill="#7fb4c0"/></svg>`
-	swatchPI   = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><rect x="1" y="5" width="18" height="10" fill="#d3e6ea" stroke="#7fb4c0"/></svg>`
+	swatchDot  = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><circle class="pl-sw-dot" cx="10" cy="10" r="5" fill="#101418"/></svg>`
+	swatchFlag = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><path class="pl-sw-flag" d="M10 2.5L17.5 10L10 17.5L2.5 10Z" fill="#9b1c1c"/></svg>`
+	swatchExcl = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><rect class="pl-sw-excl" x="4.5" y="4.5" width="11" height="11" fill="#fff" stroke="#101418" stroke-width="2"/></svg>`
+	swatchLine = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><line class="pl-sw-line" x1="1" y1="10" x2="19" y2="10" stroke="#0b4f5c" stroke-width="3"/></svg>`
+	swatchCI   = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><rect class="pl-sw-ci" x="1" y="5" width="18" height="10" fill="#7fb4c0"/></svg>`
+	swatchPI   = `<svg class="pl-swatch" width="20" height="20" viewBox="0 0 20 20" aria-hidden="true"><rect class="pl-sw-pi" x="1" y="5" width="18" height="10" fill="#d3e6ea" stroke="#7fb4c0"/></svg>`
 )
 
 func plLegend(level float64) app.UI {

@@ -61,7 +61,7 @@ func TestPlotsThinOnlyForDrawing(t *testing.T) {
 	if ps.Drawn > plotMaxDraw || ps.Drawn < plotMaxDraw/2 {
 		t.Errorf("drew %d points, want at most %d and not far fewer", ps.Drawn, plotMaxDraw)
 	}
-	if got := strings.Count(ps.Fit, `class="pl-pt`); got != ps.Drawn+2 {
+	if got := strings.Count(ps.Fit, `data-row=`); got != ps.Drawn+2 {
 		t.Errorf("fit plot has %d markers, want %d drawn + 2 left out", got, ps.Drawn)
 	}
 	if !strings.Contains(ps.Fit, `data-row="`+strconv.Itoa(s.Count().Rows/2)+`"`) {

@@ -6,10 +6,10 @@ package ui
 const reportCSS = `/* The printable report (app/ui/report.go). The same text is inlined into a
    saved report file (app/ui/reportcss.go; a test keeps the two equal), so it
    must stand alone: no variables from other stylesheets, nothing fetched. */
-.pl-report-view {
-  position: fixed; inset: 0; z-index: 20; overflow: auto; background: #e9e6df;
-  -webkit-overflow-scrolling: touch;
-}
+/* While the report is open it is the page: the screen behind it is hidden
+   (and comes back as it was when the report closes). */
+.pl-app:has(.pl-report-view) > :not(.pl-report-view) { display: none !important; }
+.pl-report-view { min-height: 100vh; background: #e9e6df; }
 .pl-report-tools {
   position: sticky; top: 0; z-index: 1; display: flex; flex-wrap: wrap; gap: 8px; align-items: center;
   padding: 8px 12px; background: #0b4f5c; color: #fff;
@@ -50,7 +50,14 @@ const reportCSS = `/* The printable report (app/ui/report.go). The same text is 
 .pl-report-stamp-pass { color: #14532d; }
 .pl-report-stamp-fail { color: #9b1c1c; }
 .pl-report-plotgrid { display: grid; grid-template-columns: repeat(2, minmax(0, 1fr)); gap: 12px; }
-@media (max-width: 640px) { .pl-report-plotgrid { grid-template-columns: minmax(0, 1fr); } .pl-report { padding: 12px; margin: 0; border: 0; } }
+@media (max-width: 640px) {
+  .pl-report-plotgrid { grid-template-columns: minmax(0, 1fr); }
+  .pl-report { padding: 12px; margin: 0; border: 0; }
+  .pl-report-sec { overflow-x: auto; }
+  .pl-rt { font-size: 0.85rem; }
+  .pl-rt th, .pl-rt td { padding: 3px 4px; }
+  .pl-rt td:last-child { min-width: 11em; }
+}
 .pl-report-plot { margin: 0; }
 .pl-report-plot figcaption { font-weight: 600; font-size: 0.92rem; margin-bottom: 2px; }
 .pl-report-plot svg.pl-plot-svg { display: block; width: 100%; height: auto; }
@@ -62,8 +69,8 @@ body.pl-report-file { margin: 0; background: #e9e6df; }
 @media print {
   @page { size: A4; margin: 14mm 12mm; }
   html, body { background: #fff !important; }
-  .pl-app:has(.pl-report-view) > :not(.pl-report-view) { display: none !important; }
-  .pl-report-view { position: static; overflow: visible; background: #fff; }
+  .pl-report-view { background: #fff; }
+  .pl-report-sec { overflow: visible; }
   .pl-report-tools { display: none; }
   .pl-report { max-width: none; margin: 0; padding: 0; border: 0; font-size: 10.5pt; }
   .pl-report-sec { break-inside: auto; }
