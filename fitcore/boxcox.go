@@ -185,15 +185,11 @@ func bcNewProfile(x, y []float64) (*bcProfile, error) {
 func (p *bcProfile) logRSS(lam float64) float64 {
 	wAbs := math.Max(-p.wMin, p.wMax)
 	logScale := 0.0
-	if math.Abs(lam)*wAbs <= 100 {
-		for i, w := range p.w {
-			if lam == 0 {
-				p.u[i] = w
-			} else {
-				p.u[i] = math.Expm1(lam*w) / lam
-			}
-		}
-	} else {
+	// The mean of u is summed as u is made (the same sum, in the same order).
+	var mu float64
+	u := p.u[:len(p.w)]
+	switch {
+	case math.Abs(lam)*wAbs > 100:
 		// u ≡ e^{λw}/λ up to a constant = e^{λc}/λ · e^{λ(w−c)}, with c chosen
 		// so that every exponent is ≤ 0; RSS scales by e^{2λc}/λ².
 		c := p.wMax
@@ -201,25 +197,35 @@ func (p *bcProfile) logRSS(lam float64) float64 {
 			c = p.wMin
 		}
 		for i, w := range p.w {
-			p.u[i] = math.Exp(lam * (w - c))
+			v := math.Exp(lam * (w - c))
+			u[i] = v
+			mu += v
 		}
 		logScale = 2*lam*c - 2*math.Log(math.Abs(lam))
-	}
-	var mu float64
-	for _, v := range p.u {
-		mu += v
+	case lam == 0:
+		for i, w := range p.w {
+			u[i] = w
+			mu += w
+		}
+	default:
+		for i, w := range p.w {
+			v := math.Expm1(lam*w) / lam
+			u[i] = v
+			mu += v
+		}
 	}
 	mu /= float64(p.n)
+	xc := p.xc[:len(u)]
 	var sxy, syy float64
-	for i, v := range p.u {
+	for i, v := range u {
 		d := v - mu
-		sxy += p.xc[i] * d
+		sxy += xc[i] * d
 		syy += d * d
 	}
 	b := sxy / p.sxx
 	var rss float64
-	for i, v := range p.u {
-		r := v - mu - b*p.xc[i]
+	for i, v := range u {
+		r := v - mu - b*xc[i]
 		rss += r * r
 	}
 	// An exact fit would make ℓ infinite; floor the RSS at the rounding level
