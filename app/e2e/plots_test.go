@@ -255,10 +255,10 @@ func TestThemesAndLayout(t *testing.T) {
 // asserted (no wall-clock assertions in tests); the thinning is asserted.
 func TestPlotsSpeed(t *testing.T) {
 	srv := startServer(t)
-	b := newBrowser(t, tablet)
-	b.do(t, chromedp.Navigate(srv.URL))
-	waitFor(t, b, "the app to start", appReady, 60*time.Second)
-	for _, n := range []int{1000} {
+	for _, n := range []int{1000, 10000} {
+		b := newBrowser(t, tablet)
+		b.do(t, chromedp.Navigate(srv.URL))
+		waitFor(t, b, "the app to start", appReady, 60*time.Second)
 		now := time.Date(2026, 6, 1, 9, 0, 0, 0, time.UTC)
 		s, err := session.New(fmt.Sprintf("Invented load test, %d readings", n), now, nil)
 		if err != nil {
@@ -311,7 +311,7 @@ func TestPlotsSpeed(t *testing.T) {
 			};
 			tick();
 		})`, n-1, n-1))
-		t.Logf("%d readings: leaving one out → line, checks and plots updated in %.0f ms", n, ms)
+		t.Logf("%d readings: leaving one out → line, checks and plots updated in %.0f ms (plots wait %v after an edit from %d readings)", n, ms, 150*time.Millisecond, 1000)
 		ms = eval[float64](t, b, `new Promise(res => {
 			const t0 = performance.now();
 			document.querySelector('[data-testid="report-open"]').click();
