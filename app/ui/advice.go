@@ -56,8 +56,9 @@ func anWithRemedy(st session.Settings, ad *fitcore.Advice) session.Settings {
 	return s
 }
 
-// anRevert returns the settings without the applied remedy: those before
-// the last apply when known, the plain least-squares line otherwise.
+// anRevert stores the settings without the applied remedy: those before
+// the last apply when known (and they had none), otherwise the same
+// settings with no transform and no weights.
 func (c *Shell) anRevert(ctx app.Context) {
 	s := c.anSettings()
 	if c.anUndo != nil && c.anUndoFor == c.sess.ID && !anApplied(*c.anUndo) {

@@ -127,6 +127,12 @@ func (c *Shell) anInverseResult() app.UI {
 	el := app.Div().Class("an-answer").DataSet("testid", "inverse-result").
 		DataSet("value", numfmt.Full(inv.X)).DataSet("low", numfmt.Full(inv.Low)).DataSet("high", numfmt.Full(inv.High)).
 		DataSet("bounded", strconv.FormatBool(inv.Bounded)).DataSet("m", strconv.Itoa(inv.M))
+	if !inv.Bounded && inv.SE == 0 && inv.X == 0 {
+		// fitcore could not read an x back (a reading off the fitted
+		// scale, a zero slope): only its sentence is shown.
+		return el.DataSet("failed", "true").Body(
+			app.P().Class("an-warn-text").DataSet("testid", "inverse-message").Text("▲ " + inv.Message))
+	}
 	mean := "The reading " + numfmt.Sig(inv.Y, sig)
 	if inv.M > 1 {
 		mean = "The mean of " + strconv.Itoa(inv.M) + " readings, " + numfmt.Sig(inv.Y, sig) + ","
