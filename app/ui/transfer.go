@@ -437,6 +437,37 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 	}
 	sum := csvSummary{}
 	started := time.Now()
+	if chunked {
+		ctx.Dispatch(func(ctx app.Context) { c.importPhase = "reading the readings" })
+		var parts []*session.CSVResult
+		var offsets []int
+		blank, err := readChunks(data, probe, xCol, yCol, chunkLines, func(res *session.CSVResult, offset int) error {
+			parts, offsets = append(parts, res), append(offsets, offset)
+			return nil
+		}, func(done float64) {
+			ctx.Dispatch(func(ctx app.Context) { c.progress = 0.8 * done })
+			time.Sleep(time.Millisecond) // give the page its turn
+		})
+		// A chunk read alone can differ from the whole file (a chunk whose
+		// rows are all short, say): then the whole file decides.
+		chunked = err == nil
+		for i, res := range parts {
+			if !chunked {
+				break
+			}
+			if _, err := s.Import(res, now); err != nil {
+				fail(err)
+				return
+			}
+			sum.add(res, offsets[i])
+			if i%10 == 9 {
+				p := 0.8 + 0.2*float64(i+1)/float64(len(parts))
+				ctx.Dispatch(func(ctx app.Context) { c.progress = p })
+				time.Sleep(time.Millisecond)
+			}
+		}
+		sum.blank += blank
+	}
 	if !chunked {
 		res, err := session.ReadCSV(bytes.NewReader(data), session.CSVOptions{XCol: xCol, YCol: yCol})
 		if err == nil {
@@ -447,48 +478,6 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 			return
 		}
 		sum.add(res, 0)
-	} else {
-		dc, hdr, noHdr := probe.DecimalComma, probe.HasHeader, false
-		opt := session.CSVOptions{Delimiter: probe.Delimiter, DecimalComma: &dc, Header: &hdr, XCol: xCol, YCol: yCol}
-		line := 0
-		for start := 0; start < len(data); {
-			end, lines := start, 0
-			for end < len(data) && lines < chunkLines {
-				i := bytes.IndexByte(data[end:], '\n')
-				if i < 0 {
-					end = len(data)
-				} else {
-					end += i + 1
-				}
-				lines++
-			}
-			if start == 0 {
-				ctx.Dispatch(func(ctx app.Context) { c.importPhase = "reading the readings" })
-			}
-			res, err := session.ReadCSV(bytes.NewReader(data[start:end]), opt)
-			switch {
-			case errors.Is(err, session.ErrCSVNoData):
-				sum.blank += lines
-			case err != nil:
-				var ce *session.CSVError
-				if errors.As(err, &ce) && ce.Line > 0 {
-					ce.Line += line
-				}
-				fail(err)
-				return
-			default:
-				if _, err := s.Import(res, now); err != nil {
-					fail(err)
-					return
-				}
-				sum.add(res, line)
-			}
-			opt.Header = &noHdr
-			start, line = end, line+lines
-			p := float64(end) / float64(len(data))
-			ctx.Dispatch(func(ctx app.Context) { c.progress = p })
-			time.Sleep(time.Millisecond) // give the page its turn
-		}
 	}
 	if len(s.Readings) == 0 {
 		fail(&session.CSVError{Err: session.ErrCSVNoData})
@@ -527,6 +516,59 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 		c.importReport = report
 		c.announceSaved(ctx, job.sum)
 	})
+}
+
+// readChunks reads a table n lines at a time with the delimiter, decimal
+// mark and header the probe found and the columns xCol and yCol. It calls
+// each with every chunk's result and the number of file lines before the
+// chunk (add it to the result's line numbers), then pause with the share of
+// the bytes read. It returns the blank lines of chunks that hold no data
+// row. Errors are those of session.ReadCSV with file line numbers. The text
+// must not hold quotes (a quoted value may span lines) and must be UTF-8
+// without a byte-order mark; otherwise read it whole.
+func readChunks(data []byte, probe *session.CSVResult, xCol, yCol, n int, each func(*session.CSVResult, int) error, pause func(float64)) (int, error) {
+	dc, hdr, noHdr := probe.DecimalComma, probe.HasHeader, false
+	opt := session.CSVOptions{Delimiter: probe.Delimiter, DecimalComma: &dc, Header: &hdr, XCol: xCol, YCol: yCol}
+	line, blank := 0, 0
+	for start := 0; start < len(data); {
+		end, lines := start, 0
+		for end < len(data) && lines < n {
+			i := bytes.IndexByte(data[end:], '\n')
+			if i < 0 {
+				end = len(data)
+			} else {
+				end += i + 1
+			}
+			lines++
+		}
+		chunk := data[start:end]
+		res, err := session.ReadCSV(bytes.NewReader(chunk), opt)
+		filled := len(bytes.TrimSpace(chunk)) > 0 // holds the header, if the file has one
+		switch {
+		case errors.Is(err, session.ErrCSVNoData):
+			if !filled {
+				blank += lines
+			}
+		case err != nil:
+			var ce *session.CSVError
+			if errors.As(err, &ce) && ce.Line > 0 {
+				ce.Line += line
+			}
+			return blank, err
+		default:
+			if err := each(res, line); err != nil {
+				return blank, err
+			}
+		}
+		if filled {
+			opt.Header = &noHdr
+		}
+		start, line = end, line+lines
+		if pause != nil {
+			pause(float64(end) / float64(len(data)))
+		}
+	}
+	return blank, nil
 }
 
 // csvSummary adds up the chunks of a table.
