@@ -279,6 +279,12 @@ func TestTransferRoundTrip(t *testing.T) {
 	}
 	checkPairs(t, b, [][2]string{{"1", "20,5"}, {"2", "20,7"}, {"3", "21,0"}, {"4", "21,2"}, {"5", "21,4"}})
 	screenshot(t, b, "transfer-tablet")
+
+	// The installed app opens session files: the manifest the page links
+	// declares them (W3C Web Application Manifest, WICG File Handling).
+	if ext := eval[[]string](t, b, `fetch(document.querySelector('link[rel="manifest"]').href).then(r => r.json()).then(m => m.file_handlers[0].accept["application/vnd.pairline.session"])`); len(ext) != 1 || ext[0] != ".pairline" {
+		t.Errorf("the manifest's file_handlers accept %v for session files, want [.pairline]", ext)
+	}
 	if bad := b.foreign(srv.URL); len(bad) > 0 {
 		t.Errorf("requests left the app's origin: %v", bad)
 	}
