@@ -5,6 +5,7 @@ import (
 	"math"
 	"reflect"
 	"slices"
+	"sync"
 )
 
 // Analyze fits a straight line to the pairs (x[i], y[i]) as opt asks and
@@ -30,7 +31,8 @@ func Analyze(x, y []float64, opt Options) (*Report, error) {
 // anScratch is the work space one analysis shares with the refits of its
 // advice (which all see the same x).
 type anScratch struct {
-	sb     ckSortBuf
+	sb     ckSortBuf // Shapiro–Wilk's
+	xsb    ckSortBuf // the order of x
 	x      []float64 // the readings xOrder belongs to
 	xOrder []int32   // positions of x in ascending order; nil when x is in order
 
@@ -61,6 +63,10 @@ func (s *anScratch) boxCox(x, y []float64, level float64) (*BoxCox, error) {
 	return s.bc, s.bcErr
 }
 
+// anParallelMin is the number of readings from which the checks run side
+// by side (below it, starting goroutines costs more than it saves).
+const anParallelMin = 20000
+
 // orderOf returns the positions of x in ascending order (nil when x is
 // already in order), sorting only the first time it is asked about these
 // readings.
@@ -72,7 +78,7 @@ func (s *anScratch) orderOf(x []float64) []int32 {
 	if ckAscending(x) {
 		s.xOrder = nil
 	} else {
-		s.xOrder = slices.Clone(s.sb.order(x))
+		s.xOrder = slices.Clone(s.xsb.order(x))
 	}
 	return s.xOrder
 }
@@ -222,25 +228,50 @@ func (fc *fitContext) runChecks() {
 	pre.xyValid = ckValidate(xs, ys, w, "y value") == ""
 	pre.residValid = ckValidate(xs, pr, nil, "residual") == ""
 	inflValid := pre.residValid && (w == nil || ckValidate(xs, res, w, "residual") == "")
-	c.Curvature = curvatureTest(xs, ys, w, rep.Level, pre)
-	if pre.xyValid {
-		// Any order that sorts x also sorts xs, which is x scaled by a
-		// power of two or on a log scale.
-		c.LackOfFit = lackOfFit(xs, ys, w, origin, fc.sc.orderOf(fc.x))
-	} else {
-		c.LackOfFit = LackOfFit(xs, ys, w, origin)
+	// Three independent groups of work: Shapiro–Wilk (a sort of all
+	// residuals), the influence of each reading, and the other checks. On
+	// a large record they run side by side. Each computes exactly what it
+	// would alone, so the results do not depend on this.
+	sw := func() { c.ShapiroWilk = shapiroWilkCheck(pr, &fc.sc.sb, pre.residValid) }
+	others := func() {
+		c.Curvature = curvatureTest(xs, ys, w, rep.Level, pre)
+		if pre.xyValid {
+			// Any order that sorts x also sorts xs, which is x scaled by a
+			// power of two or on a log scale.
+			c.LackOfFit = lackOfFit(xs, ys, w, origin, fc.sc.orderOf(fc.x))
+		} else {
+			c.LackOfFit = LackOfFit(xs, ys, w, origin)
+		}
+		c.BreuschPagan = ckSpread("Breusch–Pagan", xs, pr, false, pre)
+		c.White = ckSpread("White", xs, pr, true, pre)
+		c.DurbinWatson = durbinWatson(xs, pr, origin, pre)
+		c.Runs = runsTest(pr, pre.residValid)
 	}
-	c.BreuschPagan = ckSpread("Breusch–Pagan", xs, pr, false, pre)
-	c.White = ckSpread("White", xs, pr, true, pre)
-	c.DurbinWatson = durbinWatson(xs, pr, origin, pre)
-	c.Runs = runsTest(pr, pre.residValid)
-	c.ShapiroWilk = shapiroWilkCheck(pr, &fc.sc.sb, pre.residValid)
+	var inflSummary Assumption
+	infl := func() {
+		if fc.sc.refit {
+			// A candidate needs only the influence summary.
+			inflSummary = influenceSummary(xs, res, w, origin, inflValid)
+		} else {
+			rep.Influence = influence(xs, res, w, origin, inflValid)
+		}
+	}
+	if len(pr) >= anParallelMin {
+		var wg sync.WaitGroup
+		wg.Add(2)
+		go func() { defer wg.Done(); sw() }()
+		go func() { defer wg.Done(); others() }()
+		infl()
+		wg.Wait()
+	} else {
+		sw()
+		others()
+		infl()
+	}
 	if fc.sc.refit {
-		// A candidate needs only the influence summary.
-		rep.Assumptions = summarize(rep.Checks, influenceSummary(xs, res, w, origin, inflValid))
+		rep.Assumptions = summarize(rep.Checks, inflSummary)
 		return
 	}
-	rep.Influence = influence(xs, res, w, origin, inflValid)
 	if scaled {
 		for i := range rep.Influence {
 			rep.Influence[i].Residual /= f.ky
