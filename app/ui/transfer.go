@@ -993,6 +993,10 @@ func (c *Shell) renderTransferStrips() app.UI {
 		app.If(c.conflict != nil && len(c.conflict.pending) > 0, c.renderConflict),
 		app.If(c.choice != nil, c.renderColumnChoice),
 		app.If(c.elsewhere != nil, c.renderElsewhere),
+		app.If(c.saveState == "failed" && c.saveMessage == store.ErrQuota.Error(), func() app.UI {
+			return app.Div().Class("pl-strip pl-xfer-full").DataSet("testid", "storage-full").Attr("role", "alert").
+				Text("⚠ The device is full. The last change was not saved; what was saved before it is kept. Export this session, then delete old sessions to make room.")
+		}),
 	)
 }
 
@@ -1093,9 +1097,5 @@ func (c *Shell) renderTransfer() app.UI {
 		app.P().Class("pl-xfer-usage").DataSet("testid", "storage-usage").
 			DataSet("used", strconv.FormatInt(c.usage.Used, 10)).DataSet("quota", strconv.FormatInt(c.usage.Quota, 10)).
 			DataSet("persistent", strconv.FormatBool(c.usage.Persistent)).Text(c.usageText()),
-		app.If(c.saveState == "failed" && c.saveMessage == store.ErrQuota.Error(), func() app.UI {
-			return app.P().Class("pl-xfer-full").DataSet("testid", "storage-full").Attr("role", "alert").
-				Text("⚠ The device is full. The last change was not saved; what was saved before it is kept. Export this session, then delete old sessions to make room.")
-		}),
 	)
 }
