@@ -38,6 +38,23 @@ func BenchmarkAnalyze(b *testing.B) {
 	}
 }
 
+// BenchmarkAnalyzeAdvice is the full analysis of an invented record whose
+// scatter grows along x and that bends slightly (benchData), so the advice
+// refits all six remedies and the Box–Cox profile is computed.
+func BenchmarkAnalyzeAdvice(b *testing.B) {
+	for _, n := range lnBenchSizes[1:] {
+		x, y, _ := benchData(n)
+		b.Run("n="+strconv.Itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := Analyze(x, y, Options{}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
 // BenchmarkFitLine is the plain least-squares fit (slope, intercept, SSE,
 // R² with iterative refinement), beside gonum's stat.LinearRegression +
 // stat.RSquared on the same data.
