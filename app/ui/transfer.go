@@ -441,12 +441,18 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 		ctx.Dispatch(func(ctx app.Context) { c.importPhase = "reading the readings" })
 		var parts []*session.CSVResult
 		var offsets []int
+		shown := time.Now()
 		blank, err := readChunks(data, probe, xCol, yCol, chunkLines, func(res *session.CSVResult, offset int) error {
 			parts, offsets = append(parts, res), append(offsets, offset)
 			return nil
 		}, func(done float64) {
-			ctx.Dispatch(func(ctx app.Context) { c.progress = 0.8 * done })
-			time.Sleep(time.Millisecond) // give the page its turn
+			// Every redraw of the page costs time too: show progress a few
+			// times a second, but let the page have its turn after every chunk.
+			if time.Since(shown) > 150*time.Millisecond {
+				shown = time.Now()
+				ctx.Dispatch(func(ctx app.Context) { c.progress = 0.8 * done })
+			}
+			time.Sleep(time.Millisecond)
 		})
 		// A chunk read alone can differ from the whole file (a chunk whose
 		// rows are all short, say): then the whole file decides.
