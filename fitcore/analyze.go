@@ -253,7 +253,9 @@ func (fc *fitContext) runChecks() {
 			// A candidate needs only the influence summary.
 			inflSummary = influenceSummary(xs, res, w, origin, inflValid)
 		} else {
-			rep.Influence = influence(xs, res, w, origin, inflValid)
+			var masks []uint8
+			rep.Influence, masks = influenceRun(xs, res, w, origin, inflValid, true)
+			inflSummary = ckInfluenceFromMasks(masks)
 		}
 	}
 	if len(pr) >= anParallelMin {
@@ -272,6 +274,8 @@ func (fc *fitContext) runChecks() {
 		rep.Assumptions = summarize(rep.Checks, inflSummary)
 		return
 	}
+	// inflSummary is what Summarize(rep.Checks, rep.Influence) words, from
+	// the same reason bits, without reading the results back.
 	if scaled {
 		for i := range rep.Influence {
 			rep.Influence[i].Residual /= f.ky
@@ -283,7 +287,7 @@ func (fc *fitContext) runChecks() {
 		c.XExactness = &ck
 		xa = &a
 	}
-	rep.Assumptions = Summarize(rep.Checks, rep.Influence)
+	rep.Assumptions = summarize(rep.Checks, inflSummary)
 	if xa != nil && rep.Assumptions.XExactness == nil {
 		rep.Assumptions.XExactness = xa
 	}
@@ -431,6 +435,11 @@ func scrubValue(v reflect.Value) int {
 			n := 0
 			for i := range pi {
 				p := &pi[i]
+				// x − x is 0 for every finite x and NaN otherwise: one
+				// test for the six numbers of a reading.
+				if s := p.Leverage + p.Residual + p.Studentized + p.OutlierP + p.CooksD + p.DFFITS; s-s == 0 {
+					continue
+				}
 				for _, f := range []*float64{&p.Leverage, &p.Residual, &p.Studentized, &p.OutlierP, &p.CooksD, &p.DFFITS} {
 					if !isFiniteNum(*f) {
 						*f = 0

@@ -72,6 +72,12 @@ func influence(x, resid, w []float64, origin, valid bool) []PointInfluence {
 // resid, w, origin), found without keeping the per-reading results.
 func influenceSummary(x, resid, w []float64, origin, valid bool) Assumption {
 	_, masks := influenceRun(x, resid, w, origin, valid, false)
+	return ckInfluenceFromMasks(masks)
+}
+
+// ckInfluenceFromMasks is ckSummarizeInfluence from the reason bits of
+// influenceRun (nil: Influence gave no results).
+func ckInfluenceFromMasks(masks []uint8) Assumption {
 	if masks == nil {
 		return ckInfluenceNA()
 	}
