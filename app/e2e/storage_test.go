@@ -166,7 +166,7 @@ func TestCapacity(t *testing.T) {
 		ms := eval[float64](t, b, `(async () => {
 			const t0 = performance.now();
 			document.querySelector('[data-testid="sessions-open"]').click();
-			while (document.querySelectorAll('[data-testid="session-item"]').length < 50)
+			while (document.querySelectorAll('[data-testid="session-item"]').length < 30)
 				await new Promise(r => setTimeout(r, 0));
 			await new Promise(r => requestAnimationFrame(() => r()));
 			return performance.now() - t0;
@@ -187,7 +187,7 @@ func TestCapacity(t *testing.T) {
 		})()`))
 	}
 	t.Logf("closing it again (the page without the list): %.0f ms, %.0f ms, %.0f ms", closes[0], closes[1], closes[2])
-	t.Logf("opening the session list with %d sessions (the newest 50 drawn, more on request): %.0f ms, %.0f ms, %.0f ms (click to drawn)",
+	t.Logf("opening the session list with %d sessions (the newest 30 drawn, more on request): %.0f ms, %.0f ms, %.0f ms (click to drawn)",
 		eval[int](t, b, `+document.querySelector('[data-testid="sessions-open"]').textContent.match(/\d+/)[0]`), opens[0], opens[1], opens[2])
 	u := attr(t, b, "storage-usage", "data-used")
 	t.Logf("storage used: %s bytes (%s)", u, text(t, b, "storage-usage"))

@@ -87,7 +87,7 @@ func (c *Shell) restore(ctx app.Context, id string) {
 // listPage is how many sessions the list draws at first (newest first) and
 // adds with each "show more": drawing hundreds of entries at once would make
 // the list slow to open on a tablet.
-const listPage = 50
+const listPage = 30
 
 // listShown returns the sessions the list draws.
 func (c *Shell) listShown() []store.Summary {
