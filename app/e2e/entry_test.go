@@ -79,8 +79,10 @@ func TestSessionList(t *testing.T) {
 	waitFor(t, b, "the new title in the list", `[...document.querySelectorAll('[data-testid="session-item"]')].some(e => e.textContent.includes("Probe C-14 check (invented)"))`, 10*time.Second)
 	screenshot(t, b, "sessions-tablet")
 
-	// Open it: its reading is there.
-	b.do(t, chromedp.Click(chromedp.CSS(`[data-testid="session-item"]:nth-child(2) [data-testid="session-open"]`)))
+	// Open it (renaming made it the newest, so it is listed first now): its
+	// reading is there.
+	eval[bool](t, b, `(() => { const it = [...document.querySelectorAll('[data-testid="session-item"]')].find(e => e.textContent.includes("Probe C-14 check (invented)"));
+		it.querySelector('[data-testid="session-open"]').click(); return true })()`)
 	waitFor(t, b, "the renamed session open", `document.querySelector('[data-testid="x-input-0"]').value === "10"`, 10*time.Second)
 	if got := eval[string](t, b, `document.querySelector('[data-testid="session-title"]').value`); got != "Probe C-14 check (invented)" {
 		t.Errorf("title %q", got)
@@ -137,4 +139,54 @@ func TestEditLatency100(t *testing.T) {
 		times = append(times, ms)
 	}
 	t.Logf("edit to updated slope at 100 readings: %v ms (10 edits)", times)
+}
+
+// Long sessions are paged; an edit on the second page lands in the right
+// reading (go-app reuses the row elements of the first page) and the first
+// page's readings are untouched.
+func TestPagingEditsTheRightRow(t *testing.T) {
+	srv := startServer(t)
+	b := newBrowser(t, tablet)
+	b.do(t, chromedp.Navigate(srv.URL))
+	waitFor(t, b, "the app", appReady, 60*time.Second)
+	eval[bool](t, b, `(async () => {
+		const q = (id) => document.querySelector('[data-testid="' + id + '"]');
+		const until = async (f) => { while (!f()) await new Promise(r => setTimeout(r, 5)); };
+		for (let i = 0; i < 101; i++) {
+			await until(() => q('x-input-' + i));
+			const x = q('x-input-' + i);
+			x.value = String(i + 1); x.dispatchEvent(new Event('input', {bubbles: true}));
+			const y = q('y-input-' + i);
+			y.value = String(3 * (i + 1)); y.dispatchEvent(new Event('input', {bubbles: true}));
+			if (i < 100) y.dispatchEvent(new KeyboardEvent('keydown', {key: 'Enter', bubbles: true}));
+		}
+		return true; })()`)
+	waitFor(t, b, "101 pairs", `document.querySelector('[data-testid="usable-count"]')?.dataset.value === "101"`, 30*time.Second)
+	if got := eval[string](t, b, `document.querySelector('[data-testid="page-info"]').textContent`); !strings.Contains(got, "101–101 of 101") {
+		t.Errorf("page info %q", got)
+	}
+	// Back to page 1: the first row shows reading 1, not reading 101.
+	b.do(t, chromedp.Click(sel("page-prev")))
+	waitFor(t, b, "page 1", `!!document.querySelector('[data-testid="x-input-0"]')`, 5*time.Second)
+	if got := eval[string](t, b, `document.querySelector('[data-testid="x-input-0"]').value`); got != "1" {
+		t.Errorf("row 1 shows %q after paging back, want 1", got)
+	}
+	setCell(t, b, "x-input-0", "1.5")
+	b.do(t, chromedp.Click(sel("page-next")))
+	waitFor(t, b, "page 2", `!!document.querySelector('[data-testid="x-input-100"]')`, 5*time.Second)
+	setCell(t, b, "y-input-100", "303.5")
+	waitFor(t, b, "the save", `document.querySelector('[data-testid="save-status"]').dataset.state === "saved"`, 10*time.Second)
+	b.do(t, chromedp.Reload())
+	waitFor(t, b, "the app after reload", appReady, 30*time.Second)
+	if got := eval[string](t, b, `document.querySelector('[data-testid="x-input-0"]').value`); got != "1.5" {
+		t.Errorf("row 1 x = %q after reload, want 1.5", got)
+	}
+	if got := eval[string](t, b, `document.querySelector('[data-testid="y-input-0"]').value`); got != "3" {
+		t.Errorf("row 1 y = %q after reload, want 3 (an edit on page 2 landed on page 1)", got)
+	}
+	b.do(t, chromedp.Click(sel("page-next")))
+	waitFor(t, b, "page 2", `!!document.querySelector('[data-testid="y-input-100"]')`, 5*time.Second)
+	if got := eval[string](t, b, `document.querySelector('[data-testid="y-input-100"]').value`); got != "303.5" {
+		t.Errorf("row 101 y = %q after reload, want 303.5", got)
+	}
 }

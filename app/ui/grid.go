@@ -134,6 +134,10 @@ func (c *Shell) cell(row int, col session.Column, testid, text, problem string) 
 	if col == session.ColumnY {
 		label = "y"
 	}
+	// go-app keeps an element's handler when the new one comes from the same
+	// function literal; the scope makes a handler follow its row and column
+	// (and session) when rows are reused on another page or session.
+	scope := app.EventScope(c.sess.ID, row, int(col))
 	in := app.Input().Type("text").Class("pl-cell").Value(text).
 		Attr("inputmode", "decimal").Attr("autocomplete", "off").Attr("enterkeyhint", "next").
 		Attr("aria-label", label+" of reading "+strconv.Itoa(row+1)).
@@ -144,14 +148,14 @@ func (c *Shell) cell(row int, col session.Column, testid, text, problem string) 
 				return
 			}
 			c.edited(ctx)
-		}).
+		}, scope).
 		OnKeyDown(func(ctx app.Context, e app.Event) {
 			if e.Get("key").String() != "Enter" {
 				return
 			}
 			e.PreventDefault()
 			c.enter(ctx, row, col)
-		})
+		}, scope)
 	if problem != "" {
 		in = in.Attr("aria-invalid", "true").Attr("title", problem)
 	}

@@ -26,6 +26,9 @@ func (c *Shell) renderSessions() app.UI {
 }
 
 func (c *Shell) sessionItem(s store.Summary) app.UI {
+	// The scope ties each handler to its session: go-app would otherwise keep
+	// the first handler of a reused list element (same function literal).
+	scope := app.EventScope(s.ID)
 	open := c.sess != nil && c.sess.ID == s.ID
 	cls := "pl-session"
 	if open {
@@ -35,32 +38,32 @@ func (c *Shell) sessionItem(s store.Summary) app.UI {
 		return app.Li().Class(cls).DataSet("testid", "session-item").DataSet("id", s.ID).Body(
 			app.Input().Type("text").Class("pl-rename").Value(c.renameText).DataSet("testid", "session-rename-input").
 				Attr("aria-label", "New title").
-				OnInput(func(ctx app.Context, e app.Event) { c.renameText = ctx.JSSrc().Get("value").String() }),
+				OnInput(func(ctx app.Context, e app.Event) { c.renameText = ctx.JSSrc().Get("value").String() }, scope),
 			app.Button().Class("pl-btn").Text("Save title").DataSet("testid", "session-rename-save").
-				OnClick(func(ctx app.Context, e app.Event) { c.rename(ctx, s.ID, c.renameText) }),
+				OnClick(func(ctx app.Context, e app.Event) { c.rename(ctx, s.ID, c.renameText) }, scope),
 			app.Button().Class("pl-btn pl-btn-quiet").Text("Cancel").
-				OnClick(func(ctx app.Context, e app.Event) { c.renaming = "" }),
+				OnClick(func(ctx app.Context, e app.Event) { c.renaming = "" }, scope),
 		)
 	}
 	if c.confirmDel == s.ID {
 		return app.Li().Class(cls+" pl-session-confirm").DataSet("testid", "session-item").DataSet("id", s.ID).Body(
 			app.P().Text("Move “"+s.Title+"” to the trash? It can be restored for "+strconv.Itoa(store.TrashDays)+" days."),
 			app.Button().Class("pl-btn pl-btn-danger").Text("Move to trash").DataSet("testid", "session-delete-confirm").
-				OnClick(func(ctx app.Context, e app.Event) { c.delete(ctx, s.ID) }),
+				OnClick(func(ctx app.Context, e app.Event) { c.delete(ctx, s.ID) }, scope),
 			app.Button().Class("pl-btn pl-btn-quiet").Text("Keep it").
-				OnClick(func(ctx app.Context, e app.Event) { c.confirmDel = "" }),
+				OnClick(func(ctx app.Context, e app.Event) { c.confirmDel = "" }, scope),
 		)
 	}
 	return app.Li().Class(cls).DataSet("testid", "session-item").DataSet("id", s.ID).Body(
 		app.Button().Class("pl-session-open-btn").DataSet("testid", "session-open").
-			OnClick(func(ctx app.Context, e app.Event) { c.open(ctx, s.ID) }).Body(
+			OnClick(func(ctx app.Context, e app.Event) { c.open(ctx, s.ID) }, scope).Body(
 			app.Span().Class("pl-session-title").Text(s.Title),
 			app.Span().Class("pl-session-meta").Text(sessionMeta(s)),
 		),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Rename").DataSet("testid", "session-rename").
-			OnClick(func(ctx app.Context, e app.Event) { c.renaming, c.renameText = s.ID, s.Title }),
+			OnClick(func(ctx app.Context, e app.Event) { c.renaming, c.renameText = s.ID, s.Title }, scope),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Delete").DataSet("testid", "session-delete").
-			OnClick(func(ctx app.Context, e app.Event) { c.confirmDel = s.ID }),
+			OnClick(func(ctx app.Context, e app.Event) { c.confirmDel = s.ID }, scope),
 	)
 }
 
