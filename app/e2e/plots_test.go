@@ -312,6 +312,7 @@ func TestPlotsSpeed(t *testing.T) {
 			tick();
 		})`, n-1, n-1))
 		t.Logf("%d readings: leaving one out → line, checks and plots updated in %.0f ms (plots wait %v after an edit from %d readings)", n, ms, 150*time.Millisecond, 1000)
+		screenshot(t, b, fmt.Sprintf("speed-%d", n))
 		ms = eval[float64](t, b, `new Promise(res => {
 			const t0 = performance.now();
 			document.querySelector('[data-testid="report-open"]').click();
@@ -319,7 +320,6 @@ func TestPlotsSpeed(t *testing.T) {
 			tick();
 		})`)
 		t.Logf("%d readings: report open in %.0f ms", n, ms)
-		screenshot(t, b, fmt.Sprintf("speed-%d", n))
 		fuClick(t, b, "report-close")
 		waitFor(t, b, "the report closed", `!document.querySelector('[data-testid="report"]')`, 20*time.Second)
 	}

@@ -31,6 +31,7 @@ func (c *Shell) loadDemo(ctx app.Context, e app.Event) {
 		}
 	}
 	st := c.st
+	ctx = c.shellCtx(ctx)
 	ctx.Async(func() {
 		ss, err := demo.Sessions(time.Now(), nil)
 		if err == nil {

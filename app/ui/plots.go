@@ -362,22 +362,37 @@ func (c *Shell) renderPlots() app.UI {
 	return app.Section().Class("pl-card pl-plots").Attr("aria-label", "Plots").Body(
 		app.H2().Text("Plots"),
 		app.P().Class("pl-plot-hint").Text("Tap a point to see that reading and to leave it out of the line or put it back."),
-		app.If(c.plStale, func() app.UI {
-			return app.P().Class("pl-plot-thinned").DataSet("testid", "plot-stale").Text("Updating the plots after your last change…")
-		}),
-		app.If(ps.Drawn < ps.Total, func() app.UI {
-			return app.P().Class("pl-plot-thinned").DataSet("testid", "plot-thinned").DataSet("value", strconv.Itoa(ps.Drawn)).
-				Text("Drawing " + strconv.Itoa(ps.Drawn) + " of " + strconv.Itoa(ps.Total) + " readings (every flagged reading and the extremes are drawn); the figures use all of them.")
-		}),
+		// The notes and the grid keep their places whether shown or not, so
+		// that go-app never re-mounts the plots because a sibling came or went.
+		app.P().Class("pl-plot-thinned").DataSet("testid", "plot-stale").Hidden(!c.plStale).
+			Text(staleText(c.plStale)),
+		app.P().Class("pl-plot-thinned").DataSet("testid", "plot-thinned").DataSet("value", strconv.Itoa(ps.Drawn)).
+			Hidden(ps.Drawn >= ps.Total).Text(thinText(ps)),
 		app.Div().Class("pl-plots-grid").OnClick(c.onPlotTap).Body(
 			plFigure("Readings and the fitted line", ps.Fit, plLegend(c.view.report.Level)),
-			app.If(c.plSel > 0, c.renderPointPanel),
-			app.If(c.plSel > 0, func() app.UI { return app.Raw(selectionStyle(c.plSel - 1)) }),
 			plFigure("Residuals against fitted values", ps.Residuals, nil),
 			plFigure("Residuals in the order entered", ps.Order, nil),
 			plFigure("Normal Q–Q plot of the residuals", ps.QQ, nil),
+			// Last in the markup (the stylesheet places the panel beside
+			// the first plot), so that showing it moves no plot.
+			app.If(c.plSel > 0, c.renderPointPanel),
+			app.If(c.plSel > 0, func() app.UI { return app.Raw(selectionStyle(c.plSel - 1)) }),
 		),
 	)
+}
+
+func staleText(stale bool) string {
+	if stale {
+		return "Updating the plots after your last change…"
+	}
+	return ""
+}
+
+func thinText(ps plSet) string {
+	if ps.Drawn >= ps.Total {
+		return ""
+	}
+	return "Drawing " + strconv.Itoa(ps.Drawn) + " of " + strconv.Itoa(ps.Total) + " readings (every flagged reading and the extremes are drawn); the figures use all of them."
 }
 
 func plFigure(title, svg string, legend app.UI) app.UI {
@@ -539,7 +554,7 @@ func (c *Shell) excludePoint(ctx app.Context, row int) {
 		return
 	}
 	c.plReason, c.plMsg = "", ""
-	c.edited(ctx)
+	c.edited(c.shellCtx(ctx))
 }
 
 func (c *Shell) includePoint(ctx app.Context, row int) {
@@ -548,5 +563,15 @@ func (c *Shell) includePoint(ctx app.Context, row int) {
 		return
 	}
 	c.plMsg = ""
-	c.edited(ctx)
+	c.edited(c.shellCtx(ctx))
+}
+
+// shellCtx returns the Shell's own context when it has one: work that
+// edited schedules for later must not hang on the element that was tapped,
+// which the new render may remove (go-app then drops the work).
+func (c *Shell) shellCtx(ctx app.Context) app.Context {
+	if c.ui.Src() != nil {
+		return c.ui
+	}
+	return ctx
 }
