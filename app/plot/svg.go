@@ -46,7 +46,8 @@ type Path struct {
 }
 
 // Chart is one plot. Width and Height are the viewBox size (the SVG scales
-// to its container; 480×320 when zero). XRange/YRange fix the axes; nil
+// to its container; 400×300 when zero, small enough that the text stays
+// readable on a phone). XRange/YRange fix the axes; nil
 // fits them to the data with a little margin.
 type Chart struct {
 	TestID string // data-testid of the svg element
@@ -75,7 +76,7 @@ const (
 	marginTop    = 12.0
 	marginBottom = 54.0
 	fontSize     = 15.0
-	tickFont     = 13.5
+	tickFont     = 14
 )
 
 // Colours used as presentation attributes; the app's stylesheets override
@@ -133,10 +134,10 @@ func num(v float64) string {
 func (c *Chart) SVG() string {
 	w, h := c.Width, c.Height
 	if !(w > 0) {
-		w = 480
+		w = 400
 	}
 	if !(h > 0) {
-		h = 320
+		h = 300
 	}
 	xr, yr := c.ranges()
 	sx := Scale{D: xr, P0: marginLeft, P1: w - marginRight}
