@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -461,10 +462,12 @@ func ParsedPairs(res *CSVResult) (x, y []float64, lines []int, problems []CellPr
 	return x, y, lines, problems
 }
 
-// Import appends the readings of a CSV result to the session (one AddRow
-// each, so the history records them) and, when the session has not decided
-// how to read "1,234", takes the result's DecimalComma. It returns the
-// number of rows added.
+// Import appends the readings of a CSV result to the session and, when the
+// session has not decided how to read "1,234", takes the result's
+// DecimalComma. The history gets one "import" entry naming the number of
+// readings and the lines they came from, not one entry per cell: the file
+// itself is the record of what was read, and a 100,000-row import must not
+// become 300,000 history entries. It returns the number of rows added.
 func (s *Session) Import(res *CSVResult, now time.Time) (int, error) {
 	if len(s.Readings)+len(res.X) > MaxReadings {
 		return 0, fmt.Errorf("%w: the session would hold %d readings, at most %d are allowed", ErrBadValue, len(s.Readings)+len(res.X), MaxReadings)
@@ -474,9 +477,20 @@ func (s *Session) Import(res *CSVResult, now time.Time) (int, error) {
 			return 0, err
 		}
 	}
-	for i := range res.X {
-		s.AddRow(res.X[i], res.Y[i], now)
+	if len(res.X) == 0 {
+		return 0, nil
 	}
+	first := len(s.Readings)
+	taken := now.UTC()
+	s.Readings = slices.Grow(s.Readings, len(res.X))
+	for i := range res.X {
+		s.Readings = append(s.Readings, Reading{X: res.X[i], Y: res.Y[i], Taken: taken})
+	}
+	what := fmt.Sprintf("%d readings (rows %d–%d)", len(res.X), first+1, len(s.Readings))
+	if len(res.Lines) == len(res.X) {
+		what += fmt.Sprintf(" from lines %d–%d", res.Lines[0], res.Lines[len(res.Lines)-1])
+	}
+	s.record(now, "import", -1, "", what)
 	return len(res.X), nil
 }
 

@@ -165,6 +165,9 @@ func TestWriteReadRoundTrip(t *testing.T) {
 	if _, err := s2.Import(res, time.Date(2025, 3, 15, 0, 0, 0, 0, time.UTC)); err != nil {
 		t.Fatal(err)
 	}
+	if n := len(s2.History); n != 2 || s2.History[1].Field != "import" || !strings.Contains(s2.History[1].New, "readings (rows 1–") {
+		t.Errorf("an import is one history entry (after the decimal-comma choice); got %+v", s2.History)
+	}
 	x1, y1, _, _ := ParsedPairs(res)
 	x2, y2, _, _ := s2.Pairs()
 	if !reflect.DeepEqual(x1, x2) || !reflect.DeepEqual(y1, y2) {
