@@ -10,7 +10,6 @@ import (
 	"time"
 
 	"github.com/chromedp/chromedp"
-	"github.com/chromedp/chromedp/kb"
 )
 
 // fivePairs is a worked example small enough to check by hand (invented
@@ -39,14 +38,12 @@ func num(t *testing.T, b *browser, testid string) float64 {
 
 func near(a, b, tol float64) bool { return math.Abs(a-b) <= tol*math.Max(1, math.Abs(b)) }
 
-// typePairs types the pairs with the keyboard, moving on with Enter as a
-// technician does: Enter in x goes to y, Enter in y goes to the next row.
+// typePairs types the pairs from the first row with the keyboard, moving on
+// with Enter as a technician does: Enter in x goes to y, Enter in y goes to
+// the next row (typeSteady waits for the focus at each step).
 func typePairs(t *testing.T, b *browser, pairs [][2]string) {
 	t.Helper()
-	b.do(t, chromedp.Click(sel("x-input-0")))
-	for _, p := range pairs {
-		b.do(t, chromedp.KeyEvent(p[0]), chromedp.KeyEvent(kb.Enter), chromedp.KeyEvent(p[1]), chromedp.KeyEvent(kb.Enter))
-	}
+	typeSteady(t, b, 0, pairs)
 }
 
 // TestFoundation follows one technician: first visit, typing five pairs,
