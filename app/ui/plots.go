@@ -34,6 +34,7 @@ type plotsUI struct {
 	plCacheRep  *fitcore.Report
 	plCacheSess *session.Session
 	plCacheN    int
+	plCacheKey  plKey
 	plCache     plSet
 	plStale     bool            // the plots shown are older than the report
 	plWaitFor   *fitcore.Report // the report a delayed redraw is waiting for
@@ -309,6 +310,12 @@ func (c *Shell) plots() plSet {
 	if rep == c.plCacheRep && c.sess == c.plCacheSess && len(c.sess.Readings) == c.plCacheN {
 		return c.plCache
 	}
+	if k := c.plKeyNow(); rep != nil && k == c.plCacheKey {
+		// A second analysis of the same readings (the advice worked out
+		// after a pause) draws the same plots.
+		c.plCacheRep = rep
+		return c.plCache
+	}
 	if rep != nil && rep.N >= plotDeferN && c.sess == c.plCacheSess && c.plCacheRep != nil && c.ui.Src() != nil {
 		c.plStale = true
 		if c.plWaitFor != rep {
@@ -331,9 +338,32 @@ const (
 	plotIdle   = 150 * time.Millisecond
 )
 
+// plKey is what the plots are drawn from: the session and its last change,
+// and the fit's main figures.
+type plKey struct {
+	sess                 *session.Session
+	readings, hist       int
+	last                 session.Edit
+	n                    int
+	slope, icpt, se, lvl float64
+	model                fitcore.Model
+	transform            fitcore.Transform
+}
+
+func (c *Shell) plKeyNow() plKey {
+	k := plKey{sess: c.sess, readings: len(c.sess.Readings), hist: len(c.sess.History)}
+	if k.hist > 0 {
+		k.last = c.sess.History[k.hist-1]
+	}
+	if r := c.view.report; r != nil {
+		k.n, k.slope, k.icpt, k.se, k.lvl, k.model, k.transform = r.N, r.Slope.Estimate, r.Intercept.Estimate, r.ResidualSE, r.Level, r.Model, r.Transform
+	}
+	return k
+}
+
 func (c *Shell) plBuildNow() {
 	c.plCache = plBuild(c.sess, c.view.report, c.view.rows, c.plSel-1)
-	c.plCacheRep, c.plCacheSess, c.plCacheN = c.view.report, c.sess, len(c.sess.Readings)
+	c.plCacheRep, c.plCacheSess, c.plCacheN, c.plCacheKey = c.view.report, c.sess, len(c.sess.Readings), c.plKeyNow()
 	c.plStale, c.plWaitFor = false, nil
 }
 
