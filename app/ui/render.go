@@ -2,6 +2,7 @@ package ui
 
 import (
 	"strconv"
+	"strings"
 	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
@@ -36,11 +37,13 @@ func (c *Shell) Render() app.UI {
 			return app.Main().Class("pl-main").Body(app.P().Class("pl-wait").Text("Opening your sessions…"))
 		}).Else(func() app.UI {
 			return app.Main().Class("pl-main").Body(
+				c.renderJumps(),
 				c.renderReadings(),
 				c.renderLine(),
 				c.renderPlots(),
-				c.renderTransfer(),
-				c.renderChecks(), c.renderAdvice(), c.renderAcceptance(), c.renderUseLine(), c.renderSettings(),
+				c.renderChecks(), c.renderAdvice(),
+				c.renderAcceptance(), c.renderUseLine(),
+				c.renderSettings(), c.renderTransfer(),
 			)
 		}),
 		app.If(c.rpOpen && c.sess != nil, c.renderReport),
@@ -122,5 +125,38 @@ func focus(testid string) {
 	el := app.Window().Get("document").Call("querySelector", `[data-testid="`+testid+`"]`)
 	if el.Truthy() {
 		el.Call("focus")
+	}
+}
+
+// jumps are the cards the jump bar leads to, by the aria-label of each card.
+var jumps = []struct{ label, card string }{
+	{"Readings", "Readings"},
+	{"Line", "Line"},
+	{"Plots", "Plots"},
+	{"Checks", "Checks"},
+	{"Advice", "Advice"},
+	{"Criteria", "Acceptance"},
+	{"Use", "Use the line"},
+	{"Settings", "Fit settings"},
+	{"Files", "Files"},
+}
+
+// renderJumps draws a row of large buttons that scroll to each card: the
+// page is long on a phone, and a gloved hand should not have to scroll
+// through the readings to reach the verdict.
+func (c *Shell) renderJumps() app.UI {
+	return app.Nav().Class("pl-jumps").Attr("aria-label", "Go to").Body(
+		app.Range(jumps).Slice(func(i int) app.UI {
+			j := jumps[i]
+			return app.Button().Class("pl-jump").Text(j.label).DataSet("testid", "jump-"+strings.ToLower(j.label)).
+				OnClick(func(ctx app.Context, e app.Event) { scrollToCard(j.card) }, app.EventScope(j.card))
+		}),
+	)
+}
+
+func scrollToCard(label string) {
+	el := app.Window().Get("document").Call("querySelector", `section[aria-label="`+label+`"]`)
+	if el.Truthy() {
+		el.Call("scrollIntoView", map[string]any{"behavior": "smooth", "block": "start"})
 	}
 }
