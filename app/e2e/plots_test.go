@@ -124,6 +124,12 @@ func TestPlots(t *testing.T) {
 		t.Errorf("the lowest Q–Q point is reading %s, want %d", lowest, demo.MistypedRow)
 	}
 
+	// Without a tap: the panel opens on the first flagged reading.
+	fuClick(t, b, "plot-point-open")
+	waitFor(t, b, "the panel on the flagged reading", fmt.Sprintf(`document.querySelector('[data-testid="plot-point-panel"]')?.dataset.row === "%d"`, demo.MistypedRow), 10*time.Second)
+	fuClick(t, b, "plot-point-close")
+	waitFor(t, b, "the panel closed", `!document.querySelector('[data-testid="plot-point-panel"]')`, 10*time.Second)
+
 	// Tap the flagged point on the fit plot.
 	pt := fmt.Sprintf(`[data-testid="plot-fit"] .pl-pt-flag[data-row="%d"]`, demo.MistypedRow)
 	b.do(t, chromedp.Click(chromedp.CSS(pt)))

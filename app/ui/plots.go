@@ -391,7 +391,13 @@ func (c *Shell) renderPlots() app.UI {
 	ps := c.plots()
 	return app.Section().Class("pl-card pl-plots").Attr("aria-label", "Plots").Body(
 		app.H2().Text("Plots"),
-		app.P().Class("pl-plot-hint").Text("Tap a point to see that reading and to leave it out of the line or put it back."),
+		app.Div().Class("pl-plot-hintrow").Body(
+			app.P().Class("pl-plot-hint").Text("Tap a point to see that reading and to leave it out of the line or put it back."),
+			// The same panel without a tap (keyboard, screen reader): it
+			// opens on the first flagged reading, or the first reading.
+			app.Button().Class("pl-btn pl-btn-quiet").Text("Go through the readings").DataSet("testid", "plot-point-open").
+				Hidden(c.plSel > 0).OnClick(func(ctx app.Context, e app.Event) { c.selectPoint(c.firstFlaggedRow()) }),
+		),
 		// The notes and the grid keep their places whether shown or not, so
 		// that go-app never re-mounts the plots because a sibling came or went.
 		app.P().Class("pl-plot-thinned").DataSet("testid", "plot-stale").Hidden(!c.plStale).
@@ -473,6 +479,18 @@ func (c *Shell) onPlotTap(ctx app.Context, e app.Event) {
 		return
 	}
 	c.selectPoint(row)
+}
+
+// firstFlaggedRow is the first reading fitcore flags, or reading 0.
+func (c *Shell) firstFlaggedRow() int {
+	if rep := c.view.report; rep != nil {
+		for _, p := range rep.Influence {
+			if p.Flagged && p.Index < len(c.view.rows) {
+				return c.view.rows[p.Index]
+			}
+		}
+	}
+	return 0
 }
 
 func (c *Shell) selectPoint(row int) {
