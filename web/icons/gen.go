@@ -28,9 +28,9 @@ func main() {
 	write("web/icons/icon-192.png", draw(192, 1.0, true))
 	write("web/icons/icon-512.png", draw(512, 1.0, true))
 	write("web/icons/maskable-512.png", draw(512, 0.72, false))
-	svg := fmt.Sprintf(`<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 100 100">` +
+	svg := `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 100 100">` +
 		`<rect width="100" height="100" rx="18" fill="#0b4f5c"/>` +
-		`<line x1="12" y1="80" x2="88" y2="22" stroke="#ffd14a" stroke-width="6" stroke-linecap="round"/>`)
+		`<line x1="12" y1="80" x2="88" y2="22" stroke="#ffd14a" stroke-width="6" stroke-linecap="round"/>`
 	for _, p := range points {
 		svg += fmt.Sprintf(`<circle cx="%.0f" cy="%.0f" r="6.5" fill="#fff"/>`, p[0]*100, p[1]*100)
 	}
