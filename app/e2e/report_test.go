@@ -4,7 +4,6 @@ package e2e
 
 import (
 	"bytes"
-	"encoding/base64"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -18,32 +17,6 @@ import (
 	"pairline/app/demo"
 	"pairline/app/numfmt"
 )
-
-// fuCaptureDownloads keeps every Blob the page hands out as a download,
-// with its file name, so that the test reads the bytes a technician gets.
-const fuCaptureDownloads = `(() => {
-	window.__fuBlobs = []; window.__fuNames = [];
-	const create = URL.createObjectURL.bind(URL);
-	URL.createObjectURL = (b) => { window.__fuBlobs.push(b); return create(b); };
-	HTMLAnchorElement.prototype.click = function () { window.__fuNames.push(this.download); };
-	return true;
-})()`
-
-func fuDownload(t *testing.T, b *browser, n int) (string, []byte) {
-	t.Helper()
-	waitFor(t, b, fmt.Sprintf("download %d", n), fmt.Sprintf(`window.__fuNames.length >= %d`, n), 20*time.Second)
-	s := eval[string](t, b, fmt.Sprintf(`(async () => {
-		const u = new Uint8Array(await window.__fuBlobs[%d].arrayBuffer());
-		let s = "";
-		for (let i = 0; i < u.length; i += 0x8000) s += String.fromCharCode.apply(null, u.subarray(i, i + 0x8000));
-		return btoa(s);
-	})()`, n-1))
-	raw, err := base64.StdEncoding.DecodeString(s)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return eval[string](t, b, fmt.Sprintf(`window.__fuNames[%d]`, n-1)), raw
-}
 
 // TestReport: the report of each demo session carries fitcore's figures and
 // verdicts, prints to PDF through Chromium, and saves as one HTML file that
@@ -116,9 +89,9 @@ func TestReport(t *testing.T) {
 	os.WriteFile(filepath.Join(dir, "report-demo-c.pdf"), pdf, 0o644)
 
 	// Save as HTML: one file, nothing remote, the same report.
-	eval[bool](t, b, fuCaptureDownloads)
+	eval[bool](t, b, captureDownloads)
 	fuClick(t, b, "report-save-html")
-	name, raw := fuDownload(t, b, 1)
+	name, raw := lastDownload(t, b, 1)
 	if !strings.HasSuffix(name, ".html") {
 		t.Errorf("saved as %q, want an .html name", name)
 	}
