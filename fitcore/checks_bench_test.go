@@ -27,6 +27,7 @@ func BenchmarkChecks(b *testing.B) {
 		x, y, r := benchData(n)
 		run := func(name string, f func()) {
 			b.Run(fmt.Sprintf("%s/n=%d", name, n), func(b *testing.B) {
+				b.ReportAllocs()
 				for i := 0; i < b.N; i++ {
 					f()
 				}
