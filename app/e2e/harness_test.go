@@ -57,8 +57,20 @@ type server struct {
 // startServer runs the native command on a free loopback port.
 func startServer(t testing.TB) *server {
 	t.Helper()
-	bin := os.Getenv("PAIRLINE_BIN")
-	web := os.Getenv("PAIRLINE_WEB")
+	bin, web := appPaths(t)
+	ln, err := net.Listen("tcp", "127.0.0.1:0")
+	if err != nil {
+		t.Fatal(err)
+	}
+	addr := ln.Addr().String()
+	ln.Close()
+	return startServerAt(t, bin, web, addr)
+}
+
+// appPaths returns the pairline command and the web folder under test.
+func appPaths(t testing.TB) (bin, web string) {
+	t.Helper()
+	bin, web = os.Getenv("PAIRLINE_BIN"), os.Getenv("PAIRLINE_WEB")
 	if bin == "" || web == "" {
 		root, _ := filepath.Abs("../..")
 		bin, web = filepath.Join(root, "bin", "pairline"), filepath.Join(root, "web")
@@ -66,12 +78,12 @@ func startServer(t testing.TB) *server {
 	if _, err := os.Stat(filepath.Join(web, "app.wasm")); err != nil {
 		t.Fatalf("the app is not built (%v): run `make browser`", err)
 	}
-	ln, err := net.Listen("tcp", "127.0.0.1:0")
-	if err != nil {
-		t.Fatal(err)
-	}
-	addr := ln.Addr().String()
-	ln.Close()
+	return bin, web
+}
+
+// startServerAt serves web at addr and waits until it answers.
+func startServerAt(t testing.TB, bin, web, addr string) *server {
+	t.Helper()
 	cmd := exec.Command(bin, "serve", "--addr", addr, "--web", web)
 	cmd.Stdout, cmd.Stderr = os.Stderr, os.Stderr
 	if err := cmd.Start(); err != nil {
