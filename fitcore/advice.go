@@ -42,8 +42,10 @@ import (
 // the usual first choice; an estimated power, of y or of the weights, adds
 // uncertainty and is harder to explain): log_y, log_log 0; sqrt_y 0.25;
 // reciprocal_y 0.5; weighted 0.5; box_cox 0.75, plus 0.75 more when its λ
-// interval contains 0, ½, −1 or 1 (the plain log, square root, reciprocal or
-// no transform then does the same job). Ties keep the order above.
+// interval contains 0, ½ or −1 (the plain log, square root or reciprocal then
+// does the same job). Box–Cox is not offered at all when its interval
+// contains 1 or λ is within 0.1 of 1 (no change of scale worth the name;
+// common practice). Ties keep the order above.
 //
 // Everything is deterministic; no randomness is used.
 func advise(x, y []float64, opt Options, before *Report) *Advice {
@@ -154,6 +156,13 @@ func adTry(x, y []float64, opt Options, r Remedy, before CheckSummary, sc *anScr
 		}
 		lam := bc.Lambda
 		c.Lambda = lam
+		if (bc.CILow <= 1 && 1 <= bc.CIHigh) || math.Abs(lam-1) < 0.1 {
+			// λ = 1 is the scale of the readings themselves, and a power
+			// within 0.1 of it is no change a technician could explain: a
+			// Box–Cox fit there would only look better by chance.
+			c.Why = fmt.Sprintf("The Box–Cox power λ = %.3g (interval %.3g to %.3g) is at or next to 1: the readings themselves do not ask for a change of scale.", lam, bc.CILow, bc.CIHigh)
+			return c
+		}
 		o.Transform = TransformBoxCox
 		o.BoxCoxLambda = &lam
 		cost = 0.75
@@ -161,7 +170,7 @@ func adTry(x, y []float64, opt Options, r Remedy, before CheckSummary, sc *anScr
 		for _, s := range []struct {
 			lam  float64
 			name string
-		}{{0, "the plain log scale"}, {0.5, "the square-root scale"}, {-1, "the reciprocal scale"}, {1, "no transform at all"}} {
+		}{{0, "the plain log scale"}, {0.5, "the square-root scale"}, {-1, "the reciprocal scale"}} {
 			if bc.CILow <= s.lam && s.lam <= bc.CIHigh {
 				cost += 0.75
 				note += fmt.Sprintf(" The interval contains %g, so %s does the same job more simply.", s.lam, s.name)

@@ -3,6 +3,7 @@ package demo
 import (
 	"bytes"
 	"crypto/rand"
+	"math"
 	"testing"
 	"time"
 
@@ -146,4 +147,28 @@ func FuzzSessions(f *testing.F) {
 			t.Fatalf("%d sessions", len(ss))
 		}
 	})
+}
+
+// With the mistyped reading of session C left out, the advice must not
+// propose a Box–Cox power next to 1: that is the readings' own scale, and a
+// "transform" to it would only look better by chance.
+func TestDemoPressureWithoutTheSlip(t *testing.T) {
+	ss, err := Sessions(time.Date(2026, 4, 1, 0, 0, 0, 0, time.UTC), rand.Reader)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := ss[2]
+	if err := c.Exclude(MistypedRow, "decimal slip, re-read on site", time.Date(2026, 4, 1, 1, 0, 0, 0, time.UTC)); err != nil {
+		t.Fatal(err)
+	}
+	rep, _ := analyze(t, c)
+	if rep.Advice == nil {
+		t.Fatal("no advice")
+	}
+	for _, cand := range rep.Advice.Candidates {
+		if cand.Remedy == fitcore.RemedyBoxCox && cand.Usable && math.Abs(cand.Lambda-1) < 0.1 {
+			t.Errorf("Box–Cox λ = %v is offered: that is next to the readings' own scale", cand.Lambda)
+		}
+	}
+	t.Logf("C without the slip: advice %s (%s)", rep.Advice.Remedy, rep.Advice.Reason)
 }
