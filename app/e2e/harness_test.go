@@ -125,6 +125,10 @@ type browser struct {
 
 func newBrowser(t testing.TB, size [2]int64) *browser {
 	t.Helper()
+	profile, err := os.MkdirTemp("", "pairline-chromium-")
+	if err != nil {
+		t.Fatal(err)
+	}
 	opts := []chromedp.ExecAllocatorOption{
 		chromedp.ExecPath(chromiumPath(t)),
 		chromedp.Headless,
@@ -136,13 +140,22 @@ func newBrowser(t testing.TB, size [2]int64) *browser {
 		chromedp.Flag("disable-component-update", true),
 		chromedp.Flag("disable-sync", true),
 		chromedp.Flag("disable-dev-shm-usage", true),
-		chromedp.UserDataDir(t.TempDir()),
+		chromedp.UserDataDir(profile),
 		chromedp.WindowSize(int(size[0]), int(size[1])),
 	}
 	actx, cancelA := chromedp.NewExecAllocator(context.Background(), opts...)
 	ctx, cancelC := chromedp.NewContext(actx)
 	ctx, cancelT := context.WithTimeout(ctx, 4*time.Minute)
-	t.Cleanup(func() { cancelT(); cancelC(); cancelA() })
+	t.Cleanup(func() {
+		cancelT()
+		cancelC()
+		cancelA()
+		// Chromium may still be writing its profile for a moment after it
+		// was told to quit; a leftover folder in /tmp is no test failure.
+		for i := 0; i < 20 && os.RemoveAll(profile) != nil; i++ {
+			time.Sleep(100 * time.Millisecond)
+		}
+	})
 	b := &browser{ctx: ctx}
 	if err := chromedp.Do(ctx, chromedp.EmulateViewport(size[0], size[1])); err != nil {
 		t.Fatalf("cannot start Chromium: %v", err)
