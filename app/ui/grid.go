@@ -115,47 +115,77 @@ func (c *Shell) quantity(col, label, name, unit, nameField, unitField string) ap
 
 func (c *Shell) row(i int) app.UI {
 	r := c.sess.Readings[i]
-	n := strconv.Itoa(i)
-	xProblem := c.view.problems[cellKey{i, session.ColumnX}]
-	yProblem := c.view.problems[cellKey{i, session.ColumnY}]
+	return &readingRow{
+		Session:  c.sess.ID,
+		Row:      i,
+		X:        r.X,
+		Y:        r.Y,
+		XProblem: c.view.problems[cellKey{i, session.ColumnX}],
+		YProblem: c.view.problems[cellKey{i, session.ColumnY}],
+		Excluded: r.Excluded,
+		shell:    c,
+	}
+}
+
+// readingRow is one row of the readings table as a component of its own:
+// go-app redraws a component only when one of its exported fields changed,
+// so an edit redraws the row typed in, not the whole page of rows.
+type readingRow struct {
+	app.Compo
+
+	Session            string
+	Row                int
+	X, Y               string
+	XProblem, YProblem string
+	Excluded           bool
+
+	shell *Shell // set when the row is first drawn; go-app keeps it
+}
+
+// Render draws the row.
+func (r *readingRow) Render() app.UI {
+	n := strconv.Itoa(r.Row)
 	cls := "pl-row"
 	if r.Excluded {
 		cls += " pl-row-excluded"
 	}
 	return app.Tr().Class(cls).Body(
-		app.Td().Class("pl-rownum").Text(strconv.Itoa(i+1)),
-		c.cell(i, session.ColumnX, "x-input-"+n, r.X, xProblem),
-		c.cell(i, session.ColumnY, "y-input-"+n, r.Y, yProblem),
+		app.Td().Class("pl-rownum").Text(strconv.Itoa(r.Row+1)),
+		r.cell(session.ColumnX, "x-input-"+n, r.X, r.XProblem),
+		r.cell(session.ColumnY, "y-input-"+n, r.Y, r.YProblem),
 	)
 }
 
-func (c *Shell) cell(row int, col session.Column, testid, text, problem string) app.UI {
+func (r *readingRow) cell(col session.Column, testid, text, problem string) app.UI {
 	label := "x"
 	if col == session.ColumnY {
 		label = "y"
 	}
-	// go-app keeps an element's handler when the new one comes from the same
-	// function literal; the scope makes a handler follow its row and column
-	// (and session) when rows are reused on another page or session.
-	scope := app.EventScope(c.sess.ID, row, int(col))
+	c := r.shell
+	// The handlers read the row from r when they run: go-app keeps an
+	// element's first handler when a new one comes from the same function
+	// literal, and updates r's fields in place.
 	in := app.Input().Type("text").Class("pl-cell").Value(text).
 		Attr("inputmode", "decimal").Attr("autocomplete", "off").Attr("enterkeyhint", "next").
-		Attr("aria-label", label+" of reading "+strconv.Itoa(row+1)).
+		Attr("aria-label", label+" of reading "+strconv.Itoa(r.Row+1)).
 		DataSet("testid", testid).
 		OnInput(func(ctx app.Context, e app.Event) {
-			if err := c.sess.SetCell(row, col, ctx.JSSrc().Get("value").String(), time.Now()); err != nil {
+			if c.sess == nil || c.sess.ID != r.Session {
+				return
+			}
+			if err := c.sess.SetCell(r.Row, col, ctx.JSSrc().Get("value").String(), time.Now()); err != nil {
 				c.notice = err.Error()
 				return
 			}
 			c.edited(ctx)
-		}, scope).
+		}).
 		OnKeyDown(func(ctx app.Context, e app.Event) {
 			if e.Get("key").String() != "Enter" {
 				return
 			}
 			e.PreventDefault()
-			c.enter(ctx, row, col)
-		}, scope)
+			c.enter(ctx, r.Row, col)
+		})
 	if problem != "" {
 		in = in.Attr("aria-invalid", "true").Attr("title", problem)
 	}
