@@ -53,6 +53,9 @@ func (e *NumberError) Error() string { return strconv.Quote(e.Text) + " " + e.Re
 //
 // The error is a *NumberError.
 func ParseNumber(s string) (float64, error) {
+	if v, ok := plainNumber(s); ok {
+		return v, nil
+	}
 	v, _, err := parseNumber(s, hintNone)
 	if err != nil {
 		return 0, err
@@ -67,6 +70,9 @@ func ParseNumber(s string) (float64, error) {
 // 1.234. Unambiguous text reads the same whatever the hint: "3,14" is 3.14
 // and "3.14" is 3.14 in both cases.
 func ParseNumberHint(s string, decimalComma bool) (float64, error) {
+	if v, ok := plainNumber(s); ok {
+		return v, nil
+	}
 	h := hintDot
 	if decimalComma {
 		h = hintComma
@@ -76,6 +82,48 @@ func ParseNumberHint(s string, decimalComma bool) (float64, error) {
 		return 0, err
 	}
 	return v, nil
+}
+
+// plainNumber reads the text most cells hold — an optional sign, digits,
+// and optionally a dot with other than three digits after it ("12.5",
+// "-0.0031", "1200") — without the full parser: the grid parses every cell
+// on every keystroke. Such text means the same under every rule of
+// parseNumber (a dot followed by exactly three digits could be a thousands
+// separator, so it is left to the full parser); FuzzPlainNumber checks that
+// both agree.
+func plainNumber(s string) (float64, bool) {
+	if len(s) == 0 || len(s) > 24 {
+		return 0, false
+	}
+	i := 0
+	if s[0] == '-' || s[0] == '+' {
+		i = 1
+	}
+	start := i
+	for i < len(s) && isDigit(s[i]) {
+		i++
+	}
+	if i == start {
+		return 0, false
+	}
+	if i < len(s) {
+		if s[i] != '.' {
+			return 0, false
+		}
+		i++
+		frac := i
+		for i < len(s) && isDigit(s[i]) {
+			i++
+		}
+		if i != len(s) || i-frac == 0 || i-frac == 3 {
+			return 0, false
+		}
+	}
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil || v == 0 && s[0] == '-' {
+		return 0, false
+	}
+	return v, true
 }
 
 type numberHint int

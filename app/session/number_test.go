@@ -181,3 +181,33 @@ func BenchmarkParseNumber(b *testing.B) {
 		_, _ = ParseNumber("1 234,567 µS/cm")
 	}
 }
+
+// BenchmarkParseNumberPlain is the cell most readings are: digits and a dot.
+func BenchmarkParseNumberPlain(b *testing.B) {
+	for i := 0; i < b.N; i++ {
+		_, _ = ParseNumber("1234.5")
+	}
+}
+
+// The fast path for plain cells gives exactly what the full parser gives,
+// under every hint.
+func FuzzPlainNumber(f *testing.F) {
+	for _, s := range []string{"12.5", "-0.0031", "1200", "+7", "1.234", "0", "-0", "00012.50", "1.2345", "99999999999999999999"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		v, ok := plainNumber(s)
+		if !ok {
+			return
+		}
+		for _, h := range []numberHint{hintNone, hintDot, hintComma} {
+			w, _, err := parseNumber(s, h)
+			if err != nil {
+				t.Fatalf("%q: the fast path reads %v, the full parser refuses it (hint %d): %v", s, v, h, err)
+			}
+			if math.Float64bits(v) != math.Float64bits(w) {
+				t.Fatalf("%q: the fast path reads %v, the full parser %v (hint %d)", s, v, w, h)
+			}
+		}
+	})
+}
