@@ -216,8 +216,14 @@ func (c *Shell) anInfluenceRow(a fitcore.Assumption) app.UI {
 		extra = append(extra, app.Div().Class("an-jumps").DataSet("testid", "influence-rows").Body(btns...))
 	}
 	var details app.UI
-	if len(rep.Influence) > 0 {
+	switch {
+	case len(rep.Influence) == 0:
+	case c.anOpen["influence"]:
 		details = c.anInfluenceTable(flagged)
+	default:
+		// Closed: the table of every flagged reading is only built when it
+		// is shown (at 1,000 readings it costs a good part of a frame).
+		details = app.Text("")
 	}
 	return c.anCheckRow("influence", "No single reading dominates", a, details, extra...)
 }
