@@ -60,12 +60,12 @@ browser: wasm bin
 
 ## bench: the benchmarks of the numerical core and the session codec
 bench:
-	$(GO) test -run '^$$' -bench . -benchmem ./fitcore/ ./app/session/
+	$(GO) test -run '^$$' -bench . -benchmem ./fitcore/ ./app/session/ ./app/plot/ ./app/cli/ ./app/ui/
 
 ## fuzz: a short run of every fuzz test (FUZZTIME per target)
 FUZZTIME ?= 15s
 fuzz:
-	@for pkg in ./fitcore ./app/session ./app/numfmt; do \
+	@for pkg in $$($(GO) list ./...); do \
 	  for f in $$($(GO) test -list '^Fuzz' $$pkg | grep '^Fuzz'); do \
 	    echo "fuzz $$pkg $$f"; $(GO) test -run '^$$' -fuzz "^$$f$$" -fuzztime $(FUZZTIME) $$pkg || exit 1; \
 	  done; \

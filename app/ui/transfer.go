@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"strings"
 	"time"
+	"unicode"
 	"unicode/utf8"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
@@ -549,7 +550,7 @@ func readChunks(data []byte, probe *session.CSVResult, xCol, yCol, n int, each f
 		}
 		chunk := data[start:end]
 		res, err := session.ReadCSV(bytes.NewReader(chunk), opt)
-		filled := len(bytes.TrimSpace(chunk)) > 0 // holds the header, if the file has one
+		filled := hasCells(chunk, probe.Delimiter) // holds the header, if the file has one
 		switch {
 		case errors.Is(err, session.ErrCSVNoData):
 			if !filled {
@@ -575,6 +576,12 @@ func readChunks(data []byte, probe *session.CSVResult, xCol, yCol, n int, each f
 		}
 	}
 	return blank, nil
+}
+
+// hasCells reports whether some line of chunk has a cell that is not empty:
+// a line of delimiters only (";;") is a blank row to ReadCSV, not a header.
+func hasCells(chunk []byte, delim rune) bool {
+	return len(bytes.TrimFunc(chunk, func(r rune) bool { return r == delim || unicode.IsSpace(r) })) > 0
 }
 
 // csvSummary adds up the chunks of a table.
