@@ -120,6 +120,15 @@ func Ticks(r Range, maxTicks int) []float64 {
 		return nil
 	}
 	first := math.Ceil(r.Lo/step - 1e-9)
+	if math.Abs(first) > 1<<50 || math.Abs(r.Hi/step) > 1<<50 {
+		// The span is too narrow for its magnitude (a few units in the last
+		// place of float64): successive multiples of the step would round to
+		// the same number. The ends are all that can be told apart.
+		if r.Lo < r.Hi {
+			return []float64{r.Lo, r.Hi}
+		}
+		return []float64{r.Lo}
+	}
 	var out []float64
 	for k := first; ; k++ {
 		v := k * step
