@@ -218,7 +218,7 @@ func ckWeightScale(w []float64) float64 {
 		return 1
 	}
 	_, e := math.Frexp(mw)
-	return math.Ldexp(1, -e)
+	return math.Ldexp(1, -max(e, -1000)) // 2^1073 for a subnormal would overflow
 }
 
 // ckPre is what several checks need to know about x, worked out once:

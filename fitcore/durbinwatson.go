@@ -113,7 +113,7 @@ func ckDWStat(e []float64) (float64, bool) {
 		return 0, false
 	}
 	_, ex := math.Frexp(big)
-	k := math.Ldexp(1, -ex)
+	k := math.Ldexp(1, -max(ex, -1000)) // 2^1073 for a subnormal would overflow
 	var num, den, prev float64
 	for t, v := range e {
 		v *= k

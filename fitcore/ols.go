@@ -44,7 +44,7 @@ func lnPow2Scale(m float64) float64 {
 		return 1
 	}
 	_, e := math.Frexp(m)
-	return math.Ldexp(1, -e)
+	return math.Ldexp(1, -max(e, -1000)) // 2^1073 for a subnormal would overflow
 }
 
 // lineFit is a least-squares straight line in internal (scaled) units:
@@ -129,7 +129,7 @@ func fitLine(f *lineFit, x, y, w []float64, origin bool) error {
 	cw := 1.0
 	if w != nil {
 		_, e := math.Frexp(mw)
-		cw = math.Ldexp(1, -e)
+		cw = math.Ldexp(1, -max(e, -1000))
 	}
 	if !fitScaled(f, x, y, w, origin, lnPow2Scale(mx), lnPow2Scale(my), cw) || !(f.sxx > 0) || !isFiniteNum(f.sxx) {
 		return ErrNoSpreadInX
