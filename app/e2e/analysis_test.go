@@ -512,6 +512,8 @@ func TestAnalysisSpeed(t *testing.T) {
 	x, y := anParsed(t, pairs)
 	rep := anAnalyze(t, x, y, fitcore.Options{})
 	anExpect(t, b, "result-slope", "data-value", rep.Slope.Estimate)
+	// From 400 readings the advice is worked out when typing pauses.
+	waitFor(t, b, "the advice", `document.querySelector('[data-testid="advice"]')?.dataset.transform !== "pending"`, 10*time.Second)
 	if got := attr(t, b, "advice", "data-transform"); got != string(rep.Advice.Remedy) {
 		t.Errorf("advice at 1,000 readings = %q, fitcore says %q", got, rep.Advice.Remedy)
 	}

@@ -93,6 +93,13 @@ func (c *Shell) renderAdvice() app.UI {
 			c.anRevertButton(),
 		)
 	}
+	if rep.Advice == nil && c.view.advicePending {
+		return app.Section().Class("pl-card an-advice").Attr("aria-label", "Advice").
+			DataSet("testid", "advice").DataSet("transform", "pending").Body(
+			app.H2().Text("Advice"),
+			app.P().Text("Working out whether a change of scale or a weighting would help; it follows as soon as typing pauses."),
+		)
+	}
 	ad := rep.Advice
 	remedy := fitcore.RemedyNone
 	if ad != nil {

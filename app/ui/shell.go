@@ -76,6 +76,9 @@ type analysis struct {
 	usable   int
 	digits   int  // most significant digits typed in any usable cell
 	stale    bool // readings changed since the report was computed
+	// advicePending: the advice is worked out when typing pauses and there
+	// is no earlier advice to show meanwhile.
+	advicePending bool
 
 	rows []int // session row of each usable pair (fitcore's index → grid row)
 }
@@ -238,9 +241,13 @@ func (c *Shell) analyseNow(quick bool) {
 		a.message = plainFitError(err, len(rows))
 	} else {
 		a.report = rep
-		if quick && prev != nil {
-			rep.Advice = prev.Advice
+		if quick {
 			a.stale = true
+			if prev != nil && prev.Advice != nil {
+				rep.Advice = prev.Advice
+			} else {
+				a.advicePending = true
+			}
 		}
 	}
 	c.view = a
