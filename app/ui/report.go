@@ -3,6 +3,7 @@ package ui
 import (
 	_ "embed"
 	"html"
+	"pairline/web"
 	"sort"
 	"strconv"
 	"strings"
@@ -64,7 +65,7 @@ func rpFile(s *session.Session, body string) string {
 	return "<!doctype html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">" +
 		"<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">" +
 		"<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; img-src data:\">" +
-		"<title>" + rpEsc("Pairline report — "+s.Title) + "</title><style>\n" + reportCSS + "\n</style></head>\n<body class=\"pl-report-file\">\n" +
+		"<title>" + rpEsc("Pairline report — "+s.Title) + "</title><style>\n" + web.ReportCSS + "\n</style></head>\n<body class=\"pl-report-file\">\n" +
 		body + "\n</body></html>\n"
 }
 

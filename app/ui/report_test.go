@@ -1,7 +1,6 @@
 package ui
 
 import (
-	"os"
 	"regexp"
 	"strings"
 	"testing"
@@ -10,17 +9,6 @@ import (
 	"pairline/app/demo"
 	"pairline/app/numfmt"
 )
-
-// The stylesheet inlined into saved reports is the one the app loads.
-func TestReportCSSMatchesFile(t *testing.T) {
-	b, err := os.ReadFile("../../web/report.css")
-	if err != nil {
-		t.Skip("SKIPPED: web/report.css not found beside the package:", err)
-	}
-	if string(b) != reportCSS {
-		t.Fatal("app/ui/reportcss.go differs from web/report.css: copy the file into the constant")
-	}
-}
 
 // A saved report is one self-contained file: no script, nothing fetched,
 // the four plots inline, the readings with the left-out one marked with
