@@ -113,17 +113,7 @@ func TestEditLatency100(t *testing.T) {
 	b.do(t, chromedp.Navigate(srv.URL))
 	waitFor(t, b, "the app", appReady, 60*time.Second)
 	// 100 invented readings, typed through input and Enter events.
-	eval[bool](t, b, `(async () => {
-		const q = (id) => document.querySelector('[data-testid="' + id + '"]');
-		const until = async (f) => { while (!f()) await new Promise(r => setTimeout(r, 5)); };
-		for (let i = 0; i < 100; i++) {
-			await until(() => q('x-input-' + i));
-			const x = q('x-input-' + i), y = q('y-input-' + i);
-			x.value = String(i + 1); x.dispatchEvent(new Event('input', {bubbles: true}));
-			y.value = (2 * (i + 1) + 0.5 + ((i * 7) % 5) / 10).toFixed(2); y.dispatchEvent(new Event('input', {bubbles: true}));
-			if (i < 99) y.dispatchEvent(new KeyboardEvent('keydown', {key: 'Enter', bubbles: true}));
-		}
-		return true; })()`)
+	fillRows(t, b, 100, "String(i + 1)", "(2 * (i + 1) + 0.5 + ((i * 7) % 5) / 10).toFixed(2)")
 	waitFor(t, b, "100 pairs", `document.querySelector('[data-testid="result-n"]')?.dataset.value === "100"`, 30*time.Second)
 	var times []float64
 	for k := 0; k < 10; k++ {
@@ -151,18 +141,7 @@ func TestPagingEditsTheRightRow(t *testing.T) {
 	b := newBrowser(t, tablet)
 	b.do(t, chromedp.Navigate(srv.URL))
 	waitFor(t, b, "the app", appReady, 60*time.Second)
-	eval[bool](t, b, `(async () => {
-		const q = (id) => document.querySelector('[data-testid="' + id + '"]');
-		const until = async (f) => { while (!f()) await new Promise(r => setTimeout(r, 5)); };
-		for (let i = 0; i < 101; i++) {
-			await until(() => q('x-input-' + i));
-			const x = q('x-input-' + i);
-			x.value = String(i + 1); x.dispatchEvent(new Event('input', {bubbles: true}));
-			const y = q('y-input-' + i);
-			y.value = String(3 * (i + 1)); y.dispatchEvent(new Event('input', {bubbles: true}));
-			if (i < 100) y.dispatchEvent(new KeyboardEvent('keydown', {key: 'Enter', bubbles: true}));
-		}
-		return true; })()`)
+	fillRows(t, b, 101, "String(i + 1)", "String(3 * (i + 1))")
 	waitFor(t, b, "101 pairs", `document.querySelector('[data-testid="usable-count"]')?.dataset.value === "101"`, 30*time.Second)
 	if got := eval[string](t, b, `document.querySelector('[data-testid="page-info"]').textContent`); !strings.Contains(got, "101–101 of 101") {
 		t.Errorf("page info %q", got)
@@ -191,4 +170,22 @@ func TestPagingEditsTheRightRow(t *testing.T) {
 	if got := eval[string](t, b, `document.querySelector('[data-testid="y-input-100"]').value`); got != "303.5" {
 		t.Errorf("row 101 y = %q after reload, want 303.5", got)
 	}
+}
+
+// fillRows fills n rows from the first through input events, moving on with
+// Enter after each y as a technician does; xExpr and yExpr are JavaScript
+// expressions of the row index i (invented readings).
+func fillRows(t *testing.T, b *browser, n int, xExpr, yExpr string) {
+	t.Helper()
+	eval[bool](t, b, fmt.Sprintf(`(async () => {
+		const q = (id) => document.querySelector('[data-testid="' + id + '"]');
+		const until = async (f) => { while (!f()) await new Promise(r => setTimeout(r, 5)); };
+		for (let i = 0; i < %d; i++) {
+			await until(() => q('x-input-' + i));
+			const x = q('x-input-' + i), y = q('y-input-' + i);
+			x.value = %s; x.dispatchEvent(new Event('input', {bubbles: true}));
+			y.value = %s; y.dispatchEvent(new Event('input', {bubbles: true}));
+			if (i < %d) y.dispatchEvent(new KeyboardEvent('keydown', {key: 'Enter', bubbles: true}));
+		}
+		return true; })()`, n, xExpr, yExpr, n-1))
 }

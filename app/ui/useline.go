@@ -79,37 +79,11 @@ func (c *Shell) renderUseLine() app.UI {
 	xq, yq := colHead(c.sess.XName, c.sess.XUnit, "x"), colHead(c.sess.YName, c.sess.YUnit, "y")
 	return app.Section().Class("pl-card an-use").Attr("aria-label", "Use the line").Body(
 		app.H2().Text("Use the line"),
-		app.Label().Class("an-field").Body(
-			app.Span().Class("an-field-label").Text("Readings of an unknown: "+yq),
-			app.Input().Type("text").Class("an-input").Value(c.anInvText).
-				Attr("inputmode", "decimal").Attr("autocomplete", "off").
-				Attr("placeholder", "one or more repeats, e.g. 12.4; 12.6; 12.5").
-				DataSet("testid", "inverse-input").
-				OnInput(func(ctx app.Context, e app.Event) {
-					c.anInvText = ctx.JSSrc().Get("value").String()
-					c.anInvY, c.anInvErr = c.anSplitReadings(c.anInvText)
-					c.anRequery(ctx)
-				}),
-		),
-		app.If(c.anInvErr != "", func() app.UI {
-			return app.P().Class("pl-problem").DataSet("testid", "inverse-problem").Text(c.anInvErr)
-		}),
+		c.anQueryField("Readings of an unknown: "+yq, "one or more repeats, e.g. 12.4; 12.6; 12.5", "inverse",
+			&c.anInvText, &c.anInvY, &c.anInvErr),
 		c.anInverseResult(),
-		app.Label().Class("an-field").Body(
-			app.Span().Class("an-field-label").Text("Predict the reading at: "+xq),
-			app.Input().Type("text").Class("an-input").Value(c.anPredText).
-				Attr("inputmode", "decimal").Attr("autocomplete", "off").
-				Attr("placeholder", "an x value, or several").
-				DataSet("testid", "predict-input").
-				OnInput(func(ctx app.Context, e app.Event) {
-					c.anPredText = ctx.JSSrc().Get("value").String()
-					c.anPredX, c.anPredErr = c.anSplitReadings(c.anPredText)
-					c.anRequery(ctx)
-				}),
-		),
-		app.If(c.anPredErr != "", func() app.UI {
-			return app.P().Class("pl-problem").DataSet("testid", "predict-problem").Text(c.anPredErr)
-		}),
+		c.anQueryField("Predict the reading at: "+xq, "an x value, or several", "predict",
+			&c.anPredText, &c.anPredX, &c.anPredErr),
 		c.anPredictResult(),
 		c.anLimits(),
 	)
@@ -218,5 +192,29 @@ func (c *Shell) anLimits() app.UI {
 			anRow("limits-loq", "Quantitation limit (10·s / slope)", rep.Limits.LOQ, numfmt.Sig(rep.Limits.LOQ, 3), xu),
 		)),
 		app.P().Class("an-hint").Text("For calibrations: below the detection limit a result cannot be told from zero; below the quantitation limit it is too uncertain to report as a number."),
+	)
+}
+
+// anQueryField is one question put to the line (the readings of an unknown,
+// or x values to predict at): the field, kept as typed in *text, parsed into
+// *values, with the problem in *problem shown under it. The ids are
+// name+"-input" and name+"-problem".
+func (c *Shell) anQueryField(label, placeholder, name string, text *string, values *[]float64, problem *string) app.UI {
+	return app.Div().Body(
+		app.Label().Class("an-field").Body(
+			app.Span().Class("an-field-label").Text(label),
+			app.Input().Type("text").Class("an-input").Value(*text).
+				Attr("inputmode", "decimal").Attr("autocomplete", "off").
+				Attr("placeholder", placeholder).
+				DataSet("testid", name+"-input").
+				OnInput(func(ctx app.Context, e app.Event) {
+					*text = ctx.JSSrc().Get("value").String()
+					*values, *problem = c.anSplitReadings(*text)
+					c.anRequery(ctx)
+				}, app.EventScope(name)),
+		),
+		app.If(*problem != "", func() app.UI {
+			return app.P().Class("pl-problem").DataSet("testid", name+"-problem").Text(*problem)
+		}),
 	)
 }
