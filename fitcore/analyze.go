@@ -163,23 +163,18 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 
 	fc := &fitContext{f: f, tr: tr, wm: wm, x: x, y: y, xt: xt, yt: yt, w: w, opt: o, rep: rep, sc: sc}
 	fc.runChecks()
-	if !sc.refit && allPositive(y) {
-		if bc, err := sc.boxCox(x, y, o.Level); err == nil {
-			rep.BoxCox = bc
-		}
-	}
 	fc.predictions()
 	fc.inverses()
 	fc.limits()
 	fc.acceptance()
-	if !o.SkipAdvice {
-		rep.Advice = adviseWith(x, y, opt, rep, sc)
-	}
 	if sc.refit {
 		// The residuals live in sc and are not part of a candidate.
 		rep.Fitted, rep.Residuals, rep.Weights = nil, nil, nil
 	}
 	scrubReport(rep)
+	if !o.SkipAdvice {
+		complete(rep, x, y, opt, o.Level, sc)
+	}
 	return rep, nil
 }
 
@@ -194,6 +189,19 @@ type fitContext struct {
 	opt    Options
 	rep    *Report
 	sc     *anScratch
+
+	xLo, xHi float64 // range of x (original units), once xRanged
+	xRanged  bool
+}
+
+// xRange returns the smallest and largest x, computed once per fit (every
+// prediction and inverse asks for it).
+func (fc *fitContext) xRange() (lo, hi float64) {
+	if !fc.xRanged {
+		fc.xLo, fc.xHi = rangeOf(fc.x)
+		fc.xRanged = true
+	}
+	return fc.xLo, fc.xHi
 }
 
 // runChecks runs the assumption checks on the fitted scale and summarises
@@ -392,6 +400,31 @@ func validatePairs(x, y []float64) error {
 	return nil
 }
 
+// complete adds the Box–Cox profile (when every y > 0) and the advice to a
+// scrubbed report, scrubs them and counts them in the report's note.
+func complete(rep *Report, x, y []float64, opt Options, level float64, sc *anScratch) {
+	rep.BoxCox = nil
+	if allPositive(y) {
+		if bc, err := sc.boxCox(x, y, level); err == nil {
+			rep.BoxCox = bc
+		}
+	}
+	rep.Advice = adviseWith(x, y, opt, rep, sc)
+	n := 0
+	if rep.BoxCox != nil {
+		n += scrubValue(reflect.ValueOf(rep.BoxCox).Elem())
+	}
+	n += scrubValue(reflect.ValueOf(rep.Advice).Elem())
+	if n > 0 {
+		notes := append([]string(nil), rep.Notes...)
+		if rep.scrubbed > 0 && len(notes) > 0 && notes[len(notes)-1] == scrubNote(rep.scrubbed) {
+			notes = notes[:len(notes)-1]
+		}
+		rep.scrubbed += n
+		rep.Notes = append(notes, scrubNote(rep.scrubbed))
+	}
+}
+
 // checkSpread rejects constant x or constant y.
 func checkSpread(x, y []float64) error {
 	if allEqual(x) {
@@ -417,8 +450,38 @@ func allEqual(v []float64) bool {
 // note says so. It should never fire.
 func scrubReport(rep *Report) {
 	if n := scrubValue(reflect.ValueOf(rep).Elem()); n > 0 {
-		rep.Notes = append(rep.Notes, fmt.Sprintf("%d value(s) could not be computed on these readings and are shown as 0.", n))
+		rep.scrubbed = n
+		rep.Notes = append(rep.Notes, scrubNote(n))
 	}
+}
+
+func scrubNote(n int) string {
+	return fmt.Sprintf("%d value(s) could not be computed on these readings and are shown as 0.", n)
+}
+
+// Complete adds to a report that Analyze made with opt.SkipAdvice what that
+// left out, the Box–Cox profile and the transform advice, so that the
+// report equals Analyze(x, y, opt) without SkipAdvice. x, y and the other
+// options must be those the report was made from. A screen can so show the
+// line and its checks at once and the advice a moment later, without
+// fitting the readings twice.
+func Complete(rep *Report, x, y []float64, opt Options) error {
+	if rep == nil {
+		return fmt.Errorf("%w: there is no report to complete", ErrBadOption)
+	}
+	opt.SkipAdvice = false
+	o, err := normalizeOptions(opt)
+	if err != nil {
+		return err
+	}
+	if err := validatePairs(x, y); err != nil {
+		return err
+	}
+	if len(x) != rep.N {
+		return fmt.Errorf("%w: the report was made from %d pairs, not %d", ErrLengthMismatch, rep.N, len(x))
+	}
+	complete(rep, x, y, opt, o.Level, new(anScratch))
+	return nil
 }
 
 func scrubValue(v reflect.Value) int {

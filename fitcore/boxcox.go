@@ -13,7 +13,11 @@ import (
 const (
 	bcLambdaMin = -3.0
 	bcLambdaMax = 3.0
-	bcGridStep  = 0.1 // coarse grid before the 1-D maximizer
+	// bcGridStep is the coarse grid before the 1-D maximizer. ℓ(λ) is a
+	// smooth function of λ (each RSS is), so a quarter step brackets its
+	// maximum as a tenth did on every reference dataset (tests), with 25
+	// evaluations of ℓ instead of 61.
+	bcGridStep = 0.25
 )
 
 // BoxCoxProfile estimates the Box–Cox power λ for the straight-line model
@@ -27,7 +31,7 @@ const (
 //	ℓ(λ) = −n/2 · log(RSS(λ)/n) + (λ − 1) · Σ log y_i,
 //
 // where RSS(λ) is the residual sum of squares of the least-squares line of
-// y^(λ) on x. The search is over [−3, 3]: a coarse grid (step 0.1) and then
+// y^(λ) on x. The search is over [−3, 3]: a coarse grid (step 0.25) and then
 // Brent's parabolic/golden-section maximizer on the bracket around the best
 // grid point. The interval is the likelihood-ratio set
 //

@@ -100,7 +100,7 @@ func (fc *fitContext) inverseAt(q InverseQuery) Inverse {
 	inv.Low = tr.backX((f.xc + u1) / f.kx)
 	inv.High = tr.backX((f.xc + u2) / f.kx)
 	inv.Bounded = true
-	if lo, hi := rangeOf(fc.x); inv.X < lo || inv.X > hi {
+	if lo, hi := fc.xRange(); inv.X < lo || inv.X > hi {
 		msgs = append(msgs, fmt.Sprintf("x lies outside the calibrated range %s to %s; the line may not hold there", formatValue(lo), formatValue(hi)))
 	}
 	inv.Message = joinSentences(msgs)

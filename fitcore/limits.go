@@ -22,7 +22,7 @@ func (fc *fitContext) limits() {
 	}
 	sigma := rep.ResidualSE
 	if fc.wm.scheme != WeightsNone {
-		lo, _ := rangeOf(fc.x)
+		lo, _ := fc.xRange()
 		w, ok := fc.wm.at(lo)
 		if !ok {
 			return

@@ -60,7 +60,7 @@ func (fc *fitContext) predictAt(x float64) Prediction {
 	if m1 != "" {
 		msgs = append([]string{m1}, msgs...)
 	}
-	if lo, hi := rangeOf(fc.x); x < lo || x > hi {
+	if lo, hi := fc.xRange(); x < lo || x > hi {
 		msgs = append(msgs, fmt.Sprintf("x lies outside the calibrated range %s to %s; the line may not hold there", formatValue(lo), formatValue(hi)))
 	}
 	p.Message = joinSentences(msgs)

@@ -112,8 +112,9 @@ type Options struct {
 	PredictX     []float64
 	Inverse      []InverseQuery
 	Acceptance   *Criteria
-	// SkipAdvice leaves out the transform advice (used when re-running the
-	// checks inside the advice itself).
+	// SkipAdvice leaves out the transform advice and the Box–Cox profile
+	// (the two parts that refit the readings several times); Complete adds
+	// them to such a report later.
 	SkipAdvice bool
 }
 
@@ -325,6 +326,8 @@ type Report struct {
 	Limits      *Limits           `json:"limits"`
 	Acceptance  *AcceptanceResult `json:"acceptance"`
 	Notes       []string          `json:"notes,omitempty"`
+	// scrubbed counts the non-finite values scrubReport set to 0.
+	scrubbed int
 
 	// TransformLambda is the Box–Cox λ used (given or estimated); nil for
 	// other transforms.
