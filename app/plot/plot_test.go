@@ -149,15 +149,19 @@ func TestChartSVG(t *testing.T) {
 		}
 		if se, ok := tok.(xml.StartElement); ok && se.Name.Local != "svg" {
 			for _, a := range se.Attr {
-				if a.Name.Local == "data-row" && (se.Name.Local == "circle" || se.Name.Local == "path" || se.Name.Local == "g") {
+				if a.Name.Local == "data-row" && (se.Name.Local == "circle" || se.Name.Local == "path" || se.Name.Local == "rect") {
 					rows++
 				}
 			}
 		}
 	}
-	// 3 finite points and the selection ring.
-	if rows != 4 {
-		t.Errorf("%d elements carry data-row, want 4", rows)
+	// The flagged and the left-out point and the selection ring; the plain
+	// dot is part of the one dots path.
+	if rows != 3 {
+		t.Errorf("%d elements carry data-row, want 3", rows)
+	}
+	if !strings.Contains(s, `data-count="3"`) || strings.Count(s, "h0") != 1 {
+		t.Errorf("want 3 points drawn, one of them in the dots path:\n%s", s)
 	}
 	for _, c := range []struct {
 		v    float64
@@ -228,6 +232,58 @@ func FuzzThin(f *testing.F) {
 			}
 		}
 	})
+}
+
+// TestDrawMarks: Draw says where each finite point went, the svg's
+// data-frame holds the same scales, and Nearest finds a point from a tap
+// near it (topmost first) but not from one farther than the radius.
+func TestDrawMarks(t *testing.T) {
+	c := Chart{Points: []Point{{X: 0, Y: 0, Row: 7}, {X: 10, Y: 5, Row: 8, Marker: Flagged}, {X: 10, Y: 5, Row: 9}, {X: math.Inf(1), Y: 1, Row: 10}}}
+	s, marks := c.Draw()
+	if len(marks) != 3 {
+		t.Fatalf("%d marks, want 3 (the infinite point is not drawn)", len(marks))
+	}
+	var f [8]float64
+	i := strings.Index(s, `data-frame="`)
+	if i < 0 {
+		t.Fatal("no data-frame")
+	}
+	fields := strings.Fields(s[i+len(`data-frame="`) : i+strings.Index(s[i:], `" `)])
+	if len(fields) != 8 {
+		t.Fatalf("data-frame %q", fields)
+	}
+	for k, v := range fields {
+		fmt.Sscan(v, &f[k])
+	}
+	sx, sy := Scale{D: Range{f[0], f[1]}, P0: f[2], P1: f[3]}, Scale{D: Range{f[4], f[5]}, P0: f[6], P1: f[7]}
+	for _, m := range marks {
+		p := c.Points[m.Row-7]
+		if math.Abs(sx.At(p.X)-m.X) > 1e-9 || math.Abs(sy.At(p.Y)-m.Y) > 1e-9 {
+			t.Errorf("mark of row %d at (%v, %v), data-frame puts it at (%v, %v)", m.Row, m.X, m.Y, sx.At(p.X), sy.At(p.Y))
+		}
+	}
+	// Rows 8 (flagged) and 9 (dot) are at the same place: the flagged one
+	// is drawn on top and wins.
+	top := marks[len(marks)-1]
+	if top.Row != 8 {
+		t.Errorf("last drawn mark is row %d, want the flagged row 8", top.Row)
+	}
+	if m, ok := Nearest(marks, top.X+3, top.Y-2, 10); !ok || m.Row != 8 {
+		t.Errorf("Nearest next to rows 8/9 = %v %v, want row 8", m, ok)
+	}
+	first := marks[0]
+	if m, ok := Nearest(marks, first.X+6, first.Y, 10); !ok || m.Row != 7 {
+		t.Errorf("Nearest 6 units from row 7 = %v %v", m, ok)
+	}
+	if _, ok := Nearest(marks, first.X+11, first.Y, 10); ok {
+		t.Error("Nearest found a point 11 units away with radius 10")
+	}
+	r := Ring(400, 300, first, "plot-fit-selected")
+	for _, want := range []string{`viewBox="0 0 400 300"`, `data-testid="plot-fit-selected"`, `data-row="7"`} {
+		if !strings.Contains(r, want) {
+			t.Errorf("ring %q lacks %s", r, want)
+		}
+	}
 }
 
 func FuzzChartSVG(f *testing.F) {

@@ -19,8 +19,9 @@ const (
 	HollowSquare               // a reading left out of the fit: hollow square with its centre open
 )
 
-// Point is one marker. Row is the reading's index in the session (from 0),
-// written as data-row so that a tap can find the reading.
+// Point is one marker. Row is the reading's index in the session (from 0):
+// Draw returns it with the marker's position so that a tap can find the
+// reading, and flagged and left-out markers carry it as data-row.
 type Point struct {
 	X, Y     float64
 	Row      int
@@ -95,11 +96,17 @@ const (
 // unit is far below a screen pixel), without the cost of a general float
 // formatter: plots of thousands of points are drawn on every edit.
 func num(v float64) string {
+	var buf [24]byte
+	return string(appendNum(buf[:0], v))
+}
+
+// appendNum appends num(v) to dst.
+func appendNum(dst []byte, v float64) []byte {
 	if !finite(v) || math.Abs(v) > 1e12 {
 		if finite(v) {
-			return strconv.FormatFloat(v, 'f', 0, 64)
+			return strconv.AppendFloat(dst, v, 'f', 0, 64)
 		}
-		return "0"
+		return append(dst, '0')
 	}
 	t := int64(math.Round(v * 10))
 	neg := t < 0
@@ -127,23 +134,38 @@ func num(v float64) string {
 		i--
 		buf[i] = '-'
 	}
-	return string(buf[i:])
+	return append(dst, buf[i:]...)
 }
 
 // SVG returns the chart as one <svg> element.
 func (c *Chart) SVG() string {
-	w, h := c.Width, c.Height
+	s, _ := c.Draw()
+	return s
+}
+
+// Size returns the viewBox width and height (400×300 when not set).
+func (c *Chart) Size() (w, h float64) {
+	w, h = c.Width, c.Height
 	if !(w > 0) {
 		w = 400
 	}
 	if !(h > 0) {
 		h = 300
 	}
+	return w, h
+}
+
+// Draw returns the chart as one <svg> element and where each finite point
+// was drawn. The svg's data-frame holds its two scales (data range, then
+// viewBox interval, x then y; see Scale) at full precision, so that a test
+// can tap a reading where it is drawn.
+func (c *Chart) Draw() (string, []Mark) {
+	w, h := c.Size()
 	xr, yr := c.ranges()
 	sx := Scale{D: xr, P0: marginLeft, P1: w - marginRight}
 	sy := Scale{D: yr, P0: h - marginBottom, P1: marginTop}
 	var b strings.Builder
-	b.Grow(4096 + 64*len(c.Points))
+	b.Grow(4096 + 16*len(c.Points))
 	b.WriteString(`<svg xmlns="http://www.w3.org/2000/svg" class="pl-plot-svg" viewBox="0 0 `)
 	b.WriteString(num(w) + " " + num(h) + `" role="img"`)
 	if c.TestID != "" {
@@ -153,6 +175,14 @@ func (c *Chart) SVG() string {
 	for _, a := range c.Attrs {
 		b.WriteString(" " + esc(a[0]) + `="` + esc(a[1]) + `"`)
 	}
+	g := func(v float64) string {
+		if !finite(v) {
+			return "0"
+		}
+		return strconv.FormatFloat(v, 'g', -1, 64)
+	}
+	b.WriteString(` data-frame="` + g(sx.D.Lo) + " " + g(sx.D.Hi) + " " + g(sx.P0) + " " + g(sx.P1) + " " +
+		g(sy.D.Lo) + " " + g(sy.D.Hi) + " " + g(sy.P0) + " " + g(sy.P1) + `"`)
 	b.WriteString(` font-family="system-ui, sans-serif" font-size="` + num(fontSize) + `">`)
 	b.WriteString(`<title>` + esc(c.Label) + `</title>`)
 	// Plot area.
@@ -199,9 +229,9 @@ func (c *Chart) SVG() string {
 		writePath(&b, p, sx, sy)
 	}
 	b.WriteString(`</g>`)
-	writePoints(&b, c.Points, sx, sy)
+	marks := writePoints(&b, c.Points, sx, sy)
 	b.WriteString(`</svg>`)
-	return b.String()
+	return b.String(), marks
 }
 
 // clipID is unique per chart on a page (charts differ by test id).
@@ -296,39 +326,116 @@ func writePath(b *strings.Builder, p Path, sx, sy Scale) {
 	b.WriteString(` stroke-linejoin="round" points="` + strings.Join(pts, " ") + `"/>`)
 }
 
-// writePoints draws the markers. Every marker carries a wide transparent
-// stroke, so a gloved finger finds it (about 20 viewBox units across).
-func writePoints(b *strings.Builder, pts []Point, sx, sy Scale) {
-	b.WriteString(`<g class="pl-plot-points" stroke="transparent" stroke-width="14" fill="` + inkColour + `">`)
-	var sel *Point
-	for i := range pts {
-		p := &pts[i]
-		if !finite(p.X) || !finite(p.Y) {
+// Mark is where one point was drawn, in viewBox units: what a tap is
+// matched against (Nearest), since the plain dots are one path with no
+// element per reading.
+type Mark struct {
+	X, Y   float64
+	Row    int
+	Marker Marker
+}
+
+// dotWidth is the diameter of a plain dot in viewBox units: a round-capped
+// zero-length stroke draws it (SVG 1.1, 11.4 "stroke-linecap": a zero-length
+// subpath with round caps is drawn as a circle).
+const dotWidth = 9.0
+
+// writePoints draws the markers and returns where each finite one went.
+// The plain dots, most of a big record, are one path, so that thousands of
+// readings cost the page one element; flagged and left-out readings are few
+// and keep an element each with its data-row. Later marks are drawn on top.
+func writePoints(b *strings.Builder, pts []Point, sx, sy Scale) []Mark {
+	marks := make([]Mark, 0, len(pts))
+	for _, p := range pts {
+		if finite(p.X) && finite(p.Y) {
+			marks = append(marks, Mark{X: sx.At(p.X), Y: sy.At(p.Y), Row: p.Row, Marker: p.Marker})
+		}
+	}
+	// Drawing order: dots, then left-out squares, then flagged diamonds.
+	order := make([]Mark, 0, len(marks))
+	for _, mk := range []Marker{Dot, HollowSquare, Flagged} {
+		for _, m := range marks {
+			if m.Marker == mk {
+				order = append(order, m)
+			}
+		}
+	}
+	b.WriteString(`<g class="pl-plot-points" data-count="` + strconv.Itoa(len(order)) + `">`)
+	dots := 0
+	tmp := make([]byte, 0, 64)
+	for _, m := range order {
+		if m.Marker != Dot {
 			continue
 		}
-		x, y := sx.At(p.X), sy.At(p.Y)
-		row := strconv.Itoa(p.Row)
-		switch p.Marker {
+		if dots == 0 {
+			b.WriteString(`<path class="pl-pt-dots" fill="none" stroke="` + inkColour + `" stroke-width="` + num(dotWidth) + `" stroke-linecap="round" d="`)
+		}
+		dots++
+		tmp = append(tmp[:0], 'M')
+		tmp = appendNum(tmp, m.X)
+		tmp = append(tmp, ' ')
+		tmp = append(appendNum(tmp, m.Y), 'h', '0')
+		b.Write(tmp)
+	}
+	if dots > 0 {
+		b.WriteString(`"/>`)
+	}
+	for _, m := range order {
+		row := strconv.Itoa(m.Row)
+		x, y := m.X, m.Y
+		switch m.Marker {
 		case Flagged:
 			d := 7.5
 			b.WriteString(`<path class="pl-pt pl-pt-flag" data-row="` + row + `" fill="` + flagColour + `" d="M` + num(x) + " " + num(y-d) +
 				"L" + num(x+d) + " " + num(y) + "L" + num(x) + " " + num(y+d) + "L" + num(x-d) + " " + num(y) + `Z"/>`)
 		case HollowSquare:
 			s := 5.5
-			b.WriteString(`<g class="pl-pt pl-pt-excl" data-row="` + row + `"><circle cx="` + num(x) + `" cy="` + num(y) + `" r="9" fill="transparent"/>` +
-				`<rect x="` + num(x-s) + `" y="` + num(y-s) + `" width="` + num(2*s) + `" height="` + num(2*s) + `" fill="` + paperColour + `" stroke="` + inkColour + `" stroke-width="2"/></g>`)
-		default:
-			b.WriteString(`<circle data-row="` + row + `" cx="` + num(x) + `" cy="` + num(y) + `" r="4.5"/>`)
-		}
-		if p.Selected {
-			sel = p
+			b.WriteString(`<rect class="pl-pt pl-pt-excl" data-row="` + row + `" x="` + num(x-s) + `" y="` + num(y-s) + `" width="` + num(2*s) + `" height="` + num(2*s) +
+				`" fill="` + paperColour + `" stroke="` + inkColour + `" stroke-width="2"/>`)
 		}
 	}
 	b.WriteString(`</g>`)
-	if sel != nil {
-		b.WriteString(`<circle class="pl-pt-selected" data-row="` + strconv.Itoa(sel.Row) + `" cx="` + num(sx.At(sel.X)) + `" cy="` + num(sy.At(sel.Y)) +
-			`" r="12" fill="none" stroke="` + lineColour + `" stroke-width="3"/>`)
+	for _, p := range pts {
+		if p.Selected && finite(p.X) && finite(p.Y) {
+			b.WriteString(ringMarkup(Mark{X: sx.At(p.X), Y: sy.At(p.Y), Row: p.Row}, ""))
+			break
+		}
 	}
+	return order
+}
+
+// ringMarkup is the ring drawn around a selected reading.
+func ringMarkup(m Mark, testID string) string {
+	id := ""
+	if testID != "" {
+		id = ` data-testid="` + esc(testID) + `"`
+	}
+	return `<circle class="pl-pt-selected"` + id + ` data-row="` + strconv.Itoa(m.Row) + `" cx="` + num(m.X) + `" cy="` + num(m.Y) +
+		`" r="12" fill="none" stroke="` + lineColour + `" stroke-width="4"/>`
+}
+
+// Ring returns a transparent SVG of a chart's size holding only the ring
+// around m, to lay over the chart: selecting a reading then redraws a few
+// bytes, not the chart.
+func Ring(w, h float64, m Mark, testID string) string {
+	return `<svg xmlns="http://www.w3.org/2000/svg" class="pl-plot-over" viewBox="0 0 ` + num(w) + " " + num(h) + `" aria-hidden="true">` +
+		ringMarkup(m, testID) + `</svg>`
+}
+
+// Nearest returns the mark nearest to (x, y) within radius (all in viewBox
+// units), preferring the one drawn last (on top) between equally near ones.
+func Nearest(marks []Mark, x, y, radius float64) (Mark, bool) {
+	best, bestD := -1, radius*radius
+	for i, m := range marks {
+		dx, dy := m.X-x, m.Y-y
+		if d := dx*dx + dy*dy; d <= bestD {
+			best, bestD = i, d
+		}
+	}
+	if best < 0 {
+		return Mark{}, false
+	}
+	return marks[best], true
 }
 
 // esc escapes text for XML and drops what XML 1.0 cannot hold (control
