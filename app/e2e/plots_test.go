@@ -108,18 +108,22 @@ func TestPlots(t *testing.T) {
 		if l := attr(t, b, id, "aria-label"); len(l) < 40 {
 			t.Errorf("%s has aria-label %q, want a sentence", id, l)
 		}
-		if n := eval[int](t, b, fmt.Sprintf(`document.querySelectorAll('[data-testid=%q] .pl-plot-points [data-row]').length`, id)); n != rep.N {
-			t.Errorf("%s draws %d readings, want %d", id, n, rep.N)
+		if n := eval[string](t, b, fmt.Sprintf(`document.querySelector('[data-testid=%q] .pl-plot-points').dataset.count`, id)); n != strconv.Itoa(rep.N) {
+			t.Errorf("%s draws %s readings, want %d", id, n, rep.N)
 		}
 	}
 	// Normal Q–Q: the mistyped reading has the most negative studentized
 	// residual in fitcore's report, so it is the lowest, leftmost point.
-	lowest := eval[string](t, b, `(() => { let best = null, by = -1, bx = 1e9;
-		for (const e of document.querySelectorAll('[data-testid="plot-qq"] .pl-plot-points circle[data-row], [data-testid="plot-qq"] .pl-plot-points path[data-row]')) {
-			const r = e.getBoundingClientRect(), y = r.top + r.height / 2, x = r.left + r.width / 2;
-			if (y > by) { by = y; best = e; bx = x; }
+	// The plain dots are one path ("M x y h0" each); flagged markers have
+	// an element each. The lowest of all must be the flagged slip.
+	lowest := eval[string](t, b, `(() => { let best = "", by = -1;
+		const d = document.querySelector('[data-testid="plot-qq"] .pl-pt-dots')?.getAttribute('d') || '';
+		for (const m of d.matchAll(/M(-?[0-9.]+) (-?[0-9.]+)/g)) { if (+m[2] > by) { by = +m[2]; best = "dot"; } }
+		for (const e of document.querySelectorAll('[data-testid="plot-qq"] .pl-plot-points [data-row]')) {
+			const r = e.getBBox(), y = r.y + r.height / 2;
+			if (y > by) { by = y; best = e.dataset.row; }
 		}
-		return best ? best.dataset.row : ""; })()`)
+		return best; })()`)
 	if lowest != strconv.Itoa(demo.MistypedRow) {
 		t.Errorf("the lowest Q–Q point is reading %s, want %d", lowest, demo.MistypedRow)
 	}
@@ -130,10 +134,27 @@ func TestPlots(t *testing.T) {
 	fuClick(t, b, "plot-point-close")
 	waitFor(t, b, "the panel closed", `!document.querySelector('[data-testid="plot-point-panel"]')`, 10*time.Second)
 
-	// Tap the flagged point on the fit plot.
-	pt := fmt.Sprintf(`[data-testid="plot-fit"] .pl-pt-flag[data-row="%d"]`, demo.MistypedRow)
-	b.do(t, chromedp.Click(chromedp.CSS(pt)))
+	// Tap a plain dot where it is drawn (reading 1 of this session): the
+	// panel opens on it and a ring marks it on every plot.
+	x1, _ := session.ParseNumber(s.Readings[0].X)
+	y1, _ := session.ParseNumber(s.Readings[0].Y)
+	tapPlotAt(t, b, "plot-fit", x1, y1)
+	waitFor(t, b, "the panel on reading 1", `document.querySelector('[data-testid="plot-point-panel"]')?.dataset.row === "0"`, 10*time.Second)
+	for _, id := range []string{"plot-fit", "plot-residuals", "plot-order", "plot-qq"} {
+		if got := attr(t, b, id+"-selected", "data-row"); got != "0" {
+			t.Errorf("%s-selected ring is on reading %q, want 0", id, got)
+		}
+	}
+	// A tap a little beside the flagged point (half a dot away, within
+	// the 48 px target) finds it.
+	xs, _ := session.ParseNumber(s.Readings[demo.MistypedRow].X)
+	ys, _ := session.ParseNumber(s.Readings[demo.MistypedRow].Y)
+	at := tapPlotAt(t, b, "plot-fit", xs, ys)
+	b.do(t, chromedp.MouseClickXY(at[0]+6, at[1]-4))
 	waitFor(t, b, "the reading panel", fmt.Sprintf(`document.querySelector('[data-testid="plot-point-panel"]')?.dataset.row === "%d"`, demo.MistypedRow), 10*time.Second)
+	if got := attr(t, b, "plot-fit-selected", "data-row"); got != strconv.Itoa(demo.MistypedRow) {
+		t.Errorf("the ring is on reading %q, want %d", got, demo.MistypedRow)
+	}
 	idx := -1
 	_, _, rows, _ := s.Pairs()
 	for i, r := range rows {
@@ -293,13 +314,24 @@ func TestPlotsSpeed(t *testing.T) {
 		if n > 2000 && attr(t, b, "plot-thinned", "data-value") != strconv.Itoa(drawn) {
 			t.Errorf("%d readings: the thinning is not stated", n)
 		}
-		// Tap reading 1 (the plots are redrawn with it marked) and time it.
-		ms := eval[float64](t, b, `new Promise(res => {
+		// Tap where reading 1 is drawn (a ring marks the reading found on
+		// the four plots; they are not redrawn) and time it.
+		y1 := s.Readings[1].Y
+		ms := eval[float64](t, b, strings.Replace(`new Promise(res => {
 			const t0 = performance.now();
-			document.querySelector('[data-testid="plot-fit"] [data-row="1"]').dispatchEvent(new MouseEvent('click', {bubbles: true}));
-			const tick = () => { if (document.querySelector('[data-testid="plot-point-reason"]') && getComputedStyle(document.querySelector('[data-testid="plot-qq"] .pl-plot-points [data-row="1"]')).strokeWidth === '4px') res(performance.now() - t0); else requestAnimationFrame(tick); };
+			const svg = document.querySelector('[data-testid="plot-fit"]');
+			const f = svg.dataset.frame.split(' ').map(Number);
+			const p = new DOMPoint(f[2] + (0.25 - f[0]) * (f[3] - f[2]) / (f[1] - f[0]), f[6] + (READING1Y - f[4]) * (f[7] - f[6]) / (f[5] - f[4])).matrixTransform(svg.getScreenCTM());
+			svg.dispatchEvent(new MouseEvent('click', {bubbles: true, clientX: p.x, clientY: p.y}));
+			// A tap lands on whole CSS pixels, so among the readings drawn
+			// around reading 1 it may find a neighbour: any reading will do,
+			// as long as the panel and the ring on every plot agree.
+			const tick = () => {
+				const row = document.querySelector('[data-testid="plot-point-panel"]')?.dataset.row;
+				if (row && document.querySelector('[data-testid="plot-point-reason"]') && document.querySelector('[data-testid="plot-qq-selected"]')?.dataset.row === row) res(performance.now() - t0); else requestAnimationFrame(tick);
+			};
 			tick();
-		})`)
+		})`, "READING1Y", y1, 1))
 		t.Logf("%d readings: a tap on a point → its panel shown and the point marked on the four plots in %.0f ms", n, ms)
 		ms = eval[float64](t, b, `new Promise(res => {
 			const t0 = performance.now();
@@ -317,7 +349,7 @@ func TestPlotsSpeed(t *testing.T) {
 			};
 			tick();
 		})`, n-1, n-1))
-		t.Logf("%d readings: leaving one out → line, checks and plots updated in %.0f ms (plots wait %v after an edit from %d readings)", n, ms, 150*time.Millisecond, 1000)
+		t.Logf("%d readings: leaving one out → line, checks and plots updated in %.0f ms", n, ms)
 		screenshot(t, b, fmt.Sprintf("speed-%d", n))
 		ms = eval[float64](t, b, `new Promise(res => {
 			const t0 = performance.now();

@@ -60,11 +60,10 @@ func (c *Shell) renderChecks() app.UI {
 		}
 		rows = append(rows, c.anCheckRow("x-exactness", "x treated as exact", *a.XExactness, tests))
 	}
-	return app.Section().Class("pl-card an-checks").Attr("aria-label", "Checks").Body(
+	return app.Section().Class("pl-card an-checks").Attr("aria-label", "Checks").
+		DataSet("testid", "checks").DataSet("slope", numfmt.Full(c.view.report.Slope.Estimate)).Body(
 		app.H2().Text("Can the line be trusted?"),
-		app.If(c.view.stale, func() app.UI {
-			return app.P().Class("pl-stale").Text("Updating after your last change…")
-		}),
+		app.P().Class("pl-stale").Hidden(!c.view.stale).Text(staleNote(c.view.stale)),
 		app.Ul().Class("an-check-list").Body(rows...),
 	)
 }

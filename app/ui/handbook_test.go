@@ -60,7 +60,7 @@ func TestHandbookAlaskaReport(t *testing.T) {
 		t.Errorf("spread %s, want warn or fail: the scatter grows with size [%s]", v, src)
 	}
 	ps := plBuild(s, rep, rows, -1)
-	if got := strings.Count(ps.Fit, "data-row="); got != 107 {
+	if got := len(ps.Marks["plot-fit"]); got != 107 || !strings.Contains(ps.Fit, `data-count="107"`) {
 		t.Errorf("the fit plot draws %d readings, want 107 [%s]", got, src)
 	}
 	if !strings.Contains(ps.ResSum, "spread check: "+plVerdictWord(rep.Assumptions.Spread.Verdict)) {

@@ -36,8 +36,7 @@ type plotsUI struct {
 	plCacheN    int
 	plCacheKey  plKey
 	plCache     plSet
-	plStale     bool            // the plots shown are older than the report
-	plWaitFor   *fitcore.Report // the report a delayed redraw is waiting for
+	plStale     bool // the plots shown are older than the report
 }
 
 // plotQueries adds the x grid of the drawn line to the options of the one
@@ -85,24 +84,37 @@ type plSet struct {
 	FitSum, ResSum, OrderSum, QQSum string
 	Drawn, Total                    int
 	Excluded                        int
+	// Marks are where each plot drew its points (by the svg's test id),
+	// for finding the reading under a tap; W, H the viewBox size.
+	Marks map[string][]plot.Mark
+	W, H  float64
 }
 
 // plBuild draws the plots of s from rep (rows maps fitcore's index to the
 // session row). sel is a row that must be drawn even when the plots are
-// thinned (the selected one), or −1; the selection itself is marked by a
-// style rule (selectionStyle), so that a tap does not redraw the plots. Nothing here is a statistic:
+// thinned (the selected one), or −1; the selection itself is a ring laid
+// over each plot (plot.Ring), so that a tap does not redraw the plots. Nothing here is a statistic:
 // every number drawn is a reading, or comes from rep or fitcore.NormalQQ.
 func plBuild(s *session.Session, rep *fitcore.Report, rows []int, sel int) plSet {
-	var ps plSet
-	if s == nil || rep == nil || len(rows) != rep.N || len(rep.Residuals) != rep.N || len(rep.Fitted) != rep.N {
-		return ps
+	if s == nil {
+		return plSet{}
 	}
-	n := rep.N
-	x, y := make([]float64, n), make([]float64, n)
+	x, y := make([]float64, len(rows)), make([]float64, len(rows))
 	for i, r := range rows {
 		x[i], _ = plParseCell(s, s.Readings[r].X)
 		y[i], _ = plParseCell(s, s.Readings[r].Y)
 	}
+	return plDraw(s, rep, rows, x, y, sel)
+}
+
+// plDraw is plBuild from the usable pairs as already read (x[i], y[i] of
+// session row rows[i]: what fitcore was given).
+func plDraw(s *session.Session, rep *fitcore.Report, rows []int, x, y []float64, sel int) plSet {
+	ps := plSet{Marks: make(map[string][]plot.Mark, 4)}
+	if s == nil || rep == nil || len(rows) != rep.N || len(x) != rep.N || len(y) != rep.N || len(rep.Residuals) != rep.N || len(rep.Fitted) != rep.N {
+		return ps
+	}
+	n := rep.N
 	flagged := make([]bool, n)
 	stud := make([]float64, n)
 	nFlag := 0
@@ -164,13 +176,15 @@ func plBuild(s *session.Session, rep *fitcore.Report, rows []int, sel int) plSet
 			{X: gx, Lo: ciLo, Hi: ciHi, Class: "pl-plot-ci", Fill: "#7fb4c0"},
 		},
 		Paths: []plot.Path{{X: gx, Y: fit, Class: "pl-plot-line"}},
-		Attrs: [][2]string{{"data-n", strconv.Itoa(n)}, {"data-drawn", strconv.Itoa(len(drawn))}, {"data-excluded", strconv.Itoa(ps.Excluded)}},
+		Attrs: [][2]string{{"data-n", strconv.Itoa(n)}, {"data-drawn", strconv.Itoa(len(drawn))}, {"data-excluded", strconv.Itoa(ps.Excluded)},
+			{"data-slope", numfmt.Full(rep.Slope.Estimate)}},
 	}
 	ps.FitSum = "Plot of " + plCount(n, "reading") + " of " + plNameOr(s.YName, "y") + " against " + plNameOr(s.XName, "x") +
 		" with the fitted line, its " + level + " % confidence band and the " + level + " % prediction band for a new reading; " +
 		plCount(nFlag, "reading") + " flagged as influential (diamonds) and " + plCount(ps.Excluded, "reading") + " left out (hollow squares)."
 	fitChart.Label = ps.FitSum
-	ps.Fit = fitChart.SVG()
+	ps.Fit, ps.Marks[fitChart.TestID] = fitChart.Draw()
+	ps.W, ps.H = fitChart.Size()
 
 	// 2. Residuals against fitted values (on the fitted scale).
 	scale := plScaleName(rep.Transform)
@@ -189,7 +203,7 @@ func plBuild(s *session.Session, rep *fitcore.Report, rows []int, sel int) plSet
 		strconv.Itoa(rows[loI]+1) + ") to " + numfmt.Sig(hi, 3) + " (reading " + strconv.Itoa(rows[hiI]+1) + "); spread check: " +
 		plVerdictWord(rep.Assumptions.Spread.Verdict) + "."
 	resChart.Label = ps.ResSum
-	ps.Residuals = resChart.SVG()
+	ps.Residuals, ps.Marks[resChart.TestID] = resChart.Draw()
 
 	// 3. Residuals in the order entered.
 	order := make([]float64, n)
@@ -207,7 +221,7 @@ func plBuild(s *session.Session, rep *fitcore.Report, rows []int, sel int) plSet
 	ps.OrderSum = "Residuals of " + plCount(n, "reading") + " in the order entered, joined up so that a drift or a run shows; independence check: " +
 		plVerdictWord(rep.Assumptions.Independence.Verdict) + "."
 	ordChart.Label = ps.OrderSum
-	ps.Order = ordChart.SVG()
+	ps.Order, ps.Marks[ordChart.TestID] = ordChart.Draw()
 
 	// 4. Normal Q–Q of the studentized residuals (Blom positions, fitcore).
 	qq := fitcore.NormalQQ(stud)
@@ -226,7 +240,7 @@ func plBuild(s *session.Session, rep *fitcore.Report, rows []int, sel int) plSet
 	ps.QQSum = "Normal Q–Q plot of " + plCount(n, "studentized residual") + " against the quantiles expected of a bell-shaped scatter; " +
 		"points near the dashed line mean normal scatter; normality check: " + plVerdictWord(rep.Assumptions.Normality.Verdict) + "."
 	qqChart.Label = ps.QQSum
-	ps.QQ = qqChart.SVG()
+	ps.QQ, ps.Marks[qqChart.TestID] = qqChart.Draw()
 	return ps
 }
 
@@ -299,12 +313,10 @@ func plVerdictWord(v fitcore.Verdict) string {
 }
 
 // plots returns the drawing of the open session, from the cache when the
-// report did not change (a new report comes with every edit).
-//
-// For big sessions (plotDeferN readings and more) a redraw after an edit
-// of the same session waits until edits pause for plotIdle: while someone
-// types, each keystroke updates the numbers at once and the plots follow
-// when the typing stops (they show "Updating…" meanwhile).
+// report did not change (a new report comes with every edit). While an
+// edit's advice is still to come (the first turn of an edit to a big
+// session, view.stale) the plots shown stay, marked as updating: the next
+// turn brings the full report and they are drawn once, from it.
 func (c *Shell) plots() plSet {
 	rep := c.view.report
 	if rep == c.plCacheRep && c.sess == c.plCacheSess && len(c.sess.Readings) == c.plCacheN {
@@ -312,31 +324,18 @@ func (c *Shell) plots() plSet {
 	}
 	if k := c.plKeyNow(); rep != nil && k == c.plCacheKey {
 		// A second analysis of the same readings (the advice worked out
-		// after a pause) draws the same plots.
+		// in the next turn) draws the same plots.
 		c.plCacheRep = rep
+		c.plStale = false
 		return c.plCache
 	}
-	if rep != nil && rep.N >= plotDeferN && c.sess == c.plCacheSess && c.plCacheRep != nil && c.ui.Src() != nil {
+	if rep != nil && c.view.stale && c.sess == c.plCacheSess && c.plCacheRep != nil {
 		c.plStale = true
-		if c.plWaitFor != rep {
-			c.plWaitFor = rep
-			c.ui.After(plotIdle, func(ctx app.Context) {
-				if c.view.report == rep && c.plWaitFor == rep {
-					c.plBuildNow()
-				}
-			})
-		}
 		return c.plCache
 	}
 	c.plBuildNow()
 	return c.plCache
 }
-
-// plotDeferN and plotIdle: see plots.
-const (
-	plotDeferN = 1000
-	plotIdle   = 150 * time.Millisecond
-)
 
 // plKey is what the plots are drawn from: the session and its last change,
 // and the fit's main figures.
@@ -362,18 +361,27 @@ func (c *Shell) plKeyNow() plKey {
 }
 
 func (c *Shell) plBuildNow() {
-	c.plCache = plBuild(c.sess, c.view.report, c.view.rows, c.plSel-1)
+	c.plCache = plDraw(c.sess, c.view.report, c.view.rows, c.view.x, c.view.y, c.plSel-1)
 	c.plCacheRep, c.plCacheSess, c.plCacheN, c.plCacheKey = c.view.report, c.sess, len(c.sess.Readings), c.plKeyNow()
-	c.plStale, c.plWaitFor = false, nil
+	c.plStale = false
 }
 
-// selectionStyle marks the selected reading on every plot: a ring in the
-// focus colour around its marker.
-func selectionStyle(row int) string {
-	r := strconv.Itoa(row)
-	return `<style>.pl-plot-points [data-row="` + r + `"], .pl-plot-points [data-row="` + r + `"] rect {` +
-		`stroke: var(--focus); stroke-opacity: 1; stroke-width: 4px; paint-order: stroke; }` +
-		`.pl-plot-points > circle[data-row="` + r + `"] { r: 8px; }</style>`
+// plotTapPx is how far from a point, in CSS pixels, a tap still finds it:
+// a target 48 px across, for a gloved finger.
+const plotTapPx = 24
+
+// plRing returns the ring over one plot around the selected reading, or ""
+// when that reading is not drawn there.
+func (ps plSet) plRing(testID string, row int) string {
+	if row < 0 {
+		return ""
+	}
+	for _, m := range ps.Marks[testID] {
+		if m.Row == row {
+			return plot.Ring(ps.W, ps.H, m, testID+"-selected")
+		}
+	}
+	return ""
 }
 
 // renderPlots draws the plots card: four plots, a legend, and the panel of
@@ -405,14 +413,13 @@ func (c *Shell) renderPlots() app.UI {
 		app.P().Class("pl-plot-thinned").DataSet("testid", "plot-thinned").DataSet("value", strconv.Itoa(ps.Drawn)).
 			Hidden(ps.Drawn >= ps.Total).Text(thinText(ps)),
 		app.Div().Class("pl-plots-grid").OnClick(c.onPlotTap).Body(
-			plFigure("Readings and the fitted line", ps.Fit, plLegend(c.view.report.Level)),
-			plFigure("Residuals against fitted values", ps.Residuals, nil),
-			plFigure("Residuals in the order entered", ps.Order, nil),
-			plFigure("Normal Q–Q plot of the residuals", ps.QQ, nil),
+			plFigure("Readings and the fitted line", ps.Fit, ps.plRing("plot-fit", c.plSel-1), plLegend(c.view.report.Level)),
+			plFigure("Residuals against fitted values", ps.Residuals, ps.plRing("plot-residuals", c.plSel-1), nil),
+			plFigure("Residuals in the order entered", ps.Order, ps.plRing("plot-order", c.plSel-1), nil),
+			plFigure("Normal Q–Q plot of the residuals", ps.QQ, ps.plRing("plot-qq", c.plSel-1), nil),
 			// Last in the markup (the stylesheet places the panel beside
 			// the first plot), so that showing it moves no plot.
 			app.If(c.plSel > 0, c.renderPointPanel),
-			app.If(c.plSel > 0, func() app.UI { return app.Raw(selectionStyle(c.plSel - 1)) }),
 		),
 	)
 }
@@ -431,10 +438,16 @@ func thinText(ps plSet) string {
 	return "Drawing " + strconv.Itoa(ps.Drawn) + " of " + strconv.Itoa(ps.Total) + " readings (every flagged reading and the extremes are drawn); the figures use all of them."
 }
 
-func plFigure(title, svg string, legend app.UI) app.UI {
+// plFigure is one plot with its caption, the ring over the selected
+// reading (after the chart, so that it comes and goes without the chart
+// being re-mounted) and its legend.
+func plFigure(title, svg, ring string, legend app.UI) app.UI {
 	return app.Figure().Class("pl-plot").Body(
 		app.FigCaption().Text(title),
-		app.Raw(svg),
+		app.Div().Class("pl-plot-canvas").Body(
+			app.Raw(svg),
+			app.If(ring != "", func() app.UI { return app.Raw(ring) }),
+		),
 		app.If(legend != nil, func() app.UI { return legend }),
 	)
 }
@@ -464,21 +477,43 @@ func plLegend(level float64) app.UI {
 	)
 }
 
-// onPlotTap finds the reading under a tap (every marker carries data-row).
+// onPlotTap finds the reading under a tap: a flagged or left-out marker
+// names its reading (data-row); otherwise it is the point of that plot
+// nearest to the tap within plotTapPx (the plain dots are one path).
 func (c *Shell) onPlotTap(ctx app.Context, e app.Event) {
 	t := e.Get("target")
-	if !t.Truthy() || !t.Get("closest").Truthy() {
+	if !t.Truthy() || !t.Get("closest").Truthy() || c.sess == nil {
 		return
 	}
-	el := t.Call("closest", "[data-row]")
-	if !el.Truthy() {
+	if el := t.Call("closest", ".pl-plot-points [data-row]"); el.Truthy() {
+		if row, err := strconv.Atoi(el.Call("getAttribute", "data-row").String()); err == nil && row >= 0 && row < len(c.sess.Readings) {
+			c.selectPoint(row)
+			return
+		}
+	}
+	svg := t.Call("closest", ".pl-plot-canvas")
+	if svg.Truthy() {
+		svg = svg.Call("querySelector", "svg.pl-plot-svg")
+	}
+	if !svg.Truthy() {
 		return
 	}
-	row, err := strconv.Atoi(el.Call("getAttribute", "data-row").String())
-	if err != nil || row < 0 || c.sess == nil || row >= len(c.sess.Readings) {
+	ctm := svg.Call("getScreenCTM")
+	if !ctm.Truthy() {
 		return
 	}
-	c.selectPoint(row)
+	unit := math.Hypot(ctm.Get("a").Float(), ctm.Get("b").Float()) // CSS px per viewBox unit
+	if !(unit > 0) {
+		return
+	}
+	p := app.Window().Get("DOMPoint").New(e.Get("clientX").Float(), e.Get("clientY").Float()).
+		Call("matrixTransform", ctm.Call("inverse"))
+	m, ok := plot.Nearest(c.plCache.Marks[svg.Call("getAttribute", "data-testid").String()],
+		p.Get("x").Float(), p.Get("y").Float(), plotTapPx/unit)
+	if !ok || m.Row < 0 || m.Row >= len(c.sess.Readings) {
+		return
+	}
+	c.selectPoint(m.Row)
 }
 
 // firstFlaggedRow is the first reading fitcore flags, or reading 0.

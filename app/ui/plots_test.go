@@ -61,15 +61,23 @@ func TestPlotsThinOnlyForDrawing(t *testing.T) {
 	if ps.Drawn > plotMaxDraw || ps.Drawn < plotMaxDraw/2 {
 		t.Errorf("drew %d points, want at most %d and not far fewer", ps.Drawn, plotMaxDraw)
 	}
-	if got := strings.Count(ps.Fit, `data-row=`); got != ps.Drawn+2 {
-		t.Errorf("fit plot has %d markers, want %d drawn + 2 left out", got, ps.Drawn)
+	if got := len(ps.Marks["plot-fit"]); got != ps.Drawn+2 || !strings.Contains(ps.Fit, `data-count="`+strconv.Itoa(got)+`"`) {
+		t.Errorf("fit plot has %d markers, want %d drawn + 2 left out, and says so in data-count", got, ps.Drawn)
 	}
-	if !strings.Contains(ps.Fit, `data-row="`+strconv.Itoa(s.Count().Rows/2)+`"`) {
+	drawn := func(id string, row int) bool {
+		for _, m := range ps.Marks[id] {
+			if m.Row == row {
+				return true
+			}
+		}
+		return false
+	}
+	if !drawn("plot-fit", s.Count().Rows/2) {
 		t.Error("the wild reading was thinned away")
 	}
 	for _, p := range rep.Influence {
-		if p.Flagged && !strings.Contains(ps.Residuals, `data-row="`+strconv.Itoa(rows[p.Index])+`"`) {
-			t.Fatalf("flagged reading %d is not drawn", rows[p.Index])
+		if p.Flagged && (!drawn("plot-residuals", rows[p.Index]) || !strings.Contains(ps.Residuals, `data-row="`+strconv.Itoa(rows[p.Index])+`"`)) {
+			t.Fatalf("flagged reading %d is not drawn as a flagged marker", rows[p.Index])
 		}
 	}
 	for _, svg := range []string{ps.Fit, ps.Residuals, ps.Order, ps.QQ} {

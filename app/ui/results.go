@@ -27,9 +27,9 @@ func (c *Shell) renderLine() app.UI {
 	slopeUnit, yu = c.anHeadlineUnits(rep, slopeUnit, yu)
 	return app.Section().Class("pl-card pl-line").Attr("aria-label", "Line").Body(
 		app.H2().Text("Line"),
-		app.If(c.view.stale, func() app.UI {
-			return app.P().Class("pl-stale").DataSet("testid", "result-stale").Text("Updating after your last change…")
-		}),
+		// Always in the markup, so that its coming and going never makes
+		// go-app re-mount the numbers after it.
+		app.P().Class("pl-stale").DataSet("testid", "result-stale").Hidden(!c.view.stale).Text(staleNote(c.view.stale)),
 		app.P().Class("pl-equation").Text(c.anEquation(rep, sig)),
 		app.Dl().Class("pl-figures").Body(
 			figure("result-n", "Pairs used (n)", float64(rep.N), itoa(rep.N), ""),
@@ -41,6 +41,14 @@ func (c *Shell) renderLine() app.UI {
 		),
 		c.renderMoreNumbers(),
 	)
+}
+
+// staleNote is the note shown while an edit's analysis is being completed.
+func staleNote(stale bool) string {
+	if stale {
+		return "Updating after your last change…"
+	}
+	return ""
 }
 
 func figure(testid, label string, value float64, shown, unit string) app.UI {

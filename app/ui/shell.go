@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"strconv"
 	"strings"
+	"sync"
 	"time"
 	"unicode"
 
@@ -44,9 +45,12 @@ type Shell struct {
 	notice      string // a sentence shown in the message strip
 	updateReady bool
 
-	saves   chan saveJob
-	editSeq int // counts edits, to run delayed work only for the latest
-	page    int // page of the readings grid shown (pageSize rows each)
+	saves    *saveQueue
+	editSeq  int       // counts edits, to run delayed work only for the latest
+	lastSave time.Time // when the open session was last handed to the saver
+	toSave   bool      // an edit waits for its save turn
+	pairs    session.PairCache
+	page     int // page of the readings grid shown (pageSize rows each)
 
 	needSync bool // text fields must be set from the session at the next render
 
@@ -80,7 +84,8 @@ type analysis struct {
 	// is no earlier advice to show meanwhile.
 	advicePending bool
 
-	rows []int // session row of each usable pair (fitcore's index → grid row)
+	rows []int     // session row of each usable pair (fitcore's index → grid row)
+	x, y []float64 // the usable pairs as read (what fitcore was given)
 }
 
 type cellKey struct {
@@ -92,7 +97,7 @@ type cellKey struct {
 func (c *Shell) OnMount(ctx app.Context) {
 	c.ui = ctx
 	c.updateReady = ctx.AppUpdateAvailable()
-	c.saves = make(chan saveJob, 1)
+	c.saves = newSaveQueue()
 	c.mountTransfer(ctx)
 	c.anLoadTemplates(ctx)
 	ctx.Async(func() {
@@ -171,6 +176,9 @@ func newSession(now time.Time) (*session.Session, error) {
 
 // show makes s the open session and analyses it.
 func (c *Shell) show(s *session.Session) {
+	if c.toSave && c.sess != nil && c.sess != s {
+		c.save(c.ui) // the last edit of the session being left, before its save turn
+	}
 	c.sess = s
 	c.page = 0
 	c.opened(s)
@@ -224,8 +232,8 @@ func (c *Shell) analyse() { c.analyseNow(false) }
 // being updated.
 func (c *Shell) analyseNow(quick bool) {
 	prev := c.view.report
-	x, y, rows, problems := c.sess.Pairs()
-	a := analysis{problems: make(map[cellKey]string, len(problems)), usable: len(rows), rows: rows}
+	x, y, rows, problems := c.pairs.Pairs(c.sess)
+	a := analysis{problems: make(map[cellKey]string, len(problems)), usable: len(rows), rows: rows, x: x, y: y}
 	for _, p := range problems {
 		a.problems[cellKey{p.Row, p.Column}] = p.Reason
 	}
@@ -244,7 +252,7 @@ func (c *Shell) analyseNow(quick bool) {
 		if quick {
 			a.stale = true
 			if prev != nil && prev.Advice != nil {
-				rep.Advice = prev.Advice
+				rep.Advice, rep.BoxCox = prev.Advice, prev.BoxCox
 			} else {
 				a.advicePending = true
 			}
@@ -253,53 +261,113 @@ func (c *Shell) analyseNow(quick bool) {
 	c.view = a
 }
 
-// adviceLater is the number of readings from which the transform advice is
-// worked out once typing pauses rather than on every keystroke: measured in
-// Chromium, a full analysis with advice takes about 150 ms at 1,000
-// readings, the checks alone a few ms.
-const adviceLater = 400
+// completeNow adds the advice (and the Box–Cox profile) to the report of
+// a quick analysis (fitcore.Complete: the same report a full analysis
+// gives, without fitting the readings again).
+func (c *Shell) completeNow() {
+	rep := c.view.report
+	if rep == nil || !c.view.stale {
+		c.analyse()
+		return
+	}
+	r := *rep
+	if err := fitcore.Complete(&r, c.view.x, c.view.y, c.sess.Settings.Options()); err != nil {
+		c.analyse()
+		return
+	}
+	c.view.report = &r
+	c.view.stale, c.view.advicePending = false, false
+}
 
-// bigSession is the number of readings from which analysing and encoding a
-// session takes longer than a keystroke may (measured: tens of ms in the
-// browser); such sessions are analysed and saved once typing pauses.
-const bigSession = 2000
+// adviceLater is the number of readings from which an edit's transform
+// advice (it refits the readings several ways) and plots come one turn
+// after its line and checks. Measured in Chromium: at 1,000 readings the
+// whole analysis with the advice takes about 8 ms, at 10,000 about 50 ms
+// (the checks alone about 11 ms).
+const adviceLater = 3000
 
-// idleDelay is the pause in typing after which a big session is analysed
-// and saved.
-const idleDelay = 250 * time.Millisecond
+// saveEvery is the longest a run of edits waits to be written to the
+// device while someone keeps typing into a big session; savePause is the
+// pause in typing after which a big session is written (encoding 10,000
+// readings takes the browser about 60 ms, storing them 40 ms more: not on
+// every keystroke).
+const (
+	saveEvery = time.Second
+	savePause = 300 * time.Millisecond
+)
 
-// edited is called after every change to the open session: the screen is
-// re-analysed and the session written to the device at once (for big
-// sessions, as soon as typing pauses, so that typing never stalls).
+// edited is called after every change to the open session. The work is
+// split into turns of the browser's event loop so that a keystroke never
+// waits for more than one of them:
+//
+//  1. at once: the readings are paired and fitted with their checks (with
+//     the advice and plots too below adviceLater readings), and the
+//     screen shows it;
+//  2. below adviceLater nothing more; from it, once that frame is drawn:
+//     the advice and the plots;
+//  3. once that frame is drawn (from adviceLater readings: once typing
+//     pauses for savePause): the session is encoded and handed to the
+//     saver.
+//
+// A turn that finds a newer edit leaves its work to that edit (a save
+// still goes ahead when the last one is saveEvery old).
 func (c *Shell) edited(ctx app.Context) {
 	c.editSeq++
 	c.undoTrack()
 	seq := c.editSeq
-	n := len(c.sess.Readings)
-	if n < bigSession {
-		c.analyseNow(n >= adviceLater)
-		c.save(ctx)
-		if n >= adviceLater {
-			c.ui.After(idleDelay, func(ctx app.Context) {
-				if seq == c.editSeq {
-					c.analyse()
-				}
-			})
+	big := len(c.sess.Readings) >= adviceLater
+	c.analyseNow(big)
+	saveTurn := func() {
+		if seq == c.editSeq || time.Since(c.lastSave) >= saveEvery {
+			c.save(c.ui)
 		}
+	}
+	if c.st != nil && c.saveState != "failed" && !c.heldByOtherTab() {
+		c.saveState = "saving" // from now: the edit is not on the device yet
+		c.toSave = true
+	}
+	if !big {
+		c.afterFrame(saveTurn)
 		return
 	}
-	c.view.stale = true
-	c.ui.After(idleDelay, func(ctx app.Context) {
-		if seq != c.editSeq {
+	laterSave := func() {
+		if c.ui.Src() == nil {
+			saveTurn()
 			return
 		}
-		c.analyse()
-		c.save(ctx)
+		if time.Since(c.lastSave) >= saveEvery {
+			c.afterFrame(saveTurn)
+			return
+		}
+		c.ui.After(savePause, func(app.Context) {
+			if seq == c.editSeq {
+				saveTurn()
+			}
+		})
+	}
+	c.afterFrame(func() {
+		if seq == c.editSeq {
+			c.completeNow()
+		}
+		laterSave()
 	})
 }
 
-// save encodes the open session and hands it to the saver. Only the newest
-// state waits: an older pending one is replaced, never written after it.
+// afterFrame runs fn on the UI goroutine in a later turn of the event loop,
+// once the frame being prepared is on the page (go-app's Defer runs after
+// the frame's updates; the timer then lets the browser paint and handle
+// input first). Natively, without a mounted Shell, fn runs at once.
+func (c *Shell) afterFrame(fn func()) {
+	if c.ui.Src() == nil {
+		fn()
+		return
+	}
+	c.ui.Defer(func(app.Context) {
+		c.ui.After(time.Millisecond, func(app.Context) { fn() })
+	})
+}
+
+// save encodes the open session and hands it to the saver (saveQueue).
 func (c *Shell) save(ctx app.Context) {
 	if c.st == nil || c.sess == nil || c.heldByOtherTab() {
 		return
@@ -309,12 +377,80 @@ func (c *Shell) save(ctx app.Context) {
 		c.saveState, c.saveMessage = "failed", "This session could not be saved: "+err.Error()
 		return
 	}
+	c.saves.put(job)
+	c.saveState = "saving"
+	c.lastSave = time.Now()
+	c.toSave = false
+}
+
+// saveQueue holds the states waiting to be written, the newest of each
+// session: a newer state of a session replaces its older pending one (which
+// is then never written after it), while another session's pending state
+// keeps its place. Several goroutines may use it.
+type saveQueue struct {
+	mu     sync.Mutex
+	jobs   []saveJob
+	wake   chan struct{}
+	closed bool
+}
+
+func newSaveQueue() *saveQueue { return &saveQueue{wake: make(chan struct{}, 1)} }
+
+// put queues a state.
+func (q *saveQueue) put(j saveJob) {
+	q.mu.Lock()
+	replaced := false
+	for i := range q.jobs {
+		if q.jobs[i].sum.ID == j.sum.ID {
+			q.jobs[i], replaced = j, true
+			break
+		}
+	}
+	if !replaced {
+		q.jobs = append(q.jobs, j)
+	}
+	q.mu.Unlock()
 	select {
-	case <-c.saves:
+	case q.wake <- struct{}{}:
 	default:
 	}
-	c.saves <- job
-	c.saveState = "saving"
+}
+
+// next waits for the oldest queued state; false once the queue is closed.
+func (q *saveQueue) next() (saveJob, bool) {
+	for {
+		q.mu.Lock()
+		if q.closed {
+			q.mu.Unlock()
+			return saveJob{}, false
+		}
+		if len(q.jobs) > 0 {
+			j := q.jobs[0]
+			q.jobs = q.jobs[1:]
+			q.mu.Unlock()
+			return j, true
+		}
+		q.mu.Unlock()
+		<-q.wake
+	}
+}
+
+// len is the number of states waiting.
+func (q *saveQueue) len() int {
+	q.mu.Lock()
+	defer q.mu.Unlock()
+	return len(q.jobs)
+}
+
+// close stops next.
+func (q *saveQueue) close() {
+	q.mu.Lock()
+	q.closed = true
+	q.mu.Unlock()
+	select {
+	case q.wake <- struct{}{}:
+	default:
+	}
 }
 
 // encodeJob encodes a session as its stored record and summary.
@@ -342,7 +478,11 @@ func saveNow(st store.Store, s *session.Session) error {
 func (c *Shell) startSaver(ctx app.Context) {
 	st, saves := c.st, c.saves
 	ctx.Async(func() {
-		for job := range saves {
+		for {
+			job, ok := saves.next()
+			if !ok {
+				return
+			}
 			err := st.Save(job.sum, job.body)
 			list, _ := st.List()
 			ctx.Dispatch(func(ctx app.Context) {
@@ -352,7 +492,7 @@ func (c *Shell) startSaver(ctx app.Context) {
 					return
 				}
 				c.announceSaved(ctx, job.sum)
-				if len(c.saves) == 0 {
+				if c.saves.len() == 0 && !c.toSave {
 					c.saveState, c.saveMessage = "saved", ""
 				}
 			})
@@ -363,7 +503,7 @@ func (c *Shell) startSaver(ctx app.Context) {
 // OnDismount stops the saver.
 func (c *Shell) OnDismount() {
 	if c.saves != nil {
-		close(c.saves)
+		c.saves.close()
 		c.saves = nil
 	}
 }
