@@ -3,6 +3,7 @@ package fitcore
 import (
 	"fmt"
 	"math"
+	"sort"
 	"testing"
 )
 
@@ -47,6 +48,29 @@ func TestNormalQQOrder(t *testing.T) {
 	for r, p := range qq {
 		if p.Index != wantIdx[r] || p.Rank != r || p.Sample != v[p.Index] || p.Theoretical != z[r] {
 			t.Errorf("rank %d: %+v", r, p)
+		}
+	}
+}
+
+// TestNormalQQLargeTies: above the radix-sort size, the order is that of a
+// stable comparison sort (ties, and −0 with +0, in input order).
+func TestNormalQQLargeTies(t *testing.T) {
+	n := 5000
+	v := make([]float64, n)
+	for i := range v {
+		v[i] = float64((i*7919)%13) - 6
+		if i%97 == 0 {
+			v[i] = math.Copysign(0, -1)
+		}
+	}
+	want := make([]int, n)
+	for i := range want {
+		want[i] = i
+	}
+	sort.SliceStable(want, func(a, b int) bool { return v[want[a]] < v[want[b]] })
+	for r, p := range NormalQQ(v) {
+		if p.Index != want[r] {
+			t.Fatalf("rank %d is position %d, a stable sort gives %d", r, p.Index, want[r])
 		}
 	}
 }

@@ -165,7 +165,7 @@ func (c *Chart) Draw() (string, []Mark) {
 	sx := Scale{D: xr, P0: marginLeft, P1: w - marginRight}
 	sy := Scale{D: yr, P0: h - marginBottom, P1: marginTop}
 	var b strings.Builder
-	b.Grow(4096 + 16*len(c.Points))
+	b.Grow(4096 + 20*len(c.Points))
 	b.WriteString(`<svg xmlns="http://www.w3.org/2000/svg" class="pl-plot-svg" viewBox="0 0 `)
 	b.WriteString(num(w) + " " + num(h) + `" role="img"`)
 	if c.TestID != "" {
@@ -234,6 +234,34 @@ func (c *Chart) Draw() (string, []Mark) {
 	return b.String(), marks
 }
 
+// extent gathers the range of the finite values added.
+type extent struct {
+	r  Range
+	ok bool
+}
+
+func (e *extent) add(v float64) {
+	if !finite(v) {
+		return
+	}
+	if !e.ok {
+		e.r, e.ok = Range{v, v}, true
+		return
+	}
+	if v < e.r.Lo {
+		e.r.Lo = v
+	}
+	if v > e.r.Hi {
+		e.r.Hi = v
+	}
+}
+
+func (e *extent) addAll(vs []float64) {
+	for _, v := range vs {
+		e.add(v)
+	}
+}
+
 // clipID is unique per chart on a page (charts differ by test id).
 func (c *Chart) clipID() string {
 	id := "pl-clip-" + c.TestID
@@ -246,24 +274,28 @@ func (c *Chart) clipID() string {
 }
 
 func (c *Chart) ranges() (Range, Range) {
-	var xs, ys []float64
-	for _, p := range c.Points {
-		xs, ys = append(xs, p.X), append(ys, p.Y)
+	// The extents of every finite value drawn (Extent's rule), without
+	// gathering them first: this runs for thousands of points per edit.
+	var xe, ye extent
+	for i := range c.Points {
+		xe.add(c.Points[i].X)
+		ye.add(c.Points[i].Y)
 	}
 	for _, bd := range c.Bands {
-		xs = append(xs, bd.X...)
-		ys = append(ys, bd.Lo...)
-		ys = append(ys, bd.Hi...)
+		xe.addAll(bd.X)
+		ye.addAll(bd.Lo)
+		ye.addAll(bd.Hi)
 	}
 	for _, p := range c.Paths {
-		xs, ys = append(xs, p.X...), append(ys, p.Y...)
+		xe.addAll(p.X)
+		ye.addAll(p.Y)
 	}
-	ys = append(ys, c.HLines...)
-	xr, ok := Extent(xs)
+	ye.addAll(c.HLines)
+	xr, ok := xe.r, xe.ok
 	if !ok {
 		xr = Range{0, 1}
 	}
-	yr, ok := Extent(ys)
+	yr, ok := ye.r, ye.ok
 	if !ok {
 		yr = Range{0, 1}
 	}
@@ -302,14 +334,21 @@ func writeBand(b *strings.Builder, bd Band, sx, sy Scale) {
 }
 
 func writePath(b *strings.Builder, p Path, sx, sy Scale) {
-	var pts []string
+	var pts []byte
+	n := 0
 	for i := range p.X {
 		if i >= len(p.Y) || !finite(p.X[i]) || !finite(p.Y[i]) {
 			continue
 		}
-		pts = append(pts, num(sx.At(p.X[i]))+","+num(sy.At(p.Y[i])))
+		if n > 0 {
+			pts = append(pts, ' ')
+		}
+		pts = appendNum(pts, sx.At(p.X[i]))
+		pts = append(pts, ',')
+		pts = appendNum(pts, sy.At(p.Y[i]))
+		n++
 	}
-	if len(pts) < 2 {
+	if n < 2 {
 		return
 	}
 	stroke, width := p.Stroke, p.Width
@@ -323,7 +362,9 @@ func writePath(b *strings.Builder, p Path, sx, sy Scale) {
 	if p.Dash != "" {
 		b.WriteString(` stroke-dasharray="` + esc(p.Dash) + `"`)
 	}
-	b.WriteString(` stroke-linejoin="round" points="` + strings.Join(pts, " ") + `"/>`)
+	b.WriteString(` stroke-linejoin="round" points="`)
+	b.Write(pts)
+	b.WriteString(`"/>`)
 }
 
 // Mark is where one point was drawn, in viewBox units: what a tap is
@@ -345,19 +386,26 @@ const dotWidth = 9.0
 // readings cost the page one element; flagged and left-out readings are few
 // and keep an element each with its data-row. Later marks are drawn on top.
 func writePoints(b *strings.Builder, pts []Point, sx, sy Scale) []Mark {
-	marks := make([]Mark, 0, len(pts))
-	for _, p := range pts {
-		if finite(p.X) && finite(p.Y) {
-			marks = append(marks, Mark{X: sx.At(p.X), Y: sy.At(p.Y), Row: p.Row, Marker: p.Marker})
+	// Drawing order: dots, then left-out squares, then flagged diamonds.
+	kind := func(m Marker) Marker {
+		if m == Flagged || m == HollowSquare {
+			return m
+		}
+		return Dot
+	}
+	var count [3]int
+	for i := range pts {
+		if p := &pts[i]; finite(p.X) && finite(p.Y) {
+			count[kind(p.Marker)]++
 		}
 	}
-	// Drawing order: dots, then left-out squares, then flagged diamonds.
-	order := make([]Mark, 0, len(marks))
-	for _, mk := range []Marker{Dot, HollowSquare, Flagged} {
-		for _, m := range marks {
-			if m.Marker == mk {
-				order = append(order, m)
-			}
+	slot := [3]int{Dot: 0, HollowSquare: count[Dot], Flagged: count[Dot] + count[HollowSquare]}
+	order := make([]Mark, count[0]+count[1]+count[2])
+	for i := range pts {
+		if p := &pts[i]; finite(p.X) && finite(p.Y) {
+			k := kind(p.Marker)
+			order[slot[k]] = Mark{X: sx.At(p.X), Y: sy.At(p.Y), Row: p.Row, Marker: k}
+			slot[k]++
 		}
 	}
 	b.WriteString(`<g class="pl-plot-points" data-count="` + strconv.Itoa(len(order)) + `">`)
