@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -531,7 +532,7 @@ func anSpeedAt(t *testing.T, srv *server, n int) {
 	// the checks, the advice and the plots all show fitcore's analysis of
 	// the edited readings.
 	var times []float64
-	for i := 0; i < 6; i++ {
+	for i := 0; i < 12; i++ {
 		v := fmt.Sprintf("%.3f", 2.1+0.01*float64(i))
 		pairs[0][1] = v
 		x, y = anParsed(t, pairs)
@@ -565,7 +566,9 @@ func anSpeedAt(t *testing.T, srv *server, n int) {
 		time.Sleep(300 * time.Millisecond)
 	}
 	long := eval[float64](t, b, `window.plLong`)
-	t.Logf("%d readings: edit → line, checks, advice and plots updated (ms): %.1f; longest task meanwhile %.0f ms", n, times, long)
+	sorted := slices.Clone(times)
+	slices.Sort(sorted)
+	t.Logf("%d readings: edit → line, checks, advice and plots updated (ms): %.1f; median %.0f; longest task meanwhile %.0f ms", n, times, sorted[len(sorted)/2], long)
 	anCheckVerdicts(t, b, rep.Assumptions)
 	if n > 1000 {
 		return

@@ -286,6 +286,27 @@ func TestDrawMarks(t *testing.T) {
 	}
 }
 
+// TestManyFlagged: beyond markerElems flagged readings, they are one path
+// listing its rows; below, an element each.
+func TestManyFlagged(t *testing.T) {
+	for _, n := range []int{markerElems, markerElems + 8} {
+		var pts []Point
+		for i := 0; i < n; i++ {
+			pts = append(pts, Point{X: float64(i), Y: float64(i % 7), Row: 100 + i, Marker: Flagged})
+		}
+		pts = append(pts, Point{X: 1, Y: 1, Row: 1})
+		c := Chart{Points: pts}
+		s, marks := c.Draw()
+		if len(marks) != n+1 {
+			t.Fatalf("%d flagged: %d marks", n, len(marks))
+		}
+		elems, paths := strings.Count(s, `class="pl-pt pl-pt-flag" data-row=`), strings.Count(s, `class="pl-pt pl-pt-flags" data-rows="100 101 `)
+		if n <= markerElems && (elems != n || paths != 0) || n > markerElems && (elems != 0 || paths != 1) {
+			t.Errorf("%d flagged: %d elements and %d paths", n, elems, paths)
+		}
+	}
+}
+
 func FuzzChartSVG(f *testing.F) {
 	f.Add(1.0, 2.0, 3.0, 4.0, "x <unit>", "y & z")
 	f.Fuzz(func(t *testing.T, a, b, c, d float64, xt, yt string) {

@@ -428,18 +428,23 @@ func writePoints(b *strings.Builder, pts []Point, sx, sy Scale) []Mark {
 	if dots > 0 {
 		b.WriteString(`"/>`)
 	}
-	for _, m := range order {
-		row := strconv.Itoa(m.Row)
-		x, y := m.X, m.Y
-		switch m.Marker {
-		case Flagged:
-			d := 7.5
-			b.WriteString(`<path class="pl-pt pl-pt-flag" data-row="` + row + `" fill="` + flagColour + `" d="M` + num(x) + " " + num(y-d) +
-				"L" + num(x+d) + " " + num(y) + "L" + num(x) + " " + num(y+d) + "L" + num(x-d) + " " + num(y) + `Z"/>`)
-		case HollowSquare:
-			s := 5.5
-			b.WriteString(`<rect class="pl-pt pl-pt-excl" data-row="` + row + `" x="` + num(x-s) + `" y="` + num(y-s) + `" width="` + num(2*s) + `" height="` + num(2*s) +
-				`" fill="` + paperColour + `" stroke="` + inkColour + `" stroke-width="2"/>`)
+	// Left-out squares, then flagged diamonds: an element each with its
+	// data-row while there are few; beyond markerElems of a kind, one path
+	// with the rows listed in data-rows (a record with a spread that grows
+	// can have hundreds flagged).
+	for _, mk := range []Marker{HollowSquare, Flagged} {
+		group := order[slot[mk]-count[mk] : slot[mk]]
+		if len(group) == 0 {
+			continue
+		}
+		if len(group) > markerElems {
+			writeMarkerPath(b, mk, group)
+			continue
+		}
+		for _, m := range group {
+			b.WriteString(`<path class="` + markerClass(mk) + `" data-row="` + strconv.Itoa(m.Row) + `"` + markerPaint(mk) + ` d="`)
+			b.Write(appendMarker(nil, mk, m.X, m.Y))
+			b.WriteString(`"/>`)
 		}
 	}
 	b.WriteString(`</g>`)
@@ -450,6 +455,62 @@ func writePoints(b *strings.Builder, pts []Point, sx, sy Scale) []Mark {
 		}
 	}
 	return order
+}
+
+// markerElems is the most markers of one kind drawn as elements of their
+// own (see writePoints).
+const markerElems = 32
+
+func markerClass(mk Marker) string {
+	if mk == Flagged {
+		return "pl-pt pl-pt-flag"
+	}
+	return "pl-pt pl-pt-excl"
+}
+
+func markerPaint(mk Marker) string {
+	if mk == Flagged {
+		return ` fill="` + flagColour + `"`
+	}
+	return ` fill="` + paperColour + `" stroke="` + inkColour + `" stroke-width="2"`
+}
+
+// appendMarker appends the path data of one marker centred at (x, y): a
+// diamond 15 units across, or a square 11 units across.
+func appendMarker(dst []byte, mk Marker, x, y float64) []byte {
+	if mk == Flagged {
+		const d = 7.5
+		dst = append(dst, 'M')
+		dst = appendNum(dst, x)
+		dst = append(dst, ' ')
+		dst = appendNum(dst, y-d)
+		dst = append(dst, "l7.5 7.5l-7.5 7.5l-7.5-7.5z"...)
+		return dst
+	}
+	const h = 5.5
+	dst = append(dst, 'M')
+	dst = appendNum(dst, x-h)
+	dst = append(dst, ' ')
+	dst = appendNum(dst, y-h)
+	return append(dst, "h11v11h-11z"...)
+}
+
+// writeMarkerPath draws many markers of one kind as one path.
+func writeMarkerPath(b *strings.Builder, mk Marker, group []Mark) {
+	rows := make([]byte, 0, 6*len(group))
+	d := make([]byte, 0, 40*len(group))
+	for i, m := range group {
+		if i > 0 {
+			rows = append(rows, ' ')
+		}
+		rows = strconv.AppendInt(rows, int64(m.Row), 10)
+		d = appendMarker(d, mk, m.X, m.Y)
+	}
+	b.WriteString(`<path class="` + markerClass(mk) + `s" data-rows="`)
+	b.Write(rows)
+	b.WriteString(`"` + markerPaint(mk) + ` d="`)
+	b.Write(d)
+	b.WriteString(`"/>`)
 }
 
 // ringMarkup is the ring drawn around a selected reading.
