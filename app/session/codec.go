@@ -99,34 +99,48 @@ type File struct {
 // MaxSessions, a session that fails Validate, or a file larger than
 // MaxFileSize. The error then wraps ErrInvalidField or ErrTooLarge.
 func Encode(w io.Writer, sessions []*Session) error {
+	b, err := EncodeBytes(sessions)
+	if err != nil {
+		return err
+	}
+	_, err = w.Write(b)
+	return err
+}
+
+// EncodeBytes is Encode into a new byte slice (no copy of the file).
+func EncodeBytes(sessions []*Session) ([]byte, error) {
 	if len(sessions) == 0 {
-		return invalid("a session file holds at least one session")
+		return nil, invalid("a session file holds at least one session")
 	}
 	if len(sessions) > MaxSessions {
-		return fmt.Errorf("%w: %d sessions, at most %d in one file", ErrTooLarge, len(sessions), MaxSessions)
+		return nil, fmt.Errorf("%w: %d sessions, at most %d in one file", ErrTooLarge, len(sessions), MaxSessions)
 	}
 	seen := make(map[string]bool, len(sessions))
 	for i, s := range sessions {
 		if s == nil {
-			return fmt.Errorf("sessions[%d]: %w", i, invalid("the session is missing"))
+			return nil, fmt.Errorf("sessions[%d]: %w", i, invalid("the session is missing"))
 		}
 		if f, err := s.validate(); err != nil {
-			return fmt.Errorf("sessions[%d].%s: %w", i, f, err)
+			return nil, fmt.Errorf("sessions[%d].%s: %w", i, f, err)
 		}
 		if seen[s.ID] {
-			return fmt.Errorf("sessions[%d].id: %w", i, invalid("two sessions share the ID %s", s.ID))
+			return nil, fmt.Errorf("sessions[%d].id: %w", i, invalid("two sessions share the ID %s", s.ID))
 		}
 		seen[s.ID] = true
 	}
 	var buf bytes.Buffer
+	// Room for the whole file at once: growing the buffer by doubling
+	// copied and cleared it several times (measured: a third of a save of
+	// 10,000 readings in the browser).
+	buf.Grow(encodedSizeHint(sessions))
 	buf.Write(make([]byte, headerSize))
 	e := msgpack.NewEncoder(&buf)
 	if err := encodeBundle(e, sessions); err != nil {
-		return err
+		return nil, err
 	}
 	n := buf.Len() - headerSize
 	if n > maxBodySize {
-		return fmt.Errorf("%w: the sessions need %d bytes, at most %d fit in one file", ErrTooLarge, n+headerSize+checksumSize, MaxFileSize)
+		return nil, fmt.Errorf("%w: the sessions need %d bytes, at most %d fit in one file", ErrTooLarge, n+headerSize+checksumSize, MaxFileSize)
 	}
 	b := buf.Bytes()
 	copy(b, Magic[:])
@@ -135,8 +149,7 @@ func Encode(w io.Writer, sessions []*Session) error {
 	binary.BigEndian.PutUint64(b[12:], uint64(n))
 	sum := sha256.Sum256(b)
 	buf.Write(sum[:])
-	_, err := w.Write(buf.Bytes())
-	return err
+	return buf.Bytes(), nil
 }
 
 // msgpack writes into a bytes.Buffer cannot fail, so the encoder's errors
@@ -181,6 +194,25 @@ func (e *enc) tm(key string, t time.Time) {
 	e.keep(e.EncodeTime(t.UTC()))
 }
 func (e *enc) mapLen(n int) { e.keep(e.EncodeMapLen(n)) }
+
+// encodedSizeHint is a generous guess of the encoded size of sessions: the
+// fixed fields, and each reading and history entry with its texts and the
+// msgpack keys around them.
+func encodedSizeHint(sessions []*Session) int {
+	n := headerSize + checksumSize + 64
+	for _, s := range sessions {
+		n += 1024 + len(s.Title) + len(s.Notes) + len(s.Site)
+		for i := range s.Readings {
+			r := &s.Readings[i]
+			n += 96 + len(r.X) + len(r.Y) + len(r.Note) + len(r.ExcludeReason)
+		}
+		for i := range s.History {
+			h := &s.History[i]
+			n += 64 + len(h.Field) + len(h.Old) + len(h.New)
+		}
+	}
+	return n
+}
 
 func encodeBundle(me *msgpack.Encoder, sessions []*Session) error {
 	e := &enc{Encoder: me}

@@ -389,3 +389,32 @@ func ExampleDecode() {
 	// Conductivity check, bench meter 2 (invented example): 9 rows, 7 usable, 1 excluded, 1 problems
 	// Gauge height against flow, Heron Ford weir (invented): 3 rows, 3 usable, 0 excluded, 0 problems
 }
+
+// TestEncodeBytes: EncodeBytes gives the bytes Encode writes, and the size
+// guessed beforehand is never short of them (so the buffer is filled
+// without growing), for the sample sessions and a big invented one.
+func TestEncodeBytes(t *testing.T) {
+	big := sampleSessions(t)[0]
+	cp := *big
+	cp.ID = "0000000000004000800000000000000b"
+	cp.Readings = nil
+	for i := 0; i < 5000; i++ {
+		cp.Readings = append(cp.Readings, Reading{X: strconv.Itoa(i), Y: strconv.FormatFloat(float64(i)*1.0001, 'f', 4, 64), Note: "invented"})
+	}
+	for _, ss := range [][]*Session{sampleSessions(t), {&cp}} {
+		var buf bytes.Buffer
+		if err := Encode(&buf, ss); err != nil {
+			t.Fatal(err)
+		}
+		b, err := EncodeBytes(ss)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !bytes.Equal(b, buf.Bytes()) {
+			t.Fatal("EncodeBytes and Encode differ")
+		}
+		if hint := encodedSizeHint(ss); hint < len(b) {
+			t.Errorf("size hint %d, encoded %d bytes", hint, len(b))
+		}
+	}
+}

@@ -315,8 +315,9 @@ func plVerdictWord(v fitcore.Verdict) string {
 // plots returns the drawing of the open session, from the cache when the
 // report did not change (a new report comes with every edit). While an
 // edit's advice is still to come (the first turn of an edit to a big
-// session, view.stale) the plots shown stay, marked as updating: the next
-// turn brings the full report and they are drawn once, from it.
+// session, view.stale) and in the turn of that advice (view.plotsLater),
+// the plots shown stay, marked as updating; the turn after draws them once,
+// from the full report.
 func (c *Shell) plots() plSet {
 	rep := c.view.report
 	if rep == c.plCacheRep && c.sess == c.plCacheSess && len(c.sess.Readings) == c.plCacheN {
@@ -329,7 +330,7 @@ func (c *Shell) plots() plSet {
 		c.plStale = false
 		return c.plCache
 	}
-	if rep != nil && c.view.stale && c.sess == c.plCacheSess && c.plCacheRep != nil {
+	if rep != nil && (c.view.stale || c.view.plotsLater) && c.sess == c.plCacheSess && c.plCacheRep != nil {
 		c.plStale = true
 		return c.plCache
 	}

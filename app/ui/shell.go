@@ -80,9 +80,12 @@ type analysis struct {
 	usable   int
 	digits   int  // most significant digits typed in any usable cell
 	stale    bool // readings changed since the report was computed
-	// advicePending: the advice is worked out when typing pauses and there
+	// advicePending: the advice is worked out in a later turn and there
 	// is no earlier advice to show meanwhile.
 	advicePending bool
+	// plotsLater: the plots of this report are drawn in the next turn (big
+	// sessions: so that no one turn holds up typing for long).
+	plotsLater bool
 
 	rows []int     // session row of each usable pair (fitcore's index → grid row)
 	x, y []float64 // the usable pairs as read (what fitcore was given)
@@ -277,6 +280,7 @@ func (c *Shell) completeNow() {
 	}
 	c.view.report = &r
 	c.view.stale, c.view.advicePending = false, false
+	c.view.plotsLater = true
 }
 
 // adviceLater is the number of readings from which an edit's transform
@@ -304,7 +308,7 @@ const (
 //     the advice and plots too below adviceLater readings), and the
 //     screen shows it;
 //  2. below adviceLater nothing more; from it, once that frame is drawn:
-//     the advice and the plots;
+//     the advice, and in the turn after that the plots;
 //  3. once that frame is drawn (from adviceLater readings: once typing
 //     pauses for savePause): the session is encoded and handed to the
 //     saver.
@@ -346,10 +350,17 @@ func (c *Shell) edited(ctx app.Context) {
 		})
 	}
 	c.afterFrame(func() {
-		if seq == c.editSeq {
-			c.completeNow()
+		if seq != c.editSeq {
+			laterSave()
+			return
 		}
-		laterSave()
+		c.completeNow()
+		c.afterFrame(func() {
+			if seq == c.editSeq {
+				c.view.plotsLater = false
+			}
+			laterSave()
+		})
 	})
 }
 
@@ -455,13 +466,13 @@ func (q *saveQueue) close() {
 
 // encodeJob encodes a session as its stored record and summary.
 func encodeJob(s *session.Session) (saveJob, error) {
-	var buf bytes.Buffer
-	if err := session.Encode(&buf, []*session.Session{s}); err != nil {
+	body, err := session.EncodeBytes([]*session.Session{s})
+	if err != nil {
 		return saveJob{}, err
 	}
 	return saveJob{
 		sum:  store.Summary{ID: s.ID, Title: s.Title, Site: s.Site, Modified: s.Modified, Readings: len(s.Readings)},
-		body: buf.Bytes(),
+		body: body,
 	}, nil
 }
 
