@@ -573,6 +573,7 @@ func anSpeedAt(t *testing.T, srv *server, n int) {
 	slices.Sort(sorted)
 	t.Logf("%d readings: edit → line, checks, advice and plots updated (ms): %.1f; median %.0f; tasks over 50 ms meanwhile (how long a keystroke could wait): %.0f", n, times, sorted[len(sorted)/2], long)
 	anCheckVerdicts(t, b, rep.Assumptions)
+	screenshot(t, b, fmt.Sprintf("analysis-speed-%d", n))
 
 	// Typing: real key presses 60 ms apart into a cell, and for each the
 	// time from the key reaching the page to the next frame drawn (what
