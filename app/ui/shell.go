@@ -46,9 +46,10 @@ type Shell struct {
 	updateReady bool
 
 	saves    *saveQueue
-	editSeq  int       // counts edits, to run delayed work only for the latest
-	lastSave time.Time // when the open session was last handed to the saver
-	toSave   bool      // an edit waits for its save turn
+	editSeq  int         // counts edits, to run delayed work only for the latest
+	lastSave time.Time   // when the open session was last handed to the saver
+	toSave   bool        // an edit waits for its save turn
+	turn     app.Context // the context of the turn afterFrame is running, if any
 	pairs    session.PairCache
 	page     int // page of the readings grid shown (pageSize rows each)
 
@@ -300,6 +301,10 @@ const (
 	savePause = 300 * time.Millisecond
 )
 
+// saveAtOnce is the number of readings below which an edit is saved in its
+// own turn (encoding 500 readings takes the browser about 2 ms).
+const saveAtOnce = 500
+
 // edited is called after every change to the open session. The work is
 // split into turns of the browser's event loop so that a keystroke never
 // waits for more than one of them:
@@ -309,9 +314,9 @@ const (
 //     screen shows it;
 //  2. below adviceLater nothing more; from it, once that frame is drawn:
 //     the advice, and in the turn after that the plots;
-//  3. once that frame is drawn (from adviceLater readings: once typing
-//     pauses for savePause): the session is encoded and handed to the
-//     saver.
+//  3. below saveAtOnce readings at once; otherwise once that frame is
+//     drawn (from adviceLater readings: once typing pauses for savePause):
+//     the session is encoded and handed to the saver.
 //
 // A turn that finds a newer edit leaves its work to that edit (a save
 // still goes ahead when the last one is saveEvery old).
@@ -321,14 +326,21 @@ func (c *Shell) edited(ctx app.Context) {
 	seq := c.editSeq
 	big := len(c.sess.Readings) >= adviceLater
 	c.analyseNow(big)
+	var saveStateWas string // set below, once the edit has marked the save state
 	saveTurn := func() {
 		if seq == c.editSeq || time.Since(c.lastSave) >= saveEvery {
 			c.save(c.ui)
 		}
+		c.keepScreen(saveStateWas)
 	}
 	if c.st != nil && c.saveState != "failed" && !c.heldByOtherTab() {
 		c.saveState = "saving" // from now: the edit is not on the device yet
 		c.toSave = true
+	}
+	saveStateWas = c.saveState + "\x00" + c.saveMessage
+	if len(c.sess.Readings) < saveAtOnce {
+		c.save(c.ui) // cheap: in the keystroke's own turn, so a reload right after keeps it
+		return
 	}
 	if !big {
 		c.afterFrame(saveTurn)
@@ -364,6 +376,17 @@ func (c *Shell) edited(ctx app.Context) {
 	})
 }
 
+// keepScreen tells go-app not to redraw the screen after the turn being
+// run when the save state is still was (saveState, NUL, saveMessage): a
+// save handed to the saver changes nothing on the page, and a redraw of
+// the whole screen is the costliest part of a turn. Another change queued
+// for the same frame still redraws it.
+func (c *Shell) keepScreen(was string) {
+	if c.turn.Src() != nil && c.saveState+"\x00"+c.saveMessage == was {
+		c.turn.PreventUpdate()
+	}
+}
+
 // afterFrame runs fn on the UI goroutine in a later turn of the event loop,
 // once the frame being prepared is on the page (go-app's Defer runs after
 // the frame's updates; the timer then lets the browser paint and handle
@@ -374,7 +397,11 @@ func (c *Shell) afterFrame(fn func()) {
 		return
 	}
 	c.ui.Defer(func(app.Context) {
-		c.ui.After(time.Millisecond, func(app.Context) { fn() })
+		c.ui.After(time.Millisecond, func(ctx app.Context) {
+			c.turn = ctx
+			fn()
+			c.turn = app.Context{}
+		})
 	})
 }
 
