@@ -409,7 +409,7 @@ func (c *Shell) renderPlots() app.UI {
 		),
 		// The notes and the grid keep their places whether shown or not, so
 		// that go-app never re-mounts the plots because a sibling came or went.
-		app.P().Class("pl-plot-thinned").DataSet("testid", "plot-stale").Hidden(!c.plStale).
+		app.P().Class("pl-stale").DataSet("testid", "plot-stale").Hidden(!c.plStale).
 			Text(staleText(c.plStale)),
 		app.P().Class("pl-plot-thinned").DataSet("testid", "plot-thinned").DataSet("value", strconv.Itoa(ps.Drawn)).
 			Hidden(ps.Drawn >= ps.Total).Text(thinText(ps)),
