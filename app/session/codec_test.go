@@ -418,3 +418,26 @@ func TestEncodeBytes(t *testing.T) {
 		}
 	}
 }
+
+// TestEncodeAppendReuses: encoding into the memory of an earlier file gives
+// the same bytes as a fresh encoding, using that memory when it is big
+// enough.
+func TestEncodeAppendReuses(t *testing.T) {
+	ss := sampleSessions(t)
+	want, err := EncodeBytes(ss)
+	if err != nil {
+		t.Fatal(err)
+	}
+	old := make([]byte, 0, encodedSizeHint(ss)+100)
+	old = append(old, "stale bytes of an earlier state"...)
+	got, err := EncodeAppend(old, ss)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Equal(got, want) {
+		t.Fatal("EncodeAppend into used memory differs from EncodeBytes")
+	}
+	if &got[0] != &old[:1][0] {
+		t.Error("EncodeAppend did not reuse memory that was big enough")
+	}
+}

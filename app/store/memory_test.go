@@ -49,3 +49,18 @@ func TestMemoryTrashAndList(t *testing.T) {
 		t.Errorf("purged session: %v", err)
 	}
 }
+
+// Save keeps a copy (the Store contract): the screen reuses the memory of
+// a saved state for the next one.
+func TestMemorySaveCopies(t *testing.T) {
+	m := NewMemory()
+	body := []byte("first state")
+	if err := m.Save(Summary{ID: "a", Title: "a"}, body); err != nil {
+		t.Fatal(err)
+	}
+	copy(body, "XXXXX")
+	got, err := m.Load("a")
+	if err != nil || string(got) != "first state" {
+		t.Errorf("stored %q, %v; want the bytes as they were when saved", got, err)
+	}
+}

@@ -49,7 +49,8 @@ type Store interface {
 	Trash() ([]Summary, error)
 	// Load returns a session's encoded bytes.
 	Load(id string) ([]byte, error)
-	// Save writes a session's bytes and summary in one transaction.
+	// Save writes a session's bytes and summary in one transaction. It
+	// keeps a copy of body: the caller may reuse body once Save returns.
 	Save(sum Summary, body []byte) error
 	// SaveAll writes several sessions in one transaction: all of them or,
 	// when anything fails (a full device, say), none. sums[i] goes with

@@ -410,7 +410,7 @@ func (c *Shell) save(ctx app.Context) {
 	if c.st == nil || c.sess == nil || c.heldByOtherTab() {
 		return
 	}
-	job, err := encodeJob(c.sess)
+	job, err := encodeJobInto(c.saves.takeSpare(), c.sess)
 	if err != nil {
 		c.saveState, c.saveMessage = "failed", "This session could not be saved: "+err.Error()
 		return
@@ -430,6 +430,28 @@ type saveQueue struct {
 	jobs   []saveJob
 	wake   chan struct{}
 	closed bool
+	spare  []byte // the memory of a state already written, for the next one
+}
+
+// takeSpare returns memory for encoding the next state (nil when none).
+func (q *saveQueue) takeSpare() []byte {
+	if q == nil {
+		return nil
+	}
+	q.mu.Lock()
+	defer q.mu.Unlock()
+	b := q.spare
+	q.spare = nil
+	return b
+}
+
+// giveBack offers the memory of a state the store has taken a copy of.
+func (q *saveQueue) giveBack(b []byte) {
+	q.mu.Lock()
+	if cap(b) > cap(q.spare) {
+		q.spare = b
+	}
+	q.mu.Unlock()
 }
 
 func newSaveQueue() *saveQueue { return &saveQueue{wake: make(chan struct{}, 1)} }
@@ -492,8 +514,11 @@ func (q *saveQueue) close() {
 }
 
 // encodeJob encodes a session as its stored record and summary.
-func encodeJob(s *session.Session) (saveJob, error) {
-	body, err := session.EncodeBytes([]*session.Session{s})
+func encodeJob(s *session.Session) (saveJob, error) { return encodeJobInto(nil, s) }
+
+// encodeJobInto is encodeJob reusing the memory of buf.
+func encodeJobInto(buf []byte, s *session.Session) (saveJob, error) {
+	body, err := session.EncodeAppend(buf, []*session.Session{s})
 	if err != nil {
 		return saveJob{}, err
 	}
@@ -522,6 +547,7 @@ func (c *Shell) startSaver(ctx app.Context) {
 				return
 			}
 			err := st.Save(job.sum, job.body)
+			saves.giveBack(job.body) // the store keeps its own copy
 			list, _ := st.List()
 			ctx.Dispatch(func(ctx app.Context) {
 				c.sessions = list
