@@ -370,3 +370,71 @@ func TestReloadWhileTyping(t *testing.T) {
 		t.Logf("reload %v after the last key: y6 %q → %q (kept: %v)", d, before, after, after == before+"7")
 	}
 }
+
+// TestBigSessionSaveTiming: a session of 5,000 invented readings is saved
+// once typing pauses (300 ms). It logs how long after a key the save is
+// done when the technician stays, and when the app is left at once
+// (visibilitychange to hidden, as when another app comes to the front:
+// the waiting edit is written then), and whether the key survives a reload
+// in the pause (the browser tears the page down before a save can finish).
+// Figures are logged; what is asserted is that the typed keys end up
+// stored.
+func TestBigSessionSaveTiming(t *testing.T) {
+	srv := startServer(t)
+	b := newBrowser(t, tablet)
+	b.do(t, chromedp.Navigate(srv.URL))
+	waitFor(t, b, "the app to start", appReady, 60*time.Second)
+	now := time.Date(2026, 6, 1, 9, 0, 0, 0, time.UTC)
+	s, err := session.New("Invented big session, 5000 readings", now, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range 5000 {
+		s.Readings = append(s.Readings, session.Reading{X: fmt.Sprint(i), Y: fmt.Sprintf("%.2f", 2*float64(i)+1)})
+	}
+	var buf bytes.Buffer
+	if err := session.Encode(&buf, []*session.Session{s}); err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "big.pairline")
+	if err := os.WriteFile(path, buf.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	b.do(t, chromedp.SetUploadFiles(sel("import-file"), []string{path}))
+	waitFor(t, b, "the imported session", `document.querySelector('[data-testid="result-n"]')?.dataset.value === "5000"`, 60*time.Second)
+	waitFor(t, b, "saved", `document.querySelector('[data-testid="save-status"]').dataset.state === "saved"`, 20*time.Second)
+	caret := `(document.querySelector('[data-testid="y-input-0"]').focus(), document.querySelector('[data-testid="y-input-0"]').setSelectionRange(99, 99), true)`
+	timeToSaved := func(leave bool) float64 {
+		eval[bool](t, b, caret)
+		b.do(t, chromedp.KeyEvent("7"))
+		return eval[float64](t, b, fmt.Sprintf(`new Promise((resolve, reject) => {
+			const st = document.querySelector('[data-testid="save-status"]');
+			const t0 = performance.now();
+			if (%v) {
+				Object.defineProperty(document, 'visibilityState', {value: 'hidden', configurable: true});
+				document.dispatchEvent(new Event('visibilitychange'));
+				delete document.visibilityState;
+			}
+			const tick = () => { if (st.dataset.state === 'saved') resolve(performance.now() - t0); else if (performance.now() - t0 > 5000) reject(new Error('not saved')); else setTimeout(tick, 2); };
+			setTimeout(tick, 2);
+		})`, leave))
+	}
+	stay, leave := timeToSaved(false), timeToSaved(true)
+	t.Logf("5,000 readings: a key → saved in %.0f ms when typing pauses; %.0f ms when the app is left at once", stay, leave)
+	want := eval[string](t, b, `document.querySelector('[data-testid="y-input-0"]').value`)
+	b.do(t, chromedp.Reload())
+	waitFor(t, b, "the app after reload", appReady+` && document.querySelector('[data-testid="result-n"]')?.dataset.value === "5000"`, 60*time.Second)
+	if got := eval[string](t, b, `document.querySelector('[data-testid="y-input-0"]').value`); got != want {
+		t.Errorf("after the saves, y of reading 1 is %q, want %q", got, want)
+	}
+	for _, d := range []time.Duration{20 * time.Millisecond, 150 * time.Millisecond} {
+		eval[bool](t, b, caret)
+		before := eval[string](t, b, `document.querySelector('[data-testid="y-input-0"]').value`)
+		b.do(t, chromedp.KeyEvent("7"))
+		time.Sleep(d)
+		b.do(t, chromedp.Reload())
+		waitFor(t, b, "the app after reload", appReady+` && document.querySelector('[data-testid="result-n"]')?.dataset.value === "5000"`, 60*time.Second)
+		after := eval[string](t, b, `document.querySelector('[data-testid="y-input-0"]').value`)
+		t.Logf("5,000 readings: reload %v after the last key: y1 %q → %q (kept: %v)", d, before, after, after == before+"7")
+	}
+}

@@ -78,6 +78,21 @@ func (c *Shell) mountTransfer(ctx app.Context) {
 		return
 	}
 	c.shareOK = canShareFiles()
+	// Leaving the app (another app, the tab closed, the tablet put to
+	// sleep) writes an edit still waiting for its save turn at once: a big
+	// session is otherwise saved only once typing pauses.
+	flush := app.FuncOf(func(this app.Value, args []app.Value) any {
+		if doc.Get("visibilityState").String() == "hidden" || (len(args) > 0 && args[0].Get("type").String() == "pagehide") {
+			c.ui.Dispatch(func(ctx app.Context) {
+				if c.toSave {
+					c.save(ctx)
+				}
+			})
+		}
+		return nil
+	})
+	doc.Call("addEventListener", "visibilitychange", flush)
+	win.Call("addEventListener", "pagehide", flush)
 	doc.Call("addEventListener", "dragover", app.FuncOf(func(this app.Value, args []app.Value) any {
 		if len(args) > 0 && hasFiles(args[0]) {
 			args[0].Call("preventDefault")
