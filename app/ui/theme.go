@@ -67,8 +67,18 @@ func (c *Shell) onTheme(ctx app.Context, e app.Event) {
 	}
 }
 
-// undoDepth is how many earlier states undo keeps for the open session.
-const undoDepth = 20
+// undoDepth is how many earlier states undo keeps for the open session;
+// each is a copy of the readings, so a very big session keeps fewer
+// (undoReadings readings in all, and never fewer than 5 states).
+const (
+	undoDepth    = 20
+	undoReadings = 1_000_000
+)
+
+// undoDepthFor is the number of states kept for a session of n readings.
+func undoDepthFor(n int) int {
+	return max(5, min(undoDepth, undoReadings/max(n, 1)))
+}
 
 // undoUI keeps the states of the open session before its last edits (deep
 // copies without the history). One entry per history entry: typing a cell
@@ -124,8 +134,8 @@ func (c *Shell) undoTrack() {
 	}
 	if len(c.sess.History) > c.unHist && c.unBase != nil {
 		c.unStack = append(c.unStack, c.unBase)
-		if len(c.unStack) > undoDepth {
-			c.unStack = slices.Delete(c.unStack, 0, len(c.unStack)-undoDepth)
+		if d := undoDepthFor(len(c.sess.Readings)); len(c.unStack) > d {
+			c.unStack = slices.Delete(c.unStack, 0, len(c.unStack)-d)
 		}
 	}
 	c.unBase, c.unHist = snapshot(c.sess), len(c.sess.History)

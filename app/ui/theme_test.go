@@ -63,3 +63,13 @@ func TestUndo(t *testing.T) {
 		t.Errorf("the restored session is not valid: %v", err)
 	}
 }
+
+// A very big session keeps fewer undo states (each is a copy of the
+// readings), never fewer than 5.
+func TestUndoDepthFor(t *testing.T) {
+	for _, c := range []struct{ n, want int }{{0, 20}, {10, 20}, {10000, 20}, {50000, 20}, {100000, 10}, {400000, 5}, {1000000, 5}} {
+		if got := undoDepthFor(c.n); got != c.want {
+			t.Errorf("undoDepthFor(%d) = %d, want %d", c.n, got, c.want)
+		}
+	}
+}
