@@ -10,7 +10,7 @@ import "runtime/debug"
 // edit took a median 47–55 ms to reach the screen, with 300 a median
 // 28–35 ms. A soft limit keeps the heap of a very big session bounded: near
 // it the collector works as often as it has to. (At 100,000 readings the
-// undo states alone can hold about 240 MB: 20 copies of the readings.)
+// undo states alone hold about 120 MB: 10 copies of the readings.)
 func init() {
 	debug.SetGCPercent(300)
 	debug.SetMemoryLimit(512 << 20)
