@@ -494,6 +494,45 @@ func (s *Session) Import(res *CSVResult, now time.Time) (int, error) {
 	return len(res.X), nil
 }
 
+// PasteRows puts pasted pairs into the session from row start on: rows
+// that exist have their cells set (each change recorded with the text it
+// replaced, as typing would be), rows beyond the end are added. The rows
+// added get one "paste" entry in the history naming them, not three
+// entries each: like an import, the pasted values are in the readings
+// themselves, and pasting 10,000 rows must not make 30,000 entries that
+// every save then carries. It returns the number of rows added.
+func (s *Session) PasteRows(start int, xs, ys []string, now time.Time) (int, error) {
+	if start < 0 || start > len(s.Readings) {
+		return 0, fmt.Errorf("%w: row %d (the session has %d rows)", ErrNoSuchRow, start+1, len(s.Readings))
+	}
+	if len(xs) != len(ys) {
+		return 0, fmt.Errorf("%w: %d x values and %d y values", ErrBadValue, len(xs), len(ys))
+	}
+	if start+len(xs) > MaxReadings {
+		return 0, fmt.Errorf("%w: the session would hold %d readings, at most %d are allowed", ErrBadValue, start+len(xs), MaxReadings)
+	}
+	i := 0
+	for ; i < len(xs) && start+i < len(s.Readings); i++ {
+		if err := s.SetCell(start+i, ColumnX, xs[i], now); err != nil {
+			return 0, err
+		}
+		if err := s.SetCell(start+i, ColumnY, ys[i], now); err != nil {
+			return 0, err
+		}
+	}
+	if i == len(xs) {
+		return 0, nil
+	}
+	first := len(s.Readings)
+	taken := now.UTC()
+	s.Readings = slices.Grow(s.Readings, len(xs)-i)
+	for ; i < len(xs); i++ {
+		s.Readings = append(s.Readings, Reading{X: xs[i], Y: ys[i], Taken: taken})
+	}
+	s.record(now, "paste", -1, "", fmt.Sprintf("%d readings added (rows %d–%d)", len(s.Readings)-first, first+1, len(s.Readings)))
+	return len(s.Readings) - first, nil
+}
+
 func columnTitle(name, unit, def string) string {
 	if name == "" {
 		name = def

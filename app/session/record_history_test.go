@@ -44,3 +44,36 @@ func TestHistoryCoalescesTyping(t *testing.T) {
 		t.Errorf("typing back to the old value left %d entries, want %d", n, len(want))
 	}
 }
+
+// TestPasteRows: pasted pairs overwrite the rows they land on (each change
+// recorded with the old text) and add the rest with one "paste" entry.
+func TestPasteRows(t *testing.T) {
+	now := time.Date(2026, 6, 1, 9, 0, 0, 0, time.UTC)
+	s, err := New("Invented paste check", now, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s.AddRow("1", "2.0", now)
+	s.AddRow("2", "4.1", now)
+	h0 := len(s.History)
+	later := now.Add(time.Minute)
+	added, err := s.PasteRows(1, []string{"2", "3", "4", "5"}, []string{"4.2", "6.1", "8.0", "9.9"}, later)
+	if err != nil || added != 3 {
+		t.Fatalf("PasteRows = %d, %v; want 3 rows added", added, err)
+	}
+	if len(s.Readings) != 5 || s.Readings[1].Y != "4.2" || s.Readings[4].X != "5" || s.Readings[4].Y != "9.9" || !s.Readings[4].Taken.Equal(later) {
+		t.Fatalf("readings after the paste: %+v", s.Readings)
+	}
+	got := s.History[h0:]
+	// Row 2's x was already "2" (no entry); its y changed; then one entry for the 3 rows added.
+	if len(got) != 2 || got[0].Field != "y" || got[0].Row != 1 || got[0].Old != "4.1" || got[0].New != "4.2" ||
+		got[1].Field != "paste" || got[1].New != "3 readings added (rows 3–5)" {
+		t.Errorf("history of the paste: %+v", got)
+	}
+	if _, err := s.PasteRows(9, []string{"1"}, []string{"1"}, later); err == nil {
+		t.Error("a paste below the last row + 1 was accepted")
+	}
+	if _, err := s.PasteRows(0, []string{"1", "2"}, []string{"1"}, later); err == nil {
+		t.Error("a paste with unequal columns was accepted")
+	}
+}

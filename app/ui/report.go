@@ -442,6 +442,8 @@ func rpKind(f string) string {
 		return "readings typed or changed"
 	case "row":
 		return "readings added"
+	case "import", "paste":
+		return "readings imported or pasted"
 	case "excluded", "exclude_reason":
 		return "readings left out or put back (with reasons)"
 	case "settings":

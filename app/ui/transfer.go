@@ -691,14 +691,9 @@ func (c *Shell) pasteBlock(ctx app.Context, row int, text string) {
 	if c.sess.DecimalComma == nil {
 		c.sess.SetField(session.FieldDecimalComma, strconv.FormatBool(res.DecimalComma), now)
 	}
-	for i := range res.X {
-		r := row + i
-		if r < len(c.sess.Readings) {
-			c.sess.SetCell(r, session.ColumnX, res.X[i], now)
-			c.sess.SetCell(r, session.ColumnY, res.Y[i], now)
-		} else {
-			c.sess.AddRow(res.X[i], res.Y[i], now)
-		}
+	if _, err := c.sess.PasteRows(row, res.X, res.Y, now); err != nil {
+		c.notice = "The pasted block was not used: " + err.Error()
+		return
 	}
 	c.notice = "Pasted " + plural(len(res.X), "reading", "readings") + " into rows " + strconv.Itoa(row+1) + "–" + strconv.Itoa(row+len(res.X)) + "."
 	if res.Incomplete > 0 {
