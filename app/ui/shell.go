@@ -6,8 +6,8 @@ package ui
 import (
 	"bytes"
 	"fmt"
-	"strconv"
 	"runtime"
+	"strconv"
 	"strings"
 	"sync"
 	"time"
