@@ -383,8 +383,8 @@ func (c *Shell) edited(ctx app.Context) {
 // the technician reads the screen: loading leaves megabytes behind, and the
 // collection it calls for otherwise falls in the next edits (every
 // allocation then helps to mark). Measured: the first two edits after
-// pasting 10,000 readings went from 260–360 ms to 185–260 ms, at 1,000
-// readings from up to 270 ms to 52–99 ms. Only in the browser; nothing on
+// pasting 10,000 readings went from 260–360 ms to 150–300 ms, at 1,000
+// readings from up to 270 ms to 52–130 ms. Only in the browser; nothing on
 // the screen changes.
 func (c *Shell) collectAfterLoad() {
 	if c.ui.Src() == nil || c.sess == nil || len(c.sess.Readings) < saveAtOnce {
