@@ -256,21 +256,26 @@ func screenshot(t testing.TB, b *browser, name string) {
 	t.Logf("screenshot: %s", path)
 }
 
+// plotPointJS is a JavaScript function (svg, x, y) giving the screen
+// point (a DOMPoint) where the data point (x, y) is drawn on a plot: the
+// svg's data-frame holds its scales (app/plot.Draw).
+const plotPointJS = `((svg, x, y) => {
+	const f = svg.dataset.frame.split(' ').map(Number);
+	return new DOMPoint(f[2] + (x - f[0]) * (f[3] - f[2]) / (f[1] - f[0]), f[6] + (y - f[4]) * (f[7] - f[6]) / (f[5] - f[4])).matrixTransform(svg.getScreenCTM());
+})`
+
 // tapPlotAt taps a plot where the data point (x, y) is drawn, as a finger
-// would: the svg's data-frame (app/plot.Draw) gives its scales, the page
-// maps the viewBox point to the screen, and Chromium gets a real mouse
-// click there. It returns the screen point tapped.
+// would: the plot is scrolled into view, plotPointJS finds the point on
+// the screen and Chromium gets a real mouse click there. It returns the
+// screen point tapped.
 func tapPlotAt(t testing.TB, b *browser, testID string, x, y float64) [2]float64 {
 	t.Helper()
 	p := eval[[]float64](t, b, fmt.Sprintf(`(() => {
 		const svg = document.querySelector('[data-testid=%q]');
 		svg.scrollIntoView({block: 'center'});
-		const f = svg.dataset.frame.split(' ').map(Number);
-		const vx = f[2] + (%v - f[0]) * (f[3] - f[2]) / (f[1] - f[0]);
-		const vy = f[6] + (%v - f[4]) * (f[7] - f[6]) / (f[5] - f[4]);
-		const p = new DOMPoint(vx, vy).matrixTransform(svg.getScreenCTM());
+		const p = %s(svg, %v, %v);
 		return [p.x, p.y];
-	})()`, testID, x, y))
+	})()`, testID, plotPointJS, x, y))
 	b.do(t, chromedp.MouseClickXY(p[0], p[1]))
 	return [2]float64{p[0], p[1]}
 }

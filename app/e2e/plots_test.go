@@ -317,11 +317,10 @@ func TestPlotsSpeed(t *testing.T) {
 		// Tap where reading 1 is drawn (a ring marks the reading found on
 		// the four plots; they are not redrawn) and time it.
 		y1 := s.Readings[1].Y
-		ms := eval[float64](t, b, strings.Replace(`new Promise(res => {
+		ms := eval[float64](t, b, strings.NewReplacer("POINT", plotPointJS, "READING1Y", y1).Replace(`new Promise(res => {
 			const t0 = performance.now();
 			const svg = document.querySelector('[data-testid="plot-fit"]');
-			const f = svg.dataset.frame.split(' ').map(Number);
-			const p = new DOMPoint(f[2] + (0.25 - f[0]) * (f[3] - f[2]) / (f[1] - f[0]), f[6] + (READING1Y - f[4]) * (f[7] - f[6]) / (f[5] - f[4])).matrixTransform(svg.getScreenCTM());
+			const p = POINT(svg, 0.25, READING1Y);
 			svg.dispatchEvent(new MouseEvent('click', {bubbles: true, clientX: p.x, clientY: p.y}));
 			// A tap lands on whole CSS pixels, so among the readings drawn
 			// around reading 1 it may find a neighbour: any reading will do,
@@ -331,7 +330,7 @@ func TestPlotsSpeed(t *testing.T) {
 				if (row && document.querySelector('[data-testid="plot-point-reason"]') && document.querySelector('[data-testid="plot-qq-selected"]')?.dataset.row === row) res(performance.now() - t0); else requestAnimationFrame(tick);
 			};
 			tick();
-		})`, "READING1Y", y1, 1))
+		})`))
 		t.Logf("%d readings: a tap on a point → its panel shown and the point marked on the four plots in %.0f ms", n, ms)
 		ms = eval[float64](t, b, `new Promise(res => {
 			const t0 = performance.now();

@@ -477,30 +477,8 @@ func (st Settings) Options() fitcore.Options {
 // problem, and is skipped silently; one empty cell beside a filled one is a
 // problem ("is empty"). Excluded readings are neither used nor checked.
 func (s *Session) Pairs() (x, y []float64, rows []int, problems []CellProblem) {
-	parse := ParseNumber
-	if s.DecimalComma != nil {
-		dc := *s.DecimalComma
-		parse = func(t string) (float64, error) { return ParseNumberHint(t, dc) }
-	}
-	for i, r := range s.Readings {
-		if r.Excluded || (isBlank(r.X) && isBlank(r.Y)) {
-			continue
-		}
-		xv, xerr := parse(r.X)
-		yv, yerr := parse(r.Y)
-		if xerr != nil {
-			problems = append(problems, CellProblem{Row: i, Column: ColumnX, Text: r.X, Reason: reasonOf(xerr)})
-		}
-		if yerr != nil {
-			problems = append(problems, CellProblem{Row: i, Column: ColumnY, Text: r.Y, Reason: reasonOf(yerr)})
-		}
-		if xerr == nil && yerr == nil {
-			x = append(x, xv)
-			y = append(y, yv)
-			rows = append(rows, i)
-		}
-	}
-	return x, y, rows, problems
+	var pc PairCache
+	return pc.Pairs(s)
 }
 
 func reasonOf(err error) string {
@@ -554,8 +532,9 @@ type pairCell struct {
 	blank, checked bool
 }
 
-// Pairs returns what s.Pairs returns, reading only the cells whose text
-// changed since the last call with this cache.
+// Pairs returns what s.Pairs returns (s.Pairs is this with an empty cache),
+// reading only the cells whose text changed since the last call with this
+// cache.
 func (pc *PairCache) Pairs(s *Session) (x, y []float64, rows []int, problems []CellProblem) {
 	mode := int8(0)
 	parse := ParseNumber

@@ -47,10 +47,9 @@ type Shell struct {
 	updateReady bool
 
 	saves    *saveQueue
-	editSeq  int         // counts edits, to run delayed work only for the latest
-	lastSave time.Time   // when the open session was last handed to the saver
-	toSave   bool        // an edit waits for its save turn
-	turn     app.Context // the context of the turn afterFrame is running, if any
+	editSeq  int       // counts edits, to run delayed work only for the latest
+	lastSave time.Time // when the open session was last handed to the saver
+	toSave   bool      // an edit waits for its save turn
 	pairs    session.PairCache
 	page     int // page of the readings grid shown (pageSize rows each)
 
@@ -328,48 +327,43 @@ func (c *Shell) edited(ctx app.Context) {
 	seq := c.editSeq
 	big := len(c.sess.Readings) >= adviceLater
 	c.analyseNow(big)
-	var saveStateWas string // set below, once the edit has marked the save state
-	saveTurn := func() {
-		if seq == c.editSeq || time.Since(c.lastSave) >= saveEvery {
-			c.save(c.ui)
-		}
-		c.keepScreen(saveStateWas)
-	}
 	if c.st != nil && c.saveState != "failed" && !c.heldByOtherTab() {
 		c.saveState = "saving" // from now: the edit is not on the device yet
 		c.toSave = true
 	}
-	saveStateWas = c.saveState + "\x00" + c.saveMessage
 	if len(c.sess.Readings) < saveAtOnce {
 		c.save(c.ui) // cheap: in the keystroke's own turn, so a reload right after keeps it
 		return
+	}
+	stateWas := c.saveState + "\x00" + c.saveMessage
+	saveTurn := func(ctx app.Context) {
+		if seq == c.editSeq || time.Since(c.lastSave) >= saveEvery {
+			c.save(c.ui)
+		}
+		c.keepScreen(ctx, stateWas)
 	}
 	if !big {
 		c.afterFrame(saveTurn)
 		return
 	}
 	laterSave := func() {
-		if c.ui.Src() == nil {
-			saveTurn()
-			return
-		}
-		if time.Since(c.lastSave) >= saveEvery {
+		if c.ui.Src() == nil || time.Since(c.lastSave) >= saveEvery {
 			c.afterFrame(saveTurn)
 			return
 		}
-		c.ui.After(savePause, func(app.Context) {
+		c.ui.After(savePause, func(ctx app.Context) {
 			if seq == c.editSeq {
-				saveTurn()
+				saveTurn(ctx)
 			}
 		})
 	}
-	c.afterFrame(func() {
+	c.afterFrame(func(app.Context) {
 		if seq != c.editSeq {
 			laterSave()
 			return
 		}
 		c.completeNow()
-		c.afterFrame(func() {
+		c.afterFrame(func(app.Context) {
 			if seq == c.editSeq {
 				c.view.plotsLater = false
 			}
@@ -390,40 +384,35 @@ func (c *Shell) collectAfterLoad() {
 	if c.ui.Src() == nil || c.sess == nil || len(c.sess.Readings) < saveAtOnce {
 		return
 	}
-	c.afterFrame(func() {
+	c.afterFrame(func(ctx app.Context) {
 		runtime.GC()
-		if c.turn.Src() != nil {
-			c.turn.PreventUpdate()
-		}
+		ctx.PreventUpdate()
 	})
 }
 
-// keepScreen tells go-app not to redraw the screen after the turn being
-// run when the save state is still was (saveState, NUL, saveMessage): a
+// keepScreen tells go-app not to redraw the screen after the turn of ctx
+// when the save state is still was (saveState, NUL, saveMessage): a
 // save handed to the saver changes nothing on the page, and a redraw of
 // the whole screen is the costliest part of a turn. Another change queued
 // for the same frame still redraws it.
-func (c *Shell) keepScreen(was string) {
-	if c.turn.Src() != nil && c.saveState+"\x00"+c.saveMessage == was {
-		c.turn.PreventUpdate()
+func (c *Shell) keepScreen(ctx app.Context, was string) {
+	if ctx.Src() != nil && c.saveState+"\x00"+c.saveMessage == was {
+		ctx.PreventUpdate()
 	}
 }
 
 // afterFrame runs fn on the UI goroutine in a later turn of the event loop,
 // once the frame being prepared is on the page (go-app's Defer runs after
 // the frame's updates; the timer then lets the browser paint and handle
-// input first). Natively, without a mounted Shell, fn runs at once.
-func (c *Shell) afterFrame(fn func()) {
+// input first); fn gets the context of that turn. Natively, without a
+// mounted Shell, fn runs at once with no context (nothing to redraw).
+func (c *Shell) afterFrame(fn func(ctx app.Context)) {
 	if c.ui.Src() == nil {
-		fn()
+		fn(app.Context{})
 		return
 	}
 	c.ui.Defer(func(app.Context) {
-		c.ui.After(time.Millisecond, func(ctx app.Context) {
-			c.turn = ctx
-			fn()
-			c.turn = app.Context{}
-		})
+		c.ui.After(time.Millisecond, fn)
 	})
 }
 

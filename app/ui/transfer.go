@@ -726,9 +726,7 @@ func fileBase(title string) string {
 
 // sessionFile encodes the open session as a session file.
 func (c *Shell) sessionFile() ([]byte, error) {
-	var buf bytes.Buffer
-	err := session.Encode(&buf, []*session.Session{c.sess})
-	return buf.Bytes(), err
+	return session.EncodeBytes([]*session.Session{c.sess})
 }
 
 func (c *Shell) exportSession(ctx app.Context, e app.Event) {
