@@ -318,66 +318,8 @@ func allPositive(v []float64) bool {
 	return true
 }
 
-// normalizeOptions fills defaults and rejects invalid values.
-func normalizeOptions(opt Options) (Options, error) {
-	o := opt
-	if o.Model == "" {
-		o.Model = ModelOLS
-	}
-	if o.Transform == "" {
-		o.Transform = TransformNone
-	}
-	if o.Level == 0 {
-		o.Level = 0.95
-	}
-	if !(o.Level > 0 && o.Level < 1) {
-		return o, fmt.Errorf("%w: the confidence level must be between 0 and 1 (for example 0.95), got %s", ErrBadOption, formatValue(o.Level))
-	}
-	switch o.Model {
-	case ModelOLS, ModelOrigin, ModelWeighted, ModelDeming:
-	default:
-		return o, fmt.Errorf("%w: unknown fit model %q (use ols, origin, weighted or deming)", ErrBadOption, o.Model)
-	}
-	switch o.Transform {
-	case TransformNone, TransformLogY, TransformSqrtY, TransformReciprocal, TransformLogLog, TransformBoxCox:
-	default:
-		return o, fmt.Errorf("%w: unknown transform %q", ErrBadOption, o.Transform)
-	}
-	switch o.Weights {
-	case WeightsNone, WeightsGiven, WeightsX, WeightsX2, WeightsFitted2, WeightsRepeats, WeightsPowerFit:
-	default:
-		return o, fmt.Errorf("%w: unknown weight scheme %q", ErrBadOption, o.Weights)
-	}
-	if o.Model == ModelWeighted && o.Weights == WeightsNone {
-		if o.GivenWeights == nil {
-			return o, fmt.Errorf("%w: a weighted fit needs weights: give them, or say where they come from (x, x2, fitted2, repeats or power)", ErrBadOption)
-		}
-		o.Weights = WeightsGiven
-	}
-	if o.Model == ModelOLS && o.Weights != WeightsNone {
-		o.Model = ModelWeighted
-	}
-	if o.Model == ModelDeming {
-		if o.Weights != WeightsNone {
-			return o, fmt.Errorf("%w: Deming regression does not take weights", ErrBadOption)
-		}
-		if o.VarianceRatio == 0 {
-			o.VarianceRatio = 1
-		}
-		if !(o.VarianceRatio > 0) || math.IsInf(o.VarianceRatio, 0) {
-			return o, fmt.Errorf("%w: the variance ratio for Deming regression must be a positive number, got %s", ErrBadOption, formatValue(o.VarianceRatio))
-		}
-	}
-	for _, v := range []*float64{o.SlopeRef, o.InterceptRef, o.BoxCoxLambda} {
-		if v != nil && !isFiniteNum(*v) {
-			return o, fmt.Errorf("%w: a reference value or λ is not a finite number", ErrBadOption)
-		}
-	}
-	if !isFiniteNum(o.XUncertainty) || o.XUncertainty < 0 || !isFiniteNum(o.YUncertainty) || o.YUncertainty < 0 {
-		return o, fmt.Errorf("%w: reading uncertainties must be zero or positive numbers", ErrBadOption)
-	}
-	return o, nil
-}
+// normalizeOptions fills defaults and rejects invalid values (Options.Normalize).
+func normalizeOptions(opt Options) (Options, error) { return opt.Normalize() }
 
 func isFiniteNum(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 

@@ -1,0 +1,137 @@
+package fitcore
+
+import (
+	"fmt"
+	"math"
+)
+
+// Defaults and ranges of the options. They are the one place these numbers
+// are written; the app, the command and the session validation use them.
+const (
+	// DefaultLevel is the confidence level used when Options.Level is 0.
+	DefaultLevel = 0.95
+	// MinLevel and MaxLevel bound Options.Level. Below 0.5 an "interval"
+	// covers the truth less often than not; above 0.9999 the t and χ²
+	// quantiles behind the intervals and the Box–Cox profile leave the range
+	// where they are accurate (common practice: 0.90, 0.95 and 0.99 are the
+	// levels calibration procedures ask for).
+	MinLevel = 0.5
+	MaxLevel = 0.9999
+	// MaxBoxCoxLambda bounds |Options.BoxCoxLambda|. Powers beyond ±5 raise
+	// readings to sizes no calibration uses and overflow for ordinary values
+	// (common practice: Box–Cox profiles are searched over −2…2).
+	MaxBoxCoxLambda = 5.0
+	// MinVarianceRatio and MaxVarianceRatio bound Options.VarianceRatio
+	// (Deming's δ); outside them one variable's errors are a million times
+	// the other's and ordinary or inverse least squares is the honest fit.
+	MinVarianceRatio = 1e-6
+	MaxVarianceRatio = 1e6
+)
+
+// OptionError reports an option value that is out of range, unknown, or
+// does not go with another option. Option is the option's key as the
+// session file and the command spell it with underscores ("level",
+// "box_cox_lambda", "variance_ratio", "model", "weights", "transform",
+// "slope_ref", "intercept_ref", "x_uncertainty", "y_uncertainty"); Value is
+// the value given, as text; Want says what is accepted. It wraps ErrBadOption.
+type OptionError struct {
+	Option string
+	Value  string
+	Want   string
+}
+
+// Error gives one sentence naming the option, the value and the accepted range.
+func (e *OptionError) Error() string {
+	return fmt.Sprintf("%v: %s = %s: %s", ErrBadOption, e.Option, e.Value, e.Want)
+}
+
+// Unwrap returns ErrBadOption so errors.Is works.
+func (e *OptionError) Unwrap() error { return ErrBadOption }
+
+func optErr(option, value, want string, args ...any) *OptionError {
+	return &OptionError{Option: option, Value: value, Want: fmt.Sprintf(want, args...)}
+}
+
+// Normalize fills the defaults of o (model ols, transform none, level
+// DefaultLevel, Deming δ = 1, a weighted model from the weights) and checks
+// every value against its range and against the other options. It is the one
+// validation of options: Analyze calls it, and so do the session validation
+// and the command before they accept a value. The error is an *OptionError.
+func (o Options) Normalize() (Options, error) {
+	if o.Model == "" {
+		o.Model = ModelOLS
+	}
+	if o.Transform == "" {
+		o.Transform = TransformNone
+	}
+	if o.Level == 0 {
+		o.Level = DefaultLevel
+	}
+	if !(o.Level >= MinLevel && o.Level <= MaxLevel) {
+		return o, optErr("level", formatValue(o.Level), "the confidence level must be from %g to %g (for example 0.95 for 95 %%)", MinLevel, MaxLevel)
+	}
+	switch o.Model {
+	case ModelOLS, ModelOrigin, ModelWeighted, ModelDeming:
+	default:
+		return o, optErr("model", fmt.Sprintf("%q", o.Model), "use ols, origin, weighted or deming")
+	}
+	switch o.Transform {
+	case TransformNone, TransformLogY, TransformSqrtY, TransformReciprocal, TransformLogLog, TransformBoxCox:
+	default:
+		return o, optErr("transform", fmt.Sprintf("%q", o.Transform), "use none, log_y, sqrt_y, reciprocal_y, log_log or box_cox")
+	}
+	switch o.Weights {
+	case WeightsNone, WeightsGiven, WeightsX, WeightsX2, WeightsFitted2, WeightsRepeats, WeightsPowerFit:
+	default:
+		return o, optErr("weights", fmt.Sprintf("%q", o.Weights), "use given, x, x2, fitted2, repeats or power")
+	}
+	if o.Model == ModelWeighted && o.Weights == WeightsNone {
+		if o.GivenWeights == nil {
+			return o, optErr("weights", "none", "a weighted fit needs weights: give them, or say where they come from (x, x2, fitted2, repeats or power)")
+		}
+		o.Weights = WeightsGiven
+	}
+	if o.Model == ModelOLS && o.Weights != WeightsNone {
+		o.Model = ModelWeighted
+	}
+	if o.Model == ModelOrigin && o.Weights != WeightsNone {
+		return o, optErr("weights", string(o.Weights), "a line through the origin is fitted without weights; choose the weighted model instead")
+	}
+	if o.Model == ModelDeming {
+		if o.Weights != WeightsNone {
+			return o, optErr("weights", string(o.Weights), "Deming regression does not take weights")
+		}
+		if o.VarianceRatio == 0 {
+			o.VarianceRatio = 1
+		}
+	}
+	if o.VarianceRatio != 0 && !(o.VarianceRatio >= MinVarianceRatio && o.VarianceRatio <= MaxVarianceRatio) {
+		return o, optErr("variance_ratio", formatValue(o.VarianceRatio), "the variance ratio of Deming regression must be from %g to %g (1 when x and y errors are alike)", MinVarianceRatio, MaxVarianceRatio)
+	}
+	if o.BoxCoxLambda != nil {
+		l := *o.BoxCoxLambda
+		if !(math.Abs(l) <= MaxBoxCoxLambda) {
+			return o, optErr("box_cox_lambda", formatValue(l), "the Box–Cox power must be from %g to %g", -MaxBoxCoxLambda, MaxBoxCoxLambda)
+		}
+		if o.Transform != TransformBoxCox {
+			return o, optErr("box_cox_lambda", formatValue(l), "a Box–Cox power goes only with the box_cox transform (this fit uses %s)", o.Transform)
+		}
+	}
+	for _, r := range []struct {
+		name string
+		p    *float64
+	}{{"slope_ref", o.SlopeRef}, {"intercept_ref", o.InterceptRef}} {
+		if r.p != nil && !isFiniteNum(*r.p) {
+			return o, optErr(r.name, formatValue(*r.p), "a reference value must be a finite number")
+		}
+	}
+	for _, u := range []struct {
+		name string
+		v    float64
+	}{{"x_uncertainty", o.XUncertainty}, {"y_uncertainty", o.YUncertainty}} {
+		if !isFiniteNum(u.v) || u.v < 0 {
+			return o, optErr(u.name, formatValue(u.v), "a reading uncertainty must be zero or a positive number")
+		}
+	}
+	return o, nil
+}
