@@ -1,0 +1,178 @@
+// Package wording holds the words Pairline shows beside its figures: the
+// names of the line's numbers, the intervals and tests, the checks and
+// their verdicts, the remedies. The screen, the printable report and the
+// `pairline` command take them from here, so that the three read alike. It
+// also holds Visible, the one function that shows text from a file without
+// letting it act on a terminal or a page. Pure Go.
+package wording
+
+import (
+	"math"
+	"strconv"
+	"strings"
+
+	"pairline/app/numfmt"
+	"pairline/fitcore"
+)
+
+// Names of the line's figures.
+const (
+	PairsUsed        = "Pairs used (n)"
+	Slope            = "Slope"
+	Intercept        = "Intercept"
+	Estimate         = "Estimate"
+	StandardError    = "Standard error"
+	TestedAgainst    = "Tested against"
+	ResidualSD       = "Residual SD"
+	ResidualSDLong   = "Residual standard deviation"
+	DegreesOfFreedom = "Degrees of freedom"
+	CorrelationR     = "Correlation r"
+	RSquared         = "R²"
+	AdjRSquared      = "Adjusted R²"
+	FLine            = "F (line explains y)"
+	PofF             = "p of F"
+	Covariance       = "Covariance of intercept and slope"
+	MeanX            = "Mean of x"
+	MeanY            = "Mean of y"
+	FitAsAWhole      = "The fit as a whole"
+	// MeanReading and NewReading name the two intervals of a prediction:
+	// where the line (the mean reading) lies, and where one new reading is
+	// expected.
+	MeanReading = "Mean reading"
+	NewReading  = "One new reading"
+	// DetectionLimit and QuantitationLimit are LOD and LOQ (fitcore.Limits).
+	DetectionLimit    = "Detection limit"
+	QuantitationLimit = "Quantitation limit"
+	StandsOut         = "Readings that stand out"
+	// ChecksTitle heads the checks of the assumptions.
+	ChecksTitle = "Can the line be trusted?"
+	// Tests heads the statistical tests behind the checks.
+	Tests = "Tests behind the checks"
+)
+
+// Names of the checks of the assumptions, one per fitcore.Assumptions field.
+const (
+	CheckLinearity    = "Straight line"
+	CheckSpread       = "Even scatter"
+	CheckIndependence = "Independent readings (in entry order)"
+	CheckNormality    = "Bell-shaped scatter"
+	CheckInfluence    = "No single reading dominates"
+	CheckXExactness   = "x treated as exact"
+)
+
+// Percent writes a confidence level in percent, rounded to hide binary
+// noise: 0.95 → "95 %", 0.999 → "99.9 %".
+func Percent(level float64) string {
+	return strconv.FormatFloat(math.Round(level*1e6)/1e4, 'f', -1, 64) + " %"
+}
+
+// Interval names a confidence interval: "95 % interval".
+func Interval(level float64) string { return Percent(level) + " interval" }
+
+// Range writes an interval's ends: "0.98 to 1.02".
+func Range(low, high string) string { return low + " to " + high }
+
+// Ref writes a value the technician typed (a reference value, a query x)
+// in full, with a real minus sign.
+func Ref(v float64) string {
+	if v < 0 || (v == 0 && math.Signbit(v)) {
+		return "−" + numfmt.Full(-v)
+	}
+	return numfmt.Full(v)
+}
+
+// TAgainst and PAgainst name the test of a coefficient against a value:
+// "t (against 1)", "p (against 1)". ref is written by Ref.
+func TAgainst(ref string) string { return "t (against " + ref + ")" }
+
+// PAgainst: see TAgainst.
+func PAgainst(ref string) string { return "p (against " + ref + ")" }
+
+// ShowPlainTest says whether the test of a coefficient against 0 is shown
+// beside its test against the reference value: only when the reference is
+// not 0, else the two are the same test and would show the same numbers twice.
+func ShowPlainTest(ref float64) bool { return ref != 0 }
+
+// P writes a p-value with two significant digits, and below 0.0001 as
+// "< 0.0001" (beyond that the digits change no decision; common practice).
+func P(p float64) string {
+	if p < 0.0001 {
+		return "< 0.0001"
+	}
+	return numfmt.Sig(p, 2)
+}
+
+// PEq is "p = 0.012" or "p < 0.0001".
+func PEq(p float64) string {
+	s := P(p)
+	if strings.HasPrefix(s, "<") {
+		return "p " + s
+	}
+	return "p = " + s
+}
+
+// DF writes degrees of freedom: whole numbers as such, others (Welch-like
+// or weighted) with 4 significant digits.
+func DF(df float64) string {
+	if df == math.Trunc(df) && math.Abs(df) < 1e15 {
+		return strconv.FormatInt(int64(df), 10)
+	}
+	return numfmt.Sig(df, 4)
+}
+
+// Verdict gives the icon and the word of a check's verdict.
+func Verdict(v fitcore.Verdict) (icon, word string) {
+	switch v {
+	case fitcore.Pass:
+		return "✔", "Pass"
+	case fitcore.Warn:
+		return "▲", "Check"
+	case fitcore.Fail:
+		return "✖", "Fail"
+	}
+	return "○", "Not checked"
+}
+
+// StatSymbol is the symbol of a test's statistic, by the test's name in
+// fitcore.Check.Name.
+func StatSymbol(name string) string {
+	switch name {
+	case "Curvature":
+		return "t"
+	case "Lack of fit":
+		return "F"
+	case "Durbin–Watson":
+		return "d"
+	case "Runs":
+		return "z"
+	case "Shapiro–Wilk":
+		return "W"
+	case "x exactness":
+		return "z"
+	}
+	if strings.HasPrefix(name, "Breusch") || strings.HasPrefix(name, "White") {
+		return "χ²"
+	}
+	return "statistic"
+}
+
+// Remedy says what the advice recommends, as a short instruction.
+func Remedy(r fitcore.Remedy) string {
+	switch r {
+	case fitcore.RemedyNone:
+		return "No change recommended"
+	case fitcore.RemedyLogY:
+		return "Fit ln y against x"
+	case fitcore.RemedyLogLog:
+		return "Fit on log scales: ln y against ln x"
+	case fitcore.RemedySqrtY:
+		return "Fit √y against x"
+	case fitcore.RemedyReciprocal:
+		return "Fit 1/y against x"
+	case fitcore.RemedyBoxCox:
+		return "Fit on a Box–Cox scale of y"
+	case fitcore.RemedyWeighted:
+		return "Weight the readings by their spread"
+	}
+	return string(r)
+}
