@@ -53,7 +53,7 @@ func Main(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	if run, ok := commands[args[0]]; ok {
 		return run(args[1:], stdin, stdout, stderr)
 	}
-	fmt.Fprintf(stderr, "pairline: unknown command %q\n\n%s", args[0], usage)
+	fmt.Fprintf(stderr, "pairline: unknown command %s\n\n%s", quoted(args[0]), usage)
 	return ExitUsage
 }
 
@@ -69,21 +69,42 @@ var commands = map[string]func(args []string, stdin io.Reader, stdout, stderr io
 	},
 }
 
+// newFlags is the flag set of a command. Its output is stderr, for the
+// usage; a Usage function given later must write to fs.Output().
 func newFlags(name string, stderr io.Writer) *flag.FlagSet {
 	fs := flag.NewFlagSet("pairline "+name, flag.ContinueOnError)
 	fs.SetOutput(stderr)
 	return fs
 }
 
+// parseArgs parses args. The flag package would print its error with the
+// argument as given (a newline or an escape sequence in it included), so it
+// parses silently and the error is written here, made visible, on one line,
+// followed by the usage. -h and --help print the usage and give
+// flag.ErrHelp.
+func parseArgs(fs *flag.FlagSet, args []string) error {
+	out := fs.Output()
+	fs.SetOutput(io.Discard)
+	err := fs.Parse(args)
+	fs.SetOutput(out)
+	if err != nil {
+		if !errors.Is(err, flag.ErrHelp) {
+			fmt.Fprintf(out, "%s: %s\n", fs.Name(), term(err.Error()))
+		}
+		fs.Usage()
+	}
+	return err
+}
+
 func parse(fs *flag.FlagSet, args []string) (int, bool) {
-	if err := fs.Parse(args); err != nil {
+	if err := parseArgs(fs, args); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
 			return ExitOK, false
 		}
 		return ExitUsage, false
 	}
 	if fs.NArg() > 0 {
-		fmt.Fprintf(fs.Output(), "%s: unexpected argument %q\n", fs.Name(), fs.Arg(0))
+		fmt.Fprintf(fs.Output(), "%s: unexpected argument %s\n", fs.Name(), quoted(fs.Arg(0)))
 		fs.Usage()
 		return ExitUsage, false
 	}
@@ -103,7 +124,7 @@ func serve(args []string, stdout, stderr io.Writer) int {
 	defer stop()
 	err := webapp.Serve(ctx, webapp.ServeOptions{Addr: *addr, WebDir: *web, TLSCert: *cert, TLSKey: *key, Log: stdout})
 	if err != nil {
-		fmt.Fprintln(stderr, "pairline serve:", err)
+		fail(stderr, "serve", "%v", err)
 		return ExitFailure
 	}
 	return ExitOK
@@ -117,9 +138,9 @@ func build(args []string, stdout, stderr io.Writer) int {
 		return code
 	}
 	if err := webapp.Build(*out, *web); err != nil {
-		fmt.Fprintln(stderr, "pairline build:", err)
+		fail(stderr, "build", "%v", err)
 		return ExitFailure
 	}
-	fmt.Fprintf(stdout, "Static site written to %s\n", *out)
+	fmt.Fprintf(stdout, "Static site written to %s\n", term(*out))
 	return ExitOK
 }

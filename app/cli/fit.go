@@ -36,6 +36,23 @@ type multiFlag []string
 func (m *multiFlag) String() string     { return strings.Join(*m, " ") }
 func (m *multiFlag) Set(s string) error { *m = append(*m, s); return nil }
 
+// numFlag is a numeric flag kept as typed, with whether it was given: 0 is
+// fitcore's "use the default" for some options, but a 0 typed on the
+// command line is a value and is checked as one.
+type numFlag struct {
+	text string
+	set  bool
+}
+
+func (n *numFlag) String() string     { return n.text }
+func (n *numFlag) Set(s string) error { n.text, n.set = s, true; return nil }
+
+// MaxFlagNumber is the largest size of a reading-like number the command
+// takes in a flag (--predict-x, --inverse-y, the reference values and the
+// uncertainties). Beyond it the squares in the intervals overflow a float64
+// for any ordinary calibration; no instrument reads 1e100 of anything.
+const MaxFlagNumber = 1e100
+
 // fitFlags are the parsed command-line settings of `pairline fit`.
 type fitFlags struct {
 	json          bool
@@ -43,15 +60,19 @@ type fitFlags struct {
 	weights       string
 	model         string
 	transform     string
-	lambda        string
-	level         float64
+	lambda        numFlag
+	level         numFlag
+	varianceRatio numFlag
+	slopeRef      numFlag
+	interceptRef  numFlag
+	xUncertainty  numFlag
+	yUncertainty  numFlag
 	xCol, yCol    string
 	delimiter     string
 	decimalComma  string
 	header        string
 	predictX      multiFlag
 	inverseY      multiFlag
-	varianceRatio float64
 	file          string
 }
 
@@ -67,19 +88,29 @@ flags:
   --json               print one JSON object (keys in docs/fit-json.md)
   --model M            ols (default) | origin | weighted | deming
   --origin             same as --model origin
-  --weights W          none | x | x2 | fitted2 | repeats (implies --model weighted)
+  --weights W          none | x | x2 | fitted2 | repeats | power (implies
+                       --model weighted; power estimates the power of x)
   --transform T        none | log_y | sqrt_y | reciprocal_y | log_log | box_cox
-  --box-cox-lambda L   fix λ for --transform box_cox (default: estimated)
-  --level P            confidence level, 0 < P < 1 (default 0.95)
+  --box-cox-lambda L   fix λ for --transform box_cox, −5 … 5 (default: estimated)
+  --level P            confidence level, 0.5 … 0.9999 (default 0.95)
+  --slope-ref S        value the slope is tested against (default 1)
+  --intercept-ref I    value the intercept is tested against (default 0)
+  --x-uncertainty U    standard uncertainty of one x reading, ≥ 0 (x units);
+                       above 0 the x-exactness check is run
+  --y-uncertainty U    standard uncertainty of one y reading, ≥ 0 (y units)
   --x-col C, --y-col C column number (1 = first) or header name; the other
                        column, if not given, is the first numeric one left
   --predict-x X        fitted y with intervals at X (repeatable)
   --inverse-y Y        x behind reading Y; "Y1;Y2;Y3" for repeat readings of
                        one unknown (repeatable, one unknown per flag)
-  --variance-ratio D   var(y errors)/var(x errors) for --model deming (default 1)
+  --variance-ratio D   var(y errors)/var(x errors) for --model deming,
+                       1e-06 … 1e+06 (default 1)
   --delimiter C        force the delimiter: "," ";" "tab" (default: detect)
   --decimal-comma B    yes | no | auto (default auto)
   --header B           yes | no | auto (default auto)
+
+Numbers in flags are finite and at most 1e+100 in size. A value out of range
+is refused with one line naming the flag and the range (exit status 2).
 `
 
 // Fit runs `pairline fit`. It returns ExitOK on success and ExitUsage with
@@ -90,32 +121,36 @@ func Fit(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		fmt.Fprint(stdout, fitUsage)
 		return ExitOK
 	}
+	var opt fitcore.Options
+	if err == nil {
+		opt, err = ff.options()
+	}
 	if err != nil {
-		fmt.Fprintf(stderr, "pairline fit: %v (see pairline fit --help)\n", err)
+		fail(stderr, "fit", "%v (see pairline fit --help)", err)
 		return ExitUsage
 	}
 	name := ff.file
 	if name == "-" {
 		name = "standard input"
 	}
-	rep, err := runFit(ff, stdin)
+	rep, err := runFit(ff, opt, stdin)
 	if err != nil {
-		fmt.Fprintf(stderr, "pairline fit: %s: %s\n", name, oneLine(err.Error()))
+		fail(stderr, "fit", "%s: %s", name, oneLine(err.Error()))
 		return ExitUsage
 	}
 	var out []byte
 	if ff.json {
 		out, err = json.MarshalIndent(rep.report, "", "  ")
 		if err != nil {
-			fmt.Fprintf(stderr, "pairline fit: %s: the report could not be written as JSON: %v\n", name, err)
+			fail(stderr, "fit", "%s: the report could not be written as JSON: %v", name, err)
 			return ExitFailure
 		}
-		out = append(out, '\n')
+		out = append(jsonText(out), '\n')
 	} else {
-		out = []byte(summary(name, rep))
+		out = []byte(termLines(summary(name, rep)))
 	}
 	if _, err := stdout.Write(out); err != nil {
-		fmt.Fprintf(stderr, "pairline fit: writing the result failed: %v\n", err)
+		fail(stderr, "fit", "writing the result failed: %v", err)
 		return ExitFailure
 	}
 	return ExitOK
@@ -135,8 +170,12 @@ func parseFitFlags(args []string) (*fitFlags, error) {
 	fs.StringVar(&ff.weights, "weights", "", "")
 	fs.StringVar(&ff.model, "model", "", "")
 	fs.StringVar(&ff.transform, "transform", "", "")
-	fs.StringVar(&ff.lambda, "box-cox-lambda", "", "")
-	fs.Float64Var(&ff.level, "level", 0, "")
+	fs.Var(&ff.lambda, "box-cox-lambda", "")
+	fs.Var(&ff.level, "level", "")
+	fs.Var(&ff.slopeRef, "slope-ref", "")
+	fs.Var(&ff.interceptRef, "intercept-ref", "")
+	fs.Var(&ff.xUncertainty, "x-uncertainty", "")
+	fs.Var(&ff.yUncertainty, "y-uncertainty", "")
 	fs.StringVar(&ff.xCol, "x-col", "", "")
 	fs.StringVar(&ff.yCol, "y-col", "", "")
 	fs.StringVar(&ff.delimiter, "delimiter", "", "")
@@ -144,7 +183,7 @@ func parseFitFlags(args []string) (*fitFlags, error) {
 	fs.StringVar(&ff.header, "header", "auto", "")
 	fs.Var(&ff.predictX, "predict-x", "")
 	fs.Var(&ff.inverseY, "inverse-y", "")
-	fs.Float64Var(&ff.varianceRatio, "variance-ratio", 0, "")
+	fs.Var(&ff.varianceRatio, "variance-ratio", "")
 
 	// Flags may come before or after the file name.
 	var files []string
@@ -166,13 +205,11 @@ func parseFitFlags(args []string) (*fitFlags, error) {
 	case 1:
 		ff.file = files[0]
 	default:
-		return nil, fmt.Errorf("one input file expected, got %d (%s)", len(files), strings.Join(files, ", "))
-	}
-	if ff.level != 0 && !(ff.level > 0 && ff.level < 1) {
-		return nil, fmt.Errorf("--level %g is not between 0 and 1; write 0.95 for 95 %%", ff.level)
-	}
-	if ff.varianceRatio < 0 || math.IsNaN(ff.varianceRatio) || math.IsInf(ff.varianceRatio, 0) {
-		return nil, fmt.Errorf("--variance-ratio %g must be a positive number", ff.varianceRatio)
+		q := make([]string, len(files))
+		for i, f := range files {
+			q[i] = quoted(f)
+		}
+		return nil, fmt.Errorf("one input file expected, got %d (%s)", len(files), strings.Join(q, ", "))
 	}
 	return ff, nil
 }
@@ -186,67 +223,155 @@ type fitResult struct {
 	yName  string
 }
 
+// flagName is the command-line flag of a fitcore option key
+// ("box_cox_lambda" → "--box-cox-lambda").
+func flagName(option string) string { return "--" + strings.ReplaceAll(option, "_", "-") }
+
+// flagError turns fitcore's option error into the command's words: the
+// flag, the value as fitcore read it, and the accepted range.
+func flagError(err error) error {
+	var oe *fitcore.OptionError
+	if errors.As(err, &oe) {
+		return fmt.Errorf("%s %s: %s", flagName(oe.Option), oe.Value, oe.Want)
+	}
+	return err
+}
+
+// number reads a numeric flag with session.ParseNumber (the rules of a
+// typed reading: no NaN, no infinity, nothing too large for a float64).
+func (n numFlag) number(name string) (float64, error) {
+	v, err := session.ParseNumber(n.text)
+	if err != nil {
+		var ne *session.NumberError
+		if errors.As(err, &ne) {
+			return 0, fmt.Errorf("--%s %s %s", name, quoted(n.text), ne.Reason)
+		}
+		return 0, fmt.Errorf("--%s %s: %v", name, quoted(n.text), err)
+	}
+	return v, nil
+}
+
+// numberReason is the reason of a number error without the text (the
+// caller names the text).
+func numberReason(err error) string {
+	var ne *session.NumberError
+	if errors.As(err, &ne) {
+		return ne.Reason
+	}
+	return err.Error()
+}
+
+// tooLarge refuses a reading-like number of a flag beyond MaxFlagNumber.
+func tooLarge(v float64) error {
+	if math.Abs(v) > MaxFlagNumber {
+		return fmt.Errorf("is too large: numbers in flags must be from %g to %g", -MaxFlagNumber, MaxFlagNumber)
+	}
+	return nil
+}
+
+// zeroRefused is fitcore's error for an option whose 0 means "default"
+// when 0 is typed: the accepted range comes from Normalize itself.
+func zeroRefused(option string, probe fitcore.Options) error {
+	_, err := probe.Normalize()
+	var oe *fitcore.OptionError
+	if errors.As(err, &oe) && oe.Option == option {
+		return fmt.Errorf("%s 0: %s", flagName(option), oe.Want)
+	}
+	return fmt.Errorf("%s 0 is not accepted", flagName(option))
+}
+
 // options turns the flags into fitcore options (all but the values that need
-// the file's decimal separator).
+// the file's decimal separator) and checks them with fitcore's one
+// validation, Options.Normalize, before any file is read.
 func (ff *fitFlags) options() (fitcore.Options, error) {
 	var opt fitcore.Options
-	switch ff.model {
-	case "", "ols":
-		opt.Model = fitcore.ModelOLS
-	case "origin":
-		opt.Model = fitcore.ModelOrigin
-	case "weighted":
-		opt.Model = fitcore.ModelWeighted
-	case "deming":
-		opt.Model = fitcore.ModelDeming
-	default:
-		return opt, fmt.Errorf("--model %q is not one of ols, origin, weighted, deming", ff.model)
-	}
+	opt.Model = fitcore.Model(ff.model)
 	if ff.origin {
-		if ff.model != "" && ff.model != "origin" {
-			return opt, fmt.Errorf("--origin and --model %s contradict each other", ff.model)
+		if ff.model != "" && ff.model != string(fitcore.ModelOrigin) {
+			return opt, fmt.Errorf("--origin and --model %s contradict each other", quoted(ff.model))
 		}
 		opt.Model = fitcore.ModelOrigin
 	}
 	switch ff.weights {
 	case "", "none":
 		if opt.Model == fitcore.ModelWeighted {
-			return opt, errors.New("--model weighted needs --weights x, x2, fitted2 or repeats")
+			return opt, errors.New("--model weighted needs --weights x, x2, fitted2, repeats or power")
 		}
-	case "x", "x2", "fitted2", "repeats":
-		if ff.model != "" && ff.model != "weighted" || ff.origin {
-			return opt, fmt.Errorf("--weights %s goes with the weighted model, not %s", ff.weights, opt.Model)
-		}
-		opt.Model = fitcore.ModelWeighted
+	case string(fitcore.WeightsGiven):
+		return opt, errors.New(`--weights given: the command reads no column of weights; use x, x2, fitted2, repeats or power`)
+	default:
 		opt.Weights = fitcore.WeightScheme(ff.weights)
-	default:
-		return opt, fmt.Errorf("--weights %q is not one of none, x, x2, fitted2, repeats", ff.weights)
 	}
-	switch t := fitcore.Transform(ff.transform); t {
-	case "":
-		opt.Transform = fitcore.TransformNone
-	case fitcore.TransformNone, fitcore.TransformLogY, fitcore.TransformSqrtY, fitcore.TransformReciprocal,
-		fitcore.TransformLogLog, fitcore.TransformBoxCox:
-		opt.Transform = t
-	default:
-		return opt, fmt.Errorf("--transform %q is not one of none, log_y, sqrt_y, reciprocal_y, log_log, box_cox", ff.transform)
-	}
-	if ff.lambda != "" {
-		if opt.Transform != fitcore.TransformBoxCox {
-			return opt, errors.New("--box-cox-lambda needs --transform box_cox")
-		}
-		l, err := strconv.ParseFloat(ff.lambda, 64)
-		if err != nil || math.IsNaN(l) || math.IsInf(l, 0) {
-			return opt, fmt.Errorf("--box-cox-lambda %q is not a number", ff.lambda)
+	opt.Transform = fitcore.Transform(ff.transform)
+	if ff.lambda.set {
+		l, err := ff.lambda.number("box-cox-lambda")
+		if err != nil {
+			return opt, err
 		}
 		opt.BoxCoxLambda = &l
 	}
-	if ff.varianceRatio != 0 && opt.Model != fitcore.ModelDeming {
-		return opt, errors.New("--variance-ratio goes with --model deming")
+	if ff.level.set {
+		l, err := ff.level.number("level")
+		if err != nil {
+			return opt, err
+		}
+		if l == 0 {
+			return opt, zeroRefused("level", fitcore.Options{Level: math.Inf(-1)})
+		}
+		opt.Level = l
 	}
-	opt.VarianceRatio = ff.varianceRatio
-	opt.Level = ff.level
-	return opt, nil
+	if ff.varianceRatio.set {
+		d, err := ff.varianceRatio.number("variance-ratio")
+		if err != nil {
+			return opt, err
+		}
+		if opt.Model != fitcore.ModelDeming {
+			return opt, errors.New("--variance-ratio goes with --model deming")
+		}
+		if d == 0 {
+			return opt, zeroRefused("variance_ratio", fitcore.Options{Model: fitcore.ModelDeming, VarianceRatio: math.Inf(-1)})
+		}
+		opt.VarianceRatio = d
+	}
+	for _, r := range []struct {
+		name string
+		f    numFlag
+		p    **float64
+	}{{"slope-ref", ff.slopeRef, &opt.SlopeRef}, {"intercept-ref", ff.interceptRef, &opt.InterceptRef}} {
+		if !r.f.set {
+			continue
+		}
+		v, err := r.f.number(r.name)
+		if err != nil {
+			return opt, err
+		}
+		if err := tooLarge(v); err != nil {
+			return opt, fmt.Errorf("--%s %s %v", r.name, quoted(r.f.text), err)
+		}
+		*r.p = &v
+	}
+	for _, u := range []struct {
+		name string
+		f    numFlag
+		p    *float64
+	}{{"x-uncertainty", ff.xUncertainty, &opt.XUncertainty}, {"y-uncertainty", ff.yUncertainty, &opt.YUncertainty}} {
+		if !u.f.set {
+			continue
+		}
+		v, err := u.f.number(u.name)
+		if err != nil {
+			return opt, err
+		}
+		if err := tooLarge(v); err != nil {
+			return opt, fmt.Errorf("--%s %s %v", u.name, quoted(u.f.text), err)
+		}
+		*u.p = v
+	}
+	norm, err := opt.Normalize()
+	if err != nil {
+		return opt, flagError(err)
+	}
+	return norm, nil
 }
 
 func triState(flagName, v string) (*bool, error) {
@@ -314,11 +439,9 @@ func quoteList(h []string) string {
 	return strings.Join(q, ", ")
 }
 
-func runFit(ff *fitFlags, stdin io.Reader) (*fitResult, error) {
-	opt, err := ff.options()
-	if err != nil {
-		return nil, err
-	}
+// runFit reads the input and analyses it with opt, the checked options of
+// the flags.
+func runFit(ff *fitFlags, opt fitcore.Options, stdin io.Reader) (*fitResult, error) {
 	co, err := ff.csvOptions()
 	if err != nil {
 		return nil, err
@@ -385,8 +508,11 @@ func runFit(ff *fitFlags, stdin io.Reader) (*fitResult, error) {
 	}
 	for _, s := range ff.predictX {
 		v, err := session.ParseNumberHint(s, res.DecimalComma)
+		if err == nil {
+			err = tooLarge(v)
+		}
 		if err != nil {
-			return nil, fmt.Errorf("--predict-x: %v", err)
+			return nil, fmt.Errorf("--predict-x %s %v", quoted(s), numberReason(err))
 		}
 		opt.PredictX = append(opt.PredictX, v)
 	}
@@ -394,8 +520,11 @@ func runFit(ff *fitFlags, stdin io.Reader) (*fitResult, error) {
 		var q fitcore.InverseQuery
 		for _, part := range strings.Split(s, ";") {
 			v, err := session.ParseNumberHint(part, res.DecimalComma)
+			if err == nil {
+				err = tooLarge(v)
+			}
 			if err != nil {
-				return nil, fmt.Errorf("--inverse-y %q: %v (separate repeat readings with ';')", s, err)
+				return nil, fmt.Errorf("--inverse-y %s: %s %v (separate repeat readings with ';')", quoted(s), quoted(part), numberReason(err))
 			}
 			q.Y = append(q.Y, v)
 		}
@@ -437,6 +566,9 @@ func readInput(file string, stdin io.Reader) ([]byte, error) {
 			return nil, fmt.Errorf("cannot open the file: %v", unwrapPath(err))
 		}
 		defer f.Close()
+		if st, err := f.Stat(); err == nil && st.IsDir() {
+			return nil, errFolder
+		}
 		r = f
 	}
 	b, err := io.ReadAll(io.LimitReader(r, MaxInputBytes+1))
@@ -448,6 +580,9 @@ func readInput(file string, stdin io.Reader) ([]byte, error) {
 	}
 	return b, nil
 }
+
+// errFolder is the error for a folder named where a file is expected.
+var errFolder = errors.New("this is a folder, not a file of readings or a session file")
 
 func unwrapPath(err error) error {
 	var pe *os.PathError

@@ -13,6 +13,7 @@ import (
 	"testing"
 
 	"pairline/app/numfmt"
+	"pairline/app/wording"
 	"pairline/fitcore"
 )
 
@@ -214,10 +215,10 @@ func TestFitSummary(t *testing.T) {
 	}
 	for _, want := range []string{
 		numfmt.Sig(c.Fit.Slope, sig),
-		numfmt.Sig(c.Fit.SlopeSE, sig),
+		numfmt.Sig(c.Fit.SlopeSE, 3),
 		"nitrate standard mg/L", "photometer mg/L",
-		fmt.Sprintf("%d pairs used", c.Fit.N),
-		"Checks", "Assumptions", "Caution",
+		fmt.Sprintf("%s: %d", wording.PairsUsed, c.Fit.N),
+		wording.ChecksTitle, wording.Tests, "Caution",
 	} {
 		if !strings.Contains(out, want) {
 			t.Errorf("summary lacks %q:\n%s", want, out)

@@ -2,10 +2,10 @@ package cli
 
 import (
 	"fmt"
-	"strconv"
 	"strings"
 
 	"pairline/app/numfmt"
+	"pairline/app/wording"
 	"pairline/fitcore"
 )
 
@@ -14,58 +14,29 @@ const sig = 6
 
 func num(v float64) string { return numfmt.Sig(v, sig) }
 
-// pval shows a p-value with 3 significant digits, and very small ones as
-// "< 1e-12" (beyond that the digits carry no information a technician uses).
-func pval(p float64) string {
-	if p < 1e-12 {
-		return "< 1e-12"
-	}
-	return numfmt.Sig(p, 3)
-}
+// The summary's labels are those of the screen and the report
+// (app/wording), so that the three read alike.
 
-// peq is "p = 0.0123" or "p < 1e-12".
-func peq(p float64) string {
-	if p < 1e-12 {
-		return "p < 1e-12"
-	}
-	return "p = " + numfmt.Sig(p, 3)
-}
-
-var modelWords = map[fitcore.Model]string{
-	fitcore.ModelOLS:      "least squares with intercept",
-	fitcore.ModelOrigin:   "least squares through the origin (y = slope·x)",
-	fitcore.ModelWeighted: "weighted least squares",
-	fitcore.ModelDeming:   "Deming regression (x readings carry error too)",
-}
-
-var transformWords = map[fitcore.Transform]string{
-	fitcore.TransformNone:       "readings as entered",
-	"":                          "readings as entered",
-	fitcore.TransformLogY:       "log of y",
-	fitcore.TransformSqrtY:      "square root of y",
-	fitcore.TransformReciprocal: "1/y",
-	fitcore.TransformLogLog:     "log of x and log of y",
-	fitcore.TransformBoxCox:     "Box–Cox power of y",
-}
-
-// summary is the readable form of a fit for a terminal.
+// summary is the readable form of a fit for a terminal. name, fr.xName and
+// fr.yName are already made visible (term); every other text from a file
+// reaches it through fitcore's messages, which quote no file text, and the
+// caller passes the whole summary through termLines.
 func summary(name string, fr *fitResult) string {
 	r := fr.report
 	var b strings.Builder
 	w := func(format string, a ...any) { fmt.Fprintf(&b, format, a...) }
 	level := r.Level
 	if level == 0 {
-		level = 0.95
+		level = fitcore.DefaultLevel
 	}
-	pct := strconv.FormatFloat(100*level, 'g', 4, 64) + " %"
 
-	w("Straight-line fit of %s\n", name)
-	w("  %d pairs used", r.N)
+	w("Line fitted to %s\n", name)
+	w("  %s: %d", wording.PairsUsed, r.N)
 	if r.NSkipped > 0 {
-		w(", %d row(s) skipped (see notes)", r.NSkipped)
+		w(", %d row(s) skipped (see the notes)", r.NSkipped)
 	}
 	w("; x = %s, y = %s\n", fr.xName, fr.yName)
-	w("  model: %s; scale: %s; level %s\n\n", modelWords[r.Model], transformWords[r.Transform], pct)
+	w("  Fit: %s; confidence level %s\n\n", wording.Fit(r.Model, r.Transform), wording.Percent(level))
 	if r.Model == fitcore.ModelOrigin {
 		w("  y = %s·x\n\n", num(r.Slope.Estimate))
 	} else {
@@ -75,43 +46,96 @@ func summary(name string, fr *fitResult) string {
 		}
 		w("  y = %s·x %s %s\n\n", num(r.Slope.Estimate), sign, num(ic))
 	}
-	b.WriteString(summaryRest(fr, pct))
+	b.WriteString(summaryRest(fr, level))
 	return b.String()
 }
 
-func summaryRest(fr *fitResult, pct string) string {
+// row is one labelled figure of a two-column block.
+func row(b *strings.Builder, label, value string) {
+	fmt.Fprintf(b, "    %-36s %s\n", label, value)
+}
+
+// coefBlock is a coefficient as the screen's "More numbers" shows it: the
+// estimate, the interval where a technician looks first, the standard
+// error, the test against the reference value, and the test against 0 only
+// when the reference is not 0 (else it is the same test).
+func coefBlock(b *strings.Builder, name string, c fitcore.Coefficient, level float64) {
+	fmt.Fprintf(b, "  %s\n", name)
+	row(b, wording.Estimate, num(c.Estimate))
+	row(b, wording.Interval(level), wording.Range(num(c.CILow), num(c.CIHigh)))
+	row(b, wording.StandardError, numfmt.Sig(c.SE, 3))
+	ref := wording.Ref(c.Ref)
+	row(b, wording.TestedAgainst, ref)
+	row(b, wording.TAgainst(ref), numfmt.Sig(c.TRef, 4))
+	row(b, wording.PAgainst(ref), wording.P(c.PRef))
+	if wording.ShowPlainTest(c.Ref) {
+		zero := wording.Ref(0)
+		row(b, wording.TAgainst(zero), numfmt.Sig(c.T, 4))
+		row(b, wording.PAgainst(zero), wording.P(c.P))
+	}
+}
+
+// verdict is a verdict's icon and word, padded for a column.
+func verdict(v fitcore.Verdict) string {
+	icon, word := wording.Verdict(v)
+	return fmt.Sprintf("%-13s", icon+" "+word)
+}
+
+func summaryRest(fr *fitResult, level float64) string {
 	r := fr.report
 	var b strings.Builder
 	w := func(format string, a ...any) { fmt.Fprintf(&b, format, a...) }
+	pct := wording.Percent(level)
 
-	w("  %-10s %14s %12s %10s %10s   %s interval\n", "", "estimate", "std. error", "t", "p", pct)
-	coef := func(label string, c fitcore.Coefficient) {
-		w("  %-10s %14s %12s %10s %10s   %s … %s\n", label, num(c.Estimate), num(c.SE),
-			numfmt.Sig(c.T, 4), pval(c.P), num(c.CILow), num(c.CIHigh))
+	origin := r.Model == fitcore.ModelOrigin
+	coefBlock(&b, wording.Slope, r.Slope, level)
+	if !origin {
+		coefBlock(&b, wording.Intercept, r.Intercept, level)
 	}
-	coef("slope", r.Slope)
-	if r.Model != fitcore.ModelOrigin {
-		coef("intercept", r.Intercept)
+	w("  %s\n", wording.FitAsAWhole)
+	row(&b, wording.ResidualSD, num(r.ResidualSE))
+	row(&b, wording.DegreesOfFreedom, wording.DF(r.DF))
+	row(&b, wording.CorrelationR, numfmt.Decimals(r.R, 6))
+	row(&b, wording.RSquared, numfmt.Decimals(r.RSquared, 6))
+	row(&b, wording.AdjRSquared, numfmt.Decimals(r.AdjRSquared, 6))
+	row(&b, wording.FLine, numfmt.Sig(r.F, 4))
+	row(&b, wording.PofF, wording.P(r.FP))
+	if !origin {
+		row(&b, wording.Covariance, numfmt.Sig(r.CovSlopeIntercept, 4))
 	}
-	w("  is the slope %s? t = %s, %s", numfmt.Full(r.Slope.Ref), numfmt.Sig(r.Slope.TRef, 4), peq(r.Slope.PRef))
-	if r.Model != fitcore.ModelOrigin {
-		w(".  Is the intercept %s? t = %s, %s", numfmt.Full(r.Intercept.Ref), numfmt.Sig(r.Intercept.TRef, 4), peq(r.Intercept.PRef))
-	}
-	w("\n\n")
-	w("  r = %s   R² = %s   adjusted R² = %s\n", numfmt.Sig(r.R, 6), numfmt.Sig(r.RSquared, 6), numfmt.Sig(r.AdjRSquared, 6))
-	w("  residual standard error = %s on %s df   F = %s, %s\n\n",
-		num(r.ResidualSE), strconv.FormatFloat(r.DF, 'g', -1, 64), numfmt.Sig(r.F, 6), peq(r.FP))
+	row(&b, wording.MeanX, num(r.MeanX))
+	row(&b, wording.MeanY, num(r.MeanY))
+	w("\n")
 
-	w("Checks\n")
+	w("%s\n", wording.ChecksTitle)
+	as := func(label string, a *fitcore.Assumption) {
+		if a == nil {
+			return
+		}
+		w("  %s %-38s %s", verdict(a.Verdict), label, oneLine(a.Message))
+		if a.Advice != "" {
+			w(" What to do: %s", oneLine(a.Advice))
+		}
+		w("\n")
+	}
+	as(wording.CheckLinearity, &r.Assumptions.Linearity)
+	as(wording.CheckSpread, &r.Assumptions.Spread)
+	as(wording.CheckIndependence, &r.Assumptions.Independence)
+	as(wording.CheckNormality, &r.Assumptions.Normality)
+	as(wording.CheckInfluence, &r.Assumptions.Influence)
+	as(wording.CheckXExactness, r.Assumptions.XExactness)
+	w("\n")
+
+	w("%s\n", wording.Tests)
 	check := func(c *fitcore.Check) {
 		if c == nil {
 			return
 		}
 		stat := ""
 		if c.Verdict != fitcore.NA {
-			stat = fmt.Sprintf("statistic = %s, %s", numfmt.Sig(c.Statistic, 4), peq(c.P))
+			stat = fmt.Sprintf("%s = %s, %s", wording.StatSymbol(c.Name), numfmt.Sig(c.Statistic, 4), wording.PEq(c.P))
 		}
-		w("  %-5s %-16s %-32s %s\n", verdictWord(c.Verdict), c.Name, stat, oneLine(c.Message))
+		w("  %s %-20s %-24s %s\n", verdict(c.Verdict), c.Name, stat, oneLine(c.Message))
 	}
 	ch := r.Checks
 	check(&ch.Curvature)
@@ -124,25 +148,6 @@ func summaryRest(fr *fitResult, pct string) string {
 	check(ch.XExactness)
 	w("\n")
 
-	w("Assumptions\n")
-	as := func(label string, a *fitcore.Assumption) {
-		if a == nil {
-			return
-		}
-		w("  %-5s %-13s %s", verdictWord(a.Verdict), label, oneLine(a.Message))
-		if a.Advice != "" {
-			w(" %s", oneLine(a.Advice))
-		}
-		w("\n")
-	}
-	as("linearity", &r.Assumptions.Linearity)
-	as("spread", &r.Assumptions.Spread)
-	as("independence", &r.Assumptions.Independence)
-	as("normality", &r.Assumptions.Normality)
-	as("influence", &r.Assumptions.Influence)
-	as("x exactness", r.Assumptions.XExactness)
-	w("\n")
-
 	var flagged []fitcore.PointInfluence
 	for _, p := range r.Influence {
 		if p.Flagged {
@@ -150,7 +155,7 @@ func summaryRest(fr *fitResult, pct string) string {
 		}
 	}
 	if len(flagged) > 0 {
-		w("Readings that stand out\n")
+		w("%s\n", wording.StandsOut)
 		for _, p := range flagged {
 			line := ""
 			if p.Index >= 0 && p.Index < len(fr.lines) {
@@ -159,7 +164,7 @@ func summaryRest(fr *fitResult, pct string) string {
 			w("  pair %d%s: leverage %s, studentized residual %s, Cook's distance %s",
 				p.Index+1, line, numfmt.Sig(p.Leverage, 3), numfmt.Sig(p.Studentized, 3), numfmt.Sig(p.CooksD, 3))
 			if len(p.Reasons) > 0 {
-				w(" — %s", strings.Join(p.Reasons, "; "))
+				w(" — %s", oneLine(strings.Join(p.Reasons, "; ")))
 			}
 			w("\n")
 		}
@@ -167,34 +172,41 @@ func summaryRest(fr *fitResult, pct string) string {
 	}
 
 	if r.BoxCox != nil {
-		w("Box–Cox λ = %s (%s interval %s … %s)\n\n", numfmt.Sig(r.BoxCox.Lambda, 3), pct,
-			numfmt.Sig(r.BoxCox.CILow, 3), numfmt.Sig(r.BoxCox.CIHigh, 3))
+		w("Box–Cox λ = %s (%s %s)\n\n", numfmt.Sig(r.BoxCox.Lambda, 3), wording.Interval(level),
+			wording.Range(numfmt.Sig(r.BoxCox.CILow, 3), numfmt.Sig(r.BoxCox.CIHigh, 3)))
 	}
 	if a := r.Advice; a != nil && a.Remedy != "" {
-		if a.Remedy == fitcore.RemedyNone {
-			w("Advice: no change needed. %s\n\n", oneLine(a.Reason))
-		} else {
-			w("Advice: %s. %s\n\n", remedyWords(a.Remedy), oneLine(a.Reason))
+		w("Advice: %s%s. %s\n", wording.Remedy(a.Remedy), remedyFlag(a.Remedy), oneLine(a.Reason))
+		for _, c := range a.Candidates {
+			if c.Why != "" {
+				w("  tried %s: %s\n", wording.Remedy(c.Remedy), oneLine(c.Why))
+			}
 		}
+		w("\n")
 	}
 
 	if len(r.Predictions) > 0 {
-		w("Predictions (%s)\n", pct)
-		w("  %14s %14s %26s %26s\n", "x", "fitted y", "interval for the line", "interval for a reading")
+		w("y at a given x (%s)\n", pct)
 		for _, p := range r.Predictions {
-			w("  %14s %14s %26s %26s\n", num(p.X), num(p.Fit),
-				num(p.CILow)+" … "+num(p.CIHigh), num(p.PILow)+" … "+num(p.PIHigh))
+			w("  At x = %s: ŷ = %s; %s: %s; %s: %s", wording.Ref(p.X), num(p.Fit),
+				wording.MeanReading, wording.Range(num(p.CILow), num(p.CIHigh)),
+				wording.NewReading, wording.Range(num(p.PILow), num(p.PIHigh)))
+			if p.Message != "" {
+				w(" — %s", oneLine(p.Message))
+			}
+			w("\n")
 		}
 		w("\n")
 	}
 	if len(r.Inverse) > 0 {
 		w("x from readings (%s)\n", pct)
 		for _, v := range r.Inverse {
-			w("  y = %s (mean of %d): x = %s, standard error %s, ", num(v.Y), v.M, num(v.X), num(v.SE))
+			w("  An unknown read as %s (mean of %d) is x = %s, %s %s", num(v.Y), v.M, num(v.X),
+				strings.ToLower(wording.StandardError), num(v.SE))
 			if v.Bounded {
-				w("interval %s … %s", num(v.Low), num(v.High))
+				w(", %s %s", wording.Interval(level), wording.Range(num(v.Low), num(v.High)))
 			} else {
-				w("no finite interval")
+				w(", no finite interval")
 			}
 			if v.Message != "" {
 				w(" — %s", oneLine(v.Message))
@@ -204,7 +216,23 @@ func summaryRest(fr *fitResult, pct string) string {
 		w("\n")
 	}
 	if r.Limits != nil {
-		w("Detection limit %s, quantitation limit %s (x units)\n\n", num(r.Limits.LOD), num(r.Limits.LOQ))
+		w("%s %s, %s %s (x units)\n\n", wording.DetectionLimit, num(r.Limits.LOD),
+			strings.ToLower(wording.QuantitationLimit), num(r.Limits.LOQ))
+	}
+	if acc := r.Acceptance; acc != nil {
+		stamp := wording.NotAccepted
+		if acc.Pass {
+			stamp = wording.Accepted
+		}
+		w("Acceptance criteria: %s. %s\n", stamp, oneLine(acc.Summary))
+		for _, c := range acc.Results {
+			out := wording.NotMet
+			if c.Pass {
+				out = wording.Met
+			}
+			w("  %s %s (%s): %s\n", out, c.Name, c.Limit, oneLine(c.Reason))
+		}
+		w("\n")
 	}
 	if len(r.Notes) > 0 {
 		w("Notes\n")
@@ -219,32 +247,13 @@ func summaryRest(fr *fitResult, pct string) string {
 	return b.String()
 }
 
-func verdictWord(v fitcore.Verdict) string {
-	switch v {
-	case fitcore.Pass:
-		return "ok"
-	case fitcore.Warn:
-		return "WARN"
-	case fitcore.Fail:
-		return "FAIL"
-	}
-	return "n/a"
-}
-
-func remedyWords(r fitcore.Remedy) string {
+// remedyFlag is the command-line flag that applies a remedy.
+func remedyFlag(r fitcore.Remedy) string {
 	switch r {
-	case fitcore.RemedyLogY:
-		return "fit log(y) (--transform log_y)"
-	case fitcore.RemedySqrtY:
-		return "fit √y (--transform sqrt_y)"
-	case fitcore.RemedyReciprocal:
-		return "fit 1/y (--transform reciprocal_y)"
-	case fitcore.RemedyLogLog:
-		return "fit log(y) on log(x) (--transform log_log)"
-	case fitcore.RemedyBoxCox:
-		return "fit a Box–Cox power of y (--transform box_cox)"
+	case fitcore.RemedyNone, "":
+		return ""
 	case fitcore.RemedyWeighted:
-		return "use a weighted fit (--weights …)"
+		return " (--weights power)"
 	}
-	return string(r)
+	return " (--transform " + string(r) + ")"
 }

@@ -48,6 +48,11 @@ func openSessionFile(path string) (*session.File, error) {
 		return nil, fmt.Errorf("cannot open the file: %w", unwrapPath(err))
 	}
 	defer f.Close()
+	// A folder opens like a file on most systems and then fails to read,
+	// which Decode would call a file cut short.
+	if st, err := f.Stat(); err == nil && st.IsDir() {
+		return nil, errFolder
+	}
 	file, err := session.Decode(f)
 	if err != nil {
 		return nil, err
@@ -75,13 +80,22 @@ type inspection struct {
 	Sessions []sessionAnalysis `json:"sessions"`
 }
 
+// analyse checks the session's stored settings with fitcore's one
+// validation of options (the one the fit command's flags go through) and
+// only then analyses the usable readings, so that a setting out of range is
+// reported as such and never reaches the statistics.
 func analyse(s *session.Session) sessionAnalysis {
 	x, y, rows, problems := s.Pairs()
 	a := sessionAnalysis{Session: s, Counts: s.Count(), Problems: problems, Rows: rows}
 	if a.Problems == nil {
 		a.Problems = []session.CellProblem{}
 	}
-	rep, err := fitcore.Analyze(x, y, s.Settings.Options())
+	opt, err := s.Settings.Options().Normalize()
+	if err != nil {
+		a.AnalysisError = settingsError(err)
+		return a
+	}
+	rep, err := fitcore.Analyze(x, y, opt)
 	if err != nil {
 		a.AnalysisError = err.Error()
 	} else {
@@ -90,18 +104,37 @@ func analyse(s *session.Session) sessionAnalysis {
 	return a
 }
 
+// settingsError says why a session's stored fit settings cannot be used,
+// naming the setting by its key in the session file.
+func settingsError(err error) string {
+	var oe *fitcore.OptionError
+	if errors.As(err, &oe) {
+		return fmt.Sprintf("the session's fit settings cannot be used: %s = %s: %s", oe.Option, oe.Value, oe.Want)
+	}
+	return "the session's fit settings cannot be used: " + err.Error()
+}
+
+// fileError is the one line of a file that cannot be used.
+func fileError(stderr io.Writer, cmd, path string, err error) {
+	if errors.Is(err, errFolder) {
+		fail(stderr, cmd, "%s is a folder, not a session file", path)
+		return
+	}
+	fail(stderr, cmd, "%s: %s", path, oneLine(err.Error()))
+}
+
 // Inspect runs `pairline inspect [--json] FILE` and returns the exit status.
 func Inspect(args []string, stdout, stderr io.Writer) int {
 	fs := newFlags("inspect", stderr)
 	asJSON := fs.Bool("json", false, "print everything as JSON (the report in the form of `pairline fit --json`)")
-	fs.Usage = func() { fmt.Fprint(stderr, inspectUsage); fs.PrintDefaults() }
+	fs.Usage = func() { fmt.Fprint(fs.Output(), inspectUsage); fs.PrintDefaults() }
 	path, code, ok := oneFile(fs, args)
 	if !ok {
 		return code
 	}
 	file, err := openSessionFile(path)
 	if err != nil {
-		fmt.Fprintf(stderr, "pairline inspect: %s: %s\n", path, oneLine(err.Error()))
+		fileError(stderr, "inspect", path, err)
 		return ExitUsage
 	}
 	in := inspection{File: path, Major: file.Major, Minor: file.Minor, Checksum: "ok", SHA256: file.Checksum,
@@ -115,18 +148,18 @@ func Inspect(args []string, stdout, stderr io.Writer) int {
 	if *asJSON {
 		b, err := json.MarshalIndent(in, "", "  ")
 		if err != nil {
-			fmt.Fprintf(stderr, "pairline inspect: the analysis could not be written as JSON: %v\n", err)
+			fail(stderr, "inspect", "the analysis could not be written as JSON: %v", err)
 			return ExitFailure
 		}
-		b = append(b, '\n')
+		b = append(jsonText(b), '\n')
 		if _, err := stdout.Write(b); err != nil {
-			fmt.Fprintf(stderr, "pairline inspect: %v\n", err)
+			fail(stderr, "inspect", "%v", err)
 			return ExitFailure
 		}
 		return ExitOK
 	}
-	if _, err := io.WriteString(stdout, inspectText(&in)); err != nil {
-		fmt.Fprintf(stderr, "pairline inspect: %v\n", err)
+	if _, err := io.WriteString(stdout, termLines(inspectText(&in))); err != nil {
+		fail(stderr, "inspect", "%v", err)
 		return ExitFailure
 	}
 	return ExitOK
@@ -134,7 +167,7 @@ func Inspect(args []string, stdout, stderr io.Writer) int {
 
 // oneFile parses the flags and the single FILE argument.
 func oneFile(fs *flag.FlagSet, args []string) (string, int, bool) {
-	if err := fs.Parse(args); err != nil {
+	if err := parseArgs(fs, args); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
 			return "", ExitOK, false
 		}
@@ -154,6 +187,8 @@ func when(t time.Time) string {
 	return t.UTC().Format("2006-01-02 15:04:05 UTC")
 }
 
+// nameUnit is a quantity's name with its unit, both from the file and made
+// visible.
 func nameUnit(name, unit, def string) string {
 	if name == "" {
 		name = def
@@ -161,59 +196,64 @@ func nameUnit(name, unit, def string) string {
 	if unit != "" {
 		name += " (" + unit + ")"
 	}
-	return name
+	return term(name)
 }
+
+// longText is text of several lines from the file (notes, reasons): its
+// whitespace, newlines included, folded to single spaces and the rest made
+// visible.
+func longText(s string) string { return term(oneLine(s)) }
 
 func inspectText(in *inspection) string {
 	var b strings.Builder
 	w := func(format string, a ...any) { fmt.Fprintf(&b, format, a...) }
 	w("File %s: session file format %d.%d, %d session(s), checksum OK (SHA-256 %s)\n",
-		in.File, in.Major, in.Minor, len(in.Sessions), in.SHA256)
+		term(in.File), in.Major, in.Minor, len(in.Sessions), in.SHA256)
 	for _, warn := range in.Warnings {
-		w("Warning: %s\n", warn)
+		w("Warning: %s\n", longText(warn))
 	}
 	for i, a := range in.Sessions {
 		s := a.Session
-		w("\nSession %d of %d: %s\n", i+1, len(in.Sessions), s.Title)
+		w("\nSession %d of %d: %s\n", i+1, len(in.Sessions), term(s.Title))
 		field := func(label, v string) {
 			if v != "" {
-				w("  %-11s %s\n", label, oneLine(v))
+				w("  %-11s %s\n", label, v)
 			}
 		}
-		field("ID", s.ID)
+		field("ID", term(s.ID))
 		field("created", when(s.Created))
 		field("modified", when(s.Modified))
-		field("site", s.Site)
+		field("site", term(s.Site))
 		inst := s.Instrument.Description
 		if s.Instrument.Serial != "" {
 			inst += " (serial " + s.Instrument.Serial + ")"
 		}
-		field("instrument", inst)
-		field("operator", s.Operator)
+		field("instrument", term(inst))
+		field("operator", term(s.Operator))
 		field("x", nameUnit(s.XName, s.XUnit, "x"))
 		field("y", nameUnit(s.YName, s.YUnit, "y"))
 		if l := s.Location; l != nil {
 			field("location", fmt.Sprintf("%s, %s (within %s m, %s)", numfmt.Sig(l.Lat, 7), numfmt.Sig(l.Lon, 7),
 				numfmt.Sig(l.AccuracyM, 3), when(l.Taken)))
 		}
-		field("notes", s.Notes)
+		field("notes", longText(s.Notes))
 		c := a.Counts
 		w("  %-11s %d rows: %d usable, %d excluded, %d blank, %d cell(s) not numbers\n",
 			"readings", c.Rows, c.Usable, c.Excluded, c.Blank, c.Problems)
 		for r, rd := range s.Readings {
 			if rd.Excluded {
-				w("  %-11s row %d (x %q, y %q): %s\n", "excluded", r+1, rd.X, rd.Y, oneLine(rd.ExcludeReason))
+				w("  %-11s row %d (x %s, y %s): %s\n", "excluded", r+1, quoted(rd.X), quoted(rd.Y), longText(rd.ExcludeReason))
 			}
 		}
 		for _, p := range a.Problems {
-			w("  %-11s %s\n", "problem", oneLine(p.String()))
+			w("  %-11s row %d, %s: %s %s\n", "problem", p.Row+1, p.Column, quoted(p.Text), longText(p.Reason))
 		}
 		if len(s.History) > 0 {
 			w("  %-11s %d change(s), the last at %s\n", "history", len(s.History), when(s.History[len(s.History)-1].At))
 		}
 		w("\n")
 		if a.Report == nil {
-			w("Analysis not possible: %s\n", oneLine(a.AnalysisError))
+			w("Analysis not possible: %s\n", longText(a.AnalysisError))
 			continue
 		}
 		lines := make([]int, len(a.Rows))
@@ -222,14 +262,7 @@ func inspectText(in *inspection) string {
 		}
 		fr := &fitResult{report: a.Report, lines: lines,
 			xName: nameUnit(s.XName, s.XUnit, "x"), yName: nameUnit(s.YName, s.YUnit, "y")}
-		b.WriteString(summary(strconv.Quote(s.Title), fr))
-		if acc := a.Report.Acceptance; acc != nil {
-			verdict := "FAIL"
-			if acc.Pass {
-				verdict = "PASS"
-			}
-			w("Acceptance criteria: %s. %s\n", verdict, oneLine(acc.Summary))
-		}
+		b.WriteString(summary(quoted(s.Title), fr))
 	}
 	return b.String()
 }
@@ -238,14 +271,14 @@ func inspectText(in *inspection) string {
 func ExportCSV(args []string, stdout, stderr io.Writer) int {
 	fs := newFlags("export-csv", stderr)
 	which := fs.String("session", "", "the session to export: its number (from 1) or its ID")
-	fs.Usage = func() { fmt.Fprint(stderr, exportUsage); fs.PrintDefaults() }
+	fs.Usage = func() { fmt.Fprint(fs.Output(), exportUsage); fs.PrintDefaults() }
 	path, code, ok := oneFile(fs, args)
 	if !ok {
 		return code
 	}
 	file, err := openSessionFile(path)
 	if err != nil {
-		fmt.Fprintf(stderr, "pairline export-csv: %s: %s\n", path, oneLine(err.Error()))
+		fileError(stderr, "export-csv", path, err)
 		return ExitUsage
 	}
 	var s *session.Session
@@ -253,7 +286,7 @@ func ExportCSV(args []string, stdout, stderr io.Writer) int {
 	case *which == "" && len(file.Sessions) == 1:
 		s = file.Sessions[0]
 	case *which == "":
-		fmt.Fprintf(stderr, "pairline export-csv: %s holds %d sessions; choose one with --session 1 … %d or an ID\n",
+		fail(stderr, "export-csv", "%s holds %d sessions; choose one with --session 1 … %d or an ID",
 			path, len(file.Sessions), len(file.Sessions))
 		return ExitUsage
 	default:
@@ -266,12 +299,12 @@ func ExportCSV(args []string, stdout, stderr io.Writer) int {
 			}
 		}
 		if s == nil {
-			fmt.Fprintf(stderr, "pairline export-csv: %s has no session %q (it holds %d)\n", path, *which, len(file.Sessions))
+			fail(stderr, "export-csv", "%s has no session %s (it holds %d)", path, quoted(*which), len(file.Sessions))
 			return ExitUsage
 		}
 	}
 	if err := session.WriteReadingsCSV(stdout, s); err != nil {
-		fmt.Fprintf(stderr, "pairline export-csv: %v\n", err)
+		fail(stderr, "export-csv", "%v", err)
 		return ExitFailure
 	}
 	return ExitOK

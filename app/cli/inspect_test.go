@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"pairline/app/session"
+	"pairline/app/wording"
 )
 
 const sampleSession = "../../testdata/session/sample.pairline"
@@ -84,7 +85,7 @@ func TestInspectText(t *testing.T) {
 	}
 	for _, s := range []string{"checksum OK", "Session 1 of 2", "Larkwater Valley Water Board (invented)",
 		"9 rows: 7 usable, 1 excluded", "row 4", "air bubble", `row 9, y: "" is empty`, "y = 1.00307·x + 0.998726",
-		"R² = 0.999997", "Checks", "Shapiro–Wilk", "Acceptance criteria: PASS", "Session 2 of 2"} {
+		"0.999997", wording.ChecksTitle, "Shapiro–Wilk", "Acceptance criteria: " + wording.Accepted, "Session 2 of 2"} {
 		if !strings.Contains(out.String(), s) {
 			t.Errorf("output lacks %q", s)
 		}

@@ -65,6 +65,10 @@ func firstHidden(s string) int {
 	return -1
 }
 
+// Hidden reports whether Visible replaces the character r: a control
+// character, a bidirectional control or a line or paragraph separator.
+func Hidden(r rune) bool { return r < 0x20 || r == 0x7f || acts(r) }
+
 // acts reports the non-ASCII characters Visible replaces.
 func acts(r rune) bool {
 	switch {

@@ -176,3 +176,55 @@ func Remedy(r fitcore.Remedy) string {
 	}
 	return string(r)
 }
+
+// Model names the kind of fit.
+func Model(m fitcore.Model) string {
+	switch m {
+	case fitcore.ModelOLS, "":
+		return "ordinary least squares"
+	case fitcore.ModelOrigin:
+		return "least squares through zero"
+	case fitcore.ModelWeighted:
+		return "weighted least squares"
+	case fitcore.ModelDeming:
+		return "Deming (errors in x and y)"
+	}
+	return string(m)
+}
+
+// Scale names the scale a transform fits on, "" for the readings as
+// entered.
+func Scale(t fitcore.Transform) string {
+	switch t {
+	case fitcore.TransformLogY:
+		return "ln y"
+	case fitcore.TransformLogLog:
+		return "ln y (against ln x)"
+	case fitcore.TransformSqrtY:
+		return "√y"
+	case fitcore.TransformReciprocal:
+		return "1/y"
+	case fitcore.TransformBoxCox:
+		return "Box–Cox"
+	}
+	return ""
+}
+
+// Fit describes a fit: "ordinary least squares", "weighted least squares,
+// fitted on the ln y scale".
+func Fit(m fitcore.Model, t fitcore.Transform) string {
+	s := Model(m)
+	if sc := Scale(t); sc != "" {
+		s += ", fitted on the " + sc + " scale"
+	}
+	return s
+}
+
+// The acceptance stamp.
+const (
+	Accepted    = "✔ ACCEPTED"
+	NotAccepted = "✖ NOT ACCEPTED"
+	// Met and NotMet are the outcome of one acceptance criterion.
+	Met    = "✔ met"
+	NotMet = "✖ not met"
+)
