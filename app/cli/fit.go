@@ -76,7 +76,7 @@ type fitFlags struct {
 	file          string
 }
 
-const fitUsage = `usage: pairline fit [flags] FILE|-
+var fitUsage = fmt.Sprintf(`usage: pairline fit [flags] FILE|-
 
 Fits a straight line to paired readings in a CSV or TSV file (or standard
 input with "-") and reports the line, its uncertainty, the assumption checks
@@ -91,8 +91,8 @@ flags:
   --weights W          none | x | x2 | fitted2 | repeats | power (implies
                        --model weighted; power estimates the power of x)
   --transform T        none | log_y | sqrt_y | reciprocal_y | log_log | box_cox
-  --box-cox-lambda L   fix λ for --transform box_cox, −5 … 5 (default: estimated)
-  --level P            confidence level, 0.5 … 0.9999 (default 0.95)
+  --box-cox-lambda L   fix λ for --transform box_cox, −%[4]g … %[4]g (default: estimated)
+  --level P            confidence level, %[1]g … %[2]g (default %[3]g)
   --slope-ref S        value the slope is tested against (default 1)
   --intercept-ref I    value the intercept is tested against (default 0)
   --x-uncertainty U    standard uncertainty of one x reading, ≥ 0 (x units);
@@ -104,14 +104,15 @@ flags:
   --inverse-y Y        x behind reading Y; "Y1;Y2;Y3" for repeat readings of
                        one unknown (repeatable, one unknown per flag)
   --variance-ratio D   var(y errors)/var(x errors) for --model deming,
-                       1e-06 … 1e+06 (default 1)
+                       %[5]g … %[6]g (default 1)
   --delimiter C        force the delimiter: "," ";" "tab" (default: detect)
   --decimal-comma B    yes | no | auto (default auto)
   --header B           yes | no | auto (default auto)
 
-Numbers in flags are finite and at most 1e+100 in size. A value out of range
+Numbers in flags are finite and at most %[7]g in size. A value out of range
 is refused with one line naming the flag and the range (exit status 2).
-`
+`, fitcore.MinLevel, fitcore.MaxLevel, fitcore.DefaultLevel, fitcore.MaxBoxCoxLambda,
+	fitcore.MinVarianceRatio, fitcore.MaxVarianceRatio, MaxFlagNumber)
 
 // Fit runs `pairline fit`. It returns ExitOK on success and ExitUsage with
 // one line on stderr for bad flags or unusable input.
@@ -147,7 +148,7 @@ func Fit(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		}
 		out = append(jsonText(out), '\n')
 	} else {
-		out = []byte(termLines(summary(name, rep)))
+		out = []byte(termLines(summary(term(name), rep)))
 	}
 	if _, err := stdout.Write(out); err != nil {
 		fail(stderr, "fit", "writing the result failed: %v", err)
@@ -538,7 +539,7 @@ func runFit(ff *fitFlags, opt fitcore.Options, stdin io.Reader) (*fitResult, err
 	rep.Notes = append(notes, rep.Notes...)
 	rep.Notes = append(rep.Notes, res.Warnings...)
 	out := &fitResult{report: rep, csv: res, lines: lines,
-		xName: columnName(res, res.XCol, "x"), yName: columnName(res, res.YCol, "y")}
+		xName: term(columnName(res, res.XCol, "x")), yName: term(columnName(res, res.YCol, "y"))}
 	return out, nil
 }
 

@@ -177,6 +177,9 @@ func summaryRest(fr *fitResult, level float64) string {
 	}
 	if a := r.Advice; a != nil && a.Remedy != "" {
 		w("Advice: %s%s. %s\n", wording.Remedy(a.Remedy), remedyFlag(a.Remedy), oneLine(a.Reason))
+		if a.After != nil {
+			w("  %s\n", beforeAfter(a.Before.Assumptions, a.After.Assumptions))
+		}
 		for _, c := range a.Candidates {
 			if c.Why != "" {
 				w("  tried %s: %s\n", wording.Remedy(c.Remedy), oneLine(c.Why))
@@ -245,6 +248,23 @@ func summaryRest(fr *fitResult, level float64) string {
 	w("(gas detection, structural loads, drinking water), follow the instrument maker's procedure,\n")
 	w("local codes and licensed practice.\n")
 	return b.String()
+}
+
+// beforeAfter compares the verdicts of the checks now and with the remedy,
+// as the screen's advice table does.
+func beforeAfter(bf, af fitcore.Assumptions) string {
+	var parts []string
+	pair := func(name string, x, y fitcore.Assumption) {
+		i1, w1 := wording.Verdict(x.Verdict)
+		i2, w2 := wording.Verdict(y.Verdict)
+		parts = append(parts, fmt.Sprintf("%s %s %s → %s %s", name, i1, w1, i2, w2))
+	}
+	pair(wording.CheckLinearity, bf.Linearity, af.Linearity)
+	pair(wording.CheckSpread, bf.Spread, af.Spread)
+	pair(wording.CheckIndependence, bf.Independence, af.Independence)
+	pair(wording.CheckNormality, bf.Normality, af.Normality)
+	pair(wording.CheckInfluence, bf.Influence, af.Influence)
+	return "now → with the remedy: " + strings.Join(parts, "; ")
 }
 
 // remedyFlag is the command-line flag that applies a remedy.

@@ -126,7 +126,7 @@ func fileError(stderr io.Writer, cmd, path string, err error) {
 // Inspect runs `pairline inspect [--json] FILE` and returns the exit status.
 func Inspect(args []string, stdout, stderr io.Writer) int {
 	fs := newFlags("inspect", stderr)
-	asJSON := fs.Bool("json", false, "print everything as JSON (the report in the form of `pairline fit --json`)")
+	asJSON := fs.Bool("json", false, "print everything as JSON (the report in the form of \"pairline fit --json\")")
 	fs.Usage = func() { fmt.Fprint(fs.Output(), inspectUsage); fs.PrintDefaults() }
 	path, code, ok := oneFile(fs, args)
 	if !ok {
