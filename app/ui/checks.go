@@ -7,21 +7,23 @@ import (
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
 	"pairline/app/numfmt"
+	"pairline/app/wording"
 	"pairline/fitcore"
 )
 
 // anVerdict gives the icon and word of a verdict; the colour comes from the
 // class, so that the verdict never depends on colour alone.
 func anVerdict(v fitcore.Verdict) (icon, word, class string) {
+	icon, word = wording.Verdict(v)
 	switch v {
 	case fitcore.Pass:
-		return "✔", "Pass", "an-v-pass"
+		return icon, word, "an-v-pass"
 	case fitcore.Warn:
-		return "▲", "Check", "an-v-warn"
+		return icon, word, "an-v-warn"
 	case fitcore.Fail:
-		return "✖", "Fail", "an-v-fail"
+		return icon, word, "an-v-fail"
 	}
-	return "○", "Not checked", "an-v-na"
+	return icon, word, "an-v-na"
 }
 
 func anBadge(v fitcore.Verdict) app.UI {
@@ -47,10 +49,10 @@ func (c *Shell) renderChecks() app.UI {
 		lin = append(lin, *k.LackOfFit)
 	}
 	rows := []app.UI{
-		c.anCheckRow("linearity", "Straight line", a.Linearity, c.anTests(lin)),
-		c.anCheckRow("spread", "Even scatter", a.Spread, c.anTests([]fitcore.Check{k.BreuschPagan, k.White})),
-		c.anCheckRow("independence", "Independent readings (in entry order)", a.Independence, c.anTests([]fitcore.Check{k.DurbinWatson, k.Runs})),
-		c.anCheckRow("normality", "Bell-shaped scatter", a.Normality, c.anTests([]fitcore.Check{k.ShapiroWilk})),
+		c.anCheckRow("linearity", wording.CheckLinearity, a.Linearity, c.anTests(lin)),
+		c.anCheckRow("spread", wording.CheckSpread, a.Spread, c.anTests([]fitcore.Check{k.BreuschPagan, k.White})),
+		c.anCheckRow("independence", wording.CheckIndependence, a.Independence, c.anTests([]fitcore.Check{k.DurbinWatson, k.Runs})),
+		c.anCheckRow("normality", wording.CheckNormality, a.Normality, c.anTests([]fitcore.Check{k.ShapiroWilk})),
 		c.anInfluenceRow(a.Influence),
 	}
 	if a.XExactness != nil {
@@ -58,11 +60,11 @@ func (c *Shell) renderChecks() app.UI {
 		if k.XExactness != nil {
 			tests = c.anTests([]fitcore.Check{*k.XExactness})
 		}
-		rows = append(rows, c.anCheckRow("x-exactness", "x treated as exact", *a.XExactness, tests))
+		rows = append(rows, c.anCheckRow("x-exactness", wording.CheckXExactness, *a.XExactness, tests))
 	}
 	return app.Section().Class("pl-card an-checks").Attr("aria-label", "Checks").
 		DataSet("testid", "checks").DataSet("slope", numfmt.Full(c.view.report.Slope.Estimate)).Body(
-		app.H2().Text("Can the line be trusted?"),
+		app.H2().Text(wording.ChecksTitle),
 		app.P().Class("pl-stale").Hidden(!c.view.stale).Text(staleNote(c.view.stale)),
 		app.Ul().Class("an-check-list").Body(rows...),
 	)
@@ -105,27 +107,8 @@ func (c *Shell) anCheckRow(id, title string, a fitcore.Assumption, details app.U
 	return app.Li().Class("an-check "+cls).DataSet("testid", "check-"+id).DataSet("verdict", string(a.Verdict)).Body(body...)
 }
 
-// anStatName is the symbol of each test's statistic.
-func anStatName(name string) string {
-	switch name {
-	case "Curvature":
-		return "t"
-	case "Lack of fit":
-		return "F"
-	case "Durbin–Watson":
-		return "d"
-	case "Runs":
-		return "z"
-	case "Shapiro–Wilk":
-		return "W"
-	case "x exactness":
-		return "z"
-	}
-	if strings.HasPrefix(name, "Breusch") || strings.HasPrefix(name, "White") {
-		return "χ²"
-	}
-	return "statistic"
-}
+// anStatName is the symbol of each test's statistic (wording.StatSymbol).
+func anStatName(name string) string { return wording.StatSymbol(name) }
 
 // anTests lists the tests behind an assumption: name and result, then the
 // statistic, its degrees of freedom and p, then fitcore's sentence. Blocks
@@ -224,7 +207,7 @@ func (c *Shell) anInfluenceRow(a fitcore.Assumption) app.UI {
 		// is shown (at 1,000 readings it costs a good part of a frame).
 		details = app.Text("")
 	}
-	return c.anCheckRow("influence", "No single reading dominates", a, details, extra...)
+	return c.anCheckRow("influence", wording.CheckInfluence, a, details, extra...)
 }
 
 // anRowOf maps a position among the usable pairs to the row of the grid.

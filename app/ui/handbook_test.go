@@ -8,6 +8,7 @@ import (
 	"time"
 
 	"pairline/app/session"
+	"pairline/app/wording"
 	"pairline/fitcore"
 )
 
@@ -67,7 +68,7 @@ func TestHandbookAlaskaReport(t *testing.T) {
 		t.Errorf("the residual plot's summary does not give fitcore's spread verdict: %s", ps.ResSum)
 	}
 	body := rpBody(s, rep, rows, "", time.Now())
-	row := `<th scope="row">Even spread</th><td>` + rpVerdict(rep.Assumptions.Spread.Verdict) + `</td>`
+	row := `<th scope="row">` + wording.CheckSpread + `</th><td>` + rpVerdict(rep.Assumptions.Spread.Verdict) + `</td>`
 	if !strings.Contains(body, row) {
 		t.Errorf("the report's spread row is not fitcore's verdict %s [%s]", rep.Assumptions.Spread.Verdict, src)
 	}

@@ -13,6 +13,7 @@ import (
 
 	"pairline/app/numfmt"
 	"pairline/app/session"
+	"pairline/app/wording"
 	"pairline/fitcore"
 )
 
@@ -92,7 +93,7 @@ func (c *Shell) saveReportHTML(ctx app.Context, e app.Event) {
 // fileName makes a title safe as a file name.
 func rpFileName(title string) string {
 	t := strings.Map(func(r rune) rune {
-		if r < 0x20 || strings.ContainsRune(`/\:*?"<>|`, r) {
+		if wording.Hidden(r) || strings.ContainsRune(`/\:*?"<>|`, r) {
 			return '-'
 		}
 		return r
@@ -106,7 +107,30 @@ func rpFileName(title string) string {
 	return t
 }
 
-func rpEsc(s string) string { return html.EscapeString(s) }
+// rpEsc escapes text for the report's HTML. Text from the session comes
+// through it too, so besides the markup characters it shows control
+// characters and bidirectional controls as visible escapes (wording.Visible:
+// an override in a title would otherwise reorder the text after it on the
+// page). Tabs and newlines are white space on a page and become spaces.
+func rpEsc(s string) string {
+	s = strings.Map(func(r rune) rune {
+		if r == '\t' || r == '\n' || r == '\r' {
+			return ' '
+		}
+		return r
+	}, s)
+	return html.EscapeString(wording.Visible(s))
+}
+
+// rpP writes a p-value as the screen does: "p = 0.012" or "p < 0.0001",
+// with its full value in data-value.
+func rpP(p float64) string {
+	s := wording.P(p)
+	if strings.HasPrefix(s, "<") {
+		return "p " + rpNum(p, s)
+	}
+	return "p = " + rpNum(p, s)
+}
 
 // rb builds the report markup.
 type rpB struct{ strings.Builder }
@@ -197,21 +221,9 @@ func rpBody(s *session.Session, rep *fitcore.Report, rows []int, message string,
 	return b.String()
 }
 
-func rpLevel(l float64) string {
-	return strings.TrimRight(strings.TrimRight(numfmt.Sig(l*100, 3), "0"), ".") + " %"
-}
+func rpLevel(l float64) string { return wording.Percent(l) }
 
-func rpModel(rep *fitcore.Report) string {
-	m := map[fitcore.Model]string{fitcore.ModelOLS: "ordinary least squares", fitcore.ModelOrigin: "least squares through zero",
-		fitcore.ModelWeighted: "weighted least squares", fitcore.ModelDeming: "Deming (errors in x and y)"}[rep.Model]
-	if m == "" {
-		m = string(rep.Model)
-	}
-	if sc := plScaleName(rep.Transform); sc != "" {
-		m += ", fitted on the " + sc + " scale"
-	}
-	return m
-}
+func rpModel(rep *fitcore.Report) string { return wording.Fit(rep.Model, rep.Transform) }
 
 func rpLine(b *rpB, s *session.Session, rep *fitcore.Report) {
 	sig := 6
@@ -219,38 +231,38 @@ func rpLine(b *rpB, s *session.Session, rep *fitcore.Report) {
 	b.w(`<p>Fit: `, rpEsc(rpModel(rep)), `; confidence level `, rpEsc(rpLevel(rep.Level)), `.</p>`)
 	b.w(`<p class="pl-report-eq">y = `, rpNum(rep.Intercept.Estimate, numfmt.Sig(rep.Intercept.Estimate, sig)), ` + `,
 		rpNum(rep.Slope.Estimate, numfmt.Sig(rep.Slope.Estimate, sig)), ` · x</p>`)
-	b.w(`<table class="pl-rt"><thead><tr><th>Figure</th><th>Value</th><th>Standard error</th><th>`, rpEsc(rpLevel(rep.Level)), ` interval</th><th>Tested against</th></tr></thead><tbody>`)
+	// The columns in the order of the screen's "More numbers": the
+	// interval first, then the standard error and the test against the
+	// reference value (app/wording).
+	b.w(`<table class="pl-rt"><thead><tr><th>Figure</th><th>`, wording.Estimate, `</th><th>`, rpEsc(wording.Interval(rep.Level)), `</th><th>`,
+		wording.StandardError, `</th><th>`, wording.TestedAgainst, `</th></tr></thead><tbody>`)
 	coef := func(name string, c fitcore.Coefficient, unit string) {
 		b.w(`<tr><th scope="row">`, rpEsc(name), `</th><td>`, rpNum(c.Estimate, numfmt.Sig(c.Estimate, sig)), ` `, rpEsc(unit), `</td><td>`,
-			rpNum(c.SE, numfmt.Sig(c.SE, 3)), `</td><td>`, rpNum(c.CILow, numfmt.Sig(c.CILow, sig)), ` to `, rpNum(c.CIHigh, numfmt.Sig(c.CIHigh, sig)),
-			`</td><td>`, rpEsc(numfmt.Full(c.Ref)), `: p = `, rpNum(c.PRef, numfmt.Sig(c.PRef, 2)), `</td></tr>`)
+			rpNum(c.CILow, numfmt.Sig(c.CILow, sig)), ` to `, rpNum(c.CIHigh, numfmt.Sig(c.CIHigh, sig)), `</td><td>`,
+			rpNum(c.SE, numfmt.Sig(c.SE, 3)), `</td><td>`, rpEsc(wording.Ref(c.Ref)), `: `, rpP(c.PRef), `</td></tr>`)
 	}
-	coef("Slope", rep.Slope, unitOr(s.YUnit, "y")+" per "+unitOr(s.XUnit, "x"))
+	coef(wording.Slope, rep.Slope, unitOr(s.YUnit, "y")+" per "+unitOr(s.XUnit, "x"))
 	if rep.Model != fitcore.ModelOrigin {
-		coef("Intercept", rep.Intercept, s.YUnit)
+		coef(wording.Intercept, rep.Intercept, s.YUnit)
 	}
 	b.w(`</tbody></table><table class="pl-rt pl-rt-figs"><tbody>`)
 	fig := func(name string, v float64, shown string) {
 		b.w(`<tr><th scope="row">`, rpEsc(name), `</th><td>`, rpNum(v, shown), `</td></tr>`)
 	}
-	fig("Pairs used (n)", float64(rep.N), strconv.Itoa(rep.N))
-	fig("Correlation r", rep.R, numfmt.Decimals(rep.R, 6))
-	fig("R²", rep.RSquared, numfmt.Decimals(rep.RSquared, 6))
-	fig("Adjusted R²", rep.AdjRSquared, numfmt.Decimals(rep.AdjRSquared, 6))
-	fig("Residual standard deviation", rep.ResidualSE, numfmt.Sig(rep.ResidualSE, 4))
-	df := numfmt.Sig(rep.DF, 4)
-	if rep.DF == float64(int(rep.DF)) {
-		df = strconv.Itoa(int(rep.DF))
-	}
-	fig("Degrees of freedom", rep.DF, df)
-	fig("F", rep.F, numfmt.Sig(rep.F, 5))
-	fig("p of F", rep.FP, numfmt.Sig(rep.FP, 2))
+	fig(wording.PairsUsed, float64(rep.N), strconv.Itoa(rep.N))
+	fig(wording.CorrelationR, rep.R, numfmt.Decimals(rep.R, 6))
+	fig(wording.RSquared, rep.RSquared, numfmt.Decimals(rep.RSquared, 6))
+	fig(wording.AdjRSquared, rep.AdjRSquared, numfmt.Decimals(rep.AdjRSquared, 6))
+	fig(wording.ResidualSD, rep.ResidualSE, numfmt.Sig(rep.ResidualSE, 4))
+	fig(wording.DegreesOfFreedom, rep.DF, wording.DF(rep.DF))
+	fig(wording.FLine, rep.F, numfmt.Sig(rep.F, 5))
+	fig(wording.PofF, rep.FP, wording.P(rep.FP))
 	b.w(`</tbody></table></section>`)
 }
 
 func rpChecks(b *rpB, rep *fitcore.Report, rows []int) {
 	a := rep.Assumptions
-	b.w(`<section class="pl-report-sec"><h2>Checks</h2><table class="pl-rt pl-rt-checks"><thead><tr><th>Assumption</th><th>Verdict</th><th>What it means</th></tr></thead><tbody>`)
+	b.w(`<section class="pl-report-sec"><h2>`, wording.ChecksTitle, `</h2><table class="pl-rt pl-rt-checks"><thead><tr><th>Assumption</th><th>Verdict</th><th>What it means</th></tr></thead><tbody>`)
 	row := func(name string, x fitcore.Assumption) {
 		msg := x.Message
 		if x.Advice != "" {
@@ -258,16 +270,16 @@ func rpChecks(b *rpB, rep *fitcore.Report, rows []int) {
 		}
 		b.w(`<tr><th scope="row">`, rpEsc(name), `</th><td>`, rpVerdict(x.Verdict), `</td><td>`, rpEsc(msg), `</td></tr>`)
 	}
-	row("Straight line", a.Linearity)
-	row("Even spread", a.Spread)
-	row("Independence", a.Independence)
-	row("Bell-shaped scatter", a.Normality)
-	row("Influential readings", a.Influence)
+	row(wording.CheckLinearity, a.Linearity)
+	row(wording.CheckSpread, a.Spread)
+	row(wording.CheckIndependence, a.Independence)
+	row(wording.CheckNormality, a.Normality)
+	row(wording.CheckInfluence, a.Influence)
 	if a.XExactness != nil {
-		row("x readings exact", *a.XExactness)
+		row(wording.CheckXExactness, *a.XExactness)
 	}
 	b.w(`</tbody></table>`)
-	b.w(`<table class="pl-rt pl-rt-tests"><thead><tr><th>Test</th><th>Statistic</th><th>p</th><th>Verdict</th></tr></thead><tbody>`)
+	b.w(`<h3>`, wording.Tests, `</h3><table class="pl-rt pl-rt-tests"><thead><tr><th>Test</th><th>Statistic</th><th>p</th><th>Verdict</th></tr></thead><tbody>`)
 	cs := []fitcore.Check{rep.Checks.Curvature}
 	if rep.Checks.LackOfFit != nil {
 		cs = append(cs, *rep.Checks.LackOfFit)
@@ -277,8 +289,8 @@ func rpChecks(b *rpB, rep *fitcore.Report, rows []int) {
 		cs = append(cs, *rep.Checks.XExactness)
 	}
 	for _, c := range cs {
-		b.w(`<tr><th scope="row">`, rpEsc(c.Name), `</th><td>`, rpNum(c.Statistic, numfmt.Sig(c.Statistic, 4)), `</td><td>`,
-			rpNum(c.P, numfmt.Sig(c.P, 2)), `</td><td>`, rpVerdict(c.Verdict), `</td></tr>`)
+		b.w(`<tr><th scope="row">`, rpEsc(c.Name), `</th><td>`, rpEsc(wording.StatSymbol(c.Name)), ` = `, rpNum(c.Statistic, numfmt.Sig(c.Statistic, 4)), `</td><td>`,
+			rpNum(c.P, wording.P(c.P)), `</td><td>`, rpVerdict(c.Verdict), `</td></tr>`)
 	}
 	b.w(`</tbody></table>`)
 	var flagged []fitcore.PointInfluence
@@ -288,7 +300,7 @@ func rpChecks(b *rpB, rep *fitcore.Report, rows []int) {
 		}
 	}
 	if len(flagged) > 0 {
-		b.w(`<h3>Readings that stand out</h3><table class="pl-rt"><thead><tr><th>Reading</th><th>Studentized residual</th><th>Leverage</th><th>Cook's distance</th><th>Why</th></tr></thead><tbody>`)
+		b.w(`<h3>`, wording.StandsOut, `</h3><table class="pl-rt"><thead><tr><th>Reading</th><th>Studentized residual</th><th>Leverage</th><th>Cook's distance</th><th>Why</th></tr></thead><tbody>`)
 		for _, p := range flagged {
 			r := p.Index
 			if p.Index < len(rows) {
@@ -310,41 +322,21 @@ func rpAdvice(b *rpB, rep *fitcore.Report) {
 		return
 	}
 	ad := rep.Advice
-	b.w(`<p data-testid="report-advice" data-transform="`, rpEsc(string(ad.Remedy)), `"><strong>`, rpEsc(rpRemedy(ad.Remedy)), `.</strong> `, rpEsc(ad.Reason), `</p>`)
+	b.w(`<p data-testid="report-advice" data-transform="`, rpEsc(string(ad.Remedy)), `"><strong>`, rpEsc(wording.Remedy(ad.Remedy)), `.</strong> `, rpEsc(ad.Reason), `</p>`)
 	if ad.After != nil {
 		b.w(`<table class="pl-rt"><thead><tr><th>Assumption</th><th>Now</th><th>With the remedy</th></tr></thead><tbody>`)
 		pair := func(name string, x, y fitcore.Assumption) {
 			b.w(`<tr><th scope="row">`, rpEsc(name), `</th><td>`, rpVerdict(x.Verdict), `</td><td>`, rpVerdict(y.Verdict), `</td></tr>`)
 		}
 		bf, af := ad.Before.Assumptions, ad.After.Assumptions
-		pair("Straight line", bf.Linearity, af.Linearity)
-		pair("Even spread", bf.Spread, af.Spread)
-		pair("Independence", bf.Independence, af.Independence)
-		pair("Bell-shaped scatter", bf.Normality, af.Normality)
-		pair("Influential readings", bf.Influence, af.Influence)
+		pair(wording.CheckLinearity, bf.Linearity, af.Linearity)
+		pair(wording.CheckSpread, bf.Spread, af.Spread)
+		pair(wording.CheckIndependence, bf.Independence, af.Independence)
+		pair(wording.CheckNormality, bf.Normality, af.Normality)
+		pair(wording.CheckInfluence, bf.Influence, af.Influence)
 		b.w(`</tbody></table>`)
 	}
 	b.w(`</section>`)
-}
-
-func rpRemedy(r fitcore.Remedy) string {
-	switch r {
-	case fitcore.RemedyNone:
-		return "No change recommended"
-	case fitcore.RemedyLogY:
-		return "Fit ln y against x"
-	case fitcore.RemedyLogLog:
-		return "Fit on log scales: ln y against ln x"
-	case fitcore.RemedySqrtY:
-		return "Fit √y against x"
-	case fitcore.RemedyReciprocal:
-		return "Fit 1/y against x"
-	case fitcore.RemedyBoxCox:
-		return "Fit on a Box–Cox scale of y"
-	case fitcore.RemedyWeighted:
-		return "Weight the readings by their spread"
-	}
-	return string(r)
 }
 
 func rpAcceptance(b *rpB, rep *fitcore.Report) {
@@ -354,9 +346,9 @@ func rpAcceptance(b *rpB, rep *fitcore.Report) {
 		b.w(`<p data-testid="report-verdict" data-verdict="none">No acceptance criteria were set for this session.</p></section>`)
 		return
 	}
-	v, stamp := "fail", "✖ NOT ACCEPTED"
+	v, stamp := "fail", wording.NotAccepted
 	if acc.Pass {
-		v, stamp = "pass", "✔ ACCEPTED"
+		v, stamp = "pass", wording.Accepted
 	}
 	b.w(`<p class="pl-report-stamp pl-report-stamp-`, v, `" data-testid="report-verdict" data-verdict="`, v, `">`, stamp, `</p>`)
 	if acc.Summary != "" {
@@ -364,9 +356,9 @@ func rpAcceptance(b *rpB, rep *fitcore.Report) {
 	}
 	b.w(`<table class="pl-rt"><thead><tr><th>Criterion</th><th>Value</th><th>Limit</th><th>Outcome</th></tr></thead><tbody>`)
 	for _, r := range acc.Results {
-		out := "✔ met"
+		out := wording.Met
 		if !r.Pass {
-			out = "✖ not met"
+			out = wording.NotMet
 		}
 		b.w(`<tr><th scope="row">`, rpEsc(r.Name), `</th><td>`, rpNum(r.Value, numfmt.Sig(r.Value, 6)), `</td><td>`, rpEsc(r.Limit), `</td><td>`, out, `. `, rpEsc(r.Reason), `</td></tr>`)
 	}
@@ -379,7 +371,7 @@ func rpUse(b *rpB, s *session.Session, rep *fitcore.Report) {
 	}
 	b.w(`<section class="pl-report-sec"><h2>Using the line</h2>`)
 	if rep.Limits != nil {
-		b.w(`<p>Detection limit `, rpNum(rep.Limits.LOD, numfmt.Sig(rep.Limits.LOD, 3)), ` `, rpEsc(s.XUnit), `; quantitation limit `,
+		b.w(`<p>`, wording.DetectionLimit, ` `, rpNum(rep.Limits.LOD, numfmt.Sig(rep.Limits.LOD, 3)), ` `, rpEsc(s.XUnit), `; `, strings.ToLower(wording.QuantitationLimit), ` `,
 			rpNum(rep.Limits.LOQ, numfmt.Sig(rep.Limits.LOQ, 3)), ` `, rpEsc(s.XUnit), ` (3.3 and 10 residual standard deviations over the slope).</p>`)
 	}
 	for _, iv := range rep.Inverse {

@@ -6,6 +6,7 @@ import (
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
 	"pairline/app/numfmt"
+	"pairline/app/wording"
 )
 
 // renderLine draws the fitted line's headline numbers, or the sentence that
@@ -32,12 +33,12 @@ func (c *Shell) renderLine() app.UI {
 		app.P().Class("pl-stale").DataSet("testid", "result-stale").Hidden(!c.view.stale).Text(staleNote(c.view.stale)),
 		app.P().Class("pl-equation").Text(c.anEquation(rep, sig)),
 		app.Dl().Class("pl-figures").Body(
-			figure("result-n", "Pairs used (n)", float64(rep.N), itoa(rep.N), ""),
-			figure("result-slope", "Slope", rep.Slope.Estimate, numfmt.Sig(rep.Slope.Estimate, sig), slopeUnit+"  ± "+numfmt.Sig(rep.Slope.SE, 2)+" (SE)"),
-			figure("result-intercept", "Intercept", rep.Intercept.Estimate, numfmt.Sig(rep.Intercept.Estimate, sig), joinUnit(yu, " ± "+numfmt.Sig(rep.Intercept.SE, 2)+" (SE)")),
-			figure("result-r", "Correlation r", rep.R, numfmt.Decimals(rep.R, 6), ""),
-			figure("result-r-squared", "R²", rep.RSquared, numfmt.Decimals(rep.RSquared, 6), ""),
-			figure("result-residual-se", "Residual SD", rep.ResidualSE, numfmt.Sig(rep.ResidualSE, 3), yu),
+			figure("result-n", wording.PairsUsed, float64(rep.N), itoa(rep.N), ""),
+			figure("result-slope", wording.Slope, rep.Slope.Estimate, numfmt.Sig(rep.Slope.Estimate, sig), slopeUnit+"  ± "+numfmt.Sig(rep.Slope.SE, 2)+" (SE)"),
+			figure("result-intercept", wording.Intercept, rep.Intercept.Estimate, numfmt.Sig(rep.Intercept.Estimate, sig), joinUnit(yu, " ± "+numfmt.Sig(rep.Intercept.SE, 2)+" (SE)")),
+			figure("result-r", wording.CorrelationR, rep.R, numfmt.Decimals(rep.R, 6), ""),
+			figure("result-r-squared", wording.RSquared, rep.RSquared, numfmt.Decimals(rep.RSquared, 6), ""),
+			figure("result-residual-se", wording.ResidualSD, rep.ResidualSE, numfmt.Sig(rep.ResidualSE, 3), yu),
 		),
 		c.renderMoreNumbers(),
 	)

@@ -10,6 +10,7 @@ import (
 
 	"pairline/app/numfmt"
 	"pairline/app/session"
+	"pairline/app/wording"
 	"pairline/fitcore"
 )
 
@@ -450,9 +451,7 @@ func anParen(unit string) string {
 }
 
 // anPercent writes a level as "95 %".
-func anPercent(level float64) string {
-	return strconv.FormatFloat(anPct(level), 'f', -1, 64) + " %"
-}
+func anPercent(level float64) string { return wording.Percent(level) }
 
 // anPct is a level in percent, rounded to hide binary noise (0.9 → 90).
 func anPct(level float64) float64 { return math.Round(level*1e6) / 1e4 }
@@ -539,26 +538,26 @@ func (c *Shell) anNumbers() app.UI {
 	lvl := anPercent(rep.Level)
 	origin := rep.Model == fitcore.ModelOrigin
 	rows := []app.UI{
-		anCoefTable("slope", "Slope", rep.Slope, sc.slope, lvl, sig),
+		anCoefTable("slope", wording.Slope, rep.Slope, sc.slope, lvl, sig),
 	}
 	if !origin {
-		rows = append(rows, anCoefTable("intercept", "Intercept", rep.Intercept, sc.y, lvl, sig))
+		rows = append(rows, anCoefTable("intercept", wording.Intercept, rep.Intercept, sc.y, lvl, sig))
 	}
 	fit := []app.UI{
-		anRow("result-residual-se-full", "Residual standard deviation", rep.ResidualSE, numfmt.Sig(rep.ResidualSE, sig), sc.y),
-		anRow("result-df", "Degrees of freedom", rep.DF, anDF(rep.DF), ""),
-		anRow("result-r-full", "Correlation r", rep.R, numfmt.Decimals(rep.R, 6), ""),
-		anRow("result-r-squared-full", "R²", rep.RSquared, numfmt.Decimals(rep.RSquared, 6), ""),
-		anRow("result-adj-r-squared", "Adjusted R²", rep.AdjRSquared, numfmt.Decimals(rep.AdjRSquared, 6), ""),
-		anRow("result-f", "F (line explains y)", rep.F, numfmt.Sig(rep.F, 4), ""),
-		anRow("result-f-p", "p of F", rep.FP, anP(rep.FP), ""),
+		anRow("result-residual-se-full", wording.ResidualSD, rep.ResidualSE, numfmt.Sig(rep.ResidualSE, sig), sc.y),
+		anRow("result-df", wording.DegreesOfFreedom, rep.DF, anDF(rep.DF), ""),
+		anRow("result-r-full", wording.CorrelationR, rep.R, numfmt.Decimals(rep.R, 6), ""),
+		anRow("result-r-squared-full", wording.RSquared, rep.RSquared, numfmt.Decimals(rep.RSquared, 6), ""),
+		anRow("result-adj-r-squared", wording.AdjRSquared, rep.AdjRSquared, numfmt.Decimals(rep.AdjRSquared, 6), ""),
+		anRow("result-f", wording.FLine, rep.F, numfmt.Sig(rep.F, 4), ""),
+		anRow("result-f-p", wording.PofF, rep.FP, anP(rep.FP), ""),
 	}
 	if !origin {
-		fit = append(fit, anRow("result-cov", "Covariance of intercept and slope", rep.CovSlopeIntercept, numfmt.Sig(rep.CovSlopeIntercept, 4), sc.cov))
+		fit = append(fit, anRow("result-cov", wording.Covariance, rep.CovSlopeIntercept, numfmt.Sig(rep.CovSlopeIntercept, 4), sc.cov))
 	}
 	fit = append(fit,
-		anRow("result-mean-x", "Mean of x", rep.MeanX, numfmt.Sig(rep.MeanX, sig), ""),
-		anRow("result-mean-y", "Mean of y", rep.MeanY, numfmt.Sig(rep.MeanY, sig), ""),
+		anRow("result-mean-x", wording.MeanX, rep.MeanX, numfmt.Sig(rep.MeanX, sig), ""),
+		anRow("result-mean-y", wording.MeanY, rep.MeanY, numfmt.Sig(rep.MeanY, sig), ""),
 	)
 	return app.Div().Class("an-numbers").DataSet("testid", "more-numbers-body").Body(
 		app.If(sc.transformed, func() app.UI {
@@ -566,35 +565,47 @@ func (c *Shell) anNumbers() app.UI {
 		}),
 		app.Div().Class("an-coefs").Body(rows...),
 		app.Table().Class("an-table an-kv").Body(
-			app.Caption().Text("The fit as a whole"),
+			app.Caption().Text(wording.FitAsAWhole),
 			app.TBody().Body(fit...),
 		),
 		c.anAnova(rep, sig, sc),
 	)
 }
 
+// anCoefTable is one coefficient: the estimate, its interval (where a
+// technician looks first), the standard error, the test against the
+// reference value and, only when that reference is not 0, the test against
+// 0 (otherwise the two are the same test; rows are never repeated). The
+// labels are app/wording's, as in the report and the command.
 func anCoefTable(id, name string, k fitcore.Coefficient, unit, lvl string, sig int) app.UI {
 	p := "result-" + id + "-"
+	ref := wording.Ref(k.Ref)
+	rows := []app.UI{
+		anRow(p+"estimate", wording.Estimate, k.Estimate, numfmt.Sig(k.Estimate, sig), unit),
+		app.Tr().Body(
+			app.Th().Attr("scope", "row").Text(lvl+" interval"),
+			app.Td().Body(
+				anNum(p+"ci-low", k.CILow, numfmt.Sig(k.CILow, sig)),
+				app.Span().Text(" to "),
+				anNum(p+"ci-high", k.CIHigh, numfmt.Sig(k.CIHigh, sig)),
+				app.If(unit != "", func() app.UI { return app.Span().Class("pl-unit").Text(" " + unit) }),
+			),
+		),
+		anRow(p+"se", wording.StandardError, k.SE, numfmt.Sig(k.SE, 3), unit),
+		anRow(p+"ref", wording.TestedAgainst, k.Ref, ref, unit),
+		anRow(p+"t-ref", wording.TAgainst(ref), k.TRef, numfmt.Sig(k.TRef, 4), ""),
+		anRow(p+"p-ref", wording.PAgainst(ref), k.PRef, anP(k.PRef), ""),
+	}
+	if wording.ShowPlainTest(k.Ref) {
+		zero := wording.Ref(0)
+		rows = append(rows,
+			anRow(p+"t", wording.TAgainst(zero), k.T, numfmt.Sig(k.T, 4), ""),
+			anRow(p+"p", wording.PAgainst(zero), k.P, anP(k.P), ""),
+		)
+	}
 	return app.Table().Class("an-table an-kv").DataSet("testid", "coef-"+id).Body(
 		app.Caption().Text(name),
-		app.TBody().Body(
-			anRow(p+"estimate", "Estimate", k.Estimate, numfmt.Sig(k.Estimate, sig), unit),
-			anRow(p+"se", "Standard error", k.SE, numfmt.Sig(k.SE, 3), unit),
-			anRow(p+"t", "t (against 0)", k.T, numfmt.Sig(k.T, 4), ""),
-			anRow(p+"p", "p (against 0)", k.P, anP(k.P), ""),
-			app.Tr().Body(
-				app.Th().Attr("scope", "row").Text(lvl+" interval"),
-				app.Td().Body(
-					anNum(p+"ci-low", k.CILow, numfmt.Sig(k.CILow, sig)),
-					app.Span().Text(" to "),
-					anNum(p+"ci-high", k.CIHigh, numfmt.Sig(k.CIHigh, sig)),
-					app.If(unit != "", func() app.UI { return app.Span().Class("pl-unit").Text(" " + unit) }),
-				),
-			),
-			anRow(p+"ref", "Tested against", k.Ref, anFullText(k.Ref), unit),
-			anRow(p+"t-ref", "t (against "+anFullText(k.Ref)+")", k.TRef, numfmt.Sig(k.TRef, 4), ""),
-			anRow(p+"p-ref", "p (against "+anFullText(k.Ref)+")", k.PRef, anP(k.PRef), ""),
-		),
+		app.TBody().Body(rows...),
 	)
 }
 
@@ -666,26 +677,12 @@ func anNum(testid string, v float64, shown string) app.UI {
 }
 
 // anFullText writes a value the technician typed (a reference, a query x)
-// as given, with a real minus sign.
-func anFullText(v float64) string {
-	if v < 0 {
-		return "−" + numfmt.Full(-v)
-	}
-	return numfmt.Full(v)
-}
+// as given, with a real minus sign (wording.Ref).
+func anFullText(v float64) string { return wording.Ref(v) }
 
-// anP writes a p-value: two significant digits, "< 0.0001" below that.
-func anP(p float64) string {
-	if p < 0.0001 {
-		return "< 0.0001"
-	}
-	return numfmt.Sig(p, 2)
-}
+// anP writes a p-value: two significant digits, "< 0.0001" below that
+// (wording.P, as the report and the command).
+func anP(p float64) string { return wording.P(p) }
 
-// anDF writes degrees of freedom: whole numbers as such.
-func anDF(df float64) string {
-	if df == float64(int64(df)) {
-		return strconv.FormatInt(int64(df), 10)
-	}
-	return numfmt.Sig(df, 4)
-}
+// anDF writes degrees of freedom: whole numbers as such (wording.DF).
+func anDF(df float64) string { return wording.DF(df) }

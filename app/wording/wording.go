@@ -24,7 +24,6 @@ const (
 	StandardError    = "Standard error"
 	TestedAgainst    = "Tested against"
 	ResidualSD       = "Residual SD"
-	ResidualSDLong   = "Residual standard deviation"
 	DegreesOfFreedom = "Degrees of freedom"
 	CorrelationR     = "Correlation r"
 	RSquared         = "R²"
@@ -75,7 +74,7 @@ func Range(low, high string) string { return low + " to " + high }
 // Ref writes a value the technician typed (a reference value, a query x)
 // in full, with a real minus sign.
 func Ref(v float64) string {
-	if v < 0 || (v == 0 && math.Signbit(v)) {
+	if v < 0 {
 		return "−" + numfmt.Full(-v)
 	}
 	return numfmt.Full(v)

@@ -1,0 +1,63 @@
+package wording
+
+import (
+	"testing"
+
+	"pairline/fitcore"
+)
+
+func TestNumbersInWords(t *testing.T) {
+	cases := []struct {
+		what, got, want string
+	}{
+		{"P small", P(3e-9), "< 0.0001"},
+		{"P at the limit", P(0.0001), "0.00010"},
+		{"P ordinary", P(0.04567), "0.046"},
+		{"P one", P(1), "1.0"},
+		{"PEq small", PEq(1e-20), "p < 0.0001"},
+		{"PEq ordinary", PEq(0.25), "p = 0.25"},
+		{"Percent 95", Percent(0.95), "95 %"},
+		{"Percent binary noise", Percent(0.9), "90 %"},
+		{"Percent 99.9", Percent(0.999), "99.9 %"},
+		{"Percent 99.99", Percent(0.9999), "99.99 %"},
+		{"Interval", Interval(0.99), "99 % interval"},
+		{"Range", Range("1", "2"), "1 to 2"},
+		{"DF whole", DF(48), "48"},
+		{"DF fraction", DF(12.3456), "12.35"},
+		{"Ref negative", Ref(-2.5), "−2.5"},
+		{"Ref one", Ref(1), "1"},
+		{"TAgainst", TAgainst(Ref(0.98)), "t (against 0.98)"},
+		{"PAgainst", PAgainst(Ref(0)), "p (against 0)"},
+		{"Fit plain", Fit(fitcore.ModelOLS, fitcore.TransformNone), "ordinary least squares"},
+		{"Fit log", Fit(fitcore.ModelWeighted, fitcore.TransformLogY), "weighted least squares, fitted on the ln y scale"},
+	}
+	for _, c := range cases {
+		if c.got != c.want {
+			t.Errorf("%s: %q, want %q", c.what, c.got, c.want)
+		}
+	}
+}
+
+// TestShowPlainTest: the test against 0 is shown only when the reference
+// value differs from 0; with a reference of 0 it is the same test.
+func TestShowPlainTest(t *testing.T) {
+	for _, c := range []struct {
+		ref  float64
+		want bool
+	}{{0, false}, {1, true}, {-0.5, true}, {1e-300, true}} {
+		if got := ShowPlainTest(c.ref); got != c.want {
+			t.Errorf("ShowPlainTest(%g) = %v, want %v", c.ref, got, c.want)
+		}
+	}
+}
+
+func TestVerdictWords(t *testing.T) {
+	seen := map[string]bool{}
+	for _, v := range []fitcore.Verdict{fitcore.Pass, fitcore.Warn, fitcore.Fail, fitcore.NA} {
+		icon, word := Verdict(v)
+		if icon == "" || word == "" || seen[word] {
+			t.Errorf("verdict %s: %q %q (words must differ)", v, icon, word)
+		}
+		seen[word] = true
+	}
+}
