@@ -5,6 +5,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"pairline/app/wording"
 )
 
 // Marker is the shape a point is drawn with. Shapes differ, not only
@@ -549,13 +551,15 @@ func Nearest(marks []Mark, x, y, radius float64) (Mark, bool) {
 
 // esc escapes text for XML and drops what XML 1.0 cannot hold (control
 // characters, invalid UTF-8), so that any title a technician types gives
-// well-formed markup.
+// well-formed markup. It drops as well what would act instead of showing
+// (DEL, C1 controls, bidirectional controls: wording.Hidden), so that an
+// axis title cannot reorder itself.
 func esc(s string) string {
 	clean := strings.Map(func(r rune) rune {
 		switch {
 		case r == '\t' || r == '\n' || r == '\r':
 			return ' '
-		case r < 0x20, r >= 0xD800 && r <= 0xDFFF, r == 0xFFFE, r == 0xFFFF:
+		case r < 0x20, r >= 0xD800 && r <= 0xDFFF, r == 0xFFFE, r == 0xFFFF, wording.Hidden(r):
 			return -1
 		}
 		return r
