@@ -46,4 +46,3 @@ func TestReportEscapesSessionText(t *testing.T) {
 		t.Errorf("file name %q holds a control or bidirectional character", name)
 	}
 }
-
