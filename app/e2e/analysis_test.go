@@ -174,7 +174,7 @@ func TestAnalysisScreens(t *testing.T) {
 		"result-slope-t-ref": rep.Slope.TRef, "result-slope-p-ref": rep.Slope.PRef, "result-slope-ref": rep.Slope.Ref,
 		// The intercept's reference is 0, so its test against 0 is shown
 		// once, as result-intercept-t-ref/-p-ref (app/e2e/wording_test.go).
-		"result-intercept-se": rep.Intercept.SE,
+		"result-intercept-se":     rep.Intercept.SE,
 		"result-intercept-ci-low": rep.Intercept.CILow, "result-intercept-ci-high": rep.Intercept.CIHigh,
 		"result-intercept-t-ref": rep.Intercept.TRef, "result-intercept-p-ref": rep.Intercept.PRef,
 		"result-residual-se-full": rep.ResidualSE, "result-df": rep.DF, "result-r-full": rep.R,
