@@ -1,7 +1,6 @@
 package wording
 
 import (
-	"strconv"
 	"strings"
 	"unicode/utf8"
 )
@@ -45,19 +44,31 @@ func Visible(s string) string {
 }
 
 // firstHidden is the byte offset of the first character Visible replaces,
-// or −1.
+// or −1. Valid UTF-8 (the usual case) is scanned byte by byte: every
+// character Visible replaces is ASCII or starts with 0xC2 (C1 controls),
+// 0xD8 (U+061C) or 0xE2 (U+200E … U+2069).
 func firstHidden(s string) int {
-	for i := 0; i < len(s); {
-		c := s[i]
-		if c < utf8.RuneSelf {
-			if c < 0x20 || c == 0x7f {
+	if !utf8.ValidString(s) {
+		return firstHiddenSlow(s)
+	}
+	for i := 0; i < len(s); i++ {
+		switch c := s[i]; {
+		case c < 0x20 || c == 0x7f:
+			return i
+		case c == 0xc2 || c == 0xd8 || c == 0xe2:
+			if r, _ := utf8.DecodeRuneInString(s[i:]); acts(r) {
 				return i
 			}
-			i++
-			continue
 		}
+	}
+	return -1
+}
+
+// firstHiddenSlow is firstHidden for text with bytes that are not UTF-8.
+func firstHiddenSlow(s string) int {
+	for i := 0; i < len(s); {
 		r, n := utf8.DecodeRuneInString(s[i:])
-		if (r == utf8.RuneError && n == 1) || acts(r) {
+		if (r == utf8.RuneError && n == 1) || r < 0x20 || r == 0x7f || acts(r) {
 			return i
 		}
 		i += n
@@ -87,12 +98,11 @@ func acts(r rune) bool {
 }
 
 func writeHex(b *strings.Builder, prefix string, v uint32, width int) {
+	const hex = "0123456789abcdef"
 	b.WriteString(prefix)
-	h := strconv.FormatUint(uint64(v), 16)
-	for k := len(h); k < width; k++ {
-		b.WriteByte('0')
+	for k := width - 1; k >= 0; k-- {
+		b.WriteByte(hex[(v>>(4*k))&0xf])
 	}
-	b.WriteString(h)
 }
 
 // VisibleLines is Visible for text of several lines: each line is made

@@ -72,3 +72,23 @@ func FuzzVisible(f *testing.F) {
 		}
 	})
 }
+
+// BenchmarkVisible: a megabyte of session notes with an escape every few
+// hundred bytes (linear in the text; the common case, nothing to escape,
+// does not copy).
+func BenchmarkVisible(b *testing.B) {
+	plain := strings.Repeat("Standards at 25 °C, probe rinsed between readings. ", 20000)
+	hostile := strings.Repeat("Standards at 25 °C\x1b[2J, probe\u202e rinsed. ", 25000)
+	b.Run("plain", func(b *testing.B) {
+		b.SetBytes(int64(len(plain)))
+		for b.Loop() {
+			Visible(plain)
+		}
+	})
+	b.Run("escapes", func(b *testing.B) {
+		b.SetBytes(int64(len(hostile)))
+		for b.Loop() {
+			Visible(hostile)
+		}
+	})
+}
