@@ -238,15 +238,16 @@ func inspectText(in *inspection) string {
 		}
 		field("notes", longText(s.Notes))
 		c := a.Counts
-		w("  %-11s %d rows: %d usable, %d excluded, %d blank, %d cell(s) not numbers\n",
+		// The words of the report's "Readings" section.
+		w("  %-11s %d rows: %d used, %d left out, %d blank, %d cell(s) not usable\n",
 			"readings", c.Rows, c.Usable, c.Excluded, c.Blank, c.Problems)
 		for r, rd := range s.Readings {
 			if rd.Excluded {
-				w("  %-11s row %d (x %s, y %s): %s\n", "excluded", r+1, quoted(rd.X), quoted(rd.Y), longText(rd.ExcludeReason))
+				w("  %-11s row %d (x %s, y %s): %s\n", "left out", r+1, quoted(rd.X), quoted(rd.Y), longText(rd.ExcludeReason))
 			}
 		}
 		for _, p := range a.Problems {
-			w("  %-11s row %d, %s: %s %s\n", "problem", p.Row+1, p.Column, quoted(p.Text), longText(p.Reason))
+			w("  %-11s row %d, %s: %s %s\n", "not usable", p.Row+1, p.Column, quoted(p.Text), longText(p.Reason))
 		}
 		if len(s.History) > 0 {
 			w("  %-11s %d change(s), the last at %s\n", "history", len(s.History), when(s.History[len(s.History)-1].At))

@@ -67,6 +67,9 @@ func FuzzVisible(f *testing.F) {
 		if !utf8.ValidString(got) || firstHidden(got) >= 0 || strings.ContainsAny(got, "\n\r") {
 			t.Fatalf("Visible(%q) = %q", s, got)
 		}
+		if firstHidden(s) != firstHiddenSlow(s) {
+			t.Fatalf("the fast scan finds %d, the rune scan %d in %q", firstHidden(s), firstHiddenSlow(s), s)
+		}
 		if firstHidden(s) < 0 && got != s {
 			t.Fatalf("Visible changed %q to %q", s, got)
 		}
