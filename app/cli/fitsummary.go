@@ -78,7 +78,7 @@ func coefBlock(b *strings.Builder, name string, c fitcore.Coefficient, level flo
 // verdict is a verdict's icon and word, padded for a column.
 func verdict(v fitcore.Verdict) string {
 	icon, word := wording.Verdict(v)
-	return fmt.Sprintf("%-13s", icon+" "+word)
+	return fmt.Sprintf("%-14s", icon+" "+word)
 }
 
 func summaryRest(fr *fitResult, level float64) string {
