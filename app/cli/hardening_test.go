@@ -579,3 +579,36 @@ func FuzzFitFlags(f *testing.F) {
 		}
 	})
 }
+
+// TestExportCSVTerminal: on a terminal (a character device) export-csv
+// shows control characters of the cells as escapes; into a file or a pipe
+// it writes them as typed.
+func TestExportCSVTerminal(t *testing.T) {
+	s := testSession(t, "Invented export")
+	s.Readings[0].Y = "1.1\x1b[2J"
+	path := writeSessionFile(t, t.TempDir(), "e.pairline", []*session.Session{s})
+	var buf, errs bytes.Buffer
+	if code := ExportCSV([]string{path}, &buf, &errs); code != ExitOK || !strings.Contains(buf.String(), "1.1\x1b[2J") {
+		t.Errorf("to a buffer: exit %d, %q (the CSV must keep the text as typed)", code, buf.String())
+	}
+	buf.Reset()
+	if err := writeReadings(&buf, s, true); err != nil || !strings.Contains(buf.String(), `1.1\x1b[2J`) || strings.Contains(buf.String(), "\x1b") {
+		t.Errorf("on a terminal: %v, %q (want the escape shown)", err, buf.String())
+	}
+	if !isTerminal(mustOpen(t, os.DevNull)) {
+		t.Skipf("SKIP: %s is not a character device here", os.DevNull)
+	}
+	if isTerminal(&buf) {
+		t.Error("a buffer taken for a terminal")
+	}
+}
+
+func mustOpen(t *testing.T, name string) *os.File {
+	t.Helper()
+	f, err := os.OpenFile(name, os.O_WRONLY, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { f.Close() })
+	return f
+}

@@ -1,6 +1,7 @@
 package cli
 
 import (
+	"bytes"
 	"encoding/json"
 	"errors"
 	"flag"
@@ -304,9 +305,35 @@ func ExportCSV(args []string, stdout, stderr io.Writer) int {
 			return ExitUsage
 		}
 	}
-	if err := session.WriteReadingsCSV(stdout, s); err != nil {
+	if err := writeReadings(stdout, s, isTerminal(stdout)); err != nil {
 		fail(stderr, "export-csv", "%v", err)
 		return ExitFailure
 	}
 	return ExitOK
+}
+
+// writeReadings writes the readings CSV. On a terminal (visible) the cells
+// are shown, not obeyed: control characters in them become visible
+// escapes. Redirected to a file the CSV keeps the text as typed.
+func writeReadings(w io.Writer, s *session.Session, visible bool) error {
+	if !visible {
+		return session.WriteReadingsCSV(w, s)
+	}
+	var buf bytes.Buffer
+	if err := session.WriteReadingsCSV(&buf, s); err != nil {
+		return err
+	}
+	_, err := io.WriteString(w, termLines(buf.String()))
+	return err
+}
+
+// isTerminal reports whether w is a terminal (a character device such as
+// a tty), where text from a file must be made visible.
+func isTerminal(w io.Writer) bool {
+	f, ok := w.(*os.File)
+	if !ok {
+		return false
+	}
+	st, err := f.Stat()
+	return err == nil && st.Mode()&os.ModeCharDevice != 0
 }
