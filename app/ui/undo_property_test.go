@@ -108,6 +108,20 @@ func propOps(m *propModel) []propOp {
 			c.pasteBlock(ctx, row, b.String())
 			return fmt.Sprintf("pasted %d lines at reading %d", k, row+1)
 		}},
+		{"paste a long block", 1, func(t *testing.T, r *rand.Rand, c *Shell) string {
+			// Past saveAtOnce readings an edit is saved in a later turn
+			// (natively at once): that path too.
+			if len(c.sess.Readings) > 2*saveAtOnce {
+				return "no long paste (the session is long already)"
+			}
+			row := len(c.sess.Readings)
+			var b strings.Builder
+			for i := range saveAtOnce + 20 {
+				fmt.Fprintf(&b, "%d\t%d.%d\n", i, 2*i+r.IntN(5), r.IntN(10))
+			}
+			c.pasteBlock(ctx, row, b.String())
+			return fmt.Sprintf("pasted %d lines at reading %d", saveAtOnce+20, row+1)
+		}},
 		{"import rows into the open session", 3, func(t *testing.T, r *rand.Rand, c *Shell) string {
 			k := 1 + r.IntN(6)
 			var b strings.Builder
@@ -351,6 +365,10 @@ func TestUndoProperty(t *testing.T) {
 	for _, o := range ops {
 		total += o.weight
 	}
+	byName := map[string]propOp{}
+	for _, o := range ops {
+		byName[o.name] = o
+	}
 	pick := func(r *rand.Rand) propOp {
 		n := r.IntN(total)
 		for _, o := range ops {
@@ -362,6 +380,8 @@ func TestUndoProperty(t *testing.T) {
 		return ops[len(ops)-1]
 	}
 	const runs, steps = 24, 100
+	done := map[string]int{}
+	undone, redone, rowsEntries, most := 0, 0, 0, 0
 	for run := range runs {
 		r := rand.New(rand.NewPCG(20260701, uint64(run)))
 		s, err := newSession(time.Now())
@@ -372,6 +392,9 @@ func TestUndoProperty(t *testing.T) {
 		var trail []string
 		for step := range steps {
 			o := pick(r)
+			if len(c.unRedo) > 0 && r.IntN(3) == 0 {
+				o = byName["redo"] // runs of undo and redo, not only undo
+			}
 			if o.name != "undo" && o.name != "redo" {
 				m.undone = nil // a new change ends what redo can bring back
 			}
@@ -381,6 +404,24 @@ func TestUndoProperty(t *testing.T) {
 				m.undone = nil
 			}
 			propCheck(t, c, step, trail)
+			done[o.name]++
+			if strings.HasPrefix(c.unMsg, "Undone: ") && o.name == "undo" {
+				undone++
+			}
+			if strings.HasPrefix(c.unMsg, "Redone: ") && o.name == "redo" {
+				redone++
+			}
+			most = max(most, len(c.sess.Readings))
 		}
+		for _, e := range c.sess.History {
+			if e.Field == session.FieldRows {
+				rowsEntries++
+			}
+		}
+	}
+	t.Logf("%d runs of %d steps: %v; %d undos and %d redos took a step; %d entries recorded a change in the count of readings; up to %d readings",
+		runs, steps, done, undone, redone, rowsEntries, most)
+	if undone == 0 || redone == 0 || rowsEntries == 0 {
+		t.Error("the sequences never undid, redid or took rows away: the test checks nothing")
 	}
 }
