@@ -22,6 +22,7 @@ import (
 	"io"
 	"strconv"
 	"time"
+	"unicode/utf8"
 
 	"pairline/fitcore"
 )
@@ -104,6 +105,73 @@ type Edit struct {
 	Row   int       `json:"row"`
 	Old   string    `json:"old"`
 	New   string    `json:"new"`
+}
+
+// History fields written by Restore.
+const (
+	// FieldUndo and FieldRedo name the entry of an undo or a redo; its New
+	// says in words what was undone or redone ("x of reading 3 typed as
+	// 12.5"), its Row is −1.
+	FieldUndo = "undo"
+	FieldRedo = "redo"
+	// FieldRows records a change in the number of readings that no other
+	// entry explains: undoing an added reading or a paste takes rows away
+	// (and redoing it brings them back). Old and New are the counts before
+	// and after, as decimal digits; Row is −1. Entries before it name rows
+	// of the count in its Old, entries after it rows of the count in its
+	// New (see Validate).
+	FieldRows = "rows"
+)
+
+// Restore makes s hold state: its readings, metadata, decimal-comma choice,
+// location and settings (state is an earlier or a later copy of the same
+// session, as undo and redo keep them; its ID, Created and History are not
+// used). s keeps its ID, Created and every history entry: the history is
+// evidence and is only appended to. It gets one entry, field (FieldUndo or
+// FieldRedo), whose New is what (the change undone or redone, in words),
+// and, when the number of readings changes, a FieldRows entry with the
+// counts before and after, so that every entry of the history names a row
+// that existed when it was made.
+func (s *Session) Restore(state *Session, field, what string, now time.Time) error {
+	if field != FieldUndo && field != FieldRedo {
+		return fmt.Errorf("%w: %q is not %q or %q", ErrNoSuchField, field, FieldUndo, FieldRedo)
+	}
+	if state == nil {
+		return fmt.Errorf("%w: there is no state to go back to", ErrBadValue)
+	}
+	if len(state.Readings) > MaxReadings {
+		return fmt.Errorf("%w: the state holds %d readings, at most %d are allowed", ErrBadValue, len(state.Readings), MaxReadings)
+	}
+	if f, err := state.Settings.validate(); err != nil {
+		return fmt.Errorf("%w: settings %s %v", ErrBadValue, f, err)
+	}
+	if len(what) > MaxLongText {
+		n := MaxLongText
+		for n > 0 && !utf8.RuneStart(what[n]) {
+			n--
+		}
+		what = what[:n]
+	}
+	before := len(s.Readings)
+	s.Title, s.Site, s.Instrument, s.Operator = state.Title, state.Site, state.Instrument, state.Operator
+	s.XName, s.XUnit, s.YName, s.YUnit, s.Notes = state.XName, state.XUnit, state.YName, state.YUnit, state.Notes
+	s.DecimalComma = nil
+	if state.DecimalComma != nil {
+		d := *state.DecimalComma
+		s.DecimalComma = &d
+	}
+	s.Location = nil
+	if state.Location != nil {
+		l := *state.Location
+		s.Location = &l
+	}
+	s.Readings = append(s.Readings[:0:0], state.Readings...)
+	s.Settings = state.Settings.clone()
+	s.record(now, field, -1, "", what)
+	if after := len(s.Readings); after != before {
+		s.record(now, FieldRows, -1, strconv.Itoa(before), strconv.Itoa(after))
+	}
+	return nil
 }
 
 // Column names a cell of a reading.

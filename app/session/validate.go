@@ -3,6 +3,7 @@ package session
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"time"
 	"unicode/utf8"
 
@@ -150,12 +151,49 @@ func (s *Session) validate() (string, error) {
 	if len(s.History) > MaxHistory {
 		return "history", fmt.Errorf("%w: %d history entries, at most %d allowed", ErrTooLarge, len(s.History), MaxHistory)
 	}
-	for i, e := range s.History {
-		if f, err := e.validate(len(s.Readings)); err != nil {
+	// Each entry names a row that existed when it was made. Rows are only
+	// added at the end, except where a FieldRows entry (undo, redo) says
+	// the count changed; so, walking back from the last entry, the count
+	// after each entry is at most the count of the session, or at most the
+	// Old of the nearest FieldRows entry after it. Files without FieldRows
+	// entries are checked against the count of the session, as always.
+	rows, then := len(s.Readings), false
+	for i := len(s.History) - 1; i >= 0; i-- {
+		e := &s.History[i]
+		if f, err := e.validate(rows, then); err != nil {
 			return fmt.Sprintf("history[%d].%s", i, f), err
+		}
+		if e.Field == FieldRows {
+			before, after, f, err := e.rowCounts()
+			if err != nil {
+				return fmt.Sprintf("history[%d].%s", i, f), err
+			}
+			if after > rows {
+				return fmt.Sprintf("history[%d].new", i), invalid("the count of readings %d is more than the %d there are after it", after, rows)
+			}
+			rows, then = before, true
 		}
 	}
 	return "", nil
+}
+
+// rowCounts reads the counts of a FieldRows entry.
+func (e *Edit) rowCounts() (before, after int, field string, err error) {
+	if e.Row != -1 {
+		return 0, 0, "row", invalid("a change in the count of readings names no row (row %d)", e.Row)
+	}
+	for _, c := range []struct {
+		name string
+		text string
+		n    *int
+	}{{"old", e.Old, &before}, {"new", e.New, &after}} {
+		v, perr := strconv.Atoi(c.text)
+		if perr != nil || v < 0 || v > MaxReadings || strconv.Itoa(v) != c.text {
+			return 0, 0, c.name, invalid("the count of readings %q is not a whole number from 0 to %d", truncate(c.text, 40), MaxReadings)
+		}
+		*c.n = v
+	}
+	return before, after, "", nil
 }
 
 func truncate(s string, n int) string {
@@ -200,7 +238,10 @@ func (r *Reading) validate() (string, error) {
 	return "", nil
 }
 
-func (e *Edit) validate(rows int) (string, error) {
+// validate checks one history entry; rows is the count of readings it
+// may name, then says whether that is the count at an earlier point (a
+// FieldRows entry follows) rather than the session's own.
+func (e *Edit) validate(rows int, then bool) (string, error) {
 	if err := checkTime(e.At, true); err != nil {
 		return "at", err
 	}
@@ -211,6 +252,9 @@ func (e *Edit) validate(rows int) (string, error) {
 		return "field", err
 	}
 	if e.Row < -1 || e.Row >= rows {
+		if then {
+			return "row", invalid("row %d did not exist when this change was made (the session had %d rows then)", e.Row, rows)
+		}
 		return "row", invalid("row %d does not exist (the session has %d rows)", e.Row, rows)
 	}
 	if err := checkText(e.Old, MaxLongText); err != nil {

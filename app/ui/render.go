@@ -62,7 +62,9 @@ func (c *Shell) renderBar() app.UI {
 			Attr("aria-label", "Session title").DataSet("testid", "session-title").
 			OnChange(c.onField(session.FieldTitle)),
 		app.Span().Class("pl-save").DataSet("testid", "save-status").DataSet("state", c.saveState).
-			Attr("role", "status").Text(saveText(c.saveState, c.saveMessage)),
+			Attr("role", "status").Text(c.saveText()),
+		app.Button().Class("pl-btn pl-btn-quiet").Text("Try again").DataSet("testid", "save-retry").
+			Hidden(!c.retryable()).OnClick(c.retrySave),
 		app.Button().Class("pl-btn pl-btn-quiet").Text(listLabel(c.listOpen, len(c.sessions))).
 			DataSet("testid", "sessions-open").Attr("aria-expanded", strconv.FormatBool(c.listOpen)).
 			OnClick(func(ctx app.Context, e app.Event) { c.listOpen = !c.listOpen; c.confirmDel = "" }),
@@ -75,18 +77,6 @@ func listLabel(open bool, n int) string {
 		return "Close list"
 	}
 	return "Sessions (" + strconv.Itoa(n) + ")"
-}
-
-func saveText(state, msg string) string {
-	switch state {
-	case "saved":
-		return "Saved on this device"
-	case "saving":
-		return "Saving…"
-	case "failed":
-		return "Not saved: " + msg
-	}
-	return ""
 }
 
 func (c *Shell) onField(field string) app.EventHandler {

@@ -142,11 +142,106 @@ func (c *Shell) anSetSettings(ctx app.Context, st session.Settings) {
 	if c.sess == nil {
 		return
 	}
+	st = tidySettings(st)
+	if _, err := st.Options().Normalize(); err != nil {
+		c.notice = "This setting could not be used: " + err.Error()
+		return
+	}
 	if err := c.sess.SetSettings(st, time.Now()); err != nil {
 		c.notice = "This setting could not be used: " + err.Error()
 		return
 	}
 	c.edited(ctx)
+}
+
+// tidySettings drops what the other settings make meaningless, so that the
+// session never stores a combination fitcore.Options.Normalize refuses (and
+// a save cannot fail because of it): a Box–Cox power without the Box–Cox
+// scale, weights with a line through the origin or a Deming fit.
+func tidySettings(st session.Settings) session.Settings {
+	if st.Transform != fitcore.TransformBoxCox {
+		st.BoxCoxLambda = nil
+	}
+	if st.Model == fitcore.ModelOrigin || st.Model == fitcore.ModelDeming {
+		st.Weights = fitcore.WeightsNone
+	}
+	return st
+}
+
+// The changes the settings card offers, as functions of the settings: the
+// chips and fields call them, and so do the tests.
+
+// settingsWithModel chooses the model; a weighted model without a
+// weighting gets 1/ŷ² (it needs no x other than zero, so a blank standard
+// at x = 0 does not stop the fit), any other model drops the weights.
+func settingsWithModel(s session.Settings, m fitcore.Model) session.Settings {
+	s.Model = m
+	switch m {
+	case fitcore.ModelWeighted:
+		if s.Weights == fitcore.WeightsNone || s.Weights == fitcore.WeightsGiven {
+			s.Weights = fitcore.WeightsFitted2
+		}
+	default:
+		s.Weights = fitcore.WeightsNone
+	}
+	return s
+}
+
+// settingsWithWeights chooses a weighting (and with it the weighted model).
+func settingsWithWeights(s session.Settings, w fitcore.WeightScheme) session.Settings {
+	s.Model, s.Weights = fitcore.ModelWeighted, w
+	return s
+}
+
+// settingsWithTransform chooses the scale; a Box–Cox power goes with the
+// Box–Cox scale only.
+func settingsWithTransform(s session.Settings, t fitcore.Transform) session.Settings {
+	s.Transform = t
+	if t != fitcore.TransformBoxCox {
+		s.BoxCoxLambda = nil
+	}
+	return s
+}
+
+// settingsWithLambda sets the Box–Cox power (nil: estimated).
+func settingsWithLambda(s session.Settings, p *float64) session.Settings {
+	s.BoxCoxLambda = p
+	return s
+}
+
+// settingsWithLevel sets the confidence level (a fraction).
+func settingsWithLevel(s session.Settings, l float64) session.Settings {
+	s.Level = l
+	return s
+}
+
+// settingsWithVarianceRatio sets Deming's δ (nil: 1).
+func settingsWithVarianceRatio(s session.Settings, p *float64) session.Settings {
+	s.VarianceRatio = anOr0(p)
+	return s
+}
+
+// settingsWithSlopeRef sets the value the slope is tested against (nil: 1).
+func settingsWithSlopeRef(s session.Settings, p *float64) session.Settings {
+	s.SlopeRef = p
+	return s
+}
+
+// settingsWithInterceptRef sets the value the intercept is tested against (nil: 0).
+func settingsWithInterceptRef(s session.Settings, p *float64) session.Settings {
+	s.InterceptRef = p
+	return s
+}
+
+// settingsWithUncertainty sets the standard uncertainty of one x (or y)
+// reading (nil: none given).
+func settingsWithUncertainty(s session.Settings, x bool, p *float64) session.Settings {
+	if x {
+		s.XUncertainty = anOr0(p)
+	} else {
+		s.YUncertainty = anOr0(p)
+	}
+	return s
 }
 
 // anSettings returns a copy of the session's settings whose pointer fields
@@ -246,19 +341,7 @@ func (c *Shell) renderSettings() app.UI {
 			out := make([]app.UI, len(anModels))
 			for i, m := range anModels {
 				out[i] = c.anChip("settings-model-"+string(m.m), m.label, model == m.m, func(ctx app.Context, e app.Event) {
-					s := c.anSettings()
-					s.Model = m.m
-					switch m.m {
-					case fitcore.ModelWeighted:
-						if s.Weights == fitcore.WeightsNone || s.Weights == fitcore.WeightsGiven {
-							// 1/ŷ² needs no x other than zero, so a blank
-							// standard at x = 0 does not stop the fit.
-							s.Weights = fitcore.WeightsFitted2
-						}
-					default:
-						s.Weights = fitcore.WeightsNone
-					}
-					c.anSetSettings(ctx, s)
+					c.anSetSettings(ctx, settingsWithModel(c.anSettings(), m.m))
 				})
 			}
 			return out
@@ -268,9 +351,7 @@ func (c *Shell) renderSettings() app.UI {
 				out := make([]app.UI, len(anWeightSchemes))
 				for i, w := range anWeightSchemes {
 					out[i] = c.anChip("settings-weights-"+string(w.w), w.label, st.Weights == w.w, func(ctx app.Context, e app.Event) {
-						s := c.anSettings()
-						s.Model, s.Weights = fitcore.ModelWeighted, w.w
-						c.anSetSettings(ctx, s)
+						c.anSetSettings(ctx, settingsWithWeights(c.anSettings(), w.w))
 					})
 				}
 				return out
@@ -283,24 +364,14 @@ func (c *Shell) renderSettings() app.UI {
 			}
 			return c.anNumberField("settings_variance_ratio", "Variance ratio δ = var(y errors) / var(x errors)", "1 when left empty", vr,
 				func(ctx app.Context, p *float64) {
-					s := c.anSettings()
-					s.VarianceRatio = 0
-					if p != nil {
-						s.VarianceRatio = *p
-					}
-					c.anSetSettings(ctx, s)
+					c.anSetSettings(ctx, settingsWithVarianceRatio(c.anSettings(), p))
 				})
 		}),
 		c.anChoice("Scale", "settings-transform", func() []app.UI {
 			out := make([]app.UI, len(anTransforms))
 			for i, t := range anTransforms {
 				out[i] = c.anChip("settings-transform-"+string(t.t), t.label, tr == t.t, func(ctx app.Context, e app.Event) {
-					s := c.anSettings()
-					s.Transform = t.t
-					if t.t != fitcore.TransformBoxCox {
-						s.BoxCoxLambda = nil
-					}
-					c.anSetSettings(ctx, s)
+					c.anSetSettings(ctx, settingsWithTransform(c.anSettings(), t.t))
 				})
 			}
 			return out
@@ -308,9 +379,7 @@ func (c *Shell) renderSettings() app.UI {
 		app.If(tr == fitcore.TransformBoxCox, func() app.UI {
 			return c.anNumberField("settings_box_cox_lambda", "Power λ", "estimated when left empty", anOptText(st.BoxCoxLambda),
 				func(ctx app.Context, p *float64) {
-					s := c.anSettings()
-					s.BoxCoxLambda = p
-					c.anSetSettings(ctx, s)
+					c.anSetSettings(ctx, settingsWithLambda(c.anSettings(), p))
 				})
 		}),
 		c.anChoice("Confidence level", "settings-level", func() []app.UI {
@@ -318,9 +387,7 @@ func (c *Shell) renderSettings() app.UI {
 			for _, l := range anLevels {
 				out = append(out, c.anChip("settings-level-"+strconv.Itoa(int(l*100+0.5)), anPercent(l), level == l && !c.anOtherOpen, func(ctx app.Context, e app.Event) {
 					c.anOtherOpen = false
-					s := c.anSettings()
-					s.Level = l
-					c.anSetSettings(ctx, s)
+					c.anSetSettings(ctx, settingsWithLevel(c.anSettings(), l))
 				}))
 			}
 			out = append(out, c.anChip("settings-level-other", "Other…", custom || c.anOtherOpen, func(ctx app.Context, e app.Event) {
@@ -338,35 +405,25 @@ func (c *Shell) renderSettings() app.UI {
 						c.anFieldErr["settings_level"] = "Not used: give a level between 50 and 99.99 %."
 						return
 					}
-					s := c.anSettings()
-					s.Level = *p / 100
-					c.anSetSettings(ctx, s)
+					c.anSetSettings(ctx, settingsWithLevel(c.anSettings(), *p/100))
 				})
 		}),
 		app.Div().Class("an-fields").Body(
 			c.anNumberField("settings_slope_ref", "Test the slope against", "1 when left empty", anOptText(st.SlopeRef),
 				func(ctx app.Context, p *float64) {
-					s := c.anSettings()
-					s.SlopeRef = p
-					c.anSetSettings(ctx, s)
+					c.anSetSettings(ctx, settingsWithSlopeRef(c.anSettings(), p))
 				}),
 			c.anNumberField("settings_intercept_ref", "Test the intercept against", "0 when left empty", anOptText(st.InterceptRef),
 				func(ctx app.Context, p *float64) {
-					s := c.anSettings()
-					s.InterceptRef = p
-					c.anSetSettings(ctx, s)
+					c.anSetSettings(ctx, settingsWithInterceptRef(c.anSettings(), p))
 				}),
 			c.anNumberField("settings_x_uncertainty", "Standard uncertainty of one x "+anParen(c.sess.XUnit), "empty = x exact", anZeroText(st.XUncertainty),
 				func(ctx app.Context, p *float64) {
-					s := c.anSettings()
-					s.XUncertainty = anOr0(p)
-					c.anSetSettings(ctx, s)
+					c.anSetSettings(ctx, settingsWithUncertainty(c.anSettings(), true, p))
 				}),
 			c.anNumberField("settings_y_uncertainty", "Standard uncertainty of one y "+anParen(c.sess.YUnit), "empty = not given", anZeroText(st.YUncertainty),
 				func(ctx app.Context, p *float64) {
-					s := c.anSettings()
-					s.YUncertainty = anOr0(p)
-					c.anSetSettings(ctx, s)
+					c.anSetSettings(ctx, settingsWithUncertainty(c.anSettings(), false, p))
 				}),
 		),
 		app.If(st.XUncertainty > 0, func() app.UI {

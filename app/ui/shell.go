@@ -7,6 +7,7 @@ import (
 	"bytes"
 	"fmt"
 	"runtime"
+	"slices"
 	"strconv"
 	"strings"
 	"sync"
@@ -42,7 +43,9 @@ type Shell struct {
 	renaming    string // id of the session being renamed
 	renameText  string
 	saveState   string // "saved", "saving", "failed", "" before the first save
-	saveMessage string
+	saveMessage string // the detail of a failure (an error's text)
+	saveWhy     string // why it failed: saveRefused, saveUnwritable or saveHeld
+	saveFor     string // ID of the session saveState is about
 	notice      string // a sentence shown in the message strip
 	updateReady bool
 
@@ -178,12 +181,34 @@ func newSession(now time.Time) (*session.Session, error) {
 	return s, nil
 }
 
-// show makes s the open session and analyses it.
+// show makes s the open session and analyses it. The save status is the
+// open session's: opening another one shows that one's (blank, or the
+// failure of a save still waiting to be tried again).
 func (c *Shell) show(s *session.Session) {
-	if c.toSave && c.sess != nil && c.sess != s {
-		c.save(c.ui) // the last edit of the session being left, before its save turn
+	if c.sess != nil && c.sess != s {
+		switch {
+		case s.ID == c.sess.ID:
+			// Another version of the same session replaces the open one,
+			// as chosen (an import's "replace", the other tab's version):
+			// what this tab had not written yet must not overwrite it.
+			c.toSave = false
+			c.saves.drop(s.ID)
+		case c.toSave:
+			c.save(c.ui) // the last edit of the session being left, before its save turn
+		}
+		if c.sess.ID != s.ID && c.saveState == "failed" && c.saveWhy != saveHeld {
+			c.notice = leftUnsaved(c.sess.Title, c.saveWhy, c.saveMessage)
+		}
+	}
+	if c.saveFor != s.ID {
+		c.saveFor = s.ID
+		c.saveState, c.saveMessage, c.saveWhy = "", "", ""
+		if msg, ok := c.saves.failure(s.ID); ok {
+			c.saveState, c.saveMessage, c.saveWhy = "failed", msg, saveRefused
+		}
 	}
 	c.sess = s
+	c.undoSync()
 	c.page = 0
 	c.opened(s)
 	c.analyse()
@@ -198,6 +223,21 @@ func (c *Shell) show(s *session.Session) {
 // the previous session's text. Go-app keeps an input's element from one
 // render to the next, so setting the property before it diffs is enough.
 func (c *Shell) resyncInputs() { c.needSync = true }
+
+// afterRender runs fn once the render under way is on the page (a timer of
+// 0 ms). Natively there is no page and fn does not run.
+func afterRender(fn func()) {
+	if !app.Window().Get("document").Truthy() {
+		return
+	}
+	var f app.Func
+	f = app.FuncOf(func(this app.Value, args []app.Value) any {
+		fn()
+		f.Release()
+		return nil
+	})
+	app.Window().Call("setTimeout", f, 0)
+}
 
 // syncInputs runs at the start of Render when a sync is pending. Natively
 // (prerendering) there is no document and it does nothing.
@@ -227,6 +267,9 @@ func (c *Shell) syncInputs() {
 			el.Set("value", v)
 		}
 	}
+	// The fields of the settings and criteria cards are known once this
+	// render has drawn them: an undone criterion must leave its box empty.
+	afterRender(c.anResync)
 }
 
 // analyse runs fitcore on the usable pairs of the open session.
@@ -327,8 +370,10 @@ func (c *Shell) edited(ctx app.Context) {
 	seq := c.editSeq
 	big := len(c.sess.Readings) >= adviceLater
 	c.analyseNow(big)
-	if c.st != nil && c.saveState != "failed" && !c.heldByOtherTab() {
-		c.saveState = "saving" // from now: the edit is not on the device yet
+	if c.st != nil && !c.heldByOtherTab() {
+		if c.saveState != "failed" {
+			c.saveState = "saving" // from now: the edit is not on the device yet
+		} // a failure stays shown until a save succeeds
 		c.toSave = true
 	}
 	if len(c.sess.Readings) < saveAtOnce {
@@ -416,32 +461,100 @@ func (c *Shell) afterFrame(fn func(ctx app.Context)) {
 	})
 }
 
+// Why a save failed (Shell.saveWhy).
+const (
+	saveRefused    = "refused"    // the device's storage refused it (full, private mode, …)
+	saveUnwritable = "unwritable" // the session could not be encoded as a record
+	saveHeld       = "held"       // another tab stored a newer version; the technician chooses
+)
+
 // save encodes the open session and hands it to the saver (saveQueue).
+// When it cannot be encoded, the failure is shown and the edit stays marked
+// as waiting (toSave), so that nothing later reports it saved.
 func (c *Shell) save(ctx app.Context) {
 	if c.st == nil || c.sess == nil || c.heldByOtherTab() {
 		return
 	}
+	c.saveFor = c.sess.ID
 	job, err := encodeJobInto(c.saves.takeSpare(), c.sess)
 	if err != nil {
-		c.saveState, c.saveMessage = "failed", "This session could not be saved: "+err.Error()
+		c.saveState, c.saveMessage, c.saveWhy = "failed", err.Error(), saveUnwritable
+		c.toSave = true
 		return
 	}
 	c.saves.put(job)
-	c.saveState = "saving"
+	if c.saveState != "failed" || c.saveWhy != saveRefused {
+		c.saveState, c.saveMessage, c.saveWhy = "saving", "", ""
+	}
 	c.lastSave = time.Now()
 	c.toSave = false
+}
+
+// retrySave tries again every save that failed: the open session's state
+// as it is now, and the states of other sessions kept since they failed.
+func (c *Shell) retrySave(ctx app.Context, e app.Event) {
+	c.saves.retry()
+	if c.sess != nil && c.saveState == "failed" && c.saveWhy != saveHeld {
+		c.saveState, c.saveMessage, c.saveWhy = "saving", "", ""
+		c.save(c.ui)
+	}
+}
+
+// retryable says whether "Try again" has something to try: a refused or
+// unwritable save of the open session, or a refused state of a session
+// left since.
+func (c *Shell) retryable() bool {
+	return (c.saveState == "failed" && c.saveWhy != saveHeld) || c.saves.hasFailed()
+}
+
+// saveText is the save status in words: a failure is a plain sentence with
+// its detail, and says that nothing on screen is lost.
+func (c *Shell) saveText() string {
+	switch c.saveState {
+	case "saved":
+		return "Saved on this device"
+	case "saving":
+		return "Saving…"
+	case "failed":
+		switch c.saveWhy {
+		case saveHeld:
+			return "Not saved: " + c.saveMessage
+		case saveUnwritable:
+			return "Not saved: this session could not be written as a record (" + c.saveMessage + "). Your changes are kept on screen; Pairline tries again with your next change."
+		}
+		return "Not saved: this device refused to store the session (" + c.saveMessage + "). Your changes are kept on screen; Pairline tries again with your next change, or tap “Try again”."
+	}
+	return ""
+}
+
+// leftUnsaved is the notice shown when a session whose save failed is left
+// for another one.
+func leftUnsaved(title, why, detail string) string {
+	if why == saveUnwritable {
+		return "“" + title + "” could not be written as a record (" + detail + "); its last changes were not stored and are lost when this tab closes."
+	}
+	return "“" + title + "” is not saved on this device yet (" + detail + "). Its last state is kept here and tried again with your next change, or with “Try again”."
 }
 
 // saveQueue holds the states waiting to be written, the newest of each
 // session: a newer state of a session replaces its older pending one (which
 // is then never written after it), while another session's pending state
-// keeps its place. Several goroutines may use it.
+// keeps its place. A state the store refused is kept (with why) until a
+// newer state of its session comes, or it is tried again: with the next
+// state handed in, or on retry. Several goroutines may use it.
 type saveQueue struct {
 	mu     sync.Mutex
 	jobs   []saveJob
+	failed map[string]failedJob // by session ID
 	wake   chan struct{}
 	closed bool
 	spare  []byte // the memory of a state already written, for the next one
+}
+
+// failedJob is a state the store refused, and its error.
+type failedJob struct {
+	job saveJob
+	err string
 }
 
 // takeSpare returns memory for encoding the next state (nil when none).
@@ -467,24 +580,119 @@ func (q *saveQueue) giveBack(b []byte) {
 
 func newSaveQueue() *saveQueue { return &saveQueue{wake: make(chan struct{}, 1)} }
 
-// put queues a state.
+// put queues a state (it supersedes a refused state of its session), and
+// before it the states of other sessions refused earlier.
 func (q *saveQueue) put(j saveJob) {
 	q.mu.Lock()
-	replaced := false
+	delete(q.failed, j.sum.ID)
+	q.requeueFailed()
+	q.queue(j)
+	q.mu.Unlock()
+	q.signal()
+}
+
+// queue puts j in the place of its session's pending state, or last.
+// The caller holds mu.
+func (q *saveQueue) queue(j saveJob) {
 	for i := range q.jobs {
 		if q.jobs[i].sum.ID == j.sum.ID {
-			q.jobs[i], replaced = j, true
-			break
+			q.jobs[i] = j
+			return
 		}
 	}
-	if !replaced {
-		q.jobs = append(q.jobs, j)
+	q.jobs = append(q.jobs, j)
+}
+
+// requeueFailed queues the refused states again (a newer pending state of
+// the same session wins). The caller holds mu.
+func (q *saveQueue) requeueFailed() {
+	for id, f := range q.failed {
+		if !q.pendingLocked(id) {
+			q.jobs = append(q.jobs, f.job)
+		}
 	}
-	q.mu.Unlock()
+	q.failed = nil
+}
+
+func (q *saveQueue) signal() {
 	select {
 	case q.wake <- struct{}{}:
 	default:
 	}
+}
+
+// fail keeps a state the store refused, unless a newer state of its
+// session is already waiting.
+func (q *saveQueue) fail(j saveJob, err error) {
+	q.mu.Lock()
+	defer q.mu.Unlock()
+	if q.pendingLocked(j.sum.ID) {
+		return
+	}
+	if q.failed == nil {
+		q.failed = map[string]failedJob{}
+	}
+	q.failed[j.sum.ID] = failedJob{job: j, err: err.Error()}
+}
+
+// retry queues every refused state again.
+func (q *saveQueue) retry() {
+	if q == nil {
+		return
+	}
+	q.mu.Lock()
+	q.requeueFailed()
+	q.mu.Unlock()
+	q.signal()
+}
+
+// hasFailed reports whether any refused state is kept.
+func (q *saveQueue) hasFailed() bool {
+	if q == nil {
+		return false
+	}
+	q.mu.Lock()
+	defer q.mu.Unlock()
+	return len(q.failed) > 0
+}
+
+// failure returns the error of the refused state of session id, if one is kept.
+func (q *saveQueue) failure(id string) (string, bool) {
+	if q == nil {
+		return "", false
+	}
+	q.mu.Lock()
+	defer q.mu.Unlock()
+	f, ok := q.failed[id]
+	return f.err, ok
+}
+
+// drop forgets the waiting and refused states of session id (another
+// version of it replaces them).
+func (q *saveQueue) drop(id string) {
+	if q == nil {
+		return
+	}
+	q.mu.Lock()
+	defer q.mu.Unlock()
+	delete(q.failed, id)
+	q.jobs = slices.DeleteFunc(q.jobs, func(j saveJob) bool { return j.sum.ID == id })
+}
+
+// pending reports whether a state of session id waits to be written.
+func (q *saveQueue) pending(id string) bool {
+	q.mu.Lock()
+	defer q.mu.Unlock()
+	return q.pendingLocked(id)
+}
+
+func (q *saveQueue) pendingLocked(id string) bool {
+	for i := range q.jobs {
+		if q.jobs[i].sum.ID == id {
+			return true
+		}
+	}
+	return false
 }
 
 // next waits for the oldest queued state; false once the queue is closed.
@@ -518,10 +726,7 @@ func (q *saveQueue) close() {
 	q.mu.Lock()
 	q.closed = true
 	q.mu.Unlock()
-	select {
-	case q.wake <- struct{}{}:
-	default:
-	}
+	q.signal()
 }
 
 // encodeJob encodes a session as its stored record and summary.
@@ -558,21 +763,39 @@ func (c *Shell) startSaver(ctx app.Context) {
 				return
 			}
 			err := st.Save(job.sum, job.body)
-			saves.giveBack(job.body) // the store keeps its own copy
+			if err != nil {
+				saves.fail(job, err) // kept whole, to be tried again
+			} else {
+				saves.giveBack(job.body) // the store keeps its own copy
+			}
 			list, _ := st.List()
-			ctx.Dispatch(func(ctx app.Context) {
-				c.sessions = list
-				if err != nil {
-					c.saveState, c.saveMessage = "failed", err.Error()
-					return
-				}
-				c.announceSaved(ctx, job.sum)
-				if c.saves.len() == 0 && !c.toSave {
-					c.saveState, c.saveMessage = "saved", ""
-				}
-			})
+			ctx.Dispatch(func(ctx app.Context) { c.saved(ctx, job.sum, err, list) })
 		}
 	})
+}
+
+// saved shows the outcome of one write. The save status is the open
+// session's; a write of another session (one just left) that fails is
+// said in the message strip.
+func (c *Shell) saved(ctx app.Context, sum store.Summary, err error, list []store.Summary) {
+	c.sessions = list
+	open := c.sess != nil && c.sess.ID == sum.ID
+	if err != nil {
+		if open {
+			c.saveFor, c.saveState, c.saveMessage, c.saveWhy = sum.ID, "failed", err.Error(), saveRefused
+		} else {
+			c.notice = leftUnsaved(sum.Title, saveRefused, err.Error())
+		}
+		return
+	}
+	c.announceSaved(ctx, sum)
+	if !open || c.saves.pending(sum.ID) || c.toSave {
+		return
+	}
+	if c.saveState == "failed" && c.saveWhy != saveRefused {
+		return // a newer state could not be encoded, or another tab holds it
+	}
+	c.saveState, c.saveMessage, c.saveWhy = "saved", "", ""
 }
 
 // OnDismount stops the saver.

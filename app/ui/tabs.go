@@ -120,7 +120,7 @@ func (c *Shell) reloadFromStore(ctx app.Context, id, note string) {
 			c.show(s)
 			c.opened(s)
 			c.page = page
-			c.saveState, c.saveMessage = "saved", ""
+			c.saveState, c.saveMessage, c.saveWhy = "saved", "", ""
 			c.notice = note
 		})
 	})
@@ -190,6 +190,7 @@ func (c *Shell) heldByOtherTab() bool {
 	if c.elsewhere == nil || c.sess == nil || c.elsewhere.id != c.sess.ID {
 		return false
 	}
-	c.saveState, c.saveMessage = "failed", "another tab stored a newer version of this session; choose which to keep"
+	c.saveFor, c.saveState, c.saveWhy = c.sess.ID, "failed", saveHeld
+	c.saveMessage = "another tab stored a newer version of this session; choose which to keep"
 	return true
 }

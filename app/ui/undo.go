@@ -1,0 +1,359 @@
+package ui
+
+import (
+	"encoding/json"
+	"slices"
+	"strconv"
+	"strings"
+	"time"
+	"unicode/utf8"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"pairline/app/numfmt"
+	"pairline/app/session"
+	"pairline/fitcore"
+)
+
+// undoDepth is how many earlier states undo keeps for the open session;
+// each is a copy of the readings, so a very big session keeps fewer
+// (undoReadings readings in all, and never fewer than 5 states).
+const (
+	undoDepth    = 20
+	undoReadings = 1_000_000
+)
+
+// undoDepthFor is the number of states kept for a session of n readings.
+func undoDepthFor(n int) int {
+	return max(5, min(undoDepth, undoReadings/max(n, 1)))
+}
+
+// undoStep is one step of undo or redo: the state to go to (a copy without
+// the history) and, in words, the change that going there takes back or
+// makes again. hist0 and hist1 are the history entries [hist0, hist1) of
+// the change while it is the latest one (typing on in the same cell still
+// adds to it); -1 once undo or redo moved past it.
+type undoStep struct {
+	state        *session.Session
+	what         string
+	hist0, hist1 int
+}
+
+// undoUI keeps the states of the open session before its last edits (for
+// undo) and after the edits undone since (for redo). One step per change
+// in the history: typing a cell key by key is one entry, and one step.
+// Undo and redo never rewrite the history: session.Restore appends an entry
+// saying what was undone or redone (and, when rows come or go, the new
+// count of readings), so every saved state is a valid record.
+type undoUI struct {
+	unSess  *session.Session // the session the stacks belong to
+	unBase  *session.Session // copy of its state after the last edit
+	unHist  int              // len(History) at unBase
+	unStack []undoStep       // undo: earlier states, newest last
+	unRedo  []undoStep       // redo: the states undone, newest last
+	unMsg   string
+}
+
+// snapshot copies what an edit can change in s, without the history.
+func snapshot(s *session.Session) *session.Session {
+	c := *s
+	c.History = nil
+	c.Readings = slices.Clone(s.Readings)
+	if s.Location != nil {
+		l := *s.Location
+		c.Location = &l
+	}
+	if s.DecimalComma != nil {
+		d := *s.DecimalComma
+		c.DecimalComma = &d
+	}
+	// Settings hold pointers; a JSON round trip copies them deeply.
+	if b, err := json.Marshal(s.Settings); err == nil {
+		var st session.Settings
+		if json.Unmarshal(b, &st) == nil {
+			c.Settings = st
+		}
+	}
+	return &c
+}
+
+// undoSync starts fresh stacks when another session (or another copy of
+// it, from a file or another tab) is open.
+func (c *Shell) undoSync() {
+	if c.sess != nil && c.unSess != c.sess {
+		c.unSess, c.unBase, c.unHist, c.unStack, c.unRedo, c.unMsg = c.sess, snapshot(c.sess), len(c.sess.History), nil, nil, ""
+	}
+}
+
+// undoTrack is called by edited after every change: a change that added to
+// the history pushes the state before it (and ends what redo could bring
+// back); typing on in the cell of the latest change updates its words; a
+// change typed back to what it was takes its step away.
+func (c *Shell) undoTrack() {
+	if c.sess == nil {
+		return
+	}
+	if c.unSess != c.sess {
+		c.undoSync()
+		return
+	}
+	h := c.sess.History
+	n := len(h)
+	top := len(c.unStack) - 1
+	switch {
+	case n > c.unHist && c.unBase != nil:
+		c.unStack = append(c.unStack, undoStep{state: c.unBase, what: describeEdits(h[c.unHist:]), hist0: c.unHist, hist1: n})
+		if d := undoDepthFor(len(c.sess.Readings)); len(c.unStack) > d {
+			c.unStack = slices.Delete(c.unStack, 0, len(c.unStack)-d)
+		}
+		c.unRedo = nil
+		c.unMsg = ""
+	case top >= 0 && c.unStack[top].hist1 >= 0 && c.unStack[top].hist1 == c.unHist:
+		// The latest change goes on (typing into the same cell) or was
+		// typed back to what it was (its entry left the history).
+		st := &c.unStack[top]
+		if n <= st.hist0 {
+			c.unStack = c.unStack[:top]
+		} else {
+			st.hist1, st.what = n, describeEdits(h[st.hist0:n])
+		}
+		c.unMsg = ""
+	}
+	c.unBase, c.unHist = snapshot(c.sess), n
+}
+
+// undo takes back the latest change.
+func (c *Shell) undo(ctx app.Context, e app.Event) { c.undoRedo(ctx, true) }
+
+// redo makes the latest change undone again.
+func (c *Shell) redo(ctx app.Context, e app.Event) { c.undoRedo(ctx, false) }
+
+// undoRedo moves one step back (undo) or forward (redo): the open session
+// takes the state of the step through session.Restore, and the state it
+// leaves goes on the other stack. The change then runs as any edit does
+// (analysis, verdict, save), and every text field is written again.
+func (c *Shell) undoRedo(ctx app.Context, back bool) {
+	c.undoSync()
+	from, to, field, word := &c.unStack, &c.unRedo, session.FieldUndo, "Undone: "
+	if !back {
+		from, to, field, word = &c.unRedo, &c.unStack, session.FieldRedo, "Redone: "
+	}
+	if c.sess == nil || len(*from) == 0 {
+		return
+	}
+	step := (*from)[len(*from)-1]
+	leaving := snapshot(c.sess)
+	if err := c.sess.Restore(step.state, field, step.what, time.Now()); err != nil {
+		c.unMsg = "Could not do that: " + err.Error()
+		return
+	}
+	*from = (*from)[:len(*from)-1]
+	*to = append(*to, undoStep{state: leaving, what: step.what, hist0: -1, hist1: -1})
+	// The entries Restore added are no change of their own to undo.
+	c.unBase, c.unHist = snapshot(c.sess), len(c.sess.History)
+	c.anFieldErr = nil
+	c.plSel = 0
+	c.edited(ctx)
+	c.unMsg = word + step.what + "."
+	c.resyncInputs()
+}
+
+// maxWhat bounds the words of one step (the history's New is at most
+// session.MaxLongText bytes; a short sentence is what is useful).
+const maxWhat = 400
+
+// describeEdits says in words what the history entries of one change did,
+// e.g. "x of reading 3 typed as 12.5" or "reading 2 left out (reason)".
+func describeEdits(h []session.Edit) string {
+	var parts []string
+	for i := 0; i < len(h); i++ {
+		e := h[i]
+		// Leaving a reading out is two entries: say it once, with the reason.
+		if e.Field == "excluded" && e.New == "true" && i+1 < len(h) && h[i+1].Field == "exclude_reason" && h[i+1].Row == e.Row {
+			parts = append(parts, "reading "+strconv.Itoa(e.Row+1)+" left out ("+h[i+1].New+")")
+			i++
+			continue
+		}
+		if e.Field == "excluded" && e.New == "false" && i+1 < len(h) && h[i+1].Field == "exclude_reason" && h[i+1].Row == e.Row {
+			i++
+		}
+		if p := describeEdit(e); p != "" {
+			parts = append(parts, p)
+		}
+	}
+	if len(parts) == 0 {
+		return "the last change"
+	}
+	out := parts[0]
+	switch {
+	case len(parts) == 2:
+		out += " and " + parts[1]
+	case len(parts) > 2:
+		out += " and " + strconv.Itoa(len(parts)-1) + " more changes"
+	}
+	return clip(out, maxWhat)
+}
+
+// clip shortens s to at most n bytes on a character boundary.
+func clip(s string, n int) string {
+	if len(s) <= n {
+		return s
+	}
+	for n > 0 && !utf8.RuneStart(s[n]) {
+		n--
+	}
+	return s[:n] + "…"
+}
+
+// fieldWords names the metadata fields in the words of the screen.
+var fieldWords = map[string]string{
+	session.FieldTitle: "title", session.FieldSite: "site", session.FieldInstrument: "instrument",
+	session.FieldSerial: "serial number", session.FieldOperator: "operator", session.FieldXName: "name of x",
+	session.FieldXUnit: "unit of x", session.FieldYName: "name of y", session.FieldYUnit: "unit of y",
+	session.FieldNotes: "notes",
+}
+
+func describeEdit(e session.Edit) string {
+	reading := "reading " + strconv.Itoa(e.Row+1)
+	switch e.Field {
+	case "x", "y", "note":
+		switch {
+		case e.New == "":
+			return e.Field + " of " + reading + " cleared (was " + strconv.Quote(clip(e.Old, 40)) + ")"
+		case e.Old == "":
+			return e.Field + " of " + reading + " typed as " + clip(e.New, 40)
+		}
+		return e.Field + " of " + reading + " changed from " + clip(e.Old, 40) + " to " + clip(e.New, 40)
+	case "row":
+		return reading + " added"
+	case "excluded":
+		if e.New == "true" {
+			return reading + " left out"
+		}
+		return reading + " put back"
+	case "exclude_reason":
+		return "reason for leaving out " + reading + " set to " + strconv.Quote(clip(e.New, 60))
+	case "settings":
+		return describeSettings(e.Old, e.New)
+	case "import":
+		return "import of " + e.New
+	case "paste":
+		return "paste of " + e.New
+	case session.FieldDecimalComma:
+		switch e.New {
+		case "true":
+			return "“1,234” read as 1.234 (decimal comma)"
+		case "false":
+			return "“1,234” read as 1234 (thousands)"
+		}
+		return "the reading of “1,234” left open"
+	case "location":
+		return "location changed"
+	case session.FieldUndo:
+		return "undo of " + e.New
+	case session.FieldRedo:
+		return "redo of " + e.New
+	case session.FieldRows:
+		return ""
+	}
+	if w, ok := fieldWords[e.Field]; ok {
+		if e.New == "" {
+			return w + " cleared"
+		}
+		return w + " set to " + strconv.Quote(clip(e.New, 60))
+	}
+	return e.Field + " changed"
+}
+
+// describeSettings names what changed between two settings (as the
+// history keeps them, JSON): "least R² set to 0.999", "scale set to log y".
+func describeSettings(oldJSON, newJSON string) string {
+	var a, b session.Settings
+	if json.Unmarshal([]byte(oldJSON), &a) != nil || json.Unmarshal([]byte(newJSON), &b) != nil {
+		return "fit settings changed"
+	}
+	var out []string
+	opt := func(name string, p, q *float64) {
+		switch {
+		case p == nil && q == nil, p != nil && q != nil && *p == *q:
+		case q == nil:
+			out = append(out, name+" cleared (was "+numfmt.Full(*p)+")")
+		default:
+			out = append(out, name+" set to "+numfmt.Full(*q))
+		}
+	}
+	num := func(name string, p, q float64) {
+		if p != q {
+			if q == 0 {
+				out = append(out, name+" cleared")
+			} else {
+				out = append(out, name+" set to "+numfmt.Full(q))
+			}
+		}
+	}
+	if a.Model != b.Model {
+		out = append(out, "model set to "+string(b.Model))
+	}
+	if a.Weights != b.Weights {
+		out = append(out, "weights set to "+string(b.Weights))
+	}
+	if a.Transform != b.Transform {
+		out = append(out, "scale set to "+string(b.Transform))
+	}
+	opt("Box–Cox power", a.BoxCoxLambda, b.BoxCoxLambda)
+	num("confidence level", a.Level, b.Level)
+	opt("slope reference", a.SlopeRef, b.SlopeRef)
+	opt("intercept reference", a.InterceptRef, b.InterceptRef)
+	num("variance ratio", a.VarianceRatio, b.VarianceRatio)
+	num("x uncertainty", a.XUncertainty, b.XUncertainty)
+	num("y uncertainty", a.YUncertainty, b.YUncertainty)
+	var ka, kb fitcore.Criteria
+	if a.Acceptance != nil {
+		ka = *a.Acceptance
+	}
+	if b.Acceptance != nil {
+		kb = *b.Acceptance
+	}
+	opt("least R²", ka.MinRSquared, kb.MinRSquared)
+	opt("lowest slope", ka.SlopeLow, kb.SlopeLow)
+	opt("highest slope", ka.SlopeHigh, kb.SlopeHigh)
+	opt("lowest intercept", ka.InterceptLow, kb.InterceptLow)
+	opt("highest intercept", ka.InterceptHigh, kb.InterceptHigh)
+	opt("largest residual", ka.MaxResidual, kb.MaxResidual)
+	if ka.MaxResidualPercentOfSpan != kb.MaxResidualPercentOfSpan {
+		if kb.MaxResidualPercentOfSpan {
+			out = append(out, "largest residual counted in % of the span of y")
+		} else {
+			out = append(out, "largest residual counted in y units")
+		}
+	}
+	if len(out) == 0 {
+		return "fit settings changed"
+	}
+	return strings.Join(out, ", ")
+}
+
+// renderUndo is the undo/redo pair with the message of the last step. On a
+// narrow screen it floats at the bottom corner (web/plots.css), in reach of
+// a thumb wherever the page is scrolled.
+func (c *Shell) renderUndo() app.UI {
+	c.undoSync()
+	nu, nr := len(c.unStack), len(c.unRedo)
+	undoLabel, redoLabel := "Nothing to undo", "Nothing to redo"
+	if nu > 0 {
+		undoLabel = "Undo " + c.unStack[nu-1].what + " (" + strconv.Itoa(nu) + " can be undone)"
+	}
+	if nr > 0 {
+		redoLabel = "Redo " + c.unRedo[nr-1].what + " (" + strconv.Itoa(nr) + " can be redone)"
+	}
+	return app.Div().Class("pl-undo").Attr("role", "group").Attr("aria-label", "Undo and redo").Body(
+		app.Button().Class("pl-btn pl-btn-quiet").Text("↶ Undo").DataSet("testid", "undo").
+			DataSet("depth", strconv.Itoa(nu)).Attr("aria-label", undoLabel).Attr("title", undoLabel).
+			Disabled(nu == 0).OnClick(c.undo),
+		app.Button().Class("pl-btn pl-btn-quiet").Text("↷ Redo").DataSet("testid", "redo").
+			DataSet("depth", strconv.Itoa(nr)).Attr("aria-label", redoLabel).Attr("title", redoLabel).
+			Disabled(nr == 0).OnClick(c.redo),
+		app.Span().Class("pl-tools-msg").Attr("role", "status").DataSet("testid", "undo-message").
+			Hidden(c.unMsg == "").Text(c.unMsg),
+	)
+}
