@@ -15,7 +15,8 @@ import (
 	"unicode/utf8"
 )
 
-// MaxCSVSize is the largest CSV or TSV file ReadCSV imports, in bytes.
+// MaxCSVSize is the largest CSV or TSV file ReadCSV imports, in bytes (the
+// limits are in validate.go).
 const MaxCSVSize = MaxFileSize
 
 // DetectColumn as CSVOptions.XCol or YCol asks ReadCSV to choose the column.

@@ -7,9 +7,6 @@ import (
 	"unicode/utf8"
 )
 
-// MaxNumberText is the longest cell text ParseNumber looks at, in bytes.
-const MaxNumberText = 256
-
 // NumberError says why a cell is not a number. Reason follows the quoted
 // text in a sentence: `"abc" is not a number`.
 type NumberError struct {
