@@ -138,6 +138,9 @@ func TestWriteReadRoundTrip(t *testing.T) {
 	if err := WriteReadingsCSV(&buf, s); err != nil {
 		t.Fatal(err)
 	}
+	if !strings.Contains(buf.String(), `"'=1+1 ""quoted"", with comma`) {
+		t.Errorf("the note is not neutralised and quoted in\n%s", buf.String())
+	}
 	res, err := ReadCSV(&buf, CSVOptions{})
 	if err != nil {
 		t.Fatal(err)
@@ -154,8 +157,8 @@ func TestWriteReadRoundTrip(t *testing.T) {
 	if !reflect.DeepEqual(res.X, wantX) || !reflect.DeepEqual(res.Y, wantY) || res.Incomplete != 1 {
 		t.Errorf("x %q y %q incomplete %d; want %q %q 1", res.X, res.Y, res.Incomplete, wantX, wantY)
 	}
-	if got := res.Rows[0][2]; got != "'"+s.Readings[0].Note {
-		t.Errorf("note %q; want the note behind an apostrophe", got)
+	if got := res.Rows[0][2]; !res.PairlineExport || got != s.Readings[0].Note {
+		t.Errorf("note %q (Pairline's export: %v); want it read back as typed", got, res.PairlineExport)
 	}
 	if res.Rows[3][3] != "yes" || res.Rows[3][4] != s.Readings[3].ExcludeReason {
 		t.Errorf("exclusion %q", res.Rows[3])
