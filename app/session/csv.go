@@ -350,22 +350,46 @@ type csvScanner struct {
 	pos    int
 	line   int // line of the next row, from 1
 	fields []string
+	// special marks the bytes an unquoted field stops at: line ends, the
+	// quote and the first byte of the delimiter.
+	special [256]bool
+	// empty counts the empty lines passed over.
+	empty int
+	// truncated says that the last row had more fields than keep.
+	truncated bool
+	// keep, when above 0, is the number of fields wanted from each row: the
+	// rest of a row is passed over without splitting it. Only for text that
+	// a scanner without keep has read without error.
+	keep int
 }
 
 func newCSVScanner(text string, delim rune) *csvScanner {
-	return &csvScanner{text: text, delim: string(delim), line: 1}
+	s := &csvScanner{text: text, delim: string(delim), line: 1}
+	s.special['\n'], s.special['\r'], s.special['"'], s.special[s.delim[0]] = true, true, true, true
+	return s
 }
 
 // next returns the fields of the next row and the line it starts on;
 // fields is nil at the end of the text. The fields are valid until the
 // next call.
 func (s *csvScanner) next() (fields []string, line int, err *CSVError) {
-	if s.pos >= len(s.text) {
+	t, d := s.text, s.delim
+	// Empty lines are blank rows; they are passed over here at a few
+	// nanoseconds each and counted in s.empty.
+	for s.pos < len(t) && (t[s.pos] == '\n' || t[s.pos] == '\r') {
+		if t[s.pos] == '\r' && s.pos+1 < len(t) && t[s.pos+1] == '\n' {
+			s.pos++
+		}
+		s.pos++
+		s.line++
+		s.empty++
+	}
+	if s.pos >= len(t) {
 		return nil, 0, nil
 	}
-	t, d := s.text, s.delim
 	line = s.line
 	s.fields = s.fields[:0]
+	s.truncated = false
 	for {
 		start := s.pos
 		if len(s.fields) == MaxCSVFields {
@@ -403,31 +427,40 @@ func (s *csvScanner) next() (fields []string, line int, err *CSVError) {
 				f = t[seg:i]
 			}
 			s.pos = i + 1
-			if s.pos < len(t) && t[s.pos] != '\n' && t[s.pos] != '\r' && !strings.HasPrefix(t[s.pos:], d) {
+			if s.pos < len(t) && t[s.pos] != '\n' && t[s.pos] != '\r' && !s.atDelim(s.pos) {
 				return nil, line, &CSVError{Line: s.line, Column: columnAt(t, s.pos),
 					Err: fmt.Errorf("%w (extra text after a closing quote)", ErrCSVQuote)}
 			}
 		} else {
+			// The field ends at a line end or the delimiter; a quote inside
+			// it is an error. The scan stops one byte past the longest
+			// field allowed.
+			stop := min(len(t), start+MaxCSVFieldLen+1)
 			i := start
-			for i < len(t) {
-				c := t[i]
-				if c == '\n' || c == '\r' || (c == d[0] && strings.HasPrefix(t[i:], d)) {
-					break
-				}
-				if c == '"' {
+			for i < stop && !s.special[t[i]] {
+				i++
+			}
+			for i < stop && t[i] != '\n' && t[i] != '\r' && !s.atDelim(i) {
+				if t[i] == '"' {
 					return nil, line, &CSVError{Line: s.line, Column: columnAt(t, i),
 						Err: fmt.Errorf("%w (a quote mark inside a value that does not start with one)", ErrCSVQuote)}
 				}
-				i++
-				if i-start > MaxCSVFieldLen {
-					return nil, line, &CSVError{Line: s.line, Column: columnAt(t, start),
-						Err: fmt.Errorf("%w (at most %d bytes in a cell)", ErrCSVLongField, MaxCSVFieldLen)}
+				i++ // a byte that starts like a delimiter of several bytes
+				for i < stop && !s.special[t[i]] {
+					i++
 				}
+			}
+			if i-start > MaxCSVFieldLen {
+				return nil, line, &CSVError{Line: s.line, Column: columnAt(t, start),
+					Err: fmt.Errorf("%w (at most %d bytes in a cell)", ErrCSVLongField, MaxCSVFieldLen)}
 			}
 			f = t[start:i]
 			s.pos = i
 		}
 		s.fields = append(s.fields, f)
+		if len(s.fields) == s.keep && s.pos < len(t) && s.atDelim(s.pos) {
+			s.skipRest()
+		}
 		switch {
 		case s.pos >= len(t):
 			return s.fields, line, nil
@@ -445,6 +478,49 @@ func (s *csvScanner) next() (fields []string, line int, err *CSVError) {
 		}
 		s.pos += len(d) // the delimiter
 	}
+}
+
+// skipRest moves to the line end that ends the current row, passing over
+// quoted values (which may hold line ends) as values.
+func (s *csvScanner) skipRest() {
+	t := s.text
+	s.truncated = true
+	for {
+		j := strings.IndexAny(t[s.pos:], "\r\n\"")
+		if j < 0 {
+			s.pos = len(t)
+			return
+		}
+		s.pos += j
+		if t[s.pos] != '"' {
+			return
+		}
+		// A quoted value: to its closing quote (doubled quotes stay inside).
+		i := s.pos + 1
+		for {
+			k := strings.IndexByte(t[i:], '"')
+			if k < 0 {
+				s.pos = len(t)
+				return
+			}
+			s.countLines(t[i : i+k])
+			i += k + 1
+			if i < len(t) && t[i] == '"' {
+				i++
+				continue
+			}
+			break
+		}
+		s.pos = i
+	}
+}
+
+// atDelim reports whether the delimiter starts at byte i.
+func (s *csvScanner) atDelim(i int) bool {
+	if len(s.delim) == 1 {
+		return s.text[i] == s.delim[0]
+	}
+	return strings.HasPrefix(s.text[i:], s.delim)
 }
 
 // countLines adds the line ends in part (inside a quoted field) to s.line.
@@ -618,13 +694,27 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 	}
 	res.XCol, res.YCol = xc, yc
 
-	// Pass 2.
+	// Pass 2: the rows again, split only as far as the columns used (and
+	// the preview) need.
 	sc = newCSVScanner(text, res.Delimiter)
 	seen, pendingBlank, data := 0, 0, 0
 	for {
+		if len(res.Rows) >= PreviewRows {
+			sc.keep = max(xc, yc) + 1
+		}
+		empty, pos, posLine := sc.empty, sc.pos, sc.line
 		fields, line, cerr := sc.next()
+		if cerr == nil && sc.truncated && isBlankRow(fields) {
+			// The cells kept are empty: the whole row decides whether it
+			// is blank. Each row is split again at most once.
+			sc.pos, sc.line, sc.empty, sc.keep = pos, posLine, empty, 0
+			fields, line, cerr = sc.next()
+		}
 		if cerr != nil {
 			return nil, cerr // cannot happen: pass 1 read the same text
+		}
+		if seen > 0 {
+			pendingBlank += sc.empty - empty
 		}
 		if fields == nil {
 			break

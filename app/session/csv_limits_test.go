@@ -265,3 +265,54 @@ func BenchmarkReadCSVManyCells(b *testing.B) {
 		}
 	}
 }
+
+// TestReadCSVPastThePreview: after the first PreviewRows data rows the
+// reader splits rows only as far as the x and y columns; rows whose x and y
+// are empty but whose other cells are not, quoted values with line ends
+// after y and rows of delimiters still count as they do in the preview.
+// The expected counts are worked out from how the rows are made.
+func TestReadCSVPastThePreview(t *testing.T) {
+	var sb strings.Builder
+	sb.WriteString("x,y,note,more\n")
+	line := 1
+	var wantLines []int
+	skipped, blank := 0, 0
+	for i := range 3 * PreviewRows {
+		line++
+		switch i % 5 {
+		case 0:
+			sb.WriteString(strconv.Itoa(i) + "," + strconv.Itoa(2*i) + ",\"a note\nover two lines\",\"q\"\"\"\n")
+			wantLines = append(wantLines, line)
+			line++
+		case 1:
+			sb.WriteString(",,only a note,\n") // not blank: x and y are empty
+			skipped++
+		case 2:
+			sb.WriteString(",,,\n")
+			blank++
+		case 3:
+			sb.WriteString(strconv.Itoa(i) + "," + strconv.Itoa(2*i) + "\r\n")
+			wantLines = append(wantLines, line)
+		case 4:
+			sb.WriteString("\r")
+			blank++
+		}
+	}
+	sb.WriteString("1,2\n")
+	wantLines = append(wantLines, line+1)
+	res, err := ReadCSV(strings.NewReader(sb.String()), CSVOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !reflect.DeepEqual(res.Lines, wantLines) || res.Incomplete != skipped || res.Blank != blank || len(res.Rows) != PreviewRows {
+		t.Errorf("lines %v…, incomplete %d, blank %d, preview %d; want %v…, %d, %d, %d",
+			res.Lines[:4], res.Incomplete, res.Blank, len(res.Rows), wantLines[:4], skipped, blank, PreviewRows)
+	}
+	if len(res.Lines) == len(wantLines) && !reflect.DeepEqual(res.Lines, wantLines) {
+		for i := range res.Lines {
+			if res.Lines[i] != wantLines[i] {
+				t.Fatalf("reading %d at line %d, want %d", i, res.Lines[i], wantLines[i])
+			}
+		}
+	}
+}
