@@ -4,12 +4,15 @@ import (
 	"bytes"
 	"errors"
 	"math"
+	"reflect"
 	"strconv"
 	"strings"
 	"testing"
 	"time"
 
 	"github.com/vmihailenco/msgpack/v5"
+
+	"pairline/fitcore"
 )
 
 // rawSession writes a session map by hand: the fields a valid session
@@ -324,4 +327,46 @@ func BenchmarkDecodeEmptyReadings(b *testing.B) {
 			b.Fatal(err)
 		}
 	}
+}
+
+// FuzzSettings: stored settings are accepted exactly when fitcore's one
+// validation of options accepts them (and the acceptance criteria are
+// sound), and accepted settings come back unchanged from a file.
+func FuzzSettings(f *testing.F) {
+	f.Add("origin", "none", "x", 0.95, 0.0, false, 0.0, 0.0)
+	f.Add("", "log_y", "", 0.0, 0.5, true, 0.0, 0.1)
+	f.Add("deming", "box_cox", "", 1e-300, -2.0, true, 3.0, 0.0)
+	f.Add("weighted", "", "fitted2", 0.9999, 0.0, false, 0.0, -1.0)
+	f.Fuzz(func(t *testing.T, model, transform, weights string, level, lambda float64, hasLambda bool, vr, xu float64) {
+		st := Settings{Model: fitcore.Model(model), Transform: fitcore.Transform(transform), Weights: fitcore.WeightScheme(weights),
+			Level: level, VarianceRatio: vr, XUncertainty: xu}
+		if hasLambda {
+			st.BoxCoxLambda = &lambda
+		}
+		_, nerr := st.Options().Normalize()
+		field, verr := st.validate()
+		if (nerr == nil) != (verr == nil) {
+			t.Fatalf("Normalize: %v; validate: %s %v", nerr, field, verr)
+		}
+		if verr != nil {
+			var oe *fitcore.OptionError
+			if !errors.As(nerr, &oe) || oe.Option != field || !errors.Is(verr, ErrInvalidField) {
+				t.Fatalf("validate names %q (%v); Normalize %v", field, verr, nerr)
+			}
+			return
+		}
+		s := sampleSessions(t)[0]
+		s.Settings = st
+		b, err := EncodeBytes([]*Session{s})
+		if err != nil {
+			t.Fatal(err)
+		}
+		file, err := Decode(bytes.NewReader(b))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := file.Sessions[0].Settings; !reflect.DeepEqual(got, st) {
+			t.Fatalf("settings %+v came back as %+v", st, got)
+		}
+	})
 }
