@@ -332,9 +332,16 @@ func detectDelimiter(text string) rune {
 	return best
 }
 
+// isNumberCell is whether s reads as a number (with the decimal point for
+// the ambiguous form). Cells that cannot start a number (a letter, a quote)
+// are turned down at once: the column counts check every cell.
 func isNumberCell(s string) bool {
 	if _, ok := plainNumber(s); ok {
 		return true
+	}
+	t := strings.TrimLeft(s, " \t\n\v\f\r")
+	if t == "" || t[0] < utf8.RuneSelf && !strings.ContainsRune("0123456789+-.,", rune(t[0])) {
+		return false
 	}
 	_, _, err := parseNumber(s, hintDot)
 	return err == nil
@@ -357,6 +364,10 @@ type csvScanner struct {
 	empty int
 	// truncated says that the last row had more fields than keep.
 	truncated bool
+	// raw asks for a value with doubled quotes as it stands in the text,
+	// quotes and all, instead of a new string: for counting cells, where
+	// such a value is neither blank nor a number either way.
+	raw bool
 	// keep, when above 0, is the number of fields wanted from each row: the
 	// rest of a row is passed over without splitting it. Only for text that
 	// a scanner without keep has read without error.
@@ -400,6 +411,7 @@ func (s *csvScanner) next() (fields []string, line int, err *CSVError) {
 		if start < len(t) && t[start] == '"' {
 			startLine := s.line
 			var unq []byte // the field without its doubled quotes, when it has any
+			doubled := false
 			i, seg := start+1, start+1
 			for {
 				j := strings.IndexByte(t[i:], '"')
@@ -414,16 +426,22 @@ func (s *csvScanner) next() (fields []string, line int, err *CSVError) {
 						Err: fmt.Errorf("%w (at most %d bytes in a cell)", ErrCSVLongField, MaxCSVFieldLen)}
 				}
 				if i+1 < len(t) && t[i+1] == '"' {
-					unq = append(unq, t[seg:i+1]...)
+					doubled = true
+					if !s.raw {
+						unq = append(unq, t[seg:i+1]...)
+					}
 					i += 2
 					seg = i
 					continue
 				}
 				break
 			}
-			if unq != nil {
+			switch {
+			case doubled && s.raw:
+				f = t[start : i+1]
+			case doubled:
 				f = string(append(unq, t[seg:i]...))
-			} else {
+			default:
 				f = t[seg:i]
 			}
 			s.pos = i + 1
@@ -523,6 +541,15 @@ func (s *csvScanner) atDelim(i int) bool {
 	return strings.HasPrefix(s.text[i:], s.delim)
 }
 
+// unraw is the value of a field the scanner gave in raw form: one with a
+// quote in it is still quoted, with its quotes doubled.
+func unraw(f string) string {
+	if strings.IndexByte(f, '"') < 0 {
+		return f
+	}
+	return strings.ReplaceAll(f[1:len(f)-1], `""`, `"`)
+}
+
 // countLines adds the line ends in part (inside a quoted field) to s.line.
 func (s *csvScanner) countLines(part string) {
 	for k := 0; k < len(part); k++ {
@@ -574,6 +601,7 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 	rows := 0
 	sc := newCSVScanner(text, res.Delimiter)
 	for {
+		sc.raw = rows >= 2 // the first two rows are kept as they are read
 		fields, line, cerr := sc.next()
 		if cerr != nil {
 			return nil, cerr
@@ -700,7 +728,7 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 	seen, pendingBlank, data := 0, 0, 0
 	for {
 		if len(res.Rows) >= PreviewRows {
-			sc.keep = max(xc, yc) + 1
+			sc.keep, sc.raw = max(xc, yc)+1, true
 		}
 		empty, pos, posLine := sc.empty, sc.pos, sc.line
 		fields, line, cerr := sc.next()
@@ -749,6 +777,9 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 			continue
 		}
 		x, y := fields[xc], fields[yc]
+		if sc.raw {
+			x, y = unraw(x), unraw(y)
+		}
 		var why string
 		switch {
 		case isBlank(x) && isBlank(y):

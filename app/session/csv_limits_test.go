@@ -276,7 +276,7 @@ func TestReadCSVPastThePreview(t *testing.T) {
 	sb.WriteString("x,y,note,more\n")
 	line := 1
 	var wantLines []int
-	skipped, blank := 0, 0
+	skipped, blank, wantQuoted := 0, 0, 0
 	for i := range 3 * PreviewRows {
 		line++
 		switch i % 5 {
@@ -290,9 +290,10 @@ func TestReadCSVPastThePreview(t *testing.T) {
 		case 2:
 			sb.WriteString(",,,\n")
 			blank++
-		case 3:
-			sb.WriteString(strconv.Itoa(i) + "," + strconv.Itoa(2*i) + "\r\n")
+		case 3: // a y in quotes with quotes inside: "5" with its quote marks
+			sb.WriteString(strconv.Itoa(i) + `,"""5"""` + "\r\n")
 			wantLines = append(wantLines, line)
+			wantQuoted++
 		case 4:
 			sb.WriteString("\r")
 			blank++
@@ -308,11 +309,35 @@ func TestReadCSVPastThePreview(t *testing.T) {
 		t.Errorf("lines %v…, incomplete %d, blank %d, preview %d; want %v…, %d, %d, %d",
 			res.Lines[:4], res.Incomplete, res.Blank, len(res.Rows), wantLines[:4], skipped, blank, PreviewRows)
 	}
+	quoted := 0
+	for _, y := range res.Y {
+		if y == `"5"` {
+			quoted++
+		}
+	}
+	if res.XCol != 0 || res.YCol != 1 || quoted != wantQuoted {
+		t.Errorf("columns %d, %d; %d y cells read as \"5\" with quotes, want %d", res.XCol, res.YCol, quoted, wantQuoted)
+	}
 	if len(res.Lines) == len(wantLines) && !reflect.DeepEqual(res.Lines, wantLines) {
 		for i := range res.Lines {
 			if res.Lines[i] != wantLines[i] {
 				t.Fatalf("reading %d at line %d, want %d", i, res.Lines[i], wantLines[i])
 			}
+		}
+	}
+}
+
+// BenchmarkReadCSVDoubledQuotes: rows of MaxCSVFields quoted cells with
+// doubled quotes inside, y in the last column (so every cell is split in
+// both passes), 16 MiB.
+func BenchmarkReadCSVDoubledQuotes(b *testing.B) {
+	row := `"1",` + strings.Repeat(`"""",`, MaxCSVFields-2) + `"2"` + "\n"
+	text := `"a","b"` + strings.Repeat(",", MaxCSVFields-2) + "\n" + strings.Repeat(row, (16<<20)/len(row))
+	b.SetBytes(int64(len(text)))
+	b.ReportAllocs()
+	for b.Loop() {
+		if res, err := ReadCSV(strings.NewReader(text), CSVOptions{}); err != nil || res.YCol != MaxCSVFields-1 {
+			b.Fatal(err)
 		}
 	}
 }
