@@ -103,7 +103,8 @@ type File struct {
 
 // Encode writes sessions as one session file (format FormatMajor.FormatMinor).
 // It refuses to write what Decode would refuse: no sessions, more than
-// MaxSessions, a session that fails Validate, or a file larger than
+// MaxSessions, more than MaxFileReadings readings or MaxFileHistory history
+// entries in all, a session that fails Validate, or a file larger than
 // MaxFileSize. The error then wraps ErrInvalidField or ErrTooLarge.
 func Encode(w io.Writer, sessions []*Session) error {
 	b, err := EncodeBytes(sessions)
@@ -128,9 +129,17 @@ func EncodeAppend(buf []byte, sessions []*Session) ([]byte, error) {
 		return nil, fmt.Errorf("%w: %d sessions, at most %d in one file", ErrTooLarge, len(sessions), MaxSessions)
 	}
 	seen := make(map[string]bool, len(sessions))
+	readings, history := 0, 0
 	for i, s := range sessions {
 		if s == nil {
 			return nil, fmt.Errorf("sessions[%d]: %w", i, invalid("the session is missing"))
+		}
+		readings, history = readings+len(s.Readings), history+len(s.History)
+		if readings > MaxFileReadings {
+			return nil, fmt.Errorf("%w: the sessions hold %d readings or more, at most %d fit in one file (export fewer sessions at a time)", ErrTooLarge, readings, MaxFileReadings)
+		}
+		if history > MaxFileHistory {
+			return nil, fmt.Errorf("%w: the sessions hold %d history entries or more, at most %d fit in one file (export fewer sessions at a time)", ErrTooLarge, history, MaxFileHistory)
 		}
 		if f, err := s.validate(); err != nil {
 			return nil, fmt.Errorf("sessions[%d].%s: %w", i, f, err)

@@ -370,3 +370,20 @@ func FuzzSettings(f *testing.F) {
 		}
 	})
 }
+
+// TestEncodeRefusesFileTotals: Encode refuses what Decode would refuse, so
+// exporting many big sessions at once says so instead of writing a file
+// the office cannot open.
+func TestEncodeRefusesFileTotals(t *testing.T) {
+	t0 := time.Date(2025, 3, 14, 8, 30, 0, 0, time.UTC)
+	var ss []*Session
+	for i := range MaxFileReadings/MaxReadings + 1 {
+		s, _ := New("Big "+strconv.Itoa(i)+" (invented)", t0, nil)
+		s.Readings = make([]Reading, MaxReadings)
+		ss = append(ss, s)
+	}
+	_, err := EncodeBytes(ss)
+	if !errors.Is(err, ErrTooLarge) || !strings.Contains(err.Error(), strconv.Itoa(MaxFileReadings)) {
+		t.Errorf("%d sessions of %d readings: %v", len(ss), MaxReadings, err)
+	}
+}
