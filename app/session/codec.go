@@ -9,7 +9,9 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"math"
+	"slices"
 	"strconv"
 	"time"
 	"unicode/utf8"
@@ -43,8 +45,13 @@ const (
 	headerSize   = 20
 	checksumSize = sha256.Size
 	maxBodySize  = MaxFileSize - headerSize - checksumSize
-	maxDepth     = 32 // nesting allowed inside skipped (unknown) values
-	maxKeyLen    = 64
+	// minSessionSize and minEditSize are the fewest bytes a valid session
+	// (a map with an id of 32 characters and the created and modified
+	// times) and a valid history entry (a map with "at" and a "field" of at
+	// least one character) take: a list that claims more entries than the
+	// bytes left could hold so is refused before anything is allocated.
+	minSessionSize = 1 + (1 + 2) + (2 + 32) + (1 + 7 + 6) + (1 + 8 + 6)
+	minEditSize    = 1 + (1 + 2 + 6) + (1 + 5 + 2)
 )
 
 // Magic opens every session file: "PAIRLN", a NUL byte (so text tools treat
@@ -96,7 +103,8 @@ type File struct {
 
 // Encode writes sessions as one session file (format FormatMajor.FormatMinor).
 // It refuses to write what Decode would refuse: no sessions, more than
-// MaxSessions, a session that fails Validate, or a file larger than
+// MaxSessions, more than MaxFileReadings readings or MaxFileHistory history
+// entries in all, a session that fails Validate, or a file larger than
 // MaxFileSize. The error then wraps ErrInvalidField or ErrTooLarge.
 func Encode(w io.Writer, sessions []*Session) error {
 	b, err := EncodeBytes(sessions)
@@ -121,9 +129,17 @@ func EncodeAppend(buf []byte, sessions []*Session) ([]byte, error) {
 		return nil, fmt.Errorf("%w: %d sessions, at most %d in one file", ErrTooLarge, len(sessions), MaxSessions)
 	}
 	seen := make(map[string]bool, len(sessions))
+	readings, history := 0, 0
 	for i, s := range sessions {
 		if s == nil {
 			return nil, fmt.Errorf("sessions[%d]: %w", i, invalid("the session is missing"))
+		}
+		readings, history = readings+len(s.Readings), history+len(s.History)
+		if readings > MaxFileReadings {
+			return nil, fmt.Errorf("%w: the sessions hold %d readings or more, at most %d fit in one file (export fewer sessions at a time)", ErrTooLarge, readings, MaxFileReadings)
+		}
+		if history > MaxFileHistory {
+			return nil, fmt.Errorf("%w: the sessions hold %d history entries or more, at most %d fit in one file (export fewer sessions at a time)", ErrTooLarge, history, MaxFileHistory)
 		}
 		if f, err := s.validate(); err != nil {
 			return nil, fmt.Errorf("sessions[%d].%s: %w", i, f, err)
@@ -357,9 +373,19 @@ func Decode(r io.Reader) (*File, error) {
 			"%w: it claims %d bytes of contents, at most %d are allowed", ErrTooLarge, length, maxBodySize)}
 	}
 	want := int64(length) + checksumSize
-	var buf bytes.Buffer
-	buf.Grow(int(min(want, 64<<10)))
-	got, err := buf.ReadFrom(io.LimitReader(r, want))
+	// The buffer starts at what the reader says it holds (a bytes.Reader in
+	// the browser, a file natively), never at what the header claims: a
+	// 200-byte file claiming 64 MiB gets a small buffer.
+	start := int64(64 << 10)
+	if l, ok := r.(interface{ Len() int }); ok {
+		start = int64(l.Len())
+	} else if st, ok := r.(interface{ Stat() (fs.FileInfo, error) }); ok {
+		if fi, err := st.Stat(); err == nil && fi.Mode().IsRegular() {
+			start = fi.Size() - headerSize
+		}
+	}
+	rest, err := readAtMost(r, want, start)
+	got := int64(len(rest))
 	if err != nil {
 		return nil, &FormatError{Offset: headerSize + got, Err: fmt.Errorf("%w: the file could not be read: %v", ErrTruncated, err)}
 	}
@@ -371,7 +397,6 @@ func Decode(r io.Reader) (*File, error) {
 	if k, _ := io.ReadFull(r, extra[:]); k > 0 {
 		return nil, &FormatError{Offset: headerSize + want, Err: invalid("there are extra bytes after the end of the file")}
 	}
-	rest := buf.Bytes()
 	body, stored := rest[:length], rest[length:]
 	h := sha256.New()
 	h.Write(hdr[:])
@@ -406,6 +431,28 @@ func Decode(r io.Reader) (*File, error) {
 	return f, nil
 }
 
+// readAtMost reads up to want bytes from r into a buffer that starts at
+// guess bytes (at least 4 KiB) and grows by at most doubling what it has
+// actually read, so that memory follows the bytes that exist, whatever
+// the header claims. It stops without error at the end of r.
+func readAtMost(r io.Reader, want, guess int64) ([]byte, error) {
+	buf := make([]byte, 0, max(4<<10, min(want, guess)))
+	for int64(len(buf)) < want {
+		if len(buf) == cap(buf) {
+			buf = slices.Grow(buf, int(min(want-int64(len(buf)), int64(len(buf)))))
+		}
+		n, err := r.Read(buf[len(buf):min(int64(cap(buf)), want)])
+		buf = buf[:len(buf)+n]
+		if err == io.EOF {
+			return buf, nil
+		}
+		if err != nil {
+			return buf, err
+		}
+	}
+	return buf, nil
+}
+
 // migrate brings sessions read from an older minor version up to date.
 // Format 1.0 is the first version, so there is nothing to do yet; a future
 // 1.1 reader fills in here what 1.0 files lack.
@@ -424,68 +471,206 @@ func notSessionFile(b []byte) error {
 	return ErrNotSessionFile
 }
 
-// bodyDecoder reads the MessagePack body field by field. It does not use
-// msgpack's reflection decoding, because that pre-allocates slices from the
-// length a hostile file claims; here every length is checked against the
-// bytes left before anything is allocated.
+// bodyDecoder reads the MessagePack body field by field, straight from the
+// bytes of the body. It does not use msgpack's decoding, because that
+// pre-allocates slices and strings from the lengths a hostile file claims
+// and reads integers into floats with their sign lost; here every length is
+// checked against the bytes left and against the limits before anything is
+// allocated, and numbers keep their value or are refused.
 type bodyDecoder struct {
-	d    *msgpack.Decoder
-	r    *bytes.Reader
-	size int64
+	b   []byte
+	pos int
+	// readings and history count the entries of all sessions so far, for
+	// MaxFileReadings and MaxFileHistory.
+	readings, history int
 }
 
-func newBodyDecoder(body []byte) *bodyDecoder {
-	r := bytes.NewReader(body)
-	return &bodyDecoder{d: msgpack.NewDecoder(r), r: r, size: int64(len(body))}
-}
+func newBodyDecoder(body []byte) *bodyDecoder { return &bodyDecoder{b: body} }
 
 // off is the file offset of the next unread byte.
-func (b *bodyDecoder) off() int64 { return headerSize + b.size - int64(b.r.Len()) }
+func (b *bodyDecoder) off() int64 { return headerSize + int64(b.pos) }
+
+// left is the number of unread bytes.
+func (b *bodyDecoder) left() int { return len(b.b) - b.pos }
 
 func (b *bodyDecoder) fail(off int64, field string, err error) *FormatError {
 	return &FormatError{Offset: off, Field: field, Err: err}
 }
 
-// wrap turns a msgpack error into an invalid-field error.
-func (b *bodyDecoder) wrap(off int64, field, want string, err error) *FormatError {
-	if errors.Is(err, io.EOF) || errors.Is(err, io.ErrUnexpectedEOF) {
-		return b.fail(off, field, invalid("the contents end in the middle of %s", want))
+func (b *bodyDecoder) short(off int64, field, want string) *FormatError {
+	return b.fail(off, field, invalid("the contents end in the middle of %s", want))
+}
+
+// bigEndian reads an n-byte unsigned number (n ≤ 8), or reports false
+// when fewer than n bytes are left.
+func (b *bodyDecoder) bigEndian(n int) (uint64, bool) {
+	if b.left() < n {
+		return 0, false
 	}
-	return b.fail(off, field, invalid("expected %s", want))
+	var v uint64
+	for _, c := range b.b[b.pos : b.pos+n] {
+		v = v<<8 | uint64(c)
+	}
+	b.pos += n
+	return v, true
 }
 
-func (b *bodyDecoder) isNil() bool {
-	c, err := b.d.PeekCode()
-	return err == nil && c == msgpcode.Nil
+func (b *bodyDecoder) isNil() bool { return b.pos < len(b.b) && b.b[b.pos] == msgpcode.Nil }
+
+// takeNil passes over a nil, if the next value is one.
+func (b *bodyDecoder) takeNil() bool {
+	if b.isNil() {
+		b.pos++
+		return true
+	}
+	return false
 }
 
-// mapEach reads a map with string keys, calling fn for each key; duplicate
-// keys are refused (two values for one field would be ambiguous evidence).
+// header reads the code of a map, array, string or binary value and its
+// length: fixed is the first code of the fixed-length form and fixedMax its
+// count (0 when the kind has none), and the codes of the 8-, 16- and 32-bit
+// length forms follow (0 for a form the kind lacks). ok is false when the
+// next value is of another kind; then nothing is read.
+func (b *bodyDecoder) header(fixed, fixedMax, c8, c16, c32 byte) (n int, ok, complete bool) {
+	if b.pos >= len(b.b) {
+		return 0, false, false
+	}
+	c := b.b[b.pos]
+	var size int
+	switch {
+	case fixedMax > 0 && c >= fixed && c < fixed+fixedMax:
+		b.pos++
+		return int(c - fixed), true, true
+	case c8 != 0 && c == c8:
+		size = 1
+	case c == c16:
+		size = 2
+	case c == c32:
+		size = 4
+	default:
+		return 0, false, true
+	}
+	b.pos++
+	v, done := b.bigEndian(size)
+	return int(v), true, done
+}
+
+func (b *bodyDecoder) mapHeader(field string) (int, *FormatError) {
+	off := b.off()
+	n, ok, done := b.header(msgpcode.FixedMapLow, 16, 0, msgpcode.Map16, msgpcode.Map32)
+	if !done {
+		return 0, b.short(off, field, "a map")
+	}
+	if !ok {
+		return 0, b.fail(off, field, invalid("expected a map"))
+	}
+	return n, nil
+}
+
+func (b *bodyDecoder) arrayHeader(field string) (int, *FormatError) {
+	off := b.off()
+	n, ok, done := b.header(msgpcode.FixedArrayLow, 16, 0, msgpcode.Array16, msgpcode.Array32)
+	if !done {
+		return 0, b.short(off, field, "a list")
+	}
+	if !ok {
+		return 0, b.fail(off, field, invalid("expected a list"))
+	}
+	return n, nil
+}
+
+// strBytes reads a string of at most max bytes and returns its bytes (part
+// of the body, not a copy), checking its length before anything else.
+func (b *bodyDecoder) strBytes(field string, key bool, max int) ([]byte, *FormatError) {
+	what, name := "text", "the text"
+	if key {
+		what, name = "a field name", "a field name"
+	}
+	off := b.off()
+	n, ok, done := b.header(msgpcode.FixedStrLow, 32, msgpcode.Str8, msgpcode.Str16, msgpcode.Str32)
+	if !done {
+		return nil, b.short(off, field, what)
+	}
+	if !ok {
+		b.pos = int(off - headerSize)
+		return nil, b.fail(off, field, invalid("expected %s", what))
+	}
+	if n > max {
+		return nil, b.fail(off, field, invalid("%s is longer than %d bytes (%d)", name, max, n))
+	}
+	if n > b.left() {
+		return nil, b.short(off, field, what)
+	}
+	s := b.b[b.pos : b.pos+n]
+	b.pos += n
+	if !utf8.Valid(s) {
+		return nil, b.fail(off, field, invalid("%s is not valid UTF-8", name))
+	}
+	return s, nil
+}
+
+// knownKeys holds every map key format 1.0 uses, so that reading a key
+// needs no new string (a lookup with string(bytes) does not allocate).
+var knownKeys = func() map[string]string {
+	m := map[string]string{}
+	for _, k := range []string{"sessions", "written_by", "id", "title", "created", "modified", "site", "instrument",
+		"description", "serial", "operator", "x_name", "x_unit", "y_name", "y_unit", "notes", "decimal_comma",
+		"location", "lat", "lon", "accuracy_m", "taken", "readings", "settings", "history", "x", "y", "note",
+		"excluded", "exclude_reason", "at", "field", "row", "old", "new", "model", "transform", "box_cox_lambda",
+		"weights", "level", "slope_ref", "intercept_ref", "variance_ratio", "x_uncertainty", "y_uncertainty",
+		"acceptance", "min_r_squared", "slope_low", "slope_high", "intercept_low", "intercept_high",
+		"max_residual", "max_residual_percent_of_span"} {
+		m[k] = k
+	}
+	return m
+}()
+
+// mapEach reads a map with string keys, calling fn for each key. At most
+// MaxMapKeys keys, each at most MaxKeyLen bytes; duplicate keys are refused
+// (two values for one field would be ambiguous evidence). The duplicate
+// check is linear: a short list for the small maps of format 1.0, a set
+// for larger ones.
 func (b *bodyDecoder) mapEach(field string, fn func(key, path string) *FormatError) *FormatError {
 	off := b.off()
-	n, err := b.d.DecodeMapLen()
-	if err != nil || n < 0 {
-		return b.wrap(off, field, "a map", err)
+	n, ferr := b.mapHeader(field)
+	if ferr != nil {
+		return ferr
 	}
-	if int64(n)*2 > int64(b.r.Len()) {
-		return b.fail(off, field, invalid("the map claims %d entries but only %d bytes are left", n, b.r.Len()))
+	if n > MaxMapKeys {
+		return b.fail(off, field, fmt.Errorf("%w: the map has %d keys, at most %d are allowed", ErrTooLarge, n, MaxMapKeys))
 	}
-	var seen []string
+	if n*2 > b.left() {
+		return b.fail(off, field, invalid("the map claims %d entries but only %d bytes are left", n, b.left()))
+	}
+	var few [24]string
+	seen := few[:0]
+	var set map[string]struct{}
+	if n > len(few) {
+		set = make(map[string]struct{}, n)
+	}
 	for i := 0; i < n; i++ {
 		koff := b.off()
-		k, err := b.d.DecodeString()
-		if err != nil {
-			return b.wrap(koff, field, "a field name", err)
+		kb, ferr := b.strBytes(field, true, MaxKeyLen)
+		if ferr != nil {
+			return ferr
 		}
-		if len(k) > maxKeyLen || !utf8.ValidString(k) {
-			return b.fail(koff, field, invalid("a field name is longer than %d bytes or not valid UTF-8", maxKeyLen))
+		k, ok := knownKeys[string(kb)]
+		if !ok {
+			k = string(kb)
 		}
-		for _, s := range seen {
-			if s == k {
-				return b.fail(koff, k, invalid("the field appears twice"))
+		dup := false
+		if set != nil {
+			_, dup = set[k]
+			set[k] = struct{}{}
+		} else {
+			for _, s := range seen {
+				dup = dup || s == k
 			}
+			seen = append(seen, k)
 		}
-		seen = append(seen, k)
+		if dup {
+			return b.fail(koff, prefixKey(field, k), invalid("the field appears twice"))
+		}
 		if ferr := fn(k, ""); ferr != nil {
 			ferr.Field = prefixKey(k, ferr.Field)
 			return ferr
@@ -499,6 +684,8 @@ func (b *bodyDecoder) mapEach(field string, fn func(key, path string) *FormatErr
 // itself), and each enclosing map or list prefixes its key or index.
 func prefixKey(key, rest string) string {
 	switch {
+	case key == "":
+		return rest
 	case rest == "":
 		return key
 	case rest[0] == '[':
@@ -511,53 +698,104 @@ func prefixIndex(i int, rest string) string {
 	return prefixKey("["+strconv.Itoa(i)+"]", rest)
 }
 
-// arrayLen reads an array header, refusing more than max elements or more
-// than the bytes left could hold (each element takes at least one byte).
-// nil reads as an empty array.
-func (b *bodyDecoder) arrayLen(field string, max int) (int, *FormatError) {
+// arrayLen reads an array header, refusing more than max elements, or more
+// than the bytes left could hold when each element takes at least minSize
+// bytes (the smallest valid encoding of one). nil reads as an empty array.
+func (b *bodyDecoder) arrayLen(field string, max, minSize int) (int, *FormatError) {
 	off := b.off()
-	if b.isNil() {
-		_ = b.d.DecodeNil()
+	if b.takeNil() {
 		return 0, nil
 	}
-	n, err := b.d.DecodeArrayLen()
-	if err != nil {
-		return 0, b.wrap(off, field, "a list", err)
+	n, ferr := b.arrayHeader(field)
+	if ferr != nil {
+		return 0, ferr
 	}
 	if n > max {
 		return 0, b.fail(off, field, fmt.Errorf("%w: the list has %d entries, at most %d are allowed", ErrTooLarge, n, max))
 	}
-	if int64(n) > int64(b.r.Len()) {
-		return 0, b.fail(off, field, invalid("the list claims %d entries but only %d bytes are left", n, b.r.Len()))
+	if int64(n)*int64(minSize) > int64(b.left()) {
+		return 0, b.fail(off, field, invalid("the list claims %d entries but only %d bytes are left (an entry takes at least %d)", n, b.left(), minSize))
 	}
 	return n, nil
 }
 
 func (b *bodyDecoder) str(field string, max int, p *string) *FormatError {
-	off := b.off()
-	n, err := b.d.PeekCode()
-	if err != nil || !msgpcode.IsString(n) {
-		return b.wrap(off, field, "text", err)
+	s, ferr := b.strBytes(field, false, max)
+	if ferr != nil {
+		return ferr
 	}
-	s, err := b.d.DecodeString()
-	if err != nil {
-		return b.wrap(off, field, "text", err)
-	}
-	if len(s) > max {
-		return b.fail(off, field, invalid("the text is longer than %d bytes (%d)", max, len(s)))
-	}
-	if !utf8.ValidString(s) {
-		return b.fail(off, field, invalid("the text is not valid UTF-8"))
-	}
-	*p = s
+	*p = string(s)
 	return nil
+}
+
+// numberSize is the number of bytes after the code c of a number, nil or
+// boolean (fixed-size values), and whether c is one of them.
+func numberSize(c byte) (int, bool) {
+	switch c {
+	case msgpcode.Nil, msgpcode.False, msgpcode.True:
+		return 0, true
+	case msgpcode.Uint8, msgpcode.Int8:
+		return 1, true
+	case msgpcode.Uint16, msgpcode.Int16:
+		return 2, true
+	case msgpcode.Float, msgpcode.Uint32, msgpcode.Int32:
+		return 4, true
+	case msgpcode.Double, msgpcode.Uint64, msgpcode.Int64:
+		return 8, true
+	}
+	return 0, false
+}
+
+// number reads any MessagePack integer or float as a float64. An integer
+// that a float64 cannot hold exactly (beyond 2⁵³, such as 2⁶⁴−1) is refused
+// rather than rounded or, as a plain conversion would, read as −1.
+func (b *bodyDecoder) number(field string) (float64, *FormatError) {
+	off := b.off()
+	if b.pos >= len(b.b) {
+		return 0, b.short(off, field, "a number")
+	}
+	c := b.b[b.pos]
+	switch {
+	case c <= msgpcode.PosFixedNumHigh:
+		b.pos++
+		return float64(c), nil
+	case c >= msgpcode.NegFixedNumLow:
+		b.pos++
+		return float64(int8(c)), nil
+	}
+	size, isNum := numberSize(c)
+	if !isNum || size == 0 {
+		return 0, b.fail(off, field, invalid("expected a number"))
+	}
+	b.pos++
+	u, ok := b.bigEndian(size)
+	if !ok {
+		return 0, b.short(off, field, "a number")
+	}
+	switch c {
+	case msgpcode.Float:
+		return float64(math.Float32frombits(uint32(u))), nil
+	case msgpcode.Double:
+		return math.Float64frombits(u), nil
+	case msgpcode.Uint8, msgpcode.Uint16, msgpcode.Uint32, msgpcode.Uint64:
+		if f := float64(u); f < 1<<64 && uint64(f) == u {
+			return f, nil
+		}
+		return 0, b.fail(off, field, invalid("the whole number %d is too large to be read exactly", u))
+	}
+	shift := 64 - 8*size
+	v := int64(u<<shift) >> shift // sign-extended
+	if f := float64(v); f < 1<<63 && int64(f) == v {
+		return f, nil
+	}
+	return 0, b.fail(off, field, invalid("the whole number %d is too large to be read exactly", v))
 }
 
 func (b *bodyDecoder) f64(field string, p *float64) *FormatError {
 	off := b.off()
-	v, err := b.d.DecodeFloat64()
-	if err != nil {
-		return b.wrap(off, field, "a number", err)
+	v, ferr := b.number(field)
+	if ferr != nil {
+		return ferr
 	}
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return b.fail(off, field, invalid("the number is not finite (%v)", v))
@@ -567,8 +805,7 @@ func (b *bodyDecoder) f64(field string, p *float64) *FormatError {
 }
 
 func (b *bodyDecoder) optF64(field string, p **float64) *FormatError {
-	if b.isNil() {
-		_ = b.d.DecodeNil()
+	if b.takeNil() {
 		*p = nil
 		return nil
 	}
@@ -582,31 +819,68 @@ func (b *bodyDecoder) optF64(field string, p **float64) *FormatError {
 
 func (b *bodyDecoder) boolean(field string, p *bool) *FormatError {
 	off := b.off()
-	v, err := b.d.DecodeBool()
-	if err != nil {
-		return b.wrap(off, field, "true or false", err)
+	if b.pos >= len(b.b) {
+		return b.short(off, field, "true or false")
 	}
-	*p = v
+	switch b.b[b.pos] {
+	case msgpcode.True:
+		*p = true
+	case msgpcode.False:
+		*p = false
+	default:
+		return b.fail(off, field, invalid("expected true or false"))
+	}
+	b.pos++
 	return nil
+}
+
+// extHeader reads the header of an extension value: its type and length.
+func (b *bodyDecoder) extHeader() (typ int8, n int, ok, complete bool) {
+	if b.pos >= len(b.b) {
+		return 0, 0, false, false
+	}
+	c := b.b[b.pos]
+	switch c {
+	case msgpcode.FixExt1, msgpcode.FixExt2, msgpcode.FixExt4, msgpcode.FixExt8, msgpcode.FixExt16:
+		n = 1 << (c - msgpcode.FixExt1)
+		b.pos++
+	case msgpcode.Ext8, msgpcode.Ext16, msgpcode.Ext32:
+		b.pos++
+		v, done := b.bigEndian(1 << (c - msgpcode.Ext8))
+		if !done {
+			return 0, 0, true, false
+		}
+		n = int(v)
+	default:
+		return 0, 0, false, true
+	}
+	if b.pos >= len(b.b) {
+		return 0, 0, true, false
+	}
+	typ = int8(b.b[b.pos])
+	b.pos++
+	return typ, n, true, true
 }
 
 // tm reads a MessagePack timestamp (extension type −1, 4, 8 or 12 bytes) or
 // nil (the zero time). Only this form is accepted.
 func (b *bodyDecoder) tm(field string, p *time.Time) *FormatError {
 	off := b.off()
-	if b.isNil() {
-		_ = b.d.DecodeNil()
+	if b.takeNil() {
 		*p = time.Time{}
 		return nil
 	}
-	id, n, err := b.d.DecodeExtHeader()
-	if err != nil || id != -1 || (n != 4 && n != 8 && n != 12) {
-		return b.wrap(off, field, "a time", err)
+	id, n, ok, done := b.extHeader()
+	switch {
+	case !done:
+		return b.short(off, field, "a time")
+	case !ok || id != -1 || (n != 4 && n != 8 && n != 12):
+		return b.fail(off, field, invalid("expected a time"))
+	case b.left() < n:
+		return b.short(off, field, "a time")
 	}
-	var raw [12]byte
-	if err := b.d.ReadFull(raw[:n]); err != nil {
-		return b.wrap(off, field, "a time", err)
-	}
+	raw := b.b[b.pos : b.pos+n]
+	b.pos += n
 	var sec int64
 	var nsec uint32
 	switch n {
@@ -628,56 +902,88 @@ func (b *bodyDecoder) tm(field string, p *time.Time) *FormatError {
 	return nil
 }
 
+// integer reads a whole number in lo … hi, given as a MessagePack integer
+// (or a float with a whole value, as some writers store every number).
 func (b *bodyDecoder) integer(field string, lo, hi int64, p *int) *FormatError {
 	off := b.off()
-	v, err := b.d.DecodeInt64()
-	if err != nil {
-		return b.wrap(off, field, "a whole number", err)
+	v, ferr := b.number(field)
+	if ferr != nil {
+		return ferr
 	}
-	if v < lo || v > hi {
-		return b.fail(off, field, invalid("%d is outside %d … %d", v, lo, hi))
+	if v != math.Trunc(v) || v < float64(lo) || v > float64(hi) {
+		return b.fail(off, field, invalid("%v is not a whole number in %d … %d", v, lo, hi))
 	}
 	*p = int(v)
 	return nil
 }
 
-// skip passes over a value of an unknown key, with bounded nesting (the
-// library's own Skip recurses without a limit).
+// skip passes over a value of an unknown key, with nesting limited to
+// MaxNesting. It allocates nothing: every length is checked against the
+// bytes left, and the cost is linear in the bytes skipped.
 func (b *bodyDecoder) skip(field string, depth int) *FormatError {
 	off := b.off()
-	c, err := b.d.PeekCode()
-	if err != nil {
-		return b.wrap(off, field, "a value", err)
+	if b.pos >= len(b.b) {
+		return b.short(off, field, "a value")
 	}
-	isMap := msgpcode.IsFixedMap(c) || c == msgpcode.Map16 || c == msgpcode.Map32
-	isArr := msgpcode.IsFixedArray(c) || c == msgpcode.Array16 || c == msgpcode.Array32
-	if !isMap && !isArr {
-		if err := b.d.Skip(); err != nil {
-			return b.wrap(off, field, "a value", err)
+	c := b.b[b.pos]
+	var n int
+	switch sz, ok := numberSize(c); {
+	case c <= msgpcode.PosFixedNumHigh || c >= msgpcode.NegFixedNumLow:
+		b.pos++
+		return nil
+	case ok:
+		n = 1 + sz
+	default:
+		if k, isStr, done := b.header(msgpcode.FixedStrLow, 32, msgpcode.Str8, msgpcode.Str16, msgpcode.Str32); isStr || !done {
+			if !done {
+				return b.short(off, field, "a value")
+			}
+			n = k
+			break
+		}
+		if k, isBin, done := b.header(0, 0, msgpcode.Bin8, msgpcode.Bin16, msgpcode.Bin32); isBin || !done {
+			if !done {
+				return b.short(off, field, "a value")
+			}
+			n = k
+			break
+		}
+		if _, k, isExt, done := b.extHeader(); isExt || !done {
+			if !done {
+				return b.short(off, field, "a value")
+			}
+			n = k
+			break
+		}
+		k, isMap, done := b.header(msgpcode.FixedMapLow, 16, 0, msgpcode.Map16, msgpcode.Map32)
+		if isMap {
+			k *= 2
+		} else if done {
+			k, isMap, done = b.header(msgpcode.FixedArrayLow, 16, 0, msgpcode.Array16, msgpcode.Array32)
+			if done && !isMap {
+				return b.fail(off, field, invalid("the value has a type MessagePack does not define (code 0x%02x)", c))
+			}
+		}
+		if !done {
+			return b.short(off, field, "a value")
+		}
+		if depth >= MaxNesting {
+			return b.fail(off, field, invalid("values are nested more than %d deep", MaxNesting))
+		}
+		if k > b.left() {
+			return b.fail(off, field, invalid("a value claims %d entries but only %d bytes are left", k, b.left()))
+		}
+		for i := 0; i < k; i++ {
+			if ferr := b.skip(field, depth+1); ferr != nil {
+				return ferr
+			}
 		}
 		return nil
 	}
-	if depth >= maxDepth {
-		return b.fail(off, field, invalid("values are nested more than %d deep", maxDepth))
+	if n > b.left() {
+		return b.short(off, field, "a value")
 	}
-	var n int
-	if isMap {
-		n, err = b.d.DecodeMapLen()
-		n *= 2
-	} else {
-		n, err = b.d.DecodeArrayLen()
-	}
-	if err != nil {
-		return b.wrap(off, field, "a value", err)
-	}
-	if int64(n) > int64(b.r.Len()) {
-		return b.fail(off, field, invalid("a value claims %d entries but only %d bytes are left", n, b.r.Len()))
-	}
-	for i := 0; i < n; i++ {
-		if ferr := b.skip(field, depth+1); ferr != nil {
-			return ferr
-		}
-	}
+	b.pos += n
 	return nil
 }
 
@@ -689,7 +995,7 @@ func (b *bodyDecoder) bundle() ([]*Session, []int64, *FormatError) {
 		switch k {
 		case "sessions":
 			have = true
-			n, ferr := b.arrayLen(path, MaxSessions)
+			n, ferr := b.arrayLen(path, MaxSessions, minSessionSize)
 			if ferr != nil {
 				return ferr
 			}
@@ -713,8 +1019,8 @@ func (b *bodyDecoder) bundle() ([]*Session, []int64, *FormatError) {
 	if ferr != nil {
 		return nil, nil, ferr
 	}
-	if b.r.Len() > 0 {
-		return nil, nil, b.fail(b.off(), "", invalid("there are %d bytes after the contents", b.r.Len()))
+	if b.left() > 0 {
+		return nil, nil, b.fail(b.off(), "", invalid("there are %d bytes after the contents", b.left()))
 	}
 	if !have || len(sessions) == 0 {
 		return nil, nil, b.fail(headerSize, "sessions", invalid("the file holds no sessions"))
@@ -758,8 +1064,7 @@ func (b *bodyDecoder) session(field string, s *Session) *FormatError {
 		case "notes":
 			return b.str(path, MaxLongText, &s.Notes)
 		case "decimal_comma":
-			if b.isNil() {
-				_ = b.d.DecodeNil()
+			if b.takeNil() {
 				s.DecimalComma = nil
 				return nil
 			}
@@ -770,8 +1075,7 @@ func (b *bodyDecoder) session(field string, s *Session) *FormatError {
 			s.DecimalComma = &v
 			return nil
 		case "location":
-			if b.isNil() {
-				_ = b.d.DecodeNil()
+			if b.takeNil() {
 				s.Location = nil
 				return nil
 			}
@@ -791,9 +1095,13 @@ func (b *bodyDecoder) session(field string, s *Session) *FormatError {
 				return b.skip(p, 0)
 			})
 		case "readings":
-			n, ferr := b.arrayLen(path, MaxReadings)
+			off := b.off()
+			n, ferr := b.arrayLen(path, MaxReadings, 1)
 			if ferr != nil {
 				return ferr
+			}
+			if b.readings += n; b.readings > MaxFileReadings {
+				return b.fail(off, path, fmt.Errorf("%w: the sessions hold more than %d readings in all", ErrTooLarge, MaxFileReadings))
 			}
 			s.Readings = make([]Reading, n)
 			for i := range s.Readings {
@@ -806,9 +1114,13 @@ func (b *bodyDecoder) session(field string, s *Session) *FormatError {
 		case "settings":
 			return b.settings(path, &s.Settings)
 		case "history":
-			n, ferr := b.arrayLen(path, MaxHistory)
+			off := b.off()
+			n, ferr := b.arrayLen(path, MaxHistory, minEditSize)
 			if ferr != nil {
 				return ferr
+			}
+			if b.history += n; b.history > MaxFileHistory {
+				return b.fail(off, path, fmt.Errorf("%w: the sessions hold more than %d history entries in all", ErrTooLarge, MaxFileHistory))
 			}
 			s.History = make([]Edit, n)
 			for i := range s.History {
@@ -866,13 +1178,13 @@ func (b *bodyDecoder) settings(field string, st *Settings) *FormatError {
 	ferr := b.mapEach(field, func(k, p string) *FormatError {
 		switch k {
 		case "model":
-			return b.str(p, maxKeyLen, &model)
+			return b.str(p, MaxKeyLen, &model)
 		case "transform":
-			return b.str(p, maxKeyLen, &transform)
+			return b.str(p, MaxKeyLen, &transform)
 		case "box_cox_lambda":
 			return b.optF64(p, &st.BoxCoxLambda)
 		case "weights":
-			return b.str(p, maxKeyLen, &weights)
+			return b.str(p, MaxKeyLen, &weights)
 		case "level":
 			return b.f64(p, &st.Level)
 		case "slope_ref":
@@ -886,8 +1198,7 @@ func (b *bodyDecoder) settings(field string, st *Settings) *FormatError {
 		case "y_uncertainty":
 			return b.f64(p, &st.YUncertainty)
 		case "acceptance":
-			if b.isNil() {
-				_ = b.d.DecodeNil()
+			if b.takeNil() {
 				st.Acceptance = nil
 				return nil
 			}

@@ -318,6 +318,13 @@ func FuzzDecode(f *testing.F) {
 func FuzzDecodeBody(f *testing.F) {
 	f.Add(marshalBody(f, genericSession()))
 	f.Add([]byte{0x81, 0xa8, 's', 'e', 's', 's', 'i', 'o', 'n', 's', 0xdd, 0xff, 0xff, 0xff, 0xff})
+	// The forged files of the limit tests: empty readings, a level of
+	// 2^64-1, a history of one-byte entries, a map of too many keys.
+	body := func(raw []byte) []byte { return raw[headerSize : len(raw)-checksumSize] }
+	f.Add(body(rawFile(f, rawSession(f, 1, 1000))))
+	f.Add(body(rawFile(f, rawSession(f, 1, 2, mp(f, "settings"), append([]byte{0x81}, append(mp(f, "level"), 0xcf, 0xff, 0xff, 0xff, 0xff, 0xff, 0xff, 0xff, 0xff)...)))))
+	f.Add(body(rawFile(f, rawSession(f, 1, 0, mp(f, "history"), append([]byte{0xdc, 0x01, 0x00}, bytes.Repeat([]byte{0x80}, 256)...)))))
+	f.Add(body(rawFile(f, rawSession(f, 1, 0, mp(f, "settings"), append([]byte{0xde, 0x01, 0x01}, bytes.Repeat([]byte{0xa1, 'k', 0xc0}, 257)...)))))
 	f.Fuzz(func(t *testing.T, body []byte) {
 		file, err := Decode(bytes.NewReader(wrap(1, 0, body)))
 		if err != nil {

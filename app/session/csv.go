@@ -1,11 +1,10 @@
 package session
 
 import (
-	"bytes"
-	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"slices"
 	"strconv"
 	"strings"
@@ -15,8 +14,12 @@ import (
 	"unicode/utf8"
 )
 
-// MaxCSVSize is the largest CSV or TSV file ReadCSV imports, in bytes.
+// MaxCSVSize is the largest CSV or TSV file ReadCSV imports, in bytes (the
+// limits are in validate.go).
 const MaxCSVSize = MaxFileSize
+
+// PreviewRows is the number of data rows CSVResult.Rows keeps.
+const PreviewRows = 100
 
 // DetectColumn as CSVOptions.XCol or YCol asks ReadCSV to choose the column.
 const DetectColumn = -1
@@ -33,6 +36,11 @@ type CSVOptions struct {
 	// (or any negative value) picks the first numeric column not used by the
 	// other; XCol == YCol (as in the zero value) detects both.
 	XCol, YCol int
+	// PairlineExport says whether the text is Pairline's own readings export,
+	// whose text cells were neutralised against formulas (see WriteTable):
+	// then the added apostrophe is taken off again. nil detects it from the
+	// header row.
+	PairlineExport *bool
 }
 
 // SkippedRow is a data row that gave no reading, and why.
@@ -45,24 +53,36 @@ type SkippedRow struct {
 // so that cells that are not numbers are kept and shown; Lines[i] is the
 // file line of X[i] and Y[i].
 type CSVResult struct {
-	Header       []string     `json:"header"`
-	Rows         [][]string   `json:"rows"` // every non-blank data row, all columns
-	X, Y         []string     `json:"-"`
-	Lines        []int        `json:"lines"`
-	Skipped      []SkippedRow `json:"skipped"`
-	Blank        int          `json:"blank"`      // blank rows between data rows
-	Incomplete   int          `json:"incomplete"` // rows without an x or a y cell
-	Delimiter    rune         `json:"delimiter"`
-	DecimalComma bool         `json:"decimal_comma"`
-	HasHeader    bool         `json:"has_header"`
-	XCol, YCol   int          `json:"-"` // the columns used, from 0
+	Header []string `json:"header"`
+	// Rows are the first PreviewRows non-blank data rows, all columns, for
+	// showing the table; the readings are X and Y.
+	Rows  [][]string `json:"rows"`
+	X, Y  []string   `json:"-"`
+	Lines []int      `json:"lines"`
+	// Width is the number of columns of the widest row (header included).
+	Width int `json:"width"`
+	// NumericColumns are the columns (from 0) in which at least half of the
+	// non-empty data cells are numbers: the columns x and y are chosen from.
+	NumericColumns []int        `json:"numeric_columns"`
+	Skipped        []SkippedRow `json:"skipped"`
+	Blank          int          `json:"blank"`      // blank rows between data rows
+	Incomplete     int          `json:"incomplete"` // rows without an x or a y cell
+	Delimiter      rune         `json:"delimiter"`
+	DecimalComma   bool         `json:"decimal_comma"`
+	HasHeader      bool         `json:"has_header"`
+	// PairlineExport is true when the text is Pairline's own readings export
+	// (its header row names the columns note, excluded, exclude_reason and
+	// taken after x and y); neutralised cells were then read back as written.
+	PairlineExport bool `json:"pairline_export"`
+	XCol, YCol     int  `json:"-"` // the columns used, from 0
 	// Warnings are things worth a look: a file that was not UTF-8, columns
 	// that mix decimal commas and points.
 	Warnings []string `json:"warnings"`
 }
 
 // CSVError is a problem with a CSV or TSV file at a line and column (both
-// from 1; 0 when not known). Err wraps one of the ErrCSV… sentinels.
+// from 1, the column counted in characters; 0 when not known). Err wraps
+// one of the ErrCSV… sentinels.
 type CSVError struct {
 	Line, Column int
 	Err          error
@@ -82,23 +102,32 @@ func (e *CSVError) Unwrap() error { return e.Err }
 
 // The problems ReadCSV reports, each wrapped in a *CSVError.
 var (
-	ErrCSVTooLarge  = errors.New("the file is larger than Pairline imports")
-	ErrCSVNotText   = errors.New("the file is not a text table (is it a spreadsheet or session file? save it as CSV first)")
-	ErrCSVQuote     = errors.New("a quote mark (\") is not closed, or stands inside a value; put quotes around the whole value or remove the mark")
-	ErrCSVNoData    = errors.New("the file holds no readings")
-	ErrCSVColumns   = errors.New("no two columns of numbers were found; choose the x and y columns")
-	ErrCSVNoColumn  = errors.New("the chosen column does not exist")
-	ErrCSVManyRows  = errors.New("the file has more rows than one session may hold")
-	ErrCSVSameColum = errors.New("x and y cannot be the same column")
+	ErrCSVTooLarge   = errors.New("the file is larger than Pairline imports")
+	ErrCSVNotText    = errors.New("the file is not a text table (is it a spreadsheet or session file? save it as CSV first)")
+	ErrCSVQuote      = errors.New("a quote mark (\") is not closed, or stands inside a value; put quotes around the whole value or remove the mark")
+	ErrCSVNoData     = errors.New("the file holds no readings")
+	ErrCSVColumns    = errors.New("no two columns of numbers were found; choose the x and y columns")
+	ErrCSVNoColumn   = errors.New("the chosen column does not exist")
+	ErrCSVManyRows   = errors.New("the file has more rows than one session may hold")
+	ErrCSVSameColum  = errors.New("x and y cannot be the same column")
+	ErrCSVManyFields = errors.New("a row has more cells than Pairline reads")
+	ErrCSVLongField  = errors.New("a cell is longer than Pairline reads")
 )
 
 // ReadCSV imports paired readings from CSV or TSV text.
 //
 // Text: UTF-8 with or without a byte-order mark, or UTF-16 with a
 // byte-order mark (as spreadsheet "Unicode text" exports are). Text that is
-// not valid UTF-8 is read as Latin-1, with a warning. Quotes, doubled
-// quotes inside quotes, CRLF line ends and blank rows are handled as
-// encoding/csv handles them (RFC 4180).
+// not valid UTF-8 is read as Latin-1, with a warning. Fields follow RFC 4180:
+// a field in quotes may hold the delimiter, line ends and doubled quotes
+// (""), a quote elsewhere is an error. Rows end at LF, CRLF or a lone CR (as
+// old Mac spreadsheets write); a line end inside quotes belongs to the field.
+//
+// Limits (validate.go): at most MaxCSVSize bytes, MaxCSVFields cells in a row
+// (delimiters between empty cells count), MaxCSVFieldLen bytes in a cell and
+// MaxReadings data rows; past one, ReadCSV stops with a *CSVError naming the
+// line and the limit. The cost is linear in the size of the text: two passes
+// over it, and memory for the chosen cells, not for every cell.
 //
 // Detection, when the options leave it open (common practice, written down):
 //   - Delimiter: in the first 100 rows, for each of tab, ';' and ',', the
@@ -113,11 +142,13 @@ var (
 //     for the comma, "3.14" or "1,234.5" for the point; "1,234" does not
 //     vote); the majority wins, and a tie goes to the comma when the
 //     delimiter is ';', otherwise to the point.
+//   - Pairline's own export: the header row has x, y, note, excluded,
+//     exclude_reason and taken (as WriteReadingsCSV writes it).
 //
 // Rows whose cells are all empty count as Blank; rows without an x or y
 // cell count as Incomplete and are listed in Skipped. Errors are *CSVError.
 func ReadCSV(r io.Reader, opt CSVOptions) (*CSVResult, error) {
-	data, err := io.ReadAll(io.LimitReader(r, MaxCSVSize+1))
+	data, err := readText(r, MaxCSVSize)
 	if err != nil {
 		return nil, &CSVError{Err: fmt.Errorf("the file could not be read: %w", err)}
 	}
@@ -131,6 +162,24 @@ func ReadCSV(r io.Reader, opt CSVOptions) (*CSVResult, error) {
 	return readTable(text, opt, warn)
 }
 
+// readText reads at most limit+1 bytes of r into one string, sized from the
+// start when r says how much it holds (a bytes.Reader, a file), so that a
+// 64 MiB file is not copied while it is read.
+func readText(r io.Reader, limit int64) (string, error) {
+	var sb strings.Builder
+	guess := int64(64 << 10)
+	if l, ok := r.(interface{ Len() int }); ok {
+		guess = int64(l.Len())
+	} else if st, ok := r.(interface{ Stat() (fs.FileInfo, error) }); ok {
+		if fi, err := st.Stat(); err == nil && fi.Mode().IsRegular() {
+			guess = fi.Size()
+		}
+	}
+	sb.Grow(int(max(0, min(guess, limit+1))))
+	_, err := io.Copy(&sb, io.LimitReader(r, limit+1))
+	return sb.String(), err
+}
+
 // ReadPaste imports a block pasted from a spreadsheet: tab-separated unless
 // the options say otherwise or the text has no tab (then as ReadCSV).
 func ReadPaste(text string, opt CSVOptions) (*CSVResult, error) {
@@ -140,86 +189,133 @@ func ReadPaste(text string, opt CSVOptions) (*CSVResult, error) {
 	if opt.Delimiter == 0 && strings.ContainsRune(text, '\t') {
 		opt.Delimiter = '\t'
 	}
-	t, warn, cerr := decodeText([]byte(text))
+	t, warn, cerr := decodeText(text)
 	if cerr != nil {
 		return nil, cerr
 	}
 	return readTable(t, opt, warn)
 }
 
-func decodeText(data []byte) (string, []string, *CSVError) {
+// decodeText turns the bytes of a file into UTF-8 text. Each conversion
+// writes the new text once, at its final size.
+func decodeText(data string) (string, []string, *CSVError) {
 	var warn []string
 	switch {
-	case bytes.HasPrefix(data, []byte{0xef, 0xbb, 0xbf}):
+	case strings.HasPrefix(data, "\xef\xbb\xbf"):
 		data = data[3:]
-	case bytes.HasPrefix(data, []byte{0xff, 0xfe}), bytes.HasPrefix(data, []byte{0xfe, 0xff}):
+	case strings.HasPrefix(data, "\xff\xfe"), strings.HasPrefix(data, "\xfe\xff"):
 		be := data[0] == 0xfe
 		data = data[2:]
 		if len(data)%2 != 0 {
 			return "", nil, &CSVError{Err: fmt.Errorf("%w: the UTF-16 text has an odd number of bytes", ErrCSVNotText)}
 		}
-		u := make([]uint16, len(data)/2)
-		for i := range u {
+		var sb strings.Builder
+		sb.Grow(len(data) * 3 / 2)
+		var pend rune = -1
+		for i := 0; i < len(data); i += 2 {
+			u := rune(data[i+1])<<8 | rune(data[i])
 			if be {
-				u[i] = uint16(data[2*i])<<8 | uint16(data[2*i+1])
-			} else {
-				u[i] = uint16(data[2*i+1])<<8 | uint16(data[2*i])
+				u = rune(data[i])<<8 | rune(data[i+1])
 			}
+			switch {
+			case pend >= 0 && utf16.IsSurrogate(u) && u >= 0xdc00:
+				sb.WriteRune(utf16.DecodeRune(pend, u))
+				pend = -1
+				continue
+			case pend >= 0:
+				sb.WriteRune(utf8.RuneError)
+				pend = -1
+			}
+			if utf16.IsSurrogate(u) && u < 0xdc00 {
+				pend = u
+				continue
+			}
+			if utf16.IsSurrogate(u) {
+				u = utf8.RuneError
+			}
+			sb.WriteRune(u)
 		}
-		data = []byte(string(utf16.Decode(u)))
-	}
-	if i := bytes.IndexByte(data, 0); i >= 0 {
-		line := 1 + bytes.Count(data[:i], []byte{'\n'})
-		return "", nil, &CSVError{Line: line, Err: ErrCSVNotText}
-	}
-	if !utf8.Valid(data) {
-		rs := make([]rune, len(data))
-		for i, b := range data {
-			rs[i] = rune(b)
+		if pend >= 0 {
+			sb.WriteRune(utf8.RuneError)
 		}
-		data = []byte(string(rs))
+		data = sb.String()
+	}
+	if i := strings.IndexByte(data, 0); i >= 0 {
+		return "", nil, &CSVError{Line: lineAt(data, i), Err: ErrCSVNotText}
+	}
+	if !utf8.ValidString(data) {
+		var sb strings.Builder
+		sb.Grow(2 * len(data))
+		for i := 0; i < len(data); i++ {
+			sb.WriteRune(rune(data[i]))
+		}
+		data = sb.String()
 		warn = append(warn, "The file is not UTF-8 text; it was read as Latin-1. Check that units such as µ and ° look right.")
 	}
-	return string(data), warn, nil
+	return data, warn, nil
 }
 
-// detectDelimiter applies the rule documented on ReadCSV.
+// lineAt is the line (from 1) of byte i of text, counting LF, CRLF and a
+// lone CR as line ends, as the reader does.
+func lineAt(text string, i int) int {
+	line := 1
+	for j := 0; j < i; j++ {
+		if text[j] == '\n' || (text[j] == '\r' && (j+1 >= len(text) || text[j+1] != '\n')) {
+			line++
+		}
+	}
+	return line
+}
+
+// columnAt is the column (from 1, in characters) of byte i of text.
+func columnAt(text string, i int) int {
+	start := strings.LastIndexAny(text[:i], "\r\n") + 1
+	return utf8.RuneCountInString(text[start:i]) + 1
+}
+
+// detectDelimiter applies the rule documented on ReadCSV. It looks at the
+// first 100 non-blank rows only (a lone CR ends a row, as in the reader).
 func detectDelimiter(text string) rune {
 	cands := []rune{'\t', ';', ','}
 	var counts [][3]int
 	var cur [3]int
 	inQuote, nonEmpty := false, false
-	for _, c := range text {
-		if len(counts) >= 100 {
-			break
-		}
+	for i := 0; i < len(text) && len(counts) < 100; i++ {
+		c := text[i]
 		switch {
 		case c == '"':
 			inQuote = !inQuote
 			nonEmpty = true
 		case inQuote:
-		case c == '\n':
+		case c == '\n' || c == '\r':
 			if nonEmpty {
 				counts = append(counts, cur)
 			}
 			cur, nonEmpty = [3]int{}, false
+		case c == '\t':
+			cur[0]++
+		case c == ';':
+			cur[1]++
+		case c == ',':
+			cur[2]++
+		case c == ' ' || c == '\v' || c == '\f':
+		case c < utf8.RuneSelf:
+			nonEmpty = true
 		default:
-			for i, d := range cands {
-				if c == d {
-					cur[i]++
-				}
-			}
-			if !unicode.IsSpace(c) {
+			r, n := utf8.DecodeRuneInString(text[i:])
+			if !unicode.IsSpace(r) {
 				nonEmpty = true
 			}
+			i += n - 1
 		}
 	}
 	if nonEmpty && len(counts) < 100 {
 		counts = append(counts, cur)
 	}
 	best, bestScore := ',', 0
+	freq := map[int]int{}
 	for i, d := range cands {
-		freq := map[int]int{}
+		clear(freq)
 		for _, c := range counts {
 			if c[i] > 0 {
 				freq[c[i]]++
@@ -236,11 +332,258 @@ func detectDelimiter(text string) rune {
 	return best
 }
 
+// isNumberCell is whether s reads as a number (with the decimal point for
+// the ambiguous form). Cells that cannot start a number (a letter, a quote)
+// are turned down at once: the column counts check every cell.
 func isNumberCell(s string) bool {
+	if _, ok := plainNumber(s); ok {
+		return true
+	}
+	t := strings.TrimLeft(s, " \t\n\v\f\r")
+	if t == "" || t[0] < utf8.RuneSelf && !strings.ContainsRune("0123456789+-.,", rune(t[0])) {
+		return false
+	}
 	_, _, err := parseNumber(s, hintDot)
 	return err == nil
 }
 
+// csvScanner splits text into rows of fields (RFC 4180, with LF, CRLF or a
+// lone CR ending a row). Fields are parts of the text, not copies, unless
+// they hold doubled quotes; the slice of fields is reused from row to row,
+// so an empty field costs one slice element and nothing else.
+type csvScanner struct {
+	text   string
+	delim  string
+	pos    int
+	line   int // line of the next row, from 1
+	fields []string
+	// special marks the bytes an unquoted field stops at: line ends, the
+	// quote and the first byte of the delimiter.
+	special [256]bool
+	// empty counts the empty lines passed over.
+	empty int
+	// truncated says that the last row had more fields than keep.
+	truncated bool
+	// raw asks for a value with doubled quotes as it stands in the text,
+	// quotes and all, instead of a new string: for counting cells, where
+	// such a value is neither blank nor a number either way.
+	raw bool
+	// keep, when above 0, is the number of fields wanted from each row: the
+	// rest of a row is passed over without splitting it. Only for text that
+	// a scanner without keep has read without error.
+	keep int
+}
+
+func newCSVScanner(text string, delim rune) *csvScanner {
+	s := &csvScanner{text: text, delim: string(delim), line: 1}
+	s.special['\n'], s.special['\r'], s.special['"'], s.special[s.delim[0]] = true, true, true, true
+	return s
+}
+
+// next returns the fields of the next row and the line it starts on;
+// fields is nil at the end of the text. The fields are valid until the
+// next call.
+func (s *csvScanner) next() (fields []string, line int, err *CSVError) {
+	t, d := s.text, s.delim
+	// Empty lines are blank rows; they are passed over here at a few
+	// nanoseconds each and counted in s.empty.
+	for s.pos < len(t) && (t[s.pos] == '\n' || t[s.pos] == '\r') {
+		if t[s.pos] == '\r' && s.pos+1 < len(t) && t[s.pos+1] == '\n' {
+			s.pos++
+		}
+		s.pos++
+		s.line++
+		s.empty++
+	}
+	if s.pos >= len(t) {
+		return nil, 0, nil
+	}
+	line = s.line
+	s.fields = s.fields[:0]
+	s.truncated = false
+	for {
+		start := s.pos
+		if len(s.fields) == MaxCSVFields {
+			return nil, line, &CSVError{Line: s.line, Column: columnAt(t, start),
+				Err: fmt.Errorf("%w (at most %d cells in a row)", ErrCSVManyFields, MaxCSVFields)}
+		}
+		var f string
+		if start < len(t) && t[start] == '"' {
+			startLine := s.line
+			var unq []byte // the field without its doubled quotes, when it has any
+			doubled := false
+			i, seg := start+1, start+1
+			for {
+				j := strings.IndexByte(t[i:], '"')
+				if j < 0 {
+					return nil, line, &CSVError{Line: startLine,
+						Err: fmt.Errorf("%w (the quoted value that starts on this line is never closed)", ErrCSVQuote)}
+				}
+				s.countLines(t[i : i+j])
+				i += j
+				if i-start > MaxCSVFieldLen {
+					return nil, line, &CSVError{Line: startLine, Column: columnAt(t, start),
+						Err: fmt.Errorf("%w (at most %d bytes in a cell)", ErrCSVLongField, MaxCSVFieldLen)}
+				}
+				if i+1 < len(t) && t[i+1] == '"' {
+					doubled = true
+					if !s.raw {
+						unq = append(unq, t[seg:i+1]...)
+					}
+					i += 2
+					seg = i
+					continue
+				}
+				break
+			}
+			switch {
+			case doubled && s.raw:
+				f = t[start : i+1]
+			case doubled:
+				f = string(append(unq, t[seg:i]...))
+			default:
+				f = t[seg:i]
+			}
+			s.pos = i + 1
+			if s.pos < len(t) && t[s.pos] != '\n' && t[s.pos] != '\r' && !s.atDelim(s.pos) {
+				return nil, line, &CSVError{Line: s.line, Column: columnAt(t, s.pos),
+					Err: fmt.Errorf("%w (extra text after a closing quote)", ErrCSVQuote)}
+			}
+		} else {
+			// The field ends at a line end or the delimiter; a quote inside
+			// it is an error. The scan stops one byte past the longest
+			// field allowed.
+			stop := min(len(t), start+MaxCSVFieldLen+1)
+			i := start
+			for i < stop && !s.special[t[i]] {
+				i++
+			}
+			for i < stop && t[i] != '\n' && t[i] != '\r' && !s.atDelim(i) {
+				if t[i] == '"' {
+					return nil, line, &CSVError{Line: s.line, Column: columnAt(t, i),
+						Err: fmt.Errorf("%w (a quote mark inside a value that does not start with one)", ErrCSVQuote)}
+				}
+				i++ // a byte that starts like a delimiter of several bytes
+				for i < stop && !s.special[t[i]] {
+					i++
+				}
+			}
+			if i-start > MaxCSVFieldLen {
+				return nil, line, &CSVError{Line: s.line, Column: columnAt(t, start),
+					Err: fmt.Errorf("%w (at most %d bytes in a cell)", ErrCSVLongField, MaxCSVFieldLen)}
+			}
+			f = t[start:i]
+			s.pos = i
+		}
+		s.fields = append(s.fields, f)
+		if len(s.fields) == s.keep && s.pos < len(t) && s.atDelim(s.pos) {
+			s.skipRest()
+		}
+		switch {
+		case s.pos >= len(t):
+			return s.fields, line, nil
+		case t[s.pos] == '\n':
+			s.pos++
+			s.line++
+			return s.fields, line, nil
+		case t[s.pos] == '\r':
+			s.pos++
+			if s.pos < len(t) && t[s.pos] == '\n' {
+				s.pos++
+			}
+			s.line++
+			return s.fields, line, nil
+		}
+		s.pos += len(d) // the delimiter
+	}
+}
+
+// skipRest moves to the line end that ends the current row, passing over
+// quoted values (which may hold line ends) as values.
+func (s *csvScanner) skipRest() {
+	t := s.text
+	s.truncated = true
+	for {
+		j := strings.IndexAny(t[s.pos:], "\r\n\"")
+		if j < 0 {
+			s.pos = len(t)
+			return
+		}
+		s.pos += j
+		if t[s.pos] != '"' {
+			return
+		}
+		// A quoted value: to its closing quote (doubled quotes stay inside).
+		i := s.pos + 1
+		for {
+			k := strings.IndexByte(t[i:], '"')
+			if k < 0 {
+				s.pos = len(t)
+				return
+			}
+			s.countLines(t[i : i+k])
+			i += k + 1
+			if i < len(t) && t[i] == '"' {
+				i++
+				continue
+			}
+			break
+		}
+		s.pos = i
+	}
+}
+
+// atDelim reports whether the delimiter starts at byte i.
+func (s *csvScanner) atDelim(i int) bool {
+	if len(s.delim) == 1 {
+		return s.text[i] == s.delim[0]
+	}
+	return strings.HasPrefix(s.text[i:], s.delim)
+}
+
+// unraw is the value of a field the scanner gave in raw form: one with a
+// quote in it is still quoted, with its quotes doubled.
+func unraw(f string) string {
+	if strings.IndexByte(f, '"') < 0 {
+		return f
+	}
+	return strings.ReplaceAll(f[1:len(f)-1], `""`, `"`)
+}
+
+// countLines adds the line ends in part (inside a quoted field) to s.line.
+func (s *csvScanner) countLines(part string) {
+	for k := 0; k < len(part); k++ {
+		switch part[k] {
+		case '\n':
+			s.line++
+		case '\r':
+			if k+1 >= len(part) || part[k+1] != '\n' {
+				s.line++
+			}
+		}
+	}
+}
+
+func isBlankRow(fields []string) bool {
+	for _, f := range fields {
+		if !isBlank(f) {
+			return false
+		}
+	}
+	return true
+}
+
+// exportColumns are the columns after x and y of WriteReadingsCSV.
+var exportColumns = []string{"note", "excluded", "exclude_reason", "taken"}
+
+func isPairlineExport(header []string) bool {
+	return len(header) == 2+len(exportColumns) && slices.Equal(header[2:], exportColumns)
+}
+
+// readTable reads the table in two linear passes: the first counts, per
+// column, the non-empty cells and the number cells (and keeps the first
+// rows for the header and the preview), the second takes the chosen
+// columns. Neither keeps every cell.
 func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 	res := &CSVResult{Warnings: warn}
 	res.Delimiter = opt.Delimiter
@@ -250,60 +593,50 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 	if res.Delimiter == '"' || res.Delimiter == '\r' || res.Delimiter == '\n' || !utf8.ValidRune(res.Delimiter) || res.Delimiter == utf8.RuneError {
 		return nil, &CSVError{Err: fmt.Errorf("%q cannot separate fields", res.Delimiter)}
 	}
-	cr := csv.NewReader(strings.NewReader(text))
-	cr.Comma = res.Delimiter
-	cr.FieldsPerRecord = -1
 
-	type row struct {
-		line   int
-		fields []string
-	}
-	var rows []row
-	var prevEnd int64
-	lineAtPrevEnd := 1
+	// Pass 1.
+	var first, second []string
+	firstLine := 0
+	var filled, nums []int // per column, over the rows after the first
+	rows := 0
+	sc := newCSVScanner(text, res.Delimiter)
 	for {
-		rec, err := cr.Read()
-		if err == io.EOF {
+		sc.raw = rows >= 2 // the first two rows are kept as they are read
+		fields, line, cerr := sc.next()
+		if cerr != nil {
+			return nil, cerr
+		}
+		if fields == nil {
 			break
 		}
-		if err != nil {
-			var pe *csv.ParseError
-			if errors.As(err, &pe) {
-				e := pe.Err
-				if errors.Is(e, csv.ErrQuote) || errors.Is(e, csv.ErrBareQuote) {
-					e = fmt.Errorf("%w (%v)", ErrCSVQuote, pe.Err)
-				}
-				if errors.Is(e, ErrCSVQuote) && pe.StartLine > 0 && pe.StartLine < pe.Line {
-					// An unclosed quote is found only at the end; point at its start.
-					return nil, &CSVError{Line: pe.StartLine, Err: fmt.Errorf("%w (the quoted value that starts on this line is never closed)", ErrCSVQuote)}
-				}
-				return nil, &CSVError{Line: pe.Line, Column: pe.Column, Err: e}
-			}
-			return nil, &CSVError{Err: err}
-		}
-		line, _ := cr.FieldPos(0)
-		res.Blank += max(0, line-lineAtPrevEnd)
-		end := cr.InputOffset()
-		lineAtPrevEnd += strings.Count(text[prevEnd:end], "\n")
-		prevEnd = end
-		blank := true
-		for _, f := range rec {
-			if !isBlank(f) {
-				blank = false
-				break
-			}
-		}
-		if blank {
-			res.Blank++
+		if isBlankRow(fields) {
 			continue
 		}
-		if len(rows) > MaxReadings {
+		rows++
+		if rows > MaxReadings+1 {
 			return nil, &CSVError{Line: line, Err: fmt.Errorf("%w (at most %d)", ErrCSVManyRows, MaxReadings)}
 		}
-		rows = append(rows, row{line, rec})
+		res.Width = max(res.Width, len(fields))
+		switch rows {
+		case 1:
+			first, firstLine = slices.Clone(fields), line
+			continue
+		case 2:
+			second = slices.Clone(fields)
+		}
+		for len(filled) < len(fields) {
+			filled, nums = append(filled, 0), append(nums, 0)
+		}
+		for c, f := range fields {
+			if !isBlank(f) {
+				filled[c]++
+				if isNumberCell(f) {
+					nums[c]++
+				}
+			}
+		}
 	}
-	// Blank lines before the first row are not "between data rows".
-	if len(rows) == 0 {
+	if rows == 0 {
 		return nil, &CSVError{Err: ErrCSVNoData}
 	}
 
@@ -319,52 +652,60 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 	if opt.Header != nil {
 		res.HasHeader = *opt.Header
 	} else {
-		first := rows[0].fields
 		hasText := false
 		for _, c := range first {
 			if !isBlank(c) && !isNumberCell(c) {
 				hasText = true
 			}
 		}
-		res.HasHeader = hasText && (len(rows) == 1 || numbers(rows[1].fields) > numbers(first))
+		res.HasHeader = hasText && (rows == 1 || numbers(second) > numbers(first))
 	}
-	data := rows
 	if res.HasHeader {
-		res.Header = rows[0].fields
-		data = rows[1:]
-	}
-	if len(data) == 0 {
-		return nil, &CSVError{Line: rows[0].line, Err: fmt.Errorf("%w: there is only a header row", ErrCSVNoData)}
-	}
-	width := len(res.Header)
-	for _, r := range data {
-		width = max(width, len(r.fields))
-	}
-
-	numeric := func(col int) bool {
-		num, filled := 0, 0
-		for _, r := range data {
-			if col < len(r.fields) && !isBlank(r.fields[col]) {
-				filled++
-				if isNumberCell(r.fields[col]) {
-					num++
+		res.Header = first
+	} else {
+		for len(filled) < len(first) {
+			filled, nums = append(filled, 0), append(nums, 0)
+		}
+		for c, f := range first {
+			if !isBlank(f) {
+				filled[c]++
+				if isNumberCell(f) {
+					nums[c]++
 				}
 			}
 		}
-		return num > 0 && 2*num >= filled
 	}
+	if res.HasHeader && rows == 1 {
+		return nil, &CSVError{Line: firstLine, Err: fmt.Errorf("%w: there is only a header row", ErrCSVNoData)}
+	}
+	if opt.PairlineExport != nil {
+		res.PairlineExport = *opt.PairlineExport
+	} else {
+		res.PairlineExport = res.HasHeader && isPairlineExport(res.Header)
+	}
+	if res.PairlineExport && res.HasHeader {
+		for i, h := range res.Header {
+			res.Header[i] = unneutralise(h)
+		}
+	}
+	for c := range filled {
+		if nums[c] > 0 && 2*nums[c] >= filled[c] {
+			res.NumericColumns = append(res.NumericColumns, c)
+		}
+	}
+
 	xc, yc := opt.XCol, opt.YCol
 	if xc == yc {
 		xc, yc = DetectColumn, DetectColumn
 	}
 	for _, c := range []int{xc, yc} {
-		if c >= width {
-			return nil, &CSVError{Err: fmt.Errorf("%w: column %d (the file has %d columns)", ErrCSVNoColumn, c+1, width)}
+		if c >= res.Width {
+			return nil, &CSVError{Err: fmt.Errorf("%w: column %d (the file has %d columns)", ErrCSVNoColumn, c+1, res.Width)}
 		}
 	}
 	pick := func(not int) int {
-		for c := 0; c < width; c++ {
-			if c != not && numeric(c) {
+		for _, c := range res.NumericColumns {
+			if c != not {
 				return c
 			}
 		}
@@ -381,14 +722,64 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 	}
 	res.XCol, res.YCol = xc, yc
 
-	for _, r := range data {
-		res.Rows = append(res.Rows, r.fields)
-		if xc >= len(r.fields) || yc >= len(r.fields) {
-			res.Incomplete++
-			res.Skipped = append(res.Skipped, SkippedRow{r.line, fmt.Sprintf("the row has only %d columns", len(r.fields))})
+	// Pass 2: the rows again, split only as far as the columns used (and
+	// the preview) need.
+	sc = newCSVScanner(text, res.Delimiter)
+	seen, pendingBlank, data := 0, 0, 0
+	for {
+		if len(res.Rows) >= PreviewRows {
+			sc.keep, sc.raw = max(xc, yc)+1, true
+		}
+		empty, pos, posLine := sc.empty, sc.pos, sc.line
+		fields, line, cerr := sc.next()
+		if cerr == nil && sc.truncated && isBlankRow(fields) {
+			// The cells kept are empty: the whole row decides whether it
+			// is blank. Each row is split again at most once.
+			sc.pos, sc.line, sc.empty, sc.keep = pos, posLine, empty, 0
+			fields, line, cerr = sc.next()
+		}
+		if cerr != nil {
+			return nil, cerr // cannot happen: pass 1 read the same text
+		}
+		if seen > 0 {
+			pendingBlank += sc.empty - empty
+		}
+		if fields == nil {
+			break
+		}
+		if isBlankRow(fields) {
+			if seen > 0 {
+				pendingBlank++
+			}
 			continue
 		}
-		x, y := r.fields[xc], r.fields[yc]
+		seen++
+		res.Blank += pendingBlank
+		pendingBlank = 0
+		if seen == 1 && res.HasHeader {
+			continue
+		}
+		if data++; data > MaxReadings {
+			return nil, &CSVError{Line: line, Err: fmt.Errorf("%w (at most %d)", ErrCSVManyRows, MaxReadings)}
+		}
+		if len(res.Rows) < PreviewRows {
+			row := slices.Clone(fields)
+			if res.PairlineExport {
+				for i, f := range row {
+					row[i] = unneutralise(f)
+				}
+			}
+			res.Rows = append(res.Rows, row)
+		}
+		if xc >= len(fields) || yc >= len(fields) {
+			res.Incomplete++
+			res.Skipped = append(res.Skipped, SkippedRow{line, fmt.Sprintf("the row has only %d columns", len(fields))})
+			continue
+		}
+		x, y := fields[xc], fields[yc]
+		if sc.raw {
+			x, y = unraw(x), unraw(y)
+		}
 		var why string
 		switch {
 		case isBlank(x) && isBlank(y):
@@ -400,12 +791,15 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 		}
 		if why != "" {
 			res.Incomplete++
-			res.Skipped = append(res.Skipped, SkippedRow{r.line, why})
+			res.Skipped = append(res.Skipped, SkippedRow{line, why})
 			continue
+		}
+		if res.PairlineExport {
+			x, y = unneutralise(x), unneutralise(y)
 		}
 		res.X = append(res.X, x)
 		res.Y = append(res.Y, y)
-		res.Lines = append(res.Lines, r.line)
+		res.Lines = append(res.Lines, line)
 	}
 
 	if opt.DecimalComma != nil {
@@ -543,26 +937,100 @@ func columnTitle(name, unit, def string) string {
 	return name
 }
 
-// safeText keeps a spreadsheet from running a note as a formula: text that
-// starts with = + - @ or a tab or CR gets a leading apostrophe (common
-// practice against CSV formula injection).
-func safeText(s string) string {
-	if s != "" && strings.ContainsRune("=+-@\t\r", rune(s[0])) {
+// formulaStart holds the characters that make a spreadsheet read a cell as
+// a formula (=, +, -, @) or that some spreadsheets drop before doing so
+// (tab, CR): the OWASP guidance on CSV injection.
+const formulaStart = "=+-@\t\r"
+
+// startsFormula reports whether s, after any leading apostrophes, starts
+// with one of formulaStart.
+func startsFormula(s string) bool {
+	t := strings.TrimLeft(s, "'")
+	return t != "" && strings.IndexByte(formulaStart, t[0]) >= 0
+}
+
+// isNumberText reports whether s is a number written with only digits,
+// signs, separators and an exponent ("-12.5", "+1,5e-3"): such a cell stays
+// a number in a spreadsheet and is written as it is.
+func isNumberText(s string, decimalComma bool) bool {
+	for i := 0; i < len(s); i++ {
+		if !strings.ContainsRune("0123456789+-.,eE", rune(s[i])) {
+			return false
+		}
+	}
+	_, err := ParseNumberHint(s, decimalComma)
+	return err == nil
+}
+
+// Neutralise keeps a spreadsheet from running a text cell as a formula
+// (common practice, after the OWASP guidance on CSV injection): a cell
+// that starts with = + - @, a tab or a CR (after any apostrophes) and is not
+// a number gets a leading apostrophe, and WriteTable then puts it in
+// quotes. Numbers such as "-12.5" stay as they are. Cells that already
+// start with apostrophes before such a character get one more, so that
+// ReadCSV, taking one off in a file Pairline wrote, gives back the text as
+// it was.
+func Neutralise(s string, decimalComma bool) string {
+	if startsFormula(s) && !isNumberText(s, decimalComma) {
 		return "'" + s
 	}
 	return s
 }
 
-// WriteReadingsCSV writes the readings of a session as comma-separated
-// UTF-8 text with a header row: x and y (titled with their names and units,
-// cell text as typed), note, excluded ("yes" or empty), exclude_reason and
-// taken (RFC 3339, UTC, empty when not recorded). Notes and reasons that a
-// spreadsheet would take for formulas are prefixed with an apostrophe.
+// unneutralise undoes Neutralise.
+func unneutralise(s string) string {
+	if strings.HasPrefix(s, "'") && startsFormula(s) {
+		return s[1:]
+	}
+	return s
+}
+
+// WriteTable writes rows as comma-separated UTF-8 text, one row a line
+// (LF), every cell through Neutralise. A cell is put in quotes (RFC 4180,
+// doubled quotes inside) when it holds a comma, a quote, a line end or
+// spaces at its ends, or when Neutralise changed it. decimalComma is how
+// number cells are read (the session's DecimalComma). It is the one CSV
+// writer of Pairline: readings and results, in the browser and natively.
+func WriteTable(w io.Writer, rows [][]string, decimalComma bool) error {
+	var b []byte
+	for _, row := range rows {
+		for j, cell := range row {
+			if j > 0 {
+				b = append(b, ',')
+			}
+			c := Neutralise(cell, decimalComma)
+			if c != cell || strings.ContainsAny(c, ",\"\r\n") || strings.TrimSpace(c) != c {
+				b = append(b, '"')
+				b = append(b, strings.ReplaceAll(c, `"`, `""`)...)
+				b = append(b, '"')
+			} else {
+				b = append(b, c...)
+			}
+		}
+		b = append(b, '\n')
+		if len(b) >= 64<<10 {
+			if _, err := w.Write(b); err != nil {
+				return err
+			}
+			b = b[:0]
+		}
+	}
+	_, err := w.Write(b)
+	return err
+}
+
+// WriteReadingsCSV writes the readings of a session with WriteTable: a
+// header row, then x and y (titled with their names and units, cell text
+// as typed), note, excluded ("yes" or empty), exclude_reason and taken
+// (RFC 3339, UTC, empty when not recorded). Text that a spreadsheet would
+// take for a formula is neutralised (see Neutralise); ReadCSV recognises the
+// header and reads such cells back as they were typed.
 func WriteReadingsCSV(w io.Writer, s *Session) error {
-	cw := csv.NewWriter(w)
-	_ = cw.Write([]string{columnTitle(s.XName, s.XUnit, "x"), columnTitle(s.YName, s.YUnit, "y"),
-		"note", "excluded", "exclude_reason", "taken"})
-	for _, r := range s.Readings {
+	dc := s.DecimalComma != nil && *s.DecimalComma
+	rows := make([][]string, 0, len(s.Readings)+1)
+	rows = append(rows, append([]string{columnTitle(s.XName, s.XUnit, "x"), columnTitle(s.YName, s.YUnit, "y")}, exportColumns...))
+	cells := make([]string, 6*len(s.Readings))
+	for i, r := range s.Readings {
 		ex, taken := "", ""
 		if r.Excluded {
 			ex = "yes"
@@ -570,10 +1038,9 @@ func WriteReadingsCSV(w io.Writer, s *Session) error {
 		if !r.Taken.IsZero() {
 			taken = r.Taken.UTC().Format(time.RFC3339Nano)
 		}
-		if err := cw.Write([]string{r.X, r.Y, safeText(r.Note), ex, safeText(r.ExcludeReason), taken}); err != nil {
-			return err
-		}
+		row := cells[6*i : 6*i+6 : 6*i+6]
+		row[0], row[1], row[2], row[3], row[4], row[5] = r.X, r.Y, r.Note, ex, r.ExcludeReason, taken
+		rows = append(rows, row)
 	}
-	cw.Flush()
-	return cw.Error()
+	return WriteTable(w, rows, dc)
 }

@@ -138,6 +138,9 @@ func TestWriteReadRoundTrip(t *testing.T) {
 	if err := WriteReadingsCSV(&buf, s); err != nil {
 		t.Fatal(err)
 	}
+	if !strings.Contains(buf.String(), `"'=1+1 ""quoted"", with comma`) {
+		t.Errorf("the note is not neutralised and quoted in\n%s", buf.String())
+	}
 	res, err := ReadCSV(&buf, CSVOptions{})
 	if err != nil {
 		t.Fatal(err)
@@ -154,8 +157,8 @@ func TestWriteReadRoundTrip(t *testing.T) {
 	if !reflect.DeepEqual(res.X, wantX) || !reflect.DeepEqual(res.Y, wantY) || res.Incomplete != 1 {
 		t.Errorf("x %q y %q incomplete %d; want %q %q 1", res.X, res.Y, res.Incomplete, wantX, wantY)
 	}
-	if got := res.Rows[0][2]; got != "'"+s.Readings[0].Note {
-		t.Errorf("note %q; want the note behind an apostrophe", got)
+	if got := res.Rows[0][2]; !res.PairlineExport || got != s.Readings[0].Note {
+		t.Errorf("note %q (Pairline's export: %v); want it read back as typed", got, res.PairlineExport)
 	}
 	if res.Rows[3][3] != "yes" || res.Rows[3][4] != s.Readings[3].ExcludeReason {
 		t.Errorf("exclusion %q", res.Rows[3])
@@ -176,7 +179,9 @@ func TestWriteReadRoundTrip(t *testing.T) {
 }
 
 func FuzzReadCSV(f *testing.F) {
-	for _, s := range []string{"x,y\n1,2\n3,4\n", "\ufeffa;b\r\n1,5;2,5\r\n", "1\t2\n\"3\"\t\"4\n", "", "\xff\xfe1\x00", ",,,\n\n1"} {
+	for _, s := range []string{"x,y\n1,2\n3,4\n", "\ufeffa;b\r\n1,5;2,5\r\n", "1\t2\n\"3\"\t\"4\n", "", "\xff\xfe1\x00", ",,,\n\n1",
+		"x,y\r1,2\r3,4\r", "a;b\r\n\"1\"\"\";2\r\n", "\"x\ry\",1\n2,3\n", strings.Repeat(",", MaxCSVFields+1),
+		"x,y,note,excluded,exclude_reason,taken\n\"'=1\",2,,,,\n3,4,,,,\n"} {
 		f.Add([]byte(s))
 	}
 	f.Fuzz(func(t *testing.T, b []byte) {
@@ -191,8 +196,13 @@ func FuzzReadCSV(f *testing.F) {
 		if len(res.X) != len(res.Y) || len(res.X) != len(res.Lines) || len(res.Skipped) != res.Incomplete {
 			t.Fatalf("inconsistent result %+v", res)
 		}
-		if len(res.Rows) > len(b) {
-			t.Fatalf("%d rows from %d bytes", len(res.Rows), len(b))
+		if len(res.Rows) > len(b) || len(res.Rows) > PreviewRows || res.Width > MaxCSVFields || len(res.X) > MaxReadings {
+			t.Fatalf("%d rows, %d columns, %d readings from %d bytes", len(res.Rows), res.Width, len(res.X), len(b))
+		}
+		for _, c := range res.NumericColumns {
+			if c < 0 || c >= res.Width {
+				t.Fatalf("numeric column %d of %d", c, res.Width)
+			}
 		}
 		x, y, _, _ := ParsedPairs(res)
 		if len(x) != len(y) || len(x) > len(res.X) {

@@ -7,9 +7,6 @@ import (
 	"unicode/utf8"
 )
 
-// MaxNumberText is the longest cell text ParseNumber looks at, in bytes.
-const MaxNumberText = 256
-
 // NumberError says why a cell is not a number. Reason follows the quoted
 // text in a sentence: `"abc" is not a number`.
 type NumberError struct {
@@ -162,7 +159,15 @@ func sepKind(r rune) rune {
 
 func isDigit(b byte) bool { return '0' <= b && b <= '9' }
 
-func isBlank(s string) bool { return strings.TrimFunc(s, unicode.IsSpace) == "" }
+func isBlank(s string) bool {
+	if s == "" {
+		return true
+	}
+	if c := s[0]; c < utf8.RuneSelf && c != ' ' && (c < '\t' || c > '\r') {
+		return false // the common case, without a call per cell
+	}
+	return strings.TrimFunc(s, unicode.IsSpace) == ""
+}
 
 func isUnitStart(r rune) bool {
 	return unicode.IsLetter(r) || strings.ContainsRune("µ°%‰Ω", r)

@@ -1,6 +1,7 @@
 package session
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strconv"
@@ -10,19 +11,70 @@ import (
 	"pairline/fitcore"
 )
 
-// Limits on what a session may hold. Encode refuses sessions beyond them and
-// Decode refuses files that hold them, so a file the tablet writes is always
-// a file the office can read.
+// Limits on what Pairline reads and writes. They are the one place these
+// numbers are written: Encode refuses sessions beyond them, Decode refuses
+// files that hold more, ReadCSV refuses tables past its limits, so a file
+// the tablet writes is always a file the office can read, and no file up to
+// MaxFileSize makes a reader use more than a few hundred MB or more than a
+// few seconds. Past a limit the reader stops with an error that names the
+// limit and where it was passed (line and column for CSV, byte offset and
+// field for session files); nothing is cut off silently.
 const (
-	MaxFileSize  = 64 << 20 // bytes in a .pairline file, header and checksum included
-	MaxSessions  = 1000     // sessions in one file
-	MaxReadings  = 250_000  // readings in one session
-	MaxHistory   = 2_000_000
-	MaxShortText = 1000  // bytes: title, site, names, units, serial, operator, reasons
-	MaxCellText  = 1000  // bytes: the text of an x or y cell
-	MaxNoteText  = 4000  // bytes: the note of one reading
-	MaxLongText  = 65536 // bytes: session notes, Old/New of a history entry
-	MaxFieldName = 64    // bytes: Edit.Field
+	// MaxFileSize is the largest .pairline file (header and checksum
+	// included) and the largest CSV or TSV file, in bytes (64 MiB).
+	MaxFileSize = 64 << 20
+	// MaxSessions is the most sessions one .pairline file holds.
+	MaxSessions = 1000
+	// MaxReadings is the most readings one session holds, and so the most
+	// data rows one CSV import gives.
+	MaxReadings = 250_000
+	// MaxFileReadings is the most readings all the sessions of one file hold
+	// together. Without it the per-session and per-file limits multiply
+	// (1,000 sessions × 250,000 readings); with it a decoded file takes at
+	// most about 100 bytes of memory per reading.
+	MaxFileReadings = 1_000_000
+	// MaxHistory is the most history entries one session holds.
+	MaxHistory = 2_000_000
+	// MaxFileHistory is the most history entries all the sessions of one
+	// file hold together.
+	MaxFileHistory = 2_000_000
+	// MaxShortText is the longest title, site, name, unit, serial number,
+	// operator or reason, in bytes.
+	MaxShortText = 1000
+	// MaxCellText is the longest text of an x or y cell, in bytes.
+	MaxCellText = 1000
+	// MaxNoteText is the longest note of one reading, in bytes.
+	MaxNoteText = 4000
+	// MaxLongText is the longest session notes and Old/New text of a history
+	// entry, in bytes.
+	MaxLongText = 65536
+	// MaxFieldName is the longest Edit.Field, in bytes.
+	MaxFieldName = 64
+	// MaxNumberText is the longest cell text ParseNumber reads as a number,
+	// in bytes; longer text is "too long to be a reading".
+	MaxNumberText = 256
+	// MaxMapKeys is the most keys one MessagePack map of a session file
+	// holds. Format 1.0 uses at most 17; the rest is room for keys a newer
+	// minor version adds.
+	MaxMapKeys = 256
+	// MaxKeyLen is the longest map key of a session file, in bytes.
+	MaxKeyLen = 64
+	// MaxNesting is how deep values of unknown keys may nest in a session
+	// file (the reader skips them without recursion past this depth).
+	MaxNesting = 32
+	// MaxCSVFields is the most fields (cells) one CSV or TSV row holds,
+	// delimiters between empty cells included. Spreadsheets that pad rows
+	// with empty cells stay far below it; a longer row is refused, not cut.
+	MaxCSVFields = 1024
+	// MaxCSVFieldLen is the longest single CSV or TSV field, in bytes
+	// (quotes included).
+	MaxCSVFieldLen = MaxLongText
+	// ModifiedSkew is how much earlier than its creation time a session's
+	// last change may be stamped. A device clock put back (by the network, or
+	// by hand after a time-zone slip) can stamp an edit before the creation
+	// time; up to a day of that is accepted, more is refused as a record
+	// that cannot be right.
+	ModifiedSkew = 24 * time.Hour
 )
 
 // The range of times a session may hold. Zero times mean "not recorded"
@@ -131,6 +183,10 @@ func (s *Session) validate() (string, error) {
 	}
 	if err := checkTime(s.Modified, true); err != nil {
 		return "modified", err
+	}
+	if s.Modified.Before(s.Created.Add(-ModifiedSkew)) {
+		return "modified", invalid("the last change (%s) is more than %v before the session was started (%s)",
+			s.Modified.UTC().Format(time.RFC3339), ModifiedSkew, s.Created.UTC().Format(time.RFC3339))
 	}
 	if s.Location != nil {
 		if f, err := s.Location.validate(); err != nil {
@@ -266,45 +322,21 @@ func (e *Edit) validate(rows int, then bool) (string, error) {
 	return "", nil
 }
 
-var (
-	knownModels = map[fitcore.Model]bool{"": true, fitcore.ModelOLS: true, fitcore.ModelOrigin: true,
-		fitcore.ModelWeighted: true, fitcore.ModelDeming: true}
-	knownTransforms = map[fitcore.Transform]bool{"": true, fitcore.TransformNone: true, fitcore.TransformLogY: true,
-		fitcore.TransformSqrtY: true, fitcore.TransformReciprocal: true, fitcore.TransformLogLog: true,
-		fitcore.TransformBoxCox: true}
-	knownWeights = map[fitcore.WeightScheme]bool{fitcore.WeightsNone: true, fitcore.WeightsGiven: true,
-		fitcore.WeightsX: true, fitcore.WeightsX2: true, fitcore.WeightsFitted2: true,
-		fitcore.WeightsRepeats: true, fitcore.WeightsPowerFit: true}
-)
-
+// validate checks the fit settings with fitcore's one validation of
+// options (Options.Normalize: known model, transform and weighting, the
+// level from fitcore.MinLevel to fitcore.MaxLevel or 0 for the default, a
+// Box–Cox power only with the Box–Cox transform and within
+// ±fitcore.MaxBoxCoxLambda, no weights with a line through the origin, …),
+// so that a stored session holds only settings the command and the screen
+// accept. The field returned is the option's key, which is also its name in
+// the session file. The acceptance criteria are checked here.
 func (st *Settings) validate() (string, error) {
-	if !knownModels[st.Model] {
-		return "model", invalid("the fit model %q is not one Pairline knows", truncate(string(st.Model), 40))
-	}
-	if !knownTransforms[st.Transform] {
-		return "transform", invalid("the transform %q is not one Pairline knows", truncate(string(st.Transform), 40))
-	}
-	if !knownWeights[st.Weights] {
-		return "weights", invalid("the weighting %q is not one Pairline knows", truncate(string(st.Weights), 40))
-	}
-	if err := checkFinite(st.Level); err != nil || st.Level < 0 || st.Level >= 1 {
-		return "level", invalid("the confidence level %v must be between 0 and 1 (0 means 0.95)", st.Level)
-	}
-	for _, f := range []struct {
-		name string
-		p    *float64
-	}{{"box_cox_lambda", st.BoxCoxLambda}, {"slope_ref", st.SlopeRef}, {"intercept_ref", st.InterceptRef}} {
-		if err := checkOptFinite(f.p); err != nil {
-			return f.name, err
+	if _, err := st.Options().Normalize(); err != nil {
+		var oe *fitcore.OptionError
+		if errors.As(err, &oe) {
+			return oe.Option, fmt.Errorf("%w: %w", ErrInvalidField, oe)
 		}
-	}
-	for _, f := range []struct {
-		name string
-		v    float64
-	}{{"variance_ratio", st.VarianceRatio}, {"x_uncertainty", st.XUncertainty}, {"y_uncertainty", st.YUncertainty}} {
-		if err := checkNonNeg(f.v); err != nil {
-			return f.name, err
-		}
+		return "", fmt.Errorf("%w: %w", ErrInvalidField, err)
 	}
 	if a := st.Acceptance; a != nil {
 		for _, f := range []struct {

@@ -361,30 +361,10 @@ func (c *Shell) afterConflict(ctx app.Context, k *importConflict) {
 }
 
 // numericColumns returns the columns of a table in which at least half of
-// the non-empty cells are numbers (the rule ReadCSV uses to pick columns).
-func numericColumns(res *session.CSVResult) []int {
-	width := len(res.Header)
-	for _, r := range res.Rows {
-		width = max(width, len(r))
-	}
-	var cols []int
-	for j := 0; j < width; j++ {
-		num, filled := 0, 0
-		for _, r := range res.Rows {
-			if j >= len(r) || strings.TrimSpace(r[j]) == "" {
-				continue
-			}
-			filled++
-			if _, err := session.ParseNumberHint(r[j], res.DecimalComma); err == nil {
-				num++
-			}
-		}
-		if filled > 0 && 2*num >= filled {
-			cols = append(cols, j)
-		}
-	}
-	return cols
-}
+// the non-empty cells are numbers: the rule ReadCSV uses to pick columns,
+// counted by ReadCSV in its one pass over the cells (counting here again
+// cost columns × rows).
+func numericColumns(res *session.CSVResult) []int { return res.NumericColumns }
 
 // probeSize is how much of a table is read first to find its delimiter,
 // header, decimal mark and columns.
@@ -399,7 +379,9 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 	st := c.st
 	fail := func(err error) { ctx.Dispatch(func(ctx app.Context) { c.importFailed(name, err) }) }
 	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
-	chunked := utf8.Valid(data) && !bytes.ContainsRune(data, '"')
+	// Chunks are cut at LF; a table with quotes (a value may span lines) or
+	// with lone CR line ends (the chunks would miscount lines) is read whole.
+	chunked := utf8.Valid(data) && !bytes.ContainsRune(data, '"') && !hasLoneCR(data)
 	head := data
 	if chunked && len(head) > probeSize {
 		cut := bytes.LastIndexByte(head[:probeSize], '\n')
@@ -444,12 +426,11 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 			s.YName = probe.Header[yCol]
 		}
 	}
-	// Room for every line at once: growing slices of 100,000 readings and
-	// three times as many history entries step by step costs more than the
-	// reading itself.
+	// Room for every line at once: growing a slice of 100,000 readings step
+	// by step costs more than the reading itself. (An import is one history
+	// entry, so the history needs no room.)
 	if lines := bytes.Count(data, []byte("\n")) + 1; lines <= session.MaxReadings {
 		s.Readings = make([]session.Reading, 0, lines)
-		s.History = make([]session.Edit, 0, 3*lines+2)
 	}
 	sum := csvSummary{}
 	started := time.Now()
@@ -549,8 +530,8 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 // must not hold quotes (a quoted value may span lines) and must be UTF-8
 // without a byte-order mark; otherwise read it whole.
 func readChunks(data []byte, probe *session.CSVResult, xCol, yCol, n int, each func(*session.CSVResult, int) error, pause func(float64)) (int, error) {
-	dc, hdr, noHdr := probe.DecimalComma, probe.HasHeader, false
-	opt := session.CSVOptions{Delimiter: probe.Delimiter, DecimalComma: &dc, Header: &hdr, XCol: xCol, YCol: yCol}
+	dc, hdr, noHdr, own := probe.DecimalComma, probe.HasHeader, false, probe.PairlineExport
+	opt := session.CSVOptions{Delimiter: probe.Delimiter, DecimalComma: &dc, Header: &hdr, XCol: xCol, YCol: yCol, PairlineExport: &own}
 	line, blank := 0, 0
 	for start := 0; start < len(data); {
 		end, lines := start, 0
@@ -591,6 +572,22 @@ func readChunks(data []byte, probe *session.CSVResult, xCol, yCol, n int, each f
 		}
 	}
 	return blank, nil
+}
+
+// hasLoneCR reports whether data has a CR not followed by LF (a line end
+// of old Mac spreadsheets, which ReadCSV reads but readChunks does not cut at).
+func hasLoneCR(data []byte) bool {
+	for i := bytes.IndexByte(data, '\r'); i >= 0; {
+		if i+1 >= len(data) || data[i+1] != '\n' {
+			return true
+		}
+		j := bytes.IndexByte(data[i+1:], '\r')
+		if j < 0 {
+			return false
+		}
+		i += 1 + j
+	}
+	return false
 }
 
 // hasCells reports whether some line of chunk has a cell that is not empty:
@@ -650,11 +647,7 @@ func (u *csvSummary) text(name string, n int, labels []string, xCol, yCol int, t
 }
 
 func columnLabels(res *session.CSVResult) []string {
-	width := len(res.Header)
-	for _, r := range res.Rows {
-		width = max(width, len(r))
-	}
-	labels := make([]string, width)
+	labels := make([]string, res.Width)
 	for j := range labels {
 		labels[j] = "column " + strconv.Itoa(j+1)
 		if res.HasHeader && j < len(res.Header) && strings.TrimSpace(res.Header[j]) != "" {
@@ -812,8 +805,7 @@ func (c *Shell) exportResults(ctx app.Context, e app.Event) {
 	if c.sess == nil || rep == nil {
 		return
 	}
-	var buf bytes.Buffer
-	buf.WriteString("figure,value\n")
+	rows := [][]string{{"figure", "value"}}
 	for _, f := range []struct {
 		name string
 		v    float64
@@ -823,7 +815,14 @@ func (c *Shell) exportResults(ctx app.Context, e app.Event) {
 		{"intercept", rep.Intercept.Estimate}, {"intercept standard error", rep.Intercept.SE},
 		{"correlation r", rep.R}, {"r squared", rep.RSquared}, {"residual standard deviation", rep.ResidualSE},
 	} {
-		buf.WriteString(f.name + "," + numfmt.Full(f.v) + "\n")
+		rows = append(rows, []string{f.name, numfmt.Full(f.v)})
+	}
+	// The same writer as the readings, so that no cell reaches a
+	// spreadsheet as a formula.
+	var buf bytes.Buffer
+	if err := session.WriteTable(&buf, rows, false); err != nil {
+		c.notice = "The results could not be exported: " + err.Error()
+		return
 	}
 	download(fileBase(c.sess.Title)+" results.csv", "text/csv", buf.Bytes())
 }
