@@ -1,6 +1,7 @@
 package webapp
 
 import (
+	"bufio"
 	"encoding/json"
 	"go/parser"
 	"go/token"
@@ -27,7 +28,7 @@ func TestMain(m *testing.M) {
 // testWeb copies the repository's web/ folder (Go sources included, to show
 // they are not served) into a temporary folder and adds an app.wasm (its
 // content does not matter to the handler).
-func testWeb(t *testing.T) string {
+func testWeb(t testing.TB) string {
 	t.Helper()
 	dir := filepath.Join(t.TempDir(), "web")
 	err := filepath.WalkDir("../../web", func(path string, d fs.DirEntry, err error) error {
@@ -55,7 +56,7 @@ func testWeb(t *testing.T) string {
 	return dir
 }
 
-func writeFile(t *testing.T, path, content string) {
+func writeFile(t testing.TB, path, content string) {
 	t.Helper()
 	if err := os.WriteFile(path, []byte(content), 0o644); err != nil {
 		t.Fatal(err)
@@ -522,4 +523,34 @@ func TestNoHTTPTestOutsideTests(t *testing.T) {
 			}
 		}
 	}
+}
+
+// Any request target Go's parser accepts is answered 200 only when its path
+// is of the served set as sent, and otherwise 404 or 405, never 500.
+func FuzzSiteTargets(f *testing.F) {
+	for _, s := range []string{"/", "/web/app.wasm", "/web/", "/web/%2e%2e/x", "/web\\app.wasm", "/web/app.wasm%00",
+		"/" + strings.Repeat("a", 300), "//web/app.wasm", "/web/icons/gen.go", "*", "http://h/web/app.wasm"} {
+		f.Add("GET", s)
+	}
+	f.Add("PUT", "/")
+	f.Add("OPTIONS", "*")
+	web := testWeb(f)
+	h := Site(web, "test")
+	f.Fuzz(func(t *testing.T, method, target string) {
+		req, err := http.ReadRequest(bufio.NewReader(strings.NewReader(method + " " + target + " HTTP/1.1\r\nHost: tablet\r\n\r\n")))
+		if err != nil {
+			return
+		}
+		rec := httptest.NewRecorder()
+		h.ServeHTTP(rec, req)
+		switch code := rec.Code; {
+		case code == 200:
+			if (method != "GET" && method != "HEAD") || !served[req.URL.Path] || req.URL.RawPath != "" {
+				t.Errorf("%q %q answered 200", method, target)
+			}
+		case code == 404 || code == 405:
+		default:
+			t.Errorf("%q %q answered %d", method, target, code)
+		}
+	})
 }
