@@ -1,12 +1,11 @@
 package webapp
 
 import (
+	"bytes"
 	"encoding/json"
 	"fmt"
+	"io"
 	"net/http"
-	"net/http/httptest"
-	"os"
-	"path/filepath"
 	"sync"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
@@ -28,13 +27,16 @@ const (
 // file_handlers of its own. Member names follow the W3C Web Application
 // Manifest and the WICG File Handling explainer.
 func Manifest(h *app.Handler) ([]byte, error) {
-	rec := httptest.NewRecorder()
-	h.ServeHTTP(rec, httptest.NewRequest(http.MethodGet, manifestPath, nil))
-	if rec.Code != http.StatusOK {
-		return nil, fmt.Errorf("go-app's manifest answered %d", rec.Code)
+	var body bytes.Buffer
+	code, err := fetch(h, manifestPath, &body)
+	if err != nil {
+		return nil, err
+	}
+	if code != http.StatusOK {
+		return nil, fmt.Errorf("go-app's manifest answered %d", code)
 	}
 	var m map[string]any
-	if err := json.Unmarshal(rec.Body.Bytes(), &m); err != nil {
+	if err := json.Unmarshal(body.Bytes(), &m); err != nil {
 		return nil, fmt.Errorf("go-app's manifest is not JSON: %w", err)
 	}
 	m["file_handlers"] = []any{map[string]any{
@@ -48,14 +50,14 @@ func Manifest(h *app.Handler) ([]byte, error) {
 	return json.MarshalIndent(m, "", "  ")
 }
 
-// WithManifest serves Manifest at /manifest.webmanifest (and go-app's alias
-// /manifest.json) and passes every other request to h.
+// WithManifest serves Manifest at /manifest.webmanifest and passes every
+// other request to h.
 func WithManifest(h *app.Handler) http.Handler {
 	var once sync.Once
 	var body []byte
 	var err error
 	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
-		if r.URL.Path != manifestPath && r.URL.Path != "/manifest.json" {
+		if r.URL.Path != manifestPath {
 			h.ServeHTTP(w, r)
 			return
 		}
@@ -70,11 +72,49 @@ func WithManifest(h *app.Handler) http.Handler {
 	})
 }
 
-// writeManifest replaces go-app's manifest in a static site with Manifest.
-func writeManifest(outDir string, h *app.Handler) error {
-	b, err := Manifest(h)
-	if err != nil {
-		return err
+// captured is the http.ResponseWriter through which Manifest and Build ask
+// a handler for one URL without a network connection: it keeps the status
+// and headers and writes the body to body. (net/http/httptest would do, but
+// it is meant for tests and would link its test certificate into the app.)
+type captured struct {
+	header http.Header
+	code   int
+	body   io.Writer
+	err    error // the first error of body
+}
+
+func (c *captured) Header() http.Header { return c.header }
+
+func (c *captured) WriteHeader(code int) {
+	if c.code == 0 {
+		c.code = code
 	}
-	return os.WriteFile(filepath.Join(outDir, filepath.FromSlash(manifestPath)), b, 0o644)
+}
+
+func (c *captured) Write(p []byte) (int, error) {
+	c.WriteHeader(http.StatusOK)
+	if c.err != nil {
+		return 0, c.err
+	}
+	n, err := c.body.Write(p)
+	if err != nil {
+		c.err = err
+	}
+	return n, err
+}
+
+// fetch asks h for the URL path p with GET and writes the body to body; it
+// returns the status, or the first error writing the body.
+func fetch(h http.Handler, p string, body io.Writer) (int, error) {
+	req, err := http.NewRequest(http.MethodGet, p, nil)
+	if err != nil {
+		return 0, err
+	}
+	req.RequestURI = p
+	c := &captured{header: http.Header{}, body: body}
+	h.ServeHTTP(c, req)
+	if c.code == 0 {
+		c.code = http.StatusOK
+	}
+	return c.code, c.err
 }

@@ -24,8 +24,8 @@ type manifestOf struct {
 // members and declares the session file type (member names: W3C Web
 // Application Manifest; file_handlers: WICG File Handling explainer).
 func TestManifestFileHandlers(t *testing.T) {
-	h := WithHeaders(WithManifest(Handler(t.TempDir(), "test")))
-	for _, path := range []string{"/manifest.webmanifest", "/manifest.json"} {
+	h := Site(testWeb(t), "test")
+	for _, path := range []string{"/manifest.webmanifest"} {
 		rec := httptest.NewRecorder()
 		h.ServeHTTP(rec, httptest.NewRequest(http.MethodGet, path, nil))
 		if rec.Code != 200 {
@@ -52,10 +52,7 @@ func TestManifestFileHandlers(t *testing.T) {
 
 // TestBuildWritesManifest checks that the static site carries the same manifest.
 func TestBuildWritesManifest(t *testing.T) {
-	web, out := t.TempDir(), t.TempDir()
-	if err := os.WriteFile(filepath.Join(web, "app.wasm"), []byte("\x00asm"), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	web, out := testWeb(t), t.TempDir()
 	if err := Build(out, web); err != nil {
 		t.Fatal(err)
 	}

@@ -2,7 +2,8 @@ package webapp
 
 // workerJS is Pairline's service worker, used as go-app's
 // ServiceWorkerTemplate ({{.Version}} and {{.ResourcesToCache}} are filled in
-// by go-app). It differs from go-app's default in three ways that matter
+// by go-app; the list is the served set, Served, without the worker itself,
+// as TestWorkerCachesTheServedSet checks). It differs from go-app's default in three ways that matter
 // offline:
 //   - install waits (event.waitUntil) until every resource is cached, so the
 //     worker only takes over once the app can start with the server gone;
