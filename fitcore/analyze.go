@@ -156,6 +156,9 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	} else {
 		rep.Fitted, rep.Residuals = f.fittedResiduals(xt, yt)
 	}
+	if err := unitsInRange(rep); err != nil {
+		return nil, err
+	}
 	tr.setSmearing(rep.Residuals)
 	if tr.isLogY() {
 		rep.Smearing = tr.smearing
@@ -222,6 +225,24 @@ func (fc *fitContext) runChecks() {
 		res = scaledCopy(rep.Residuals, f.ky)
 		w = f.w
 	}
+	// Every check is unchanged when x, y, the residuals or the weights are
+	// multiplied by a constant; bring each to a safe size by a power of two
+	// (exact) so that the squares and fourth powers the checks take can
+	// neither overflow nor underflow. Ordinary readings are not touched.
+	if k := ckSafeScale(xs); k != 1 {
+		xs = scaledCopy(xs, k)
+	}
+	if k := ckSafeScale(ys); k != 1 {
+		ys = scaledCopy(ys, k)
+	}
+	if k := ckSafeScale(res); k != 1 {
+		res = scaledCopy(res, k)
+	}
+	if w != nil {
+		if k := ckWeightScale(w); k != 1 {
+			w = scaledCopy(w, k)
+		}
+	}
 	pr := res
 	if w != nil {
 		pr = make([]float64, len(res))
@@ -284,10 +305,9 @@ func (fc *fitContext) runChecks() {
 	}
 	// inflSummary is what Summarize(rep.Checks, rep.Influence) words, from
 	// the same reason bits, without reading the results back.
-	if scaled {
-		for i := range rep.Influence {
-			rep.Influence[i].Residual /= f.ky
-		}
+	// The one unit-bearing figure of influence is the raw residual.
+	for i := range rep.Influence {
+		rep.Influence[i].Residual = rep.Residuals[i]
 	}
 	var xa *Assumption
 	if fc.opt.XUncertainty > 0 {
@@ -299,6 +319,22 @@ func (fc *fitContext) runChecks() {
 	if xa != nil && rep.Assumptions.XExactness == nil {
 		rep.Assumptions.XExactness = xa
 	}
+}
+
+// ckSafeScale returns a power of two k that brings the largest |v| into
+// [½, 1) when it lies outside [2^-100, 2^100], and 1 otherwise (also for
+// an all-zero v). Fourth powers of the scaled values stay between 2^-400
+// and 2^400, far from overflow and underflow.
+func ckSafeScale(v []float64) float64 {
+	var m float64
+	for _, a := range v {
+		m = max(m, math.Abs(a))
+	}
+	if m == 0 || !isFiniteNum(m) || (m >= 0x1p-100 && m <= 0x1p100) {
+		return 1
+	}
+	_, e := math.Frexp(m)
+	return math.Ldexp(1, -max(e, -1000))
 }
 
 func scaledCopy(v []float64, k float64) []float64 {
@@ -337,6 +373,60 @@ func validatePairs(x, y []float64) error {
 		}
 		if !isFiniteNum(y[i]) {
 			return &DataError{Index: i, Column: "y", Value: y[i], Err: ErrNotFinite, Hint: "Correct or remove this reading."}
+		}
+	}
+	for i := range x {
+		if !(math.Abs(x[i]) <= MaxMagnitude) {
+			return &DataError{Index: i, Column: "x", Value: x[i], Err: ErrOutOfRange, Hint: tooLargeHint}
+		}
+		if !(math.Abs(y[i]) <= MaxMagnitude) {
+			return &DataError{Index: i, Column: "y", Value: y[i], Err: ErrOutOfRange, Hint: tooLargeHint}
+		}
+	}
+	return nil
+}
+
+var tooLargeHint = fmt.Sprintf("Readings may be at most %g in size; rescale the units (for example to kilo- or mega-units).", MaxMagnitude)
+
+// unitsInRange refuses readings whose report figures in the units of the
+// readings cannot be represented: Sxx = Σw(x − x̄)² and the total sum of
+// squares of y must lie between 2^-1000 (about 1e-301, below which float64
+// loses digits) and the largest float64, and the figures derived from them
+// (residual SE, covariance, ANOVA table, fitted values, residuals) must be
+// finite. The fit itself works in scaled units and is exact; only the
+// figures shown in the readings' units are at stake.
+func unitsInRange(rep *Report) error {
+	const tiny = 0x1p-1000
+	bad := func(what string, v float64) error {
+		if isFiniteNum(v) {
+			return fmt.Errorf("%w: the readings are too small (or too close together) for %s to be given in their units without losing its digits; rescale the units (for example to milli- or micro-units)", ErrOutOfRange, what)
+		}
+		return fmt.Errorf("%w: the readings are too large for %s to be given in their units (it exceeds 1.8e308); rescale the units (for example to kilo- or mega-units)", ErrOutOfRange, what)
+	}
+	if !(rep.Sxx >= tiny) || !isFiniteNum(rep.Sxx) {
+		return bad("the sum of squares of x about its mean", rep.Sxx)
+	}
+	if len(rep.Anova) == 3 {
+		if v := rep.Anova[2].SS; !(v >= tiny) || !isFiniteNum(v) {
+			return bad("the total sum of squares of y", v)
+		}
+		for _, r := range rep.Anova {
+			if !isFiniteNum(r.SS) || !isFiniteNum(r.MS) {
+				return bad("the analysis-of-variance table", r.SS)
+			}
+		}
+	}
+	for _, v := range []float64{rep.ResidualSE, rep.Slope.SE, rep.Intercept.SE, rep.Slope.Estimate, rep.Intercept.Estimate} {
+		if !isFiniteNum(v) {
+			return bad("the slope, the intercept and their standard errors", v)
+		}
+	}
+	if !isFiniteNum(rep.CovSlopeIntercept) {
+		return bad("the covariance of slope and intercept (in y²/x)", rep.CovSlopeIntercept)
+	}
+	for i := range rep.Fitted {
+		if !isFiniteNum(rep.Fitted[i]) || !isFiniteNum(rep.Residuals[i]) {
+			return bad("the fitted values and residuals", rep.Fitted[i]+rep.Residuals[i])
 		}
 	}
 	return nil

@@ -39,7 +39,8 @@ const (
 //
 // (Box & Cox 1964, section 4), with its ends found by the Illinois regula falsi; an end that
 // does not fall inside [−3, 3] is reported as the bound itself. level is the
-// confidence level, 0 < level < 1, and 0 means 0.95.
+// confidence level, from MinLevel to MaxLevel (0 means 0.95); any other
+// level is an *OptionError, never a panic.
 //
 // Numerics: y is rescaled by its geometric mean ġ, which turns ℓ into
 // −n/2·log(RSS_u/n) + constant with u_i = ((y_i/ġ)^λ − 1)/λ, computed as
@@ -58,8 +59,9 @@ func BoxCoxProfile(x, y []float64, level float64) (*BoxCox, error) {
 	if level == 0 {
 		level = 0.95
 	}
-	if !(level > 0 && level < 1) {
-		return nil, fmt.Errorf("%w: the confidence level must lie between 0 and 1 (got %v)", ErrBadOption, level)
+	if !(level >= MinLevel && level <= MaxLevel) {
+		// The χ² quantile below panics (gonum) for levels near 0 or 1.
+		return nil, optErr("level", formatValue(level), "the confidence level must be from %g to %g (for example 0.95 for 95 %%)", MinLevel, MaxLevel)
 	}
 	cut := distuv.ChiSquared{K: 1}.Quantile(level) / 2
 

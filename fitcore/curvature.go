@@ -26,7 +26,7 @@ import (
 // coefficient t-value a QR-based least-squares program reports for the
 // same model.
 //
-// Verdict (common practice): with α = 1 − level (level 0 means 0.95), a p
+// Verdict (common practice): with α = 1 − level (a level outside MinLevel…MaxLevel, 0 included, means 0.95), a p
 // below α/5 fails (1 % at the default level) and a p below α warns (5 %).
 // The check is NA with a reason when there are fewer than 4 readings, fewer
 // than 3 distinct x values, non-finite inputs, non-positive weights, or when
@@ -48,9 +48,7 @@ func curvatureTest(x, y, w []float64, level float64, pre *ckPre) Check {
 	if n < 4 {
 		return ckNA(name, fmt.Sprintf("The curvature check needs at least 4 readings; there are %d.", n))
 	}
-	if !(level > 0 && level < 1) {
-		level = 0.95
-	}
+	level = levelOrDefault(level)
 	alpha := 1 - level
 	if pre == nil {
 		pre = ckPrepare(x)
