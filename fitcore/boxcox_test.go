@@ -19,7 +19,7 @@ const bcGoldenPath = "../testdata/golden/boxcox.json"
 
 // bcAlaskaPath is the NIST/SEMATECH e-Handbook Alaska pipeline data set
 // (handbook section 4.6.3), read from the shared reference folder.
-const bcAlaskaPath = "../../shared/reference/nist-handbook/ALASKA_PIPELINE.DAT"
+var bcAlaskaPath = refPath("nist-handbook", "ALASKA_PIPELINE.DAT")
 
 type bcGoldenCase struct {
 	Name       string    `json:"name"`

@@ -83,9 +83,9 @@ func TestStRD(t *testing.T) {
 		origin bool
 	}{
 		{"../testdata/strd/Norris.txt", false},
-		{"../../shared/reference/strd/Norris.txt", false},
-		{"../../shared/reference/strd/NoInt1.txt", true},
-		{"../../shared/reference/strd/NoInt2.txt", true},
+		{refPath("strd", "Norris.txt"), false},
+		{refPath("strd", "NoInt1.txt"), true},
+		{refPath("strd", "NoInt2.txt"), true},
 	}
 	for _, c := range cases {
 		t.Run(c.path, func(t *testing.T) {
