@@ -210,10 +210,14 @@ func (fc *fitContext) xRange() (lo, hi float64) {
 // runChecks runs the assumption checks on the fitted scale and summarises
 // them. Weighted fits give the spread, independence and normality checks
 // the Pearson residuals √w·e and the influence measures the raw residuals
-// with w. When the readings had to be scaled by a power of two to keep
-// their squares representable, the checks (all scale-free) see the scaled
-// values and the one unit-bearing output, PointInfluence.Residual, is
-// scaled back.
+// with w. The checks are all scale-free: they see x, y, the residuals and
+// the weights each multiplied by a power of two (ckSafeScale) when their
+// size would let a square or a fourth power overflow or underflow, and the
+// one unit-bearing output, PointInfluence.Residual, is the residual in the
+// report's units. The limits of checkmin.go apply here: when the residuals
+// are within NoScatterTol of zero every check is n/a with
+// NoScatterSentence, and a check below its minimum number of readings is
+// n/a with the minimum and the reason.
 func (fc *fitContext) runChecks() {
 	f, rep := fc.f, fc.rep
 	origin := fc.opt.Model == ModelOrigin
@@ -239,7 +243,7 @@ func (fc *fitContext) runChecks() {
 		res = scaledCopy(res, k)
 	}
 	if w != nil {
-		if k := ckWeightScale(w); k != 1 {
+		if k := ckSafeScale(w); k != 1 {
 			w = scaledCopy(w, k)
 		}
 	}
@@ -261,9 +265,31 @@ func (fc *fitContext) runChecks() {
 	// residuals), the influence of each reading, and the other checks. On
 	// a large record they run side by side. Each computes exactly what it
 	// would alone, so the results do not depend on this.
-	sw := func() { c.ShapiroWilk = shapiroWilkCheck(pr, &fc.sc.sb, pre.residValid) }
+	n, np := len(xs), 2
+	if origin {
+		np = 1
+	}
+	noScatter := ckNoScatter(fc.yt, rep.Residuals, fc.w)
+	fewDF := n-np < MinResidualDF
+	// limit returns the check as run, or n/a when the limits say so.
+	limit := func(name string, run func() Check) Check {
+		switch {
+		case noScatter:
+			return ckNA(name, NoScatterSentence)
+		case fewDF:
+			return ckNA(name, ckFewDF(name, n, np))
+		}
+		return run()
+	}
+	sw := func() {
+		c.ShapiroWilk = limit("Shapiro–Wilk", func() Check { return shapiroWilkCheck(pr, &fc.sc.sb, pre.residValid) })
+	}
 	others := func() {
-		c.Curvature = curvatureTest(xs, ys, w, rep.Level, pre)
+		if noScatter {
+			c.Curvature = ckNA("Curvature", NoScatterSentence)
+		} else {
+			c.Curvature = curvatureTest(xs, ys, w, rep.Level, pre)
+		}
 		if pre.xyValid {
 			// Any order that sorts x also sorts xs, which is x scaled by a
 			// power of two or on a log scale.
@@ -271,13 +297,26 @@ func (fc *fitContext) runChecks() {
 		} else {
 			c.LackOfFit = LackOfFit(xs, ys, w, origin)
 		}
-		c.BreuschPagan = ckSpread("Breusch–Pagan", xs, pr, false, pre)
-		c.White = ckSpread("White", xs, pr, true, pre)
-		c.DurbinWatson = durbinWatson(xs, pr, origin, pre)
-		c.Runs = runsTest(pr, pre.residValid)
+		if noScatter && c.LackOfFit != nil {
+			na := ckNA(c.LackOfFit.Name, NoScatterSentence)
+			c.LackOfFit = &na
+		}
+		c.BreuschPagan = limit("Breusch–Pagan", func() Check { return ckSpread("Breusch–Pagan", xs, pr, false, pre) })
+		c.White = limit("White", func() Check { return ckSpread("White", xs, pr, true, pre) })
+		c.DurbinWatson = limit("Durbin–Watson", func() Check { return durbinWatsonW(xs, pr, w, origin, pre) })
+		c.Runs = limit("Runs", func() Check { return runsTest(pr, pre.residValid) })
 	}
 	var inflSummary Assumption
 	infl := func() {
+		defer func() {
+			switch {
+			case noScatter:
+				ckClearInfluence(rep.Influence)
+				inflSummary = Assumption{Verdict: NA, Message: NoScatterSentence}
+			case n-np < MinInfluenceDF:
+				inflSummary = ckFewInfluence(n, np)
+			}
+		}()
 		if fc.sc.refit {
 			// A candidate needs only the influence summary.
 			inflSummary = influenceSummary(xs, res, w, origin, inflValid)

@@ -106,6 +106,9 @@ func ckCombine(cs []Check, pass, warn, fail, advice, naLead string) Assumption {
 	msg := naLead + "."
 	if len(why) > 0 {
 		msg = naLead + ": " + why[0]
+		if why[0] == NoScatterSentence {
+			msg = NoScatterSentence
+		}
 	}
 	return Assumption{Verdict: NA, Message: msg}
 }

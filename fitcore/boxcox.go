@@ -49,7 +49,7 @@ const (
 // power overflows. Each evaluation is O(n).
 //
 // It returns an error, in a sentence, when a y is zero or negative, a value
-// is not finite, x does not vary, there are fewer than 3 pairs, or the
+// is not finite, x does not vary, there are fewer than MinBoxCoxN pairs, or the
 // transformed readings lie exactly on a line (λ is then not defined).
 func BoxCoxProfile(x, y []float64, level float64) (*BoxCox, error) {
 	p, err := bcNewProfile(x, y)
@@ -147,8 +147,8 @@ func bcNewProfile(x, y []float64) (*bcProfile, error) {
 		return nil, fmt.Errorf("%w: x has %d readings, y has %d", ErrLengthMismatch, len(x), len(y))
 	}
 	n := len(y)
-	if n < 3 {
-		return nil, fmt.Errorf("%w: the Box–Cox power needs at least 3 (got %d)", ErrTooFewPoints, n)
+	if n < MinBoxCoxN {
+		return nil, tooFewError(fmt.Sprintf("the Box–Cox power needs at least %d readings (got %d): with fewer, some power puts the readings on a line (almost) exactly and the power cannot be judged", MinBoxCoxN, n))
 	}
 	var mx, my float64
 	for i := range y {

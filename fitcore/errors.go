@@ -74,3 +74,13 @@ func (e *DataError) Unwrap() error { return e.Err }
 func formatValue(v float64) string {
 	return strconv.FormatFloat(v, 'g', -1, 64)
 }
+
+// tooFewError is an error that says how many readings something needs and
+// counts as ErrTooFewPoints for errors.Is (whose own text names the three
+// pairs a line needs, not the larger number a check or estimate needs).
+type tooFewError string
+
+func (e tooFewError) Error() string { return string(e) }
+
+// Is makes errors.Is(err, ErrTooFewPoints) true.
+func (e tooFewError) Is(target error) bool { return target == ErrTooFewPoints }
