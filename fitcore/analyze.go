@@ -260,6 +260,7 @@ func (fc *fitContext) runChecks() {
 	pre := ckPrepare(xs)
 	pre.xyValid = ckValidate(xs, ys, w, "y value") == ""
 	pre.residValid = ckValidate(xs, pr, nil, "residual") == ""
+	pre.quick = fc.sc.refit
 	inflValid := pre.residValid && (w == nil || ckValidate(xs, res, w, "residual") == "")
 	// Three independent groups of work: Shapiro–Wilk (a sort of all
 	// residuals), the influence of each reading, and the other checks. On

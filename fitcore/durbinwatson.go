@@ -17,6 +17,11 @@ import (
 // cent (compared with lmtest::dwtest, exact).
 const DWExactMax = 2000
 
+// dwTailCut: where the beta approximation puts min(F(d), 1 − F(d)) below
+// it, the exact integral (absolute error about 1e-10) cannot improve on it
+// and is not taken.
+const dwTailCut = 1e-12
+
 // DurbinWatson is the Durbin–Watson test for serial correlation of the
 // residuals e_1 … e_n in the order the readings were entered:
 //
@@ -104,21 +109,36 @@ func durbinWatsonW(x, resid, w []float64, origin bool, pre *ckPre) Check {
 	}
 	mean, variance := dz.moments()
 	c := Check{Name: name, Statistic: d, DF: float64(n - k)}
-	var cdf float64
+	bcdf, bok := ckDWBetaCDF(d, mean, variance)
+	exact := n <= DWExactMax
 	how := "exact"
-	if n <= DWExactMax {
-		cdf, ok = dz.cdf(d)
-	} else {
-		ok = false
+	if bok && math.Min(bcdf, 1-bcdf) < dwTailCut {
+		// Imhof's integral cannot resolve a p this small (its absolute
+		// error is about 1e-10), so the beta value is kept and said so.
+		exact, how = false, "beta approximation, far in the tail"
+	} else if exact && pre != nil && pre.quick && bok {
+		// A refit of the advice needs only the verdict: exact only near
+		// the thresholds 0.01 and 0.05, where the approximation could
+		// change it.
+		if pb := 2 * math.Min(bcdf, 1-bcdf); pb < 0.002 || pb > 0.2 {
+			exact, how = false, "beta approximation"
+		}
+	}
+	cdf := bcdf
+	ok = bok
+	if exact {
+		if f, fok := dz.cdf(d); fok {
+			cdf, ok = f, true
+		} else {
+			how = "beta approximation"
+		}
+	} else if how == "exact" {
+		how = "beta approximation"
 	}
 	if !ok {
-		how = "beta approximation"
-		cdf, ok = ckDWBetaCDF(d, mean, variance)
-		if !ok {
-			c.Verdict, c.P = NA, 1
-			c.Message = fmt.Sprintf("Durbin–Watson d = %.3f, but too few readings to judge it.", d)
-			return c
-		}
+		c.Verdict, c.P = NA, 1
+		c.Message = fmt.Sprintf("Durbin–Watson d = %.3f, but too few readings to judge it.", d)
+		return c
 	}
 	p := ckClampP(2 * math.Min(cdf, 1-cdf))
 	c.P = p
@@ -180,12 +200,9 @@ func ckDWStat(e []float64) (float64, bool) {
 // the whitened design Z = √W·X, with the work space of the exact
 // distribution.
 type dwDesign struct {
-	n   int
-	u   [2][]float64
-	k   int
-	piv []complex128 // pivots of G = I − iu(A − dI)
-	l   []complex128 // multipliers of its LDLᵀ factorisation
-	y   [2][]complex128
+	n int
+	u [2][]float64
+	k int
 	// evals counts the points of the last integral (for tests).
 	evals int
 }
@@ -340,86 +357,89 @@ func ckDWMoments(x []float64, origin bool) (mean, variance float64, ok bool) {
 }
 
 // logDet returns log det(I − iu·Wᵀ(A − dI)W) (principal branches summed as
-// described on DurbinWatsonWeighted); ok is false if a pivot vanished.
+// described on DurbinWatsonWeighted); ok is false if a pivot vanished. One
+// pass: G = L·D·Lᵀ is factored as it goes, Y = L⁻¹U is carried along by
+// forward substitution, and UᵀG⁻¹U = Yᵀ·D⁻¹·Y is summed term by term, so
+// nothing of size n is stored.
 func (dz *dwDesign) logDet(u, d float64) (complex128, bool) {
 	n, k := dz.n, dz.k
-	if dz.piv == nil {
-		dz.piv = make([]complex128, n)
-		dz.l = make([]complex128, n)
-		for j := range k {
-			dz.y[j] = make([]complex128, n)
-		}
-	}
-	piv, l := dz.piv, dz.l // piv holds the reciprocals of the pivots
-	off := complex(0, u)   // G_{t,t±1} = −iu·(−1)
-	u2 := complex(u*u, 0)
+	u0, u1 := dz.u[0], dz.u[1]
 	// The product of the pivots is kept with its winding: each pivot's
 	// argument lies in (−π/2, π/2), so the running product's argument
 	// passes ±π only from the second quadrant to the third (or back), seen
 	// as a change of sign of its imaginary part while its real part is
 	// negative. Its size is rescaled by powers of two as it goes.
-	prod := complex(1, 0)
+	// Complex arithmetic is written out in real and imaginary parts (no
+	// library division: every pivot has real part ≥ 1, the Hermitian part
+	// of G being I, so 1/g = conj(g)/|g|² cannot overflow).
+	pr, pi := 1.0, 0.0 // running product of the pivots
 	wind, exp2 := 0, 0
+	var ipr, ipi float64           // 1/pivot of the previous row
+	var y0r, y0i, y1r, y1i float64 // the previous row of Y = L⁻¹U
+	var s00, s01, s11 complex128   // UᵀG⁻¹U
+	var a00r, a00i, a01r, a01i, a11r, a11i float64
 	for t := range n {
 		a := 2.0
 		if t == 0 || t == n-1 {
 			a = 1
 		}
-		g := complex(1, -u*(a-d))
-		if t > 0 {
-			ip := piv[t-1]
-			l[t] = off * ip
-			g += u2 * ip // g − (iu)²/p
+		gr, gi := 1.0, -u*(a-d)
+		r0r, r0i := u0[t], 0.0
+		var r1r, r1i float64
+		if k == 2 {
+			r1r = u1[t]
 		}
-		if g == 0 {
+		if t > 0 {
+			lr, li := -u*ipi, u*ipr // l = iu/p
+			gr += u * u * ipr       // g − (iu)²/p
+			gi += u * u * ipi
+			r0r -= lr*y0r - li*y0i
+			r0i -= lr*y0i + li*y0r
+			if k == 2 {
+				r1r -= lr*y1r - li*y1i
+				r1i -= lr*y1i + li*y1r
+			}
+		}
+		m2 := gr*gr + gi*gi
+		if !(m2 > 0) || !ckFinite(m2) {
 			return 0, false
 		}
-		piv[t] = 1 / g
-		next := prod * g
-		if real(next) < 0 || real(prod) < 0 {
+		ipr, ipi = gr/m2, -gi/m2
+		y0r, y0i, y1r, y1i = r0r, r0i, r1r, r1i
+		// a += r·r'·ip
+		qr, qi := r0r*r0r-r0i*r0i, 2*r0r*r0i
+		a00r += qr*ipr - qi*ipi
+		a00i += qr*ipi + qi*ipr
+		if k == 2 {
+			qr, qi = r0r*r1r-r0i*r1i, r0r*r1i+r0i*r1r
+			a01r += qr*ipr - qi*ipi
+			a01i += qr*ipi + qi*ipr
+			qr, qi = r1r*r1r-r1i*r1i, 2*r1r*r1i
+			a11r += qr*ipr - qi*ipi
+			a11i += qr*ipi + qi*ipr
+		}
+		nr, ni := pr*gr-pi*gi, pr*gi+pi*gr
+		if nr < 0 || pr < 0 {
 			switch {
-			case imag(prod) >= 0 && imag(next) < 0 && real(next) < 0:
+			case pi >= 0 && ni < 0 && nr < 0:
 				wind++
-			case imag(prod) < 0 && imag(next) >= 0 && real(next) < 0:
+			case pi < 0 && ni >= 0 && nr < 0:
 				wind--
 			}
 		}
-		prod = next
+		pr, pi = nr, ni
 		if t%32 == 31 {
-			_, e := math.Frexp(math.Abs(real(prod)) + math.Abs(imag(prod)))
-			prod = complex(math.Ldexp(real(prod), -e), math.Ldexp(imag(prod), -e))
+			_, e := math.Frexp(math.Abs(pr) + math.Abs(pi))
+			pr, pi = math.Ldexp(pr, -e), math.Ldexp(pi, -e)
 			exp2 += e
 		}
 	}
+	s00, s01, s11 = complex(a00r, a00i), complex(a01r, a01i), complex(a11r, a11i)
+	prod := complex(pr, pi)
 	logdet := cmplx.Log(prod) + complex(float64(exp2)*math.Ln2, 2*math.Pi*float64(wind))
-	// Solve G·Y = U (L D Lᵀ), then S = UᵀY.
-	for j := range k {
-		y, uj := dz.y[j], dz.u[j]
-		y[0] = complex(uj[0], 0)
-		for t := 1; t < n; t++ {
-			y[t] = complex(uj[t], 0) - l[t]*y[t-1]
-		}
-		for t := range n {
-			y[t] *= piv[t]
-		}
-		for t := n - 2; t >= 0; t-- {
-			y[t] -= l[t+1] * y[t+1]
-		}
-	}
-	var s [2][2]complex128
-	for j := range k {
-		for m := range k {
-			var acc complex128
-			uj, ym := dz.u[j], dz.y[m]
-			for t := range n {
-				acc += complex(uj[t], 0) * ym[t]
-			}
-			s[j][m] = acc
-		}
-	}
-	det := s[0][0]
+	det := s00
 	if k == 2 {
-		det = s[0][0]*s[1][1] - s[0][1]*s[1][0]
+		det = s00*s11 - s01*s01
 	}
 	if det == 0 || cmplx.IsNaN(det) || cmplx.IsInf(det) {
 		return 0, false
@@ -474,7 +494,7 @@ func (dz *dwDesign) cdf(d float64) (float64, bool) {
 			return 0, false
 		}
 	}
-	const tol = 1e-11
+	const tol = 1e-10
 	// A few panels to start with, finer near 0 where the integrand varies
 	// fastest for large n.
 	var integral float64
@@ -527,21 +547,38 @@ var (
 )
 
 // ckGK15 integrates f over [a, b] by the 15-point Kronrod rule and returns
-// the estimate and the difference from the 7-point Gauss rule.
+// the estimate and QUADPACK's error estimate (qk15: the difference from
+// the 7-point Gauss rule, scaled as resasc·min(1, (200·|K − G|/resasc)^1.5),
+// which for smooth integrands is close to the true error rather than to
+// the much larger |K − G|).
 func ckGK15(f func(float64) float64, a, b float64) (float64, float64) {
 	c, h := 0.5*(a+b), 0.5*(b-a)
-	fc := f(c)
-	k := fc * gkWK[7]
-	g := fc * gkWG[3]
+	var fv [15]float64
+	fv[7] = f(c)
 	for i := range 7 {
 		x := h * gkNodes[i]
-		s := f(c-x) + f(c+x)
+		fv[i], fv[14-i] = f(c-x), f(c+x)
+	}
+	k := fv[7] * gkWK[7]
+	g := fv[7] * gkWG[3]
+	for i := range 7 {
+		s := fv[i] + fv[14-i]
 		k += gkWK[i] * s
 		if i%2 == 1 {
 			g += gkWG[i/2] * s
 		}
 	}
-	return k * h, math.Abs((k - g) * h)
+	mean := 0.5 * k
+	asc := gkWK[7] * math.Abs(fv[7]-mean)
+	for i := range 7 {
+		asc += gkWK[i] * (math.Abs(fv[i]-mean) + math.Abs(fv[14-i]-mean))
+	}
+	asc *= math.Abs(h)
+	err := math.Abs((k - g) * h)
+	if asc != 0 && err != 0 {
+		err = asc * math.Min(1, math.Pow(200*err/asc, 1.5))
+	}
+	return k * h, err
 }
 
 // ckGK15Adaptive integrates f over [a, b] by bisecting where the
