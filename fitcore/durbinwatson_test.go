@@ -7,6 +7,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"gonum.org/v1/gonum/mat"
 )
 
 // TestDurbinWatsonReference compares d with statsmodels durbin_watson, the
@@ -145,5 +147,78 @@ func TestDurbinWatsonExactR(t *testing.T) {
 				t.Errorf("message does not say the p is exact: %s", dw.Message)
 			}
 		})
+	}
+}
+
+// TestDurbinWatsonWeightedMoments: the null mean and variance of d for a
+// weighted fit come from the whitened design √W·X. Computed another way:
+// the traces tr(MA) and tr((MA)²) with dense matrices (gonum),
+// M = I − Z(ZᵀZ)⁻¹Zᵀ, on invented weighted designs, with and without an
+// intercept. The unweighted design's moments differ (the old p's error).
+func TestDurbinWatsonWeightedMoments(t *testing.T) {
+	for _, origin := range []bool{false, true} {
+		n := 40
+		x := make([]float64, n)
+		w := make([]float64, n)
+		for i := range x {
+			x[i] = 0.5 + 0.3*float64(i) + 0.1*math.Sin(float64(i))
+			w[i] = 1 / (x[i] * x[i])
+		}
+		k := 2
+		if origin {
+			k = 1
+		}
+		z := mat.NewDense(n, k, nil)
+		for i := range n {
+			s := math.Sqrt(w[i])
+			if origin {
+				z.Set(i, 0, s*x[i])
+			} else {
+				z.Set(i, 0, s)
+				z.Set(i, 1, s*x[i])
+			}
+		}
+		var ztz, inv, h mat.Dense
+		ztz.Mul(z.T(), z)
+		if err := inv.Inverse(&ztz); err != nil {
+			t.Fatal(err)
+		}
+		h.Product(z, &inv, z.T())
+		m := mat.NewDense(n, n, nil)
+		a := mat.NewDense(n, n, nil)
+		for i := range n {
+			for j := range n {
+				v := -h.At(i, j)
+				if i == j {
+					v++
+				}
+				m.Set(i, j, v)
+			}
+			a.Set(i, i, 2)
+			if i == 0 || i == n-1 {
+				a.Set(i, i, 1)
+			}
+			if i > 0 {
+				a.Set(i, i-1, -1)
+				a.Set(i-1, i, -1)
+			}
+		}
+		var ma, mama mat.Dense
+		ma.Mul(m, a)
+		mama.Mul(&ma, &ma)
+		p, q := mat.Trace(&ma), mat.Trace(&mama)
+		dfr := float64(n - k)
+		wantMean := p / dfr
+		wantVar := 2 * (q - p*wantMean) / (dfr * (dfr + 2))
+		dz, ok := newDWDesign(x, w, origin)
+		if !ok {
+			t.Fatal("design")
+		}
+		mean, variance := dz.moments()
+		refCheck(t, "E[d] weighted", mean, wantMean, 1e-12, 1e-14)
+		refCheck(t, "Var[d] weighted", variance, wantVar, 1e-10, 1e-14)
+		if m0, v0, _ := ckDWMoments(x, origin); math.Abs(m0-mean) < 1e-6 && math.Abs(v0-variance) < 1e-6 {
+			t.Errorf("weighted and unweighted moments agree (%v, %v): the test cannot tell them apart", mean, variance)
+		}
 	}
 }

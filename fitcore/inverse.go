@@ -126,7 +126,7 @@ func (fc *fitContext) inverses() {
 	}
 	fc.rep.Inverse = make([]Inverse, len(fc.opt.Inverse))
 	for i, q := range fc.opt.Inverse {
-		fc.rep.Inverse[i] = fc.inverseAt(q)
+		fc.rep.Inverse[i] = finiteInverse(fc.inverseAt(q))
 	}
 }
 
