@@ -22,8 +22,16 @@ import (
 // reading (*DataError wrapping ErrNotFinite), all x equal (ErrNoSpreadInX),
 // all y equal (ErrNoSpreadInY), bad weights (*DataError wrapping
 // ErrBadWeight), a transform the readings cannot take (*DataError wrapping
-// ErrTransformDomain) and invalid options (ErrBadOption). No NaN or Inf is
-// ever stored in the Report, so it always marshals to JSON.
+// ErrTransformDomain), invalid options (an *OptionError wrapping
+// ErrBadOption: each option has its range in Options.Normalize) and
+// readings larger than MaxMagnitude or whose sums of squares cannot be given
+// in their units (ErrOutOfRange, with the advice to rescale the units). No
+// NaN or Inf is ever stored in the Report, so it always marshals to JSON.
+//
+// The limits of the checks are in checkmin.go: a check below its minimum
+// number of readings (MinResidualDF, MinInfluenceDF, MinCurvatureN,
+// MinBoxCoxN) is n/a with the minimum and the reason, and readings within
+// NoScatterTol of their line make every check n/a with NoScatterSentence.
 func Analyze(x, y []float64, opt Options) (*Report, error) {
 	return analyze(x, y, opt, new(anScratch))
 }
