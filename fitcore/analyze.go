@@ -203,6 +203,8 @@ type fitContext struct {
 
 	xLo, xHi float64 // range of x (original units), once xRanged
 	xRanged  bool
+
+	noScatter bool // the residuals are within NoScatterTol of zero (runChecks)
 }
 
 // xRange returns the smallest and largest x, computed once per fit (every
@@ -279,6 +281,11 @@ func (fc *fitContext) runChecks() {
 		np = 1
 	}
 	noScatter := ckNoScatter(fc.yt, rep.Residuals, fc.w)
+	fc.noScatter = noScatter
+	if noScatter && !fc.sc.refit && fc.f.sse != 0 {
+		// (An exact zero has its own note from the inference.)
+		rep.Notes = append(rep.Notes, noScatterNote)
+	}
 	fewDF := n-np < MinResidualDF
 	// limit returns the check as run, or n/a when the limits say so.
 	limit := func(name string, run func() Check) Check {

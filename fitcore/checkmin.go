@@ -73,6 +73,10 @@ const NoScatterTol = 64 * 0x1p-52
 // residuals are below NoScatterTol.
 const NoScatterSentence = "The readings lie on a straight line to the precision of the arithmetic, so there is no scatter to check."
 
+// noScatterNote is the report's note when the residuals are within
+// NoScatterTol of zero without being exactly zero.
+const noScatterNote = "The readings lie on a straight line to the precision of the arithmetic: the residuals are rounding errors, so the standard errors, t and p values and intervals describe rounding only, and no detection limits are given."
+
 // ckNoScatter says whether the residuals e of the readings y (fitted
 // scale, weights w or nil) are within NoScatterTol of zero.
 func ckNoScatter(y, e, w []float64) bool {

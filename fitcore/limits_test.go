@@ -3,6 +3,7 @@ package fitcore
 import (
 	"errors"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -104,6 +105,12 @@ func TestNoScatterOneSentence(t *testing.T) {
 				if p.Flagged || p.Studentized != 0 {
 					t.Errorf("reading %d flagged (t = %v): %v", p.Index+1, p.Studentized, p.Reasons)
 				}
+			}
+			if rep.Limits != nil {
+				t.Errorf("detection limits from rounding errors: %+v", *rep.Limits)
+			}
+			if tc.name == "ols" && !slices.Contains(rep.Notes, noScatterNote) {
+				t.Errorf("no note that the figures describe rounding: %v", rep.Notes)
 			}
 			if !strings.HasPrefix(rep.Advice.Reason, "The readings lie on a straight line to the precision of the arithmetic") {
 				t.Errorf("advice: %s", rep.Advice.Reason)
