@@ -251,8 +251,9 @@ func (p *bcProfile) logRSS(lam float64) float64 {
 		rss += r * r
 	}
 	// An exact fit would make ℓ infinite; floor the RSS at the rounding level
-	// of the data and remember that it happened.
-	if floor := syy * 1e-26; rss <= floor {
+	// of the data (the one no-scatter tolerance, NoScatterTol, on the
+	// transformed readings) and remember that it happened.
+	if floor := syy * NoScatterTol * NoScatterTol; rss <= floor {
 		rss = floor
 		p.floored = true
 	}
