@@ -10,7 +10,9 @@ import (
 // straightness problem of the fit in before, and recommends one.
 //
 // Nothing is tried when before.Assumptions.Spread and .Linearity are both
-// pass or n/a: the advice is RemedyNone with After nil. Otherwise each remedy
+// pass or n/a: the advice is RemedyNone with After nil, and its reason
+// claims a straight line or even scatter only for a check that passed
+// (adNothingToDo). Otherwise each remedy
 // is tried in this fixed order, by refitting with Analyze (intercept model,
 // the same level and reference values, SkipAdvice) and re-running all the
 // checks:
@@ -63,8 +65,7 @@ func adviseWith(x, y []float64, opt Options, before *Report, sc *anScratch) *Adv
 	lineBad := adBad(before.Assumptions.Linearity.Verdict)
 	if !spreadBad && !lineBad {
 		ad.Remedy = RemedyNone
-		ad.Reason = "The scatter about the line is even across the range and the readings follow a straight line, " +
-			"so no change of scale or weighting is needed."
+		ad.Reason = adNothingToDo(before.Assumptions)
 		return ad
 	}
 
@@ -95,6 +96,30 @@ func adviseWith(x, y []float64, opt Options, before *Report, sc *anScratch) *Adv
 	}
 	ad.Reason += adCaution
 	return ad
+}
+
+// adNothingToDo words the advice when neither spread nor linearity is a
+// problem, claiming only what was checked: a straight line and even
+// scatter only when those checks passed (an n/a check, for too few
+// readings, is said to be unchecked).
+func adNothingToDo(a Assumptions) string {
+	if a.Spread.Message == NoScatterSentence || a.Linearity.Message == NoScatterSentence {
+		return "The readings lie on a straight line to the precision of the arithmetic, so no change of scale or weighting is needed."
+	}
+	sp, li := a.Spread.Verdict == Pass, a.Linearity.Verdict == Pass
+	switch {
+	case sp && li:
+		return "The scatter about the line is even across the range and the readings follow a straight line, " +
+			"so no change of scale or weighting is needed."
+	case sp:
+		return "No change of scale or weighting is suggested: the scatter about the line is even across the range, " +
+			"but whether the readings follow a straight line could not be checked (see the linearity check)."
+	case li:
+		return "No change of scale or weighting is suggested: the readings follow a straight line, " +
+			"but whether the scatter is even across the range could not be checked (see the spread check)."
+	}
+	return "No change of scale or weighting is suggested, but neither the straightness of the line nor the evenness " +
+		"of the scatter could be checked (see the checks)."
 }
 
 // adMinGain is how much a remedy must improve on the original fit's score to

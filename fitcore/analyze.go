@@ -22,8 +22,16 @@ import (
 // reading (*DataError wrapping ErrNotFinite), all x equal (ErrNoSpreadInX),
 // all y equal (ErrNoSpreadInY), bad weights (*DataError wrapping
 // ErrBadWeight), a transform the readings cannot take (*DataError wrapping
-// ErrTransformDomain) and invalid options (ErrBadOption). No NaN or Inf is
-// ever stored in the Report, so it always marshals to JSON.
+// ErrTransformDomain), invalid options (an *OptionError wrapping
+// ErrBadOption: each option has its range in Options.Normalize) and
+// readings larger than MaxMagnitude or whose sums of squares cannot be given
+// in their units (ErrOutOfRange, with the advice to rescale the units). No
+// NaN or Inf is ever stored in the Report, so it always marshals to JSON.
+//
+// The limits of the checks are in checkmin.go: a check below its minimum
+// number of readings (MinResidualDF, MinInfluenceDF, MinCurvatureN,
+// MinBoxCoxN) is n/a with the minimum and the reason, and readings within
+// NoScatterTol of their line make every check n/a with NoScatterSentence.
 func Analyze(x, y []float64, opt Options) (*Report, error) {
 	return analyze(x, y, opt, new(anScratch))
 }
@@ -156,6 +164,9 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	} else {
 		rep.Fitted, rep.Residuals = f.fittedResiduals(xt, yt)
 	}
+	if err := unitsInRange(rep); err != nil {
+		return nil, err
+	}
 	tr.setSmearing(rep.Residuals)
 	if tr.isLogY() {
 		rep.Smearing = tr.smearing
@@ -192,6 +203,8 @@ type fitContext struct {
 
 	xLo, xHi float64 // range of x (original units), once xRanged
 	xRanged  bool
+
+	noScatter bool // the residuals are within NoScatterTol of zero (runChecks)
 }
 
 // xRange returns the smallest and largest x, computed once per fit (every
@@ -207,10 +220,14 @@ func (fc *fitContext) xRange() (lo, hi float64) {
 // runChecks runs the assumption checks on the fitted scale and summarises
 // them. Weighted fits give the spread, independence and normality checks
 // the Pearson residuals √w·e and the influence measures the raw residuals
-// with w. When the readings had to be scaled by a power of two to keep
-// their squares representable, the checks (all scale-free) see the scaled
-// values and the one unit-bearing output, PointInfluence.Residual, is
-// scaled back.
+// with w. The checks are all scale-free: they see x, y, the residuals and
+// the weights each multiplied by a power of two (ckSafeScale) when their
+// size would let a square or a fourth power overflow or underflow, and the
+// one unit-bearing output, PointInfluence.Residual, is the residual in the
+// report's units. The limits of checkmin.go apply here: when the residuals
+// are within NoScatterTol of zero every check is n/a with
+// NoScatterSentence, and a check below its minimum number of readings is
+// n/a with the minimum and the reason.
 func (fc *fitContext) runChecks() {
 	f, rep := fc.f, fc.rep
 	origin := fc.opt.Model == ModelOrigin
@@ -221,6 +238,24 @@ func (fc *fitContext) runChecks() {
 		ys = scaledCopy(fc.yt, f.ky)
 		res = scaledCopy(rep.Residuals, f.ky)
 		w = f.w
+	}
+	// Every check is unchanged when x, y, the residuals or the weights are
+	// multiplied by a constant; bring each to a safe size by a power of two
+	// (exact) so that the squares and fourth powers the checks take can
+	// neither overflow nor underflow. Ordinary readings are not touched.
+	if k := ckSafeScale(xs); k != 1 {
+		xs = scaledCopy(xs, k)
+	}
+	if k := ckSafeScale(ys); k != 1 {
+		ys = scaledCopy(ys, k)
+	}
+	if k := ckSafeScale(res); k != 1 {
+		res = scaledCopy(res, k)
+	}
+	if w != nil {
+		if k := ckSafeScale(w); k != 1 {
+			w = scaledCopy(w, k)
+		}
 	}
 	pr := res
 	if w != nil {
@@ -235,14 +270,42 @@ func (fc *fitContext) runChecks() {
 	pre := ckPrepare(xs)
 	pre.xyValid = ckValidate(xs, ys, w, "y value") == ""
 	pre.residValid = ckValidate(xs, pr, nil, "residual") == ""
+	pre.quick = fc.sc.refit
 	inflValid := pre.residValid && (w == nil || ckValidate(xs, res, w, "residual") == "")
 	// Three independent groups of work: Shapiro–Wilk (a sort of all
 	// residuals), the influence of each reading, and the other checks. On
 	// a large record they run side by side. Each computes exactly what it
 	// would alone, so the results do not depend on this.
-	sw := func() { c.ShapiroWilk = shapiroWilkCheck(pr, &fc.sc.sb, pre.residValid) }
+	n, np := len(xs), 2
+	if origin {
+		np = 1
+	}
+	noScatter := ckNoScatter(fc.yt, rep.Residuals, fc.w)
+	fc.noScatter = noScatter
+	if noScatter && !fc.sc.refit && fc.f.sse != 0 {
+		// (An exact zero has its own note from the inference.)
+		rep.Notes = append(rep.Notes, noScatterNote)
+	}
+	fewDF := n-np < MinResidualDF
+	// limit returns the check as run, or n/a when the limits say so.
+	limit := func(name string, run func() Check) Check {
+		switch {
+		case noScatter:
+			return ckNA(name, NoScatterSentence)
+		case fewDF:
+			return ckNA(name, ckFewDF(name, n, np))
+		}
+		return run()
+	}
+	sw := func() {
+		c.ShapiroWilk = limit("Shapiro–Wilk", func() Check { return shapiroWilkCheck(pr, &fc.sc.sb, pre.residValid) })
+	}
 	others := func() {
-		c.Curvature = curvatureTest(xs, ys, w, rep.Level, pre)
+		if noScatter {
+			c.Curvature = ckNA("Curvature", NoScatterSentence)
+		} else {
+			c.Curvature = curvatureTest(xs, ys, w, rep.Level, pre)
+		}
 		if pre.xyValid {
 			// Any order that sorts x also sorts xs, which is x scaled by a
 			// power of two or on a log scale.
@@ -250,13 +313,26 @@ func (fc *fitContext) runChecks() {
 		} else {
 			c.LackOfFit = LackOfFit(xs, ys, w, origin)
 		}
-		c.BreuschPagan = ckSpread("Breusch–Pagan", xs, pr, false, pre)
-		c.White = ckSpread("White", xs, pr, true, pre)
-		c.DurbinWatson = durbinWatson(xs, pr, origin, pre)
-		c.Runs = runsTest(pr, pre.residValid)
+		if noScatter && c.LackOfFit != nil {
+			na := ckNA(c.LackOfFit.Name, NoScatterSentence)
+			c.LackOfFit = &na
+		}
+		c.BreuschPagan = limit("Breusch–Pagan", func() Check { return ckSpread("Breusch–Pagan", xs, pr, false, pre) })
+		c.White = limit("White", func() Check { return ckSpread("White", xs, pr, true, pre) })
+		c.DurbinWatson = limit("Durbin–Watson", func() Check { return durbinWatsonW(xs, pr, w, origin, pre) })
+		c.Runs = limit("Runs", func() Check { return runsTest(pr, pre.residValid) })
 	}
 	var inflSummary Assumption
 	infl := func() {
+		defer func() {
+			switch {
+			case noScatter:
+				ckClearInfluence(rep.Influence)
+				inflSummary = Assumption{Verdict: NA, Message: NoScatterSentence}
+			case n-np < MinInfluenceDF:
+				inflSummary = ckFewInfluence(n, np)
+			}
+		}()
 		if fc.sc.refit {
 			// A candidate needs only the influence summary.
 			inflSummary = influenceSummary(xs, res, w, origin, inflValid)
@@ -284,10 +360,9 @@ func (fc *fitContext) runChecks() {
 	}
 	// inflSummary is what Summarize(rep.Checks, rep.Influence) words, from
 	// the same reason bits, without reading the results back.
-	if scaled {
-		for i := range rep.Influence {
-			rep.Influence[i].Residual /= f.ky
-		}
+	// The one unit-bearing figure of influence is the raw residual.
+	for i := range rep.Influence {
+		rep.Influence[i].Residual = rep.Residuals[i]
 	}
 	var xa *Assumption
 	if fc.opt.XUncertainty > 0 {
@@ -299,6 +374,22 @@ func (fc *fitContext) runChecks() {
 	if xa != nil && rep.Assumptions.XExactness == nil {
 		rep.Assumptions.XExactness = xa
 	}
+}
+
+// ckSafeScale returns a power of two k that brings the largest |v| into
+// [½, 1) when it lies outside [2^-100, 2^100], and 1 otherwise (also for
+// an all-zero v). Fourth powers of the scaled values stay between 2^-400
+// and 2^400, far from overflow and underflow.
+func ckSafeScale(v []float64) float64 {
+	var m float64
+	for _, a := range v {
+		m = max(m, math.Abs(a))
+	}
+	if m == 0 || !isFiniteNum(m) || (m >= 0x1p-100 && m <= 0x1p100) {
+		return 1
+	}
+	_, e := math.Frexp(m)
+	return math.Ldexp(1, -max(e, -1000))
 }
 
 func scaledCopy(v []float64, k float64) []float64 {
@@ -337,6 +428,60 @@ func validatePairs(x, y []float64) error {
 		}
 		if !isFiniteNum(y[i]) {
 			return &DataError{Index: i, Column: "y", Value: y[i], Err: ErrNotFinite, Hint: "Correct or remove this reading."}
+		}
+	}
+	for i := range x {
+		if !(math.Abs(x[i]) <= MaxMagnitude) {
+			return &DataError{Index: i, Column: "x", Value: x[i], Err: ErrOutOfRange, Hint: tooLargeHint}
+		}
+		if !(math.Abs(y[i]) <= MaxMagnitude) {
+			return &DataError{Index: i, Column: "y", Value: y[i], Err: ErrOutOfRange, Hint: tooLargeHint}
+		}
+	}
+	return nil
+}
+
+var tooLargeHint = fmt.Sprintf("Readings may be at most %g in size; rescale the units (for example to kilo- or mega-units).", MaxMagnitude)
+
+// unitsInRange refuses readings whose report figures in the units of the
+// readings cannot be represented: Sxx = Σw(x − x̄)² and the total sum of
+// squares of y must lie between 2^-1000 (about 1e-301, below which float64
+// loses digits) and the largest float64, and the figures derived from them
+// (residual SE, covariance, ANOVA table, fitted values, residuals) must be
+// finite. The fit itself works in scaled units and is exact; only the
+// figures shown in the readings' units are at stake.
+func unitsInRange(rep *Report) error {
+	const tiny = 0x1p-1000
+	bad := func(what string, v float64) error {
+		if isFiniteNum(v) {
+			return fmt.Errorf("%w: the readings are too small (or too close together) for %s to be given in their units without losing its digits; rescale the units (for example to milli- or micro-units)", ErrOutOfRange, what)
+		}
+		return fmt.Errorf("%w: the readings are too large for %s to be given in their units (it exceeds 1.8e308); rescale the units (for example to kilo- or mega-units)", ErrOutOfRange, what)
+	}
+	if !(rep.Sxx >= tiny) || !isFiniteNum(rep.Sxx) {
+		return bad("the sum of squares of x about its mean", rep.Sxx)
+	}
+	if len(rep.Anova) == 3 {
+		if v := rep.Anova[2].SS; !(v >= tiny) || !isFiniteNum(v) {
+			return bad("the total sum of squares of y", v)
+		}
+		for _, r := range rep.Anova {
+			if !isFiniteNum(r.SS) || !isFiniteNum(r.MS) {
+				return bad("the analysis-of-variance table", r.SS)
+			}
+		}
+	}
+	for _, v := range []float64{rep.ResidualSE, rep.Slope.SE, rep.Intercept.SE, rep.Slope.Estimate, rep.Intercept.Estimate} {
+		if !isFiniteNum(v) {
+			return bad("the slope, the intercept and their standard errors", v)
+		}
+	}
+	if !isFiniteNum(rep.CovSlopeIntercept) {
+		return bad("the covariance of slope and intercept (in y²/x)", rep.CovSlopeIntercept)
+	}
+	for i := range rep.Fitted {
+		if !isFiniteNum(rep.Fitted[i]) || !isFiniteNum(rep.Residuals[i]) {
+			return bad("the fitted values and residuals", rep.Fitted[i]+rep.Residuals[i])
 		}
 	}
 	return nil

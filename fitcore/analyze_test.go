@@ -3,8 +3,11 @@ package fitcore
 import (
 	"encoding/json"
 	"errors"
+	"fmt"
 	"math"
 	"math/rand/v2"
+	"reflect"
+	"strings"
 	"testing"
 )
 
@@ -109,10 +112,12 @@ func TestResidualsWithinTwoSigma(t *testing.T) {
 	near(t, "residual SE ≈ σ", rep.ResidualSE, 1.5, 0.05)
 }
 
-// TestExtremeMagnitudes: readings near 1e-300 and 1e300 and x as Unix
+// TestExtremeMagnitudes: readings near 1e-140 and 1e140 and x as Unix
 // timestamps keep their digits; the slope must match the one from the
 // same data at unit scale (scaling by powers of ten changes slope by a
-// known factor) and the report must marshal to JSON.
+// known factor) and the report must marshal to JSON. Readings whose sums
+// of squares cannot be given in their units (near 1e-300 and 1e300) are
+// refused with ErrOutOfRange and the advice to rescale.
 func TestExtremeMagnitudes(t *testing.T) {
 	x0, y0 := seededLine(30, 3, 2, 0.5, 0.1)
 	base, err := Analyze(x0, y0, Options{SkipAdvice: true})
@@ -123,11 +128,16 @@ func TestExtremeMagnitudes(t *testing.T) {
 		name   string
 		kx, ky float64
 		dx     float64
+		refuse bool
 	}{
-		{"tiny", 1e-300, 1e-300, 0},
-		{"huge", 1e300, 1e300, 0},
-		{"tiny x huge y", 1e-150, 1e150, 0},
-		{"timestamps", 1, 1, 1.7e9},
+		{"tiny", 1e-300, 1e-300, 0, true},
+		{"huge", 1e300, 1e300, 0, true},
+		{"near the largest float", 1e306, 1e306, 0, true},
+		{"small", 1e-140, 1e-140, 0, false},
+		{"large", 1e140, 1e140, 0, false},
+		{"tiny x huge y", 1e-70, 1e70, 0, false},
+		{"covariance beyond float64", 1e-140, 1e140, 0, true}, // y²/x ≈ 1e420
+		{"timestamps", 1, 1, 1.7e9, false},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -137,7 +147,18 @@ func TestExtremeMagnitudes(t *testing.T) {
 				x[i] = x0[i]*c.kx + c.dx
 				y[i] = y0[i] * c.ky
 			}
-			rep, err := Analyze(x, y, Options{SkipAdvice: true, PredictX: []float64{x[3]}, Inverse: []InverseQuery{{Y: []float64{y[5]}}}})
+			var pred []float64
+			var inv []InverseQuery
+			if !c.refuse {
+				pred, inv = []float64{x[3]}, []InverseQuery{{Y: []float64{y[5]}}}
+			}
+			rep, err := Analyze(x, y, Options{PredictX: pred, Inverse: inv})
+			if c.refuse {
+				if !errors.Is(err, ErrOutOfRange) || !strings.Contains(err.Error(), "rescale the units") {
+					t.Fatalf("want a refusal (ErrOutOfRange, rescale the units), got %v", err)
+				}
+				return
+			}
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -149,8 +170,66 @@ func TestExtremeMagnitudes(t *testing.T) {
 			near(t, "R²", rep.RSquared, base.RSquared, tol)
 			near(t, "t", rep.Slope.T, base.Slope.T, tol)
 			near(t, "residual SE", rep.ResidualSE, base.ResidualSE*c.ky, tol)
+			near(t, "Sxx", rep.Sxx, base.Sxx*c.kx*c.kx, 1e-6)
 			if _, err := json.Marshal(rep); err != nil {
 				t.Fatalf("report does not marshal: %v", err)
+			}
+		})
+	}
+}
+
+// TestPowerOfTwoScaling: scaling x and y by powers of two is exact in
+// binary floating point, so every figure of the report must scale exactly
+// (the same data computed another way) and every verdict and sentence be
+// the same, up to the largest scale the limits allow (2^450 ≈ 2.9e135,
+// where the fit runs on internally rescaled values and agrees to
+// rounding). Includes a far unknown (1e6 times the range) whose Fieller
+// interval must stay bounded.
+func TestPowerOfTwoScaling(t *testing.T) {
+	x0, y0 := seededLine(25, 3, 2, 0.5, 0.3)
+	opt := func(kx, ky float64) Options {
+		return Options{PredictX: []float64{2 * kx}, Inverse: []InverseQuery{{Y: []float64{5 * ky}}, {Y: []float64{1e6 * ky}}}}
+	}
+	base, err := Analyze(x0, y0, opt(1, 1))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		ex, ey int
+		tol    float64
+	}{{300, 300, 0}, {-300, -300, 0}, {200, -250, 0}, {-250, 200, 0}, {450, 450, 1e-12}, {-450, 100, 1e-12}} {
+		t.Run(fmt.Sprintf("2^%d,2^%d", c.ex, c.ey), func(t *testing.T) {
+			kx, ky := math.Ldexp(1, c.ex), math.Ldexp(1, c.ey)
+			x, y := scaledCopy(x0, kx), scaledCopy(y0, ky)
+			rep, err := Analyze(x, y, opt(kx, ky))
+			if err != nil {
+				t.Fatal(err)
+			}
+			eq := func(name string, got, want float64) {
+				t.Helper()
+				if c.tol == 0 && got != want || c.tol > 0 && math.Abs(got-want) > c.tol*math.Abs(want) {
+					t.Errorf("%s = %v, want %v", name, got, want)
+				}
+			}
+			eq("slope", rep.Slope.Estimate, base.Slope.Estimate*ky/kx)
+			eq("slope SE", rep.Slope.SE, base.Slope.SE*ky/kx)
+			eq("intercept", rep.Intercept.Estimate, base.Intercept.Estimate*ky)
+			eq("residual SE", rep.ResidualSE, base.ResidualSE*ky)
+			eq("Sxx", rep.Sxx, base.Sxx*kx*kx)
+			eq("prediction", rep.Predictions[0].Fit, base.Predictions[0].Fit*ky)
+			eq("prediction PI", rep.Predictions[0].PIHigh, base.Predictions[0].PIHigh*ky)
+			for i := range base.Inverse {
+				if !rep.Inverse[i].Bounded {
+					t.Fatalf("inverse %d unbounded: %s", i, rep.Inverse[i].Message)
+				}
+				eq("inverse x", rep.Inverse[i].X, base.Inverse[i].X*kx)
+				eq("inverse high", rep.Inverse[i].High, base.Inverse[i].High*kx)
+			}
+			if c.tol == 0 && !reflect.DeepEqual(rep.Assumptions, base.Assumptions) {
+				t.Errorf("assumptions differ:\n%+v\n%+v", rep.Assumptions, base.Assumptions)
+			}
+			if rep.Advice.Remedy != base.Advice.Remedy {
+				t.Errorf("advice %s, want %s", rep.Advice.Remedy, base.Advice.Remedy)
 			}
 		})
 	}

@@ -18,7 +18,10 @@ import (
 //	x exactness   XExactness, when it was run
 //
 // The verdict of an assumption is the worst verdict among its checks that
-// could be run (fail > warn > pass); it is NA only when none could be run.
+// could be run (fail > warn > pass); it is NA only when none could be run,
+// with the first check's reason (NoScatterSentence alone when the readings
+// have no scatter; see checkmin.go for the minimum number of readings of
+// each check).
 // For influence: fail when some reading is an outlier by the Bonferroni test
 // or has Cook's distance above the F(p, n−p) median, warn when readings are
 // flagged only by the milder thresholds (see Influence), pass otherwise
@@ -106,6 +109,9 @@ func ckCombine(cs []Check, pass, warn, fail, advice, naLead string) Assumption {
 	msg := naLead + "."
 	if len(why) > 0 {
 		msg = naLead + ": " + why[0]
+		if why[0] == NoScatterSentence {
+			msg = NoScatterSentence
+		}
 	}
 	return Assumption{Verdict: NA, Message: msg}
 }

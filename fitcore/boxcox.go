@@ -39,7 +39,8 @@ const (
 //
 // (Box & Cox 1964, section 4), with its ends found by the Illinois regula falsi; an end that
 // does not fall inside [−3, 3] is reported as the bound itself. level is the
-// confidence level, 0 < level < 1, and 0 means 0.95.
+// confidence level, from MinLevel to MaxLevel (0 means 0.95); any other
+// level is an *OptionError, never a panic.
 //
 // Numerics: y is rescaled by its geometric mean ġ, which turns ℓ into
 // −n/2·log(RSS_u/n) + constant with u_i = ((y_i/ġ)^λ − 1)/λ, computed as
@@ -48,7 +49,7 @@ const (
 // power overflows. Each evaluation is O(n).
 //
 // It returns an error, in a sentence, when a y is zero or negative, a value
-// is not finite, x does not vary, there are fewer than 3 pairs, or the
+// is not finite, x does not vary, there are fewer than MinBoxCoxN pairs, or the
 // transformed readings lie exactly on a line (λ is then not defined).
 func BoxCoxProfile(x, y []float64, level float64) (*BoxCox, error) {
 	p, err := bcNewProfile(x, y)
@@ -58,8 +59,9 @@ func BoxCoxProfile(x, y []float64, level float64) (*BoxCox, error) {
 	if level == 0 {
 		level = 0.95
 	}
-	if !(level > 0 && level < 1) {
-		return nil, fmt.Errorf("%w: the confidence level must lie between 0 and 1 (got %v)", ErrBadOption, level)
+	if !(level >= MinLevel && level <= MaxLevel) {
+		// The χ² quantile below panics (gonum) for levels near 0 or 1.
+		return nil, optErr("level", formatValue(level), "the confidence level must be from %g to %g (for example 0.95 for 95 %%)", MinLevel, MaxLevel)
 	}
 	cut := distuv.ChiSquared{K: 1}.Quantile(level) / 2
 
@@ -145,8 +147,8 @@ func bcNewProfile(x, y []float64) (*bcProfile, error) {
 		return nil, fmt.Errorf("%w: x has %d readings, y has %d", ErrLengthMismatch, len(x), len(y))
 	}
 	n := len(y)
-	if n < 3 {
-		return nil, fmt.Errorf("%w: the Box–Cox power needs at least 3 (got %d)", ErrTooFewPoints, n)
+	if n < MinBoxCoxN {
+		return nil, tooFewError(fmt.Sprintf("the Box–Cox power needs at least %d readings (got %d): with fewer, some power puts the readings on a line (almost) exactly and the power cannot be judged", MinBoxCoxN, n))
 	}
 	var mx, my float64
 	for i := range y {
@@ -249,8 +251,9 @@ func (p *bcProfile) logRSS(lam float64) float64 {
 		rss += r * r
 	}
 	// An exact fit would make ℓ infinite; floor the RSS at the rounding level
-	// of the data and remember that it happened.
-	if floor := syy * 1e-26; rss <= floor {
+	// of the data (the one no-scatter tolerance, NoScatterTol, on the
+	// transformed readings) and remember that it happened.
+	if floor := syy * NoScatterTol * NoScatterTol; rss <= floor {
 		rss = floor
 		p.floored = true
 	}

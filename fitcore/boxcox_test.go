@@ -19,7 +19,7 @@ const bcGoldenPath = "../testdata/golden/boxcox.json"
 
 // bcAlaskaPath is the NIST/SEMATECH e-Handbook Alaska pipeline data set
 // (handbook section 4.6.3), read from the shared reference folder.
-const bcAlaskaPath = "../../shared/reference/nist-handbook/ALASKA_PIPELINE.DAT"
+var bcAlaskaPath = refPath("nist-handbook", "ALASKA_PIPELINE.DAT")
 
 type bcGoldenCase struct {
 	Name       string    `json:"name"`
@@ -197,7 +197,12 @@ func TestBoxCoxProfileErrors(t *testing.T) {
 		{"Inf x", []float64{1, 2, math.Inf(1), 4, 5}, x5, 0, ErrNotFinite},
 		{"lengths", x5, []float64{1, 2, 3}, 0, ErrLengthMismatch},
 		{"two pairs", []float64{1, 2}, []float64{1, 2}, 0, ErrTooFewPoints},
-		{"constant x", []float64{2, 2, 2, 2}, []float64{1, 2, 3, 4}, 0, ErrNoSpreadInX},
+		{"constant x", []float64{2, 2, 2, 2, 2}, []float64{1, 2, 3, 4, 5}, 0, ErrNoSpreadInX},
+		{"four pairs (below MinBoxCoxN)", []float64{1, 2, 3, 4}, []float64{1, 2, 4, 5}, 0, ErrTooFewPoints},
+		{"three pairs: a zero-width interval before", []float64{1, 2, 3}, []float64{1, 2.1, 2.9}, 0, ErrTooFewPoints},
+		{"level 1e-300 (panicked in the χ² quantile)", x5, []float64{1, 2, 4, 4, 5}, 1e-300, ErrBadOption},
+		{"level 5e-324", x5, []float64{1, 2, 4, 4, 5}, 5e-324, ErrBadOption},
+		{"level NaN", x5, []float64{1, 2, 4, 4, 5}, math.NaN(), ErrBadOption},
 		{"constant y", x5, []float64{3, 3, 3, 3, 3}, 0, ErrNoSpreadInY},
 		{"level 1", x5, []float64{1, 2, 4, 4, 5}, 1, ErrBadOption},
 		{"level negative", x5, []float64{1, 2, 4, 4, 5}, -0.5, ErrBadOption},

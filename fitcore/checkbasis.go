@@ -232,6 +232,9 @@ type ckPre struct {
 	// finiteness, weights) of the checks on x and y, or on x and the
 	// residuals, so the checks need not do it again.
 	xyValid, residValid bool
+	// quick says only the verdicts are wanted (the advice's refits), so a
+	// check may take a cheaper approximation where it cannot change them.
+	quick bool
 }
 
 func ckPrepare(x []float64) *ckPre {

@@ -5,7 +5,6 @@ import (
 	"encoding/json"
 	"math"
 	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"sync"
@@ -119,7 +118,7 @@ func loadRef(t testing.TB) *refChecks {
 			if c.Source == nil {
 				continue
 			}
-			x, y, err := readRefColumns(filepath.Join("..", "..", "shared", "reference", c.Source.File), c.Source.Reader, c.Source.XCol, c.Source.YCol)
+			x, y, err := readRefColumns(refPath(c.Source.File), c.Source.Reader, c.Source.XCol, c.Source.YCol)
 			if err == nil && len(x) == c.N {
 				c.X, c.Y = x, y
 			}

@@ -26,7 +26,7 @@ import (
 // coefficient t-value a QR-based least-squares program reports for the
 // same model.
 //
-// Verdict (common practice): with α = 1 − level (level 0 means 0.95), a p
+// Verdict (common practice): with α = 1 − level (a level outside MinLevel…MaxLevel, 0 included, means 0.95), a p
 // below α/5 fails (1 % at the default level) and a p below α warns (5 %).
 // The check is NA with a reason when there are fewer than 4 readings, fewer
 // than 3 distinct x values, non-finite inputs, non-positive weights, or when
@@ -45,12 +45,10 @@ func curvatureTest(x, y, w []float64, level float64, pre *ckPre) Check {
 		}
 	}
 	n := len(x)
-	if n < 4 {
-		return ckNA(name, fmt.Sprintf("The curvature check needs at least 4 readings; there are %d.", n))
+	if n < MinCurvatureN {
+		return ckNA(name, fmt.Sprintf("The curvature check needs at least %d readings; there are %d.", MinCurvatureN, n))
 	}
-	if !(level > 0 && level < 1) {
-		level = 0.95
-	}
+	level = levelOrDefault(level)
 	alpha := 1 - level
 	if pre == nil {
 		pre = ckPrepare(x)
@@ -79,9 +77,11 @@ func curvatureTest(x, y, w []float64, level float64, pre *ckPre) Check {
 	if !ckFinite(s) || !ckFinite(scale) {
 		return ckNA(name, "The readings are too large to check for curvature.")
 	}
-	if s <= 1e-13*scale {
-		if math.Abs(f.pg) <= 1e-13*scale {
-			return ckNA(name, "The readings lie exactly on a straight line, so there is nothing to test.")
+	// The same tolerance as every check (NoScatterTol, on root sums of
+	// squares): no scatter about the quadratic, and none about the line.
+	if math.Sqrt(f.sse) <= NoScatterTol*scale {
+		if math.Hypot(math.Sqrt(f.sse), f.pg) <= NoScatterTol*scale {
+			return ckNA(name, NoScatterSentence)
 		}
 		return Check{Name: name, Statistic: 0, DF: df, P: 0, Verdict: Fail,
 			Message: "The readings lie exactly on a curve, not a straight line (the t statistic is unbounded)."}

@@ -36,10 +36,15 @@ func fitDeming(x, y []float64, delta float64) (*lineFit, error) {
 	if err != nil {
 		return nil, err
 	}
-	ds := delta * (f.ky * f.ky) / (f.kx * f.kx)
+	ds := math.Ldexp(delta, 2*lg2(f.ky)-2*lg2(f.kx))
 	b1 := demingSlope(f.sxx, f.syy, f.sxy, ds)
 	if !isFiniteNum(b1) {
-		return nil, fmt.Errorf("%w: x and y are uncorrelated (Sxy = 0), so the Deming line is undetermined", ErrDegenerate)
+		if f.sxy == 0 {
+			return nil, fmt.Errorf("%w: x and y are uncorrelated (Sxy = 0), so the Deming line is undetermined", ErrDegenerate)
+		}
+		// Only an extreme ratio of units and δ gets here (δ is bounded by
+		// Normalize): say so rather than blame the readings.
+		return nil, fmt.Errorf("%w: the Deming line cannot be computed with variance ratio %s for readings of these sizes; rescale the units of x or y", ErrOutOfRange, formatValue(delta))
 	}
 	f.b1 = b1
 	n := f.n
@@ -84,15 +89,14 @@ func fitDeming(x, y []float64, delta float64) (*lineFit, error) {
 // the test of zero correlation. No ANOVA table: the Deming line does not
 // split the sum of squares.
 func inferDeming(f *lineFit, level, slopeRef, interceptRef float64, rep *Report) {
-	kx, ky := f.kx, f.ky
 	rep.DF = f.df
-	rep.ResidualSE = math.Sqrt(f.s2()) / ky
-	rep.Slope = lnCoefficient(f.slope(), math.Sqrt(f.v1)*kx/ky, f.df, level, slopeRef)
+	rep.ResidualSE = f.unscale(math.Sqrt(f.s2()), 0, -1, 0)
+	rep.Slope = lnCoefficient(f.slope(), f.unscale(math.Sqrt(f.v1), 1, -1, 0), f.df, level, slopeRef)
 	vb0 := f.va + f.xc*f.xc*f.v1 - 2*f.xc*f.cab
-	rep.Intercept = lnCoefficient(f.intercept(), math.Sqrt(math.Max(vb0, 0))/ky, f.df, level, interceptRef)
-	rep.CovSlopeIntercept = (f.cab - f.xc*f.v1) * kx / ky / ky
-	rep.MeanX, rep.MeanY = f.xc/kx, f.a/ky
-	rep.Sxx = f.sxx / kx / kx
+	rep.Intercept = lnCoefficient(f.intercept(), f.unscale(math.Sqrt(math.Max(vb0, 0)), 0, -1, 0), f.df, level, interceptRef)
+	rep.CovSlopeIntercept = f.unscale(f.cab-f.xc*f.v1, 1, -2, 0)
+	rep.MeanX, rep.MeanY = f.unscale(f.xc, -1, 0, 0), f.unscale(f.a, 0, -1, 0)
+	rep.Sxx = f.unscale(f.sxx, -2, 0, 0)
 	r := f.pearsonR()
 	rep.RSquared = r * r
 	n := float64(f.n)

@@ -34,6 +34,11 @@ var (
 	// ErrDegenerate: the arithmetic broke down (for example a perfect
 	// vertical line for Deming regression, or weights that make x constant).
 	ErrDegenerate = errors.New("the readings do not determine a line")
+	// ErrOutOfRange: a reading is larger than MaxMagnitude, or the sums
+	// of squares the report gives in the units of the readings (Sxx, the
+	// ANOVA table) would overflow or underflow float64. Rescaling the units
+	// (kilo-, micro-, …) cures it.
+	ErrOutOfRange = errors.New("the readings are too large or too small for the figures of the report")
 )
 
 // DataError reports a problem with one reading. Index is the position of
@@ -69,3 +74,13 @@ func (e *DataError) Unwrap() error { return e.Err }
 func formatValue(v float64) string {
 	return strconv.FormatFloat(v, 'g', -1, 64)
 }
+
+// tooFewError is an error that says how many readings something needs and
+// counts as ErrTooFewPoints for errors.Is (whose own text names the three
+// pairs a line needs, not the larger number a check or estimate needs).
+type tooFewError string
+
+func (e tooFewError) Error() string { return string(e) }
+
+// Is makes errors.Is(err, ErrTooFewPoints) true.
+func (e tooFewError) Is(target error) bool { return target == ErrTooFewPoints }

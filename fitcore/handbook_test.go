@@ -19,7 +19,20 @@ import (
 // numeric references are statsmodels/scipy (testdata/golden, checked in
 // golden_test.go); these tests check the diagnoses the handbook draws.
 
-const handbookDir = "../../shared/reference/nist-handbook"
+var handbookDir = func() string {
+	// Beside the main checkout (../../shared) or a worktree under /work/wt
+	// (../../../shared), or where PAIRLINE_REFERENCE points.
+	cands := []string{filepath.Join("..", "..", "shared", "reference", "nist-handbook"), filepath.Join("..", "..", "..", "shared", "reference", "nist-handbook")}
+	if r := os.Getenv("PAIRLINE_REFERENCE"); r != "" {
+		cands = append([]string{filepath.Join(r, "nist-handbook")}, cands...)
+	}
+	for _, c := range cands {
+		if _, err := os.Stat(c); err == nil {
+			return c
+		}
+	}
+	return cands[0]
+}()
 
 // readHandbook reads a Dataplot .DAT file: free text, then rows of
 // whitespace-separated numbers. The numbers start after the last line made

@@ -8,11 +8,14 @@ import (
 )
 
 // lnTCrit is the two-sided Student t quantile t_{1−α/2, df} for the
-// confidence level (α = 1 − level), from gonum's distuv.StudentsT.
+// confidence level (α = 1 − level), from gonum's distuv.StudentsT. A level
+// outside [MinLevel, MaxLevel] is taken as DefaultLevel (levelOrDefault),
+// so the quantile is always finite.
 func lnTCrit(level, df float64) float64 {
 	if !(df > 0) {
 		return 0
 	}
+	level = levelOrDefault(level)
 	return distuv.StudentsT{Mu: 0, Sigma: 1, Nu: df}.Quantile(1 - (1-level)/2)
 }
 
@@ -119,20 +122,20 @@ func lnCoefficient(est, se, df, level, ref float64) Coefficient {
 //
 // Source: Draper & Smith, Applied Regression Analysis, 3rd ed., §1.3–1.4, §9.2.
 func inferLS(f *lineFit, level, slopeRef, interceptRef float64, rep *Report) {
-	kx, ky, cw := f.kx, f.ky, f.cw
+	cw := f.cw
 	s2 := f.s2()
 	rep.DF = f.df
-	rep.ResidualSE = math.Sqrt(s2) / ky / math.Sqrt(cw)
-	seB1 := math.Sqrt(f.v1) * kx / ky
+	rep.ResidualSE = f.unscale(math.Sqrt(s2), 0, -1, 0) / math.Sqrt(cw)
+	seB1 := f.unscale(math.Sqrt(f.v1), 1, -1, 0)
 	rep.Slope = lnCoefficient(f.slope(), seB1, f.df, level, slopeRef)
 	if !f.origin {
 		vb0 := f.va + f.xc*f.xc*f.v1 - 2*f.xc*f.cab
-		rep.Intercept = lnCoefficient(f.intercept(), math.Sqrt(math.Max(vb0, 0))/ky, f.df, level, interceptRef)
-		rep.CovSlopeIntercept = (f.cab - f.xc*f.v1) * kx / ky / ky
-		rep.MeanX = f.xc / kx
-		rep.MeanY = f.a / ky
+		rep.Intercept = lnCoefficient(f.intercept(), f.unscale(math.Sqrt(math.Max(vb0, 0)), 0, -1, 0), f.df, level, interceptRef)
+		rep.CovSlopeIntercept = f.unscale(f.cab-f.xc*f.v1, 1, -2, 0)
+		rep.MeanX = f.unscale(f.xc, -1, 0, 0)
+		rep.MeanY = f.unscale(f.a, 0, -1, 0)
 	}
-	rep.Sxx = f.sxx / kx / kx / cw
+	rep.Sxx = f.unscale(f.sxx, -2, 0, -1)
 	ssr := f.b1 * f.b1 * f.sxx
 	r2 := 0.0
 	if f.syy > 0 {
@@ -151,7 +154,7 @@ func inferLS(f *lineFit, level, slopeRef, interceptRef float64, rep *Report) {
 		rep.FP = 0
 		rep.Notes = append(rep.Notes, "The readings lie exactly on a straight line: the residuals are zero, so the standard errors are 0 and the t and F statistics are shown as the largest representable number.")
 	}
-	u := 1 / (ky * ky * cw)
+	u := f.unscale(1, 0, -2, -1)
 	totalDF := n - 1
 	totalName := "total"
 	if f.origin {

@@ -71,18 +71,30 @@ func (fc *fitContext) inverseAt(q InverseQuery) Inverse {
 		msgs = append(msgs, "the weight of the unknown is taken at the estimated x")
 	}
 	t := lnTCrit(fc.rep.Level, f.df)
-	t2 := t * t
-	A := f.b1*f.b1 - t2*f.v1
-	B := -2 * (f.b1*d + t2*f.cab)
-	C := d*d - t2*(vnew+f.va)
+	// The quadratic is divided by b1² and written in v = u/k, with k the
+	// power of two at the size of û and of the interval's half-width, so
+	// every coefficient is of order one: with a far unknown (ȳ0 of 1e150
+	// on a line of slope 1) d² alone would overflow and turn the bounded
+	// interval into a false "slope not clearly different from zero".
+	g := t * t * f.v1 / (f.b1 * f.b1)                            // Fieller's g
+	hw := t * math.Sqrt(math.Max(vnew+f.va, 0)) / math.Abs(f.b1) // half-width at û, internal x units
+	k := 1.0
+	if m := math.Max(math.Abs(uhat), hw); m > 0 && isFiniteNum(m) {
+		_, e := math.Frexp(m)
+		k = math.Ldexp(1, e)
+	}
+	uk := uhat / k
+	A := 1 - g
+	B := -2 * (uk + t*t*f.cab/(f.b1*f.b1)/k)
+	C := uk*uk - (hw/k)*(hw/k)
 	disc := B*B - 4*A*C
-	if !(A > 0) || !(disc >= 0) {
+	if !(A > 0) || !(disc >= 0) || !isFiniteNum(disc) {
 		inv.Bounded = false
 		msgs = append(msgs, fmt.Sprintf("the slope is not clearly different from zero at the %s level, so the interval for x is unbounded (shown as 0 to 0)", levelText(fc.rep.Level)))
 		inv.Message = joinSentences(msgs)
 		return inv
 	}
-	// Stable roots: q = −(B + sign(B)·√disc)/2, u1 = q/A, u2 = C/q.
+	// Stable roots: q = −(B + sign(B)·√disc)/2, v1 = q/A, v2 = C/q.
 	sq := math.Sqrt(disc)
 	var u1, u2 float64
 	if B == 0 {
@@ -94,6 +106,7 @@ func (fc *fitContext) inverseAt(q InverseQuery) Inverse {
 			u2 = u1
 		}
 	}
+	u1, u2 = u1*k, u2*k
 	if u1 > u2 {
 		u1, u2 = u2, u1
 	}
@@ -113,7 +126,7 @@ func (fc *fitContext) inverses() {
 	}
 	fc.rep.Inverse = make([]Inverse, len(fc.opt.Inverse))
 	for i, q := range fc.opt.Inverse {
-		fc.rep.Inverse[i] = fc.inverseAt(q)
+		fc.rep.Inverse[i] = finiteInverse(fc.inverseAt(q))
 	}
 }
 

@@ -94,7 +94,7 @@ func lackOfFit(x, y, w []float64, origin bool, idx []int32) *Check {
 		c := ckNA(name, "The readings are too large to compare the line with the repeats.")
 		return &c
 	}
-	if ssPE <= 1e-28*ssY {
+	if ssPE <= NoScatterTol*NoScatterTol*ssY { // the one no-scatter tolerance, on the repeats
 		c := ckNA(name, "The repeat readings agree exactly, so there is no repeat scatter to compare the line with.")
 		c.DF, c.DF2 = float64(dfLOF), float64(dfPE)
 		return &c

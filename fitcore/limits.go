@@ -10,10 +10,13 @@ import "math"
 // Analytical Procedures, §6.3 and §7.3, "based on the standard deviation of
 // the response and the slope"). For a weighted fit σ is the standard
 // deviation of one reading at the lowest standard, s/√w(x_min). They are
-// given only for untransformed fits, in x units.
+// given only for untransformed fits, in x units, and not when the readings
+// have no scatter (NoScatterTol): σ is then a rounding error.
 func (fc *fitContext) limits() {
 	rep := fc.rep
-	if fc.tr.kind != TransformNone {
+	if fc.tr.kind != TransformNone || fc.noScatter {
+		// No scatter: σ is a rounding error and a "limit" from it would
+		// claim a sensitivity the instrument does not have.
 		return
 	}
 	b1 := math.Abs(rep.Slope.Estimate)

@@ -43,8 +43,30 @@ func lnPow2Scale(m float64) float64 {
 	if m == 0 || (m > 0x1p-400 && m < 0x1p400) {
 		return 1
 	}
+	return lnPow2Norm(m)
+}
+
+// lnPow2Norm returns the power of two k with m·k in [0.5, 1) (1 for m = 0).
+func lnPow2Norm(m float64) float64 {
+	if m == 0 {
+		return 1
+	}
 	_, e := math.Frexp(m)
 	return math.Ldexp(1, -max(e, -1000)) // 2^1073 for a subnormal would overflow
+}
+
+// lg2 is the exponent of a power of two k (k = 2^lg2(k)).
+func lg2(k float64) int {
+	_, e := math.Frexp(k)
+	return e - 1
+}
+
+// unscale returns v·kx^a·ky^b·cw^c, a value in internal units taken back
+// to the units of the readings, with one Ldexp so that no intermediate
+// power of two overflows or underflows (kx/ky/ky can, while the result is
+// an ordinary number).
+func (f *lineFit) unscale(v float64, a, b, c int) float64 {
+	return math.Ldexp(v, a*lg2(f.kx)+b*lg2(f.ky)+c*lg2(f.cw))
 }
 
 // lineFit is a least-squares straight line in internal (scaled) units:
@@ -80,7 +102,7 @@ func (f *lineFit) s2() float64 {
 }
 
 // slope and intercept in original units.
-func (f *lineFit) slope() float64 { return f.b1 * f.kx / f.ky }
+func (f *lineFit) slope() float64 { return f.unscale(f.b1, 1, -1, 0) }
 
 func (f *lineFit) intercept() float64 {
 	if f.origin {
@@ -131,7 +153,9 @@ func fitLine(f *lineFit, x, y, w []float64, origin bool) error {
 		_, e := math.Frexp(mw)
 		cw = math.Ldexp(1, -max(e, -1000))
 	}
-	if !fitScaled(f, x, y, w, origin, lnPow2Scale(mx), lnPow2Scale(my), cw) || !(f.sxx > 0) || !isFiniteNum(f.sxx) {
+	// Here the readings are brought to [½, 1) whatever their size, so
+	// that the sums land well inside the safe band.
+	if !fitScaled(f, x, y, w, origin, lnPow2Norm(mx), lnPow2Norm(my), cw) || !(f.sxx > 0) || !isFiniteNum(f.sxx) {
 		return ErrNoSpreadInX
 	}
 	return f.finish(x, y)
@@ -176,7 +200,7 @@ func fitSmall(f *lineFit, x, y []float64, origin bool) (done bool, err error) {
 		ybar += ey / sw
 	}
 	// safe
-	const lo, hi = 0x1p-900, 0x1p900
+	const lo, hi = lnSafeLo, lnSafeHi
 	if !(sxx > lo && sxx < hi && (syy == 0 || (syy > lo && syy < hi)) && isFiniteNum(sxy) &&
 		isFiniteNum(xbar) && isFiniteNum(ybar) && math.Abs(xbar) < hi && math.Abs(ybar) < hi) {
 		return false, nil
@@ -230,10 +254,15 @@ func fitSmall(f *lineFit, x, y []float64, origin bool) (done bool, err error) {
 	return true, nil
 }
 
+// lnSafeLo and lnSafeHi bound the unscaled sums Sxx, Syy and the means:
+// inside, b1 = Sxy/Sxx is at most √(Syy/Sxx) ≤ 2^400, and b1², Var(b1) =
+// s²/Sxx and b1²·Sxx all stay below 2^800, far from overflow.
+const lnSafeLo, lnSafeHi = 0x1p-400, 0x1p400
+
 // safe says whether the unscaled sums stayed in the range where their
 // squares and products are exact to rounding.
 func (f *lineFit) safe() bool {
-	const lo, hi = 0x1p-900, 0x1p900
+	const lo, hi = lnSafeLo, lnSafeHi
 	return f.sxx > lo && f.sxx < hi && (f.syy == 0 || (f.syy > lo && f.syy < hi)) && isFiniteNum(f.sxy) &&
 		isFiniteNum(f.xc) && isFiniteNum(f.a) && math.Abs(f.xc) < hi && math.Abs(f.a) < hi
 }

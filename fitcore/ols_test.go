@@ -83,9 +83,9 @@ func TestStRD(t *testing.T) {
 		origin bool
 	}{
 		{"../testdata/strd/Norris.txt", false},
-		{"../../shared/reference/strd/Norris.txt", false},
-		{"../../shared/reference/strd/NoInt1.txt", true},
-		{"../../shared/reference/strd/NoInt2.txt", true},
+		{refPath("strd", "Norris.txt"), false},
+		{refPath("strd", "NoInt1.txt"), true},
+		{refPath("strd", "NoInt2.txt"), true},
 	}
 	for _, c := range cases {
 		t.Run(c.path, func(t *testing.T) {
@@ -181,5 +181,46 @@ func TestErrors(t *testing.T) {
 	}
 	if !strings.Contains(err.Error(), "pair 3") {
 		t.Errorf("message should number the pair from 1: %q", err)
+	}
+}
+
+// TestStRDScaled: NIST StRD Norris and NoInt1 with x and y multiplied by
+// powers of two (up to 2^±450 ≈ 3e±135, inside MaxMagnitude, where the fit
+// runs on internally rescaled values) still meet every certified value,
+// each scaled by the power of two its units call for (B1 by 2^(ey−ex), B0
+// and residual_sd by 2^ey, sums of squares by 2^(2ey)), to an LRE of 12.
+func TestStRDScaled(t *testing.T) {
+	for _, c := range []struct {
+		path   string
+		origin bool
+	}{{"../testdata/strd/Norris.txt", false}, {refPath("strd", "NoInt1.txt"), true}} {
+		d := readStRD(t, c.path)
+		for _, e := range [][2]int{{300, 300}, {-300, -300}, {450, -200}, {-150, 300}, {-100, 400}} {
+			ex, ey := e[0], e[1]
+			x, y := make([]float64, len(d.x)), make([]float64, len(d.y))
+			for i := range x {
+				x[i], y[i] = math.Ldexp(d.x[i], ex), math.Ldexp(d.y[i], ey)
+			}
+			opt := Options{SkipAdvice: true}
+			if c.origin {
+				opt.Model = ModelOrigin
+			}
+			rep, err := Analyze(x, y, opt)
+			if err != nil {
+				t.Fatalf("%s 2^%d, 2^%d: %v", c.path, ex, ey, err)
+			}
+			got := map[string]float64{
+				"B0": math.Ldexp(rep.Intercept.Estimate, -ey), "B0_sd": math.Ldexp(rep.Intercept.SE, -ey),
+				"B1": math.Ldexp(rep.Slope.Estimate, ex-ey), "B1_sd": math.Ldexp(rep.Slope.SE, ex-ey),
+				"residual_sd": math.Ldexp(rep.ResidualSE, -ey), "r_squared": rep.RSquared,
+				"ss_regression": math.Ldexp(rep.Anova[0].SS, -2*ey), "ss_residual": math.Ldexp(rep.Anova[1].SS, -2*ey),
+				"df_residual": rep.DF, "f_statistic": rep.F,
+			}
+			for name, want := range d.cert {
+				if l := lre(got[name], want); l < 12 {
+					t.Errorf("%s 2^%d, 2^%d: %s = %.15g, certified %.15g, LRE %.2f < 12", c.path, ex, ey, name, got[name], want, l)
+				}
+			}
+		}
 	}
 }

@@ -26,7 +26,26 @@ const (
 	// the other's and ordinary or inverse least squares is the honest fit.
 	MinVarianceRatio = 1e-6
 	MaxVarianceRatio = 1e6
+	// MaxMagnitude bounds the size of every reading, of every x to predict
+	// at, of every reading of an unknown to read back, of the reference
+	// values and of the reading uncertainties. The report gives sums of
+	// squares (Sxx, the ANOVA table) and variances in the units of the
+	// readings; beyond about 1e150 those overflow float64 (1.8e308) for
+	// ordinary numbers of readings. No instrument reads such values in
+	// sensible units, so they are refused with the advice to rescale.
+	MaxMagnitude = 1e150
 )
+
+// levelOrDefault returns level when it lies in [MinLevel, MaxLevel] and
+// DefaultLevel otherwise (NaN included). Every internal function that takes
+// a quantile at a level goes through it, so none can be handed a level its
+// quantile functions reject (gonum panics for levels near 0 or 1).
+func levelOrDefault(level float64) float64 {
+	if level >= MinLevel && level <= MaxLevel {
+		return level
+	}
+	return DefaultLevel
+}
 
 // OptionError reports an option value that is out of range, unknown, or
 // does not go with another option. Option is the option's key as the
@@ -121,16 +140,28 @@ func (o Options) Normalize() (Options, error) {
 		name string
 		p    *float64
 	}{{"slope_ref", o.SlopeRef}, {"intercept_ref", o.InterceptRef}} {
-		if r.p != nil && !isFiniteNum(*r.p) {
-			return o, optErr(r.name, formatValue(*r.p), "a reference value must be a finite number")
+		if r.p != nil && !(math.Abs(*r.p) <= MaxMagnitude) {
+			return o, optErr(r.name, formatValue(*r.p), "a reference value must be a finite number of at most %g in size", MaxMagnitude)
 		}
 	}
 	for _, u := range []struct {
 		name string
 		v    float64
 	}{{"x_uncertainty", o.XUncertainty}, {"y_uncertainty", o.YUncertainty}} {
-		if !isFiniteNum(u.v) || u.v < 0 {
-			return o, optErr(u.name, formatValue(u.v), "a reading uncertainty must be zero or a positive number")
+		if !(u.v >= 0 && u.v <= MaxMagnitude) {
+			return o, optErr(u.name, formatValue(u.v), "a reading uncertainty must be zero or a positive number of at most %g", MaxMagnitude)
+		}
+	}
+	for i, v := range o.PredictX {
+		if !(math.Abs(v) <= MaxMagnitude) {
+			return o, optErr("predict_x", formatValue(v), "x value %d to predict at must be a finite number of at most %g in size; rescale the units", i+1, MaxMagnitude)
+		}
+	}
+	for i, q := range o.Inverse {
+		for j, v := range q.Y {
+			if !(math.Abs(v) <= MaxMagnitude) {
+				return o, optErr("inverse_y", formatValue(v), "reading %d of unknown %d must be a finite number of at most %g in size; rescale the units", j+1, i+1, MaxMagnitude)
+			}
 		}
 	}
 	return o, nil

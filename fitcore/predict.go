@@ -101,7 +101,7 @@ func (fc *fitContext) predictions() {
 	}
 	fc.rep.Predictions = make([]Prediction, len(fc.opt.PredictX))
 	for i, x := range fc.opt.PredictX {
-		fc.rep.Predictions[i] = fc.predictAt(x)
+		fc.rep.Predictions[i] = finitePrediction(fc.predictAt(x))
 	}
 }
 
@@ -134,4 +134,26 @@ func upperFirst(s string) string {
 		r[0] -= 'a' - 'A'
 	}
 	return string(r)
+}
+
+// finitePrediction keeps a prediction whose figures cannot be represented
+// (a far x on a log scale, whose back-transform overflows) from reaching
+// the report as Inf: the figures are 0 and the message says why.
+func finitePrediction(p Prediction) Prediction {
+	for _, v := range []float64{p.Fit, p.CILow, p.CIHigh, p.PILow, p.PIHigh} {
+		if !isFiniteNum(v) {
+			return Prediction{X: p.X, Message: "The prediction at this x is too large to be given in the units of y (it exceeds 1.8e308); this x is far outside the readings."}
+		}
+	}
+	return p
+}
+
+// finiteInverse is finitePrediction for an inverse prediction.
+func finiteInverse(inv Inverse) Inverse {
+	for _, v := range []float64{inv.Y, inv.X, inv.SE, inv.Low, inv.High} {
+		if !isFiniteNum(v) {
+			return Inverse{Y: 0, M: inv.M, Message: "The x for this unknown is too large to be given in the units of x (it exceeds 1.8e308); its readings are far outside the calibration."}
+		}
+	}
+	return inv
 }

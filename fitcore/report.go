@@ -95,7 +95,7 @@ type Options struct {
 	BoxCoxLambda *float64
 	Weights      WeightScheme
 	GivenWeights []float64 // used with WeightsGiven; one per pair
-	Level        float64   // confidence level, 0 < Level < 1; 0 means 0.95
+	Level        float64   // confidence level, MinLevel ≤ Level ≤ MaxLevel; 0 means DefaultLevel (0.95)
 	// SlopeRef and InterceptRef are the values the slope and intercept are
 	// tested against (the usual calibration questions: slope = 1, intercept = 0).
 	// nil means 1 and 0.

@@ -29,7 +29,7 @@ import (
 // interval for the slope cover the true slope less often: with bias 0.5 SE a
 // 95 % interval covers about 92 %, with 1 SE about 83 %. Verdict (our rule,
 // from that coverage arithmetic): |z| < 0.5 passes, 0.5 ≤ |z| < 1 warns,
-// |z| ≥ 1 fails. level (0 means 0.95) is used for the coverage in the
+// |z| ≥ 1 fails. level (outside MinLevel…MaxLevel, 0 included, 0.95) is used for the coverage in the
 // message.
 //
 // The check is NA when xu is not positive, inputs are invalid, there are fewer
@@ -52,9 +52,7 @@ func XExactness(x, y []float64, xu, yu float64, level float64) (Check, Assumptio
 	if n < 3 {
 		return na(fmt.Sprintf("The x exactness check needs at least 3 readings; there are %d.", n))
 	}
-	if !(level > 0 && level < 1) {
-		level = 0.95
-	}
+	level = levelOrDefault(level)
 	mx, _ := ckMeanSD(x)
 	my, _ := ckMeanSD(y)
 	var sxx, syy, sxy float64
