@@ -52,7 +52,7 @@ func (c *Shell) loadDemo(ctx app.Context, e app.Event) {
 				c.notice = "The demo could not be loaded: " + err.Error()
 				return
 			}
-			c.show(ss[0])
+			c.showStored(ss[0])
 			c.resyncInputs()
 			c.listOpen = true
 			c.notice = "Added " + strconv.Itoa(len(ss)) + " demo sessions with invented readings (the fictional Larkwater Valley Water Board)"

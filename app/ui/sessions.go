@@ -90,7 +90,7 @@ func (c *Shell) open(ctx app.Context, id string) {
 				c.notice = err.Error()
 				return
 			}
-			c.show(s)
+			c.showStored(s)
 			c.listOpen = false
 		})
 	})

@@ -123,7 +123,7 @@ func (c *Shell) OnMount(ctx app.Context) {
 			if err != nil {
 				c.notice = err.Error()
 			}
-			c.show(sess)
+			c.showStored(sess)
 			c.startSaver(ctx)
 			if len(list) == 0 || list[0].ID != sess.ID {
 				c.save(ctx)
@@ -214,6 +214,16 @@ func (c *Shell) show(s *session.Session) {
 	c.analyse()
 	c.resyncInputs()
 	c.collectAfterLoad()
+}
+
+// showStored shows s, a session just read from (or written to) the device:
+// unless a save of it is still waiting or was refused, its status is
+// "saved", since what is shown is what the device holds.
+func (c *Shell) showStored(s *session.Session) {
+	c.show(s)
+	if c.saveState == "" && !c.saves.pending(s.ID) {
+		c.saveState = "saved"
+	}
 }
 
 // resyncInputs asks the next render to make every text field show the open

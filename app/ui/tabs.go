@@ -117,7 +117,7 @@ func (c *Shell) reloadFromStore(ctx app.Context, id, note string) {
 				return
 			}
 			page := c.page
-			c.show(s)
+			c.showStored(s)
 			c.opened(s)
 			c.page = page
 			c.saveState, c.saveMessage, c.saveWhy = "saved", "", ""

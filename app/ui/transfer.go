@@ -302,7 +302,7 @@ func saveAll(st store.Store, ss []*session.Session) error {
 // openImported shows an imported session and remembers it as the last open.
 func (c *Shell) openImported(ctx app.Context, s *session.Session) {
 	ctx = c.ui // dispatch through the Shell: the element that asked may be gone by then
-	c.show(s)
+	c.showStored(s)
 	c.listOpen = false
 	st, id := c.st, s.ID
 	ctx.Async(func() { st.SetLast(id) })
