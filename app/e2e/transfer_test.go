@@ -292,7 +292,7 @@ func TestTransferRoundTrip(t *testing.T) {
 
 // TestImportBroken: damaged, cut and foreign files are refused with a
 // sentence saying what is wrong and where, and the stored sessions stay as
-// they were. The kinds of damage are those docs/session-file.md names.
+// they were. The kinds of damage are those app/session/FORMAT.md names.
 func TestImportBroken(t *testing.T) {
 	srv := startServer(t)
 	b := newBrowser(t, phone)
