@@ -161,14 +161,7 @@ func newBrowser(t testing.TB, size [2]int64) *browser {
 	if err := chromedp.Do(ctx, chromedp.EmulateViewport(size[0], size[1])); err != nil {
 		t.Fatalf("cannot start Chromium: %v", err)
 	}
-	// tid and tids (testidJS) exist in every page this browser opens.
-	if err := chromedp.Do(ctx, chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
-		now := true
-		_, err := cdp.Call(ctx, tg, page.AddScriptToEvaluateOnNewDocument, page.AddScriptToEvaluateOnNewDocumentParams{Source: testidJS, RunImmediately: &now})
-		return err
-	})); err != nil {
-		t.Fatal(err)
-	}
+	addTestIDs(t, ctx)
 	events := chromedp.Events(ctx, network.RequestWillBeSent)
 	if err := chromedp.Do(ctx, chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
 		_, err := cdp.Call(ctx, tg, network.Enable, network.EnableParams{})
@@ -187,6 +180,29 @@ func newBrowser(t testing.TB, size [2]int64) *browser {
 		}
 	}()
 	return b
+}
+
+// addTestIDs makes tid and tids (testidJS) exist in every page the tab of
+// ctx opens.
+func addTestIDs(t testing.TB, ctx context.Context) {
+	t.Helper()
+	if err := chromedp.Do(ctx, chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
+		now := true
+		_, err := cdp.Call(ctx, tg, page.AddScriptToEvaluateOnNewDocument, page.AddScriptToEvaluateOnNewDocumentParams{Source: testidJS, RunImmediately: &now})
+		return err
+	})); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// newTab opens a second tab in b's browser (same profile, so the same
+// storage and BroadcastChannel); it closes with the test.
+func (b *browser) newTab(t testing.TB) *browser {
+	t.Helper()
+	ctx, cancel := chromedp.NewContext(b.ctx)
+	t.Cleanup(cancel)
+	addTestIDs(t, ctx)
+	return &browser{ctx: ctx}
 }
 
 // foreign returns the requests that went anywhere but origin.
