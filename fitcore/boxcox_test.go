@@ -19,7 +19,7 @@ const bcGoldenPath = "../testdata/golden/boxcox.json"
 
 // bcAlaskaPath is the NIST/SEMATECH e-Handbook Alaska pipeline data set
 // (handbook section 4.6.3), read from the shared reference folder.
-const bcAlaskaPath = "../../shared/reference/nist-handbook/ALASKA_PIPELINE.DAT"
+var bcAlaskaPath = []string{"nist-handbook", "ALASKA_PIPELINE.DAT"}
 
 type bcGoldenCase struct {
 	Name       string    `json:"name"`
@@ -46,9 +46,10 @@ type bcGolden struct {
 // handbook file (columns: field, lab, batch), or skips the test visibly.
 func bcReadAlaska(t testing.TB) (x, y []float64) {
 	t.Helper()
-	f, err := os.Open(bcAlaskaPath)
+	path := refPath(t, bcAlaskaPath...)
+	f, err := os.Open(path)
 	if err != nil {
-		t.Skipf("NIST e-Handbook Alaska pipeline data not found at %s (%v); skipping the check that uses it", bcAlaskaPath, err)
+		t.Fatal(err)
 	}
 	defer f.Close()
 	sc := bufio.NewScanner(f)
@@ -70,10 +71,10 @@ func bcReadAlaska(t testing.TB) (x, y []float64) {
 		}
 	}
 	if err := sc.Err(); err != nil {
-		t.Fatalf("reading %s: %v", bcAlaskaPath, err)
+		t.Fatalf("reading %s: %v", path, err)
 	}
 	if len(x) != 107 { // the handbook lists 107 defects (4.6.3.1)
-		t.Fatalf("read %d pairs from %s, want 107", len(x), bcAlaskaPath)
+		t.Fatalf("read %d pairs from %s, want 107", len(x), path)
 	}
 	return x, y
 }

@@ -119,7 +119,7 @@ func loadRef(t testing.TB) *refChecks {
 			if c.Source == nil {
 				continue
 			}
-			x, y, err := readRefColumns(filepath.Join("..", "..", "shared", "reference", c.Source.File), c.Source.Reader, c.Source.XCol, c.Source.YCol)
+			x, y, err := readRefColumns(filepath.Join(refDir(), c.Source.File), c.Source.Reader, c.Source.XCol, c.Source.YCol)
 			if err == nil && len(x) == c.N {
 				c.X, c.Y = x, y
 			}
@@ -138,13 +138,17 @@ func refCases(t *testing.T) []refCase {
 	var out []refCase
 	for _, c := range loadRef(t).Cases {
 		if c.X == nil {
-			t.Logf("SKIP %s: ../shared/reference/%s not found", c.Name, c.Source.File)
+			if msg := refMissing(filepath.Join(refDir(), c.Source.File)); os.Getenv("CI") == "true" {
+				t.Errorf("%s: %s", c.Name, msg)
+			} else {
+				t.Logf("SKIP %s: %s", c.Name, msg)
+			}
 			continue
 		}
 		out = append(out, c)
 	}
 	if len(out) == 0 {
-		t.Skip("no reference cases usable (../shared/reference missing?)")
+		t.Skip(refMissing(refDir()))
 	}
 	return out
 }

@@ -5,7 +5,6 @@ import (
 	"bytes"
 	"math"
 	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
@@ -19,18 +18,13 @@ import (
 // numeric references are statsmodels/scipy (testdata/golden, checked in
 // golden_test.go); these tests check the diagnoses the handbook draws.
 
-const handbookDir = "../../shared/reference/nist-handbook"
-
 // readHandbook reads a Dataplot .DAT file: free text, then rows of
 // whitespace-separated numbers. The numbers start after the last line made
 // only of dashes (every handbook file has one); rows must all have the same
 // number of columns. It skips the test visibly when the file is absent.
 func readHandbook(t testing.TB, name string) [][]float64 {
 	t.Helper()
-	b, err := os.ReadFile(filepath.Join(handbookDir, name))
-	if os.IsNotExist(err) {
-		t.Skipf("SKIP: handbook data %s not found in %s (NIST e-Handbook datasets are not in this checkout)", name, handbookDir)
-	}
+	b, err := os.ReadFile(fitcore.RefPath(t, "nist-handbook", name))
 	if err != nil {
 		t.Fatal(err)
 	}
