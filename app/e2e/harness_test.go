@@ -383,12 +383,24 @@ func tapPlotAt(t testing.TB, b *browser, testID string, x, y float64) [2]float64
 // Earlier names of the helpers above, kept so that tests written alongside
 // this change still build; new tests use click, exists, setValue, typeInto
 // and textOf.
-func fuClick(t testing.TB, b *browser, testid string)       { t.Helper(); click(t, b, testid) }
-func anClick(t testing.TB, b *browser, testid string)       { t.Helper(); click(t, b, testid) }
+//
+//lint:ignore U1000 kept until the tests written alongside use the new name
+func fuClick(t testing.TB, b *browser, testid string) { t.Helper(); click(t, b, testid) }
+
+//lint:ignore U1000 kept until the tests written alongside use the new name
+func anClick(t testing.TB, b *browser, testid string) { t.Helper(); click(t, b, testid) }
+
+//lint:ignore U1000 kept until the tests written alongside use the new name
 func anExists(t testing.TB, b *browser, testid string) bool { t.Helper(); return exists(t, b, testid) }
+
+//lint:ignore U1000 kept until the tests written alongside use the new name
 func anSet(t testing.TB, b *browser, testid, value, event string) {
 	t.Helper()
 	setValue(t, b, testid, value, event)
 }
+
+//lint:ignore U1000 kept until the tests written alongside use the new name
 func setCell(t testing.TB, b *browser, testid, text string) { t.Helper(); typeInto(t, b, testid, text) }
-func text(t testing.TB, b *browser, testid string) string   { t.Helper(); return textOf(t, b, testid) }
+
+//lint:ignore U1000 kept until the tests written alongside use the new name
+func text(t testing.TB, b *browser, testid string) string { t.Helper(); return textOf(t, b, testid) }
