@@ -84,7 +84,7 @@ func ckSpread(name string, x, resid []float64, quad bool, pre *ckPre) Check {
 	return c
 }
 
-// ckSpreadR2 is ckAuxR2 for v = e² standardized (centred and scaled by its
+// ckSpreadR2 is the R² of the auxiliary regression of v = e² standardized (centred and scaled by its
 // rms) on the basis bs: R² = 1 − SSE/n. ok is false when e² has no spread
 // or a basis member is degenerate.
 func ckSpreadR2(x, resid []float64, bs *ckBasis, quad bool) (float64, bool) {

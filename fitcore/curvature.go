@@ -115,8 +115,8 @@ func ckDistinctAtLeast(v []float64, k int) int {
 	return len(seen)
 }
 
-// ckWNorm is √Σ(wk·w)·v², scaled to avoid overflow and underflow (ckNorm
-// of √(wk·w)·v); w nil means all weights 1.
+// ckWNorm is √Σ(wk·w)·v², scaled to avoid overflow and underflow (the
+// Euclidean norm of √(wk·w)·v); w nil means all weights 1.
 func ckWNorm(v, w []float64, wk float64) float64 {
 	var ss float64
 	for i, a := range v {

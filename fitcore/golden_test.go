@@ -47,7 +47,7 @@ type tol struct {
 	pScaled  bool
 }
 
-// boxCoxRange is the λ range fitcore.BoxCoxProfile documents searching; an
+// boxCoxMin and boxCoxMax are the λ range fitcore.BoxCoxProfile documents searching; an
 // interval end outside it is reported as the bound itself.
 const boxCoxMin, boxCoxMax = -3.0, 3.0
 

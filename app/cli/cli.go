@@ -1,5 +1,3 @@
-// Package cli is the native `pairline` command: flags, wiring and exit
-// codes. The work is done by app/webapp, app/session and fitcore.
 package cli
 
 import (

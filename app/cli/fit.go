@@ -1,6 +1,3 @@
-// Package cli holds the native sub-commands of the pairline program. Each
-// command is a function of its arguments and streams that returns the exit
-// status, so tests can run it without a process.
 package cli
 
 import (
@@ -85,7 +82,7 @@ say otherwise. A header row, the delimiter (comma, semicolon, tab) and decimal
 commas are detected; blank and incomplete rows are skipped and counted.
 
 flags:
-  --json               print one JSON object (keys in docs/fit-json.md)
+  --json               print one JSON object (keys in app/cli/FIT-JSON.md)
   --model M            ols (default) | origin | weighted | deming
   --origin             same as --model origin
   --weights W          none | x | x2 | fitted2 | repeats | power (implies

@@ -236,11 +236,8 @@ func TestFitSummary(t *testing.T) {
 // scores LRE, certified values have 15 digits).
 func TestFitNorrisCertified(t *testing.T) {
 	const src = "NIST StRD Norris certified values"
-	path := "../../../shared/reference/strd/Norris.txt"
+	path := refPath(t, "strd", "Norris.txt")
 	b, err := os.ReadFile(path)
-	if os.IsNotExist(err) {
-		t.Skipf("SKIP: %s not found (NIST StRD reference data are not in this checkout)", path)
-	}
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -336,7 +336,7 @@ func TestFitTextHasEveryMessage(t *testing.T) {
 // the byte replacements patch (each must occur exactly once in the body),
 // then writes a fresh SHA-256: a file as a tablet could have written it
 // before the validation of settings was what it is now (layout in
-// docs/session-file.md: 20-byte header, body, 32-byte SHA-256 of both).
+// app/session/FORMAT.md: 20-byte header, body, 32-byte SHA-256 of both).
 func writeSessionFile(t *testing.T, dir, name string, sessions []*session.Session, patch ...[2][]byte) string {
 	t.Helper()
 	b, err := session.EncodeBytes(sessions)

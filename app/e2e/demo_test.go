@@ -15,22 +15,15 @@ import (
 	"pairline/fitcore"
 )
 
-// fuClick clicks the element with that data-testid once it exists.
-func fuClick(t *testing.T, b *browser, testid string) {
-	t.Helper()
-	waitFor(t, b, testid, fmt.Sprintf(`!!document.querySelector('[data-testid=%q]')`, testid), 20*time.Second)
-	eval[bool](t, b, fmt.Sprintf(`(document.querySelector('[data-testid=%q]').click(), true)`, testid))
-}
-
 // fuOpenTitled opens the first listed session with that title.
 func fuOpenTitled(t *testing.T, b *browser, title string) {
 	t.Helper()
 	if attr(t, b, "sessions-open", "aria-expanded") != "true" {
-		fuClick(t, b, "sessions-open")
+		click(t, b, "sessions-open")
 	}
-	waitFor(t, b, "the session list", `!!document.querySelector('[data-testid="session-list"]')`, 10*time.Second)
+	waitFor(t, b, "the session list", `!!tid("session-list")`, 10*time.Second)
 	ok := eval[bool](t, b, fmt.Sprintf(`(() => {
-		for (const li of document.querySelectorAll('[data-testid="session-item"]')) {
+		for (const li of tids("session-item")) {
 			const tt = li.querySelector('.pl-session-title');
 			if (tt && tt.textContent === %q) { li.querySelector('[data-testid="session-open"]').click(); return true; }
 		}
@@ -39,7 +32,7 @@ func fuOpenTitled(t *testing.T, b *browser, title string) {
 	if !ok {
 		t.Fatalf("no listed session is titled %q", title)
 	}
-	waitFor(t, b, "the session "+title, fmt.Sprintf(`document.querySelector('[data-testid="session-title"]').value === %q`, title), 20*time.Second)
+	waitFor(t, b, "the session "+title, fmt.Sprintf(`tid("session-title").value === %q`, title), 20*time.Second)
 }
 
 // fuDemo loads the demo (in a fresh profile) and waits for its first session.
@@ -47,8 +40,8 @@ func fuDemo(t *testing.T, b *browser, srv *server) {
 	t.Helper()
 	b.do(t, chromedp.Navigate(srv.URL))
 	waitFor(t, b, "the app to start", appReady, 60*time.Second)
-	fuClick(t, b, "demo-open")
-	waitFor(t, b, "the demo's first session", fmt.Sprintf(`document.querySelector('[data-testid="session-title"]').value === %q && !!document.querySelector('[data-testid="plot-fit"]')`, demo.Titles[0]), 30*time.Second)
+	click(t, b, "demo-open")
+	waitFor(t, b, "the demo's first session", fmt.Sprintf(`tid("session-title").value === %q && !!tid("plot-fit")`, demo.Titles[0]), 30*time.Second)
 }
 
 // fuReports analyses the embedded demo sessions with fitcore, as the app does.
@@ -82,9 +75,9 @@ func TestDemo(t *testing.T) {
 	ss, reps := fuReports(t)
 
 	count := func() int {
-		return eval[int](t, b, `[...document.querySelectorAll('[data-testid="session-item"] .pl-session-title')].filter(e => e.textContent.startsWith("Demo (invented)")).length`)
+		return eval[int](t, b, `tids("session-item", ' .pl-session-title').filter(e => e.textContent.startsWith("Demo (invented)")).length`)
 	}
-	waitFor(t, b, "the session list", `!!document.querySelector('[data-testid="session-list"]')`, 10*time.Second)
+	waitFor(t, b, "the session list", `!!tid("session-list")`, 10*time.Second)
 	if n := count(); n != 4 {
 		t.Fatalf("%d demo sessions listed, want 4", n)
 	}
@@ -93,7 +86,7 @@ func TestDemo(t *testing.T) {
 	for i, s := range ss {
 		rep := reps[i]
 		fuOpenTitled(t, b, s.Title)
-		waitFor(t, b, "the line", `!!document.querySelector('[data-testid="result-slope"]') && !!document.querySelector('[data-testid="plot-fit"]')`, 20*time.Second)
+		waitFor(t, b, "the line", `!!tid("result-slope") && !!tid("plot-fit")`, 20*time.Second)
 		// The figures on screen are fitcore's (same embedded readings).
 		if got := num(t, b, "result-n"); got != float64(rep.N) {
 			t.Errorf("%s: n = %v, want %d", s.Title, got, rep.N)
@@ -131,7 +124,7 @@ func TestDemo(t *testing.T) {
 		t.Errorf("demo B advice %s, want log_log", reps[1].Advice.Remedy)
 	}
 	fuOpenTitled(t, b, demo.Titles[2])
-	flagged := eval[[]string](t, b, `[...document.querySelectorAll('[data-testid="plot-fit"] .pl-pt-flag')].map(e => e.dataset.row)`)
+	flagged := eval[[]string](t, b, `tids("plot-fit", ' .pl-pt-flag').map(e => e.dataset.row)`)
 	if len(flagged) != 1 || flagged[0] != strconv.Itoa(demo.MistypedRow) {
 		t.Errorf("demo C flags rows %v on the plot, want only %d (the decimal slip)", flagged, demo.MistypedRow)
 	}
@@ -141,9 +134,9 @@ func TestDemo(t *testing.T) {
 	}
 
 	// A second tap adds four more, with new IDs; nothing is overwritten.
-	fuClick(t, b, "demo-open")
-	waitFor(t, b, "eight demo sessions", `[...document.querySelectorAll('[data-testid="session-item"] .pl-session-title')].filter(e => e.textContent.startsWith("Demo (invented)")).length === 8`, 30*time.Second)
-	ids := eval[[]string](t, b, `[...document.querySelectorAll('[data-testid="session-item"]')].map(e => e.dataset.id)`)
+	click(t, b, "demo-open")
+	waitFor(t, b, "eight demo sessions", `tids("session-item", ' .pl-session-title').filter(e => e.textContent.startsWith("Demo (invented)")).length === 8`, 30*time.Second)
+	ids := eval[[]string](t, b, `tids("session-item").map(e => e.dataset.id)`)
 	seen := map[string]bool{}
 	for _, id := range ids {
 		if seen[id] {

@@ -24,7 +24,7 @@ const (
 )
 
 // appReady is true once the wasm app has rendered the readings grid.
-const appReady = `!!document.querySelector('[data-testid="x-input-0"]')`
+const appReady = `!!tid("x-input-0")`
 
 func num(t *testing.T, b *browser, testid string) float64 {
 	t.Helper()
@@ -58,11 +58,11 @@ func TestFoundation(t *testing.T) {
 	waitFor(t, b, "the app to start", appReady, 60*time.Second)
 	t.Logf("first visit to interactive: %v", time.Since(start).Round(time.Millisecond))
 
-	if eval[bool](t, b, `!!document.querySelector('[data-testid="update-ready"]')`) {
+	if eval[bool](t, b, `!!tid("update-ready")`) {
 		t.Error("a first visit must not announce an update")
 	}
 	typePairs(t, b, fivePairs)
-	waitFor(t, b, "the line from 5 pairs", `document.querySelector('[data-testid="result-n"]')?.dataset.value === "5"`, 10*time.Second)
+	waitFor(t, b, "the line from 5 pairs", `tid("result-n")?.dataset.value === "5"`, 10*time.Second)
 	if got := num(t, b, "result-n"); got != 5 {
 		t.Fatalf("n = %v, want 5", got)
 	}
@@ -76,12 +76,12 @@ func TestFoundation(t *testing.T) {
 	if got := eval[string](t, b, `document.activeElement.dataset.testid || ""`); got != "x-input-5" {
 		t.Errorf("focus after the last Enter is on %q, want x-input-5", got)
 	}
-	waitFor(t, b, "the save", `document.querySelector('[data-testid="save-status"]').dataset.state === "saved"`, 10*time.Second)
+	waitFor(t, b, "the save", `tid("save-status").dataset.state === "saved"`, 10*time.Second)
 	screenshot(t, b, "foundation-tablet")
 
 	// Reload: the readings come back from IndexedDB.
 	b.do(t, chromedp.Reload())
-	waitFor(t, b, "the app after reload", appReady+` && document.querySelector('[data-testid="y-input-4"]')`, 30*time.Second)
+	waitFor(t, b, "the app after reload", appReady+` && tid("y-input-4")`, 30*time.Second)
 	checkPairs(t, b, fivePairs)
 
 	// Offline: wait until the service worker has cached app.wasm (its install
@@ -97,7 +97,7 @@ func TestFoundation(t *testing.T) {
 	srv.Stop()
 	start = time.Now()
 	b.do(t, chromedp.Reload())
-	waitFor(t, b, "the app to start offline", appReady+` && document.querySelector('[data-testid="y-input-4"]')`, 30*time.Second)
+	waitFor(t, b, "the app to start offline", appReady+` && tid("y-input-4")`, 30*time.Second)
 	cached := time.Since(start)
 	t.Logf("cached (offline) start to interactive: %v", cached.Round(time.Millisecond))
 	if cached > 2*time.Second {
@@ -121,7 +121,7 @@ func checkPairs(t *testing.T, b *browser, pairs [][2]string) {
 	for i, p := range pairs {
 		for j, col := range []string{"x", "y"} {
 			id := fmt.Sprintf("%s-input-%d", col, i)
-			got := eval[string](t, b, fmt.Sprintf(`document.querySelector('[data-testid=%q]').value`, id))
+			got := eval[string](t, b, fmt.Sprintf(`tid(%q).value`, id))
 			if got != p[j] {
 				t.Errorf("%s = %q after reload, want %q", id, got, p[j])
 			}

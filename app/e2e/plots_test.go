@@ -98,17 +98,17 @@ func TestPlots(t *testing.T) {
 	ss, reps := fuReports(t)
 	s, rep := ss[2], reps[2]
 	fuOpenTitled(t, b, s.Title)
-	waitFor(t, b, "the plots", `!!document.querySelector('[data-testid="plot-qq"]')`, 20*time.Second)
+	waitFor(t, b, "the plots", `!!tid("plot-qq")`, 20*time.Second)
 
 	for _, id := range []string{"plot-fit", "plot-residuals", "plot-order", "plot-qq"} {
-		tag := eval[string](t, b, fmt.Sprintf(`document.querySelector('[data-testid=%q]').tagName`, id))
+		tag := eval[string](t, b, fmt.Sprintf(`tid(%q).tagName`, id))
 		if tag != "svg" {
 			t.Errorf("%s is a %s, want svg", id, tag)
 		}
 		if l := attr(t, b, id, "aria-label"); len(l) < 40 {
 			t.Errorf("%s has aria-label %q, want a sentence", id, l)
 		}
-		if n := eval[string](t, b, fmt.Sprintf(`document.querySelector('[data-testid=%q] .pl-plot-points').dataset.count`, id)); n != strconv.Itoa(rep.N) {
+		if n := eval[string](t, b, fmt.Sprintf(`tid(%q, ' .pl-plot-points').dataset.count`, id)); n != strconv.Itoa(rep.N) {
 			t.Errorf("%s draws %s readings, want %d", id, n, rep.N)
 		}
 	}
@@ -117,9 +117,9 @@ func TestPlots(t *testing.T) {
 	// The plain dots are one path ("M x y h0" each); flagged markers have
 	// an element each. The lowest of all must be the flagged slip.
 	lowest := eval[string](t, b, `(() => { let best = "", by = -1;
-		const d = document.querySelector('[data-testid="plot-qq"] .pl-pt-dots')?.getAttribute('d') || '';
+		const d = tid("plot-qq", ' .pl-pt-dots')?.getAttribute('d') || '';
 		for (const m of d.matchAll(/M(-?[0-9.]+) (-?[0-9.]+)/g)) { if (+m[2] > by) { by = +m[2]; best = "dot"; } }
-		for (const e of document.querySelectorAll('[data-testid="plot-qq"] .pl-plot-points [data-row]')) {
+		for (const e of tids("plot-qq", ' .pl-plot-points [data-row]')) {
 			const r = e.getBBox(), y = r.y + r.height / 2;
 			if (y > by) { by = y; best = e.dataset.row; }
 		}
@@ -129,17 +129,17 @@ func TestPlots(t *testing.T) {
 	}
 
 	// Without a tap: the panel opens on the first flagged reading.
-	fuClick(t, b, "plot-point-open")
-	waitFor(t, b, "the panel on the flagged reading", fmt.Sprintf(`document.querySelector('[data-testid="plot-point-panel"]')?.dataset.row === "%d"`, demo.MistypedRow), 10*time.Second)
-	fuClick(t, b, "plot-point-close")
-	waitFor(t, b, "the panel closed", `!document.querySelector('[data-testid="plot-point-panel"]')`, 10*time.Second)
+	click(t, b, "plot-point-open")
+	waitFor(t, b, "the panel on the flagged reading", fmt.Sprintf(`tid("plot-point-panel")?.dataset.row === "%d"`, demo.MistypedRow), 10*time.Second)
+	click(t, b, "plot-point-close")
+	waitFor(t, b, "the panel closed", `!tid("plot-point-panel")`, 10*time.Second)
 
 	// Tap a plain dot where it is drawn (reading 1 of this session): the
 	// panel opens on it and a ring marks it on every plot.
 	x1, _ := session.ParseNumber(s.Readings[0].X)
 	y1, _ := session.ParseNumber(s.Readings[0].Y)
 	tapPlotAt(t, b, "plot-fit", x1, y1)
-	waitFor(t, b, "the panel on reading 1", `document.querySelector('[data-testid="plot-point-panel"]')?.dataset.row === "0"`, 10*time.Second)
+	waitFor(t, b, "the panel on reading 1", `tid("plot-point-panel")?.dataset.row === "0"`, 10*time.Second)
 	for _, id := range []string{"plot-fit", "plot-residuals", "plot-order", "plot-qq"} {
 		if got := attr(t, b, id+"-selected", "data-row"); got != "0" {
 			t.Errorf("%s-selected ring is on reading %q, want 0", id, got)
@@ -151,7 +151,7 @@ func TestPlots(t *testing.T) {
 	ys, _ := session.ParseNumber(s.Readings[demo.MistypedRow].Y)
 	at := tapPlotAt(t, b, "plot-fit", xs, ys)
 	b.do(t, chromedp.MouseClickXY(at[0]+6, at[1]-4))
-	waitFor(t, b, "the reading panel", fmt.Sprintf(`document.querySelector('[data-testid="plot-point-panel"]')?.dataset.row === "%d"`, demo.MistypedRow), 10*time.Second)
+	waitFor(t, b, "the reading panel", fmt.Sprintf(`tid("plot-point-panel")?.dataset.row === "%d"`, demo.MistypedRow), 10*time.Second)
 	if got := attr(t, b, "plot-fit-selected", "data-row"); got != strconv.Itoa(demo.MistypedRow) {
 		t.Errorf("the ring is on reading %q, want %d", got, demo.MistypedRow)
 	}
@@ -178,11 +178,11 @@ func TestPlots(t *testing.T) {
 	screenshot(t, b, "plots-tablet-panel")
 
 	// Without a reason, nothing is left out.
-	fuClick(t, b, "plot-point-exclude")
-	waitFor(t, b, "the request for a reason", `!!document.querySelector('[data-testid="plot-point-message"]')`, 5*time.Second)
+	click(t, b, "plot-point-exclude")
+	waitFor(t, b, "the request for a reason", `!!tid("plot-point-message")`, 5*time.Second)
 	b.do(t, chromedp.SendKeys(sel("plot-point-reason"), "decimal point slipped (61.24 for 612.4)"))
-	fuClick(t, b, "plot-point-exclude")
-	waitFor(t, b, "the line without the slip", fmt.Sprintf(`document.querySelector('[data-testid="result-n"]')?.dataset.value === "%d"`, rep.N-1), 10*time.Second)
+	click(t, b, "plot-point-exclude")
+	waitFor(t, b, "the line without the slip", fmt.Sprintf(`tid("result-n")?.dataset.value === "%d"`, rep.N-1), 10*time.Second)
 	ex := *s
 	ex.Readings = append(ex.Readings[:0:0], s.Readings...)
 	if err := ex.Exclude(demo.MistypedRow, "decimal point slipped (61.24 for 612.4)", time.Now()); err != nil {
@@ -196,7 +196,7 @@ func TestPlots(t *testing.T) {
 	if got := num(t, b, "result-slope"); !near(got, rep2.Slope.Estimate, 1e-12) {
 		t.Errorf("slope without the slip %v, fitcore %v", got, rep2.Slope.Estimate)
 	}
-	if n := eval[int](t, b, fmt.Sprintf(`document.querySelectorAll('[data-testid="plot-fit"] .pl-pt-excl[data-row="%d"]').length`, demo.MistypedRow)); n != 1 {
+	if n := eval[int](t, b, fmt.Sprintf(`tids("plot-fit", ' .pl-pt-excl[data-row="%d"]').length`, demo.MistypedRow)); n != 1 {
 		t.Errorf("the left-out reading is drawn %d times as a hollow square, want once", n)
 	}
 	if got := attr(t, b, "plot-fit", "data-excluded"); got != "1" {
@@ -205,20 +205,20 @@ func TestPlots(t *testing.T) {
 	screenshot(t, b, "plots-tablet-excluded")
 
 	// Undo puts it back; the history keeps both and records the undo.
-	fuClick(t, b, "undo")
-	waitFor(t, b, "the line after undo", fmt.Sprintf(`document.querySelector('[data-testid="result-n"]')?.dataset.value === "%d"`, rep.N), 10*time.Second)
+	click(t, b, "undo")
+	waitFor(t, b, "the line after undo", fmt.Sprintf(`tid("result-n")?.dataset.value === "%d"`, rep.N), 10*time.Second)
 	if got := num(t, b, "result-slope"); !near(got, rep.Slope.Estimate, 1e-12) {
 		t.Errorf("slope after undo %v, fitcore %v", got, rep.Slope.Estimate)
 	}
-	fuClick(t, b, "report-open")
-	waitFor(t, b, "the report", `!!document.querySelector('[data-testid="report"]')`, 10*time.Second)
+	click(t, b, "report-open")
+	waitFor(t, b, "the report", `!!tid("report")`, 10*time.Second)
 	hist := eval[string](t, b, `document.querySelector('.pl-report-history').textContent`)
 	for _, want := range []string{"changes undone: 1", "readings left out or put back (with reasons): 2", "decimal point slipped"} {
 		if !strings.Contains(hist, want) {
 			t.Errorf("the report's history does not say %q: %s", want, hist)
 		}
 	}
-	fuClick(t, b, "report-close")
+	click(t, b, "report-close")
 }
 
 // TestThemesAndLayout: the outdoor theme keeps every text at 7:1 or more,
@@ -229,7 +229,7 @@ func TestThemesAndLayout(t *testing.T) {
 	b := newBrowser(t, tablet)
 	fuDemo(t, b, srv)
 	setTheme := func(v string) {
-		eval[bool](t, b, fmt.Sprintf(`(() => { const s = document.querySelector('[data-testid="theme-select"]'); s.value = %q; s.dispatchEvent(new Event('change', {bubbles: true})); return true; })()`, v))
+		eval[bool](t, b, fmt.Sprintf(`(() => { const s = tid("theme-select"); s.value = %q; s.dispatchEvent(new Event('change', {bubbles: true})); return true; })()`, v))
 		waitFor(t, b, "the "+v+" theme", fmt.Sprintf(`document.querySelector('.pl-app').classList.contains('pl-theme-%s')`, v), 5*time.Second)
 	}
 	std := fuContrast(t, b, 4.5)
@@ -244,7 +244,7 @@ func TestThemesAndLayout(t *testing.T) {
 	b.do(t, chromedp.Reload())
 	waitFor(t, b, "the app after reload", appReady, 30*time.Second)
 	waitFor(t, b, "the stored theme", `document.querySelector('.pl-app').classList.contains('pl-theme-outdoor')`, 10*time.Second)
-	if v := eval[string](t, b, `document.querySelector('[data-testid="theme-select"]').value`); v != "outdoor" {
+	if v := valueOf(t, b, "theme-select"); v != "outdoor" {
 		t.Errorf("theme select shows %q after reload, want outdoor", v)
 	}
 	setTheme("dark")
@@ -263,13 +263,13 @@ func TestThemesAndLayout(t *testing.T) {
 		fuDemo(t, vb, srv)
 		fuOverflow(t, vb, v.name+" (session list)")
 		fuOpenTitled(t, vb, demo.Titles[2])
-		eval[bool](t, vb, fmt.Sprintf(`(document.querySelector('[data-testid="plot-fit"] [data-row="%d"]').dispatchEvent(new MouseEvent('click', {bubbles: true})), true)`, demo.MistypedRow))
-		waitFor(t, vb, "the reading panel", `!!document.querySelector('[data-testid="plot-point-panel"]')`, 10*time.Second)
+		eval[bool](t, vb, fmt.Sprintf(`(tid("plot-fit", ' [data-row="%d"]').dispatchEvent(new MouseEvent('click', {bubbles: true})), true)`, demo.MistypedRow))
+		waitFor(t, vb, "the reading panel", `!!tid("plot-point-panel")`, 10*time.Second)
 		fuOverflow(t, vb, v.name)
 		screenshot(t, vb, "layout-"+v.name)
-		fuClick(t, vb, "report-open")
-		waitFor(t, vb, "the report", `!!document.querySelector('[data-testid="report"]')`, 10*time.Second)
-		if o := eval[bool](t, vb, `(() => { const r = document.querySelector('[data-testid="report"]'); return r.scrollWidth <= r.clientWidth + 1; })()`); !o {
+		click(t, vb, "report-open")
+		waitFor(t, vb, "the report", `!!tid("report")`, 10*time.Second)
+		if o := eval[bool](t, vb, `(() => { const r = tid("report"); return r.scrollWidth <= r.clientWidth + 1; })()`); !o {
 			t.Errorf("%s: the report is wider than its view", v.name)
 		}
 		screenshot(t, vb, "report-"+v.name)
@@ -306,7 +306,7 @@ func TestPlotsSpeed(t *testing.T) {
 			t.Fatal(err)
 		}
 		b.do(t, chromedp.SetUploadFiles(sel("import-file"), []string{path}))
-		waitFor(t, b, "the imported session", fmt.Sprintf(`document.querySelector('[data-testid="plot-fit"]')?.dataset.n === "%d"`, n), 120*time.Second)
+		waitFor(t, b, "the imported session", fmt.Sprintf(`tid("plot-fit")?.dataset.n === "%d"`, n), 120*time.Second)
 		drawn, _ := strconv.Atoi(attr(t, b, "plot-fit", "data-drawn"))
 		if n > 2000 && (drawn > 2000 || drawn < 1000) {
 			t.Errorf("%d readings: %d drawn, want thinning to at most 2000", n, drawn)
@@ -319,22 +319,22 @@ func TestPlotsSpeed(t *testing.T) {
 		y1 := s.Readings[1].Y
 		ms := eval[float64](t, b, strings.NewReplacer("POINT", plotPointJS, "READING1Y", y1).Replace(`new Promise(res => {
 			const t0 = performance.now();
-			const svg = document.querySelector('[data-testid="plot-fit"]');
+			const svg = tid("plot-fit");
 			const p = POINT(svg, 0.25, READING1Y);
 			svg.dispatchEvent(new MouseEvent('click', {bubbles: true, clientX: p.x, clientY: p.y}));
 			// A tap lands on whole CSS pixels, so among the readings drawn
 			// around reading 1 it may find a neighbour: any reading will do,
 			// as long as the panel and the ring on every plot agree.
 			const tick = () => {
-				const row = document.querySelector('[data-testid="plot-point-panel"]')?.dataset.row;
-				if (row && document.querySelector('[data-testid="plot-point-reason"]') && document.querySelector('[data-testid="plot-qq-selected"]')?.dataset.row === row) res(performance.now() - t0); else requestAnimationFrame(tick);
+				const row = tid("plot-point-panel")?.dataset.row;
+				if (row && tid("plot-point-reason") && tid("plot-qq-selected")?.dataset.row === row) res(performance.now() - t0); else requestAnimationFrame(tick);
 			};
 			tick();
 		})`))
 		t.Logf("%d readings: a tap on a point → its panel shown and the point marked on the four plots in %.0f ms", n, ms)
 		ms = eval[float64](t, b, `new Promise(res => {
 			const t0 = performance.now();
-			document.querySelector('[data-testid="plot-point-reason"]').dispatchEvent(new Event('input', {bubbles: true}));
+			tid("plot-point-reason").dispatchEvent(new Event('input', {bubbles: true}));
 			requestAnimationFrame(() => requestAnimationFrame(() => res(performance.now() - t0)));
 		})`)
 		t.Logf("%d readings: one render of the screen without new plots: %.0f ms", n, ms)
@@ -348,35 +348,34 @@ func TestPlotsSpeed(t *testing.T) {
 				btn, want = "plot-point-exclude", n-1
 			}
 			outIn = append(outIn, eval[float64](t, b, fmt.Sprintf(`new Promise((resolve, reject) => {
-				const q = id => document.querySelector('[data-testid="' + id + '"]');
 				const want = "%d";
 				const t0 = performance.now();
 				const done = () => {
-					if (q('result-n')?.dataset.value === want && q('plot-fit')?.dataset.n === want && q('plot-qq')?.dataset.n === want &&
-						q('plot-residuals')?.dataset.n === want && q('plot-order')?.dataset.n === want && q('result-stale')?.hidden && q('plot-stale')?.hidden) {
+					if (tid('result-n')?.dataset.value === want && tid('plot-fit')?.dataset.n === want && tid('plot-qq')?.dataset.n === want &&
+						tid('plot-residuals')?.dataset.n === want && tid('plot-order')?.dataset.n === want && tid('result-stale')?.hidden && tid('plot-stale')?.hidden) {
 						obs.disconnect(); resolve(performance.now() - t0);
 					}
 				};
 				const obs = new MutationObserver(done);
 				obs.observe(document.body, { subtree: true, attributes: true, childList: true, characterData: true });
 				setTimeout(() => { obs.disconnect(); reject(new Error('no update within 10 s')); }, 10000);
-				q(%q).click();
+				tid(%q).click();
 			})`, want, btn)))
 			time.Sleep(300 * time.Millisecond)
 		}
 		t.Logf("%d readings: leaving one out and putting it back → line, checks and plots updated in (ms) %.0f", n, outIn)
 		b.do(t, chromedp.SendKeys(sel("plot-point-reason"), "invented"))
-		fuClick(t, b, "plot-point-exclude")
-		waitFor(t, b, "the reading left out", fmt.Sprintf(`document.querySelector('[data-testid="plot-fit"]')?.dataset.n === "%d"`, n-1), 20*time.Second)
+		click(t, b, "plot-point-exclude")
+		waitFor(t, b, "the reading left out", fmt.Sprintf(`tid("plot-fit")?.dataset.n === "%d"`, n-1), 20*time.Second)
 		screenshot(t, b, fmt.Sprintf("speed-%d", n))
 		ms = eval[float64](t, b, `new Promise(res => {
 			const t0 = performance.now();
-			document.querySelector('[data-testid="report-open"]').click();
-			const tick = () => { if (document.querySelector('[data-testid="report"] [data-testid="plot-qq"]')) res(performance.now() - t0); else requestAnimationFrame(tick); };
+			tid("report-open").click();
+			const tick = () => { if (tid("report", ' @plot-qq')) res(performance.now() - t0); else requestAnimationFrame(tick); };
 			tick();
 		})`)
 		t.Logf("%d readings: report open in %.0f ms", n, ms)
-		fuClick(t, b, "report-close")
-		waitFor(t, b, "the report closed", `!document.querySelector('[data-testid="report"]')`, 20*time.Second)
+		click(t, b, "report-close")
+		waitFor(t, b, "the report closed", `!tid("report")`, 20*time.Second)
 	}
 }

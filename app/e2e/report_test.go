@@ -31,10 +31,10 @@ func TestReport(t *testing.T) {
 		rep := reps[i]
 		fuOpenTitled(t, b, s.Title)
 		start := time.Now()
-		fuClick(t, b, "report-open")
-		waitFor(t, b, "the report", `!!document.querySelector('[data-testid="report"] [data-testid="plot-qq"]')`, 20*time.Second)
+		click(t, b, "report-open")
+		waitFor(t, b, "the report", `!!tid("report", ' @plot-qq')`, 20*time.Second)
 		t.Logf("%s: report open in %v", s.Title, time.Since(start).Round(time.Millisecond))
-		html := eval[string](t, b, `document.querySelector('[data-testid="report"]').outerHTML`)
+		html := eval[string](t, b, `tid("report").outerHTML`)
 		for _, v := range []float64{rep.Slope.Estimate, rep.Intercept.Estimate, rep.RSquared, rep.ResidualSE, rep.Slope.SE} {
 			if !strings.Contains(html, `data-value="`+numfmt.Full(v)+`"`) {
 				t.Errorf("%s: the report does not show fitcore's %v", s.Title, v)
@@ -53,19 +53,19 @@ func TestReport(t *testing.T) {
 		if i == 0 {
 			screenshot(t, b, "report-tablet-demo-a")
 		}
-		fuClick(t, b, "report-close")
-		waitFor(t, b, "the report closed", `!document.querySelector('[data-testid="report"]')`, 10*time.Second)
+		click(t, b, "report-close")
+		waitFor(t, b, "the report closed", `!tid("report")`, 10*time.Second)
 	}
 
 	// Print demo C (the decimal slip, left out with its reason) to PDF.
 	fuOpenTitled(t, b, demo.Titles[2])
-	eval[bool](t, b, fmt.Sprintf(`(document.querySelector('[data-testid="plot-fit"] [data-row="%d"]').dispatchEvent(new MouseEvent('click', {bubbles: true})), true)`, demo.MistypedRow))
-	waitFor(t, b, "the reading panel", `!!document.querySelector('[data-testid="plot-point-reason"]')`, 10*time.Second)
+	eval[bool](t, b, fmt.Sprintf(`(tid("plot-fit", ' [data-row="%d"]').dispatchEvent(new MouseEvent('click', {bubbles: true})), true)`, demo.MistypedRow))
+	waitFor(t, b, "the reading panel", `!!tid("plot-point-reason")`, 10*time.Second)
 	b.do(t, chromedp.SendKeys(sel("plot-point-reason"), "decimal point slipped"))
-	fuClick(t, b, "plot-point-exclude")
-	waitFor(t, b, "the reading left out", `!!document.querySelector('[data-testid="plot-fit"] .pl-pt-excl')`, 10*time.Second)
-	fuClick(t, b, "report-open")
-	waitFor(t, b, "the report", `!!document.querySelector('[data-testid="report"] [data-testid="plot-qq"]')`, 20*time.Second)
+	click(t, b, "plot-point-exclude")
+	waitFor(t, b, "the reading left out", `!!tid("plot-fit", ' .pl-pt-excl')`, 10*time.Second)
+	click(t, b, "report-open")
+	waitFor(t, b, "the report", `!!tid("report", ' @plot-qq')`, 20*time.Second)
 	if !strings.Contains(eval[string](t, b, `document.querySelector('.pl-report-readings').textContent`), "Left out: decimal point slipped") {
 		t.Error("the report's readings do not mark the left-out reading with its reason")
 	}
@@ -81,16 +81,15 @@ func TestReport(t *testing.T) {
 	if pages < 2 && len(pdf) < 20000 {
 		t.Errorf("the PDF has %d page(s) and %d bytes: the report did not print", pages, len(pdf))
 	}
-	dir := os.Getenv("PAIRLINE_ARTIFACTS")
-	if dir == "" {
-		dir, _ = filepath.Abs("../../artifacts")
+	dir := artifactDir(t)
+	if err := os.WriteFile(filepath.Join(dir, "report-demo-c.pdf"), pdf, 0o644); err != nil {
+		t.Fatal(err)
 	}
-	os.MkdirAll(dir, 0o755)
-	os.WriteFile(filepath.Join(dir, "report-demo-c.pdf"), pdf, 0o644)
+	t.Logf("PDF: %s", filepath.Join(dir, "report-demo-c.pdf"))
 
 	// Save as HTML: one file, nothing remote, the same report.
 	eval[bool](t, b, captureDownloads)
-	fuClick(t, b, "report-save-html")
+	click(t, b, "report-save-html")
 	name, raw := lastDownload(t, b, 1)
 	if !strings.HasSuffix(name, ".html") {
 		t.Errorf("saved as %q, want an .html name", name)
@@ -111,7 +110,7 @@ func TestReport(t *testing.T) {
 	// Open the file from disk, with no server: it must look like the report.
 	fb := newBrowser(t, tablet)
 	fb.do(t, chromedp.Navigate("file://"+path))
-	waitFor(t, fb, "the saved report", `!!document.querySelector('[data-testid="report"] [data-testid="plot-fit"]')`, 20*time.Second)
+	waitFor(t, fb, "the saved report", `!!tid("report", ' @plot-fit')`, 20*time.Second)
 	if bg := eval[string](t, fb, `getComputedStyle(document.querySelector('.pl-report')).backgroundColor`); bg != "rgb(255, 255, 255)" {
 		t.Errorf("the saved report is not styled (background %s): its stylesheet is missing", bg)
 	}

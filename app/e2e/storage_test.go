@@ -74,7 +74,7 @@ func pasteInto(t *testing.T, b *browser, testid, text string) {
 	eval[bool](t, b, fmt.Sprintf(`(() => {
 		const dt = new DataTransfer();
 		dt.setData("text/plain", %q);
-		const el = document.querySelector('[data-testid=%q]');
+		const el = tid(%q);
 		el.focus();
 		el.dispatchEvent(new ClipboardEvent("paste", {clipboardData: dt, bubbles: true, cancelable: true}));
 		return true;
@@ -98,21 +98,21 @@ func TestCapacity(t *testing.T) {
 	eval[bool](t, b, frameCounter)
 	start := time.Now()
 	b.do(t, chromedp.SetUploadFiles(sel("import-file"), []string{p}))
-	waitFor(t, b, "the progress bar", `!!document.querySelector('[data-testid="import-progress"]') || !!document.querySelector('[data-testid="import-report"]')`, 30*time.Second)
-	sawProgress := eval[bool](t, b, `!!document.querySelector('[data-testid="import-progress"]')`)
+	waitFor(t, b, "the progress bar", `!!tid("import-progress") || !!tid("import-report")`, 30*time.Second)
+	sawProgress := eval[bool](t, b, `!!tid("import-progress")`)
 	if sawProgress {
 		screenshot(t, b, "capacity-import-progress-tablet")
 	}
-	waitFor(t, b, "the 100,000-row import", `!!document.querySelector('[data-testid="import-report"]') || !!document.querySelector('[data-testid="import-error"]')`, 180*time.Second)
+	waitFor(t, b, "the 100,000-row import", `!!tid("import-report") || !!tid("import-error")`, 180*time.Second)
 	took := time.Since(start)
 	eval[bool](t, b, `(window.__counting = false, true)`)
 	frames, gap := eval[int](t, b, `window.__frames`), eval[float64](t, b, `window.__maxGap`)
 	t.Logf("100,000-row CSV import: %v to the report; %d frames drawn meanwhile (%.0f per second), longest gap between frames %.0f ms; progress bar seen: %v",
 		took.Round(time.Millisecond), frames, float64(frames)/took.Seconds(), gap, sawProgress)
-	if e := text(t, b, "import-error"); e != "<missing>" {
+	if e := textOf(t, b, "import-error"); e != "<missing>" {
 		t.Fatalf("the import was refused: %s", e)
 	}
-	report := text(t, b, "import-report")
+	report := textOf(t, b, "import-report")
 	t.Logf("report: %s", report)
 	t.Logf("steps: %s", attr(t, b, "import-report", "data-timing"))
 	for _, w := range []string{"Imported 100000 readings", "2 blank rows", "1 incomplete row", "line 50005"} {
@@ -124,14 +124,14 @@ func TestCapacity(t *testing.T) {
 		t.Errorf("only %d frames were drawn during the import: the page was frozen", frames)
 	}
 	// Every reading is in the session: the file is the reference.
-	waitFor(t, b, "the line from every pair", `document.querySelector('[data-testid="result-n"]')?.dataset.value === "100000"`, 60*time.Second)
-	if got := text(t, b, "page-info"); !strings.Contains(got, "of 100000") {
+	waitFor(t, b, "the line from every pair", `tid("result-n")?.dataset.value === "100000"`, 60*time.Second)
+	if got := textOf(t, b, "page-info"); !strings.Contains(got, "of 100000") {
 		t.Errorf("page-info %q, want … of 100000", got)
 	}
-	if got := eval[string](t, b, `document.querySelector('[data-testid="x-input-0"]').value`); got != "0,20000" {
+	if got := valueOf(t, b, "x-input-0"); got != "0,20000" {
 		t.Errorf("first x = %q, want 0,20000 as written in the file", got)
 	}
-	waitFor(t, b, "the save", `document.querySelector('[data-testid="save-status"]').dataset.state === "saved"`, 60*time.Second)
+	waitFor(t, b, "the save", `tid("save-status").dataset.state === "saved"`, 60*time.Second)
 
 	// 500 sessions of 200 readings, one bundle file.
 	t0 := time.Date(2026, 5, 4, 7, 0, 0, 0, time.UTC)
@@ -151,8 +151,8 @@ func TestCapacity(t *testing.T) {
 	start = time.Now()
 	importPath(t, b, bp)
 	t.Logf("500-session bundle import: %v", time.Since(start).Round(time.Millisecond))
-	if r := text(t, b, "import-report"); !strings.Contains(r, "Imported 500 sessions") {
-		t.Fatalf("bundle import: %s / %s", r, text(t, b, "import-error"))
+	if r := textOf(t, b, "import-report"); !strings.Contains(r, "Imported 500 sessions") {
+		t.Fatalf("bundle import: %s / %s", r, textOf(t, b, "import-error"))
 	}
 
 	// Reload: the app opens the last session (200 readings) and the list.
@@ -160,13 +160,13 @@ func TestCapacity(t *testing.T) {
 	b.do(t, chromedp.Reload())
 	waitFor(t, b, "the app after reload", appReady, 60*time.Second)
 	t.Logf("start with 501 sessions stored: %v", time.Since(start).Round(time.Millisecond))
-	waitFor(t, b, "the list count", `/\(50[12]\)/.test(document.querySelector('[data-testid="sessions-open"]').textContent)`, 30*time.Second)
+	waitFor(t, b, "the list count", `/\(50[12]\)/.test(tid("sessions-open").textContent)`, 30*time.Second)
 	var opens, closes []float64
 	for i := 0; i < 3; i++ {
 		ms := eval[float64](t, b, `(async () => {
 			const t0 = performance.now();
-			document.querySelector('[data-testid="sessions-open"]').click();
-			while (document.querySelectorAll('[data-testid="session-item"]').length < 30)
+			tid("sessions-open").click();
+			while (tids("session-item").length < 30)
 				await new Promise(r => setTimeout(r, 0));
 			await new Promise(r => requestAnimationFrame(() => r()));
 			return performance.now() - t0;
@@ -179,8 +179,8 @@ func TestCapacity(t *testing.T) {
 		// that is the page itself, not the list.
 		closes = append(closes, eval[float64](t, b, `(async () => {
 			const t0 = performance.now();
-			document.querySelector('[data-testid="sessions-open"]').click();
-			while (document.querySelector('[data-testid="session-list"]'))
+			tid("sessions-open").click();
+			while (tid("session-list"))
 				await new Promise(r => setTimeout(r, 0));
 			await new Promise(r => requestAnimationFrame(() => r()));
 			return performance.now() - t0;
@@ -188,9 +188,9 @@ func TestCapacity(t *testing.T) {
 	}
 	t.Logf("closing it again (the page without the list): %.0f ms, %.0f ms, %.0f ms", closes[0], closes[1], closes[2])
 	t.Logf("opening the session list with %d sessions (the newest 30 drawn, more on request): %.0f ms, %.0f ms, %.0f ms (click to drawn)",
-		eval[int](t, b, `+document.querySelector('[data-testid="sessions-open"]').textContent.match(/\d+/)[0]`), opens[0], opens[1], opens[2])
+		eval[int](t, b, `+tid("sessions-open").textContent.match(/\d+/)[0]`), opens[0], opens[1], opens[2])
 	u := attr(t, b, "storage-usage", "data-used")
-	t.Logf("storage used: %s bytes (%s)", u, text(t, b, "storage-usage"))
+	t.Logf("storage used: %s bytes (%s)", u, textOf(t, b, "storage-usage"))
 }
 
 // TestQuotaFull: a full device refuses a save with a clear message and
@@ -204,7 +204,7 @@ func TestQuotaFull(t *testing.T) {
 	b.do(t, chromedp.Navigate(srv.URL))
 	waitFor(t, b, "the app to start", appReady, 60*time.Second)
 	typeSteady(t, b, 0, fivePairs)
-	waitFor(t, b, "the save", `document.querySelector('[data-testid="save-status"]').dataset.state === "saved"`, 10*time.Second)
+	waitFor(t, b, "the save", `tid("save-status").dataset.state === "saved"`, 10*time.Second)
 
 	used := eval[float64](t, b, `navigator.storage.estimate().then(e => e.usage)`)
 	quota := used + 4096
@@ -231,18 +231,18 @@ func TestQuotaFull(t *testing.T) {
 		fmt.Fprintf(&block, "%d\t%d.5\n", i+10, 2*i+20)
 	}
 	pasteInto(t, b, "x-input-5", block.String())
-	waitFor(t, b, "the refused save", `document.querySelector('[data-testid="save-status"]').dataset.state === "failed"`, 60*time.Second)
-	status := text(t, b, "save-status")
+	waitFor(t, b, "the refused save", `tid("save-status").dataset.state === "failed"`, 60*time.Second)
+	status := textOf(t, b, "save-status")
 	t.Logf("save status: %s", status)
 	if !strings.Contains(status, "no room left") {
 		t.Errorf("save-status %q does not say the device is full", status)
 	}
-	waitFor(t, b, "the storage-full message", `!!document.querySelector('[data-testid="storage-full"]')`, 10*time.Second)
+	waitFor(t, b, "the storage-full message", `!!tid("storage-full")`, 10*time.Second)
 	screenshot(t, b, "storage-full-phone")
 	b.do(t, chromedp.Reload())
-	waitFor(t, b, "the app after reload", appReady+` && !!document.querySelector('[data-testid="y-input-4"]')`, 30*time.Second)
+	waitFor(t, b, "the app after reload", appReady+` && !!tid("y-input-4")`, 30*time.Second)
 	checkPairs(t, b, fivePairs)
-	if eval[bool](t, b, `!!document.querySelector('[data-testid="x-input-6"]')`) {
+	if eval[bool](t, b, `!!tid("x-input-6")`) {
 		t.Errorf("a reading of the refused save was stored")
 	}
 }
@@ -260,9 +260,9 @@ func TestTrash(t *testing.T) {
 		block.WriteString(p[0] + "\t" + p[1] + "\r\n")
 	}
 	pasteInto(t, b, "x-input-0", block.String())
-	waitFor(t, b, "the pasted rows", `document.querySelector('[data-testid="y-input-4"]')?.value === "11.0"`, 10*time.Second)
+	waitFor(t, b, "the pasted rows", `tid("y-input-4")?.value === "11.0"`, 10*time.Second)
 	checkPairs(t, b, fivePairs)
-	waitFor(t, b, "the save", `document.querySelector('[data-testid="save-status"]').dataset.state === "saved"`, 10*time.Second)
+	waitFor(t, b, "the save", `tid("save-status").dataset.state === "saved"`, 10*time.Second)
 	id := eval[string](t, b, `(async () => {
 		const db = await new Promise((ok, bad) => { const r = indexedDB.open("pairline"); r.onsuccess = () => ok(r.result); r.onerror = bad; });
 		const last = await new Promise(ok => { const r = db.transaction("meta").objectStore("meta").get("last"); r.onsuccess = () => ok(r.result); });
@@ -270,48 +270,52 @@ func TestTrash(t *testing.T) {
 		return last;
 	})()`)
 	click(t, b, "sessions-open")
-	waitFor(t, b, "the list", fmt.Sprintf(`!!document.querySelector('[data-testid="session-item"][data-id=%q] [data-testid="session-delete"]')`, id), 10*time.Second)
-	eval[bool](t, b, fmt.Sprintf(`(document.querySelector('[data-testid="session-item"][data-id=%q] [data-testid="session-delete"]').click(), true)`, id))
+	waitFor(t, b, "the list", fmt.Sprintf(`!!tid("session-item", '[data-id=%q] @session-delete')`, id), 10*time.Second)
+	eval[bool](t, b, fmt.Sprintf(`(tid("session-item", '[data-id=%q] @session-delete').click(), true)`, id))
 	click(t, b, "session-delete-confirm")
-	waitFor(t, b, "the session to leave the list", fmt.Sprintf(`!document.querySelector('[data-testid="session-item"][data-id=%q]')`, id), 10*time.Second)
+	waitFor(t, b, "the session to leave the list", fmt.Sprintf(`!tid("session-item", '[data-id=%q]')`, id), 10*time.Second)
 	if attr(t, b, "sessions-open", "aria-expanded") != "true" {
 		click(t, b, "sessions-open")
 	}
 	click(t, b, "trash-open")
-	waitFor(t, b, "the deleted session in the trash", fmt.Sprintf(`!!document.querySelector('[data-testid="trash"] [data-id=%q]')`, id), 10*time.Second)
-	if m := eval[string](t, b, fmt.Sprintf(`document.querySelector('[data-testid="trash"] [data-id=%q]').textContent`, id)); !strings.Contains(m, "can be restored until") {
+	waitFor(t, b, "the deleted session in the trash", fmt.Sprintf(`!!tid("trash", ' [data-id=%q]')`, id), 10*time.Second)
+	if m := eval[string](t, b, fmt.Sprintf(`tid("trash", ' [data-id=%q]').textContent`, id)); !strings.Contains(m, "can be restored until") {
 		t.Errorf("the trash entry does not say until when it can be restored: %q", m)
 	}
 	screenshot(t, b, "trash-phone")
-	eval[bool](t, b, fmt.Sprintf(`(document.querySelector('[data-testid="trash"] [data-id=%q] [data-testid="trash-restore"]').click(), true)`, id))
-	waitFor(t, b, "the restored session in the list", fmt.Sprintf(`!!document.querySelector('[data-testid="session-item"][data-id=%q]') && !document.querySelector('[data-testid="trash"] [data-id=%q]')`, id, id), 10*time.Second)
-	eval[bool](t, b, fmt.Sprintf(`(document.querySelector('[data-testid="session-item"][data-id=%q] [data-testid="session-open"]').click(), true)`, id))
-	waitFor(t, b, "the restored readings", `document.querySelector('[data-testid="y-input-4"]')?.value === "11.0"`, 10*time.Second)
+	eval[bool](t, b, fmt.Sprintf(`(tid("trash", ' [data-id=%q] @trash-restore').click(), true)`, id))
+	waitFor(t, b, "the restored session in the list", fmt.Sprintf(`!!tid("session-item", '[data-id=%q]') && !tid("trash", ' [data-id=%q]')`, id, id), 10*time.Second)
+	eval[bool](t, b, fmt.Sprintf(`(tid("session-item", '[data-id=%q] @session-open').click(), true)`, id))
+	waitFor(t, b, "the restored readings", `tid("y-input-4")?.value === "11.0"`, 10*time.Second)
 	checkPairs(t, b, fivePairs)
 }
 
 // TestTwoTabs: a save in one tab reaches the other tab with the same
-// session open. When both tabs change it at nearly the same moment, no
-// change may vanish without a word: either a tab asks (changed-elsewhere)
-// and still shows its own change, or both changes end up in both tabs.
+// session open. When both tabs change it at nearly the same moment, the app
+// never merges and never drops a change (app/ui/tabs.go): a tab that hears
+// of the other's save while it has a change of its own, or after storing
+// one, asks (changed-elsewhere). A, whose last save is long past, stores
+// its edit in the edit's first turn; B's edit is already made by the time
+// A's save reaches it, so B asks. (A asks too when B's own save went out
+// before A's reached it.) Each tab still shows its own change and not the
+// other's; keeping a copy opens the asking tab's version as a new session
+// with its change in it.
 func TestTwoTabs(t *testing.T) {
 	srv := startServer(t)
 	a := newBrowser(t, tablet)
 	a.do(t, chromedp.Navigate(srv.URL))
 	waitFor(t, a, "tab A", appReady, 60*time.Second)
 	typeSteady(t, a, 0, fivePairs[:3])
-	waitFor(t, a, "the save in A", `document.querySelector('[data-testid="save-status"]').dataset.state === "saved"`, 10*time.Second)
+	waitFor(t, a, "the save in A", `tid("save-status").dataset.state === "saved"`, 10*time.Second)
 
-	bctx, cancel := chromedp.NewContext(a.ctx)
-	defer cancel()
-	b := &browser{ctx: bctx}
+	b := a.newTab(t)
 	b.do(t, chromedp.Navigate(srv.URL))
-	waitFor(t, b, "tab B", appReady+` && document.querySelector('[data-testid="y-input-2"]')?.value === "7,2"`, 60*time.Second)
+	waitFor(t, b, "tab B", appReady+` && tid("y-input-2")?.value === "7,2"`, 60*time.Second)
 
 	// A adds a reading: B shows it without a reload.
 	typeSteady(t, a, 3, fivePairs[3:4])
-	waitFor(t, a, "the save in A", `document.querySelector('[data-testid="save-status"]').dataset.state === "saved"`, 10*time.Second)
-	waitFor(t, b, "A's reading in B", `document.querySelector('[data-testid="y-input-3"]')?.value === "8.8"`, 10*time.Second)
+	waitFor(t, a, "the save in A", `tid("save-status").dataset.state === "saved"`, 10*time.Second)
+	waitFor(t, b, "A's reading in B", `tid("y-input-3")?.value === "8.8"`, 10*time.Second)
 
 	// A big session (saved once typing pauses) makes both tabs hold an
 	// unsaved change at the same time.
@@ -320,43 +324,49 @@ func TestTwoTabs(t *testing.T) {
 		fmt.Fprintf(&block, "%d\t%d.5\n", i+10, 2*i+20)
 	}
 	pasteInto(t, a, "x-input-4", block.String())
-	waitFor(t, a, "the save in A", `document.querySelector('[data-testid="save-status"]').dataset.state === "saved"`, 30*time.Second)
-	waitFor(t, b, "the pasted rows in B", `/of 2504/.test(document.querySelector('[data-testid="page-info"]')?.textContent || "")`, 30*time.Second)
+	waitFor(t, a, "the save in A", `tid("save-status").dataset.state === "saved"`, 30*time.Second)
+	waitFor(t, b, "the pasted rows in B", `/of 2504/.test(tid("page-info")?.textContent || "")`, 30*time.Second)
 	set := func(tab *browser, testid, v string) {
-		eval[bool](t, tab, fmt.Sprintf(`(() => { const el = document.querySelector('[data-testid=%q]'); el.focus(); el.value = %q; el.dispatchEvent(new Event("input", {bubbles: true})); return true })()`, testid, v))
+		eval[bool](t, tab, fmt.Sprintf(`(() => { const el = tid(%q); el.focus(); el.value = %q; el.dispatchEvent(new Event("input", {bubbles: true})); return true })()`, testid, v))
 	}
 	set(a, "x-input-0", "1.5")
 	set(b, "x-input-1", "2.5")
 	time.Sleep(3 * time.Second)
-	askA := eval[bool](t, a, `!!document.querySelector('[data-testid="changed-elsewhere"]')`)
-	askB := eval[bool](t, b, `!!document.querySelector('[data-testid="changed-elsewhere"]')`)
+	askA := exists(t, a, "changed-elsewhere")
+	askB := exists(t, b, "changed-elsewhere")
 	t.Logf("near-simultaneous changes: A asks %v, B asks %v", askA, askB)
-	value := func(tab *browser, testid string) string {
-		return eval[string](t, tab, fmt.Sprintf(`document.querySelector('[data-testid=%q]').value`, testid))
+	if !askB {
+		t.Error("B holds a change of its own when A's save reaches it, and does not ask: one change was overwritten without a word")
 	}
-	switch {
-	case askA || askB:
-		if askA && value(a, "x-input-0") != "1.5" {
-			t.Errorf("A asks but no longer shows its own change: x0 = %q", value(a, "x-input-0"))
+	// Each tab shows its own change and not the other's (x0 and x1 as
+	// typed into the grid earlier: fivePairs).
+	for _, c := range []struct {
+		name   string
+		tab    *browser
+		x0, x1 string
+	}{{"A", a, "1.5", fivePairs[1][0]}, {"B", b, fivePairs[0][0], "2.5"}} {
+		if x0, x1 := valueOf(t, c.tab, "x-input-0"), valueOf(t, c.tab, "x-input-1"); x0 != c.x0 || x1 != c.x1 {
+			t.Errorf("tab %s shows x0 = %q, x1 = %q; want its own change only: %q, %q", c.name, x0, x1, c.x0, c.x1)
 		}
-		if askB && value(b, "x-input-1") != "2.5" {
-			t.Errorf("B asks but no longer shows its own change: x1 = %q", value(b, "x-input-1"))
+	}
+	for _, c := range []struct {
+		name string
+		tab  *browser
+		ask  bool
+		id   string
+		want string
+	}{{"A", a, askA, "x-input-0", "1.5"}, {"B", b, askB, "x-input-1", "2.5"}} {
+		if !c.ask {
+			continue
 		}
-		tab := a
-		if askB {
-			tab = b
+		screenshot(t, c.tab, "changed-elsewhere-tablet-"+c.name)
+		click(t, c.tab, "changed-elsewhere-copy")
+		waitFor(t, c.tab, "the copy in "+c.name, `!tid("changed-elsewhere") && tid("save-status").dataset.state === "saved"`, 30*time.Second)
+		if title := valueOf(t, c.tab, "session-title"); !strings.Contains(title, "(copy from this tab)") {
+			t.Errorf("tab %s: keeping a copy did not open the copy (title %q)", c.name, title)
 		}
-		screenshot(t, tab, "changed-elsewhere-tablet")
-		click(t, tab, "changed-elsewhere-copy")
-		waitFor(t, tab, "the copy", `!document.querySelector('[data-testid="changed-elsewhere"]') && document.querySelector('[data-testid="save-status"]').dataset.state === "saved"`, 30*time.Second)
-		if !strings.Contains(eval[string](t, tab, `document.querySelector('[data-testid="session-title"]').value`), "(copy from this tab)") {
-			t.Errorf("keeping a copy did not open the copy")
-		}
-	default:
-		for _, tab := range []*browser{a, b} {
-			if value(tab, "x-input-0") != "1.5" || value(tab, "x-input-1") != "2.5" {
-				t.Errorf("a change vanished without a word: x0 = %q, x1 = %q", value(tab, "x-input-0"), value(tab, "x-input-1"))
-			}
+		if got := valueOf(t, c.tab, c.id); got != c.want {
+			t.Errorf("tab %s: the copy shows %s = %q, want its own change %q", c.name, c.id, got, c.want)
 		}
 	}
 }

@@ -52,7 +52,7 @@ func lastDownload(t *testing.T, b *browser, n int) (string, []byte) {
 // wrong cell.
 func typeSteady(t *testing.T, b *browser, from int, pairs [][2]string) {
 	t.Helper()
-	eval[bool](t, b, fmt.Sprintf(`(document.querySelector('[data-testid="x-input-%d"]').focus(), true)`, from))
+	eval[bool](t, b, fmt.Sprintf(`(tid("x-input-%d").focus(), true)`, from))
 	for i, p := range pairs {
 		for j, col := range []string{"x", "y"} {
 			id := fmt.Sprintf("%s-input-%d", col, from+i)
@@ -62,12 +62,6 @@ func typeSteady(t *testing.T, b *browser, from int, pairs [][2]string) {
 			b.do(t, chromedp.KeyEvent(kb.Enter))
 		}
 	}
-}
-
-func click(t *testing.T, b *browser, testid string) {
-	t.Helper()
-	waitFor(t, b, testid, fmt.Sprintf(`!!document.querySelector('[data-testid=%q]')`, testid), 20*time.Second)
-	eval[bool](t, b, fmt.Sprintf(`(document.querySelector('[data-testid=%q]').click(), true)`, testid))
 }
 
 func decodeFile(t *testing.T, raw []byte) *session.File {
@@ -83,20 +77,15 @@ func decodeFile(t *testing.T, raw []byte) *session.File {
 // has ended (a report, an error or a question is shown).
 func importPath(t *testing.T, b *browser, path string) {
 	t.Helper()
-	seq := eval[int](t, b, `(() => { let n = 0; for (const id of ["import-report", "import-error", "import-conflict", "import-columns"]) { const e = document.querySelector('[data-testid="' + id + '"]'); if (e) n = Math.max(n, +e.dataset.seq || 0); } return n })()`)
+	seq := eval[int](t, b, `(() => { let n = 0; for (const id of ["import-report", "import-error", "import-conflict", "import-columns"]) { const e = tid(id); if (e) n = Math.max(n, +e.dataset.seq || 0); } return n })()`)
 	b.do(t, chromedp.SetUploadFiles(sel("import-file"), []string{path}))
 	waitFor(t, b, "the import of "+filepath.Base(path), fmt.Sprintf(`(() => {
 		for (const id of ["import-report", "import-error", "import-conflict", "import-columns"]) {
-			const e = document.querySelector('[data-testid="' + id + '"]');
+			const e = tid(id);
 			if (e && +e.dataset.seq > %d) return true;
 		}
 		return false;
 	})()`, seq), 120*time.Second)
-}
-
-func text(t *testing.T, b *browser, testid string) string {
-	t.Helper()
-	return eval[string](t, b, fmt.Sprintf(`(document.querySelector('[data-testid=%q]')||{textContent:"<missing>"}).textContent`, testid))
 }
 
 // listedIDs opens the session list and returns the listed IDs in order.
@@ -105,11 +94,11 @@ func listedIDs(t *testing.T, b *browser) []string {
 	if attr(t, b, "sessions-open", "aria-expanded") != "true" {
 		click(t, b, "sessions-open")
 	}
-	waitFor(t, b, "the session list", `!!document.querySelector('[data-testid="session-list"]')`, 10*time.Second)
-	ids := eval[[]string](t, b, `[...document.querySelectorAll('[data-testid="session-item"]')].map(e => e.dataset.id)`)
+	waitFor(t, b, "the session list", `!!tid("session-list")`, 10*time.Second)
+	ids := eval[[]string](t, b, `tids("session-item").map(e => e.dataset.id)`)
 	click(t, b, "sessions-open")
 	// Wait for the page to be drawn again before anything else touches it.
-	waitFor(t, b, "the session list to close", `!document.querySelector('[data-testid="session-list"]')`, 10*time.Second)
+	waitFor(t, b, "the session list to close", `!tid("session-list")`, 10*time.Second)
 	return ids
 }
 
@@ -169,7 +158,7 @@ func TestTransferRoundTrip(t *testing.T) {
 
 	// 1. Typed readings → session file.
 	typeSteady(t, b, 0, fivePairs)
-	waitFor(t, b, "the save", `document.querySelector('[data-testid="save-status"]').dataset.state === "saved"`, 10*time.Second)
+	waitFor(t, b, "the save", `tid("save-status").dataset.state === "saved"`, 10*time.Second)
 	click(t, b, "export-session")
 	name, rawA := lastDownload(t, b, 1)
 	if !strings.HasSuffix(name, ".pairline") {
@@ -197,10 +186,10 @@ func TestTransferRoundTrip(t *testing.T) {
 	rawB, _ := os.ReadFile(pathB)
 	want := decodeFile(t, rawB).Sessions[0]
 	importPath(t, b, pathB)
-	if r := text(t, b, "import-report"); !strings.Contains(r, "Imported 1 session") {
+	if r := textOf(t, b, "import-report"); !strings.Contains(r, "Imported 1 session") {
 		t.Fatalf("import report %q", r)
 	}
-	waitFor(t, b, "the imported session to open", `document.querySelector('[data-testid="x-input-4"]')?.value === "12880"`, 10*time.Second)
+	waitFor(t, b, "the imported session to open", `tid("x-input-4")?.value === "12880"`, 10*time.Second)
 	click(t, b, "export-session")
 	_, rawB2 := lastDownload(t, b, 2)
 	got := decodeFile(t, rawB2).Sessions[0]
@@ -222,11 +211,11 @@ func TestTransferRoundTrip(t *testing.T) {
 	// 3. The typed session again: its ID is stored, so Pairline asks.
 	before := listedIDs(t, b)
 	importPath(t, b, pathA)
-	waitFor(t, b, "the question about the existing session", `!!document.querySelector('[data-testid="import-conflict"]')`, 10*time.Second)
+	waitFor(t, b, "the question about the existing session", `!!tid("import-conflict")`, 10*time.Second)
 	screenshot(t, b, "transfer-conflict-tablet")
 	click(t, b, "import-keep-both")
-	waitFor(t, b, "the kept copy", `!!document.querySelector('[data-testid="import-report"], [data-testid="import-error"]') && !document.querySelector('[data-testid="import-conflict"]')`, 10*time.Second)
-	if e := text(t, b, "import-error"); e != "<missing>" {
+	waitFor(t, b, "the kept copy", `(!!tid("import-report") || !!tid("import-error")) && !tid("import-conflict")`, 10*time.Second)
+	if e := textOf(t, b, "import-error"); e != "<missing>" {
 		t.Fatalf("keep both: %s", e)
 	}
 	after := listedIDs(t, b)
@@ -246,7 +235,7 @@ func TestTransferRoundTrip(t *testing.T) {
 	// Replace: the count stays.
 	importPath(t, b, pathB)
 	click(t, b, "import-replace")
-	waitFor(t, b, "the replacement", `!!document.querySelector('[data-testid="import-report"]') && !document.querySelector('[data-testid="import-conflict"]')`, 10*time.Second)
+	waitFor(t, b, "the replacement", `!!tid("import-report") && !tid("import-conflict")`, 10*time.Second)
 	if n := len(listedIDs(t, b)); n != len(after) {
 		t.Errorf("replace: %d sessions listed, want %d", n, len(after))
 	}
@@ -258,7 +247,7 @@ func TestTransferRoundTrip(t *testing.T) {
 	}
 	// A table dropped onto the page, with three columns of numbers: Pairline
 	// asks which two to use (invented readings).
-	seq := eval[int](t, b, `+(document.querySelector('[data-testid="import-report"]')?.dataset.seq || 0)`)
+	seq := eval[int](t, b, `+(tid("import-report")?.dataset.seq || 0)`)
 	eval[bool](t, b, `(() => {
 		const dt = new DataTransfer();
 		dt.items.add(new File(["site;reference;reading;water temp\n" +
@@ -266,12 +255,12 @@ func TestTransferRoundTrip(t *testing.T) {
 		document.querySelector(".pl-main").dispatchEvent(new DragEvent("drop", {dataTransfer: dt, bubbles: true, cancelable: true}));
 		return true;
 	})()`)
-	waitFor(t, b, "the column question", `!!document.querySelector('[data-testid="import-columns"]')`, 20*time.Second)
+	waitFor(t, b, "the column question", `!!tid("import-columns")`, 20*time.Second)
 	screenshot(t, b, "transfer-columns-tablet")
-	eval[bool](t, b, `(() => { const s = document.querySelector('[data-testid="import-y-col"]'); s.value = "3"; s.dispatchEvent(new Event("change", {bubbles: true})); return true })()`)
+	eval[bool](t, b, `(() => { const s = tid("import-y-col"); s.value = "3"; s.dispatchEvent(new Event("change", {bubbles: true})); return true })()`)
 	click(t, b, "import-columns-ok")
-	waitFor(t, b, "the table import", fmt.Sprintf(`+(document.querySelector('[data-testid="import-report"]')?.dataset.seq || 0) > %d`, seq), 20*time.Second)
-	report := text(t, b, "import-report")
+	waitFor(t, b, "the table import", fmt.Sprintf(`+(tid("import-report")?.dataset.seq || 0) > %d`, seq), 20*time.Second)
+	report := textOf(t, b, "import-report")
 	for _, w := range []string{"Imported 5 readings", "x from column 2 “reference”", "y from column 4 “water temp”", "1 blank row"} {
 		if !strings.Contains(report, w) {
 			t.Errorf("the report does not say %q: %s", w, report)
@@ -292,7 +281,7 @@ func TestTransferRoundTrip(t *testing.T) {
 
 // TestImportBroken: damaged, cut and foreign files are refused with a
 // sentence saying what is wrong and where, and the stored sessions stay as
-// they were. The kinds of damage are those docs/session-file.md names.
+// they were. The kinds of damage are those app/session/FORMAT.md names.
 func TestImportBroken(t *testing.T) {
 	srv := startServer(t)
 	b := newBrowser(t, phone)
@@ -325,7 +314,7 @@ func TestImportBroken(t *testing.T) {
 		p := filepath.Join(dir, tc.name)
 		os.WriteFile(p, tc.data, 0o644)
 		importPath(t, b, p)
-		msg := text(t, b, "import-error")
+		msg := textOf(t, b, "import-error")
 		for _, w := range tc.want {
 			if !strings.Contains(msg, w) {
 				t.Errorf("%s: import-error %q does not say %q", tc.name, msg, w)
@@ -352,21 +341,21 @@ func TestReloadWhileTyping(t *testing.T) {
 	b.do(t, chromedp.KeyEvent("6"), chromedp.KeyEvent(kb.Enter))
 	waitFor(t, b, "the focus in y-input-5", `document.activeElement.dataset.testid === "y-input-5"`, 10*time.Second)
 	b.do(t, chromedp.KeyEvent("13.1"))
-	waitFor(t, b, "saved", `document.querySelector('[data-testid="save-status"]').dataset.state === "saved" && document.querySelector('[data-testid="y-input-5"]').value === "13.1"`, 10*time.Second)
+	waitFor(t, b, "saved", `tid("save-status").dataset.state === "saved" && tid("y-input-5").value === "13.1"`, 10*time.Second)
 	b.do(t, chromedp.Reload())
-	waitFor(t, b, "the app after reload", appReady+` && !!document.querySelector('[data-testid="y-input-5"]')`, 30*time.Second)
+	waitFor(t, b, "the app after reload", appReady+` && !!tid("y-input-5")`, 30*time.Second)
 	checkPairs(t, b, append(fivePairs, [2]string{"6", "13.1"}))
 
 	// How soon may the tab die? Type one more digit into y of row 6, wait d,
 	// reload, and see whether the digit survived.
 	for _, d := range []time.Duration{0, 10 * time.Millisecond, 25 * time.Millisecond, 50 * time.Millisecond, 100 * time.Millisecond, 250 * time.Millisecond} {
-		eval[bool](t, b, `(document.querySelector('[data-testid="y-input-5"]').focus(), document.querySelector('[data-testid="y-input-5"]').setSelectionRange(99, 99), true)`)
-		before := eval[string](t, b, `document.querySelector('[data-testid="y-input-5"]').value`)
+		eval[bool](t, b, `(tid("y-input-5").focus(), tid("y-input-5").setSelectionRange(99, 99), true)`)
+		before := valueOf(t, b, "y-input-5")
 		b.do(t, chromedp.KeyEvent("7"))
 		time.Sleep(d)
 		b.do(t, chromedp.Reload())
-		waitFor(t, b, "the app after reload", appReady+` && !!document.querySelector('[data-testid="y-input-5"]')`, 30*time.Second)
-		after := eval[string](t, b, `document.querySelector('[data-testid="y-input-5"]').value`)
+		waitFor(t, b, "the app after reload", appReady+` && !!tid("y-input-5")`, 30*time.Second)
+		after := valueOf(t, b, "y-input-5")
 		t.Logf("reload %v after the last key: y6 %q → %q (kept: %v)", d, before, after, after == before+"7")
 	}
 }
@@ -401,14 +390,14 @@ func TestBigSessionSaveTiming(t *testing.T) {
 		t.Fatal(err)
 	}
 	b.do(t, chromedp.SetUploadFiles(sel("import-file"), []string{path}))
-	waitFor(t, b, "the imported session", `document.querySelector('[data-testid="result-n"]')?.dataset.value === "5000"`, 60*time.Second)
-	waitFor(t, b, "saved", `document.querySelector('[data-testid="save-status"]').dataset.state === "saved"`, 20*time.Second)
-	caret := `(document.querySelector('[data-testid="y-input-0"]').focus(), document.querySelector('[data-testid="y-input-0"]').setSelectionRange(99, 99), true)`
+	waitFor(t, b, "the imported session", `tid("result-n")?.dataset.value === "5000"`, 60*time.Second)
+	waitFor(t, b, "saved", `tid("save-status").dataset.state === "saved"`, 20*time.Second)
+	caret := `(tid("y-input-0").focus(), tid("y-input-0").setSelectionRange(99, 99), true)`
 	timeToSaved := func(leave bool) float64 {
 		eval[bool](t, b, caret)
 		b.do(t, chromedp.KeyEvent("7"))
 		return eval[float64](t, b, fmt.Sprintf(`new Promise((resolve, reject) => {
-			const st = document.querySelector('[data-testid="save-status"]');
+			const st = tid("save-status");
 			const t0 = performance.now();
 			if (%v) {
 				Object.defineProperty(document, 'visibilityState', {value: 'hidden', configurable: true});
@@ -421,20 +410,20 @@ func TestBigSessionSaveTiming(t *testing.T) {
 	}
 	stay, leave := timeToSaved(false), timeToSaved(true)
 	t.Logf("5,000 readings: a key → saved in %.0f ms when typing pauses; %.0f ms when the app is left at once", stay, leave)
-	want := eval[string](t, b, `document.querySelector('[data-testid="y-input-0"]').value`)
+	want := valueOf(t, b, "y-input-0")
 	b.do(t, chromedp.Reload())
-	waitFor(t, b, "the app after reload", appReady+` && document.querySelector('[data-testid="result-n"]')?.dataset.value === "5000"`, 60*time.Second)
-	if got := eval[string](t, b, `document.querySelector('[data-testid="y-input-0"]').value`); got != want {
+	waitFor(t, b, "the app after reload", appReady+` && tid("result-n")?.dataset.value === "5000"`, 60*time.Second)
+	if got := valueOf(t, b, "y-input-0"); got != want {
 		t.Errorf("after the saves, y of reading 1 is %q, want %q", got, want)
 	}
 	for _, d := range []time.Duration{20 * time.Millisecond, 150 * time.Millisecond} {
 		eval[bool](t, b, caret)
-		before := eval[string](t, b, `document.querySelector('[data-testid="y-input-0"]').value`)
+		before := valueOf(t, b, "y-input-0")
 		b.do(t, chromedp.KeyEvent("7"))
 		time.Sleep(d)
 		b.do(t, chromedp.Reload())
-		waitFor(t, b, "the app after reload", appReady+` && document.querySelector('[data-testid="result-n"]')?.dataset.value === "5000"`, 60*time.Second)
-		after := eval[string](t, b, `document.querySelector('[data-testid="y-input-0"]').value`)
+		waitFor(t, b, "the app after reload", appReady+` && tid("result-n")?.dataset.value === "5000"`, 60*time.Second)
+		after := valueOf(t, b, "y-input-0")
 		t.Logf("5,000 readings: reload %v after the last key: y1 %q → %q (kept: %v)", d, before, after, after == before+"7")
 	}
 }

@@ -48,8 +48,8 @@ func TestUpdateOffered(t *testing.T) {
 	startServerAt(t, bin, web2, addr)
 
 	eval[bool](t, b, `navigator.serviceWorker.getRegistration().then(r => r.update()).then(() => true)`)
-	waitFor(t, b, "the update offer", `!!document.querySelector('[data-testid="update-ready"]')`, 60*time.Second)
-	if got := eval[string](t, b, `document.querySelector('[data-testid="x-input-0"]').value`); got != "1" {
+	waitFor(t, b, "the update offer", `!!tid("update-ready")`, 60*time.Second)
+	if got := valueOf(t, b, "x-input-0"); got != "1" {
 		t.Errorf("the page changed under the technician: x-input-0 = %q", got)
 	}
 	screenshot(t, b, "update-offered-tablet")

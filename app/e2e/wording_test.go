@@ -20,7 +20,7 @@ import (
 // wdCoefRows are the row labels of a coefficient's table in "More numbers".
 func wdCoefRows(t *testing.T, b *browser, id string) []string {
 	t.Helper()
-	return eval[[]string](t, b, fmt.Sprintf(`[...document.querySelectorAll('[data-testid="coef-%s"] tbody th')].map(th => th.textContent.trim())`, id))
+	return eval[[]string](t, b, fmt.Sprintf(`tids("coef-%s", ' tbody th').map(th => th.textContent.trim())`, id))
 }
 
 // wdWant are the rows the screen shows for a coefficient tested against
@@ -80,10 +80,10 @@ func wdNoRepeats(t *testing.T, what string, rows []string) {
 
 func wdOpenNumbers(t *testing.T, b *browser) {
 	t.Helper()
-	if !anExists(t, b, "more-numbers-body") {
-		anClick(t, b, "more-numbers")
+	if !exists(t, b, "more-numbers-body") {
+		click(t, b, "more-numbers")
 	}
-	waitFor(t, b, "More numbers to open", `!!document.querySelector('[data-testid="more-numbers-body"]')`, 5*time.Second)
+	waitFor(t, b, "More numbers to open", `!!tid("more-numbers-body")`, 5*time.Second)
 }
 
 // TestWordingInterceptRows: on an invented conductivity check, the
@@ -113,7 +113,7 @@ func TestWordingInterceptRows(t *testing.T) {
 			if cliRows := wdCLIRows(t, anCalibration, wording.Intercept); !reflect.DeepEqual(rows, cliRows) {
 				t.Errorf("the screen's intercept rows %q differ from pairline fit's %q", rows, cliRows)
 			}
-			if anExists(t, b, "result-intercept-t") || anExists(t, b, "result-intercept-p") {
+			if exists(t, b, "result-intercept-t") || exists(t, b, "result-intercept-p") {
 				t.Error("the plain intercept test is shown beside the same test against the reference 0")
 			}
 			rep := anAnalyze(t, x, y, fitcore.Options{})
@@ -125,11 +125,11 @@ func TestWordingInterceptRows(t *testing.T) {
 			}
 			anExpect(t, b, "result-slope-t", "data-value", rep.Slope.T)
 			t.Logf("More numbers start %v px down the page", eval[float64](t, b,
-				`document.querySelector('[data-testid="more-numbers-body"]').getBoundingClientRect().top + window.scrollY`))
+				`tid("more-numbers-body").getBoundingClientRect().top + window.scrollY`))
 			screenshot(t, b, "wording-intercept-ref0-"+size.name)
 
-			anSet(t, b, "settings-intercept-ref", "0.5", "change")
-			waitFor(t, b, "the intercept tested against 0.5", `document.querySelector('[data-testid="result-intercept-ref"]')?.dataset.value === "0.5"`, 10*time.Second)
+			setValue(t, b, "settings-intercept-ref", "0.5", "change")
+			waitFor(t, b, "the intercept tested against 0.5", `tid("result-intercept-ref")?.dataset.value === "0.5"`, 10*time.Second)
 			wdOpenNumbers(t, b)
 			rows = wdCoefRows(t, b, "intercept")
 			if want := wdWant("0.5", fitcore.DefaultLevel); !reflect.DeepEqual(rows, want) {
@@ -147,9 +147,9 @@ func TestWordingInterceptRows(t *testing.T) {
 			screenshot(t, b, "wording-intercept-ref05-"+size.name)
 
 			// The report says it in the same words.
-			anClick(t, b, "report-open")
-			waitFor(t, b, "the report", `!!document.querySelector('[data-testid="report"]')`, 10*time.Second)
-			heads := eval[[]string](t, b, `[...document.querySelectorAll('[data-testid="report"] table.pl-rt thead')]
+			click(t, b, "report-open")
+			waitFor(t, b, "the report", `!!tid("report")`, 10*time.Second)
+			heads := eval[[]string](t, b, `tids("report", ' table.pl-rt thead')
 				.map(h => [...h.querySelectorAll('th')].map(th => th.textContent)).find(r => r[0] === 'Figure') || []`)
 			if want := []string{"Figure", wording.Estimate, wording.Interval(fitcore.DefaultLevel), wording.StandardError, wording.TestedAgainst}; !reflect.DeepEqual(heads, want) {
 				t.Errorf("the report's coefficient columns %q, want %q", heads, want)

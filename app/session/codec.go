@@ -22,7 +22,7 @@ import (
 	"pairline/fitcore"
 )
 
-// The session file. docs/session-file.md is the full specification; in short:
+// The session file. app/session/FORMAT.md is the full specification; in short:
 //
 //	offset  size  content
 //	0       8     Magic

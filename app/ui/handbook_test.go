@@ -2,7 +2,6 @@ package ui
 
 import (
 	"os"
-	"path/filepath"
 	"strings"
 	"testing"
 	"time"
@@ -18,10 +17,7 @@ import (
 // when the reference files are not beside the repository.
 func handbookSession(t *testing.T, name string, cx, cy int) *session.Session {
 	t.Helper()
-	b, err := os.ReadFile(filepath.Join("../../../shared/reference/nist-handbook", name))
-	if os.IsNotExist(err) {
-		t.Skipf("SKIPPED: NIST e-Handbook file %s is not in ../shared/reference/nist-handbook", name)
-	}
+	b, err := os.ReadFile(refPath(t, "nist-handbook", name))
 	if err != nil {
 		t.Fatal(err)
 	}

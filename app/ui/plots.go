@@ -46,7 +46,7 @@ func (c *Shell) plotQueries(o *fitcore.Options, x []float64) {
 	o.PredictX = append(o.PredictX, plGrid(x, o.Transform == fitcore.TransformLogLog)...)
 }
 
-// plotGrid spreads plotGridN values over the range of x, evenly or, for a
+// plGrid spreads plotGridN values over the range of x, evenly or, for a
 // log–log fit with every x above zero, evenly on the log scale.
 func plGrid(x []float64, logX bool) []float64 {
 	if len(x) == 0 {
@@ -69,7 +69,7 @@ func plGrid(x []float64, logX bool) []float64 {
 	return g
 }
 
-// bandOf returns the predictions on the plot grid: the last plotGridN.
+// plBand returns the predictions on the plot grid: the last plotGridN.
 func plBand(rep *fitcore.Report) []fitcore.Prediction {
 	if rep == nil || len(rep.Predictions) < plotGridN {
 		return nil
@@ -256,7 +256,7 @@ func plExtremes(v []float64) (lo, hi float64, loI, hiI int) {
 	return
 }
 
-// parseCell reads a cell as Pairs does (with the session's decimal-comma
+// plParseCell reads a cell as Session.Pairs does (with the session's decimal-comma
 // choice); not a statistic.
 func plParseCell(s *session.Session, text string) (float64, bool) {
 	var v float64
@@ -299,7 +299,7 @@ func plCount(n int, word string) string {
 	return strconv.Itoa(n) + " " + word + "s"
 }
 
-// verdictWord is the plain word of a verdict.
+// plVerdictWord is the plain word of a verdict.
 func plVerdictWord(v fitcore.Verdict) string {
 	switch v {
 	case fitcore.Pass:

@@ -26,7 +26,7 @@ func analyzed(t testing.TB, s *session.Session) (*fitcore.Report, []int) {
 	return rep, rows
 }
 
-// bigSession is an invented straight line with even noise (common practice
+// bigSessionOf is an invented straight line with even noise (common practice
 // for a load test: the values do not matter, the count does), with a few
 // readings left out.
 func bigSessionOf(t testing.TB, n int) *session.Session {

@@ -60,7 +60,7 @@ func (c *Shell) renderReport() app.UI {
 	)
 }
 
-// reportFile is the report as one self-contained HTML file: inline styles
+// rpFile is the report as one self-contained HTML file: inline styles
 // and SVG, no script, nothing loaded from anywhere.
 func rpFile(s *session.Session, body string) string {
 	return "<!doctype html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">" +
@@ -90,7 +90,7 @@ func (c *Shell) saveReportHTML(ctx app.Context, e app.Event) {
 	c.rpMsg = "Saved “" + name + "” to your downloads."
 }
 
-// fileName makes a title safe as a file name.
+// rpFileName makes a title safe as a file name.
 func rpFileName(title string) string {
 	t := strings.Map(func(r rune) rune {
 		if wording.Hidden(r) || strings.ContainsRune(`/\:*?"<>|`, r) {
@@ -132,7 +132,7 @@ func rpP(p float64) string {
 	return "p = " + rpNum(p, s)
 }
 
-// rb builds the report markup.
+// rpB builds the report markup.
 type rpB struct{ strings.Builder }
 
 func (b *rpB) w(parts ...string) {
@@ -151,9 +151,9 @@ func rpVerdict(v fitcore.Verdict) string {
 	return `<span class="pl-rv pl-rv-` + rpEsc(strings.ReplaceAll(string(v), "/", "")) + `"><span aria-hidden="true">` + icon + `</span> ` + rpEsc(word) + `</span>`
 }
 
-// reportBody renders the report of s from rep (nil when there is no line;
+// rpBody renders the report of s from rep (nil when there is no line;
 // message then says why). Every figure is rep's or the session's; the
-// plots are those of the screen (buildPlots).
+// plots are those of the screen (plBuild).
 func rpBody(s *session.Session, rep *fitcore.Report, rows []int, message string, now time.Time) string {
 	var b rpB
 	b.Grow(32 << 10)
@@ -427,7 +427,7 @@ func rpReadings(b *rpB, s *session.Session, rep *fitcore.Report, rows []int) {
 
 func rpBlank(s string) bool { return strings.TrimSpace(s) == "" }
 
-// historyKind groups the history's field names for the summary.
+// rpKind groups the history's field names for the summary.
 func rpKind(f string) string {
 	switch f {
 	case "x", "y", "note":

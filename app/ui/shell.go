@@ -340,23 +340,21 @@ func (c *Shell) completeNow() {
 
 // adviceLater is the number of readings from which an edit's transform
 // advice (it refits the readings several ways) and plots come one turn
-// after its line and checks. Measured in Chromium: at 1,000 readings the
-// whole analysis with the advice takes about 8 ms, at 10,000 about 50 ms
-// (the checks alone about 11 ms).
+// after its line and checks (the measurements behind it are in
+// DEVELOPERS.md, "Speed in the browser").
 const adviceLater = 3000
 
 // saveEvery is the longest a run of edits waits to be written to the
 // device while someone keeps typing into a big session; savePause is the
-// pause in typing after which a big session is written (encoding 10,000
-// readings takes the browser about 60 ms, storing them 40 ms more: not on
-// every keystroke).
+// pause in typing after which a big session is written (encoding and
+// storing grow with the readings: not on every keystroke).
 const (
 	saveEvery = time.Second
 	savePause = 300 * time.Millisecond
 )
 
 // saveAtOnce is the number of readings below which an edit is saved in its
-// own turn (encoding 500 readings takes the browser about 2 ms).
+// own turn (encoding that many is quick; figures in DEVELOPERS.md).
 const saveAtOnce = 500
 
 // edited is called after every change to the open session. The work is
@@ -431,10 +429,8 @@ func (c *Shell) edited(ctx app.Context) {
 // saveAtOnce readings or more was opened or a block pasted into it, while
 // the technician reads the screen: loading leaves megabytes behind, and the
 // collection it calls for otherwise falls in the next edits (every
-// allocation then helps to mark). Measured: the first two edits after
-// pasting 10,000 readings went from 260–360 ms to 150–300 ms, at 1,000
-// readings from up to 270 ms to 52–130 ms. Only in the browser; nothing on
-// the screen changes.
+// allocation then helps to mark; DEVELOPERS.md has the figures). Only in
+// the browser; nothing on the screen changes.
 func (c *Shell) collectAfterLoad() {
 	if c.ui.Src() == nil || c.sess == nil || len(c.sess.Readings) < saveAtOnce {
 		return

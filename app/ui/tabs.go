@@ -104,6 +104,7 @@ func (c *Shell) otherTabSaved(ctx app.Context, id string, mod, base int64) {
 func (c *Shell) reloadFromStore(ctx app.Context, id, note string) {
 	ctx = c.ui // dispatch through the Shell: the element that asked may be gone by then
 	st := c.st
+	seq := c.editSeq
 	ctx.Async(func() {
 		s, err := load(st, id)
 		list, _ := st.List()
@@ -114,6 +115,12 @@ func (c *Shell) reloadFromStore(ctx app.Context, id, note string) {
 				return
 			}
 			if c.sess == nil || c.sess.ID != id {
+				return
+			}
+			if c.editSeq != seq {
+				// Edited while the stored version was loading: showing it
+				// now would drop that edit without a word, so ask instead.
+				c.elsewhere = &changedElsewhere{id: id, modified: s.Modified.UnixMilli()}
 				return
 			}
 			page := c.page

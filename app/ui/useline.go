@@ -70,8 +70,8 @@ func (c *Shell) anRequery(ctx app.Context) {
 }
 
 // requeryLater and requeryIdle: see anRequery. The checks without the
-// advice take about 11 ms at 10,000 readings in Chromium, 10 times more at
-// 100,000.
+// advice grow with the readings (figures in DEVELOPERS.md, "Speed in the
+// browser").
 const (
 	requeryLater = 20000
 	requeryIdle  = 250 * time.Millisecond
