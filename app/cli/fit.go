@@ -553,6 +553,7 @@ func columnName(res *session.CSVResult, c int, fallback string) string {
 
 func readInput(file string, stdin io.Reader) ([]byte, error) {
 	var r io.Reader
+	size := int64(512)
 	if file == "-" {
 		if stdin == nil {
 			return nil, errors.New("no standard input to read")
@@ -568,8 +569,13 @@ func readInput(file string, stdin io.Reader) ([]byte, error) {
 			return nil, errFolder
 		}
 		r = f
+		// A buffer of the file's size (capped at the limit) is read into
+		// once; io.ReadAll's doubling left up to twice the input as garbage.
+		if st, err := f.Stat(); err == nil && st.Mode().IsRegular() {
+			size = min(st.Size(), MaxInputBytes) + 1
+		}
 	}
-	b, err := io.ReadAll(io.LimitReader(r, MaxInputBytes+1))
+	b, err := readLimited(r, size)
 	if err != nil {
 		return nil, fmt.Errorf("cannot read the input: %v", unwrapPath(err))
 	}
@@ -577,6 +583,26 @@ func readInput(file string, stdin io.Reader) ([]byte, error) {
 		return nil, fmt.Errorf("the input is larger than %d MiB; is this the right file?", MaxInputBytes>>20)
 	}
 	return b, nil
+}
+
+// readLimited reads r to its end, or to one byte past MaxInputBytes, into a
+// buffer that starts at size bytes and grows only when r holds more.
+func readLimited(r io.Reader, size int64) ([]byte, error) {
+	b := make([]byte, 0, size)
+	lr := io.LimitReader(r, MaxInputBytes+1)
+	for {
+		if len(b) == cap(b) {
+			b = append(b, 0)[:len(b)]
+		}
+		n, err := lr.Read(b[len(b):cap(b)])
+		b = b[:len(b)+n]
+		if err == io.EOF {
+			return b, nil
+		}
+		if err != nil {
+			return b, err
+		}
+	}
 }
 
 // errFolder is the error for a folder named where a file is expected.

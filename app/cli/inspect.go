@@ -87,7 +87,7 @@ type inspection struct {
 // reported as such and never reaches the statistics.
 func analyse(s *session.Session) sessionAnalysis {
 	x, y, rows, problems := s.Pairs()
-	a := sessionAnalysis{Session: s, Counts: s.Count(), Problems: problems, Rows: rows}
+	a := sessionAnalysis{Session: s, Counts: countsOf(s, rows, problems), Problems: problems, Rows: rows}
 	if a.Problems == nil {
 		a.Problems = []session.CellProblem{}
 	}
@@ -103,6 +103,26 @@ func analyse(s *session.Session) sessionAnalysis {
 		a.Report = rep
 	}
 	return a
+}
+
+// countsOf is s.Count() from the pairing already made (Count pairs the
+// readings again, which at 250,000 readings costs tens of MB): a reading that
+// is not left out is usable, has a cell that is not a number, or is blank.
+func countsOf(s *session.Session, rows []int, problems []session.CellProblem) session.Counts {
+	c := session.Counts{Rows: len(s.Readings), Usable: len(rows), Problems: len(problems)}
+	for i := range s.Readings {
+		if s.Readings[i].Excluded {
+			c.Excluded++
+		}
+	}
+	bad := 0
+	for i, p := range problems {
+		if i == 0 || problems[i-1].Row != p.Row {
+			bad++
+		}
+	}
+	c.Blank = c.Rows - c.Excluded - c.Usable - bad
+	return c
 }
 
 // settingsError says why a session's stored fit settings cannot be used,
@@ -143,27 +163,65 @@ func Inspect(args []string, stdout, stderr io.Writer) int {
 	if in.Warnings == nil {
 		in.Warnings = []string{}
 	}
-	for _, s := range file.Sessions {
-		in.Sessions = append(in.Sessions, analyse(s))
+	// One session at a time: each is analysed, written and dropped (with
+	// its readings), so memory holds one report, not one per session.
+	n := len(file.Sessions)
+	next := func(i int) sessionAnalysis {
+		a := analyse(file.Sessions[i])
+		file.Sessions[i] = nil
+		return a
 	}
+	var err2 error
 	if *asJSON {
-		b, err := json.MarshalIndent(in, "", "  ")
-		if err != nil {
-			fail(stderr, "inspect", "the analysis could not be written as JSON: %v", err)
-			return ExitFailure
-		}
-		b = append(jsonText(b), '\n')
-		if _, err := stdout.Write(b); err != nil {
-			fail(stderr, "inspect", "%v", err)
-			return ExitFailure
-		}
-		return ExitOK
+		err2 = inspectJSON(stdout, &in, n, next)
+	} else {
+		err2 = inspectTextTo(stdout, &in, n, next)
 	}
-	if _, err := io.WriteString(stdout, termLines(inspectText(&in))); err != nil {
-		fail(stderr, "inspect", "%v", err)
+	if err2 != nil {
+		fail(stderr, "inspect", "%v", err2)
 		return ExitFailure
 	}
 	return ExitOK
+}
+
+// inspectJSON writes what json.MarshalIndent(in, "", "  ") would write with
+// the n sessions next gives in in.Sessions, one session at a time.
+func inspectJSON(w io.Writer, in *inspection, n int, next func(int) sessionAnalysis) error {
+	head, err := json.MarshalIndent(in, "", "  ")
+	if err != nil {
+		return fmt.Errorf("the analysis could not be written as JSON: %v", err)
+	}
+	// in.Sessions is nil, so the head ends in `"sessions": null\n}`.
+	const tail = "null\n}"
+	if !bytes.HasSuffix(head, []byte(tail)) {
+		return errors.New("the analysis could not be written as JSON")
+	}
+	head = append(jsonText(head[:len(head)-len(tail)]), '[')
+	if _, err := w.Write(head); err != nil {
+		return err
+	}
+	for i := 0; i < n; i++ {
+		b, err := json.MarshalIndent(next(i), "    ", "  ")
+		if err != nil {
+			return fmt.Errorf("the analysis could not be written as JSON: %v", err)
+		}
+		sep := ",\n    "
+		if i == 0 {
+			sep = "\n    "
+		}
+		if _, err := io.WriteString(w, sep); err != nil {
+			return err
+		}
+		if _, err := w.Write(jsonText(b)); err != nil {
+			return err
+		}
+	}
+	end := "\n  ]\n}\n"
+	if n == 0 {
+		end = "]\n}\n"
+	}
+	_, err = io.WriteString(w, end)
+	return err
 }
 
 // oneFile parses the flags and the single FILE argument.
@@ -205,17 +263,33 @@ func nameUnit(name, unit, def string) string {
 // visible.
 func longText(s string) string { return term(oneLine(s)) }
 
-func inspectText(in *inspection) string {
+// inspectTextTo writes the text of the file and of the n sessions next
+// gives, each session written as soon as it is analysed.
+func inspectTextTo(out io.Writer, in *inspection, n int, next func(int) sessionAnalysis) error {
 	var b strings.Builder
 	w := func(format string, a ...any) { fmt.Fprintf(&b, format, a...) }
 	w("File %s: session file format %d.%d, %d session(s), checksum OK (SHA-256 %s)\n",
-		term(in.File), in.Major, in.Minor, len(in.Sessions), in.SHA256)
+		term(in.File), in.Major, in.Minor, n, in.SHA256)
 	for _, warn := range in.Warnings {
 		w("Warning: %s\n", longText(warn))
 	}
-	for i, a := range in.Sessions {
+	for i := 0; i < n; i++ {
+		a := next(i)
+		sessionText(&b, i, n, &a)
+		if _, err := io.WriteString(out, termLines(b.String())); err != nil {
+			return err
+		}
+		b.Reset()
+	}
+	return nil
+}
+
+// sessionText writes the text of session i of n.
+func sessionText(b *strings.Builder, i, n int, a *sessionAnalysis) {
+	w := func(format string, a ...any) { fmt.Fprintf(b, format, a...) }
+	{
 		s := a.Session
-		w("\nSession %d of %d: %s\n", i+1, len(in.Sessions), term(s.Title))
+		w("\nSession %d of %d: %s\n", i+1, n, term(s.Title))
 		field := func(label, v string) {
 			if v != "" {
 				w("  %-11s %s\n", label, v)
@@ -256,7 +330,7 @@ func inspectText(in *inspection) string {
 		w("\n")
 		if a.Report == nil {
 			w("Analysis not possible: %s\n", longText(a.AnalysisError))
-			continue
+			return
 		}
 		lines := make([]int, len(a.Rows))
 		for k, r := range a.Rows {
@@ -266,7 +340,6 @@ func inspectText(in *inspection) string {
 			xName: nameUnit(s.XName, s.XUnit, "x"), yName: nameUnit(s.YName, s.YUnit, "y")}
 		b.WriteString(summary(quoted(s.Title), fr))
 	}
-	return b.String()
 }
 
 // ExportCSV runs `pairline export-csv [--session N|ID] FILE`.

@@ -1,0 +1,99 @@
+package cli
+
+import (
+	"bytes"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strconv"
+	"testing"
+	"time"
+
+	"pairline/app/session"
+)
+
+// bigSessions are four invented sessions (fictional Larkwater Valley Water
+// Board) of n readings each: y ≈ 0.98x + 0.3 with a scatter that grows with
+// x, so the spread check warns and the advice and the Box–Cox profile run.
+func bigSessions(tb testing.TB, n int) []*session.Session {
+	tb.Helper()
+	var out []*session.Session
+	seed := uint64(12345)
+	t0 := time.Date(2026, 3, 1, 9, 0, 0, 0, time.UTC)
+	for k := 0; k < 4; k++ {
+		s, err := session.New(fmt.Sprintf("Invented load test %d (Larkwater Valley Water Board)", k+1), t0,
+			bytes.NewReader(bytes.Repeat([]byte{byte(k + 1)}, 64)))
+		if err != nil {
+			tb.Fatal(err)
+		}
+		s.Readings = make([]session.Reading, n)
+		for i := range s.Readings {
+			seed = seed*6364136223846793005 + 1442695040888963407
+			u := float64(seed>>11)/(1<<53) - 0.5
+			x := 1 + float64(i%500)
+			y := 0.98*x + 0.3 + u*0.05*x
+			s.Readings[i] = session.Reading{X: strconv.FormatFloat(x, 'f', 2, 64),
+				Y: strconv.FormatFloat(y, 'f', 3, 64), Taken: t0.Add(time.Duration(i) * time.Second)}
+		}
+		out = append(out, s)
+	}
+	return out
+}
+
+// BenchmarkInspectBig: inspect of four sessions of 250,000 readings (about
+// 66 MB), text and JSON. It reports allocations; it asserts nothing.
+func BenchmarkInspectBig(b *testing.B) {
+	path := writeSessionFile(&testing.T{}, b.TempDir(), "big.pairline", bigSessions(b, session.MaxReadings))
+	for _, mode := range [][]string{{path}, {"--json", path}} {
+		b.Run(fmt.Sprint(len(mode)), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if code := Inspect(mode, io.Discard, io.Discard); code != ExitOK {
+					b.Fatal(code)
+				}
+			}
+		})
+	}
+}
+
+// TestInspectMemoryBound: inspect of a session file of empty readings (the
+// cheapest bytes per reading a file can hold) allocates within a small
+// multiple of what decoding the file allocates (measured 4.7×; most of it is
+// session.PairCache growing its cell table one append at a time).
+func TestInspectMemoryBound(t *testing.T) {
+	if testing.Short() {
+		t.Skip("builds a file of 200,000 readings")
+	}
+	ss := bigSessions(t, 50_000)
+	for _, s := range ss {
+		for i := range s.Readings {
+			s.Readings[i] = session.Reading{}
+		}
+	}
+	path := writeSessionFile(t, t.TempDir(), "empty.pairline", ss)
+	alloc := func(f func()) uint64 {
+		var a, b runtime.MemStats
+		runtime.GC()
+		runtime.ReadMemStats(&a)
+		f()
+		runtime.ReadMemStats(&b)
+		return b.TotalAlloc - a.TotalAlloc
+	}
+	dec := alloc(func() {
+		if _, err := openSessionFile(path); err != nil {
+			t.Fatal(err)
+		}
+	})
+	got := alloc(func() {
+		if code := Inspect([]string{path}, io.Discard, io.Discard); code != ExitOK {
+			t.Fatal(code)
+		}
+	})
+	st, _ := os.Stat(path)
+	t.Logf("file %d bytes, decode %d bytes allocated, inspect %d", st.Size(), dec, got)
+	if got > 6*dec {
+		t.Errorf("inspect allocated %d bytes, more than 6× the %d of decoding %s", got, dec, filepath.Base(path))
+	}
+}
