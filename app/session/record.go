@@ -264,6 +264,16 @@ func New(title string, now time.Time, random io.Reader) (*Session, error) {
 	return &Session{ID: id, Title: title, Created: now, Modified: now, Settings: DefaultSettings()}, nil
 }
 
+// latest is the latest of its times.
+func latest(t time.Time, more ...time.Time) time.Time {
+	for _, u := range more {
+		if u.After(t) {
+			t = u
+		}
+	}
+	return t
+}
+
 // TypingWindow is how close together successive changes of one cell must be
 // to count as one edit: typing "12.5" key by key is one change from "" to
 // "12.5", not four. A pause longer than this starts a new history entry.
@@ -271,7 +281,10 @@ const TypingWindow = 20 * time.Second
 
 func (s *Session) record(now time.Time, field string, row int, old, new string) {
 	now = now.UTC()
-	s.Modified = now
+	// The stamp of the last change never goes back: a device clock put back
+	// (more than ModifiedSkew before the start would make the record
+	// invalid) shows only in the history entry's own time.
+	s.Modified = latest(now, s.Modified, s.Created)
 	if n := len(s.History); n > 0 && isCellField(field) {
 		last := &s.History[n-1]
 		if last.Field == field && last.Row == row && last.New == old && now.Sub(last.At) >= 0 && now.Sub(last.At) < TypingWindow {

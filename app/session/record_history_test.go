@@ -1,6 +1,7 @@
 package session
 
 import (
+	"bytes"
 	"testing"
 	"time"
 )
@@ -75,5 +76,31 @@ func TestPasteRows(t *testing.T) {
 	}
 	if _, err := s.PasteRows(0, []string{"1", "2"}, []string{"1"}, later); err == nil {
 		t.Error("a paste with unequal columns was accepted")
+	}
+}
+
+// A device clock put back days after a session was started must not make
+// its record invalid: the last-change stamp never goes back, the history
+// entry keeps the time the device gave.
+func TestClockPutBackKeepsRecordValid(t *testing.T) {
+	start := time.Date(2026, 6, 1, 9, 0, 0, 0, time.UTC)
+	s, err := New("Invented clock test", start, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	back := start.Add(-72 * time.Hour)
+	s.AddRow("1", "2", back)
+	if s.Modified.Before(s.Created) {
+		t.Fatalf("modified %v is before created %v", s.Modified, s.Created)
+	}
+	var buf bytes.Buffer
+	if err := Encode(&buf, []*Session{s}); err != nil {
+		t.Fatalf("a record edited with the clock put back cannot be saved: %v", err)
+	}
+	if _, err := Decode(&buf); err != nil {
+		t.Fatalf("a record edited with the clock put back cannot be read: %v", err)
+	}
+	if got := s.History[len(s.History)-1].At; !got.Equal(back) {
+		t.Errorf("history entry at %v, want the device's time %v", got, back)
 	}
 }
