@@ -76,35 +76,9 @@ func (c *Shell) saveReportHTML(ctx app.Context, e app.Event) {
 		return
 	}
 	file := rpFile(c.sess, c.rpHTML)
-	name := rpFileName(c.sess.Title) + " report.html"
-	win := app.Window()
-	blob := win.Get("Blob").New([]any{file}, map[string]any{"type": "text/html;charset=utf-8"})
-	url := win.Get("URL").Call("createObjectURL", blob)
-	a := win.Get("document").Call("createElement", "a")
-	a.Set("href", url)
-	a.Set("download", name)
-	win.Get("document").Get("body").Call("appendChild", a)
-	a.Call("click")
-	a.Call("remove")
-	ctx.After(10*time.Second, func(ctx app.Context) { app.Window().Get("URL").Call("revokeObjectURL", url) })
+	name := fileBase(c.sess.Title) + " report.html"
+	download(name, "text/html;charset=utf-8", []byte(file))
 	c.rpMsg = "Saved “" + name + "” to your downloads."
-}
-
-// fileName makes a title safe as a file name.
-func rpFileName(title string) string {
-	t := strings.Map(func(r rune) rune {
-		if wording.Hidden(r) || strings.ContainsRune(`/\:*?"<>|`, r) {
-			return '-'
-		}
-		return r
-	}, strings.TrimSpace(title))
-	if t == "" {
-		t = "Pairline session"
-	}
-	if len(t) > 80 {
-		t = t[:80]
-	}
-	return t
 }
 
 // rpEsc escapes text for the report's HTML. Text from the session comes

@@ -697,26 +697,6 @@ func (c *Shell) pasteBlock(ctx app.Context, row int, text string) {
 	c.collectAfterLoad()
 }
 
-// fileBase turns a session title into a file name without extension.
-func fileBase(title string) string {
-	var b strings.Builder
-	for _, r := range strings.TrimSpace(title) {
-		switch {
-		case r == '/' || r == '\\' || r == ':' || r == '*' || r == '?' || r == '"' || r == '<' || r == '>' || r == '|' || r < 0x20:
-			b.WriteRune('-')
-		default:
-			b.WriteRune(r)
-		}
-		if b.Len() > 80 {
-			break
-		}
-	}
-	if b.Len() == 0 {
-		return "pairline-session"
-	}
-	return b.String()
-}
-
 // sessionFile encodes the open session as a session file.
 func (c *Shell) sessionFile() ([]byte, error) {
 	return session.EncodeBytes([]*session.Session{c.sess})
