@@ -76,7 +76,7 @@ func (c *Shell) announceSaved(ctx app.Context, sum store.Summary) {
 // unsaved reports whether the open session has edits not yet stored.
 func (c *Shell) unsaved() bool {
 	return c.sess != nil && (c.sess.Modified.UnixMilli() > c.seen || c.seenID != c.sess.ID ||
-		c.saveState == "saving" || c.saveState == "failed" || c.view.stale)
+		c.saveState == SaveSaving || c.saveState == SaveFailed || c.view.stale)
 }
 
 // otherTabSaved handles a save made by another tab.
@@ -120,7 +120,7 @@ func (c *Shell) reloadFromStore(ctx app.Context, id, note string) {
 			c.show(s)
 			c.opened(s)
 			c.page = page
-			c.saveState, c.saveMessage, c.saveWhy = "saved", "", ""
+			c.saveState, c.saveMessage, c.saveWhy = SaveSaved, "", ""
 			c.notice = note
 		})
 	})
@@ -190,7 +190,7 @@ func (c *Shell) heldByOtherTab() bool {
 	if c.elsewhere == nil || c.sess == nil || c.elsewhere.id != c.sess.ID {
 		return false
 	}
-	c.saveFor, c.saveState, c.saveWhy = c.sess.ID, "failed", saveHeld
+	c.saveFor, c.saveState, c.saveWhy = c.sess.ID, SaveFailed, saveHeld
 	c.saveMessage = "another tab stored a newer version of this session; choose which to keep"
 	return true
 }

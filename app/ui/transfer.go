@@ -994,7 +994,7 @@ func (c *Shell) renderTransferStrips() app.UI {
 		app.If(c.conflict != nil && len(c.conflict.pending) > 0, c.renderConflict),
 		app.If(c.choice != nil, c.renderColumnChoice),
 		app.If(c.elsewhere != nil, c.renderElsewhere),
-		app.If(c.saveState == "failed" && c.saveMessage == store.ErrQuota.Error(), func() app.UI {
+		app.If(c.saveState == SaveFailed && c.saveMessage == store.ErrQuota.Error(), func() app.UI {
 			return app.Div().Class("pl-strip pl-xfer-full").DataSet("testid", "storage-full").Attr("role", "alert").
 				Text("⚠ The device is full. The last change was not saved; what was saved before it is kept. Export this session, then delete old sessions to make room.")
 		}),
