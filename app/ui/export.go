@@ -29,8 +29,8 @@ func (c *Shell) exportSession(ctx app.Context, e app.Event) {
 	download(fileBase(c.sess.Title)+session.FileExtension, session.MediaType, b)
 }
 
-func (c *Shell) shareSession(ctx app.Context, e app.Event) {
-	ctx = c.ui // dispatch through the Shell: the element that asked may be gone by then
+func (c *Shell) shareSession(_ app.Context, e app.Event) {
+	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
 	if c.sess == nil {
 		return
 	}
@@ -50,8 +50,8 @@ func (c *Shell) shareSession(ctx app.Context, e app.Event) {
 }
 
 // exportAll writes every stored session (not the trash) into one file.
-func (c *Shell) exportAll(ctx app.Context, e app.Event) {
-	ctx = c.ui // dispatch through the Shell: the element that asked may be gone by then
+func (c *Shell) exportAll(_ app.Context, e app.Event) {
+	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
 	st := c.st
 	if st == nil {
 		return

@@ -102,8 +102,8 @@ func saveAll(st store.Store, ss []*session.Session) error {
 }
 
 // openImported shows an imported session and remembers it as the last open.
-func (c *Shell) openImported(ctx app.Context, s *session.Session) {
-	ctx = c.ui // dispatch through the Shell: the element that asked may be gone by then
+func (c *Shell) openImported(_ app.Context, s *session.Session) {
+	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
 	c.show(s)
 	c.listOpen = false
 	st, id := c.st, s.ID
@@ -113,8 +113,8 @@ func (c *Shell) openImported(ctx app.Context, s *session.Session) {
 // resolveConflict handles the first waiting session: "replace" overwrites the
 // stored one, "both" keeps both (the imported one gets a new ID), "skip"
 // leaves the stored one alone.
-func (c *Shell) resolveConflict(ctx app.Context, how string) {
-	ctx = c.ui // dispatch through the Shell: the element that asked may be gone by then
+func (c *Shell) resolveConflict(_ app.Context, how string) {
+	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
 	k := c.conflict
 	if k == nil || len(k.pending) == 0 {
 		c.conflict = nil

@@ -24,8 +24,8 @@ func (c *Shell) refreshUsageWhenReady(ctx app.Context, tries int) {
 
 // refreshUsage asks the browser what is used of the quota (and, through
 // store.Usage, for persistent storage).
-func (c *Shell) refreshUsage(ctx app.Context) {
-	ctx = c.ui // dispatch through the Shell: the element that asked may be gone by then
+func (c *Shell) refreshUsage(_ app.Context) {
+	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
 	st := c.st
 	if st == nil {
 		return

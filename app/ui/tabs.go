@@ -80,8 +80,8 @@ func (c *Shell) unsaved() bool {
 }
 
 // otherTabSaved handles a save made by another tab.
-func (c *Shell) otherTabSaved(ctx app.Context, id string, mod, base int64) {
-	ctx = c.ui // dispatch through the Shell: the element that asked may be gone by then
+func (c *Shell) otherTabSaved(_ app.Context, id string, mod, base int64) {
+	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
 	st := c.st
 	if st == nil {
 		return
@@ -101,8 +101,8 @@ func (c *Shell) otherTabSaved(ctx app.Context, id string, mod, base int64) {
 }
 
 // reloadFromStore shows the stored version of the open session.
-func (c *Shell) reloadFromStore(ctx app.Context, id, note string) {
-	ctx = c.ui // dispatch through the Shell: the element that asked may be gone by then
+func (c *Shell) reloadFromStore(_ app.Context, id, note string) {
+	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
 	st := c.st
 	ctx.Async(func() {
 		s, err := load(st, id)
@@ -158,8 +158,8 @@ func (c *Shell) renderElsewhere() app.UI {
 
 // keepAsCopy stores this tab's version under a new ID and leaves the other
 // tab's version as the session of that ID.
-func (c *Shell) keepAsCopy(ctx app.Context, k *changedElsewhere) {
-	ctx = c.ui // dispatch through the Shell: the element that asked may be gone by then
+func (c *Shell) keepAsCopy(_ app.Context, k *changedElsewhere) {
+	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
 	c.elsewhere = nil
 	id, err := session.NewID(nil)
 	if err != nil {

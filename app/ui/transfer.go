@@ -170,8 +170,8 @@ func hasFiles(e app.Value) bool {
 // importFile reads a File (from the input, a drop or the launch queue) and
 // imports it: a session file when it starts with the magic bytes or is named
 // .pairline, otherwise a CSV/TSV table.
-func (c *Shell) importFile(ctx app.Context, f app.Value) {
-	ctx = c.ui // dispatch through the Shell: the element that asked may be gone by then
+func (c *Shell) importFile(_ app.Context, f app.Value) {
+	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
 	name := f.Get("name").String()
 	if size := int64(f.Get("size").Float()); size > session.MaxFileSize {
 		c.importFailed(name, fmt.Errorf("%w (%d MiB; at most %d MiB)", session.ErrTooLarge, size>>20, session.MaxFileSize>>20))
