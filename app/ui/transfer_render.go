@@ -87,14 +87,14 @@ func (c *Shell) renderColumnChoice() app.UI {
 			pick("import-x-col", "x (known value)", ch.x, func(v int) { ch.x = v }),
 			pick("import-y-col", "y (instrument value)", ch.y, func(v int) { ch.y = v }),
 			app.Button().Class("pl-btn").Text("Import these columns").DataSet("testid", "import-columns-ok").
-				OnClick(func(ctx app.Context, e app.Event) {
+				OnClick(func(_ app.Context, e app.Event) {
 					name, data, x, y := ch.file, ch.data, ch.x, ch.y
 					if x == y {
 						c.importFailed(name, &session.CSVError{Err: session.ErrCSVSameColum})
 						return
 					}
 					c.choice, c.importing, c.progress, c.importPhase = nil, name, 0, "reading"
-					ctx = c.ui
+					ctx := c.ui // the import outlives this button: dispatch through the Shell
 					ctx.Async(func() { c.importCSV(ctx, name, data, x, y) })
 				}),
 			app.Button().Class("pl-btn pl-btn-quiet").Text("Cancel").DataSet("testid", "import-cancel").
