@@ -61,7 +61,7 @@ func (c *Shell) renderBar() app.UI {
 		app.Input().Class("pl-title").Type("text").Value(title).
 			Attr("aria-label", "Session title").DataSet("testid", "session-title").
 			OnChange(c.onField(session.FieldTitle)),
-		app.Span().Class("pl-save").DataSet("testid", "save-status").DataSet("state", c.saveState).
+		app.Span().Class("pl-save").DataSet("testid", "save-status").DataSet("state", c.saveState.String()).
 			Attr("role", "status").Text(c.saveText()),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Try again").DataSet("testid", "save-retry").
 			Hidden(!c.retryable()).OnClick(c.retrySave),

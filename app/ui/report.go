@@ -60,7 +60,7 @@ func (c *Shell) renderReport() app.UI {
 	)
 }
 
-// rpFile is the report as one self-contained HTML file: inline styles
+// reportFile is the report as one self-contained HTML file: inline styles
 // and SVG, no script, nothing loaded from anywhere.
 func rpFile(s *session.Session, body string) string {
 	return "<!doctype html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">" +
@@ -76,35 +76,9 @@ func (c *Shell) saveReportHTML(ctx app.Context, e app.Event) {
 		return
 	}
 	file := rpFile(c.sess, c.rpHTML)
-	name := rpFileName(c.sess.Title) + " report.html"
-	win := app.Window()
-	blob := win.Get("Blob").New([]any{file}, map[string]any{"type": "text/html;charset=utf-8"})
-	url := win.Get("URL").Call("createObjectURL", blob)
-	a := win.Get("document").Call("createElement", "a")
-	a.Set("href", url)
-	a.Set("download", name)
-	win.Get("document").Get("body").Call("appendChild", a)
-	a.Call("click")
-	a.Call("remove")
-	ctx.After(10*time.Second, func(ctx app.Context) { app.Window().Get("URL").Call("revokeObjectURL", url) })
+	name := fileBase(c.sess.Title) + " report.html"
+	download(name, "text/html;charset=utf-8", []byte(file))
 	c.rpMsg = "Saved “" + name + "” to your downloads."
-}
-
-// rpFileName makes a title safe as a file name.
-func rpFileName(title string) string {
-	t := strings.Map(func(r rune) rune {
-		if wording.Hidden(r) || strings.ContainsRune(`/\:*?"<>|`, r) {
-			return '-'
-		}
-		return r
-	}, strings.TrimSpace(title))
-	if t == "" {
-		t = "Pairline session"
-	}
-	if len(t) > 80 {
-		t = t[:80]
-	}
-	return t
 }
 
 // rpEsc escapes text for the report's HTML. Text from the session comes
@@ -132,7 +106,7 @@ func rpP(p float64) string {
 	return "p = " + rpNum(p, s)
 }
 
-// rpB builds the report markup.
+// rb builds the report markup.
 type rpB struct{ strings.Builder }
 
 func (b *rpB) w(parts ...string) {
@@ -151,9 +125,9 @@ func rpVerdict(v fitcore.Verdict) string {
 	return `<span class="pl-rv pl-rv-` + rpEsc(strings.ReplaceAll(string(v), "/", "")) + `"><span aria-hidden="true">` + icon + `</span> ` + rpEsc(word) + `</span>`
 }
 
-// rpBody renders the report of s from rep (nil when there is no line;
+// reportBody renders the report of s from rep (nil when there is no line;
 // message then says why). Every figure is rep's or the session's; the
-// plots are those of the screen (plBuild).
+// plots are those of the screen (buildPlots).
 func rpBody(s *session.Session, rep *fitcore.Report, rows []int, message string, now time.Time) string {
 	var b rpB
 	b.Grow(32 << 10)
@@ -427,7 +401,7 @@ func rpReadings(b *rpB, s *session.Session, rep *fitcore.Report, rows []int) {
 
 func rpBlank(s string) bool { return strings.TrimSpace(s) == "" }
 
-// rpKind groups the history's field names for the summary.
+// historyKind groups the history's field names for the summary.
 func rpKind(f string) string {
 	switch f {
 	case "x", "y", "note":

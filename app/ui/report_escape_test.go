@@ -42,7 +42,7 @@ func TestReportEscapesSessionText(t *testing.T) {
 			t.Errorf("the report lacks %q", want)
 		}
 	}
-	if name := rpFileName(s.Title); strings.ContainsFunc(name, wording.Hidden) {
+	if name := fileBase(s.Title); strings.ContainsFunc(name, wording.Hidden) {
 		t.Errorf("file name %q holds a control or bidirectional character", name)
 	}
 }

@@ -83,7 +83,7 @@ func TestSaveFailureShown(t *testing.T) {
 	j, _ := c.saves.next()
 	c.saves.fail(j, store.ErrQuota)
 	c.saved(ctx, j.sum, store.ErrQuota, nil)
-	if c.saveState != "failed" {
+	if c.saveState != SaveFailed {
 		t.Fatalf("save state %q after a refusal, want failed", c.saveState)
 	}
 	txt := c.saveText()
@@ -99,7 +99,7 @@ func TestSaveFailureShown(t *testing.T) {
 	if !c.saves.pending(s.ID) {
 		t.Fatal("the edit after a refusal was not handed to the saver")
 	}
-	if c.saveState != "saving" && c.saveState != "failed" {
+	if c.saveState != SaveSaving && c.saveState != SaveFailed {
 		t.Errorf("save state %q while the retry waits", c.saveState)
 	}
 	j, _ = c.saves.next()
@@ -116,7 +116,7 @@ func TestSaveFailureShown(t *testing.T) {
 		t.Fatal(err)
 	}
 	c.show(other)
-	if c.saveState == "failed" {
+	if c.saveState == SaveFailed {
 		t.Errorf("the failure of %q is shown for the session opened after it", s.Title)
 	}
 	if !strings.Contains(c.notice, s.Title) || !strings.Contains(c.notice, "not saved") {
@@ -131,12 +131,12 @@ func TestSaveFailureShown(t *testing.T) {
 	j, _ = c.saves.next()
 	c.usageAt = time.Now() // no storage figures to ask for natively
 	c.saved(ctx, j.sum, nil, nil)
-	if c.saveState == "failed" {
+	if c.saveState == SaveFailed {
 		t.Error("a success of another session left the open one failed")
 	}
 	// Back to the first: saved now.
 	c.show(s)
-	if c.saveState == "failed" {
+	if c.saveState == SaveFailed {
 		t.Errorf("save state %q for a session whose state was written", c.saveState)
 	}
 }

@@ -209,6 +209,27 @@ func settingsWithLambda(s session.Settings, p *float64) session.Settings {
 	return s
 }
 
+// levelRangeText is the hint of the custom level field: the range fitcore
+// accepts (fitcore.MinLevel to fitcore.MaxLevel), in percent.
+func levelRangeText() string {
+	return "between " + numfmt.Full(anPct(fitcore.MinLevel)) + " and " + numfmt.Full(anPct(fitcore.MaxLevel))
+}
+
+// levelFromPercent turns a typed level in percent into the fraction the
+// session keeps. A level outside fitcore.MinLevel..fitcore.MaxLevel (which
+// fitcore.Options.Normalize refuses) gives a message instead. The bounds are
+// compared in percent, rounded like the field shows them, so that typing the
+// shown upper bound (99.99) is not refused for binary noise in 99.99/100.
+func levelFromPercent(p float64) (float64, string) {
+	lo, hi := anPct(fitcore.MinLevel), anPct(fitcore.MaxLevel)
+	if !(p >= lo && p <= hi) {
+		return 0, "Not used: give a level " + levelRangeText() + " %."
+	}
+	// Rounded to the field's precision (anPct): 99.99 gives 0.9999 exactly.
+	l := math.Round(p*1e4) / 1e6
+	return math.Min(math.Max(l, fitcore.MinLevel), fitcore.MaxLevel), ""
+}
+
 // settingsWithLevel sets the confidence level (a fraction).
 func settingsWithLevel(s session.Settings, l float64) session.Settings {
 	s.Level = l
@@ -396,16 +417,17 @@ func (c *Shell) renderSettings() app.UI {
 			return out
 		}()),
 		app.If(custom || c.anOtherOpen, func() app.UI {
-			return c.anNumberField("settings_level", "Confidence level in %", "between 50 and 99.99", numfmt.Full(anPct(level)),
+			return c.anNumberField("settings_level", "Confidence level in %", levelRangeText(), numfmt.Full(anPct(level)),
 				func(ctx app.Context, p *float64) {
 					if p == nil {
 						return
 					}
-					if !(*p >= 50 && *p < 100) {
-						c.anFieldErr["settings_level"] = "Not used: give a level between 50 and 99.99 %."
+					l, msg := levelFromPercent(*p)
+					if msg != "" {
+						c.anFieldErr["settings_level"] = msg
 						return
 					}
-					c.anSetSettings(ctx, settingsWithLevel(c.anSettings(), *p/100))
+					c.anSetSettings(ctx, settingsWithLevel(c.anSettings(), l))
 				})
 		}),
 		app.Div().Class("an-fields").Body(

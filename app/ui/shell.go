@@ -42,11 +42,11 @@ type Shell struct {
 	confirmDel  string // id of the session whose deletion is being confirmed
 	renaming    string // id of the session being renamed
 	renameText  string
-	saveState   string // "saved", "saving", "failed", "" before the first save
-	saveMessage string // the detail of a failure (an error's text)
-	saveWhy     string // why it failed: saveRefused, saveUnwritable or saveHeld
-	saveFor     string // ID of the session saveState is about
-	notice      string // a sentence shown in the message strip
+	saveState   SaveState // SaveNone before the first save
+	saveMessage string    // the detail of a failure (an error's text)
+	saveWhy     string    // why it failed: saveRefused, saveUnwritable or saveHeld
+	saveFor     string    // ID of the session saveState is about
+	notice      string    // a sentence shown in the message strip
 	updateReady bool
 
 	saves    *saveQueue
@@ -196,15 +196,15 @@ func (c *Shell) show(s *session.Session) {
 		case c.toSave:
 			c.save(c.ui) // the last edit of the session being left, before its save turn
 		}
-		if c.sess.ID != s.ID && c.saveState == "failed" && c.saveWhy != saveHeld {
+		if c.sess.ID != s.ID && c.saveState == SaveFailed && c.saveWhy != saveHeld {
 			c.notice = leftUnsaved(c.sess.Title, c.saveWhy, c.saveMessage)
 		}
 	}
 	if c.saveFor != s.ID {
 		c.saveFor = s.ID
-		c.saveState, c.saveMessage, c.saveWhy = "", "", ""
+		c.saveState, c.saveMessage, c.saveWhy = SaveNone, "", ""
 		if msg, ok := c.saves.failure(s.ID); ok {
-			c.saveState, c.saveMessage, c.saveWhy = "failed", msg, saveRefused
+			c.saveState, c.saveMessage, c.saveWhy = SaveFailed, msg, saveRefused
 		}
 	}
 	c.sess = s
@@ -221,8 +221,8 @@ func (c *Shell) show(s *session.Session) {
 // "saved", since what is shown is what the device holds.
 func (c *Shell) showStored(s *session.Session) {
 	c.show(s)
-	if c.saveState == "" && !c.saves.pending(s.ID) {
-		c.saveState = "saved"
+	if c.saveState == SaveNone && !c.saves.pending(s.ID) {
+		c.saveState = SaveSaved
 	}
 }
 
@@ -379,8 +379,8 @@ func (c *Shell) edited(ctx app.Context) {
 	big := len(c.sess.Readings) >= adviceLater
 	c.analyseNow(big)
 	if c.st != nil && !c.heldByOtherTab() {
-		if c.saveState != "failed" {
-			c.saveState = "saving" // from now: the edit is not on the device yet
+		if c.saveState != SaveFailed {
+			c.saveState = SaveSaving // from now: the edit is not on the device yet
 		} // a failure stays shown until a save succeeds
 		c.toSave = true
 	}
@@ -388,7 +388,7 @@ func (c *Shell) edited(ctx app.Context) {
 		c.save(c.ui) // cheap: in the keystroke's own turn, so a reload right after keeps it
 		return
 	}
-	stateWas := c.saveState + "\x00" + c.saveMessage
+	stateWas := c.saveState.String() + "\x00" + c.saveMessage
 	saveTurn := func(ctx app.Context) {
 		if seq == c.editSeq || time.Since(c.lastSave) >= saveEvery {
 			c.save(c.ui)
@@ -447,7 +447,7 @@ func (c *Shell) collectAfterLoad() {
 // the whole screen is the costliest part of a turn. Another change queued
 // for the same frame still redraws it.
 func (c *Shell) keepScreen(ctx app.Context, was string) {
-	if ctx.Src() != nil && c.saveState+"\x00"+c.saveMessage == was {
+	if ctx.Src() != nil && c.saveState.String()+"\x00"+c.saveMessage == was {
 		ctx.PreventUpdate()
 	}
 }
@@ -484,13 +484,13 @@ func (c *Shell) save(ctx app.Context) {
 	c.saveFor = c.sess.ID
 	job, err := encodeJobInto(c.saves.takeSpare(), c.sess)
 	if err != nil {
-		c.saveState, c.saveMessage, c.saveWhy = "failed", err.Error(), saveUnwritable
+		c.saveState, c.saveMessage, c.saveWhy = SaveFailed, err.Error(), saveUnwritable
 		c.toSave = true
 		return
 	}
 	c.saves.put(job)
-	if c.saveState != "failed" || c.saveWhy != saveRefused {
-		c.saveState, c.saveMessage, c.saveWhy = "saving", "", ""
+	if c.saveState != SaveFailed || c.saveWhy != saveRefused {
+		c.saveState, c.saveMessage, c.saveWhy = SaveSaving, "", ""
 	}
 	c.lastSave = time.Now()
 	c.toSave = false
@@ -500,8 +500,8 @@ func (c *Shell) save(ctx app.Context) {
 // as it is now, and the states of other sessions kept since they failed.
 func (c *Shell) retrySave(ctx app.Context, e app.Event) {
 	c.saves.retry()
-	if c.sess != nil && c.saveState == "failed" && c.saveWhy != saveHeld {
-		c.saveState, c.saveMessage, c.saveWhy = "saving", "", ""
+	if c.sess != nil && c.saveState == SaveFailed && c.saveWhy != saveHeld {
+		c.saveState, c.saveMessage, c.saveWhy = SaveSaving, "", ""
 		c.save(c.ui)
 	}
 }
@@ -510,18 +510,18 @@ func (c *Shell) retrySave(ctx app.Context, e app.Event) {
 // unwritable save of the open session, or a refused state of a session
 // left since.
 func (c *Shell) retryable() bool {
-	return (c.saveState == "failed" && c.saveWhy != saveHeld) || c.saves.hasFailed()
+	return (c.saveState == SaveFailed && c.saveWhy != saveHeld) || c.saves.hasFailed()
 }
 
 // saveText is the save status in words: a failure is a plain sentence with
 // its detail, and says that nothing on screen is lost.
 func (c *Shell) saveText() string {
 	switch c.saveState {
-	case "saved":
+	case SaveSaved:
 		return "Saved on this device"
-	case "saving":
+	case SaveSaving:
 		return "Saving…"
-	case "failed":
+	case SaveFailed:
 		switch c.saveWhy {
 		case saveHeld:
 			return "Not saved: " + c.saveMessage
@@ -788,7 +788,7 @@ func (c *Shell) saved(ctx app.Context, sum store.Summary, err error, list []stor
 	open := c.sess != nil && c.sess.ID == sum.ID
 	if err != nil {
 		if open {
-			c.saveFor, c.saveState, c.saveMessage, c.saveWhy = sum.ID, "failed", err.Error(), saveRefused
+			c.saveFor, c.saveState, c.saveMessage, c.saveWhy = sum.ID, SaveFailed, err.Error(), saveRefused
 		} else {
 			c.notice = leftUnsaved(sum.Title, saveRefused, err.Error())
 		}
@@ -798,10 +798,10 @@ func (c *Shell) saved(ctx app.Context, sum store.Summary, err error, list []stor
 	if !open || c.saves.pending(sum.ID) || c.toSave {
 		return
 	}
-	if c.saveState == "failed" && c.saveWhy != saveRefused {
+	if c.saveState == SaveFailed && c.saveWhy != saveRefused {
 		return // a newer state could not be encoded, or another tab holds it
 	}
-	c.saveState, c.saveMessage, c.saveWhy = "saved", "", ""
+	c.saveState, c.saveMessage, c.saveWhy = SaveSaved, "", ""
 }
 
 // OnDismount stops the saver.

@@ -76,12 +76,12 @@ func (c *Shell) announceSaved(ctx app.Context, sum store.Summary) {
 // unsaved reports whether the open session has edits not yet stored.
 func (c *Shell) unsaved() bool {
 	return c.sess != nil && (c.sess.Modified.UnixMilli() > c.seen || c.seenID != c.sess.ID ||
-		c.saveState == "saving" || c.saveState == "failed" || c.view.stale)
+		c.saveState == SaveSaving || c.saveState == SaveFailed || c.view.stale)
 }
 
 // otherTabSaved handles a save made by another tab.
-func (c *Shell) otherTabSaved(ctx app.Context, id string, mod, base int64) {
-	ctx = c.ui // dispatch through the Shell: the element that asked may be gone by then
+func (c *Shell) otherTabSaved(_ app.Context, id string, mod, base int64) {
+	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
 	st := c.st
 	if st == nil {
 		return
@@ -101,8 +101,8 @@ func (c *Shell) otherTabSaved(ctx app.Context, id string, mod, base int64) {
 }
 
 // reloadFromStore shows the stored version of the open session.
-func (c *Shell) reloadFromStore(ctx app.Context, id, note string) {
-	ctx = c.ui // dispatch through the Shell: the element that asked may be gone by then
+func (c *Shell) reloadFromStore(_ app.Context, id, note string) {
+	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
 	st := c.st
 	seq := c.editSeq
 	ctx.Async(func() {
@@ -127,7 +127,7 @@ func (c *Shell) reloadFromStore(ctx app.Context, id, note string) {
 			c.showStored(s)
 			c.opened(s)
 			c.page = page
-			c.saveState, c.saveMessage, c.saveWhy = "saved", "", ""
+			c.saveState, c.saveMessage, c.saveWhy = SaveSaved, "", ""
 			c.notice = note
 		})
 	})
@@ -165,8 +165,8 @@ func (c *Shell) renderElsewhere() app.UI {
 
 // keepAsCopy stores this tab's version under a new ID and leaves the other
 // tab's version as the session of that ID.
-func (c *Shell) keepAsCopy(ctx app.Context, k *changedElsewhere) {
-	ctx = c.ui // dispatch through the Shell: the element that asked may be gone by then
+func (c *Shell) keepAsCopy(_ app.Context, k *changedElsewhere) {
+	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
 	c.elsewhere = nil
 	id, err := session.NewID(nil)
 	if err != nil {
@@ -197,7 +197,7 @@ func (c *Shell) heldByOtherTab() bool {
 	if c.elsewhere == nil || c.sess == nil || c.elsewhere.id != c.sess.ID {
 		return false
 	}
-	c.saveFor, c.saveState, c.saveWhy = c.sess.ID, "failed", saveHeld
+	c.saveFor, c.saveState, c.saveWhy = c.sess.ID, SaveFailed, saveHeld
 	c.saveMessage = "another tab stored a newer version of this session; choose which to keep"
 	return true
 }

@@ -124,35 +124,3 @@ func FuzzReadChunks(f *testing.F) {
 }
 
 func isUTF8(b []byte) bool { return strings.ToValidUTF8(string(b), "\x00") == string(b) }
-
-func TestFileBase(t *testing.T) {
-	for in, want := range map[string]string{
-		"Probe C-12 / intake": "Probe C-12 - intake",
-		"  ":                  "pairline-session",
-		"a:b*c?d\"e<f>g|h\\i": "a-b-c-d-e-f-g-h-i",
-		"Messung 1,5 µS/cm":   "Messung 1,5 µS-cm",
-	} {
-		if got := fileBase(in); got != want {
-			t.Errorf("fileBase(%q) = %q, want %q", in, got, want)
-		}
-	}
-}
-
-// TestBytesText: SI prefixes (1 kB = 1000 bytes; BIPM SI brochure).
-func TestBytesText(t *testing.T) {
-	for n, want := range map[int64]string{512: "512 bytes", 1500: "1.5 kB", 27_690_055: "28 MB", 10_756_065_032: "11 GB"} {
-		if got := bytesText(n); got != want {
-			t.Errorf("bytesText(%d) = %q, want %q", n, got, want)
-		}
-	}
-}
-
-func TestNumericColumns(t *testing.T) {
-	res, err := session.ReadCSV(strings.NewReader("site;ref;reading;temp\nnorth;1;1,1;20,5\nsouth;2;;20,7\n"), session.CSVOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if got := numericColumns(res); !reflect.DeepEqual(got, []int{1, 2, 3}) {
-		t.Errorf("numericColumns = %v, want [1 2 3]", got)
-	}
-}

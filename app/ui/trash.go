@@ -48,8 +48,8 @@ func (c *Shell) trashItem(s store.Summary) app.UI {
 	)
 }
 
-func (c *Shell) refreshTrash(ctx app.Context) {
-	ctx = c.ui // dispatch through the Shell: the element that asked may be gone by then
+func (c *Shell) refreshTrash(_ app.Context) {
+	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
 	st := c.st
 	if st == nil {
 		return
@@ -66,8 +66,8 @@ func (c *Shell) refreshTrash(ctx app.Context) {
 	})
 }
 
-func (c *Shell) restore(ctx app.Context, id string) {
-	ctx = c.ui // dispatch through the Shell: the element that asked may be gone by then
+func (c *Shell) restore(_ app.Context, id string) {
+	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
 	st := c.st
 	ctx.Async(func() {
 		err := st.Restore(id)

@@ -300,7 +300,7 @@ func propCheck(t *testing.T, c *Shell, step int, trail []string) {
 		from := max(0, len(trail)-12)
 		t.Fatalf("after step %d (%s):\n%s\nlast steps:\n  %s", step, trail[len(trail)-1], fmt.Sprintf(format, a...), strings.Join(trail[from:], "\n  "))
 	}
-	if c.saveState == "failed" {
+	if c.saveState == SaveFailed {
 		fail("the save failed: %s", c.saveMessage)
 	}
 	if err := c.sess.Validate(); err != nil {

@@ -1,0 +1,123 @@
+package ui
+
+// Files out: session file, all sessions, readings and results CSV, and sharing.
+
+import (
+	"bytes"
+	"time"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"pairline/app/numfmt"
+	"pairline/app/session"
+)
+
+// sessionFile encodes the open session as a session file.
+func (c *Shell) sessionFile() ([]byte, error) {
+	return session.EncodeBytes([]*session.Session{c.sess})
+}
+
+func (c *Shell) exportSession(ctx app.Context, e app.Event) {
+	if c.sess == nil {
+		return
+	}
+	b, err := c.sessionFile()
+	if err != nil {
+		c.notice = "The session could not be exported: " + err.Error()
+		return
+	}
+	download(fileBase(c.sess.Title)+session.FileExtension, session.MediaType, b)
+}
+
+func (c *Shell) shareSession(_ app.Context, e app.Event) {
+	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
+	if c.sess == nil {
+		return
+	}
+	b, err := c.sessionFile()
+	if err != nil {
+		c.notice = "The session could not be shared: " + err.Error()
+		return
+	}
+	name, title := fileBase(c.sess.Title)+session.FileExtension, c.sess.Title
+	ctx.Async(func() {
+		if err := shareFile(name, session.MediaType, title, b); err != nil {
+			ctx.Dispatch(func(ctx app.Context) {
+				c.notice = "The session was not shared (" + err.Error() + "). Use “Save session file” instead."
+			})
+		}
+	})
+}
+
+// exportAll writes every stored session (not the trash) into one file.
+func (c *Shell) exportAll(_ app.Context, e app.Event) {
+	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
+	st := c.st
+	if st == nil {
+		return
+	}
+	ctx.Async(func() {
+		list, err := st.List()
+		var all []*session.Session
+		for _, sm := range list {
+			if err != nil {
+				break
+			}
+			var s *session.Session
+			if s, err = load(st, sm.ID); err == nil {
+				all = append(all, s)
+			}
+		}
+		var buf bytes.Buffer
+		if err == nil {
+			err = session.Encode(&buf, all)
+		}
+		ctx.Dispatch(func(ctx app.Context) {
+			if err != nil {
+				c.notice = "The sessions could not be exported: " + err.Error()
+				return
+			}
+			download("pairline-sessions-"+time.Now().Format("2006-01-02")+session.FileExtension, session.MediaType, buf.Bytes())
+		})
+	})
+}
+
+func (c *Shell) exportCSV(ctx app.Context, e app.Event) {
+	if c.sess == nil {
+		return
+	}
+	var buf bytes.Buffer
+	if err := session.WriteReadingsCSV(&buf, c.sess); err != nil {
+		c.notice = "The readings could not be exported: " + err.Error()
+		return
+	}
+	download(fileBase(c.sess.Title)+" readings.csv", "text/csv", buf.Bytes())
+}
+
+// exportResults writes the line's headline figures as CSV (full precision).
+func (c *Shell) exportResults(ctx app.Context, e app.Event) {
+	rep := c.view.report
+	if c.sess == nil || rep == nil {
+		return
+	}
+	rows := [][]string{{"figure", "value"}}
+	for _, f := range []struct {
+		name string
+		v    float64
+	}{
+		{"pairs used (n)", float64(rep.N)},
+		{"slope", rep.Slope.Estimate}, {"slope standard error", rep.Slope.SE},
+		{"intercept", rep.Intercept.Estimate}, {"intercept standard error", rep.Intercept.SE},
+		{"correlation r", rep.R}, {"r squared", rep.RSquared}, {"residual standard deviation", rep.ResidualSE},
+	} {
+		rows = append(rows, []string{f.name, numfmt.Full(f.v)})
+	}
+	// The same writer as the readings, so that no cell reaches a
+	// spreadsheet as a formula.
+	var buf bytes.Buffer
+	if err := session.WriteTable(&buf, rows, false); err != nil {
+		c.notice = "The results could not be exported: " + err.Error()
+		return
+	}
+	download(fileBase(c.sess.Title)+" results.csv", "text/csv", buf.Bytes())
+}

@@ -1,0 +1,143 @@
+package ui
+
+// The render functions of the files card: progress strips, conflict choice, column choice, the card.
+
+import (
+	"fmt"
+	"strconv"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"pairline/app/numfmt"
+	"pairline/app/session"
+	"pairline/app/store"
+)
+
+// renderTransferStrips draws what an import or another tab asks or reports.
+func (c *Shell) renderTransferStrips() app.UI {
+	return app.Div().Class("pl-xfer-strips").Body(
+		app.If(c.importing != "", func() app.UI {
+			return app.Div().Class("pl-strip pl-xfer-progress").Attr("role", "status").Body(
+				app.Span().Text("Importing “"+c.importing+"”: "+c.importPhase+"…"),
+				app.Progress().Max(1).Value(c.progress).DataSet("testid", "import-progress").
+					DataSet("value", numfmt.Full(c.progress)).Attr("aria-label", "Import progress"),
+				app.Span().Text(strconv.Itoa(int(c.progress*100))+" %"),
+			)
+		}),
+		app.If(c.importErr != "", func() app.UI {
+			return app.Div().Class("pl-strip pl-xfer-error").Attr("role", "alert").Body(
+				app.Span().Class("pl-xfer-icon").Attr("aria-hidden", "true").Text("✖"),
+				app.Span().DataSet("testid", "import-error").DataSet("seq", c.importSeq).Text(c.importErr),
+				app.Button().Class("pl-btn pl-btn-quiet").Text("Dismiss").
+					OnClick(func(ctx app.Context, e app.Event) { c.importErr = "" }),
+			)
+		}),
+		app.If(c.conflict != nil && len(c.conflict.pending) > 0, c.renderConflict),
+		app.If(c.choice != nil, c.renderColumnChoice),
+		app.If(c.elsewhere != nil, c.renderElsewhere),
+		app.If(c.saveState == SaveFailed && c.saveMessage == store.ErrQuota.Error(), func() app.UI {
+			return app.Div().Class("pl-strip pl-xfer-full").DataSet("testid", "storage-full").Attr("role", "alert").
+				Text("⚠ The device is full. The last change was not saved; what was saved before it is kept. Export this session, then delete old sessions to make room.")
+		}),
+	)
+}
+
+func (c *Shell) renderConflict() app.UI {
+	k := c.conflict
+	s := k.pending[0]
+	old := k.stored[s.ID]
+	where := ""
+	if !old.Deleted.IsZero() {
+		where = " (in the trash)"
+	}
+	return app.Div().Class("pl-strip pl-xfer-ask").Attr("role", "alertdialog").DataSet("testid", "import-conflict").DataSet("seq", c.importSeq).Body(
+		app.P().Text(fmt.Sprintf("“%s” from the file (%s, changed %s) is already on this device%s as “%s” (%s, changed %s). Replace the stored one, or keep both?",
+			s.Title, plural(len(s.Readings), "reading", "readings"), s.Modified.Local().Format("2 Jan 2006 15:04"),
+			where, old.Title, plural(old.Readings, "reading", "readings"), old.Modified.Local().Format("2 Jan 2006 15:04"))),
+		app.Div().Class("pl-xfer-actions").Body(
+			app.Button().Class("pl-btn").Text("Keep both").DataSet("testid", "import-keep-both").
+				OnClick(func(ctx app.Context, e app.Event) { c.resolveConflict(ctx, "both") }),
+			app.Button().Class("pl-btn pl-btn-danger").Text("Replace the stored one").DataSet("testid", "import-replace").
+				OnClick(func(ctx app.Context, e app.Event) { c.resolveConflict(ctx, "replace") }),
+			app.Button().Class("pl-btn pl-btn-quiet").Text("Skip this one").DataSet("testid", "import-skip").
+				OnClick(func(ctx app.Context, e app.Event) { c.resolveConflict(ctx, "skip") }),
+		),
+	)
+}
+
+func (c *Shell) renderColumnChoice() app.UI {
+	ch := c.choice
+	pick := func(testid, label string, cur int, set func(int)) app.UI {
+		return app.Label().Class("pl-xfer-col").Body(
+			app.Span().Text(label),
+			app.Select().DataSet("testid", testid).OnChange(func(ctx app.Context, e app.Event) {
+				if v, err := strconv.Atoi(ctx.JSSrc().Get("value").String()); err == nil {
+					set(v)
+				}
+			}).Body(
+				app.Range(ch.labels).Slice(func(i int) app.UI {
+					return app.Option().Value(strconv.Itoa(i)).Selected(i == cur).Text(ch.labels[i])
+				}),
+			),
+		)
+	}
+	return app.Div().Class("pl-strip pl-xfer-ask").Attr("role", "dialog").DataSet("testid", "import-columns").DataSet("seq", c.importSeq).Body(
+		app.P().Text("“"+ch.file+"” has more than two columns of numbers. Which columns hold the known values (x) and the instrument values (y)?"),
+		app.Div().Class("pl-xfer-actions").Body(
+			pick("import-x-col", "x (known value)", ch.x, func(v int) { ch.x = v }),
+			pick("import-y-col", "y (instrument value)", ch.y, func(v int) { ch.y = v }),
+			app.Button().Class("pl-btn").Text("Import these columns").DataSet("testid", "import-columns-ok").
+				OnClick(func(_ app.Context, e app.Event) {
+					name, data, x, y := ch.file, ch.data, ch.x, ch.y
+					if x == y {
+						c.importFailed(name, &session.CSVError{Err: session.ErrCSVSameColum})
+						return
+					}
+					c.choice, c.importing, c.progress, c.importPhase = nil, name, 0, "reading"
+					ctx := c.ui // the import outlives this button: dispatch through the Shell
+					ctx.Async(func() { c.importCSV(ctx, name, data, x, y) })
+				}),
+			app.Button().Class("pl-btn pl-btn-quiet").Text("Cancel").DataSet("testid", "import-cancel").
+				OnClick(func(ctx app.Context, e app.Event) { c.choice = nil }),
+		),
+	)
+}
+
+// renderTransfer draws the card for files: import, export, share, storage.
+func (c *Shell) renderTransfer() app.UI {
+	return app.Section().Class("pl-card pl-xfer").Attr("aria-label", "Files").Body(
+		app.H2().Text("Files"),
+		app.Div().Class("pl-xfer-actions").Body(
+			app.Label().Class("pl-btn pl-xfer-pick").Body(
+				app.Span().Text("Import a file…"),
+				app.Input().Type("file").Class("pl-xfer-input").Accept(sessionAccept).
+					DataSet("testid", "import-file").Attr("aria-label", "Import a session file or a CSV table").
+					OnChange(func(ctx app.Context, e app.Event) {
+						files := ctx.JSSrc().Get("files")
+						if files.Length() == 0 {
+							return
+						}
+						f := files.Index(0)
+						ctx.JSSrc().Set("value", "")
+						c.importFile(ctx, f)
+					}),
+			),
+			app.If(c.shareOK, func() app.UI {
+				return app.Button().Class("pl-btn").Text("Share session…").DataSet("testid", "export-share").OnClick(c.shareSession)
+			}),
+			app.Button().Class("pl-btn pl-btn-quiet").Text("Save session file").DataSet("testid", "export-session").OnClick(c.exportSession),
+			app.Button().Class("pl-btn pl-btn-quiet").Text("Save all sessions").DataSet("testid", "export-all").OnClick(c.exportAll),
+			app.Button().Class("pl-btn pl-btn-quiet").Text("Readings as CSV").DataSet("testid", "export-csv").OnClick(c.exportCSV),
+			app.If(c.view.report != nil, func() app.UI {
+				return app.Button().Class("pl-btn pl-btn-quiet").Text("Results as CSV").DataSet("testid", "export-results").OnClick(c.exportResults)
+			}),
+		),
+		app.P().Class("pl-xfer-hint").Text("Session files (.pairline) and CSV or tab-separated tables can also be dropped onto the page. A block copied from a spreadsheet can be pasted into an x cell."),
+		app.If(c.importReport != "", func() app.UI {
+			return app.P().Class("pl-xfer-report").DataSet("testid", "import-report").DataSet("seq", c.importSeq).DataSet("timing", c.importTiming).Attr("role", "status").Text(c.importReport)
+		}),
+		app.P().Class("pl-xfer-usage").DataSet("testid", "storage-usage").
+			DataSet("used", strconv.FormatInt(c.usage.Used, 10)).DataSet("quota", strconv.FormatInt(c.usage.Quota, 10)).
+			DataSet("persistent", strconv.FormatBool(c.usage.Persistent)).Text(c.usageText()),
+	)
+}
