@@ -23,9 +23,9 @@ import (
 // have no scatter; see checkmin.go for the minimum number of readings of
 // each check).
 // For influence: fail when some reading is an outlier by the Bonferroni test
-// or has Cook's distance above the F(p, n−p) median, warn when readings are
-// flagged only by the milder thresholds (see Influence), pass otherwise
-// (common practice).
+// at 1 % (see Influence), warn when a reading is out of line at 5 %, moves
+// the line beyond its 90 % confidence region, or alone fixes the line
+// (leverage 1); pass otherwise. Leverage alone is shown, never a flag.
 func Summarize(c Checks, infl []PointInfluence) Assumptions {
 	return summarize(c, ckSummarizeInfluence(infl))
 }
@@ -102,9 +102,9 @@ func ckCombine(cs []Check, pass, warn, fail, advice, naLead string) Assumption {
 	case Pass:
 		return Assumption{Verdict: Pass, Message: pass}
 	case Warn:
-		return Assumption{Verdict: Warn, Message: warn + " " + worstMsg, Advice: advice}
+		return Assumption{Verdict: Warn, Message: ckJoin(warn, worstMsg), Advice: advice}
 	case Fail:
-		return Assumption{Verdict: Fail, Message: fail + " " + worstMsg, Advice: advice}
+		return Assumption{Verdict: Fail, Message: ckJoin(fail, worstMsg), Advice: advice}
 	}
 	msg := naLead + "."
 	if len(why) > 0 {
@@ -114,6 +114,19 @@ func ckCombine(cs []Check, pass, warn, fail, advice, naLead string) Assumption {
 		}
 	}
 	return Assumption{Verdict: NA, Message: msg}
+}
+
+// ckJoin puts the assumption's lead sentence before the check's message,
+// unless the message already starts with the lead's words (then it says
+// the same with its figures, and the lead would repeat it).
+func ckJoin(lead, msg string) string {
+	if msg == "" {
+		return lead
+	}
+	if strings.HasPrefix(msg, strings.TrimSuffix(lead, ".")) {
+		return msg
+	}
+	return lead + " " + msg
 }
 
 // ckSummarizeInfluence words the flagged readings.
@@ -128,7 +141,7 @@ func ckSummarizeInfluence(infl []PointInfluence) Assumption {
 		}
 		isSerious := false
 		for _, r := range p.Reasons {
-			if strings.HasPrefix(r, ckReasonOutlier) || strings.HasPrefix(r, ckReasonVeryInfluence) || strings.HasPrefix(r, ckReasonLeverageOne) {
+			if strings.HasPrefix(r, ckReasonOutlier) {
 				isSerious = true
 			}
 		}
