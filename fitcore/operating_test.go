@@ -112,6 +112,7 @@ type simTally struct {
 	fail, flag       map[string]int
 	remedyOffered    int
 	spreadFlagged    int
+	repeats          []string // messages in which a sentence appears twice
 }
 
 func (t *simTally) add(rep *Report) {
@@ -142,12 +143,37 @@ func (t *simTally) add(rep *Report) {
 	if g {
 		t.anyFlag++
 	}
+	for _, m := range []string{a.Linearity.Message, a.Spread.Message, a.Independence.Message, a.Normality.Message, a.Influence.Message} {
+		if simRepeatsSentence(m) {
+			t.repeats = append(t.repeats, m)
+		}
+	}
 	if a.Spread.Verdict == Fail || a.Spread.Verdict == Warn {
 		t.spreadFlagged++
 		if rep.Advice != nil && rep.Advice.Remedy != RemedyNone {
 			t.remedyOffered++
 		}
 	}
+}
+
+// simRepeatsSentence reports whether a sentence, or the words of one
+// sentence without its figures in brackets, appears twice in msg.
+func simRepeatsSentence(msg string) bool {
+	seen := map[string]bool{}
+	for _, sent := range strings.SplitAfter(msg, ". ") {
+		k := strings.TrimSpace(strings.TrimSuffix(strings.TrimSpace(sent), "."))
+		if i := strings.Index(k, " ("); i > 0 {
+			k = k[:i]
+		}
+		if k == "" {
+			continue
+		}
+		if seen[k] {
+			return true
+		}
+		seen[k] = true
+	}
+	return false
 }
 
 func (t *simTally) rate(k int) float64 { return float64(k) / float64(max(t.lines, 1)) }
@@ -192,6 +218,25 @@ func TestOperatingCharacteristic(t *testing.T) {
 				fmt.Fprintf(&table, " %.0f/%.0f |", 100*tl.rate(tl.fail[k]), 100*tl.rate(tl.flag[k]))
 			}
 			table.WriteString("\n")
+			for _, m := range tl.repeats {
+				t.Errorf("%s, %s: a sentence repeats in %q", d.name, f, m)
+			}
+			// Stated detection rates (measured, DEVELOPERS.md "How the
+			// checks decide"), with the binomial margin.
+			switch {
+			case f == simSlip:
+				if r := tl.rate(tl.flag["influence"]); r < 0.95-simMargin(0.95, lines) {
+					t.Errorf("%s: slipped decimal point flagged in %.1f %%, stated ≥ 95 %%", d.name, 100*r)
+				}
+			case f == simCurve && d.repeats == 3 && len(d.levels) >= 12:
+				if r := tl.rate(tl.flag["linearity"]); r < 0.90-simMargin(0.90, lines) {
+					t.Errorf("%s: curvature flagged in %.1f %%, stated ≥ 90 %%", d.name, 100*r)
+				}
+			case f == simCurve && d.repeats >= 2:
+				if r := tl.rate(tl.flag["linearity"]); r < 0.25-simMargin(0.25, lines) {
+					t.Errorf("%s: curvature flagged in %.1f %%, stated ≥ 25 %%", d.name, 100*r)
+				}
+			}
 			if f == simGood {
 				if r := tl.rate(tl.anyFail); r > 0.05+simMargin(0.05, lines) {
 					t.Errorf("%s, good data: any Fail in %.1f %% of lines, target ≤ 5 %%", d.name, 100*r)
