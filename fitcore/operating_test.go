@@ -113,6 +113,7 @@ type simTally struct {
 	remedyOffered    int
 	spreadFlagged    int
 	repeats          []string // messages in which a sentence appears twice
+	slipNamed        int      // reports that name a slipped decimal point
 }
 
 func (t *simTally) add(rep *Report) {
@@ -147,6 +148,9 @@ func (t *simTally) add(rep *Report) {
 		if simRepeatsSentence(m) {
 			t.repeats = append(t.repeats, m)
 		}
+	}
+	if rep.Slip != nil {
+		t.slipNamed++
 	}
 	if a.Spread.Verdict == Fail || a.Spread.Verdict == Warn {
 		t.spreadFlagged++
@@ -208,7 +212,8 @@ func TestOperatingCharacteristic(t *testing.T) {
 		lines = 2000
 	}
 	faults := []string{simGood, simSlip, simCurve, simSpread, simDrift}
-	var table strings.Builder
+	var table, slips strings.Builder
+	slips.WriteString("| design | slip named |\n|---|---|\n")
 	table.WriteString("| design | fault | n lines | any Fail | any flag | linearity F/flag | spread F/flag | independence F/flag | normality F/flag | influence F/flag |\n|---|---|---|---|---|---|---|---|---|---|\n")
 	for di, d := range simDesigns() {
 		for fi, f := range faults {
@@ -225,6 +230,10 @@ func TestOperatingCharacteristic(t *testing.T) {
 			// checks decide"), with the binomial margin.
 			switch {
 			case f == simSlip:
+				fmt.Fprintf(&slips, "| %s | %.0f %% |\n", d.name, 100*tl.rate(tl.slipNamed))
+				if r := tl.rate(tl.slipNamed); r < 0.80-simMargin(0.80, lines) {
+					t.Errorf("%s: slipped decimal point named in %.1f %%, stated ≥ 80 %%", d.name, 100*r)
+				}
 				if r := tl.rate(tl.flag["influence"]); r < 0.95-simMargin(0.95, lines) {
 					t.Errorf("%s: slipped decimal point flagged in %.1f %%, stated ≥ 95 %%", d.name, 100*r)
 				}
@@ -248,6 +257,6 @@ func TestOperatingCharacteristic(t *testing.T) {
 		}
 	}
 	if big || testing.Verbose() {
-		t.Log("\n" + table.String())
+		t.Log("\n" + table.String() + "\n" + slips.String())
 	}
 }
