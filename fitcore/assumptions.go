@@ -164,8 +164,8 @@ func ckInfluenceNA() Assumption {
 func ckWordInfluence(serious, mild []int) Assumption {
 	switch {
 	case len(serious) > 0:
-		msg := fmt.Sprintf("%s %s out of line with the rest or %s the line strongly.",
-			ckReadingList(serious), ckPlural(len(serious), "is", "are"), ckPlural(len(serious), "pulls", "pull"))
+		msg := fmt.Sprintf("%s %s out of line with the rest.",
+			ckReadingList(serious), ckPlural(len(serious), "is", "are"))
 		if len(mild) > 0 {
 			msg += fmt.Sprintf(" %s also %s out.", ckReadingList(mild), ckPlural(len(mild), "stands", "stand"))
 		}
