@@ -384,6 +384,11 @@ func (fc *fitContext) runChecks() {
 				ckG4(s.Likely) + "); otherwise repeat the reading. Exclude a reading only with a recorded reason."
 		}
 	}
+	if !noScatter {
+		if g, pc, ok := curvatureGap(fc.xt, fc.yt, fc.w, origin); ok {
+			rep.Departures = &Departures{CurvatureGap: g, CurvatureGapPercent: pc}
+		}
+	}
 	if xa != nil && rep.Assumptions.XExactness == nil {
 		rep.Assumptions.XExactness = xa
 	}

@@ -333,6 +333,9 @@ type Report struct {
 	// Slip is a reading that looks typed with a slipped decimal point
 	// (see SlippedDecimal); nil when there is none.
 	Slip *SlippedDecimal `json:"slipped_decimal,omitempty"`
+	// Departures are the sizes of departures from the line in y units (see
+	// Departures); nil when they could not be computed.
+	Departures *Departures `json:"departures,omitempty"`
 	// scrubbed counts the non-finite values scrubReport set to 0.
 	scrubbed int
 
