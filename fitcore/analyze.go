@@ -515,6 +515,13 @@ func complete(rep *Report, x, y []float64, opt Options, level float64, sc *anScr
 		}
 	}
 	rep.Advice = adviseWith(x, y, opt, rep, sc)
+	// The spread's "What to do" and the advice say the same.
+	if sp := &rep.Assumptions.Spread; adBad(sp.Verdict) {
+		sp.Advice = spreadWhatToDo
+		if rep.Advice != nil && rep.Advice.Remedy == RemedyNone {
+			sp.Advice = spreadNoRemedy
+		}
+	}
 	n := 0
 	if rep.BoxCox != nil {
 		n += scrubValue(reflect.ValueOf(rep.BoxCox).Elem())

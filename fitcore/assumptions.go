@@ -47,7 +47,7 @@ func summarize(c Checks, influence Assumption) Assumptions {
 		"The scatter about the line is about the same across the whole range.",
 		"The scatter about the line may change across the range.",
 		"The scatter about the line changes across the range (bigger at one end or in the middle).",
-		"Use a weighted fit or the transform in the advice, and do not quote one ± figure for the whole range.",
+		spreadWhatToDo,
 		"Evenness of scatter could not be checked")
 	a.Independence = ckCombine([]Check{c.DurbinWatson, c.Runs},
 		"In the order entered, the readings look independent of each other.",
@@ -115,6 +115,14 @@ func ckCombine(cs []Check, pass, warn, fail, advice, naLead string) Assumption {
 	}
 	return Assumption{Verdict: NA, Message: msg}
 }
+
+// The spread assumption's "What to do", one text for the checks and the
+// advice: spreadWhatToDo while the advice has not been worked out or offers
+// a remedy, spreadNoRemedy when it tried every remedy and none helped.
+const (
+	spreadWhatToDo = "Use a weighted fit or the transform in the advice, and do not quote one ± figure for the whole range."
+	spreadNoRemedy = "None of the weightings or changes of scale the advice tried evens out the scatter: do not quote one ± figure for the whole range, look at the readings at the ends, and follow the instrument maker's procedure."
+)
 
 // ckJoin puts the assumption's lead sentence before the check's message,
 // unless the message already starts with the lead's words (then it says

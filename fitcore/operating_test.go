@@ -112,7 +112,7 @@ type simTally struct {
 	fail, flag       map[string]int
 	remedyOffered    int
 	spreadFlagged    int
-	repeats          []string // messages in which a sentence appears twice
+	repeats          []string // messages in which a sentence appears twice, or texts that disagree
 	slipNamed        int      // reports that name a slipped decimal point
 }
 
@@ -156,6 +156,10 @@ func (t *simTally) add(rep *Report) {
 		t.spreadFlagged++
 		if rep.Advice != nil && rep.Advice.Remedy != RemedyNone {
 			t.remedyOffered++
+		}
+		// The spread's "What to do" agrees with the advice.
+		if rep.Advice != nil && (rep.Advice.Remedy == RemedyNone) != (a.Spread.Advice == spreadNoRemedy) {
+			t.repeats = append(t.repeats, "spread advice disagrees with the advice: "+a.Spread.Advice+" / "+string(rep.Advice.Remedy))
 		}
 	}
 }
@@ -290,6 +294,9 @@ func TestAdviceProportionalScatter(t *testing.T) {
 	rate := float64(tl.remedyOffered) / float64(max(tl.spreadFlagged, 1))
 	t.Logf("spread flagged in %d of %d records; a remedy offered in %d of them (%.0f %%); influence fails in %d",
 		tl.spreadFlagged, lines, tl.remedyOffered, 100*rate, tl.fail["influence"])
+	for _, m := range tl.repeats {
+		t.Error(m)
+	}
 	if tl.spreadFlagged < lines/4 {
 		t.Errorf("spread flagged in only %d of %d records", tl.spreadFlagged, lines)
 	}
