@@ -34,7 +34,7 @@ import (
 //
 //	score = 3·(v(spread) + v(linearity))            v: pass 2, warn 1, fail 0, n/a 1
 //	      + 0.5·(q(p_BP) + q(p_curvature))          q(p) = min(p, 0.5)/0.5
-//	      − 2·(steps by which independence, normality or influence got worse)
+//	      − 2·(steps by which independence or normality got worse)
 //	      − preference cost
 //
 // so a better verdict always outweighs the p-values, each step by which a
@@ -240,8 +240,10 @@ func adScore(s, before CheckSummary, cost float64) float64 {
 	for _, pair := range [][2]Verdict{
 		{a.Independence.Verdict, b.Independence.Verdict},
 		{a.Normality.Verdict, b.Normality.Verdict},
-		{a.Influence.Verdict, b.Influence.Verdict},
 	} {
+		// Influence is not part of the judgement: weights and changes of
+		// scale move the leverage of the ends by design, and an outlier is
+		// looked at (and named) before any remedy.
 		if d := adRank(pair[0]) - adRank(pair[1]); d > 0 {
 			score -= 2 * float64(d)
 		}

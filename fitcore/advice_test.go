@@ -271,7 +271,9 @@ func TestAdviceScore(t *testing.T) {
 		{"cured", sum(Pass, Pass, Pass, 0.7, 0.9), 0, 12 + 0.5*2},
 		{"cured with cost", sum(Pass, Pass, Pass, 0.7, 0.9), 0.75, 12 + 1 - 0.75},
 		{"warn only", sum(Warn, Pass, Pass, 0.03, 0.5), 0, 9 + 0.5*(0.06+1)},
-		{"new failures", sum(Pass, Pass, Fail, 0.7, 0.9), 0, 13 - 3*2*2},
+		// Independence and normality each two steps worse; influence is
+		// not judged (a remedy moves leverage by design).
+		{"new failures", sum(Pass, Pass, Fail, 0.7, 0.9), 0, 13 - 2*2*2},
 		{"n/a counts as middle", sum(NA, NA, NA, 0, 0), 0, 6},
 	}
 	for _, tt := range tests {

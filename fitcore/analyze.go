@@ -371,6 +371,24 @@ func (fc *fitContext) runChecks() {
 		xa = &a
 	}
 	rep.Assumptions = summarize(rep.Checks, inflSummary)
+	// Outliers are looked at first: a reading that looks like a slipped
+	// decimal point is named, and the checks whose result depends on it say so.
+	plain := (fc.opt.Model == "" || fc.opt.Model == ModelOLS || fc.opt.Model == ModelOrigin) &&
+		(fc.opt.Transform == "" || fc.opt.Transform == TransformNone) && fc.w == nil
+	if plain && !fc.opt.noSlip && !noScatter && rep.Assumptions.Influence.Verdict != Pass {
+		if s := findSlip(fc.x, fc.y, nil, origin, rep.Influence); s != nil {
+			slipClears(rep, fc.x, fc.y, fc.opt, s)
+			rep.Slip = s
+			rep.Assumptions.Influence.Message = slipSentence(s) + " " + rep.Assumptions.Influence.Message
+			rep.Assumptions.Influence.Advice = "Check that reading against the record: if the decimal point slipped, correct it (about " +
+				ckG4(s.Likely) + "); otherwise repeat the reading. Exclude a reading only with a recorded reason."
+		}
+	}
+	if !noScatter {
+		if g, pc, ok := curvatureGap(fc.xt, fc.yt, fc.w, origin); ok {
+			rep.Departures = &Departures{CurvatureGap: g, CurvatureGapPercent: pc}
+		}
+	}
 	if xa != nil && rep.Assumptions.XExactness == nil {
 		rep.Assumptions.XExactness = xa
 	}
@@ -497,6 +515,13 @@ func complete(rep *Report, x, y []float64, opt Options, level float64, sc *anScr
 		}
 	}
 	rep.Advice = adviseWith(x, y, opt, rep, sc)
+	// The spread's "What to do" and the advice say the same.
+	if sp := &rep.Assumptions.Spread; adBad(sp.Verdict) {
+		sp.Advice = spreadWhatToDo
+		if rep.Advice != nil && rep.Advice.Remedy == RemedyNone {
+			sp.Advice = spreadNoRemedy
+		}
+	}
 	n := 0
 	if rep.BoxCox != nil {
 		n += scrubValue(reflect.ValueOf(rep.BoxCox).Elem())

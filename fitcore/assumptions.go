@@ -23,9 +23,9 @@ import (
 // have no scatter; see checkmin.go for the minimum number of readings of
 // each check).
 // For influence: fail when some reading is an outlier by the Bonferroni test
-// or has Cook's distance above the F(p, n−p) median, warn when readings are
-// flagged only by the milder thresholds (see Influence), pass otherwise
-// (common practice).
+// at 1 % (see Influence), warn when a reading is out of line at 5 %, moves
+// the line beyond its 90 % confidence region, or alone fixes the line
+// (leverage 1); pass otherwise. Leverage alone is shown, never a flag.
 func Summarize(c Checks, infl []PointInfluence) Assumptions {
 	return summarize(c, ckSummarizeInfluence(infl))
 }
@@ -47,7 +47,7 @@ func summarize(c Checks, influence Assumption) Assumptions {
 		"The scatter about the line is about the same across the whole range.",
 		"The scatter about the line may change across the range.",
 		"The scatter about the line changes across the range (bigger at one end or in the middle).",
-		"Use a weighted fit or the transform in the advice, and do not quote one ± figure for the whole range.",
+		spreadWhatToDo,
 		"Evenness of scatter could not be checked")
 	a.Independence = ckCombine([]Check{c.DurbinWatson, c.Runs},
 		"In the order entered, the readings look independent of each other.",
@@ -102,9 +102,9 @@ func ckCombine(cs []Check, pass, warn, fail, advice, naLead string) Assumption {
 	case Pass:
 		return Assumption{Verdict: Pass, Message: pass}
 	case Warn:
-		return Assumption{Verdict: Warn, Message: warn + " " + worstMsg, Advice: advice}
+		return Assumption{Verdict: Warn, Message: ckJoin(warn, worstMsg), Advice: advice}
 	case Fail:
-		return Assumption{Verdict: Fail, Message: fail + " " + worstMsg, Advice: advice}
+		return Assumption{Verdict: Fail, Message: ckJoin(fail, worstMsg), Advice: advice}
 	}
 	msg := naLead + "."
 	if len(why) > 0 {
@@ -114,6 +114,27 @@ func ckCombine(cs []Check, pass, warn, fail, advice, naLead string) Assumption {
 		}
 	}
 	return Assumption{Verdict: NA, Message: msg}
+}
+
+// The spread assumption's "What to do", one text for the checks and the
+// advice: spreadWhatToDo while the advice has not been worked out or offers
+// a remedy, spreadNoRemedy when it tried every remedy and none helped.
+const (
+	spreadWhatToDo = "Use a weighted fit or the transform in the advice, and do not quote one ± figure for the whole range."
+	spreadNoRemedy = "None of the weightings or changes of scale the advice tried evens out the scatter: do not quote one ± figure for the whole range, look at the readings at the ends, and follow the instrument maker's procedure."
+)
+
+// ckJoin puts the assumption's lead sentence before the check's message,
+// unless the message already starts with the lead's words (then it says
+// the same with its figures, and the lead would repeat it).
+func ckJoin(lead, msg string) string {
+	if msg == "" {
+		return lead
+	}
+	if strings.HasPrefix(msg, strings.TrimSuffix(lead, ".")) {
+		return msg
+	}
+	return lead + " " + msg
 }
 
 // ckSummarizeInfluence words the flagged readings.
@@ -128,7 +149,7 @@ func ckSummarizeInfluence(infl []PointInfluence) Assumption {
 		}
 		isSerious := false
 		for _, r := range p.Reasons {
-			if strings.HasPrefix(r, ckReasonOutlier) || strings.HasPrefix(r, ckReasonVeryInfluence) || strings.HasPrefix(r, ckReasonLeverageOne) {
+			if strings.HasPrefix(r, ckReasonOutlier) {
 				isSerious = true
 			}
 		}
@@ -151,8 +172,8 @@ func ckInfluenceNA() Assumption {
 func ckWordInfluence(serious, mild []int) Assumption {
 	switch {
 	case len(serious) > 0:
-		msg := fmt.Sprintf("%s %s out of line with the rest or %s the line strongly.",
-			ckReadingList(serious), ckPlural(len(serious), "is", "are"), ckPlural(len(serious), "pulls", "pull"))
+		msg := fmt.Sprintf("%s %s out of line with the rest.",
+			ckReadingList(serious), ckPlural(len(serious), "is", "are"))
 		if len(mild) > 0 {
 			msg += fmt.Sprintf(" %s also %s out.", ckReadingList(mild), ckPlural(len(mild), "stands", "stand"))
 		}

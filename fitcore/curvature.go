@@ -26,8 +26,9 @@ import (
 // coefficient t-value a QR-based least-squares program reports for the
 // same model.
 //
-// Verdict (common practice): with α = 1 − level (a level outside MinLevel…MaxLevel, 0 included, means 0.95), a p
-// below α/5 fails (1 % at the default level) and a p below α warns (5 %).
+// Verdict: with α = 1 − level (a level outside MinLevel…MaxLevel, 0 included, means 0.95), a p
+// below α/50 fails (0.1 % at the default level) and a p below α/5 warns (1 %), the
+// thresholds of every check (CheckWarnP, CheckFailP) at the default level.
 // The check is NA with a reason when there are fewer than 4 readings, fewer
 // than 3 distinct x values, non-finite inputs, non-positive weights, or when
 // the readings lie exactly (to rounding) on a straight line.
@@ -88,7 +89,7 @@ func curvatureTest(x, y, w []float64, level float64, pre *ckPre) Check {
 	}
 	t := f.pg / s
 	p := ckT2(t, df)
-	c := Check{Name: name, Statistic: t, DF: df, P: p, Verdict: ckVerdict(p, alpha, alpha/5)}
+	c := Check{Name: name, Statistic: t, DF: df, P: p, Verdict: ckVerdict(p, alpha/5, alpha/50)}
 	switch c.Verdict {
 	case Fail:
 		c.Message = fmt.Sprintf("The readings bend away from a straight line (quadratic term t = %.2f, %s).", t, ckFmtP(p))

@@ -43,7 +43,7 @@ func ExampleAdvice() {
 		fmt.Println("spread after:", a.After.Assumptions.Spread.Verdict)
 	}
 	// Output:
-	// spread before: fail
+	// spread before: warn
 	// remedy: log_log
 	// spread after: pass
 }

@@ -273,9 +273,32 @@ func TestGolden(t *testing.T) {
 					t.Fatalf("Analyze: %v [%s]", err, src)
 				}
 				compareFit(c, rep, gf, len(g.X))
+				a := rep.Assumptions
+				for _, m := range []string{a.Linearity.Message, a.Spread.Message, a.Independence.Message, a.Normality.Message, a.Influence.Message} {
+					if s := repeatedSentence(m); s != "" {
+						t.Errorf("the sentence %q appears twice in %q", s, m)
+					}
+				}
 			})
 		}
 	}
+}
+
+// repeatedSentence returns a sentence (its words before any figures in
+// brackets) that appears twice in msg, or "".
+func repeatedSentence(msg string) string {
+	seen := map[string]bool{}
+	for _, sent := range strings.SplitAfter(msg, ". ") {
+		k := strings.TrimSpace(strings.TrimSuffix(strings.TrimSpace(sent), "."))
+		if i := strings.Index(k, " ("); i > 0 {
+			k = k[:i]
+		}
+		if k != "" && seen[k] {
+			return k
+		}
+		seen[k] = true
+	}
+	return ""
 }
 
 func compareFit(c cmp, rep *fitcore.Report, gf goldenFit, n int) {

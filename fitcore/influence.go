@@ -13,7 +13,7 @@ import (
 // serious findings (outlier, very influential) from the milder ones.
 const (
 	ckReasonOutlier       = "outlier"
-	ckReasonLargeResid    = "large residual"
+	ckReasonLargeResid    = "out of line"
 	ckReasonVeryInfluence = "very influential"
 	ckReasonInfluence     = "influential"
 	ckReasonDFFITS        = "moves its own fitted value"
@@ -21,6 +21,22 @@ const (
 	ckReasonLeverage      = "high leverage"
 	ckReasonLeverageOne   = "leverage 1"
 )
+
+// OutlierFailP and OutlierWarnP are the Bonferroni-corrected p values
+// (n · two-sided p of the externally studentized residual with n − p − 1
+// df; Cook & Weisberg 1982, §2.2) below which a reading fails or warns the
+// influence check. With the correction the chance that good data give any
+// such flag is at most OutlierFailP and OutlierWarnP per record.
+const (
+	OutlierFailP = 0.01
+	OutlierWarnP = 0.05
+)
+
+// InfluenceCookQuantile is the F(p, n−p) quantile Cook's distance must pass
+// for a reading to count as moving the line by more than its uncertainty:
+// the estimate without it lies outside the line's 90 % joint confidence
+// region (Cook 1977).
+const InfluenceCookQuantile = 0.9
 
 // ckStudentCap bounds |t| when the other readings fit their line exactly, so
 // that the externally studentized residual stays finite.
@@ -44,15 +60,23 @@ const ckStudentCap = 1e10
 // §2.2 (outlier test with Bonferroni bound). These equal statsmodels'
 // OLSInfluence and outlier_test(method='bonf') for the fit of √w·y on √w·X.
 //
-// A reading is Flagged, with one Reason per finding, on these common-practice
-// thresholds: leverage h > 2p/n ("high"), > 3p/n ("very high"); Bonferroni
-// p < 0.05 ("outlier"), else |t| > 3 ("large residual"); Cook's D above the
-// median of F(p, n−p) ("very influential"), else D > 4/n ("influential");
-// |DFFITS| > 2√(p/n). A reading with leverage 1 is flagged because it alone
-// fixes the line; its t, D and DFFITS are reported as 0. |t| is capped at
-// 1e10 when the other readings lie exactly on a line. With n − p − 1 < 1 the
-// studentized residual, outlier p and DFFITS are 0 and 1 (not computable)
-// and Cook's distance is reported but not flagged.
+// A reading is Flagged, with one Reason per finding, on these rules (tuned
+// by simulation, TestOperatingCharacteristic; DEVELOPERS.md "How the checks
+// decide"):
+//
+//	outlier            Bonferroni p < OutlierFailP (1 %): the influence check fails
+//	large residual     Bonferroni p < OutlierWarnP (5 %): it warns
+//	very influential   Cook's D above the F(p, n−p) 90 % point: deleting the
+//	                   reading moves the line beyond its 90 % joint confidence
+//	                   region (Cook 1977, §3): it warns
+//	leverage 1         it alone fixes the line; its t, D and DFFITS are 0: it warns
+//
+// Leverage, Cook's distance below that point and DFFITS are shown as
+// numbers, never a flag: a top standard far from the others has a high
+// leverage by design. |t| is capped at 1e10 when the other readings lie
+// exactly on a line. With n − p − 1 < 1 the studentized residual, outlier
+// p and DFFITS are 0 and 1 (not computable) and Cook's distance is reported
+// but not flagged.
 //
 // Influence returns nil when the inputs are invalid (lengths differ,
 // non-finite values, non-positive weights, x without spread) or n ≤ p.
@@ -81,7 +105,7 @@ func ckInfluenceFromMasks(masks []uint8) Assumption {
 	if masks == nil {
 		return ckInfluenceNA()
 	}
-	const seriousBits = 1<<ckBitOutlier | 1<<ckBitVeryInfluence | 1<<ckBitLeverageOne
+	const seriousBits = 1 << ckBitOutlier
 	var serious, mild []int
 	for i, m := range masks {
 		switch {
@@ -253,14 +277,14 @@ type ckInfluenceCuts struct {
 func newInfluenceCuts(pf, nf, dfRes float64, studentOK bool) ckInfluenceCuts {
 	c := ckInfluenceCuts{
 		levHigh: 2 * pf / nf, levVery: 3 * pf / nf,
-		fMedian:   distuv.F{D1: pf, D2: dfRes}.Quantile(0.5),
+		fMedian:   distuv.F{D1: pf, D2: dfRes}.Quantile(InfluenceCookQuantile),
 		cookLow:   4 / nf,
 		dffitsCut: 2 * math.Sqrt(pf/nf),
 		studentOK: studentOK,
 	}
 	c.levHighTxt = " > 2p/n = " + ckG3(c.levHigh) + " (its x is far from the others)"
 	c.levVeryTxt = " > 3p/n = " + ckG3(c.levVery) + " (its x is far from the others)"
-	c.fMedianTxt = " > " + ckG3(c.fMedian) + ", the median of F(p, n−p)"
+	c.fMedianTxt = " > " + ckG3(c.fMedian) + ", the 90 % point of F(p, n−p): without it the line moves beyond its 90 % confidence region"
 	c.cookLowTxt = " > 4/n = " + ckG3(c.cookLow)
 	c.dffitsTxt = " beyond ±2√(p/n) = ±" + ckG3(c.dffitsCut)
 	return c
@@ -273,32 +297,16 @@ func ckG3(v float64) string { return strconv.FormatFloat(v, 'g', 3, 64) }
 // leverage 1, which Influence sets itself).
 func (c *ckInfluenceCuts) mask(pi *PointInfluence) uint8 {
 	var m uint8
-	if pi.Leverage < 1-1e-12 {
-		switch {
-		case pi.Leverage > c.levVery:
-			m |= 1 << ckBitVeryLeverage
-		case pi.Leverage > c.levHigh:
-			m |= 1 << ckBitLeverage
-		}
-	}
 	if c.studentOK {
 		switch {
-		case pi.OutlierP < 0.05:
+		case pi.OutlierP < OutlierFailP:
 			m |= 1 << ckBitOutlier
-		case math.Abs(pi.Studentized) > 3:
+		case pi.OutlierP < OutlierWarnP:
 			m |= 1 << ckBitLargeResid
 		}
 	}
-	switch {
-	case !c.studentOK:
-		// With n − p − 1 < 1 there is no scatter left to judge influence by.
-	case ckFinite(c.fMedian) && pi.CooksD > c.fMedian:
+	if c.studentOK && ckFinite(c.fMedian) && pi.CooksD > c.fMedian {
 		m |= 1 << ckBitVeryInfluence
-	case pi.CooksD > c.cookLow:
-		m |= 1 << ckBitInfluence
-	}
-	if c.studentOK && math.Abs(pi.DFFITS) > c.dffitsCut {
-		m |= 1 << ckBitDFFITS
 	}
 	return m
 }
@@ -348,11 +356,13 @@ func (rw *ckReasonWriter) write(pi *PointInfluence, m uint8, c *ckInfluenceCuts)
 			rw.g3(pi.Studentized)
 			sb.WriteString(", Bonferroni p = ")
 			rw.g3(pi.OutlierP)
-			sb.WriteString(" < 0.05")
+			sb.WriteString(" < 0.01")
 		case ckBitLargeResid:
 			sb.WriteString(ckReasonLargeResid + ": studentized residual ")
 			rw.g3(pi.Studentized)
-			sb.WriteString(" beyond ±3")
+			sb.WriteString(", Bonferroni p = ")
+			rw.g3(pi.OutlierP)
+			sb.WriteString(" < 0.05")
 		case ckBitVeryInfluence:
 			sb.WriteString(ckReasonVeryInfluence + ": Cook's distance ")
 			rw.g3(pi.CooksD)

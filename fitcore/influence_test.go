@@ -91,7 +91,7 @@ func TestInfluenceEdges(t *testing.T) {
 		{"all zero residuals", []float64{1, 2, 3, 4, 5}, []float64{0, 0, 0, 0, 0}, nil, false, false, -1},
 		{"leverage one", []float64{1, 1, 1, 1, 9}, []float64{0.1, -0.1, 0.2, -0.2, 0}, nil, false, false, 4},
 		{"three points", []float64{1, 2, 3}, []float64{0.1, -0.2, 0.1}, nil, false, false, -1},
-		{"origin, far x", []float64{1, 2, 3, 4}, []float64{0.1, -0.1, 0.05, 0}, nil, true, false, 3}, // h = 16/30 > 2/4
+		{"origin, far x", []float64{1, 2, 3, 4}, []float64{0.1, -0.1, 0.05, 0}, nil, true, false, -1}, // h = 16/30 > 2/4: leverage alone is shown, not flagged
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -124,5 +124,5 @@ func ExampleInfluence() {
 			fmt.Printf("reading %d: %s\n", p.Index+1, p.Reasons[0])
 		}
 	}
-	// Output: reading 6: outlier: studentized residual 25.9, Bonferroni p = 1.29e-05 < 0.05
+	// Output: reading 6: outlier: studentized residual 25.9, Bonferroni p = 1.29e-05 < 0.01
 }

@@ -116,6 +116,10 @@ type Options struct {
 	// (the two parts that refit the readings several times); Complete adds
 	// them to such a report later.
 	SkipAdvice bool
+
+	// noSlip: the refit without a slipped decimal point (slipClears) does
+	// not look for another.
+	noSlip bool
 }
 
 // Coefficient is one estimated parameter with its inference.
@@ -326,6 +330,12 @@ type Report struct {
 	Limits      *Limits           `json:"limits"`
 	Acceptance  *AcceptanceResult `json:"acceptance"`
 	Notes       []string          `json:"notes,omitempty"`
+	// Slip is a reading that looks typed with a slipped decimal point
+	// (see SlippedDecimal); nil when there is none.
+	Slip *SlippedDecimal `json:"slipped_decimal,omitempty"`
+	// Departures are the sizes of departures from the line in y units (see
+	// Departures); nil when they could not be computed.
+	Departures *Departures `json:"departures,omitempty"`
 	// scrubbed counts the non-finite values scrubReport set to 0.
 	scrubbed int
 

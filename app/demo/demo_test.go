@@ -97,6 +97,11 @@ func TestDemoVerdicts(t *testing.T) {
 	if c.Assumptions.Influence.Verdict == fitcore.Pass {
 		t.Error("C: influence passes with a decimal slip in the data")
 	}
+	if c.Slip == nil || rows[c.Slip.Index] != MistypedRow {
+		t.Errorf("C: the mistyped reading is not named as a slipped decimal point: %+v; %q", c.Slip, c.Assumptions.Influence.Message)
+	} else {
+		t.Logf("C: %s", c.Assumptions.Influence.Message)
+	}
 
 	// D: independence warns or fails.
 	d, _ := analyze(t, ss[3])
