@@ -236,7 +236,7 @@ const (
 // least-squares line at the 95 % level, slope tested against 1 and intercept
 // against 0 (fitcore's defaults, written out).
 func DefaultSettings() Settings {
-	return Settings{Model: fitcore.ModelOLS, Transform: fitcore.TransformNone, Level: 0.95}
+	return Settings{Model: fitcore.ModelOLS, Transform: fitcore.TransformNone, Level: fitcore.DefaultLevel}
 }
 
 // NewID returns a new session ID: 128 bits from random (crypto/rand.Reader

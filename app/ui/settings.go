@@ -327,7 +327,7 @@ func (c *Shell) renderSettings() app.UI {
 	}
 	level := st.Level
 	if level == 0 {
-		level = 0.95
+		level = fitcore.DefaultLevel
 	}
 	custom := true
 	for _, l := range anLevels {
