@@ -186,3 +186,15 @@ type CheckPresent struct {
 	CheckInfo
 	Check *Check
 }
+
+// TestsOf gives the tests of r behind assumption a, in display order, the
+// absent ones left out.
+func (r *Report) TestsOf(a AssumptionID) []CheckPresent {
+	var out []CheckPresent
+	for _, c := range r.Present() {
+		if c.Assumption == a {
+			out = append(out, c)
+		}
+	}
+	return out
+}

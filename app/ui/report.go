@@ -261,7 +261,6 @@ func rpLine(b *rpB, s *session.Session, rep *fitcore.Report) {
 }
 
 func rpChecks(b *rpB, rep *fitcore.Report, rows []int) {
-	a := rep.Assumptions
 	b.w(`<section class="pl-report-sec"><h2>`, wording.ChecksTitle, `</h2><table class="pl-rt pl-rt-checks"><thead><tr><th>Assumption</th><th>Verdict</th><th>What it means</th></tr></thead><tbody>`)
 	row := func(name string, x fitcore.Assumption) {
 		msg := x.Message
@@ -270,26 +269,16 @@ func rpChecks(b *rpB, rep *fitcore.Report, rows []int) {
 		}
 		b.w(`<tr><th scope="row">`, rpEsc(name), `</th><td>`, rpVerdict(x.Verdict), `</td><td>`, rpEsc(msg), `</td></tr>`)
 	}
-	row(wording.CheckLinearity, a.Linearity)
-	row(wording.CheckSpread, a.Spread)
-	row(wording.CheckIndependence, a.Independence)
-	row(wording.CheckNormality, a.Normality)
-	row(wording.CheckInfluence, a.Influence)
-	if a.XExactness != nil {
-		row(wording.CheckXExactness, *a.XExactness)
+	for _, as := range fitcore.AssumptionList() {
+		if x := as.Get(rep); x != nil {
+			row(wording.CheckName(as.ID), *x)
+		}
 	}
 	b.w(`</tbody></table>`)
 	b.w(`<h3>`, wording.Tests, `</h3><table class="pl-rt pl-rt-tests"><thead><tr><th>Test</th><th>Statistic</th><th>p</th><th>Verdict</th></tr></thead><tbody>`)
-	cs := []fitcore.Check{rep.Checks.Curvature}
-	if rep.Checks.LackOfFit != nil {
-		cs = append(cs, *rep.Checks.LackOfFit)
-	}
-	cs = append(cs, rep.Checks.BreuschPagan, rep.Checks.White, rep.Checks.DurbinWatson, rep.Checks.Runs, rep.Checks.ShapiroWilk)
-	if rep.Checks.XExactness != nil {
-		cs = append(cs, *rep.Checks.XExactness)
-	}
-	for _, c := range cs {
-		b.w(`<tr><th scope="row">`, rpEsc(c.Name), `</th><td>`, rpEsc(wording.StatSymbol(c.Name)), ` = `, rpNum(c.Statistic, numfmt.Sig(c.Statistic, 4)), `</td><td>`,
+	for _, t := range rep.Present() {
+		c := t.Check
+		b.w(`<tr><th scope="row">`, rpEsc(c.Name), `</th><td>`, rpEsc(t.Symbol), ` = `, rpNum(c.Statistic, numfmt.Sig(c.Statistic, 4)), `</td><td>`,
 			rpNum(c.P, wording.P(c.P)), `</td><td>`, rpVerdict(c.Verdict), `</td></tr>`)
 	}
 	b.w(`</tbody></table>`)

@@ -132,27 +132,24 @@ func Verdict(v fitcore.Verdict) (icon, word string) {
 	return "○", "Not checked"
 }
 
-// StatSymbol is the symbol of a test's statistic, by the test's name in
-// fitcore.Check.Name.
-func StatSymbol(name string) string {
-	switch name {
-	case "Curvature":
-		return "t"
-	case "Lack of fit":
-		return "F"
-	case "Durbin–Watson":
-		return "d"
-	case "Runs":
-		return "z"
-	case "Shapiro–Wilk":
-		return "W"
-	case "x exactness":
-		return "z"
+// CheckName names an assumption the checks judge (one name per
+// fitcore.AssumptionID; the id itself for an unknown one).
+func CheckName(id fitcore.AssumptionID) string {
+	switch id {
+	case fitcore.AssumeLinearity:
+		return CheckLinearity
+	case fitcore.AssumeSpread:
+		return CheckSpread
+	case fitcore.AssumeIndependence:
+		return CheckIndependence
+	case fitcore.AssumeNormality:
+		return CheckNormality
+	case fitcore.AssumeInfluence:
+		return CheckInfluence
+	case fitcore.AssumeXExactness:
+		return CheckXExactness
 	}
-	if strings.HasPrefix(name, "Breusch") || strings.HasPrefix(name, "White") {
-		return "χ²"
-	}
-	return "statistic"
+	return string(id)
 }
 
 // Remedy says what the advice recommends, as a short instruction.
