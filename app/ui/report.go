@@ -421,13 +421,13 @@ func rpKind(f string) string {
 	switch f {
 	case "x", "y", "note":
 		return "readings typed or changed"
-	case "row":
+	case session.EditRowAdded:
 		return "readings added"
-	case "import", "paste":
+	case session.EditImport, session.EditPaste:
 		return "readings imported or pasted"
-	case "excluded", "exclude_reason":
+	case session.EditExcluded, session.EditExcludeReason:
 		return "readings left out or put back (with reasons)"
-	case "settings":
+	case session.EditSettings:
 		return "fit settings changed"
 	case "undo":
 		return "changes undone"
