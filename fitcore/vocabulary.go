@@ -30,10 +30,10 @@ func (Remedy) Values() []Remedy {
 // Values lists the verdicts from best to "not checked".
 func (Verdict) Values() []Verdict { return []Verdict{Pass, Warn, Fail, NA} }
 
-// parseEnum finds s among values (exactly as written, after trimming white
-// space); empty is accepted only when one of the values is empty.
+// parseEnum finds s among values, exactly as written (Normalize uses it, so
+// a parser accepts what Analyze accepts and no more); empty is accepted only
+// when one of the values is empty.
 func parseEnum[T ~string](option, s string, values []T) (T, error) {
-	s = strings.TrimSpace(s)
 	var names []string
 	for _, v := range values {
 		if string(v) == s {
@@ -62,7 +62,7 @@ func ParseTransform(s string) (Transform, error) {
 // ParseWeightScheme reads a weight scheme; "" and "none" give WeightsNone.
 // The error is an *OptionError for option "weights".
 func ParseWeightScheme(s string) (WeightScheme, error) {
-	if strings.TrimSpace(s) == "none" {
+	if s == "none" {
 		return WeightsNone, nil
 	}
 	return parseEnum("weights", s, WeightScheme("").Values())
