@@ -37,15 +37,7 @@ func summary(name string, fr *fitResult) string {
 	}
 	w("; x = %s, y = %s\n", fr.xName, fr.yName)
 	w("  Fit: %s; confidence level %s\n\n", wording.Fit(r.Model, r.Transform), wording.Percent(level))
-	if r.Model == fitcore.ModelOrigin {
-		w("  y = %s·x\n\n", num(r.Slope.Estimate))
-	} else {
-		sign, ic := "+", r.Intercept.Estimate
-		if ic < 0 {
-			sign, ic = "−", -ic
-		}
-		w("  y = %s·x %s %s\n\n", num(r.Slope.Estimate), sign, num(ic))
-	}
+	w("  %s\n\n", wording.Equation(r, num))
 	b.WriteString(summaryRest(fr, level))
 	return b.String()
 }

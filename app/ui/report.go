@@ -229,8 +229,7 @@ func rpLine(b *rpB, s *session.Session, rep *fitcore.Report) {
 	sig := 6
 	b.w(`<section class="pl-report-sec"><h2>Line</h2>`)
 	b.w(`<p>Fit: `, rpEsc(rpModel(rep)), `; confidence level `, rpEsc(rpLevel(rep.Level)), `.</p>`)
-	b.w(`<p class="pl-report-eq">y = `, rpNum(rep.Intercept.Estimate, numfmt.Sig(rep.Intercept.Estimate, sig)), ` + `,
-		rpNum(rep.Slope.Estimate, numfmt.Sig(rep.Slope.Estimate, sig)), ` · x</p>`)
+	b.w(`<p class="pl-report-eq">`, wording.Equation(rep, func(v float64) string { return rpNum(v, numfmt.Sig(v, sig)) }), `</p>`)
 	// The columns in the order of the screen's "More numbers": the
 	// interval first, then the standard error and the test against the
 	// reference value (app/wording).

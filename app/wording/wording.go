@@ -224,3 +224,39 @@ const (
 	Met    = "✔ met"
 	NotMet = "✖ not met"
 )
+
+// FittedY names the quantity a fit's line gives, on the scale it was fitted
+// on: "y", "ln y", "√y", "1/y", "Box–Cox y (λ = 0.5)".
+func FittedY(t fitcore.Transform, lambda *float64) string {
+	switch t {
+	case fitcore.TransformLogY, fitcore.TransformLogLog:
+		return "ln y"
+	case fitcore.TransformSqrtY:
+		return "√y"
+	case fitcore.TransformReciprocal:
+		return "1/y"
+	case fitcore.TransformBoxCox:
+		if lambda != nil {
+			return "Box–Cox y (λ = " + numfmt.Sig(*lambda, 3) + ")"
+		}
+		return "Box–Cox y"
+	}
+	return "y"
+}
+
+// Equation writes the fitted line on the scale it was fitted on, its two
+// numbers written by num: "y = a + b · x", "ln y = a + b · ln x" for a
+// log–log fit, "y = b · x" through zero. The screen, the report and the
+// command all write the line with it.
+func Equation(rep *fitcore.Report, num func(float64) string) string {
+	x := "x"
+	if rep.Transform == fitcore.TransformLogLog {
+		x = "ln x"
+	}
+	lhs := FittedY(rep.Transform, rep.TransformLambda)
+	b := num(rep.Slope.Estimate) + " · " + x
+	if rep.Model == fitcore.ModelOrigin {
+		return lhs + " = " + b
+	}
+	return lhs + " = " + num(rep.Intercept.Estimate) + " + " + b
+}
