@@ -284,7 +284,7 @@ func adBad(v Verdict) bool { return v == Warn || v == Fail }
 
 func adLevel(l float64) float64 {
 	if l == 0 {
-		return 0.95
+		return DefaultLevel
 	}
 	return l
 }

@@ -61,7 +61,7 @@ type anScratch struct {
 // time it is asked about these readings and level.
 func (s *anScratch) boxCox(x, y []float64, level float64) (*BoxCox, error) {
 	if level == 0 {
-		level = 0.95
+		level = DefaultLevel
 	}
 	if s.bcX != nil && len(s.bcX) == len(x) && &s.bcX[0] == &x[0] && &s.bcY[0] == &y[0] && s.bcLevel == level {
 		return s.bc, s.bcErr

@@ -57,7 +57,7 @@ func BoxCoxProfile(x, y []float64, level float64) (*BoxCox, error) {
 		return nil, err
 	}
 	if level == 0 {
-		level = 0.95
+		level = DefaultLevel
 	}
 	if !(level >= MinLevel && level <= MaxLevel) {
 		// The χ² quantile below panics (gonum) for levels near 0 or 1.

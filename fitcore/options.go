@@ -89,20 +89,14 @@ func (o Options) Normalize() (Options, error) {
 	if !(o.Level >= MinLevel && o.Level <= MaxLevel) {
 		return o, optErr("level", formatValue(o.Level), "the confidence level must be from %g to %g (for example 0.95 for 95 %%)", MinLevel, MaxLevel)
 	}
-	switch o.Model {
-	case ModelOLS, ModelOrigin, ModelWeighted, ModelDeming:
-	default:
-		return o, optErr("model", fmt.Sprintf("%q", o.Model), "use ols, origin, weighted or deming")
+	if _, err := ParseModel(string(o.Model)); err != nil {
+		return o, err
 	}
-	switch o.Transform {
-	case TransformNone, TransformLogY, TransformSqrtY, TransformReciprocal, TransformLogLog, TransformBoxCox:
-	default:
-		return o, optErr("transform", fmt.Sprintf("%q", o.Transform), "use none, log_y, sqrt_y, reciprocal_y, log_log or box_cox")
+	if _, err := ParseTransform(string(o.Transform)); err != nil {
+		return o, err
 	}
-	switch o.Weights {
-	case WeightsNone, WeightsGiven, WeightsX, WeightsX2, WeightsFitted2, WeightsRepeats, WeightsPowerFit:
-	default:
-		return o, optErr("weights", fmt.Sprintf("%q", o.Weights), "use given, x, x2, fitted2, repeats or power")
+	if _, err := parseEnum("weights", string(o.Weights), WeightScheme("").Values()); err != nil {
+		return o, err
 	}
 	if o.Model == ModelWeighted && o.Weights == WeightsNone {
 		if o.GivenWeights == nil {

@@ -516,13 +516,17 @@ func runFit(ff *fitFlags, opt fitcore.Options, stdin io.Reader) (*fitResult, err
 	}
 	for _, s := range ff.inverseY {
 		var q fitcore.InverseQuery
-		for _, part := range strings.Split(s, ";") {
+		parts := session.SplitRepeats(s)
+		if len(parts) == 0 {
+			return nil, fmt.Errorf("--inverse-y %s holds no reading (separate repeat readings with ';' or spaces)", quoted(s))
+		}
+		for _, part := range parts {
 			v, err := session.ParseNumberHint(part, res.DecimalComma)
 			if err == nil {
 				err = tooLarge(v)
 			}
 			if err != nil {
-				return nil, fmt.Errorf("--inverse-y %s: %s %v (separate repeat readings with ';')", quoted(s), quoted(part), numberReason(err))
+				return nil, fmt.Errorf("--inverse-y %s: %s %v (separate repeat readings with ';' or spaces)", quoted(s), quoted(part), numberReason(err))
 			}
 			q.Y = append(q.Y, v)
 		}

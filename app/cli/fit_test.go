@@ -13,6 +13,7 @@ import (
 	"testing"
 
 	"pairline/app/numfmt"
+	"pairline/app/session"
 	"pairline/app/wording"
 	"pairline/fitcore"
 )
@@ -346,5 +347,36 @@ func TestFitHelp(t *testing.T) {
 		if code != ExitOK || !strings.HasPrefix(out, "usage: pairline fit") || errs != "" {
 			t.Errorf("%s: exit %d, stdout %.40q, stderr %q", arg, code, out, errs)
 		}
+	}
+}
+
+// TestInverseRepeatsSplitLikeTheScreen: --inverse-y splits repeats with
+// session.SplitRepeats, the rule of the screen's "Use the line", so
+// "6,0 6,1", "6,0;6,1" and "6,0 ; 6,1" give the same unknown (the expected
+// mean of the two repeats is the statsmodels line's inverse, as in
+// TestFitPredictInverse).
+func TestInverseRepeatsSplitLikeTheScreen(t *testing.T) {
+	var first []byte
+	for _, in := range []string{"6,0;6,1", "6,0 6,1", " 6,0 ; 6,1\t"} {
+		if got := session.SplitRepeats(in); len(got) != 2 {
+			t.Fatalf("SplitRepeats(%q) = %q, want two repeats", in, got)
+		}
+		code, out, errs := runFitCmd(t, "", "--json", "--inverse-y", in, filepath.Join(csvDir, "semicolon_decimal_comma.csv"))
+		if code != ExitOK {
+			t.Fatalf("--inverse-y %q: exit %d: %s", in, code, errs)
+		}
+		r := decodeReport(t, out)
+		if len(r.Inverse) != 1 {
+			t.Fatalf("--inverse-y %q: %d unknowns", in, len(r.Inverse))
+		}
+		b, _ := json.Marshal(r.Inverse)
+		if first == nil {
+			first = b
+		} else if string(b) != string(first) {
+			t.Errorf("--inverse-y %q gives %s, want %s", in, b, first)
+		}
+	}
+	if code, _, _ := runFitCmd(t, "", "--inverse-y", " ; ", filepath.Join(csvDir, "semicolon_decimal_comma.csv")); code == ExitOK {
+		t.Error("--inverse-y with no reading was accepted")
 	}
 }

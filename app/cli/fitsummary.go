@@ -37,15 +37,7 @@ func summary(name string, fr *fitResult) string {
 	}
 	w("; x = %s, y = %s\n", fr.xName, fr.yName)
 	w("  Fit: %s; confidence level %s\n\n", wording.Fit(r.Model, r.Transform), wording.Percent(level))
-	if r.Model == fitcore.ModelOrigin {
-		w("  y = %s·x\n\n", num(r.Slope.Estimate))
-	} else {
-		sign, ic := "+", r.Intercept.Estimate
-		if ic < 0 {
-			sign, ic = "−", -ic
-		}
-		w("  y = %s·x %s %s\n\n", num(r.Slope.Estimate), sign, num(ic))
-	}
+	w("  %s\n\n", wording.Equation(r, num))
 	b.WriteString(summaryRest(fr, level))
 	return b.String()
 }
@@ -118,34 +110,20 @@ func summaryRest(fr *fitResult, level float64) string {
 		}
 		w("\n")
 	}
-	as(wording.CheckLinearity, &r.Assumptions.Linearity)
-	as(wording.CheckSpread, &r.Assumptions.Spread)
-	as(wording.CheckIndependence, &r.Assumptions.Independence)
-	as(wording.CheckNormality, &r.Assumptions.Normality)
-	as(wording.CheckInfluence, &r.Assumptions.Influence)
-	as(wording.CheckXExactness, r.Assumptions.XExactness)
+	for _, a := range fitcore.AssumptionList() {
+		as(wording.CheckName(a.ID), a.Get(r))
+	}
 	w("\n")
 
 	w("%s\n", wording.Tests)
-	check := func(c *fitcore.Check) {
-		if c == nil {
-			return
-		}
+	for _, t := range r.Present() {
+		c := t.Check
 		stat := ""
 		if c.Verdict != fitcore.NA {
-			stat = fmt.Sprintf("%s = %s, %s", wording.StatSymbol(c.Name), numfmt.Sig(c.Statistic, 4), wording.PEq(c.P))
+			stat = fmt.Sprintf("%s = %s, %s", t.Symbol, numfmt.Sig(c.Statistic, 4), wording.PEq(c.P))
 		}
 		w("  %s %-20s %-24s %s\n", verdict(c.Verdict), c.Name, stat, oneLine(c.Message))
 	}
-	ch := r.Checks
-	check(&ch.Curvature)
-	check(ch.LackOfFit)
-	check(&ch.BreuschPagan)
-	check(&ch.White)
-	check(&ch.DurbinWatson)
-	check(&ch.Runs)
-	check(&ch.ShapiroWilk)
-	check(ch.XExactness)
 	w("\n")
 
 	var flagged []fitcore.PointInfluence

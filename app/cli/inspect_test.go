@@ -84,7 +84,7 @@ func TestInspectText(t *testing.T) {
 		t.Fatalf("exit %d, stderr %q", code, errs.String())
 	}
 	for _, s := range []string{"checksum OK", "Session 1 of 2", "Larkwater Valley Water Board (invented)",
-		"9 rows: 7 used, 1 left out", "row 4", "air bubble", `row 9, y: "" is empty`, "y = 1.00307·x + 0.998726",
+		"9 rows: 7 used, 1 left out", "row 4", "air bubble", `row 9, y: "" is empty`, "y = 0.998726 + 1.00307 · x",
 		"0.999997", wording.ChecksTitle, "Shapiro–Wilk", "Acceptance criteria: " + wording.Accepted, "Session 2 of 2"} {
 		if !strings.Contains(out.String(), s) {
 			t.Errorf("output lacks %q", s)

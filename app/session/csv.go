@@ -884,7 +884,7 @@ func (s *Session) Import(res *CSVResult, now time.Time) (int, error) {
 	if len(res.Lines) == len(res.X) {
 		what += fmt.Sprintf(" from lines %d–%d", res.Lines[0], res.Lines[len(res.Lines)-1])
 	}
-	s.record(now, "import", -1, "", what)
+	s.record(now, EditImport, -1, "", what)
 	return len(res.X), nil
 }
 
@@ -923,7 +923,7 @@ func (s *Session) PasteRows(start int, xs, ys []string, now time.Time) (int, err
 	for ; i < len(xs); i++ {
 		s.Readings = append(s.Readings, Reading{X: xs[i], Y: ys[i], Taken: taken})
 	}
-	s.record(now, "paste", -1, "", fmt.Sprintf("%d readings added (rows %d–%d)", len(s.Readings)-first, first+1, len(s.Readings)))
+	s.record(now, EditPaste, -1, "", fmt.Sprintf("%d readings added (rows %d–%d)", len(s.Readings)-first, first+1, len(s.Readings)))
 	return len(s.Readings) - first, nil
 }
 

@@ -386,3 +386,12 @@ func parseNumber(s string, hint numberHint) (float64, numInfo, *NumberError) {
 	}
 	return v, info, nil
 }
+
+// SplitRepeats splits the typed readings of one unknown into its repeats:
+// at semicolons and at white space (spaces, tabs, new lines), empty pieces
+// left out. A comma stays inside a number (a decimal comma). The screen's
+// "Use the line" and `pairline fit --inverse-y` both split with it, so the
+// same text gives the same repeats in both.
+func SplitRepeats(text string) []string {
+	return strings.FieldsFunc(text, func(r rune) bool { return r == ';' || unicode.IsSpace(r) })
+}

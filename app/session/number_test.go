@@ -211,3 +211,21 @@ func FuzzPlainNumber(f *testing.F) {
 		}
 	})
 }
+
+func TestSplitRepeats(t *testing.T) {
+	for _, tc := range []struct {
+		in   string
+		want []string
+	}{
+		{"12.5", []string{"12.5"}},
+		{"12.5;12.7", []string{"12.5", "12.7"}},
+		{"12,5 12,7", []string{"12,5", "12,7"}},
+		{" 1 ;; 2\t3\n4 ", []string{"1", "2", "3", "4"}},
+		{" ; ", nil},
+		{"", nil},
+	} {
+		if got := SplitRepeats(tc.in); strings.Join(got, "|") != strings.Join(tc.want, "|") || len(got) != len(tc.want) {
+			t.Errorf("SplitRepeats(%q) = %q, want %q", tc.in, got, tc.want)
+		}
+	}
+}

@@ -123,6 +123,25 @@ const (
 	FieldRows = "rows"
 )
 
+// Kinds of history entries (Edit.Field) written by the session's own edits;
+// the screen and the report match them by these names, never by literals.
+const (
+	// EditImport and EditPaste: readings read from a CSV file or pasted;
+	// New says in words how many and from where, Row is −1.
+	EditImport = "import"
+	EditPaste  = "paste"
+	// EditRowAdded: an empty reading added at Row (New is "added").
+	EditRowAdded = "row"
+	// EditExcluded: reading Row left out (New "true") or put back
+	// ("false"); EditExcludeReason follows with the reason.
+	EditExcluded      = "excluded"
+	EditExcludeReason = "exclude_reason"
+	// EditSettings: the fit settings changed (Old and New as JSON).
+	EditSettings = "settings"
+	// EditLocation: where the readings were taken changed.
+	EditLocation = "location"
+)
+
 // Restore makes s hold state: its readings, metadata, decimal-comma choice,
 // location and settings (state is an earlier or a later copy of the same
 // session, as undo and redo keep them; its ID, Created and History are not
@@ -236,7 +255,7 @@ const (
 // least-squares line at the 95 % level, slope tested against 1 and intercept
 // against 0 (fitcore's defaults, written out).
 func DefaultSettings() Settings {
-	return Settings{Model: fitcore.ModelOLS, Transform: fitcore.TransformNone, Level: 0.95}
+	return Settings{Model: fitcore.ModelOLS, Transform: fitcore.TransformNone, Level: fitcore.DefaultLevel}
 }
 
 // NewID returns a new session ID: 128 bits from random (crypto/rand.Reader
@@ -308,7 +327,7 @@ func isCellField(field string) bool {
 func (s *Session) AddRow(x, y string, now time.Time) int {
 	i := len(s.Readings)
 	s.Readings = append(s.Readings, Reading{Taken: now.UTC()})
-	s.record(now, "row", i, "", "added")
+	s.record(now, EditRowAdded, i, "", "added")
 	if x != "" {
 		s.Readings[i].X = x
 		s.record(now, ColumnX.String(), i, "", x)
@@ -361,12 +380,12 @@ func (s *Session) Exclude(row int, reason string, now time.Time) error {
 	r := &s.Readings[row]
 	if !r.Excluded {
 		r.Excluded = true
-		s.record(now, "excluded", row, "false", "true")
+		s.record(now, EditExcluded, row, "false", "true")
 	}
 	if r.ExcludeReason != reason {
 		old := r.ExcludeReason
 		r.ExcludeReason = reason
-		s.record(now, "exclude_reason", row, old, reason)
+		s.record(now, EditExcludeReason, row, old, reason)
 	}
 	return nil
 }
@@ -382,11 +401,11 @@ func (s *Session) Include(row int, now time.Time) error {
 		return nil
 	}
 	r.Excluded = false
-	s.record(now, "excluded", row, "true", "false")
+	s.record(now, EditExcluded, row, "true", "false")
 	if r.ExcludeReason != "" {
 		old := r.ExcludeReason
 		r.ExcludeReason = ""
-		s.record(now, "exclude_reason", row, old, "")
+		s.record(now, EditExcludeReason, row, old, "")
 	}
 	return nil
 }
@@ -468,7 +487,7 @@ func (s *Session) SetLocation(loc *Location, now time.Time) error {
 		return nil
 	}
 	s.Location = loc
-	s.record(now, "location", -1, old, new)
+	s.record(now, EditLocation, -1, old, new)
 	return nil
 }
 
@@ -494,7 +513,7 @@ func (s *Session) SetSettings(st Settings, now time.Time) error {
 		return nil
 	}
 	s.Settings = st
-	s.record(now, "settings", -1, old, new)
+	s.record(now, EditSettings, -1, old, new)
 	return nil
 }
 

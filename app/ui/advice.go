@@ -5,6 +5,7 @@ import (
 
 	"pairline/app/numfmt"
 	"pairline/app/session"
+	"pairline/app/wording"
 	"pairline/fitcore"
 )
 
@@ -303,21 +304,9 @@ func (c *Shell) anOriginalUnits(rep *fitcore.Report) app.UI {
 }
 
 // anEquation writes the fitted line on the scale it was fitted on
-// ("ln y = a + b · ln x" for a log–log fit; "y = b · x" through zero).
+// (wording.Equation).
 func (c *Shell) anEquation(rep *fitcore.Report, sig int) string {
-	sc := c.anScaleOf(rep)
-	lhs, x := "y", "x"
-	if sc.transformed {
-		lhs = sc.yName
-		if rep.Transform == fitcore.TransformLogLog {
-			x = "ln x"
-		}
-	}
-	b := numfmt.Sig(rep.Slope.Estimate, sig) + " · " + x
-	if rep.Model == fitcore.ModelOrigin {
-		return lhs + " = " + b
-	}
-	return lhs + " = " + numfmt.Sig(rep.Intercept.Estimate, sig) + " + " + b
+	return wording.Equation(rep, func(v float64) string { return numfmt.Sig(v, sig) })
 }
 
 // anHeadlineUnits gives the units of the headline slope and of y-scale

@@ -42,25 +42,20 @@ func (c *Shell) renderChecks() app.UI {
 	if rep == nil {
 		return nil
 	}
-	a := rep.Assumptions
-	k := rep.Checks
-	lin := []fitcore.Check{k.Curvature}
-	if k.LackOfFit != nil {
-		lin = append(lin, *k.LackOfFit)
-	}
-	rows := []app.UI{
-		c.anCheckRow("linearity", wording.CheckLinearity, a.Linearity, c.anTests(lin)),
-		c.anCheckRow("spread", wording.CheckSpread, a.Spread, c.anTests([]fitcore.Check{k.BreuschPagan, k.White})),
-		c.anCheckRow("independence", wording.CheckIndependence, a.Independence, c.anTests([]fitcore.Check{k.DurbinWatson, k.Runs})),
-		c.anCheckRow("normality", wording.CheckNormality, a.Normality, c.anTests([]fitcore.Check{k.ShapiroWilk})),
-		c.anInfluenceRow(a.Influence),
-	}
-	if a.XExactness != nil {
-		var tests app.UI
-		if k.XExactness != nil {
-			tests = c.anTests([]fitcore.Check{*k.XExactness})
+	var rows []app.UI
+	for _, as := range fitcore.AssumptionList() {
+		x := as.Get(rep)
+		switch {
+		case x == nil:
+		case as.ID == fitcore.AssumeInfluence:
+			rows = append(rows, c.anInfluenceRow(*x))
+		default:
+			var tests app.UI
+			if ts := rep.TestsOf(as.ID); len(ts) > 0 {
+				tests = c.anTests(ts)
+			}
+			rows = append(rows, c.anCheckRow(strings.ReplaceAll(string(as.ID), "_", "-"), wording.CheckName(as.ID), *x, tests))
 		}
-		rows = append(rows, c.anCheckRow("x-exactness", wording.CheckXExactness, *a.XExactness, tests))
 	}
 	return app.Section().Class("pl-card an-checks").Attr("aria-label", "Checks").
 		DataSet("testid", "checks").DataSet("slope", numfmt.Full(c.view.report.Slope.Estimate)).Body(
@@ -107,21 +102,18 @@ func (c *Shell) anCheckRow(id, title string, a fitcore.Assumption, details app.U
 	return app.Li().Class("an-check "+cls).DataSet("testid", "check-"+id).DataSet("verdict", string(a.Verdict)).Body(body...)
 }
 
-// anStatName is the symbol of each test's statistic (wording.StatSymbol).
-func anStatName(name string) string { return wording.StatSymbol(name) }
-
 // anTests lists the tests behind an assumption: name and result, then the
 // statistic, its degrees of freedom and p, then fitcore's sentence. Blocks
 // rather than a table, so that a phone needs no sideways scrolling.
-func (c *Shell) anTests(cs []fitcore.Check) app.UI {
+func (c *Shell) anTests(cs []fitcore.CheckPresent) app.UI {
 	return app.Ul().Class("an-tests-list").Body(app.Range(cs).Slice(func(i int) app.UI {
-		k := cs[i]
+		k, sym := cs[i].Check, cs[i].Symbol
 		id := "test-" + anSlug(k.Name) + "-"
 		ran := k.Verdict != fitcore.NA
 		var nums []app.UI
 		if ran {
 			nums = append(nums,
-				app.Span().Text(anStatName(k.Name)+" = "), anNum(id+"statistic", k.Statistic, numfmt.Sig(k.Statistic, 4)))
+				app.Span().Text(sym+" = "), anNum(id+"statistic", k.Statistic, numfmt.Sig(k.Statistic, 4)))
 			if k.DF != 0 {
 				df := anDF(k.DF)
 				if k.DF2 != 0 {

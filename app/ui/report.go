@@ -203,8 +203,7 @@ func rpLine(b *rpB, s *session.Session, rep *fitcore.Report) {
 	sig := 6
 	b.w(`<section class="pl-report-sec"><h2>Line</h2>`)
 	b.w(`<p>Fit: `, rpEsc(rpModel(rep)), `; confidence level `, rpEsc(rpLevel(rep.Level)), `.</p>`)
-	b.w(`<p class="pl-report-eq">y = `, rpNum(rep.Intercept.Estimate, numfmt.Sig(rep.Intercept.Estimate, sig)), ` + `,
-		rpNum(rep.Slope.Estimate, numfmt.Sig(rep.Slope.Estimate, sig)), ` · x</p>`)
+	b.w(`<p class="pl-report-eq">`, wording.Equation(rep, func(v float64) string { return rpNum(v, numfmt.Sig(v, sig)) }), `</p>`)
 	// The columns in the order of the screen's "More numbers": the
 	// interval first, then the standard error and the test against the
 	// reference value (app/wording).
@@ -235,7 +234,6 @@ func rpLine(b *rpB, s *session.Session, rep *fitcore.Report) {
 }
 
 func rpChecks(b *rpB, rep *fitcore.Report, rows []int) {
-	a := rep.Assumptions
 	b.w(`<section class="pl-report-sec"><h2>`, wording.ChecksTitle, `</h2><table class="pl-rt pl-rt-checks"><thead><tr><th>Assumption</th><th>Verdict</th><th>What it means</th></tr></thead><tbody>`)
 	row := func(name string, x fitcore.Assumption) {
 		msg := x.Message
@@ -244,26 +242,16 @@ func rpChecks(b *rpB, rep *fitcore.Report, rows []int) {
 		}
 		b.w(`<tr><th scope="row">`, rpEsc(name), `</th><td>`, rpVerdict(x.Verdict), `</td><td>`, rpEsc(msg), `</td></tr>`)
 	}
-	row(wording.CheckLinearity, a.Linearity)
-	row(wording.CheckSpread, a.Spread)
-	row(wording.CheckIndependence, a.Independence)
-	row(wording.CheckNormality, a.Normality)
-	row(wording.CheckInfluence, a.Influence)
-	if a.XExactness != nil {
-		row(wording.CheckXExactness, *a.XExactness)
+	for _, as := range fitcore.AssumptionList() {
+		if x := as.Get(rep); x != nil {
+			row(wording.CheckName(as.ID), *x)
+		}
 	}
 	b.w(`</tbody></table>`)
 	b.w(`<h3>`, wording.Tests, `</h3><table class="pl-rt pl-rt-tests"><thead><tr><th>Test</th><th>Statistic</th><th>p</th><th>Verdict</th></tr></thead><tbody>`)
-	cs := []fitcore.Check{rep.Checks.Curvature}
-	if rep.Checks.LackOfFit != nil {
-		cs = append(cs, *rep.Checks.LackOfFit)
-	}
-	cs = append(cs, rep.Checks.BreuschPagan, rep.Checks.White, rep.Checks.DurbinWatson, rep.Checks.Runs, rep.Checks.ShapiroWilk)
-	if rep.Checks.XExactness != nil {
-		cs = append(cs, *rep.Checks.XExactness)
-	}
-	for _, c := range cs {
-		b.w(`<tr><th scope="row">`, rpEsc(c.Name), `</th><td>`, rpEsc(wording.StatSymbol(c.Name)), ` = `, rpNum(c.Statistic, numfmt.Sig(c.Statistic, 4)), `</td><td>`,
+	for _, t := range rep.Present() {
+		c := t.Check
+		b.w(`<tr><th scope="row">`, rpEsc(c.Name), `</th><td>`, rpEsc(t.Symbol), ` = `, rpNum(c.Statistic, numfmt.Sig(c.Statistic, 4)), `</td><td>`,
 			rpNum(c.P, wording.P(c.P)), `</td><td>`, rpVerdict(c.Verdict), `</td></tr>`)
 	}
 	b.w(`</tbody></table>`)
@@ -406,13 +394,13 @@ func rpKind(f string) string {
 	switch f {
 	case "x", "y", "note":
 		return "readings typed or changed"
-	case "row":
+	case session.EditRowAdded:
 		return "readings added"
-	case "import", "paste":
+	case session.EditImport, session.EditPaste:
 		return "readings imported or pasted"
-	case "excluded", "exclude_reason":
+	case session.EditExcluded, session.EditExcludeReason:
 		return "readings left out or put back (with reasons)"
-	case "settings":
+	case session.EditSettings:
 		return "fit settings changed"
 	case "undo":
 		return "changes undone"

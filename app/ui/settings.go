@@ -335,20 +335,19 @@ var anLevels = []float64{0.90, 0.95, 0.99}
 func (c *Shell) renderSettings() app.UI {
 	c.anSyncOnSwitch()
 	st := c.sess.Settings
-	model := st.Model
+	model, tr := st.Model, st.Transform
+	if o, err := st.Options().Normalize(); err == nil {
+		model, tr = o.Model, o.Transform // weights imply a weighted model
+	}
 	if model == "" {
 		model = fitcore.ModelOLS
 	}
-	if model == fitcore.ModelOLS && st.Weights != fitcore.WeightsNone {
-		model = fitcore.ModelWeighted
-	}
-	tr := st.Transform
 	if tr == "" {
 		tr = fitcore.TransformNone
 	}
 	level := st.Level
 	if level == 0 {
-		level = 0.95
+		level = fitcore.DefaultLevel
 	}
 	custom := true
 	for _, l := range anLevels {

@@ -169,12 +169,12 @@ func describeEdits(h []session.Edit) string {
 	for i := 0; i < len(h); i++ {
 		e := h[i]
 		// Leaving a reading out is two entries: say it once, with the reason.
-		if e.Field == "excluded" && e.New == "true" && i+1 < len(h) && h[i+1].Field == "exclude_reason" && h[i+1].Row == e.Row {
+		if e.Field == session.EditExcluded && e.New == "true" && i+1 < len(h) && h[i+1].Field == session.EditExcludeReason && h[i+1].Row == e.Row {
 			parts = append(parts, "reading "+strconv.Itoa(e.Row+1)+" left out ("+h[i+1].New+")")
 			i++
 			continue
 		}
-		if e.Field == "excluded" && e.New == "false" && i+1 < len(h) && h[i+1].Field == "exclude_reason" && h[i+1].Row == e.Row {
+		if e.Field == session.EditExcluded && e.New == "false" && i+1 < len(h) && h[i+1].Field == session.EditExcludeReason && h[i+1].Row == e.Row {
 			i++
 		}
 		if p := describeEdit(e); p != "" {
@@ -224,20 +224,20 @@ func describeEdit(e session.Edit) string {
 			return e.Field + " of " + reading + " typed as " + clip(e.New, 40)
 		}
 		return e.Field + " of " + reading + " changed from " + clip(e.Old, 40) + " to " + clip(e.New, 40)
-	case "row":
+	case session.EditRowAdded:
 		return reading + " added"
-	case "excluded":
+	case session.EditExcluded:
 		if e.New == "true" {
 			return reading + " left out"
 		}
 		return reading + " put back"
-	case "exclude_reason":
+	case session.EditExcludeReason:
 		return "reason for leaving out " + reading + " set to " + strconv.Quote(clip(e.New, 60))
-	case "settings":
+	case session.EditSettings:
 		return describeSettings(e.Old, e.New)
-	case "import":
+	case session.EditImport:
 		return "import of " + e.New
-	case "paste":
+	case session.EditPaste:
 		return "paste of " + e.New
 	case session.FieldDecimalComma:
 		switch e.New {
@@ -247,7 +247,7 @@ func describeEdit(e session.Edit) string {
 			return "“1,234” read as 1234 (thousands)"
 		}
 		return "the reading of “1,234” left open"
-	case "location":
+	case session.EditLocation:
 		return "location changed"
 	case session.FieldUndo:
 		return "undo of " + e.New

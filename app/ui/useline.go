@@ -2,13 +2,12 @@ package ui
 
 import (
 	"strconv"
-	"strings"
 	"time"
-	"unicode"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
 	"pairline/app/numfmt"
+	"pairline/app/session"
 	"pairline/fitcore"
 )
 
@@ -17,7 +16,7 @@ import (
 // comma) and parses each as the readings are parsed. The error names the
 // reading, counted from 1.
 func (c *Shell) anSplitReadings(text string) ([]float64, string) {
-	fields := strings.FieldsFunc(text, func(r rune) bool { return r == ';' || unicode.IsSpace(r) })
+	fields := session.SplitRepeats(text)
 	out := make([]float64, 0, len(fields))
 	for i, f := range fields {
 		v, err := c.anParse(f)

@@ -132,27 +132,24 @@ func Verdict(v fitcore.Verdict) (icon, word string) {
 	return "○", "Not checked"
 }
 
-// StatSymbol is the symbol of a test's statistic, by the test's name in
-// fitcore.Check.Name.
-func StatSymbol(name string) string {
-	switch name {
-	case "Curvature":
-		return "t"
-	case "Lack of fit":
-		return "F"
-	case "Durbin–Watson":
-		return "d"
-	case "Runs":
-		return "z"
-	case "Shapiro–Wilk":
-		return "W"
-	case "x exactness":
-		return "z"
+// CheckName names an assumption the checks judge (one name per
+// fitcore.AssumptionID; the id itself for an unknown one).
+func CheckName(id fitcore.AssumptionID) string {
+	switch id {
+	case fitcore.AssumeLinearity:
+		return CheckLinearity
+	case fitcore.AssumeSpread:
+		return CheckSpread
+	case fitcore.AssumeIndependence:
+		return CheckIndependence
+	case fitcore.AssumeNormality:
+		return CheckNormality
+	case fitcore.AssumeInfluence:
+		return CheckInfluence
+	case fitcore.AssumeXExactness:
+		return CheckXExactness
 	}
-	if strings.HasPrefix(name, "Breusch") || strings.HasPrefix(name, "White") {
-		return "χ²"
-	}
-	return "statistic"
+	return string(id)
 }
 
 // Remedy says what the advice recommends, as a short instruction.
@@ -227,3 +224,39 @@ const (
 	Met    = "✔ met"
 	NotMet = "✖ not met"
 )
+
+// FittedY names the quantity a fit's line gives, on the scale it was fitted
+// on: "y", "ln y", "√y", "1/y", "Box–Cox y (λ = 0.5)".
+func FittedY(t fitcore.Transform, lambda *float64) string {
+	switch t {
+	case fitcore.TransformLogY, fitcore.TransformLogLog:
+		return "ln y"
+	case fitcore.TransformSqrtY:
+		return "√y"
+	case fitcore.TransformReciprocal:
+		return "1/y"
+	case fitcore.TransformBoxCox:
+		if lambda != nil {
+			return "Box–Cox y (λ = " + numfmt.Sig(*lambda, 3) + ")"
+		}
+		return "Box–Cox y"
+	}
+	return "y"
+}
+
+// Equation writes the fitted line on the scale it was fitted on, its two
+// numbers written by num: "y = a + b · x", "ln y = a + b · ln x" for a
+// log–log fit, "y = b · x" through zero. The screen, the report and the
+// command all write the line with it.
+func Equation(rep *fitcore.Report, num func(float64) string) string {
+	x := "x"
+	if rep.Transform == fitcore.TransformLogLog {
+		x = "ln x"
+	}
+	lhs := FittedY(rep.Transform, rep.TransformLambda)
+	b := num(rep.Slope.Estimate) + " · " + x
+	if rep.Model == fitcore.ModelOrigin {
+		return lhs + " = " + b
+	}
+	return lhs + " = " + num(rep.Intercept.Estimate) + " + " + b
+}

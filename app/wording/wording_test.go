@@ -3,6 +3,7 @@ package wording
 import (
 	"testing"
 
+	"pairline/app/numfmt"
 	"pairline/fitcore"
 )
 
@@ -59,5 +60,27 @@ func TestVerdictWords(t *testing.T) {
 			t.Errorf("verdict %s: %q %q (words must differ)", v, icon, word)
 		}
 		seen[word] = true
+	}
+}
+
+// TestEquation: one writing of the line for every model and scale (the
+// forms are our own; common practice writes the fitted scale on the left).
+func TestEquation(t *testing.T) {
+	lam := 0.5
+	num := func(v float64) string { return numfmt.Sig(v, 2) }
+	for _, tc := range []struct {
+		rep  fitcore.Report
+		want string
+	}{
+		{fitcore.Report{Model: fitcore.ModelOLS, Transform: fitcore.TransformNone}, "y = −0.50 + 2.0 · x"},
+		{fitcore.Report{Model: fitcore.ModelOrigin}, "y = 2.0 · x"},
+		{fitcore.Report{Model: fitcore.ModelOLS, Transform: fitcore.TransformLogLog}, "ln y = −0.50 + 2.0 · ln x"},
+		{fitcore.Report{Model: fitcore.ModelWeighted, Transform: fitcore.TransformSqrtY}, "√y = −0.50 + 2.0 · x"},
+		{fitcore.Report{Model: fitcore.ModelOLS, Transform: fitcore.TransformBoxCox, TransformLambda: &lam}, "Box–Cox y (λ = 0.500) = −0.50 + 2.0 · x"},
+	} {
+		tc.rep.Slope.Estimate, tc.rep.Intercept.Estimate = 2, -0.5
+		if got := Equation(&tc.rep, num); got != tc.want {
+			t.Errorf("%s/%s: %q, want %q", tc.rep.Model, tc.rep.Transform, got, tc.want)
+		}
 	}
 }
