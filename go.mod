@@ -3,6 +3,7 @@ module pairline
 go 1.26
 
 require (
+	github.com/andybalholm/brotli v1.3.0
 	github.com/chromedp/cdproto v0.159.0
 	github.com/chromedp/chromedp v0.23.0
 	github.com/maxence-charriere/go-app/v10 v10.1.11
@@ -11,7 +12,6 @@ require (
 )
 
 require (
-	github.com/andybalholm/brotli v1.3.0 // indirect
 	github.com/go-json-experiment/json v0.0.0-20260213210345-44df1a37e875 // indirect
 	github.com/google/uuid v1.6.0 // indirect
 	github.com/vmihailenco/tagparser/v2 v2.0.0 // indirect
