@@ -57,10 +57,11 @@ type entry struct {
 // encoded answers the served set from memory in the encoding each request
 // accepts. next is the handler that makes the files.
 type encoded struct {
-	next http.Handler
-	mu   sync.Mutex
-	once map[string]*sync.Once
-	ents map[string]*entry
+	next       http.Handler
+	background bool // see ServeHTTP
+	mu         sync.Mutex
+	once       map[string]*sync.Once
+	ents       map[string]*entry
 }
 
 func newEncoded(next http.Handler) *encoded {
@@ -164,8 +165,27 @@ func accepts(ae string, has map[string]variant) string {
 	return encIdentity
 }
 
+// ready returns the entry of p when it is made, else nil.
+func (e *encoded) ready(p string) *entry {
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	return e.ents[p]
+}
+
+// ServeHTTP answers from memory. With background set, a file whose
+// compressed copies are still being made is answered raw by next at once
+// (the first minute after `serve` starts on a busy machine) rather than
+// kept waiting.
 func (e *encoded) ServeHTTP(w http.ResponseWriter, r *http.Request) {
-	ent := e.get(r.URL.Path)
+	var ent *entry
+	if e.background {
+		if ent = e.ready(r.URL.Path); ent == nil {
+			e.next.ServeHTTP(w, r)
+			return
+		}
+	} else {
+		ent = e.get(r.URL.Path)
+	}
 	if ent.code != http.StatusOK {
 		// Errors are not kept: ask the handler again.
 		e.next.ServeHTTP(w, r)

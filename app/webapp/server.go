@@ -204,7 +204,10 @@ func Serve(ctx context.Context, o ServeOptions) error {
 		return err
 	}
 	handler, enc := siteEncoded(o.WebDir, "", lim)
-	enc.Prepare() // brotli of app.wasm: a few seconds, before the address is announced
+	// brotli at quality 11 of app.wasm takes 15–60 s of one core; until a
+	// file's copies are made it is served raw.
+	enc.background = true
+	go enc.Prepare()
 	srv := &http.Server{
 		Addr:              o.Addr,
 		Handler:           handler,
