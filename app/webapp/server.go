@@ -49,7 +49,13 @@ func Site(webDir, version string) http.Handler {
 }
 
 func site(webDir, version string, lim limits) http.Handler {
-	next := WithManifest(Handler(webDir, version))
+	h, _ := siteEncoded(webDir, version, lim)
+	return h
+}
+
+// siteEncoded is site and the store of its compressed files.
+func siteEncoded(webDir, version string, lim limits) (http.Handler, *encoded) {
+	next := newEncoded(WithManifest(Handler(webDir, version)))
 	return progress(lim, WithHeaders(http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
 		if r.ContentLength != 0 && r.Body != nil && r.Body != http.NoBody {
 			// Nothing the app asks for carries a body. Give its sender a
@@ -70,7 +76,7 @@ func site(webDir, version string, lim limits) http.Handler {
 			return
 		}
 		next.ServeHTTP(w, r)
-	})))
+	}))), next
 }
 
 // limits are the server's timeouts; tests set short ones.
@@ -197,9 +203,14 @@ func Serve(ctx context.Context, o ServeOptions) error {
 	if err := checkWebDir(o.WebDir); err != nil {
 		return err
 	}
+	handler, enc := siteEncoded(o.WebDir, "", lim)
+	// brotli at quality 11 of app.wasm takes 15–60 s of one core; until a
+	// file's copies are made it is served raw.
+	enc.background = true
+	go enc.Prepare()
 	srv := &http.Server{
 		Addr:              o.Addr,
-		Handler:           site(o.WebDir, "", lim),
+		Handler:           handler,
 		ReadHeaderTimeout: lim.readHeader,
 		IdleTimeout:       lim.idle,
 		// The deadline of a response is set as it flows (progress); this
@@ -296,20 +307,34 @@ func loadCert(certFile, keyFile string, now time.Time) (tls.Certificate, string,
 }
 
 // Build writes a self-contained static site to outDir: exactly the served
-// set (Served), each file as Site answers it ("/" as index.html). Any static
-// HTTPS host can serve it. Other files already in outDir are left alone.
+// set (Served), each file as Site answers it ("/" as index.html), and beside
+// each text and wasm file its brotli (.br, quality 11) and gzip (.gz, -9)
+// copies, byte for byte what `serve` sends with Content-Encoding br and
+// gzip. Any static HTTPS host can serve it; one that serves precompressed
+// copies sends the small ones. Other files already in outDir are left alone.
 func Build(outDir, webDir string) error {
 	if err := checkWebDir(webDir); err != nil {
 		return err
 	}
-	h := Site(webDir, "")
+	h, enc := siteEncoded(webDir, "", defaultLimits)
 	for _, p := range Served() {
 		name := strings.TrimPrefix(p, "/")
 		if name == "" {
 			name = "index.html"
 		}
-		if err := buildFile(h, p, filepath.Join(outDir, filepath.FromSlash(name))); err != nil {
+		target := filepath.Join(outDir, filepath.FromSlash(name))
+		if err := buildFile(h, p, target); err != nil {
 			return err
+		}
+		ent := enc.get(p)
+		for suffix, e := range map[string]string{".br": encBrotli, ".gz": encGzip} {
+			v, ok := ent.vars[e]
+			if !ok {
+				continue
+			}
+			if err := os.WriteFile(target+suffix, v.body, 0o644); err != nil {
+				return fmt.Errorf("writing %s: %w", target+suffix, err)
+			}
 		}
 	}
 	return nil

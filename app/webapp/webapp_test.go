@@ -424,6 +424,9 @@ func TestBuildStaticSite(t *testing.T) {
 			p = "/index.html"
 		}
 		want = append(want, strings.TrimPrefix(p, "/"))
+		if compressible(p) {
+			want = append(want, strings.TrimPrefix(p, "/")+".br", strings.TrimPrefix(p, "/")+".gz")
+		}
 	}
 	slices.Sort(want)
 	if !slices.Equal(got, want) {
