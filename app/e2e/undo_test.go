@@ -272,8 +272,11 @@ func TestSaveFailureBelongsToSession(t *testing.T) {
 		t.Error("no save-retry while the first session's refused state waits")
 	}
 	unRefuseStores(t, b, false)
+	// A session opened from the device shows "saved" already: wait for the
+	// edit itself (undo's depth grows) before waiting for its save.
+	depth := attr(t, b, "undo", "data-depth")
 	setCell(t, b, "y-input-0", "20") // the next change: both sessions are written
-	waitFor(t, b, "the save", `document.querySelector('[data-testid="save-status"]').dataset.state === "saved"`, 20*time.Second)
+	waitFor(t, b, "the save", fmt.Sprintf(`document.querySelector('[data-testid="undo"]').dataset.depth !== %q && document.querySelector('[data-testid="save-status"]').dataset.state === "saved"`, depth), 20*time.Second)
 	waitFor(t, b, "save-retry to go", `document.querySelector('[data-testid="save-retry"]').hidden`, 10*time.Second)
 	b.do(t, chromedp.Reload())
 	waitFor(t, b, "the app after reload", appReady, 30*time.Second)
