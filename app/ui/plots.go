@@ -11,6 +11,7 @@ import (
 	"pairline/app/numfmt"
 	"pairline/app/plot"
 	"pairline/app/session"
+	"pairline/app/wording"
 	"pairline/fitcore"
 )
 
@@ -269,21 +270,7 @@ func plParseCell(s *session.Session, text string) (float64, bool) {
 	return v, err == nil
 }
 
-func plScaleName(t fitcore.Transform) string {
-	switch t {
-	case fitcore.TransformLogY:
-		return "ln y"
-	case fitcore.TransformLogLog:
-		return "ln y (against ln x)"
-	case fitcore.TransformSqrtY:
-		return "√y"
-	case fitcore.TransformReciprocal:
-		return "1/y"
-	case fitcore.TransformBoxCox:
-		return "Box–Cox"
-	}
-	return ""
-}
+func plScaleName(t fitcore.Transform) string { return wording.Scale(t) }
 
 func plNameOr(name, fallback string) string {
 	if strings.TrimSpace(name) == "" {
