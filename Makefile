@@ -29,7 +29,7 @@ build: wasm bin
 	./bin/pairline build --out dist
 
 ## test: formatting, vet, unit tests and browser tests
-test: fmt-check vet unit browser
+test: fmt-check vet lint unit browser
 
 fmt-check:
 	@out="$$(gofmt -l app fitcore wasm web testdata)"; \
@@ -40,8 +40,7 @@ vet:
 	GOOS=js GOARCH=wasm $(GO) vet ./wasm ./app/...
 	$(GO) vet -tags e2e ./app/e2e/
 
-## lint: staticcheck, native, js/wasm and the browser tests (not yet part of
-## `make test`: it still reports SA4009 in app/ui, see DEVELOPERS.md)
+## lint: staticcheck, native, js/wasm and the browser tests (part of `make test`)
 STATICCHECK_VERSION ?= v0.8.2
 lint:
 	GOBIN="$(CURDIR)/bin" $(GO) install honnef.co/go/tools/cmd/staticcheck@$(STATICCHECK_VERSION)

@@ -70,9 +70,7 @@ const (
 func simRecord(r *rand.Rand, d simDesign, fault string) (x, y []float64) {
 	lo, hi := d.levels[0], d.levels[len(d.levels)-1]
 	for rep := 0; rep < d.repeats; rep++ {
-		for _, v := range d.levels {
-			x = append(x, v)
-		}
+		x = append(x, d.levels...)
 	}
 	// Readings are entered standard by standard (repeats together) in the
 	// drift case, in rounds otherwise; order matters only for drift.
