@@ -188,7 +188,7 @@ func plDraw(s *session.Session, rep *fitcore.Report, rows []int, x, y []float64,
 	ps.W, ps.H = fitChart.Size()
 
 	// 2. Residuals against fitted values (on the fitted scale).
-	scale := plScaleName(rep.Transform)
+	scale := wording.Scale(rep.Transform)
 	resTitle, fitTitle := "Residual ("+unitOr(s.YUnit, "y")+")", "Fitted "+colHead(s.YName, s.YUnit, "y")
 	if scale != "" {
 		resTitle, fitTitle = "Residual on the "+scale+" scale", "Fitted value on the "+scale+" scale"
@@ -269,8 +269,6 @@ func plParseCell(s *session.Session, text string) (float64, bool) {
 	}
 	return v, err == nil
 }
-
-func plScaleName(t fitcore.Transform) string { return wording.Scale(t) }
 
 func plNameOr(name, fallback string) string {
 	if strings.TrimSpace(name) == "" {
@@ -551,7 +549,7 @@ func (c *Shell) renderPointPanel() app.UI {
 	}
 	var reasons []string
 	if idx >= 0 && rep != nil && idx < len(rep.Residuals) {
-		scale := plScaleName(rep.Transform)
+		scale := wording.Scale(rep.Transform)
 		suffix := ""
 		if scale != "" {
 			suffix = " (" + scale + " scale)"
