@@ -1,8 +1,8 @@
 package cli
 
 import (
+	"bufio"
 	"bytes"
-	"encoding/json"
 	"errors"
 	"flag"
 	"fmt"
@@ -136,18 +136,24 @@ func Fit(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		fail(stderr, "fit", "%s: %s", name, oneLine(err.Error()))
 		return ExitUsage
 	}
-	var out []byte
 	if ff.json {
-		out, err = json.MarshalIndent(rep.report, "", "  ")
+		// Written member by member (see jsonStream): the report of a big
+		// file is hundreds of MB of JSON.
+		bw := bufio.NewWriterSize(stdout, 64<<10)
+		err := writeJSONIndented(bw, rep.report, "", "  ")
+		if err == nil {
+			_, err = bw.WriteString("\n")
+		}
+		if err == nil {
+			err = bw.Flush()
+		}
 		if err != nil {
-			fail(stderr, "fit", "%s: the report could not be written as JSON: %v", name, err)
+			fail(stderr, "fit", "%s: the report could not be written: %v", name, err)
 			return ExitFailure
 		}
-		out = append(jsonText(out), '\n')
-	} else {
-		out = []byte(termLines(summary(term(name), rep)))
+		return ExitOK
 	}
-	if _, err := stdout.Write(out); err != nil {
+	if _, err := io.WriteString(stdout, termLines(summary(term(name), rep))); err != nil {
 		fail(stderr, "fit", "writing the result failed: %v", err)
 		return ExitFailure
 	}

@@ -1,6 +1,7 @@
 package cli
 
 import (
+	"bufio"
 	"bytes"
 	"encoding/json"
 	"errors"
@@ -163,14 +164,20 @@ func Inspect(args []string, stdout, stderr io.Writer) int {
 	if in.Warnings == nil {
 		in.Warnings = []string{}
 	}
-	// One session at a time: each is analysed, written and dropped (with
-	// its readings), so memory holds one report, not one per session.
 	n := len(file.Sessions)
-	next := func(i int) sessionAnalysis {
-		a := analyse(file.Sessions[i])
-		file.Sessions[i] = nil
-		return a
+	weights := make([]int, n)
+	for i, s := range file.Sessions {
+		weights[i] = len(s.Readings)
 	}
+	// Sessions are analysed ahead of the writer on every core, within a
+	// budget of readings (see prefetch); each is dropped from the file
+	// once handed to its analysis, and its analysis once written.
+	next, stop := prefetch(n, func(i int) int { return weights[i] }, func(i int) sessionAnalysis {
+		s := file.Sessions[i]
+		file.Sessions[i] = nil
+		return analyse(s)
+	})
+	defer stop()
 	var err2 error
 	if *asJSON {
 		err2 = inspectJSON(stdout, &in, n, next)
@@ -197,31 +204,32 @@ func inspectJSON(w io.Writer, in *inspection, n int, next func(int) sessionAnaly
 		return errors.New("the analysis could not be written as JSON")
 	}
 	head = append(jsonText(head[:len(head)-len(tail)]), '[')
-	if _, err := w.Write(head); err != nil {
+	bw := bufio.NewWriterSize(w, 64<<10)
+	if _, err := bw.Write(head); err != nil {
 		return err
 	}
 	for i := 0; i < n; i++ {
-		b, err := json.MarshalIndent(next(i), "    ", "  ")
-		if err != nil {
-			return fmt.Errorf("the analysis could not be written as JSON: %v", err)
-		}
 		sep := ",\n    "
 		if i == 0 {
 			sep = "\n    "
 		}
-		if _, err := io.WriteString(w, sep); err != nil {
+		if _, err := bw.WriteString(sep); err != nil {
 			return err
 		}
-		if _, err := w.Write(jsonText(b)); err != nil {
-			return err
+		// Written member by member: a session of 250,000 readings is
+		// about 160 MB of JSON, which must not be built in memory.
+		if err := writeJSONIndented(bw, next(i), "    ", "  "); err != nil {
+			return fmt.Errorf("the analysis could not be written as JSON: %v", err)
 		}
 	}
 	end := "\n  ]\n}\n"
 	if n == 0 {
 		end = "]\n}\n"
 	}
-	_, err = io.WriteString(w, end)
-	return err
+	if _, err := bw.WriteString(end); err != nil {
+		return err
+	}
+	return bw.Flush()
 }
 
 // oneFile parses the flags and the single FILE argument.
