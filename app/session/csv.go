@@ -874,6 +874,7 @@ func (s *Session) Import(res *CSVResult, now time.Time) (int, error) {
 	if len(res.X) == 0 {
 		return 0, nil
 	}
+	s.beforeChange(now)
 	first := len(s.Readings)
 	taken := now.UTC()
 	s.Readings = slices.Grow(s.Readings, len(res.X))
@@ -917,6 +918,7 @@ func (s *Session) PasteRows(start int, xs, ys []string, now time.Time) (int, err
 	if i == len(xs) {
 		return 0, nil
 	}
+	s.beforeChange(now)
 	first := len(s.Readings)
 	taken := now.UTC()
 	s.Readings = slices.Grow(s.Readings, len(xs)-i)

@@ -75,6 +75,21 @@ const (
 	// time; up to a day of that is accepted, more is refused as a record
 	// that cannot be right.
 	ModifiedSkew = 24 * time.Hour
+	// MaxIntervalDays is the longest calibration interval, in days (about
+	// 100 years).
+	MaxIntervalDays = 36_525
+	// MaxConditions is the most conditions one record holds.
+	MaxConditions = 100
+	// MaxStandards is the most standards one record holds.
+	MaxStandards = 1000
+	// MaxUnknowns is the most unknowns one record holds.
+	MaxUnknowns = 1000
+	// MaxUnknownReadings is the most readings one unknown holds.
+	MaxUnknownReadings = 1000
+	// MaxSealedRevisions is the most earlier sealed revisions one record
+	// keeps. Each holds a frozen copy of the readings, so their readings
+	// count towards MaxFileReadings.
+	MaxSealedRevisions = 100
 )
 
 // The range of times a session may hold. Zero times mean "not recorded"
