@@ -291,7 +291,7 @@ func (s *Session) beforeChange(now time.Time) {
 	if s.Seal == nil {
 		return
 	}
-	s.Sealed = append(s.Sealed, s.freeze())
+	s.Sealed = append(s.Sealed, s.frozen())
 	if len(s.Sealed) > MaxSealedRevisions {
 		// The oldest frozen copies go; their seals stay in the history.
 		s.Sealed = append(s.Sealed[:0:0], s.Sealed[len(s.Sealed)-MaxSealedRevisions:]...)
@@ -321,5 +321,12 @@ func (s *Session) freeze() SealedRevision {
 		l := *s.Location
 		f.Location = &l
 	}
+	return f
+}
+
+// frozen is freeze with the results summary, for the copy kept on Sealed.
+func (s *Session) frozen() SealedRevision {
+	f := s.freeze()
+	f.Results = s.ResultsSummary()
 	return f
 }
