@@ -120,7 +120,7 @@ type Options struct {
 	// without a transform; with any other model or transform the inverse
 	// prediction says in its Message that they were not included.
 	XStandardUncertainties []float64
-	Acceptance   *Criteria
+	Acceptance             *Criteria
 	// SkipAdvice leaves out the transform advice and the Box–Cox profile
 	// (the two parts that refit the readings several times); Complete adds
 	// them to such a report later.
