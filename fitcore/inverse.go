@@ -154,11 +154,15 @@ func (fc *fitContext) inverses() {
 //
 // The result is reported as the combined standard uncertainty SE =
 // √(SEFit² + UStandards²) (GUM §5.1.2), with SEFit the fit's own standard
-// error, and the interval X ± k·SE, k = t at the level with the effective
-// degrees of freedom of Welch–Satterthwaite (GUM G.4.1: ν_eff =
-// SE⁴/(SEFit⁴/ν), the standards' part counted with infinite degrees of
-// freedom as a Type B evaluation from a certificate, GUM G.4.2), because
-// Fieller's interval has no room for the standards' part. When Fieller's
+// error, and the interval X ± k·SE with k = t at the level and ν, the
+// residual degrees of freedom of the fit. ν is the lower bound of the
+// Welch–Satterthwaite effective degrees of freedom (GUM G.4.1: ν_eff =
+// SE⁴/(SEFit⁴/ν) ≥ ν, the standards' part counted with infinite degrees of
+// freedom as a Type B evaluation from a certificate, GUM G.4.2), so the
+// interval is conservative and never narrower than the same interval
+// without the standards (with ν_eff, a small standards' part can shrink
+// t faster than it grows SE); ν_eff is given in the message. The symmetric
+// interval replaces Fieller's because // Fieller's interval has no room for the standards' part. When Fieller's
 // interval is unbounded (the slope is not clearly different from zero) it
 // stays unbounded. Only ModelOLS and
 // ModelOrigin without a transform are handled (the weighted and Deming
@@ -233,8 +237,8 @@ func (fc *fitContext) addStandards(inv *Inverse) {
 	se := math.Hypot(fit, ustd)
 	inv.SEFit, inv.UStandards, inv.SE = fit, ustd, se
 	nu := fc.f.df
-	// ν_eff is capped at 10⁷, where t is the normal quantile to 7 digits
-	// (and gonum's t quantile needs a finite ν).
+	// ν_eff (for the message only) is capped at 10⁷: the standards' part
+	// alone has infinite degrees of freedom.
 	nuEff := 1e7
 	if fit > 0 {
 		r := se / fit
@@ -246,9 +250,9 @@ func (fc *fitContext) addStandards(inv *Inverse) {
 		inv.Message = addSentence(inv.Message, "the standard error includes the standard uncertainties of the standards")
 		return
 	}
-	t := lnTCrit(fc.rep.Level, nuEff)
+	t := lnTCrit(fc.rep.Level, nu)
 	inv.Low, inv.High = x0-t*se, x0+t*se
-	msg := fmt.Sprintf("the interval is x ± %s·u with u the combined standard uncertainty of the fit and the standards (%s effective degrees of freedom), not Fieller's", formatValue(math.Round(t*1e4)/1e4), formatValue(math.Round(nuEff*10)/10))
+	msg := fmt.Sprintf("the interval is x ± %s·u with u the combined standard uncertainty of the fit and the standards and t at the fit's %s degrees of freedom (conservative: the effective degrees of freedom are %s), not Fieller's", formatValue(math.Round(t*1e4)/1e4), formatValue(nu), formatValue(math.Round(nuEff*10)/10))
 	inv.Message = addSentence(inv.Message, msg)
 }
 

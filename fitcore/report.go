@@ -282,10 +282,10 @@ type Inverse struct {
 	// the line (the SE without the standards), UStandards the standard
 	// uncertainty from the standards' values, and SE = √(SEFit² +
 	// UStandards²) the combined standard uncertainty. Low and High are then
-	// X ± k·SE with k = t(ν_eff) at the level, ν_eff by Welch–Satterthwaite
-	// with the standards' part taken as exactly known (JCGM 100:2008 G.4.1,
-	// G.4.2: ν_eff = SE⁴/(SEFit⁴/ν), ν the residual degrees of freedom), in
-	// place of Fieller's interval, and Message says so.
+	// X ± k·SE with k = t at the level and the fit's residual degrees of
+	// freedom ν (conservative: the Welch–Satterthwaite ν_eff of JCGM
+	// 100:2008 G.4.1 is at least ν), in place of Fieller's interval, and
+	// Message says so and gives ν_eff.
 	SEFit      float64 `json:"se_fit,omitempty"`
 	UStandards float64 `json:"u_standards,omitempty"`
 }
