@@ -24,18 +24,18 @@ func recordForgeries(t testing.TB) map[string]struct {
 		field string
 		err   error
 	}{
-		"standards past MaxStandards": {rawFile(t, rawSession(t, 1, 0, mp(t, "standards"), arr(MaxStandards+1, []byte{0x80}))), "sessions[0].standards", ErrTooLarge},
+		"standards past MaxStandards":   {rawFile(t, rawSession(t, 1, 0, mp(t, "standards"), arr(MaxStandards+1, []byte{0x80}))), "sessions[0].standards", ErrTooLarge},
 		"conditions past MaxConditions": {rawFile(t, rawSession(t, 1, 0, mp(t, "conditions"), arr(MaxConditions+1, []byte{0x80}))), "sessions[0].conditions", ErrTooLarge},
 		"unknown readings past the limit": {rawFile(t, rawSession(t, 1, 0, mp(t, "unknowns"),
 			append([]byte{0x91, 0x81}, append(mp(t, "readings"), arr(MaxUnknownReadings+1, []byte{0xa0})...)...))), "sessions[0].unknowns[0].readings", ErrTooLarge},
 		"standards claim more than the bytes": {rawFile(t, rawSession(t, 1, 0, mp(t, "standards"), []byte{0xdc, 0x03, 0xe8, 0x80})), "sessions[0].standards", ErrInvalidField},
-		"sealed past MaxSealedRevisions": {rawFile(t, rawSession(t, 1, 0, mp(t, "sealed"), arr(MaxSealedRevisions+1, []byte{0x80}))), "sessions[0].sealed", ErrTooLarge},
-		"interval out of range": {rawFile(t, rawSession(t, 1, 0, mp(t, "instrument"), append([]byte{0x81}, append(mp(t, "interval_days"), mp(t, -3)...)...))), "sessions[0].instrument.interval_days", ErrInvalidField},
-		"revision negative": {rawFile(t, rawSession(t, 1, 0, mp(t, "revision"), mp(t, -1))), "sessions[0].revision", ErrInvalidField},
-		"seal not a map": {rawFile(t, rawSession(t, 1, 0, mp(t, "seal"), mp(t, "signed"))), "sessions[0].seal", ErrInvalidField},
-		"standard expiry not a time": {rawFile(t, rawSession(t, 1, 0, mp(t, "standards"), append([]byte{0x91, 0x81}, append(mp(t, "expiry"), mp(t, "2026-01-01")...)...))), "sessions[0].standards[0].expiry", ErrInvalidField},
-		"digest too long": {rawFile(t, rawSession(t, 1, 0, mp(t, "seal"), append([]byte{0x81}, append(mp(t, "digest"), mp(t, strings.Repeat("f", MaxShortText+1))...)...))), "sessions[0].seal.digest", ErrInvalidField},
-		"sealed revision reading bad": {rawFile(t, rawSession(t, 1, 0, mp(t, "sealed"), append([]byte{0x91, 0x81}, append(mp(t, "readings"), append([]byte{0x91, 0x81}, append(mp(t, "x"), mp(t, 5)...)...)...)...))), "sessions[0].sealed[0].readings[0].x", ErrInvalidField},
+		"sealed past MaxSealedRevisions":      {rawFile(t, rawSession(t, 1, 0, mp(t, "sealed"), arr(MaxSealedRevisions+1, []byte{0x80}))), "sessions[0].sealed", ErrTooLarge},
+		"interval out of range":               {rawFile(t, rawSession(t, 1, 0, mp(t, "instrument"), append([]byte{0x81}, append(mp(t, "interval_days"), mp(t, -3)...)...))), "sessions[0].instrument.interval_days", ErrInvalidField},
+		"revision negative":                   {rawFile(t, rawSession(t, 1, 0, mp(t, "revision"), mp(t, -1))), "sessions[0].revision", ErrInvalidField},
+		"seal not a map":                      {rawFile(t, rawSession(t, 1, 0, mp(t, "seal"), mp(t, "signed"))), "sessions[0].seal", ErrInvalidField},
+		"standard expiry not a time":          {rawFile(t, rawSession(t, 1, 0, mp(t, "standards"), append([]byte{0x91, 0x81}, append(mp(t, "expiry"), mp(t, "2026-01-01")...)...))), "sessions[0].standards[0].expiry", ErrInvalidField},
+		"digest too long":                     {rawFile(t, rawSession(t, 1, 0, mp(t, "seal"), append([]byte{0x81}, append(mp(t, "digest"), mp(t, strings.Repeat("f", MaxShortText+1))...)...))), "sessions[0].seal.digest", ErrInvalidField},
+		"sealed revision reading bad":         {rawFile(t, rawSession(t, 1, 0, mp(t, "sealed"), append([]byte{0x91, 0x81}, append(mp(t, "readings"), append([]byte{0x91, 0x81}, append(mp(t, "x"), mp(t, 5)...)...)...)...))), "sessions[0].sealed[0].readings[0].x", ErrInvalidField},
 	}
 }
 
