@@ -18,6 +18,8 @@ import (
 	"github.com/chromedp/cdproto/emulation"
 	"github.com/chromedp/cdproto/network"
 	"github.com/chromedp/chromedp"
+
+	"pairline/app/demo"
 )
 
 // themes are the values of the theme-select element (app/ui/theme.go).
@@ -116,6 +118,10 @@ func TestA11yAxeAndScreens(t *testing.T) {
 				eval[bool](t, b, `(window.scrollTo(0, 0), true)`)
 				reportAxe(t, vp.name+", "+th+", main screen", runAxe(t, b))
 				screenshot(t, b, "a11y-"+vp.name+"-"+th+"-main")
+				viewShot(t, b, "a11y-"+vp.name+"-"+th+"-main-screen")
+				eval[bool](t, b, `(tid("plot-fit").scrollIntoView({block: 'start'}), true)`)
+				viewShot(t, b, "a11y-"+vp.name+"-"+th+"-plots-screen")
+				eval[bool](t, b, `(window.scrollTo(0, 0), true)`)
 				click(t, b, "report-open")
 				waitFor(t, b, "the report", `!!tid("report", ' @plot-qq')`, 20*time.Second)
 				reportAxe(t, vp.name+", "+th+", report", runAxe(t, b))
@@ -123,11 +129,33 @@ func TestA11yAxeAndScreens(t *testing.T) {
 				click(t, b, "report-close")
 				waitFor(t, b, "the report closed", `!tid("report")`, 10*time.Second)
 			}
+			// The bands show on a wide one: demo B (invented, its scatter
+			// grows with the level), dark theme.
+			fuOpenTitled(t, b, demo.Titles[1])
+			setTheme(t, b, "dark")
+			waitFor(t, b, "the plot of demo B", `!!tid("plot-fit")`, 20*time.Second)
+			eval[bool](t, b, `(tid("plot-fit").scrollIntoView({block: 'center'}), true)`)
+			viewShot(t, b, "a11y-"+vp.name+"-dark-bands-screen")
 			if bad := b.foreign(srv.URL); len(bad) > 0 {
 				t.Errorf("requests left the app's origin: %v", bad)
 			}
 		})
 	}
+}
+
+// viewShot saves what the screen shows (the viewport, not the whole page)
+// in artifactDir: the top of the screen as a technician first sees it.
+func viewShot(t *testing.T, b *browser, name string) {
+	t.Helper()
+	buf, err := chromedp.Run(b.ctx, chromedp.CaptureScreenshot())
+	if err != nil {
+		t.Fatalf("screenshot: %v", err)
+	}
+	path := filepath.Join(artifactDir(t), name+".png")
+	if err := os.WriteFile(path, buf, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("screenshot: %s", path)
 }
 
 // relLuminance is the relative luminance of an sRGB colour as WCAG 2.x
