@@ -249,7 +249,7 @@ func (c *Shell) anBeforeAfter(rep *fitcore.Report, ad *fitcore.Advice) app.UI {
 	case fitcore.RemedyWeighted:
 		after = "After (weighted)"
 	}
-	return app.Div().Class("an-scroll").Body(
+	return anScroll("Advice, before and after").Body(
 		app.Table().Class("an-table an-ba").DataSet("testid", "advice-table").Body(
 			app.THead().Body(app.Tr().Body(app.Th().Text(""), app.Th().Text("Now"), app.Th().Text(after))),
 			app.TBody().Body(rows...),
@@ -281,7 +281,7 @@ func (c *Shell) anOriginalUnits(rep *fitcore.Report) app.UI {
 	return app.Div().Class("an-orig").DataSet("testid", "original-units").Body(
 		app.H3().Text("Line in original units"),
 		app.P().Class("an-hint").Text(note+"Intervals are at "+lvl+"."),
-		app.Div().Class("an-scroll").Body(
+		anScroll("Line in original units").Body(
 			app.Table().Class("an-table an-tests").Body(
 				app.THead().Body(app.Tr().Body(
 					app.Th().Text(colHead(c.sess.XName, c.sess.XUnit, "x")),
@@ -317,4 +317,11 @@ func (c *Shell) anHeadlineUnits(rep *fitcore.Report, slope, y string) (string, s
 		return sc.slope, sc.y
 	}
 	return slope, y
+}
+
+// anScroll is a box that scrolls a wide table sideways on a phone. It can
+// take the focus (tabindex 0) and is a named region, so that it can be
+// scrolled from the keyboard and a screen reader says what it holds.
+func anScroll(label string) app.HTMLDiv {
+	return app.Div().Class("an-scroll").Attr("tabindex", "0").Attr("role", "region").Attr("aria-label", label)
 }

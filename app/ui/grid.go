@@ -2,20 +2,22 @@ package ui
 
 import (
 	"strconv"
+	"strings"
 	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
 	"pairline/app/session"
+	"pairline/app/wording"
 )
 
 // renderReadings draws the readings table: quantity names and units on top,
 // one row of x and y cells per reading, and the count of usable pairs.
 func (c *Shell) renderReadings() app.UI {
 	s := c.sess
-	nProblems := len(c.view.problems)
+	nProblems := len(c.view.problems) - c.heldProblems()
 	lo, hi := c.pageRange()
-	return app.Section().Class("pl-card pl-readings").Attr("aria-label", "Readings").Body(
+	return app.Section().Class("pl-card pl-readings").Attr("aria-label", "Readings").DataSet("testid", "readings-card").Body(
 		app.H2().Text("Readings"),
 		app.Div().Class("pl-quantities").Body(
 			c.quantity("x", "Known value (x)", s.XName, s.XUnit, session.FieldXName, session.FieldXUnit),
@@ -115,16 +117,48 @@ func (c *Shell) quantity(col, label, name, unit, nameField, unitField string) ap
 
 func (c *Shell) row(i int) app.UI {
 	r := c.sess.Readings[i]
+	yProblem := c.view.problems[cellKey{i, session.ColumnY}]
+	if c.heldY(i) {
+		yProblem = ""
+	}
+	reason := ""
+	if r.Excluded {
+		reason = r.ExcludeReason
+	}
 	return &readingRow{
 		Session:  c.sess.ID,
 		Row:      i,
 		X:        r.X,
 		Y:        r.Y,
 		XProblem: c.view.problems[cellKey{i, session.ColumnX}],
-		YProblem: c.view.problems[cellKey{i, session.ColumnY}],
+		YProblem: yProblem,
 		Excluded: r.Excluded,
+		Reason:   reason,
 		shell:    c,
 	}
+}
+
+// entryUI is the row the keyboard is in. An empty y cell of that row is
+// not called a problem yet: the technician types x, then y. It is marked
+// once the focus leaves the row. An empty x cell is marked at once when
+// y is filled (the technician went past it).
+type entryUI struct {
+	enRow int
+	enIn  bool // the focus is in a cell of row enRow
+}
+
+// heldY: the y cell of row i is empty and waits for its turn.
+func (c *Shell) heldY(i int) bool {
+	return c.enIn && c.enRow == i && i < len(c.sess.Readings) && strings.TrimSpace(c.sess.Readings[i].Y) == "" &&
+		c.view.problems[cellKey{i, session.ColumnY}] != ""
+}
+
+// heldProblems is how many problems heldY keeps back (0 or 1).
+func (c *Shell) heldProblems() int {
+	if c.heldY(c.enRow) {
+		return 1
+	}
+	return 0
 }
 
 // readingRow is one row of the readings table as a component of its own:
@@ -138,6 +172,7 @@ type readingRow struct {
 	X, Y               string
 	XProblem, YProblem string
 	Excluded           bool
+	Reason             string // why a left-out reading is left out
 
 	shell *Shell // set when the row is first drawn; go-app keeps it
 }
@@ -152,11 +187,15 @@ func (r *readingRow) Render() app.UI {
 	return app.Tr().Class(cls).Body(
 		app.Td().Class("pl-rownum").Text(strconv.Itoa(r.Row+1)),
 		r.cell(session.ColumnX, "x-input-"+n, r.X, r.XProblem),
-		r.cell(session.ColumnY, "y-input-"+n, r.Y, r.YProblem),
+		r.cell(session.ColumnY, "y-input-"+n, r.Y, r.YProblem,
+			app.If(r.Excluded, func() app.UI {
+				return app.Span().Class("pl-row-reason").DataSet("testid", "row-reason-"+n).
+					Text("Left out: " + wording.Visible(r.Reason))
+			})),
 	)
 }
 
-func (r *readingRow) cell(col session.Column, testid, text, problem string) app.UI {
+func (r *readingRow) cell(col session.Column, testid, text, problem string, more ...app.UI) app.UI {
 	label := "x"
 	if col == session.ColumnY {
 		label = "y"
@@ -168,11 +207,12 @@ func (r *readingRow) cell(col session.Column, testid, text, problem string) app.
 	in := app.Input().Type("text").Class("pl-cell").Value(text).
 		Attr("inputmode", "decimal").Attr("autocomplete", "off").Attr("enterkeyhint", "next").
 		Attr("aria-label", label+" of reading "+strconv.Itoa(r.Row+1)).
-		DataSet("testid", testid).
+		DataSet("testid", testid).DataSet("row", r.Row).
 		OnInput(func(ctx app.Context, e app.Event) {
 			if c.sess == nil || c.sess.ID != r.Session {
 				return
 			}
+			c.enRow, c.enIn = r.Row, true // typing in it: the row is being entered
 			if err := c.sess.SetCell(r.Row, col, ctx.JSSrc().Get("value").String(), time.Now()); err != nil {
 				c.notice = err.Error()
 				return
@@ -185,6 +225,18 @@ func (r *readingRow) cell(col session.Column, testid, text, problem string) app.
 			}
 			e.PreventDefault()
 			c.enter(ctx, r.Row, col)
+		}).
+		OnFocus(func(ctx app.Context, e app.Event) {
+			if !c.enIn || c.enRow != r.Row {
+				c.ui.Dispatch(func(app.Context) { c.enRow, c.enIn = r.Row, true })
+			}
+		}).
+		OnBlur(func(ctx app.Context, e app.Event) {
+			// Moving to the other cell of the same row keeps the row.
+			if to := e.Get("relatedTarget"); to.Truthy() && to.Get("dataset").Get("row").String() == strconv.Itoa(r.Row) {
+				return
+			}
+			c.ui.Dispatch(func(app.Context) { c.enIn = false })
 		})
 	if problem != "" {
 		in = in.Attr("aria-invalid", "true").Attr("title", problem)
@@ -194,6 +246,7 @@ func (r *readingRow) cell(col session.Column, testid, text, problem string) app.
 		app.If(problem != "", func() app.UI {
 			return app.Span().Class("pl-problem").DataSet("testid", testid+"-problem").Text(problem)
 		}),
+		app.Range(more).Slice(func(i int) app.UI { return more[i] }),
 	)
 }
 

@@ -600,7 +600,16 @@ func (c *Shell) renderPointPanel() app.UI {
 					app.Span().Text("Reason for leaving it out"),
 					app.Input().Type("text").Value(c.plReason).DataSet("testid", "plot-point-reason").
 						Attr("placeholder", "e.g. decimal point slipped when typing").
-						OnInput(func(ctx app.Context, e app.Event) { c.plReason = ctx.JSSrc().Get("value").String() }),
+						Attr("enterkeyhint", "done").
+						OnInput(func(ctx app.Context, e app.Event) { c.plReason = ctx.JSSrc().Get("value").String() }).
+						OnKeyDown(func(ctx app.Context, e app.Event) {
+							// Enter confirms, as the button does (a phone's keyboard covers the button).
+							if e.Get("key").String() == "Enter" {
+								e.PreventDefault()
+								c.plReason = ctx.JSSrc().Get("value").String()
+								c.excludePoint(ctx, row)
+							}
+						}),
 				),
 				app.Button().Class("pl-btn").Text("Leave out of the line").DataSet("testid", "plot-point-exclude").
 					OnClick(func(ctx app.Context, e app.Event) { e.StopImmediatePropagation(); c.excludePoint(ctx, row) }),

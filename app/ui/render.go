@@ -17,22 +17,11 @@ func digitsOf(text string) int { return numfmt.DigitsOf(text) }
 func (c *Shell) Render() app.UI {
 	c.syncInputs()
 	return app.Div().Class("pl-app", c.themeClass()).Body(
-		c.renderBar(),
-		c.renderTools(),
-		app.Div().Class("pl-slot").Body(app.If(c.updateReady, func() app.UI {
-			return app.Div().Class("pl-strip pl-strip-update").DataSet("testid", "update-ready").Body(
-				app.Span().Text("A new version of Pairline is ready. Your readings are saved; reload when it suits you."),
-				app.Button().Class("pl-btn").Text("Reload now").OnClick(func(ctx app.Context, e app.Event) { ctx.Reload() }),
-			)
-		})),
-		// Parts that come and go sit in fixed slots (.pl-slot, display:
-		// contents): go-app compares children by position, so a strip that
-		// appears before <main> would otherwise make it rebuild all of <main>.
-		app.Div().Class("pl-slot").Body(app.If(c.notice != "", func() app.UI {
-			return app.Div().Class("pl-strip").Attr("role", "status").Text(c.notice)
-		})),
-		c.renderTransferStrips(),
-		app.Div().Class("pl-slot").Body(app.If(c.listOpen, c.renderSessions)),
+		// The bar and the tools strip are one banner landmark; everything
+		// else sits in a landmark too (the messages region, main, the
+		// report dialog), so that a screen reader can move between them.
+		app.Header().Class("pl-head").Body(c.renderBar(), c.renderTools()),
+		app.Section().Class("pl-notes").Attr("aria-label", "Messages").Body(c.renderNotes()...),
 		app.If(c.sess == nil, func() app.UI {
 			return app.Main().Class("pl-main").Body(app.P().Class("pl-wait").Text("Opening your sessions…"))
 		}).Else(func() app.UI {
@@ -50,14 +39,38 @@ func (c *Shell) Render() app.UI {
 	)
 }
 
+// renderNotes draws the strips that come and go above the cards (a new
+// version, a notice, files in and out) and the list of stored sessions.
+func (c *Shell) renderNotes() []app.UI {
+	return []app.UI{
+		app.Div().Class("pl-slot").Body(app.If(c.updateReady, func() app.UI {
+			return app.Div().Class("pl-strip pl-strip-update").DataSet("testid", "update-ready").Body(
+				app.Span().Text("A new version of Pairline is ready. Your readings are saved; reload when it suits you."),
+				app.Button().Class("pl-btn").Text("Reload now").OnClick(func(ctx app.Context, e app.Event) { ctx.Reload() }),
+			)
+		})),
+		// Parts that come and go sit in fixed slots (.pl-slot, display:
+		// contents): go-app compares children by position, so a strip that
+		// appears before <main> would otherwise make it rebuild all of <main>.
+		app.Div().Class("pl-slot").Body(app.If(c.notice != "", func() app.UI {
+			return app.Div().Class("pl-strip").Attr("role", "status").Text(c.notice)
+		})),
+		c.renderTransferStrips(),
+		app.Div().Class("pl-slot").Body(app.If(c.listOpen, c.renderSessions)),
+	}
+}
+
 func (c *Shell) renderBar() app.UI {
 	title := ""
 	if c.sess != nil {
 		title = c.sess.Title
 	}
-	return app.Header().Class("pl-bar").Body(
-		app.Img().Class("pl-mark").Src("/web/icons/icon.svg").Alt(""),
-		app.Span().Class("pl-name").Text("Pairline"),
+	return app.Div().Class("pl-bar").DataSet("testid", "app-bar").Body(
+		// The mark is decoration beside the name: aria-hidden, and an alt
+		// that is not empty (go-app leaves an empty alt out of the markup,
+		// which makes an image without a text alternative).
+		app.Img().Class("pl-mark").Src("/web/icons/icon.svg").Alt("Pairline mark").Attr("aria-hidden", "true"),
+		app.H1().Class("pl-name").Text("Pairline"),
 		app.Input().Class("pl-title").Type("text").Value(title).
 			Attr("aria-label", "Session title").DataSet("testid", "session-title").
 			OnChange(c.onField(session.FieldTitle)),
@@ -65,11 +78,19 @@ func (c *Shell) renderBar() app.UI {
 			Attr("role", "status").Text(c.saveText()),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Try again").DataSet("testid", "save-retry").
 			Hidden(!c.retryable()).OnClick(c.retrySave),
+		app.Div().Class("pl-bar-acts").Body(c.renderBarActions()...),
+	)
+}
+
+// renderBarActions are the bar's buttons, in a group of their own so that
+// a phone can give them one row that scrolls sideways.
+func (c *Shell) renderBarActions() []app.UI {
+	return []app.UI{
 		app.Button().Class("pl-btn pl-btn-quiet").Text(listLabel(c.listOpen, len(c.sessions))).
 			DataSet("testid", "sessions-open").Attr("aria-expanded", strconv.FormatBool(c.listOpen)).
 			OnClick(func(ctx app.Context, e app.Event) { c.listOpen = !c.listOpen; c.confirmDel = "" }),
 		app.Button().Class("pl-btn").Text("New session").DataSet("testid", "session-new").OnClick(c.onNew),
-	)
+	}
 }
 
 func listLabel(open bool, n int) string {
@@ -135,7 +156,7 @@ var jumps = []struct{ label, card string }{
 // page is long on a phone, and a gloved hand should not have to scroll
 // through the readings to reach the verdict.
 func (c *Shell) renderJumps() app.UI {
-	return app.Nav().Class("pl-jumps").Attr("aria-label", "Go to").Body(
+	return app.Nav().Class("pl-jumps").Attr("aria-label", "Go to").DataSet("testid", "jumps").Body(
 		app.Range(jumps).Slice(func(i int) app.UI {
 			j := jumps[i]
 			return app.Button().Class("pl-jump").Text(j.label).DataSet("testid", "jump-"+strings.ToLower(j.label)).

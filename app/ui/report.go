@@ -135,8 +135,11 @@ func rpBody(s *session.Session, rep *fitcore.Report, rows []int, message string,
 	b.w(`<header class="pl-report-head"><p class="pl-report-kicker">Pairline report</p><h1>`, rpEsc(s.Title), `</h1>`)
 	b.w(`<p class="pl-report-when">Prepared `, rpEsc(now.Local().Format("2 January 2006, 15:04 MST")), `. Session `, rpEsc(s.ID), `.</p></header>`)
 
+	// Every section scrolls sideways on a phone (web/report.css), so each
+	// can take the focus (tabindex 0) to be scrolled from the keyboard.
+
 	// Metadata.
-	b.w(`<section class="pl-report-sec"><h2>Record</h2><table class="pl-rt pl-rt-meta"><tbody>`)
+	b.w(`<section tabindex="0" class="pl-report-sec"><h2>Record</h2><table class="pl-rt pl-rt-meta"><tbody>`)
 	meta := [][2]string{
 		{"Site", s.Site}, {"Instrument", s.Instrument.Description}, {"Serial number", s.Instrument.Serial}, {"Operator", s.Operator},
 		{"Known value (x)", colHead(s.XName, s.XUnit, "x")}, {"Instrument value (y)", colHead(s.YName, s.YUnit, "y")},
@@ -156,7 +159,7 @@ func rpBody(s *session.Session, rep *fitcore.Report, rows []int, message string,
 	b.w(`</tbody></table></section>`)
 
 	if rep == nil {
-		b.w(`<section class="pl-report-sec"><h2>Line</h2><p class="pl-report-msg" data-testid="report-message">`, rpEsc(message), `</p></section>`)
+		b.w(`<section tabindex="0" class="pl-report-sec"><h2>Line</h2><p class="pl-report-msg" data-testid="report-message">`, rpEsc(message), `</p></section>`)
 	} else {
 		rpLine(&b, s, rep)
 		rpChecks(&b, rep, rows)
@@ -164,7 +167,7 @@ func rpBody(s *session.Session, rep *fitcore.Report, rows []int, message string,
 		rpAcceptance(&b, rep)
 		rpUse(&b, s, rep)
 		ps := plBuild(s, rep, rows, -1)
-		b.w(`<section class="pl-report-sec pl-report-plots"><h2>Plots</h2><div class="pl-report-plotgrid">`)
+		b.w(`<section tabindex="0" class="pl-report-sec pl-report-plots"><h2>Plots</h2><div class="pl-report-plotgrid">`)
 		for _, p := range [][2]string{{"Readings and the fitted line", ps.Fit}, {"Residuals against fitted values", ps.Residuals},
 			{"Residuals in the order entered", ps.Order}, {"Normal Q–Q plot of the residuals", ps.QQ}} {
 			b.w(`<figure class="pl-report-plot"><figcaption>`, rpEsc(p[0]), `</figcaption>`, p[1], `</figure>`)
@@ -179,7 +182,7 @@ func rpBody(s *session.Session, rep *fitcore.Report, rows []int, message string,
 	}
 	rpReadings(&b, s, rep, rows)
 	rpHistory(&b, s)
-	b.w(`<section class="pl-report-sec pl-report-caution" data-testid="report-caution"><h2>Cautions</h2>`,
+	b.w(`<section tabindex="0" class="pl-report-sec pl-report-caution" data-testid="report-caution"><h2>Cautions</h2>`,
 		`<p><strong>⚠ This is a statistical check of the readings, not a certification.</strong> For gas detectors, structural loads, `,
 		`drinking water and other safety-related or regulated measurements, follow the instrument maker's calibration procedure, `,
 		`your local codes and standards, and the judgement of licensed or accredited staff.</p>`,
@@ -201,7 +204,7 @@ func rpModel(rep *fitcore.Report) string { return wording.Fit(rep.Model, rep.Tra
 
 func rpLine(b *rpB, s *session.Session, rep *fitcore.Report) {
 	sig := 6
-	b.w(`<section class="pl-report-sec"><h2>Line</h2>`)
+	b.w(`<section tabindex="0" class="pl-report-sec"><h2>Line</h2>`)
 	b.w(`<p>Fit: `, rpEsc(rpModel(rep)), `; confidence level `, rpEsc(rpLevel(rep.Level)), `.</p>`)
 	b.w(`<p class="pl-report-eq">`, wording.Equation(rep, func(v float64) string { return rpNum(v, numfmt.Sig(v, sig)) }), `</p>`)
 	// The columns in the order of the screen's "More numbers": the
@@ -234,7 +237,7 @@ func rpLine(b *rpB, s *session.Session, rep *fitcore.Report) {
 }
 
 func rpChecks(b *rpB, rep *fitcore.Report, rows []int) {
-	b.w(`<section class="pl-report-sec"><h2>`, wording.ChecksTitle, `</h2><table class="pl-rt pl-rt-checks"><thead><tr><th>Assumption</th><th>Verdict</th><th>What it means</th></tr></thead><tbody>`)
+	b.w(`<section tabindex="0" class="pl-report-sec"><h2>`, wording.ChecksTitle, `</h2><table class="pl-rt pl-rt-checks"><thead><tr><th>Assumption</th><th>Verdict</th><th>What it means</th></tr></thead><tbody>`)
 	row := func(name string, x fitcore.Assumption) {
 		msg := x.Message
 		if x.Advice != "" {
@@ -278,7 +281,7 @@ func rpChecks(b *rpB, rep *fitcore.Report, rows []int) {
 }
 
 func rpAdvice(b *rpB, rep *fitcore.Report) {
-	b.w(`<section class="pl-report-sec"><h2>Advice</h2>`)
+	b.w(`<section tabindex="0" class="pl-report-sec"><h2>Advice</h2>`)
 	if rep.Advice == nil {
 		b.w(`<p>No advice was asked for.</p></section>`)
 		return
@@ -302,7 +305,7 @@ func rpAdvice(b *rpB, rep *fitcore.Report) {
 }
 
 func rpAcceptance(b *rpB, rep *fitcore.Report) {
-	b.w(`<section class="pl-report-sec"><h2>Acceptance</h2>`)
+	b.w(`<section tabindex="0" class="pl-report-sec"><h2>Acceptance</h2>`)
 	acc := rep.Acceptance
 	if acc == nil {
 		b.w(`<p data-testid="report-verdict" data-verdict="none">No acceptance criteria were set for this session.</p></section>`)
@@ -331,7 +334,7 @@ func rpUse(b *rpB, s *session.Session, rep *fitcore.Report) {
 	if rep.Limits == nil && len(rep.Inverse) == 0 {
 		return
 	}
-	b.w(`<section class="pl-report-sec"><h2>Using the line</h2>`)
+	b.w(`<section tabindex="0" class="pl-report-sec"><h2>Using the line</h2>`)
 	if rep.Limits != nil {
 		b.w(`<p>`, wording.DetectionLimit, ` `, rpNum(rep.Limits.LOD, numfmt.Sig(rep.Limits.LOD, 3)), ` `, rpEsc(s.XUnit), `; `, strings.ToLower(wording.QuantitationLimit), ` `,
 			rpNum(rep.Limits.LOQ, numfmt.Sig(rep.Limits.LOQ, 3)), ` `, rpEsc(s.XUnit), ` (3.3 and 10 residual standard deviations over the slope).</p>`)
@@ -353,7 +356,7 @@ func rpReadings(b *rpB, s *session.Session, rep *fitcore.Report, rows []int) {
 		used[r] = i
 	}
 	counts := s.Count()
-	b.w(`<section class="pl-report-sec pl-report-readings"><h2>Readings</h2><p>`, plCount(counts.Rows, "reading"), `: `,
+	b.w(`<section tabindex="0" class="pl-report-sec pl-report-readings"><h2>Readings</h2><p>`, plCount(counts.Rows, "reading"), `: `,
 		strconv.Itoa(counts.Usable), ` used, `, strconv.Itoa(counts.Excluded), ` left out, `, strconv.Itoa(counts.Problems), ` cells not usable.</p>`)
 	b.w(`<table class="pl-rt pl-rt-readings"><thead><tr><th>#</th><th>`, rpEsc(colHead(s.XName, s.XUnit, "x")), `</th><th>`,
 		rpEsc(colHead(s.YName, s.YUnit, "y")), `</th><th>Residual</th><th>Status and note</th></tr></thead><tbody>`)
@@ -412,7 +415,7 @@ func rpKind(f string) string {
 
 func rpHistory(b *rpB, s *session.Session) {
 	h := s.History
-	b.w(`<section class="pl-report-sec pl-report-history"><h2>History of changes</h2>`)
+	b.w(`<section tabindex="0" class="pl-report-sec pl-report-history"><h2>History of changes</h2>`)
 	if len(h) == 0 {
 		b.w(`<p>No change has been recorded.</p></section>`)
 		return

@@ -14,7 +14,7 @@ import (
 func (c *Shell) renderLine() app.UI {
 	rep := c.view.report
 	if rep == nil {
-		return app.Section().Class("pl-card pl-line").Attr("aria-label", "Line").Body(
+		return app.Section().Class("pl-card pl-line").Attr("aria-label", "Line").DataSet("testid", "line-card").Body(
 			app.H2().Text("Line"),
 			app.P().Class("pl-message").DataSet("testid", "result-message").Text(c.view.message),
 		)
@@ -26,7 +26,7 @@ func (c *Shell) renderLine() app.UI {
 		slopeUnit = unitOr(yu, "y") + " per " + unitOr(xu, "x")
 	}
 	slopeUnit, yu = c.anHeadlineUnits(rep, slopeUnit, yu)
-	return app.Section().Class("pl-card pl-line").Attr("aria-label", "Line").Body(
+	return app.Section().Class("pl-card pl-line").Attr("aria-label", "Line").DataSet("testid", "line-card").Body(
 		app.H2().Text("Line"),
 		// Always in the markup, so that its coming and going never makes
 		// go-app re-mount the numbers after it.

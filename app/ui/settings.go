@@ -695,7 +695,7 @@ func (c *Shell) anAnova(rep *fitcore.Report, sig int, sc anScale) app.UI {
 	if sc.sq != "" {
 		head += " " + sc.sq
 	}
-	return app.Div().Class("an-scroll").Body(
+	return anScroll("Analysis of variance").Body(
 		app.Table().Class("an-table an-anova").DataSet("testid", "anova").Body(
 			app.Caption().Text("Analysis of variance"),
 			app.THead().Body(app.Tr().Body(

@@ -106,6 +106,7 @@ func (c *Shell) OnMount(ctx app.Context) {
 	c.updateReady = ctx.AppUpdateAvailable()
 	c.saves = newSaveQueue()
 	c.mountTransfer(ctx)
+	c.netWatch(ctx)
 	c.anLoadTemplates(ctx)
 	ctx.Async(func() {
 		st, err := store.Open()

@@ -12,6 +12,8 @@ type fieldUI struct {
 	undoUI
 	themeUI
 	demoUI
+	netUI
+	entryUI
 }
 
 // Themes. The class goes on the app's root element; web/themes.css sets the
@@ -67,12 +69,13 @@ func (c *Shell) renderTools() app.UI {
 	opt := func(v, label string) app.UI {
 		return app.Option().Value(v).Selected(th == v).Text(label)
 	}
-	return app.Div().Class("pl-tools").Body(
+	return app.Div().Class("pl-tools").DataSet("testid", "tools").Body(
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Try the demo").DataSet("testid", "demo-open").
 			Attr("title", "Adds four invented sessions of a fictional water board").OnClick(c.loadDemo),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Report").DataSet("testid", "report-open").
 			Disabled(c.sess == nil).OnClick(c.openReport),
 		c.renderUndo(),
+		c.renderNet(),
 		app.Label().Class("pl-theme").Body(
 			app.Span().Text("Screen"),
 			app.Select().DataSet("testid", "theme-select").Attr("aria-label", "Screen colours").OnChange(c.onTheme).Body(
