@@ -54,12 +54,12 @@ type Departures struct {
 	// KnownCurvature, KnownScatter and KnownDrift say the size was
 	// computed; Curvature, Scatter and DriftMatters whether it is at or
 	// above its threshold.
-	KnownCurvature    bool `json:"known_curvature"`
-	KnownScatter      bool `json:"known_scatter"`
-	KnownDrift        bool `json:"known_drift"`
-	CurvatureMatters  bool `json:"curvature_matters"`
-	ScatterMatters    bool `json:"scatter_matters"`
-	DriftMatters      bool `json:"drift_matters"`
+	KnownCurvature   bool `json:"known_curvature"`
+	KnownScatter     bool `json:"known_scatter"`
+	KnownDrift       bool `json:"known_drift"`
+	CurvatureMatters bool `json:"curvature_matters"`
+	ScatterMatters   bool `json:"scatter_matters"`
+	DriftMatters     bool `json:"drift_matters"`
 }
 
 // The practical sizes a Fail needs besides its p (common practice: a
