@@ -19,7 +19,7 @@ import (
 //
 // The check is NA with a reason for fewer than 3 readings, non-finite input,
 // x without spread, or residuals whose squares are all equal (e.g. all zero).
-// Verdict (common practice): p < 0.01 fails, p < 0.05 warns.
+// Verdict: p < CheckFailP fails, p < CheckWarnP warns (DEVELOPERS.md "How the checks decide").
 func BreuschPagan(x, resid []float64) Check {
 	return ckSpread("Breusch–Pagan", x, resid, false, nil)
 }

@@ -24,7 +24,28 @@ func (WeightScheme) Values() []WeightScheme {
 
 // Values lists the remedies the advice can give, RemedyNone first.
 func (Remedy) Values() []Remedy {
-	return []Remedy{RemedyNone, RemedyLogY, RemedySqrtY, RemedyReciprocal, RemedyLogLog, RemedyBoxCox, RemedyWeighted}
+	return []Remedy{RemedyNone, RemedyLogY, RemedySqrtY, RemedyReciprocal, RemedyLogLog, RemedyBoxCox,
+		RemedyWeightedX2, RemedyWeightedFitted, RemedyWeightedRepeats, RemedyWeighted}
+}
+
+// Settings gives the fit a remedy stands for: the model, the scale and the
+// weights (an intercept line in every case; for RemedyBoxCox the λ is the
+// advice candidate's). RemedyNone and an unknown remedy give the plain
+// line.
+func (r Remedy) Settings() (Model, Transform, WeightScheme) {
+	switch r {
+	case RemedyLogY, RemedySqrtY, RemedyReciprocal, RemedyLogLog, RemedyBoxCox:
+		return ModelOLS, Transform(r), WeightsNone
+	case RemedyWeighted:
+		return ModelWeighted, TransformNone, WeightsPowerFit
+	case RemedyWeightedX2:
+		return ModelWeighted, TransformNone, WeightsX2
+	case RemedyWeightedFitted:
+		return ModelWeighted, TransformNone, WeightsFitted2
+	case RemedyWeightedRepeats:
+		return ModelWeighted, TransformNone, WeightsRepeats
+	}
+	return ModelOLS, TransformNone, WeightsNone
 }
 
 // Values lists the verdicts from best to "not checked".

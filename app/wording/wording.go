@@ -168,9 +168,60 @@ func Remedy(r fitcore.Remedy) string {
 	case fitcore.RemedyBoxCox:
 		return "Fit on a Box–Cox scale of y"
 	case fitcore.RemedyWeighted:
-		return "Weight the readings by their spread"
+		return "Weight the readings by an estimated power of x"
+	case fitcore.RemedyWeightedX2:
+		return "Weight the readings by 1/x²"
+	case fitcore.RemedyWeightedFitted:
+		return "Weight the readings by 1/ŷ²"
+	case fitcore.RemedyWeightedRepeats:
+		return "Weight the readings by 1/s² of their repeats"
 	}
 	return string(r)
+}
+
+// RemedyAction is Remedy as the end of a sentence ("Recommended: fit ln y
+// against x."): the same words, the first letter small.
+func RemedyAction(r fitcore.Remedy) string {
+	s := Remedy(r)
+	if s != "" && s[0] >= 'A' && s[0] <= 'Z' {
+		s = string(s[0]+'a'-'A') + s[1:]
+	}
+	return s
+}
+
+// RemedyTag names the fit a remedy gives in a few words, for the heading
+// of its column ("After (ln y)", "After (weighted 1/x²)").
+func RemedyTag(r fitcore.Remedy) string {
+	_, t, w := r.Settings()
+	switch {
+	case w != fitcore.WeightsNone:
+		return "weighted " + WeightTag(w)
+	case t == fitcore.TransformBoxCox:
+		return "power of y"
+	case t != fitcore.TransformNone:
+		return FittedY(t, nil)
+	}
+	return ""
+}
+
+// WeightTag names a weight scheme in a few symbols: "1/x²", "1/ŷ²",
+// "1/s² of repeats", "|x|^−p".
+func WeightTag(w fitcore.WeightScheme) string {
+	switch w {
+	case fitcore.WeightsX:
+		return "1/x"
+	case fitcore.WeightsX2:
+		return "1/x²"
+	case fitcore.WeightsFitted2:
+		return "1/ŷ²"
+	case fitcore.WeightsRepeats:
+		return "1/s² of repeats"
+	case fitcore.WeightsPowerFit:
+		return "|x|^−p"
+	case fitcore.WeightsGiven:
+		return "as given"
+	}
+	return ""
 }
 
 // Model names the kind of fit.
