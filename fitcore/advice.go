@@ -131,10 +131,10 @@ func adNothingToDo(a Assumptions) string {
 			"so no change of scale or weighting is needed."
 	case sp:
 		return "No change of scale or weighting is suggested: the scatter about the line is even across the range, " +
-			"but whether the readings follow a straight line could not be checked (see the linearity check)."
+			"but whether the readings follow a straight line could not be checked (see “" + NameLinearity + "”)."
 	case li:
 		return "No change of scale or weighting is suggested: the readings follow a straight line, " +
-			"but whether the scatter is even across the range could not be checked (see the spread check)."
+			"but whether the scatter is even across the range could not be checked (see “" + NameSpread + "”)."
 	}
 	return "No change of scale or weighting is suggested, but neither the straightness of the line nor the evenness " +
 		"of the scatter could be checked (see the checks)."
@@ -265,8 +265,8 @@ func adTry(x, y []float64, opt Options, r Remedy, before CheckSummary, sc *anScr
 	c.Slope = rep.Slope.Estimate
 	c.Intercept = rep.Intercept.Estimate
 	c.Score = adScore(c.Summary, before, cost)
-	c.Why = strings.TrimSpace(fmt.Sprintf("Scatter: %s; straightness: %s; score %.2f. %s",
-		adVerdictWord(c.Summary.Assumptions.Spread.Verdict), adVerdictWord(c.Summary.Assumptions.Linearity.Verdict), c.Score, note))
+	c.Why = strings.TrimSpace(fmt.Sprintf("%s: %s; %s: %s; score %.2f. %s",
+		NameSpread, c.Summary.Assumptions.Spread.Verdict.Word(), NameLinearity, c.Summary.Assumptions.Linearity.Verdict.Word(), c.Score, note))
 	return c
 }
 
@@ -402,19 +402,7 @@ func adHow(c Candidate) string {
 
 // adAchieved compares the spread and straightness verdicts before and after.
 func adAchieved(before, after CheckSummary) string {
-	return fmt.Sprintf("With this change the scatter check goes from %s to %s and the straight-line check from %s to %s.",
-		adVerdictWord(before.Assumptions.Spread.Verdict), adVerdictWord(after.Assumptions.Spread.Verdict),
-		adVerdictWord(before.Assumptions.Linearity.Verdict), adVerdictWord(after.Assumptions.Linearity.Verdict))
-}
-
-func adVerdictWord(v Verdict) string {
-	switch v {
-	case Pass:
-		return "pass"
-	case Warn:
-		return "warning"
-	case Fail:
-		return "fail"
-	}
-	return "not checked"
+	return fmt.Sprintf("With this change “%s” goes from %s to %s and “%s” from %s to %s.",
+		NameSpread, before.Assumptions.Spread.Verdict.Word(), after.Assumptions.Spread.Verdict.Word(),
+		NameLinearity, before.Assumptions.Linearity.Verdict.Word(), after.Assumptions.Linearity.Verdict.Word())
 }

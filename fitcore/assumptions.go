@@ -46,25 +46,25 @@ func summarize(c Checks, influence Assumption, d *Departures) Assumptions {
 		"The readings may bend slightly away from a straight line.",
 		"The readings bend away from a straight line.",
 		"Look at the advice for a transform, use only the part of the range that is straight, or follow the instrument maker's procedure for a curved response.",
-		"Linearity could not be checked", d.smallCurvature())
+		"Whether the readings follow a straight line could not be checked", d.smallCurvature())
 	a.Spread = ckCombine([]Check{c.BreuschPagan, c.White},
 		"The scatter about the line is about the same across the whole range.",
 		"The scatter about the line may change across the range.",
 		"The scatter about the line changes across the range (bigger at one end or in the middle).",
 		spreadWhatToDo,
-		"Evenness of scatter could not be checked", d.smallScatter())
+		"Whether the scatter is even across the range could not be checked", d.smallScatter())
 	a.Independence = ckCombine([]Check{c.DurbinWatson, c.Runs},
 		"In the order entered, the readings look independent of each other.",
 		"In the order entered, neighbouring readings may be related (a drift or a pattern).",
 		"In the order entered, neighbouring readings are related: there is a drift or a pattern.",
 		"Check for drift (warm-up, temperature, a sensor settling) and, if you can, repeat the readings in a shuffled order.",
-		"Independence could not be checked", d.smallDrift())
+		"Whether the readings are independent could not be checked", d.smallDrift())
 	a.Normality = ckCombine([]Check{c.ShapiroWilk},
 		"The scatter about the line has the usual bell shape.",
 		"The scatter about the line may not have the usual bell shape.",
 		"The scatter about the line does not have the usual bell shape.",
 		"Look for outlying readings first; intervals and limits from this line may be less reliable than stated.",
-		"Normality could not be checked", "")
+		"Whether the scatter is bell-shaped could not be checked", "")
 	a.Influence = influence
 	if c.XExactness != nil {
 		x := ckXExactAssumption(*c.XExactness)

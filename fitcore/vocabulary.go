@@ -111,6 +111,52 @@ const (
 	AssumeXExactness   AssumptionID = "x_exactness"
 )
 
+// The one name of each check of an assumption, as the screen, the advice
+// table, the report, the command and fitcore's own messages write it
+// (app/wording takes them from here). No other name for them is used.
+const (
+	NameLinearity    = "Straight line"
+	NameSpread       = "Even scatter"
+	NameIndependence = "Independent readings (in entry order)"
+	NameNormality    = "Bell-shaped scatter"
+	NameInfluence    = "No single reading dominates"
+	NameXExactness   = "x treated as exact"
+)
+
+// Name is the one name of the check of assumption id (the id itself for an
+// unknown one).
+func (id AssumptionID) Name() string {
+	switch id {
+	case AssumeLinearity:
+		return NameLinearity
+	case AssumeSpread:
+		return NameSpread
+	case AssumeIndependence:
+		return NameIndependence
+	case AssumeNormality:
+		return NameNormality
+	case AssumeInfluence:
+		return NameInfluence
+	case AssumeXExactness:
+		return NameXExactness
+	}
+	return string(id)
+}
+
+// Word is the one word of a verdict: "Pass", "Check" (a warning), "Fail",
+// "Not checked".
+func (v Verdict) Word() string {
+	switch v {
+	case Pass:
+		return "Pass"
+	case Warn:
+		return "Check"
+	case Fail:
+		return "Fail"
+	}
+	return "Not checked"
+}
+
 // CheckID names one statistical test; its value is the key of
 // Report.Checks in JSON.
 type CheckID string

@@ -178,23 +178,23 @@ func (c *Shell) anBeforeAfter(rep *fitcore.Report, ad *fitcore.Advice) app.UI {
 	}
 	sig := numfmt.Precision(c.view.digits)
 	rows := []app.UI{
-		row("linearity", "Straight line", b.Assumptions.Linearity.Verdict, a.Assumptions.Linearity.Verdict),
-		row("spread", "Even scatter", b.Assumptions.Spread.Verdict, a.Assumptions.Spread.Verdict),
-		row("independence", "Independent", b.Assumptions.Independence.Verdict, a.Assumptions.Independence.Verdict),
-		row("normality", "Bell-shaped", b.Assumptions.Normality.Verdict, a.Assumptions.Normality.Verdict),
-		row("influence", "No dominant reading", b.Assumptions.Influence.Verdict, a.Assumptions.Influence.Verdict),
+		row("linearity", wording.CheckLinearity, b.Assumptions.Linearity.Verdict, a.Assumptions.Linearity.Verdict),
+		row("spread", wording.CheckSpread, b.Assumptions.Spread.Verdict, a.Assumptions.Spread.Verdict),
+		row("independence", wording.CheckIndependence, b.Assumptions.Independence.Verdict, a.Assumptions.Independence.Verdict),
+		row("normality", wording.CheckNormality, b.Assumptions.Normality.Verdict, a.Assumptions.Normality.Verdict),
+		row("influence", wording.CheckInfluence, b.Assumptions.Influence.Verdict, a.Assumptions.Influence.Verdict),
 		app.Tr().Body(
 			app.Th().Attr("scope", "row").Text("R²"),
 			app.Td().Body(anNum("advice-r2-before", b.RSquared, numfmt.Decimals(b.RSquared, 4))),
 			app.Td().Body(anNum("advice-r2-after", a.RSquared, numfmt.Decimals(a.RSquared, 4))),
 		),
 		app.Tr().Body(
-			app.Th().Attr("scope", "row").Text("p of the scatter test"),
+			app.Th().Attr("scope", "row").Text(wording.TestP("Breusch–Pagan")),
 			app.Td().Body(anNum("", b.BreuschPaganP, anP(b.BreuschPaganP))),
 			app.Td().Body(anNum("", a.BreuschPaganP, anP(a.BreuschPaganP))),
 		),
 		app.Tr().Body(
-			app.Th().Attr("scope", "row").Text("p of the bend test"),
+			app.Th().Attr("scope", "row").Text(wording.TestP("Curvature")),
 			app.Td().Body(anNum("", b.CurvatureP, anP(b.CurvatureP))),
 			app.Td().Body(anNum("", a.CurvatureP, anP(a.CurvatureP))),
 		),

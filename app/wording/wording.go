@@ -49,14 +49,15 @@ const (
 	Tests = "Tests behind the checks"
 )
 
-// Names of the checks of the assumptions, one per fitcore.Assumptions field.
+// Names of the checks of the assumptions, one per fitcore.Assumptions field:
+// fitcore's names (fitcore.AssumptionID.Name), which its messages use too.
 const (
-	CheckLinearity    = "Straight line"
-	CheckSpread       = "Even scatter"
-	CheckIndependence = "Independent readings (in entry order)"
-	CheckNormality    = "Bell-shaped scatter"
-	CheckInfluence    = "No single reading dominates"
-	CheckXExactness   = "x treated as exact"
+	CheckLinearity    = fitcore.NameLinearity
+	CheckSpread       = fitcore.NameSpread
+	CheckIndependence = fitcore.NameIndependence
+	CheckNormality    = fitcore.NameNormality
+	CheckInfluence    = fitcore.NameInfluence
+	CheckXExactness   = fitcore.NameXExactness
 )
 
 // Percent writes a confidence level in percent, rounded to hide binary
@@ -123,34 +124,22 @@ func DF(df float64) string {
 func Verdict(v fitcore.Verdict) (icon, word string) {
 	switch v {
 	case fitcore.Pass:
-		return "✔", "Pass"
+		icon = "✔"
 	case fitcore.Warn:
-		return "▲", "Check"
+		icon = "▲"
 	case fitcore.Fail:
-		return "✖", "Fail"
+		icon = "✖"
+	default:
+		icon = "○"
 	}
-	return "○", "Not checked"
+	return icon, v.Word()
 }
 
-// CheckName names an assumption the checks judge (one name per
-// fitcore.AssumptionID; the id itself for an unknown one).
-func CheckName(id fitcore.AssumptionID) string {
-	switch id {
-	case fitcore.AssumeLinearity:
-		return CheckLinearity
-	case fitcore.AssumeSpread:
-		return CheckSpread
-	case fitcore.AssumeIndependence:
-		return CheckIndependence
-	case fitcore.AssumeNormality:
-		return CheckNormality
-	case fitcore.AssumeInfluence:
-		return CheckInfluence
-	case fitcore.AssumeXExactness:
-		return CheckXExactness
-	}
-	return string(id)
-}
+// CheckName names an assumption the checks judge (fitcore.AssumptionID.Name).
+func CheckName(id fitcore.AssumptionID) string { return id.Name() }
+
+// TestP names the p of a test in the advice table: "p of Breusch–Pagan".
+func TestP(name string) string { return "p of " + name }
 
 // Remedy says what the advice recommends, as a short instruction.
 func Remedy(r fitcore.Remedy) string {
