@@ -1,9 +1,10 @@
 package fitcore
 
 import (
+	"pairline/app/numfmt"
+
 	"fmt"
 	"math"
-	"strconv"
 )
 
 // Departures gives the size of each departure from the straight line in the
@@ -334,19 +335,8 @@ func (d *Departures) smallDrift() string {
 		ckG2(math.Abs(d.Drift)), DriftSizeSD)
 }
 
-// ckG2 writes a size with two significant digits, without exponent for
-// the sizes these sentences take (0.001 to 10⁶).
-func ckG2(v float64) string {
-	if v == 0 {
-		return "0"
-	}
-	a := math.Abs(v)
-	if a >= 1e6 || a < 1e-3 {
-		return fmt.Sprintf("%.2g", v)
-	}
-	dig := max(0, 1-int(math.Floor(math.Log10(a))))
-	return strconv.FormatFloat(v, 'f', dig, 64)
-}
+// ckG2 writes a size with two significant digits (numfmt.Short).
+func ckG2(v float64) string { return numfmt.Short(v, 2) }
 
 // sizeCapped lowers Fail to Warn in the given checks (their p is kept).
 func sizeCapped(cs ...*Check) {

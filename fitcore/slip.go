@@ -1,6 +1,8 @@
 package fitcore
 
 import (
+	"pairline/app/numfmt"
+
 	"fmt"
 	"math"
 	"strings"
@@ -126,7 +128,7 @@ func slipSentence(s *SlippedDecimal) string {
 	return msg
 }
 
-func ckG4(v float64) string { return fmt.Sprintf("%.4g", v) }
+func ckG4(v float64) string { return numfmt.Short(v, 4) }
 
 func ckAndList(v []string) string {
 	if len(v) <= 1 {

@@ -23,7 +23,7 @@ func (c *Shell) renderLine() app.UI {
 	xu, yu := c.sess.XUnit, c.sess.YUnit
 	slopeUnit := ""
 	if xu != "" || yu != "" {
-		slopeUnit = unitOr(yu, "y") + " per " + unitOr(xu, "x")
+		slopeUnit = wording.SlopeUnit(yu, xu)
 	}
 	slopeUnit, yu = c.anHeadlineUnits(rep, slopeUnit, yu)
 	return app.Section().Class("pl-card pl-line").Attr("aria-label", "Line").Body(

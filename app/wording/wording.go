@@ -93,22 +93,29 @@ func PAgainst(ref string) string { return "p (against " + ref + ")" }
 // not 0, else the two are the same test and would show the same numbers twice.
 func ShowPlainTest(ref float64) bool { return ref != 0 }
 
-// P writes a p-value with two significant digits, and below 0.0001 as
-// "< 0.0001" (beyond that the digits change no decision; common practice).
-func P(p float64) string {
-	if p < 0.0001 {
-		return "< 0.0001"
-	}
-	return numfmt.Sig(p, 2)
-}
+// P writes a p-value in Pairline's one form (numfmt.P): "< 0.001",
+// "0.0043", "0.43", "> 0.99".
+func P(p float64) string { return numfmt.P(p) }
 
-// PEq is "p = 0.012" or "p < 0.0001".
-func PEq(p float64) string {
-	s := P(p)
-	if strings.HasPrefix(s, "<") {
-		return "p " + s
+// PEq is "p = 0.012", "p < 0.001" or "p > 0.99" (numfmt.PEq).
+func PEq(p float64) string { return numfmt.PEq(p) }
+
+// SlopeUnit names the unit of a slope, y unit per x unit ("mV per mg/L");
+// when both are the same unit the slope is a plain ratio and is said so
+// ("ratio"), not "µS/cm per µS/cm". An empty unit is written "y unit",
+// "x unit".
+func SlopeUnit(yUnit, xUnit string) string {
+	y, x := strings.TrimSpace(yUnit), strings.TrimSpace(xUnit)
+	if y != "" && y == x {
+		return "ratio"
 	}
-	return "p = " + s
+	if y == "" {
+		y = "y unit"
+	}
+	if x == "" {
+		x = "x unit"
+	}
+	return y + " per " + x
 }
 
 // DF writes degrees of freedom: whole numbers as such, others (Welch-like
