@@ -126,8 +126,11 @@ func PEq(p float64) string {
 // a technician reports them (GUM, JCGM 100:2008 §7.2.6: the uncertainty to
 // at most two significant digits, the estimate to the same decimal place):
 // Estimate(1.234567, 0.012345) is "1.235" and "0.012". With u zero or not
-// finite the estimate gets sig significant digits and u is "—".
+// finite the estimate gets sig significant digits and u is "0" or "—".
 func Estimate(v, u float64, sig int) (value, unc string) {
+	if u == 0 {
+		return Sig(v, sig), "0"
+	}
 	if !(u > 0) || math.IsInf(u, 0) || math.IsNaN(v) || math.IsInf(v, 0) {
 		return Sig(v, sig), "—"
 	}
