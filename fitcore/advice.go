@@ -241,6 +241,12 @@ func adTry(x, y []float64, opt Options, r Remedy, before CheckSummary, sc *anScr
 		cost = 0.25
 		note = "Scatter taken to grow in proportion to the reading."
 	case RemedyWeightedRepeats:
+		// Checked on the analysis's sorted order of x first, so that a
+		// record without repeats costs no refit (and no second sort).
+		if i, ok := adEveryXRepeated(x, sc.orderOf(x)); !ok {
+			c.Why = fmt.Sprintf("Weights from repeats need at least two readings at every x; reading %d (x = %s) has none beside it.", i+1, ckG4(x[i]))
+			return c
+		}
 		o.Weights, o.Model = WeightsRepeats, ModelWeighted
 		cost = 0.5
 		note = "Scatter taken from the repeats at each standard."
@@ -405,4 +411,27 @@ func adAchieved(before, after CheckSummary) string {
 	return fmt.Sprintf("With this change “%s” goes from %s to %s and “%s” from %s to %s.",
 		NameSpread, before.Assumptions.Spread.Verdict.Word(), after.Assumptions.Spread.Verdict.Word(),
 		NameLinearity, before.Assumptions.Linearity.Verdict.Word(), after.Assumptions.Linearity.Verdict.Word())
+}
+
+// adEveryXRepeated says whether every value of x occurs at least twice,
+// given the positions of x in ascending order (nil: x is in order); when
+// not, i is a reading whose x occurs once.
+func adEveryXRepeated(x []float64, order []int32) (i int, ok bool) {
+	at := func(k int) int {
+		if order == nil {
+			return k
+		}
+		return int(order[k])
+	}
+	for k := 0; k < len(x); {
+		e := k + 1
+		for e < len(x) && x[at(e)] == x[at(k)] {
+			e++
+		}
+		if e-k < 2 {
+			return at(k), false
+		}
+		k = e
+	}
+	return 0, true
 }
