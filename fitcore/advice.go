@@ -22,9 +22,21 @@ import (
 //	sqrt_y        √y on x                     needs every y ≥ 0
 //	reciprocal_y  1/y on x                    needs every y > 0
 //	box_cox       (y^λ − 1)/λ on x, λ from BoxCoxProfile   needs every y > 0
+//	weighted_x2       original units, w = 1/x² (scatter ∝ x)      needs every x ≠ 0
+//	weighted_fitted2  original units, w = 1/ŷ², ŷ from a first unweighted
+//	                  fit (scatter ∝ the reading)                  needs every ŷ ≠ 0
+//	weighted_repeats  original units, w = 1/s²_j, s²_j the variance of the
+//	                  repeats at standard j                        needs ≥ 2 readings at
+//	                                                               every x, not all equal
 //	weighted      original units, w = |x|^(−p), p estimated by Analyze's
 //	              WeightsPowerFit (slope of ln e² on ln|x|; Carroll &
 //	              Ruppert 1988, §3.3)             needs every x ≠ 0
+//
+// The weightings are tried only when the spread check flags: a weighting
+// is a remedy for growing scatter, not for a bend. Each is judged, like
+// every remedy, by the checks of its own fit: for a weighting the spread
+// check of the weighted residuals √w·e (the assumption it is meant to
+// fix), never by leverage or influence, which weights change by design.
 //
 // A remedy the readings cannot take is listed with Usable false and a Why
 // naming the readings that prevent it; it is never recommended.
@@ -42,8 +54,10 @@ import (
 // equally good remedies the simpler and more meaningful scale wins. Preference costs
 // (common practice: a log scale reads as a constant percentage error and is
 // the usual first choice; an estimated power, of y or of the weights, adds
-// uncertainty and is harder to explain): log_y, log_log 0; sqrt_y 0.25;
-// reciprocal_y 0.5; weighted 0.5; box_cox 0.75, plus 0.75 more when its λ
+// uncertainty and is harder to explain; weights from a few repeats are
+// themselves noisy): log_y, log_log 0; sqrt_y, weighted_x2,
+// weighted_fitted2 0.25; reciprocal_y, weighted_repeats, weighted 0.5;
+// box_cox 0.75, plus 0.75 more when its λ
 // interval contains 0, ½ or −1 (the plain log, square root or reciprocal then
 // does the same job). Box–Cox is not offered at all when its interval
 // contains 1 or λ is within 0.1 of 1 (no change of scale worth the name;
@@ -71,7 +85,11 @@ func adviseWith(x, y []float64, opt Options, before *Report, sc *anScratch) *Adv
 
 	base := adScore(ad.Before, ad.Before, 0)
 	best := -1
-	for _, r := range []Remedy{RemedyLogY, RemedyLogLog, RemedySqrtY, RemedyReciprocal, RemedyBoxCox, RemedyWeighted} {
+	tries := []Remedy{RemedyLogY, RemedyLogLog, RemedySqrtY, RemedyReciprocal, RemedyBoxCox}
+	if spreadBad {
+		tries = append(tries, RemedyWeightedX2, RemedyWeightedFitted, RemedyWeightedRepeats, RemedyWeighted)
+	}
+	for _, r := range tries {
 		c := adTry(x, y, opt, r, ad.Before, sc)
 		ad.Candidates = append(ad.Candidates, c)
 		if c.Usable && c.Score >= base+adMinGain && (best < 0 || c.Score > ad.Candidates[best].Score) {
@@ -91,7 +109,7 @@ func adviseWith(x, y []float64, opt Options, before *Report, sc *anScratch) *Adv
 	ad.Remedy = c.Remedy
 	ad.After = &after
 	ad.Reason = problem + " " + adHow(c) + " " + adAchieved(ad.Before, after) + " "
-	if c.Remedy != RemedyWeighted {
+	if _, _, ws := c.Remedy.Settings(); ws == WeightsNone {
 		ad.Reason += "Predictions are converted back to the original units. "
 	}
 	ad.Reason += adCaution
@@ -113,10 +131,10 @@ func adNothingToDo(a Assumptions) string {
 			"so no change of scale or weighting is needed."
 	case sp:
 		return "No change of scale or weighting is suggested: the scatter about the line is even across the range, " +
-			"but whether the readings follow a straight line could not be checked (see the linearity check)."
+			"but whether the readings follow a straight line could not be checked (see “" + NameLinearity + "”)."
 	case li:
 		return "No change of scale or weighting is suggested: the readings follow a straight line, " +
-			"but whether the scatter is even across the range could not be checked (see the spread check)."
+			"but whether the scatter is even across the range could not be checked (see “" + NameSpread + "”)."
 	}
 	return "No change of scale or weighting is suggested, but neither the straightness of the line nor the evenness " +
 		"of the scatter could be checked (see the checks)."
@@ -210,12 +228,38 @@ func adTry(x, y []float64, opt Options, r Remedy, before CheckSummary, sc *anScr
 		o.Weights = WeightsPowerFit
 		o.Model = ModelWeighted
 		cost = 0.5
+	case RemedyWeightedX2:
+		if why := adDomain("Weights 1/x² need every x other than zero", "x", x, adNonZero); why != "" {
+			c.Why = why
+			return c
+		}
+		o.Weights, o.Model = WeightsX2, ModelWeighted
+		cost = 0.25
+		note = "Scatter taken to grow in proportion to x."
+	case RemedyWeightedFitted:
+		o.Weights, o.Model = WeightsFitted2, ModelWeighted
+		cost = 0.25
+		note = "Scatter taken to grow in proportion to the reading."
+	case RemedyWeightedRepeats:
+		// Checked on the analysis's sorted order of x first, so that a
+		// record without repeats costs no refit (and no second sort).
+		if i, ok := adEveryXRepeated(x, sc.orderOf(x)); !ok {
+			c.Why = fmt.Sprintf("Weights from repeats need at least two readings at every x; reading %d (x = %s) has none beside it.", i+1, ckG4(x[i]))
+			return c
+		}
+		o.Weights, o.Model = WeightsRepeats, ModelWeighted
+		cost = 0.5
+		note = "Scatter taken from the repeats at each standard."
 	}
 	sc.refit = true
 	rep, err := analyze(x, y, o, sc)
 	sc.refit = false
 	if err != nil {
-		c.Why = "The refit on this scale failed: " + err.Error() + "."
+		if _, _, ws := r.Settings(); ws != WeightsNone {
+			c.Why = "These weights cannot be used on these readings: " + err.Error() + "."
+		} else {
+			c.Why = "The refit on this scale failed: " + err.Error() + "."
+		}
 		return c
 	}
 	if r == RemedyWeighted {
@@ -227,8 +271,8 @@ func adTry(x, y []float64, opt Options, r Remedy, before CheckSummary, sc *anScr
 	c.Slope = rep.Slope.Estimate
 	c.Intercept = rep.Intercept.Estimate
 	c.Score = adScore(c.Summary, before, cost)
-	c.Why = strings.TrimSpace(fmt.Sprintf("Scatter: %s; straightness: %s; score %.2f. %s",
-		adVerdictWord(c.Summary.Assumptions.Spread.Verdict), adVerdictWord(c.Summary.Assumptions.Linearity.Verdict), c.Score, note))
+	c.Why = strings.TrimSpace(fmt.Sprintf("%s: %s; %s: %s; score %.2f. %s",
+		NameSpread, c.Summary.Assumptions.Spread.Verdict.Word(), NameLinearity, c.Summary.Assumptions.Linearity.Verdict.Word(), c.Score, note))
 	return c
 }
 
@@ -352,25 +396,42 @@ func adHow(c Candidate) string {
 		return fmt.Sprintf("Fit y raised to the power %.2g (the Box–Cox transform) against x: this is the power the readings themselves favour.", c.Lambda)
 	case RemedyWeighted:
 		return fmt.Sprintf("Keep the original units but weight the readings: where the scatter is larger a reading counts for less. The scatter was found to grow about as x to the power %.2g.", c.Power)
+	case RemedyWeightedX2:
+		return "Keep the original units but weight each reading by 1/x²: where the scatter is larger a reading counts for less, as when the scatter grows in proportion to x."
+	case RemedyWeightedFitted:
+		return "Keep the original units but weight each reading by 1/ŷ², ŷ from the unweighted line: as when the scatter grows in proportion to the reading."
+	case RemedyWeightedRepeats:
+		return "Keep the original units but weight each reading by 1/s², s the standard deviation of the repeats at its standard: the scatter measured at each standard sets its weight."
 	}
 	return ""
 }
 
 // adAchieved compares the spread and straightness verdicts before and after.
 func adAchieved(before, after CheckSummary) string {
-	return fmt.Sprintf("With this change the scatter check goes from %s to %s and the straight-line check from %s to %s.",
-		adVerdictWord(before.Assumptions.Spread.Verdict), adVerdictWord(after.Assumptions.Spread.Verdict),
-		adVerdictWord(before.Assumptions.Linearity.Verdict), adVerdictWord(after.Assumptions.Linearity.Verdict))
+	return fmt.Sprintf("With this change “%s” goes from %s to %s and “%s” from %s to %s.",
+		NameSpread, before.Assumptions.Spread.Verdict.Word(), after.Assumptions.Spread.Verdict.Word(),
+		NameLinearity, before.Assumptions.Linearity.Verdict.Word(), after.Assumptions.Linearity.Verdict.Word())
 }
 
-func adVerdictWord(v Verdict) string {
-	switch v {
-	case Pass:
-		return "pass"
-	case Warn:
-		return "warning"
-	case Fail:
-		return "fail"
+// adEveryXRepeated says whether every value of x occurs at least twice,
+// given the positions of x in ascending order (nil: x is in order); when
+// not, i is a reading whose x occurs once.
+func adEveryXRepeated(x []float64, order []int32) (i int, ok bool) {
+	at := func(k int) int {
+		if order == nil {
+			return k
+		}
+		return int(order[k])
 	}
-	return "not checked"
+	for k := 0; k < len(x); {
+		e := k + 1
+		for e < len(x) && x[at(e)] == x[at(k)] {
+			e++
+		}
+		if e-k < 2 {
+			return at(k), false
+		}
+		k = e
+	}
+	return 0, true
 }

@@ -358,8 +358,15 @@ func (fc *fitContext) runChecks() {
 		others()
 		infl()
 	}
+	// The practical sizes: always for the report, for an advice refit only
+	// when a check whose Fail they could change has failed.
+	var dep *Departures
+	if !noScatter && (!fc.sc.refit || fc.sizedFail()) {
+		dep = departures(fc.xt, fc.yt, rep.Residuals, fc.w, origin, fc.allowedResidual())
+	}
 	if fc.sc.refit {
-		rep.Assumptions = summarize(rep.Checks, inflSummary)
+		rep.Assumptions = summarize(rep.Checks, inflSummary, dep)
+		fc.capChecks()
 		return
 	}
 	// inflSummary is what Summarize(rep.Checks, rep.Influence) words, from
@@ -374,7 +381,8 @@ func (fc *fitContext) runChecks() {
 		c.XExactness = &ck
 		xa = &a
 	}
-	rep.Assumptions = summarize(rep.Checks, inflSummary)
+	rep.Assumptions = summarize(rep.Checks, inflSummary, dep)
+	fc.capChecks()
 	// Outliers are looked at first: a reading that looks like a slipped
 	// decimal point is named, and the checks whose result depends on it say so.
 	plain := (fc.opt.Model == "" || fc.opt.Model == ModelOLS || fc.opt.Model == ModelOrigin) &&
@@ -388,13 +396,56 @@ func (fc *fitContext) runChecks() {
 				ckG4(s.Likely) + "); otherwise repeat the reading. Exclude a reading only with a recorded reason."
 		}
 	}
-	if !noScatter {
-		if g, pc, ok := curvatureGap(fc.xt, fc.yt, fc.w, origin); ok {
-			rep.Departures = &Departures{CurvatureGap: g, CurvatureGapPercent: pc}
-		}
-	}
+	rep.Departures = dep
 	if xa != nil && rep.Assumptions.XExactness == nil {
 		rep.Assumptions.XExactness = xa
+	}
+}
+
+// sizedFail says whether a check whose Fail needs a practical size failed.
+func (fc *fitContext) sizedFail() bool {
+	c := &fc.rep.Checks
+	for _, k := range []*Check{&c.Curvature, c.LackOfFit, &c.BreuschPagan, &c.White, &c.DurbinWatson, &c.Runs} {
+		if k != nil && k.Verdict == Fail {
+			return true
+		}
+	}
+	return false
+}
+
+// allowedResidual is the largest residual the acceptance criteria allow,
+// in y units (0 when none is set, or when the line is fitted on a
+// transformed scale, where the criterion's units are not the fit's).
+func (fc *fitContext) allowedResidual() float64 {
+	a := fc.opt.Acceptance
+	if a == nil || a.MaxResidual == nil || !(*a.MaxResidual > 0) ||
+		(fc.opt.Transform != "" && fc.opt.Transform != TransformNone) {
+		return 0
+	}
+	lim := *a.MaxResidual
+	if a.MaxResidualPercentOfSpan {
+		lo, hi := rangeOf(fc.y)
+		lim = lim / 100 * (hi - lo)
+	}
+	if !ckFinite(lim) {
+		return 0
+	}
+	return lim
+}
+
+// capChecks lowers to Warn the Fail of every test of an assumption that
+// summarize turned into a Warn for its small size, so that the tests shown
+// beside it agree (their p values stay).
+func (fc *fitContext) capChecks() {
+	c, a := &fc.rep.Checks, &fc.rep.Assumptions
+	if a.Linearity.Verdict == Warn {
+		sizeCapped(&c.Curvature, c.LackOfFit)
+	}
+	if a.Spread.Verdict == Warn {
+		sizeCapped(&c.BreuschPagan, &c.White)
+	}
+	if a.Independence.Verdict == Warn {
+		sizeCapped(&c.DurbinWatson, &c.Runs)
 	}
 }
 

@@ -27,11 +27,15 @@ import (
 // the line beyond its 90 % confidence region, or alone fixes the line
 // (leverage 1); pass otherwise. Leverage alone is shown, never a flag.
 func Summarize(c Checks, infl []PointInfluence) Assumptions {
-	return summarize(c, ckSummarizeInfluence(infl))
+	return summarize(c, ckSummarizeInfluence(infl), nil)
 }
 
-// summarize is Summarize with the influence assumption already worded.
-func summarize(c Checks, influence Assumption) Assumptions {
+// summarize is Summarize with the influence assumption already worded and
+// the practical sizes d (nil: not known, the evidence alone decides). A
+// linearity, spread or independence Fail whose size in d is below its
+// threshold becomes a Warn that keeps the Fail's wording and adds the
+// sentence that the effect is clear but small (see Departures).
+func summarize(c Checks, influence Assumption, d *Departures) Assumptions {
 	var a Assumptions
 	lin := []Check{c.Curvature}
 	if c.LackOfFit != nil {
@@ -42,25 +46,25 @@ func summarize(c Checks, influence Assumption) Assumptions {
 		"The readings may bend slightly away from a straight line.",
 		"The readings bend away from a straight line.",
 		"Look at the advice for a transform, use only the part of the range that is straight, or follow the instrument maker's procedure for a curved response.",
-		"Linearity could not be checked")
+		"Whether the readings follow a straight line could not be checked", d.smallCurvature())
 	a.Spread = ckCombine([]Check{c.BreuschPagan, c.White},
 		"The scatter about the line is about the same across the whole range.",
 		"The scatter about the line may change across the range.",
 		"The scatter about the line changes across the range (bigger at one end or in the middle).",
 		spreadWhatToDo,
-		"Evenness of scatter could not be checked")
+		"Whether the scatter is even across the range could not be checked", d.smallScatter())
 	a.Independence = ckCombine([]Check{c.DurbinWatson, c.Runs},
 		"In the order entered, the readings look independent of each other.",
 		"In the order entered, neighbouring readings may be related (a drift or a pattern).",
 		"In the order entered, neighbouring readings are related: there is a drift or a pattern.",
 		"Check for drift (warm-up, temperature, a sensor settling) and, if you can, repeat the readings in a shuffled order.",
-		"Independence could not be checked")
+		"Whether the readings are independent could not be checked", d.smallDrift())
 	a.Normality = ckCombine([]Check{c.ShapiroWilk},
 		"The scatter about the line has the usual bell shape.",
 		"The scatter about the line may not have the usual bell shape.",
 		"The scatter about the line does not have the usual bell shape.",
 		"Look for outlying readings first; intervals and limits from this line may be less reliable than stated.",
-		"Normality could not be checked")
+		"Whether the scatter is bell-shaped could not be checked", "")
 	a.Influence = influence
 	if c.XExactness != nil {
 		x := ckXExactAssumption(*c.XExactness)
@@ -83,7 +87,9 @@ func ckVerdictRank(v Verdict) int {
 }
 
 // ckCombine takes the worst verdict of the checks that ran and words it.
-func ckCombine(cs []Check, pass, warn, fail, advice, naLead string) Assumption {
+// small, when not empty, turns a Fail into a Warn worded as the Fail with
+// small after it (the size of the effect is below its threshold).
+func ckCombine(cs []Check, pass, warn, fail, advice, naLead, small string) Assumption {
 	worst := NA
 	var worstMsg string
 	var why []string
@@ -104,6 +110,9 @@ func ckCombine(cs []Check, pass, warn, fail, advice, naLead string) Assumption {
 	case Warn:
 		return Assumption{Verdict: Warn, Message: ckJoin(warn, worstMsg), Advice: advice}
 	case Fail:
+		if small != "" {
+			return Assumption{Verdict: Warn, Message: ckJoin(fail, worstMsg) + " " + small, Advice: advice}
+		}
 		return Assumption{Verdict: Fail, Message: ckJoin(fail, worstMsg), Advice: advice}
 	}
 	msg := naLead + "."

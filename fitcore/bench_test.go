@@ -20,7 +20,7 @@ func lnBenchData(n int) (x, y []float64) {
 	return x, y
 }
 
-var lnBenchSizes = []int{10, 1000, 100000, 1000000}
+var lnBenchSizes = []int{10, 1000, 10000, 100000, 1000000}
 
 // BenchmarkAnalyze is the full analysis: fit, inference, every check,
 // influence, Box–Cox profile and the advice.

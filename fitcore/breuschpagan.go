@@ -1,6 +1,8 @@
 package fitcore
 
 import (
+	"pairline/app/numfmt"
+
 	"fmt"
 	"math"
 )
@@ -19,7 +21,7 @@ import (
 //
 // The check is NA with a reason for fewer than 3 readings, non-finite input,
 // x without spread, or residuals whose squares are all equal (e.g. all zero).
-// Verdict (common practice): p < 0.01 fails, p < 0.05 warns.
+// Verdict: p < CheckFailP fails, p < CheckWarnP warns (DEVELOPERS.md "How the checks decide").
 func BreuschPagan(x, resid []float64) Check {
 	return ckSpread("Breusch–Pagan", x, resid, false, nil)
 }
@@ -75,11 +77,11 @@ func ckSpread(name string, x, resid []float64, quad bool, pre *ckPre) Check {
 	c := Check{Name: name, Statistic: lm, DF: df, P: p, Verdict: ckVerdict(p, ckWarnP, ckFailP)}
 	switch c.Verdict {
 	case Fail:
-		c.Message = fmt.Sprintf("The scatter of the readings about the line changes along x (%s statistic %.3g, %s).", name, lm, ckFmtP(p))
+		c.Message = fmt.Sprintf("The scatter of the readings about the line changes along x (%s statistic %s, %s).", name, numfmt.Short(lm, 3), ckFmtP(p))
 	case Warn:
-		c.Message = fmt.Sprintf("The scatter of the readings about the line may change along x (%s statistic %.3g, %s).", name, lm, ckFmtP(p))
+		c.Message = fmt.Sprintf("The scatter of the readings about the line may change along x (%s statistic %s, %s).", name, numfmt.Short(lm, 3), ckFmtP(p))
 	default:
-		c.Message = fmt.Sprintf("The scatter about the line looks even along x (%s statistic %.3g, %s).", name, lm, ckFmtP(p))
+		c.Message = fmt.Sprintf("The scatter about the line looks even along x (%s statistic %s, %s).", name, numfmt.Short(lm, 3), ckFmtP(p))
 	}
 	return c
 }

@@ -1,6 +1,8 @@
 package fitcore
 
 import (
+	"pairline/app/numfmt"
+
 	"fmt"
 	"math"
 
@@ -169,17 +171,9 @@ func ckZ2(z float64) float64 {
 	return ckClampP(2 * distuv.UnitNormal.Survival(math.Abs(z)))
 }
 
-// ckFmtP formats a p-value for a sentence.
-func ckFmtP(p float64) string {
-	switch {
-	case p < 0.0001:
-		return "p < 0.0001"
-	case p < 0.001:
-		return fmt.Sprintf("p = %.4f", p)
-	default:
-		return fmt.Sprintf("p = %.3f", p)
-	}
-}
+// ckFmtP formats a p-value for a sentence, in the one form the screen
+// uses too (numfmt.PEq).
+func ckFmtP(p float64) string { return numfmt.PEq(p) }
 
 // ckLine fits y = b0 + b1·x (or y = b1·x when origin) by weighted least
 // squares with weights w (nil = 1) using centred sums, and returns the

@@ -1,6 +1,10 @@
 package fitcore
 
-import "fmt"
+import (
+	"fmt"
+
+	"pairline/app/numfmt"
+)
 
 // LackOfFit is the lack-of-fit F test of a straight line against pure error,
 // possible when some x values are repeated. With m distinct x levels, group
@@ -105,11 +109,11 @@ func lackOfFit(x, y, w []float64, origin bool, idx []int32) *Check {
 		Verdict: ckVerdict(p, ckWarnP, ckFailP)}
 	switch c.Verdict {
 	case Fail:
-		c.Message = fmt.Sprintf("The line misses the averages of the repeat readings by more than their scatter explains (F = %.3g, %s).", f, ckFmtP(p))
+		c.Message = fmt.Sprintf("The line misses the averages of the repeat readings by more than their scatter explains (F = %s, %s).", numfmt.Short(f, 3), ckFmtP(p))
 	case Warn:
-		c.Message = fmt.Sprintf("The line may miss the averages of the repeat readings by more than their scatter explains (F = %.3g, %s).", f, ckFmtP(p))
+		c.Message = fmt.Sprintf("The line may miss the averages of the repeat readings by more than their scatter explains (F = %s, %s).", numfmt.Short(f, 3), ckFmtP(p))
 	default:
-		c.Message = fmt.Sprintf("The line passes through the averages of the repeat readings within their scatter (F = %.3g, %s).", f, ckFmtP(p))
+		c.Message = fmt.Sprintf("The line passes through the averages of the repeat readings within their scatter (F = %s, %s).", numfmt.Short(f, 3), ckFmtP(p))
 	}
 	return &c
 }

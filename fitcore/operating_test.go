@@ -243,6 +243,14 @@ func TestOperatingCharacteristic(t *testing.T) {
 				if r := tl.rate(tl.flag["linearity"]); r < 0.90-simMargin(0.90, lines) {
 					t.Errorf("%s: curvature flagged in %.1f %%, stated ≥ 90 %%", d.name, 100*r)
 				}
+			case f == simSpread && d.repeats == 3 && len(d.levels) == 20:
+				if r := tl.rate(tl.flag["spread"]); r < 0.40-simMargin(0.40, lines) {
+					t.Errorf("%s: scatter 3:1 flagged in %.1f %%, stated ≥ 40 %%", d.name, 100*r)
+				}
+			case f == simDrift && d.repeats == 3 && len(d.levels) == 20:
+				if r := tl.rate(tl.flag["independence"]); r < 0.20-simMargin(0.20, lines) {
+					t.Errorf("%s: drift of 2 SD flagged in %.1f %%, stated ≥ 20 %%", d.name, 100*r)
+				}
 			case f == simCurve && d.repeats >= 2:
 				if r := tl.rate(tl.flag["linearity"]); r < 0.25-simMargin(0.25, lines) {
 					t.Errorf("%s: curvature flagged in %.1f %%, stated ≥ 25 %%", d.name, 100*r)

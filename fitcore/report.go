@@ -24,8 +24,11 @@ const (
 	TransformBoxCox     Transform = "box_cox"
 )
 
-// Remedy is what the advice recommends. Besides the transforms it can be
-// RemedyWeighted (a weighted fit with an estimated variance power).
+// Remedy is what the advice recommends. Besides the transforms it can be a
+// weighted fit in the original units: RemedyWeighted (an estimated variance
+// power of x), RemedyWeightedX2 (w = 1/x²), RemedyWeightedFitted (w = 1/ŷ²)
+// or RemedyWeightedRepeats (w = 1/s² of the repeats at each standard).
+// Remedy.Settings gives the fit each stands for.
 type Remedy string
 
 // The remedies the advice can return.
@@ -36,7 +39,15 @@ const (
 	RemedyReciprocal Remedy = "reciprocal_y"
 	RemedyLogLog     Remedy = "log_log"
 	RemedyBoxCox     Remedy = "box_cox"
-	RemedyWeighted   Remedy = "weighted"
+	RemedyWeighted   Remedy = "weighted" // w = |x|^(−p), p estimated (WeightsPowerFit)
+	// RemedyWeightedX2 is w = 1/x² (WeightsX2): scatter proportional to x.
+	RemedyWeightedX2 Remedy = "weighted_x2"
+	// RemedyWeightedFitted is w = 1/ŷ² from a first unweighted fit
+	// (WeightsFitted2): scatter proportional to the reading.
+	RemedyWeightedFitted Remedy = "weighted_fitted2"
+	// RemedyWeightedRepeats is w = 1/s² from the repeats at each standard
+	// (WeightsRepeats; every standard needs 2 or more readings).
+	RemedyWeightedRepeats Remedy = "weighted_repeats"
 )
 
 // WeightScheme says where the weights of a weighted fit come from.

@@ -1,6 +1,8 @@
 package fitcore
 
 import (
+	"pairline/app/numfmt"
+
 	"fmt"
 	"math"
 	"strings"
@@ -18,9 +20,10 @@ type SlippedDecimal struct {
 	Expected float64 `json:"expected"` // the line's value at its x, fitted without it
 	Likely   float64 `json:"likely"`   // Value·Factor, what it probably should be
 	Factor   float64 `json:"factor"`
-	// Clears names the assumptions that warn or fail with the reading and
-	// pass without it (refitted without it, same options).
-	Clears []string `json:"clears,omitempty"`
+	// Clears lists the assumptions (their ids: linearity, spread,
+	// independence, normality) that warn or fail with the reading and pass
+	// without it (refitted without it, same options).
+	Clears []AssumptionID `json:"clears,omitempty"`
 }
 
 // slipFactors are the decimal slips looked for, most likely first (common
@@ -116,12 +119,16 @@ func slipSentence(s *SlippedDecimal) string {
 	msg := fmt.Sprintf("Reading %d looks like a slipped decimal point: %s where the line expects about %s.",
 		s.Index+1, ckG4(s.Value), ckG4(s.Expected))
 	if len(s.Clears) > 0 {
-		msg += fmt.Sprintf(" Without it the %s %s.", ckAndList(s.Clears), ckPlural(len(s.Clears), "check passes", "checks pass"))
+		names := make([]string, len(s.Clears))
+		for i, id := range s.Clears {
+			names[i] = "“" + id.Name() + "”"
+		}
+		msg += fmt.Sprintf(" Without it %s %s.", ckAndList(names), ckPlural(len(names), "passes", "pass"))
 	}
 	return msg
 }
 
-func ckG4(v float64) string { return fmt.Sprintf("%.4g", v) }
+func ckG4(v float64) string { return numfmt.Short(v, 4) }
 
 func ckAndList(v []string) string {
 	if len(v) <= 1 {
@@ -150,14 +157,14 @@ func slipClears(rep *Report, x, y []float64, opt Options, s *SlippedDecimal) {
 		return
 	}
 	pairs := []struct {
-		name      string
+		name      AssumptionID
 		with      *Assumption
 		withoutIt Assumption
 	}{
-		{"straightness", &rep.Assumptions.Linearity, without.Assumptions.Linearity},
-		{"spread", &rep.Assumptions.Spread, without.Assumptions.Spread},
-		{"independence", &rep.Assumptions.Independence, without.Assumptions.Independence},
-		{"normality", &rep.Assumptions.Normality, without.Assumptions.Normality},
+		{AssumeLinearity, &rep.Assumptions.Linearity, without.Assumptions.Linearity},
+		{AssumeSpread, &rep.Assumptions.Spread, without.Assumptions.Spread},
+		{AssumeIndependence, &rep.Assumptions.Independence, without.Assumptions.Independence},
+		{AssumeNormality, &rep.Assumptions.Normality, without.Assumptions.Normality},
 	}
 	for _, p := range pairs {
 		if (p.with.Verdict == Warn || p.with.Verdict == Fail) && p.withoutIt.Verdict == Pass {

@@ -24,7 +24,28 @@ func (WeightScheme) Values() []WeightScheme {
 
 // Values lists the remedies the advice can give, RemedyNone first.
 func (Remedy) Values() []Remedy {
-	return []Remedy{RemedyNone, RemedyLogY, RemedySqrtY, RemedyReciprocal, RemedyLogLog, RemedyBoxCox, RemedyWeighted}
+	return []Remedy{RemedyNone, RemedyLogY, RemedySqrtY, RemedyReciprocal, RemedyLogLog, RemedyBoxCox,
+		RemedyWeightedX2, RemedyWeightedFitted, RemedyWeightedRepeats, RemedyWeighted}
+}
+
+// Settings gives the fit a remedy stands for: the model, the scale and the
+// weights (an intercept line in every case; for RemedyBoxCox the λ is the
+// advice candidate's). RemedyNone and an unknown remedy give the plain
+// line.
+func (r Remedy) Settings() (Model, Transform, WeightScheme) {
+	switch r {
+	case RemedyLogY, RemedySqrtY, RemedyReciprocal, RemedyLogLog, RemedyBoxCox:
+		return ModelOLS, Transform(r), WeightsNone
+	case RemedyWeighted:
+		return ModelWeighted, TransformNone, WeightsPowerFit
+	case RemedyWeightedX2:
+		return ModelWeighted, TransformNone, WeightsX2
+	case RemedyWeightedFitted:
+		return ModelWeighted, TransformNone, WeightsFitted2
+	case RemedyWeightedRepeats:
+		return ModelWeighted, TransformNone, WeightsRepeats
+	}
+	return ModelOLS, TransformNone, WeightsNone
 }
 
 // Values lists the verdicts from best to "not checked".
@@ -89,6 +110,52 @@ const (
 	AssumeInfluence    AssumptionID = "influence"
 	AssumeXExactness   AssumptionID = "x_exactness"
 )
+
+// The one name of each check of an assumption, as the screen, the advice
+// table, the report, the command and fitcore's own messages write it
+// (app/wording takes them from here). No other name for them is used.
+const (
+	NameLinearity    = "Straight line"
+	NameSpread       = "Even scatter"
+	NameIndependence = "Independent readings (in entry order)"
+	NameNormality    = "Bell-shaped scatter"
+	NameInfluence    = "No single reading dominates"
+	NameXExactness   = "x treated as exact"
+)
+
+// Name is the one name of the check of assumption id (the id itself for an
+// unknown one).
+func (id AssumptionID) Name() string {
+	switch id {
+	case AssumeLinearity:
+		return NameLinearity
+	case AssumeSpread:
+		return NameSpread
+	case AssumeIndependence:
+		return NameIndependence
+	case AssumeNormality:
+		return NameNormality
+	case AssumeInfluence:
+		return NameInfluence
+	case AssumeXExactness:
+		return NameXExactness
+	}
+	return string(id)
+}
+
+// Word is the one word of a verdict: "Pass", "Check" (a warning), "Fail",
+// "Not checked".
+func (v Verdict) Word() string {
+	switch v {
+	case Pass:
+		return "Pass"
+	case Warn:
+		return "Check"
+	case Fail:
+		return "Fail"
+	}
+	return "Not checked"
+}
 
 // CheckID names one statistical test; its value is the key of
 // Report.Checks in JSON.

@@ -195,3 +195,26 @@ func ExampleCheckList() {
 	// power <nil>
 	// an option is not valid: model = "quadratic": use ols, origin, weighted or deming
 }
+
+// Every remedy the advice can give stands for options that Normalize
+// accepts, and a weighting stands for a weighted model (what the screen's
+// "use this" and the command's flag hint apply).
+func TestRemedySettings(t *testing.T) {
+	for _, r := range Remedy("").Values() {
+		m, tr, w := r.Settings()
+		o := Options{Model: m, Transform: tr, Weights: w}
+		if tr == TransformBoxCox {
+			l := 0.5
+			o.BoxCoxLambda = &l
+		}
+		if _, err := o.Normalize(); err != nil {
+			t.Errorf("%s: settings %s/%s/%q refused: %v", r, m, tr, w, err)
+		}
+		if (w != WeightsNone) != (m == ModelWeighted) {
+			t.Errorf("%s: model %s with weights %q", r, m, w)
+		}
+		if r == RemedyNone && (tr != TransformNone || w != WeightsNone) {
+			t.Errorf("none stands for %s/%q", tr, w)
+		}
+	}
+}

@@ -250,8 +250,11 @@ func remedyFlag(r fitcore.Remedy) string {
 	switch r {
 	case fitcore.RemedyNone, "":
 		return ""
-	case fitcore.RemedyWeighted:
-		return " (--weights power)"
 	}
-	return " (--transform " + string(r) + ")"
+	if _, t, w := r.Settings(); w != fitcore.WeightsNone {
+		return " (--weights " + string(w) + ")"
+	} else if t != fitcore.TransformNone {
+		return " (--transform " + string(t) + ")"
+	}
+	return ""
 }

@@ -6,6 +6,7 @@ import (
 	"encoding"
 	"encoding/json"
 	"reflect"
+	"slices"
 	"strings"
 	"sync"
 )
@@ -25,10 +26,10 @@ const streamThreshold = 512
 // largest small member, not of the output; TestJSONStreamMatchesMarshal
 // compares the bytes with MarshalIndent's on real inspection output.
 //
-// Structs are walked by encoding/json's rules for what Pairline's types use:
-// exported fields, the name from the json tag, "-", omitempty. A struct
-// with an embedded field, a map or a type with its own marshalling method
-// is marshalled in one piece, which is always correct.
+// Structs are walked by encoding/json's rules (jsonFieldsOf): exported
+// fields, the name from the json tag, "-", omitempty and omitzero, embedded
+// structs promoted. A map or a type with its own marshalling method is
+// marshalled in one piece, which is always correct.
 type jsonStream struct {
 	w      *bufio.Writer
 	indent string
@@ -88,11 +89,6 @@ func (js *jsonStream) walks(v reflect.Value) bool {
 	case reflect.Slice:
 		return v.Len() >= streamThreshold && t.Elem().Kind() != reflect.Uint8
 	case reflect.Struct:
-		for i := 0; i < t.NumField(); i++ {
-			if t.Field(i).Anonymous {
-				return false
-			}
-		}
 		return holdsLong(v, 8)
 	}
 	return false
@@ -276,23 +272,14 @@ func flatTypeOf(t reflect.Type, depth int) bool {
 }
 
 func (js *jsonStream) object(v reflect.Value, at string) {
-	t := v.Type()
 	inner := at + js.indent
 	n := 0
-	for i := 0; i < t.NumField(); i++ {
-		f := t.Field(i)
-		if !f.IsExported() {
-			continue
+	for _, f := range jsonFieldsOf(v.Type()) {
+		fv, err := v.FieldByIndexErr(f.index)
+		if err != nil {
+			continue // inside a nil embedded pointer: encoding/json skips it
 		}
-		name, opts, hasOpts := strings.Cut(f.Tag.Get("json"), ",")
-		if name == "-" && !hasOpts {
-			continue
-		}
-		if name == "" {
-			name = f.Name
-		}
-		fv := v.Field(i)
-		if hasOption(opts, "omitempty") && emptyJSON(fv) || hasOption(opts, "omitzero") && fv.IsZero() {
+		if f.omitEmpty && emptyJSON(fv) || f.omitZero && fv.IsZero() {
 			continue
 		}
 		if n == 0 {
@@ -301,13 +288,8 @@ func (js *jsonStream) object(v reflect.Value, at string) {
 			js.write(",")
 		}
 		n++
-		key, err := json.Marshal(name)
-		if err != nil {
-			js.err = err
-			return
-		}
 		js.write("\n" + inner)
-		js.writeBytes(jsonText(key))
+		js.writeBytes(f.key)
 		js.write(": ")
 		js.value(fv, inner)
 	}
@@ -316,6 +298,106 @@ func (js *jsonStream) object(v reflect.Value, at string) {
 		return
 	}
 	js.write("\n" + at + "}")
+}
+
+// jsonField is one member encoding/json writes for a struct type.
+type jsonField struct {
+	name                string
+	key                 []byte // the name as JSON, escaped
+	index               []int
+	tagged              bool
+	omitEmpty, omitZero bool
+}
+
+// fieldLists caches jsonFieldsOf.
+var fieldLists sync.Map
+
+// jsonFieldsOf lists the members encoding/json writes for struct type t, in
+// its order, by its rules: exported fields, names from the json tag, "-"
+// skipped, the fields of embedded structs without a tag name promoted, and
+// of fields with the same name the shallowest wins, a tagged one before an
+// untagged one at the same depth, and neither when that does not decide.
+func jsonFieldsOf(t reflect.Type) []jsonField {
+	if f, ok := fieldLists.Load(t); ok {
+		return f.([]jsonField)
+	}
+	type level struct {
+		t     reflect.Type
+		index []int
+	}
+	var all []jsonField
+	visited := map[reflect.Type]bool{}
+	for current := []level{{t: t}}; len(current) > 0; {
+		var next []level
+		for _, l := range current {
+			if visited[l.t] {
+				continue
+			}
+			visited[l.t] = true
+			for i := 0; i < l.t.NumField(); i++ {
+				sf := l.t.Field(i)
+				ft := sf.Type
+				if sf.Anonymous {
+					if ft.Kind() == reflect.Pointer {
+						ft = ft.Elem()
+					}
+					if !sf.IsExported() && ft.Kind() != reflect.Struct {
+						continue
+					}
+				} else if !sf.IsExported() {
+					continue
+				}
+				tag := sf.Tag.Get("json")
+				if tag == "-" {
+					continue
+				}
+				name, opts, _ := strings.Cut(tag, ",")
+				index := append(append([]int(nil), l.index...), i)
+				if name == "" && sf.Anonymous && ft.Kind() == reflect.Struct {
+					next = append(next, level{t: ft, index: index})
+					continue
+				}
+				f := jsonField{name: name, index: index, tagged: name != "",
+					omitEmpty: hasOption(opts, "omitempty"), omitZero: hasOption(opts, "omitzero")}
+				if f.name == "" {
+					f.name = sf.Name
+				}
+				all = append(all, f)
+			}
+		}
+		current = next
+	}
+	// Of the fields sharing a name, the dominant one (encoding/json's
+	// rule); the others are dropped.
+	byName := map[string][]jsonField{}
+	for _, f := range all {
+		byName[f.name] = append(byName[f.name], f)
+	}
+	var out []jsonField
+	for _, f := range all {
+		group := byName[f.name]
+		best := group[0]
+		ambiguous := false
+		for _, g := range group[1:] {
+			switch {
+			case len(g.index) < len(best.index) || len(g.index) == len(best.index) && g.tagged && !best.tagged:
+				best, ambiguous = g, false
+			case len(g.index) == len(best.index) && g.tagged == best.tagged:
+				ambiguous = true
+			}
+		}
+		if ambiguous || !slices.Equal(best.index, f.index) {
+			continue
+		}
+		key, _ := json.Marshal(f.name)
+		f.key = jsonText(key)
+		out = append(out, f)
+	}
+	// In the order of the fields in the struct, embedded ones at the place
+	// of their embedding.
+	slices.SortStableFunc(out, func(a, b jsonField) int { return slices.Compare(a.index, b.index) })
+	fieldLists.Store(t, out)
+	return out
 }
 
 func hasOption(opts, name string) bool {

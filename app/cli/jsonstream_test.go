@@ -113,7 +113,21 @@ func TestJSONStreamShapes(t *testing.T) {
 		leaf
 		G []leaf `json:"g"`
 	}
+	type shadow struct {
+		*leaf
+		A      string `json:"a"` // shadows leaf.A
+		G      []leaf `json:"g"`
+		Nilemb *embedded
+	}
+	type twoDeep struct {
+		shadow
+		embedded `json:"named_embedded"`
+		B        int
+	}
 	type outer struct {
+		Shadow   shadow           `json:"shadow"`
+		TwoDeep  twoDeep          `json:"two_deep"`
+		NilEmb   shadow           `json:"nil_emb"`
 		Empty    struct{}         `json:"empty"`
 		AllOmit  leaf             `json:"all_omit"`
 		Nil      []float64        `json:"nil"`
@@ -158,6 +172,8 @@ func TestJSONStreamShapes(t *testing.T) {
 		}
 	}
 	o.Pointer = &outer{Floats: o.Floats[:streamThreshold]}
+	o.Shadow = shadow{leaf: &leaf{A: 3, B: "promoted", D: make([]int, n)}, A: "outer", G: o.Leaves}
+	o.TwoDeep = twoDeep{shadow: o.Shadow, embedded: o.Embedded, B: 9}
 	for _, prefix := range []string{"", "    "} {
 		sameJSON(t, "shapes", o, prefix)
 		sameJSON(t, "pointer to shapes", &o, prefix)

@@ -11,10 +11,11 @@ import (
 )
 
 // Sig formats v with sig significant digits (1 ≤ sig ≤ 17). Magnitudes from
-// 1e-4 up to 1e9 are written in plain decimal notation, others with an
-// exponent ("1.23×10⁻⁷" is avoided on purpose: "1.23e-7" is what a
-// technician can type back in). Trailing zeros after the decimal point are
-// kept, because they state the precision. Non-finite values give "—".
+// 1e-4 up to 1e9 are written in plain decimal notation, others as a
+// technician writes them by hand, "1.50 × 10⁻⁷", never in computer notation
+// ("1.5e-07"; Full gives the text a program reads back). Trailing zeros
+// after the decimal point are kept, because they state the precision. A
+// negative number has the minus sign U+2212. Non-finite values give "—".
 func Sig(v float64, sig int) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return "—"
@@ -37,7 +38,7 @@ func Sig(v float64, sig int) string {
 	exp := int(math.Floor(math.Log10(r)))
 	var s string
 	if exp < -4 || exp >= 9 {
-		s = strconv.FormatFloat(a, 'e', sig-1, 64)
+		s = handExp(strconv.FormatFloat(a, 'e', sig-1, 64))
 	} else {
 		dec := sig - 1 - exp
 		if dec < 0 {
@@ -49,6 +50,124 @@ func Sig(v float64, sig int) string {
 		return "−" + s
 	}
 	return s
+}
+
+// handExp rewrites Go's "1.50e-07" as "1.50 × 10⁻⁷".
+func handExp(e string) string {
+	i := strings.IndexByte(e, 'e')
+	if i < 0 {
+		return e
+	}
+	mant, ex := e[:i], e[i+1:]
+	var b strings.Builder
+	b.WriteString(mant)
+	b.WriteString(" × 10")
+	if ex != "" && ex[0] == '-' {
+		b.WriteString("⁻")
+	}
+	ex = strings.TrimLeft(ex, "+-0")
+	if ex == "" {
+		ex = "0"
+	}
+	const sup = "⁰¹²³⁴⁵⁶⁷⁸⁹"
+	for _, c := range ex {
+		r := []rune(sup)[c-'0']
+		b.WriteRune(r)
+	}
+	return b.String()
+}
+
+// Short is Sig without the trailing zeros after the decimal point (and
+// without a bare decimal point): for figures in a sentence, whose digits
+// state no precision ("about 13.6", not "13.60").
+func Short(v float64, sig int) string {
+	s := Sig(v, sig)
+	if i := strings.Index(s, " × "); i >= 0 {
+		return trimZeros(s[:i]) + s[i:]
+	}
+	return trimZeros(s)
+}
+
+func trimZeros(s string) string {
+	if !strings.Contains(s, ".") {
+		return s
+	}
+	s = strings.TrimRight(s, "0")
+	return strings.TrimSuffix(s, ".")
+}
+
+// P writes a p value in the one form Pairline uses everywhere: two
+// significant digits ("0.043", "0.0043", "0.43"), below 0.001 as "< 0.001"
+// (beyond that the digits change no decision; common practice), and above
+// 0.99 as "> 0.99", so that "1.0" never appears beside "0.996". Not finite
+// or outside [0, 1]: "—".
+func P(p float64) string {
+	switch {
+	case math.IsNaN(p) || p < 0 || p > 1:
+		return "—"
+	case p < 0.001:
+		return "< 0.001"
+	case p <= 0.99:
+		return Sig(p, 2)
+	}
+	return "> 0.99"
+}
+
+// PEq is P in a sentence: "p < 0.001", "p = 0.043", "p > 0.99".
+func PEq(p float64) string {
+	s := P(p)
+	if strings.HasPrefix(s, "<") || strings.HasPrefix(s, ">") {
+		return "p " + s
+	}
+	return "p = " + s
+}
+
+// Estimate writes an estimate with its standard uncertainty u, rounded as
+// a technician reports them (GUM, JCGM 100:2008 §7.2.6: the uncertainty to
+// at most two significant digits, the estimate to the same decimal place):
+// Estimate(1.234567, 0.012345) is "1.235" and "0.012". With u zero or not
+// finite the estimate gets sig significant digits and u is "0" or "—".
+func Estimate(v, u float64, sig int) (value, unc string) {
+	if u == 0 {
+		return Sig(v, sig), "0"
+	}
+	if !(u > 0) || math.IsInf(u, 0) || math.IsNaN(v) || math.IsInf(v, 0) {
+		return Sig(v, sig), "—"
+	}
+	// The decimal place of u's second significant digit, after rounding u
+	// (0.0996 is 0.10, whose second digit is at 10⁻²).
+	ur, _ := strconv.ParseFloat(strconv.FormatFloat(u, 'e', 1, 64), 64)
+	place := int(math.Floor(math.Log10(ur))) - 1
+	if place < -300 || place > 300 {
+		return Sig(v, sig), Sig(u, 2)
+	}
+	unc = Sig(ur, 2)
+	if v == 0 {
+		if place >= 0 {
+			return "0", unc
+		}
+		return "0." + strings.Repeat("0", -place), unc
+	}
+	mag := int(math.Floor(math.Log10(math.Abs(v))))
+	digits := mag - place + 1
+	if digits < 1 {
+		// The estimate is smaller than its uncertainty's second digit: it
+		// rounds to zero at that place.
+		if place >= 0 {
+			return "0", unc
+		}
+		return "0." + strings.Repeat("0", -place), unc
+	}
+	if place < 0 && mag >= -4 && mag < 9 {
+		// Plain decimals: exactly -place of them (Sig would agree except
+		// where rounding carries into a new digit, 9.96 → 10.0).
+		s := strconv.FormatFloat(math.Abs(v), 'f', -place, 64)
+		if v < 0 {
+			s = "−" + s
+		}
+		return s, unc
+	}
+	return Sig(v, min(digits, 17)), unc
 }
 
 // Decimals formats v with a fixed number of decimals (for r and R², whose

@@ -18,8 +18,10 @@ func TestSig(t *testing.T) {
 		{9.9996, 4, "10.00"},
 		{1234567.89, 4, "1235000"},
 		{0.000123456, 3, "0.000123"},
-		{1.5e-7, 3, "1.50e-07"},
-		{4.2e12, 2, "4.2e+12"},
+		{1.5e-7, 3, "1.50 × 10⁻⁷"},
+		{4.2e12, 2, "4.2 × 10¹²"},
+		{-7.9e-24, 2, "−7.9 × 10⁻²⁴"},
+		{1e100, 1, "1 × 10¹⁰⁰"},
 		{0, 3, "0.00"},
 		{math.NaN(), 3, "—"},
 		{math.Inf(-1), 3, "—"},
@@ -71,4 +73,80 @@ func FuzzSig(f *testing.F) {
 func ExampleSig() {
 	fmt.Println(Sig(1.00211681802045, 6), Sig(-0.262323073774029, 4))
 	// Output: 1.00212 −0.2623
+}
+
+// The one p format (common practice for reports: p to two significant
+// digits, a floor below which the digits change no decision, no "1.0").
+func TestP(t *testing.T) {
+	for _, c := range []struct {
+		p    float64
+		want string
+	}{
+		{7.9e-24, "< 0.001"}, {0.00099, "< 0.001"}, {0.001, "0.0010"}, {0.0043, "0.0043"},
+		{0.0099, "0.0099"}, {0.01, "0.010"}, {0.0496, "0.050"}, {0.0432, "0.043"}, {0.43, "0.43"},
+		{0.99, "0.99"}, {0.996, "> 0.99"}, {1, "> 0.99"}, {math.NaN(), "—"}, {-0.1, "—"},
+	} {
+		if got := P(c.p); got != c.want {
+			t.Errorf("P(%v) = %q, want %q", c.p, got, c.want)
+		}
+	}
+	for _, c := range []struct {
+		p    float64
+		want string
+	}{{1e-9, "p < 0.001"}, {0.043, "p = 0.043"}, {0.998, "p > 0.99"}} {
+		if got := PEq(c.p); got != c.want {
+			t.Errorf("PEq(%v) = %q, want %q", c.p, got, c.want)
+		}
+	}
+}
+
+// Estimates rounded to their uncertainty (GUM, JCGM 100:2008 §7.2.6: the
+// uncertainty to two significant digits, the estimate to the same place).
+func TestEstimate(t *testing.T) {
+	for _, c := range []struct {
+		v, u   float64
+		vs, us string
+	}{
+		{1.234567, 0.012345, "1.235", "0.012"},
+		{-0.262323, 0.0996, "−0.26", "0.10"},
+		{12345.6, 123, "12350", "120"},
+		{9.96, 0.05, "9.960", "0.050"},
+		{0.00042, 0.03, "0.000", "0.030"},
+		{3.14159, 0, "3.142", "0"},
+		{3.14159, math.NaN(), "3.142", "—"},
+		{2.5e-9, 1.2e-11, "2.500 × 10⁻⁹", "1.2 × 10⁻¹¹"},
+		{0, 0.25, "0.00", "0.25"},
+	} {
+		vs, us := Estimate(c.v, c.u, 4)
+		if vs != c.vs || us != c.us {
+			t.Errorf("Estimate(%v, %v) = %q, %q; want %q, %q", c.v, c.u, vs, us, c.vs, c.us)
+		}
+	}
+}
+
+func TestShort(t *testing.T) {
+	for _, c := range []struct {
+		v    float64
+		want string
+	}{{13.6, "13.6"}, {13.60001, "13.6"}, {2, "2"}, {-0.5, "−0.5"}, {1.2e10, "1.2 × 10¹⁰"}} {
+		if got := Short(c.v, 4); got != c.want {
+			t.Errorf("Short(%v, 4) = %q, want %q", c.v, got, c.want)
+		}
+	}
+}
+
+func ExampleP() {
+	fmt.Println(P(7.9e-24), P(0.0043), P(0.43), P(0.996))
+	// Output: < 0.001 0.0043 0.43 > 0.99
+}
+
+func ExampleEstimate() {
+	v, u := Estimate(1.234567, 0.012345, 6)
+	fmt.Println(v, "±", u)
+	// Output: 1.235 ± 0.012
+}
+
+func ExampleSig_large() {
+	fmt.Println(Sig(4.2e12, 2), Sig(-1.5e-7, 3))
+	// Output: 4.2 × 10¹² −1.50 × 10⁻⁷
 }

@@ -9,24 +9,8 @@ import (
 	"pairline/fitcore"
 )
 
-// anRemedyName is the plain name of a remedy.
-func anRemedyName(r fitcore.Remedy) string {
-	switch r {
-	case fitcore.RemedyLogY:
-		return "fit log y against x"
-	case fitcore.RemedyLogLog:
-		return "fit log y against log x"
-	case fitcore.RemedySqrtY:
-		return "fit √y against x"
-	case fitcore.RemedyReciprocal:
-		return "fit 1/y against x"
-	case fitcore.RemedyBoxCox:
-		return "fit a power of y (Box–Cox) against x"
-	case fitcore.RemedyWeighted:
-		return "weight the readings"
-	}
-	return "no change"
-}
+// anRemedyName is the plain name of a remedy (wording.RemedyAction).
+func anRemedyName(r fitcore.Remedy) string { return wording.RemedyAction(r) }
 
 // anApplied says whether the settings already carry a change of scale or a
 // weighting (what the advice applies and revert takes back).
@@ -39,20 +23,15 @@ func anApplied(st session.Settings) bool {
 // variance power estimated from the readings.
 func anWithRemedy(st session.Settings, ad *fitcore.Advice) session.Settings {
 	s := st
-	s.Model, s.Weights, s.Transform, s.BoxCoxLambda = fitcore.ModelOLS, fitcore.WeightsNone, fitcore.TransformNone, nil
-	switch ad.Remedy {
-	case fitcore.RemedyWeighted:
-		s.Model, s.Weights = fitcore.ModelWeighted, fitcore.WeightsPowerFit
-	case fitcore.RemedyBoxCox:
-		s.Transform = fitcore.TransformBoxCox
+	s.BoxCoxLambda = nil
+	s.Model, s.Transform, s.Weights = ad.Remedy.Settings()
+	if ad.Remedy == fitcore.RemedyBoxCox {
 		for _, c := range ad.Candidates {
 			if c.Remedy == fitcore.RemedyBoxCox {
 				l := c.Lambda
 				s.BoxCoxLambda = &l
 			}
 		}
-	default:
-		s.Transform = fitcore.Transform(ad.Remedy)
 	}
 	return s
 }
@@ -199,23 +178,23 @@ func (c *Shell) anBeforeAfter(rep *fitcore.Report, ad *fitcore.Advice) app.UI {
 	}
 	sig := numfmt.Precision(c.view.digits)
 	rows := []app.UI{
-		row("linearity", "Straight line", b.Assumptions.Linearity.Verdict, a.Assumptions.Linearity.Verdict),
-		row("spread", "Even scatter", b.Assumptions.Spread.Verdict, a.Assumptions.Spread.Verdict),
-		row("independence", "Independent", b.Assumptions.Independence.Verdict, a.Assumptions.Independence.Verdict),
-		row("normality", "Bell-shaped", b.Assumptions.Normality.Verdict, a.Assumptions.Normality.Verdict),
-		row("influence", "No dominant reading", b.Assumptions.Influence.Verdict, a.Assumptions.Influence.Verdict),
+		row("linearity", wording.CheckLinearity, b.Assumptions.Linearity.Verdict, a.Assumptions.Linearity.Verdict),
+		row("spread", wording.CheckSpread, b.Assumptions.Spread.Verdict, a.Assumptions.Spread.Verdict),
+		row("independence", wording.CheckIndependence, b.Assumptions.Independence.Verdict, a.Assumptions.Independence.Verdict),
+		row("normality", wording.CheckNormality, b.Assumptions.Normality.Verdict, a.Assumptions.Normality.Verdict),
+		row("influence", wording.CheckInfluence, b.Assumptions.Influence.Verdict, a.Assumptions.Influence.Verdict),
 		app.Tr().Body(
 			app.Th().Attr("scope", "row").Text("R²"),
 			app.Td().Body(anNum("advice-r2-before", b.RSquared, numfmt.Decimals(b.RSquared, 4))),
 			app.Td().Body(anNum("advice-r2-after", a.RSquared, numfmt.Decimals(a.RSquared, 4))),
 		),
 		app.Tr().Body(
-			app.Th().Attr("scope", "row").Text("p of the scatter test"),
+			app.Th().Attr("scope", "row").Text(wording.TestP("Breusch–Pagan")),
 			app.Td().Body(anNum("", b.BreuschPaganP, anP(b.BreuschPaganP))),
 			app.Td().Body(anNum("", a.BreuschPaganP, anP(a.BreuschPaganP))),
 		),
 		app.Tr().Body(
-			app.Th().Attr("scope", "row").Text("p of the bend test"),
+			app.Th().Attr("scope", "row").Text(wording.TestP("Curvature")),
 			app.Td().Body(anNum("", b.CurvatureP, anP(b.CurvatureP))),
 			app.Td().Body(anNum("", a.CurvatureP, anP(a.CurvatureP))),
 		),
@@ -235,26 +214,16 @@ func (c *Shell) anBeforeAfter(rep *fitcore.Report, ad *fitcore.Advice) app.UI {
 		)
 	}
 	after := "After"
-	switch ad.Remedy {
-	case fitcore.RemedyLogY:
-		after = "After (log y)"
-	case fitcore.RemedyLogLog:
-		after = "After (log y, log x)"
-	case fitcore.RemedySqrtY:
-		after = "After (√y)"
-	case fitcore.RemedyReciprocal:
-		after = "After (1/y)"
-	case fitcore.RemedyBoxCox:
-		after = "After (power of y)"
-	case fitcore.RemedyWeighted:
-		after = "After (weighted)"
+	if tag := wording.RemedyTag(ad.Remedy); tag != "" {
+		after = "After (" + tag + ")"
 	}
+	_, _, weighted := ad.Remedy.Settings()
 	return anScroll("Advice, before and after").Body(
 		app.Table().Class("an-table an-ba").DataSet("testid", "advice-table").Body(
 			app.THead().Body(app.Tr().Body(app.Th().Text(""), app.Th().Text("Now"), app.Th().Text(after))),
 			app.TBody().Body(rows...),
 		),
-		app.If(cand != nil && ad.Remedy != fitcore.RemedyWeighted, func() app.UI {
+		app.If(cand != nil && weighted == fitcore.WeightsNone, func() app.UI {
 			return app.P().Class("an-hint").Text("After: slope and intercept on the new scale.")
 		}),
 	)

@@ -123,7 +123,8 @@ func TestVerdictWords(t *testing.T) {
 func TestNumberTexts(t *testing.T) {
 	cases := []struct{ got, want string }{
 		{anP(0.0432), "0.043"},
-		{anP(3e-9), "< 0.0001"},
+		{anP(3e-9), "< 0.001"},
+		{anP(0.996), "> 0.99"},
 		{anDF(10), "10"},
 		{anDF(7.25), "7.250"},
 		{anPercent(0.9), "90 %"},

@@ -60,7 +60,7 @@ func TestHandbookAlaskaReport(t *testing.T) {
 	if got := len(ps.Marks["plot-fit"]); got != 107 || !strings.Contains(ps.Fit, `data-count="107"`) {
 		t.Errorf("the fit plot draws %d readings, want 107 [%s]", got, src)
 	}
-	if !strings.Contains(ps.ResSum, "spread check: "+plVerdictWord(rep.Assumptions.Spread.Verdict)) {
+	if !strings.Contains(ps.ResSum, plVerdictOf(wording.CheckSpread, rep.Assumptions.Spread.Verdict)) {
 		t.Errorf("the residual plot's summary does not give fitcore's spread verdict: %s", ps.ResSum)
 	}
 	body := rpBody(s, rep, rows, "", time.Now())

@@ -201,8 +201,7 @@ func plDraw(s *session.Session, rep *fitcore.Report, rows []int, x, y []float64,
 		Points: points(rep.Fitted, rep.Residuals), HLines: []float64{0},
 		Attrs: [][2]string{{"data-n", strconv.Itoa(n)}}}
 	ps.ResSum = "Residuals against fitted values for " + plCount(n, "reading") + ", from " + numfmt.Sig(lo, 3) + " (reading " +
-		strconv.Itoa(rows[loI]+1) + ") to " + numfmt.Sig(hi, 3) + " (reading " + strconv.Itoa(rows[hiI]+1) + "); spread check: " +
-		plVerdictWord(rep.Assumptions.Spread.Verdict) + "."
+		strconv.Itoa(rows[loI]+1) + ") to " + numfmt.Sig(hi, 3) + " (reading " + strconv.Itoa(rows[hiI]+1) + "); " + plVerdictOf(wording.CheckSpread, rep.Assumptions.Spread.Verdict) + "."
 	resChart.Label = ps.ResSum
 	ps.Residuals, ps.Marks[resChart.TestID] = resChart.Draw()
 
@@ -219,8 +218,8 @@ func plDraw(s *session.Session, rep *fitcore.Report, rows []int, x, y []float64,
 		Points: points(order, rep.Residuals), HLines: []float64{0},
 		Paths: []plot.Path{{X: ox, Y: oy, Class: "pl-plot-trace", Stroke: "#5b6770", Width: 1.2}},
 		Attrs: [][2]string{{"data-n", strconv.Itoa(n)}}}
-	ps.OrderSum = "Residuals of " + plCount(n, "reading") + " in the order entered, joined up so that a drift or a run shows; independence check: " +
-		plVerdictWord(rep.Assumptions.Independence.Verdict) + "."
+	ps.OrderSum = "Residuals of " + plCount(n, "reading") + " in the order entered, joined up so that a drift or a run shows; " +
+		plVerdictOf(wording.CheckIndependence, rep.Assumptions.Independence.Verdict) + "."
 	ordChart.Label = ps.OrderSum
 	ps.Order, ps.Marks[ordChart.TestID] = ordChart.Draw()
 
@@ -239,7 +238,7 @@ func plDraw(s *session.Session, rep *fitcore.Report, rows []int, x, y []float64,
 		Paths:  []plot.Path{{X: []float64{refLo, refHi}, Y: []float64{refLo, refHi}, Class: "pl-plot-line", Dash: "8 5", Width: 2}},
 		Attrs:  [][2]string{{"data-n", strconv.Itoa(n)}}}
 	ps.QQSum = "Normal Q–Q plot of " + plCount(n, "studentized residual") + " against the quantiles expected of a bell-shaped scatter; " +
-		"points near the dashed line mean normal scatter; normality check: " + plVerdictWord(rep.Assumptions.Normality.Verdict) + "."
+		"points near the dashed line mean normal scatter; " + plVerdictOf(wording.CheckNormality, rep.Assumptions.Normality.Verdict) + "."
 	qqChart.Label = ps.QQSum
 	ps.QQ, ps.Marks[qqChart.TestID] = qqChart.Draw()
 	return ps
@@ -284,18 +283,8 @@ func plCount(n int, word string) string {
 	return strconv.Itoa(n) + " " + word + "s"
 }
 
-// plVerdictWord is the plain word of a verdict.
-func plVerdictWord(v fitcore.Verdict) string {
-	switch v {
-	case fitcore.Pass:
-		return "pass"
-	case fitcore.Warn:
-		return "warning"
-	case fitcore.Fail:
-		return "fail"
-	}
-	return "not checked"
-}
+// plVerdictOf names a check with its verdict: "“Even scatter”: Check".
+func plVerdictOf(name string, v fitcore.Verdict) string { return "“" + name + "”: " + v.Word() }
 
 // plots returns the drawing of the open session, from the cache when the
 // report did not change (a new report comes with every edit). While an

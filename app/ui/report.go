@@ -217,7 +217,7 @@ func rpLine(b *rpB, s *session.Session, rep *fitcore.Report) {
 			rpNum(c.CILow, numfmt.Sig(c.CILow, sig)), ` to `, rpNum(c.CIHigh, numfmt.Sig(c.CIHigh, sig)), `</td><td>`,
 			rpNum(c.SE, numfmt.Sig(c.SE, 3)), `</td><td>`, rpEsc(wording.Ref(c.Ref)), `: `, rpP(c.PRef), `</td></tr>`)
 	}
-	coef(wording.Slope, rep.Slope, unitOr(s.YUnit, "y")+" per "+unitOr(s.XUnit, "x"))
+	coef(wording.Slope, rep.Slope, wording.SlopeUnit(s.YUnit, s.XUnit))
 	if rep.Model != fitcore.ModelOrigin {
 		coef(wording.Intercept, rep.Intercept, s.YUnit)
 	}

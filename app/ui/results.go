@@ -23,9 +23,13 @@ func (c *Shell) renderLine() app.UI {
 	xu, yu := c.sess.XUnit, c.sess.YUnit
 	slopeUnit := ""
 	if xu != "" || yu != "" {
-		slopeUnit = unitOr(yu, "y") + " per " + unitOr(xu, "x")
+		slopeUnit = wording.SlopeUnit(yu, xu)
 	}
 	slopeUnit, yu = c.anHeadlineUnits(rep, slopeUnit, yu)
+	// Each estimate to the decimal place of its standard error's second
+	// significant digit (numfmt.Estimate).
+	slopeV, slopeU := numfmt.Estimate(rep.Slope.Estimate, rep.Slope.SE, sig)
+	icptV, icptU := numfmt.Estimate(rep.Intercept.Estimate, rep.Intercept.SE, sig)
 	return app.Section().Class("pl-card pl-line").Attr("aria-label", "Line").DataSet("testid", "line-card").Body(
 		app.H2().Text("Line"),
 		// Always in the markup, so that its coming and going never makes
@@ -34,8 +38,8 @@ func (c *Shell) renderLine() app.UI {
 		app.P().Class("pl-equation").Text(c.anEquation(rep, sig)),
 		app.Dl().Class("pl-figures").Body(
 			figure("result-n", wording.PairsUsed, float64(rep.N), itoa(rep.N), ""),
-			figure("result-slope", wording.Slope, rep.Slope.Estimate, numfmt.Sig(rep.Slope.Estimate, sig), slopeUnit+"  ± "+numfmt.Sig(rep.Slope.SE, 2)+" (SE)"),
-			figure("result-intercept", wording.Intercept, rep.Intercept.Estimate, numfmt.Sig(rep.Intercept.Estimate, sig), joinUnit(yu, " ± "+numfmt.Sig(rep.Intercept.SE, 2)+" (SE)")),
+			figure("result-slope", wording.Slope, rep.Slope.Estimate, slopeV, slopeUnit+"  ± "+slopeU+" (SE)"),
+			figure("result-intercept", wording.Intercept, rep.Intercept.Estimate, icptV, joinUnit(yu, " ± "+icptU+" (SE)")),
 			figure("result-r", wording.CorrelationR, rep.R, numfmt.Decimals(rep.R, 6), ""),
 			figure("result-r-squared", wording.RSquared, rep.RSquared, numfmt.Decimals(rep.RSquared, 6), ""),
 			figure("result-residual-se", wording.ResidualSD, rep.ResidualSE, numfmt.Sig(rep.ResidualSE, 3), yu),

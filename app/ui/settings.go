@@ -569,7 +569,7 @@ func (c *Shell) anScaleOf(rep *fitcore.Report) anScale {
 			return s
 		}
 		s.y = yu
-		s.slope = unitOr(yu, "y") + " per " + unitOr(xu, "x")
+		s.slope = wording.SlopeUnit(yu, xu)
 		if yu != "" {
 			s.sq = "(" + yu + ")²"
 			s.cov = s.sq + " per " + unitOr(xu, "x")

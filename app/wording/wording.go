@@ -49,14 +49,15 @@ const (
 	Tests = "Tests behind the checks"
 )
 
-// Names of the checks of the assumptions, one per fitcore.Assumptions field.
+// Names of the checks of the assumptions, one per fitcore.Assumptions field:
+// fitcore's names (fitcore.AssumptionID.Name), which its messages use too.
 const (
-	CheckLinearity    = "Straight line"
-	CheckSpread       = "Even scatter"
-	CheckIndependence = "Independent readings (in entry order)"
-	CheckNormality    = "Bell-shaped scatter"
-	CheckInfluence    = "No single reading dominates"
-	CheckXExactness   = "x treated as exact"
+	CheckLinearity    = fitcore.NameLinearity
+	CheckSpread       = fitcore.NameSpread
+	CheckIndependence = fitcore.NameIndependence
+	CheckNormality    = fitcore.NameNormality
+	CheckInfluence    = fitcore.NameInfluence
+	CheckXExactness   = fitcore.NameXExactness
 )
 
 // Percent writes a confidence level in percent, rounded to hide binary
@@ -92,22 +93,29 @@ func PAgainst(ref string) string { return "p (against " + ref + ")" }
 // not 0, else the two are the same test and would show the same numbers twice.
 func ShowPlainTest(ref float64) bool { return ref != 0 }
 
-// P writes a p-value with two significant digits, and below 0.0001 as
-// "< 0.0001" (beyond that the digits change no decision; common practice).
-func P(p float64) string {
-	if p < 0.0001 {
-		return "< 0.0001"
-	}
-	return numfmt.Sig(p, 2)
-}
+// P writes a p-value in Pairline's one form (numfmt.P): "< 0.001",
+// "0.0043", "0.43", "> 0.99".
+func P(p float64) string { return numfmt.P(p) }
 
-// PEq is "p = 0.012" or "p < 0.0001".
-func PEq(p float64) string {
-	s := P(p)
-	if strings.HasPrefix(s, "<") {
-		return "p " + s
+// PEq is "p = 0.012", "p < 0.001" or "p > 0.99" (numfmt.PEq).
+func PEq(p float64) string { return numfmt.PEq(p) }
+
+// SlopeUnit names the unit of a slope, y unit per x unit ("mV per mg/L");
+// when both are the same unit the slope is a plain ratio and is said so
+// ("ratio"), not "µS/cm per µS/cm". An empty unit is written "y unit",
+// "x unit".
+func SlopeUnit(yUnit, xUnit string) string {
+	y, x := strings.TrimSpace(yUnit), strings.TrimSpace(xUnit)
+	if y != "" && y == x {
+		return "ratio"
 	}
-	return "p = " + s
+	if y == "" {
+		y = "y unit"
+	}
+	if x == "" {
+		x = "x unit"
+	}
+	return y + " per " + x
 }
 
 // DF writes degrees of freedom: whole numbers as such, others (Welch-like
@@ -123,34 +131,22 @@ func DF(df float64) string {
 func Verdict(v fitcore.Verdict) (icon, word string) {
 	switch v {
 	case fitcore.Pass:
-		return "✔", "Pass"
+		icon = "✔"
 	case fitcore.Warn:
-		return "▲", "Check"
+		icon = "▲"
 	case fitcore.Fail:
-		return "✖", "Fail"
+		icon = "✖"
+	default:
+		icon = "○"
 	}
-	return "○", "Not checked"
+	return icon, v.Word()
 }
 
-// CheckName names an assumption the checks judge (one name per
-// fitcore.AssumptionID; the id itself for an unknown one).
-func CheckName(id fitcore.AssumptionID) string {
-	switch id {
-	case fitcore.AssumeLinearity:
-		return CheckLinearity
-	case fitcore.AssumeSpread:
-		return CheckSpread
-	case fitcore.AssumeIndependence:
-		return CheckIndependence
-	case fitcore.AssumeNormality:
-		return CheckNormality
-	case fitcore.AssumeInfluence:
-		return CheckInfluence
-	case fitcore.AssumeXExactness:
-		return CheckXExactness
-	}
-	return string(id)
-}
+// CheckName names an assumption the checks judge (fitcore.AssumptionID.Name).
+func CheckName(id fitcore.AssumptionID) string { return id.Name() }
+
+// TestP names the p of a test in the advice table: "p of Breusch–Pagan".
+func TestP(name string) string { return "p of " + name }
 
 // Remedy says what the advice recommends, as a short instruction.
 func Remedy(r fitcore.Remedy) string {
@@ -168,9 +164,60 @@ func Remedy(r fitcore.Remedy) string {
 	case fitcore.RemedyBoxCox:
 		return "Fit on a Box–Cox scale of y"
 	case fitcore.RemedyWeighted:
-		return "Weight the readings by their spread"
+		return "Weight the readings by an estimated power of x"
+	case fitcore.RemedyWeightedX2:
+		return "Weight the readings by 1/x²"
+	case fitcore.RemedyWeightedFitted:
+		return "Weight the readings by 1/ŷ²"
+	case fitcore.RemedyWeightedRepeats:
+		return "Weight the readings by 1/s² of their repeats"
 	}
 	return string(r)
+}
+
+// RemedyAction is Remedy as the end of a sentence ("Recommended: fit ln y
+// against x."): the same words, the first letter small.
+func RemedyAction(r fitcore.Remedy) string {
+	s := Remedy(r)
+	if s != "" && s[0] >= 'A' && s[0] <= 'Z' {
+		s = string(s[0]+'a'-'A') + s[1:]
+	}
+	return s
+}
+
+// RemedyTag names the fit a remedy gives in a few words, for the heading
+// of its column ("After (ln y)", "After (weighted 1/x²)").
+func RemedyTag(r fitcore.Remedy) string {
+	_, t, w := r.Settings()
+	switch {
+	case w != fitcore.WeightsNone:
+		return "weighted " + WeightTag(w)
+	case t == fitcore.TransformBoxCox:
+		return "power of y"
+	case t != fitcore.TransformNone:
+		return FittedY(t, nil)
+	}
+	return ""
+}
+
+// WeightTag names a weight scheme in a few symbols: "1/x²", "1/ŷ²",
+// "1/s² of repeats", "|x|^−p".
+func WeightTag(w fitcore.WeightScheme) string {
+	switch w {
+	case fitcore.WeightsX:
+		return "1/x"
+	case fitcore.WeightsX2:
+		return "1/x²"
+	case fitcore.WeightsFitted2:
+		return "1/ŷ²"
+	case fitcore.WeightsRepeats:
+		return "1/s² of repeats"
+	case fitcore.WeightsPowerFit:
+		return "|x|^−p"
+	case fitcore.WeightsGiven:
+		return "as given"
+	}
+	return ""
 }
 
 // Model names the kind of fit.

@@ -1,6 +1,7 @@
 package wording
 
 import (
+	"fmt"
 	"testing"
 
 	"pairline/app/numfmt"
@@ -11,11 +12,11 @@ func TestNumbersInWords(t *testing.T) {
 	cases := []struct {
 		what, got, want string
 	}{
-		{"P small", P(3e-9), "< 0.0001"},
-		{"P at the limit", P(0.0001), "0.00010"},
+		{"P small", P(3e-9), "< 0.001"},
+		{"P at the limit", P(0.001), "0.0010"},
 		{"P ordinary", P(0.04567), "0.046"},
-		{"P one", P(1), "1.0"},
-		{"PEq small", PEq(1e-20), "p < 0.0001"},
+		{"P one", P(1), "> 0.99"},
+		{"PEq small", PEq(1e-20), "p < 0.001"},
 		{"PEq ordinary", PEq(0.25), "p = 0.25"},
 		{"Percent 95", Percent(0.95), "95 %"},
 		{"Percent binary noise", Percent(0.9), "90 %"},
@@ -83,4 +84,26 @@ func TestEquation(t *testing.T) {
 			t.Errorf("%s/%s: %q, want %q", tc.rep.Model, tc.rep.Transform, got, tc.want)
 		}
 	}
+}
+
+// Equal units make the slope a plain ratio (common practice: a slope of
+// µS/cm against µS/cm has no unit).
+func TestSlopeUnit(t *testing.T) {
+	for _, c := range [][3]string{
+		{"mV", "mg/L", "mV per mg/L"},
+		{"µS/cm", "µS/cm", "ratio"},
+		{" µS/cm", "µS/cm ", "ratio"},
+		{"", "mg/L", "y unit per mg/L"},
+		{"mV", "", "mV per x unit"},
+		{"", "", "y unit per x unit"},
+	} {
+		if got := SlopeUnit(c[0], c[1]); got != c[2] {
+			t.Errorf("SlopeUnit(%q, %q) = %q, want %q", c[0], c[1], got, c[2])
+		}
+	}
+}
+
+func ExampleSlopeUnit() {
+	fmt.Println(SlopeUnit("mV", "mg/L") + "; " + SlopeUnit("µS/cm", "µS/cm"))
+	// Output: mV per mg/L; ratio
 }
