@@ -252,3 +252,18 @@ func FuzzParseNumberMatchesOracle(f *testing.F) {
 		}
 	})
 }
+
+// BenchmarkParseNumberSteps and BenchmarkParseNumberOracle time the
+// restructured parser and the oracle on the same cell in one run, so that
+// the load of the machine falls on both alike.
+func BenchmarkParseNumberSteps(b *testing.B) {
+	for b.Loop() {
+		_, _, _ = parseNumber("1 234,567 µS/cm", hintNone)
+	}
+}
+
+func BenchmarkParseNumberOracle(b *testing.B) {
+	for b.Loop() {
+		_, _, _ = parseNumberOracle("1 234,567 µS/cm", hintNone)
+	}
+}
