@@ -173,22 +173,92 @@ func isUnitStart(r rune) bool {
 	return unicode.IsLetter(r) || strings.ContainsRune("µ°%‰Ω", r)
 }
 
+// The reasons parseNumber gives in more than one place.
+const (
+	reasonNotNumber     = "is not a number"
+	reasonSepNoDigits   = "has a separator with no digits after it"
+	reasonTwoNumbers    = "holds more than one number; put one reading in each cell"
+	reasonMixedSeps     = "mixes separators in a way that is not a number"
+	reasonLimit         = "is a limit, not a reading: enter the measured value, or leave the cell empty and write the limit in the note"
+	reasonSignOnly      = "is a sign without a number"
+	reasonNoExpDigits   = "has an exponent with no digits"
+	reasonTooLarge      = "is too large to be a reading"
+	reasonSpacedDigits  = "holds more than one number, or digits split by spaces that are not groups of three"
+	reasonBadGroups     = "has thousands separators that do not split the digits into groups of three"
+	reasonHexadecimal   = "looks like a hexadecimal number; Pairline reads decimal numbers only"
+	reasonNotUnit       = "has characters after the number that are not a unit"
+	reasonNotFinite     = "is not a finite number"
+	reasonInvalidText   = "holds characters that are not valid text"
+	reasonEmpty         = "is empty"
+	reasonTooLongPrefix = "is too long to be a reading (more than "
+)
+
+// parseNumber implements ParseNumber and ParseNumberHint (the rules are in
+// ParseNumber's comment). Its steps, in order: the text itself
+// (numberText), the sign (numberSign), the digit groups and their
+// separators (numberGroups), the exponent (numberExponent), the unit
+// (numberUnit), the decision which separator is the decimal one
+// (numberSplit) and the value (numberValue). Each step returns the reason
+// for refusing the text, or "". info is filled as the steps learn it, also
+// when a later step refuses the text.
 func parseNumber(s string, hint numberHint) (float64, numInfo, *NumberError) {
 	var info numInfo
-	fail := func(reason string) (float64, numInfo, *NumberError) {
+	v, reason := readNumber(s, hint, &info)
+	if reason != "" {
 		return 0, info, &NumberError{Text: s, Reason: reason}
 	}
+	return v, info, nil
+}
+
+func readNumber(s string, hint numberHint, info *numInfo) (float64, string) {
+	t, reason := numberText(s)
+	if reason != "" {
+		return 0, reason
+	}
+	neg, t, reason := numberSign(t)
+	if reason != "" {
+		return 0, reason
+	}
+	// At most 8 groups stay on the stack; longer numbers grow the slices.
+	var groupBuf [8]string
+	var sepBuf [8]rune
+	groups, seps, i := numberGroups(t, groupBuf[:0], sepBuf[:0])
+	if len(groups) == 1 && groups[0] == "" {
+		return 0, noDigitsReason(t)
+	}
+	exp, i, reason := numberExponent(t, i)
+	if reason != "" {
+		return 0, reason
+	}
+	if reason := numberUnit(t[i:], groups[0], len(seps)); reason != "" {
+		return 0, reason
+	}
+	intGroups, frac, reason := numberSplit(groups, seps, hint, info)
+	if reason != "" {
+		return 0, reason
+	}
+	return numberValue(neg, intGroups, frac, exp, len(t))
+}
+
+// numberText refuses text that is too long, not valid UTF-8 or blank, and
+// returns it without the spaces around it.
+func numberText(s string) (string, string) {
 	if len(s) > MaxNumberText {
-		return fail("is too long to be a reading (more than " + strconv.Itoa(MaxNumberText) + " characters)")
+		return "", reasonTooLongPrefix + strconv.Itoa(MaxNumberText) + " characters)"
 	}
 	if !utf8.ValidString(s) {
-		return fail("holds characters that are not valid text")
+		return "", reasonInvalidText
 	}
 	t := strings.TrimFunc(s, unicode.IsSpace)
 	if t == "" {
-		return fail("is empty")
+		return "", reasonEmpty
 	}
-	neg := false
+	return t, ""
+}
+
+// numberSign reads a leading '+', '-' or '−' (U+2212) and refuses a limit
+// ('<', '>', '≤', '≥') or a sign alone. t is not empty.
+func numberSign(t string) (neg bool, rest string, reason string) {
 	switch {
 	case strings.HasPrefix(t, "+"):
 		t = t[1:]
@@ -196,170 +266,237 @@ func parseNumber(s string, hint numberHint) (float64, numInfo, *NumberError) {
 		neg, t = true, t[1:]
 	case strings.HasPrefix(t, "−"):
 		neg, t = true, t[len("−"):]
-	case strings.HasPrefix(t, "<"), strings.HasPrefix(t, ">"), strings.HasPrefix(t, "≤"), strings.HasPrefix(t, "≥"):
-		return fail("is a limit, not a reading: enter the measured value, or leave the cell empty and write the limit in the note")
+	case isLimitStart(t):
+		return false, t, reasonLimit
 	}
 	if t == "" {
-		return fail("is a sign without a number")
+		return neg, t, reasonSignOnly
 	}
+	return neg, t, ""
+}
 
-	// Mantissa: digit groups joined by separators, each separator followed
-	// directly by a digit.
-	var groupBuf [8]string
-	var sepBuf [8]rune
-	groups, seps := groupBuf[:0], sepBuf[:0]
-	i := 0
-	start := 0
+func isLimitStart(t string) bool {
+	for _, p := range [...]string{"<", ">", "≤", "≥"} {
+		if strings.HasPrefix(t, p) {
+			return true
+		}
+	}
+	return false
+}
+
+// numberGroups reads the mantissa at the start of t: digit groups joined by
+// separators, each separator followed directly by a digit. It appends the
+// groups and the separators' kinds (sepKind) to groups and seps and returns
+// them with the index after the last group. There is always one group more
+// than separators; only a leading '.' or ',' may have no digits before it.
+func numberGroups(t string, groups []string, seps []rune) ([]string, []rune, int) {
+	i, start := 0, 0
 	for {
 		for i < len(t) && isDigit(t[i]) {
 			i++
 		}
 		groups = append(groups, t[start:i])
-		if i >= len(t) {
-			break
-		}
-		r, n := utf8.DecodeRuneInString(t[i:])
-		if !isSep(r) || i+n >= len(t) || !isDigit(t[i+n]) {
-			break
-		}
-		if t[start:i] == "" && (len(groups) > 1 || (r != '.' && r != ',')) {
-			break // only a leading '.' or ',' may have no digits before it
+		r, n := groupSeparator(t, i, start, len(groups))
+		if n == 0 {
+			return groups, seps, i
 		}
 		seps = append(seps, sepKind(r))
 		i += n
 		start = i
 	}
-	if len(groups) == 1 && groups[0] == "" {
-		low := strings.ToLower(t)
-		if strings.HasPrefix(low, "nan") || strings.HasPrefix(low, "inf") || strings.HasPrefix(t, "∞") {
-			return fail("is not a finite number")
-		}
-		if r, _ := utf8.DecodeRuneInString(t); r == '.' || r == ',' {
-			return fail("has a separator with no digits after it")
-		}
-		return fail("is not a number")
-	}
+}
 
-	// Exponent.
-	exp := ""
-	if i < len(t) && (t[i] == 'e' || t[i] == 'E') {
-		j := i + 1
-		esign := ""
-		switch {
-		case strings.HasPrefix(t[j:], "+"):
-			j++
-		case strings.HasPrefix(t[j:], "-"):
-			esign, j = "-", j+1
-		case strings.HasPrefix(t[j:], "−"):
-			esign, j = "-", j+len("−")
-		}
-		k := j
-		for k < len(t) && isDigit(t[k]) {
-			k++
-		}
-		switch {
-		case k > j:
-			exp = "e" + esign + t[j:k]
-			i = k
-		case j > i+1 || j >= len(t) || !unicode.IsLetter(rune(t[j])):
-			return fail("has an exponent with no digits")
-		}
+// groupSeparator returns the separator at t[i:] and its width when it joins
+// the group t[start:i] (the ngroups-th) to a next group, else width 0.
+func groupSeparator(t string, i, start, ngroups int) (rune, int) {
+	if i >= len(t) {
+		return 0, 0
 	}
+	r, n := utf8.DecodeRuneInString(t[i:])
+	if !isSep(r) || i+n >= len(t) || !isDigit(t[i+n]) {
+		return 0, 0
+	}
+	if t[start:i] == "" && (ngroups > 1 || (r != '.' && r != ',')) {
+		return 0, 0
+	}
+	return r, n
+}
 
-	// Unit.
-	rest := t[i:]
+// noDigitsReason says why text after the sign that starts with no digit is
+// not a number.
+func noDigitsReason(t string) string {
+	low := strings.ToLower(t)
+	if strings.HasPrefix(low, "nan") || strings.HasPrefix(low, "inf") || strings.HasPrefix(t, "∞") {
+		return reasonNotFinite
+	}
+	if r, _ := utf8.DecodeRuneInString(t); r == '.' || r == ',' {
+		return reasonSepNoDigits
+	}
+	return reasonNotNumber
+}
+
+// numberExponent reads an exponent at t[i:]: 'e' or 'E', an optional sign
+// ('+', '-', '−') and digits. It returns the exponent as ParseFloat reads
+// it ("" when there is none) and the index after it. An 'e' directly
+// followed by a letter starts a unit ("2 eV") and is left to numberUnit.
+func numberExponent(t string, i int) (exp string, next int, reason string) {
+	if i >= len(t) || (t[i] != 'e' && t[i] != 'E') {
+		return "", i, ""
+	}
+	j := i + 1
+	esign := ""
+	switch {
+	case strings.HasPrefix(t[j:], "+"):
+		j++
+	case strings.HasPrefix(t[j:], "-"):
+		esign, j = "-", j+1
+	case strings.HasPrefix(t[j:], "−"):
+		esign, j = "-", j+len("−")
+	}
+	k := j
+	for k < len(t) && isDigit(t[k]) {
+		k++
+	}
+	switch {
+	case k > j:
+		return "e" + esign + t[j:k], k, ""
+	case j > i+1 || j >= len(t) || !unicode.IsLetter(rune(t[j])):
+		return "", i, reasonNoExpDigits
+	}
+	return "", i, ""
+}
+
+// numberUnit checks what follows the number: nothing, or a unit (optionally
+// after spaces) that starts with a letter or one of µ ° % ‰ Ω and holds no
+// second number after a space. first is the first digit group and nseps the
+// number of separators, which tell "0x1F" (hexadecimal) from "0 x".
+func numberUnit(rest, first string, nseps int) string {
 	spaced := false
 	if r := strings.TrimLeftFunc(rest, unicode.IsSpace); len(r) != len(rest) {
 		spaced, rest = true, r
 	}
-	if rest != "" {
-		r, _ := utf8.DecodeRuneInString(rest)
-		switch {
-		case isDigit(byte(r)) && r < utf8.RuneSelf, r == '+', r == '-', r == '−':
-			return fail("holds more than one number; put one reading in each cell")
-		case (r == 'x' || r == 'X') && !spaced && len(seps) == 0 && groups[0] == "0":
-			return fail("looks like a hexadecimal number; Pairline reads decimal numbers only")
-		case r == '.' || r == ',':
-			return fail("has a separator with no digits after it")
-		case !isUnitStart(r):
-			return fail("has characters after the number that are not a unit")
-		}
-		fs := strings.FieldsFunc(rest, unicode.IsSpace)
-		for _, f := range fs[1:] {
-			c, _ := utf8.DecodeRuneInString(f)
-			if (c < utf8.RuneSelf && isDigit(byte(c))) || c == '+' || c == '-' || c == '−' || c == '.' || c == ',' {
-				return fail("holds more than one number; put one reading in each cell")
-			}
+	if rest == "" {
+		return ""
+	}
+	r, _ := utf8.DecodeRuneInString(rest)
+	switch {
+	case startsNumber(r):
+		return reasonTwoNumbers
+	case (r == 'x' || r == 'X') && !spaced && nseps == 0 && first == "0":
+		return reasonHexadecimal
+	case r == '.' || r == ',':
+		return reasonSepNoDigits
+	case !isUnitStart(r):
+		return reasonNotUnit
+	}
+	fs := strings.FieldsFunc(rest, unicode.IsSpace)
+	for _, f := range fs[1:] {
+		if c, _ := utf8.DecodeRuneInString(f); startsNumber(c) || c == '.' || c == ',' {
+			return reasonTwoNumbers
 		}
 	}
+	return ""
+}
 
-	// Decide which separator is the decimal one.
-	intGroups, frac := groups, ""
-	var group rune // thousands separator kind, 0 = none
-	// kinds counts each separator kind; nk is the number of kinds used.
-	var kinds [4]int
-	kindIndex := func(k rune) int { return strings.IndexRune(".,' ", k) }
-	nk := 0
+// startsNumber reports whether r is an ASCII digit or a sign.
+func startsNumber(r rune) bool {
+	return r < utf8.RuneSelf && isDigit(byte(r)) || r == '+' || r == '-' || r == '−'
+}
+
+// sepKinds is the order of the separator kinds in numberSplit's counts.
+const sepKinds = ".,' "
+
+// numberSplit decides which separator, if any, is the decimal one. It
+// returns the digit groups before the decimal separator and the digits
+// after it ("" when there is none), and records the decimal separator and
+// the ambiguous form in info.
+func numberSplit(groups []string, seps []rune, hint numberHint, info *numInfo) (intGroups []string, frac string, reason string) {
+	var kinds [4]int // how often each kind of sepKinds occurs
+	nk := 0          // how many kinds occur
 	for _, k := range seps {
-		if kinds[kindIndex(k)] == 0 {
+		ki := strings.IndexRune(sepKinds, k)
+		if kinds[ki] == 0 {
 			nk++
 		}
-		kinds[kindIndex(k)]++
+		kinds[ki]++
 	}
+	var group rune // the thousands separator's kind, 0 = none
 	switch nk {
 	case 0:
+		return groups, "", ""
 	case 1:
-		k := seps[0]
-		switch {
-		case k == ' ' || k == '\'' || len(seps) > 1:
-			group = k
-		default: // one '.' or ','
-			g0, g1 := groups[0], groups[1]
-			amb := len(g1) == 3 && len(g0) >= 1 && len(g0) <= 3 && g0[0] != '0'
-			info.ambiguous = amb
-			decimal := true
-			if amb {
-				switch {
-				case k == ',' && hint == hintNone:
-					return fail("could mean " + g0 + "." + g1 + " or " + g0 + g1 +
-						": type it with a decimal point (" + g0 + "." + g1 + ") or without the separator (" + g0 + g1 + ")")
-				case k == ',' && hint == hintDot, k == '.' && hint == hintComma:
-					decimal = false
-				}
-			}
-			if decimal {
-				intGroups, frac = groups[:1], g1
-				info.dec = k
-			} else {
-				group = k
-			}
+		intGroups, frac, group, reason = oneSeparatorKind(groups, seps, hint, info)
+		if reason != "" {
+			return nil, "", reason
 		}
 	case 2:
 		last := seps[len(seps)-1]
-		if (last != '.' && last != ',') || kinds[kindIndex(last)] != 1 {
-			return fail("mixes separators in a way that is not a number")
+		if (last != '.' && last != ',') || kinds[strings.IndexRune(sepKinds, last)] != 1 {
+			return nil, "", reasonMixedSeps
 		}
 		group = seps[0]
 		intGroups, frac = groups[:len(groups)-1], groups[len(groups)-1]
 		info.dec = last
 	default:
-		return fail("mixes separators in a way that is not a number")
+		return nil, "", reasonMixedSeps
 	}
 	if group != 0 {
-		ok := len(intGroups[0]) >= 1 && len(intGroups[0]) <= 3
-		for _, g := range intGroups[1:] {
-			ok = ok && len(g) == 3
-		}
-		if !ok && group == ' ' {
-			return fail("holds more than one number, or digits split by spaces that are not groups of three")
-		}
-		if !ok {
-			return fail("has thousands separators that do not split the digits into groups of three")
+		reason = checkGroups(intGroups, group)
+	}
+	return intGroups, frac, reason
+}
+
+// oneSeparatorKind is numberSplit for text with one kind of separator: a
+// space or apostrophe, or one that occurs more than once, separates
+// thousands; a single '.' or ',' is the decimal separator except in the
+// ambiguous form, where the hint decides. It returns the integer groups,
+// the fraction digits and the thousands separator's kind (0 for none).
+func oneSeparatorKind(groups []string, seps []rune, hint numberHint, info *numInfo) ([]string, string, rune, string) {
+	k := seps[0]
+	if k == ' ' || k == '\'' || len(seps) > 1 {
+		return groups, "", k, ""
+	}
+	g0, g1 := groups[0], groups[1]
+	amb := len(g1) == 3 && len(g0) >= 1 && len(g0) <= 3 && g0[0] != '0'
+	info.ambiguous = amb
+	if amb {
+		switch {
+		case k == ',' && hint == hintNone:
+			return nil, "", 0, "could mean " + g0 + "." + g1 + " or " + g0 + g1 +
+				": type it with a decimal point (" + g0 + "." + g1 + ") or without the separator (" + g0 + g1 + ")"
+		case k == ',' && hint == hintDot, k == '.' && hint == hintComma:
+			return groups, "", k, ""
 		}
 	}
+	info.dec = k
+	return groups[:1], g1, 0, ""
+}
 
+// checkGroups refuses integer digits that a thousands separator of kind
+// group does not split into a first group of one to three digits and
+// further groups of exactly three.
+func checkGroups(intGroups []string, group rune) string {
+	ok := len(intGroups[0]) >= 1 && len(intGroups[0]) <= 3
+	for _, g := range intGroups[1:] {
+		ok = ok && len(g) == 3
+	}
+	switch {
+	case ok:
+		return ""
+	case group == ' ':
+		return reasonSpacedDigits
+	}
+	return reasonBadGroups
+}
+
+// numberValue joins the sign, the integer groups, the fraction and the
+// exponent into plain decimal text and reads it with strconv.ParseFloat.
+// size is the length of the typed text, enough room for the joined one but
+// for a leading "-0". An overflow is refused; an underflow gives the
+// nearest value (0 or subnormal), as ParseFloat does.
+func numberValue(neg bool, intGroups []string, frac, exp string, size int) (float64, string) {
 	var b strings.Builder
-	b.Grow(len(t) + 2)
+	b.Grow(size + 2)
 	if neg {
 		b.WriteByte('-')
 	}
@@ -375,16 +512,16 @@ func parseNumber(s string, hint numberHint) (float64, numInfo, *NumberError) {
 	}
 	b.WriteString(exp)
 	v, err := strconv.ParseFloat(b.String(), 64)
-	if err != nil {
-		if ne, ok := err.(*strconv.NumError); ok && ne.Err == strconv.ErrRange && (v > 1 || v < -1) {
-			return fail("is too large to be a reading")
-		}
-		if ne, ok := err.(*strconv.NumError); !ok || ne.Err != strconv.ErrRange {
-			return fail("is not a number")
-		}
-		// Underflow: ParseFloat returns the nearest value (0 or subnormal).
+	if err == nil {
+		return v, ""
 	}
-	return v, info, nil
+	if ne, ok := err.(*strconv.NumError); !ok || ne.Err != strconv.ErrRange {
+		return 0, reasonNotNumber
+	}
+	if v > 1 || v < -1 {
+		return 0, reasonTooLarge
+	}
+	return v, ""
 }
 
 // SplitRepeats splits the typed readings of one unknown into its repeats:
