@@ -80,6 +80,13 @@ func DurbinWatsonWeighted(x, pearson, w []float64, origin bool) Check {
 	return durbinWatsonW(x, pearson, w, origin, nil)
 }
 
+// dwNearThreshold says whether a Durbin–Watson p from the beta
+// approximation lies near enough to CheckFailP or CheckWarnP (from a third of
+// the one to five times the other) that a refit of the advice takes the
+// exact p; outside, the approximation gives the same verdict
+// (TestDWQuickWindow).
+func dwNearThreshold(pBeta float64) bool { return pBeta >= CheckFailP/3 && pBeta <= 5*CheckWarnP }
+
 // durbinWatsonW is DurbinWatsonWeighted with what is known about x in pre
 // (nil: validate the inputs here).
 func durbinWatsonW(x, resid, w []float64, origin bool, pre *ckPre) Check {
@@ -118,9 +125,10 @@ func durbinWatsonW(x, resid, w []float64, origin bool, pre *ckPre) Check {
 		exact, how = false, "beta approximation, far in the tail"
 	} else if exact && pre != nil && pre.quick && bok {
 		// A refit of the advice needs only the verdict: exact only near
-		// the thresholds 0.01 and 0.05, where the approximation could
-		// change it.
-		if pb := 2 * math.Min(bcdf, 1-bcdf); pb < 0.002 || pb > 0.2 {
+		// the thresholds CheckFailP and CheckWarnP (0.001 and 0.01), from
+		// a third of the one to five times the other, where the
+		// approximation could change it.
+		if !dwNearThreshold(2 * math.Min(bcdf, 1-bcdf)) {
 			exact, how = false, "beta approximation"
 		}
 	}
