@@ -7,13 +7,18 @@ GO        ?= go
 WASM_LDFLAGS := -s -w
 CHROMIUM  ?= $(shell command -v chromium || command -v chromium-browser || true)
 
-.PHONY: all wasm bin run build test fmt-check vet lint unit browser bench fuzz refcheck icons clean
+.PHONY: all wasm wasm-size bin run build test fmt-check vet lint unit browser bench fuzz refcheck icons clean
 
 all: wasm bin
 
 ## wasm: compile the app to web/app.wasm
 wasm:
 	GOOS=js GOARCH=wasm $(GO) build -trimpath -ldflags="$(WASM_LDFLAGS)" -o web/app.wasm ./wasm
+
+## wasm-size: what each package costs in app.wasm (an unstripped build, read by testdata/wasmsize)
+wasm-size:
+	GOOS=js GOARCH=wasm $(GO) build -trimpath -o bin/app-names.wasm ./wasm
+	$(GO) run ./testdata/wasmsize -top 30 bin/app-names.wasm
 
 ## bin: build the native command bin/pairline
 bin:

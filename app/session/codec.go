@@ -16,7 +16,6 @@ import (
 	"time"
 	"unicode/utf8"
 
-	"github.com/vmihailenco/msgpack/v5"
 	"github.com/vmihailenco/msgpack/v5/msgpcode"
 
 	"pairline/fitcore"
@@ -163,7 +162,7 @@ func EncodeAppend(buf []byte, sessions []*Session) ([]byte, error) {
 	out.Grow(encodedSizeHint(sessions))
 	var header [headerSize]byte
 	out.Write(header[:])
-	e := msgpack.NewEncoder(out)
+	e := newMPWriter(out)
 	if err := encodeBundle(e, sessions); err != nil {
 		return nil, err
 	}
@@ -181,10 +180,10 @@ func EncodeAppend(buf []byte, sessions []*Session) ([]byte, error) {
 	return out.Bytes(), nil
 }
 
-// msgpack writes into a bytes.Buffer cannot fail, so the encoder's errors
-// are collected once at the end of each helper.
+// Writes into a bytes.Buffer cannot fail; the writer's errors are still
+// collected, once at the end of each helper.
 type enc struct {
-	*msgpack.Encoder
+	*mpWriter
 	err error
 }
 
@@ -283,8 +282,8 @@ func listItems(c []Condition, st []Standard, u []Unknown) int {
 	return n
 }
 
-func encodeBundle(me *msgpack.Encoder, sessions []*Session) error {
-	e := &enc{Encoder: me}
+func encodeBundle(me *mpWriter, sessions []*Session) error {
+	e := &enc{mpWriter: me}
 	e.mapLen(2)
 	e.str("written_by", "pairline")
 	e.key("sessions")
