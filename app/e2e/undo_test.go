@@ -64,14 +64,10 @@ func unReachable(t *testing.T, b *browser, card string) bool {
 }
 
 // unViewShot saves what the viewport shows (not the whole page) under
-// artifacts/, as screenshot does.
+// artifactDir, as screenshot does.
 func unViewShot(t *testing.T, b *browser, name string) {
 	t.Helper()
-	dir := os.Getenv("PAIRLINE_ARTIFACTS")
-	if dir == "" {
-		dir, _ = filepath.Abs("../../artifacts")
-	}
-	os.MkdirAll(dir, 0o755)
+	dir := artifactDir(t)
 	time.Sleep(200 * time.Millisecond) // the scroll and the frame after it
 	buf, err := chromedp.Run(b.ctx, chromedp.CaptureScreenshot())
 	if err != nil {
