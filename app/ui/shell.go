@@ -306,6 +306,7 @@ func (c *Shell) analyseNow(quick bool) {
 	if err != nil {
 		a.message = plainFitError(err, len(rows))
 	} else {
+		renumberReport(rep, rows) // before an earlier advice is carried over: it was renumbered already
 		a.report = rep
 		if quick {
 			a.stale = true
@@ -333,6 +334,7 @@ func (c *Shell) completeNow() {
 		c.analyse()
 		return
 	}
+	renumberAdvice(r.Advice, c.view.rows)
 	c.view.report = &r
 	c.view.stale, c.view.advicePending = false, false
 	c.view.plotsLater = true
