@@ -112,6 +112,18 @@ func (c *Shell) exportResults(ctx app.Context, e app.Event) {
 	} {
 		rows = append(rows, []string{f.name, numfmt.Full(f.v)})
 	}
+	// The record's unknown samples, by name, with fitcore's conversion and
+	// its interval in x units.
+	_, named := unknownResults(c.sess, rep)
+	for _, n := range named {
+		name := c.sess.Unknowns[n.Index].Name
+		rows = append(rows, []string{"unknown " + name + ": x", numfmt.Full(n.Inv.X)},
+			[]string{"unknown " + name + ": standard uncertainty of x", numfmt.Full(n.Inv.SE)})
+		if n.Inv.Bounded {
+			rows = append(rows, []string{"unknown " + name + ": interval low", numfmt.Full(n.Inv.Low)},
+				[]string{"unknown " + name + ": interval high", numfmt.Full(n.Inv.High)})
+		}
+	}
 	// The same writer as the readings, so that no cell reaches a
 	// spreadsheet as a formula.
 	var buf bytes.Buffer

@@ -36,14 +36,23 @@ func (c *Shell) Render() app.UI {
 		app.If(c.sess == nil, func() app.UI {
 			return app.Main().Class("pl-main").Body(app.P().Class("pl-wait").Text("Opening your sessions…"))
 		}).Else(func() app.UI {
+			// A sealed record takes no input until the technician starts
+			// its next revision: the fieldset disables every control in
+			// it (it is laid out as if absent: web/record.css).
 			return app.Main().Class("pl-main").Body(
 				c.renderJumps(),
-				c.renderReadings(),
-				c.renderLine(),
-				c.renderPlots(),
-				c.renderChecks(), c.renderAdvice(),
-				c.renderAcceptance(), c.renderUseLine(),
-				c.renderSettings(), c.renderTransfer(),
+				app.FieldSet().Class("pl-lockset").Disabled(c.locked()).Body(
+					c.renderRecord(),
+					c.renderReadings(),
+					c.renderLine(),
+					c.renderPlots(),
+					c.renderChecks(), c.renderAdvice(),
+					c.renderAcceptance(), c.renderUseLine(),
+					c.renderUnknowns(),
+				),
+				c.renderSign(),
+				app.FieldSet().Class("pl-lockset").Disabled(c.locked()).Body(c.renderSettings()),
+				c.renderTransfer(),
 			)
 		}),
 		app.If(c.rpOpen && c.sess != nil, c.renderReport),
@@ -120,6 +129,7 @@ func focus(testid string) {
 
 // jumps are the cards the jump bar leads to, by the aria-label of each card.
 var jumps = []struct{ label, card string }{
+	{"Record", "Record"},
 	{"Readings", "Readings"},
 	{"Line", "Line"},
 	{"Plots", "Plots"},
@@ -127,6 +137,8 @@ var jumps = []struct{ label, card string }{
 	{"Advice", "Advice"},
 	{"Criteria", "Acceptance"},
 	{"Use", "Use the line"},
+	{"Samples", "Unknown samples"},
+	{"Sign-off", "Sign-off"},
 	{"Settings", "Fit settings"},
 	{"Files", "Files"},
 }

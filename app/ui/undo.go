@@ -138,7 +138,7 @@ func (c *Shell) undoRedo(ctx app.Context, back bool) {
 	if !back {
 		from, to, field, word = &c.unRedo, &c.unStack, session.FieldRedo, "Redone: "
 	}
-	if c.sess == nil || len(*from) == 0 {
+	if c.sess == nil || len(*from) == 0 || c.locked() {
 		return
 	}
 	step := (*from)[len(*from)-1]
@@ -210,7 +210,8 @@ var fieldWords = map[string]string{
 	session.FieldTitle: "title", session.FieldSite: "site", session.FieldInstrument: "instrument",
 	session.FieldSerial: "serial number", session.FieldOperator: "operator", session.FieldXName: "name of x",
 	session.FieldXUnit: "unit of x", session.FieldYName: "name of y", session.FieldYUnit: "unit of y",
-	session.FieldNotes: "notes",
+	session.FieldNotes: "notes", session.FieldInstrumentID: "identifier of the instrument",
+	session.FieldIntervalDays: "calibration interval (days)",
 }
 
 func describeEdit(e session.Edit) string {
@@ -255,6 +256,12 @@ func describeEdit(e session.Edit) string {
 		return "redo of " + e.New
 	case session.FieldRows:
 		return ""
+	case session.EditCondition, session.EditStandard, session.EditUnknown, session.EditSealed, session.EditReviewed:
+		// The record's own entries say it in words: "standard 2
+		// certificate set to C-2231", "revision 1 sealed, performed by …".
+		return clip(e.New, 120)
+	case session.EditRevision:
+		return "revision " + e.New + " started"
 	}
 	if w, ok := fieldWords[e.Field]; ok {
 		if e.New == "" {
@@ -349,10 +356,10 @@ func (c *Shell) renderUndo() app.UI {
 	return app.Div().Class("pl-undo").Attr("role", "group").Attr("aria-label", "Undo and redo").Body(
 		app.Button().Class("pl-btn pl-btn-quiet").Text("↶ Undo").DataSet("testid", "undo").
 			DataSet("depth", strconv.Itoa(nu)).Attr("aria-label", undoLabel).Attr("title", undoLabel).
-			Disabled(nu == 0).OnClick(c.undo),
+			Disabled(nu == 0 || c.locked()).OnClick(c.undo),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("↷ Redo").DataSet("testid", "redo").
 			DataSet("depth", strconv.Itoa(nr)).Attr("aria-label", redoLabel).Attr("title", redoLabel).
-			Disabled(nr == 0).OnClick(c.redo),
+			Disabled(nr == 0 || c.locked()).OnClick(c.redo),
 		app.Span().Class("pl-tools-msg").Attr("role", "status").DataSet("testid", "undo-message").
 			Hidden(c.unMsg == "").Text(c.unMsg),
 	)
