@@ -48,8 +48,8 @@ type RecordAction struct {
 // recordFields are the texts of the identity card.
 type recordFields struct {
 	Site, Instrument, Serial, InstrumentID, Operator, Notes string
-	Interval                                               string // days, as digits; "" = not set
-	Temperature, TempUnit                                  string
+	Interval                                                string // days, as digits; "" = not set
+	Temperature, TempUnit                                   string
 }
 
 // lastOffer is the last record of the same instrument (and site), offered
@@ -433,7 +433,9 @@ func (r *signCard) Render() app.UI {
 				app.P().Text("Performed by "+s.PerformedBy+", "+s.PerformedAt+"."),
 				app.If(s.ReviewedBy != "", func() app.UI { return app.P().Text("Reviewed by " + s.ReviewedBy + ", " + s.ReviewedAt + ".") }),
 				app.P().Class("pl-digest").Text("Digest (SHA-256): "+s.Digest),
-				app.If(!s.Valid, func() app.UI { return app.P().Class("pl-problem").Text("▲ The seal does not match the record: " + s.Problem) }),
+				app.If(!s.Valid, func() app.UI {
+					return app.P().Class("pl-problem").Text("▲ The seal does not match the record: " + s.Problem)
+				}),
 				app.If(!s.Unlocked, func() app.UI {
 					return app.P().Class("pl-hint").Text("The readings, the settings and the results of a sealed record are frozen. " +
 						"To change anything, start revision " + strconv.Itoa(s.Revision+1) + ": the sealed revision " + strconv.Itoa(s.Revision) +

@@ -17,10 +17,10 @@ import (
 
 // recordUI is the Shell's state of the record cards.
 type recordUI struct {
-	recUnlock string           // ID of the sealed session the technician opened for its next revision
-	recLast   *session.Session // the last record of the same instrument (and site), offered
-	recKey    string           // instrument key and site recLast was looked up for
-	recNoOffer string          // ID of the session whose offer was used or dismissed
+	recUnlock  string           // ID of the sealed session the technician opened for its next revision
+	recLast    *session.Session // the last record of the same instrument (and site), offered
+	recKey     string           // instrument key and site recLast was looked up for
+	recNoOffer string           // ID of the session whose offer was used or dismissed
 }
 
 // locked reports whether the open record is sealed and not opened for its
