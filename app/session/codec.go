@@ -621,8 +621,9 @@ func readAtMost(r io.Reader, want, guess int64) ([]byte, error) {
 }
 
 // migrate brings sessions read from an older minor version up to date.
-// Format 1.0 is the first version, so there is nothing to do yet; a future
-// 1.1 reader fills in here what 1.0 files lack.
+// A 1.0 file lacks the calibration record of 1.1, whose zero values (no
+// conditions, standards, unknowns or seal; revision 0) are what a 1.0
+// record means, so there is nothing to do yet.
 func migrate(f *File) {}
 
 func notSessionFile(b []byte) error {

@@ -320,11 +320,8 @@ func shortDigest(d string) string {
 // why.
 func (s *Session) ResultsSummary() string {
 	x, y, _, problems := s.Pairs()
-	opt := s.Settings.Options()
+	opt, conv, _ := s.RecordOptions(x)
 	opt.SkipAdvice = true
-	conv := s.UnknownQueries()
-	opt.Inverse = conv.Queries
-	opt.XStandardUncertainties, _ = s.StandardUncertainties(x)
 	rep, err := fitcore.Analyze(x, y, opt)
 	var b strings.Builder
 	fmt.Fprintf(&b, "%d pairs used", len(x))

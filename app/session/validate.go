@@ -54,7 +54,7 @@ const (
 	// in bytes; longer text is "too long to be a reading".
 	MaxNumberText = 256
 	// MaxMapKeys is the most keys one MessagePack map of a session file
-	// holds. Format 1.0 uses at most 17; the rest is room for keys a newer
+	// holds. Format 1.1 uses at most 23; the rest is room for keys a newer
 	// minor version adds.
 	MaxMapKeys = 256
 	// MaxKeyLen is the longest map key of a session file, in bytes.
