@@ -11,7 +11,6 @@ package ui
 import (
 	"strconv"
 	"strings"
-	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
@@ -26,6 +25,8 @@ const (
 	raCondRemove  = "cond-remove"  // condition Index removed
 	raStandard    = "standard"     // standard Index set to Standard (Index −1: add)
 	raStdRemove   = "std-remove"   // standard Index removed
+	raStdField    = "std-field"    // field Field of standard Index set to Value (expiry as yyyy-mm-dd)
+	raCondField   = "cond-field"   // field Field (name, value, unit) of condition Index set to Value
 	raUnknown     = "unknown"      // unknown Index set to Unknown (Index −1: add)
 	raUnkRemove   = "unk-remove"   // unknown Index removed
 	raSeal        = "seal"         // sign as performed by Value: seals the record
@@ -153,20 +154,23 @@ func (r *identityCard) condition(i int) app.UI {
 	cd := r.Conditions[i]
 	idx := r.Index[i]
 	scope := app.EventScope(strconv.Itoa(idx))
-	set := func(name, value, unit string) {
-		r.act(RecordAction{Kind: raCondition, Index: idx, Condition: session.Condition{Name: name, Value: value, Unit: unit}})
-	}
+	// Each field goes out on its own (see standardsCard.item).
+	set := func(name, v string) { r.act(RecordAction{Kind: raCondField, Index: idx, Field: name, Value: v}) }
 	val := func(ctx app.Context) string { return ctx.JSSrc().Get("value").String() }
 	return app.Li().Class("pl-rec-item").DataSet("testid", "condition-item").DataSet("index", strconv.Itoa(idx)).Body(
 		app.Input().Type("text").Value(cd.Name).DataSet("testid", "condition-name").Attr("aria-label", "Condition").
 			Attr("placeholder", "e.g. humidity").Disabled(r.Locked).
-			OnChange(func(ctx app.Context, e app.Event) { set(val(ctx), cd.Value, cd.Unit) }, scope),
+			OnChange(func(ctx app.Context, e app.Event) { set("name", val(ctx)) }, scope),
 		app.Input().Type("text").Value(cd.Value).DataSet("testid", "condition-value").Attr("aria-label", "Value").Disabled(r.Locked).
-			OnChange(func(ctx app.Context, e app.Event) { set(cd.Name, val(ctx), cd.Unit) }, scope),
+			OnChange(func(ctx app.Context, e app.Event) {
+				set("value", val(ctx))
+			}, scope),
 		app.Input().Type("text").Value(cd.Unit).DataSet("testid", "condition-unit").Attr("aria-label", "Unit").Class("pl-rec-unit").
-			Disabled(r.Locked).OnChange(func(ctx app.Context, e app.Event) { set(cd.Name, cd.Value, val(ctx)) }, scope),
+			Disabled(r.Locked).OnChange(func(ctx app.Context, e app.Event) { set("unit", val(ctx)) }, scope),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Remove").DataSet("testid", "condition-remove").Disabled(r.Locked).
-			OnClick(func(ctx app.Context, e app.Event) { r.act(RecordAction{Kind: raCondRemove, Index: idx}) }, scope),
+			OnClick(func(ctx app.Context, e app.Event) {
+				r.act(RecordAction{Kind: raCondRemove, Index: idx})
+			}, scope),
 	)
 }
 
@@ -214,16 +218,14 @@ func (r *standardsCard) Render() app.UI {
 func (r *standardsCard) item(i int) app.UI {
 	st := r.Standards[i]
 	scope := app.EventScope(strconv.Itoa(i))
-	set := func(ctx app.Context, f func(s *session.Standard, v string) bool) {
-		s := st.Standard
-		if !f(&s, ctx.JSSrc().Get("value").String()) {
-			return
-		}
-		r.act(RecordAction{Kind: raStandard, Index: i, Standard: s})
-	}
-	field := func(testid, label, value string, f func(s *session.Standard, v string) bool, mode string) app.UI {
+	// Each field goes out on its own (the Shell sets it on the standard as
+	// the session holds it then): a value captured at this render would be
+	// stale when the next field is changed before the card is drawn again.
+	field := func(testid, label, value, name, mode string) app.UI {
 		in := app.Input().Type("text").Value(value).DataSet("testid", testid).Attr("maxlength", strconv.Itoa(session.MaxShortText)).
-			Disabled(r.Locked).OnChange(func(ctx app.Context, e app.Event) { set(ctx, f) }, scope)
+			Disabled(r.Locked).OnChange(func(ctx app.Context, e app.Event) {
+			r.act(RecordAction{Kind: raStdField, Index: i, Field: name, Value: ctx.JSSrc().Get("value").String()})
+		}, scope)
 		if mode != "" {
 			in = in.Attr("inputmode", mode)
 		}
@@ -231,26 +233,15 @@ func (r *standardsCard) item(i int) app.UI {
 	}
 	return app.Li().Class("pl-rec-item pl-std").DataSet("testid", "standard-item").DataSet("index", strconv.Itoa(i)).Body(
 		app.Div().Class("pl-rec-grid").Body(
-			field("standard-name", "Name or lot", st.Name, func(s *session.Standard, v string) bool { s.Name = v; return true }, ""),
-			field("standard-certificate", "Certificate", st.Certificate, func(s *session.Standard, v string) bool { s.Certificate = v; return true }, ""),
-			field("standard-value", "Certified value (x units)", st.Value, func(s *session.Standard, v string) bool { s.Value = v; return true }, "decimal"),
-			field("standard-uncertainty", "Standard uncertainty (x units)", st.Uncertainty, func(s *session.Standard, v string) bool { s.Uncertainty = v; return true }, "decimal"),
+			field("standard-name", "Name or lot", st.Name, "name", ""),
+			field("standard-certificate", "Certificate", st.Certificate, "certificate", ""),
+			field("standard-value", "Certified value (x units)", st.Value, "value", "decimal"),
+			field("standard-uncertainty", "Standard uncertainty (x units)", st.Uncertainty, "uncertainty", "decimal"),
 			app.Label().Class("pl-rec-field").Body(
 				app.Span().Text("Valid until"),
 				app.Input().Type("date").Value(st.Expiry).DataSet("testid", "standard-expiry").Disabled(r.Locked).
 					OnChange(func(ctx app.Context, e app.Event) {
-						set(ctx, func(s *session.Standard, v string) bool {
-							if v == "" {
-								s.Expiry = time.Time{}
-								return true
-							}
-							d, err := time.Parse("2006-01-02", v)
-							if err != nil {
-								return false
-							}
-							s.Expiry = d
-							return true
-						})
+						r.act(RecordAction{Kind: raStdField, Index: i, Field: "expiry", Value: ctx.JSSrc().Get("value").String()})
 					}, scope),
 			),
 		),

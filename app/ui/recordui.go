@@ -106,6 +106,49 @@ func (c *Shell) applyRecord(a RecordAction, now time.Time) error {
 			return err
 		}
 		return s.SetStandard(a.Index, a.Standard, now)
+	case raStdField:
+		if a.Index < 0 || a.Index >= len(s.Standards) {
+			return session.ErrNoSuchRow
+		}
+		st := s.Standards[a.Index]
+		switch a.Field {
+		case "name":
+			st.Name = a.Value
+		case "certificate":
+			st.Certificate = a.Value
+		case "value":
+			st.Value = strings.TrimSpace(a.Value)
+		case "uncertainty":
+			st.Uncertainty = strings.TrimSpace(a.Value)
+		case "expiry":
+			st.Expiry = time.Time{}
+			if v := strings.TrimSpace(a.Value); v != "" {
+				d, err := time.Parse("2006-01-02", v)
+				if err != nil {
+					return uiError("the expiry date " + strconv.Quote(clip(v, 40)) + " is not a date (year-month-day)")
+				}
+				st.Expiry = d
+			}
+		default:
+			return session.ErrNoSuchField
+		}
+		return s.SetStandard(a.Index, st, now)
+	case raCondField:
+		if a.Index < 0 || a.Index >= len(s.Conditions) {
+			return session.ErrNoSuchRow
+		}
+		cd := s.Conditions[a.Index]
+		switch a.Field {
+		case "name":
+			cd.Name = a.Value
+		case "value":
+			cd.Value = strings.TrimSpace(a.Value)
+		case "unit":
+			cd.Unit = strings.TrimSpace(a.Value)
+		default:
+			return session.ErrNoSuchField
+		}
+		return s.SetCondition(a.Index, cd, now)
 	case raStdRemove:
 		return s.RemoveStandard(a.Index, now)
 	case raUnknown:

@@ -1,0 +1,367 @@
+//go:build e2e
+
+package e2e
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/chromedp/chromedp"
+
+	"pairline/app/numfmt"
+	"pairline/app/session"
+	"pairline/fitcore"
+)
+
+// Invented calibration of a conductivity probe of the fictional Larkwater
+// Valley Water Board against six standards (µS/cm); the readings are made
+// up for the test.
+var recPairs = [][2]string{
+	{"100", "103.1"}, {"250", "256.2"}, {"500", "508.9"}, {"1000", "1013.8"}, {"1413", "1430.1"}, {"2000", "2021.7"},
+	{"2500", "2528.0"},
+}
+
+const (
+	recUnknown     = "Tap 3 (invented)"
+	recUnknownRead = "612.0 614.5"
+)
+
+// recExpected is fitcore's conversion of the unknown, computed here from
+// the same readings and standards through the session's own reading of
+// them (session.RecordOptions), for the browser's figures to match.
+func recExpected(t *testing.T) fitcore.Inverse {
+	t.Helper()
+	s, err := session.New("expected", time.Now(), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	now := time.Now()
+	for _, p := range recPairs {
+		s.AddRow(p[0], p[1], now)
+	}
+	for _, st := range []session.Standard{
+		{Name: "KCl 500 (invented)", Certificate: "LV-CRM-0500", Value: "500", Uncertainty: "2.5", Expiry: time.Date(2099, 12, 31, 0, 0, 0, 0, time.UTC)},
+		{Name: "KCl 1413 (invented)", Certificate: "LV-CRM-1413", Value: "1413", Uncertainty: "5", Expiry: time.Date(2020, 1, 31, 0, 0, 0, 0, time.UTC)},
+	} {
+		if _, err := s.AddStandard(st, now); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if _, err := s.AddUnknown(session.Unknown{Name: recUnknown, Readings: strings.Fields(recUnknownRead)}, now); err != nil {
+		t.Fatal(err)
+	}
+	x, y, _, _ := s.Pairs()
+	opt, _, _ := s.RecordOptions(x)
+	rep, err := fitcore.Analyze(x, y, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rep.Inverse) != 1 || !rep.Inverse[0].Bounded {
+		t.Fatalf("fitcore gives %d conversions (%+v), want one bounded", len(rep.Inverse), rep.Inverse)
+	}
+	return rep.Inverse[0]
+}
+
+// inItem sets a field inside the list item of the card (standard-item with
+// data-index i) and fires its change event.
+func inItem(t *testing.T, b *browser, item string, i int, field, value string) {
+	t.Helper()
+	eval[bool](t, b, fmt.Sprintf(`(() => { const el = tid(%q, "[data-index='%d'] @%s"); if (!el) throw new Error('no %s in %s %d');
+		el.value = %q; el.dispatchEvent(new Event('change', { bubbles: true })); return true; })()`, item, i, field, field, item, i, value))
+}
+
+// onScreen says whether the element is wholly inside the viewport.
+func onScreen(t *testing.T, b *browser, testid string) bool {
+	t.Helper()
+	return eval[bool](t, b, fmt.Sprintf(`(() => { const r = tid(%q).getBoundingClientRect();
+		return r.width > 0 && r.top >= 0 && r.left >= 0 && r.bottom <= innerHeight && r.right <= innerWidth; })()`, testid))
+}
+
+// TestRecord follows one calibration record on a tablet and on a phone:
+// the identity card (with conditions) and two standards are filled in, the
+// one past its expiry on the day of the readings gets the warning; a named
+// unknown sample is converted (figures equal to fitcore's, from the same
+// readings and standards), undone and redone, and survives a reload; a
+// note per reading survives too. The report and the results CSV carry the
+// unknown by name; the report prints to A4 with the title and "Page N of
+// M" on every page (checked in the PDF's text, page by page). Sealing
+// freezes the inputs, the exported file verifies with `pairline inspect
+// --json` (seal_valid), and a change after starting a new revision makes
+// revision 2 with a note of what changed while revision 1 stays readable.
+func TestRecord(t *testing.T) {
+	want := recExpected(t)
+	srv := startServer(t)
+	for _, v := range []struct {
+		name string
+		size [2]int64
+	}{{"tablet", tablet}, {"phone", phone}} {
+		t.Run(v.name, func(t *testing.T) { recordFlow(t, srv, v.name, v.size, want) })
+	}
+}
+
+func recordFlow(t *testing.T, srv *server, name string, size [2]int64, want fitcore.Inverse) {
+	b := newBrowser(t, size)
+	b.do(t, chromedp.Navigate(srv.URL))
+	waitFor(t, b, "the app", appReady, 60*time.Second)
+	setValue(t, b, "session-title", "Probe LV-C7 calibration (invented)", "change")
+	setValue(t, b, "x-unit", "µS/cm", "change")
+	setValue(t, b, "y-unit", "µS/cm", "change")
+	anFillRaw(t, b, recPairs)
+	waitFor(t, b, "the line", fmt.Sprintf(`tid("result-n")?.dataset.value === "%d"`, len(recPairs)), 20*time.Second)
+
+	// Identity and conditions.
+	for _, f := range [][2]string{
+		{"record-site", "Larkwater intake (invented)"}, {"record-instrument", "Conductivity probe C7 (invented)"},
+		{"record-serial", "LV-C7-0042"}, {"record-identifier", "LVWB-ASSET-117"}, {"record-operator", "R. Okafor (invented)"},
+		{"record-notes", "Routine check before the spring run (invented)."},
+		{"record-temperature", "21.4"}, {"record-temperature-unit", "°C"},
+	} {
+		setValue(t, b, f[0], f[1], "change")
+	}
+	waitFor(t, b, "the temperature kept", `tid("record-temperature").value === "21.4" && tid("record-temperature-unit").value === "°C"`, 10*time.Second)
+	setValue(t, b, "reading-note-2", "fresh buffer (invented)", "change")
+
+	// Two standards; the second expired before the readings were taken.
+	click(t, b, "standard-add")
+	waitFor(t, b, "one standard", `tids("standard-item").length === 1`, 10*time.Second)
+	click(t, b, "standard-add")
+	waitFor(t, b, "two standards", `tids("standard-item").length === 2`, 10*time.Second)
+	for i, st := range [][5]string{
+		{"KCl 500 (invented)", "LV-CRM-0500", "500", "2.5", "2099-12-31"},
+		{"KCl 1413 (invented)", "LV-CRM-1413", "1413", "5", "2020-01-31"},
+	} {
+		for j, f := range []string{"standard-name", "standard-certificate", "standard-value", "standard-uncertainty", "standard-expiry"} {
+			inItem(t, b, "standard-item", i, f, st[j])
+			waitFor(t, b, f+" kept", fmt.Sprintf(`tid("standard-item", "[data-index='%d'] @%s").value === %q`, i, f, st[j]), 10*time.Second)
+		}
+	}
+	waitFor(t, b, "the expired warning", `!!tid("standard-item", "[data-index='1'] @standard-expired")`, 10*time.Second)
+	if exists(t, b, "standard-expired") && eval[bool](t, b, `!!tid("standard-item", "[data-index='0'] @standard-expired")`) {
+		t.Error("the standard valid until 2099 is marked expired")
+	}
+
+	// The unknown sample.
+	typeInto(t, b, "unknown-name", recUnknown)
+	typeInto(t, b, "unknown-readings", recUnknownRead)
+	click(t, b, "unknown-add")
+	item := fmt.Sprintf(`tid("unknown-item", '[data-name=%q]')`, recUnknown)
+	waitFor(t, b, "the converted unknown", item+`?.dataset.value`, 10*time.Second)
+	checkUnknown := func(when string) {
+		t.Helper()
+		for _, k := range []struct {
+			attr string
+			v    float64
+		}{{"value", want.X}, {"low", want.Low}, {"high", want.High}} {
+			got, err := strconv.ParseFloat(eval[string](t, b, item+`.dataset.`+k.attr), 64)
+			if err != nil || !relClose(got, k.v) {
+				t.Errorf("%s: the unknown's %s is %v (%v), fitcore gives %v", when, k.attr, got, err, k.v)
+			}
+		}
+	}
+	checkUnknown("after adding it")
+
+	// Undo and redo, in words, within reach on the readings and the line.
+	click(t, b, "undo")
+	waitFor(t, b, "the unknown undone", `!tid("unknown-item")`, 10*time.Second)
+	if msg := textOf(t, b, "undo-message"); !strings.Contains(msg, "unknown 1 added") {
+		t.Errorf("the undo message says %q, want the unknown named in words", msg)
+	}
+	click(t, b, "redo")
+	waitFor(t, b, "the unknown redone", item, 10*time.Second)
+	checkUnknown("after redo")
+	for _, card := range []string{"jump-readings", "jump-line"} {
+		click(t, b, card)
+		time.Sleep(700 * time.Millisecond) // the smooth scroll
+		if !onScreen(t, b, "undo") || !onScreen(t, b, "redo") {
+			t.Errorf("%s: after %s, undo on screen %v, redo on screen %v", name, card, onScreen(t, b, "undo"), onScreen(t, b, "redo"))
+		}
+	}
+	eval[bool](t, b, `(tid("record-card").scrollIntoView(), true)`)
+	shot, err := chromedp.Run(b.ctx, chromedp.Screenshot(sel("record-card")))
+	if err != nil {
+		t.Fatal(err)
+	}
+	writeArtifact(t, "record-card-"+name+".png", shot)
+	eval[bool](t, b, `(tid("standard-item").parentElement.closest("section").scrollIntoView(), true)`)
+	if shot, err = chromedp.Run(b.ctx, chromedp.Screenshot(chromedp.CSS(`section[aria-label="Standards"]`))); err == nil {
+		writeArtifact(t, "record-standards-"+name+".png", shot)
+	}
+
+	// A reload keeps everything.
+	waitFor(t, b, "the save", `tid("save-status").dataset.state === "saved"`, 10*time.Second)
+	b.do(t, chromedp.Reload())
+	waitFor(t, b, "the app again", appReady+` && `+item, 60*time.Second)
+	checkUnknown("after a reload")
+	for _, f := range [][2]string{{"record-site", "Larkwater intake (invented)"}, {"record-operator", "R. Okafor (invented)"}, {"reading-note-2", "fresh buffer (invented)"}} {
+		if got := valueOf(t, b, f[0]); got != f[1] {
+			t.Errorf("after a reload %s is %q, want %q", f[0], got, f[1])
+		}
+	}
+
+	// The report.
+	click(t, b, "report-open")
+	waitFor(t, b, "the report", `!!tid("report", ' @report-signature')`, 20*time.Second)
+	row := fmt.Sprintf(`tid("report-unknowns", ' tr[data-name=%q]')`, recUnknown)
+	if !eval[bool](t, b, row+`?.innerHTML.includes('data-value="`+numfmt.Full(want.X)+`"') || false`) {
+		t.Errorf("the report's unknown row does not carry fitcore's x %v: %s", want.X, eval[string](t, b, `tid("report-unknowns")?.outerHTML || "<missing>"`))
+	}
+	hist := textOf(t, b, "report-history")
+	for _, bad := range []string{"exclude_reason", "x_unit", `{"`, "instrument_id"} {
+		if strings.Contains(hist, bad) {
+			t.Errorf("the report's history shows %q: %s", bad, hist)
+		}
+	}
+	if !strings.Contains(eval[string](t, b, `document.querySelector('.pl-report-readings').textContent`), "fresh buffer (invented)") {
+		t.Error("the report's readings do not show the note")
+	}
+	if name == "tablet" {
+		recordPDF(t, b, "Probe LV-C7 calibration (invented)")
+	} else {
+		if w := eval[float64](t, b, `document.documentElement.scrollWidth`); w > float64(size[0])+2 {
+			t.Errorf("the report is %v px wide on a %d px phone", w, size[0])
+		}
+		screenshot(t, b, "record-report-phone")
+	}
+	click(t, b, "report-close")
+	waitFor(t, b, "the report closed", `!tid("report")`, 10*time.Second)
+
+	// The results CSV names the unknown with fitcore's figures.
+	eval[bool](t, b, captureDownloads)
+	click(t, b, "export-results")
+	_, csv := lastDownload(t, b, 1)
+	if !bytes.Contains(csv, []byte(recUnknown+": x,"+numfmt.Full(want.X))) {
+		t.Errorf("the results CSV lacks the unknown with x = %s:\n%s", numfmt.Full(want.X), csv)
+	}
+
+	// Seal: everything is frozen.
+	typeInto(t, b, "sign-performed", "R. Okafor (invented)")
+	click(t, b, "seal")
+	waitFor(t, b, "the seal", `/^[0-9a-f]{64}$/.test(tid("sealed")?.dataset.digest || "")`, 10*time.Second)
+	if v := attr(t, b, "sealed", "data-valid"); v != "true" {
+		t.Errorf("the fresh seal does not verify (data-valid %q)", v)
+	}
+	for _, id := range []string{"x-input-0", "y-input-1", "reading-note-1", "record-site", "standard-add", "unknown-add", "add-row", "undo", "settings-level-99", "condition-add"} {
+		if exists(t, b, id) && !eval[bool](t, b, fmt.Sprintf(`tid(%q).matches(':disabled')`, id)) {
+			t.Errorf("%s takes input on a sealed record", id)
+		}
+	}
+	if name == "tablet" {
+		click(t, b, "export-session")
+		_, file := lastDownload(t, b, 2)
+		recordInspect(t, file)
+	}
+
+	// A new revision: one change, and the note says what changed.
+	click(t, b, "revision-start")
+	waitFor(t, b, "the inputs open again", `!tid("y-input-1").matches(':disabled')`, 10*time.Second)
+	typeInto(t, b, "y-input-1", "256.4")
+	waitFor(t, b, "the revision note", `tid("revision-note")?.textContent.includes("revision 2")`, 10*time.Second)
+	if note := textOf(t, b, "revision-note"); !strings.Contains(note, "reading 2") || !strings.Contains(note, "256.4") {
+		t.Errorf("the revision note says %q, want it to name reading 2 and its new value", note)
+	}
+	if exists(t, b, "sealed") {
+		t.Error("the changed record still shows itself sealed")
+	}
+	if got := eval[string](t, b, `tid("sealed-revision")?.dataset.revision || ""`); got != "1" {
+		t.Errorf("the sealed revision kept readable is %q, want 1", got)
+	}
+	eval[bool](t, b, `(tid("revision-note").scrollIntoView(), true)`)
+	if shot, err := chromedp.Run(b.ctx, chromedp.Screenshot(chromedp.CSS(`section[aria-label="Sign-off"]`))); err == nil {
+		writeArtifact(t, "record-signoff-"+name+".png", shot)
+	}
+}
+
+func writeArtifact(t *testing.T, file string, b []byte) {
+	t.Helper()
+	p := filepath.Join(artifactDir(t), file)
+	if err := os.WriteFile(p, b, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("artifact: %s", p)
+}
+
+// recordPDF prints the open report to A4 and checks, page by page with
+// pdftotext (poppler), that every page carries the title and "Page N of
+// M"; pdftoppm renders the pages to PNG for a look.
+func recordPDF(t *testing.T, b *browser, title string) {
+	t.Helper()
+	pdf, err := chromedp.Run(b.ctx, chromedp.PrintToPDF(chromedp.PDFPaper(chromedp.PaperA4), chromedp.PDFPrintBackground(), chromedp.PDFPreferCSSPageSize()))
+	if err != nil {
+		t.Fatalf("printing the report: %v", err)
+	}
+	dir := artifactDir(t)
+	path := filepath.Join(dir, "record-report.pdf")
+	if err := os.WriteFile(path, pdf, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("PDF: %s", path)
+	if _, err := exec.LookPath("pdftotext"); err != nil {
+		t.Fatalf("pdftotext (poppler-utils) is needed to read the printed pages: %v", err)
+	}
+	pages := len(regexp.MustCompile(`/Type\s*/Page[^s]`).FindAll(pdf, -1))
+	if pages < 2 {
+		t.Fatalf("the report printed on %d page(s)", pages)
+	}
+	for p := 1; p <= pages; p++ {
+		out, err := exec.Command("pdftotext", "-f", strconv.Itoa(p), "-l", strconv.Itoa(p), "-layout", path, "-").Output()
+		if err != nil {
+			t.Fatalf("pdftotext page %d: %v", p, err)
+		}
+		text := string(out)
+		if !strings.Contains(text, title) {
+			t.Errorf("printed page %d does not carry the title %q", p, title)
+		}
+		if want := fmt.Sprintf("Page %d of %d", p, pages); !strings.Contains(text, want) {
+			t.Errorf("printed page %d does not say %q", p, want)
+		}
+	}
+	if out, err := exec.Command("pdftoppm", "-png", "-r", "60", path, filepath.Join(dir, "record-report-page")).CombinedOutput(); err != nil {
+		t.Errorf("pdftoppm: %v %s", err, out)
+	}
+	t.Logf("the report printed on %d A4 pages", pages)
+}
+
+// recordInspect runs `pairline inspect --json` on the session file the
+// browser exported and requires its seal to verify.
+func recordInspect(t *testing.T, file []byte) {
+	t.Helper()
+	bin, _ := appPaths(t)
+	path := filepath.Join(t.TempDir(), "sealed.pairline")
+	if err := os.WriteFile(path, file, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, err := exec.Command(bin, "inspect", "--json", path).Output()
+	if err != nil {
+		t.Fatalf("pairline inspect --json: %v", err)
+	}
+	var got struct {
+		Sessions []map[string]json.RawMessage `json:"sessions"`
+	}
+	if err := json.Unmarshal(out, &got); err != nil || len(got.Sessions) != 1 {
+		t.Fatalf("inspect --json: %v, %d sessions", err, len(got.Sessions))
+	}
+	v, ok := got.Sessions[0]["seal_valid"]
+	if !ok {
+		t.Fatalf("inspect --json gives no seal_valid for the session (keys: %v)", keysOf(got.Sessions[0]))
+	}
+	if string(v) != "true" {
+		t.Errorf("inspect --json: seal_valid = %s, want true", v)
+	}
+}
+
+func keysOf(m map[string]json.RawMessage) []string {
+	var k []string
+	for s := range m {
+		k = append(k, s)
+	}
+	return k
+}
