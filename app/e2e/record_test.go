@@ -365,3 +365,64 @@ func keysOf(m map[string]json.RawMessage) []string {
 	}
 	return k
 }
+
+// TestRecordCSV: a logger's CSV with a units row under the header imports
+// as readings with those names and units (the units row is no reading);
+// a note and a reading left out with its reason go out in the readings
+// CSV and come back from it as they were (Pairline's own export).
+func TestRecordCSV(t *testing.T) {
+	srv := startServer(t)
+	b := newBrowser(t, tablet)
+	b.do(t, chromedp.Navigate(srv.URL))
+	waitFor(t, b, "the app", appReady, 60*time.Second)
+	var csv strings.Builder
+	csv.WriteString("conductivity standard,probe reading\r\nµS/cm,µS/cm\r\n")
+	for _, p := range recPairs {
+		csv.WriteString(p[0] + "," + p[1] + "\r\n")
+	}
+	dir := t.TempDir()
+	path := filepath.Join(dir, "logger LV-C7 (invented).csv")
+	if err := os.WriteFile(path, []byte(csv.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	importPath(t, b, path)
+	waitFor(t, b, "the imported line", fmt.Sprintf(`tid("result-n")?.dataset.value === "%d"`, len(recPairs)), 20*time.Second)
+	for _, f := range [][2]string{{"x-name", "conductivity standard"}, {"x-unit", "µS/cm"}, {"y-name", "probe reading"}, {"y-unit", "µS/cm"}, {"x-input-0", "100"}} {
+		if got := valueOf(t, b, f[0]); got != f[1] {
+			t.Errorf("after the import %s is %q, want %q", f[0], got, f[1])
+		}
+	}
+
+	// A note, and reading 4 left out through its point on the plot.
+	setValue(t, b, "reading-note-2", "fresh buffer, see log (invented)", "change")
+	tapPlotAt(t, b, "plot-fit", 1000, 1013.8)
+	waitFor(t, b, "the panel of reading 4", `tid("plot-point-panel")?.dataset.row === "3"`, 10*time.Second)
+	b.do(t, chromedp.SendKeys(sel("plot-point-reason"), "bubble on the probe"))
+	click(t, b, "plot-point-exclude")
+	waitFor(t, b, "the line without it", fmt.Sprintf(`tid("result-n")?.dataset.value === "%d"`, len(recPairs)-1), 10*time.Second)
+
+	eval[bool](t, b, captureDownloads)
+	click(t, b, "export-csv")
+	_, raw := lastDownload(t, b, 1)
+	back := filepath.Join(dir, "readings again.csv")
+	if err := os.WriteFile(back, raw, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	importPath(t, b, back)
+	waitFor(t, b, "the re-imported session", `tid("session-title").value.includes("readings again")`, 20*time.Second)
+	waitFor(t, b, "its line", fmt.Sprintf(`tid("result-n")?.dataset.value === "%d"`, len(recPairs)-1), 20*time.Second)
+	if got := valueOf(t, b, "reading-note-2"); got != "fresh buffer, see log (invented)" {
+		t.Errorf("the note came back as %q", got)
+	}
+	if got := valueOf(t, b, "x-unit"); got != "µS/cm" {
+		t.Errorf("the unit of x came back as %q", got)
+	}
+	if !eval[bool](t, b, `tid("x-input-3").closest("tr").classList.contains("pl-row-excluded")`) {
+		t.Error("reading 4 is not left out after the round trip")
+	}
+	click(t, b, "report-open")
+	waitFor(t, b, "the report", `!!tid("report-left-out")`, 20*time.Second)
+	if got := textOf(t, b, "report-left-out"); !strings.Contains(got, "Reading 4 (1000, 1013.8): bubble on the probe") {
+		t.Errorf("the report lists as left out: %q", got)
+	}
+}
