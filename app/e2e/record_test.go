@@ -278,6 +278,25 @@ func recordFlow(t *testing.T, srv *server, name string, size [2]int64, want fitc
 	if shot, err := chromedp.Run(b.ctx, chromedp.Screenshot(chromedp.CSS(`section[aria-label="Sign-off"]`))); err == nil {
 		writeArtifact(t, "record-signoff-"+name+".png", shot)
 	}
+	if name == "tablet" {
+		// A new record of the same instrument is offered the values of
+		// this one.
+		click(t, b, "session-new")
+		waitFor(t, b, "the new session", `tid("x-input-0").value === "" && !tid("standard-item")`, 10*time.Second)
+		setValue(t, b, "record-identifier", "lvwb-asset-117 ", "change")
+		waitFor(t, b, "the offer of the last record", `!!tid("record-suggest")`, 20*time.Second)
+		if got := textOf(t, b, "record-suggest"); !strings.Contains(got, "Probe LV-C7 calibration (invented)") || !strings.Contains(got, "2 standards") {
+			t.Errorf("the offer says %q", got)
+		}
+		click(t, b, "record-suggest-use")
+		waitFor(t, b, "the standards taken over", `tids("standard-item").length === 2`, 10*time.Second)
+		if got := valueOf(t, b, "record-operator"); got != "R. Okafor (invented)" {
+			t.Errorf("the operator taken over is %q", got)
+		}
+		if exists(t, b, "record-suggest") {
+			t.Error("the offer stays after it was used")
+		}
+	}
 }
 
 func writeArtifact(t *testing.T, file string, b []byte) {
@@ -351,7 +370,8 @@ func recordInspect(t *testing.T, file []byte) {
 	}
 	v, ok := got.Sessions[0]["seal_valid"]
 	if !ok {
-		t.Fatalf("inspect --json gives no seal_valid for the session (keys: %v)", keysOf(got.Sessions[0]))
+		t.Errorf("inspect --json gives no seal_valid for the session (keys: %v)", keysOf(got.Sessions[0]))
+		return
 	}
 	if string(v) != "true" {
 		t.Errorf("inspect --json: seal_valid = %s, want true", v)

@@ -221,6 +221,7 @@ func (c *Shell) show(s *session.Session) {
 	c.analyse()
 	c.resyncInputs()
 	c.collectAfterLoad()
+	c.lookUpLast()
 }
 
 // showStored shows s, a session just read from (or written to) the device:
