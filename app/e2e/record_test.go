@@ -128,6 +128,12 @@ func recordFlow(t *testing.T, srv *server, name string, size [2]int64, want fitc
 		setValue(t, b, f[0], f[1], "change")
 	}
 	waitFor(t, b, "the temperature kept", `tid("record-temperature").value === "21.4" && tid("record-temperature-unit").value === "°C"`, 10*time.Second)
+	click(t, b, "condition-add")
+	waitFor(t, b, "a condition", `!!tid("condition-item", "[data-index='1']")`, 10*time.Second)
+	for _, f := range [][2]string{{"condition-name", "humidity"}, {"condition-value", "45"}, {"condition-unit", "%"}} {
+		inItem(t, b, "condition-item", 1, f[0], f[1])
+	}
+	waitFor(t, b, "the condition kept", `tid("condition-item", "[data-index='1'] @condition-unit").value === "%"`, 10*time.Second)
 	setValue(t, b, "reading-note-2", "fresh buffer (invented)", "change")
 
 	// Two standards; the second expired before the readings were taken.
@@ -213,6 +219,9 @@ func recordFlow(t *testing.T, srv *server, name string, size [2]int64, want fitc
 	row := fmt.Sprintf(`tid("report-unknowns", ' tr[data-name=%q]')`, recUnknown)
 	if !eval[bool](t, b, row+`?.innerHTML.includes('data-value="`+numfmt.Full(want.X)+`"') || false`) {
 		t.Errorf("the report's unknown row does not carry fitcore's x %v: %s", want.X, eval[string](t, b, `tid("report-unknowns")?.outerHTML || "<missing>"`))
+	}
+	if rec := eval[string](t, b, `document.querySelector('.pl-rt-meta').textContent`); !strings.Contains(rec, "humidity45 %") || !strings.Contains(rec, "Temperature21.4 °C") {
+		t.Errorf("the report's record table lacks the conditions: %q", rec)
 	}
 	hist := textOf(t, b, "report-history")
 	for _, bad := range []string{"exclude_reason", "x_unit", `{"`, "instrument_id"} {
