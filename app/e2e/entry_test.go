@@ -95,7 +95,7 @@ func TestSessionList(t *testing.T) {
 	b.do(t, chromedp.Click(sel("session-delete")))
 	waitFor(t, b, "the confirmation", `!!tid("session-delete-confirm")`, 5*time.Second)
 	b.do(t, chromedp.Click(sel("session-delete-confirm")))
-	waitFor(t, b, "the next session open", `tid("x-input-0").value === ""`, 10*time.Second)
+	waitFor(t, b, "the next session open", `tid("x-input-0").value === "20"`, 10*time.Second)
 	b.do(t, chromedp.Click(sel("sessions-open")))
 	waitFor(t, b, "one listed session", `tids("session-item").length === 1`, 10*time.Second)
 
