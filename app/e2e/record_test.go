@@ -264,6 +264,14 @@ func recordFlow(t *testing.T, srv *server, name string, size [2]int64, want fitc
 		}
 	}
 	if name == "tablet" {
+		// The review signs the same content; the digest then covers both.
+		sealed := attr(t, b, "sealed", "data-digest")
+		typeInto(t, b, "sign-reviewed", "M. Lindqvist (invented)")
+		click(t, b, "sign-review")
+		waitFor(t, b, "the review", `tid("sealed")?.textContent.includes("Reviewed by M. Lindqvist (invented)")`, 10*time.Second)
+		if d := attr(t, b, "sealed", "data-digest"); d == sealed || len(d) != 64 || attr(t, b, "sealed", "data-valid") != "true" {
+			t.Errorf("after the review the digest is %q (was %q), valid %q", d, sealed, attr(t, b, "sealed", "data-valid"))
+		}
 		click(t, b, "export-session")
 		_, file := lastDownload(t, b, 2)
 		recordInspect(t, file)

@@ -50,9 +50,10 @@ type Shell struct {
 	updateReady bool
 
 	saves    *saveQueue
-	editSeq  int       // counts edits, to run delayed work only for the latest
-	lastSave time.Time // when the open session was last handed to the saver
-	toSave   bool      // an edit waits for its save turn
+	editSeq  int             // counts edits, to run delayed work only for the latest
+	lastSave time.Time       // when the open session was last handed to the saver
+	toSave   bool            // an edit waits for its save turn
+	queued   map[string]bool // IDs of sessions handed to the saver in this tab
 	pairs    session.PairCache
 	page     int // page of the readings grid shown (pageSize rows each)
 
@@ -523,6 +524,10 @@ func (c *Shell) save(ctx app.Context) {
 		return
 	}
 	c.saves.put(job)
+	if c.queued == nil {
+		c.queued = map[string]bool{}
+	}
+	c.queued[c.sess.ID] = true
 	if c.saveState != SaveFailed || c.saveWhy != saveRefused {
 		c.saveState, c.saveMessage, c.saveWhy = SaveSaving, "", ""
 	}
@@ -811,6 +816,9 @@ func pristine(s *session.Session) bool {
 
 // stored reports whether the session with that ID is in the device's list.
 func (c *Shell) stored(id string) bool {
+	if c.queued[id] {
+		return true // handed to the saver: the list may not show it yet
+	}
 	for i := range c.sessions {
 		if c.sessions[i].ID == id {
 			return true
