@@ -414,6 +414,9 @@ func (r *signCard) Render() app.UI {
 	}
 	return app.Section().Class("pl-card pl-sign").Attr("aria-label", "Sign-off").Body(
 		app.H2().Text("Sign-off"),
+		app.P().Class("pl-hint").DataSet("testid", "sign-caution").Text("⚠ A seal records who did and who reviewed this record and makes later changes show; "+
+			"it is not a certification. For drinking water and other regulated or safety-related measurements, follow the instrument maker's "+
+			"calibration procedure, your local codes and the judgement of licensed or accredited staff."),
 		app.If(s.RevisionNote != "", func() app.UI {
 			return app.P().Class("pl-warn").DataSet("testid", "revision-note").Text(s.RevisionNote)
 		}),
