@@ -238,7 +238,14 @@ func recordFlow(t *testing.T, srv *server, name string, size [2]int64, want fitc
 		if w := eval[float64](t, b, `document.documentElement.scrollWidth`); w > float64(size[0])+2 {
 			t.Errorf("the report is %v px wide on a %d px phone", w, size[0])
 		}
-		screenshot(t, b, "record-report-phone")
+		// Viewport shots (a phone-long full page is too tall to look at).
+		for _, part := range []string{"report", "report-standards", "report-unknowns", "report-signature"} {
+			eval[bool](t, b, fmt.Sprintf(`(tid(%q).scrollIntoView(), scrollBy(0, -190), true)`, part))
+			time.Sleep(200 * time.Millisecond)
+			if shot, err := chromedp.Run(b.ctx, chromedp.CaptureScreenshot()); err == nil {
+				writeArtifact(t, "record-"+part+"-phone.png", shot)
+			}
+		}
 	}
 	click(t, b, "report-close")
 	waitFor(t, b, "the report closed", `!tid("report")`, 10*time.Second)

@@ -228,18 +228,19 @@ func rpLine(b *rpB, s *session.Session, rep *fitcore.Report) {
 	// The columns in the order of the screen's "More numbers": the
 	// interval first, then the standard error and the test against the
 	// reference value (app/wording).
-	b.w(`<table class="pl-rt"><thead><tr><th>Figure</th><th>`, wording.Estimate, `</th><th>`, rpEsc(wording.Interval(rep.Level)), `</th><th>`,
+	b.w(`<div class="pl-rt-wrap"><table class="pl-rt pl-rt-fit pl-rt-stack"><thead><tr><th>Figure</th><th>`, wording.Estimate, `</th><th>`, rpEsc(wording.Interval(rep.Level)), `</th><th>`,
 		wording.StandardError, `</th><th>`, wording.TestedAgainst, `</th></tr></thead><tbody>`)
 	coef := func(name string, c fitcore.Coefficient, unit string) {
-		b.w(`<tr><th scope="row">`, rpEsc(name), `</th><td>`, rpNum(c.Estimate, numfmt.Sig(c.Estimate, sig)), ` `, rpEsc(unit), `</td><td>`,
-			rpNum(c.CILow, numfmt.Sig(c.CILow, sig)), ` to `, rpNum(c.CIHigh, numfmt.Sig(c.CIHigh, sig)), `</td><td>`,
-			rpNum(c.SE, numfmt.Sig(c.SE, 3)), `</td><td>`, rpEsc(wording.Ref(c.Ref)), `: `, rpP(c.PRef), `</td></tr>`)
+		b.w(`<tr><th scope="row">`, rpEsc(name), `</th><td data-label="`, wording.Estimate, `">`, rpNum(c.Estimate, numfmt.Sig(c.Estimate, sig)), ` `, rpEsc(unit),
+			`</td><td data-label="`, rpEsc(wording.Interval(rep.Level)), `">`,
+			rpNum(c.CILow, numfmt.Sig(c.CILow, sig)), ` to `, rpNum(c.CIHigh, numfmt.Sig(c.CIHigh, sig)), `</td><td data-label="`, wording.StandardError, `">`,
+			rpNum(c.SE, numfmt.Sig(c.SE, 3)), `</td><td data-label="`, wording.TestedAgainst, `">`, rpEsc(wording.Ref(c.Ref)), `: `, rpP(c.PRef), `</td></tr>`)
 	}
 	coef(wording.Slope, rep.Slope, unitOr(s.YUnit, "y")+" per "+unitOr(s.XUnit, "x"))
 	if rep.Model != fitcore.ModelOrigin {
 		coef(wording.Intercept, rep.Intercept, s.YUnit)
 	}
-	b.w(`</tbody></table><table class="pl-rt pl-rt-figs"><tbody>`)
+	b.w(`</tbody></table></div><table class="pl-rt pl-rt-figs"><tbody>`)
 	fig := func(name string, v float64, shown string) {
 		b.w(`<tr><th scope="row">`, rpEsc(name), `</th><td>`, rpNum(v, shown), `</td></tr>`)
 	}
@@ -550,7 +551,7 @@ func rpStandards(b *rpB, s *session.Session) {
 	for _, e := range s.ExpiredStandards() {
 		expired[e.Index] = true
 	}
-	b.w(`<h3>Reference standards</h3><div class="pl-rt-wrap"><table class="pl-rt" data-testid="report-standards"><thead><tr><th>Standard</th><th>Certificate</th><th>Value</th>`,
+	b.w(`<h3>Reference standards</h3><div class="pl-rt-wrap"><table class="pl-rt pl-rt-fit pl-rt-stack" data-testid="report-standards"><thead><tr><th>Standard</th><th>Certificate</th><th>Value</th>`,
 		`<th>Standard uncertainty</th><th>Valid until</th></tr></thead><tbody>`)
 	for i, st := range s.Standards {
 		until := "—"
@@ -562,8 +563,11 @@ func rpStandards(b *rpB, s *session.Session) {
 			cls = ` class="pl-rt-bad"`
 			until += " ⚠ expired on the day of the readings"
 		}
-		b.w(`<tr`, cls, `><th scope="row">`, rpEsc(nonEmpty(st.Name, "—")), `</th><td>`, rpEsc(nonEmpty(st.Certificate, "—")), `</td><td class="pl-rt-n">`,
-			rpEsc(nonEmpty(st.Value, "—")), ` `, rpEsc(s.XUnit), `</td><td class="pl-rt-n">`, rpEsc(nonEmpty(st.Uncertainty, "—")), `</td><td>`, rpEsc(until), `</td></tr>`)
+		// data-label names the cell where a phone shows each standard as a
+		// block of labelled lines (web/report.css, .pl-rt-stack).
+		b.w(`<tr`, cls, `><th scope="row">`, rpEsc(nonEmpty(st.Name, "—")), `</th><td data-label="Certificate">`, rpEsc(nonEmpty(st.Certificate, "—")),
+			`</td><td class="pl-rt-n" data-label="Value">`, rpEsc(nonEmpty(st.Value, "—")), ` `, rpEsc(s.XUnit),
+			`</td><td class="pl-rt-n" data-label="Standard uncertainty">`, rpEsc(nonEmpty(st.Uncertainty, "—")), `</td><td data-label="Valid until">`, rpEsc(until), `</td></tr>`)
 	}
 	b.w(`</tbody></table></div>`)
 	if len(expired) > 0 {
@@ -581,13 +585,13 @@ func rpUnknowns(b *rpB, s *session.Session, rep *fitcore.Report) {
 	for _, n := range named {
 		by[n.Index] = n.Inv
 	}
-	b.w(`<section class="pl-report-sec" data-testid="report-unknowns"><h2>Unknown samples</h2><div class="pl-rt-wrap"><table class="pl-rt"><thead><tr><th>Sample</th>`,
-		`<th>Readings (`, rpEsc(unitOr(s.YUnit, "y")), `)</th><th>x (`, rpEsc(unitOr(s.XUnit, "x")), `)</th><th>`, rpEsc(wording.Interval(rep.Level)), `</th><th>Note</th></tr></thead><tbody>`)
+	b.w(`<section class="pl-report-sec" data-testid="report-unknowns"><h2>Unknown samples</h2><div class="pl-rt-wrap"><table class="pl-rt pl-rt-fit"><thead><tr><th>Sample</th>`,
+		`<th>Readings (`, rpEsc(unitOr(s.YUnit, "y")), `)</th><th>x (`, rpEsc(unitOr(s.XUnit, "x")), `)</th><th>`, rpEsc(wording.Interval(rep.Level)), `</th></tr></thead><tbody>`)
 	for i, u := range s.Unknowns {
 		inv := by[i]
 		b.w(`<tr data-name="`, rpEsc(u.Name), `"><th scope="row">`, rpEsc(nonEmpty(u.Name, "(no name)")), `</th><td>`, rpEsc(rpClip(strings.Join(u.Readings, "; "), 200)), `</td>`)
 		if inv == nil {
-			b.w(`<td>—</td><td>—</td><td>Not converted (a reading is not a number, or there are none).</td></tr>`)
+			b.w(`<td>—</td><td>—</td></tr><tr class="pl-rt-note"><td colspan="4">Not converted (a reading is not a number, or there are none).</td></tr>`)
 			continue
 		}
 		b.w(`<td>`, rpNum(inv.X, numfmt.Sig(inv.X, 6)), `</td><td>`)
@@ -596,7 +600,12 @@ func rpUnknowns(b *rpB, s *session.Session, rep *fitcore.Report) {
 		} else {
 			b.w(`—`)
 		}
-		b.w(`</td><td>`, rpEsc(inv.Message), `</td></tr>`)
+		b.w(`</td></tr>`)
+		// The note under its row, across the table: a phone has no room
+		// for a fifth column of sentences.
+		if inv.Message != "" {
+			b.w(`<tr class="pl-rt-note"><td colspan="4">`, rpEsc(inv.Message), `</td></tr>`)
+		}
 	}
 	b.w(`</tbody></table></div></section>`)
 }
