@@ -12,6 +12,7 @@ import (
 
 	"pairline/app/numfmt"
 	"pairline/app/session"
+	"pairline/app/wording"
 	"pairline/fitcore"
 )
 
@@ -272,6 +273,27 @@ func describeEdit(e session.Edit) string {
 	return e.Field + " changed"
 }
 
+// weightWords names a weighting scheme in words.
+func weightWords(w fitcore.WeightScheme) string {
+	switch w {
+	case fitcore.WeightsNone:
+		return "none"
+	case fitcore.WeightsGiven:
+		return "as given"
+	case fitcore.WeightsX:
+		return "1/x (spread grows with x)"
+	case fitcore.WeightsX2:
+		return "1/x² (spread grows with x²)"
+	case fitcore.WeightsFitted2:
+		return "1/ŷ² (spread grows with the fitted value)"
+	case fitcore.WeightsRepeats:
+		return "from the spread of repeats"
+	case fitcore.WeightsPowerFit:
+		return "a power of x, estimated"
+	}
+	return "1/" + string(w)
+}
+
 // describeSettings names what changed between two settings (as the
 // history keeps them, JSON): "least R² set to 0.999", "scale set to log y".
 func describeSettings(oldJSON, newJSON string) string {
@@ -299,13 +321,17 @@ func describeSettings(oldJSON, newJSON string) string {
 		}
 	}
 	if a.Model != b.Model {
-		out = append(out, "model set to "+string(b.Model))
+		out = append(out, "fit set to "+wording.Model(b.Model))
 	}
 	if a.Weights != b.Weights {
-		out = append(out, "weights set to "+string(b.Weights))
+		out = append(out, "weights set to "+weightWords(b.Weights))
 	}
 	if a.Transform != b.Transform {
-		out = append(out, "scale set to "+string(b.Transform))
+		scale := wording.Scale(b.Transform)
+		if scale == "" {
+			scale = "the readings as entered"
+		}
+		out = append(out, "scale set to "+scale)
 	}
 	opt("Box–Cox power", a.BoxCoxLambda, b.BoxCoxLambda)
 	num("confidence level", a.Level, b.Level)
