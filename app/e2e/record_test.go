@@ -265,7 +265,7 @@ func recordFlow(t *testing.T, srv *server, name string, size [2]int64, want fitc
 	if v := attr(t, b, "sealed", "data-valid"); v != "true" {
 		t.Errorf("the fresh seal does not verify (data-valid %q)", v)
 	}
-	for _, id := range []string{"x-input-0", "y-input-1", "reading-note-1", "record-site", "standard-add", "unknown-add", "add-row", "undo", "settings-level-99", "condition-add"} {
+	for _, id := range []string{"x-input-0", "y-input-1", "reading-note-1", "record-site", "standard-add", "unknown-add", "add-row", "undo", "settings-level-99", "condition-add", "session-title"} {
 		if exists(t, b, id) && !eval[bool](t, b, fmt.Sprintf(`tid(%q).matches(':disabled')`, id)) {
 			t.Errorf("%s takes input on a sealed record", id)
 		}

@@ -29,6 +29,16 @@ func (c *Shell) locked() bool {
 	return c.sess != nil && c.sess.Seal != nil && c.recUnlock != c.sess.ID
 }
 
+// refuseLocked says so and returns true when the open record is locked
+// (a change from outside the frozen cards: a paste, a rename, a setting).
+func (c *Shell) refuseLocked() bool {
+	if !c.locked() {
+		return false
+	}
+	c.notice = "This record is sealed, so it was not changed. To change it, choose “Start revision " + strconv.Itoa(c.sess.Revision+1) + "” on the sign-off card."
+	return true
+}
+
 // recordAction applies what a card asked for, on the Shell's own context
 // (the card's element may be gone by the time it runs).
 func (c *Shell) recordAction(a RecordAction) {

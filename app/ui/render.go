@@ -68,7 +68,7 @@ func (c *Shell) renderBar() app.UI {
 		app.Img().Class("pl-mark").Src("/web/icons/icon.svg").Alt(""),
 		app.Span().Class("pl-name").Text("Pairline"),
 		app.Input().Class("pl-title").Type("text").Value(title).
-			Attr("aria-label", "Session title").DataSet("testid", "session-title").
+			Attr("aria-label", "Session title").DataSet("testid", "session-title").Disabled(c.locked()).
 			OnChange(c.onField(session.FieldTitle)),
 		app.Span().Class("pl-save").DataSet("testid", "save-status").DataSet("state", c.saveState.String()).
 			Attr("role", "status").Text(c.saveText()),
@@ -90,7 +90,7 @@ func listLabel(open bool, n int) string {
 
 func (c *Shell) onField(field string) app.EventHandler {
 	return func(ctx app.Context, e app.Event) {
-		if c.sess == nil {
+		if c.sess == nil || c.refuseLocked() {
 			return
 		}
 		if err := c.sess.SetField(field, ctx.JSSrc().Get("value").String(), time.Now()); err != nil {
