@@ -191,6 +191,9 @@ func recordFlow(t *testing.T, srv *server, name string, size [2]int64, want fitc
 			t.Errorf("%s: after %s, undo on screen %v, redo on screen %v", name, card, onScreen(t, b, "undo"), onScreen(t, b, "redo"))
 		}
 	}
+	if shot, err := chromedp.Run(b.ctx, chromedp.Screenshot(chromedp.CSS(`section[aria-label="Readings"]`))); err == nil {
+		writeArtifact(t, "record-readings-"+name+".png", shot)
+	}
 	eval[bool](t, b, `(tid("record-card").scrollIntoView(), true)`)
 	shot, err := chromedp.Run(b.ctx, chromedp.Screenshot(sel("record-card")))
 	if err != nil {
