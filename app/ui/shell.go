@@ -296,6 +296,28 @@ func (c *Shell) syncInputs() {
 			el.Set("value", v)
 		}
 	}
+	// The fields of the record's list items (standards, conditions), by
+	// item and field.
+	items := map[string]string{}
+	for i, st := range s.Standards {
+		exp := ""
+		if !st.Expiry.IsZero() {
+			exp = st.Expiry.UTC().Format("2006-01-02")
+		}
+		pre := `[data-testid="standard-item"][data-index="` + strconv.Itoa(i) + `"] [data-testid="standard-`
+		items[pre+`name"]`], items[pre+`certificate"]`], items[pre+`value"]`] = st.Name, st.Certificate, st.Value
+		items[pre+`uncertainty"]`], items[pre+`expiry"]`] = st.Uncertainty, exp
+	}
+	for i, cd := range s.Conditions {
+		pre := `[data-testid="condition-item"][data-index="` + strconv.Itoa(i) + `"] [data-testid="condition-`
+		items[pre+`name"]`], items[pre+`value"]`], items[pre+`unit"]`] = cd.Name, cd.Value, cd.Unit
+	}
+	for q, v := range items {
+		el := doc.Call("querySelector", q)
+		if el.Truthy() && el.Get("value").String() != v {
+			el.Set("value", v)
+		}
+	}
 	// The fields of the settings and criteria cards are known once this
 	// render has drawn them: an undone criterion must leave its box empty.
 	afterRender(c.anResync)
