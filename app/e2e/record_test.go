@@ -155,6 +155,12 @@ func recordFlow(t *testing.T, srv *server, name string, size [2]int64, want fitc
 		t.Error("the standard valid until 2099 is marked expired")
 	}
 
+	// Undo takes the expiry back (the field shows it, the warning goes);
+	// redo brings both again.
+	click(t, b, "undo")
+	waitFor(t, b, "the expiry undone", `tid("standard-item", "[data-index='1'] @standard-expiry").value === "" && !tid("standard-expired")`, 10*time.Second)
+	click(t, b, "redo")
+	waitFor(t, b, "the expiry redone", `tid("standard-item", "[data-index='1'] @standard-expiry").value === "2020-01-31" && !!tid("standard-expired")`, 10*time.Second)
 	// The unknown sample.
 	typeInto(t, b, "unknown-name", recUnknown)
 	typeInto(t, b, "unknown-readings", recUnknownRead)

@@ -60,6 +60,17 @@ func snapshot(s *session.Session) *session.Session {
 	c := *s
 	c.History = nil
 	c.Readings = slices.Clone(s.Readings)
+	// The record's lists are changed in place by their setters: the copy
+	// needs its own (an unknown's readings too).
+	c.Conditions = slices.Clone(s.Conditions)
+	c.Standards = slices.Clone(s.Standards)
+	c.Unknowns = slices.Clone(s.Unknowns)
+	for i := range c.Unknowns {
+		c.Unknowns[i].Readings = slices.Clone(c.Unknowns[i].Readings)
+	}
+	// Seal and the sealed revisions are not part of a step (Restore keeps
+	// the session's own); the copy holds none.
+	c.Seal, c.Sealed = nil, nil
 	if s.Location != nil {
 		l := *s.Location
 		c.Location = &l

@@ -92,3 +92,33 @@ func TestUndoRedoCriterion(t *testing.T) {
 		t.Errorf("%d steps to undo after typing a cell back to what it was, want %d", len(c.unStack), depth)
 	}
 }
+
+// TestSnapshotOwnsRecordLists: a state kept for undo is not changed by a
+// later edit of a standard, a condition or an unknown's readings (their
+// setters change the lists in place).
+func TestSnapshotOwnsRecordLists(t *testing.T) {
+	now := time.Date(2026, 5, 1, 10, 0, 0, 0, time.UTC)
+	s, err := newSession(now)
+	if err != nil {
+		t.Fatal(err)
+	}
+	must := func(err error) {
+		t.Helper()
+		if err != nil {
+			t.Fatal(err)
+		}
+	}
+	_, err = s.AddStandard(session.Standard{Name: "KCl 500 (invented)", Value: "500"}, now)
+	must(err)
+	_, err = s.AddCondition(session.Condition{Name: "temperature", Value: "21.4", Unit: "°C"}, now)
+	must(err)
+	_, err = s.AddUnknown(session.Unknown{Name: "Tap 3 (invented)", Readings: []string{"612.0", "614.5"}}, now)
+	must(err)
+	kept := snapshot(s)
+	must(s.SetStandard(0, session.Standard{Name: "KCl 500 (invented)", Value: "501"}, now))
+	must(s.SetCondition(0, session.Condition{Name: "temperature", Value: "22.0", Unit: "°C"}, now))
+	must(s.SetUnknown(0, session.Unknown{Name: "Tap 3 (invented)", Readings: []string{"612.0", "615.0"}}, now))
+	if kept.Standards[0].Value != "500" || kept.Conditions[0].Value != "21.4" || kept.Unknowns[0].Readings[1] != "614.5" {
+		t.Errorf("the kept state changed with the session: %+v %+v %+v", kept.Standards, kept.Conditions, kept.Unknowns)
+	}
+}
