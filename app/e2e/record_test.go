@@ -386,6 +386,14 @@ func recordPDF(t *testing.T, b *browser, title string) {
 // browser exported and requires its seal to verify.
 func recordInspect(t *testing.T, file []byte) {
 	t.Helper()
+	// The file itself: decoded natively, its seal verifies.
+	f := decodeFile(t, file)
+	if len(f.Sessions) != 1 {
+		t.Fatalf("the exported file holds %d sessions", len(f.Sessions))
+	}
+	if ok, err := f.Sessions[0].VerifySeal(); !ok {
+		t.Errorf("the exported record's seal does not verify: %v", err)
+	}
 	bin, _ := appPaths(t)
 	path := filepath.Join(t.TempDir(), "sealed.pairline")
 	if err := os.WriteFile(path, file, 0o644); err != nil {
