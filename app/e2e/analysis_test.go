@@ -17,6 +17,7 @@ import (
 
 	"pairline/app/numfmt"
 	"pairline/app/session"
+	"pairline/app/wording"
 	"pairline/fitcore"
 )
 
@@ -381,7 +382,8 @@ func TestAnalysisAdvice(t *testing.T) {
 	// The change is in the session's history (shown in the report).
 	click(t, b, "report-open")
 	waitFor(t, b, "the report", `!!tid("report-view", ' .pl-rt-hist')`, 20*time.Second)
-	if hist := eval[string](t, b, `tid("report-view", ' .pl-rt-hist').textContent`); !strings.Contains(hist, `"transform":"`+string(remedy)+`"`) {
+	// In words: the scale the remedy fits on (log y and log–log are transforms of the same name).
+	if hist := eval[string](t, b, `tid("report-view", ' .pl-rt-hist').textContent`); !strings.Contains(hist, "Scale set to "+wording.Scale(fitcore.Transform(remedy))) {
 		t.Errorf("the history does not record the applied %s: %q", remedy, hist)
 	}
 	click(t, b, "report-close")
