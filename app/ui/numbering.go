@@ -58,8 +58,8 @@ func rowWords(s string, rows []int) string {
 			for d < len(s) && s[d] >= '0' && s[d] <= '9' {
 				d++
 			}
-			if d == i || d-i > 9 {
-				break
+			if d == i || d-i > 9 || s[i] == '0' {
+				break // not a number fitcore writes (none has a leading zero)
 			}
 			if strings.HasPrefix(s[d:], " more") {
 				break // a count, not a reading

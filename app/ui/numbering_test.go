@@ -65,3 +65,33 @@ func TestRenumberReport(t *testing.T) {
 		t.Error("renumberAdvice(nil) changed the advice")
 	}
 }
+
+// FuzzRowWords: any text, any numbering: rowWords never panics, keeps the
+// text when positions are rows, and changes nothing but digits.
+func FuzzRowWords(f *testing.F) {
+	for _, s := range []string{"Readings 9 and 11 stand out.", "Reading 1, 2 and 3 more", "reading 0", "Readings 1, , 2", "Reading 99999999999"} {
+		f.Add(s, uint8(3))
+	}
+	f.Fuzz(func(t *testing.T, s string, shift uint8) {
+		rows := make([]int, 50)
+		same := make([]int, 50)
+		for i := range rows {
+			rows[i], same[i] = i+int(shift), i
+		}
+		if got := rowWords(s, same); got != s {
+			t.Fatalf("identity numbering changed %q to %q", s, got)
+		}
+		got := rowWords(s, rows)
+		strip := func(v string) string {
+			return strings.Map(func(r rune) rune {
+				if r >= '0' && r <= '9' {
+					return -1
+				}
+				return r
+			}, v)
+		}
+		if strip(got) != strip(s) {
+			t.Fatalf("rowWords(%q) = %q changed more than digits", s, got)
+		}
+	})
+}
