@@ -135,6 +135,13 @@ func recordFlow(t *testing.T, srv *server, name string, size [2]int64, want fitc
 	}
 	waitFor(t, b, "the condition kept", `tid("condition-item", "[data-index='1'] @condition-unit").value === "%"`, 10*time.Second)
 	setValue(t, b, "reading-note-2", "fresh buffer (invented)", "change")
+	// The card before any undo (whose message floats over the page).
+	eval[bool](t, b, `(tid("record-card").scrollIntoView(), true)`)
+	shot, err := chromedp.Run(b.ctx, chromedp.Screenshot(sel("record-card")))
+	if err != nil {
+		t.Fatal(err)
+	}
+	writeArtifact(t, "record-card-"+name+".png", shot)
 
 	// Two standards; the second expired before the readings were taken.
 	click(t, b, "standard-add")
@@ -200,14 +207,8 @@ func recordFlow(t *testing.T, srv *server, name string, size [2]int64, want fitc
 	if shot, err := chromedp.Run(b.ctx, chromedp.Screenshot(chromedp.CSS(`section[aria-label="Readings"]`))); err == nil {
 		writeArtifact(t, "record-readings-"+name+".png", shot)
 	}
-	eval[bool](t, b, `(tid("record-card").scrollIntoView(), true)`)
-	shot, err := chromedp.Run(b.ctx, chromedp.Screenshot(sel("record-card")))
-	if err != nil {
-		t.Fatal(err)
-	}
-	writeArtifact(t, "record-card-"+name+".png", shot)
 	eval[bool](t, b, `(tid("standard-item").parentElement.closest("section").scrollIntoView(), true)`)
-	if shot, err = chromedp.Run(b.ctx, chromedp.Screenshot(chromedp.CSS(`section[aria-label="Standards"]`))); err == nil {
+	if shot, err := chromedp.Run(b.ctx, chromedp.Screenshot(chromedp.CSS(`section[aria-label="Standards"]`))); err == nil {
 		writeArtifact(t, "record-standards-"+name+".png", shot)
 	}
 
