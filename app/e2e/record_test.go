@@ -249,8 +249,10 @@ func recordFlow(t *testing.T, srv *server, name string, size [2]int64, want fitc
 			t.Errorf("the report is %v px wide on a %d px phone", w, size[0])
 		}
 		// Viewport shots (a phone-long full page is too tall to look at).
-		for _, part := range []string{"report", "report-standards", "report-unknowns", "report-signature"} {
-			eval[bool](t, b, fmt.Sprintf(`(tid(%q).scrollIntoView(), scrollBy(0, -190), true)`, part))
+		for _, part := range []string{"report", "report-standards", "report-unknowns", "report-left-out", "report-signature"} {
+			// report-left-out: the readings table is the section before it.
+			eval[bool](t, b, fmt.Sprintf(`((part) => { const el = part === "report-left-out" ? document.querySelector(".pl-report-readings") : tid(part);
+				el.scrollIntoView(); scrollBy(0, -190); return true; })(%q)`, part))
 			time.Sleep(200 * time.Millisecond)
 			if shot, err := chromedp.Run(b.ctx, chromedp.CaptureScreenshot()); err == nil {
 				writeArtifact(t, "record-"+part+"-phone.png", shot)
