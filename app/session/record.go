@@ -260,10 +260,13 @@ const (
 	EditRevision = "revision"
 )
 
-// Restore makes s hold state: its readings, metadata, decimal-comma choice,
-// location and settings (state is an earlier or a later copy of the same
-// session, as undo and redo keep them; its ID, Created and History are not
-// used). s keeps its ID, Created and every history entry: the history is
+// Restore makes s hold state: its readings, metadata (the instrument's ID
+// and interval included), decimal-comma choice, location, settings,
+// conditions, standards and unknowns (state is an earlier or a later copy
+// of the same session, as undo and redo keep them; its ID, Created,
+// History, Seal, Revision and Sealed are not used: a signature is never
+// undone, and restoring a sealed record starts a new revision like any
+// change). s keeps its ID, Created and every history entry: the history is
 // evidence and is only appended to. It gets one entry, field (FieldUndo or
 // FieldRedo), whose New is what (the change undone or redone, in words),
 // and, when the number of readings changes, a FieldRows entry with the
@@ -281,6 +284,12 @@ func (s *Session) Restore(state *Session, field, what string, now time.Time) err
 	}
 	if f, err := state.Settings.validate(); err != nil {
 		return fmt.Errorf("%w: settings %s %v", ErrBadValue, f, err)
+	}
+	if f, err := validateLists(state.Conditions, state.Standards, state.Unknowns); err != nil {
+		return fmt.Errorf("%w: %s %v", ErrBadValue, f, err)
+	}
+	if f, err := state.Instrument.validate(); err != nil {
+		return fmt.Errorf("%w: instrument.%s %v", ErrBadValue, f, err)
 	}
 	if len(what) > MaxLongText {
 		n := MaxLongText

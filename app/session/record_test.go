@@ -479,3 +479,19 @@ func TestResultsSummaryUsesStandards(t *testing.T) {
 		t.Errorf("summary %q", sum)
 	}
 }
+
+// TestRestoreRefusesLists: a state past the record limits is refused
+// before anything changes.
+func TestRestoreRefusesLists(t *testing.T) {
+	s := newRecord(t)
+	state := *s
+	state.Standards = make([]Standard, MaxStandards+1)
+	if err := s.Restore(&state, FieldUndo, "x", at(1)); !errors.Is(err, ErrBadValue) || len(s.History) != 0 || s.Standards != nil {
+		t.Errorf("too many standards: %v, %d entries", err, len(s.History))
+	}
+	state = *s
+	state.Instrument.IntervalDays = -5
+	if err := s.Restore(&state, FieldUndo, "x", at(1)); !errors.Is(err, ErrBadValue) {
+		t.Errorf("negative interval: %v", err)
+	}
+}

@@ -324,6 +324,21 @@ func (s *Session) freeze() SealedRevision {
 	return f
 }
 
+// view is the current revision as a SealedRevision that shares the
+// session's slices (for reading only, as SealDigest does).
+func (s *Session) view() *SealedRevision {
+	f := &SealedRevision{
+		Revision: s.Revision, Title: s.Title, Site: s.Site, Instrument: s.Instrument, Operator: s.Operator,
+		XName: s.XName, XUnit: s.XUnit, YName: s.YName, YUnit: s.YUnit, Notes: s.Notes, DecimalComma: s.DecimalComma,
+		Location: s.Location, Readings: s.Readings, Settings: s.Settings, Conditions: s.Conditions, Standards: s.Standards,
+		Unknowns: s.Unknowns,
+	}
+	if s.Seal != nil {
+		f.Seal = *s.Seal
+	}
+	return f
+}
+
 // frozen is freeze with the results summary, for the copy kept on Sealed.
 func (s *Session) frozen() SealedRevision {
 	f := s.freeze()

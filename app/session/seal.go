@@ -43,8 +43,7 @@ func (s *Session) SealDigest() (string, error) {
 	if s.Seal == nil {
 		return "", ErrNotSealed
 	}
-	f := s.freeze()
-	return sealDigest(s.ID, s.Created, &f), nil
+	return sealDigest(s.ID, s.Created, s.view()), nil
 }
 
 // sealDigest is the digest of one revision's content r (its Seal's names
@@ -96,15 +95,19 @@ func sealBytes(id string, created time.Time, r *SealedRevision) []byte {
 		w.tm("location.taken", l.Taken)
 	}
 	w.item("readings", strconv.Itoa(len(r.Readings)))
+	var tb []byte
 	for i := range r.Readings {
 		q := &r.Readings[i]
-		p := "readings[" + strconv.Itoa(i) + "]."
-		w.item(p+"x", q.X)
-		w.item(p+"y", q.Y)
-		w.item(p+"note", q.Note)
-		w.tm(p+"taken", q.Taken)
-		w.item(p+"excluded", strconv.FormatBool(q.Excluded))
-		w.item(p+"exclude_reason", q.ExcludeReason)
+		w.itemAt("readings", i, "x", q.X)
+		w.itemAt("readings", i, "y", q.Y)
+		w.itemAt("readings", i, "note", q.Note)
+		tb = tb[:0]
+		if !q.Taken.IsZero() {
+			tb = q.Taken.UTC().AppendFormat(tb, time.RFC3339Nano)
+		}
+		w.itemAtBytes("readings", i, "taken", tb)
+		w.itemAt("readings", i, "excluded", strconv.FormatBool(q.Excluded))
+		w.itemAt("readings", i, "exclude_reason", q.ExcludeReason)
 	}
 	st := &r.Settings
 	w.item("settings.model", string(st.Model))
@@ -162,6 +165,32 @@ func sealBytes(id string, created time.Time, r *SealedRevision) []byte {
 }
 
 type sealWriter struct{ b []byte }
+
+// itemAt is item with the name list[i].field, made without a new string.
+func (w *sealWriter) itemAt(list string, i int, field, value string) {
+	w.name(list, i, field)
+	w.b = strconv.AppendInt(w.b, int64(len(value)), 10)
+	w.b = append(w.b, ' ')
+	w.b = append(w.b, value...)
+	w.b = append(w.b, '\n')
+}
+
+func (w *sealWriter) itemAtBytes(list string, i int, field string, value []byte) {
+	w.name(list, i, field)
+	w.b = strconv.AppendInt(w.b, int64(len(value)), 10)
+	w.b = append(w.b, ' ')
+	w.b = append(w.b, value...)
+	w.b = append(w.b, '\n')
+}
+
+func (w *sealWriter) name(list string, i int, field string) {
+	w.b = append(w.b, list...)
+	w.b = append(w.b, '[')
+	w.b = strconv.AppendInt(w.b, int64(i), 10)
+	w.b = append(w.b, "]."...)
+	w.b = append(w.b, field...)
+	w.b = append(w.b, ' ')
+}
 
 func (w *sealWriter) item(name, value string) {
 	w.b = append(w.b, name...)
