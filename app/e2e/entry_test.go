@@ -63,7 +63,13 @@ func TestSessionList(t *testing.T) {
 
 	b.do(t, chromedp.Click(sel("session-new")))
 	waitFor(t, b, "an empty new session", `tid("x-input-0").value === ""`, 5*time.Second)
+	// An empty session is not stored until its first real change.
 	b.do(t, chromedp.Click(sel("sessions-open")))
+	waitFor(t, b, "one listed session", `tids("session-item").length === 1`, 10*time.Second)
+	if got := eval[string](t, b, `tid("session-item").textContent`); !strings.Contains(got, "1 reading ") {
+		t.Errorf("the stored session is listed as %q, want 1 reading (the blank row not counted)", got)
+	}
+	typeInto(t, b, "x-input-0", "20")
 	waitFor(t, b, "two listed sessions", `tids("session-item").length === 2`, 10*time.Second)
 
 	// Rename the older one (second in the list: newest first).
@@ -89,7 +95,7 @@ func TestSessionList(t *testing.T) {
 	b.do(t, chromedp.Click(sel("session-delete")))
 	waitFor(t, b, "the confirmation", `!!tid("session-delete-confirm")`, 5*time.Second)
 	b.do(t, chromedp.Click(sel("session-delete-confirm")))
-	waitFor(t, b, "the next session open", `tid("x-input-0").value === ""`, 10*time.Second)
+	waitFor(t, b, "the next session open", `tid("x-input-0").value === "20"`, 10*time.Second)
 	b.do(t, chromedp.Click(sel("sessions-open")))
 	waitFor(t, b, "one listed session", `tids("session-item").length === 1`, 10*time.Second)
 

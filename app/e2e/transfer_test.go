@@ -305,7 +305,7 @@ func TestImportBroken(t *testing.T) {
 	}{
 		{"damaged.pairline", flipped, []string{"damaged", "checksum", "at byte"}},
 		{"cut.pairline", cut, []string{"incomplete", "at byte"}},
-		{"newer.pairline", newer, []string{"newer version", "format 2.0"}},
+		{"newer.pairline", newer, []string{"newer version", "format 2."}}, // the minor version stays the file's (1.1 since the calibration record)
 		{"readings.pairline", []byte("x,y\n1,2\n"), []string{"not a Pairline session file", "CSV"}},
 		{"quotes.csv", []byte("x,y\n1,2\n3,\"4\n5,6\n"), []string{"line 3", "quote"}},
 		{"words.csv", []byte("name,place\nalder,north\nbirch,south\n"), []string{"no two columns of numbers"}},

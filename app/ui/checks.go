@@ -155,13 +155,6 @@ func (c *Shell) anInfluenceRow(a fitcore.Assumption) app.UI {
 		}
 	}
 	var extra []app.UI
-	renumbered := false
-	for i, r := range c.view.rows {
-		if r != i {
-			renumbered = true
-			break
-		}
-	}
 	if len(flagged) > 0 {
 		const show = 12
 		btns := make([]app.UI, 0, min(len(flagged), show))
@@ -175,17 +168,6 @@ func (c *Shell) anInfluenceRow(a fitcore.Assumption) app.UI {
 				DataSet("testid", "influence-jump-"+strconv.Itoa(row+1)).DataSet("row", strconv.Itoa(row+1)).
 				DataSet("an", "jump:"+strconv.Itoa(row)).
 				OnClick(c.anOn("jump:"+strconv.Itoa(row), func(ctx app.Context, e app.Event) { c.anJump(ctx, row) })))
-		}
-		if renumbered {
-			var parts []string
-			for i, p := range flagged {
-				if i == 5 {
-					break
-				}
-				parts = append(parts, "reading "+strconv.Itoa(p.Index+1)+" is row "+strconv.Itoa(c.anRowOf(p.Index)+1))
-			}
-			extra = append(extra, app.P().Class("an-hint").DataSet("testid", "influence-rows-note").Text(
-				"Readings are counted among the usable pairs (blank and excluded rows left out): "+strings.Join(parts, ", ")+" of the table."))
 		}
 		extra = append(extra, app.Div().Class("an-jumps").DataSet("testid", "influence-rows").Body(btns...))
 	}

@@ -8,7 +8,6 @@ import (
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
-	"pairline/app/numfmt"
 	"pairline/app/session"
 )
 
@@ -94,28 +93,22 @@ func (c *Shell) exportCSV(ctx app.Context, e app.Event) {
 	download(fileBase(c.sess.Title)+" readings.csv", "text/csv", buf.Bytes())
 }
 
-// exportResults writes the line's headline figures as CSV (full precision).
+// exportResults writes the results of the record as CSV: session.
+// WriteResultsCSV, the same table `pairline export-csv --results` writes
+// (the line, its checks, the acceptance, each unknown sample by name with
+// its conversion and interval; full precision, no cell a formula).
 func (c *Shell) exportResults(ctx app.Context, e app.Event) {
 	rep := c.view.report
 	if c.sess == nil || rep == nil {
 		return
 	}
-	rows := [][]string{{"figure", "value"}}
-	for _, f := range []struct {
-		name string
-		v    float64
-	}{
-		{"pairs used (n)", float64(rep.N)},
-		{"slope", rep.Slope.Estimate}, {"slope standard error", rep.Slope.SE},
-		{"intercept", rep.Intercept.Estimate}, {"intercept standard error", rep.Intercept.SE},
-		{"correlation r", rep.R}, {"r squared", rep.RSquared}, {"residual standard deviation", rep.ResidualSE},
-	} {
-		rows = append(rows, []string{f.name, numfmt.Full(f.v)})
-	}
-	// The same writer as the readings, so that no cell reaches a
-	// spreadsheet as a formula.
+	// The report holds the screen's own conversion first; the table is
+	// about the record's unknowns only (unknownResults).
+	adhoc, _ := unknownResults(c.sess, rep)
+	r := *rep
+	r.Inverse = rep.Inverse[len(adhoc):]
 	var buf bytes.Buffer
-	if err := session.WriteTable(&buf, rows, false); err != nil {
+	if err := session.WriteResultsCSV(&buf, c.sess, &r, c.sess.UnknownQueries()); err != nil {
 		c.notice = "The results could not be exported: " + err.Error()
 		return
 	}

@@ -28,6 +28,7 @@ func (c *Shell) renderReadings() app.UI {
 				app.Th().Text("#"),
 				app.Th().Text(colHead(s.XName, s.XUnit, "x")),
 				app.Th().Text(colHead(s.YName, s.YUnit, "y")),
+				app.Th().Class("pl-note-head").Text("Note"),
 			)),
 			app.TBody().Body(
 				app.Range(make([]struct{}, hi-lo)).Slice(func(i int) app.UI { return c.row(lo + i) }),
@@ -35,7 +36,7 @@ func (c *Shell) renderReadings() app.UI {
 		),
 		app.If(len(s.Readings) > pageSize, func() app.UI { return c.pager(lo, hi) }),
 		app.Div().Class("pl-grid-foot").Body(
-			app.Button().Class("pl-btn pl-btn-wide").Text("+ Add reading").DataSet("testid", "add-row").
+			app.Button().Class("pl-btn pl-btn-wide").Text("+ Add reading").DataSet("testid", "add-row").Disabled(c.locked()).
 				OnClick(func(ctx app.Context, e app.Event) {
 					i := c.sess.AddRow("", "", time.Now())
 					if p := i / pageSize; p != c.page {
@@ -134,6 +135,8 @@ func (c *Shell) row(i int) app.UI {
 		YProblem: yProblem,
 		Excluded: r.Excluded,
 		Reason:   reason,
+		Note:     r.Note,
+		Locked:   c.locked(),
 		shell:    c,
 	}
 }
@@ -173,6 +176,8 @@ type readingRow struct {
 	XProblem, YProblem string
 	Excluded           bool
 	Reason             string // why a left-out reading is left out
+	Note               string
+	Locked             bool // the record is sealed: nothing can be typed
 
 	shell *Shell // set when the row is first drawn; go-app keeps it
 }
@@ -192,6 +197,30 @@ func (r *readingRow) Render() app.UI {
 				return app.Span().Class("pl-row-reason").DataSet("testid", "row-reason-"+n).
 					Text("Left out: " + wording.Visible(r.Reason))
 			})),
+		r.noteCell(),
+	)
+}
+
+// noteCell is the note of the reading (at most session.MaxNoteText bytes;
+// the CSV's note column). Its test id counts rows from 1, as the grid does.
+func (r *readingRow) noteCell() app.UI {
+	c := r.shell
+	num := strconv.Itoa(r.Row + 1)
+	return app.Td().Class("pl-cellwrap pl-note-cell").Body(
+		app.Input().Type("text").Class("pl-cell pl-note").Value(r.Note).
+			Attr("autocomplete", "off").Attr("maxlength", strconv.Itoa(session.MaxNoteText)).Attr("placeholder", "note").
+			Attr("aria-label", "Note of reading "+num).DataSet("testid", "reading-note-"+num).
+			Disabled(r.Locked).
+			OnChange(func(ctx app.Context, e app.Event) {
+				if c.sess == nil || c.sess.ID != r.Session || c.locked() {
+					return
+				}
+				if err := c.sess.SetCell(r.Row, session.ColumnNote, ctx.JSSrc().Get("value").String(), time.Now()); err != nil {
+					c.notice = "The note was not kept: " + err.Error()
+					return
+				}
+				c.edited(ctx)
+			}),
 	)
 }
 
@@ -207,9 +236,9 @@ func (r *readingRow) cell(col session.Column, testid, text, problem string, more
 	in := app.Input().Type("text").Class("pl-cell").Value(text).
 		Attr("inputmode", "decimal").Attr("autocomplete", "off").Attr("enterkeyhint", "next").
 		Attr("aria-label", label+" of reading "+strconv.Itoa(r.Row+1)).
-		DataSet("testid", testid).DataSet("row", r.Row).
+		DataSet("testid", testid).DataSet("row", r.Row).Disabled(r.Locked).
 		OnInput(func(ctx app.Context, e app.Event) {
-			if c.sess == nil || c.sess.ID != r.Session {
+			if c.sess == nil || c.sess.ID != r.Session || c.locked() {
 				return
 			}
 			c.enRow, c.enIn = r.Row, true // typing in it: the row is being entered

@@ -75,15 +75,9 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 		fail(err)
 		return
 	}
-	s.XName, s.YName = "Reference", "Reading"
-	if probe.HasHeader {
-		if xCol < len(probe.Header) && probe.Header[xCol] != "" {
-			s.XName = probe.Header[xCol]
-		}
-		if yCol < len(probe.Header) && probe.Header[yCol] != "" {
-			s.YName = probe.Header[yCol]
-		}
-	}
+	// The names and units come from the file (session.Import: the header
+	// cells, a units row under them, or the "name (unit)" of Pairline's
+	// own export); a file without them gets the usual names afterwards.
 	// Room for every line at once: growing a slice of 100,000 readings step
 	// by step costs more than the reading itself. (An import is one history
 	// entry, so the history needs no room.)
@@ -143,6 +137,12 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 	if len(s.Readings) == 0 {
 		fail(&session.CSVError{Err: session.ErrCSVNoData})
 		return
+	}
+	if s.XName == "" {
+		s.XName = "Reference"
+	}
+	if s.YName == "" {
+		s.YName = "Reading"
 	}
 	// Encoding, storing and analysing a big session each take a while; a
 	// pause between them lets the page draw the progress in between.

@@ -19,6 +19,9 @@ func (c *Shell) pasteBlock(ctx app.Context, row int, text string) {
 	if c.sess == nil {
 		return
 	}
+	if c.refuseLocked() {
+		return
+	}
 	res, err := session.ReadPaste(text, session.CSVOptions{})
 	if err != nil {
 		c.notice = "The pasted block was not used: " + err.Error()

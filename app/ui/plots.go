@@ -616,6 +616,9 @@ func (c *Shell) excludePoint(ctx app.Context, row int) {
 		c.plMsg = "Say why this reading is left out (for example “decimal point slipped”): the record has to show it."
 		return
 	}
+	if c.refuseLocked() {
+		return
+	}
 	if err := c.sess.Exclude(row, reason, time.Now()); err != nil {
 		c.plMsg = err.Error()
 		return
@@ -625,6 +628,9 @@ func (c *Shell) excludePoint(ctx app.Context, row int) {
 }
 
 func (c *Shell) includePoint(ctx app.Context, row int) {
+	if c.refuseLocked() {
+		return
+	}
 	if err := c.sess.Include(row, time.Now()); err != nil {
 		c.plMsg = err.Error()
 		return

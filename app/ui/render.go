@@ -25,14 +25,23 @@ func (c *Shell) Render() app.UI {
 		app.If(c.sess == nil, func() app.UI {
 			return app.Main().Class("pl-main").Body(app.P().Class("pl-wait").Text("Opening your sessions…"))
 		}).Else(func() app.UI {
+			// A sealed record takes no input until the technician starts
+			// its next revision: the fieldset disables every control in
+			// it (it is laid out as if absent: web/record.css).
 			return app.Main().Class("pl-main").Body(
 				c.renderJumps(),
-				c.renderReadings(),
-				c.renderLine(),
-				c.renderPlots(),
-				c.renderChecks(), c.renderAdvice(),
-				c.renderAcceptance(), c.renderUseLine(),
-				c.renderSettings(), c.renderTransfer(),
+				app.FieldSet().Class("pl-lockset").Disabled(c.locked()).Body(
+					c.renderRecord(),
+					c.renderReadings(),
+					c.renderLine(),
+					c.renderPlots(),
+					c.renderChecks(), c.renderAdvice(),
+					c.renderAcceptance(), c.renderUseLine(),
+					c.renderUnknowns(),
+				),
+				c.renderSign(),
+				app.FieldSet().Class("pl-lockset").Disabled(c.locked()).Body(c.renderSettings()),
+				c.renderTransfer(),
 			)
 		}),
 		app.If(c.rpOpen && c.sess != nil, c.renderReport),
@@ -72,7 +81,7 @@ func (c *Shell) renderBar() app.UI {
 		app.Img().Class("pl-mark").Src("/web/icons/icon.svg").Alt("Pairline mark").Attr("aria-hidden", "true"),
 		app.H1().Class("pl-name").Text("Pairline"),
 		app.Input().Class("pl-title").Type("text").Value(title).
-			Attr("aria-label", "Session title").DataSet("testid", "session-title").
+			Attr("aria-label", "Session title").DataSet("testid", "session-title").Disabled(c.locked()).
 			OnChange(c.onField(session.FieldTitle)),
 		app.Span().Class("pl-save").DataSet("testid", "save-status").DataSet("state", c.saveState.String()).
 			Attr("role", "status").Text(c.saveText()),
@@ -102,7 +111,7 @@ func listLabel(open bool, n int) string {
 
 func (c *Shell) onField(field string) app.EventHandler {
 	return func(ctx app.Context, e app.Event) {
-		if c.sess == nil {
+		if c.sess == nil || c.refuseLocked() {
 			return
 		}
 		if err := c.sess.SetField(field, ctx.JSSrc().Get("value").String(), time.Now()); err != nil {
@@ -141,6 +150,7 @@ func focus(testid string) {
 
 // jumps are the cards the jump bar leads to, by the aria-label of each card.
 var jumps = []struct{ label, card string }{
+	{"Record", "Record"},
 	{"Readings", "Readings"},
 	{"Line", "Line"},
 	{"Plots", "Plots"},
@@ -148,6 +158,8 @@ var jumps = []struct{ label, card string }{
 	{"Advice", "Advice"},
 	{"Criteria", "Acceptance"},
 	{"Use", "Use the line"},
+	{"Samples", "Unknown samples"},
+	{"Sign-off", "Sign-off"},
 	{"Settings", "Fit settings"},
 	{"Files", "Files"},
 }

@@ -132,6 +132,14 @@ func rpBody(s *session.Session, rep *fitcore.Report, rows []int, message string,
 	var b rpB
 	b.Grow(32 << 10)
 	b.w(`<article class="pl-report" data-testid="report">`)
+	// Every printed page carries the title and "page N of M" in its margins
+	// (@page margin boxes: Chromium prints them since version 131). The
+	// title is written as a CSS string of hex escapes only, so no text
+	// of the session can end the rule or the style element.
+	b.w(`<style>@media print{@page{@top-left{content:"`, cssString(clipRunes("Pairline report — "+s.Title, 90)),
+		`";font:9pt sans-serif;color:#3a434b}@top-right{content:"`, cssString(rpRevisionWords(s)),
+		`";font:9pt sans-serif;color:#3a434b}@bottom-right{content:"Page " counter(page) " of " counter(pages);font:9pt sans-serif;color:#3a434b}`,
+		`@bottom-left{content:"Session `, cssString(s.ID), `";font:8pt sans-serif;color:#3a434b}}}</style>`)
 	b.w(`<header class="pl-report-head"><p class="pl-report-kicker">Pairline report</p><h1>`, rpEsc(s.Title), `</h1>`)
 	b.w(`<p class="pl-report-when">Prepared `, rpEsc(now.Local().Format("2 January 2006, 15:04 MST")), `. Session `, rpEsc(s.ID), `.</p></header>`)
 
@@ -141,12 +149,20 @@ func rpBody(s *session.Session, rep *fitcore.Report, rows []int, message string,
 	// Metadata.
 	b.w(`<section tabindex="0" class="pl-report-sec"><h2>Record</h2><table class="pl-rt pl-rt-meta"><tbody>`)
 	meta := [][2]string{
-		{"Site", s.Site}, {"Instrument", s.Instrument.Description}, {"Serial number", s.Instrument.Serial}, {"Operator", s.Operator},
+		{"Site", s.Site}, {"Instrument", s.Instrument.Description}, {"Serial number", s.Instrument.Serial},
+		{"Identifier", s.Instrument.ID}, {"Calibration interval", rpInterval(s.Instrument.IntervalDays)}, {"Operator", s.Operator},
 		{"Known value (x)", colHead(s.XName, s.XUnit, "x")}, {"Instrument value (y)", colHead(s.YName, s.YUnit, "y")},
 		{"Started", s.Created.Local().Format("2 Jan 2006 15:04")}, {"Last change", s.Modified.Local().Format("2 Jan 2006 15:04")},
 	}
 	if s.Location != nil {
 		meta = append(meta, [2]string{"Location", numfmt.Sig(s.Location.Lat, 7) + ", " + numfmt.Sig(s.Location.Lon, 7)})
+	}
+	for _, cd := range s.Conditions {
+		name := cd.Name
+		if name == session.ConditionTemperature {
+			name = "Temperature"
+		}
+		meta = append(meta, [2]string{nonEmpty(name, "Condition"), strings.TrimSpace(cd.Value + " " + cd.Unit)})
 	}
 	meta = append(meta, [2]string{"Notes", s.Notes})
 	for _, m := range meta {
@@ -156,7 +172,9 @@ func rpBody(s *session.Session, rep *fitcore.Report, rows []int, message string,
 		}
 		b.w(`<tr><th scope="row">`, rpEsc(m[0]), `</th><td>`, rpEsc(v), `</td></tr>`)
 	}
-	b.w(`</tbody></table></section>`)
+	b.w(`</tbody></table>`)
+	rpStandards(&b, s)
+	b.w(`</section>`)
 
 	if rep == nil {
 		b.w(`<section tabindex="0" class="pl-report-sec"><h2>Line</h2><p class="pl-report-msg" data-testid="report-message">`, rpEsc(message), `</p></section>`)
@@ -166,6 +184,7 @@ func rpBody(s *session.Session, rep *fitcore.Report, rows []int, message string,
 		rpAdvice(&b, rep)
 		rpAcceptance(&b, rep)
 		rpUse(&b, s, rep)
+		rpUnknowns(&b, s, rep)
 		ps := plBuild(s, rep, rows, -1)
 		b.w(`<section tabindex="0" class="pl-report-sec pl-report-plots"><h2>Plots</h2><div class="pl-report-plotgrid">`)
 		for _, p := range [][2]string{{"Readings and the fitted line", ps.Fit}, {"Residuals against fitted values", ps.Residuals},
@@ -181,7 +200,9 @@ func rpBody(s *session.Session, rep *fitcore.Report, rows []int, message string,
 		b.w(`</p></section>`)
 	}
 	rpReadings(&b, s, rep, rows)
+	rpLeftOut(&b, s)
 	rpHistory(&b, s)
+	rpSignature(&b, s)
 	b.w(`<section tabindex="0" class="pl-report-sec pl-report-caution" data-testid="report-caution"><h2>Cautions</h2>`,
 		`<p><strong>⚠ This is a statistical check of the readings, not a certification.</strong> For gas detectors, structural loads, `,
 		`drinking water and other safety-related or regulated measurements, follow the instrument maker's calibration procedure, `,
@@ -210,18 +231,19 @@ func rpLine(b *rpB, s *session.Session, rep *fitcore.Report) {
 	// The columns in the order of the screen's "More numbers": the
 	// interval first, then the standard error and the test against the
 	// reference value (app/wording).
-	b.w(`<table class="pl-rt"><thead><tr><th>Figure</th><th>`, wording.Estimate, `</th><th>`, rpEsc(wording.Interval(rep.Level)), `</th><th>`,
+	b.w(`<div class="pl-rt-wrap"><table class="pl-rt pl-rt-fit pl-rt-stack"><thead><tr><th>Figure</th><th>`, wording.Estimate, `</th><th>`, rpEsc(wording.Interval(rep.Level)), `</th><th>`,
 		wording.StandardError, `</th><th>`, wording.TestedAgainst, `</th></tr></thead><tbody>`)
 	coef := func(name string, c fitcore.Coefficient, unit string) {
-		b.w(`<tr><th scope="row">`, rpEsc(name), `</th><td>`, rpNum(c.Estimate, numfmt.Sig(c.Estimate, sig)), ` `, rpEsc(unit), `</td><td>`,
-			rpNum(c.CILow, numfmt.Sig(c.CILow, sig)), ` to `, rpNum(c.CIHigh, numfmt.Sig(c.CIHigh, sig)), `</td><td>`,
-			rpNum(c.SE, numfmt.Sig(c.SE, 3)), `</td><td>`, rpEsc(wording.Ref(c.Ref)), `: `, rpP(c.PRef), `</td></tr>`)
+		b.w(`<tr><th scope="row">`, rpEsc(name), `</th><td data-label="`, wording.Estimate, `">`, rpNum(c.Estimate, numfmt.Sig(c.Estimate, sig)), ` `, rpEsc(unit),
+			`</td><td data-label="`, rpEsc(wording.Interval(rep.Level)), `">`,
+			rpNum(c.CILow, numfmt.Sig(c.CILow, sig)), ` to `, rpNum(c.CIHigh, numfmt.Sig(c.CIHigh, sig)), `</td><td data-label="`, wording.StandardError, `">`,
+			rpNum(c.SE, numfmt.Sig(c.SE, 3)), `</td><td data-label="`, wording.TestedAgainst, `">`, rpEsc(wording.Ref(c.Ref)), `: `, rpP(c.PRef), `</td></tr>`)
 	}
 	coef(wording.Slope, rep.Slope, wording.SlopeUnit(s.YUnit, s.XUnit))
 	if rep.Model != fitcore.ModelOrigin {
 		coef(wording.Intercept, rep.Intercept, s.YUnit)
 	}
-	b.w(`</tbody></table><table class="pl-rt pl-rt-figs"><tbody>`)
+	b.w(`</tbody></table></div><table class="pl-rt pl-rt-figs"><tbody>`)
 	fig := func(name string, v float64, shown string) {
 		b.w(`<tr><th scope="row">`, rpEsc(name), `</th><td>`, rpNum(v, shown), `</td></tr>`)
 	}
@@ -316,6 +338,16 @@ func rpAcceptance(b *rpB, rep *fitcore.Report) {
 		v, stamp = "pass", wording.Accepted
 	}
 	b.w(`<p class="pl-report-stamp pl-report-stamp-`, v, `" data-testid="report-verdict" data-verdict="`, v, `">`, stamp, `</p>`)
+	// The verdict's reasons, one sentence per criterion.
+	b.w(`<ul class="pl-report-reasons" data-testid="report-verdict-reasons">`)
+	for _, r := range acc.Results {
+		mark := "✔ "
+		if !r.Pass {
+			mark = "✖ "
+		}
+		b.w(`<li>`, mark, rpEsc(wording.Criterion(r.Name)), ` `, rpEsc(r.Limit), `: `, rpEsc(r.Reason), `</li>`)
+	}
+	b.w(`</ul>`)
 	if acc.Summary != "" {
 		b.w(`<p>`, rpEsc(acc.Summary), `</p>`)
 	}
@@ -325,13 +357,14 @@ func rpAcceptance(b *rpB, rep *fitcore.Report) {
 		if !r.Pass {
 			out = wording.NotMet
 		}
-		b.w(`<tr><th scope="row">`, rpEsc(r.Name), `</th><td>`, rpNum(r.Value, numfmt.Sig(r.Value, 6)), `</td><td>`, rpEsc(r.Limit), `</td><td>`, out, `. `, rpEsc(r.Reason), `</td></tr>`)
+		b.w(`<tr data-name="`, rpEsc(r.Name), `"><th scope="row">`, rpEsc(wording.Criterion(r.Name)), `</th><td>`, rpNum(r.Value, numfmt.Sig(r.Value, 6)), `</td><td>`, rpEsc(r.Limit), `</td><td>`, out, `. `, rpEsc(r.Reason), `</td></tr>`)
 	}
 	b.w(`</tbody></table></section>`)
 }
 
 func rpUse(b *rpB, s *session.Session, rep *fitcore.Report) {
-	if rep.Limits == nil && len(rep.Inverse) == 0 {
+	adhoc, _ := unknownResults(s, rep)
+	if rep.Limits == nil && len(adhoc) == 0 {
 		return
 	}
 	b.w(`<section tabindex="0" class="pl-report-sec"><h2>Using the line</h2>`)
@@ -339,7 +372,7 @@ func rpUse(b *rpB, s *session.Session, rep *fitcore.Report) {
 		b.w(`<p>`, wording.DetectionLimit, ` `, rpNum(rep.Limits.LOD, numfmt.Sig(rep.Limits.LOD, 3)), ` `, rpEsc(s.XUnit), `; `, strings.ToLower(wording.QuantitationLimit), ` `,
 			rpNum(rep.Limits.LOQ, numfmt.Sig(rep.Limits.LOQ, 3)), ` `, rpEsc(s.XUnit), ` (3.3 and 10 residual standard deviations over the slope).</p>`)
 	}
-	for _, iv := range rep.Inverse {
+	for _, iv := range adhoc {
 		b.w(`<p>An unknown read as `, rpNum(iv.Y, numfmt.Sig(iv.Y, 6)), ` `, rpEsc(s.YUnit), ` (mean of `, strconv.Itoa(iv.M), `) is x = `,
 			rpNum(iv.X, numfmt.Sig(iv.X, 6)), ` `, rpEsc(s.XUnit))
 		if iv.Bounded {
@@ -405,8 +438,20 @@ func rpKind(f string) string {
 		return "readings left out or put back (with reasons)"
 	case session.EditSettings:
 		return "fit settings changed"
-	case "undo":
+	case session.FieldUndo:
 		return "changes undone"
+	case session.FieldRedo:
+		return "changes redone"
+	case session.FieldRows:
+		return "readings taken away or brought back by undo or redo"
+	case session.EditCondition:
+		return "conditions recorded or changed"
+	case session.EditStandard:
+		return "standards recorded or changed"
+	case session.EditUnknown:
+		return "unknown samples recorded or changed"
+	case session.EditSealed, session.EditReviewed, session.EditRevision:
+		return "seals, reviews and revisions"
 	case "demo":
 		return "demo loaded"
 	}
@@ -435,30 +480,15 @@ func rpHistory(b *rpB, s *session.Session) {
 		b.w(`<li>`, rpEsc(k), `: `, strconv.Itoa(count[k]), `</li>`)
 	}
 	b.w(`</ul>`)
-	// Every exclusion with its reason, then the last changes.
-	var excl []string
-	for _, e := range h {
-		if e.Field == "exclude_reason" && e.New != "" {
-			excl = append(excl, "Reading "+strconv.Itoa(e.Row+1)+" left out ("+e.At.Local().Format("2 Jan 15:04")+"): "+e.New)
-		}
-	}
-	if len(excl) > 0 {
-		b.w(`<h3>Readings left out</h3><ul>`)
-		for _, x := range excl {
-			b.w(`<li>`, rpEsc(x), `</li>`)
-		}
-		b.w(`</ul>`)
-	}
 	const last = 12
 	from := max(0, len(h)-last)
-	b.w(`<h3>Latest changes</h3><table class="pl-rt pl-rt-hist"><thead><tr><th>When</th><th>What</th><th>Reading</th><th>From</th><th>To</th></tr></thead><tbody>`)
+	b.w(`<h3>Latest changes</h3><table class="pl-rt pl-rt-hist" data-testid="report-history"><thead><tr><th>When</th><th>What changed</th></tr></thead><tbody>`)
 	for _, e := range h[from:] {
-		row := ""
-		if e.Row >= 0 {
-			row = strconv.Itoa(e.Row + 1)
+		what := historyWords(e)
+		if what == "" {
+			continue
 		}
-		b.w(`<tr><td>`, rpEsc(e.At.Local().Format("2 Jan 15:04:05")), `</td><td>`, rpEsc(e.Field), `</td><td>`, row, `</td><td>`,
-			rpEsc(rpClip(e.Old, 60)), `</td><td>`, rpEsc(rpClip(e.New, 60)), `</td></tr>`)
+		b.w(`<tr><td class="pl-rt-when">`, rpEsc(e.At.Local().Format("2 Jan 15:04:05")), `</td><td>`, rpEsc(what), `</td></tr>`)
 	}
 	b.w(`</tbody></table></section>`)
 }
@@ -470,3 +500,183 @@ func rpClip(s string, n int) string {
 	}
 	return string(r[:n-1]) + "…"
 }
+
+// historyWords is one history entry as a sentence of the report:
+// "Reading 11 left out: bubble on the probe", "x of reading 3 typed as
+// 12.5". Field names and JSON never reach the page.
+func historyWords(e session.Edit) string {
+	switch e.Field {
+	case session.EditExcludeReason:
+		if e.New == "" {
+			return ""
+		}
+		return "Reading " + strconv.Itoa(e.Row+1) + " left out: " + rpClip(e.New, 200)
+	case session.EditExcluded:
+		if e.New == "true" {
+			return "" // said with its reason, the entry after it
+		}
+		return "Reading " + strconv.Itoa(e.Row+1) + " put back into the line"
+	case session.FieldRows:
+		return "Number of readings went from " + e.Old + " to " + e.New
+	}
+	return sentence(describeEdit(e))
+}
+
+// rpLeftOut lists the readings left out as the record stands now, each
+// with its reason (the history says when and by which steps).
+func rpLeftOut(b *rpB, s *session.Session) {
+	var rows []int
+	for i := range s.Readings {
+		if s.Readings[i].Excluded {
+			rows = append(rows, i)
+		}
+	}
+	b.w(`<section tabindex="0" class="pl-report-sec" data-testid="report-left-out" data-value="`, strconv.Itoa(len(rows)), `"><h2>Readings left out</h2>`)
+	if len(rows) == 0 {
+		b.w(`<p>No reading is left out of the line.</p></section>`)
+		return
+	}
+	b.w(`<ul>`)
+	for _, r := range rows {
+		b.w(`<li data-row="`, strconv.Itoa(r), `">Reading `, strconv.Itoa(r+1), ` (`, rpEsc(rpClip(s.Readings[r].X, 40)), `, `,
+			rpEsc(rpClip(s.Readings[r].Y, 40)), `): `, rpEsc(nonEmpty(s.Readings[r].ExcludeReason, "no reason given")), `</li>`)
+	}
+	b.w(`</ul></section>`)
+}
+
+// rpStandards is the table of reference standards, with the expired ones
+// marked.
+func rpStandards(b *rpB, s *session.Session) {
+	if len(s.Standards) == 0 {
+		return
+	}
+	expired := map[int]bool{}
+	for _, e := range s.ExpiredStandards() {
+		expired[e.Index] = true
+	}
+	b.w(`<h3>Reference standards</h3><div class="pl-rt-wrap"><table class="pl-rt pl-rt-fit pl-rt-stack" data-testid="report-standards"><thead><tr><th>Standard</th><th>Certificate</th><th>Value</th>`,
+		`<th>Standard uncertainty</th><th>Valid until</th></tr></thead><tbody>`)
+	for i, st := range s.Standards {
+		until := "—"
+		if !st.Expiry.IsZero() {
+			until = st.Expiry.UTC().Format("2 Jan 2006")
+		}
+		cls := ""
+		if expired[i] {
+			cls = ` class="pl-rt-bad"`
+			until += " ⚠ expired on the day of the readings"
+		}
+		// data-label names the cell where a phone shows each standard as a
+		// block of labelled lines (web/report.css, .pl-rt-stack).
+		b.w(`<tr`, cls, `><th scope="row">`, rpEsc(nonEmpty(st.Name, "—")), `</th><td data-label="Certificate">`, rpEsc(nonEmpty(st.Certificate, "—")),
+			`</td><td class="pl-rt-n" data-label="Value">`, rpEsc(nonEmpty(st.Value, "—")), ` `, rpEsc(s.XUnit),
+			`</td><td class="pl-rt-n" data-label="Standard uncertainty">`, rpEsc(nonEmpty(st.Uncertainty, "—")), `</td><td data-label="Valid until">`, rpEsc(until), `</td></tr>`)
+	}
+	b.w(`</tbody></table></div>`)
+	if len(expired) > 0 {
+		b.w(`<p class="pl-report-warn">⚠ A standard was past its expiry on the day of the readings. Do not use this record until the standard's maker or your procedure allows it.</p>`)
+	}
+}
+
+// rpUnknowns is the record's unknown samples with fitcore's conversions.
+func rpUnknowns(b *rpB, s *session.Session, rep *fitcore.Report) {
+	if len(s.Unknowns) == 0 {
+		return
+	}
+	_, named := unknownResults(s, rep)
+	by := map[int]*fitcore.Inverse{}
+	for _, n := range named {
+		by[n.Index] = n.Inv
+	}
+	b.w(`<section tabindex="0" class="pl-report-sec" data-testid="report-unknowns"><h2>Unknown samples</h2><div class="pl-rt-wrap"><table class="pl-rt pl-rt-fit"><thead><tr><th>Sample</th>`,
+		`<th>Readings (`, rpEsc(unitOr(s.YUnit, "y")), `)</th><th>x (`, rpEsc(unitOr(s.XUnit, "x")), `)</th><th>`, rpEsc(wording.Interval(rep.Level)), `</th></tr></thead><tbody>`)
+	for i, u := range s.Unknowns {
+		inv := by[i]
+		b.w(`<tr data-name="`, rpEsc(u.Name), `"><th scope="row">`, rpEsc(nonEmpty(u.Name, "(no name)")), `</th><td>`, rpEsc(rpClip(strings.Join(u.Readings, "; "), 200)), `</td>`)
+		if inv == nil {
+			b.w(`<td>—</td><td>—</td></tr><tr class="pl-rt-note"><td colspan="4">Not converted (a reading is not a number, or there are none).</td></tr>`)
+			continue
+		}
+		b.w(`<td>`, rpNum(inv.X, numfmt.Sig(inv.X, 6)), `</td><td>`)
+		if inv.Bounded {
+			b.w(rpNum(inv.Low, numfmt.Sig(inv.Low, 6)), ` to `, rpNum(inv.High, numfmt.Sig(inv.High, 6)))
+		} else {
+			b.w(`—`)
+		}
+		b.w(`</td></tr>`)
+		// The note under its row, across the table: a phone has no room
+		// for a fifth column of sentences.
+		if inv.Message != "" {
+			b.w(`<tr class="pl-rt-note"><td colspan="4">`, rpEsc(inv.Message), `</td></tr>`)
+		}
+	}
+	b.w(`</tbody></table></div></section>`)
+}
+
+// rpSignature is the sign-off: the seal when there is one, lines to sign
+// by hand otherwise, and the earlier sealed revisions.
+func rpSignature(b *rpB, s *session.Session) {
+	b.w(`<section tabindex="0" class="pl-report-sec pl-report-sign" data-testid="report-signature"><h2>Sign-off</h2>`)
+	if se := s.Seal; se != nil {
+		ok, err := s.VerifySeal()
+		b.w(`<p><strong>Revision `, strconv.Itoa(s.Revision), ` sealed.</strong> Performed by `, rpEsc(se.PerformedBy), `, `,
+			rpEsc(se.PerformedAt.Local().Format("2 January 2006, 15:04 MST")), `.`)
+		if se.ReviewedBy != "" {
+			b.w(` Reviewed by `, rpEsc(se.ReviewedBy), `, `, rpEsc(se.ReviewedAt.Local().Format("2 January 2006, 15:04 MST")), `.`)
+		}
+		b.w(`</p><p class="pl-report-digest" data-testid="report-digest" data-digest="`, rpEsc(se.Digest), `" data-valid="`, strconv.FormatBool(ok), `">SHA-256 of the sealed content: `, rpEsc(se.Digest), `</p>`)
+		if !ok && err != nil {
+			b.w(`<p class="pl-report-warn">⚠ The seal does not match the record: `, rpEsc(err.Error()), `</p>`)
+		}
+	} else if len(s.Sealed) > 0 {
+		b.w(`<p class="pl-report-warn" data-testid="report-revision-note">`, rpEsc(revisionNote(s)), `</p>`)
+	}
+	b.w(`<table class="pl-report-sigs"><tbody>`)
+	for _, who := range []string{"Performed by", "Reviewed by"} {
+		b.w(`<tr><th scope="row">`, who, `</th><td class="pl-sigline">Name</td><td class="pl-sigline">Signature</td><td class="pl-sigline">Date</td></tr>`)
+	}
+	b.w(`</tbody></table>`)
+	for _, r := range s.Sealed {
+		b.w(`<p class="pl-report-small">Earlier revision `, strconv.Itoa(r.Revision), `: sealed by `, rpEsc(r.Seal.PerformedBy), `, `,
+			rpEsc(r.Seal.PerformedAt.Local().Format("2 Jan 2006 15:04")), `; digest `, rpEsc(r.Seal.Digest), `. Results then: `, rpEsc(r.Results), `</p>`)
+	}
+	b.w(`</section>`)
+}
+
+// rpRevisionWords is the record's revision for the page margins.
+func rpRevisionWords(s *session.Session) string {
+	switch {
+	case s.Seal != nil:
+		return "Revision " + strconv.Itoa(s.Revision) + ", sealed"
+	case s.Revision > 0:
+		return "Revision " + strconv.Itoa(s.Revision) + ", not sealed"
+	}
+	return "Not sealed"
+}
+
+func rpInterval(days int) string {
+	if days <= 0 {
+		return ""
+	}
+	return plCount(days, "day")
+}
+
+// cssString writes s for the inside of a CSS string: letters, digits and
+// spaces as they are, every other character as a hex escape ("\2014 "),
+// so that nothing in s can end the string, the rule or the style element.
+// Control and bidirectional characters are shown as wording.Visible does.
+func cssString(s string) string {
+	var b strings.Builder
+	for _, r := range wording.Visible(s) {
+		switch {
+		case r >= 'a' && r <= 'z', r >= 'A' && r <= 'Z', r >= '0' && r <= '9', r == ' ':
+			b.WriteRune(r)
+		default:
+			b.WriteString(`\` + strconv.FormatInt(int64(r), 16) + " ")
+		}
+	}
+	return b.String()
+}
+
+// clipRunes shortens s to at most n characters.
+func clipRunes(s string, n int) string { return rpClip(s, n) }

@@ -99,6 +99,9 @@ func (c *Shell) open(ctx app.Context, id string) {
 func (c *Shell) rename(ctx app.Context, id, title string) {
 	c.renaming = ""
 	if c.sess != nil && c.sess.ID == id {
+		if c.refuseLocked() {
+			return
+		}
 		if err := c.sess.SetField("title", title, time.Now()); err != nil {
 			c.notice = err.Error()
 			return

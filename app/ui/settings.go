@@ -142,6 +142,9 @@ func (c *Shell) anSetSettings(ctx app.Context, st session.Settings) {
 	if c.sess == nil {
 		return
 	}
+	if c.refuseLocked() {
+		return
+	}
 	st = tidySettings(st)
 	if _, err := st.Options().Normalize(); err != nil {
 		c.notice = "This setting could not be used: " + err.Error()

@@ -50,9 +50,10 @@ type Shell struct {
 	updateReady bool
 
 	saves    *saveQueue
-	editSeq  int       // counts edits, to run delayed work only for the latest
-	lastSave time.Time // when the open session was last handed to the saver
-	toSave   bool      // an edit waits for its save turn
+	editSeq  int             // counts edits, to run delayed work only for the latest
+	lastSave time.Time       // when the open session was last handed to the saver
+	toSave   bool            // an edit waits for its save turn
+	queued   map[string]bool // IDs of sessions handed to the saver in this tab
 	pairs    session.PairCache
 	page     int // page of the readings grid shown (pageSize rows each)
 
@@ -68,6 +69,8 @@ type Shell struct {
 	analysisUI // settings, checks, advice, use of the line, acceptance (settings.go)
 
 	fieldUI // plots, report, undo, theme and demo (theme.go)
+
+	recordUI // the record cards: identity, standards, unknowns, sign-off (recordui.go)
 }
 
 type saveJob struct {
@@ -90,6 +93,10 @@ type analysis struct {
 	// plotsLater: the plots of this report are drawn in the next turn (big
 	// sessions: so that no one turn holds up typing for long).
 	plotsLater bool
+
+	// stdProblems: why a standard's value or uncertainty is not used
+	// (session.StandardUncertainties).
+	stdProblems []string
 
 	rows []int     // session row of each usable pair (fitcore's index → grid row)
 	x, y []float64 // the usable pairs as read (what fitcore was given)
@@ -211,10 +218,12 @@ func (c *Shell) show(s *session.Session) {
 	c.sess = s
 	c.undoSync()
 	c.page = 0
+	c.recKey, c.recLast = "", nil
 	c.opened(s)
 	c.analyse()
 	c.resyncInputs()
 	c.collectAfterLoad()
+	c.lookUpLast()
 }
 
 // showStored shows s, a session just read from (or written to) the device:
@@ -266,14 +275,46 @@ func (c *Shell) syncInputs() {
 		"session-title": s.Title,
 		"x-name":        s.XName, "x-unit": s.XUnit,
 		"y-name": s.YName, "y-unit": s.YUnit,
+		"record-site": s.Site, "record-instrument": s.Instrument.Description, "record-serial": s.Instrument.Serial,
+		"record-identifier": s.Instrument.ID, "record-operator": s.Operator, "record-notes": s.Notes,
+		"record-interval": "", "record-temperature": "", "record-temperature-unit": "",
+	}
+	if s.Instrument.IntervalDays > 0 {
+		want["record-interval"] = strconv.Itoa(s.Instrument.IntervalDays)
+	}
+	if i := conditionIndex(s, session.ConditionTemperature); i >= 0 {
+		want["record-temperature"], want["record-temperature-unit"] = s.Conditions[i].Value, s.Conditions[i].Unit
 	}
 	lo, hi := c.pageRange()
 	for i := lo; i < hi; i++ {
 		n := strconv.Itoa(i)
 		want["x-input-"+n], want["y-input-"+n] = s.Readings[i].X, s.Readings[i].Y
+		want["reading-note-"+strconv.Itoa(i+1)] = s.Readings[i].Note
 	}
 	for id, v := range want {
 		el := doc.Call("querySelector", `[data-testid="`+id+`"]`)
+		if el.Truthy() && el.Get("value").String() != v {
+			el.Set("value", v)
+		}
+	}
+	// The fields of the record's list items (standards, conditions), by
+	// item and field.
+	items := map[string]string{}
+	for i, st := range s.Standards {
+		exp := ""
+		if !st.Expiry.IsZero() {
+			exp = st.Expiry.UTC().Format("2006-01-02")
+		}
+		pre := `[data-testid="standard-item"][data-index="` + strconv.Itoa(i) + `"] [data-testid="standard-`
+		items[pre+`name"]`], items[pre+`certificate"]`], items[pre+`value"]`] = st.Name, st.Certificate, st.Value
+		items[pre+`uncertainty"]`], items[pre+`expiry"]`] = st.Uncertainty, exp
+	}
+	for i, cd := range s.Conditions {
+		pre := `[data-testid="condition-item"][data-index="` + strconv.Itoa(i) + `"] [data-testid="condition-`
+		items[pre+`name"]`], items[pre+`value"]`], items[pre+`unit"]`] = cd.Name, cd.Value, cd.Unit
+	}
+	for q, v := range items {
+		el := doc.Call("querySelector", q)
 		if el.Truthy() && el.Get("value").String() != v {
 			el.Set("value", v)
 		}
@@ -302,11 +343,17 @@ func (c *Shell) analyseNow(quick bool) {
 	opt := c.sess.Settings.Options()
 	c.anQueries(&opt, x)
 	c.plotQueries(&opt, x)
+	// The record's unknowns come after the screen's own conversion
+	// (unknownResults splits them again), with the standards'
+	// uncertainties carried into their intervals.
+	opt.Inverse = append(opt.Inverse, c.sess.UnknownQueries().Queries...)
+	opt.XStandardUncertainties, a.stdProblems = c.sess.StandardUncertainties(x)
 	opt.SkipAdvice = quick
 	rep, err := fitcore.Analyze(x, y, opt)
 	if err != nil {
 		a.message = plainFitError(err, len(rows))
 	} else {
+		renumberReport(rep, rows) // before an earlier advice is carried over: it was renumbered already
 		a.report = rep
 		if quick {
 			a.stale = true
@@ -334,6 +381,7 @@ func (c *Shell) completeNow() {
 		c.analyse()
 		return
 	}
+	renumberAdvice(r.Advice, c.view.rows)
 	c.view.report = &r
 	c.view.stale, c.view.advicePending = false, false
 	c.view.plotsLater = true
@@ -483,6 +531,15 @@ func (c *Shell) save(ctx app.Context) {
 		return
 	}
 	c.saveFor = c.sess.ID
+	if pristine(c.sess) && !c.stored(c.sess.ID) {
+		// Nothing typed yet: a session is stored from its first real
+		// change, so opening and leaving one piles up no empty records.
+		if c.saveState != SaveFailed {
+			c.saveState = SaveNone
+		}
+		c.toSave = false
+		return
+	}
 	job, err := encodeJobInto(c.saves.takeSpare(), c.sess)
 	if err != nil {
 		c.saveState, c.saveMessage, c.saveWhy = SaveFailed, err.Error(), saveUnwritable
@@ -490,6 +547,10 @@ func (c *Shell) save(ctx app.Context) {
 		return
 	}
 	c.saves.put(job)
+	if c.queued == nil {
+		c.queued = map[string]bool{}
+	}
+	c.queued[c.sess.ID] = true
 	if c.saveState != SaveFailed || c.saveWhy != saveRefused {
 		c.saveState, c.saveMessage, c.saveWhy = SaveSaving, "", ""
 	}
@@ -746,9 +807,47 @@ func encodeJobInto(buf []byte, s *session.Session) (saveJob, error) {
 		return saveJob{}, err
 	}
 	return saveJob{
-		sum:  store.Summary{ID: s.ID, Title: s.Title, Site: s.Site, Modified: s.Modified, Readings: len(s.Readings)},
+		sum:  store.Summary{ID: s.ID, Title: s.Title, Site: s.Site, Modified: s.Modified, Readings: filledReadings(s)},
 		body: body,
 	}, nil
+}
+
+// filledReadings counts the readings that hold a value (an x, a y or a
+// note; a left-out reading counts): the list shows it, so the blank row a
+// new session starts with is not "1 reading".
+func filledReadings(s *session.Session) int {
+	n := 0
+	for i := range s.Readings {
+		r := &s.Readings[i]
+		if r.Excluded || strings.TrimSpace(r.X) != "" || strings.TrimSpace(r.Y) != "" || strings.TrimSpace(r.Note) != "" {
+			n++
+		}
+	}
+	return n
+}
+
+// pristine reports whether s holds nothing anyone typed: its history has
+// only the blank rows added, and every reading is blank.
+func pristine(s *session.Session) bool {
+	for _, e := range s.History {
+		if e.Field != session.EditRowAdded {
+			return false
+		}
+	}
+	return filledReadings(s) == 0
+}
+
+// stored reports whether the session with that ID is in the device's list.
+func (c *Shell) stored(id string) bool {
+	if c.queued[id] {
+		return true // handed to the saver: the list may not show it yet
+	}
+	for i := range c.sessions {
+		if c.sessions[i].ID == id {
+			return true
+		}
+	}
+	return false
 }
 
 // saveNow writes a session that is not the open one (call off the UI goroutine).

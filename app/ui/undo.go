@@ -12,6 +12,7 @@ import (
 
 	"pairline/app/numfmt"
 	"pairline/app/session"
+	"pairline/app/wording"
 	"pairline/fitcore"
 )
 
@@ -59,6 +60,17 @@ func snapshot(s *session.Session) *session.Session {
 	c := *s
 	c.History = nil
 	c.Readings = slices.Clone(s.Readings)
+	// The record's lists are changed in place by their setters: the copy
+	// needs its own (an unknown's readings too).
+	c.Conditions = slices.Clone(s.Conditions)
+	c.Standards = slices.Clone(s.Standards)
+	c.Unknowns = slices.Clone(s.Unknowns)
+	for i := range c.Unknowns {
+		c.Unknowns[i].Readings = slices.Clone(c.Unknowns[i].Readings)
+	}
+	// Seal and the sealed revisions are not part of a step (Restore keeps
+	// the session's own); the copy holds none.
+	c.Seal, c.Sealed = nil, nil
 	if s.Location != nil {
 		l := *s.Location
 		c.Location = &l
@@ -138,7 +150,7 @@ func (c *Shell) undoRedo(ctx app.Context, back bool) {
 	if !back {
 		from, to, field, word = &c.unRedo, &c.unStack, session.FieldRedo, "Redone: "
 	}
-	if c.sess == nil || len(*from) == 0 {
+	if c.sess == nil || len(*from) == 0 || c.locked() {
 		return
 	}
 	step := (*from)[len(*from)-1]
@@ -210,7 +222,8 @@ var fieldWords = map[string]string{
 	session.FieldTitle: "title", session.FieldSite: "site", session.FieldInstrument: "instrument",
 	session.FieldSerial: "serial number", session.FieldOperator: "operator", session.FieldXName: "name of x",
 	session.FieldXUnit: "unit of x", session.FieldYName: "name of y", session.FieldYUnit: "unit of y",
-	session.FieldNotes: "notes",
+	session.FieldNotes: "notes", session.FieldInstrumentID: "identifier of the instrument",
+	session.FieldIntervalDays: "calibration interval (days)",
 }
 
 func describeEdit(e session.Edit) string {
@@ -255,6 +268,12 @@ func describeEdit(e session.Edit) string {
 		return "redo of " + e.New
 	case session.FieldRows:
 		return ""
+	case session.EditCondition, session.EditStandard, session.EditUnknown, session.EditSealed, session.EditReviewed:
+		// The record's own entries say it in words: "standard 2
+		// certificate set to C-2231", "revision 1 sealed, performed by …".
+		return clip(e.New, 120)
+	case session.EditRevision:
+		return "revision " + e.New + " started"
 	}
 	if w, ok := fieldWords[e.Field]; ok {
 		if e.New == "" {
@@ -263,6 +282,27 @@ func describeEdit(e session.Edit) string {
 		return w + " set to " + strconv.Quote(clip(e.New, 60))
 	}
 	return e.Field + " changed"
+}
+
+// weightWords names a weighting scheme in words.
+func weightWords(w fitcore.WeightScheme) string {
+	switch w {
+	case fitcore.WeightsNone:
+		return "none"
+	case fitcore.WeightsGiven:
+		return "as given"
+	case fitcore.WeightsX:
+		return "1/x (spread grows with x)"
+	case fitcore.WeightsX2:
+		return "1/x² (spread grows with x²)"
+	case fitcore.WeightsFitted2:
+		return "1/ŷ² (spread grows with the fitted value)"
+	case fitcore.WeightsRepeats:
+		return "from the spread of repeats"
+	case fitcore.WeightsPowerFit:
+		return "a power of x, estimated"
+	}
+	return "1/" + string(w)
 }
 
 // describeSettings names what changed between two settings (as the
@@ -292,13 +332,17 @@ func describeSettings(oldJSON, newJSON string) string {
 		}
 	}
 	if a.Model != b.Model {
-		out = append(out, "model set to "+string(b.Model))
+		out = append(out, "fit set to "+wording.Model(b.Model))
 	}
 	if a.Weights != b.Weights {
-		out = append(out, "weights set to "+string(b.Weights))
+		out = append(out, "weights set to "+weightWords(b.Weights))
 	}
 	if a.Transform != b.Transform {
-		out = append(out, "scale set to "+string(b.Transform))
+		scale := wording.Scale(b.Transform)
+		if scale == "" {
+			scale = "the readings as entered"
+		}
+		out = append(out, "scale set to "+scale)
 	}
 	opt("Box–Cox power", a.BoxCoxLambda, b.BoxCoxLambda)
 	num("confidence level", a.Level, b.Level)
@@ -349,10 +393,10 @@ func (c *Shell) renderUndo() app.UI {
 	return app.Div().Class("pl-undo").Attr("role", "group").Attr("aria-label", "Undo and redo").Body(
 		app.Button().Class("pl-btn pl-btn-quiet").Text("↶ Undo").DataSet("testid", "undo").
 			DataSet("depth", strconv.Itoa(nu)).Attr("aria-label", undoLabel).Attr("title", undoLabel).
-			Disabled(nu == 0).OnClick(c.undo),
+			Disabled(nu == 0 || c.locked()).OnClick(c.undo),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("↷ Redo").DataSet("testid", "redo").
 			DataSet("depth", strconv.Itoa(nr)).Attr("aria-label", redoLabel).Attr("title", redoLabel).
-			Disabled(nr == 0).OnClick(c.redo),
+			Disabled(nr == 0 || c.locked()).OnClick(c.redo),
 		app.Span().Class("pl-tools-msg").Attr("role", "status").DataSet("testid", "undo-message").
 			Hidden(c.unMsg == "").Text(c.unMsg),
 	)

@@ -25,7 +25,7 @@ func TestDescribeEdits(t *testing.T) {
 		{[]session.Edit{e("excluded", 1, "false", "true"), e("exclude_reason", 1, "", "invented: bubble in the cell")}, "reading 2 left out (invented: bubble in the cell)"},
 		{[]session.Edit{e("excluded", 1, "true", "false"), e("exclude_reason", 1, "invented", "")}, "reading 2 put back"},
 		{[]session.Edit{e("settings", -1, `{"level":0.95}`, `{"level":0.95,"acceptance":{"min_r_squared":0.999}}`)}, "least R² set to 0.999"},
-		{[]session.Edit{e("settings", -1, `{"transform":"none","acceptance":{"slope_low":1.5}}`, `{"transform":"log_y"}`)}, "scale set to log_y, lowest slope cleared (was 1.5)"},
+		{[]session.Edit{e("settings", -1, `{"transform":"none","acceptance":{"slope_low":1.5}}`, `{"transform":"log_y"}`)}, "scale set to ln y, lowest slope cleared (was 1.5)"},
 		{[]session.Edit{e("decimal_comma", -1, "", "true"), e("paste", -1, "", "3 readings added (rows 6–8)")}, "“1,234” read as 1.234 (decimal comma) and paste of 3 readings added (rows 6–8)"},
 		{[]session.Edit{e("x", 0, "", "1"), e("y", 0, "", "2"), e("x", 1, "", "3")}, "x of reading 1 typed as 1 and 2 more changes"},
 		{[]session.Edit{e("title", -1, "a", "Invented probe C-14")}, `title set to "Invented probe C-14"`},
@@ -90,5 +90,35 @@ func TestUndoRedoCriterion(t *testing.T) {
 	c.edited(ctx)
 	if len(c.unStack) != depth {
 		t.Errorf("%d steps to undo after typing a cell back to what it was, want %d", len(c.unStack), depth)
+	}
+}
+
+// TestSnapshotOwnsRecordLists: a state kept for undo is not changed by a
+// later edit of a standard, a condition or an unknown's readings (their
+// setters change the lists in place).
+func TestSnapshotOwnsRecordLists(t *testing.T) {
+	now := time.Date(2026, 5, 1, 10, 0, 0, 0, time.UTC)
+	s, err := newSession(now)
+	if err != nil {
+		t.Fatal(err)
+	}
+	must := func(err error) {
+		t.Helper()
+		if err != nil {
+			t.Fatal(err)
+		}
+	}
+	_, err = s.AddStandard(session.Standard{Name: "KCl 500 (invented)", Value: "500"}, now)
+	must(err)
+	_, err = s.AddCondition(session.Condition{Name: "temperature", Value: "21.4", Unit: "°C"}, now)
+	must(err)
+	_, err = s.AddUnknown(session.Unknown{Name: "Tap 3 (invented)", Readings: []string{"612.0", "614.5"}}, now)
+	must(err)
+	kept := snapshot(s)
+	must(s.SetStandard(0, session.Standard{Name: "KCl 500 (invented)", Value: "501"}, now))
+	must(s.SetCondition(0, session.Condition{Name: "temperature", Value: "22.0", Unit: "°C"}, now))
+	must(s.SetUnknown(0, session.Unknown{Name: "Tap 3 (invented)", Readings: []string{"612.0", "615.0"}}, now))
+	if kept.Standards[0].Value != "500" || kept.Conditions[0].Value != "21.4" || kept.Unknowns[0].Readings[1] != "614.5" {
+		t.Errorf("the kept state changed with the session: %+v %+v %+v", kept.Standards, kept.Conditions, kept.Unknowns)
 	}
 }

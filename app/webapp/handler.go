@@ -55,6 +55,7 @@ var stylesheets = []string{
 	"plots.css",
 	"report.css",
 	"transfer.css",
+	"record.css",
 	"themes.css",
 }
 

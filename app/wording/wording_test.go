@@ -107,3 +107,16 @@ func ExampleSlopeUnit() {
 	fmt.Println(SlopeUnit("mV", "mg/L") + "; " + SlopeUnit("µS/cm", "µS/cm"))
 	// Output: mV per mg/L; ratio
 }
+
+// TestCriterionWords: every criterion fitcore reports on invented readings has
+// a name in words (never its key).
+func TestCriterionWords(t *testing.T) {
+	for _, k := range []string{"r_squared", "slope", "intercept", "max_residual"} {
+		if w := Criterion(k); w == k || w == "" {
+			t.Errorf("Criterion(%q) = %q, want words", k, w)
+		}
+	}
+	if Criterion("other") != "other" {
+		t.Error("an unknown name is not kept")
+	}
+}
