@@ -5,6 +5,11 @@ SHELL := /bin/bash
 ADDR      ?= 127.0.0.1:8000
 GO        ?= go
 WASM_LDFLAGS := -s -w
+# The screen's packages are compiled without inlining in the browser build:
+# go-app's chains of element calls inlined cost about 220 kB of app.wasm and
+# gain nothing measurable; the numerical core, the codec and the plots keep it
+# (see DEVELOPERS.md, "Size of app.wasm").
+WASM_GCFLAGS := -gcflags=pairline/app/ui=-l -gcflags=pairline/app/wording=-l -gcflags=pairline/app/store=-l
 CHROMIUM  ?= $(shell command -v chromium || command -v chromium-browser || true)
 
 .PHONY: all wasm wasm-size bin run build test fmt-check vet lint unit browser bench fuzz refcheck icons clean
@@ -13,11 +18,11 @@ all: wasm bin
 
 ## wasm: compile the app to web/app.wasm
 wasm:
-	GOOS=js GOARCH=wasm $(GO) build -trimpath -ldflags="$(WASM_LDFLAGS)" -o web/app.wasm ./wasm
+	GOOS=js GOARCH=wasm $(GO) build -trimpath -ldflags="$(WASM_LDFLAGS)" $(WASM_GCFLAGS) -o web/app.wasm ./wasm
 
 ## wasm-size: what each package costs in app.wasm (an unstripped build, read by testdata/wasmsize)
 wasm-size:
-	GOOS=js GOARCH=wasm $(GO) build -trimpath -o bin/app-names.wasm ./wasm
+	GOOS=js GOARCH=wasm $(GO) build -trimpath $(WASM_GCFLAGS) -o bin/app-names.wasm ./wasm
 	$(GO) run ./testdata/wasmsize -top 30 bin/app-names.wasm
 
 ## bin: build the native command bin/pairline
