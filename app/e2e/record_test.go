@@ -433,10 +433,20 @@ func keysOf(m map[string]json.RawMessage) []string {
 // TestRecordCSV: a logger's CSV with a units row under the header imports
 // as readings with those names and units (the units row is no reading);
 // a note and a reading left out with its reason go out in the readings
-// CSV and come back from it as they were (Pairline's own export).
+// CSV and come back from it as they were (Pairline's own export), at
+// tablet and phone size.
 func TestRecordCSV(t *testing.T) {
 	srv := startServer(t)
-	b := newBrowser(t, tablet)
+	for _, v := range []struct {
+		name string
+		size [2]int64
+	}{{"tablet", tablet}, {"phone", phone}} {
+		t.Run(v.name, func(t *testing.T) { recordCSVFlow(t, srv, v.name, v.size) })
+	}
+}
+
+func recordCSVFlow(t *testing.T, srv *server, name string, size [2]int64) {
+	b := newBrowser(t, size)
 	b.do(t, chromedp.Navigate(srv.URL))
 	waitFor(t, b, "the app", appReady, 60*time.Second)
 	var csv strings.Builder
@@ -489,4 +499,5 @@ func TestRecordCSV(t *testing.T) {
 	if got := textOf(t, b, "report-left-out"); !strings.Contains(got, "Reading 4 (1000, 1013.8): bubble on the probe") {
 		t.Errorf("the report lists as left out: %q", got)
 	}
+	screenshot(t, b, "record-csv-report-"+name)
 }
