@@ -143,14 +143,15 @@ func (id AssumptionID) Name() string {
 	return string(id)
 }
 
-// Word is the one word of a verdict: "Pass", "Check" (a warning), "Fail",
-// "Not checked".
+// Word is the one word of a verdict: "Pass", "Warning", "Fail", "Not
+// checked". (The warning was once shown as "Check", beside a section of
+// checks; one word no section uses avoids the mix-up.)
 func (v Verdict) Word() string {
 	switch v {
 	case Pass:
 		return "Pass"
 	case Warn:
-		return "Check"
+		return "Warning"
 	case Fail:
 		return "Fail"
 	}

@@ -113,12 +113,12 @@ func TestUndoRedoReload(t *testing.T) {
 	}
 
 	// A criterion undone leaves its box empty, and redone fills it again.
-	if msg := unStep(t, b, "undo"); !strings.Contains(msg, "Undone: least R² set to 0.999") {
+	if msg := unStep(t, b, "undo"); !strings.Contains(msg, "Undone: smallest R² allowed set to 0.999") {
 		t.Errorf("undo message %q does not say which criterion was undone", msg)
 	}
 	waitFor(t, b, "the box of the undone criterion to empty", `document.querySelector('[data-testid="acceptance-min-r2"]').value === ""`, 5*time.Second)
-	waitFor(t, b, "the verdict without the least R²", `document.querySelector('[data-testid="verdict"]').dataset.verdict === "pass" && document.querySelectorAll('[data-testid="verdict-reason"]').length === 1`, 5*time.Second)
-	if msg := unStep(t, b, "redo"); !strings.Contains(msg, "Redone: least R² set to 0.999") {
+	waitFor(t, b, "the verdict without the R² criterion", `document.querySelector('[data-testid="verdict"]').dataset.verdict === "pass" && document.querySelectorAll('[data-testid="verdict-reason"]').length === 1`, 5*time.Second)
+	if msg := unStep(t, b, "redo"); !strings.Contains(msg, "Redone: smallest R² allowed set to 0.999") {
 		t.Errorf("redo message %q", msg)
 	}
 	waitFor(t, b, "the box of the redone criterion", `document.querySelector('[data-testid="acceptance-min-r2"]').value === "0.999"`, 5*time.Second)
@@ -302,7 +302,7 @@ func TestUndoRedoPhone(t *testing.T) {
 		}
 	}
 	unReachable(t, b, "Acceptance")
-	if msg := unStep(t, b, "undo"); !strings.Contains(msg, "Undone: least R² set to 0.99") {
+	if msg := unStep(t, b, "undo"); !strings.Contains(msg, "Undone: smallest R² allowed set to 0.99") {
 		t.Errorf("undo message %q", msg)
 	}
 	waitFor(t, b, "the box to empty", `document.querySelector('[data-testid="acceptance-min-r2"]').value === "" && document.querySelector('[data-testid="verdict"]').dataset.verdict === "n/a"`, 5*time.Second)

@@ -521,7 +521,7 @@ func (st *Settings) validate() (string, error) {
 			}
 		}
 		if a.MinRSquared != nil && (*a.MinRSquared < 0 || *a.MinRSquared > 1) {
-			return "acceptance.min_r_squared", invalid("the least R² %v must be between 0 and 1", *a.MinRSquared)
+			return "acceptance.min_r_squared", invalid("the smallest R² allowed (%v) must be between 0 and 1", *a.MinRSquared)
 		}
 		if a.MaxResidual != nil && *a.MaxResidual < 0 {
 			return "acceptance.max_residual", invalid("the largest allowed residual %v must not be negative", *a.MaxResidual)

@@ -92,7 +92,7 @@ func (c *Shell) renderAcceptance() app.UI {
 		c.anStamp(),
 		anCaution(),
 		app.Div().Class("an-fields").Body(
-			field("min_r2", "Least R²", "e.g. 0.999", k.MinRSquared, func(k *fitcore.Criteria, v *float64) { k.MinRSquared = v }),
+			field("min_r2", "R² at least", "e.g. 0.999", k.MinRSquared, func(k *fitcore.Criteria, v *float64) { k.MinRSquared = v }),
 			field("slope_low", "Slope at least", "empty = no lower limit", k.SlopeLow, func(k *fitcore.Criteria, v *float64) { k.SlopeLow = v }),
 			field("slope_high", "Slope at most", "empty = no upper limit", k.SlopeHigh, func(k *fitcore.Criteria, v *float64) { k.SlopeHigh = v }),
 			field("intercept_low", "Intercept at least", "empty = no lower limit", k.InterceptLow, func(k *fitcore.Criteria, v *float64) { k.InterceptLow = v }),

@@ -88,7 +88,7 @@ func (c *Shell) renderAdvice() app.UI {
 	body := []app.UI{app.H2().Text("Advice")}
 	if applied {
 		body = append(body, app.P().Class("an-applied").DataSet("testid", "advice-applied").Text(
-			"In use: "+c.anModelText(rep)+". Undo it to go back to the line in original units."),
+			"In use: "+c.anModelText(rep)+", as the advice suggested. The button below goes back to the plain, unweighted line."),
 			c.anRevertButton())
 	}
 	if ad == nil {

@@ -306,7 +306,7 @@ func weightWords(w fitcore.WeightScheme) string {
 }
 
 // describeSettings names what changed between two settings (as the
-// history keeps them, JSON): "least R² set to 0.999", "scale set to log y".
+// history keeps them, JSON): "smallest R² allowed set to 0.999", "scale set to log y".
 func describeSettings(oldJSON, newJSON string) string {
 	var a, b session.Settings
 	if json.Unmarshal([]byte(oldJSON), &a) != nil || json.Unmarshal([]byte(newJSON), &b) != nil {
@@ -358,7 +358,7 @@ func describeSettings(oldJSON, newJSON string) string {
 	if b.Acceptance != nil {
 		kb = *b.Acceptance
 	}
-	opt("least R²", ka.MinRSquared, kb.MinRSquared)
+	opt("smallest R² allowed", ka.MinRSquared, kb.MinRSquared)
 	opt("lowest slope", ka.SlopeLow, kb.SlopeLow)
 	opt("highest slope", ka.SlopeHigh, kb.SlopeHigh)
 	opt("lowest intercept", ka.InterceptLow, kb.InterceptLow)

@@ -24,7 +24,7 @@ func TestDescribeEdits(t *testing.T) {
 		{[]session.Edit{e("row", 5, "", "added")}, "reading 6 added"},
 		{[]session.Edit{e("excluded", 1, "false", "true"), e("exclude_reason", 1, "", "invented: bubble in the cell")}, "reading 2 left out (invented: bubble in the cell)"},
 		{[]session.Edit{e("excluded", 1, "true", "false"), e("exclude_reason", 1, "invented", "")}, "reading 2 put back"},
-		{[]session.Edit{e("settings", -1, `{"level":0.95}`, `{"level":0.95,"acceptance":{"min_r_squared":0.999}}`)}, "least R² set to 0.999"},
+		{[]session.Edit{e("settings", -1, `{"level":0.95}`, `{"level":0.95,"acceptance":{"min_r_squared":0.999}}`)}, "smallest R² allowed set to 0.999"},
 		{[]session.Edit{e("settings", -1, `{"transform":"none","acceptance":{"slope_low":1.5}}`, `{"transform":"log_y"}`)}, "scale set to ln y, lowest slope cleared (was 1.5)"},
 		{[]session.Edit{e("decimal_comma", -1, "", "true"), e("paste", -1, "", "3 readings added (rows 6–8)")}, "“1,234” read as 1.234 (decimal comma) and paste of 3 readings added (rows 6–8)"},
 		{[]session.Edit{e("x", 0, "", "1"), e("y", 0, "", "2"), e("x", 1, "", "3")}, "x of reading 1 typed as 1 and 2 more changes"},
@@ -72,7 +72,7 @@ func TestUndoRedoCriterion(t *testing.T) {
 	if c.sess.Settings.Acceptance != nil || box() != "" || judged() != 0 {
 		t.Errorf("after undo: settings %+v, box %q, %d criteria judged; want none", c.sess.Settings.Acceptance, box(), judged())
 	}
-	if c.unMsg != "Undone: least R² set to 0.9." {
+	if c.unMsg != "Undone: smallest R² allowed set to 0.9." {
 		t.Errorf("undo message %q", c.unMsg)
 	}
 	if !c.needSync {

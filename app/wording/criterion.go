@@ -6,7 +6,7 @@ package wording
 func Criterion(name string) string {
 	switch name {
 	case "r_squared":
-		return "Least R²"
+		return "R² at least"
 	case "slope":
 		return "Slope within"
 	case "intercept":
