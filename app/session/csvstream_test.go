@@ -127,6 +127,17 @@ func sameStream(got, want *StreamResult, gerr, werr error) string {
 	}
 	g, w := *got, *want
 	g.X, g.Y, w.X, w.Y, g.decided = nil, nil, nil, nil, nil
+	for _, r := range []*StreamResult{&g, &w} { // empty is empty, nil or not
+		if len(r.Lines) == 0 {
+			r.Lines = nil
+		}
+		if len(r.Problems) == 0 {
+			r.Problems = nil
+		}
+		if len(r.Skipped) == 0 {
+			r.Skipped = nil
+		}
+	}
 	if !reflect.DeepEqual(g, w) {
 		return fmt.Sprintf("\n got %+v\nwant %+v", g, w)
 	}
