@@ -97,3 +97,46 @@ func TestInspectMemoryBound(t *testing.T) {
 		t.Errorf("inspect allocated %d bytes, more than 6× the %d of decoding %s", got, dec, filepath.Base(path))
 	}
 }
+
+// writeBigCSV writes n invented readings (fictional Larkwater Valley Water
+// Board, a conductivity probe against standards) to dir/big.csv: x from 1
+// to 500, y ≈ 0.98x + 0.3 with a scatter that grows with x, about 24 bytes a
+// row. It returns the path and the numbers as written.
+func writeBigCSV(tb testing.TB, dir string, n int) (string, []float64, []float64) {
+	tb.Helper()
+	x, y := make([]float64, n), make([]float64, n)
+	b := []byte("standard_uS_cm,probe_uS_cm\n")
+	seed := uint64(20261202)
+	next := func() float64 {
+		seed = seed*6364136223846793005 + 1442695040888963407
+		return float64(seed>>11) / (1 << 53)
+	}
+	for i := range x {
+		xi := 1 + 499*next()
+		yi := 0.98*xi + 0.3 + (next()-0.5)*0.035*xi
+		b = strconv.AppendFloat(b, xi, 'f', 6, 64)
+		b = append(b, ',')
+		b = strconv.AppendFloat(b, yi, 'f', 7, 64)
+		b = append(b, '\n')
+		// The numbers as the file holds them.
+		x[i], _ = strconv.ParseFloat(strconv.FormatFloat(xi, 'f', 6, 64), 64)
+		y[i], _ = strconv.ParseFloat(strconv.FormatFloat(yi, 'f', 7, 64), 64)
+	}
+	path := filepath.Join(dir, "big.csv")
+	if err := os.WriteFile(path, b, 0o644); err != nil {
+		tb.Fatal(err)
+	}
+	return path, x, y
+}
+
+// BenchmarkFitBig: `pairline fit` (text report, default options) on a
+// million rows; it reports allocations and asserts nothing.
+func BenchmarkFitBig(b *testing.B) {
+	path, _, _ := writeBigCSV(b, b.TempDir(), 1_000_000)
+	b.ReportAllocs()
+	for b.Loop() {
+		if code := Fit([]string{path}, nil, io.Discard, io.Discard); code != ExitOK {
+			b.Fatal(code)
+		}
+	}
+}

@@ -9,6 +9,7 @@ import (
 	"slices"
 	"strings"
 	"unicode/utf8"
+	"unsafe"
 )
 
 // Limits of StreamCSV, the reader of `pairline fit`. They are larger than
@@ -84,8 +85,9 @@ type StreamOptions struct {
 //
 // Limits: MaxStreamSize bytes, MaxStreamRows data rows. Cost: two passes,
 // linear in the text; memory about 20 bytes a pair (two float64 and an
-// int32 line), half a byte a pair for the cells whose decimal separator
-// is ambiguous, the cells that are not numbers, and blocks of about a MiB.
+// int32 line, made once at the row count of pass 1), half a byte a pair
+// for the cells whose decimal separator is ambiguous, the cells that are
+// not numbers, and a buffer of about a MiB.
 //
 // Text that is not UTF-8 (read as Latin-1) or UTF-16 is read with ReadCSV
 // itself, within its limits (MaxCSVSize, MaxReadings): such files come from
@@ -102,7 +104,7 @@ func StreamCSV(r io.ReadSeeker, opt StreamOptions) (*StreamResult, error) {
 	if err := streamChoose(opt, res, p1); err != nil {
 		return nil, err
 	}
-	if err := streamPass2(r, res); err != nil {
+	if err := streamPass2(r, res, p1.rows); err != nil {
 		return nil, err
 	}
 	return res, nil
@@ -116,6 +118,7 @@ type blockReader struct {
 	total int64
 	err   error
 	first bool // the first block: without its byte-order mark, and holding 100 rows
+	done  int  // bytes of buf given out as the last block
 }
 
 func newBlockReader(r io.Reader) *blockReader {
@@ -193,8 +196,14 @@ func rowsAtLeast(text []byte, n int) bool {
 
 func isSpaceRune(r rune) bool { return strings.TrimSpace(string(r)) == "" }
 
-// next returns the next block ("" at the end).
+// next returns the next block ("" at the end). The block is a view of the
+// reader's buffer, valid until the next call: the scanner's fields are
+// parsed or cloned before then, so a big file is not copied into strings.
 func (b *blockReader) next() string {
+	if b.done > 0 {
+		b.buf = b.buf[:copy(b.buf, b.buf[b.done:])]
+		b.done = 0
+	}
 	for {
 		if len(b.buf) < streamBlock {
 			b.fill(streamBlock)
@@ -209,10 +218,11 @@ func (b *blockReader) next() string {
 		}
 		if ok {
 			b.first = false
-			s := string(b.buf[:cut])
-			n := copy(b.buf, b.buf[cut:])
-			b.buf = b.buf[:n]
-			return s
+			b.done = cut
+			if cut == 0 {
+				return ""
+			}
+			return unsafe.String(&b.buf[0], cut)
 		}
 		b.fill(2 * len(b.buf))
 	}
@@ -322,13 +332,22 @@ func (p *pass1) scan(block string, lineOff int, res *StreamResult) *CSVError {
 		res.Width = max(res.Width, len(fields))
 		switch p.rows {
 		case 1:
-			p.first, p.firstLine = slices.Clone(fields), line
+			p.first, p.firstLine = cloneFields(fields), line
 			continue
 		case 2:
-			p.second = slices.Clone(fields)
+			p.second = cloneFields(fields)
 		}
 		p.count(fields)
 	}
+}
+
+// cloneFields copies fields out of the block they point into.
+func cloneFields(fields []string) []string {
+	out := make([]string, len(fields))
+	for i, f := range fields {
+		out[i] = strings.Clone(f)
+	}
+	return out
 }
 
 func (p *pass1) count(fields []string) {
@@ -495,13 +514,15 @@ func (q *pass2) cell(s string, cell int) (float64, *NumberError) {
 
 // streamPass2 is pass 2 of readTable over blocks, parsing the chosen cells
 // as they come.
-func streamPass2(r io.ReadSeeker, res *StreamResult) error {
+func streamPass2(r io.ReadSeeker, res *StreamResult, rows int) error {
 	if _, err := r.Seek(0, io.SeekStart); err != nil {
 		return &CSVError{Err: fmt.Errorf("the file could not be read again: %w", err)}
 	}
 	xc, yc := res.XCol, res.YCol
 	br := newBlockReader(r)
 	q := &pass2{}
+	// Pass 1 counted the rows: the columns are made once, at their size.
+	res.X, res.Y, res.Lines = make([]float64, 0, rows), make([]float64, 0, rows), make([]int32, 0, rows)
 	seen, pendingBlank, data, complete := 0, 0, 0, 0
 	lineOff := 0
 	for {
