@@ -1,6 +1,7 @@
 package cli
 
 import (
+	"bufio"
 	"bytes"
 	"fmt"
 	"io"
@@ -12,6 +13,7 @@ import (
 	"time"
 
 	"pairline/app/session"
+	"pairline/fitcore"
 )
 
 // bigSessions are four invented sessions (fictional Larkwater Valley Water
@@ -138,5 +140,44 @@ func BenchmarkFitBig(b *testing.B) {
 		if code := Fit([]string{path}, nil, io.Discard, io.Discard); code != ExitOK {
 			b.Fatal(code)
 		}
+	}
+}
+
+// TestFitBigFileEqualsAnalyze: `pairline fit --json` on a file of more rows
+// than a session holds gives the report fitcore.Analyze gives on the same
+// numbers (parsed here with strconv.ParseFloat, the reference for plain
+// decimal text), byte for byte.
+func TestFitBigFileEqualsAnalyze(t *testing.T) {
+	if testing.Short() {
+		t.Skip("fits 300,000 rows twice")
+	}
+	n := session.MaxReadings + 50_000
+	path, x, y := writeBigCSV(t, t.TempDir(), n)
+	var out, errOut bytes.Buffer
+	if code := Fit([]string{"--json", "--predict-x", "250", path}, nil, &out, &errOut); code != ExitOK {
+		t.Fatalf("exit %d: %s", code, errOut.String())
+	}
+	ff, err := parseFitFlags([]string{"--predict-x", "250", path})
+	if err != nil {
+		t.Fatal(err)
+	}
+	opt, err := ff.options()
+	if err != nil {
+		t.Fatal(err)
+	}
+	opt.PredictX = []float64{250}
+	rep, err := fitcore.Analyze(x, y, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var want bytes.Buffer
+	bw := bufio.NewWriter(&want)
+	if err := writeJSONIndented(bw, rep, "", "  "); err != nil {
+		t.Fatal(err)
+	}
+	bw.WriteString("\n")
+	bw.Flush()
+	if rep.N != n || !bytes.Equal(out.Bytes(), want.Bytes()) {
+		t.Errorf("n = %d; the report of fit (%d bytes) differs from Analyze's (%d bytes)", rep.N, out.Len(), want.Len())
 	}
 }
