@@ -8,6 +8,7 @@ import (
 	"math/bits"
 	"slices"
 	"strings"
+	"unicode"
 	"unicode/utf8"
 	"unsafe"
 )
@@ -185,7 +186,7 @@ func rowsAtLeast(text []byte, n int) bool {
 			nonEmpty = true
 		default:
 			r, sz := utf8.DecodeRune(text[i:])
-			if r != utf8.RuneError && !isSpaceRune(r) {
+			if !unicode.IsSpace(r) {
 				nonEmpty = true
 			}
 			i += sz - 1
@@ -193,8 +194,6 @@ func rowsAtLeast(text []byte, n int) bool {
 	}
 	return false
 }
-
-func isSpaceRune(r rune) bool { return strings.TrimSpace(string(r)) == "" }
 
 // next returns the next block ("" at the end). The block is a view of the
 // reader's buffer, valid until the next call: the scanner's fields are
