@@ -9,6 +9,7 @@ import (
 	"path/filepath"
 	"runtime"
 	"strconv"
+	"strings"
 	"testing"
 	"time"
 
@@ -179,5 +180,27 @@ func TestFitBigFileEqualsAnalyze(t *testing.T) {
 	bw.Flush()
 	if rep.N != n || !bytes.Equal(out.Bytes(), want.Bytes()) {
 		t.Errorf("n = %d; the report of fit (%d bytes) differs from Analyze's (%d bytes)", rep.N, out.Len(), want.Len())
+	}
+}
+
+// TestFitStdinPipe: standard input that cannot seek (a pipe) is kept in a
+// temporary file for the second pass and gives the report of the same text
+// from a file; the temporary file is removed.
+func TestFitStdinPipe(t *testing.T) {
+	// Invented readings (Larkwater Valley Water Board).
+	csv := "standard;reading\n1;1,02\n2;2,01\n3;3,05\n4;3,98\n5;5,03\n\n6;\n"
+	t.Setenv("TMPDIR", t.TempDir())
+	var seek, pipe, errOut bytes.Buffer
+	if code := Fit([]string{"--json", "-"}, strings.NewReader(csv), &seek, &errOut); code != ExitOK {
+		t.Fatalf("seekable: exit %d: %s", code, errOut.String())
+	}
+	if code := Fit([]string{"--json", "-"}, struct{ io.Reader }{strings.NewReader(csv)}, &pipe, &errOut); code != ExitOK {
+		t.Fatalf("pipe: exit %d: %s", code, errOut.String())
+	}
+	if !bytes.Equal(seek.Bytes(), pipe.Bytes()) {
+		t.Errorf("the pipe gave\n%s\nthe seekable reader\n%s", pipe.String(), seek.String())
+	}
+	if left, _ := os.ReadDir(os.Getenv("TMPDIR")); len(left) != 0 {
+		t.Errorf("%d temporary file(s) left behind", len(left))
 	}
 }
