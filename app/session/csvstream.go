@@ -31,6 +31,10 @@ const (
 	streamBlockMax = MaxCSVFields*(MaxCSVFieldLen+3) + streamBlock
 )
 
+// blockSize is the size of the blocks read; tests make it small to cut
+// the text at every kind of place.
+var blockSize = streamBlock
+
 // ErrCSVStreamRows is the error of StreamCSV for a file of more than
 // MaxStreamRows data rows, wrapped in a *CSVError at the first line too many.
 var ErrCSVStreamRows = errors.New("the file has more rows than pairline fit reads")
@@ -204,8 +208,8 @@ func (b *blockReader) next() string {
 		b.done = 0
 	}
 	for {
-		if len(b.buf) < streamBlock {
-			b.fill(streamBlock)
+		if len(b.buf) < blockSize {
+			b.fill(blockSize)
 		}
 		if b.first && len(b.buf) >= 3 && string(b.buf[:3]) == "\xef\xbb\xbf" {
 			b.buf = b.buf[3:]

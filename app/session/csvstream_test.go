@@ -151,10 +151,17 @@ func TestStreamCSVAgainstReadCSV(t *testing.T) {
 	for _, tc := range streamCases() {
 		t.Run(tc.name, func(t *testing.T) {
 			want, werr := streamOracle(tc.in, tc.opt)
-			got, gerr := StreamCSV(strings.NewReader(tc.in), StreamOptions{CSVOptions: tc.opt})
-			if d := sameStream(got, want, gerr, werr); d != "" {
-				t.Error(d)
+			for _, size := range []int{streamBlock, 1, 5, 64} {
+				if size != streamBlock && len(tc.in) > 1<<16 {
+					continue // the big cases cross blocks of the real size
+				}
+				blockSize = size
+				got, gerr := StreamCSV(strings.NewReader(tc.in), StreamOptions{CSVOptions: tc.opt})
+				if d := sameStream(got, want, gerr, werr); d != "" {
+					t.Errorf("blocks of %d bytes: %s", size, d)
+				}
 			}
+			blockSize = streamBlock
 		})
 	}
 }
@@ -207,6 +214,14 @@ func FuzzStreamCSV(f *testing.F) {
 		got, gerr := StreamCSV(bytes.NewReader(b), StreamOptions{CSVOptions: opt})
 		if d := sameStream(got, want, gerr, werr); d != "" {
 			t.Error(d)
+		}
+		// Blocks of a few bytes: cuts after every row, CRLF and quoted
+		// line ends at the edges of blocks.
+		defer func(n int) { blockSize = n }(blockSize)
+		blockSize = 1 + int(o%7)
+		got, gerr = StreamCSV(bytes.NewReader(b), StreamOptions{CSVOptions: opt})
+		if d := sameStream(got, want, gerr, werr); d != "" {
+			t.Errorf("blocks of %d bytes: %s", blockSize, d)
 		}
 	})
 }
