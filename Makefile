@@ -14,6 +14,8 @@ CHROMIUM  ?= $(shell command -v chromium || command -v chromium-browser || true)
 
 .PHONY: all wasm wasm-size bin run build test fmt-check vet lint unit browser bench fuzz refcheck icons clean
 
+.PHONY: all wasm bin run build test fmt-check vet lint unit browser bench bench-fit fuzz refcheck icons clean
+
 all: wasm bin
 
 ## wasm: compile the app to web/app.wasm
@@ -82,6 +84,11 @@ browser: wasm bin
 ## bench: the benchmarks of the numerical core and the session codec
 bench:
 	$(GO) test -run '^$$' -bench . -benchmem ./fitcore/ ./app/session/ ./app/plot/ ./app/cli/ ./app/ui/
+
+## bench-fit: time bin/pairline fit against pandas + statsmodels on a
+## generated CSV of N rows (default 10⁶), best of 3 each, and the ratio
+bench-fit: bin
+	bash testdata/refgen/bench_fit.sh
 
 ## fuzz: a short run of every fuzz test (FUZZTIME per target)
 FUZZTIME ?= 15s

@@ -1,6 +1,7 @@
 package cli
 
 import (
+	"bufio"
 	"bytes"
 	"fmt"
 	"io"
@@ -8,10 +9,12 @@ import (
 	"path/filepath"
 	"runtime"
 	"strconv"
+	"strings"
 	"testing"
 	"time"
 
 	"pairline/app/session"
+	"pairline/fitcore"
 )
 
 // bigSessions are four invented sessions (fictional Larkwater Valley Water
@@ -95,5 +98,109 @@ func TestInspectMemoryBound(t *testing.T) {
 	t.Logf("file %d bytes, decode %d bytes allocated, inspect %d", st.Size(), dec, got)
 	if got > 6*dec {
 		t.Errorf("inspect allocated %d bytes, more than 6× the %d of decoding %s", got, dec, filepath.Base(path))
+	}
+}
+
+// writeBigCSV writes n invented readings (fictional Larkwater Valley Water
+// Board, a conductivity probe against standards) to dir/big.csv: x from 1
+// to 500, y ≈ 0.98x + 0.3 with a scatter that grows with x, about 24 bytes a
+// row. It returns the path and the numbers as written.
+func writeBigCSV(tb testing.TB, dir string, n int) (string, []float64, []float64) {
+	tb.Helper()
+	x, y := make([]float64, n), make([]float64, n)
+	b := []byte("standard_uS_cm,probe_uS_cm\n")
+	seed := uint64(20261202)
+	next := func() float64 {
+		seed = seed*6364136223846793005 + 1442695040888963407
+		return float64(seed>>11) / (1 << 53)
+	}
+	for i := range x {
+		xi := 1 + 499*next()
+		yi := 0.98*xi + 0.3 + (next()-0.5)*0.035*xi
+		b = strconv.AppendFloat(b, xi, 'f', 6, 64)
+		b = append(b, ',')
+		b = strconv.AppendFloat(b, yi, 'f', 7, 64)
+		b = append(b, '\n')
+		// The numbers as the file holds them.
+		x[i], _ = strconv.ParseFloat(strconv.FormatFloat(xi, 'f', 6, 64), 64)
+		y[i], _ = strconv.ParseFloat(strconv.FormatFloat(yi, 'f', 7, 64), 64)
+	}
+	path := filepath.Join(dir, "big.csv")
+	if err := os.WriteFile(path, b, 0o644); err != nil {
+		tb.Fatal(err)
+	}
+	return path, x, y
+}
+
+// BenchmarkFitBig: `pairline fit` (text report, default options) on a
+// million rows; it reports allocations and asserts nothing.
+func BenchmarkFitBig(b *testing.B) {
+	path, _, _ := writeBigCSV(b, b.TempDir(), 1_000_000)
+	b.ReportAllocs()
+	for b.Loop() {
+		if code := Fit([]string{path}, nil, io.Discard, io.Discard); code != ExitOK {
+			b.Fatal(code)
+		}
+	}
+}
+
+// TestFitBigFileEqualsAnalyze: `pairline fit --json` on a file of more rows
+// than a session holds gives the report fitcore.Analyze gives on the same
+// numbers (parsed here with strconv.ParseFloat, the reference for plain
+// decimal text), byte for byte.
+func TestFitBigFileEqualsAnalyze(t *testing.T) {
+	if testing.Short() {
+		t.Skip("fits 300,000 rows twice")
+	}
+	n := session.MaxReadings + 50_000
+	path, x, y := writeBigCSV(t, t.TempDir(), n)
+	var out, errOut bytes.Buffer
+	if code := Fit([]string{"--json", "--predict-x", "250", path}, nil, &out, &errOut); code != ExitOK {
+		t.Fatalf("exit %d: %s", code, errOut.String())
+	}
+	ff, err := parseFitFlags([]string{"--predict-x", "250", path})
+	if err != nil {
+		t.Fatal(err)
+	}
+	opt, err := ff.options()
+	if err != nil {
+		t.Fatal(err)
+	}
+	opt.PredictX = []float64{250}
+	rep, err := fitcore.Analyze(x, y, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var want bytes.Buffer
+	bw := bufio.NewWriter(&want)
+	if err := writeJSONIndented(bw, rep, "", "  "); err != nil {
+		t.Fatal(err)
+	}
+	bw.WriteString("\n")
+	bw.Flush()
+	if rep.N != n || !bytes.Equal(out.Bytes(), want.Bytes()) {
+		t.Errorf("n = %d; the report of fit (%d bytes) differs from Analyze's (%d bytes)", rep.N, out.Len(), want.Len())
+	}
+}
+
+// TestFitStdinPipe: standard input that cannot seek (a pipe) is kept in a
+// temporary file for the second pass and gives the report of the same text
+// from a file; the temporary file is removed.
+func TestFitStdinPipe(t *testing.T) {
+	// Invented readings (Larkwater Valley Water Board).
+	csv := "standard;reading\n1;1,02\n2;2,01\n3;3,05\n4;3,98\n5;5,03\n\n6;\n"
+	t.Setenv("TMPDIR", t.TempDir())
+	var seek, pipe, errOut bytes.Buffer
+	if code := Fit([]string{"--json", "-"}, strings.NewReader(csv), &seek, &errOut); code != ExitOK {
+		t.Fatalf("seekable: exit %d: %s", code, errOut.String())
+	}
+	if code := Fit([]string{"--json", "-"}, struct{ io.Reader }{strings.NewReader(csv)}, &pipe, &errOut); code != ExitOK {
+		t.Fatalf("pipe: exit %d: %s", code, errOut.String())
+	}
+	if !bytes.Equal(seek.Bytes(), pipe.Bytes()) {
+		t.Errorf("the pipe gave\n%s\nthe seekable reader\n%s", pipe.String(), seek.String())
+	}
+	if left, _ := os.ReadDir(os.Getenv("TMPDIR")); len(left) != 0 {
+		t.Errorf("%d temporary file(s) left behind", len(left))
 	}
 }

@@ -2,7 +2,6 @@ package cli
 
 import (
 	"bufio"
-	"bytes"
 	"errors"
 	"flag"
 	"fmt"
@@ -24,8 +23,15 @@ const (
 	ExitUsage   = 2 // bad flags or unusable input; one line on stderr says why
 )
 
-// MaxInputBytes is the largest input fit reads: the limit of session.ReadCSV.
-const MaxInputBytes = session.MaxCSVSize
+// MaxInputBytes is the largest input fit reads: the limit of
+// session.StreamCSV (1 GiB).
+const MaxInputBytes = session.MaxStreamSize
+
+// MaxFitRows is the most data rows `pairline fit` reads: the limit of
+// session.StreamCSV (10⁷), forty times session.MaxReadings, the limit of a
+// session in the app. Past it the command stops with a sentence naming the
+// line and the limit.
+const MaxFitRows = session.MaxStreamRows
 
 // multiFlag collects a repeatable string flag.
 type multiFlag []string
@@ -108,8 +114,11 @@ flags:
 
 Numbers in flags are finite and at most %[7]g in size. A value out of range
 is refused with one line naming the flag and the range (exit status 2).
+The file may hold up to %[8]d data rows and %[9]d MiB; it is read twice,
+keeping the two columns as numbers (standard input from a pipe is copied to
+a temporary file for that).
 `, fitcore.MinLevel, fitcore.MaxLevel, fitcore.DefaultLevel, fitcore.MaxBoxCoxLambda,
-	fitcore.MinVarianceRatio, fitcore.MaxVarianceRatio, MaxFlagNumber)
+	fitcore.MinVarianceRatio, fitcore.MaxVarianceRatio, MaxFlagNumber, MaxFitRows, MaxInputBytes>>20)
 
 // Fit runs `pairline fit`. It returns ExitOK on success and ExitUsage with
 // one line on stderr for bad flags or unusable input.
@@ -221,7 +230,6 @@ func parseFitFlags(args []string) (*fitFlags, error) {
 // fitResult is a report with what the command learnt about the input.
 type fitResult struct {
 	report *fitcore.Report
-	csv    *session.CSVResult
 	lines  []int // file line of each pair given to Analyze
 	xName  string
 	yName  string
@@ -444,58 +452,63 @@ func quoteList(h []string) string {
 }
 
 // runFit reads the input and analyses it with opt, the checked options of
-// the flags.
+// the flags. The input is streamed into float64 columns (session.StreamCSV):
+// no cell is kept as text but those that are not numbers.
 func runFit(ff *fitFlags, opt fitcore.Options, stdin io.Reader) (*fitResult, error) {
 	co, err := ff.csvOptions()
 	if err != nil {
 		return nil, err
 	}
-	data, err := readInput(ff.file, stdin)
+	in, done, err := openInput(ff.file, stdin)
 	if err != nil {
 		return nil, err
 	}
+	defer done()
+	so := session.StreamOptions{CSVOptions: co}
 	if ff.xCol != "" || ff.yCol != "" {
-		// A first pass finds the header, so columns can be named.
-		first, err := session.ReadCSV(bytes.NewReader(data), co)
-		if err != nil {
-			return nil, err
-		}
-		x, y := -1, -1
-		if ff.xCol != "" {
-			if x, err = column("x-col", ff.xCol, first.Header); err != nil {
-				return nil, err
+		so.Columns = func(header []string) (int, int, error) {
+			x, y := -1, -1
+			var err error
+			if ff.xCol != "" {
+				if x, err = column("x-col", ff.xCol, header); err != nil {
+					return 0, 0, err
+				}
 			}
-		}
-		if ff.yCol != "" {
-			if y, err = column("y-col", ff.yCol, first.Header); err != nil {
-				return nil, err
+			if ff.yCol != "" {
+				if y, err = column("y-col", ff.yCol, header); err != nil {
+					return 0, 0, err
+				}
 			}
+			if x == y {
+				return 0, 0, fmt.Errorf("x and y are both column %d; choose two different columns", x+1)
+			}
+			return x, y, nil
 		}
-		if x == y {
-			return nil, fmt.Errorf("x and y are both column %d; choose two different columns", x+1)
-		}
-		co.XCol, co.YCol = x, y
 	}
-	res, err := session.ReadCSV(bytes.NewReader(data), co)
+	res, err := session.StreamCSV(in, so)
 	if err != nil {
 		return nil, err
 	}
 	// Rows whose chosen cells are not numbers are skipped and named, like
-	// the incomplete rows ReadCSV already lists in Skipped.
-	x, y, lines, problems := session.ParsedPairs(res)
+	// the incomplete rows listed in Skipped.
+	x, y := res.X, res.Y
+	lines := make([]int, len(res.Lines))
+	for i, l := range res.Lines {
+		lines[i] = int(l)
+	}
 	var notes []string
 	for _, s := range res.Skipped {
 		notes = append(notes, fmt.Sprintf("Line %d skipped: %s.", s.Line, strings.TrimSuffix(s.Reason, ".")))
 	}
 	badRows := map[int]bool{}
-	for _, p := range problems {
+	for _, p := range res.Problems {
 		badRows[p.Row] = true
 		what, col := "x", res.XCol
 		if p.Column == session.ColumnY {
 			what, col = "y", res.YCol
 		}
 		notes = append(notes, fmt.Sprintf("Line %d skipped: the %s cell (column %d) %q %s.",
-			res.Lines[p.Row], what, col+1, p.Text, strings.TrimSuffix(p.Reason, ".")))
+			p.Line, what, col+1, p.Text, strings.TrimSuffix(p.Reason, ".")))
 	}
 	skipped := len(res.Skipped) + len(badRows)
 	if len(x) < 3 {
@@ -545,14 +558,14 @@ func runFit(ff *fitFlags, opt fitcore.Options, stdin io.Reader) (*fitResult, err
 	rep.NSkipped = skipped
 	rep.Notes = append(notes, rep.Notes...)
 	rep.Notes = append(rep.Notes, res.Warnings...)
-	out := &fitResult{report: rep, csv: res, lines: lines,
+	out := &fitResult{report: rep, lines: lines,
 		xName: term(columnName(res, res.XCol, "x")), yName: term(columnName(res, res.YCol, "y"))}
 	return out, nil
 }
 
 // columnName is the header of column c, or the fallback (with the column
 // number) when there is no header.
-func columnName(res *session.CSVResult, c int, fallback string) string {
+func columnName(res *session.StreamResult, c int, fallback string) string {
 	if c >= 0 && c < len(res.Header) {
 		if h := strings.TrimSpace(res.Header[c]); h != "" {
 			return h
@@ -561,58 +574,60 @@ func columnName(res *session.CSVResult, c int, fallback string) string {
 	return fmt.Sprintf("%s (column %d)", fallback, c+1)
 }
 
-func readInput(file string, stdin io.Reader) ([]byte, error) {
-	var r io.Reader
-	size := int64(512)
-	if file == "-" {
-		if stdin == nil {
-			return nil, errors.New("no standard input to read")
-		}
-		r = stdin
-	} else {
+// openInput opens the file, or standard input for "-", for two passes:
+// standard input that cannot seek (a pipe) is copied to a temporary file
+// first, at most MaxInputBytes+1 bytes of it. done closes and removes what
+// openInput made.
+func openInput(file string, stdin io.Reader) (io.ReadSeeker, func(), error) {
+	if file != "-" {
 		f, err := os.Open(file)
 		if err != nil {
-			return nil, fmt.Errorf("cannot open the file: %v", unwrapPath(err))
+			return nil, nil, fmt.Errorf("cannot open the file: %v", unwrapPath(err))
 		}
-		defer f.Close()
 		if st, err := f.Stat(); err == nil && st.IsDir() {
-			return nil, errFolder
+			f.Close()
+			return nil, nil, errFolder
 		}
-		r = f
-		// A buffer of the file's size (capped at the limit) is read into
-		// once; io.ReadAll's doubling left up to twice the input as garbage.
-		if st, err := f.Stat(); err == nil && st.Mode().IsRegular() {
-			size = min(st.Size(), MaxInputBytes) + 1
+		return f, func() { f.Close() }, nil
+	}
+	if stdin == nil {
+		return nil, nil, errors.New("no standard input to read")
+	}
+	if rs, ok := stdin.(io.ReadSeeker); ok {
+		if base, err := rs.Seek(0, io.SeekCurrent); err == nil {
+			return &fromOffset{rs, base}, func() {}, nil
 		}
 	}
-	b, err := readLimited(r, size)
+	tmp, err := os.CreateTemp("", "pairline-fit-*.csv")
 	if err != nil {
-		return nil, fmt.Errorf("cannot read the input: %v", unwrapPath(err))
+		return nil, nil, fmt.Errorf("standard input could not be kept for reading twice: %v", unwrapPath(err))
 	}
-	if len(b) > MaxInputBytes {
-		return nil, fmt.Errorf("the input is larger than %d MiB; is this the right file?", MaxInputBytes>>20)
+	done := func() { tmp.Close(); os.Remove(tmp.Name()) }
+	if _, err := io.Copy(tmp, io.LimitReader(stdin, MaxInputBytes+1)); err != nil {
+		done()
+		return nil, nil, fmt.Errorf("cannot read the input: %v", unwrapPath(err))
 	}
-	return b, nil
+	if _, err := tmp.Seek(0, io.SeekStart); err != nil {
+		done()
+		return nil, nil, fmt.Errorf("cannot read the input: %v", unwrapPath(err))
+	}
+	return tmp, done, nil
 }
 
-// readLimited reads r to its end, or to one byte past MaxInputBytes, into a
-// buffer that starts at size bytes and grows only when r holds more.
-func readLimited(r io.Reader, size int64) ([]byte, error) {
-	b := make([]byte, 0, size)
-	lr := io.LimitReader(r, MaxInputBytes+1)
-	for {
-		if len(b) == cap(b) {
-			b = append(b, 0)[:len(b)]
-		}
-		n, err := lr.Read(b[len(b):cap(b)])
-		b = b[:len(b)+n]
-		if err == io.EOF {
-			return b, nil
-		}
-		if err != nil {
-			return b, err
-		}
+// fromOffset is a reader that can seek back to where it started.
+type fromOffset struct {
+	rs   io.ReadSeeker
+	base int64
+}
+
+func (f *fromOffset) Read(p []byte) (int, error) { return f.rs.Read(p) }
+
+func (f *fromOffset) Seek(off int64, whence int) (int64, error) {
+	if whence == io.SeekStart {
+		off += f.base
 	}
+	n, err := f.rs.Seek(off, whence)
+	return n - f.base, err
 }
 
 // errFolder is the error for a folder named where a file is expected.

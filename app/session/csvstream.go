@@ -1,0 +1,715 @@
+package session
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"math/bits"
+	"slices"
+	"strings"
+	"unicode"
+	"unicode/utf8"
+	"unsafe"
+)
+
+// Limits of StreamCSV, the reader of `pairline fit`. They are larger than
+// the session limits (MaxReadings, MaxCSVSize): the command keeps numbers,
+// not cells, and no session is made.
+const (
+	// MaxStreamRows is the most data rows StreamCSV reads.
+	MaxStreamRows = 10_000_000
+	// MaxStreamSize is the largest text StreamCSV reads, in bytes (blank
+	// rows do not count as rows, so the rows alone do not bound the size).
+	MaxStreamSize = 1 << 30
+	// streamBlock is the size of the blocks of whole rows StreamCSV hands
+	// to the scanner; a block grows past it only to hold a whole row.
+	streamBlock = 1 << 20
+	// streamBlockMax is the largest block: the longest row the scanner
+	// reads (MaxCSVFields cells of MaxCSVFieldLen bytes, quoted, with
+	// delimiters) and a block besides. Only rows near the limits reach it.
+	streamBlockMax = MaxCSVFields*(MaxCSVFieldLen+3) + streamBlock
+)
+
+// blockSize is the size of the blocks read; tests make it small to cut
+// the text at every kind of place.
+var blockSize = streamBlock
+
+// ErrCSVStreamRows is the error of StreamCSV for a file of more than
+// MaxStreamRows data rows, wrapped in a *CSVError at the first line too many.
+var ErrCSVStreamRows = errors.New("the file has more rows than pairline fit reads")
+
+// StreamResult is what StreamCSV found: the chosen columns as numbers, and
+// what the rest of the file held.
+type StreamResult struct {
+	// X[i], Y[i] are the pairs whose two cells are numbers, read with
+	// DecimalComma; Lines[i] is the file line of the pair.
+	X, Y  []float64
+	Lines []int32
+	// Problems are the chosen cells that are not numbers; Row is the index
+	// of the pair among all complete rows (as CellProblem.Row of
+	// ParsedPairs), Line the file line.
+	Problems []StreamProblem
+	// The rest as in CSVResult.
+	Header         []string
+	Width          int
+	NumericColumns []int
+	Skipped        []SkippedRow
+	Blank          int
+	Incomplete     int
+	Delimiter      rune
+	DecimalComma   bool
+	HasHeader      bool
+	PairlineExport bool
+	XCol, YCol     int
+	Warnings       []string
+
+	decided *bool // CSVOptions.DecimalComma
+}
+
+// StreamProblem is a chosen cell that is not a number, with its file line.
+type StreamProblem struct {
+	CellProblem
+	Line int
+}
+
+// StreamOptions are CSVOptions and, for columns chosen by name, a function
+// called with the header row (nil without one) once it is known; it
+// returns the columns (DetectColumn to detect) or an error.
+type StreamOptions struct {
+	CSVOptions
+	Columns func(header []string) (x, y int, err error)
+}
+
+// StreamCSV reads paired readings from CSV or TSV text as ReadCSV does, with
+// ReadCSV's rules (delimiter, header, column and decimal-comma detection,
+// line ends, quotes, the per-cell and per-row limits) and error sentences,
+// and ParseNumberHint for the numbers, but keeps the chosen columns as
+// float64 (not as text) and reads r in blocks of whole rows, twice: r must
+// be at its start and is sought back to it for the second pass.
+//
+// Limits: MaxStreamSize bytes, MaxStreamRows data rows. Cost: two passes,
+// linear in the text; memory about 20 bytes a pair (two float64 and an
+// int32 line, made once at the row count of pass 1), half a byte a pair
+// for the cells whose decimal separator is ambiguous, the cells that are
+// not numbers, and a buffer of about a MiB.
+//
+// Text that is not UTF-8 (read as Latin-1) or UTF-16 is read with ReadCSV
+// itself, within its limits (MaxCSVSize, MaxReadings): such files come from
+// old spreadsheets, not from data loggers of millions of rows.
+func StreamCSV(r io.ReadSeeker, opt StreamOptions) (*StreamResult, error) {
+	res := &StreamResult{decided: opt.DecimalComma}
+	p1, err := streamPass1(r, opt, res)
+	if err != nil {
+		return nil, err
+	}
+	if p1.fallback {
+		return streamFallback(r, opt)
+	}
+	if err := streamChoose(opt, res, p1); err != nil {
+		return nil, err
+	}
+	if err := streamPass2(r, res, p1.rows); err != nil {
+		return nil, err
+	}
+	return res, nil
+}
+
+// blockReader cuts a text into blocks that end at a row end outside quotes.
+type blockReader struct {
+	r     io.Reader
+	buf   []byte
+	eof   bool
+	total int64
+	err   error
+	first bool // the first block: without its byte-order mark, and holding 100 rows
+	done  int  // bytes of buf given out as the last block
+}
+
+func newBlockReader(r io.Reader) *blockReader {
+	return &blockReader{r: io.LimitReader(r, MaxStreamSize+1), first: true}
+}
+
+// fill reads until buf holds n bytes or the text ends.
+func (b *blockReader) fill(n int) {
+	if cap(b.buf) < n {
+		b.buf = slices.Grow(b.buf, n-len(b.buf))
+	}
+	for len(b.buf) < n && !b.eof {
+		m, err := b.r.Read(b.buf[len(b.buf):cap(b.buf)])
+		b.buf = b.buf[:len(b.buf)+m]
+		b.total += int64(m)
+		if err == io.EOF {
+			b.eof = true
+		} else if err != nil {
+			b.err, b.eof = err, true
+		}
+	}
+}
+
+// rowEnd is the end (exclusive) of the last row end outside quotes in p,
+// 0 when there is none. A CR is a row end only when the byte after it is
+// known and not LF, so a CRLF is never cut in two.
+func rowEnd(p []byte) int {
+	in, end := false, 0
+	for i, c := range p {
+		switch c {
+		case '"':
+			in = !in
+		case '\n':
+			if !in {
+				end = i + 1
+			}
+		case '\r':
+			if !in && i+1 < len(p) && p[i+1] != '\n' {
+				end = i + 1
+			}
+		}
+	}
+	return end
+}
+
+// rowsAtLeast reports whether text holds n non-blank rows, counted as
+// detectDelimiter counts them.
+func rowsAtLeast(text []byte, n int) bool {
+	rows, in, nonEmpty := 0, false, false
+	for i := 0; i < len(text); i++ {
+		switch c := text[i]; {
+		case c == '"':
+			in, nonEmpty = !in, true
+		case in:
+		case c == '\n' || c == '\r':
+			if nonEmpty {
+				if rows++; rows >= n {
+					return true
+				}
+			}
+			nonEmpty = false
+		case c == '\t' || c == ';' || c == ',' || c == ' ' || c == '\v' || c == '\f':
+		case c < utf8.RuneSelf:
+			nonEmpty = true
+		default:
+			r, sz := utf8.DecodeRune(text[i:])
+			if !unicode.IsSpace(r) {
+				nonEmpty = true
+			}
+			i += sz - 1
+		}
+	}
+	return false
+}
+
+// next returns the next block ("" at the end). The block is a view of the
+// reader's buffer, valid until the next call: the scanner's fields are
+// parsed or cloned before then, so a big file is not copied into strings.
+func (b *blockReader) next() string {
+	if b.done > 0 {
+		b.buf = b.buf[:copy(b.buf, b.buf[b.done:])]
+		b.done = 0
+	}
+	for {
+		if len(b.buf) < blockSize {
+			b.fill(blockSize)
+		}
+		if b.first && len(b.buf) >= 3 && string(b.buf[:3]) == "\xef\xbb\xbf" {
+			b.buf = b.buf[3:]
+		}
+		cut := rowEnd(b.buf)
+		ok := cut > 0 && (!b.first || rowsAtLeast(b.buf[:cut], 100))
+		if b.eof || len(b.buf) >= streamBlockMax {
+			cut, ok = len(b.buf), true
+		}
+		if ok {
+			b.first = false
+			b.done = cut
+			if cut == 0 {
+				return ""
+			}
+			return unsafe.String(&b.buf[0], cut)
+		}
+		b.fill(2 * len(b.buf))
+	}
+}
+
+// lineEnds is the number of line ends in s (LF, CRLF, a lone CR).
+func lineEnds(s string) int { return lineAt(s, len(s)) - 1 }
+
+type pass1 struct {
+	rows          int
+	first, second []string
+	firstLine     int
+	filled, nums  []int
+	fallback      bool
+}
+
+// streamPass1 is pass 1 of readTable over blocks, with decodeText's checks
+// (a NUL byte, text that is not UTF-8) made block by block in the order
+// ReadCSV makes them: the size first, then a NUL, then the table.
+func streamPass1(r io.Reader, opt StreamOptions, res *StreamResult) (*pass1, error) {
+	p := &pass1{}
+	var head [2]byte
+	n, _ := io.ReadFull(r, head[:])
+	if n == 2 && (head == [2]byte{0xff, 0xfe} || head == [2]byte{0xfe, 0xff}) {
+		p.fallback = true
+		return p, nil
+	}
+	br := newBlockReader(io.MultiReader(strings.NewReader(string(head[:n])), r))
+	var scanErr, nulErr *CSVError
+	lineOff := 0
+	for {
+		block := br.next()
+		if block == "" {
+			break
+		}
+		if br.total > MaxStreamSize {
+			return nil, &CSVError{Err: fmt.Errorf("%w (more than %d MiB)", ErrCSVTooLarge, MaxStreamSize>>20)}
+		}
+		if nulErr == nil {
+			if i := strings.IndexByte(block, 0); i >= 0 {
+				nulErr = &CSVError{Line: lineOff + lineAt(block, i), Err: ErrCSVNotText}
+			}
+		}
+		if nulErr == nil && !utf8.ValidString(block) {
+			p.fallback = true
+			return p, nil
+		}
+		if res.Delimiter == 0 {
+			res.Delimiter = opt.Delimiter
+			if res.Delimiter == 0 {
+				res.Delimiter = detectDelimiter(block)
+			}
+			d := res.Delimiter
+			if d == '"' || d == '\r' || d == '\n' || !utf8.ValidRune(d) || d == utf8.RuneError {
+				return nil, &CSVError{Err: fmt.Errorf("%q cannot separate fields", d)}
+			}
+		}
+		if scanErr == nil && nulErr == nil {
+			scanErr = p.scan(block, lineOff, res)
+		}
+		lineOff += lineEnds(block)
+	}
+	if br.err != nil {
+		return nil, &CSVError{Err: fmt.Errorf("the file could not be read: %w", br.err)}
+	}
+	if br.total > MaxStreamSize {
+		return nil, &CSVError{Err: fmt.Errorf("%w (more than %d MiB)", ErrCSVTooLarge, MaxStreamSize>>20)}
+	}
+	if nulErr != nil {
+		return nil, nulErr
+	}
+	if scanErr != nil {
+		return nil, scanErr
+	}
+	if res.Delimiter == 0 { // an empty text
+		res.Delimiter = opt.Delimiter
+		if res.Delimiter == 0 {
+			res.Delimiter = detectDelimiter("")
+		}
+	}
+	if p.rows == 0 {
+		return nil, &CSVError{Err: ErrCSVNoData}
+	}
+	return p, nil
+}
+
+// scan is the loop of readTable's pass 1 over one block.
+func (p *pass1) scan(block string, lineOff int, res *StreamResult) *CSVError {
+	sc := newCSVScanner(block, res.Delimiter)
+	sc.line += lineOff
+	for {
+		sc.raw = p.rows >= 2
+		fields, line, cerr := sc.next()
+		if cerr != nil {
+			return cerr
+		}
+		if fields == nil {
+			return nil
+		}
+		if isBlankRow(fields) {
+			continue
+		}
+		p.rows++
+		if p.rows > MaxStreamRows+1 {
+			return &CSVError{Line: line, Err: fmt.Errorf("%w (at most %d)", ErrCSVStreamRows, MaxStreamRows)}
+		}
+		res.Width = max(res.Width, len(fields))
+		switch p.rows {
+		case 1:
+			p.first, p.firstLine = cloneFields(fields), line
+			continue
+		case 2:
+			p.second = cloneFields(fields)
+		}
+		p.count(fields)
+	}
+}
+
+// cloneFields copies fields out of the block they point into.
+func cloneFields(fields []string) []string {
+	out := make([]string, len(fields))
+	for i, f := range fields {
+		out[i] = strings.Clone(f)
+	}
+	return out
+}
+
+func (p *pass1) count(fields []string) {
+	for len(p.filled) < len(fields) {
+		p.filled, p.nums = append(p.filled, 0), append(p.nums, 0)
+	}
+	for c, f := range fields {
+		if !isBlank(f) {
+			p.filled[c]++
+			if isNumberCell(f) {
+				p.nums[c]++
+			}
+		}
+	}
+}
+
+// streamChoose decides the header and the columns between the passes, by
+// the rules of readTable (the differential and fuzz tests hold the two to
+// the same answers).
+func streamChoose(opt StreamOptions, res *StreamResult, p *pass1) error {
+	numbers := func(f []string) int {
+		n := 0
+		for _, c := range f {
+			if isNumberCell(c) {
+				n++
+			}
+		}
+		return n
+	}
+	if opt.Header != nil {
+		res.HasHeader = *opt.Header
+	} else {
+		hasText := false
+		for _, c := range p.first {
+			if !isBlank(c) && !isNumberCell(c) {
+				hasText = true
+			}
+		}
+		res.HasHeader = hasText && (p.rows == 1 || numbers(p.second) > numbers(p.first))
+	}
+	if res.HasHeader {
+		res.Header = p.first
+	} else {
+		p.count(p.first)
+	}
+	if res.HasHeader && p.rows == 1 {
+		return &CSVError{Line: p.firstLine, Err: fmt.Errorf("%w: there is only a header row", ErrCSVNoData)}
+	}
+	if opt.PairlineExport != nil {
+		res.PairlineExport = *opt.PairlineExport
+	} else {
+		res.PairlineExport = res.HasHeader && isPairlineExport(res.Header)
+	}
+	if res.PairlineExport && res.HasHeader {
+		for i, h := range res.Header {
+			res.Header[i] = unneutralise(h)
+		}
+	}
+	for c := range p.filled {
+		if p.nums[c] > 0 && 2*p.nums[c] >= p.filled[c] {
+			res.NumericColumns = append(res.NumericColumns, c)
+		}
+	}
+	xc, yc := opt.XCol, opt.YCol
+	if opt.Columns != nil {
+		var err error
+		if xc, yc, err = opt.Columns(res.Header); err != nil {
+			return err
+		}
+	}
+	if xc == yc {
+		xc, yc = DetectColumn, DetectColumn
+	}
+	for _, c := range []int{xc, yc} {
+		if c >= res.Width {
+			return &CSVError{Err: fmt.Errorf("%w: column %d (the file has %d columns)", ErrCSVNoColumn, c+1, res.Width)}
+		}
+	}
+	pick := func(not int) int {
+		for _, c := range res.NumericColumns {
+			if c != not {
+				return c
+			}
+		}
+		return DetectColumn
+	}
+	if xc < 0 {
+		xc = pick(yc)
+	}
+	if yc < 0 {
+		yc = pick(xc)
+	}
+	if xc < 0 || yc < 0 {
+		return &CSVError{Err: ErrCSVColumns}
+	}
+	res.XCol, res.YCol = xc, yc
+	return nil
+}
+
+// Kinds of ambiguous cells, two bits a pair cell in pass 2: the value read
+// with a decimal point and the one read with a decimal comma differ by a
+// factor of 1000 one way or the other; an exception keeps its value.
+const (
+	ambNone  = 0
+	ambTimes = 1 // comma value = round(value × 1000)
+	ambDiv   = 2 // comma value = value / 1000
+	ambOther = 3 // comma value in pass2.other
+)
+
+type pass2 struct {
+	amb        []uint64 // 2 bits per cell, cell 2i is X[i], 2i+1 is Y[i]
+	other      map[int]float64
+	comma, dot int
+}
+
+func (q *pass2) setAmb(cell, kind int) {
+	for len(q.amb) <= cell/32 {
+		q.amb = append(q.amb, 0)
+	}
+	q.amb[cell/32] |= uint64(kind) << (2 * (cell % 32))
+}
+
+// cell parses one chosen cell as ParsedPairs does with the decimal point,
+// votes as readTable's decimal-comma rule does, and remembers how the value
+// read with a decimal comma differs (cell is its index in amb).
+func (q *pass2) cell(s string, cell int) (float64, *NumberError) {
+	if v, ok := plainNumber(s); ok {
+		if strings.IndexByte(s, '.') >= 0 {
+			q.dot++
+		}
+		return v, nil
+	}
+	v, info, err := parseNumber(s, hintDot)
+	if err != nil {
+		return 0, err
+	}
+	if !info.ambiguous {
+		switch info.dec {
+		case ',':
+			q.comma++
+		case '.':
+			q.dot++
+		}
+		return v, nil
+	}
+	alt, _, aerr := parseNumber(s, hintComma)
+	switch {
+	case aerr == nil && alt == math.Round(v*1000) && math.Signbit(alt) == math.Signbit(v):
+		q.setAmb(cell, ambTimes)
+	case aerr == nil && alt == v/1000 && math.Signbit(alt) == math.Signbit(v):
+		q.setAmb(cell, ambDiv)
+	default:
+		if q.other == nil {
+			q.other = map[int]float64{}
+		}
+		if aerr != nil {
+			alt = math.NaN() // not seen: the hint changes only the ambiguous form
+		}
+		q.other[cell] = alt
+		q.setAmb(cell, ambOther)
+	}
+	return v, nil
+}
+
+// streamPass2 is pass 2 of readTable over blocks, parsing the chosen cells
+// as they come.
+func streamPass2(r io.ReadSeeker, res *StreamResult, rows int) error {
+	if _, err := r.Seek(0, io.SeekStart); err != nil {
+		return &CSVError{Err: fmt.Errorf("the file could not be read again: %w", err)}
+	}
+	xc, yc := res.XCol, res.YCol
+	br := newBlockReader(r)
+	q := &pass2{}
+	// Pass 1 counted the rows: the columns are made once, at their size.
+	res.X, res.Y, res.Lines = make([]float64, 0, rows), make([]float64, 0, rows), make([]int32, 0, rows)
+	seen, pendingBlank, data, complete := 0, 0, 0, 0
+	lineOff := 0
+	for {
+		block := br.next()
+		if block == "" {
+			break
+		}
+		sc := newCSVScanner(block, res.Delimiter)
+		sc.line += lineOff
+		lineOff += lineEnds(block)
+		for {
+			sc.keep, sc.raw = max(xc, yc)+1, true
+			empty, pos, posLine := sc.empty, sc.pos, sc.line
+			fields, line, cerr := sc.next()
+			if cerr == nil && sc.truncated && isBlankRow(fields) {
+				sc.pos, sc.line, sc.empty, sc.keep = pos, posLine, empty, 0
+				fields, line, cerr = sc.next()
+			}
+			if cerr != nil {
+				return cerr // only if the text changed since pass 1
+			}
+			if seen > 0 {
+				pendingBlank += sc.empty - empty
+			}
+			if fields == nil {
+				break
+			}
+			if isBlankRow(fields) {
+				if seen > 0 {
+					pendingBlank++
+				}
+				continue
+			}
+			seen++
+			res.Blank += pendingBlank
+			pendingBlank = 0
+			if seen == 1 && res.HasHeader {
+				continue
+			}
+			if data++; data > MaxStreamRows {
+				return &CSVError{Line: line, Err: fmt.Errorf("%w (at most %d)", ErrCSVStreamRows, MaxStreamRows)}
+			}
+			if xc >= len(fields) || yc >= len(fields) {
+				res.Incomplete++
+				res.Skipped = append(res.Skipped, SkippedRow{line, fmt.Sprintf("the row has only %d columns", len(fields))})
+				continue
+			}
+			x, y := unraw(fields[xc]), unraw(fields[yc])
+			var why string
+			switch {
+			case isBlank(x) && isBlank(y):
+				why = "the x and y cells are empty"
+			case isBlank(x):
+				why = "the x cell is empty"
+			case isBlank(y):
+				why = "the y cell is empty"
+			}
+			if why != "" {
+				res.Incomplete++
+				res.Skipped = append(res.Skipped, SkippedRow{line, why})
+				continue
+			}
+			if res.PairlineExport {
+				x, y = unneutralise(x), unneutralise(y)
+			}
+			i := len(res.X)
+			xv, xerr := q.cell(x, 2*i)
+			yv, yerr := q.cell(y, 2*i+1)
+			if xerr != nil {
+				res.Problems = append(res.Problems, StreamProblem{CellProblem{Row: complete, Column: ColumnX, Text: strings.Clone(x)}, line})
+			}
+			if yerr != nil {
+				res.Problems = append(res.Problems, StreamProblem{CellProblem{Row: complete, Column: ColumnY, Text: strings.Clone(y)}, line})
+			}
+			complete++
+			if xerr != nil || yerr != nil {
+				q.clear(2 * i)
+				q.clear(2*i + 1)
+				continue
+			}
+			res.X, res.Y = append(res.X, xv), append(res.Y, yv)
+			res.Lines = append(res.Lines, int32(line))
+		}
+	}
+	if br.err != nil {
+		return &CSVError{Err: fmt.Errorf("the file could not be read: %w", br.err)}
+	}
+	return q.finish(res)
+}
+
+// clear forgets the ambiguity of a cell whose pair was not kept (its index
+// is reused by the next pair).
+func (q *pass2) clear(cell int) {
+	if cell/32 < len(q.amb) {
+		q.amb[cell/32] &^= 3 << (2 * (cell % 32))
+	}
+	delete(q.other, cell)
+}
+
+// finish applies the decimal-comma rule of readTable and, with a decimal
+// comma, rereads the ambiguous cells; the problems get their reasons with
+// the separator chosen.
+func (q *pass2) finish(res *StreamResult) error {
+	var dc bool
+	if res.decided != nil {
+		dc = *res.decided
+	} else {
+		dc = q.comma > q.dot || (q.comma == q.dot && res.Delimiter == ';')
+		if q.comma > 0 && q.dot > 0 {
+			used := "points"
+			if dc {
+				used = "commas"
+			}
+			res.Warnings = append(res.Warnings, fmt.Sprintf(
+				"The columns mix decimal commas (%d cells) and decimal points (%d cells); ambiguous cells such as 1,234 were read with decimal %s. Check the readings.",
+				q.comma, q.dot, used))
+		}
+	}
+	res.DecimalComma = dc
+	if dc {
+		for w, word := range q.amb {
+			for word != 0 {
+				b := bits.TrailingZeros64(word) &^ 1
+				cell := 32*w + b/2
+				v := &res.X[cell/2]
+				if cell%2 == 1 {
+					v = &res.Y[cell/2]
+				}
+				switch (word >> b) & 3 {
+				case ambTimes:
+					*v = math.Round(*v * 1000)
+				case ambDiv:
+					*v /= 1000
+				case ambOther:
+					*v = q.other[cell]
+				}
+				word &^= 3 << b
+			}
+		}
+	}
+	for i := range res.Problems {
+		_, err := ParseNumberHint(res.Problems[i].Text, dc)
+		if err == nil {
+			return fmt.Errorf("line %d: the cell %q reads differently with decimal commas; the file cannot be read in one pass", res.Problems[i].Line, res.Problems[i].Text)
+		}
+		res.Problems[i].Reason = reasonOf(err)
+	}
+	return nil
+}
+
+// streamFallback reads the whole text with ReadCSV and ParsedPairs.
+func streamFallback(r io.ReadSeeker, opt StreamOptions) (*StreamResult, error) {
+	if _, err := r.Seek(0, io.SeekStart); err != nil {
+		return nil, &CSVError{Err: fmt.Errorf("the file could not be read again: %w", err)}
+	}
+	co := opt.CSVOptions
+	if opt.Columns != nil {
+		// As the command did before: a first read finds the header.
+		first, err := ReadCSV(r, co)
+		if err != nil {
+			return nil, err
+		}
+		if co.XCol, co.YCol, err = opt.Columns(first.Header); err != nil {
+			return nil, err
+		}
+		if _, err := r.Seek(0, io.SeekStart); err != nil {
+			return nil, &CSVError{Err: fmt.Errorf("the file could not be read again: %w", err)}
+		}
+	}
+	cr, err := ReadCSV(r, co)
+	if err != nil {
+		return nil, err
+	}
+	x, y, lines, problems := ParsedPairs(cr)
+	res := &StreamResult{X: x, Y: y, Header: cr.Header, Width: cr.Width, NumericColumns: cr.NumericColumns,
+		Skipped: cr.Skipped, Blank: cr.Blank, Incomplete: cr.Incomplete, Delimiter: cr.Delimiter,
+		DecimalComma: cr.DecimalComma, HasHeader: cr.HasHeader, PairlineExport: cr.PairlineExport,
+		XCol: cr.XCol, YCol: cr.YCol, Warnings: cr.Warnings}
+	res.Lines = make([]int32, len(lines))
+	for i, l := range lines {
+		res.Lines[i] = int32(l)
+	}
+	for _, p := range problems {
+		res.Problems = append(res.Problems, StreamProblem{p, cr.Lines[p.Row]})
+	}
+	return res, nil
+}
