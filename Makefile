@@ -12,7 +12,6 @@ WASM_LDFLAGS := -s -w
 WASM_GCFLAGS := -gcflags=pairline/app/ui=-l -gcflags=pairline/app/wording=-l -gcflags=pairline/app/store=-l
 CHROMIUM  ?= $(shell command -v chromium || command -v chromium-browser || true)
 
-.PHONY: all wasm wasm-size bin run build test fmt-check vet lint unit browser bench fuzz refcheck icons clean
 
 .PHONY: all wasm bin run build test fmt-check vet lint unit browser bench bench-fit fuzz refcheck icons clean
 
