@@ -8,12 +8,11 @@ WASM_LDFLAGS := -s -w
 # The screen's packages are compiled without inlining in the browser build:
 # go-app's chains of element calls inlined cost about 220 kB of app.wasm and
 # gain nothing measurable; the numerical core, the codec and the plots keep it
-# (see DEVELOPERS.md, "Size of app.wasm").
+# (see DEVELOPERS.md, "What app.wasm is made of").
 WASM_GCFLAGS := -gcflags=pairline/app/ui=-l -gcflags=pairline/app/wording=-l -gcflags=pairline/app/store=-l
 CHROMIUM  ?= $(shell command -v chromium || command -v chromium-browser || true)
 
-
-.PHONY: all wasm bin run build test fmt-check vet lint unit browser bench bench-fit fuzz refcheck icons clean
+.PHONY: all wasm wasm-size bin run build test fmt-check vet lint unit browser bench bench-fit fuzz refcheck icons clean
 
 all: wasm bin
 
