@@ -5,6 +5,7 @@ import (
 	"math"
 	"reflect"
 	"slices"
+	"strconv"
 	"sync"
 )
 
@@ -99,6 +100,9 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	}
 	if err := validatePairs(x, y); err != nil {
 		return nil, err
+	}
+	if o.XStandardUncertainties != nil && len(o.XStandardUncertainties) != len(x) {
+		return nil, optErr("x_standard_uncertainties", strconv.Itoa(len(o.XStandardUncertainties)), "one standard uncertainty per pair is needed (%d pairs)", len(x))
 	}
 	rep := &Report{N: len(x), Model: o.Model, Transform: o.Transform, Level: o.Level}
 

@@ -126,8 +126,142 @@ func (fc *fitContext) inverses() {
 	}
 	fc.rep.Inverse = make([]Inverse, len(fc.opt.Inverse))
 	for i, q := range fc.opt.Inverse {
-		fc.rep.Inverse[i] = finiteInverse(fc.inverseAt(q))
+		inv := fc.inverseAt(q)
+		fc.addStandards(&inv)
+		fc.rep.Inverse[i] = finiteInverse(inv)
 	}
+}
+
+// addStandards adds the uncertainty of the known values x_i
+// (Options.XStandardUncertainties) to an inverse prediction x̂0 = (ȳ0 −
+// b0)/b1, by the law of propagation of uncertainty for uncorrelated
+// inputs (JCGM 100:2008 (GUM) §5.1.2, eq. 10):
+//
+//	u²_std(x̂0) = Σᵢ (∂x̂0/∂xᵢ)² u²(xᵢ).
+//
+// The readings y and ȳ0 are held fixed. For the least-squares line with
+// intercept, with x̄, ȳ the means, Sxx = Σ(xⱼ−x̄)², b1 = Sxy/Sxx and b0 =
+// ȳ − b1·x̄:
+//
+//	∂Sxy/∂xᵢ = yᵢ − ȳ,   ∂Sxx/∂xᵢ = 2(xᵢ − x̄),
+//	∂b1/∂xᵢ = ((yᵢ − ȳ) − 2·b1·(xᵢ − x̄))/Sxx,
+//	∂b0/∂xᵢ = −b1/n − x̄·∂b1/∂xᵢ,
+//	∂x̂0/∂xᵢ = −(∂b0/∂xᵢ + x̂0·∂b1/∂xᵢ)/b1 = 1/n − (x̂0 − x̄)·(∂b1/∂xᵢ)/b1.
+//
+// For the line through the origin, b1 = Σxy/Σx² and x̂0 = ȳ0/b1:
+//
+//	∂b1/∂xᵢ = (yᵢ − 2·b1·xᵢ)/Σx²,   ∂x̂0/∂xᵢ = −x̂0·(∂b1/∂xᵢ)/b1.
+//
+// The result is reported as the combined standard uncertainty SE =
+// √(SEFit² + UStandards²) (GUM §5.1.2), with SEFit the fit's own standard
+// error, and the interval X ± k·SE with k = t at the level and ν, the
+// residual degrees of freedom of the fit. ν is the lower bound of the
+// Welch–Satterthwaite effective degrees of freedom (GUM G.4.1: ν_eff =
+// SE⁴/(SEFit⁴/ν) ≥ ν, the standards' part counted with infinite degrees of
+// freedom as a Type B evaluation from a certificate, GUM G.4.2), so the
+// interval is conservative and never narrower than the same interval
+// without the standards (with ν_eff, a small standards' part can shrink
+// t faster than it grows SE); ν_eff is given in the message. The symmetric
+// interval replaces Fieller's because // Fieller's interval has no room for the standards' part. When Fieller's
+// interval is unbounded (the slope is not clearly different from zero) it
+// stays unbounded. Only ModelOLS and
+// ModelOrigin without a transform are handled (the weighted and Deming
+// estimators and the transforms have other derivatives); for the others
+// the Message says the standards' uncertainties were not included. The sums
+// are taken about the mean (or as given for the origin line) in the
+// original units, with a compensated sum for the means.
+func (fc *fitContext) addStandards(inv *Inverse) {
+	us := fc.opt.XStandardUncertainties
+	if us == nil || inv.M == 0 || !isFiniteNum(inv.X) || (inv.SE == 0 && inv.Message != "") {
+		return
+	}
+	any := false
+	for _, u := range us {
+		any = any || u > 0
+	}
+	if !any {
+		return
+	}
+	o := fc.opt
+	if (o.Model != ModelOLS && o.Model != ModelOrigin) || o.Transform != TransformNone || o.Weights != WeightsNone {
+		inv.Message = addSentence(inv.Message, "the standard uncertainties of the standards are not included: they are propagated only for an unweighted straight line without a transform")
+		return
+	}
+	x, y := fc.x, fc.y
+	n := float64(len(x))
+	x0 := inv.X
+	var sum float64
+	if o.Model == ModelOrigin {
+		var sxx, sxy lnKSum
+		for i := range x {
+			sxx.add(x[i] * x[i])
+			sxy.add(x[i] * y[i])
+		}
+		b1 := sxy.val() / sxx.val()
+		for i := range x {
+			if us[i] == 0 {
+				continue
+			}
+			db1 := (y[i] - 2*b1*x[i]) / sxx.val()
+			d := -x0 * db1 / b1
+			sum += d * d * us[i] * us[i]
+		}
+	} else {
+		var sx, sy lnKSum
+		for i := range x {
+			sx.add(x[i])
+			sy.add(y[i])
+		}
+		mx, my := sx.val()/n, sy.val()/n
+		var sxx, sxy lnKSum
+		for i := range x {
+			dx := x[i] - mx
+			sxx.add(dx * dx)
+			sxy.add(dx * (y[i] - my))
+		}
+		b1 := sxy.val() / sxx.val()
+		for i := range x {
+			if us[i] == 0 {
+				continue
+			}
+			db1 := ((y[i] - my) - 2*b1*(x[i]-mx)) / sxx.val()
+			d := 1/n - (x0-mx)*db1/b1
+			sum += d * d * us[i] * us[i]
+		}
+	}
+	ustd := math.Sqrt(sum)
+	if !isFiniteNum(ustd) {
+		return
+	}
+	fit := inv.SE
+	se := math.Hypot(fit, ustd)
+	inv.SEFit, inv.UStandards, inv.SE = fit, ustd, se
+	nu := fc.f.df
+	// ν_eff (for the message only) is capped at 10⁷: the standards' part
+	// alone has infinite degrees of freedom.
+	nuEff := 1e7
+	if fit > 0 {
+		r := se / fit
+		nuEff = math.Min(nu*r*r*r*r, nuEff)
+	}
+	if !inv.Bounded {
+		// The slope is not clearly different from zero: the interval stays
+		// unbounded, as Fieller's says.
+		inv.Message = addSentence(inv.Message, "the standard error includes the standard uncertainties of the standards")
+		return
+	}
+	t := lnTCrit(fc.rep.Level, nu)
+	inv.Low, inv.High = x0-t*se, x0+t*se
+	msg := fmt.Sprintf("the interval is x ± %s·u with u the combined standard uncertainty of the fit and the standards and t at the fit's %s degrees of freedom (conservative: the effective degrees of freedom are %s), not Fieller's", formatValue(math.Round(t*1e4)/1e4), formatValue(nu), formatValue(math.Round(nuEff*10)/10))
+	inv.Message = addSentence(inv.Message, msg)
+}
+
+// addSentence appends a clause, as a sentence of its own, to a message.
+func addSentence(msg, clause string) string {
+	if msg == "" {
+		return joinSentences([]string{clause})
+	}
+	return msg + " " + joinSentences([]string{clause})
 }
 
 func levelText(level float64) string {

@@ -151,6 +151,11 @@ func (o Options) Normalize() (Options, error) {
 			return o, optErr("predict_x", formatValue(v), "x value %d to predict at must be a finite number of at most %g in size; rescale the units", i+1, MaxMagnitude)
 		}
 	}
+	for i, u := range o.XStandardUncertainties {
+		if !(u >= 0 && u <= MaxMagnitude) {
+			return o, optErr("x_standard_uncertainties", formatValue(u), "the standard uncertainty of known value %d must be zero or a positive number of at most %g", i+1, MaxMagnitude)
+		}
+	}
 	for i, q := range o.Inverse {
 		for j, v := range q.Y {
 			if !(math.Abs(v) <= MaxMagnitude) {

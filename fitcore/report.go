@@ -111,7 +111,16 @@ type Options struct {
 	YUncertainty float64
 	PredictX     []float64
 	Inverse      []InverseQuery
-	Acceptance   *Criteria
+	// XStandardUncertainties are the standard uncertainties u(xᵢ) of the
+	// known values xᵢ (the certified values of the standards), one per pair
+	// in x units, 0 for a value taken as exact; nil = all exact. They add
+	// to the uncertainty of each inverse prediction by the law of
+	// propagation of uncertainty (see Inverse.UStandards); nothing else of
+	// the fit uses them. They are propagated for ModelOLS and ModelOrigin
+	// without a transform; with any other model or transform the inverse
+	// prediction says in its Message that they were not included.
+	XStandardUncertainties []float64
+	Acceptance             *Criteria
 	// SkipAdvice leaves out the transform advice and the Box–Cox profile
 	// (the two parts that refit the readings several times); Complete adds
 	// them to such a report later.
@@ -267,6 +276,18 @@ type Inverse struct {
 	High    float64 `json:"high"`
 	Bounded bool    `json:"bounded"`
 	Message string  `json:"message,omitempty"`
+	// SEFit and UStandards are the two parts of SE when
+	// Options.XStandardUncertainties were propagated (both 0 otherwise):
+	// SEFit is the standard error from the scatter of the readings about
+	// the line (the SE without the standards), UStandards the standard
+	// uncertainty from the standards' values, and SE = √(SEFit² +
+	// UStandards²) the combined standard uncertainty. Low and High are then
+	// X ± k·SE with k = t at the level and the fit's residual degrees of
+	// freedom ν (conservative: the Welch–Satterthwaite ν_eff of JCGM
+	// 100:2008 G.4.1 is at least ν), in place of Fieller's interval, and
+	// Message says so and gives ν_eff.
+	SEFit      float64 `json:"se_fit,omitempty"`
+	UStandards float64 `json:"u_standards,omitempty"`
 }
 
 // Limits are detection and quantitation limits from a calibration line:

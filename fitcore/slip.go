@@ -143,7 +143,7 @@ func slipClears(rep *Report, x, y []float64, opt Options, s *SlippedDecimal) {
 	}
 	o := opt
 	o.SkipAdvice = true
-	o.PredictX, o.Inverse, o.Acceptance = nil, nil, nil
+	o.PredictX, o.Inverse, o.Acceptance, o.XStandardUncertainties = nil, nil, nil, nil
 	o.noSlip = true
 	without, err := Analyze(xs, ys, o)
 	if err != nil {

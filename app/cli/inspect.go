@@ -33,11 +33,14 @@ reason; that is not an error of the file.
 Flags:
 `
 
-const exportUsage = `usage: pairline export-csv [--session N|ID] FILE
+const exportUsage = `usage: pairline export-csv [--session N|ID] [--results] FILE
 
 Write the readings of a .pairline session file to stdout as CSV: x, y (text as
-typed), note, excluded, exclude_reason, taken. A file with several sessions
-needs --session: its number (from 1) or its ID.
+typed), note, excluded, exclude_reason, taken. With --results, write the
+results instead: the line with its uncertainties, the checks' verdicts, the
+acceptance verdict with its criteria in words and the unknowns converted to x,
+with their units (the table the tablet's results export writes). A file with
+several sessions needs --session: its number (from 1) or its ID.
 
 Flags:
 `
@@ -64,12 +67,48 @@ func openSessionFile(path string) (*session.File, error) {
 
 // sessionAnalysis is one session with what inspect found out about it.
 type sessionAnalysis struct {
-	Session       *session.Session      `json:"session"`
+	Session       inspectedSession      `json:"session"`
 	Counts        session.Counts        `json:"counts"`
 	Problems      []session.CellProblem `json:"problems"`
 	Rows          []int                 `json:"rows"` // session row (from 0) of each pair given to Analyze
 	Report        *fitcore.Report       `json:"report"`
 	AnalysisError string                `json:"analysis_error,omitempty"`
+	// SealValid is true when the record is sealed and every digest
+	// matches (session.VerifySeal), false when a seal is broken, null when
+	// the record is not sealed; SealProblem says why it is not true.
+	SealValid   *bool  `json:"seal_valid"`
+	SealProblem string `json:"seal_problem,omitempty"`
+	// ExpiredStandards are the standards past expiry on the day of the
+	// readings (session.ExpiredStandards); RecordProblems the unknowns not
+	// converted and the standards that could not be read, in words.
+	ExpiredStandards []session.StandardExpiry `json:"expired_standards"`
+	RecordProblems   []string                 `json:"record_problems"`
+}
+
+// inspectedSession is the session as stored, with each unknown's
+// conversion beside its readings (session.unknowns in the JSON).
+type inspectedSession struct {
+	*session.Session
+	Unknowns []inspectedUnknown `json:"unknowns"`
+}
+
+// inspectedUnknown is an unknown with the x read back from its readings
+// (fitcore's inverse prediction, Options.Inverse) in x units: x, its
+// interval low … high and its standard error se (the combined standard
+// uncertainty, with se_fit and u_standards its parts when the standards'
+// uncertainties were included). The numbers are null when the unknown
+// was not converted; message says why, or what to know about the value.
+type inspectedUnknown struct {
+	Name       string   `json:"name"`
+	Readings   []string `json:"readings"`
+	X          *float64 `json:"x"`
+	Low        *float64 `json:"low"`
+	High       *float64 `json:"high"`
+	SE         *float64 `json:"se"`
+	SEFit      *float64 `json:"se_fit"`
+	UStandards *float64 `json:"u_standards"`
+	Bounded    bool     `json:"bounded"`
+	Message    string   `json:"message"`
 }
 
 type inspection struct {
@@ -88,11 +127,42 @@ type inspection struct {
 // reported as such and never reaches the statistics.
 func analyse(s *session.Session) sessionAnalysis {
 	x, y, rows, problems := s.Pairs()
-	a := sessionAnalysis{Session: s, Counts: countsOf(s, rows, problems), Problems: problems, Rows: rows}
+	a := sessionAnalysis{Session: inspectedSession{Session: s}, Counts: countsOf(s, rows, problems), Problems: problems, Rows: rows}
 	if a.Problems == nil {
 		a.Problems = []session.CellProblem{}
 	}
-	opt, err := s.Settings.Options().Normalize()
+	a.Session.Unknowns = make([]inspectedUnknown, len(s.Unknowns))
+	for i, u := range s.Unknowns {
+		a.Session.Unknowns[i] = inspectedUnknown{Name: u.Name, Readings: u.Readings, Message: "not converted: the line could not be fitted"}
+		if u.Readings == nil {
+			a.Session.Unknowns[i].Readings = []string{}
+		}
+	}
+	switch ok, err := s.VerifySeal(); {
+	case ok:
+		a.SealValid = &ok
+	case errors.Is(err, session.ErrNotSealed):
+		a.SealProblem = err.Error()
+	default:
+		a.SealValid, a.SealProblem = &ok, err.Error()
+	}
+	a.ExpiredStandards = s.ExpiredStandards()
+	if a.ExpiredStandards == nil {
+		a.ExpiredStandards = []session.StandardExpiry{}
+	}
+	ro, set, rp := s.RecordOptions(x)
+	a.RecordProblems = rp
+	if a.RecordProblems == nil {
+		a.RecordProblems = []string{}
+	}
+	for _, p := range set.Problems {
+		for i := range s.Unknowns {
+			if strings.HasPrefix(p, fmt.Sprintf("unknown %d ", i+1)) {
+				a.Session.Unknowns[i].Message = p
+			}
+		}
+	}
+	opt, err := ro.Normalize()
 	if err != nil {
 		a.AnalysisError = settingsError(err)
 		return a
@@ -100,11 +170,23 @@ func analyse(s *session.Session) sessionAnalysis {
 	rep, err := fitcore.Analyze(x, y, opt)
 	if err != nil {
 		a.AnalysisError = err.Error()
-	} else {
-		a.Report = rep
+		return a
+	}
+	a.Report = rep
+	for k, inv := range rep.Inverse {
+		u := &a.Session.Unknowns[set.Index[k]]
+		u.X, u.SE, u.Bounded, u.Message = fp(inv.X), fp(inv.SE), inv.Bounded, inv.Message
+		if inv.Bounded {
+			u.Low, u.High = fp(inv.Low), fp(inv.High)
+		}
+		if inv.UStandards > 0 {
+			u.SEFit, u.UStandards = fp(inv.SEFit), fp(inv.UStandards)
+		}
 	}
 	return a
 }
+
+func fp(v float64) *float64 { return &v }
 
 // countsOf is s.Count() from the pairing already made (Count pairs the
 // readings again, which at 250,000 readings costs tens of MB): a reading that
@@ -312,6 +394,10 @@ func sessionText(b *strings.Builder, i, n int, a *sessionAnalysis) {
 			inst += " (serial " + s.Instrument.Serial + ")"
 		}
 		field("instrument", term(inst))
+		field("asset ID", term(s.Instrument.ID))
+		if s.Instrument.IntervalDays > 0 {
+			field("interval", fmt.Sprintf("%d days", s.Instrument.IntervalDays))
+		}
 		field("operator", term(s.Operator))
 		field("x", nameUnit(s.XName, s.XUnit, "x"))
 		field("y", nameUnit(s.YName, s.YUnit, "y"))
@@ -335,6 +421,7 @@ func sessionText(b *strings.Builder, i, n int, a *sessionAnalysis) {
 		if len(s.History) > 0 {
 			w("  %-11s %d change(s), the last at %s\n", "history", len(s.History), when(s.History[len(s.History)-1].At))
 		}
+		recordText(b, a)
 		w("\n")
 		if a.Report == nil {
 			w("Analysis not possible: %s\n", longText(a.AnalysisError))
@@ -354,6 +441,7 @@ func sessionText(b *strings.Builder, i, n int, a *sessionAnalysis) {
 func ExportCSV(args []string, stdout, stderr io.Writer) int {
 	fs := newFlags("export-csv", stderr)
 	which := fs.String("session", "", "the session to export: its number (from 1) or its ID")
+	results := fs.Bool("results", false, "write the results table instead of the readings")
 	fs.Usage = func() { fmt.Fprint(fs.Output(), exportUsage); fs.PrintDefaults() }
 	path, code, ok := oneFile(fs, args)
 	if !ok {
@@ -386,6 +474,29 @@ func ExportCSV(args []string, stdout, stderr io.Writer) int {
 			return ExitUsage
 		}
 	}
+	if *results {
+		x, y, _, _ := s.Pairs()
+		opt, set, _ := s.RecordOptions(x)
+		rep, err := fitcore.Analyze(x, y, opt)
+		if err != nil {
+			fail(stderr, "export-csv", "the results of %s cannot be given: %v", quoted(s.Title), err)
+			return ExitFailure
+		}
+		var buf bytes.Buffer
+		if err := session.WriteResultsCSV(&buf, s, rep, set); err != nil {
+			fail(stderr, "export-csv", "%v", err)
+			return ExitFailure
+		}
+		text := buf.String()
+		if isTerminal(stdout) {
+			text = termLines(text)
+		}
+		if _, err := io.WriteString(stdout, text); err != nil {
+			fail(stderr, "export-csv", "%v", err)
+			return ExitFailure
+		}
+		return ExitOK
+	}
 	if err := writeReadings(stdout, s, isTerminal(stdout)); err != nil {
 		fail(stderr, "export-csv", "%v", err)
 		return ExitFailure
@@ -417,4 +528,76 @@ func isTerminal(w io.Writer) bool {
 	}
 	st, err := f.Stat()
 	return err == nil && st.Mode()&os.ModeCharDevice != 0
+}
+
+// recordText writes the calibration record of a session: conditions,
+// standards (with expiry), unknowns converted to x, and the seal.
+func recordText(b *strings.Builder, a *sessionAnalysis) {
+	w := func(format string, v ...any) { fmt.Fprintf(b, format, v...) }
+	s := a.Session.Session
+	for _, c := range s.Conditions {
+		w("  %-11s %s %s %s\n", "condition", term(c.Name), term(c.Value), term(c.Unit))
+	}
+	expired := map[int]session.StandardExpiry{}
+	for _, e := range a.ExpiredStandards {
+		expired[e.Index] = e
+	}
+	for i, st := range s.Standards {
+		line := fmt.Sprintf("%d: %s, certificate %s, value %s", i+1, quoted(st.Name), quoted(st.Certificate), quoted(st.Value))
+		if st.Uncertainty != "" {
+			line += ", standard uncertainty " + quoted(st.Uncertainty)
+		}
+		if !st.Expiry.IsZero() {
+			line += ", expires " + st.Expiry.UTC().Format("2006-01-02")
+		}
+		if e, ok := expired[i]; ok {
+			line += fmt.Sprintf(" - EXPIRED before the readings of %s; do not rely on this record until the lab's procedure allows it", e.Day.Format("2006-01-02"))
+		}
+		w("  %-11s %s\n", "standard", line)
+	}
+	xu := ""
+	if s.XUnit != "" {
+		xu = " " + term(s.XUnit)
+	}
+	for i, u := range a.Session.Unknowns {
+		line := fmt.Sprintf("%d: %s, %d reading(s)", i+1, quoted(u.Name), len(u.Readings))
+		if u.X != nil {
+			line += fmt.Sprintf(": x = %s%s, standard uncertainty %s", numfmt.Sig(*u.X, 6), xu, numfmt.Sig(*u.SE, 3))
+			if u.UStandards != nil {
+				line += fmt.Sprintf(" (fit %s, standards %s)", numfmt.Sig(*u.SEFit, 3), numfmt.Sig(*u.UStandards, 3))
+			}
+			if u.Low != nil {
+				line += fmt.Sprintf(", interval %s to %s", numfmt.Sig(*u.Low, 6), numfmt.Sig(*u.High, 6))
+			}
+		}
+		if u.Message != "" {
+			line += "; " + longText(u.Message)
+		}
+		w("  %-11s %s\n", "unknown", line)
+	}
+	for _, p := range a.RecordProblems {
+		if !strings.HasPrefix(p, "unknown ") {
+			w("  %-11s %s\n", "standards", longText(p))
+		}
+	}
+	if sl := s.Seal; sl != nil {
+		line := fmt.Sprintf("revision %d, performed by %s at %s", s.Revision, quoted(sl.PerformedBy), when(sl.PerformedAt))
+		if sl.ReviewedBy != "" {
+			line += fmt.Sprintf(", reviewed by %s at %s", quoted(sl.ReviewedBy), when(sl.ReviewedAt))
+		} else {
+			line += ", not reviewed"
+		}
+		w("  %-11s %s; digest %s\n", "seal", line, term(sl.Digest))
+	} else if s.Revision > 0 {
+		w("  %-11s revision %d, changed after revision %d was sealed and not signed again\n", "seal", s.Revision, s.Revision-1)
+	}
+	switch {
+	case a.SealValid != nil && *a.SealValid:
+		w("  %-11s valid: the digests match the content\n", "seal check")
+	case a.SealValid != nil:
+		w("  %-11s NOT VALID: %s\n", "seal check", longText(a.SealProblem))
+	}
+	if len(s.Sealed) > 0 {
+		w("  %-11s %d earlier sealed revision(s) kept\n", "revisions", len(s.Sealed))
+	}
 }

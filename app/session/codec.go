@@ -40,7 +40,7 @@ const (
 	// new minor version only adds map keys that older readers may skip; a
 	// new major version changes what existing keys mean.
 	FormatMajor = 1
-	FormatMinor = 0
+	FormatMinor = 1
 
 	headerSize   = 20
 	checksumSize = sha256.Size
@@ -129,12 +129,19 @@ func EncodeAppend(buf []byte, sessions []*Session) ([]byte, error) {
 		return nil, fmt.Errorf("%w: %d sessions, at most %d in one file", ErrTooLarge, len(sessions), MaxSessions)
 	}
 	seen := make(map[string]bool, len(sessions))
-	readings, history := 0, 0
+	readings, history, items, sealed := 0, 0, 0, 0
 	for i, s := range sessions {
 		if s == nil {
 			return nil, fmt.Errorf("sessions[%d]: %w", i, invalid("the session is missing"))
 		}
-		readings, history = readings+len(s.Readings), history+len(s.History)
+		readings, history = readings+s.fileReadings(), history+len(s.History)
+		items, sealed = items+s.fileItems(), sealed+len(s.Sealed)
+		if items > MaxFileItems {
+			return nil, fmt.Errorf("%w: the sessions hold %d conditions, standards, unknowns and readings of unknowns or more, at most %d fit in one file (export fewer sessions at a time)", ErrTooLarge, items, MaxFileItems)
+		}
+		if sealed > MaxFileSealedRevisions {
+			return nil, fmt.Errorf("%w: the sessions hold %d earlier sealed revisions or more, at most %d fit in one file (export fewer sessions at a time)", ErrTooLarge, sealed, MaxFileSealedRevisions)
+		}
 		if readings > MaxFileReadings {
 			return nil, fmt.Errorf("%w: the sessions hold %d readings or more, at most %d fit in one file (export fewer sessions at a time)", ErrTooLarge, readings, MaxFileReadings)
 		}
@@ -224,14 +231,54 @@ func encodedSizeHint(sessions []*Session) int {
 	n := headerSize + checksumSize + 64
 	for _, s := range sessions {
 		n += 1024 + len(s.Title) + len(s.Notes) + len(s.Site)
-		for i := range s.Readings {
-			r := &s.Readings[i]
-			n += 96 + len(r.X) + len(r.Y) + len(r.Note) + len(r.ExcludeReason)
+		n += readingsSizeHint(s.Readings)
+		for i := range s.Sealed {
+			n += 2048 + readingsSizeHint(s.Sealed[i].Readings) + len(s.Sealed[i].Results)
 		}
+		n += 64 * s.fileItems()
 		for i := range s.History {
 			h := &s.History[i]
 			n += 64 + len(h.Field) + len(h.Old) + len(h.New)
 		}
+	}
+	return n
+}
+
+func readingsSizeHint(rs []Reading) int {
+	n := 0
+	for i := range rs {
+		r := &rs[i]
+		n += 96 + len(r.X) + len(r.Y) + len(r.Note) + len(r.ExcludeReason)
+	}
+	return n
+}
+
+// fileReadings is the number of readings s holds, its earlier sealed
+// revisions' frozen readings included (MaxFileReadings counts them all).
+func (s *Session) fileReadings() int {
+	n := len(s.Readings)
+	for i := range s.Sealed {
+		n += len(s.Sealed[i].Readings)
+	}
+	return n
+}
+
+// fileItems is the number of conditions, standards, unknowns and readings
+// of unknowns s holds, its earlier sealed revisions included (for
+// MaxFileItems).
+func (s *Session) fileItems() int {
+	n := listItems(s.Conditions, s.Standards, s.Unknowns)
+	for i := range s.Sealed {
+		r := &s.Sealed[i]
+		n += listItems(r.Conditions, r.Standards, r.Unknowns)
+	}
+	return n
+}
+
+func listItems(c []Condition, st []Standard, u []Unknown) int {
+	n := len(c) + len(st) + len(u)
+	for i := range u {
+		n += len(u[i].Readings)
 	}
 	return n
 }
@@ -249,16 +296,14 @@ func encodeBundle(me *msgpack.Encoder, sessions []*Session) error {
 }
 
 func encodeSession(e *enc, s *Session) {
-	e.mapLen(17)
+	e.mapLen(23)
 	e.str("id", s.ID)
 	e.str("title", s.Title)
 	e.tm("created", s.Created)
 	e.tm("modified", s.Modified)
 	e.str("site", s.Site)
 	e.key("instrument")
-	e.mapLen(2)
-	e.str("description", s.Instrument.Description)
-	e.str("serial", s.Instrument.Serial)
+	encodeInstrument(e, &s.Instrument)
 	e.str("operator", s.Operator)
 	e.str("x_name", s.XName)
 	e.str("x_unit", s.XUnit)
@@ -266,25 +311,79 @@ func encodeSession(e *enc, s *Session) {
 	e.str("y_unit", s.YUnit)
 	e.str("notes", s.Notes)
 	e.key("decimal_comma")
-	if s.DecimalComma == nil {
-		e.keep(e.EncodeNil())
-	} else {
-		e.keep(e.EncodeBool(*s.DecimalComma))
-	}
+	encodeOptBool(e, s.DecimalComma)
 	e.key("location")
-	if l := s.Location; l == nil {
+	encodeLocation(e, s.Location)
+	e.key("readings")
+	encodeReadings(e, s.Readings)
+	e.key("settings")
+	encodeSettings(e, &s.Settings)
+	e.key("history")
+	e.keep(e.EncodeArrayLen(len(s.History)))
+	for i := range s.History {
+		h := &s.History[i]
+		e.mapLen(5)
+		e.tm("at", h.At)
+		e.str("field", h.Field)
+		e.key("row")
+		e.keep(e.EncodeInt(int64(h.Row)))
+		e.str("old", h.Old)
+		e.str("new", h.New)
+	}
+	e.key("conditions")
+	encodeConditions(e, s.Conditions)
+	e.key("standards")
+	encodeStandards(e, s.Standards)
+	e.key("unknowns")
+	encodeUnknowns(e, s.Unknowns)
+	e.key("seal")
+	if s.Seal == nil {
 		e.keep(e.EncodeNil())
 	} else {
-		e.mapLen(4)
-		e.f64("lat", l.Lat)
-		e.f64("lon", l.Lon)
-		e.f64("accuracy_m", l.AccuracyM)
-		e.tm("taken", l.Taken)
+		encodeSeal(e, s.Seal)
 	}
-	e.key("readings")
-	e.keep(e.EncodeArrayLen(len(s.Readings)))
-	for i := range s.Readings {
-		r := &s.Readings[i]
+	e.key("revision")
+	e.keep(e.EncodeInt(int64(s.Revision)))
+	e.key("sealed")
+	e.keep(e.EncodeArrayLen(len(s.Sealed)))
+	for i := range s.Sealed {
+		encodeSealedRevision(e, &s.Sealed[i])
+	}
+}
+
+func encodeInstrument(e *enc, in *Instrument) {
+	e.mapLen(4)
+	e.str("description", in.Description)
+	e.str("serial", in.Serial)
+	e.str("id", in.ID)
+	e.key("interval_days")
+	e.keep(e.EncodeInt(int64(in.IntervalDays)))
+}
+
+func encodeOptBool(e *enc, b *bool) {
+	if b == nil {
+		e.keep(e.EncodeNil())
+	} else {
+		e.keep(e.EncodeBool(*b))
+	}
+}
+
+func encodeLocation(e *enc, l *Location) {
+	if l == nil {
+		e.keep(e.EncodeNil())
+		return
+	}
+	e.mapLen(4)
+	e.f64("lat", l.Lat)
+	e.f64("lon", l.Lon)
+	e.f64("accuracy_m", l.AccuracyM)
+	e.tm("taken", l.Taken)
+}
+
+func encodeReadings(e *enc, rs []Reading) {
+	e.keep(e.EncodeArrayLen(len(rs)))
+	for i := range rs {
+		r := &rs[i]
 		e.mapLen(6)
 		e.str("x", r.X)
 		e.str("y", r.Y)
@@ -293,8 +392,9 @@ func encodeSession(e *enc, s *Session) {
 		e.boolean("excluded", r.Excluded)
 		e.str("exclude_reason", r.ExcludeReason)
 	}
-	e.key("settings")
-	st := &s.Settings
+}
+
+func encodeSettings(e *enc, st *Settings) {
 	e.mapLen(11)
 	e.str("model", string(st.Model))
 	e.str("transform", string(st.Transform))
@@ -319,18 +419,85 @@ func encodeSession(e *enc, s *Session) {
 		e.optF64("max_residual", a.MaxResidual)
 		e.boolean("max_residual_percent_of_span", a.MaxResidualPercentOfSpan)
 	}
-	e.key("history")
-	e.keep(e.EncodeArrayLen(len(s.History)))
-	for i := range s.History {
-		h := &s.History[i]
-		e.mapLen(5)
-		e.tm("at", h.At)
-		e.str("field", h.Field)
-		e.key("row")
-		e.keep(e.EncodeInt(int64(h.Row)))
-		e.str("old", h.Old)
-		e.str("new", h.New)
+}
+
+func encodeConditions(e *enc, cs []Condition) {
+	e.keep(e.EncodeArrayLen(len(cs)))
+	for i := range cs {
+		e.mapLen(3)
+		e.str("name", cs[i].Name)
+		e.str("value", cs[i].Value)
+		e.str("unit", cs[i].Unit)
 	}
+}
+
+func encodeStandards(e *enc, ss []Standard) {
+	e.keep(e.EncodeArrayLen(len(ss)))
+	for i := range ss {
+		st := &ss[i]
+		e.mapLen(5)
+		e.str("name", st.Name)
+		e.str("certificate", st.Certificate)
+		e.str("value", st.Value)
+		e.str("uncertainty", st.Uncertainty)
+		e.tm("expiry", st.Expiry)
+	}
+}
+
+func encodeUnknowns(e *enc, us []Unknown) {
+	e.keep(e.EncodeArrayLen(len(us)))
+	for i := range us {
+		u := &us[i]
+		e.mapLen(2)
+		e.str("name", u.Name)
+		e.key("readings")
+		e.keep(e.EncodeArrayLen(len(u.Readings)))
+		for _, r := range u.Readings {
+			e.keep(e.EncodeString(r))
+		}
+	}
+}
+
+func encodeSeal(e *enc, sl *Seal) {
+	e.mapLen(5)
+	e.str("performed_by", sl.PerformedBy)
+	e.tm("performed_at", sl.PerformedAt)
+	e.str("reviewed_by", sl.ReviewedBy)
+	e.tm("reviewed_at", sl.ReviewedAt)
+	e.str("digest", sl.Digest)
+}
+
+func encodeSealedRevision(e *enc, r *SealedRevision) {
+	e.mapLen(19)
+	e.key("revision")
+	e.keep(e.EncodeInt(int64(r.Revision)))
+	e.key("seal")
+	encodeSeal(e, &r.Seal)
+	e.str("title", r.Title)
+	e.str("site", r.Site)
+	e.key("instrument")
+	encodeInstrument(e, &r.Instrument)
+	e.str("operator", r.Operator)
+	e.str("x_name", r.XName)
+	e.str("x_unit", r.XUnit)
+	e.str("y_name", r.YName)
+	e.str("y_unit", r.YUnit)
+	e.str("notes", r.Notes)
+	e.key("decimal_comma")
+	encodeOptBool(e, r.DecimalComma)
+	e.key("location")
+	encodeLocation(e, r.Location)
+	e.key("readings")
+	encodeReadings(e, r.Readings)
+	e.key("settings")
+	encodeSettings(e, &r.Settings)
+	e.key("conditions")
+	encodeConditions(e, r.Conditions)
+	e.key("standards")
+	encodeStandards(e, r.Standards)
+	e.key("unknowns")
+	encodeUnknowns(e, r.Unknowns)
+	e.str("results", r.Results)
 }
 
 // Decode reads one session file. It reads at most MaxFileSize bytes and
@@ -454,8 +621,9 @@ func readAtMost(r io.Reader, want, guess int64) ([]byte, error) {
 }
 
 // migrate brings sessions read from an older minor version up to date.
-// Format 1.0 is the first version, so there is nothing to do yet; a future
-// 1.1 reader fills in here what 1.0 files lack.
+// A 1.0 file lacks the calibration record of 1.1, whose zero values (no
+// conditions, standards, unknowns or seal; revision 0) are what a 1.0
+// record means, so there is nothing to do yet.
 func migrate(f *File) {}
 
 func notSessionFile(b []byte) error {
@@ -481,8 +649,10 @@ type bodyDecoder struct {
 	b   []byte
 	pos int
 	// readings and history count the entries of all sessions so far, for
-	// MaxFileReadings and MaxFileHistory.
-	readings, history int
+	// MaxFileReadings and MaxFileHistory; listItems and sealed count the
+	// record lists and the earlier sealed revisions, for MaxFileItems and
+	// MaxFileSealedRevisions.
+	readings, history, listItems, sealed int
 }
 
 func newBodyDecoder(body []byte) *bodyDecoder { return &bodyDecoder{b: body} }
@@ -609,7 +779,7 @@ func (b *bodyDecoder) strBytes(field string, key bool, max int) ([]byte, *Format
 	return s, nil
 }
 
-// knownKeys holds every map key format 1.0 uses, so that reading a key
+// knownKeys holds every map key format 1.1 uses, so that reading a key
 // needs no new string (a lookup with string(bytes) does not allocate).
 var knownKeys = func() map[string]string {
 	m := map[string]string{}
@@ -619,7 +789,11 @@ var knownKeys = func() map[string]string {
 		"excluded", "exclude_reason", "at", "field", "row", "old", "new", "model", "transform", "box_cox_lambda",
 		"weights", "level", "slope_ref", "intercept_ref", "variance_ratio", "x_uncertainty", "y_uncertainty",
 		"acceptance", "min_r_squared", "slope_low", "slope_high", "intercept_low", "intercept_high",
-		"max_residual", "max_residual_percent_of_span"} {
+		"max_residual", "max_residual_percent_of_span",
+		// format 1.1
+		"interval_days", "conditions", "standards", "unknowns", "seal", "revision", "sealed", "name", "value",
+		"unit", "certificate", "uncertainty", "expiry", "performed_by", "performed_at", "reviewed_by",
+		"reviewed_at", "digest", "results"} {
 		m[k] = k
 	}
 	return m
@@ -1042,15 +1216,7 @@ func (b *bodyDecoder) session(field string, s *Session) *FormatError {
 		case "site":
 			return b.str(path, MaxShortText, &s.Site)
 		case "instrument":
-			return b.mapEach(path, func(k, p string) *FormatError {
-				switch k {
-				case "description":
-					return b.str(p, MaxShortText, &s.Instrument.Description)
-				case "serial":
-					return b.str(p, MaxShortText, &s.Instrument.Serial)
-				}
-				return b.skip(p, 0)
-			})
+			return b.instrument(path, &s.Instrument)
 		case "operator":
 			return b.str(path, MaxShortText, &s.Operator)
 		case "x_name":
@@ -1064,53 +1230,11 @@ func (b *bodyDecoder) session(field string, s *Session) *FormatError {
 		case "notes":
 			return b.str(path, MaxLongText, &s.Notes)
 		case "decimal_comma":
-			if b.takeNil() {
-				s.DecimalComma = nil
-				return nil
-			}
-			var v bool
-			if ferr := b.boolean(path, &v); ferr != nil {
-				return ferr
-			}
-			s.DecimalComma = &v
-			return nil
+			return b.optBool(path, &s.DecimalComma)
 		case "location":
-			if b.takeNil() {
-				s.Location = nil
-				return nil
-			}
-			l := new(Location)
-			s.Location = l
-			return b.mapEach(path, func(k, p string) *FormatError {
-				switch k {
-				case "lat":
-					return b.f64(p, &l.Lat)
-				case "lon":
-					return b.f64(p, &l.Lon)
-				case "accuracy_m":
-					return b.f64(p, &l.AccuracyM)
-				case "taken":
-					return b.tm(p, &l.Taken)
-				}
-				return b.skip(p, 0)
-			})
+			return b.location(path, &s.Location)
 		case "readings":
-			off := b.off()
-			n, ferr := b.arrayLen(path, MaxReadings, 1)
-			if ferr != nil {
-				return ferr
-			}
-			if b.readings += n; b.readings > MaxFileReadings {
-				return b.fail(off, path, fmt.Errorf("%w: the sessions hold more than %d readings in all", ErrTooLarge, MaxFileReadings))
-			}
-			s.Readings = make([]Reading, n)
-			for i := range s.Readings {
-				if ferr := b.reading("", &s.Readings[i]); ferr != nil {
-					ferr.Field = prefixIndex(i, ferr.Field)
-					return ferr
-				}
-			}
-			return nil
+			return b.readingList(path, &s.Readings)
 		case "settings":
 			return b.settings(path, &s.Settings)
 		case "history":
@@ -1130,8 +1254,319 @@ func (b *bodyDecoder) session(field string, s *Session) *FormatError {
 				}
 			}
 			return nil
+		case "conditions":
+			return b.conditions(path, &s.Conditions)
+		case "standards":
+			return b.standards(path, &s.Standards)
+		case "unknowns":
+			return b.unknowns(path, &s.Unknowns)
+		case "seal":
+			if b.takeNil() {
+				s.Seal = nil
+				return nil
+			}
+			s.Seal = new(Seal)
+			return b.seal(path, s.Seal)
+		case "revision":
+			return b.integer(path, 0, MaxRevision, &s.Revision)
+		case "sealed":
+			off := b.off()
+			n, ferr := b.arrayLen(path, MaxSealedRevisions, 1)
+			if ferr != nil {
+				return ferr
+			}
+			if b.sealed += n; b.sealed > MaxFileSealedRevisions {
+				return b.fail(off, path, fmt.Errorf("%w: the sessions hold more than %d earlier sealed revisions in all", ErrTooLarge, MaxFileSealedRevisions))
+			}
+			if n == 0 {
+				s.Sealed = nil
+				return nil
+			}
+			s.Sealed = make([]SealedRevision, n)
+			for i := range s.Sealed {
+				if ferr := b.sealedRevision("", &s.Sealed[i]); ferr != nil {
+					ferr.Field = prefixIndex(i, ferr.Field)
+					return ferr
+				}
+			}
+			return nil
 		}
 		return b.skip(path, 0)
+	})
+}
+
+func (b *bodyDecoder) instrument(field string, in *Instrument) *FormatError {
+	return b.mapEach(field, func(k, p string) *FormatError {
+		switch k {
+		case "description":
+			return b.str(p, MaxShortText, &in.Description)
+		case "serial":
+			return b.str(p, MaxShortText, &in.Serial)
+		case "id":
+			return b.str(p, MaxShortText, &in.ID)
+		case "interval_days":
+			return b.integer(p, 0, MaxIntervalDays, &in.IntervalDays)
+		}
+		return b.skip(p, 0)
+	})
+}
+
+func (b *bodyDecoder) optBool(field string, p **bool) *FormatError {
+	if b.takeNil() {
+		*p = nil
+		return nil
+	}
+	var v bool
+	if ferr := b.boolean(field, &v); ferr != nil {
+		return ferr
+	}
+	*p = &v
+	return nil
+}
+
+func (b *bodyDecoder) location(field string, p **Location) *FormatError {
+	if b.takeNil() {
+		*p = nil
+		return nil
+	}
+	l := new(Location)
+	*p = l
+	return b.mapEach(field, func(k, p string) *FormatError {
+		switch k {
+		case "lat":
+			return b.f64(p, &l.Lat)
+		case "lon":
+			return b.f64(p, &l.Lon)
+		case "accuracy_m":
+			return b.f64(p, &l.AccuracyM)
+		case "taken":
+			return b.tm(p, &l.Taken)
+		}
+		return b.skip(p, 0)
+	})
+}
+
+// readingList reads the readings of a session or of a sealed revision; all
+// of them count towards MaxFileReadings.
+func (b *bodyDecoder) readingList(path string, p *[]Reading) *FormatError {
+	off := b.off()
+	n, ferr := b.arrayLen(path, MaxReadings, 1)
+	if ferr != nil {
+		return ferr
+	}
+	if b.readings += n; b.readings > MaxFileReadings {
+		return b.fail(off, path, fmt.Errorf("%w: the sessions hold more than %d readings in all", ErrTooLarge, MaxFileReadings))
+	}
+	rs := make([]Reading, n)
+	*p = rs
+	for i := range rs {
+		if ferr := b.reading("", &rs[i]); ferr != nil {
+			ferr.Field = prefixIndex(i, ferr.Field)
+			return ferr
+		}
+	}
+	return nil
+}
+
+// items counts n more entries of the record lists (conditions, standards,
+// unknowns and the readings of unknowns) against MaxFileItems.
+func (b *bodyDecoder) items(off int64, path string, n int) *FormatError {
+	if b.listItems += n; b.listItems > MaxFileItems {
+		return b.fail(off, path, fmt.Errorf("%w: the sessions hold more than %d conditions, standards, unknowns and readings of unknowns in all", ErrTooLarge, MaxFileItems))
+	}
+	return nil
+}
+
+func (b *bodyDecoder) conditions(path string, p *[]Condition) *FormatError {
+	off := b.off()
+	n, ferr := b.arrayLen(path, MaxConditions, 1)
+	if ferr != nil {
+		return ferr
+	}
+	if ferr := b.items(off, path, n); ferr != nil {
+		return ferr
+	}
+	if n == 0 {
+		*p = nil // an empty list reads as nil, as a new record holds it
+		return nil
+	}
+	cs := make([]Condition, n)
+	*p = cs
+	for i := range cs {
+		c := &cs[i]
+		ferr := b.mapEach("", func(k, q string) *FormatError {
+			switch k {
+			case "name":
+				return b.str(q, MaxShortText, &c.Name)
+			case "value":
+				return b.str(q, MaxShortText, &c.Value)
+			case "unit":
+				return b.str(q, MaxShortText, &c.Unit)
+			}
+			return b.skip(q, 0)
+		})
+		if ferr != nil {
+			ferr.Field = prefixIndex(i, ferr.Field)
+			return ferr
+		}
+	}
+	return nil
+}
+
+func (b *bodyDecoder) standards(path string, p *[]Standard) *FormatError {
+	off := b.off()
+	n, ferr := b.arrayLen(path, MaxStandards, 1)
+	if ferr != nil {
+		return ferr
+	}
+	if ferr := b.items(off, path, n); ferr != nil {
+		return ferr
+	}
+	if n == 0 {
+		*p = nil // an empty list reads as nil, as a new record holds it
+		return nil
+	}
+	ss := make([]Standard, n)
+	*p = ss
+	for i := range ss {
+		st := &ss[i]
+		ferr := b.mapEach("", func(k, q string) *FormatError {
+			switch k {
+			case "name":
+				return b.str(q, MaxShortText, &st.Name)
+			case "certificate":
+				return b.str(q, MaxShortText, &st.Certificate)
+			case "value":
+				return b.str(q, MaxShortText, &st.Value)
+			case "uncertainty":
+				return b.str(q, MaxShortText, &st.Uncertainty)
+			case "expiry":
+				return b.tm(q, &st.Expiry)
+			}
+			return b.skip(q, 0)
+		})
+		if ferr != nil {
+			ferr.Field = prefixIndex(i, ferr.Field)
+			return ferr
+		}
+	}
+	return nil
+}
+
+func (b *bodyDecoder) unknowns(path string, p *[]Unknown) *FormatError {
+	off := b.off()
+	n, ferr := b.arrayLen(path, MaxUnknowns, 1)
+	if ferr != nil {
+		return ferr
+	}
+	if ferr := b.items(off, path, n); ferr != nil {
+		return ferr
+	}
+	if n == 0 {
+		*p = nil // an empty list reads as nil, as a new record holds it
+		return nil
+	}
+	us := make([]Unknown, n)
+	*p = us
+	for i := range us {
+		u := &us[i]
+		ferr := b.mapEach("", func(k, q string) *FormatError {
+			switch k {
+			case "name":
+				return b.str(q, MaxShortText, &u.Name)
+			case "readings":
+				roff := b.off()
+				m, ferr := b.arrayLen(q, MaxUnknownReadings, 1)
+				if ferr != nil {
+					return ferr
+				}
+				if ferr := b.items(roff, q, m); ferr != nil {
+					return ferr
+				}
+				if m == 0 {
+					u.Readings = nil
+					return nil
+				}
+				u.Readings = make([]string, m)
+				for j := range u.Readings {
+					if ferr := b.str("", MaxCellText, &u.Readings[j]); ferr != nil {
+						ferr.Field = prefixIndex(j, ferr.Field)
+						return ferr
+					}
+				}
+				return nil
+			}
+			return b.skip(q, 0)
+		})
+		if ferr != nil {
+			ferr.Field = prefixIndex(i, ferr.Field)
+			return ferr
+		}
+	}
+	return nil
+}
+
+func (b *bodyDecoder) seal(field string, sl *Seal) *FormatError {
+	return b.mapEach(field, func(k, p string) *FormatError {
+		switch k {
+		case "performed_by":
+			return b.str(p, MaxShortText, &sl.PerformedBy)
+		case "performed_at":
+			return b.tm(p, &sl.PerformedAt)
+		case "reviewed_by":
+			return b.str(p, MaxShortText, &sl.ReviewedBy)
+		case "reviewed_at":
+			return b.tm(p, &sl.ReviewedAt)
+		case "digest":
+			return b.str(p, MaxShortText, &sl.Digest)
+		}
+		return b.skip(p, 0)
+	})
+}
+
+func (b *bodyDecoder) sealedRevision(field string, r *SealedRevision) *FormatError {
+	return b.mapEach(field, func(k, p string) *FormatError {
+		switch k {
+		case "revision":
+			return b.integer(p, 0, MaxRevision, &r.Revision)
+		case "seal":
+			return b.seal(p, &r.Seal)
+		case "title":
+			return b.str(p, MaxShortText, &r.Title)
+		case "site":
+			return b.str(p, MaxShortText, &r.Site)
+		case "instrument":
+			return b.instrument(p, &r.Instrument)
+		case "operator":
+			return b.str(p, MaxShortText, &r.Operator)
+		case "x_name":
+			return b.str(p, MaxShortText, &r.XName)
+		case "x_unit":
+			return b.str(p, MaxShortText, &r.XUnit)
+		case "y_name":
+			return b.str(p, MaxShortText, &r.YName)
+		case "y_unit":
+			return b.str(p, MaxShortText, &r.YUnit)
+		case "notes":
+			return b.str(p, MaxLongText, &r.Notes)
+		case "decimal_comma":
+			return b.optBool(p, &r.DecimalComma)
+		case "location":
+			return b.location(p, &r.Location)
+		case "readings":
+			return b.readingList(p, &r.Readings)
+		case "settings":
+			return b.settings(p, &r.Settings)
+		case "conditions":
+			return b.conditions(p, &r.Conditions)
+		case "standards":
+			return b.standards(p, &r.Standards)
+		case "unknowns":
+			return b.unknowns(p, &r.Unknowns)
+		case "results":
+			return b.str(p, MaxLongText, &r.Results)
+		}
+		return b.skip(p, 0)
 	})
 }
 

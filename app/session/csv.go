@@ -41,6 +41,11 @@ type CSVOptions struct {
 	// then the added apostrophe is taken off again. nil detects it from the
 	// header row.
 	PairlineExport *bool
+	// UnitsRow says whether the row after the header holds the units of
+	// the columns (as loggers and spreadsheets write: "conductivity,reading"
+	// then "µS/cm,µS/cm"); nil detects it. Without a header there is no
+	// units row.
+	UnitsRow *bool
 }
 
 // SkippedRow is a data row that gave no reading, and why.
@@ -75,6 +80,26 @@ type CSVResult struct {
 	// taken after x and y); neutralised cells were then read back as written.
 	PairlineExport bool `json:"pairline_export"`
 	XCol, YCol     int  `json:"-"` // the columns used, from 0
+	// UnitsRow is true when the row after the header held the units of the
+	// columns; Units are its cells (nil without one).
+	UnitsRow bool     `json:"units_row"`
+	Units    []string `json:"units"`
+	// XName, XUnit, YName and YUnit are the names and units of the x and y
+	// columns as the file gives them (header cell, units row; for
+	// Pairline's own export the "name (unit)" of its header), trimmed;
+	// empty when the file gives none or the text is longer than
+	// MaxShortText. Import puts them into a session that has none.
+	XName string `json:"x_name"`
+	XUnit string `json:"x_unit"`
+	YName string `json:"y_name"`
+	YUnit string `json:"y_unit"`
+	// For Pairline's own export, the other columns of each reading,
+	// parallel to X and Y: note, excluded, exclude_reason and taken (nil
+	// for other files). Import restores them.
+	Notes    []string    `json:"-"`
+	Excluded []bool      `json:"-"`
+	Reasons  []string    `json:"-"`
+	Taken    []time.Time `json:"-"`
 	// Warnings are things worth a look: a file that was not UTF-8, columns
 	// that mix decimal commas and points.
 	Warnings []string `json:"warnings"`
@@ -143,7 +168,12 @@ var (
 //     vote); the majority wins, and a tie goes to the comma when the
 //     delimiter is ';', otherwise to the point.
 //   - Pairline's own export: the header row has x, y, note, excluded,
-//     exclude_reason and taken (as WriteReadingsCSV writes it).
+//     exclude_reason and taken (as WriteReadingsCSV writes it). Its notes,
+//     exclusions with their reasons and times are read back too.
+//   - Units row: the row after a header is a units row when it has a
+//     non-empty cell, no cell that is a number or longer than MaxUnitText
+//     bytes, and the row after it has more number cells than the header.
+//     Its cells are the units of the columns, not a reading.
 //
 // Rows whose cells are all empty count as Blank; rows without an x or y
 // cell count as Incomplete and are listed in Skipped. Errors are *CSVError.
@@ -564,6 +594,159 @@ func (s *csvScanner) countLines(part string) {
 	}
 }
 
+// MaxUnitText is the longest cell of a units row, in bytes: a row with a
+// longer cell is data (or a second header), not units.
+const MaxUnitText = 64
+
+// isUnitsRow: a non-empty cell, and no cell that is a number or longer
+// than MaxUnitText.
+func isUnitsRow(fields []string) bool {
+	any := false
+	for _, f := range fields {
+		if isBlank(f) {
+			continue
+		}
+		if isNumberCell(f) || len(f) > MaxUnitText {
+			return false
+		}
+		any = true
+	}
+	return any
+}
+
+// quantities fills XName … YUnit from the header and the units row.
+func (res *CSVResult) quantities() {
+	cell := func(row []string, c int) string {
+		if c < 0 || c >= len(row) {
+			return ""
+		}
+		v := strings.TrimSpace(row[c])
+		if len(v) > MaxShortText {
+			return ""
+		}
+		return v
+	}
+	if !res.HasHeader {
+		return
+	}
+	res.XName, res.YName = cell(res.Header, res.XCol), cell(res.Header, res.YCol)
+	if res.UnitsRow {
+		res.XUnit, res.YUnit = cell(res.Units, res.XCol), cell(res.Units, res.YCol)
+	} else if res.PairlineExport {
+		// WriteReadingsCSV titles the columns "name (unit)".
+		res.XName, res.XUnit = splitTitle(res.XName)
+		res.YName, res.YUnit = splitTitle(res.YName)
+	}
+}
+
+// splitTitle undoes columnTitle: "Standard (µS/cm)" is "Standard" and
+// "µS/cm"; a title without a final parenthesis is a name only. The default
+// names "x" and "y" columnTitle writes for a session without names are not
+// names.
+func splitTitle(t string) (name, unit string) {
+	if strings.HasSuffix(t, ")") {
+		if i := strings.LastIndex(t, " ("); i > 0 {
+			name, unit = t[:i], t[i+2:len(t)-1]
+		}
+	}
+	if name == "" {
+		name = t
+	}
+	if name == "x" || name == "y" {
+		name = ""
+	}
+	return name, unit
+}
+
+// exportExtras reads the note, excluded, exclude_reason and taken cells of
+// Pairline's own export, with the problems found in them.
+type exportExtras struct {
+	problems int
+	first    []string // the first few problems, in words
+}
+
+// maxListedProblems is the number of problems of an export's extra cells
+// named one by one in the warnings; the rest are counted.
+const maxListedProblems = 10
+
+func (ex *exportExtras) problem(line int, format string, a ...any) {
+	ex.problems++
+	if len(ex.first) < maxListedProblems {
+		ex.first = append(ex.first, fmt.Sprintf("line %d: ", line)+fmt.Sprintf(format, a...))
+	}
+}
+
+func (ex *exportExtras) add(res *CSVResult, fields []string, raw bool, line int) {
+	get := func(c int) string {
+		if c >= len(fields) {
+			return ""
+		}
+		f := fields[c]
+		if raw {
+			f = unraw(f)
+		}
+		return unneutralise(f)
+	}
+	note, exc, reason, taken := get(2), strings.TrimSpace(get(3)), get(4), strings.TrimSpace(get(5))
+	if len(note) > MaxNoteText {
+		ex.problem(line, "the note is %d bytes long; its first %d bytes were kept", len(note), MaxNoteText)
+		note = cutText(note, MaxNoteText)
+	}
+	if len(reason) > MaxShortText {
+		ex.problem(line, "the reason for leaving the reading out is %d bytes long; its first %d bytes were kept", len(reason), MaxShortText)
+		reason = cutText(reason, MaxShortText)
+	}
+	excluded := false
+	switch strings.ToLower(exc) {
+	case "yes":
+		excluded = true
+	case "", "no":
+	default:
+		ex.problem(line, "excluded is %q, not \"yes\" or empty; the reading was imported as used", truncate(exc, 40))
+	}
+	if excluded && strings.TrimSpace(reason) == "" {
+		reason = "left out in the imported file (no reason given)"
+	}
+	var tk time.Time
+	if taken != "" {
+		t, err := time.Parse(time.RFC3339Nano, taken)
+		if err != nil || checkTime(t, false) != nil {
+			ex.problem(line, "the time %q could not be read; the reading was imported without it", truncate(taken, 40))
+		} else {
+			tk = t.UTC()
+		}
+	}
+	if !excluded {
+		reason = ""
+	}
+	res.Notes = append(res.Notes, note)
+	res.Excluded = append(res.Excluded, excluded)
+	res.Reasons = append(res.Reasons, reason)
+	res.Taken = append(res.Taken, tk)
+}
+
+func (ex *exportExtras) warn(res *CSVResult) {
+	if ex.problems == 0 {
+		return
+	}
+	w := fmt.Sprintf("%d cell(s) of the notes, exclusions or times could not be taken as they are: %s", ex.problems, strings.Join(ex.first, "; "))
+	if ex.problems > len(ex.first) {
+		w += fmt.Sprintf("; and %d more", ex.problems-len(ex.first))
+	}
+	res.Warnings = append(res.Warnings, w+".")
+}
+
+// cutText is the first at most n bytes of s, ending on a whole character.
+func cutText(s string, n int) string {
+	if len(s) <= n {
+		return s
+	}
+	for n > 0 && !utf8.RuneStart(s[n]) {
+		n--
+	}
+	return s[:n]
+}
+
 func isBlankRow(fields []string) bool {
 	for _, f := range fields {
 		if !isBlank(f) {
@@ -595,13 +778,13 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 	}
 
 	// Pass 1.
-	var first, second []string
+	var first, second, third []string
 	firstLine := 0
 	var filled, nums []int // per column, over the rows after the first
 	rows := 0
 	sc := newCSVScanner(text, res.Delimiter)
 	for {
-		sc.raw = rows >= 2 // the first two rows are kept as they are read
+		sc.raw = rows >= 3 // the first three rows are kept as they are read
 		fields, line, cerr := sc.next()
 		if cerr != nil {
 			return nil, cerr
@@ -623,6 +806,8 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 			continue
 		case 2:
 			second = slices.Clone(fields)
+		case 3:
+			third = slices.Clone(fields)
 		}
 		for len(filled) < len(fields) {
 			filled, nums = append(filled, 0), append(nums, 0)
@@ -649,16 +834,40 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 		}
 		return n
 	}
+	hasText := false
+	for _, c := range first {
+		if !isBlank(c) && !isNumberCell(c) {
+			hasText = true
+		}
+	}
+	// A units row: text only, short cells, and numbers in the row after it.
+	looksUnits := rows >= 3 && isUnitsRow(second) && numbers(third) > numbers(first)
 	if opt.Header != nil {
 		res.HasHeader = *opt.Header
 	} else {
-		hasText := false
-		for _, c := range first {
-			if !isBlank(c) && !isNumberCell(c) {
-				hasText = true
+		res.HasHeader = hasText && (rows == 1 || numbers(second) > numbers(first) || looksUnits)
+	}
+	if res.HasHeader {
+		if opt.UnitsRow != nil {
+			res.UnitsRow = *opt.UnitsRow && rows >= 2
+		} else {
+			res.UnitsRow = looksUnits
+		}
+	}
+	if res.UnitsRow {
+		res.Units = second
+		// The units row was counted as data in pass 1.
+		for c, f := range second {
+			if c < len(filled) && !isBlank(f) {
+				filled[c]--
+				if isNumberCell(f) {
+					nums[c]--
+				}
 			}
 		}
-		res.HasHeader = hasText && (rows == 1 || numbers(second) > numbers(first))
+		if rows == 2 {
+			return nil, &CSVError{Line: firstLine, Err: fmt.Errorf("%w: there are only a header row and a units row", ErrCSVNoData)}
+		}
 	}
 	if res.HasHeader {
 		res.Header = first
@@ -724,11 +933,15 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 
 	// Pass 2: the rows again, split only as far as the columns used (and
 	// the preview) need.
+	var ex exportExtras
 	sc = newCSVScanner(text, res.Delimiter)
 	seen, pendingBlank, data := 0, 0, 0
 	for {
 		if len(res.Rows) >= PreviewRows {
 			sc.keep, sc.raw = max(xc, yc)+1, true
+			if res.PairlineExport {
+				sc.keep = max(sc.keep, 2+len(exportColumns))
+			}
 		}
 		empty, pos, posLine := sc.empty, sc.pos, sc.line
 		fields, line, cerr := sc.next()
@@ -756,7 +969,7 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 		seen++
 		res.Blank += pendingBlank
 		pendingBlank = 0
-		if seen == 1 && res.HasHeader {
+		if seen == 1 && res.HasHeader || seen == 2 && res.UnitsRow {
 			continue
 		}
 		if data++; data > MaxReadings {
@@ -800,7 +1013,12 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 		res.X = append(res.X, x)
 		res.Y = append(res.Y, y)
 		res.Lines = append(res.Lines, line)
+		if res.PairlineExport {
+			ex.add(res, fields, sc.raw, line)
+		}
 	}
+	ex.warn(res)
+	res.quantities()
 
 	if opt.DecimalComma != nil {
 		res.DecimalComma = *opt.DecimalComma
@@ -871,18 +1089,44 @@ func (s *Session) Import(res *CSVResult, now time.Time) (int, error) {
 			return 0, err
 		}
 	}
+	for _, f := range []struct{ name, cur, v string }{
+		{FieldXName, s.XName, res.XName}, {FieldXUnit, s.XUnit, res.XUnit},
+		{FieldYName, s.YName, res.YName}, {FieldYUnit, s.YUnit, res.YUnit},
+	} {
+		if f.cur == "" && f.v != "" && len(f.v) <= MaxShortText && utf8.ValidString(f.v) {
+			if err := s.SetField(f.name, f.v, now); err != nil {
+				return 0, err
+			}
+		}
+	}
 	if len(res.X) == 0 {
 		return 0, nil
 	}
+	s.beforeChange(now)
 	first := len(s.Readings)
 	taken := now.UTC()
+	extras := len(res.Notes) == len(res.X) && len(res.Excluded) == len(res.X) && len(res.Reasons) == len(res.X) && len(res.Taken) == len(res.X)
 	s.Readings = slices.Grow(s.Readings, len(res.X))
+	excluded := 0
 	for i := range res.X {
-		s.Readings = append(s.Readings, Reading{X: res.X[i], Y: res.Y[i], Taken: taken})
+		r := Reading{X: res.X[i], Y: res.Y[i], Taken: taken}
+		if extras {
+			r.Note, r.Excluded, r.ExcludeReason = res.Notes[i], res.Excluded[i], res.Reasons[i]
+			if !res.Taken[i].IsZero() {
+				r.Taken = res.Taken[i]
+			}
+			if r.Excluded {
+				excluded++
+			}
+		}
+		s.Readings = append(s.Readings, r)
 	}
 	what := fmt.Sprintf("%d readings (rows %d–%d)", len(res.X), first+1, len(s.Readings))
 	if len(res.Lines) == len(res.X) {
 		what += fmt.Sprintf(" from lines %d–%d", res.Lines[0], res.Lines[len(res.Lines)-1])
+	}
+	if extras {
+		what += fmt.Sprintf(", with their notes and times, %d left out with their reasons", excluded)
 	}
 	s.record(now, EditImport, -1, "", what)
 	return len(res.X), nil
@@ -917,6 +1161,7 @@ func (s *Session) PasteRows(start int, xs, ys []string, now time.Time) (int, err
 	if i == len(xs) {
 		return 0, nil
 	}
+	s.beforeChange(now)
 	first := len(s.Readings)
 	taken := now.UTC()
 	s.Readings = slices.Grow(s.Readings, len(xs)-i)

@@ -163,25 +163,124 @@ func TestWriteReadRoundTrip(t *testing.T) {
 	if res.Rows[3][3] != "yes" || res.Rows[3][4] != s.Readings[3].ExcludeReason {
 		t.Errorf("exclusion %q", res.Rows[3])
 	}
-	// The imported texts make the same pairs in a new session.
+	// Re-importing Pairline's own export restores the readings as they
+	// were: cells, notes, exclusions with their reasons, times, and the
+	// names and units of x and y.
 	s2, _ := New("re-import (invented)", time.Date(2025, 3, 15, 0, 0, 0, 0, time.UTC), &counter{})
 	if _, err := s2.Import(res, time.Date(2025, 3, 15, 0, 0, 0, 0, time.UTC)); err != nil {
 		t.Fatal(err)
 	}
-	if n := len(s2.History); n != 2 || s2.History[1].Field != "import" || !strings.Contains(s2.History[1].New, "readings (rows 1–") {
-		t.Errorf("an import is one history entry (after the decimal-comma choice); got %+v", s2.History)
+	var fields []string
+	for _, e := range s2.History {
+		fields = append(fields, e.Field)
 	}
-	x1, y1, _, _ := ParsedPairs(res)
+	if want := []string{FieldDecimalComma, FieldXName, FieldXUnit, FieldYName, FieldYUnit, EditImport}; !reflect.DeepEqual(fields, want) ||
+		!strings.Contains(s2.History[5].New, "1 left out with their reasons") {
+		t.Errorf("history %q (%+v); want %q", fields, s2.History, want)
+	}
+	if s2.XName != s.XName || s2.XUnit != s.XUnit || s2.YName != s.YName || s2.YUnit != s.YUnit {
+		t.Errorf("names and units %q %q %q %q; want %q %q %q %q", s2.XName, s2.XUnit, s2.YName, s2.YUnit, s.XName, s.XUnit, s.YName, s.YUnit)
+	}
+	var want []Reading
+	for _, r := range s.Readings {
+		if r.X != "" && r.Y != "" {
+			want = append(want, r)
+		}
+	}
+	if !reflect.DeepEqual(s2.Readings, want) {
+		t.Errorf("re-imported readings\n%+v\nwant\n%+v", s2.Readings, want)
+	}
+	x1, y1, _, _ := s.Pairs()
 	x2, y2, _, _ := s2.Pairs()
-	if !reflect.DeepEqual(x1, x2) || !reflect.DeepEqual(y1, y2) {
-		t.Errorf("CSV pairs %v %v, session pairs %v %v", x1, y1, x2, y2)
+	if !reflect.DeepEqual(x1[:len(x2)], x2) || !reflect.DeepEqual(y1[:len(y2)], y2) {
+		t.Errorf("session pairs %v %v, re-imported %v %v", x1, y1, x2, y2)
+	}
+}
+
+// TestUnitsRow: a header followed by a units row gives the quantities'
+// names and units, not two readings that are not numbers.
+func TestUnitsRow(t *testing.T) {
+	no := false
+	tests := []struct {
+		name, text                 string
+		opt                        CSVOptions
+		units                      bool
+		xName, xUnit, yName, yUnit string
+		n                          int
+	}{
+		{"logger", "conductivity,reading\nµS/cm,µS/cm\n84,85.9\n147,146.1\n", CSVOptions{}, true, "conductivity", "µS/cm", "reading", "µS/cm", 2},
+		{"semicolons, one unit empty", "Temp;Count\n°C;\n21,5;3\n22,0;4\n", CSVOptions{}, true, "Temp", "°C", "Count", "", 2},
+		{"three columns: the first two numeric", "time,x,y\ns,m,kg\n0,1,2\n1,2,4\n", CSVOptions{}, true, "time", "s", "x", "m", 2},
+		{"no units row", "x,y\n1,2\n3,4\n", CSVOptions{}, false, "x", "", "y", "", 2},
+		{"a text data row is not units", "x,y\nabc,def\n1,2\n", CSVOptions{UnitsRow: &no}, false, "x", "", "y", "", 2},
+		{"long cell: not units", "x,y\n" + strings.Repeat("u", MaxUnitText+1) + ",m\n1,2\n3,4\n", CSVOptions{}, false, "", "", "", "", 4},
+	}
+	for _, tc := range tests {
+		res, err := ReadCSV(strings.NewReader(tc.text), tc.opt)
+		if err != nil {
+			t.Fatalf("%s: %v", tc.name, err)
+		}
+		if res.UnitsRow != tc.units || len(res.X) != tc.n {
+			t.Errorf("%s: units row %v, %d readings (%q); want %v, %d", tc.name, res.UnitsRow, len(res.X), res.X, tc.units, tc.n)
+			continue
+		}
+		if tc.xName != "" && (res.XName != tc.xName || res.XUnit != tc.xUnit || res.YName != tc.yName || res.YUnit != tc.yUnit) {
+			t.Errorf("%s: %q %q %q %q", tc.name, res.XName, res.XUnit, res.YName, res.YUnit)
+		}
+	}
+	// Into a session: the names and units are set (recorded) when it has
+	// none, kept when it has them.
+	res, err := ReadCSV(strings.NewReader(tests[0].text), CSVOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, _ := New("units (invented)", t0, &counter{})
+	if err := s.SetField(FieldYName, "Meter", t0); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := s.Import(res, t0); err != nil {
+		t.Fatal(err)
+	}
+	if s.XName != "conductivity" || s.XUnit != "µS/cm" || s.YName != "Meter" || s.YUnit != "µS/cm" || len(s.Readings) != 2 {
+		t.Errorf("session %q %q %q %q, %d readings", s.XName, s.XUnit, s.YName, s.YUnit, len(s.Readings))
+	}
+}
+
+// TestExportExtrasProblems: cells of Pairline's export that cannot be
+// taken as they are give a warning naming the line, never a silent change.
+func TestExportExtrasProblems(t *testing.T) {
+	text := "x,y,note,excluded,exclude_reason,taken\n" +
+		"1,2,,yes,,2025-03-14T08:40:00Z\n" +
+		"3,4,,maybe,,not a time\n" +
+		"5,6," + strings.Repeat("n", MaxNoteText+10) + ",,,\n"
+	res, err := ReadCSV(strings.NewReader(text), CSVOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !res.PairlineExport || len(res.Notes) != 3 {
+		t.Fatalf("export %v, %d notes", res.PairlineExport, len(res.Notes))
+	}
+	if !res.Excluded[0] || res.Reasons[0] == "" || !res.Taken[0].Equal(time.Date(2025, 3, 14, 8, 40, 0, 0, time.UTC)) {
+		t.Errorf("row 1: excluded %v reason %q taken %v", res.Excluded[0], res.Reasons[0], res.Taken[0])
+	}
+	if res.Excluded[1] || !res.Taken[1].IsZero() || len(res.Notes[2]) != MaxNoteText {
+		t.Errorf("rows 2, 3: %v %v %d", res.Excluded[1], res.Taken[1], len(res.Notes[2]))
+	}
+	w := strings.Join(res.Warnings, " ")
+	for _, want := range []string{"3 cell(s)", "line 3: excluded is \"maybe\"", "line 3: the time \"not a time\"", "line 4: the note is"} {
+		if !strings.Contains(w, want) {
+			t.Errorf("warnings %q do not say %q", w, want)
+		}
 	}
 }
 
 func FuzzReadCSV(f *testing.F) {
 	for _, s := range []string{"x,y\n1,2\n3,4\n", "\ufeffa;b\r\n1,5;2,5\r\n", "1\t2\n\"3\"\t\"4\n", "", "\xff\xfe1\x00", ",,,\n\n1",
 		"x,y\r1,2\r3,4\r", "a;b\r\n\"1\"\"\";2\r\n", "\"x\ry\",1\n2,3\n", strings.Repeat(",", MaxCSVFields+1),
-		"x,y,note,excluded,exclude_reason,taken\n\"'=1\",2,,,,\n3,4,,,,\n"} {
+		"x,y,note,excluded,exclude_reason,taken\n\"'=1\",2,,,,\n3,4,,,,\n",
+		// Units rows and the extra columns of Pairline's export.
+		"conductivity,reading\nµS/cm,µS/cm\n84,85.9\n147,146.1\n", "a;b\n°C;\n1;2\n", "a,b\nm,s\n",
+		"x (m),y (s),note,excluded,exclude_reason,taken\n1,2,\"n\"\"q\",yes,,2025-03-14T08:40:00Z\n3,4,,maybe,,not a time\n"} {
 		f.Add([]byte(s))
 	}
 	f.Fuzz(func(t *testing.T, b []byte) {
@@ -202,6 +301,18 @@ func FuzzReadCSV(f *testing.F) {
 		for _, c := range res.NumericColumns {
 			if c < 0 || c >= res.Width {
 				t.Fatalf("numeric column %d of %d", c, res.Width)
+			}
+		}
+		if res.PairlineExport && (len(res.Notes) != len(res.X) || len(res.Excluded) != len(res.X) || len(res.Reasons) != len(res.X) || len(res.Taken) != len(res.X)) {
+			t.Fatalf("the extra columns of an export do not match the readings: %d readings, %d %d %d %d", len(res.X), len(res.Notes), len(res.Excluded), len(res.Reasons), len(res.Taken))
+		}
+		if res.UnitsRow && !res.HasHeader {
+			t.Fatal("a units row without a header")
+		}
+		s, _ := New("fuzz", time.Date(2025, 1, 1, 0, 0, 0, 0, time.UTC), &counter{})
+		if _, err := s.Import(res, time.Date(2025, 1, 1, 0, 0, 0, 0, time.UTC)); err == nil {
+			if err := s.Validate(); err != nil {
+				t.Fatalf("an imported session does not validate: %v", err)
 			}
 		}
 		x, y, _, _ := ParsedPairs(res)

@@ -53,12 +53,111 @@ type Session struct {
 	Readings     []Reading `json:"readings"`
 	Settings     Settings  `json:"settings"`
 	History      []Edit    `json:"history"` // append-only
+	// Conditions are the conditions the readings were taken in (format 1.1);
+	// the temperature is the one named ConditionTemperature.
+	Conditions []Condition `json:"conditions"`
+	// Standards are the reference standards whose certified values are the
+	// known x values (format 1.1).
+	Standards []Standard `json:"standards"`
+	// Unknowns are samples measured against the fitted line, converted
+	// from y readings to x by inverse prediction (format 1.1).
+	Unknowns []Unknown `json:"unknowns"`
+	// Seal is the signature of the current revision; nil = not sealed.
+	Seal *Seal `json:"seal"`
+	// Revision is the number of the current revision: 0 for a record never
+	// sealed, 1 once it is sealed for the first time, and one more each
+	// time a sealed record is changed (see Sealed).
+	Revision int `json:"revision"`
+	// Sealed holds the earlier sealed revisions, oldest first, frozen as
+	// they were sealed, so that a record changed after its seal still shows
+	// what was signed.
+	Sealed []SealedRevision `json:"sealed"`
 }
 
 // Instrument identifies the instrument whose readings are recorded.
 type Instrument struct {
 	Description string `json:"description"`
 	Serial      string `json:"serial"`
+	// ID is the owner's identifier of the instrument, e.g. its asset tag
+	// (format 1.1).
+	ID string `json:"id"`
+	// IntervalDays is the calibration interval in days; 0 = not set
+	// (format 1.1).
+	IntervalDays int `json:"interval_days"`
+}
+
+// ConditionTemperature is the Name of the Condition that holds the
+// temperature the readings were taken at.
+const ConditionTemperature = "temperature"
+
+// Condition is one condition of the readings, as typed: for example
+// {"temperature", "21.4", "°C"} or {"humidity", "45", "%"}.
+type Condition struct {
+	Name  string `json:"name"`
+	Value string `json:"value"`
+	Unit  string `json:"unit"`
+}
+
+// Standard is one reference standard (a certified reference material, a
+// buffer lot, a reference weight). Value and Uncertainty are kept as typed;
+// a reading whose x equals the parsed Value (exact numeric equality) is a
+// reading of this standard (see StandardUncertainties).
+type Standard struct {
+	Name        string `json:"name"` // standard name or lot
+	Certificate string `json:"certificate"`
+	Value       string `json:"value"`       // certified value as typed, in x units
+	Uncertainty string `json:"uncertainty"` // standard uncertainty as typed, in x units
+	// Expiry is the last day the certificate is valid, a UTC date
+	// (midnight); zero = not given.
+	Expiry time.Time `json:"expiry"`
+}
+
+// Unknown is a sample measured with the instrument: its y readings as
+// typed, converted to x through the fitted line.
+type Unknown struct {
+	Name     string   `json:"name"`
+	Readings []string `json:"readings"` // y readings as typed
+}
+
+// Seal is the signature of one revision of a record. PerformedBy signs that
+// the calibration was done as recorded (this seals the record); ReviewedBy,
+// possibly later, signs the review. Digest is the SHA-256 of the sealed
+// content (SealDigest), as 64 lowercase hex digits; it covers both
+// signatures given so far.
+type Seal struct {
+	PerformedBy string    `json:"performed_by"`
+	PerformedAt time.Time `json:"performed_at"` // UTC
+	ReviewedBy  string    `json:"reviewed_by"`  // "" = not reviewed yet
+	ReviewedAt  time.Time `json:"reviewed_at"`  // UTC; zero = not reviewed yet
+	Digest      string    `json:"digest"`
+}
+
+// SealedRevision is an earlier sealed revision of a record, kept readable
+// after the record was changed: the revision number, its seal and the
+// content the seal's digest covers, frozen.
+type SealedRevision struct {
+	Revision     int         `json:"revision"`
+	Seal         Seal        `json:"seal"`
+	Title        string      `json:"title"`
+	Site         string      `json:"site"`
+	Instrument   Instrument  `json:"instrument"`
+	Operator     string      `json:"operator"`
+	XName        string      `json:"x_name"`
+	XUnit        string      `json:"x_unit"`
+	YName        string      `json:"y_name"`
+	YUnit        string      `json:"y_unit"`
+	Notes        string      `json:"notes"`
+	DecimalComma *bool       `json:"decimal_comma"`
+	Location     *Location   `json:"location"`
+	Readings     []Reading   `json:"readings"`
+	Settings     Settings    `json:"settings"`
+	Conditions   []Condition `json:"conditions"`
+	Standards    []Standard  `json:"standards"`
+	Unknowns     []Unknown   `json:"unknowns"`
+	// Results is the summary of the results as they were when the record
+	// was sealed (the line, its verdicts), in words; the numbers can be
+	// computed again from the frozen content.
+	Results string `json:"results"`
 }
 
 // Location is where the readings were taken, as reported by the device.
@@ -140,12 +239,34 @@ const (
 	EditSettings = "settings"
 	// EditLocation: where the readings were taken changed.
 	EditLocation = "location"
+	// EditCondition, EditStandard and EditUnknown: a condition, a standard
+	// or an unknown was added, changed or removed. Row is −1; New says in
+	// words what happened ("standard 2 certificate set to C-2231",
+	// "condition 1 added: temperature 21.4 °C", "unknown 3 removed") and
+	// Old what it was before ("standard 2 certificate was C-2230", or "").
+	EditCondition = "condition"
+	EditStandard  = "standard"
+	EditUnknown   = "unknown"
+	// EditSealed: the record was sealed (signed "performed by"); New names
+	// who signed, the revision and the digest in words, Row is −1.
+	EditSealed = "sealed"
+	// EditReviewed: the review signature was added to the seal; New names
+	// who signed, the revision and the new digest in words.
+	EditReviewed = "reviewed"
+	// EditRevision: a sealed record was changed, so a new revision began.
+	// Old and New are the revision numbers before and after, as decimal
+	// digits; Row is −1. The entries after it say what changed since the
+	// seal.
+	EditRevision = "revision"
 )
 
-// Restore makes s hold state: its readings, metadata, decimal-comma choice,
-// location and settings (state is an earlier or a later copy of the same
-// session, as undo and redo keep them; its ID, Created and History are not
-// used). s keeps its ID, Created and every history entry: the history is
+// Restore makes s hold state: its readings, metadata (the instrument's ID
+// and interval included), decimal-comma choice, location, settings,
+// conditions, standards and unknowns (state is an earlier or a later copy
+// of the same session, as undo and redo keep them; its ID, Created,
+// History, Seal, Revision and Sealed are not used: a signature is never
+// undone, and restoring a sealed record starts a new revision like any
+// change). s keeps its ID, Created and every history entry: the history is
 // evidence and is only appended to. It gets one entry, field (FieldUndo or
 // FieldRedo), whose New is what (the change undone or redone, in words),
 // and, when the number of readings changes, a FieldRows entry with the
@@ -164,6 +285,12 @@ func (s *Session) Restore(state *Session, field, what string, now time.Time) err
 	if f, err := state.Settings.validate(); err != nil {
 		return fmt.Errorf("%w: settings %s %v", ErrBadValue, f, err)
 	}
+	if f, err := validateLists(state.Conditions, state.Standards, state.Unknowns); err != nil {
+		return fmt.Errorf("%w: %s %v", ErrBadValue, f, err)
+	}
+	if f, err := state.Instrument.validate(); err != nil {
+		return fmt.Errorf("%w: instrument.%s %v", ErrBadValue, f, err)
+	}
 	if len(what) > MaxLongText {
 		n := MaxLongText
 		for n > 0 && !utf8.RuneStart(what[n]) {
@@ -171,6 +298,7 @@ func (s *Session) Restore(state *Session, field, what string, now time.Time) err
 		}
 		what = what[:n]
 	}
+	s.beforeChange(now)
 	before := len(s.Readings)
 	s.Title, s.Site, s.Instrument, s.Operator = state.Title, state.Site, state.Instrument, state.Operator
 	s.XName, s.XUnit, s.YName, s.YUnit, s.Notes = state.XName, state.XUnit, state.YName, state.YUnit, state.Notes
@@ -186,6 +314,9 @@ func (s *Session) Restore(state *Session, field, what string, now time.Time) err
 	}
 	s.Readings = append(s.Readings[:0:0], state.Readings...)
 	s.Settings = state.Settings.clone()
+	s.Conditions = cloneConditions(state.Conditions)
+	s.Standards = cloneStandards(state.Standards)
+	s.Unknowns = cloneUnknowns(state.Unknowns)
 	s.record(now, field, -1, "", what)
 	if after := len(s.Readings); after != before {
 		s.record(now, FieldRows, -1, strconv.Itoa(before), strconv.Itoa(after))
@@ -249,6 +380,11 @@ const (
 	FieldYUnit        = "y_unit"
 	FieldNotes        = "notes"
 	FieldDecimalComma = "decimal_comma" // "true", "false" or "" (undecided)
+	// FieldInstrumentID is the instrument's identifier (Instrument.ID).
+	FieldInstrumentID = "instrument_id"
+	// FieldIntervalDays is the calibration interval (Instrument.IntervalDays),
+	// given as decimal digits ("" or "0" = not set).
+	FieldIntervalDays = "interval_days"
 )
 
 // DefaultSettings are the settings of a new session: an unweighted ordinary
@@ -325,6 +461,7 @@ func isCellField(field string) bool {
 // AddRow appends a reading with the given cell texts and returns its index.
 // The history gets a "row" edit and one edit per non-empty cell.
 func (s *Session) AddRow(x, y string, now time.Time) int {
+	s.beforeChange(now)
 	i := len(s.Readings)
 	s.Readings = append(s.Readings, Reading{Taken: now.UTC()})
 	s.record(now, EditRowAdded, i, "", "added")
@@ -360,6 +497,7 @@ func (s *Session) SetCell(row int, col Column, text string, now time.Time) error
 	if *p == text {
 		return nil
 	}
+	s.beforeChange(now)
 	old := *p
 	*p = text
 	s.record(now, col.String(), row, old, text)
@@ -378,6 +516,9 @@ func (s *Session) Exclude(row int, reason string, now time.Time) error {
 		return fmt.Errorf("%w: give a reason for leaving out row %d", ErrBadValue, row+1)
 	}
 	r := &s.Readings[row]
+	if !r.Excluded || r.ExcludeReason != reason {
+		s.beforeChange(now)
+	}
 	if !r.Excluded {
 		r.Excluded = true
 		s.record(now, EditExcluded, row, "false", "true")
@@ -400,6 +541,7 @@ func (s *Session) Include(row int, now time.Time) error {
 	if !r.Excluded {
 		return nil
 	}
+	s.beforeChange(now)
 	r.Excluded = false
 	s.record(now, EditExcluded, row, "true", "false")
 	if r.ExcludeReason != "" {
@@ -413,6 +555,24 @@ func (s *Session) Include(row int, now time.Time) error {
 // SetField sets one metadata field by name (the Field… constants). Setting
 // the value it already has records nothing.
 func (s *Session) SetField(name, value string, now time.Time) error {
+	if name == FieldIntervalDays {
+		n := 0
+		if value != "" {
+			v, err := strconv.Atoi(value)
+			if err != nil || v < 0 || v > MaxIntervalDays {
+				return fmt.Errorf("%w: the calibration interval must be a whole number of days from 0 to %d, not %q", ErrBadValue, MaxIntervalDays, value)
+			}
+			n = v
+		}
+		if n == s.Instrument.IntervalDays {
+			return nil
+		}
+		s.beforeChange(now)
+		old := strconv.Itoa(s.Instrument.IntervalDays)
+		s.Instrument.IntervalDays = n
+		s.record(now, name, -1, old, strconv.Itoa(n))
+		return nil
+	}
 	if name == FieldDecimalComma {
 		var nv *bool
 		switch value {
@@ -427,6 +587,7 @@ func (s *Session) SetField(name, value string, now time.Time) error {
 		if old == value {
 			return nil
 		}
+		s.beforeChange(now)
 		s.DecimalComma = nv
 		s.record(now, name, -1, old, value)
 		return nil
@@ -441,6 +602,8 @@ func (s *Session) SetField(name, value string, now time.Time) error {
 		p = &s.Instrument.Description
 	case FieldSerial:
 		p = &s.Instrument.Serial
+	case FieldInstrumentID:
+		p = &s.Instrument.ID
 	case FieldOperator:
 		p = &s.Operator
 	case FieldXName:
@@ -459,6 +622,7 @@ func (s *Session) SetField(name, value string, now time.Time) error {
 	if *p == value {
 		return nil
 	}
+	s.beforeChange(now)
 	old := *p
 	*p = value
 	s.record(now, name, -1, old, value)
@@ -486,6 +650,7 @@ func (s *Session) SetLocation(loc *Location, now time.Time) error {
 	if old == new {
 		return nil
 	}
+	s.beforeChange(now)
 	s.Location = loc
 	s.record(now, EditLocation, -1, old, new)
 	return nil
@@ -512,6 +677,7 @@ func (s *Session) SetSettings(st Settings, now time.Time) error {
 	if old == new {
 		return nil
 	}
+	s.beforeChange(now)
 	s.Settings = st
 	s.record(now, EditSettings, -1, old, new)
 	return nil

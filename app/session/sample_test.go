@@ -77,6 +77,30 @@ func sampleSessions(t testing.TB) []*Session {
 	s.AddRow("5000", "", at(23))
 	must(s.SetSettings(Settings{Model: "ols", Transform: "none", Level: 0.95, SlopeRef: fptr(1), InterceptRef: fptr(0),
 		Acceptance: &fitcoreCriteriaSample}, at(24)))
+	// The calibration record (format 1.1): invented asset tag, standards,
+	// certificates, lots and uncertainties.
+	must(s.SetField(FieldInstrumentID, "LVWB-A-1187 (invented)", at(25)))
+	must(s.SetField(FieldIntervalDays, "182", at(25)))
+	_, err = s.AddCondition(Condition{Name: ConditionTemperature, Value: "24.8", Unit: "°C"}, at(25))
+	must(err)
+	_, err = s.AddCondition(Condition{Name: "humidity", Value: "41", Unit: "%"}, at(25))
+	must(err)
+	for _, st := range []Standard{
+		{Name: "KCl 84 lot 7731 (invented)", Certificate: "C-2230 (invented)", Value: "84", Uncertainty: "0.42", Expiry: time.Date(2025, 9, 30, 0, 0, 0, 0, time.UTC)},
+		{Name: "KCl 1413 lot 7740 (invented)", Certificate: "C-2231 (invented)", Value: "1413", Uncertainty: "7", Expiry: time.Date(2025, 2, 28, 0, 0, 0, 0, time.UTC)},
+		{Name: "KCl 2764 lot 7752 (invented)", Certificate: "C-2232 (invented)", Value: "2764", Uncertainty: "14"},
+	} {
+		_, err = s.AddStandard(st, at(26))
+		must(err)
+	}
+	_, err = s.AddUnknown(Unknown{Name: "Heron Ford raw water, bottle 3 (invented)", Readings: []string{"612", "615,5", "611"}}, at(27))
+	must(err)
+	must(s.SignPerformed("A. Marsh (invented)", at(28)))
+	must(s.SignReviewed("R. Okafor (invented)", at(40)))
+	// A change after the seal starts revision 2, signed again.
+	must(s.SetStandard(1, Standard{Name: "KCl 1413 lot 7740 (invented)", Certificate: "C-2231 rev. B (invented)", Value: "1413", Uncertainty: "7",
+		Expiry: time.Date(2025, 2, 28, 0, 0, 0, 0, time.UTC)}, at(45)))
+	must(s.SignPerformed("A. Marsh (invented)", at(46)))
 
 	s2, err := New("Gauge height against flow, Heron Ford weir (invented)", at(60), rnd)
 	if err != nil {

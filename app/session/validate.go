@@ -54,7 +54,7 @@ const (
 	// in bytes; longer text is "too long to be a reading".
 	MaxNumberText = 256
 	// MaxMapKeys is the most keys one MessagePack map of a session file
-	// holds. Format 1.0 uses at most 17; the rest is room for keys a newer
+	// holds. Format 1.1 uses at most 23; the rest is room for keys a newer
 	// minor version adds.
 	MaxMapKeys = 256
 	// MaxKeyLen is the longest map key of a session file, in bytes.
@@ -75,6 +75,31 @@ const (
 	// time; up to a day of that is accepted, more is refused as a record
 	// that cannot be right.
 	ModifiedSkew = 24 * time.Hour
+	// MaxIntervalDays is the longest calibration interval, in days (about
+	// 100 years).
+	MaxIntervalDays = 36_525
+	// MaxConditions is the most conditions one record holds.
+	MaxConditions = 100
+	// MaxStandards is the most standards one record holds.
+	MaxStandards = 1000
+	// MaxUnknowns is the most unknowns one record holds.
+	MaxUnknowns = 1000
+	// MaxUnknownReadings is the most readings one unknown holds.
+	MaxUnknownReadings = 1000
+	// MaxSealedRevisions is the most earlier sealed revisions one record
+	// keeps. Each holds a frozen copy of the readings, so their readings
+	// count towards MaxFileReadings.
+	MaxSealedRevisions = 100
+	// MaxFileSealedRevisions is the most earlier sealed revisions all the
+	// sessions of one file hold together.
+	MaxFileSealedRevisions = 10_000
+	// MaxFileItems is the most conditions, standards, unknowns and readings
+	// of unknowns all the sessions of one file (their sealed revisions
+	// included) hold together. Without it the per-record limits multiply
+	// (an empty standard takes one byte of a file).
+	MaxFileItems = 1_000_000
+	// MaxRevision is the highest revision number.
+	MaxRevision = 1_000_000
 )
 
 // The range of times a session may hold. Zero times mean "not recorded"
@@ -178,6 +203,28 @@ func (s *Session) validate() (string, error) {
 	if err := checkText(s.Notes, MaxLongText); err != nil {
 		return "notes", err
 	}
+	if f, err := s.Instrument.validate(); err != nil {
+		return "instrument." + f, err
+	}
+	if f, err := validateLists(s.Conditions, s.Standards, s.Unknowns); err != nil {
+		return f, err
+	}
+	if s.Seal != nil {
+		if f, err := s.Seal.validate(); err != nil {
+			return "seal." + f, err
+		}
+	}
+	if s.Revision < 0 || s.Revision > MaxRevision {
+		return "revision", invalid("the revision %d is not a whole number from 0 to %d", s.Revision, MaxRevision)
+	}
+	if len(s.Sealed) > MaxSealedRevisions {
+		return "sealed", fmt.Errorf("%w: %d earlier sealed revisions, at most %d allowed", ErrTooLarge, len(s.Sealed), MaxSealedRevisions)
+	}
+	for i := range s.Sealed {
+		if f, err := s.Sealed[i].validate(); err != nil {
+			return fmt.Sprintf("sealed[%d].%s", i, f), err
+		}
+	}
 	if err := checkTime(s.Created, true); err != nil {
 		return "created", err
 	}
@@ -231,6 +278,131 @@ func (s *Session) validate() (string, error) {
 		}
 	}
 	return "", nil
+}
+
+// Validation checks the limits and the form of the record fields only. It
+// does not check a seal's digest: a file whose content no longer matches
+// its seal must still open, so that the office sees that it was changed
+// (VerifySeal says so and why).
+
+func (in *Instrument) validate() (string, error) {
+	if err := checkText(in.ID, MaxShortText); err != nil {
+		return "id", err
+	}
+	if in.IntervalDays < 0 || in.IntervalDays > MaxIntervalDays {
+		return "interval_days", invalid("the calibration interval %d is not a whole number of days from 0 to %d", in.IntervalDays, MaxIntervalDays)
+	}
+	return "", nil
+}
+
+func validateLists(cs []Condition, ss []Standard, us []Unknown) (string, error) {
+	if len(cs) > MaxConditions {
+		return "conditions", fmt.Errorf("%w: %d conditions, at most %d allowed", ErrTooLarge, len(cs), MaxConditions)
+	}
+	for i, c := range cs {
+		for _, f := range []struct{ name, v string }{{"name", c.Name}, {"value", c.Value}, {"unit", c.Unit}} {
+			if err := checkText(f.v, MaxShortText); err != nil {
+				return fmt.Sprintf("conditions[%d].%s", i, f.name), err
+			}
+		}
+	}
+	if len(ss) > MaxStandards {
+		return "standards", fmt.Errorf("%w: %d standards, at most %d allowed", ErrTooLarge, len(ss), MaxStandards)
+	}
+	for i, st := range ss {
+		for _, f := range []struct{ name, v string }{{"name", st.Name}, {"certificate", st.Certificate}, {"value", st.Value}, {"uncertainty", st.Uncertainty}} {
+			if err := checkText(f.v, MaxShortText); err != nil {
+				return fmt.Sprintf("standards[%d].%s", i, f.name), err
+			}
+		}
+		if err := checkTime(st.Expiry, false); err != nil {
+			return fmt.Sprintf("standards[%d].expiry", i), err
+		}
+	}
+	if len(us) > MaxUnknowns {
+		return "unknowns", fmt.Errorf("%w: %d unknowns, at most %d allowed", ErrTooLarge, len(us), MaxUnknowns)
+	}
+	for i, u := range us {
+		if err := checkText(u.Name, MaxShortText); err != nil {
+			return fmt.Sprintf("unknowns[%d].name", i), err
+		}
+		if len(u.Readings) > MaxUnknownReadings {
+			return fmt.Sprintf("unknowns[%d].readings", i), fmt.Errorf("%w: %d readings, at most %d allowed", ErrTooLarge, len(u.Readings), MaxUnknownReadings)
+		}
+		for j, r := range u.Readings {
+			if err := checkText(r, MaxCellText); err != nil {
+				return fmt.Sprintf("unknowns[%d].readings[%d]", i, j), err
+			}
+		}
+	}
+	return "", nil
+}
+
+func (sl *Seal) validate() (string, error) {
+	if err := checkText(sl.PerformedBy, MaxShortText); err != nil {
+		return "performed_by", err
+	}
+	if err := checkTime(sl.PerformedAt, false); err != nil {
+		return "performed_at", err
+	}
+	if err := checkText(sl.ReviewedBy, MaxShortText); err != nil {
+		return "reviewed_by", err
+	}
+	if err := checkTime(sl.ReviewedAt, false); err != nil {
+		return "reviewed_at", err
+	}
+	if err := checkText(sl.Digest, MaxShortText); err != nil {
+		return "digest", err
+	}
+	return "", nil
+}
+
+func (r *SealedRevision) validate() (string, error) {
+	if r.Revision < 0 || r.Revision > MaxRevision {
+		return "revision", invalid("the revision %d is not a whole number from 0 to %d", r.Revision, MaxRevision)
+	}
+	if f, err := r.Seal.validate(); err != nil {
+		return "seal." + f, err
+	}
+	short := []struct {
+		name string
+		v    string
+	}{
+		{"title", r.Title}, {"site", r.Site}, {"instrument.description", r.Instrument.Description},
+		{"instrument.serial", r.Instrument.Serial}, {"operator", r.Operator}, {"x_name", r.XName},
+		{"x_unit", r.XUnit}, {"y_name", r.YName}, {"y_unit", r.YUnit},
+	}
+	for _, f := range short {
+		if err := checkText(f.v, MaxShortText); err != nil {
+			return f.name, err
+		}
+	}
+	if err := checkText(r.Notes, MaxLongText); err != nil {
+		return "notes", err
+	}
+	if err := checkText(r.Results, MaxLongText); err != nil {
+		return "results", err
+	}
+	if f, err := r.Instrument.validate(); err != nil {
+		return "instrument." + f, err
+	}
+	if r.Location != nil {
+		if f, err := r.Location.validate(); err != nil {
+			return "location." + f, err
+		}
+	}
+	if len(r.Readings) > MaxReadings {
+		return "readings", fmt.Errorf("%w: %d readings, at most %d allowed", ErrTooLarge, len(r.Readings), MaxReadings)
+	}
+	for i := range r.Readings {
+		if f, err := r.Readings[i].validate(); err != nil {
+			return fmt.Sprintf("readings[%d].%s", i, f), err
+		}
+	}
+	if f, err := r.Settings.validate(); err != nil {
+		return "settings." + f, err
+	}
+	return validateLists(r.Conditions, r.Standards, r.Unknowns)
 }
 
 // rowCounts reads the counts of a FieldRows entry.
