@@ -150,11 +150,16 @@ func TestHistoryTextAndCSV(t *testing.T) {
 	}
 }
 
-// BenchmarkHistory1000 reads 1,008 generated files (28 years of the
-// invented scenario) with the command's two workers.
-func BenchmarkHistory1000(b *testing.B) {
+// BenchmarkHistory1000 reads 1,008 generated files (the invented
+// scenario with 84 instruments, one session per file) with the command's two workers.
+func BenchmarkHistory1000(b *testing.B) { benchHistory(b, 28) }
+
+// BenchmarkHistory10000 reads 10,080 generated files (840 instruments).
+func BenchmarkHistory10000(b *testing.B) { benchHistory(b, 280) }
+
+func benchHistory(b *testing.B, years int) {
 	dir := b.TempDir()
-	writeScenario(b, dir, 28)
+	writeScenario(b, dir, years)
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
 		var out, errb bytes.Buffer

@@ -35,7 +35,8 @@ var ScenarioInstruments = []ScenarioInstrument{
 // session, y = 0.5 + b·x + step + N(0, 0.15²), b = 1.5 + drift·month. All
 // data are INVENTED (the fictional Larkwater Valley Water Board). Equal
 // seeds give equal sessions; the IDs come from the seeded generator too.
-// copies > 1 repeats the year for benchmarks with new IDs and later dates.
+// copies > 1 adds, for benchmarks, copies of the three instruments with
+// keys suffixed "-2", "-3", … and their own seeded readings.
 func Scenario(seed uint64, start time.Time, copies int) ([]*session.Session, error) {
 	r := rand.New(rand.NewPCG(seed, 0x4c56574221))
 	var out []*session.Session
@@ -43,15 +44,19 @@ func Scenario(seed uint64, start time.Time, copies int) ([]*session.Session, err
 	for c := 0; c < max(1, copies); c++ {
 		for _, in := range ScenarioInstruments {
 			for m := 0; m < 12; m++ {
-				day := start.AddDate(c, m, 0).UTC()
-				s, err := session.New(fmt.Sprintf("Monthly check %s, month %d (invented)", in.ID, m+1), day, seededReader{r})
+				day := start.AddDate(0, m, 0).UTC()
+				id := in.ID
+				if c > 0 {
+					id = fmt.Sprintf("%s-%d", in.ID, c+1)
+				}
+				s, err := session.New(fmt.Sprintf("Monthly check %s, month %d (invented)", id, m+1), day, seededReader{r})
 				if err != nil {
 					return nil, err
 				}
 				for _, f := range [][2]string{
 					{session.FieldSite, "Larkwater Valley Water Board (invented)"},
 					{session.FieldInstrument, in.Description},
-					{session.FieldInstrumentID, in.ID},
+					{session.FieldInstrumentID, id},
 					{session.FieldIntervalDays, "35"},
 					{session.FieldOperator, "A. Technician (invented)"},
 				} {
