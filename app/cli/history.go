@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"io/fs"
+	"math"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -33,7 +34,8 @@ const (
 	historyProgressGap = 200 * time.Millisecond
 )
 
-const historyUsage = `Usage: pairline history [--json|--csv] [--instrument ID] [--interval DAYS] FILE|DIR...
+const historyUsage = `Usage: pairline history [--json|--csv] [--instrument ID] [--interval DAYS]
+       [--slope-limits LOW,HIGH] [--intercept-limits LOW,HIGH] FILE|DIR...
 
 Follow each instrument through its calibration records: every session in the
 files (folders are searched for *.pairline files, recursively) is fitted with
@@ -57,6 +59,8 @@ func History(args []string, stdout, stderr io.Writer) int {
 	asCSV := fset.Bool("csv", false, "print one CSV row per session")
 	only := fset.String("instrument", "", "show only the instrument with this ID (or serial, or description)")
 	interval := fset.Int("interval", 0, "calibration interval in days when a record gives none (1 to 36500)")
+	slopeLim := fset.String("slope-limits", "", "LOW,HIGH limits of the slope for the projected day of leaving them (either may be empty)")
+	icptLim := fset.String("intercept-limits", "", "LOW,HIGH limits of the intercept, as --slope-limits")
 	fset.Usage = func() {
 		fmt.Fprint(fset.Output(), historyUsage)
 		fset.PrintDefaults()
@@ -73,6 +77,16 @@ func History(args []string, stdout, stderr io.Writer) int {
 	}
 	if *interval < 0 || *interval > MaxIntervalDays {
 		fail(stderr, "history", "--interval must be between 1 and %d days, not %d", MaxIntervalDays, *interval)
+		return ExitUsage
+	}
+	opt := history.Options{Now: time.Now().UTC(), DefaultIntervalDays: *interval}
+	var err error
+	if opt.SlopeLow, opt.SlopeHigh, err = limitPair(*slopeLim); err != nil {
+		fail(stderr, "history", "--slope-limits: %v", err)
+		return ExitUsage
+	}
+	if opt.InterceptLow, opt.InterceptHigh, err = limitPair(*icptLim); err != nil {
+		fail(stderr, "history", "--intercept-limits: %v", err)
 		return ExitUsage
 	}
 	if fset.NArg() == 0 {
@@ -96,7 +110,7 @@ func History(args []string, stdout, stderr io.Writer) int {
 		}
 		sums = keep
 	}
-	ins, err := history.Build(sums, history.Options{Now: time.Now().UTC(), DefaultIntervalDays: *interval})
+	ins, err := history.Build(sums, opt)
 	if err != nil {
 		fail(stderr, "history", "%v", err)
 		return ExitUsage
@@ -119,6 +133,33 @@ func History(args []string, stdout, stderr io.Writer) int {
 		}
 	}
 	return ExitOK
+}
+
+// limitPair reads "LOW,HIGH" (either part may be empty; "" = no limits).
+func limitPair(s string) (low, high *float64, err error) {
+	if s == "" {
+		return nil, nil, nil
+	}
+	parts := strings.Split(s, ",")
+	if len(parts) != 2 {
+		return nil, nil, fmt.Errorf("give LOW,HIGH (either may be empty), not %s", quoted(s))
+	}
+	var out [2]*float64
+	for i, p := range parts {
+		p = strings.TrimSpace(p)
+		if p == "" {
+			continue
+		}
+		v, err := strconv.ParseFloat(p, 64)
+		if err != nil || math.IsNaN(v) || math.Abs(v) > fitcore.MaxMagnitude {
+			return nil, nil, fmt.Errorf("%s is not a number within ±%g", quoted(p), fitcore.MaxMagnitude)
+		}
+		out[i] = &v
+	}
+	if out[0] != nil && out[1] != nil && !(*out[0] < *out[1]) {
+		return nil, nil, fmt.Errorf("LOW must be below HIGH in %s", quoted(s))
+	}
+	return out[0], out[1], nil
 }
 
 // skippedFile is a file history could not use.

@@ -168,3 +168,48 @@ func benchHistory(b *testing.B, years int) {
 		}
 	}
 }
+
+// TestHistoryLimits: with a lower slope limit of 1.40 the drifting analyser
+// (generated slope 1.5 − 0.048/year) is projected to leave it after its
+// last calibration, about two years after the first (1.5 − 1.40)/0.048 ≈
+// 2.1 years, by construction of the scenario); the stable meter is not.
+func TestHistoryLimits(t *testing.T) {
+	dir := t.TempDir()
+	writeScenario(t, dir, 1)
+	var out, errb bytes.Buffer
+	if code := Main([]string{"history", "--json", "--slope-limits", "1.40,", dir}, nil, &out, &errb); code != ExitOK {
+		t.Fatalf("exit %d: %s", code, errb.String())
+	}
+	var got struct {
+		Instruments []struct {
+			ID    string `json:"id"`
+			Drift struct {
+				Leaves *string `json:"leaves_limits"`
+			} `json:"drift"`
+		} `json:"instruments"`
+	}
+	if err := json.Unmarshal(out.Bytes(), &got); err != nil {
+		t.Fatal(err)
+	}
+	for _, in := range got.Instruments {
+		switch in.ID {
+		case "LVWB-CL-02":
+			if in.Drift.Leaves == nil {
+				t.Fatal("drifting: no projected day")
+			}
+			d, err := time.Parse("2006-01-02", *in.Drift.Leaves)
+			if err != nil || d.Before(time.Date(2026, 6, 1, 0, 0, 0, 0, time.UTC)) || d.After(time.Date(2027, 8, 1, 0, 0, 0, 0, time.UTC)) {
+				t.Errorf("drifting: leaves %s, want about 2027-02", *in.Drift.Leaves)
+			}
+		case "LVWB-TB-01":
+			if in.Drift.Leaves != nil {
+				t.Errorf("stable: leaves %s", *in.Drift.Leaves)
+			}
+		}
+	}
+	for _, bad := range []string{"1,2,3", "x,", "2,1"} {
+		if code := Main([]string{"history", "--slope-limits", bad, dir}, nil, &out, &errb); code != ExitUsage {
+			t.Errorf("--slope-limits %q: exit %d", bad, code)
+		}
+	}
+}

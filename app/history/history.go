@@ -139,7 +139,8 @@ type Instrument struct {
 	SlopeDrift, InterceptDrift *fitcore.DriftResult
 	Origin                     time.Time // t = 0 of the drift
 	// LeavesAt is the projected day the first of slope/intercept leaves its
-	// limit (zero = not projected), and LeavesWhich names it.
+	// limit (zero = not projected), and LeavesWhich names it; only a trend
+	// with Status fitcore.DriftDrifting is projected.
 	LeavesAt    time.Time
 	LeavesWhich string
 	Due         time.Time // last accepted calibration + interval; zero = unknown
@@ -260,7 +261,9 @@ func build(g []Summary, opt Options) (Instrument, error) {
 		name string
 		r    *fitcore.DriftResult
 	}{{"slope", in.SlopeDrift}, {"intercept", in.InterceptDrift}} {
-		if d.r.Leaves == nil {
+		// Projected only for a trend that is significant (DriftDrifting):
+		// a flat trend with a slight slope would give a far, meaningless day.
+		if d.r.Leaves == nil || d.r.Status != fitcore.DriftDrifting {
 			continue
 		}
 		at := in.Origin.Add(Duration(d.r.Leaves.At))
