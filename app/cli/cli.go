@@ -28,6 +28,13 @@ Usage:
   pairline export-csv [--session N|ID] FILE
       Write the readings of a .pairline session file as CSV (the first
       session, or the one chosen by number from 1 or by ID).
+  pairline history [--json|--csv] [--instrument ID] [--interval DAYS] FILE|DIR...
+      Follow each instrument through its calibration records: changes
+      against the previous accepted calibration, drift, next due date.
+  pairline new [--title T] [--site S] [--instrument D] [--serial N] [--id ID]
+      [--operator O] [--taken DATE] [--x-name ... --x-unit ... --y-name ...
+      --y-unit ...] FILE.csv -o OUT.pairline
+      Make a session file from a CSV file of readings.
   pairline help
       Show this text.
 `
@@ -64,6 +71,12 @@ var commands = map[string]func(args []string, stdin io.Reader, stdout, stderr io
 	},
 	"export-csv": func(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 		return ExportCSV(args, stdout, stderr)
+	},
+	"new": func(args []string, _ io.Reader, stdout, stderr io.Writer) int {
+		return New(args, stdout, stderr)
+	},
+	"history": func(args []string, _ io.Reader, stdout, stderr io.Writer) int {
+		return History(args, stdout, stderr)
 	},
 }
 

@@ -1,0 +1,304 @@
+// Package history follows one instrument through its calibration records:
+// it groups sessions by instrument (session.InstrumentKey), orders them by
+// the day the readings were taken, compares each calibration with the
+// previous accepted one (fitcore.CompareLines), fits the drift of slope and
+// intercept over time (fitcore.Drift) and says when the next calibration is
+// due. It computes no statistics itself; it is pure Go, so the native
+// command and the browser share it.
+package history
+
+import (
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"sort"
+	"strings"
+	"time"
+
+	"pairline/app/session"
+	"pairline/fitcore"
+)
+
+// MaxSessions is the largest number of session summaries Build accepts;
+// its cost is O(n log n) for the ordering and linear otherwise.
+const MaxSessions = 200_000
+
+// Session verdicts.
+const (
+	Accepted    = "accepted"
+	NotAccepted = "not accepted"
+	NoFit       = "no line" // too few usable readings for a line
+	Superseded  = "earlier revision"
+)
+
+// Summary is what history keeps of one session: enough to compare lines
+// and fit the drift, without the rest of the record.
+type Summary struct {
+	ID           string
+	Key          string // session.InstrumentKey
+	Title        string
+	Site         string
+	Revision     int
+	Modified     time.Time
+	Taken        time.Time // session.ReadingsDay
+	IntervalDays int
+	Digest       string // SHA-256 of the session's encoding: same ID and digest = same content
+
+	Fitted                 bool
+	Slope, SlopeSE         float64
+	Intercept, InterceptSE float64
+	Accepted               bool
+	Reason                 string // why the line is not accepted or not fitted
+	X, Y                   []float64
+}
+
+// Summarize fits one session with its own settings and keeps its summary.
+// Accepted is the acceptance verdict when the settings have criteria
+// (fitcore Report.Acceptance), else "no assumption failed" (no
+// Assumptions verdict is fitcore.Fail).
+func Summarize(s *session.Session) (Summary, error) {
+	if s == nil {
+		return Summary{}, errors.New("history: no session")
+	}
+	b, err := session.EncodeBytes([]*session.Session{s})
+	if err != nil {
+		return Summary{}, fmt.Errorf("history: session %s: %w", s.ID, err)
+	}
+	h := sha256.Sum256(b)
+	d := hex.EncodeToString(h[:])
+	sum := Summary{
+		ID: s.ID, Key: session.InstrumentKey(s.Instrument), Title: s.Title, Site: s.Site,
+		Revision: s.Revision, Modified: s.Modified, Taken: s.ReadingsDay(),
+		IntervalDays: s.Instrument.IntervalDays, Digest: d,
+	}
+	x, y, _, _ := s.Pairs()
+	rep, err := fitcore.Analyze(x, y, s.Settings.Options())
+	if err != nil {
+		sum.Reason = err.Error()
+		return sum, nil
+	}
+	sum.Fitted = true
+	sum.Slope, sum.SlopeSE = rep.Slope.Estimate, rep.Slope.SE
+	sum.Intercept, sum.InterceptSE = rep.Intercept.Estimate, rep.Intercept.SE
+	sum.X, sum.Y = x, y
+	switch {
+	case rep.Acceptance != nil:
+		sum.Accepted = rep.Acceptance.Pass
+		if !sum.Accepted {
+			sum.Reason = "acceptance criteria not met: " + rep.Acceptance.Summary
+		}
+	default:
+		sum.Accepted = true
+		a := rep.Assumptions
+		for _, as := range []struct {
+			name string
+			a    fitcore.Assumption
+		}{{"linearity", a.Linearity}, {"spread", a.Spread}, {"independence", a.Independence}, {"normality", a.Normality}, {"influence", a.Influence}} {
+			if as.a.Verdict == fitcore.Fail {
+				sum.Accepted = false
+				sum.Reason = "the " + as.name + " check failed"
+				break
+			}
+		}
+	}
+	return sum, nil
+}
+
+// Options are the caller's choices for Build.
+type Options struct {
+	Now                 time.Time // for Overdue
+	DefaultIntervalDays int       // used when the records give no interval; 0 = no due date
+	Level               float64   // of the drift intervals; 0 = fitcore's default
+	// Limits on slope and intercept for the projected date of leaving
+	// them; nil = none.
+	SlopeLow, SlopeHigh, InterceptLow, InterceptHigh *float64
+}
+
+// Entry is one session of an instrument's history.
+type Entry struct {
+	Summary
+	Verdict string // Accepted, NotAccepted, NoFit or Superseded
+}
+
+// Change is the comparison of an accepted calibration with the previous
+// accepted one.
+type Change struct {
+	Session, Previous string
+	*fitcore.LineComparison
+}
+
+// Instrument is the history of one instrument.
+type Instrument struct {
+	Key        string
+	Entries    []Entry // by Taken, then ID
+	Duplicates int     // the same session given more than once, counted once
+	Changes    []Change
+	// SlopeDrift and InterceptDrift are fitted over the accepted sessions,
+	// with t in years since the first of them.
+	SlopeDrift, InterceptDrift *fitcore.DriftResult
+	Origin                     time.Time // t = 0 of the drift
+	// LeavesAt is the projected day the first of slope/intercept leaves its
+	// limit (zero = not projected), and LeavesWhich names it; only a trend
+	// with Status fitcore.DriftDrifting is projected.
+	LeavesAt    time.Time
+	LeavesWhich string
+	Due         time.Time // last accepted calibration + interval; zero = unknown
+	Overdue     bool
+}
+
+// Build groups the summaries by instrument and computes each history.
+// Sessions that name no instrument are grouped under the key "".
+func Build(sums []Summary, opt Options) ([]Instrument, error) {
+	if len(sums) > MaxSessions {
+		return nil, fmt.Errorf("history: at most %d sessions", MaxSessions)
+	}
+	groups := map[string][]Summary{}
+	var keys []string
+	for _, s := range sums {
+		k := strings.ToLower(strings.TrimSpace(s.Key))
+		if _, ok := groups[k]; !ok {
+			keys = append(keys, k)
+		}
+		groups[k] = append(groups[k], s)
+	}
+	sort.Strings(keys)
+	out := make([]Instrument, 0, len(keys))
+	for _, k := range keys {
+		in, err := build(groups[k], opt)
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, in)
+	}
+	return out, nil
+}
+
+func build(g []Summary, opt Options) (Instrument, error) {
+	in := Instrument{Key: strings.TrimSpace(g[0].Key)}
+	// Dedupe: same ID and digest = one; same ID with other content = the
+	// highest revision (then latest Modified) counts, the others are kept
+	// apart as earlier revisions.
+	byID := map[string]int{}
+	seen := map[string]bool{}
+	var entries []Entry
+	for _, s := range g {
+		if seen[s.ID+"\x00"+s.Digest] {
+			in.Duplicates++
+			continue
+		}
+		seen[s.ID+"\x00"+s.Digest] = true
+		e := Entry{Summary: s, Verdict: verdictOf(s)}
+		if j, ok := byID[s.ID]; ok {
+			cur := &entries[j]
+			if s.Revision > cur.Revision || s.Revision == cur.Revision && s.Modified.After(cur.Modified) {
+				cur.Verdict = Superseded
+				byID[s.ID] = len(entries)
+			} else {
+				e.Verdict = Superseded
+			}
+		} else {
+			byID[s.ID] = len(entries)
+		}
+		entries = append(entries, e)
+	}
+	sort.SliceStable(entries, func(i, j int) bool {
+		a, b := entries[i], entries[j]
+		if !a.Taken.Equal(b.Taken) {
+			return a.Taken.Before(b.Taken)
+		}
+		if a.ID != b.ID {
+			return a.ID < b.ID
+		}
+		return a.Revision < b.Revision
+	})
+	in.Entries = entries
+	var prev *Entry
+	var acc []*Entry
+	interval := opt.DefaultIntervalDays
+	for i := range entries {
+		e := &entries[i]
+		if e.Verdict == Superseded {
+			continue
+		}
+		if e.IntervalDays > 0 {
+			interval = e.IntervalDays
+		}
+		if e.Verdict != Accepted {
+			continue
+		}
+		if prev != nil {
+			c, err := fitcore.CompareLines(prev.X, prev.Y, e.X, e.Y)
+			if err == nil {
+				in.Changes = append(in.Changes, Change{Session: e.ID, Previous: prev.ID, LineComparison: c})
+			}
+		}
+		prev = e
+		acc = append(acc, e)
+	}
+	if len(acc) > 0 {
+		in.Origin = acc[0].Taken
+		if interval > 0 {
+			in.Due = acc[len(acc)-1].Taken.AddDate(0, 0, interval)
+			in.Overdue = !opt.Now.IsZero() && opt.Now.After(in.Due)
+		}
+	}
+	t := make([]float64, len(acc))
+	sl, sls := make([]float64, len(acc)), make([]float64, len(acc))
+	ic, ics := make([]float64, len(acc)), make([]float64, len(acc))
+	for i, e := range acc {
+		t[i] = Years(e.Taken.Sub(in.Origin))
+		sl[i], sls[i], ic[i], ics[i] = e.Slope, e.SlopeSE, e.Intercept, e.InterceptSE
+	}
+	var err error
+	if in.SlopeDrift, err = fitcore.Drift(t, sl, sls, opt.Level, opt.SlopeLow, opt.SlopeHigh); err != nil {
+		in.SlopeDrift = &fitcore.DriftResult{N: len(acc), Status: "not fitted: " + err.Error()}
+	}
+	if in.InterceptDrift, err = fitcore.Drift(t, ic, ics, opt.Level, opt.InterceptLow, opt.InterceptHigh); err != nil {
+		in.InterceptDrift = &fitcore.DriftResult{N: len(acc), Status: "not fitted: " + err.Error()}
+	}
+	for _, d := range []struct {
+		name string
+		r    *fitcore.DriftResult
+	}{{"slope", in.SlopeDrift}, {"intercept", in.InterceptDrift}} {
+		// Projected only for a trend that is significant (DriftDrifting):
+		// a flat trend with a slight slope would give a far, meaningless day.
+		if d.r.Leaves == nil || d.r.Status != fitcore.DriftDrifting {
+			continue
+		}
+		at := in.Origin.Add(Duration(d.r.Leaves.At))
+		if in.LeavesAt.IsZero() || at.Before(in.LeavesAt) {
+			in.LeavesAt, in.LeavesWhich = at, d.name
+		}
+	}
+	return in, nil
+}
+
+func verdictOf(s Summary) string {
+	switch {
+	case !s.Fitted:
+		return NoFit
+	case s.Accepted:
+		return Accepted
+	}
+	return NotAccepted
+}
+
+// Year is the length of a year used for drift rates: 365.25 days (the
+// Julian year, common practice).
+const Year = 365.25 * 24 * time.Hour
+
+// Years converts a duration to years of length Year.
+func Years(d time.Duration) float64 { return d.Hours() / Year.Hours() }
+
+// Duration converts years back to a duration, clamped to ±200 years so
+// that a far projection cannot overflow.
+func Duration(years float64) time.Duration {
+	if years > 200 {
+		years = 200
+	}
+	if years < -200 {
+		years = -200
+	}
+	return time.Duration(years * float64(Year))
+}

@@ -1,0 +1,137 @@
+package history_test
+
+import (
+	"testing"
+	"time"
+
+	"pairline/app/history"
+	"pairline/app/session"
+	"pairline/fitcore"
+)
+
+var scenarioStart = time.Date(2025, 1, 6, 0, 0, 0, 0, time.UTC)
+
+func summarize(t testing.TB, ss []*session.Session) []history.Summary {
+	t.Helper()
+	var out []history.Summary
+	for _, s := range ss {
+		sum, err := history.Summarize(s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		out = append(out, sum)
+	}
+	return out
+}
+
+// TestScenario runs the invented three-instrument year (Scenario) through
+// Build. What is expected follows from how the data were generated (not
+// from Pairline's output): the stable meter shows no change and no drift,
+// the drifting analyser's slope trend is "drifting" with a negative rate
+// whose interval holds the generated −0.048/year, and the probe's line moves
+// once, between months 7 and 8, and nowhere else.
+func TestScenario(t *testing.T) {
+	ss, err := history.Scenario(2026, scenarioStart, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	now := scenarioStart.AddDate(1, 1, 0)
+	ins, err := history.Build(summarize(t, ss), history.Options{Now: now})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(ins) != 3 {
+		t.Fatalf("%d instruments, want 3", len(ins))
+	}
+	by := map[string]history.Instrument{}
+	for _, in := range ins {
+		by[in.Key] = in
+		if len(in.Entries) != 12 {
+			t.Errorf("%s: %d entries, want 12", in.Key, len(in.Entries))
+		}
+		for i := 1; i < len(in.Entries); i++ {
+			if in.Entries[i].Taken.Before(in.Entries[i-1].Taken) {
+				t.Errorf("%s: entries out of order at %d", in.Key, i)
+			}
+		}
+		// Interval 35 days from the last calibration (month 12).
+		if want := scenarioStart.AddDate(0, 11, 35); !in.Due.Equal(want) {
+			t.Errorf("%s: due %v, want %v", in.Key, in.Due, want)
+		}
+		if in.Overdue != now.After(in.Due) {
+			t.Errorf("%s: overdue %v", in.Key, in.Overdue)
+		}
+	}
+	stable, drifting, step := by["LVWB-TB-01"], by["LVWB-CL-02"], by["LVWB-EC-03"]
+	for _, c := range stable.Changes {
+		if c.Verdict != fitcore.LinesSame {
+			t.Errorf("stable: %s vs %s: %s (p coincident %.3g)", c.Session, c.Previous, c.Verdict, c.PCoincident)
+		}
+	}
+	if stable.SlopeDrift.Status != fitcore.DriftSteady {
+		t.Errorf("stable slope: %s", stable.SlopeDrift.Status)
+	}
+	d := drifting.SlopeDrift
+	if d.Status != fitcore.DriftDrifting || !(d.RateLow < -0.048 && -0.048 < d.RateHigh) {
+		t.Errorf("drifting slope: %s, rate %.4g [%.4g, %.4g]", d.Status, d.Rate, d.RateLow, d.RateHigh)
+	}
+	moved := 0
+	for i, c := range step.Changes {
+		if c.Verdict != fitcore.LinesSame {
+			moved++
+			if i != 6 || c.Verdict != fitcore.LinesMoved {
+				t.Errorf("step: change %d (%s vs %s): %s", i, c.Session, c.Previous, c.Verdict)
+			}
+		}
+	}
+	if moved != 1 {
+		t.Errorf("step: %d changes, want 1", moved)
+	}
+}
+
+// TestDedupe: the same session given twice counts once; a sealed session
+// changed after its seal, given in both revisions, is one calibration and
+// one earlier revision kept apart.
+func TestDedupe(t *testing.T) {
+	ss, err := history.Scenario(7, scenarioStart, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ss = ss[:12] // the stable instrument
+	first := ss[0]
+	if err := first.SignPerformed("A. Technician (invented)", scenarioStart); err != nil {
+		t.Fatal(err)
+	}
+	sealedCopy := *first
+	sealedCopy.Readings = append([]session.Reading(nil), first.Readings...)
+	if err := first.SetField(session.FieldNotes, "re-read after the seal (invented)", scenarioStart.Add(time.Hour)); err != nil {
+		t.Fatal(err)
+	}
+	if first.Revision != 2 {
+		t.Fatalf("revision %d after a change to a sealed record, want 2", first.Revision)
+	}
+	sums := summarize(t, append(append(ss, ss[3]), &sealedCopy))
+	ins, err := history.Build(sums, history.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	in := ins[0]
+	if in.Duplicates != 1 {
+		t.Errorf("duplicates %d, want 1", in.Duplicates)
+	}
+	superseded, accepted := 0, 0
+	for _, e := range in.Entries {
+		switch e.Verdict {
+		case history.Superseded:
+			superseded++
+			if e.Revision != 1 {
+				t.Errorf("superseded entry has revision %d, want 1", e.Revision)
+			}
+		case history.Accepted:
+			accepted++
+		}
+	}
+	if superseded != 1 || len(in.Changes) != accepted-1 {
+		t.Errorf("superseded %d (want 1), changes %d for %d accepted", superseded, len(in.Changes), accepted)
+	}
+}

@@ -1,0 +1,94 @@
+package history
+
+import (
+	"fmt"
+	"math/rand/v2"
+	"strconv"
+	"time"
+
+	"pairline/app/session"
+)
+
+// ScenarioInstrument describes one invented instrument of Scenario.
+type ScenarioInstrument struct {
+	ID          string
+	Description string
+	// Slope per month and a step: after month StepMonth (1-based; 0 = no
+	// step) the intercept jumps by Step.
+	SlopeDriftPerMonth float64
+	StepMonth          int
+	Step               float64
+}
+
+// ScenarioInstruments are the three instruments of the invented Larkwater
+// Valley Water Board scenario (INVENTED data): a stable turbidity meter, a
+// chlorine analyser whose slope drifts, and a conductivity probe whose
+// line moves after a cleaning in month 7.
+var ScenarioInstruments = []ScenarioInstrument{
+	{ID: "LVWB-TB-01", Description: "turbidity meter, Harrow Mill works (invented)"},
+	{ID: "LVWB-CL-02", Description: "chlorine analyser, Fenwick reservoir (invented)", SlopeDriftPerMonth: -0.004},
+	{ID: "LVWB-EC-03", Description: "conductivity probe, Stonebeck intake (invented)", StepMonth: 7, Step: 0.8},
+}
+
+// Scenario generates monthly calibration sessions over a year for the
+// ScenarioInstruments from a fixed seed: 8 standards from 0 to 100 per
+// session, y = 0.5 + b·x + step + N(0, 0.15²), b = 1.5 + drift·month. All
+// data are INVENTED (the fictional Larkwater Valley Water Board). Equal
+// seeds give equal sessions; the IDs come from the seeded generator too.
+// copies > 1 adds, for benchmarks, copies of the three instruments with
+// keys suffixed "-2", "-3", … and their own seeded readings.
+func Scenario(seed uint64, start time.Time, copies int) ([]*session.Session, error) {
+	r := rand.New(rand.NewPCG(seed, 0x4c56574221))
+	var out []*session.Session
+	xs := []float64{0, 5, 10, 20, 40, 60, 80, 100}
+	for c := 0; c < max(1, copies); c++ {
+		for _, in := range ScenarioInstruments {
+			for m := 0; m < 12; m++ {
+				day := start.AddDate(0, m, 0).UTC()
+				id := in.ID
+				if c > 0 {
+					id = fmt.Sprintf("%s-%d", in.ID, c+1)
+				}
+				s, err := session.New(fmt.Sprintf("Monthly check %s, month %d (invented)", id, m+1), day, seededReader{r})
+				if err != nil {
+					return nil, err
+				}
+				for _, f := range [][2]string{
+					{session.FieldSite, "Larkwater Valley Water Board (invented)"},
+					{session.FieldInstrument, in.Description},
+					{session.FieldInstrumentID, id},
+					{session.FieldIntervalDays, "35"},
+					{session.FieldOperator, "A. Technician (invented)"},
+				} {
+					if err := s.SetField(f[0], f[1], day); err != nil {
+						return nil, err
+					}
+				}
+				b := 1.5 + in.SlopeDriftPerMonth*float64(m)
+				a := 0.5
+				if in.StepMonth > 0 && m+1 > in.StepMonth {
+					a += in.Step
+				}
+				for _, x := range xs {
+					y := a + b*x + 0.15*r.NormFloat64()
+					s.AddRow(strconv.FormatFloat(x, 'g', -1, 64), strconv.FormatFloat(y, 'f', 3, 64), day)
+				}
+				for i := range s.Readings {
+					s.Readings[i].Taken = day
+				}
+				out = append(out, s)
+			}
+		}
+	}
+	return out, nil
+}
+
+// seededReader feeds session.NewID from the seeded generator.
+type seededReader struct{ r *rand.Rand }
+
+func (s seededReader) Read(p []byte) (int, error) {
+	for i := range p {
+		p[i] = byte(s.r.Uint32())
+	}
+	return len(p), nil
+}

@@ -1,0 +1,170 @@
+package fitcore
+
+import (
+	"errors"
+	"fmt"
+	"math"
+)
+
+// MaxDriftPoints is the largest number of calibrations Drift accepts; its
+// cost is linear in the number.
+const MaxDriftPoints = 100_000
+
+// DriftAlpha is the significance level of Drift's verdict: "drifting" when
+// the p for rate = 0 is below DriftAlpha.
+const DriftAlpha = 0.01
+
+// Drift statuses and verdicts.
+const (
+	DriftTooFew   = "too few calibrations"
+	DriftSteady   = "steady"
+	DriftDrifting = "drifting"
+)
+
+// LimitCrossing is the projected time at which the fitted trend leaves a
+// limit. At is where the fitted line crosses Limit; [Low, High] is where the
+// two edges of the confidence band of the trend line cross it (the
+// band-inversion interval, as for an inverse prediction). When the trend is
+// not significant at the level, the band never leaves the limit on one side
+// and Bounded is false: Low and High are then 0 and must not be shown.
+type LimitCrossing struct {
+	Side    string  `json:"side"` // "lower" or "upper"
+	Limit   float64 `json:"limit"`
+	At      float64 `json:"at"`
+	Low     float64 `json:"low"`
+	High    float64 `json:"high"`
+	Bounded bool    `json:"bounded"`
+}
+
+// DriftResult is the trend of one calibration parameter over time.
+type DriftResult struct {
+	N      int
+	Status string // DriftTooFew, DriftSteady or DriftDrifting
+
+	Rate, RateSE, RateLow, RateHigh float64 // change per unit of t (per year when t is in years)
+	P                               float64 // two-sided p for rate = 0, t with N − 2 df
+	Intercept, InterceptSE          float64 // fitted value at t = 0
+	MeanT                           float64 // weighted mean time
+	Sigma                           float64 // residual scale s (1 when the se are exact)
+	Level                           float64
+
+	Leaves *LimitCrossing // first limit the trend reaches after the last time, or nil
+}
+
+// Drift fits the weighted least-squares line v = a + r·t with weights
+// w = 1/se² (the parameter's standard error at each calibration), as R's
+// lm(v ~ t, weights = 1/se^2):
+//
+//	t̄ = Σwt/Σw,  r = Σw(t−t̄)(v−v̄)/Σw(t−t̄)²,  s² = Σw e²/(N−2),
+//	se(r) = s/√Σw(t−t̄)²,  se(a) = s·√(1/Σw + t̄²/Σw(t−t̄)²)
+//
+// (weighted least squares, e.g. Draper & Smith, "Applied Regression
+// Analysis", §9; from memory). The interval is r ± t_{1−α/2,N−2}·se(r) and
+// P is the two-sided t test of r = 0. The scale s is estimated as lm does,
+// so the se need only be right relative to one another.
+//
+// With lower and/or upper limits (nil = none) the projected crossing is the
+// first limit the fitted line reaches after the last time: At = t̄ + (L − v̄)/r.
+// Its interval solves (L − v̄ − r·u)² = k·(1/Σw + u²/Σw(t−t̄)²), u = t − t̄,
+// k = t²_{1−α/2}·s², where the band of the fitted line meets L (common
+// practice, the same inversion as an inverse prediction's interval).
+//
+// Fewer than 3 calibrations give Status DriftTooFew and nothing else.
+func Drift(t, v, se []float64, level float64, lower, upper *float64) (*DriftResult, error) {
+	if len(t) != len(v) || len(t) != len(se) {
+		return nil, errors.New("drift: times, values and standard errors must have the same length")
+	}
+	if len(t) > MaxDriftPoints {
+		return nil, fmt.Errorf("drift: at most %d calibrations", MaxDriftPoints)
+	}
+	level = levelOrDefault(level)
+	res := &DriftResult{N: len(t), Level: level}
+	if len(t) < 3 {
+		res.Status = DriftTooFew
+		return res, nil
+	}
+	var sw, swt, swv, tmax float64
+	tmax = math.Inf(-1)
+	w := make([]float64, len(t))
+	for i := range t {
+		if !finiteWithin(t[i]) || !finiteWithin(v[i]) || !finiteWithin(se[i]) || !(se[i] > 0) {
+			return nil, fmt.Errorf("drift: calibration %d has a time, value or standard error that is not a finite positive-se number (t=%g, value=%g, se=%g)", i+1, t[i], v[i], se[i])
+		}
+		w[i] = 1 / (se[i] * se[i])
+		if math.IsInf(w[i], 0) {
+			return nil, fmt.Errorf("drift: calibration %d has a standard error too small to weight (%g)", i+1, se[i])
+		}
+		sw += w[i]
+		swt += w[i] * t[i]
+		swv += w[i] * v[i]
+		tmax = math.Max(tmax, t[i])
+	}
+	tb, vb := swt/sw, swv/sw
+	var stt, stv float64
+	for i := range t {
+		dt := t[i] - tb
+		stt += w[i] * dt * dt
+		stv += w[i] * dt * (v[i] - vb)
+	}
+	if !(stt > 0) {
+		return nil, errors.New("drift: the calibrations need at least two different dates")
+	}
+	r := stv / stt
+	var sse float64
+	for i := range t {
+		e := v[i] - vb - r*(t[i]-tb)
+		sse += w[i] * e * e
+	}
+	df := float64(len(t) - 2)
+	s2 := sse / df
+	res.Sigma = math.Sqrt(s2)
+	res.Rate = r
+	res.RateSE = math.Sqrt(s2 / stt)
+	res.MeanT = tb
+	res.Intercept = vb - r*tb
+	res.InterceptSE = math.Sqrt(s2 * (1/sw + tb*tb/stt))
+	tc := lnTCrit(level, df)
+	res.RateLow, res.RateHigh = r-tc*res.RateSE, r+tc*res.RateSE
+	res.P = lnTwoSidedP(lnRatio(r, res.RateSE), df)
+	res.Status = DriftSteady
+	if res.P < DriftAlpha {
+		res.Status = DriftDrifting
+	}
+	k := tc * tc * s2
+	cross := func(side string, lim float64) *LimitCrossing {
+		if r == 0 {
+			return nil
+		}
+		at := tb + (lim-vb)/r
+		if !(at > tmax) {
+			return nil
+		}
+		c := &LimitCrossing{Side: side, Limit: lim, At: at}
+		d := lim - vb
+		a := r*r - k/stt
+		b := -2 * r * d
+		cc := d*d - k/sw
+		disc := b*b - 4*a*cc
+		if a > 0 && disc >= 0 {
+			q := math.Sqrt(disc)
+			u1, u2 := (-b-q)/(2*a), (-b+q)/(2*a)
+			c.Low, c.High, c.Bounded = tb+math.Min(u1, u2), tb+math.Max(u1, u2), true
+		}
+		return c
+	}
+	var best *LimitCrossing
+	if lower != nil && r < 0 {
+		best = cross("lower", *lower)
+	}
+	if upper != nil && r > 0 {
+		if c := cross("upper", *upper); c != nil && (best == nil || c.At < best.At) {
+			best = c
+		}
+	}
+	res.Leaves = best
+	return res, nil
+}
+
+func finiteWithin(v float64) bool {
+	return !math.IsNaN(v) && math.Abs(v) <= MaxMagnitude
+}
