@@ -1376,9 +1376,13 @@ func (b *bodyDecoder) items(off int64, path string, n int) *FormatError {
 	return nil
 }
 
-func (b *bodyDecoder) conditions(path string, p *[]Condition) *FormatError {
+// recordList reads an array of at most max maps into *p, each map's keys
+// handed to each with the element they fill (each skips the keys it does
+// not know); an empty array reads as nil, as a new record holds it. Every
+// element counts toward the file's MaxFileItems.
+func recordList[T any](b *bodyDecoder, path string, max int, p *[]T, each func(t *T, k, q string) *FormatError) *FormatError {
 	off := b.off()
-	n, ferr := b.arrayLen(path, MaxConditions, 1)
+	n, ferr := b.arrayLen(path, max, 1)
 	if ferr != nil {
 		return ferr
 	}
@@ -1386,123 +1390,82 @@ func (b *bodyDecoder) conditions(path string, p *[]Condition) *FormatError {
 		return ferr
 	}
 	if n == 0 {
-		*p = nil // an empty list reads as nil, as a new record holds it
+		*p = nil
 		return nil
 	}
-	cs := make([]Condition, n)
-	*p = cs
-	for i := range cs {
-		c := &cs[i]
-		ferr := b.mapEach("", func(k, q string) *FormatError {
-			switch k {
-			case "name":
-				return b.str(q, MaxShortText, &c.Name)
-			case "value":
-				return b.str(q, MaxShortText, &c.Value)
-			case "unit":
-				return b.str(q, MaxShortText, &c.Unit)
-			}
-			return b.skip(q, 0)
-		})
-		if ferr != nil {
+	list := make([]T, n)
+	*p = list
+	for i := range list {
+		t := &list[i]
+		if ferr := b.mapEach("", func(k, q string) *FormatError { return each(t, k, q) }); ferr != nil {
 			ferr.Field = prefixIndex(i, ferr.Field)
 			return ferr
 		}
 	}
 	return nil
+}
+
+func (b *bodyDecoder) conditions(path string, p *[]Condition) *FormatError {
+	return recordList(b, path, MaxConditions, p, func(c *Condition, k, q string) *FormatError {
+		switch k {
+		case "name":
+			return b.str(q, MaxShortText, &c.Name)
+		case "value":
+			return b.str(q, MaxShortText, &c.Value)
+		case "unit":
+			return b.str(q, MaxShortText, &c.Unit)
+		}
+		return b.skip(q, 0)
+	})
 }
 
 func (b *bodyDecoder) standards(path string, p *[]Standard) *FormatError {
-	off := b.off()
-	n, ferr := b.arrayLen(path, MaxStandards, 1)
-	if ferr != nil {
-		return ferr
-	}
-	if ferr := b.items(off, path, n); ferr != nil {
-		return ferr
-	}
-	if n == 0 {
-		*p = nil // an empty list reads as nil, as a new record holds it
-		return nil
-	}
-	ss := make([]Standard, n)
-	*p = ss
-	for i := range ss {
-		st := &ss[i]
-		ferr := b.mapEach("", func(k, q string) *FormatError {
-			switch k {
-			case "name":
-				return b.str(q, MaxShortText, &st.Name)
-			case "certificate":
-				return b.str(q, MaxShortText, &st.Certificate)
-			case "value":
-				return b.str(q, MaxShortText, &st.Value)
-			case "uncertainty":
-				return b.str(q, MaxShortText, &st.Uncertainty)
-			case "expiry":
-				return b.tm(q, &st.Expiry)
-			}
-			return b.skip(q, 0)
-		})
-		if ferr != nil {
-			ferr.Field = prefixIndex(i, ferr.Field)
-			return ferr
+	return recordList(b, path, MaxStandards, p, func(st *Standard, k, q string) *FormatError {
+		switch k {
+		case "name":
+			return b.str(q, MaxShortText, &st.Name)
+		case "certificate":
+			return b.str(q, MaxShortText, &st.Certificate)
+		case "value":
+			return b.str(q, MaxShortText, &st.Value)
+		case "uncertainty":
+			return b.str(q, MaxShortText, &st.Uncertainty)
+		case "expiry":
+			return b.tm(q, &st.Expiry)
 		}
-	}
-	return nil
+		return b.skip(q, 0)
+	})
 }
 
 func (b *bodyDecoder) unknowns(path string, p *[]Unknown) *FormatError {
-	off := b.off()
-	n, ferr := b.arrayLen(path, MaxUnknowns, 1)
-	if ferr != nil {
-		return ferr
-	}
-	if ferr := b.items(off, path, n); ferr != nil {
-		return ferr
-	}
-	if n == 0 {
-		*p = nil // an empty list reads as nil, as a new record holds it
-		return nil
-	}
-	us := make([]Unknown, n)
-	*p = us
-	for i := range us {
-		u := &us[i]
-		ferr := b.mapEach("", func(k, q string) *FormatError {
-			switch k {
-			case "name":
-				return b.str(q, MaxShortText, &u.Name)
-			case "readings":
-				roff := b.off()
-				m, ferr := b.arrayLen(q, MaxUnknownReadings, 1)
-				if ferr != nil {
-					return ferr
-				}
-				if ferr := b.items(roff, q, m); ferr != nil {
-					return ferr
-				}
-				if m == 0 {
-					u.Readings = nil
-					return nil
-				}
-				u.Readings = make([]string, m)
-				for j := range u.Readings {
-					if ferr := b.str("", MaxCellText, &u.Readings[j]); ferr != nil {
-						ferr.Field = prefixIndex(j, ferr.Field)
-						return ferr
-					}
-				}
+	return recordList(b, path, MaxUnknowns, p, func(u *Unknown, k, q string) *FormatError {
+		switch k {
+		case "name":
+			return b.str(q, MaxShortText, &u.Name)
+		case "readings":
+			roff := b.off()
+			m, ferr := b.arrayLen(q, MaxUnknownReadings, 1)
+			if ferr != nil {
+				return ferr
+			}
+			if ferr := b.items(roff, q, m); ferr != nil {
+				return ferr
+			}
+			if m == 0 {
+				u.Readings = nil
 				return nil
 			}
-			return b.skip(q, 0)
-		})
-		if ferr != nil {
-			ferr.Field = prefixIndex(i, ferr.Field)
-			return ferr
+			u.Readings = make([]string, m)
+			for j := range u.Readings {
+				if ferr := b.str("", MaxCellText, &u.Readings[j]); ferr != nil {
+					ferr.Field = prefixIndex(j, ferr.Field)
+					return ferr
+				}
+			}
+			return nil
 		}
-	}
-	return nil
+		return b.skip(q, 0)
+	})
 }
 
 func (b *bodyDecoder) seal(field string, sl *Seal) *FormatError {
