@@ -51,7 +51,7 @@ func TestReportRecordWords(t *testing.T) {
 	body := rpBody(s, rep, rows, "", time.Now())
 	text := regexp.MustCompile(`<[^>]*>`).ReplaceAllString(body, " ")
 	for _, want := range []string{
-		"R² at least",                           // the criterion in words
+		"R² at least",                        // the criterion in words
 		"Reading 5 left out: sample spilled", // history, in words
 		"Reading 3 left out: bubble on the probe",
 		"Reading 3 put back into the line",
