@@ -233,11 +233,22 @@ func rpLine(b *rpB, s *session.Session, rep *fitcore.Report) {
 	// reference value (app/wording).
 	b.w(`<div class="pl-rt-wrap"><table class="pl-rt pl-rt-fit pl-rt-stack"><thead><tr><th>Figure</th><th>`, wording.Estimate, `</th><th>`, rpEsc(wording.Interval(rep.Level)), `</th><th>`,
 		wording.StandardError, `</th><th>`, wording.TestedAgainst, `</th></tr></thead><tbody>`)
+	// Each estimate and its interval to the decimal place of the standard
+	// error's second significant digit, the standard error to two digits,
+	// with units (numfmt.Estimate, as the line card); data-value keeps
+	// the full precision.
 	coef := func(name string, c fitcore.Coefficient, unit string) {
-		b.w(`<tr><th scope="row">`, rpEsc(name), `</th><td data-label="`, wording.Estimate, `">`, rpNum(c.Estimate, numfmt.Sig(c.Estimate, sig)), ` `, rpEsc(unit),
+		est, se := numfmt.Estimate(c.Estimate, c.SE, sig)
+		lo, _ := numfmt.Estimate(c.CILow, c.SE, sig)
+		hi, _ := numfmt.Estimate(c.CIHigh, c.SE, sig)
+		u := ""
+		if unit != "" {
+			u = " " + rpEsc(unit)
+		}
+		b.w(`<tr><th scope="row">`, rpEsc(name), `</th><td data-label="`, wording.Estimate, `">`, rpNum(c.Estimate, est), u,
 			`</td><td data-label="`, rpEsc(wording.Interval(rep.Level)), `">`,
-			rpNum(c.CILow, numfmt.Sig(c.CILow, sig)), ` to `, rpNum(c.CIHigh, numfmt.Sig(c.CIHigh, sig)), `</td><td data-label="`, wording.StandardError, `">`,
-			rpNum(c.SE, numfmt.Sig(c.SE, 3)), `</td><td data-label="`, wording.TestedAgainst, `">`, rpEsc(wording.Ref(c.Ref)), `: `, rpP(c.PRef), `</td></tr>`)
+			rpNum(c.CILow, lo), ` to `, rpNum(c.CIHigh, hi), u, `</td><td data-label="`, wording.StandardError, `">`,
+			rpNum(c.SE, se), u, `</td><td data-label="`, wording.TestedAgainst, `">`, rpEsc(wording.Ref(c.Ref)), `: `, rpP(c.PRef), `</td></tr>`)
 	}
 	coef(wording.Slope, rep.Slope, wording.SlopeUnit(s.YUnit, s.XUnit))
 	if rep.Model != fitcore.ModelOrigin {
@@ -556,6 +567,13 @@ func rpStandards(b *rpB, s *session.Session) {
 	}
 	b.w(`<h3>Reference standards</h3><div class="pl-rt-wrap"><table class="pl-rt pl-rt-fit pl-rt-stack" data-testid="report-standards"><thead><tr><th>Standard</th><th>Certificate</th><th>Value</th>`,
 		`<th>Standard uncertainty</th><th>Valid until</th></tr></thead><tbody>`)
+	// withUnit is a figure as typed with the unit of x after it, or "—".
+	withUnit := func(v, unit string) string {
+		if strings.TrimSpace(v) == "" {
+			return "—"
+		}
+		return strings.TrimSpace(v + " " + unit)
+	}
 	for i, st := range s.Standards {
 		until := "—"
 		if !st.Expiry.IsZero() {
@@ -569,8 +587,8 @@ func rpStandards(b *rpB, s *session.Session) {
 		// data-label names the cell where a phone shows each standard as a
 		// block of labelled lines (web/report.css, .pl-rt-stack).
 		b.w(`<tr`, cls, `><th scope="row">`, rpEsc(nonEmpty(st.Name, "—")), `</th><td data-label="Certificate">`, rpEsc(nonEmpty(st.Certificate, "—")),
-			`</td><td class="pl-rt-n" data-label="Value">`, rpEsc(nonEmpty(st.Value, "—")), ` `, rpEsc(s.XUnit),
-			`</td><td class="pl-rt-n" data-label="Standard uncertainty">`, rpEsc(nonEmpty(st.Uncertainty, "—")), `</td><td data-label="Valid until">`, rpEsc(until), `</td></tr>`)
+			`</td><td class="pl-rt-n" data-label="Value">`, rpEsc(withUnit(st.Value, s.XUnit)),
+			`</td><td class="pl-rt-n" data-label="Standard uncertainty">`, rpEsc(withUnit(st.Uncertainty, s.XUnit)), `</td><td data-label="Valid until">`, rpEsc(until), `</td></tr>`)
 	}
 	b.w(`</tbody></table></div>`)
 	if len(expired) > 0 {
