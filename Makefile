@@ -12,7 +12,7 @@ WASM_LDFLAGS := -s -w
 WASM_GCFLAGS := -gcflags=pairline/app/ui=-l -gcflags=pairline/app/wording=-l -gcflags=pairline/app/store=-l
 CHROMIUM  ?= $(shell command -v chromium || command -v chromium-browser || true)
 
-.PHONY: all wasm wasm-size bin run build test fmt-check vet lint unit browser bench bench-fit fuzz refcheck icons clean
+.PHONY: all wasm wasm-size axe bin run build test fmt-check vet lint unit browser bench bench-fit fuzz refcheck icons clean
 
 all: wasm bin
 
@@ -63,8 +63,21 @@ lint:
 unit:
 	$(GO) test -count=1 ./...
 
+## axe: axe-core for the accessibility browser test, from the npm registry,
+## checked against its SHA-256 (app/e2e/testdata/axe/README.md); not kept in git
+AXE_VERSION ?= 4.14.1
+AXE_SHA256  ?= 29348999450cdf2849a8e70b7912fc2da85a849da39c0d0d5394f51d4a9ed95c
+AXE_DIR     := app/e2e/testdata/axe
+axe: $(AXE_DIR)/axe.min.js
+$(AXE_DIR)/axe.min.js:
+	@command -v npm >/dev/null || { echo "FAIL: npm is needed to fetch axe-core $(AXE_VERSION) (apt-get install npm)"; exit 1; }
+	@tmp="$$(mktemp -d)"; trap 'rm -rf "$$tmp"' EXIT; \
+	(cd "$$tmp" && npm pack --silent axe-core@$(AXE_VERSION) >/dev/null && tar -xzf axe-core-$(AXE_VERSION).tgz) || exit 1; \
+	echo "$(AXE_SHA256)  $$tmp/package/axe.min.js" | sha256sum -c --quiet - || { echo "FAIL: axe-core $(AXE_VERSION) from npm does not match its checksum"; exit 1; }; \
+	cp "$$tmp/package/LICENSE" "$$tmp/package/LICENSE-3RD-PARTY.txt" $(AXE_DIR)/ && cp "$$tmp/package/axe.min.js" $@
+
 ## browser: the end-to-end tests in headless Chromium against the real server
-browser: wasm bin
+browser: wasm bin axe
 	@chromium="$(CHROMIUM)"; \
 	if [ -z "$$chromium" ]; then \
 	  if [ "$$CI" = "true" ]; then echo "FAIL: Chromium is not installed, and CI needs the browser tests (.ci/run installs it)"; exit 1; fi; \

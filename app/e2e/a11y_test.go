@@ -40,7 +40,7 @@ type axeViolation struct {
 	Targets []string `json:"targets"`
 }
 
-// runAxe injects axe-core (app/e2e/testdata/axe, read by the test and
+// runAxe injects axe-core (app/e2e/testdata/axe, put there by make axe; read by the test and
 // evaluated in the page: the app never serves it) and returns its
 // violations of impact serious or critical on the whole document.
 func runAxe(t *testing.T, b *browser) []axeViolation {
@@ -48,7 +48,7 @@ func runAxe(t *testing.T, b *browser) []axeViolation {
 	if !eval[bool](t, b, `typeof window.axe === "object"`) {
 		src, err := os.ReadFile(filepath.Join("testdata", "axe", "axe.min.js"))
 		if err != nil {
-			t.Fatalf("axe-core is missing (see testdata/axe/README.md): %v", err)
+			t.Fatalf("axe-core is missing: run make axe (see testdata/axe/README.md): %v", err)
 		}
 		if _, err := chromedp.Run(b.ctx, chromedp.Evaluate[bool](string(src)+"\n;true", chromedp.EvalAwaitPromise)); err != nil {
 			t.Fatalf("injecting axe-core: %v", err)
