@@ -984,31 +984,11 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 			}
 			res.Rows = append(res.Rows, row)
 		}
-		if xc >= len(fields) || yc >= len(fields) {
-			res.Incomplete++
-			res.Skipped = append(res.Skipped, SkippedRow{line, fmt.Sprintf("the row has only %d columns", len(fields))})
-			continue
-		}
-		x, y := fields[xc], fields[yc]
-		if sc.raw {
-			x, y = unraw(x), unraw(y)
-		}
-		var why string
-		switch {
-		case isBlank(x) && isBlank(y):
-			why = "the x and y cells are empty"
-		case isBlank(x):
-			why = "the x cell is empty"
-		case isBlank(y):
-			why = "the y cell is empty"
-		}
+		x, y, why := rowPair(fields, xc, yc, sc.raw, res.PairlineExport)
 		if why != "" {
 			res.Incomplete++
 			res.Skipped = append(res.Skipped, SkippedRow{line, why})
 			continue
-		}
-		if res.PairlineExport {
-			x, y = unneutralise(x), unneutralise(y)
 		}
 		res.X = append(res.X, x)
 		res.Y = append(res.Y, y)
@@ -1288,4 +1268,30 @@ func WriteReadingsCSV(w io.Writer, s *Session) error {
 		rows = append(rows, row)
 	}
 	return WriteTable(w, rows, dc)
+}
+
+// rowPair is the x and y cells of a data row as ReadCSV and StreamCSV take
+// them (raw cells unescaped, a Pairline export's neutralised text
+// restored), or why the row gives no pair: too few columns, or an empty
+// cell.
+func rowPair(fields []string, xc, yc int, raw, export bool) (x, y, skip string) {
+	if xc >= len(fields) || yc >= len(fields) {
+		return "", "", fmt.Sprintf("the row has only %d columns", len(fields))
+	}
+	x, y = fields[xc], fields[yc]
+	if raw {
+		x, y = unraw(x), unraw(y)
+	}
+	switch {
+	case isBlank(x) && isBlank(y):
+		return "", "", "the x and y cells are empty"
+	case isBlank(x):
+		return "", "", "the x cell is empty"
+	case isBlank(y):
+		return "", "", "the y cell is empty"
+	}
+	if export {
+		x, y = unneutralise(x), unneutralise(y)
+	}
+	return x, y, ""
 }

@@ -568,28 +568,11 @@ func streamPass2(r io.ReadSeeker, res *StreamResult, rows int) error {
 			if data++; data > MaxStreamRows {
 				return &CSVError{Line: line, Err: fmt.Errorf("%w (at most %d)", ErrCSVStreamRows, MaxStreamRows)}
 			}
-			if xc >= len(fields) || yc >= len(fields) {
-				res.Incomplete++
-				res.Skipped = append(res.Skipped, SkippedRow{line, fmt.Sprintf("the row has only %d columns", len(fields))})
-				continue
-			}
-			x, y := unraw(fields[xc]), unraw(fields[yc])
-			var why string
-			switch {
-			case isBlank(x) && isBlank(y):
-				why = "the x and y cells are empty"
-			case isBlank(x):
-				why = "the x cell is empty"
-			case isBlank(y):
-				why = "the y cell is empty"
-			}
+			x, y, why := rowPair(fields, xc, yc, true, res.PairlineExport)
 			if why != "" {
 				res.Incomplete++
 				res.Skipped = append(res.Skipped, SkippedRow{line, why})
 				continue
-			}
-			if res.PairlineExport {
-				x, y = unneutralise(x), unneutralise(y)
 			}
 			i := len(res.X)
 			xv, xerr := q.cell(x, 2*i)
