@@ -778,13 +778,10 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 	}
 
 	// Pass 1.
-	var first, second, third []string
-	firstLine := 0
-	var filled, nums []int // per column, over the rows after the first
-	rows := 0
+	var tc tableCounts
 	sc := newCSVScanner(text, res.Delimiter)
 	for {
-		sc.raw = rows >= 3 // the first three rows are kept as they are read
+		sc.raw = tc.rows >= 3 // the first three rows are kept as they are read
 		fields, line, cerr := sc.next()
 		if cerr != nil {
 			return nil, cerr
@@ -795,141 +792,21 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 		if isBlankRow(fields) {
 			continue
 		}
-		rows++
-		if rows > MaxReadings+1 {
+		if tc.rows+1 > MaxReadings+1 {
 			return nil, &CSVError{Line: line, Err: fmt.Errorf("%w (at most %d)", ErrCSVManyRows, MaxReadings)}
 		}
-		res.Width = max(res.Width, len(fields))
-		switch rows {
-		case 1:
-			first, firstLine = slices.Clone(fields), line
-			continue
-		case 2:
-			second = slices.Clone(fields)
-		case 3:
-			third = slices.Clone(fields)
-		}
-		for len(filled) < len(fields) {
-			filled, nums = append(filled, 0), append(nums, 0)
-		}
-		for c, f := range fields {
-			if !isBlank(f) {
-				filled[c]++
-				if isNumberCell(f) {
-					nums[c]++
-				}
-			}
-		}
+		tc.add(fields, line, slices.Clone)
 	}
-	if rows == 0 {
+	if tc.rows == 0 {
 		return nil, &CSVError{Err: ErrCSVNoData}
 	}
-
-	numbers := func(f []string) int {
-		n := 0
-		for _, c := range f {
-			if isNumberCell(c) {
-				n++
-			}
-		}
-		return n
+	ch, err := decideTable(opt, &tc, nil)
+	if err != nil {
+		return nil, err
 	}
-	hasText := false
-	for _, c := range first {
-		if !isBlank(c) && !isNumberCell(c) {
-			hasText = true
-		}
-	}
-	// A units row: text only, short cells, and numbers in the row after it.
-	looksUnits := rows >= 3 && isUnitsRow(second) && numbers(third) > numbers(first)
-	if opt.Header != nil {
-		res.HasHeader = *opt.Header
-	} else {
-		res.HasHeader = hasText && (rows == 1 || numbers(second) > numbers(first) || looksUnits)
-	}
-	if res.HasHeader {
-		if opt.UnitsRow != nil {
-			res.UnitsRow = *opt.UnitsRow && rows >= 2
-		} else {
-			res.UnitsRow = looksUnits
-		}
-	}
-	if res.UnitsRow {
-		res.Units = second
-		// The units row was counted as data in pass 1.
-		for c, f := range second {
-			if c < len(filled) && !isBlank(f) {
-				filled[c]--
-				if isNumberCell(f) {
-					nums[c]--
-				}
-			}
-		}
-		if rows == 2 {
-			return nil, &CSVError{Line: firstLine, Err: fmt.Errorf("%w: there are only a header row and a units row", ErrCSVNoData)}
-		}
-	}
-	if res.HasHeader {
-		res.Header = first
-	} else {
-		for len(filled) < len(first) {
-			filled, nums = append(filled, 0), append(nums, 0)
-		}
-		for c, f := range first {
-			if !isBlank(f) {
-				filled[c]++
-				if isNumberCell(f) {
-					nums[c]++
-				}
-			}
-		}
-	}
-	if res.HasHeader && rows == 1 {
-		return nil, &CSVError{Line: firstLine, Err: fmt.Errorf("%w: there is only a header row", ErrCSVNoData)}
-	}
-	if opt.PairlineExport != nil {
-		res.PairlineExport = *opt.PairlineExport
-	} else {
-		res.PairlineExport = res.HasHeader && isPairlineExport(res.Header)
-	}
-	if res.PairlineExport && res.HasHeader {
-		for i, h := range res.Header {
-			res.Header[i] = unneutralise(h)
-		}
-	}
-	for c := range filled {
-		if nums[c] > 0 && 2*nums[c] >= filled[c] {
-			res.NumericColumns = append(res.NumericColumns, c)
-		}
-	}
-
-	xc, yc := opt.XCol, opt.YCol
-	if xc == yc {
-		xc, yc = DetectColumn, DetectColumn
-	}
-	for _, c := range []int{xc, yc} {
-		if c >= res.Width {
-			return nil, &CSVError{Err: fmt.Errorf("%w: column %d (the file has %d columns)", ErrCSVNoColumn, c+1, res.Width)}
-		}
-	}
-	pick := func(not int) int {
-		for _, c := range res.NumericColumns {
-			if c != not {
-				return c
-			}
-		}
-		return DetectColumn
-	}
-	if xc < 0 {
-		xc = pick(yc)
-	}
-	if yc < 0 {
-		yc = pick(xc)
-	}
-	if xc < 0 || yc < 0 {
-		return nil, &CSVError{Err: ErrCSVColumns}
-	}
-	res.XCol, res.YCol = xc, yc
+	res.Width, res.HasHeader, res.UnitsRow, res.Header, res.Units = tc.width, ch.hasHeader, ch.unitsRow, ch.header, ch.units
+	res.PairlineExport, res.NumericColumns, res.XCol, res.YCol = ch.export, ch.numeric, ch.xc, ch.yc
+	xc, yc := ch.xc, ch.yc
 
 	// Pass 2: the rows again, split only as far as the columns used (and
 	// the preview) need.
@@ -1294,4 +1171,159 @@ func rowPair(fields []string, xc, yc int, raw, export bool) (x, y, skip string) 
 		x, y = unneutralise(x), unneutralise(y)
 	}
 	return x, y, ""
+}
+
+// tableCounts is what the first pass of ReadCSV and StreamCSV learns of a
+// table: the number of non-blank rows, the first three of them, the widest
+// row, and per column how many cells of the rows after the first are filled
+// and how many of those hold numbers.
+type tableCounts struct {
+	rows                 int
+	first, second, third []string
+	firstLine            int
+	width                int
+	filled, nums         []int
+}
+
+// add counts a non-blank row read at line; keep copies a row that is kept
+// (the first three), since the reader's fields may be reused.
+func (tc *tableCounts) add(fields []string, line int, keep func([]string) []string) {
+	tc.rows++
+	tc.width = max(tc.width, len(fields))
+	switch tc.rows {
+	case 1:
+		tc.first, tc.firstLine = keep(fields), line
+		return
+	case 2:
+		tc.second = keep(fields)
+	case 3:
+		tc.third = keep(fields)
+	}
+	tc.count(fields, 1)
+}
+
+// count adds (by = 1) or takes away (by = −1) a row's cells from the
+// column counts.
+func (tc *tableCounts) count(fields []string, by int) {
+	for len(tc.filled) < len(fields) {
+		tc.filled, tc.nums = append(tc.filled, 0), append(tc.nums, 0)
+	}
+	for c, f := range fields {
+		if !isBlank(f) {
+			tc.filled[c] += by
+			if isNumberCell(f) {
+				tc.nums[c] += by
+			}
+		}
+	}
+}
+
+// tableChoice is what decideTable decides between the passes.
+type tableChoice struct {
+	hasHeader, unitsRow, export bool
+	header, units               []string
+	numeric                     []int
+	xc, yc                      int
+}
+
+// decideTable is the one rule of ReadCSV and StreamCSV for a table's
+// header, units row, Pairline export, numeric columns and the x and y
+// columns, from the first pass's counts (which it changes: the first row
+// counts as data when it is no header, the units row does not). columns,
+// when not nil, chooses x and y by the header's names.
+func decideTable(opt CSVOptions, tc *tableCounts, columns func(header []string) (int, int, error)) (tableChoice, error) {
+	var ch tableChoice
+	numbers := func(f []string) int {
+		n := 0
+		for _, c := range f {
+			if isNumberCell(c) {
+				n++
+			}
+		}
+		return n
+	}
+	hasText := false
+	for _, c := range tc.first {
+		if !isBlank(c) && !isNumberCell(c) {
+			hasText = true
+		}
+	}
+	// A units row: text only, short cells, and numbers in the row after it.
+	looksUnits := tc.rows >= 3 && isUnitsRow(tc.second) && numbers(tc.third) > numbers(tc.first)
+	if opt.Header != nil {
+		ch.hasHeader = *opt.Header
+	} else {
+		ch.hasHeader = hasText && (tc.rows == 1 || numbers(tc.second) > numbers(tc.first) || looksUnits)
+	}
+	if ch.hasHeader {
+		if opt.UnitsRow != nil {
+			ch.unitsRow = *opt.UnitsRow && tc.rows >= 2
+		} else {
+			ch.unitsRow = looksUnits
+		}
+	}
+	if ch.unitsRow {
+		ch.units = tc.second
+		tc.count(tc.second, -1) // the units row was counted as data
+		if tc.rows == 2 {
+			return ch, &CSVError{Line: tc.firstLine, Err: fmt.Errorf("%w: there are only a header row and a units row", ErrCSVNoData)}
+		}
+	}
+	if ch.hasHeader {
+		ch.header = tc.first
+	} else {
+		tc.count(tc.first, 1)
+	}
+	if ch.hasHeader && tc.rows == 1 {
+		return ch, &CSVError{Line: tc.firstLine, Err: fmt.Errorf("%w: there is only a header row", ErrCSVNoData)}
+	}
+	if opt.PairlineExport != nil {
+		ch.export = *opt.PairlineExport
+	} else {
+		ch.export = ch.hasHeader && isPairlineExport(ch.header)
+	}
+	if ch.export && ch.hasHeader {
+		for i, h := range ch.header {
+			ch.header[i] = unneutralise(h)
+		}
+	}
+	for c := range tc.filled {
+		if tc.nums[c] > 0 && 2*tc.nums[c] >= tc.filled[c] {
+			ch.numeric = append(ch.numeric, c)
+		}
+	}
+	xc, yc := opt.XCol, opt.YCol
+	if columns != nil {
+		var err error
+		if xc, yc, err = columns(ch.header); err != nil {
+			return ch, err
+		}
+	}
+	if xc == yc {
+		xc, yc = DetectColumn, DetectColumn
+	}
+	for _, c := range []int{xc, yc} {
+		if c >= tc.width {
+			return ch, &CSVError{Err: fmt.Errorf("%w: column %d (the file has %d columns)", ErrCSVNoColumn, c+1, tc.width)}
+		}
+	}
+	pick := func(not int) int {
+		for _, c := range ch.numeric {
+			if c != not {
+				return c
+			}
+		}
+		return DetectColumn
+	}
+	if xc < 0 {
+		xc = pick(yc)
+	}
+	if yc < 0 {
+		yc = pick(xc)
+	}
+	if xc < 0 || yc < 0 {
+		return ch, &CSVError{Err: ErrCSVColumns}
+	}
+	ch.xc, ch.yc = xc, yc
+	return ch, nil
 }

@@ -60,6 +60,8 @@ type StreamResult struct {
 	Delimiter      rune
 	DecimalComma   bool
 	HasHeader      bool
+	UnitsRow       bool
+	Units          []string
 	PairlineExport bool
 	XCol, YCol     int
 	Warnings       []string
@@ -235,11 +237,8 @@ func (b *blockReader) next() string {
 func lineEnds(s string) int { return lineAt(s, len(s)) - 1 }
 
 type pass1 struct {
-	rows          int
-	first, second []string
-	firstLine     int
-	filled, nums  []int
-	fallback      bool
+	tableCounts
+	fallback bool
 }
 
 // streamPass1 is pass 1 of readTable over blocks, with decodeText's checks
@@ -317,7 +316,7 @@ func (p *pass1) scan(block string, lineOff int, res *StreamResult) *CSVError {
 	sc := newCSVScanner(block, res.Delimiter)
 	sc.line += lineOff
 	for {
-		sc.raw = p.rows >= 2
+		sc.raw = p.rows >= 3 // the first three rows are kept as they are read
 		fields, line, cerr := sc.next()
 		if cerr != nil {
 			return cerr
@@ -328,19 +327,10 @@ func (p *pass1) scan(block string, lineOff int, res *StreamResult) *CSVError {
 		if isBlankRow(fields) {
 			continue
 		}
-		p.rows++
-		if p.rows > MaxStreamRows+1 {
+		if p.rows+1 > MaxStreamRows+1 {
 			return &CSVError{Line: line, Err: fmt.Errorf("%w (at most %d)", ErrCSVStreamRows, MaxStreamRows)}
 		}
-		res.Width = max(res.Width, len(fields))
-		switch p.rows {
-		case 1:
-			p.first, p.firstLine = cloneFields(fields), line
-			continue
-		case 2:
-			p.second = cloneFields(fields)
-		}
-		p.count(fields)
+		p.add(fields, line, cloneFields)
 	}
 }
 
@@ -353,100 +343,15 @@ func cloneFields(fields []string) []string {
 	return out
 }
 
-func (p *pass1) count(fields []string) {
-	for len(p.filled) < len(fields) {
-		p.filled, p.nums = append(p.filled, 0), append(p.nums, 0)
-	}
-	for c, f := range fields {
-		if !isBlank(f) {
-			p.filled[c]++
-			if isNumberCell(f) {
-				p.nums[c]++
-			}
-		}
-	}
-}
-
 // streamChoose decides the header and the columns between the passes, by
-// the rules of readTable (the differential and fuzz tests hold the two to
-// the same answers).
+// readTable's own rule (decideTable).
 func streamChoose(opt StreamOptions, res *StreamResult, p *pass1) error {
-	numbers := func(f []string) int {
-		n := 0
-		for _, c := range f {
-			if isNumberCell(c) {
-				n++
-			}
-		}
-		return n
+	ch, err := decideTable(opt.CSVOptions, &p.tableCounts, opt.Columns)
+	if err != nil {
+		return err
 	}
-	if opt.Header != nil {
-		res.HasHeader = *opt.Header
-	} else {
-		hasText := false
-		for _, c := range p.first {
-			if !isBlank(c) && !isNumberCell(c) {
-				hasText = true
-			}
-		}
-		res.HasHeader = hasText && (p.rows == 1 || numbers(p.second) > numbers(p.first))
-	}
-	if res.HasHeader {
-		res.Header = p.first
-	} else {
-		p.count(p.first)
-	}
-	if res.HasHeader && p.rows == 1 {
-		return &CSVError{Line: p.firstLine, Err: fmt.Errorf("%w: there is only a header row", ErrCSVNoData)}
-	}
-	if opt.PairlineExport != nil {
-		res.PairlineExport = *opt.PairlineExport
-	} else {
-		res.PairlineExport = res.HasHeader && isPairlineExport(res.Header)
-	}
-	if res.PairlineExport && res.HasHeader {
-		for i, h := range res.Header {
-			res.Header[i] = unneutralise(h)
-		}
-	}
-	for c := range p.filled {
-		if p.nums[c] > 0 && 2*p.nums[c] >= p.filled[c] {
-			res.NumericColumns = append(res.NumericColumns, c)
-		}
-	}
-	xc, yc := opt.XCol, opt.YCol
-	if opt.Columns != nil {
-		var err error
-		if xc, yc, err = opt.Columns(res.Header); err != nil {
-			return err
-		}
-	}
-	if xc == yc {
-		xc, yc = DetectColumn, DetectColumn
-	}
-	for _, c := range []int{xc, yc} {
-		if c >= res.Width {
-			return &CSVError{Err: fmt.Errorf("%w: column %d (the file has %d columns)", ErrCSVNoColumn, c+1, res.Width)}
-		}
-	}
-	pick := func(not int) int {
-		for _, c := range res.NumericColumns {
-			if c != not {
-				return c
-			}
-		}
-		return DetectColumn
-	}
-	if xc < 0 {
-		xc = pick(yc)
-	}
-	if yc < 0 {
-		yc = pick(xc)
-	}
-	if xc < 0 || yc < 0 {
-		return &CSVError{Err: ErrCSVColumns}
-	}
-	res.XCol, res.YCol = xc, yc
+	res.Width, res.HasHeader, res.UnitsRow, res.Header, res.Units = p.width, ch.hasHeader, ch.unitsRow, ch.header, ch.units
+	res.PairlineExport, res.NumericColumns, res.XCol, res.YCol = ch.export, ch.numeric, ch.xc, ch.yc
 	return nil
 }
 
@@ -562,7 +467,7 @@ func streamPass2(r io.ReadSeeker, res *StreamResult, rows int) error {
 			seen++
 			res.Blank += pendingBlank
 			pendingBlank = 0
-			if seen == 1 && res.HasHeader {
+			if seen == 1 && res.HasHeader || seen == 2 && res.UnitsRow {
 				continue
 			}
 			if data++; data > MaxStreamRows {
@@ -685,7 +590,7 @@ func streamFallback(r io.ReadSeeker, opt StreamOptions) (*StreamResult, error) {
 	x, y, lines, problems := ParsedPairs(cr)
 	res := &StreamResult{X: x, Y: y, Header: cr.Header, Width: cr.Width, NumericColumns: cr.NumericColumns,
 		Skipped: cr.Skipped, Blank: cr.Blank, Incomplete: cr.Incomplete, Delimiter: cr.Delimiter,
-		DecimalComma: cr.DecimalComma, HasHeader: cr.HasHeader, PairlineExport: cr.PairlineExport,
+		DecimalComma: cr.DecimalComma, HasHeader: cr.HasHeader, UnitsRow: cr.UnitsRow, Units: cr.Units, PairlineExport: cr.PairlineExport,
 		XCol: cr.XCol, YCol: cr.YCol, Warnings: cr.Warnings}
 	res.Lines = make([]int32, len(lines))
 	for i, l := range lines {

@@ -88,7 +88,7 @@ func streamOracle(in string, opt CSVOptions) (*StreamResult, error) {
 	x, y, lines, problems := ParsedPairs(cr)
 	res := &StreamResult{X: x, Y: y, Header: cr.Header, Width: cr.Width, NumericColumns: cr.NumericColumns,
 		Skipped: cr.Skipped, Blank: cr.Blank, Incomplete: cr.Incomplete, Delimiter: cr.Delimiter,
-		DecimalComma: cr.DecimalComma, HasHeader: cr.HasHeader, PairlineExport: cr.PairlineExport,
+		DecimalComma: cr.DecimalComma, HasHeader: cr.HasHeader, UnitsRow: cr.UnitsRow, Units: cr.Units, PairlineExport: cr.PairlineExport,
 		XCol: cr.XCol, YCol: cr.YCol, Warnings: cr.Warnings}
 	for _, l := range lines {
 		res.Lines = append(res.Lines, int32(l))
