@@ -134,7 +134,7 @@ func History(args []string, stdout, stderr io.Writer) int {
 			for _, in := range ins {
 				n += len(in.Entries)
 			}
-			_, err = fmt.Fprintf(stdout, "Wrote %s: %d instruments, %d sessions, %d files skipped.\n", term(*htmlOut), len(ins), n, len(skipped))
+			_, err = fmt.Fprintf(stdout, "Wrote %s: %s, %s, %s skipped.\n", term(*htmlOut), count(len(ins), "instrument"), count(n, "session"), count(len(skipped), "file"))
 		}
 	case *asJSON:
 		err = historyJSON(stdout, ins, skipped)
@@ -153,6 +153,14 @@ func History(args []string, stdout, stderr io.Writer) int {
 		}
 	}
 	return ExitOK
+}
+
+// count is "1 session", "3 sessions".
+func count(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return strconv.Itoa(n) + " " + noun + "s"
 }
 
 func btoi(b bool) int {

@@ -45,9 +45,11 @@ const historyCSS = `
 .hf-calm { padding: 8px 10px; border-left: 6px solid #14532d; background: #eef6f0; margin: 8px 0; }
 .hf-note { padding: 8px 10px; border-left: 6px solid #7a4a00; background: #fffbea; margin: 8px 0; }
 .hf-superseded td { color: #3a434b; background: #f1efe9; }
-.hf-skipped td:first-child { font-family: ui-monospace, monospace; font-size: 0.85em; }
+.hf-skipped td:first-child { font-family: ui-monospace, monospace; font-size: 0.85em; width: 40%; }
 .hf-inst .pl-rt td { overflow-wrap: break-word; }
 .hf-sig { white-space: nowrap; }
+.hf-cal td:nth-child(2) { font-size: 0.88em; }
+@media (min-width: 641px) { .hf-cal td:last-child, .hf-cal td:nth-child(2) { min-width: 8.5em; } }
 .hf-legend { font-size: 0.85rem; color: #3a434b; margin: 2px 0 0; }
 @media (max-width: 640px) { .hf-inst > h2 { font-size: 1.1rem; } }
 `
@@ -67,7 +69,7 @@ func hunit(u string) string {
 	if strings.TrimSpace(u) == "" {
 		return ""
 	}
-	return " " + hx(u)
+	return "\u00a0" + hx(u)
 }
 
 // hdays is a date shown on the page.
@@ -119,13 +121,13 @@ func historyHTML(w io.Writer, p htmlPage) error {
 		"<title>Pairline instrument history</title><style>\n" + web.ReportCSS + historyCSS + "</style></head>\n" +
 		"<body class=\"pl-report-file\">\n<main class=\"pl-report\" data-testid=\"hfile-page\">\n")
 	b.WriteString(`<p class="pl-report-kicker">Pairline · instrument history</p><h1>Calibration history by instrument</h1>`)
-	fmt.Fprintf(&b, `<p class="pl-report-when">Made %s UTC from %d files: %d sessions of %d instruments`,
-		p.Now.UTC().Format("2006-01-02 15:04"), p.Files, nsess, len(p.Instances))
+	fmt.Fprintf(&b, `<p class="pl-report-when">Made %s UTC from %s: %s of %s`,
+		p.Now.UTC().Format("2006-01-02 15:04"), count(p.Files, "file"), count(nsess, "session"), count(len(p.Instances), "instrument"))
 	if p.Filter != "" {
 		b.WriteString(" (only the instrument " + hx(p.Filter) + ")")
 	}
 	if len(p.Skipped) > 0 {
-		fmt.Fprintf(&b, `; <a href="#skipped">%d files skipped</a>`, len(p.Skipped))
+		fmt.Fprintf(&b, `; <a href="#skipped">%s skipped</a>`, count(len(p.Skipped), "file"))
 	}
 	b.WriteString(".</p>\n")
 	writeCaution(&b)
@@ -348,8 +350,9 @@ func verdictClass(v string) string {
 }
 
 func writeCalibrations(b *strings.Builder, in *history.Instrument) {
-	b.WriteString(`<h3>Calibrations</h3><div class="pl-rt-wrap"><table class="pl-rt pl-rt-stack" data-testid="hfile-calibrations">` +
-		`<thead><tr><th>Readings taken</th><th>Session</th><th>Slope ± standard uncertainty</th><th>Intercept ± standard uncertainty</th><th>R²</th><th>Verdict</th><th>Signed</th></tr></thead><tbody>`)
+	b.WriteString(`<h3>Calibrations</h3><p class="pl-report-small">In time order of the day the readings were taken. u is the standard uncertainty; each estimate is rounded to the place of its uncertainty's second digit (GUM, JCGM 100:2008 §7.2.6).</p>` +
+		`<div class="pl-rt-wrap"><table class="pl-rt pl-rt-stack hf-cal" data-testid="hfile-calibrations">` +
+		`<thead><tr><th>Taken</th><th>Session</th><th>Slope ± u</th><th>Intercept ± u</th><th>R²</th><th>Verdict</th><th>Signed</th></tr></thead><tbody>`)
 	for i := range in.Entries {
 		e := &in.Entries[i]
 		cls := ""
@@ -358,10 +361,11 @@ func writeCalibrations(b *strings.Builder, in *history.Instrument) {
 		}
 		fmt.Fprintf(b, `<tr%s data-testid="hfile-session" data-id="%s" data-verdict="%s"><td data-label="Taken">%s</td><td data-label="Session">%s`,
 			cls, hx(e.ID), hx(e.Verdict), hday(e.Taken), hx(e.Title))
+		b.WriteString(`<br><span class="pl-report-digest">` + hx(shortID(e.ID)) + `</span>`)
 		if e.Revision > 0 {
-			fmt.Fprintf(b, ` <span class="pl-report-small">(revision %d)</span>`, e.Revision)
+			fmt.Fprintf(b, ` <span class="pl-report-small hf-sig">rev. %d</span>`, e.Revision)
 		}
-		b.WriteString(`<br><span class="pl-report-digest">` + hx(shortID(e.ID)) + `</span></td>`)
+		b.WriteString(`</td>`)
 		if e.Fitted {
 			b.WriteString(`<td data-label="Slope">` + hpm(e.Slope, e.SlopeSE) + `</td><td data-label="Intercept">` + hpm(e.Intercept, e.InterceptSE) +
 				`</td><td data-label="R²">` + hnum(e.RSquared, numfmt.Decimals(e.RSquared, 4)) + `</td>`)
@@ -414,7 +418,7 @@ func entryByID(in *history.Instrument, id string) *history.Entry {
 // xdiff writes one difference of converted values: units and % of range.
 func xdiff(d fitcore.XDifference, xUnit string) string {
 	return `<span class="pl-rnum" data-value="` + numfmt.Full(d.Diff) + `" data-x="` + numfmt.Full(d.X) + `" data-percent="` + numfmt.Full(d.Percent) + `">` +
-		html.EscapeString(signed(d.Diff, 3)) + `</span>` + hunit(xUnit) + `<br><span class="pl-report-small">` + hnum(d.Percent, signed(d.Percent, 2)) + "\u00a0% of the range</span>"
+		html.EscapeString(signed(d.Diff, 3)) + `</span>` + hunit(xUnit) + `<br><span class="pl-report-small">` + hnum(d.Percent, signed(d.Percent, 2)) + "\u00a0%</span>"
 }
 
 // signed is numfmt.Sig with an explicit "+" for positive values.
@@ -478,14 +482,14 @@ func writeChanges(b *strings.Builder, in *history.Instrument, u instUnits) {
 		return
 	}
 	b.WriteString(`<h3>Each accepted calibration against the previous accepted one</h3>` +
-		`<p class="pl-report-small">Equal slopes: separate lines against a common slope, F(1, df). One common line: separate lines against one line through both, F(2, df). A change is claimed at p &lt; 0.01. The differences are the value today's response at that x converts to with the previous line, minus x.</p>` +
-		`<div class="pl-rt-wrap"><table class="pl-rt pl-rt-stack" data-testid="hfile-changes"><thead><tr><th>Calibration</th><th>Against</th><th>Equal slopes</th><th>One common line</th><th>Verdict</th><th>At the middle</th><th>At the top</th></tr></thead><tbody>`)
+		`<p class="pl-report-small">Equal slopes: separate lines against a common slope, F(1, df). One common line: separate lines against one line through both, F(2, df). A change is claimed at p &lt; 0.01. The differences are the value today's response at that x converts to with the previous line, minus x, in the unit of x and in % of today's range of x.</p>` +
+		`<div class="pl-rt-wrap"><table class="pl-rt pl-rt-stack" data-testid="hfile-changes"><thead><tr><th>Calibration</th><th>Equal slopes</th><th>One common line</th><th>Verdict</th><th>At the middle (x; % of range)</th><th>At the top (x; % of range)</th></tr></thead><tbody>`)
 	for _, c := range in.Changes {
 		cur, prev := entryByID(in, c.Session), entryByID(in, c.Previous)
-		fmt.Fprintf(b, `<tr data-testid="hfile-change" data-session="%s" data-previous="%s" data-verdict="%s"><td data-label="Calibration">%s</td><td data-label="Against">%s</td>`,
+		fmt.Fprintf(b, `<tr data-testid="hfile-change" data-session="%s" data-previous="%s" data-verdict="%s"><td data-label="Calibration">%s<br><span class="pl-report-small">against</span> %s</td>`,
 			hx(c.Session), hx(c.Previous), hx(c.Verdict), hday(cur.Taken), hday(prev.Taken))
-		fmt.Fprintf(b, `<td data-label="Equal slopes"><span class="hf-sig">F(1, %d) = %s,</span> %s</td>`, c.DF2Slopes, hnum(c.FSlopes, numfmt.Sig(c.FSlopes, 3)), pnum(c.PSlopes))
-		fmt.Fprintf(b, `<td data-label="One common line"><span class="hf-sig">F(2, %d) = %s,</span> %s</td>`, c.DF2Coincident, hnum(c.FCoincident, numfmt.Sig(c.FCoincident, 3)), pnum(c.PCoincident))
+		fmt.Fprintf(b, `<td data-label="Equal slopes"><span class="hf-sig">F(1, %d) = %s</span><br>%s</td>`, c.DF2Slopes, hnum(c.FSlopes, numfmt.Sig(c.FSlopes, 3)), pnum(c.PSlopes))
+		fmt.Fprintf(b, `<td data-label="One common line"><span class="hf-sig">F(2, %d) = %s</span><br>%s</td>`, c.DF2Coincident, hnum(c.FCoincident, numfmt.Sig(c.FCoincident, 3)), pnum(c.PCoincident))
 		b.WriteString(`<td data-label="Verdict">` + changeVerdict(c.Verdict) + `</td>`)
 		b.WriteString(`<td data-label="Middle, x = ` + html.EscapeString(numfmt.Short(c.Middle.X, 6)) + `">` + xdiff(c.Middle, u.xUnit) + `</td>`)
 		b.WriteString(`<td data-label="Top, x = ` + html.EscapeString(numfmt.Short(c.Top.X, 6)) + `">` + xdiff(c.Top, u.xUnit) + `</td></tr>`)
