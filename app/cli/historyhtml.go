@@ -597,7 +597,7 @@ func writeCharts(b *strings.Builder, i int, in *history.Instrument, opt history.
 		return
 	}
 	b.WriteString(`<div class="pl-report-plotgrid">`)
-	limits := false
+	limits, projected := false, false
 	for _, c := range []struct {
 		name, title string
 		val         func(e *history.Entry) (v, lo, hi float64)
@@ -647,6 +647,17 @@ func writeCharts(b *strings.Builder, i int, in *history.Instrument, opt history.
 				xs, ys = append(xs, x), append(ys, r.Intercept+r.Rate*t)
 			}
 			ch.Paths = append(ch.Paths, plot.Path{X: xs, Y: ys, Class: "hf-trend", Stroke: "#0b4f5c", Width: 3})
+			// The projection to the limit, dotted, when it falls within
+			// as long again as the calibrations span (at least half a
+			// year): a far one would squeeze the calibrations together.
+			if r.Status == fitcore.DriftDrifting && r.Leaves != nil {
+				xc := off + 365.25*r.Leaves.At
+				if xc > tmax && xc-tmax <= math.Max(tmax-off, 183) {
+					ch.Paths = append(ch.Paths, plot.Path{X: []float64{tmax, xc}, Y: []float64{ys[1], r.Leaves.Limit},
+						Class: "hf-projection", Stroke: "#0b4f5c", Width: 2.5, Dash: "2 5"})
+					projected = true
+				}
+			}
 		}
 		for _, l := range []*float64{c.low, c.high} {
 			if l != nil {
@@ -660,6 +671,9 @@ func writeCharts(b *strings.Builder, i int, in *history.Instrument, opt history.
 	}
 	b.WriteString(`</div><p class="hf-legend">Dots: accepted calibrations, each with its own ` + levelPct(firstLevel(in)) +
 		` interval; hollow squares: calibrations not accepted; solid line: the fitted trend over the accepted ones`)
+	if projected {
+		b.WriteString(`; dotted line: the trend carried on to the limit it is projected to leave`)
+	}
 	if limits {
 		b.WriteString(`; dashed lines: the limits given`)
 	}

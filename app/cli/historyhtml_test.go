@@ -191,6 +191,17 @@ func TestHistoryHTMLScenario(t *testing.T) {
 		}
 	}
 
+	// With a lower slope limit of 1.43 the analyser reaches it about
+	// (1.5 − 1.43)/0.048 ≈ 1.46 years after the first calibration, within
+	// as long again as the year of calibrations: the chart carries the
+	// trend on to it; the other instruments get no projection.
+	lim143 := 1.43
+	ins = scenarioInstruments(t, due, false, history.Options{SlopeLow: &lim143})
+	page = renderPage(t, htmlPage{Now: due, Opt: history.Options{SlopeLow: &lim143}, Instances: ins})
+	if !strings.Contains(section(t, page, "LVWB-CL-02"), `class="hf-projection"`) || strings.Count(page, `class="hf-projection"`) != 1 {
+		t.Error("limit 1.43: the projection to the limit is not drawn once, on the analyser's slope chart")
+	}
+
 	// A day before the due day nothing is overdue.
 	ins = scenarioInstruments(t, due.AddDate(0, 0, -1), false, history.Options{})
 	page = renderPage(t, htmlPage{Now: due.AddDate(0, 0, -1), Instances: ins})
