@@ -406,13 +406,25 @@ func shortID(id string) string {
 	return id
 }
 
-func entryByID(in *history.Instrument, id string) *history.Entry {
+// acceptedByID indexes the accepted entries by session ID (one each: the
+// other copies of an ID are earlier revisions), so that the comparisons
+// find their two calibrations in linear time.
+func acceptedByID(in *history.Instrument) map[string]*history.Entry {
+	m := make(map[string]*history.Entry, len(in.Entries))
 	for i := range in.Entries {
-		if in.Entries[i].ID == id && in.Entries[i].Verdict == history.Accepted {
-			return &in.Entries[i]
+		if in.Entries[i].Verdict == history.Accepted {
+			m[in.Entries[i].ID] = &in.Entries[i]
 		}
 	}
-	return nil
+	return m
+}
+
+// hdayOf is hday of an entry's day, "—" without an entry.
+func hdayOf(e *history.Entry) string {
+	if e == nil {
+		return "—"
+	}
+	return hday(e.Taken)
 }
 
 // xdiff writes one difference of converted values: units and % of range.
@@ -439,7 +451,8 @@ func writeToday(b *strings.Builder, in *history.Instrument, u instUnits) {
 		return
 	}
 	c := in.Changes[n-1]
-	cur, prev := entryByID(in, c.Session), entryByID(in, c.Previous)
+	acc := acceptedByID(in)
+	cur, prev := acc[c.Session], acc[c.Previous]
 	cls := "hf-calm"
 	if c.Verdict != fitcore.LinesSame {
 		cls = "hf-alert"
@@ -484,10 +497,11 @@ func writeChanges(b *strings.Builder, in *history.Instrument, u instUnits) {
 	b.WriteString(`<h3>Each accepted calibration against the previous accepted one</h3>` +
 		`<p class="pl-report-small">Equal slopes: separate lines against a common slope, F(1, df). One common line: separate lines against one line through both, F(2, df). A change is claimed at p &lt; 0.01. The differences are the value today's response at that x converts to with the previous line, minus x, in the unit of x and in % of today's range of x.</p>` +
 		`<div class="pl-rt-wrap"><table class="pl-rt pl-rt-stack" data-testid="hfile-changes"><thead><tr><th>Calibration</th><th>Equal slopes</th><th>One common line</th><th>Verdict</th><th>At the middle (x; % of range)</th><th>At the top (x; % of range)</th></tr></thead><tbody>`)
+	acc := acceptedByID(in)
 	for _, c := range in.Changes {
-		cur, prev := entryByID(in, c.Session), entryByID(in, c.Previous)
+		cur, prev := acc[c.Session], acc[c.Previous]
 		fmt.Fprintf(b, `<tr data-testid="hfile-change" data-session="%s" data-previous="%s" data-verdict="%s"><td data-label="Calibration">%s<br><span class="pl-report-small">against</span> %s</td>`,
-			hx(c.Session), hx(c.Previous), hx(c.Verdict), hday(cur.Taken), hday(prev.Taken))
+			hx(c.Session), hx(c.Previous), hx(c.Verdict), hdayOf(cur), hdayOf(prev))
 		fmt.Fprintf(b, `<td data-label="Equal slopes"><span class="hf-sig">F(1, %d) = %s</span><br>%s</td>`, c.DF2Slopes, hnum(c.FSlopes, numfmt.Sig(c.FSlopes, 3)), pnum(c.PSlopes))
 		fmt.Fprintf(b, `<td data-label="One common line"><span class="hf-sig">F(2, %d) = %s</span><br>%s</td>`, c.DF2Coincident, hnum(c.FCoincident, numfmt.Sig(c.FCoincident, 3)), pnum(c.PCoincident))
 		b.WriteString(`<td data-label="Verdict">` + changeVerdict(c.Verdict) + `</td>`)
