@@ -317,10 +317,10 @@ func writeDue(b *strings.Builder, in *history.Instrument, now time.Time) {
 	case "overdue":
 		late := int(math.Floor(now.Sub(in.Due).Hours() / 24))
 		fmt.Fprintf(b, `<p class="hf-alert" data-testid="hfile-due" data-state="overdue" data-value="%s" data-days="%d"><strong>Overdue by %d days:</strong> the next calibration was due on %s, %d days after the last accepted one (%s).</p>`,
-			day(in.Due), late, late, day(in.Due), dayCount(la, in.Due), day(la.Taken))
+			day(in.Due), late, late, hday(in.Due), dayCount(la, in.Due), hday(la.Taken))
 	case "due":
 		fmt.Fprintf(b, `<p class="hf-calm" data-testid="hfile-due" data-state="due" data-value="%s">Next calibration due on <strong>%s</strong>, %d days after the last accepted one (%s).</p>`,
-			day(in.Due), day(in.Due), dayCount(la, in.Due), day(la.Taken))
+			day(in.Due), hday(in.Due), dayCount(la, in.Due), hday(la.Taken))
 	default:
 		if la == nil {
 			b.WriteString(`<p class="hf-note" data-testid="hfile-due" data-state="unknown">No accepted calibration, so no due date.</p>`)
@@ -458,7 +458,7 @@ func writeToday(b *strings.Builder, in *history.Instrument, u instUnits) {
 		cls = "hf-alert"
 	}
 	fmt.Fprintf(b, `<div class="%s" data-testid="hfile-today" data-verdict="%s"><p><strong>Latest against the previous accepted calibration</strong> (%s against %s): `,
-		cls, hx(c.Verdict), dayOf(cur), dayOf(prev))
+		cls, hx(c.Verdict), hdayOf(cur), hdayOf(prev))
 	switch c.Verdict {
 	case fitcore.LinesSame:
 		b.WriteString(`the two lines agree (one common line, ` + html.EscapeString(wording.PEq(c.PCoincident)) + `).`)
@@ -481,13 +481,6 @@ func readsWord(d fitcore.XDifference, xUnit string) string {
 		return "the same value"
 	}
 	return hnum(math.Abs(d.Diff), numfmt.Sig(math.Abs(d.Diff), 3)) + hunit(xUnit) + " " + word + " (" + hnum(d.Percent, numfmt.Sig(math.Abs(d.Percent), 2)) + "\u00a0% of the range)"
-}
-
-func dayOf(e *history.Entry) string {
-	if e == nil {
-		return "—"
-	}
-	return day(e.Taken)
 }
 
 func writeChanges(b *strings.Builder, in *history.Instrument, u instUnits) {
@@ -564,10 +557,10 @@ func writeDrift(b *strings.Builder, in *history.Instrument, opt history.Options,
 			if r.Leaves.Bounded {
 				lo, hi := in.Origin.Add(history.Duration(r.Leaves.Low)), in.Origin.Add(history.Duration(r.Leaves.High))
 				fmt.Fprintf(b, ` data-low="%s" data-high="%s"><strong>Projected to leave its %s limit %s about %s</strong> (%s interval %s to %s).</span>`,
-					day(lo), day(hi), r.Leaves.Side, hnum(r.Leaves.Limit, numfmt.Short(r.Leaves.Limit, 6)), day(at), levelPct(r.Level), day(lo), day(hi))
+					day(lo), day(hi), r.Leaves.Side, hnum(r.Leaves.Limit, numfmt.Short(r.Leaves.Limit, 6)), hday(at), levelPct(r.Level), hday(lo), hday(hi))
 			} else {
 				fmt.Fprintf(b, `><strong>Projected to leave its %s limit %s about %s</strong> (the interval of that date is open: the trend is too uncertain to bound it).</span>`,
-					r.Leaves.Side, hnum(r.Leaves.Limit, numfmt.Short(r.Leaves.Limit, 6)), day(at))
+					r.Leaves.Side, hnum(r.Leaves.Limit, numfmt.Short(r.Leaves.Limit, 6)), hday(at))
 			}
 		case r.Status == fitcore.DriftDrifting:
 			b.WriteString(` The trend does not head for a limit given.`)
