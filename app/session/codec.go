@@ -1256,21 +1256,48 @@ func (b *bodyDecoder) content(k, path string, c *Content) *FormatError {
 	return b.skip(path, 0)
 }
 
-// historyList reads a session's history; all entries count towards
-// MaxFileHistory.
-func (b *bodyDecoder) historyList(path string, p *[]Edit) *FormatError {
+// fileCount is a count kept over the whole file: the entries read so far
+// into *n, at most limit of them, what names them in the error.
+type fileCount struct {
+	n     *int
+	limit int
+	what  string
+}
+
+func (b *bodyDecoder) fileReadingsCount() fileCount {
+	return fileCount{&b.readings, MaxFileReadings, "readings"}
+}
+func (b *bodyDecoder) fileHistoryCount() fileCount {
+	return fileCount{&b.history, MaxFileHistory, "history entries"}
+}
+func (b *bodyDecoder) fileSealedCount() fileCount {
+	return fileCount{&b.sealed, MaxFileSealedRevisions, "earlier sealed revisions"}
+}
+func (b *bodyDecoder) fileItemsCount() fileCount {
+	return fileCount{&b.listItems, MaxFileItems, "conditions, standards, unknowns and readings of unknowns"}
+}
+
+// countedList reads an array of at most max elements (each taking at
+// least minSize bytes) into *p, every element read by each; the elements
+// count towards the file's count c. An empty array reads as nil when
+// emptyNil is set (as a new record holds it), else as an empty slice.
+func countedList[T any](b *bodyDecoder, path string, max, minSize int, c fileCount, emptyNil bool, p *[]T, each func(t *T) *FormatError) *FormatError {
 	off := b.off()
-	n, ferr := b.arrayLen(path, MaxHistory, minEditSize)
+	n, ferr := b.arrayLen(path, max, minSize)
 	if ferr != nil {
 		return ferr
 	}
-	if b.history += n; b.history > MaxFileHistory {
-		return b.fail(off, path, fmt.Errorf("%w: the sessions hold more than %d history entries in all", ErrTooLarge, MaxFileHistory))
+	if *c.n += n; *c.n > c.limit {
+		return b.fail(off, path, fmt.Errorf("%w: the sessions hold more than %d %s in all", ErrTooLarge, c.limit, c.what))
 	}
-	h := make([]Edit, n)
-	*p = h
-	for i := range h {
-		if ferr := b.edit("", &h[i]); ferr != nil {
+	if n == 0 && emptyNil {
+		*p = nil
+		return nil
+	}
+	list := make([]T, n)
+	*p = list
+	for i := range list {
+		if ferr := each(&list[i]); ferr != nil {
 			ferr.Field = prefixIndex(i, ferr.Field)
 			return ferr
 		}
@@ -1278,30 +1305,16 @@ func (b *bodyDecoder) historyList(path string, p *[]Edit) *FormatError {
 	return nil
 }
 
-// sealedList reads a session's earlier sealed revisions; an empty list
-// reads as nil, and all of them count towards MaxFileSealedRevisions.
+// historyList reads a session's history.
+func (b *bodyDecoder) historyList(path string, p *[]Edit) *FormatError {
+	return countedList(b, path, MaxHistory, minEditSize, b.fileHistoryCount(), false, p,
+		func(e *Edit) *FormatError { return b.edit("", e) })
+}
+
+// sealedList reads a session's earlier sealed revisions.
 func (b *bodyDecoder) sealedList(path string, p *[]SealedRevision) *FormatError {
-	off := b.off()
-	n, ferr := b.arrayLen(path, MaxSealedRevisions, 1)
-	if ferr != nil {
-		return ferr
-	}
-	if b.sealed += n; b.sealed > MaxFileSealedRevisions {
-		return b.fail(off, path, fmt.Errorf("%w: the sessions hold more than %d earlier sealed revisions in all", ErrTooLarge, MaxFileSealedRevisions))
-	}
-	if n == 0 {
-		*p = nil
-		return nil
-	}
-	rs := make([]SealedRevision, n)
-	*p = rs
-	for i := range rs {
-		if ferr := b.sealedRevision("", &rs[i]); ferr != nil {
-			ferr.Field = prefixIndex(i, ferr.Field)
-			return ferr
-		}
-	}
-	return nil
+	return countedList(b, path, MaxSealedRevisions, 1, b.fileSealedCount(), true, p,
+		func(r *SealedRevision) *FormatError { return b.sealedRevision("", r) })
 }
 
 func (b *bodyDecoder) instrument(field string, in *Instrument) *FormatError {
@@ -1355,35 +1368,10 @@ func (b *bodyDecoder) location(field string, p **Location) *FormatError {
 	})
 }
 
-// readingList reads the readings of a session or of a sealed revision; all
-// of them count towards MaxFileReadings.
+// readingList reads the readings of a session or of a sealed revision.
 func (b *bodyDecoder) readingList(path string, p *[]Reading) *FormatError {
-	off := b.off()
-	n, ferr := b.arrayLen(path, MaxReadings, 1)
-	if ferr != nil {
-		return ferr
-	}
-	if b.readings += n; b.readings > MaxFileReadings {
-		return b.fail(off, path, fmt.Errorf("%w: the sessions hold more than %d readings in all", ErrTooLarge, MaxFileReadings))
-	}
-	rs := make([]Reading, n)
-	*p = rs
-	for i := range rs {
-		if ferr := b.reading("", &rs[i]); ferr != nil {
-			ferr.Field = prefixIndex(i, ferr.Field)
-			return ferr
-		}
-	}
-	return nil
-}
-
-// items counts n more entries of the record lists (conditions, standards,
-// unknowns and the readings of unknowns) against MaxFileItems.
-func (b *bodyDecoder) items(off int64, path string, n int) *FormatError {
-	if b.listItems += n; b.listItems > MaxFileItems {
-		return b.fail(off, path, fmt.Errorf("%w: the sessions hold more than %d conditions, standards, unknowns and readings of unknowns in all", ErrTooLarge, MaxFileItems))
-	}
-	return nil
+	return countedList(b, path, MaxReadings, 1, b.fileReadingsCount(), false, p,
+		func(r *Reading) *FormatError { return b.reading("", r) })
 }
 
 // recordList reads an array of at most max maps into *p, each map's keys
@@ -1391,28 +1379,9 @@ func (b *bodyDecoder) items(off int64, path string, n int) *FormatError {
 // not know); an empty array reads as nil, as a new record holds it. Every
 // element counts toward the file's MaxFileItems.
 func recordList[T any](b *bodyDecoder, path string, max int, p *[]T, each func(t *T, k, q string) *FormatError) *FormatError {
-	off := b.off()
-	n, ferr := b.arrayLen(path, max, 1)
-	if ferr != nil {
-		return ferr
-	}
-	if ferr := b.items(off, path, n); ferr != nil {
-		return ferr
-	}
-	if n == 0 {
-		*p = nil
-		return nil
-	}
-	list := make([]T, n)
-	*p = list
-	for i := range list {
-		t := &list[i]
-		if ferr := b.mapEach("", func(k, q string) *FormatError { return each(t, k, q) }); ferr != nil {
-			ferr.Field = prefixIndex(i, ferr.Field)
-			return ferr
-		}
-	}
-	return nil
+	return countedList(b, path, max, 1, b.fileItemsCount(), true, p, func(t *T) *FormatError {
+		return b.mapEach("", func(k, q string) *FormatError { return each(t, k, q) })
+	})
 }
 
 func (b *bodyDecoder) conditions(path string, p *[]Condition) *FormatError {
@@ -1453,26 +1422,8 @@ func (b *bodyDecoder) unknowns(path string, p *[]Unknown) *FormatError {
 		case "name":
 			return b.str(q, MaxShortText, &u.Name)
 		case "readings":
-			roff := b.off()
-			m, ferr := b.arrayLen(q, MaxUnknownReadings, 1)
-			if ferr != nil {
-				return ferr
-			}
-			if ferr := b.items(roff, q, m); ferr != nil {
-				return ferr
-			}
-			if m == 0 {
-				u.Readings = nil
-				return nil
-			}
-			u.Readings = make([]string, m)
-			for j := range u.Readings {
-				if ferr := b.str("", MaxCellText, &u.Readings[j]); ferr != nil {
-					ferr.Field = prefixIndex(j, ferr.Field)
-					return ferr
-				}
-			}
-			return nil
+			return countedList(b, q, MaxUnknownReadings, 1, b.fileItemsCount(), true, &u.Readings,
+				func(r *string) *FormatError { return b.str("", MaxCellText, r) })
 		}
 		return b.skip(q, 0)
 	})
