@@ -16,6 +16,7 @@ import (
 	"pairline/app/session"
 	"pairline/app/wording"
 	"pairline/fitcore"
+	"pairline/internal/reftest"
 )
 
 const csvDir = "../../testdata/csv"
@@ -237,7 +238,7 @@ func TestFitSummary(t *testing.T) {
 // scores LRE, certified values have 15 digits).
 func TestFitNorrisCertified(t *testing.T) {
 	const src = "NIST StRD Norris certified values"
-	path := refPath(t, "strd", "Norris.txt")
+	path := reftest.Path(t, "strd", "Norris.txt")
 	b, err := os.ReadFile(path)
 	if err != nil {
 		t.Fatal(err)
