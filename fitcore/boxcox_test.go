@@ -12,7 +12,7 @@ import (
 	"strings"
 	"testing"
 
-	"pairline/internal/reftest"
+	"pairline/app/reftest"
 )
 
 // bcGoldenPath is written by testdata/refgen/boxcox_ref.py (statsmodels OLS +

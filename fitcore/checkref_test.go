@@ -10,7 +10,7 @@ import (
 	"sync"
 	"testing"
 
-	"pairline/internal/reftest"
+	"pairline/app/reftest"
 )
 
 // Reference values for the assumption checks: testdata/golden/checks.json,

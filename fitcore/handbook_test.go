@@ -10,7 +10,7 @@ import (
 	"testing"
 
 	"pairline/fitcore"
-	"pairline/internal/reftest"
+	"pairline/app/reftest"
 )
 
 // Worked examples of the NIST/SEMATECH e-Handbook of Statistical Methods

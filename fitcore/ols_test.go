@@ -9,7 +9,7 @@ import (
 	"strings"
 	"testing"
 
-	"pairline/internal/reftest"
+	"pairline/app/reftest"
 )
 
 // strdFile is a NIST StRD linear least-squares dataset with its certified

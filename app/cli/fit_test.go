@@ -16,7 +16,7 @@ import (
 	"pairline/app/session"
 	"pairline/app/wording"
 	"pairline/fitcore"
-	"pairline/internal/reftest"
+	"pairline/app/reftest"
 )
 
 const csvDir = "../../testdata/csv"

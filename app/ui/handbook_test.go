@@ -9,7 +9,7 @@ import (
 	"pairline/app/session"
 	"pairline/app/wording"
 	"pairline/fitcore"
-	"pairline/internal/reftest"
+	"pairline/app/reftest"
 )
 
 // handbookSession reads a NIST e-Handbook Dataplot file (free text, a line
