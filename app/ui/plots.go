@@ -31,6 +31,7 @@ type plotsUI struct {
 	plSel    int // selected reading + 1; 0 = none
 	plReason string
 	plMsg    string
+	plAt     panelPlace // where the panel floats (placed at each tap)
 
 	plCacheRep  *fitcore.Report
 	plCacheSess *session.Session
@@ -379,7 +380,10 @@ func (c *Shell) renderPlots() app.UI {
 			// The same panel without a tap (keyboard, screen reader): it
 			// opens on the first flagged reading, or the first reading.
 			app.Button().Class("pl-btn pl-btn-quiet").Text("Go through the readings").DataSet("testid", "plot-point-open").
-				Hidden(c.plSel > 0).OnClick(func(ctx app.Context, e app.Event) { c.selectPoint(c.firstFlaggedRow()) }),
+				Hidden(c.plSel > 0).OnClick(func(ctx app.Context, e app.Event) {
+					c.plAt = placePanel(app.Null(), 0)
+					c.selectPoint(c.firstFlaggedRow())
+				}),
 		),
 		// The notes and the grid keep their places whether shown or not, so
 		// that go-app never re-mounts the plots because a sibling came or went.
@@ -392,8 +396,8 @@ func (c *Shell) renderPlots() app.UI {
 			plFigure("Residuals against fitted values", ps.Residuals, ps.plRing("plot-residuals", c.plSel-1), nil),
 			plFigure("Residuals in the order entered", ps.Order, ps.plRing("plot-order", c.plSel-1), nil),
 			plFigure("Normal Q–Q plot of the residuals", ps.QQ, ps.plRing("plot-qq", c.plSel-1), nil),
-			// Last in the markup (the stylesheet places the panel beside
-			// the first plot), so that showing it moves no plot.
+			// Last in the markup and floating over the page (position
+			// fixed, web/plots.css), so that showing it moves no plot.
 			app.If(c.plSel > 0, c.renderPointPanel),
 		),
 	)
@@ -462,6 +466,7 @@ func (c *Shell) onPlotTap(ctx app.Context, e app.Event) {
 	}
 	if el := t.Call("closest", ".pl-plot-points [data-row]"); el.Truthy() {
 		if row, err := strconv.Atoi(el.Call("getAttribute", "data-row").String()); err == nil && row >= 0 && row < len(c.sess.Readings) {
+			c.plAt = placePanel(t.Call("closest", ".pl-plot-canvas"), e.Get("clientY").Float())
 			c.selectPoint(row)
 			return
 		}
@@ -488,6 +493,7 @@ func (c *Shell) onPlotTap(ctx app.Context, e app.Event) {
 	if !ok || m.Row < 0 || m.Row >= len(c.sess.Readings) {
 		return
 	}
+	c.plAt = placePanel(t.Call("closest", ".pl-plot-canvas"), e.Get("clientY").Float())
 	c.selectPoint(m.Row)
 }
 
@@ -557,7 +563,17 @@ func (c *Shell) renderPointPanel() app.UI {
 		}
 	}
 	n := len(c.sess.Readings)
-	return app.Aside().Class("pl-point-panel").DataSet("testid", "plot-point-panel").DataSet("row", strconv.Itoa(row)).
+	at := c.plAt
+	if at.h <= 0 {
+		at = placePanel(app.Null(), 0)
+	}
+	place, top := "bottom", "auto"
+	if at.top {
+		place, top = "top", strconv.FormatFloat(at.y, 'f', 0, 64)+"px"
+	}
+	return app.Aside().Class("pl-point-panel pl-at-"+place).DataSet("testid", "plot-point-panel").DataSet("row", strconv.Itoa(row)).
+		DataSet("place", place).
+		Style("--pl-panel-h", strconv.FormatFloat(at.h, 'f', 0, 64)+"px").Style("--pl-panel-top", top).
 		Attr("aria-label", "Reading "+strconv.Itoa(row+1)).Attr("aria-live", "polite").Body(
 		app.Div().Class("pl-point-head").Body(
 			app.H3().Text("Reading "+strconv.Itoa(row+1)),
@@ -608,6 +624,62 @@ func (c *Shell) renderPointPanel() app.UI {
 			return app.P().Class("pl-point-msg").Attr("role", "alert").DataSet("testid", "plot-point-message").Text(c.plMsg)
 		}),
 	)
+}
+
+// panelPlace is where the reading panel floats: at the top of the screen
+// from y (CSS pixels, below the sticky bars) or at its bottom, at most h
+// high (it scrolls inside when its content is longer).
+type panelPlace struct {
+	top  bool
+	y, h float64
+}
+
+// The reading panel's heights, in CSS pixels: the least room it takes
+// beside a plot (its head, the reading's two cells and the reason box),
+// and the most share of the screen it covers.
+const (
+	panelLeast = 240
+	panelShare = 0.6
+	panelGap   = 8
+)
+
+// placePanel decides where the reading panel opens after a tap at screen
+// height tapY on the plot canvas: in the room below the plot or above it,
+// whichever is larger, when that room holds panelLeast; otherwise on the
+// half of the screen away from the tap, so that the reading tapped stays
+// in view (with its 48 px target). Without a canvas (the panel opened from
+// the keyboard) it opens at the bottom. Either way the plot does not move:
+// the panel floats over the page.
+func placePanel(canvas app.Value, tapY float64) panelPlace {
+	w := app.Window()
+	vv := w.Get("visualViewport")
+	watchFieldView()
+	screenH := w.Get("innerHeight").Float()
+	if vv.Truthy() {
+		screenH = vv.Get("height").Float()
+	}
+	if !(screenH > 0) {
+		return panelPlace{h: 360}
+	}
+	top := stickyTop() + panelGap
+	most := panelShare * screenH
+	bottomAt := func(h float64) panelPlace { return panelPlace{h: min(max(h, panelLeast), most)} }
+	if !canvas.Truthy() {
+		return bottomAt(most)
+	}
+	r := canvas.Call("getBoundingClientRect")
+	above := r.Get("top").Float() - top - panelGap
+	below := screenH - r.Get("bottom").Float() - 2*panelGap
+	switch {
+	case below >= panelLeast && below >= above:
+		return bottomAt(below)
+	case above >= panelLeast:
+		return panelPlace{top: true, y: top, h: min(above, most)}
+	case tapY-plotTapPx > (top+screenH)/2:
+		return panelPlace{top: true, y: top, h: min(max(tapY-plotTapPx-top-panelGap, panelLeast), most)}
+	default:
+		return bottomAt(screenH - tapY - plotTapPx - 2*panelGap)
+	}
 }
 
 func (c *Shell) excludePoint(ctx app.Context, row int) {
