@@ -50,12 +50,19 @@ func row(b *strings.Builder, label, value string) {
 // coefBlock is a coefficient as the screen's "More numbers" shows it: the
 // estimate, the interval where a technician looks first, the standard
 // error, the test against the reference value, and the test against 0 only
-// when the reference is not 0 (else it is the same test).
-func coefBlock(b *strings.Builder, name string, c fitcore.Coefficient, level float64) {
+// when the reference is not 0 (else it is the same test). The estimate and
+// the interval's ends are rounded to the decimal place of the standard
+// error's second significant digit, the standard error to two digits
+// (numfmt.Estimate, as the line card and the report), each with unit when
+// it has one; --json keeps the full precision.
+func coefBlock(b *strings.Builder, name string, c fitcore.Coefficient, level float64, unit string) {
 	fmt.Fprintf(b, "  %s\n", name)
-	row(b, wording.Estimate, num(c.Estimate))
-	row(b, wording.Interval(level), wording.Range(num(c.CILow), num(c.CIHigh)))
-	row(b, wording.StandardError, numfmt.Sig(c.SE, 3))
+	est, se := numfmt.Estimate(c.Estimate, c.SE, sig)
+	lo, _ := numfmt.Estimate(c.CILow, c.SE, sig)
+	hi, _ := numfmt.Estimate(c.CIHigh, c.SE, sig)
+	row(b, wording.Estimate, withUnit(est, unit))
+	row(b, wording.Interval(level), withUnit(wording.Range(lo, hi), unit))
+	row(b, wording.StandardError, withUnit(se, unit))
 	ref := wording.Ref(c.Ref)
 	row(b, wording.TestedAgainst, ref)
 	row(b, wording.TAgainst(ref), numfmt.Sig(c.TRef, 4))
@@ -65,6 +72,25 @@ func coefBlock(b *strings.Builder, name string, c fitcore.Coefficient, level flo
 		row(b, wording.TAgainst(zero), numfmt.Sig(c.T, 4))
 		row(b, wording.PAgainst(zero), wording.P(c.P))
 	}
+}
+
+// withUnit appends a unit to a shown number ("0.012 mV"), or nothing.
+func withUnit(shown, unit string) string {
+	if unit == "" {
+		return shown
+	}
+	return shown + " " + unit
+}
+
+// units are the units of the slope and of y-scale figures (intercept,
+// residual SD): those of the readings for a line in original units (the
+// slope as wording.SlopeUnit, "mV per mg/L"); none on a transformed scale,
+// whose figures are in the transformed quantity the fit line names.
+func (fr *fitResult) units() (slope, y string) {
+	if tr := fr.report.Transform; (tr != "" && tr != fitcore.TransformNone) || (fr.xUnit == "" && fr.yUnit == "") {
+		return "", ""
+	}
+	return wording.SlopeUnit(fr.yUnit, fr.xUnit), fr.yUnit
 }
 
 // verdict is a verdict's icon and word, padded for a column.
@@ -80,12 +106,14 @@ func summaryRest(fr *fitResult, level float64) string {
 	pct := wording.Percent(level)
 
 	origin := r.Model == fitcore.ModelOrigin
-	coefBlock(&b, wording.Slope, r.Slope, level)
+	slopeUnit, yUnit := fr.units()
+	coefBlock(&b, wording.Slope, r.Slope, level, slopeUnit)
 	if !origin {
-		coefBlock(&b, wording.Intercept, r.Intercept, level)
+		coefBlock(&b, wording.Intercept, r.Intercept, level, yUnit)
 	}
 	w("  %s\n", wording.FitAsAWhole)
-	row(&b, wording.ResidualSD, num(r.ResidualSE))
+	// Three digits with the unit of y, as the line card.
+	row(&b, wording.ResidualSD, withUnit(numfmt.Sig(r.ResidualSE, 3), yUnit))
 	row(&b, wording.DegreesOfFreedom, wording.DF(r.DF))
 	row(&b, wording.CorrelationR, numfmt.Decimals(r.R, 6))
 	row(&b, wording.RSquared, numfmt.Decimals(r.RSquared, 6))
