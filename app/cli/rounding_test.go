@@ -76,7 +76,10 @@ func TestSummaryRoundsToUncertainty(t *testing.T) {
 	}
 }
 
-func relClose(a, b, tol float64) bool { d := a - b; return d <= tol*max(1, b, -b) && -d <= tol*max(1, b, -b) }
+func relClose(a, b, tol float64) bool {
+	d := a - b
+	return d <= tol*max(1, b, -b) && -d <= tol*max(1, b, -b)
+}
 
 // TestInspectRoundsAsTheLineCard: `pairline inspect` writes the slope and
 // intercept of each (invented) demo session as the line card shows them:

@@ -381,9 +381,9 @@ func (c *Shell) renderPlots() app.UI {
 			// opens on the first flagged reading, or the first reading.
 			app.Button().Class("pl-btn pl-btn-quiet").Text("Go through the readings").DataSet("testid", "plot-point-open").
 				Hidden(c.plSel > 0).OnClick(func(ctx app.Context, e app.Event) {
-					c.plAt = placePanel(app.Null(), 0)
-					c.selectPoint(c.firstFlaggedRow())
-				}),
+				c.plAt = placePanel(app.Null(), 0)
+				c.selectPoint(c.firstFlaggedRow())
+			}),
 		),
 		// The notes and the grid keep their places whether shown or not, so
 		// that go-app never re-mounts the plots because a sibling came or went.
