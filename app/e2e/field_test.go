@@ -65,7 +65,7 @@ func TestFieldKeyboard(t *testing.T) {
 	if at.Top < vb.Sticky {
 		t.Errorf("the focused cell (top %.0f px) is under the sticky jump bar (bottom %.0f px)", at.Top, vb.Sticky)
 	}
-	screenshot(t, b, "field-keyboard-focus-phone")
+	viewShot(t, b, "field-keyboard-focus-phone")
 
 	// The keyboard opens: the visual viewport becomes 500 px high.
 	b.do(t, chromedp.EmulateViewport(phone[0], 500))
@@ -91,7 +91,7 @@ func TestFieldKeyboard(t *testing.T) {
 	waitFor(t, b, "the second cell inside the short visual viewport", fmt.Sprintf(`(() => { const r = tid(%q).getBoundingClientRect(), vv = window.visualViewport,
 		bar = tid("jumps").getBoundingClientRect();
 		return r.top >= Math.max(vv.offsetTop, bar.bottom) && r.bottom <= vv.offsetTop + vv.height; })()`, other), 10*time.Second)
-	screenshot(t, b, "field-keyboard-up-phone")
+	viewShot(t, b, "field-keyboard-up-phone")
 }
 
 // plotRects are the boxes of the four plots, top and left of each.
@@ -189,7 +189,7 @@ func TestFieldPanel(t *testing.T) {
 					t.Errorf("%s: the panel's Close button is covered", where)
 				}
 				if tc.block == "end" {
-					screenshot(t, b, "field-panel-"+vp.name+"-"+tc.plot+"-low")
+					viewShot(t, b, "field-panel-"+vp.name+"-"+tc.plot+"-low")
 				}
 			}
 			// A second tap while the panel is open reaches a plot point
