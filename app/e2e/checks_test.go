@@ -49,6 +49,35 @@ func TestChecksSlippedDecimal(t *testing.T) {
 	}
 	eval[bool](t, b, `(tid("check-influence").scrollIntoView({block: 'center'}), true)`)
 	viewShot(t, b, "checks-slip-phone")
+
+	// The reading's panel says it in plain words; the technical figures
+	// wait behind "Show the numbers".
+	click(t, b, "plot-point-open")
+	waitFor(t, b, "the panel on the slipped reading", fmt.Sprintf(`tid("plot-point-panel")?.dataset.row === "%d"`, demo.MistypedRow), 10*time.Second)
+	flag := textOf(t, b, "plot-point-flagged")
+	for _, want := range []string{"slipped decimal point", typed} {
+		if !strings.Contains(flag, want) {
+			t.Errorf("the panel's flag line lacks %q: %s", want, flag)
+		}
+	}
+	if shown := eval[string](t, b, `tid("plot-point-panel").innerText`); strings.Contains(shown, "tudentized") || strings.Contains(shown, "Cook") {
+		t.Errorf("the panel shows technical terms before \"Show the numbers\": %s", shown)
+	}
+	eval[bool](t, b, `(tid("plot-point-more").open = true, true)`)
+	time.Sleep(200 * time.Millisecond)
+	if shown := eval[string](t, b, `tid("plot-point-panel").innerText`); !strings.Contains(shown, "Studentized residual") || !strings.Contains(shown, "How far the line moves") {
+		t.Errorf("\"Show the numbers\" does not show the figures with their meanings: %s", shown)
+	}
+	// Open, the panel still fits the screen and nothing of the page is
+	// drawn over it.
+	geo := eval[[]float64](t, b, `(() => { const r = tid("plot-point-panel").getBoundingClientRect();
+		const pn = tid("plot-point-panel"), inside = [0.1, 0.5, 0.9].every(f => pn.contains(document.elementFromPoint(r.left + 40, r.top + f * r.height)));
+		return [r.top, r.bottom, window.visualViewport.height, inside ? 1 : 0, pn.scrollHeight, pn.clientHeight]; })()`)
+	t.Logf("the panel with its numbers open: %.0f–%.0f px of %.0f, content %.0f px in %.0f", geo[0], geo[1], geo[2], geo[4], geo[5])
+	if geo[0] < 0 || geo[1] > geo[2] || geo[3] != 1 {
+		t.Errorf("with its numbers open the panel is at %.0f–%.0f px of %.0f, or covered (inside %v)", geo[0], geo[1], geo[2], geo[3])
+	}
+	viewShot(t, b, "checks-slip-panel-phone")
 }
 
 // proportionalPairs are six standards from 1 to 50, two readings each

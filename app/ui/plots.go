@@ -535,31 +535,42 @@ func (c *Shell) renderPointPanel() app.UI {
 	} else if idx < 0 {
 		status = "Not used: a cell is empty or not a number."
 	}
-	var facts []app.UI
-	fact := func(testid, label string, v float64, shown string) {
-		facts = append(facts, app.Div().Class("pl-fact").Body(
+	// The plain figures show at once; the technical ones (studentized
+	// residual, leverage, Cook's distance) and fitcore's reasons stay
+	// behind "Show the numbers", each with a line of plain meaning.
+	var facts, more []app.UI
+	fact := func(to *[]app.UI, testid, label string, v float64, shown, meaning string) {
+		*to = append(*to, app.Div().Class("pl-fact").Body(
 			app.Dt().Text(label),
 			app.Dd().Class("pl-num-sm").DataSet("testid", testid).DataSet("value", numfmt.Full(v)).Text(shown),
+			app.If(meaning != "", func() app.UI { return app.Dd().Class("pl-fact-meaning").Text(meaning) }),
 		))
 	}
 	var reasons []string
+	flagged, slip := false, ""
 	if idx >= 0 && rep != nil && idx < len(rep.Residuals) {
 		scale := wording.Scale(rep.Transform)
 		suffix := ""
 		if scale != "" {
 			suffix = " (" + scale + " scale)"
 		}
-		fact("plot-point-fitted", "Fitted"+suffix, rep.Fitted[idx], numfmt.Sig(rep.Fitted[idx], numfmt.Precision(c.view.digits)))
-		fact("plot-point-residual", "Residual"+suffix, rep.Residuals[idx], numfmt.Sig(rep.Residuals[idx], 3))
+		fact(&facts, "plot-point-fitted", "Fitted"+suffix, rep.Fitted[idx], numfmt.Sig(rep.Fitted[idx], numfmt.Precision(c.view.digits)), "")
+		fact(&facts, "plot-point-residual", "Residual"+suffix, rep.Residuals[idx], numfmt.Sig(rep.Residuals[idx], 3), "")
 		for _, p := range rep.Influence {
 			if p.Index == idx {
-				fact("plot-point-studentized", "Studentized residual", p.Studentized, numfmt.Sig(p.Studentized, 3))
-				fact("plot-point-leverage", "Leverage", p.Leverage, numfmt.Sig(p.Leverage, 3))
-				fact("plot-point-cooks", "Cook's distance", p.CooksD, numfmt.Sig(p.CooksD, 3))
+				fact(&more, "plot-point-studentized", "Studentized residual", p.Studentized, numfmt.Sig(p.Studentized, 3),
+					"The residual in units of the scatter of the other readings; beyond about ±3 is rare.")
+				fact(&more, "plot-point-leverage", "Leverage", p.Leverage, numfmt.Sig(p.Leverage, 3),
+					"How strongly this reading's x can pull the line, from 0 to 1; the end standards have the most by design.")
+				fact(&more, "plot-point-cooks", "Cook's distance", p.CooksD, numfmt.Sig(p.CooksD, 3),
+					"How far the line moves when this reading is left out.")
 				if p.Flagged {
-					reasons = p.Reasons
+					reasons, flagged = p.Reasons, true
 				}
 			}
+		}
+		if sl := rep.Slip; sl != nil && sl.Index == idx {
+			slip = "It looks like a slipped decimal point: " + r.Y + " where the line expects about " + numfmt.Short(sl.Expected, 4) + "."
 		}
 	}
 	n := len(c.sess.Readings)
@@ -591,9 +602,19 @@ func (c *Shell) renderPointPanel() app.UI {
 		),
 		app.If(r.Note != "", func() app.UI { return app.P().Class("pl-point-note").Text("Note: " + r.Note) }),
 		app.P().Class("pl-point-status").DataSet("testid", "plot-point-status").Text(status),
-		app.If(len(reasons) > 0, func() app.UI {
-			return app.Ul().Class("pl-point-reasons").DataSet("testid", "plot-point-flags").Body(
-				app.Range(reasons).Slice(func(i int) app.UI { return app.Li().Text("◆ " + reasons[i]) }),
+		app.If(flagged, func() app.UI {
+			return app.P().Class("pl-point-flag").DataSet("testid", "plot-point-flagged").
+				Text("◆ Flagged: this reading stands out from the line. " + slip)
+		}),
+		app.If(len(more) > 0, func() app.UI {
+			return app.Details().Class("pl-point-more").DataSet("testid", "plot-point-more").Body(
+				app.Summary().Text("Show the numbers"),
+				app.Dl().Class("pl-point-facts").Body(app.Range(more).Slice(func(i int) app.UI { return more[i] })),
+				app.If(len(reasons) > 0, func() app.UI {
+					return app.Ul().Class("pl-point-reasons").DataSet("testid", "plot-point-flags").Body(
+						app.Range(reasons).Slice(func(i int) app.UI { return app.Li().Text(reasons[i]) }),
+					)
+				}),
 			)
 		}),
 		app.If(r.Excluded, func() app.UI {
