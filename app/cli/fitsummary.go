@@ -210,10 +210,14 @@ func summaryRest(fr *fitResult, level float64) string {
 	if len(r.Inverse) > 0 {
 		w("x from readings (%s)\n", pct)
 		for _, v := range r.Inverse {
-			w("  An unknown read as %s (mean of %d) is x = %s, %s %s", num(v.Y), v.M, num(v.X),
-				strings.ToLower(wording.StandardError), num(v.SE))
+			// x and its interval to the standard error (numfmt.Estimate), as the coefficients.
+			xs, se := numfmt.Estimate(v.X, v.SE, sig)
+			w("  An unknown read as %s (mean of %d) is x = %s, %s %s", withUnit(numfmt.Short(v.Y, sig), fr.yUnit), v.M, withUnit(xs, fr.xUnit),
+				strings.ToLower(wording.StandardError), withUnit(se, fr.xUnit))
 			if v.Bounded {
-				w(", %s %s", wording.Interval(level), wording.Range(num(v.Low), num(v.High)))
+				lo, _ := numfmt.Estimate(v.Low, v.SE, sig)
+				hi, _ := numfmt.Estimate(v.High, v.SE, sig)
+				w(", %s %s", wording.Interval(level), withUnit(wording.Range(lo, hi), fr.xUnit))
 			} else {
 				w(", no finite interval")
 			}
@@ -225,8 +229,14 @@ func summaryRest(fr *fitResult, level float64) string {
 		w("\n")
 	}
 	if r.Limits != nil {
-		w("%s %s, %s %s (x units)\n\n", wording.DetectionLimit, num(r.Limits.LOD),
-			strings.ToLower(wording.QuantitationLimit), num(r.Limits.LOQ))
+		// Three digits, as the screen's card of the limits.
+		if fr.xUnit != "" {
+			w("%s %s, %s %s\n\n", wording.DetectionLimit, withUnit(numfmt.Sig(r.Limits.LOD, 3), fr.xUnit),
+				strings.ToLower(wording.QuantitationLimit), withUnit(numfmt.Sig(r.Limits.LOQ, 3), fr.xUnit))
+		} else {
+			w("%s %s, %s %s (x units)\n\n", wording.DetectionLimit, numfmt.Sig(r.Limits.LOD, 3),
+				strings.ToLower(wording.QuantitationLimit), numfmt.Sig(r.Limits.LOQ, 3))
+		}
 	}
 	if acc := r.Acceptance; acc != nil {
 		stamp := wording.NotAccepted

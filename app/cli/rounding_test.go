@@ -66,8 +66,28 @@ func TestSummaryRoundsToUncertainty(t *testing.T) {
 			t.Errorf("the summary lacks %q:\n%s", c.want, out)
 		}
 	}
+	// An unknown's x and the limits carry the unit of x; x is rounded to
+	// its standard error, the limits to three digits (as the screen).
+	code, out, errs = runFitCmd(t, norrisCSV(t), "--inverse-y", "500", "-")
+	if code != ExitOK {
+		t.Fatalf("--inverse-y: exit %d: %s", code, errs)
+	}
+	_, js, _ := runFitCmd(t, norrisCSV(t), "--inverse-y", "500", "--json", "-")
+	r := decodeReport(t, js)
+	xs, se := numfmt.Estimate(r.Inverse[0].X, r.Inverse[0].SE, sig)
+	if r.Inverse[0].SE < 0.01 || r.Inverse[0].SE > 10 || len(xs) > 8 {
+		t.Fatalf("the unknown's x %v ± %v: not the case this test means", r.Inverse[0].X, r.Inverse[0].SE)
+	}
+	for _, want := range []string{
+		"is x = " + xs + " µg/L, " + strings.ToLower(wording.StandardError) + " " + se + " µg/L",
+		wording.DetectionLimit + " " + numfmt.Sig(r.Limits.LOD, 3) + " µg/L",
+	} {
+		if !strings.Contains(out, want) {
+			t.Errorf("the summary lacks %q:\n%s", want, out)
+		}
+	}
 	// Full precision stays in --json.
-	code, js, errs := runFitCmd(t, norrisCSV(t), "--json", "-")
+	code, js, errs = runFitCmd(t, norrisCSV(t), "--json", "-")
 	if code != ExitOK {
 		t.Fatalf("--json: exit %d: %s", code, errs)
 	}
