@@ -215,9 +215,9 @@ func TestFitSummary(t *testing.T) {
 	if code != ExitOK {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
+	slope, slopeSE := numfmt.Estimate(c.Fit.Slope, c.Fit.SlopeSE, sig)
 	for _, want := range []string{
-		numfmt.Sig(c.Fit.Slope, sig),
-		numfmt.Sig(c.Fit.SlopeSE, 3),
+		slope, slopeSE,
 		"nitrate standard mg/L", "photometer mg/L",
 		fmt.Sprintf("%s: %d", wording.PairsUsed, c.Fit.N),
 		wording.ChecksTitle, wording.Tests, "Caution",
