@@ -37,35 +37,56 @@ func LackOfFit(x, y, w []float64, origin bool) *Check {
 	return lackOfFit(x, y, w, origin, b.order(x), nil)
 }
 
-// lofShared keeps, for the last x lackOfFit saw, where each level of x
-// ends in ascending order, and the space y and w are gathered into.
+// lofShared keeps, for the last x lackOfFit saw, its number of levels,
+// where each level ends in ascending order (once asked for), and the space
+// y and w are gathered into.
 type lofShared struct {
 	x      []float64
+	m      int
 	ends   []int32
 	ys, ws []float64
 }
 
-// levels returns the end (exclusive) of each run of equal values of x
-// in the order idx (nil: x in order), working it out only when x is not
-// the slice it saw last.
-func (sh *lofShared) levels(x []float64, idx []int32) []int32 {
+// count returns the number of distinct values of x, in the order idx (nil:
+// x in order), working it out only when x is not the slice it saw last.
+func (sh *lofShared) count(x []float64, idx []int32) int {
 	n := len(x)
 	if n > 0 && len(sh.x) == n && &sh.x[0] == &x[0] {
+		return sh.m
+	}
+	sh.x, sh.m, sh.ends = x, 0, nil
+	at := lofAt(idx)
+	for k := range n {
+		if k == 0 || x[at(k)] != x[at(k-1)] {
+			sh.m++
+		}
+	}
+	return sh.m
+}
+
+// levels returns the end (exclusive) of each run of equal values of x in
+// the order idx; count must have been called with the same x and idx.
+func (sh *lofShared) levels(x []float64, idx []int32) []int32 {
+	if sh.ends != nil {
 		return sh.ends
 	}
-	at := func(k int) int {
-		if idx == nil {
-			return k
-		}
-		return int(idx[k])
-	}
-	sh.x, sh.ends = x, sh.ends[:0]
+	n := len(x)
+	at := lofAt(idx)
+	sh.ends = make([]int32, 0, sh.m)
 	for k := 1; k <= n; k++ {
 		if k == n || x[at(k)] != x[at(k-1)] {
 			sh.ends = append(sh.ends, int32(k))
 		}
 	}
 	return sh.ends
+}
+
+// lofAt maps the k-th position in ascending order to a reading.
+func lofAt(idx []int32) func(k int) int {
+	if idx == nil {
+		return func(k int) int { return k }
+	}
+	return func(k int) int { return int(idx[k]) }
 }
 
 // lackOfFit is LackOfFit with the positions of x in ascending order given
@@ -81,8 +102,7 @@ func lackOfFit(x, y, w []float64, origin bool, idx []int32, sh *lofShared) *Chec
 	if sh == nil {
 		sh = new(lofShared)
 	}
-	ends := sh.levels(x, idx)
-	m := len(ends)
+	m := sh.count(x, idx)
 	npar := 2
 	if origin {
 		npar = 1
@@ -115,7 +135,7 @@ func lackOfFit(x, y, w []float64, origin bool, idx []int32, sh *lofShared) *Chec
 	}
 	var ssPE, ssLOF, ssY float64
 	start := 0
-	for _, e := range ends {
+	for _, e := range sh.levels(x, idx) {
 		end := int(e)
 		var sw, sy float64
 		for k := start; k < end; k++ {
