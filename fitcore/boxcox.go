@@ -69,24 +69,21 @@ func BoxCoxProfile(x, y []float64, level float64) (*BoxCox, error) {
 	}
 	cut := distuv.ChiSquared{K: 1}.Quantile(level) / 2
 
-	// The whole grid of step bcGridStep. (Evaluating every fourth point
-	// and then the quarters near the best of those would save 12
-	// evaluations, but a profile can have two maxima, and then that finds
-	// the other one: FuzzBoxCoxAgainstExhaustive's seed, six readings.)
-	nGrid := int(math.Round((bcLambdaMax-bcLambdaMin)/bcGridStep)) + 1
-	lams := make([]float64, nGrid)
-	ells := make([]float64, nGrid)
+	// The whole grid of step bcGridStep, in two passes over the readings
+	// (gridLoglik). (Evaluating every fourth point and then the quarters
+	// near the best of those would save work too, but a profile can have
+	// two maxima, and then that finds the other one:
+	// FuzzBoxCoxAgainstExhaustive's seed, six readings.)
+	lams, ells := p.gridLoglik()
+	nGrid := len(lams)
 	best := 0
-	for i := range lams {
-		lams[i] = bcLambdaMin + float64(i)*bcGridStep
-		if i == nGrid-1 {
-			lams[i] = bcLambdaMax
-		}
-		ells[i] = p.loglik(lams[i])
+	for i := range ells {
 		if ells[i] > ells[best] {
 			best = i
 		}
 	}
+	// The best point exactly as loglik gives it (it may be the maximum).
+	ells[best] = p.loglik(lams[best])
 
 	// Refine on the bracket around the best grid point.
 	lamHat, ellHat := bcBrentMax(p.loglik, lams[max(best-1, 0)], lams[min(best+1, nGrid-1)], 1e-10)
@@ -318,6 +315,153 @@ func bcSums(u, xc []float64, mu, b float64) (syy, rss float64) {
 		rss += r * r
 	}
 	return syy, rss
+}
+
+// bcGridN is the number of points of the grid, λ = −3 + k/4, k = 0 … 24;
+// λ = 0 is point bcGridZero.
+const (
+	bcGridN    = 25
+	bcGridZero = 12
+	// bcGridMinSpread: below this spread of log(y/ġ) the grid is not made
+	// by products. A product e^{λw} − 1 is off by about k units in the last
+	// place of 1 at the k-th point from 0, which is below 1e-11 of the
+	// spread of the v from here up.
+	bcGridMinSpread = 1e-3
+)
+
+// bcGridSums holds the sums of each grid point: with v = (y/ġ)^λ − 1
+// (λ·u; v = log(y/ġ) at λ = 0), Σv and Σxc·v, then Σ(v − v̄)² and the
+// residual sum of squares of v about its line.
+type bcGridSums struct {
+	sv, sxv, syy, rss [bcGridN]float64
+}
+
+// gridLoglik returns the grid λ = −3 + k/4 (k = 0 … 24) and ℓ at each
+// point, as loglik gives them to rounding, in two passes over the readings
+// instead of two per point: the powers e^{λw} of neighbouring points differ
+// by the factor q = e^{w/4}, so each reading takes one exponential and
+// then a product per point, outwards from λ = 0 (e^{0·w} = 1), where the
+// products stay within a few units in the last place of e^{λw}. u = v/λ,
+// so Σu, Σxc·u scale by 1/λ and the sums of squares by 1/λ². A point
+// where |λ|·max|w| > 100 (the scaled branch of logRSS, whose powers could
+// overflow here) and every point beyond it are evaluated by loglik.
+func (p *bcProfile) gridLoglik() (lams, ells []float64) {
+	lams = make([]float64, bcGridN)
+	ells = make([]float64, bcGridN)
+	for k := range lams {
+		lams[k] = bcLambdaMin + float64(k)*bcGridStep
+	}
+	lams[bcGridN-1] = bcLambdaMax
+	wAbs := math.Max(-p.wMin, p.wMax)
+	lo, hi := bcGridZero, bcGridZero // the points done by products
+	if p.wMax-p.wMin < bcGridMinSpread {
+		// e^{λw} − 1 would lose too many of the digits that tell the
+		// readings apart: every point by loglik (expm1).
+		lo, hi = bcGridN, -1
+	}
+	for lo > 0 && lo <= bcGridZero && math.Abs(lams[lo-1])*wAbs <= 100 {
+		lo--
+	}
+	for hi >= bcGridZero && hi < bcGridN-1 && math.Abs(lams[hi+1])*wAbs <= 100 {
+		hi++
+	}
+	n := len(p.w)
+	var a, b bcGridSums
+	run := func(pass int, mu, slope *[bcGridN]float64) {
+		if n >= anParallelMin {
+			h := n / 2
+			var wg sync.WaitGroup
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				p.gridPass(&b, h, n, lo, hi, pass, mu, slope)
+			}()
+			p.gridPass(&a, 0, h, lo, hi, pass, mu, slope)
+			wg.Wait()
+		} else {
+			p.gridPass(&a, 0, n, lo, hi, pass, mu, slope)
+		}
+	}
+	var mu, slope [bcGridN]float64
+	if lo > hi {
+		for k := range lams {
+			ells[k] = p.loglik(lams[k])
+		}
+		return lams, ells
+	}
+	run(1, nil, nil)
+	for k := lo; k <= hi; k++ {
+		sv := a.sv[k] + b.sv[k]
+		sxv := a.sxv[k] + b.sxv[k]
+		mu[k] = sv / float64(p.n)
+		slope[k] = (sxv - mu[k]*p.sxc) / p.sxx
+	}
+	run(2, &mu, &slope)
+	for k := range lams {
+		if k < lo || k > hi {
+			ells[k] = p.loglik(lams[k])
+			continue
+		}
+		syy, rss := a.syy[k]+b.syy[k], a.rss[k]+b.rss[k]
+		if floor := syy * NoScatterTol * NoScatterTol; rss <= floor {
+			rss = floor
+			p.floored = true
+		}
+		lr := math.Inf(1)
+		if rss > 0 && isFiniteNum(rss) {
+			lr = math.Log(rss)
+			if k != bcGridZero {
+				lr -= 2 * math.Log(math.Abs(lams[k]))
+			}
+		}
+		ells[k] = -0.5 * float64(p.n) * lr
+		if math.IsNaN(ells[k]) {
+			ells[k] = math.Inf(-1)
+		}
+	}
+	return lams, ells
+}
+
+// gridPass runs pass 1 (Σv, Σxc·v; storing q = e^{w/4} in p.u) or pass 2
+// (Σ(v − v̄)², Σ(v − v̄ − b·xc)², with v̄ and b from pass 1) of gridLoglik
+// over the readings i0 … i1−1 for the points lo … hi, into s.
+func (p *bcProfile) gridPass(s *bcGridSums, i0, i1, lo, hi, pass int, mu, slope *[bcGridN]float64) {
+	w, xc, q := p.w[i0:i1], p.xc[i0:i1], p.u[i0:i1]
+	var v [bcGridN]float64
+	for i, wi := range w {
+		var qi float64
+		if pass == 1 {
+			qi = math.Exp(bcGridStep * wi)
+			q[i] = qi
+		} else {
+			qi = q[i]
+		}
+		v[bcGridZero] = wi
+		e := 1.0
+		for k := bcGridZero + 1; k <= hi; k++ {
+			e *= qi
+			v[k] = e - 1
+		}
+		e, iq := 1.0, 1/qi
+		for k := bcGridZero - 1; k >= lo; k-- {
+			e *= iq
+			v[k] = e - 1
+		}
+		x := xc[i]
+		if pass == 1 {
+			for k := lo; k <= hi; k++ {
+				s.sv[k] += v[k]
+				s.sxv[k] += x * v[k]
+			}
+			continue
+		}
+		for k := lo; k <= hi; k++ {
+			d := v[k] - mu[k]
+			s.syy[k] += d * d
+			r := d - slope[k]*x
+			s.rss[k] += r * r
+		}
+	}
 }
 
 // loglik returns ℓ(λ) up to a constant that does not depend on λ.
