@@ -51,6 +51,13 @@ type anScratch struct {
 	bc       *BoxCox
 	bcErr    error
 
+	// What the checks work out from x alone, for the last x they saw (the
+	// original fit and the refits of y on a new scale have the same x).
+	preX []float64
+	pre  ckPre
+	dw   dwShared
+	lof  lofShared
+
 	// refit is set while the advice refits a remedy: only what a Candidate
 	// takes from the report is needed (no Box–Cox profile, no reasons
 	// texts or per-reading influence, residuals in the space below).
@@ -70,6 +77,17 @@ func (s *anScratch) boxCox(x, y []float64, level float64) (*BoxCox, error) {
 	s.bc, s.bcErr = BoxCoxProfile(x, y, level)
 	s.bcX, s.bcY, s.bcLevel = x, y, level
 	return s.bc, s.bcErr
+}
+
+// prepare returns ckPrepare(x) with dw set, working it out only when x is
+// not the slice it was asked about last.
+func (s *anScratch) prepare(x []float64) *ckPre {
+	if len(s.preX) != len(x) || len(x) == 0 || &s.preX[0] != &x[0] {
+		s.preX, s.pre = x, *ckPrepare(x)
+	}
+	p := s.pre
+	p.dw = &s.dw
+	return &p
 }
 
 // anParallelMin is the number of readings from which the checks run side
@@ -302,7 +320,7 @@ func (fc *fitContext) newCheckRun() *checkRun {
 	rep := fc.rep
 	in := fc.checkInputs()
 	r := &checkRun{fc: fc, in: in, origin: fc.opt.Model == ModelOrigin, n: len(in.xs), np: 2}
-	r.pre = ckPrepare(in.xs)
+	r.pre = fc.sc.prepare(in.xs)
 	r.pre.xyValid = ckValidate(in.xs, in.ys, in.w, "y value") == ""
 	r.pre.residValid = ckValidate(in.xs, in.pr, nil, "residual") == ""
 	r.pre.quick = fc.sc.refit
@@ -367,7 +385,7 @@ func (r *checkRun) others() {
 	if pre.xyValid {
 		// Any order that sorts x also sorts xs, which is x scaled by a
 		// power of two or on a log scale.
-		c.LackOfFit = lackOfFit(in.xs, in.ys, in.w, r.origin, fc.sc.orderOf(fc.x))
+		c.LackOfFit = lackOfFit(in.xs, in.ys, in.w, r.origin, fc.sc.orderOf(fc.x), &fc.sc.lof)
 	} else {
 		c.LackOfFit = LackOfFit(in.xs, in.ys, in.w, r.origin)
 	}

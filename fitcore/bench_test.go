@@ -82,3 +82,38 @@ func BenchmarkFitLine(b *testing.B) {
 }
 
 var sinkF float64
+
+// BenchmarkAdviceParts splits BenchmarkAnalyzeAdvice at 10⁶ readings into
+// its parts: the analysis without the advice, the Box–Cox profile alone, and
+// Complete (the profile and every refit of the advice).
+func BenchmarkAdviceParts(b *testing.B) {
+	x, y, _ := benchData(1000000)
+	b.Run("skip_advice", func(b *testing.B) {
+		b.ReportAllocs()
+		for b.Loop() {
+			if _, err := Analyze(x, y, Options{SkipAdvice: true}); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+	b.Run("boxcox", func(b *testing.B) {
+		b.ReportAllocs()
+		for b.Loop() {
+			if _, err := BoxCoxProfile(x, y, 0.95); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+	b.Run("complete", func(b *testing.B) {
+		rep, err := Analyze(x, y, Options{SkipAdvice: true})
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.ReportAllocs()
+		for b.Loop() {
+			if err := Complete(rep, x, y, Options{}); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+}

@@ -13,9 +13,9 @@ import (
 const (
 	bcLambdaMin = -3.0
 	bcLambdaMax = 3.0
-	// bcGridStep is the coarse grid before the 1-D maximizer. ℓ(λ) is a
-	// smooth function of λ (each RSS is), so a quarter step brackets its
-	// maximum as a tenth did on every reference dataset (tests), with 25
+	// bcGridStep is the grid before the 1-D maximizer. ℓ(λ) is a smooth
+	// function of λ (each RSS is), so a quarter step brackets its maximum
+	// as a tenth did on every reference dataset (tests), with 25
 	// evaluations of ℓ instead of 61.
 	bcGridStep = 0.25
 )
@@ -31,14 +31,18 @@ const (
 //	ℓ(λ) = −n/2 · log(RSS(λ)/n) + (λ − 1) · Σ log y_i,
 //
 // where RSS(λ) is the residual sum of squares of the least-squares line of
-// y^(λ) on x. The search is over [−3, 3]: a coarse grid (step 0.25) and then
-// Brent's parabolic/golden-section maximizer on the bracket around the best
-// grid point. The interval is the likelihood-ratio set
+// y^(λ) on x. The search is over [−3, 3]: a grid of step 0.25 and then
+// Brent's parabolic/golden-section maximizer on the bracket around the
+// best grid point. The interval is the likelihood-ratio set
 //
 //	{λ : 2·(ℓ(λ̂) − ℓ(λ)) ≤ χ²₁(level)}
 //
-// (Box & Cox 1964, section 4), with its ends found by the Illinois regula falsi; an end that
-// does not fall inside [−3, 3] is reported as the bound itself. level is the
+// (Box & Cox 1964, section 4), with its ends found by the Illinois regula
+// falsi on √χ²₁(level)/2 − √(ℓ(λ̂) − ℓ(λ)), bracketed by the grid points
+// walking out from λ̂; an end that does not fall inside [−3, 3] is reported
+// as the bound itself. About 46 evaluations of ℓ in all (65 with regula
+// falsi on ℓ itself; TestBoxCoxAgainstExhaustive and
+// FuzzBoxCoxAgainstExhaustive keep the earlier search as their oracle). level is the
 // confidence level, from MinLevel to MaxLevel (0 means 0.95); any other
 // level is an *OptionError, never a panic.
 //
@@ -46,7 +50,7 @@ const (
 // −n/2·log(RSS_u/n) + constant with u_i = ((y_i/ġ)^λ − 1)/λ, computed as
 // expm1(λ·log(y_i/ġ))/λ (so λ → 0 gives log(y_i/ġ) smoothly) or, when λ·log
 // is large, as a scaled exponential whose logarithm carries the scale, so no
-// power overflows. Each evaluation is O(n).
+// power overflows. Each evaluation is O(n): two passes over the readings.
 //
 // It returns an error, in a sentence, when a y is zero or negative, a value
 // is not finite, x does not vary, there are fewer than MinBoxCoxN pairs, or the
@@ -65,26 +69,24 @@ func BoxCoxProfile(x, y []float64, level float64) (*BoxCox, error) {
 	}
 	cut := distuv.ChiSquared{K: 1}.Quantile(level) / 2
 
-	// Coarse grid.
-	nGrid := int(math.Round((bcLambdaMax-bcLambdaMin)/bcGridStep)) + 1
-	lams := make([]float64, nGrid)
-	ells := make([]float64, nGrid)
+	// The whole grid of step bcGridStep, in two passes over the readings
+	// (gridLoglik). (Evaluating every fourth point and then the quarters
+	// near the best of those would save work too, but a profile can have
+	// two maxima, and then that finds the other one:
+	// FuzzBoxCoxAgainstExhaustive's seed, six readings.)
+	lams, ells := p.gridLoglik()
+	nGrid := len(lams)
 	best := 0
-	for i := range lams {
-		lams[i] = bcLambdaMin + float64(i)*bcGridStep
-		if i == nGrid-1 {
-			lams[i] = bcLambdaMax
-		}
-		ells[i] = p.loglik(lams[i])
+	for i := range ells {
 		if ells[i] > ells[best] {
 			best = i
 		}
 	}
+	// The best point exactly as loglik gives it (it may be the maximum).
+	ells[best] = p.loglik(lams[best])
 
 	// Refine on the bracket around the best grid point.
-	lo := lams[max(best-1, 0)]
-	hi := lams[min(best+1, nGrid-1)]
-	lamHat, ellHat := bcBrentMax(p.loglik, lo, hi, 1e-10)
+	lamHat, ellHat := bcBrentMax(p.loglik, lams[max(best-1, 0)], lams[min(best+1, nGrid-1)], 1e-10)
 	if ells[best] > ellHat { // a bound is the maximum
 		lamHat, ellHat = lams[best], ells[best]
 	}
@@ -95,27 +97,34 @@ func BoxCoxProfile(x, y []float64, level float64) (*BoxCox, error) {
 		return nil, fmt.Errorf("%w: the readings lie on an exact straight line after a power transform, so the Box–Cox power is not defined (n = %d)", ErrDegenerate, p.n)
 	}
 
-	// Likelihood-ratio interval: g(λ) = ℓ(λ) − (ℓ̂ − cut) ≥ 0 inside.
-	g := func(l float64) float64 { return p.loglik(l) - (ellHat - cut) }
+	// Likelihood-ratio interval: the ends are the roots of
+	// g(λ) = √cut − √(ℓ̂ − ℓ(λ)), which is ≥ 0 inside. Near λ̂ the profile
+	// is close to a parabola, so g is close to a straight line and regula
+	// falsi needs a few steps where it needed about twelve on ℓ itself.
+	// The bracket is the first grid point outside and the last one inside
+	// (or λ̂), walking out from λ̂.
+	rc := math.Sqrt(cut)
+	gOf := func(l float64) float64 { return rc - math.Sqrt(math.Max(ellHat-l, 0)) }
+	g := func(l float64) float64 { return gOf(p.loglik(l)) }
 	ciLow, ciHigh := bcLambdaMin, bcLambdaMax
-	inside, gInside := lamHat, cut
+	inside, gInside := lamHat, rc
 	for i := nGrid - 1; i >= 0; i-- { // largest grid point below λ̂ that is outside
 		if lams[i] >= lamHat {
 			continue
 		}
-		if gi := ells[i] - (ellHat - cut); gi < 0 {
+		if gi := gOf(ells[i]); gi < 0 {
 			ciLow = bcRoot(g, lams[i], gi, inside, gInside)
 			break
 		} else {
 			inside, gInside = lams[i], gi
 		}
 	}
-	inside, gInside = lamHat, cut
+	inside, gInside = lamHat, rc
 	for i := 0; i < nGrid; i++ {
 		if lams[i] <= lamHat {
 			continue
 		}
-		if gi := ells[i] - (ellHat - cut); gi < 0 {
+		if gi := gOf(ells[i]); gi < 0 {
 			ciHigh = bcRoot(g, lams[i], gi, inside, gInside)
 			break
 		} else {
@@ -137,6 +146,7 @@ type bcProfile struct {
 	w       []float64 // log(y/ġ)
 	wMin    float64
 	wMax    float64
+	sxc     float64   // Σ(x − x̄), the rounding left in xc
 	u       []float64 // work space
 	floored bool      // set when an RSS hit the exact-fit floor
 }
@@ -169,6 +179,7 @@ func bcNewProfile(x, y []float64) (*bcProfile, error) {
 	for i := range x {
 		p.xc[i] = x[i] - mx
 		p.sxx += p.xc[i] * p.xc[i]
+		p.sxc += p.xc[i]
 		p.w[i] = math.Log(y[i])
 		my += p.w[i]
 	}
@@ -188,67 +199,63 @@ func bcNewProfile(x, y []float64) (*bcProfile, error) {
 	return p, nil
 }
 
-// logRSS returns log RSS_u(λ) for u = ((y/ġ)^λ − 1)/λ regressed on x.
+// logRSS returns log RSS_u(λ) for u = ((y/ġ)^λ − 1)/λ regressed on x, in
+// two passes over the readings: u with Σu and Σ(x − x̄)·u as it is made,
+// then Σ(u − ū)² and the residual sum of squares about the line. On a large
+// record each pass runs in two halves side by side, whose sums are added in
+// a fixed order, so the result does not depend on the number of cores.
 func (p *bcProfile) logRSS(lam float64) float64 {
 	wAbs := math.Max(-p.wMin, p.wMax)
 	logScale := 0.0
-	// The mean of u is summed as u is made (the same sum, in the same order).
-	var mu float64
-	u := p.u[:len(p.w)]
+	mode, c := bcPlain, 0.0
 	switch {
 	case math.Abs(lam)*wAbs > 100:
 		// u ≡ e^{λw}/λ up to a constant = e^{λc}/λ · e^{λ(w−c)}, with c chosen
 		// so that every exponent is ≤ 0; RSS scales by e^{2λc}/λ².
-		c := p.wMax
+		mode, c = bcScaled, p.wMax
 		if lam < 0 {
 			c = p.wMin
 		}
-		for i, w := range p.w {
-			v := math.Exp(lam * (w - c))
-			u[i] = v
-			mu += v
-		}
 		logScale = 2*lam*c - 2*math.Log(math.Abs(lam))
 	case lam == 0:
-		for i, w := range p.w {
-			u[i] = w
-			mu += w
-		}
-	case len(u) >= anParallelMin:
-		// The exponentials (most of the cost) are taken in two halves side
-		// by side; the mean is then summed in order, as below.
+		mode = bcLog
+	}
+	u, xc := p.u[:len(p.w)], p.xc[:len(p.w)]
+	var su, sxu float64
+	if len(u) >= anParallelMin {
 		h := len(u) / 2
 		var wg sync.WaitGroup
+		var su2, sxu2 float64
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			bcExpm1(u[h:], p.w[h:], lam)
+			su2, sxu2 = bcFill(u[h:], p.w[h:], xc[h:], lam, c, mode)
 		}()
-		bcExpm1(u[:h], p.w[:h], lam)
+		su, sxu = bcFill(u[:h], p.w[:h], xc[:h], lam, c, mode)
 		wg.Wait()
-		for _, v := range u {
-			mu += v
-		}
-	default:
-		for i, w := range p.w {
-			v := math.Expm1(lam*w) / lam
-			u[i] = v
-			mu += v
-		}
+		su, sxu = su+su2, sxu+sxu2
+	} else {
+		su, sxu = bcFill(u, p.w, xc, lam, c, mode)
 	}
-	mu /= float64(p.n)
-	xc := p.xc[:len(u)]
-	var sxy, syy float64
-	for i, v := range u {
-		d := v - mu
-		sxy += xc[i] * d
-		syy += d * d
-	}
-	b := sxy / p.sxx
-	var rss float64
-	for i, v := range u {
-		r := v - mu - b*xc[i]
-		rss += r * r
+	mu := su / float64(p.n)
+	// Σ(x − x̄)(u − ū) = Σ(x − x̄)·u − ū·Σ(x − x̄); the second sum is the
+	// rounding left in the centred x.
+	b := (sxu - mu*p.sxc) / p.sxx
+	var syy, rss float64
+	if len(u) >= anParallelMin {
+		h := len(u) / 2
+		var wg sync.WaitGroup
+		var syy2, rss2 float64
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			syy2, rss2 = bcSums(u[h:], xc[h:], mu, b)
+		}()
+		syy, rss = bcSums(u[:h], xc[:h], mu, b)
+		wg.Wait()
+		syy, rss = syy+syy2, rss+rss2
+	} else {
+		syy, rss = bcSums(u, xc, mu, b)
 	}
 	// An exact fit would make ℓ infinite; floor the RSS at the rounding level
 	// of the data (the one no-scatter tolerance, NoScatterTol, on the
@@ -263,11 +270,197 @@ func (p *bcProfile) logRSS(lam float64) float64 {
 	return math.Log(rss) + logScale
 }
 
-// bcExpm1 sets u_i = expm1(λ·w_i)/λ.
-func bcExpm1(u, w []float64, lam float64) {
-	u = u[:len(w)]
-	for i, v := range w {
-		u[i] = math.Expm1(lam*v) / lam
+// How bcFill makes u from w = log(y/ġ).
+const (
+	bcPlain  = iota // expm1(λw)/λ
+	bcLog           // w (λ = 0)
+	bcScaled        // e^{λ(w − c)}
+)
+
+// bcFill sets u_i from w_i as mode says and returns Σu and Σxc·u.
+func bcFill(u, w, xc []float64, lam, c float64, mode int) (su, sxu float64) {
+	u, xc = u[:len(w)], xc[:len(w)]
+	switch mode {
+	case bcScaled:
+		for i, v := range w {
+			e := math.Exp(lam * (v - c))
+			u[i] = e
+			su += e
+			sxu += xc[i] * e
+		}
+	case bcLog:
+		for i, v := range w {
+			u[i] = v
+			su += v
+			sxu += xc[i] * v
+		}
+	default:
+		for i, v := range w {
+			e := math.Expm1(lam*v) / lam
+			u[i] = e
+			su += e
+			sxu += xc[i] * e
+		}
+	}
+	return su, sxu
+}
+
+// bcSums returns Σ(u − ū)² and Σ(u − ū − b·xc)².
+func bcSums(u, xc []float64, mu, b float64) (syy, rss float64) {
+	xc = xc[:len(u)]
+	for i, v := range u {
+		d := v - mu
+		syy += d * d
+		r := d - b*xc[i]
+		rss += r * r
+	}
+	return syy, rss
+}
+
+// bcGridN is the number of points of the grid, λ = −3 + k/4, k = 0 … 24;
+// λ = 0 is point bcGridZero.
+const (
+	bcGridN    = 25
+	bcGridZero = 12
+	// bcGridMinSpread: below this spread of log(y/ġ) the grid is not made
+	// by products. A product e^{λw} − 1 is off by about k units in the last
+	// place of 1 at the k-th point from 0, which is below 1e-11 of the
+	// spread of the v from here up.
+	bcGridMinSpread = 1e-3
+)
+
+// bcGridSums holds the sums of each grid point: with v = (y/ġ)^λ − 1
+// (λ·u; v = log(y/ġ) at λ = 0), Σv and Σxc·v, then Σ(v − v̄)² and the
+// residual sum of squares of v about its line.
+type bcGridSums struct {
+	sv, sxv, syy, rss [bcGridN]float64
+}
+
+// gridLoglik returns the grid λ = −3 + k/4 (k = 0 … 24) and ℓ at each
+// point, as loglik gives them to rounding, in two passes over the readings
+// instead of two per point: the powers e^{λw} of neighbouring points differ
+// by the factor q = e^{w/4}, so each reading takes one exponential and
+// then a product per point, outwards from λ = 0 (e^{0·w} = 1), where the
+// products stay within a few units in the last place of e^{λw}. u = v/λ,
+// so Σu, Σxc·u scale by 1/λ and the sums of squares by 1/λ². A point
+// where |λ|·max|w| > 100 (the scaled branch of logRSS, whose powers could
+// overflow here) and every point beyond it are evaluated by loglik.
+func (p *bcProfile) gridLoglik() (lams, ells []float64) {
+	lams = make([]float64, bcGridN)
+	ells = make([]float64, bcGridN)
+	for k := range lams {
+		lams[k] = bcLambdaMin + float64(k)*bcGridStep
+	}
+	lams[bcGridN-1] = bcLambdaMax
+	wAbs := math.Max(-p.wMin, p.wMax)
+	lo, hi := bcGridZero, bcGridZero // the points done by products
+	if p.wMax-p.wMin < bcGridMinSpread {
+		// e^{λw} − 1 would lose too many of the digits that tell the
+		// readings apart: every point by loglik (expm1).
+		lo, hi = bcGridN, -1
+	}
+	for lo > 0 && lo <= bcGridZero && math.Abs(lams[lo-1])*wAbs <= 100 {
+		lo--
+	}
+	for hi >= bcGridZero && hi < bcGridN-1 && math.Abs(lams[hi+1])*wAbs <= 100 {
+		hi++
+	}
+	n := len(p.w)
+	var a, b bcGridSums
+	run := func(pass int, mu, slope *[bcGridN]float64) {
+		if n >= anParallelMin {
+			h := n / 2
+			var wg sync.WaitGroup
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				p.gridPass(&b, h, n, lo, hi, pass, mu, slope)
+			}()
+			p.gridPass(&a, 0, h, lo, hi, pass, mu, slope)
+			wg.Wait()
+		} else {
+			p.gridPass(&a, 0, n, lo, hi, pass, mu, slope)
+		}
+	}
+	var mu, slope [bcGridN]float64
+	if lo > hi {
+		for k := range lams {
+			ells[k] = p.loglik(lams[k])
+		}
+		return lams, ells
+	}
+	run(1, nil, nil)
+	for k := lo; k <= hi; k++ {
+		sv := a.sv[k] + b.sv[k]
+		sxv := a.sxv[k] + b.sxv[k]
+		mu[k] = sv / float64(p.n)
+		slope[k] = (sxv - mu[k]*p.sxc) / p.sxx
+	}
+	run(2, &mu, &slope)
+	for k := range lams {
+		if k < lo || k > hi {
+			ells[k] = p.loglik(lams[k])
+			continue
+		}
+		syy, rss := a.syy[k]+b.syy[k], a.rss[k]+b.rss[k]
+		if floor := syy * NoScatterTol * NoScatterTol; rss <= floor {
+			rss = floor
+			p.floored = true
+		}
+		lr := math.Inf(1)
+		if rss > 0 && isFiniteNum(rss) {
+			lr = math.Log(rss)
+			if k != bcGridZero {
+				lr -= 2 * math.Log(math.Abs(lams[k]))
+			}
+		}
+		ells[k] = -0.5 * float64(p.n) * lr
+		if math.IsNaN(ells[k]) {
+			ells[k] = math.Inf(-1)
+		}
+	}
+	return lams, ells
+}
+
+// gridPass runs pass 1 (Σv, Σxc·v; storing q = e^{w/4} in p.u) or pass 2
+// (Σ(v − v̄)², Σ(v − v̄ − b·xc)², with v̄ and b from pass 1) of gridLoglik
+// over the readings i0 … i1−1 for the points lo … hi, into s.
+func (p *bcProfile) gridPass(s *bcGridSums, i0, i1, lo, hi, pass int, mu, slope *[bcGridN]float64) {
+	w, xc, q := p.w[i0:i1], p.xc[i0:i1], p.u[i0:i1]
+	var v [bcGridN]float64
+	for i, wi := range w {
+		var qi float64
+		if pass == 1 {
+			qi = math.Exp(bcGridStep * wi)
+			q[i] = qi
+		} else {
+			qi = q[i]
+		}
+		v[bcGridZero] = wi
+		e := 1.0
+		for k := bcGridZero + 1; k <= hi; k++ {
+			e *= qi
+			v[k] = e - 1
+		}
+		e, iq := 1.0, 1/qi
+		for k := bcGridZero - 1; k >= lo; k-- {
+			e *= iq
+			v[k] = e - 1
+		}
+		x := xc[i]
+		if pass == 1 {
+			for k := lo; k <= hi; k++ {
+				s.sv[k] += v[k]
+				s.sxv[k] += x * v[k]
+			}
+			continue
+		}
+		for k := lo; k <= hi; k++ {
+			d := v[k] - mu[k]
+			s.syy[k] += d * d
+			r := d - slope[k]*x
+			s.rss[k] += r * r
+		}
 	}
 }
 

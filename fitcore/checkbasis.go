@@ -235,6 +235,9 @@ type ckPre struct {
 	// quick says only the verdicts are wanted (the advice's refits), so a
 	// check may take a cheaper approximation where it cannot change them.
 	quick bool
+	// dw, when set, keeps the Durbin–Watson design between the analyses
+	// that share it (the advice's refits).
+	dw *dwShared
 }
 
 func ckPrepare(x []float64) *ckPre {

@@ -110,11 +110,14 @@ func durbinWatsonW(x, resid, w []float64, origin bool, pre *ckPre) Check {
 	if !ok {
 		return ckNA(name, "The residuals are all zero, so there is no pattern in their order to test.")
 	}
-	dz, ok := newDWDesign(x, w, origin)
+	var shared *dwShared
+	if pre != nil {
+		shared = pre.dw
+	}
+	dz, mean, variance, ok := shared.design(x, w, origin)
 	if !ok {
 		return ckNA(name, "The x values do not spread enough to judge the order of the residuals.")
 	}
-	mean, variance := dz.moments()
 	c := Check{Name: name, Statistic: d, DF: float64(n - k)}
 	bcdf, bok := ckDWBetaCDF(d, mean, variance)
 	exact := n <= DWExactMax
@@ -164,6 +167,38 @@ func durbinWatsonW(x, resid, w []float64, origin bool, pre *ckPre) Check {
 		c.Message = fmt.Sprintf("In the order entered, the residuals look independent (Durbin–Watson d = %.3f, %s, %s).", d, ckFmtP(p), how)
 	}
 	return c
+}
+
+// dwShared keeps the design of the last x the Durbin–Watson check saw
+// without weights, with its null mean and variance: they depend on x alone
+// (not on the residuals), and the original fit and the advice's refits of
+// y on a new scale all have the same x.
+type dwShared struct {
+	x              []float64
+	origin         bool
+	dz             *dwDesign
+	ok             bool
+	mean, variance float64
+}
+
+// design returns newDWDesign(x, w, origin) and its moments, from s when s
+// saw the same x (the same slice) unweighted last time. A nil s keeps
+// nothing.
+func (s *dwShared) design(x, w []float64, origin bool) (dz *dwDesign, mean, variance float64, ok bool) {
+	if s == nil || w != nil || len(x) == 0 {
+		if dz, ok = newDWDesign(x, w, origin); ok {
+			mean, variance = dz.moments()
+		}
+		return dz, mean, variance, ok
+	}
+	if len(s.x) != len(x) || &s.x[0] != &x[0] || s.origin != origin {
+		s.x, s.origin = x, origin
+		s.mean, s.variance = 0, 0
+		if s.dz, s.ok = newDWDesign(x, nil, origin); s.ok {
+			s.mean, s.variance = s.dz.moments()
+		}
+	}
+	return s.dz, s.mean, s.variance, s.ok
 }
 
 // ckDWBetaCDF is F(d) = P(D ≤ d) with d/4 taken as the beta variable of

@@ -34,29 +34,75 @@ func LackOfFit(x, y, w []float64, origin bool) *Check {
 		return &c
 	}
 	var b ckSortBuf
-	return lackOfFit(x, y, w, origin, b.order(x))
+	return lackOfFit(x, y, w, origin, b.order(x), nil)
+}
+
+// lofShared keeps, for the last x lackOfFit saw, its number of levels,
+// where each level ends in ascending order (once asked for), and the space
+// y and w are gathered into.
+type lofShared struct {
+	x      []float64
+	m      int
+	ends   []int32
+	ys, ws []float64
+}
+
+// count returns the number of distinct values of x, in the order idx (nil:
+// x in order), working it out only when x is not the slice it saw last.
+func (sh *lofShared) count(x []float64, idx []int32) int {
+	n := len(x)
+	if n > 0 && len(sh.x) == n && &sh.x[0] == &x[0] {
+		return sh.m
+	}
+	sh.x, sh.m, sh.ends = x, 0, nil
+	at := lofAt(idx)
+	for k := range n {
+		if k == 0 || x[at(k)] != x[at(k-1)] {
+			sh.m++
+		}
+	}
+	return sh.m
+}
+
+// levels returns the end (exclusive) of each run of equal values of x in
+// the order idx; count must have been called with the same x and idx.
+func (sh *lofShared) levels(x []float64, idx []int32) []int32 {
+	if sh.ends != nil {
+		return sh.ends
+	}
+	n := len(x)
+	at := lofAt(idx)
+	sh.ends = make([]int32, 0, sh.m)
+	for k := 1; k <= n; k++ {
+		if k == n || x[at(k)] != x[at(k-1)] {
+			sh.ends = append(sh.ends, int32(k))
+		}
+	}
+	return sh.ends
+}
+
+// lofAt maps the k-th position in ascending order to a reading.
+func lofAt(idx []int32) func(k int) int {
+	if idx == nil {
+		return func(k int) int { return k }
+	}
+	return func(k int) int { return int(idx[k]) }
 }
 
 // lackOfFit is LackOfFit with the positions of x in ascending order given
 // (equal values in any order): idx[k] is the position of the k-th smallest
 // x, and nil idx means x is in ascending order already. Any order that
 // sorts x non-decreasingly will do, so the order of x also serves for x
-// scaled by a power of two or x on a log scale.
-func lackOfFit(x, y, w []float64, origin bool, idx []int32) *Check {
+// scaled by a power of two or x on a log scale. sh, when not nil, keeps the
+// levels of x and a work space between calls with the same x (the
+// advice's refits of y on a new scale).
+func lackOfFit(x, y, w []float64, origin bool, idx []int32, sh *lofShared) *Check {
 	const name = "Lack of fit"
 	n := len(x)
-	at := func(k int) int {
-		if idx == nil {
-			return k
-		}
-		return int(idx[k])
+	if sh == nil {
+		sh = new(lofShared)
 	}
-	m := 0
-	for k := range n {
-		if k == 0 || x[at(k)] != x[at(k-1)] {
-			m++
-		}
-	}
+	m := sh.count(x, idx)
 	npar := 2
 	if origin {
 		npar = 1
@@ -70,27 +116,44 @@ func lackOfFit(x, y, w []float64, origin bool, idx []int32) *Check {
 		c := ckNA(name, "All x values are the same, so no line can be fitted.")
 		return &c
 	}
-	var ssPE, ssLOF, ssY float64
-	for start := 0; start < n; {
-		end := start + 1
-		for end < n && x[at(end)] == x[at(start)] {
-			end++
+	// y and w in the order of x, gathered once, so that the sums below
+	// read them in sequence.
+	ys, ws := y, w
+	if idx != nil {
+		sh.ys = ckGrowF64(sh.ys, n)
+		ys = sh.ys[:n]
+		for k, i := range idx[:n] {
+			ys[k] = y[i]
 		}
+		if w != nil {
+			sh.ws = ckGrowF64(sh.ws, n)
+			ws = sh.ws[:n]
+			for k, i := range idx[:n] {
+				ws[k] = w[i]
+			}
+		}
+	}
+	var ssPE, ssLOF, ssY float64
+	start := 0
+	for _, e := range sh.levels(x, idx) {
+		end := int(e)
 		var sw, sy float64
 		for k := start; k < end; k++ {
-			i := at(k)
-			wi := ckW(w, i)
+			wi := ckW(ws, k)
 			sw += wi
-			sy += wi * y[i]
+			sy += wi * ys[k]
 		}
 		mean := sy / sw
 		for k := start; k < end; k++ {
-			i := at(k)
-			d := y[i] - mean
-			ssPE += ckW(w, i) * d * d
-			ssY += ckW(w, i) * y[i] * y[i]
+			d := ys[k] - mean
+			ssPE += ckW(ws, k) * d * d
+			ssY += ckW(ws, k) * ys[k] * ys[k]
 		}
-		d := mean - (b0 + b1*x[at(start)])
+		xg := x[start]
+		if idx != nil {
+			xg = x[idx[start]]
+		}
+		d := mean - (b0 + b1*xg)
 		ssLOF += sw * d * d
 		start = end
 	}

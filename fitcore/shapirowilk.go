@@ -53,7 +53,7 @@ func ShapiroWilk(x []float64) (w, p float64, err error) {
 }
 
 // shapiroWilk is ShapiroWilk with its work space in b. Groups of equal
-// size share their coefficients.
+// size share their coefficients, and so do the calls that share b.
 // valid says x is already known to be finite.
 func shapiroWilk(x []float64, b *ckSortBuf, valid bool) (w, p float64, err error) {
 	n := len(x)
@@ -67,14 +67,14 @@ func shapiroWilk(x []float64, b *ckSortBuf, valid bool) (w, p float64, err error
 	}
 	if n <= swBlock {
 		s := b.sortedCopy(x)
-		w, p, ok := swSorted(s, swCoefficients(n))
+		w, p, ok := swSorted(s, b.swCoef(n))
 		if !ok {
 			return 0, 0, errSWConstant
 		}
 		return w, p, nil
 	}
 	s := b.sortedCopy(x)
-	w, _, ok := swSorted(s, swCoefficients(n))
+	w, _, ok := swSorted(s, b.swCoef(n))
 	if !ok {
 		return 0, 0, errSWConstant
 	}
@@ -82,8 +82,6 @@ func shapiroWilk(x []float64, b *ckSortBuf, valid bool) (w, p float64, err error
 	// Group j holds the values at positions j, j+k, j+2k, …: n/k of them,
 	// one more for j < n mod k. The sorted sample is no longer needed, so
 	// its space holds one group at a time.
-	small := n / k
-	var aSmall, aBig []float64
 	var fisher float64
 	groups := 0
 	for j := range k {
@@ -92,19 +90,7 @@ func shapiroWilk(x []float64, b *ckSortBuf, valid bool) (w, p float64, err error
 			g = append(g, x[i])
 		}
 		b.sortInPlace(g)
-		var a []float64
-		if len(g) == small {
-			if aSmall == nil {
-				aSmall = swCoefficients(small)
-			}
-			a = aSmall
-		} else {
-			if aBig == nil {
-				aBig = swCoefficients(len(g))
-			}
-			a = aBig
-		}
-		_, pj, ok := swSorted(g, a)
+		_, pj, ok := swSorted(g, b.swCoef(len(g)))
 		if !ok {
 			// A group with no spread: treat it as uninformative.
 			pj = 1

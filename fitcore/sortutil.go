@@ -47,6 +47,23 @@ type ckSortBuf struct {
 	p1, p2 []ckKeyIdx
 	idx    []int32
 	f      []float64 // sorted values
+
+	// Shapiro–Wilk's coefficients by sample size: they depend on n only,
+	// so the advice's refits, which share this buffer, work them out once.
+	swA map[int][]float64
+}
+
+// swCoef returns swCoefficients(n), computed once per buffer.
+func (b *ckSortBuf) swCoef(n int) []float64 {
+	if a, ok := b.swA[n]; ok {
+		return a
+	}
+	if b.swA == nil {
+		b.swA = make(map[int][]float64, 3)
+	}
+	a := swCoefficients(n)
+	b.swA[n] = a
+	return a
 }
 
 func ckGrowU64(b []uint64, n int) []uint64 {

@@ -88,21 +88,35 @@ func ParseNumberHint(s string, decimalComma bool) (float64, error) {
 // parseNumber (a dot followed by exactly three digits could be a thousands
 // separator, so it is left to the full parser); FuzzPlainNumber checks that
 // both agree.
+//
+// Most such cells are read without strconv, by the exact fast path of
+// Clinger ("How to read floating point numbers accurately", PLDI 1990):
+// when the digits form an integer m ≤ 2^53 and there are k ≤ 22 of them
+// after the dot, m and 10^k are both exact in float64 and one IEEE
+// division m / 10^k is the correctly rounded value, the same bits
+// strconv.ParseFloat gives (TestPlainNumberFastPath, FuzzPlainNumber).
 func plainNumber(s string) (float64, bool) {
 	if len(s) == 0 || len(s) > 24 {
 		return 0, false
 	}
 	i := 0
+	neg := false
 	if s[0] == '-' || s[0] == '+' {
+		neg = s[0] == '-'
 		i = 1
 	}
 	start := i
+	var m uint64
+	digits := 0
 	for i < len(s) && isDigit(s[i]) {
+		m = m*10 + uint64(s[i]-'0')
+		digits++
 		i++
 	}
 	if i == start {
 		return 0, false
 	}
+	k := 0
 	if i < len(s) {
 		if s[i] != '.' {
 			return 0, false
@@ -110,11 +124,28 @@ func plainNumber(s string) (float64, bool) {
 		i++
 		frac := i
 		for i < len(s) && isDigit(s[i]) {
+			m = m*10 + uint64(s[i]-'0')
+			digits++
 			i++
 		}
-		if i != len(s) || i-frac == 0 || i-frac == 3 {
+		k = i - frac
+		if i != len(s) || k == 0 || k == 3 {
 			return 0, false
 		}
+	}
+	if digits <= 19 && m <= 1<<53 && k <= 22 {
+		// 19 digits cannot overflow a uint64.
+		if m == 0 && neg {
+			return 0, false
+		}
+		v := float64(m)
+		if k > 0 {
+			v /= plainPow10[k]
+		}
+		if neg {
+			v = -v
+		}
+		return v, true
 	}
 	v, err := strconv.ParseFloat(s, 64)
 	if err != nil || v == 0 && s[0] == '-' {
@@ -122,6 +153,10 @@ func plainNumber(s string) (float64, bool) {
 	}
 	return v, true
 }
+
+// plainPow10[k] is 10^k, exact in float64 for k ≤ 22.
+var plainPow10 = [23]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10,
+	1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22}
 
 type numberHint int
 

@@ -200,6 +200,9 @@ func FuzzPlainNumber(f *testing.F) {
 		if !ok {
 			return
 		}
+		if w, err := strconv.ParseFloat(s, 64); err != nil || math.Float64bits(v) != math.Float64bits(w) {
+			t.Fatalf("%q: the fast path reads %v, strconv.ParseFloat %v (%v)", s, v, w, err)
+		}
 		for _, h := range []numberHint{hintNone, hintDot, hintComma} {
 			w, _, err := parseNumber(s, h)
 			if err != nil {
@@ -210,6 +213,31 @@ func FuzzPlainNumber(f *testing.F) {
 			}
 		}
 	})
+}
+
+// TestPlainNumberFastPath: the exact fast path gives strconv.ParseFloat's
+// bits at its edges (2^53, 22 digits after the dot, 19 digits) and just
+// beyond them, where strconv itself is used.
+func TestPlainNumberFastPath(t *testing.T) {
+	for _, s := range []string{
+		"9007199254740992", "9007199254740993", "9007199254740991.5", "900719925474099.3",
+		"0.1", "0.3", "1.7976931348623157", "123456789.0123456", "0.0000000000000000000001",
+		"0.00000000000000000000001", "1.0000000000000000000001", "4.9406564584124654",
+		"9999999999999999999", "99999999999999999999", "0.12", "-0.12", "+12.25", "00000000000000000012.5",
+		"489.1234567", "-73.0000001", "5e3", "1.5.2", "-0", "-0.0", "0.0",
+	} {
+		v, ok := plainNumber(s)
+		w, err := strconv.ParseFloat(s, 64)
+		// (plainNumber leaves cells of more than 24 bytes to the full parser.)
+		wantOK := err == nil && len(s) <= 24 && !(w == 0 && s[0] == '-') && !strings.ContainsAny(s, "e") && strings.Count(s, ".") <= 1
+		if ok != wantOK {
+			t.Errorf("%q: ok = %v, want %v", s, ok, wantOK)
+			continue
+		}
+		if ok && math.Float64bits(v) != math.Float64bits(w) {
+			t.Errorf("%q: %v (%#x), strconv.ParseFloat %v (%#x)", s, v, math.Float64bits(v), w, math.Float64bits(w))
+		}
+	}
 }
 
 func TestSplitRepeats(t *testing.T) {
