@@ -11,8 +11,8 @@ import (
 
 	"pairline/app/demo"
 	"pairline/app/numfmt"
-	"pairline/app/wording"
 	"pairline/app/reftest"
+	"pairline/app/wording"
 	"pairline/fitcore"
 )
 
