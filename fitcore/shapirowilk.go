@@ -73,40 +73,23 @@ func shapiroWilk(x []float64, b *ckSortBuf, valid bool) (w, p float64, err error
 		}
 		return w, p, nil
 	}
-	k := (n + swBlock - 1) / swBlock
-	// Group j holds the values at positions j, j+k, j+2k, …: n/k of them,
-	// one more for j < n mod k. One sort of the values, each tagged with its
-	// group, gives the whole sorted sample for W and, dealt out in sorted
-	// order, every group already sorted.
-	s, keys, tags := b.sortedTagged(x, k)
+	s := b.sortedCopy(x)
 	w, _, ok := swSorted(s, b.swCoef(n))
 	if !ok {
 		return 0, 0, errSWConstant
 	}
-	// The sorted sample is no longer needed, so its space holds the groups,
-	// group j from start[j] on.
-	start := b.swStart[:0]
-	q, r := n/k, n%k
-	for j, o := 0, 0; j < k; j++ {
-		start = append(start, int32(o))
-		o += q
-		if j < r {
-			o++
-		}
-	}
-	b.swStart = start
-	next := b.swNext[:0]
-	next = append(next, start...)
-	b.swNext = next
-	for i, key := range keys {
-		g := tags[i]
-		s[next[g]] = ckFromKey(key)
-		next[g]++
-	}
+	k := (n + swBlock - 1) / swBlock
+	// Group j holds the values at positions j, j+k, j+2k, …: n/k of them,
+	// one more for j < n mod k. The sorted sample is no longer needed, so
+	// its space holds one group at a time.
 	var fisher float64
 	groups := 0
 	for j := range k {
-		g := s[start[j]:next[j]]
+		g := s[:0]
+		for i := j; i < n; i += k {
+			g = append(g, x[i])
+		}
+		b.sortInPlace(g)
 		_, pj, ok := swSorted(g, b.swCoef(len(g)))
 		if !ok {
 			// A group with no spread: treat it as uninformative.

@@ -47,10 +47,6 @@ type ckSortBuf struct {
 	p1, p2 []ckKeyIdx
 	idx    []int32
 	f      []float64 // sorted values
-	t1, t2 []int32   // tags that travel with the keys (sortedTagged)
-
-	// Shapiro–Wilk's groups: where each starts and its next free place.
-	swStart, swNext []int32
 
 	// Shapiro–Wilk's coefficients by sample size: they depend on n only,
 	// so the advice's refits, which share this buffer, work them out once.
@@ -145,36 +141,6 @@ func ckRadixKeys(keys, tmp []uint64) []uint64 {
 	return src
 }
 
-// ckRadixTagged sorts keys ascending, stable, moving tags[i] with keys[i],
-// using tmp and ttmp (same lengths) as work space, and returns the slices
-// that hold the result.
-func ckRadixTagged(keys, tmp []uint64, tags, ttmp []int32) ([]uint64, []int32) {
-	var cnt [ckRadixPasses][ckRadixSize]int32
-	for _, k := range keys {
-		ckRadixCount(&cnt, k)
-	}
-	need := ckRadixOffsets(keys[0], int32(len(keys)), &cnt)
-	src, dst := keys, tmp
-	tsrc, tdst := tags, ttmp
-	for p := range ckRadixPasses {
-		if !need[p] {
-			continue
-		}
-		c := &cnt[p]
-		sh := uint(p * ckRadixBits)
-		for i, k := range src {
-			d := (k >> sh) & (ckRadixSize - 1)
-			j := c[d]
-			dst[j] = k
-			tdst[j] = tsrc[i]
-			c[d]++
-		}
-		src, dst = dst, src
-		tsrc, tdst = tdst, tsrc
-	}
-	return src, tsrc
-}
-
 // ckKeyIdx is a sort key with the position of its value.
 type ckKeyIdx struct {
 	k uint64
@@ -227,34 +193,6 @@ func (b *ckSortBuf) sortedCopy(v []float64) []float64 {
 		out[i] = ckFromKey(k)
 	}
 	return out
-}
-
-// sortedTagged returns the values of v sorted ascending (as sortedCopy)
-// together with their sort keys in the same order and, for each, the tag
-// i mod k of its position i; all three are owned by b (valid until the next
-// use of b). v must hold no NaN, 1 ≤ len(v) < 2³¹ and 1 ≤ k.
-func (b *ckSortBuf) sortedTagged(v []float64, k int) (s []float64, keys []uint64, tags []int32) {
-	n := len(v)
-	b.f = ckGrowF64(b.f, n)
-	b.k1 = ckGrowU64(b.k1, n)
-	b.k2 = ckGrowU64(b.k2, n)
-	b.t1 = ckGrowI32(b.t1, n)
-	b.t2 = ckGrowI32(b.t2, n)
-	k1, t1 := b.k1, b.t1
-	g := int32(0)
-	for i, a := range v {
-		k1[i] = ckSortKey(a)
-		t1[i] = g
-		if g++; int(g) == k {
-			g = 0
-		}
-	}
-	keys, tags = ckRadixTagged(k1, b.k2, t1, b.t2)
-	s = b.f
-	for i, key := range keys {
-		s[i] = ckFromKey(key)
-	}
-	return s, keys, tags
 }
 
 // sortInPlace sorts v ascending, using b's key space. v must hold no NaN.
