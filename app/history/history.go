@@ -48,9 +48,24 @@ type Summary struct {
 	Fitted                 bool
 	Slope, SlopeSE         float64
 	Intercept, InterceptSE float64
-	Accepted               bool
-	Reason                 string // why the line is not accepted or not fitted
-	X, Y                   []float64
+	// The confidence intervals of slope and intercept at the session's
+	// level (fitcore Coefficient.CILow/CIHigh) and R².
+	SlopeLow, SlopeHigh         float64
+	InterceptLow, InterceptHigh float64
+	RSquared                    float64
+	Level                       float64
+	Accepted                    bool
+	Reason                      string // why the line is not accepted or not fitted
+	X, Y                        []float64
+
+	// What the screens show beside the figures, as the record holds it.
+	Description, Serial, InstrumentID string
+	XName, XUnit, YName, YUnit        string
+	Operator                          string
+	SignedBy, ReviewedBy              string // the seal's signatures; "" = not signed
+	// Criteria are the session's acceptance criteria (nil = none), for the
+	// limits of the drift chart and the projected date of leaving them.
+	Criteria *fitcore.Criteria
 }
 
 // Summarize fits one session with its own settings and keeps its summary.
@@ -71,6 +86,15 @@ func Summarize(s *session.Session) (Summary, error) {
 		ID: s.ID, Key: session.InstrumentKey(s.Instrument), Title: s.Title, Site: s.Site,
 		Revision: s.Revision, Modified: s.Modified, Taken: s.ReadingsDay(),
 		IntervalDays: s.Instrument.IntervalDays, Digest: d,
+		Description: s.Instrument.Description, Serial: s.Instrument.Serial, InstrumentID: s.Instrument.ID,
+		XName: s.XName, XUnit: s.XUnit, YName: s.YName, YUnit: s.YUnit, Operator: s.Operator,
+	}
+	if s.Seal != nil {
+		sum.SignedBy, sum.ReviewedBy = s.Seal.PerformedBy, s.Seal.ReviewedBy
+	}
+	if c := s.Settings.Acceptance; c != nil {
+		cc := *c
+		sum.Criteria = &cc
 	}
 	x, y, _, _ := s.Pairs()
 	rep, err := fitcore.Analyze(x, y, s.Settings.Options())
@@ -81,6 +105,9 @@ func Summarize(s *session.Session) (Summary, error) {
 	sum.Fitted = true
 	sum.Slope, sum.SlopeSE = rep.Slope.Estimate, rep.Slope.SE
 	sum.Intercept, sum.InterceptSE = rep.Intercept.Estimate, rep.Intercept.SE
+	sum.SlopeLow, sum.SlopeHigh = rep.Slope.CILow, rep.Slope.CIHigh
+	sum.InterceptLow, sum.InterceptHigh = rep.Intercept.CILow, rep.Intercept.CIHigh
+	sum.RSquared, sum.Level = rep.RSquared, rep.Level
 	sum.X, sum.Y = x, y
 	switch {
 	case rep.Acceptance != nil:
@@ -145,6 +172,12 @@ type Instrument struct {
 	LeavesWhich string
 	Due         time.Time // last accepted calibration + interval; zero = unknown
 	Overdue     bool
+	// Latest compares the newest session with a line (accepted or not,
+	// not an earlier revision) with the last accepted calibration before
+	// it: "today against the last accepted". Nil when there is no such
+	// pair or the lines cannot be compared (LatestReason says why).
+	Latest       *Change
+	LatestReason string
 }
 
 // Build groups the summaries by instrument and computes each history.
@@ -236,6 +269,7 @@ func build(g []Summary, opt Options) (Instrument, error) {
 		prev = e
 		acc = append(acc, e)
 	}
+	in.Latest, in.LatestReason = latest(entries)
 	if len(acc) > 0 {
 		in.Origin = acc[0].Taken
 		if interval > 0 {
@@ -272,6 +306,32 @@ func build(g []Summary, opt Options) (Instrument, error) {
 		}
 	}
 	return in, nil
+}
+
+// latest compares the newest fitted session with the last accepted one
+// before it in time order.
+func latest(entries []Entry) (*Change, string) {
+	last := -1
+	for i := len(entries) - 1; i >= 0; i-- {
+		if v := entries[i].Verdict; v == Accepted || v == NotAccepted {
+			last = i
+			break
+		}
+	}
+	if last < 0 {
+		return nil, "no session of this instrument has a line yet"
+	}
+	for j := last - 1; j >= 0; j-- {
+		if entries[j].Verdict != Accepted {
+			continue
+		}
+		c, err := fitcore.CompareLines(entries[j].X, entries[j].Y, entries[last].X, entries[last].Y)
+		if err != nil {
+			return nil, err.Error()
+		}
+		return &Change{Session: entries[last].ID, Previous: entries[j].ID, LineComparison: c}, ""
+	}
+	return nil, "there is no accepted calibration before the newest one"
 }
 
 func verdictOf(s Summary) string {
