@@ -187,6 +187,7 @@ func (p *instrumentsPanel) renderRows(it *instItem) app.UI {
 				app.Th().Scope("col").Text("Intercept ± SE"),
 				app.Th().Scope("col").Text("R²"),
 				app.Th().Scope("col").Text("Verdict"),
+				app.Th().Scope("col").Text("Against the previous"),
 				app.Th().Scope("col").Text("Signed by"),
 				app.Th().Scope("col").Body(app.Span().Class("pl-sr").Text("Open")),
 			)),
@@ -204,6 +205,8 @@ func (p *instrumentsPanel) renderRows(it *instItem) app.UI {
 						return app.Span().Class("pl-num-sm").DataSet("testid", "inst-r2").DataSet("value", numfmt.Full(r.R2)).Text(r.R2Text)
 					}).Else(func() app.UI { return app.Text("—") })),
 					app.Td().DataSet("label", "Verdict").Body(app.Span().Class("pl-inst-verdict").DataSet("testid", "inst-verdict").Text(r.VerdictText)),
+					app.Td().DataSet("label", "Against the previous").DataSet("testid", "inst-change").DataSet("value", r.Change).
+						Class("pl-inst-change-"+changeClass(r.Change)).Text(orDash(r.ChangeText)),
 					app.Td().DataSet("label", "Signed by").DataSet("testid", "inst-signed").Text(orDash(r.Signed)),
 					app.Td().Body(app.Button().Class("pl-btn pl-btn-quiet").DataSet("testid", "inst-row-open").
 						Attr("aria-label", "Open the calibration of "+r.Date).Text("Open").
@@ -222,6 +225,16 @@ func verdictClass(v string) string {
 		return "bad"
 	}
 	return "other"
+}
+
+func changeClass(v string) string {
+	switch v {
+	case "":
+		return "none"
+	case "same":
+		return "same"
+	}
+	return "changed"
 }
 
 func orDash(s string) string {

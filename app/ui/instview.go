@@ -93,6 +93,9 @@ type instRow struct {
 	Reason          string
 	Signed          string // "" = not signed
 	Unit, SlopeUnit string
+	// Change is fitcore's verdict on this accepted calibration against the
+	// previous accepted one (history.Instrument.Changes), "" = none.
+	Change, ChangeText string
 }
 
 // instChart is one trend chart: its SVG, the marks a tap is matched
@@ -219,8 +222,24 @@ func wordInstrument(in history.Instrument, now time.Time) instItem {
 	}
 	it.Interval = interval
 	it.Due = dueOf(in, interval, now)
+	change := map[string]history.Change{}
+	for _, c := range in.Changes {
+		change[c.Session] = c
+	}
 	for _, e := range in.Entries {
-		it.Rows = append(it.Rows, wordRow(e))
+		r := wordRow(e)
+		if c, ok := change[e.ID]; ok && e.Verdict == history.Accepted {
+			r.Change = c.Verdict
+			switch c.Verdict {
+			case fitcore.LinesSame:
+				r.ChangeText = "same line"
+			case fitcore.LinesSlopeChanged:
+				r.ChangeText = "slope changed"
+			default:
+				r.ChangeText = "line moved"
+			}
+		}
+		it.Rows = append(it.Rows, r)
 	}
 	it.Slope = trendChart(in, "slope", it)
 	it.Intercept = trendChart(in, "intercept", it)

@@ -165,3 +165,24 @@ func TestInstViewDueAndDuplicates(t *testing.T) {
 		t.Errorf("due in 3 days: %+v", due)
 	}
 }
+
+// TestInstViewStepInTable: over the whole year the probe's line moved once,
+// between months 7 and 8 (the generated step), and nowhere else.
+func TestInstViewStepInTable(t *testing.T) {
+	v, err := buildInstView(instSums(t, nil), instStart.AddDate(0, 11, 10))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, r := range instByKey(t, v)["LVWB-EC-03"].Rows {
+		want := fitcore.LinesSame
+		if i == 0 {
+			want = ""
+		}
+		if i == 7 {
+			want = fitcore.LinesMoved
+		}
+		if r.Change != want {
+			t.Errorf("month %d: %q, want %q", i+1, r.Change, want)
+		}
+	}
+}
