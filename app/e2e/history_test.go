@@ -131,7 +131,9 @@ func historyFlow(t *testing.T, srv *server, name string, size [2]int64) {
 	if v := attr(t, b, "inst-chart-slope", "data-limits"); v != "2" {
 		t.Errorf("slope chart: %s limits drawn, want 2", v)
 	}
-	hiShot(t, b, name, "analyser")
+	hiShot(t, b, name, "analyser", "instruments")
+	hiShot(t, b, name, "analyser-compare", "inst-compare")
+	hiShot(t, b, name, "analyser-table", "inst-calibrations")
 
 	// Tap month 6 on the slope chart: which session it is, and open it.
 	origin := cl[0].ReadingsDay()
@@ -144,7 +146,7 @@ func historyFlow(t *testing.T, srv *server, name string, size [2]int64) {
 	if !exists(t, b, "inst-chart-selected") {
 		t.Error("no ring around the tapped calibration")
 	}
-	hiShot(t, b, name, "tapped")
+	hiShot(t, b, name, "tapped", "inst-chart-slope")
 	click(t, b, "inst-point-open")
 	waitFor(t, b, "the tapped session open", fmt.Sprintf(`tid("session-title").value === %q && !tid("instruments")`, cl[5].Title), 20*time.Second)
 
@@ -168,7 +170,7 @@ func historyFlow(t *testing.T, srv *server, name string, size [2]int64) {
 	if exists(t, b, "inst-drift-warning") && attr(t, b, "inst-drift-slope", "data-status") == "drifting" {
 		t.Error("the probe's slope is called drifting")
 	}
-	hiShot(t, b, name, "probe")
+	hiShot(t, b, name, "probe", "inst-calibrations")
 
 	// The stable meter: overdue, counted once despite the second import.
 	hiPick(t, b, "LVWB-TB-01")
@@ -182,10 +184,10 @@ func historyFlow(t *testing.T, srv *server, name string, size [2]int64) {
 		t.Errorf("meter slope drift %q, want steady", st)
 	}
 	t.Logf("%s: meter: %s", name, text(t, b, "inst-due"))
-	hiShot(t, b, name, "overdue")
+	hiShot(t, b, name, "overdue", "instruments")
 	for _, th := range []string{"outdoor", "dark"} {
 		setTheme(t, b, th)
-		hiShot(t, b, name, "overdue-"+th)
+		hiShot(t, b, name, "overdue-"+th, "inst-compare")
 	}
 	setTheme(t, b, "standard")
 
@@ -202,7 +204,7 @@ func historyFlow(t *testing.T, srv *server, name string, size [2]int64) {
 	if st != "overdue" {
 		t.Errorf("session list: the meter's month 10 is marked %q, want overdue", st)
 	}
-	hiShot(t, b, name, "list")
+	hiShot(t, b, name, "list", "session-list")
 }
 
 // hiPick opens one instrument's view.
@@ -224,8 +226,15 @@ func hiNum(t *testing.T, b *browser, testid, name string) float64 {
 	return v
 }
 
-// hiShot saves a screenshot of the instrument view (the page scrolled to it).
-func hiShot(t *testing.T, b *browser, size, what string) {
+// hiShot saves what the screen shows with the element of that testid
+// scrolled to the top (the viewport, as the technician sees it).
+func hiShot(t *testing.T, b *browser, size, what, testid string) {
 	t.Helper()
-	screenshot(t, b, "history-"+size+"-"+what)
+	eval[bool](t, b, fmt.Sprintf(`(() => { const e = tid(%q); if (e) e.scrollIntoView({block: 'start'}); return true })()`, testid))
+	time.Sleep(150 * time.Millisecond) // a frame for the scroll (not a measurement)
+	buf, err := chromedp.Run(b.ctx, chromedp.CaptureScreenshot())
+	if err != nil {
+		t.Fatalf("screenshot: %v", err)
+	}
+	writeArtifact(t, "history-"+size+"-"+what+".png", buf)
 }

@@ -182,14 +182,13 @@ func (p *instrumentsPanel) renderRows(it *instItem) app.UI {
 		app.Table().Class("pl-inst-table").DataSet("testid", "inst-calibrations").Body(
 			app.Caption().Text("Calibrations in time order"),
 			app.THead().Body(app.Tr().Body(
-				app.Th().Scope("col").Text("Date"),
+				app.Th().Scope("col").Text("Date (tap to open)"),
 				app.Th().Scope("col").Text("Slope ± SE"),
 				app.Th().Scope("col").Text("Intercept ± SE"),
 				app.Th().Scope("col").Text("R²"),
 				app.Th().Scope("col").Text("Verdict"),
-				app.Th().Scope("col").Text("Against the previous"),
+				app.Th().Scope("col").Text("Against previous"),
 				app.Th().Scope("col").Text("Signed by"),
-				app.Th().Scope("col").Body(app.Span().Class("pl-sr").Text("Open")),
 			)),
 			app.TBody().Body(app.Range(it.Rows).Slice(func(i int) app.UI {
 				r := it.Rows[i]
@@ -198,19 +197,18 @@ func (p *instrumentsPanel) renderRows(it *instItem) app.UI {
 					cls += " pl-inst-row-tapped"
 				}
 				return app.Tr().Class(cls).DataSet("testid", "inst-row").DataSet("id", r.ID).DataSet("verdict", r.Verdict).Body(
-					app.Td().DataSet("label", "Date").Text(r.Date),
+					app.Td().Class("pl-inst-date").Body(app.Button().Class("pl-btn pl-btn-quiet").DataSet("testid", "inst-row-open").
+						Attr("aria-label", "Open the calibration of "+r.Date).Text(r.Date).
+						OnClick(func(ctx app.Context, e app.Event) { p.open(r.ID) }, app.EventScope(r.ID))),
 					app.Td().DataSet("label", "Slope").Body(numCell("inst-slope", r.Fitted, r.Slope, r.SlopeSE, r.SlopeText, r.SlopeSEText)),
 					app.Td().DataSet("label", "Intercept").Body(numCell("inst-intercept", r.Fitted, r.Icpt, r.IcptSE, r.IcptText, r.IcptSEText)),
 					app.Td().DataSet("label", "R²").Body(app.If(r.Fitted, func() app.UI {
 						return app.Span().Class("pl-num-sm").DataSet("testid", "inst-r2").DataSet("value", numfmt.Full(r.R2)).Text(r.R2Text)
 					}).Else(func() app.UI { return app.Text("—") })),
 					app.Td().DataSet("label", "Verdict").Body(app.Span().Class("pl-inst-verdict").DataSet("testid", "inst-verdict").Text(r.VerdictText)),
-					app.Td().DataSet("label", "Against the previous").DataSet("testid", "inst-change").DataSet("value", r.Change).
+					app.Td().DataSet("label", "Against previous").DataSet("testid", "inst-change").DataSet("value", r.Change).
 						Class("pl-inst-change-"+changeClass(r.Change)).Text(orDash(r.ChangeText)),
 					app.Td().DataSet("label", "Signed by").DataSet("testid", "inst-signed").Text(orDash(r.Signed)),
-					app.Td().Body(app.Button().Class("pl-btn pl-btn-quiet").DataSet("testid", "inst-row-open").
-						Attr("aria-label", "Open the calibration of "+r.Date).Text("Open").
-						OnClick(func(ctx app.Context, e app.Event) { p.open(r.ID) }, app.EventScope(r.ID))),
 				)
 			})),
 		),
@@ -248,8 +246,12 @@ func numCell(testid string, fitted bool, v, se float64, vt, set string) app.UI {
 	if !fitted {
 		return app.Text("—")
 	}
-	return app.Span().Class("pl-num-sm").DataSet("testid", testid).DataSet("value", numfmt.Full(v)).DataSet("se", numfmt.Full(se)).
-		Text(vt + " ± " + set)
+	// The standard error on a line of its own under the estimate, so that
+	// seven columns fit a tablet.
+	return app.Span().Class("pl-num-sm pl-inst-est").DataSet("testid", testid).DataSet("value", numfmt.Full(v)).DataSet("se", numfmt.Full(se)).Body(
+		app.Span().Text(vt),
+		app.Span().Class("pl-inst-se").Text(" ± "+set),
+	)
 }
 
 func (p *instrumentsPanel) renderCharts(it *instItem) app.UI {
@@ -328,13 +330,13 @@ func (p *instrumentsPanel) renderCompare(it *instItem) app.UI {
 	k := it.Compare
 	if k == nil {
 		return app.Div().Class("pl-inst-block").DataSet("testid", "inst-compare").DataSet("verdict", "n/a").Body(
-			app.H4().Text("Today against the last accepted calibration"),
+			app.H4().Text("Latest calibration against the last accepted one"),
 			app.P().Text(it.CompareWhy),
 		)
 	}
 	return app.Div().Class("pl-inst-block pl-inst-cmp-"+cmpClass(k.Verdict)).DataSet("testid", "inst-compare").
 		DataSet("verdict", k.Verdict).DataSet("today", k.Today).DataSet("previous", k.Previous).Body(
-		app.H4().Text("Today ("+k.TodayDate+") against the last accepted calibration ("+k.PreviousDate+")"),
+		app.H4().Text("Latest calibration ("+k.TodayDate+") against the last accepted one before it ("+k.PreviousDate+")"),
 		app.P().Class("pl-inst-headline").DataSet("testid", "inst-compare-headline").Text(k.Headline),
 		app.Ul().Class("pl-inst-facts").Body(
 			app.Li().DataSet("testid", "inst-test-slopes").DataSet("f", numfmt.Full(k.FSlopes)).DataSet("p", numfmt.Full(k.PSlopes)).Text(k.Slopes),
@@ -345,7 +347,7 @@ func (p *instrumentsPanel) renderCompare(it *instItem) app.UI {
 					DataSet("diff", numfmt.Full(d.Diff)).DataSet("x", numfmt.Full(d.X)).Text(d.Text)
 			}),
 		),
-		app.P().Class("pl-inst-hint").Text("“Reads higher” means a sample read today and converted with the line of "+k.PreviousDate+" comes out higher than with today's line. Comparison of two straight lines by F-tests (separate lines against parallel lines, and against one common line)."),
+		app.P().Class("pl-inst-hint").Text("“Reads higher” means a sample read today and converted with the line of "+k.PreviousDate+" comes out higher than with the latest line. Comparison of two straight lines by F-tests (separate lines against parallel lines, and against one common line)."),
 	)
 }
 

@@ -65,6 +65,7 @@ type instItem struct {
 	Due          dueMark
 	Rows         []instRow // time order
 	XName, XUnit string
+	YUnit        string
 
 	Slope, Intercept instChart
 	Compare          *instCompare
@@ -218,7 +219,7 @@ func wordInstrument(in history.Instrument, now time.Time) instItem {
 		if e.Site != "" {
 			it.Site = e.Site
 		}
-		it.XName, it.XUnit = e.XName, e.XUnit
+		it.XName, it.XUnit, it.YUnit = e.XName, e.XUnit, e.YUnit
 	}
 	it.Interval = interval
 	it.Due = dueOf(in, interval, now)
@@ -252,7 +253,7 @@ func wordInstrument(in history.Instrument, now time.Time) instItem {
 		which string
 		r     *fitcore.DriftResult
 		unit  string
-	}{{"slope", in.SlopeDrift, lastUnit(in, false)}, {"intercept", in.InterceptDrift, lastUnit(in, true)}} {
+	}{{"slope", in.SlopeDrift, ratioless(lastUnit(in, false))}, {"intercept", in.InterceptDrift, lastUnit(in, true)}} {
 		it.Drift = append(it.Drift, wordDrift(d.which, d.r, d.unit, in.Origin, limitsOf(in.Entries, d.which)))
 	}
 	if !in.LeavesAt.IsZero() {
@@ -276,6 +277,15 @@ func lastUnit(in history.Instrument, intercept bool) string {
 		return wording.SlopeUnit(e.YUnit, e.XUnit)
 	}
 	return ""
+}
+
+// ratioless drops the unit of a slope that is a plain ratio (x and y in
+// the same unit) from a sentence: "−0.004 per month", not "ratio per month".
+func ratioless(u string) string {
+	if u == "ratio" {
+		return ""
+	}
+	return u
 }
 
 func dueOf(in history.Instrument, interval int, now time.Time) dueMark {
@@ -447,12 +457,12 @@ func wordCompare(in history.Instrument, it instItem) *instCompare {
 		k.Coincident = "Coincident lines: one line fits both calibrations (" + fc + ")."
 	case fitcore.LinesSlopeChanged:
 		k.Headline = "The slope has changed since the last accepted calibration" + on + "."
-		k.Slopes = "Equal slopes: the slopes differ (" + fs + "): today's " + numfmt.Sig(c.Slope2, 5) + " against " + numfmt.Sig(c.Slope1, 5) + "."
+		k.Slopes = "Equal slopes: the slopes differ (" + fs + "): latest " + numfmt.Short(c.Slope2, 5) + " against " + numfmt.Short(c.Slope1, 5) + "."
 		k.Coincident = "Coincident lines: the two calibrations are not one line (" + fc + ")."
 	default:
-		k.Headline = "The line has moved since the last accepted calibration" + on + ": same slope, another level (a step change)."
+		k.Headline = "The line has moved since the last accepted calibration" + on + ": the slopes agree within the scatter, the level differs."
 		k.Slopes = "Equal slopes: no difference shown (" + fs + ")."
-		k.Coincident = "Coincident lines: the two calibrations are not one line (" + fc + "): today's intercept " + numfmt.Sig(c.Intercept2, 4) + " against " + numfmt.Sig(c.Intercept1, 4) + "."
+		k.Coincident = "Coincident lines: the two calibrations are not one line (" + fc + "): latest intercept " + numfmt.Short(c.Intercept2, 4) + unitSuffix(it.YUnit) + " against " + numfmt.Short(c.Intercept1, 4) + unitSuffix(it.YUnit) + "."
 	}
 	unit := it.XUnit
 	for _, d := range []struct {
@@ -460,7 +470,7 @@ func wordCompare(in history.Instrument, it instItem) *instCompare {
 		x     fitcore.XDifference
 	}{{"middle", c.Middle}, {"top", c.Top}} {
 		dd := instDiff{Where: d.where, X: d.x.X, Diff: d.x.Diff, Percent: math.NaN()}
-		at := " at " + numfmt.Sig(d.x.X, 4) + unitSuffix(unit)
+		at := " at " + numfmt.Short(d.x.X, 4) + unitSuffix(unit)
 		abs := numfmt.Sig(math.Abs(d.x.Diff), 2) + unitSuffix(unit)
 		word := "higher"
 		if d.x.Diff < 0 {
@@ -517,7 +527,7 @@ func wordDrift(which string, r *fitcore.DriftResult, unit string, origin time.Ti
 	}
 	if l := r.Leaves; l != nil && r.Status == fitcore.DriftDrifting {
 		d.LeavesAt = origin.Add(history.Duration(l.At))
-		d.Leaves = "At this rate it reaches its " + l.Side + " limit " + numfmt.Sig(l.Limit, 4) + u + " around " + dayOf(d.LeavesAt)
+		d.Leaves = "At this rate it reaches its " + l.Side + " limit " + numfmt.Short(l.Limit, 4) + u + " around " + dayOf(d.LeavesAt)
 		if l.Bounded {
 			d.Bounded = true
 			d.LeavesLo, d.LeavesHi = origin.Add(history.Duration(l.Low)), origin.Add(history.Duration(l.High))
