@@ -185,9 +185,11 @@ func historyFlow(t *testing.T, srv *server, name string, size [2]int64) {
 	}
 	t.Logf("%s: meter: %s", name, text(t, b, "inst-due"))
 	hiShot(t, b, name, "overdue", "instruments")
+	reportAxe(t, "instrument view, "+name+", standard", runAxe(t, b))
 	for _, th := range []string{"outdoor", "dark"} {
 		setTheme(t, b, th)
 		hiShot(t, b, name, "overdue-"+th, "inst-compare")
+		reportAxe(t, "instrument view, "+name+", "+th, runAxe(t, b))
 	}
 	setTheme(t, b, "standard")
 

@@ -347,7 +347,7 @@ func (p *instrumentsPanel) renderCompare(it *instItem) app.UI {
 					DataSet("diff", numfmt.Full(d.Diff)).DataSet("x", numfmt.Full(d.X)).Text(d.Text)
 			}),
 		),
-		app.P().Class("pl-inst-hint").Text("“Reads higher” means a sample read today and converted with the line of "+k.PreviousDate+" comes out higher than with the latest line. Comparison of two straight lines by F-tests (separate lines against parallel lines, and against one common line)."),
+		app.P().Class("pl-inst-hint").Text("“Reads higher” means: a sample measured on "+k.TodayDate+" and converted with the line of "+k.PreviousDate+" comes out higher than with the line of "+k.TodayDate+". Comparison of two straight lines by F-tests (separate lines against parallel lines, and against one common line)."),
 	)
 }
 
