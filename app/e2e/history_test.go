@@ -131,6 +131,7 @@ func historyFlow(t *testing.T, srv *server, name string, size [2]int64) {
 	if v := attr(t, b, "inst-chart-slope", "data-limits"); v != "2" {
 		t.Errorf("slope chart: %s limits drawn, want 2", v)
 	}
+	hiShot(t, b, name, "bar", "app-bar")
 	hiShot(t, b, name, "analyser", "instruments")
 	hiShot(t, b, name, "analyser-compare", "inst-compare")
 	hiShot(t, b, name, "analyser-table", "inst-calibrations")
