@@ -152,8 +152,10 @@ func historyFlow(t *testing.T, srv *server, name string, size [2]int64) {
 	waitFor(t, b, "the tapped session open", fmt.Sprintf(`tid("session-title").value === %q && !tid("instruments")`, cl[5].Title), 20*time.Second)
 
 	// The probe: its line moved between months 7 and 8 and nowhere else.
+	t1 := time.Now()
 	click(t, b, "instruments-open")
 	waitFor(t, b, "the instrument list", `tids("instrument-item").length === 3`, 60*time.Second)
+	t.Logf("%s: instrument list shown again %v after the tap (summaries kept)", name, time.Since(t1).Round(time.Millisecond))
 	hiPick(t, b, "LVWB-EC-03")
 	changes := eval[[]string](t, b, `tids("inst-change").map(e => e.dataset.value)`)
 	for i, c := range changes {

@@ -25,6 +25,8 @@ type instrumentsPanel struct {
 
 	View    *instView // nil while the sessions are being read
 	Message string    // why the view could not be made, "" = fine
+	Done    int       // sessions read so far of Total, while View is nil
+	Total   int
 	OnOpen  func(id string)
 	OnClose func()
 
@@ -68,7 +70,11 @@ func (p *instrumentsPanel) Render() app.UI {
 			return app.P().Class("pl-inst-msg").Attr("role", "alert").DataSet("testid", "instruments-message").Text(p.Message)
 		}),
 		app.If(p.View == nil && p.Message == "", func() app.UI {
-			return app.P().Class("pl-inst-wait").DataSet("testid", "instruments-loading").Text("Reading the sessions on this device…")
+			t := "Reading the sessions on this device…"
+			if p.Total > 0 {
+				t = "Reading the sessions on this device: " + strconv.Itoa(p.Done) + " of " + strconv.Itoa(p.Total) + "…"
+			}
+			return app.P().Class("pl-inst-wait").Attr("role", "status").DataSet("testid", "instruments-loading").Text(t)
 		}),
 		app.If(p.View != nil, func() app.UI { return p.renderList() }),
 		app.If(it != nil, func() app.UI { return p.renderInstrument(it) }),

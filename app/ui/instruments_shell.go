@@ -17,10 +17,11 @@ import (
 
 // instState is the Shell's part of the instrument view.
 type instState struct {
-	instOpen bool
-	instView *instView
-	instMsg  string
-	instSeq  int // counts refreshes, so that only the newest is shown
+	instOpen            bool
+	instView            *instView
+	instMsg             string
+	instDone, instTotal int // sessions read of those listed, while a refresh runs
+	instSeq             int // counts refreshes, so that only the newest is shown
 	// instCache keeps each stored session's summary with the time of the
 	// change it was made from, so that a refresh reads only what changed.
 	instCache map[string]instCached
@@ -60,6 +61,12 @@ func (c *Shell) refreshInstruments() {
 					}
 				}
 				if i%8 == 7 {
+					n := i + 1
+					c.ui.Dispatch(func(ctx app.Context) {
+						if seq == c.instSeq {
+							c.instDone, c.instTotal = n, len(list)
+						}
+					})
 					time.Sleep(time.Millisecond) // give the page its turn
 				}
 			}
@@ -74,6 +81,7 @@ func (c *Shell) refreshInstruments() {
 				return
 			}
 			c.instCache = fresh
+			c.instDone, c.instTotal = 0, 0
 			if err != nil {
 				c.instMsg = "The history of the instruments could not be made: " + err.Error()
 				return
@@ -88,7 +96,7 @@ func (c *Shell) refreshInstruments() {
 // Instruments button).
 func (c *Shell) renderInstruments() app.UI {
 	return &instrumentsPanel{
-		View: c.instView, Message: c.instMsg,
+		View: c.instView, Message: c.instMsg, Done: c.instDone, Total: c.instTotal,
 		OnOpen: func(id string) {
 			c.instOpen = false
 			c.open(c.ui, id)
@@ -102,6 +110,7 @@ func (c *Shell) toggleInstruments(ctx app.Context, e app.Event) {
 	c.instOpen = !c.instOpen
 	if c.instOpen {
 		c.listOpen = false
+		c.instView = nil // the list as stored now, not as it was
 		c.refreshInstruments()
 	}
 }

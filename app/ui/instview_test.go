@@ -186,3 +186,26 @@ func TestInstViewStepInTable(t *testing.T) {
 		}
 	}
 }
+
+// BenchmarkInstView: summarising the invented year (36 sessions:
+// history.Summarize fits each) and wording its history.
+func BenchmarkInstView(b *testing.B) {
+	ss, err := history.ScenarioRecords(2026, instStart)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		sums := make([]history.Summary, 0, len(ss))
+		for _, s := range ss {
+			sum, err := history.Summarize(s)
+			if err != nil {
+				b.Fatal(err)
+			}
+			sums = append(sums, sum)
+		}
+		if _, err := buildInstView(sums, instStart.AddDate(1, 0, 0)); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
