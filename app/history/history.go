@@ -48,23 +48,25 @@ type Summary struct {
 	Fitted                 bool
 	Slope, SlopeSE         float64
 	Intercept, InterceptSE float64
-	// The confidence intervals of slope and intercept at the session's
-	// level (fitcore Coefficient.CILow/CIHigh) and R².
+	Accepted               bool
+	Reason                 string // why the line is not accepted or not fitted
+	X, Y                   []float64
+
+	// For showing the history (the page of `pairline history --html`):
+	// the session's own intervals of slope and intercept at Level, R², the
+	// quantities and units, the instrument and who signed.
 	SlopeLow, SlopeHigh         float64
 	InterceptLow, InterceptHigh float64
-	RSquared                    float64
 	Level                       float64
-	Accepted                    bool
-	Reason                      string // why the line is not accepted or not fitted
-	X, Y                        []float64
-
-	// What the screens show beside the figures, as the record holds it.
-	Description, Serial, InstrumentID string
-	XName, XUnit, YName, YUnit        string
-	Operator                          string
-	SignedBy, ReviewedBy              string // the seal's signatures; "" = not signed
-	// Criteria are the session's acceptance criteria (nil = none), for the
-	// limits of the drift chart and the projected date of leaving them.
+	RSquared                    float64
+	XName, XUnit, YName, YUnit  string
+	Description, Serial         string
+	InstrumentID                string
+	Operator                    string
+	PerformedBy, ReviewedBy     string // the seal's signatures; "" = not signed
+	// Criteria are the session's acceptance criteria (nil = none): the
+	// limits of the instrument view's charts and of the projected day of
+	// leaving them.
 	Criteria *fitcore.Criteria
 }
 
@@ -86,11 +88,12 @@ func Summarize(s *session.Session) (Summary, error) {
 		ID: s.ID, Key: session.InstrumentKey(s.Instrument), Title: s.Title, Site: s.Site,
 		Revision: s.Revision, Modified: s.Modified, Taken: s.ReadingsDay(),
 		IntervalDays: s.Instrument.IntervalDays, Digest: d,
+		XName: s.XName, XUnit: s.XUnit, YName: s.YName, YUnit: s.YUnit,
 		Description: s.Instrument.Description, Serial: s.Instrument.Serial, InstrumentID: s.Instrument.ID,
-		XName: s.XName, XUnit: s.XUnit, YName: s.YName, YUnit: s.YUnit, Operator: s.Operator,
+		Operator: s.Operator,
 	}
 	if s.Seal != nil {
-		sum.SignedBy, sum.ReviewedBy = s.Seal.PerformedBy, s.Seal.ReviewedBy
+		sum.PerformedBy, sum.ReviewedBy = s.Seal.PerformedBy, s.Seal.ReviewedBy
 	}
 	if c := s.Settings.Acceptance; c != nil {
 		cc := *c
@@ -105,10 +108,10 @@ func Summarize(s *session.Session) (Summary, error) {
 	sum.Fitted = true
 	sum.Slope, sum.SlopeSE = rep.Slope.Estimate, rep.Slope.SE
 	sum.Intercept, sum.InterceptSE = rep.Intercept.Estimate, rep.Intercept.SE
+	sum.X, sum.Y = x, y
 	sum.SlopeLow, sum.SlopeHigh = rep.Slope.CILow, rep.Slope.CIHigh
 	sum.InterceptLow, sum.InterceptHigh = rep.Intercept.CILow, rep.Intercept.CIHigh
-	sum.RSquared, sum.Level = rep.RSquared, rep.Level
-	sum.X, sum.Y = x, y
+	sum.Level, sum.RSquared = rep.Level, rep.RSquared
 	switch {
 	case rep.Acceptance != nil:
 		sum.Accepted = rep.Acceptance.Pass

@@ -19,6 +19,9 @@ type ScenarioInstrument struct {
 	SlopeDriftPerMonth float64
 	StepMonth          int
 	Step               float64
+	// The quantities and units of the readings (x: the standards, y: the
+	// instrument's response).
+	XName, XUnit, YName, YUnit string
 }
 
 // ScenarioInstruments are the three instruments of the invented Larkwater
@@ -26,9 +29,12 @@ type ScenarioInstrument struct {
 // chlorine analyser whose slope drifts, and a conductivity probe whose
 // line moves after a cleaning in month 7.
 var ScenarioInstruments = []ScenarioInstrument{
-	{ID: "LVWB-TB-01", Description: "turbidity meter, Harrow Mill works (invented)"},
-	{ID: "LVWB-CL-02", Description: "chlorine analyser, Fenwick reservoir (invented)", SlopeDriftPerMonth: -0.004},
-	{ID: "LVWB-EC-03", Description: "conductivity probe, Stonebeck intake (invented)", StepMonth: 7, Step: 0.8},
+	{ID: "LVWB-TB-01", Description: "turbidity meter, Harrow Mill works (invented)",
+		XName: "turbidity standard", XUnit: "NTU", YName: "meter signal", YUnit: "mV"},
+	{ID: "LVWB-CL-02", Description: "chlorine analyser, Fenwick reservoir (invented)", SlopeDriftPerMonth: -0.004,
+		XName: "free chlorine standard", XUnit: "µg/L", YName: "analyser signal", YUnit: "mV"},
+	{ID: "LVWB-EC-03", Description: "conductivity probe, Stonebeck intake (invented)", StepMonth: 7, Step: 0.8,
+		XName: "conductivity standard", XUnit: "µS/cm", YName: "probe signal", YUnit: "mV"},
 }
 
 // Scenario generates monthly calibration sessions over a year for the
@@ -60,6 +66,10 @@ func Scenario(seed uint64, start time.Time, copies int) ([]*session.Session, err
 					{session.FieldInstrumentID, id},
 					{session.FieldIntervalDays, "35"},
 					{session.FieldOperator, "A. Technician (invented)"},
+					{session.FieldXName, in.XName},
+					{session.FieldXUnit, in.XUnit},
+					{session.FieldYName, in.YName},
+					{session.FieldYUnit, in.YUnit},
 				} {
 					if err := s.SetField(f[0], f[1], day); err != nil {
 						return nil, err
@@ -94,23 +104,15 @@ func (s seededReader) Read(p []byte) (int, error) {
 	return len(p), nil
 }
 
-// ScenarioUnits are the units of x and y of each ScenarioInstruments
-// entry, by ID (INVENTED, like the rest of the scenario).
-var ScenarioUnits = map[string]string{
-	"LVWB-TB-01": "NTU",
-	"LVWB-CL-02": "mg/L",
-	"LVWB-EC-03": "µS/cm",
-}
-
 // ScenarioLimits are the acceptance limits ScenarioRecords sets on every
 // session: slope 1.40–1.60 and intercept −1.0–2.5 (INVENTED; the generated
 // lines stay inside them for the year, and the drifting analyser's slope,
 // 1.5 − 0.004·month, reaches 1.40 in month 26).
 var ScenarioLimits = struct{ SlopeLow, SlopeHigh, InterceptLow, InterceptHigh float64 }{1.40, 1.60, -1.0, 2.5}
 
-// ScenarioRecords is Scenario (one copy) as finished records: units on
-// x and y, the acceptance limits of ScenarioLimits, and each session
-// sealed by its operator an hour after the readings. For the app's tests
+// ScenarioRecords is Scenario (one copy) as finished records: the
+// acceptance limits of ScenarioLimits on each session, and each sealed by
+// its operator an hour after the readings. For the app's tests
 // and screenshots. All data are INVENTED.
 func ScenarioRecords(seed uint64, start time.Time) ([]*session.Session, error) {
 	ss, err := Scenario(seed, start, 1)
@@ -119,15 +121,6 @@ func ScenarioRecords(seed uint64, start time.Time) ([]*session.Session, error) {
 	}
 	for _, s := range ss {
 		day := s.Created
-		u := ScenarioUnits[s.Instrument.ID]
-		for _, f := range [][2]string{
-			{session.FieldXName, "Standard"}, {session.FieldXUnit, u},
-			{session.FieldYName, "Instrument reading"}, {session.FieldYUnit, u},
-		} {
-			if err := s.SetField(f[0], f[1], day); err != nil {
-				return nil, err
-			}
-		}
 		l := ScenarioLimits
 		s.Settings.Acceptance = &fitcore.Criteria{SlopeLow: &l.SlopeLow, SlopeHigh: &l.SlopeHigh,
 			InterceptLow: &l.InterceptLow, InterceptHigh: &l.InterceptHigh}

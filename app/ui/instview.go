@@ -322,7 +322,7 @@ func dueOf(in history.Instrument, interval int, now time.Time) dueMark {
 
 func wordRow(e history.Entry) instRow {
 	r := instRow{ID: e.ID, Title: e.Title, Taken: e.Taken, Date: dayOf(e.Taken), Fitted: e.Fitted,
-		Verdict: e.Verdict, Reason: e.Reason, Signed: e.SignedBy, Unit: e.YUnit}
+		Verdict: e.Verdict, Reason: e.Reason, Signed: e.PerformedBy, Unit: e.YUnit}
 	if e.XUnit != "" || e.YUnit != "" {
 		r.SlopeUnit = wording.SlopeUnit(e.YUnit, e.XUnit)
 	}
