@@ -98,7 +98,11 @@ func (p *instrumentsPanel) renderList() app.UI {
 					DataSet("state", in.Due.State).Body(
 					app.Button().Class("pl-inst-pick").DataSet("testid", "instrument-open").
 						Attr("aria-pressed", strconv.FormatBool(in.Key == p.sel)).
-						OnClick(func(ctx app.Context, e app.Event) { p.sel, p.tapped = in.Key, "" }, app.EventScope(in.Key)).Body(
+						OnClick(func(ctx app.Context, e app.Event) {
+							p.sel, p.tapped = in.Key, ""
+							// On a phone the view is below the list: bring it up.
+							ctx.Defer(func(ctx app.Context) { scrollToTestID("instrument-view") })
+						}, app.EventScope(in.Key)).Body(
 						app.Span().Class("pl-inst-key").Text(in.Key),
 						app.Span().Class("pl-inst-desc").Text(in.Description),
 						app.Span().Class("pl-inst-count").DataSet("testid", "instrument-count").DataSet("value", strconv.Itoa(in.Count)).
@@ -381,4 +385,14 @@ func (p *instrumentsPanel) renderDrift(it *instItem) app.UI {
 		}),
 		app.P().Class("pl-inst-hint").Text("A weighted line through the accepted calibrations against time (weights from each one's standard error); its rate is tested against zero."),
 	)
+}
+
+// scrollToTestID brings the element with that data-testid to the top of
+// the screen (a no-op when prerendering).
+func scrollToTestID(testid string) {
+	el := app.Window().Get("document").Call("querySelector", `[data-testid="`+testid+`"]`)
+	if el.Truthy() {
+		// At once, not smoothly: a tap that follows must land where it aims.
+		el.Call("scrollIntoView", map[string]any{"block": "start"})
+	}
 }
