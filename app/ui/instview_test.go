@@ -153,6 +153,14 @@ func TestInstViewDueAndDuplicates(t *testing.T) {
 	if tb.Count != 10 || tb.Duplicates != 2 {
 		t.Errorf("meter: %d counted, %d duplicates; want 10, 2", tb.Count, tb.Duplicates)
 	}
+	if v.Unnamed != 0 {
+		t.Errorf("unnamed %d, want 0", v.Unnamed)
+	}
+	loose := sums[0]
+	loose.ID, loose.Key = "0123456789abcdef0123456789abcdef", ""
+	if v, err := buildInstView(append(sums, loose), now); err != nil || v.Unnamed != 1 || len(v.Items) != 3 {
+		t.Errorf("a session naming no instrument: %d unnamed, %d instruments (%v); want 1, 3", v.Unnamed, len(v.Items), err)
+	}
 	few, err := buildInstView(sums[:2], now)
 	if err != nil {
 		t.Fatal(err)
