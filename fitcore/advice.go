@@ -406,11 +406,18 @@ func adHow(c Candidate) string {
 	return ""
 }
 
-// adAchieved compares the spread and straightness verdicts before and after.
+// adAchieved compares the spread and straightness verdicts before and
+// after; a verdict that does not change is said to stay ("“Straight line”
+// stays Pass"), never to go from a verdict to the same one.
 func adAchieved(before, after CheckSummary) string {
-	return fmt.Sprintf("With this change “%s” goes from %s to %s and “%s” from %s to %s.",
-		NameSpread, before.Assumptions.Spread.Verdict.Word(), after.Assumptions.Spread.Verdict.Word(),
-		NameLinearity, before.Assumptions.Linearity.Verdict.Word(), after.Assumptions.Linearity.Verdict.Word())
+	change := func(name string, b, a Verdict) string {
+		if b == a {
+			return fmt.Sprintf("“%s” stays %s", name, b.Word())
+		}
+		return fmt.Sprintf("“%s” goes from %s to %s", name, b.Word(), a.Word())
+	}
+	return "With this change " + change(NameSpread, before.Assumptions.Spread.Verdict, after.Assumptions.Spread.Verdict) +
+		" and " + change(NameLinearity, before.Assumptions.Linearity.Verdict, after.Assumptions.Linearity.Verdict) + "."
 }
 
 // adEveryXRepeated says whether every value of x occurs at least twice,

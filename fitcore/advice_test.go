@@ -318,3 +318,26 @@ func FuzzAdvise(f *testing.F) {
 		}
 	})
 }
+
+// TestAdAchievedWords: a verdict that changes goes from one to the other;
+// one that does not change stays (the sentence never says "from Pass to
+// Pass").
+func TestAdAchievedWords(t *testing.T) {
+	sum := func(spread, line Verdict) CheckSummary {
+		var c CheckSummary
+		c.Assumptions.Spread.Verdict, c.Assumptions.Linearity.Verdict = spread, line
+		return c
+	}
+	for _, c := range []struct {
+		before, after CheckSummary
+		want          string
+	}{
+		{sum(Warn, Pass), sum(Pass, Pass), "With this change “" + NameSpread + "” goes from Warning to Pass and “" + NameLinearity + "” stays Pass."},
+		{sum(Fail, Warn), sum(Pass, Pass), "With this change “" + NameSpread + "” goes from Fail to Pass and “" + NameLinearity + "” goes from Warning to Pass."},
+		{sum(Warn, Pass), sum(Warn, Fail), "With this change “" + NameSpread + "” stays Warning and “" + NameLinearity + "” goes from Pass to Fail."},
+	} {
+		if got := adAchieved(c.before, c.after); got != c.want {
+			t.Errorf("adAchieved = %q, want %q", got, c.want)
+		}
+	}
+}

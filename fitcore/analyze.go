@@ -233,135 +233,185 @@ func (fc *fitContext) xRange() (lo, hi float64) {
 // NoScatterSentence, and a check below its minimum number of readings is
 // n/a with the minimum and the reason.
 func (fc *fitContext) runChecks() {
+	r := fc.newCheckRun()
+	r.run()
+	fc.finishChecks(r.inflSummary)
+}
+
+// checkInputs are what the checks see: x, y, the residuals and the
+// weights, each at a safe size, and the Pearson residuals √w·e (the
+// residuals themselves without weights).
+type checkInputs struct {
+	xs, ys, res, w, pr []float64
+}
+
+// checkInputs takes x, y, the residuals and the weights back from the
+// fit's internal scale, then brings each to a safe size by a power of two
+// (exact): every check is unchanged when they are multiplied by a
+// constant, and the squares and fourth powers the checks take can then
+// neither overflow nor underflow. Ordinary readings are not touched.
+func (fc *fitContext) checkInputs() checkInputs {
 	f, rep := fc.f, fc.rep
-	origin := fc.opt.Model == ModelOrigin
-	xs, ys, res, w := fc.xt, fc.yt, rep.Residuals, fc.w
-	scaled := f.kx != 1 || f.ky != 1 || f.cw != 1
-	if scaled {
-		xs = scaledCopy(fc.xt, f.kx)
-		ys = scaledCopy(fc.yt, f.ky)
-		res = scaledCopy(rep.Residuals, f.ky)
-		w = f.w
+	in := checkInputs{xs: fc.xt, ys: fc.yt, res: rep.Residuals, w: fc.w}
+	if f.kx != 1 || f.ky != 1 || f.cw != 1 {
+		in.xs = scaledCopy(fc.xt, f.kx)
+		in.ys = scaledCopy(fc.yt, f.ky)
+		in.res = scaledCopy(rep.Residuals, f.ky)
+		in.w = f.w
 	}
-	// Every check is unchanged when x, y, the residuals or the weights are
-	// multiplied by a constant; bring each to a safe size by a power of two
-	// (exact) so that the squares and fourth powers the checks take can
-	// neither overflow nor underflow. Ordinary readings are not touched.
-	if k := ckSafeScale(xs); k != 1 {
-		xs = scaledCopy(xs, k)
+	in.xs, in.ys, in.res = safeScaled(in.xs), safeScaled(in.ys), safeScaled(in.res)
+	if in.w != nil {
+		in.w = safeScaled(in.w)
 	}
-	if k := ckSafeScale(ys); k != 1 {
-		ys = scaledCopy(ys, k)
-	}
-	if k := ckSafeScale(res); k != 1 {
-		res = scaledCopy(res, k)
-	}
-	if w != nil {
-		if k := ckSafeScale(w); k != 1 {
-			w = scaledCopy(w, k)
+	in.pr = in.res
+	if in.w != nil {
+		in.pr = make([]float64, len(in.res))
+		for i, e := range in.res {
+			in.pr[i] = math.Sqrt(in.w[i]) * e
 		}
 	}
-	pr := res
-	if w != nil {
-		pr = make([]float64, len(res))
-		for i, e := range res {
-			pr[i] = math.Sqrt(w[i]) * e
-		}
+	return in
+}
+
+// safeScaled is v, or a copy of v scaled by ckSafeScale's power of two.
+func safeScaled(v []float64) []float64 {
+	if k := ckSafeScale(v); k != 1 {
+		return scaledCopy(v, k)
 	}
-	c := &rep.Checks
-	// The checks share what they need to know about x, and the inputs are
-	// validated once here rather than by every check.
-	pre := ckPrepare(xs)
-	pre.xyValid = ckValidate(xs, ys, w, "y value") == ""
-	pre.residValid = ckValidate(xs, pr, nil, "residual") == ""
-	pre.quick = fc.sc.refit
-	inflValid := pre.residValid && (w == nil || ckValidate(xs, res, w, "residual") == "")
-	// Three independent groups of work: Shapiro–Wilk (a sort of all
-	// residuals), the influence of each reading, and the other checks. On
-	// a large record they run side by side. Each computes exactly what it
-	// would alone, so the results do not depend on this.
-	n, np := len(xs), 2
-	if origin {
-		np = 1
+	return v
+}
+
+// checkRun is one run of the checks: their inputs, what the checks share
+// about x (pre), validated once here rather than by every check, and the
+// limits that make a check n/a.
+type checkRun struct {
+	fc        *fitContext
+	in        checkInputs
+	pre       *ckPre
+	inflValid bool
+	origin    bool
+	n, np     int
+	noScatter bool // the residuals are within NoScatterTol of zero
+	fewDF     bool // n − p < MinResidualDF
+	// inflSummary is what Summarize(rep.Checks, rep.Influence) words, from
+	// the same reason bits, without reading the results back.
+	inflSummary Assumption
+}
+
+func (fc *fitContext) newCheckRun() *checkRun {
+	rep := fc.rep
+	in := fc.checkInputs()
+	r := &checkRun{fc: fc, in: in, origin: fc.opt.Model == ModelOrigin, n: len(in.xs), np: 2}
+	r.pre = ckPrepare(in.xs)
+	r.pre.xyValid = ckValidate(in.xs, in.ys, in.w, "y value") == ""
+	r.pre.residValid = ckValidate(in.xs, in.pr, nil, "residual") == ""
+	r.pre.quick = fc.sc.refit
+	r.inflValid = r.pre.residValid && (in.w == nil || ckValidate(in.xs, in.res, in.w, "residual") == "")
+	if r.origin {
+		r.np = 1
 	}
-	noScatter := ckNoScatter(fc.yt, rep.Residuals, fc.w)
-	fc.noScatter = noScatter
-	if noScatter && !fc.sc.refit && fc.f.sse != 0 {
+	r.noScatter = ckNoScatter(fc.yt, rep.Residuals, fc.w)
+	fc.noScatter = r.noScatter
+	if r.noScatter && !fc.sc.refit && fc.f.sse != 0 {
 		// (An exact zero has its own note from the inference.)
 		rep.Notes = append(rep.Notes, noScatterNote)
 	}
-	fewDF := n-np < MinResidualDF
-	// limit returns the check as run, or n/a when the limits say so.
-	limit := func(name string, run func() Check) Check {
-		switch {
-		case noScatter:
-			return ckNA(name, NoScatterSentence)
-		case fewDF:
-			return ckNA(name, ckFewDF(name, n, np))
-		}
-		return run()
-	}
-	sw := func() {
-		c.ShapiroWilk = limit("Shapiro–Wilk", func() Check { return shapiroWilkCheck(pr, &fc.sc.sb, pre.residValid) })
-	}
-	others := func() {
-		if noScatter {
-			c.Curvature = ckNA("Curvature", NoScatterSentence)
-		} else {
-			c.Curvature = curvatureTest(xs, ys, w, rep.Level, pre)
-		}
-		if pre.xyValid {
-			// Any order that sorts x also sorts xs, which is x scaled by a
-			// power of two or on a log scale.
-			c.LackOfFit = lackOfFit(xs, ys, w, origin, fc.sc.orderOf(fc.x))
-		} else {
-			c.LackOfFit = LackOfFit(xs, ys, w, origin)
-		}
-		if noScatter && c.LackOfFit != nil {
-			na := ckNA(c.LackOfFit.Name, NoScatterSentence)
-			c.LackOfFit = &na
-		}
-		c.BreuschPagan = limit("Breusch–Pagan", func() Check { return ckSpread("Breusch–Pagan", xs, pr, false, pre) })
-		c.White = limit("White", func() Check { return ckSpread("White", xs, pr, true, pre) })
-		c.DurbinWatson = limit("Durbin–Watson", func() Check { return durbinWatsonW(xs, pr, w, origin, pre) })
-		c.Runs = limit("Runs", func() Check { return runsTest(pr, pre.residValid) })
-	}
-	var inflSummary Assumption
-	infl := func() {
-		defer func() {
-			switch {
-			case noScatter:
-				ckClearInfluence(rep.Influence)
-				inflSummary = Assumption{Verdict: NA, Message: NoScatterSentence}
-			case n-np < MinInfluenceDF:
-				inflSummary = ckFewInfluence(n, np)
-			}
-		}()
-		if fc.sc.refit {
-			// A candidate needs only the influence summary.
-			inflSummary = influenceSummary(xs, res, w, origin, inflValid)
-		} else {
-			var masks []uint8
-			rep.Influence, masks = influenceRun(xs, res, w, origin, inflValid, true)
-			inflSummary = ckInfluenceFromMasks(masks)
-		}
-	}
-	if len(pr) >= anParallelMin {
+	r.fewDF = r.n-r.np < MinResidualDF
+	return r
+}
+
+// run runs three independent groups of work: Shapiro–Wilk (a sort of all
+// residuals), the influence of each reading, and the other checks. On a
+// large record they run side by side. Each computes exactly what it would
+// alone, so the results do not depend on this.
+func (r *checkRun) run() {
+	if len(r.in.pr) >= anParallelMin {
 		var wg sync.WaitGroup
 		wg.Add(2)
-		go func() { defer wg.Done(); sw() }()
-		go func() { defer wg.Done(); others() }()
-		infl()
+		go func() { defer wg.Done(); r.shapiroWilk() }()
+		go func() { defer wg.Done(); r.others() }()
+		r.influence()
 		wg.Wait()
-	} else {
-		sw()
-		others()
-		infl()
+		return
 	}
-	// The practical sizes: always for the report, for an advice refit only
-	// when a check whose Fail they could change has failed.
+	r.shapiroWilk()
+	r.others()
+	r.influence()
+}
+
+// limit returns the check as run, or n/a when the limits say so.
+func (r *checkRun) limit(name string, run func() Check) Check {
+	switch {
+	case r.noScatter:
+		return ckNA(name, NoScatterSentence)
+	case r.fewDF:
+		return ckNA(name, ckFewDF(name, r.n, r.np))
+	}
+	return run()
+}
+
+func (r *checkRun) shapiroWilk() {
+	c, in := &r.fc.rep.Checks, &r.in
+	c.ShapiroWilk = r.limit("Shapiro–Wilk", func() Check { return shapiroWilkCheck(in.pr, &r.fc.sc.sb, r.pre.residValid) })
+}
+
+// others runs curvature, lack of fit, the spread and the independence
+// checks.
+func (r *checkRun) others() {
+	fc, c, in, pre := r.fc, &r.fc.rep.Checks, &r.in, r.pre
+	if r.noScatter {
+		c.Curvature = ckNA("Curvature", NoScatterSentence)
+	} else {
+		c.Curvature = curvatureTest(in.xs, in.ys, in.w, fc.rep.Level, pre)
+	}
+	if pre.xyValid {
+		// Any order that sorts x also sorts xs, which is x scaled by a
+		// power of two or on a log scale.
+		c.LackOfFit = lackOfFit(in.xs, in.ys, in.w, r.origin, fc.sc.orderOf(fc.x))
+	} else {
+		c.LackOfFit = LackOfFit(in.xs, in.ys, in.w, r.origin)
+	}
+	if r.noScatter && c.LackOfFit != nil {
+		na := ckNA(c.LackOfFit.Name, NoScatterSentence)
+		c.LackOfFit = &na
+	}
+	c.BreuschPagan = r.limit("Breusch–Pagan", func() Check { return ckSpread("Breusch–Pagan", in.xs, in.pr, false, pre) })
+	c.White = r.limit("White", func() Check { return ckSpread("White", in.xs, in.pr, true, pre) })
+	c.DurbinWatson = r.limit("Durbin–Watson", func() Check { return durbinWatsonW(in.xs, in.pr, in.w, r.origin, pre) })
+	c.Runs = r.limit("Runs", func() Check { return runsTest(in.pr, pre.residValid) })
+}
+
+// influence runs the influence measures of each reading (for an advice
+// refit only their summary) and words their summary.
+func (r *checkRun) influence() {
+	rep, in := r.fc.rep, &r.in
+	if r.fc.sc.refit {
+		// A candidate needs only the influence summary.
+		r.inflSummary = influenceSummary(in.xs, in.res, in.w, r.origin, r.inflValid)
+	} else {
+		var masks []uint8
+		rep.Influence, masks = influenceRun(in.xs, in.res, in.w, r.origin, r.inflValid, true)
+		r.inflSummary = ckInfluenceFromMasks(masks)
+	}
+	switch {
+	case r.noScatter:
+		ckClearInfluence(rep.Influence)
+		r.inflSummary = Assumption{Verdict: NA, Message: NoScatterSentence}
+	case r.n-r.np < MinInfluenceDF:
+		r.inflSummary = ckFewInfluence(r.n, r.np)
+	}
+}
+
+// finishChecks makes the assumptions from the checks and the influence
+// summary: with the practical sizes (always for the report, for an advice
+// refit only when a check whose Fail they could change has failed), the
+// Fails capped by them, and for the report the influence residuals in its
+// units, the x-exactness check and the slipped decimal point.
+func (fc *fitContext) finishChecks(inflSummary Assumption) {
+	rep := fc.rep
+	origin := fc.opt.Model == ModelOrigin
 	var dep *Departures
-	if !noScatter && (!fc.sc.refit || fc.sizedFail()) {
+	if !fc.noScatter && (!fc.sc.refit || fc.sizedFail()) {
 		dep = departures(fc.xt, fc.yt, rep.Residuals, fc.w, origin, fc.allowedResidual())
 	}
 	if fc.sc.refit {
@@ -369,8 +419,6 @@ func (fc *fitContext) runChecks() {
 		fc.capChecks()
 		return
 	}
-	// inflSummary is what Summarize(rep.Checks, rep.Influence) words, from
-	// the same reason bits, without reading the results back.
 	// The one unit-bearing figure of influence is the raw residual.
 	for i := range rep.Influence {
 		rep.Influence[i].Residual = rep.Residuals[i]
@@ -378,27 +426,35 @@ func (fc *fitContext) runChecks() {
 	var xa *Assumption
 	if fc.opt.XUncertainty > 0 {
 		ck, a := XExactness(fc.x, fc.y, fc.opt.XUncertainty, fc.opt.YUncertainty, rep.Level)
-		c.XExactness = &ck
+		rep.Checks.XExactness = &ck
 		xa = &a
 	}
 	rep.Assumptions = summarize(rep.Checks, inflSummary, dep)
 	fc.capChecks()
-	// Outliers are looked at first: a reading that looks like a slipped
-	// decimal point is named, and the checks whose result depends on it say so.
-	plain := (fc.opt.Model == "" || fc.opt.Model == ModelOLS || fc.opt.Model == ModelOrigin) &&
-		(fc.opt.Transform == "" || fc.opt.Transform == TransformNone) && fc.w == nil
-	if plain && !fc.opt.noSlip && !noScatter && rep.Assumptions.Influence.Verdict != Pass {
-		if s := findSlip(fc.x, fc.y, nil, origin, rep.Influence); s != nil {
-			slipClears(rep, fc.x, fc.y, fc.opt, s)
-			rep.Slip = s
-			rep.Assumptions.Influence.Message = slipSentence(s) + " " + rep.Assumptions.Influence.Message
-			rep.Assumptions.Influence.Advice = "Check that reading against the record: if the decimal point slipped, correct it (about " +
-				ckG4(s.Likely) + "); otherwise repeat the reading. Exclude a reading only with a recorded reason."
-		}
-	}
+	fc.nameSlip()
 	rep.Departures = dep
 	if xa != nil && rep.Assumptions.XExactness == nil {
 		rep.Assumptions.XExactness = xa
+	}
+}
+
+// nameSlip looks at the outliers first: a reading that looks like a
+// slipped decimal point is named, and the checks whose result depends on
+// it say so (plain straight lines only).
+func (fc *fitContext) nameSlip() {
+	rep := fc.rep
+	origin := fc.opt.Model == ModelOrigin
+	plain := (fc.opt.Model == "" || fc.opt.Model == ModelOLS || fc.opt.Model == ModelOrigin) &&
+		(fc.opt.Transform == "" || fc.opt.Transform == TransformNone) && fc.w == nil
+	if !plain || fc.opt.noSlip || fc.noScatter || rep.Assumptions.Influence.Verdict == Pass {
+		return
+	}
+	if s := findSlip(fc.x, fc.y, nil, origin, rep.Influence); s != nil {
+		slipClears(rep, fc.x, fc.y, fc.opt, s)
+		rep.Slip = s
+		rep.Assumptions.Influence.Message = slipSentence(s) + " " + rep.Assumptions.Influence.Message
+		rep.Assumptions.Influence.Advice = "Check that reading against the record: if the decimal point slipped, correct it (about " +
+			ckG4(s.Likely) + "); otherwise repeat the reading. Exclude a reading only with a recorded reason."
 	}
 }
 

@@ -11,6 +11,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"pairline/app/reftest"
 )
 
 // bcGoldenPath is written by testdata/refgen/boxcox_ref.py (statsmodels OLS +
@@ -19,7 +21,7 @@ const bcGoldenPath = "../testdata/golden/boxcox.json"
 
 // bcAlaskaPath is the NIST/SEMATECH e-Handbook Alaska pipeline data set
 // (handbook section 4.6.3), read from the shared reference folder.
-var bcAlaskaPath = refPath("nist-handbook", "ALASKA_PIPELINE.DAT")
+var bcAlaskaPath = reftest.Find("nist-handbook", "ALASKA_PIPELINE.DAT")
 
 type bcGoldenCase struct {
 	Name       string    `json:"name"`
@@ -46,9 +48,9 @@ type bcGolden struct {
 // handbook file (columns: field, lab, batch), or skips the test visibly.
 func bcReadAlaska(t testing.TB) (x, y []float64) {
 	t.Helper()
-	f, err := os.Open(bcAlaskaPath)
+	f, err := os.Open(reftest.Path(t, "nist-handbook", "ALASKA_PIPELINE.DAT"))
 	if err != nil {
-		t.Skipf("NIST e-Handbook Alaska pipeline data not found at %s (%v); skipping the check that uses it", bcAlaskaPath, err)
+		t.Fatal(err)
 	}
 	defer f.Close()
 	sc := bufio.NewScanner(f)

@@ -9,6 +9,8 @@ import (
 	"strings"
 	"sync"
 	"testing"
+
+	"pairline/app/reftest"
 )
 
 // Reference values for the assumption checks: testdata/golden/checks.json,
@@ -118,7 +120,7 @@ func loadRef(t testing.TB) *refChecks {
 			if c.Source == nil {
 				continue
 			}
-			x, y, err := readRefColumns(refPath(c.Source.File), c.Source.Reader, c.Source.XCol, c.Source.YCol)
+			x, y, err := readRefColumns(reftest.Find(c.Source.File), c.Source.Reader, c.Source.XCol, c.Source.YCol)
 			if err == nil && len(x) == c.N {
 				c.X, c.Y = x, y
 			}
@@ -137,13 +139,13 @@ func refCases(t *testing.T) []refCase {
 	var out []refCase
 	for _, c := range loadRef(t).Cases {
 		if c.X == nil {
-			t.Logf("SKIP %s: ../shared/reference/%s not found", c.Name, c.Source.File)
+			reftest.Note(t, c.Name, reftest.Find(c.Source.File))
 			continue
 		}
 		out = append(out, c)
 	}
 	if len(out) == 0 {
-		t.Skip("no reference cases usable (../shared/reference missing?)")
+		reftest.Skip(t, reftest.Find())
 	}
 	return out
 }

@@ -5,12 +5,12 @@ import (
 	"bytes"
 	"math"
 	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
 
 	"pairline/fitcore"
+	"pairline/app/reftest"
 )
 
 // Worked examples of the NIST/SEMATECH e-Handbook of Statistical Methods
@@ -19,31 +19,13 @@ import (
 // numeric references are statsmodels/scipy (testdata/golden, checked in
 // golden_test.go); these tests check the diagnoses the handbook draws.
 
-var handbookDir = func() string {
-	// Beside the main checkout (../../shared) or a worktree under /work/wt
-	// (../../../shared), or where PAIRLINE_REFERENCE points.
-	cands := []string{filepath.Join("..", "..", "shared", "reference", "nist-handbook"), filepath.Join("..", "..", "..", "shared", "reference", "nist-handbook")}
-	if r := os.Getenv("PAIRLINE_REFERENCE"); r != "" {
-		cands = append([]string{filepath.Join(r, "nist-handbook")}, cands...)
-	}
-	for _, c := range cands {
-		if _, err := os.Stat(c); err == nil {
-			return c
-		}
-	}
-	return cands[0]
-}()
-
 // readHandbook reads a Dataplot .DAT file: free text, then rows of
 // whitespace-separated numbers. The numbers start after the last line made
 // only of dashes (every handbook file has one); rows must all have the same
 // number of columns. It skips the test visibly when the file is absent.
 func readHandbook(t testing.TB, name string) [][]float64 {
 	t.Helper()
-	b, err := os.ReadFile(filepath.Join(handbookDir, name))
-	if os.IsNotExist(err) {
-		t.Skipf("SKIP: handbook data %s not found in %s (NIST e-Handbook datasets are not in this checkout)", name, handbookDir)
-	}
+	b, err := os.ReadFile(reftest.Path(t, "nist-handbook", name))
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -1,6 +1,8 @@
 package fitcore
 
 import (
+	"pairline/app/numfmt"
+
 	"math"
 	"math/bits"
 	"strconv"
@@ -352,17 +354,15 @@ func (rw *ckReasonWriter) write(pi *PointInfluence, m uint8, c *ckInfluenceCuts)
 			rw.g3(pi.Leverage)
 			sb.WriteString(c.levHighTxt)
 		case ckBitOutlier:
-			sb.WriteString(ckReasonOutlier + ": studentized residual ")
-			rw.g3(pi.Studentized)
-			sb.WriteString(", Bonferroni p = ")
-			rw.g3(pi.OutlierP)
-			sb.WriteString(" < 0.01")
+			// As a technician reads numbers (app/numfmt): one minus
+			// sign, one p format ("p < 0.001").
+			sb.WriteString(ckReasonOutlier + ": studentized residual " + numfmt.Sig(pi.Studentized, 3) +
+				", Bonferroni " + numfmt.PEq(pi.OutlierP) + " (limit 0.01)")
 		case ckBitLargeResid:
-			sb.WriteString(ckReasonLargeResid + ": studentized residual ")
-			rw.g3(pi.Studentized)
-			sb.WriteString(", Bonferroni p = ")
-			rw.g3(pi.OutlierP)
-			sb.WriteString(" < 0.05")
+			// As a technician reads numbers (app/numfmt): one minus
+			// sign, one p format ("p < 0.001").
+			sb.WriteString(ckReasonLargeResid + ": studentized residual " + numfmt.Sig(pi.Studentized, 3) +
+				", Bonferroni " + numfmt.PEq(pi.OutlierP) + " (limit 0.05)")
 		case ckBitVeryInfluence:
 			sb.WriteString(ckReasonVeryInfluence + ": Cook's distance ")
 			rw.g3(pi.CooksD)

@@ -29,7 +29,7 @@ func TestReasonNumbers(t *testing.T) {
 	got := rw.write(&pi, cut.mask(&pi)|1<<ckBitLeverageOne, &cut)
 	want := []string{
 		fmt.Sprintf("%s: this reading alone fixes the line at its x, so its residual says nothing", ckReasonLeverageOne),
-		fmt.Sprintf("%s: studentized residual %.3g, Bonferroni p = %.3g < 0.05", ckReasonLargeResid, pi.Studentized, pi.OutlierP),
+		ckReasonLargeResid + ": studentized residual −4.20, Bonferroni p = 0.010 (limit 0.05)",
 		fmt.Sprintf("%s: Cook's distance %.3g > %.3g, the 90 %% point of F(p, n−p): without it the line moves beyond its 90 %% confidence region", ckReasonVeryInfluence, pi.CooksD, cut.fMedian),
 	}
 	if !slices.Equal(got, want) {
@@ -43,7 +43,7 @@ func TestReasonNumbers(t *testing.T) {
 	}
 	pi = PointInfluence{Leverage: 0.05, Studentized: -6, OutlierP: 0.001, CooksD: 0.5}
 	got = rw.write(&pi, cut.mask(&pi), &cut)
-	want = []string{fmt.Sprintf("%s: studentized residual %.3g, Bonferroni p = %.3g < 0.01", ckReasonOutlier, pi.Studentized, pi.OutlierP)}
+	want = []string{ckReasonOutlier + ": studentized residual −6.00, Bonferroni p = 0.0010 (limit 0.01)"}
 	if !slices.Equal(got, want) {
 		t.Errorf("reasons\n got %q\nwant %q", got, want)
 	}

@@ -124,5 +124,5 @@ func ExampleInfluence() {
 			fmt.Printf("reading %d: %s\n", p.Index+1, p.Reasons[0])
 		}
 	}
-	// Output: reading 6: outlier: studentized residual 25.9, Bonferroni p = 1.29e-05 < 0.01
+	// Output: reading 6: outlier: studentized residual 25.9, Bonferroni p < 0.001 (limit 0.01)
 }

@@ -8,6 +8,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"pairline/app/reftest"
 )
 
 // strdFile is a NIST StRD linear least-squares dataset with its certified
@@ -17,11 +19,21 @@ type strdFile struct {
 	x, y []float64
 }
 
+// strdPath is path itself for a file of this repository (../testdata/…),
+// else the file of the shared reference data (reftest.Path: skipped, or
+// failed in CI, when missing).
+func strdPath(t *testing.T, path string) string {
+	if strings.HasPrefix(path, "../") {
+		return path
+	}
+	return reftest.Path(t, strings.Split(path, "/")...)
+}
+
 func readStRD(t *testing.T, path string) strdFile {
 	t.Helper()
 	fh, err := os.Open(path)
 	if err != nil {
-		t.Skipf("NIST StRD file %s not available (%v); this check needs the shared reference data", path, err)
+		t.Fatal(err)
 	}
 	defer fh.Close()
 	d := strdFile{cert: map[string]float64{}}
@@ -83,13 +95,13 @@ func TestStRD(t *testing.T) {
 		origin bool
 	}{
 		{"../testdata/strd/Norris.txt", false},
-		{refPath("strd", "Norris.txt"), false},
-		{refPath("strd", "NoInt1.txt"), true},
-		{refPath("strd", "NoInt2.txt"), true},
+		{"strd/Norris.txt", false},
+		{"strd/NoInt1.txt", true},
+		{"strd/NoInt2.txt", true},
 	}
 	for _, c := range cases {
 		t.Run(c.path, func(t *testing.T) {
-			d := readStRD(t, c.path)
+			d := readStRD(t, strdPath(t, c.path))
 			opt := Options{SkipAdvice: true}
 			if c.origin {
 				opt.Model = ModelOrigin
@@ -193,8 +205,8 @@ func TestStRDScaled(t *testing.T) {
 	for _, c := range []struct {
 		path   string
 		origin bool
-	}{{"../testdata/strd/Norris.txt", false}, {refPath("strd", "NoInt1.txt"), true}} {
-		d := readStRD(t, c.path)
+	}{{"../testdata/strd/Norris.txt", false}, {"strd/NoInt1.txt", true}} {
+		d := readStRD(t, strdPath(t, c.path))
 		for _, e := range [][2]int{{300, 300}, {-300, -300}, {450, -200}, {-150, 300}, {-100, 400}} {
 			ex, ey := e[0], e[1]
 			x, y := make([]float64, len(d.x)), make([]float64, len(d.y))

@@ -233,6 +233,9 @@ type fitResult struct {
 	lines  []int // file line of each pair given to Analyze
 	xName  string
 	yName  string
+	// xUnit, yUnit are the units of x and y (a CSV file's units row, a
+	// session's units), made visible (term); "" when not known.
+	xUnit, yUnit string
 }
 
 // flagName is the command-line flag of a fitcore option key
@@ -559,8 +562,17 @@ func runFit(ff *fitFlags, opt fitcore.Options, stdin io.Reader) (*fitResult, err
 	rep.Notes = append(notes, rep.Notes...)
 	rep.Notes = append(rep.Notes, res.Warnings...)
 	out := &fitResult{report: rep, lines: lines,
-		xName: term(columnName(res, res.XCol, "x")), yName: term(columnName(res, res.YCol, "y"))}
+		xName: term(columnName(res, res.XCol, "x")), yName: term(columnName(res, res.YCol, "y")),
+		xUnit: term(unitOf(res, res.XCol)), yUnit: term(unitOf(res, res.YCol))}
 	return out, nil
+}
+
+// unitOf is the unit of column c from the file's units row, or "".
+func unitOf(res *session.StreamResult, c int) string {
+	if !res.UnitsRow || c < 0 || c >= len(res.Units) {
+		return ""
+	}
+	return strings.TrimSpace(res.Units[c])
 }
 
 // columnName is the header of column c, or the fallback (with the column

@@ -16,6 +16,7 @@ import (
 	"pairline/app/session"
 	"pairline/app/wording"
 	"pairline/fitcore"
+	"pairline/app/reftest"
 )
 
 const csvDir = "../../testdata/csv"
@@ -214,9 +215,9 @@ func TestFitSummary(t *testing.T) {
 	if code != ExitOK {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
+	slope, slopeSE := numfmt.Estimate(c.Fit.Slope, c.Fit.SlopeSE, sig)
 	for _, want := range []string{
-		numfmt.Sig(c.Fit.Slope, sig),
-		numfmt.Sig(c.Fit.SlopeSE, 3),
+		slope, slopeSE,
 		"nitrate standard mg/L", "photometer mg/L",
 		fmt.Sprintf("%s: %d", wording.PairsUsed, c.Fit.N),
 		wording.ChecksTitle, wording.Tests, "Caution",
@@ -237,7 +238,7 @@ func TestFitSummary(t *testing.T) {
 // scores LRE, certified values have 15 digits).
 func TestFitNorrisCertified(t *testing.T) {
 	const src = "NIST StRD Norris certified values"
-	path := refPath(t, "strd", "Norris.txt")
+	path := reftest.Path(t, "strd", "Norris.txt")
 	b, err := os.ReadFile(path)
 	if err != nil {
 		t.Fatal(err)

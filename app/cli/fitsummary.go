@@ -50,12 +50,19 @@ func row(b *strings.Builder, label, value string) {
 // coefBlock is a coefficient as the screen's "More numbers" shows it: the
 // estimate, the interval where a technician looks first, the standard
 // error, the test against the reference value, and the test against 0 only
-// when the reference is not 0 (else it is the same test).
-func coefBlock(b *strings.Builder, name string, c fitcore.Coefficient, level float64) {
+// when the reference is not 0 (else it is the same test). The estimate and
+// the interval's ends are rounded to the decimal place of the standard
+// error's second significant digit, the standard error to two digits
+// (numfmt.Estimate, as the line card and the report), each with unit when
+// it has one; --json keeps the full precision.
+func coefBlock(b *strings.Builder, name string, c fitcore.Coefficient, level float64, unit string) {
 	fmt.Fprintf(b, "  %s\n", name)
-	row(b, wording.Estimate, num(c.Estimate))
-	row(b, wording.Interval(level), wording.Range(num(c.CILow), num(c.CIHigh)))
-	row(b, wording.StandardError, numfmt.Sig(c.SE, 3))
+	est, se := numfmt.Estimate(c.Estimate, c.SE, sig)
+	lo, _ := numfmt.Estimate(c.CILow, c.SE, sig)
+	hi, _ := numfmt.Estimate(c.CIHigh, c.SE, sig)
+	row(b, wording.Estimate, withUnit(est, unit))
+	row(b, wording.Interval(level), withUnit(wording.Range(lo, hi), unit))
+	row(b, wording.StandardError, withUnit(se, unit))
 	ref := wording.Ref(c.Ref)
 	row(b, wording.TestedAgainst, ref)
 	row(b, wording.TAgainst(ref), numfmt.Sig(c.TRef, 4))
@@ -65,6 +72,25 @@ func coefBlock(b *strings.Builder, name string, c fitcore.Coefficient, level flo
 		row(b, wording.TAgainst(zero), numfmt.Sig(c.T, 4))
 		row(b, wording.PAgainst(zero), wording.P(c.P))
 	}
+}
+
+// withUnit appends a unit to a shown number ("0.012 mV"), or nothing.
+func withUnit(shown, unit string) string {
+	if unit == "" {
+		return shown
+	}
+	return shown + " " + unit
+}
+
+// units are the units of the slope and of y-scale figures (intercept,
+// residual SD): those of the readings for a line in original units (the
+// slope as wording.SlopeUnit, "mV per mg/L"); none on a transformed scale,
+// whose figures are in the transformed quantity the fit line names.
+func (fr *fitResult) units() (slope, y string) {
+	if tr := fr.report.Transform; (tr != "" && tr != fitcore.TransformNone) || (fr.xUnit == "" && fr.yUnit == "") {
+		return "", ""
+	}
+	return wording.SlopeUnit(fr.yUnit, fr.xUnit), fr.yUnit
 }
 
 // verdict is a verdict's icon and word, padded for a column.
@@ -80,12 +106,14 @@ func summaryRest(fr *fitResult, level float64) string {
 	pct := wording.Percent(level)
 
 	origin := r.Model == fitcore.ModelOrigin
-	coefBlock(&b, wording.Slope, r.Slope, level)
+	slopeUnit, yUnit := fr.units()
+	coefBlock(&b, wording.Slope, r.Slope, level, slopeUnit)
 	if !origin {
-		coefBlock(&b, wording.Intercept, r.Intercept, level)
+		coefBlock(&b, wording.Intercept, r.Intercept, level, yUnit)
 	}
 	w("  %s\n", wording.FitAsAWhole)
-	row(&b, wording.ResidualSD, num(r.ResidualSE))
+	// Three digits with the unit of y, as the line card.
+	row(&b, wording.ResidualSD, withUnit(numfmt.Sig(r.ResidualSE, 3), yUnit))
 	row(&b, wording.DegreesOfFreedom, wording.DF(r.DF))
 	row(&b, wording.CorrelationR, numfmt.Decimals(r.R, 6))
 	row(&b, wording.RSquared, numfmt.Decimals(r.RSquared, 6))
@@ -182,10 +210,14 @@ func summaryRest(fr *fitResult, level float64) string {
 	if len(r.Inverse) > 0 {
 		w("x from readings (%s)\n", pct)
 		for _, v := range r.Inverse {
-			w("  An unknown read as %s (mean of %d) is x = %s, %s %s", num(v.Y), v.M, num(v.X),
-				strings.ToLower(wording.StandardError), num(v.SE))
+			// x and its interval to the standard error (numfmt.Estimate), as the coefficients.
+			xs, se := numfmt.Estimate(v.X, v.SE, sig)
+			w("  An unknown read as %s (mean of %d) is x = %s, %s %s", withUnit(numfmt.Short(v.Y, sig), fr.yUnit), v.M, withUnit(xs, fr.xUnit),
+				strings.ToLower(wording.StandardError), withUnit(se, fr.xUnit))
 			if v.Bounded {
-				w(", %s %s", wording.Interval(level), wording.Range(num(v.Low), num(v.High)))
+				lo, _ := numfmt.Estimate(v.Low, v.SE, sig)
+				hi, _ := numfmt.Estimate(v.High, v.SE, sig)
+				w(", %s %s", wording.Interval(level), withUnit(wording.Range(lo, hi), fr.xUnit))
 			} else {
 				w(", no finite interval")
 			}
@@ -197,8 +229,14 @@ func summaryRest(fr *fitResult, level float64) string {
 		w("\n")
 	}
 	if r.Limits != nil {
-		w("%s %s, %s %s (x units)\n\n", wording.DetectionLimit, num(r.Limits.LOD),
-			strings.ToLower(wording.QuantitationLimit), num(r.Limits.LOQ))
+		// Three digits, as the screen's card of the limits.
+		if fr.xUnit != "" {
+			w("%s %s, %s %s\n\n", wording.DetectionLimit, withUnit(numfmt.Sig(r.Limits.LOD, 3), fr.xUnit),
+				strings.ToLower(wording.QuantitationLimit), withUnit(numfmt.Sig(r.Limits.LOQ, 3), fr.xUnit))
+		} else {
+			w("%s %s, %s %s (x units)\n\n", wording.DetectionLimit, numfmt.Sig(r.Limits.LOD, 3),
+				strings.ToLower(wording.QuantitationLimit), numfmt.Sig(r.Limits.LOQ, 3))
+		}
 	}
 	if acc := r.Acceptance; acc != nil {
 		stamp := wording.NotAccepted

@@ -432,7 +432,8 @@ func sessionText(b *strings.Builder, i, n int, a *sessionAnalysis) {
 			lines[k] = r + 1 // rows as the table numbers them
 		}
 		fr := &fitResult{report: a.Report, lines: lines,
-			xName: nameUnit(s.XName, s.XUnit, "x"), yName: nameUnit(s.YName, s.YUnit, "y")}
+			xName: nameUnit(s.XName, s.XUnit, "x"), yName: nameUnit(s.YName, s.YUnit, "y"),
+			xUnit: term(s.XUnit), yUnit: term(s.YUnit)}
 		b.WriteString(summary(quoted(s.Title), fr))
 	}
 }

@@ -294,29 +294,15 @@ func encodeBundle(me *mpWriter, sessions []*Session) error {
 	return e.err
 }
 
+// contentKeys is the number of keys encodeContent writes.
+const contentKeys = 16
+
 func encodeSession(e *enc, s *Session) {
-	e.mapLen(23)
+	e.mapLen(7 + contentKeys)
 	e.str("id", s.ID)
-	e.str("title", s.Title)
 	e.tm("created", s.Created)
 	e.tm("modified", s.Modified)
-	e.str("site", s.Site)
-	e.key("instrument")
-	encodeInstrument(e, &s.Instrument)
-	e.str("operator", s.Operator)
-	e.str("x_name", s.XName)
-	e.str("x_unit", s.XUnit)
-	e.str("y_name", s.YName)
-	e.str("y_unit", s.YUnit)
-	e.str("notes", s.Notes)
-	e.key("decimal_comma")
-	encodeOptBool(e, s.DecimalComma)
-	e.key("location")
-	encodeLocation(e, s.Location)
-	e.key("readings")
-	encodeReadings(e, s.Readings)
-	e.key("settings")
-	encodeSettings(e, &s.Settings)
+	encodeContent(e, &s.Content)
 	e.key("history")
 	e.keep(e.EncodeArrayLen(len(s.History)))
 	for i := range s.History {
@@ -329,12 +315,6 @@ func encodeSession(e *enc, s *Session) {
 		e.str("old", h.Old)
 		e.str("new", h.New)
 	}
-	e.key("conditions")
-	encodeConditions(e, s.Conditions)
-	e.key("standards")
-	encodeStandards(e, s.Standards)
-	e.key("unknowns")
-	encodeUnknowns(e, s.Unknowns)
 	e.key("seal")
 	if s.Seal == nil {
 		e.keep(e.EncodeNil())
@@ -348,6 +328,36 @@ func encodeSession(e *enc, s *Session) {
 	for i := range s.Sealed {
 		encodeSealedRevision(e, &s.Sealed[i])
 	}
+}
+
+// encodeContent writes the contentKeys keys of a revision's content into
+// the map of a session or of a sealed revision (the caller counts them in
+// its mapLen).
+func encodeContent(e *enc, c *Content) {
+	e.str("title", c.Title)
+	e.str("site", c.Site)
+	e.key("instrument")
+	encodeInstrument(e, &c.Instrument)
+	e.str("operator", c.Operator)
+	e.str("x_name", c.XName)
+	e.str("x_unit", c.XUnit)
+	e.str("y_name", c.YName)
+	e.str("y_unit", c.YUnit)
+	e.str("notes", c.Notes)
+	e.key("decimal_comma")
+	encodeOptBool(e, c.DecimalComma)
+	e.key("location")
+	encodeLocation(e, c.Location)
+	e.key("readings")
+	encodeReadings(e, c.Readings)
+	e.key("settings")
+	encodeSettings(e, &c.Settings)
+	e.key("conditions")
+	encodeConditions(e, c.Conditions)
+	e.key("standards")
+	encodeStandards(e, c.Standards)
+	e.key("unknowns")
+	encodeUnknowns(e, c.Unknowns)
 }
 
 func encodeInstrument(e *enc, in *Instrument) {
@@ -467,35 +477,12 @@ func encodeSeal(e *enc, sl *Seal) {
 }
 
 func encodeSealedRevision(e *enc, r *SealedRevision) {
-	e.mapLen(19)
+	e.mapLen(3 + contentKeys)
 	e.key("revision")
 	e.keep(e.EncodeInt(int64(r.Revision)))
 	e.key("seal")
 	encodeSeal(e, &r.Seal)
-	e.str("title", r.Title)
-	e.str("site", r.Site)
-	e.key("instrument")
-	encodeInstrument(e, &r.Instrument)
-	e.str("operator", r.Operator)
-	e.str("x_name", r.XName)
-	e.str("x_unit", r.XUnit)
-	e.str("y_name", r.YName)
-	e.str("y_unit", r.YUnit)
-	e.str("notes", r.Notes)
-	e.key("decimal_comma")
-	encodeOptBool(e, r.DecimalComma)
-	e.key("location")
-	encodeLocation(e, r.Location)
-	e.key("readings")
-	encodeReadings(e, r.Readings)
-	e.key("settings")
-	encodeSettings(e, &r.Settings)
-	e.key("conditions")
-	encodeConditions(e, r.Conditions)
-	e.key("standards")
-	encodeStandards(e, r.Standards)
-	e.key("unknowns")
-	encodeUnknowns(e, r.Unknowns)
+	encodeContent(e, &r.Content)
 	e.str("results", r.Results)
 }
 
@@ -1206,59 +1193,12 @@ func (b *bodyDecoder) session(field string, s *Session) *FormatError {
 		switch k {
 		case "id":
 			return b.str(path, 32, &s.ID)
-		case "title":
-			return b.str(path, MaxShortText, &s.Title)
 		case "created":
 			return b.tm(path, &s.Created)
 		case "modified":
 			return b.tm(path, &s.Modified)
-		case "site":
-			return b.str(path, MaxShortText, &s.Site)
-		case "instrument":
-			return b.instrument(path, &s.Instrument)
-		case "operator":
-			return b.str(path, MaxShortText, &s.Operator)
-		case "x_name":
-			return b.str(path, MaxShortText, &s.XName)
-		case "x_unit":
-			return b.str(path, MaxShortText, &s.XUnit)
-		case "y_name":
-			return b.str(path, MaxShortText, &s.YName)
-		case "y_unit":
-			return b.str(path, MaxShortText, &s.YUnit)
-		case "notes":
-			return b.str(path, MaxLongText, &s.Notes)
-		case "decimal_comma":
-			return b.optBool(path, &s.DecimalComma)
-		case "location":
-			return b.location(path, &s.Location)
-		case "readings":
-			return b.readingList(path, &s.Readings)
-		case "settings":
-			return b.settings(path, &s.Settings)
 		case "history":
-			off := b.off()
-			n, ferr := b.arrayLen(path, MaxHistory, minEditSize)
-			if ferr != nil {
-				return ferr
-			}
-			if b.history += n; b.history > MaxFileHistory {
-				return b.fail(off, path, fmt.Errorf("%w: the sessions hold more than %d history entries in all", ErrTooLarge, MaxFileHistory))
-			}
-			s.History = make([]Edit, n)
-			for i := range s.History {
-				if ferr := b.edit("", &s.History[i]); ferr != nil {
-					ferr.Field = prefixIndex(i, ferr.Field)
-					return ferr
-				}
-			}
-			return nil
-		case "conditions":
-			return b.conditions(path, &s.Conditions)
-		case "standards":
-			return b.standards(path, &s.Standards)
-		case "unknowns":
-			return b.unknowns(path, &s.Unknowns)
+			return b.historyList(path, &s.History)
 		case "seal":
 			if b.takeNil() {
 				s.Seal = nil
@@ -1269,29 +1209,112 @@ func (b *bodyDecoder) session(field string, s *Session) *FormatError {
 		case "revision":
 			return b.integer(path, 0, MaxRevision, &s.Revision)
 		case "sealed":
-			off := b.off()
-			n, ferr := b.arrayLen(path, MaxSealedRevisions, 1)
-			if ferr != nil {
-				return ferr
-			}
-			if b.sealed += n; b.sealed > MaxFileSealedRevisions {
-				return b.fail(off, path, fmt.Errorf("%w: the sessions hold more than %d earlier sealed revisions in all", ErrTooLarge, MaxFileSealedRevisions))
-			}
-			if n == 0 {
-				s.Sealed = nil
-				return nil
-			}
-			s.Sealed = make([]SealedRevision, n)
-			for i := range s.Sealed {
-				if ferr := b.sealedRevision("", &s.Sealed[i]); ferr != nil {
-					ferr.Field = prefixIndex(i, ferr.Field)
-					return ferr
-				}
-			}
-			return nil
+			return b.sealedList(path, &s.Sealed)
 		}
-		return b.skip(path, 0)
+		return b.content(k, path, &s.Content)
 	})
+}
+
+// content reads the value of key k of a session's or a sealed revision's
+// map into c when k is one of the content's keys (encodeContent), and
+// skips it otherwise.
+func (b *bodyDecoder) content(k, path string, c *Content) *FormatError {
+	switch k {
+	case "title":
+		return b.str(path, MaxShortText, &c.Title)
+	case "site":
+		return b.str(path, MaxShortText, &c.Site)
+	case "instrument":
+		return b.instrument(path, &c.Instrument)
+	case "operator":
+		return b.str(path, MaxShortText, &c.Operator)
+	case "x_name":
+		return b.str(path, MaxShortText, &c.XName)
+	case "x_unit":
+		return b.str(path, MaxShortText, &c.XUnit)
+	case "y_name":
+		return b.str(path, MaxShortText, &c.YName)
+	case "y_unit":
+		return b.str(path, MaxShortText, &c.YUnit)
+	case "notes":
+		return b.str(path, MaxLongText, &c.Notes)
+	case "decimal_comma":
+		return b.optBool(path, &c.DecimalComma)
+	case "location":
+		return b.location(path, &c.Location)
+	case "readings":
+		return b.readingList(path, &c.Readings)
+	case "settings":
+		return b.settings(path, &c.Settings)
+	case "conditions":
+		return b.conditions(path, &c.Conditions)
+	case "standards":
+		return b.standards(path, &c.Standards)
+	case "unknowns":
+		return b.unknowns(path, &c.Unknowns)
+	}
+	return b.skip(path, 0)
+}
+
+// fileCount is a count kept over the whole file: the entries read so far
+// into *n, at most limit of them, what names them in the error.
+type fileCount struct {
+	n     *int
+	limit int
+	what  string
+}
+
+func (b *bodyDecoder) fileReadingsCount() fileCount {
+	return fileCount{&b.readings, MaxFileReadings, "readings"}
+}
+func (b *bodyDecoder) fileHistoryCount() fileCount {
+	return fileCount{&b.history, MaxFileHistory, "history entries"}
+}
+func (b *bodyDecoder) fileSealedCount() fileCount {
+	return fileCount{&b.sealed, MaxFileSealedRevisions, "earlier sealed revisions"}
+}
+func (b *bodyDecoder) fileItemsCount() fileCount {
+	return fileCount{&b.listItems, MaxFileItems, "conditions, standards, unknowns and readings of unknowns"}
+}
+
+// countedList reads an array of at most max elements (each taking at
+// least minSize bytes) into *p, every element read by each; the elements
+// count towards the file's count c. An empty array reads as nil when
+// emptyNil is set (as a new record holds it), else as an empty slice.
+func countedList[T any](b *bodyDecoder, path string, max, minSize int, c fileCount, emptyNil bool, p *[]T, each func(t *T) *FormatError) *FormatError {
+	off := b.off()
+	n, ferr := b.arrayLen(path, max, minSize)
+	if ferr != nil {
+		return ferr
+	}
+	if *c.n += n; *c.n > c.limit {
+		return b.fail(off, path, fmt.Errorf("%w: the sessions hold more than %d %s in all", ErrTooLarge, c.limit, c.what))
+	}
+	if n == 0 && emptyNil {
+		*p = nil
+		return nil
+	}
+	list := make([]T, n)
+	*p = list
+	for i := range list {
+		if ferr := each(&list[i]); ferr != nil {
+			ferr.Field = prefixIndex(i, ferr.Field)
+			return ferr
+		}
+	}
+	return nil
+}
+
+// historyList reads a session's history.
+func (b *bodyDecoder) historyList(path string, p *[]Edit) *FormatError {
+	return countedList(b, path, MaxHistory, minEditSize, b.fileHistoryCount(), false, p,
+		func(e *Edit) *FormatError { return b.edit("", e) })
+}
+
+// sealedList reads a session's earlier sealed revisions.
+func (b *bodyDecoder) sealedList(path string, p *[]SealedRevision) *FormatError {
+	return countedList(b, path, MaxSealedRevisions, 1, b.fileSealedCount(), true, p,
+		func(r *SealedRevision) *FormatError { return b.sealedRevision("", r) })
 }
 
 func (b *bodyDecoder) instrument(field string, in *Instrument) *FormatError {
@@ -1345,35 +1368,10 @@ func (b *bodyDecoder) location(field string, p **Location) *FormatError {
 	})
 }
 
-// readingList reads the readings of a session or of a sealed revision; all
-// of them count towards MaxFileReadings.
+// readingList reads the readings of a session or of a sealed revision.
 func (b *bodyDecoder) readingList(path string, p *[]Reading) *FormatError {
-	off := b.off()
-	n, ferr := b.arrayLen(path, MaxReadings, 1)
-	if ferr != nil {
-		return ferr
-	}
-	if b.readings += n; b.readings > MaxFileReadings {
-		return b.fail(off, path, fmt.Errorf("%w: the sessions hold more than %d readings in all", ErrTooLarge, MaxFileReadings))
-	}
-	rs := make([]Reading, n)
-	*p = rs
-	for i := range rs {
-		if ferr := b.reading("", &rs[i]); ferr != nil {
-			ferr.Field = prefixIndex(i, ferr.Field)
-			return ferr
-		}
-	}
-	return nil
-}
-
-// items counts n more entries of the record lists (conditions, standards,
-// unknowns and the readings of unknowns) against MaxFileItems.
-func (b *bodyDecoder) items(off int64, path string, n int) *FormatError {
-	if b.listItems += n; b.listItems > MaxFileItems {
-		return b.fail(off, path, fmt.Errorf("%w: the sessions hold more than %d conditions, standards, unknowns and readings of unknowns in all", ErrTooLarge, MaxFileItems))
-	}
-	return nil
+	return countedList(b, path, MaxReadings, 1, b.fileReadingsCount(), false, p,
+		func(r *Reading) *FormatError { return b.reading("", r) })
 }
 
 // recordList reads an array of at most max maps into *p, each map's keys
@@ -1381,28 +1379,9 @@ func (b *bodyDecoder) items(off int64, path string, n int) *FormatError {
 // not know); an empty array reads as nil, as a new record holds it. Every
 // element counts toward the file's MaxFileItems.
 func recordList[T any](b *bodyDecoder, path string, max int, p *[]T, each func(t *T, k, q string) *FormatError) *FormatError {
-	off := b.off()
-	n, ferr := b.arrayLen(path, max, 1)
-	if ferr != nil {
-		return ferr
-	}
-	if ferr := b.items(off, path, n); ferr != nil {
-		return ferr
-	}
-	if n == 0 {
-		*p = nil
-		return nil
-	}
-	list := make([]T, n)
-	*p = list
-	for i := range list {
-		t := &list[i]
-		if ferr := b.mapEach("", func(k, q string) *FormatError { return each(t, k, q) }); ferr != nil {
-			ferr.Field = prefixIndex(i, ferr.Field)
-			return ferr
-		}
-	}
-	return nil
+	return countedList(b, path, max, 1, b.fileItemsCount(), true, p, func(t *T) *FormatError {
+		return b.mapEach("", func(k, q string) *FormatError { return each(t, k, q) })
+	})
 }
 
 func (b *bodyDecoder) conditions(path string, p *[]Condition) *FormatError {
@@ -1443,26 +1422,8 @@ func (b *bodyDecoder) unknowns(path string, p *[]Unknown) *FormatError {
 		case "name":
 			return b.str(q, MaxShortText, &u.Name)
 		case "readings":
-			roff := b.off()
-			m, ferr := b.arrayLen(q, MaxUnknownReadings, 1)
-			if ferr != nil {
-				return ferr
-			}
-			if ferr := b.items(roff, q, m); ferr != nil {
-				return ferr
-			}
-			if m == 0 {
-				u.Readings = nil
-				return nil
-			}
-			u.Readings = make([]string, m)
-			for j := range u.Readings {
-				if ferr := b.str("", MaxCellText, &u.Readings[j]); ferr != nil {
-					ferr.Field = prefixIndex(j, ferr.Field)
-					return ferr
-				}
-			}
-			return nil
+			return countedList(b, q, MaxUnknownReadings, 1, b.fileItemsCount(), true, &u.Readings,
+				func(r *string) *FormatError { return b.str("", MaxCellText, r) })
 		}
 		return b.skip(q, 0)
 	})
@@ -1493,42 +1454,10 @@ func (b *bodyDecoder) sealedRevision(field string, r *SealedRevision) *FormatErr
 			return b.integer(p, 0, MaxRevision, &r.Revision)
 		case "seal":
 			return b.seal(p, &r.Seal)
-		case "title":
-			return b.str(p, MaxShortText, &r.Title)
-		case "site":
-			return b.str(p, MaxShortText, &r.Site)
-		case "instrument":
-			return b.instrument(p, &r.Instrument)
-		case "operator":
-			return b.str(p, MaxShortText, &r.Operator)
-		case "x_name":
-			return b.str(p, MaxShortText, &r.XName)
-		case "x_unit":
-			return b.str(p, MaxShortText, &r.XUnit)
-		case "y_name":
-			return b.str(p, MaxShortText, &r.YName)
-		case "y_unit":
-			return b.str(p, MaxShortText, &r.YUnit)
-		case "notes":
-			return b.str(p, MaxLongText, &r.Notes)
-		case "decimal_comma":
-			return b.optBool(p, &r.DecimalComma)
-		case "location":
-			return b.location(p, &r.Location)
-		case "readings":
-			return b.readingList(p, &r.Readings)
-		case "settings":
-			return b.settings(p, &r.Settings)
-		case "conditions":
-			return b.conditions(p, &r.Conditions)
-		case "standards":
-			return b.standards(p, &r.Standards)
-		case "unknowns":
-			return b.unknowns(p, &r.Unknowns)
 		case "results":
 			return b.str(p, MaxLongText, &r.Results)
 		}
-		return b.skip(p, 0)
+		return b.content(k, p, &r.Content)
 	})
 }
 

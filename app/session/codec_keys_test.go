@@ -43,12 +43,23 @@ func TestCodecKeysMatchJSON(t *testing.T) {
 	}
 }
 
-func jsonFields(tp reflect.Type) map[string]int {
-	out := map[string]int{}
+// jsonFields maps the JSON keys of a struct type to the index paths of
+// their fields, the fields of an embedded struct without a tag among them
+// (encoding/json promotes them into the enclosing object).
+func jsonFields(tp reflect.Type) map[string][]int {
+	out := map[string][]int{}
 	for i := 0; i < tp.NumField(); i++ {
-		name := strings.Split(tp.Field(i).Tag.Get("json"), ",")[0]
-		if name != "" && name != "-" && tp.Field(i).IsExported() {
-			out[name] = i
+		f := tp.Field(i)
+		tag := f.Tag.Get("json")
+		if f.Anonymous && tag == "" && f.Type.Kind() == reflect.Struct {
+			for k, idx := range jsonFields(f.Type) {
+				out[k] = append([]int{i}, idx...)
+			}
+			continue
+		}
+		name := strings.Split(tag, ",")[0]
+		if name != "" && name != "-" && f.IsExported() {
+			out[name] = []int{i}
 		}
 	}
 	return out
@@ -91,7 +102,7 @@ func compareKeys(t *testing.T, path string, sv reflect.Value, got any) {
 		}
 		for k, i := range fields {
 			if g, ok := m[k]; ok && g != nil {
-				compareKeys(t, path+"."+k, sv.Field(i), g)
+				compareKeys(t, path+"."+k, sv.FieldByIndex(i), g)
 			}
 		}
 	case reflect.Slice:

@@ -766,22 +766,60 @@ func isPairlineExport(header []string) bool {
 // readTable reads the table in two linear passes: the first counts, per
 // column, the non-empty cells and the number cells (and keeps the first
 // rows for the header and the preview), the second takes the chosen
-// columns. Neither keeps every cell.
+// columns. Neither keeps every cell. The stages: the delimiter
+// (tableDelimiter), pass 1 (countTable), the header, units row, export and
+// columns (decideTable), pass 2 (takeRows), the names and units
+// (quantities) and the decimal mark (chooseDecimalMark).
 func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 	res := &CSVResult{Warnings: warn}
-	res.Delimiter = opt.Delimiter
-	if res.Delimiter == 0 {
-		res.Delimiter = detectDelimiter(text)
+	delim, err := tableDelimiter(text, opt.Delimiter)
+	if err != nil {
+		return nil, err
 	}
-	if res.Delimiter == '"' || res.Delimiter == '\r' || res.Delimiter == '\n' || !utf8.ValidRune(res.Delimiter) || res.Delimiter == utf8.RuneError {
-		return nil, &CSVError{Err: fmt.Errorf("%q cannot separate fields", res.Delimiter)}
+	res.Delimiter = delim
+	tc, err := countTable(text, delim)
+	if err != nil {
+		return nil, err
 	}
+	ch, err := decideTable(opt, tc, nil)
+	if err != nil {
+		return nil, err
+	}
+	res.Width, res.HasHeader, res.UnitsRow, res.Header, res.Units = tc.width, ch.hasHeader, ch.unitsRow, ch.header, ch.units
+	res.PairlineExport, res.NumericColumns, res.XCol, res.YCol = ch.export, ch.numeric, ch.xc, ch.yc
+	if err := takeRows(text, res); err != nil {
+		return nil, err
+	}
+	res.quantities()
+	if opt.DecimalComma != nil {
+		res.DecimalComma = *opt.DecimalComma
+	} else {
+		chooseDecimalMark(res)
+	}
+	return res, nil
+}
 
-	// Pass 1.
-	var tc tableCounts
-	sc := newCSVScanner(text, res.Delimiter)
+// tableDelimiter is the delimiter given, or the one detectDelimiter finds
+// (given as 0); a rune that cannot separate fields is refused.
+func tableDelimiter(text string, given rune) (rune, error) {
+	d := given
+	if d == 0 {
+		d = detectDelimiter(text)
+	}
+	if d == '"' || d == '\r' || d == '\n' || !utf8.ValidRune(d) || d == utf8.RuneError {
+		return 0, &CSVError{Err: fmt.Errorf("%q cannot separate fields", d)}
+	}
+	return d, nil
+}
+
+// countTable is pass 1: every non-blank row counted into one tableCounts
+// (the first three rows kept as they are read). A text without such a row
+// is ErrCSVNoData; more than MaxReadings data rows, ErrCSVManyRows.
+func countTable(text string, delim rune) (*tableCounts, error) {
+	tc := new(tableCounts)
+	sc := newCSVScanner(text, delim)
 	for {
-		sc.raw = tc.rows >= 3 // the first three rows are kept as they are read
+		sc.raw = tc.rows >= 3
 		fields, line, cerr := sc.next()
 		if cerr != nil {
 			return nil, cerr
@@ -800,113 +838,138 @@ func readTable(text string, opt CSVOptions, warn []string) (*CSVResult, error) {
 	if tc.rows == 0 {
 		return nil, &CSVError{Err: ErrCSVNoData}
 	}
-	ch, err := decideTable(opt, &tc, nil)
-	if err != nil {
-		return nil, err
-	}
-	res.Width, res.HasHeader, res.UnitsRow, res.Header, res.Units = tc.width, ch.hasHeader, ch.unitsRow, ch.header, ch.units
-	res.PairlineExport, res.NumericColumns, res.XCol, res.YCol = ch.export, ch.numeric, ch.xc, ch.yc
-	xc, yc := ch.xc, ch.yc
+	return tc, nil
+}
 
-	// Pass 2: the rows again, split only as far as the columns used (and
-	// the preview) need.
-	var ex exportExtras
-	sc = newCSVScanner(text, res.Delimiter)
-	seen, pendingBlank, data := 0, 0, 0
+// takeRows is pass 2: the rows again, split only as far as the columns
+// used (and, for the first PreviewRows rows, the preview) need, each data
+// row handed to rowTaker.take.
+func takeRows(text string, res *CSVResult) error {
+	t := &rowTaker{res: res}
+	sc := newCSVScanner(text, res.Delimiter)
 	for {
 		if len(res.Rows) >= PreviewRows {
-			sc.keep, sc.raw = max(xc, yc)+1, true
+			sc.keep, sc.raw = max(res.XCol, res.YCol)+1, true
 			if res.PairlineExport {
 				sc.keep = max(sc.keep, 2+len(exportColumns))
 			}
 		}
-		empty, pos, posLine := sc.empty, sc.pos, sc.line
-		fields, line, cerr := sc.next()
-		if cerr == nil && sc.truncated && isBlankRow(fields) {
-			// The cells kept are empty: the whole row decides whether it
-			// is blank. Each row is split again at most once.
-			sc.pos, sc.line, sc.empty, sc.keep = pos, posLine, empty, 0
-			fields, line, cerr = sc.next()
-		}
+		empty := sc.empty
+		fields, line, cerr := sc.nextWhole()
 		if cerr != nil {
-			return nil, cerr // cannot happen: pass 1 read the same text
+			return cerr // cannot happen: pass 1 read the same text
 		}
-		if seen > 0 {
-			pendingBlank += sc.empty - empty
+		if t.seen > 0 {
+			t.pendingBlank += sc.empty - empty
 		}
 		if fields == nil {
 			break
 		}
-		if isBlankRow(fields) {
-			if seen > 0 {
-				pendingBlank++
-			}
-			continue
-		}
-		seen++
-		res.Blank += pendingBlank
-		pendingBlank = 0
-		if seen == 1 && res.HasHeader || seen == 2 && res.UnitsRow {
-			continue
-		}
-		if data++; data > MaxReadings {
-			return nil, &CSVError{Line: line, Err: fmt.Errorf("%w (at most %d)", ErrCSVManyRows, MaxReadings)}
-		}
-		if len(res.Rows) < PreviewRows {
-			row := slices.Clone(fields)
-			if res.PairlineExport {
-				for i, f := range row {
-					row[i] = unneutralise(f)
-				}
-			}
-			res.Rows = append(res.Rows, row)
-		}
-		x, y, why := rowPair(fields, xc, yc, sc.raw, res.PairlineExport)
-		if why != "" {
-			res.Incomplete++
-			res.Skipped = append(res.Skipped, SkippedRow{line, why})
-			continue
-		}
-		res.X = append(res.X, x)
-		res.Y = append(res.Y, y)
-		res.Lines = append(res.Lines, line)
-		if res.PairlineExport {
-			ex.add(res, fields, sc.raw, line)
+		if err := t.take(fields, line, sc.raw); err != nil {
+			return err
 		}
 	}
-	ex.warn(res)
-	res.quantities()
+	t.ex.warn(res)
+	return nil
+}
 
-	if opt.DecimalComma != nil {
-		res.DecimalComma = *opt.DecimalComma
-	} else {
-		comma, dot := 0, 0
-		for _, cells := range [][]string{res.X, res.Y} {
-			for _, c := range cells {
-				_, info, err := parseNumber(c, hintDot)
-				if err != nil || info.ambiguous {
-					continue
-				}
-				switch info.dec {
-				case ',':
-					comma++
-				case '.':
-					dot++
-				}
+// nextWhole is next, except that a row whose kept cells are all empty is
+// split again in full (the whole row decides whether it is blank); each
+// row is split again at most once.
+func (sc *csvScanner) nextWhole() ([]string, int, *CSVError) {
+	empty, pos, posLine := sc.empty, sc.pos, sc.line
+	fields, line, cerr := sc.next()
+	if cerr == nil && sc.truncated && isBlankRow(fields) {
+		sc.pos, sc.line, sc.empty, sc.keep = pos, posLine, empty, 0
+		fields, line, cerr = sc.next()
+	}
+	return fields, line, cerr
+}
+
+// rowTaker is the state of pass 2: the non-blank rows seen, the blank
+// rows since the last of them (counted in Blank only when another row
+// follows), the data rows and the extra columns of Pairline's export.
+type rowTaker struct {
+	res                      *CSVResult
+	seen, pendingBlank, data int
+	ex                       exportExtras
+}
+
+// take counts a blank row, passes over the header and the units row, and
+// takes a data row: into the preview while it has room, and its x and y
+// cells as a reading, or as a skipped row saying why not. raw says the
+// fields were kept as read (sc.raw).
+func (t *rowTaker) take(fields []string, line int, raw bool) error {
+	res := t.res
+	if isBlankRow(fields) {
+		if t.seen > 0 {
+			t.pendingBlank++
+		}
+		return nil
+	}
+	t.seen++
+	res.Blank += t.pendingBlank
+	t.pendingBlank = 0
+	if t.seen == 1 && res.HasHeader || t.seen == 2 && res.UnitsRow {
+		return nil
+	}
+	if t.data++; t.data > MaxReadings {
+		return &CSVError{Line: line, Err: fmt.Errorf("%w (at most %d)", ErrCSVManyRows, MaxReadings)}
+	}
+	if len(res.Rows) < PreviewRows {
+		row := slices.Clone(fields)
+		if res.PairlineExport {
+			for i, f := range row {
+				row[i] = unneutralise(f)
 			}
 		}
-		res.DecimalComma = comma > dot || (comma == dot && res.Delimiter == ';')
-		if comma > 0 && dot > 0 {
-			used := "points"
-			if res.DecimalComma {
-				used = "commas"
+		res.Rows = append(res.Rows, row)
+	}
+	x, y, why := rowPair(fields, res.XCol, res.YCol, raw, res.PairlineExport)
+	if why != "" {
+		res.Incomplete++
+		res.Skipped = append(res.Skipped, SkippedRow{line, why})
+		return nil
+	}
+	res.X = append(res.X, x)
+	res.Y = append(res.Y, y)
+	res.Lines = append(res.Lines, line)
+	if res.PairlineExport {
+		t.ex.add(res, fields, raw, line)
+	}
+	return nil
+}
+
+// chooseDecimalMark sets res.DecimalComma from the chosen cells: decimal
+// comma when more cells show a decimal comma than a decimal point (a tie:
+// when the delimiter is ';'), cells such as 1,234 that could be either not
+// counted. Cells of both kinds add a warning.
+func chooseDecimalMark(res *CSVResult) {
+	comma, dot := 0, 0
+	for _, cells := range [][]string{res.X, res.Y} {
+		for _, c := range cells {
+			_, info, err := parseNumber(c, hintDot)
+			if err != nil || info.ambiguous {
+				continue
 			}
-			res.Warnings = append(res.Warnings, fmt.Sprintf(
-				"The columns mix decimal commas (%d cells) and decimal points (%d cells); ambiguous cells such as 1,234 were read with decimal %s. Check the readings.",
-				comma, dot, used))
+			switch info.dec {
+			case ',':
+				comma++
+			case '.':
+				dot++
+			}
 		}
 	}
-	return res, nil
+	res.DecimalComma = comma > dot || (comma == dot && res.Delimiter == ';')
+	if comma > 0 && dot > 0 {
+		used := "points"
+		if res.DecimalComma {
+			used = "commas"
+		}
+		res.Warnings = append(res.Warnings, fmt.Sprintf(
+			"The columns mix decimal commas (%d cells) and decimal points (%d cells); ambiguous cells such as 1,234 were read with decimal %s. Check the readings.",
+			comma, dot, used))
+	}
 }
 
 // ParsedPairs parses the chosen cells of a CSV result with the result's

@@ -61,7 +61,7 @@ func ExampleSession_ExpiredStandards() {
 
 // Readings of a standard get its certified uncertainty (matched by value).
 func ExampleSession_StandardUncertainties() {
-	s := &session.Session{Standards: []session.Standard{{Value: "84", Uncertainty: "0.42"}, {Value: "1413", Uncertainty: "7"}}}
+	s := &session.Session{Content: session.Content{Standards: []session.Standard{{Value: "84", Uncertainty: "0.42"}, {Value: "1413", Uncertainty: "7"}}}}
 	u, problems := s.StandardUncertainties([]float64{0, 84, 1413, 1413})
 	fmt.Println(u, len(problems))
 	// Output:
@@ -70,9 +70,9 @@ func ExampleSession_StandardUncertainties() {
 
 // The last record of an instrument at a site offers its values again.
 func ExampleLastRecordFor() {
-	older := &session.Session{Title: "March", Site: "Heron Ford", Instrument: session.Instrument{ID: "LVWB-A-1187"},
+	older := &session.Session{Content: session.Content{Title: "March", Site: "Heron Ford", Instrument: session.Instrument{ID: "LVWB-A-1187"}},
 		Created: time.Date(2025, 3, 14, 0, 0, 0, 0, time.UTC)}
-	newer := &session.Session{Title: "September", Site: "Heron Ford", Instrument: session.Instrument{ID: "LVWB-A-1187", IntervalDays: 182},
+	newer := &session.Session{Content: session.Content{Title: "September", Site: "Heron Ford", Instrument: session.Instrument{ID: "LVWB-A-1187", IntervalDays: 182}},
 		Created: time.Date(2025, 9, 12, 0, 0, 0, 0, time.UTC)}
 	last := session.LastRecordFor([]*session.Session{older, newer}, "lvwb-a-1187", "Heron Ford")
 	fmt.Println(last.Title, last.Instrument.IntervalDays)

@@ -32,10 +32,33 @@ import (
 // site. Change it through its methods so that History stays complete; the
 // fields are exported so that the codec, the UI and tests can read them.
 type Session struct {
-	ID         string     `json:"id"` // 32 lowercase hex digits (128 random bits)
+	ID       string    `json:"id"`       // 32 lowercase hex digits (128 random bits)
+	Created  time.Time `json:"created"`  // UTC
+	Modified time.Time `json:"modified"` // UTC; time of the last change
+	// Content is the current revision's content, the part a seal covers;
+	// its fields are the session's own (s.Title, s.Readings, …).
+	Content
+	History []Edit `json:"history"` // append-only
+	// Seal is the signature of the current revision; nil = not sealed.
+	Seal *Seal `json:"seal"`
+	// Revision is the number of the current revision: 0 for a record never
+	// sealed, 1 once it is sealed for the first time, and one more each
+	// time a sealed record is changed (see Sealed).
+	Revision int `json:"revision"`
+	// Sealed holds the earlier sealed revisions, oldest first, frozen as
+	// they were sealed, so that a record changed after its seal still shows
+	// what was signed.
+	Sealed []SealedRevision `json:"sealed"`
+}
+
+// Content is what one revision of a record holds and its seal's digest
+// covers (with the session's id, creation time and the revision number):
+// the identity of the record, the readings, the fit settings and the
+// calibration record's lists. Session holds the current revision's content
+// and SealedRevision an earlier one's, frozen; the codec writes and reads
+// these keys once for both (encodeContent, bodyDecoder.content).
+type Content struct {
 	Title      string     `json:"title"`
-	Created    time.Time  `json:"created"`  // UTC
-	Modified   time.Time  `json:"modified"` // UTC; time of the last change
 	Site       string     `json:"site"`
 	Instrument Instrument `json:"instrument"`
 	Operator   string     `json:"operator"`
@@ -52,7 +75,6 @@ type Session struct {
 	Location     *Location `json:"location"`
 	Readings     []Reading `json:"readings"`
 	Settings     Settings  `json:"settings"`
-	History      []Edit    `json:"history"` // append-only
 	// Conditions are the conditions the readings were taken in (format 1.1);
 	// the temperature is the one named ConditionTemperature.
 	Conditions []Condition `json:"conditions"`
@@ -62,16 +84,6 @@ type Session struct {
 	// Unknowns are samples measured against the fitted line, converted
 	// from y readings to x by inverse prediction (format 1.1).
 	Unknowns []Unknown `json:"unknowns"`
-	// Seal is the signature of the current revision; nil = not sealed.
-	Seal *Seal `json:"seal"`
-	// Revision is the number of the current revision: 0 for a record never
-	// sealed, 1 once it is sealed for the first time, and one more each
-	// time a sealed record is changed (see Sealed).
-	Revision int `json:"revision"`
-	// Sealed holds the earlier sealed revisions, oldest first, frozen as
-	// they were sealed, so that a record changed after its seal still shows
-	// what was signed.
-	Sealed []SealedRevision `json:"sealed"`
 }
 
 // Instrument identifies the instrument whose readings are recorded.
@@ -136,24 +148,9 @@ type Seal struct {
 // after the record was changed: the revision number, its seal and the
 // content the seal's digest covers, frozen.
 type SealedRevision struct {
-	Revision     int         `json:"revision"`
-	Seal         Seal        `json:"seal"`
-	Title        string      `json:"title"`
-	Site         string      `json:"site"`
-	Instrument   Instrument  `json:"instrument"`
-	Operator     string      `json:"operator"`
-	XName        string      `json:"x_name"`
-	XUnit        string      `json:"x_unit"`
-	YName        string      `json:"y_name"`
-	YUnit        string      `json:"y_unit"`
-	Notes        string      `json:"notes"`
-	DecimalComma *bool       `json:"decimal_comma"`
-	Location     *Location   `json:"location"`
-	Readings     []Reading   `json:"readings"`
-	Settings     Settings    `json:"settings"`
-	Conditions   []Condition `json:"conditions"`
-	Standards    []Standard  `json:"standards"`
-	Unknowns     []Unknown   `json:"unknowns"`
+	Revision int  `json:"revision"`
+	Seal     Seal `json:"seal"`
+	Content
 	// Results is the summary of the results as they were when the record
 	// was sealed (the line, its verdicts), in words; the numbers can be
 	// computed again from the frozen content.
@@ -416,7 +413,7 @@ func New(title string, now time.Time, random io.Reader) (*Session, error) {
 		return nil, err
 	}
 	now = now.UTC()
-	return &Session{ID: id, Title: title, Created: now, Modified: now, Settings: DefaultSettings()}, nil
+	return &Session{ID: id, Created: now, Modified: now, Content: Content{Title: title, Settings: DefaultSettings()}}, nil
 }
 
 // latest is the latest of its times.

@@ -86,7 +86,7 @@ func TestEncodeRefusesRecordLimits(t *testing.T) {
 		t.Errorf("negative interval: %v", err)
 	}
 	s = newRecord(t)
-	s.Sealed = []SealedRevision{{Revision: 1, Readings: []Reading{{X: string([]byte{0xff})}}}}
+	s.Sealed = []SealedRevision{{Revision: 1, Content: Content{Readings: []Reading{{X: string([]byte{0xff})}}}}}
 	if _, err := EncodeBytes([]*Session{s}); !errors.Is(err, ErrInvalidField) || !strings.Contains(err.Error(), "sealed[0].readings[0].x") {
 		t.Errorf("bad UTF-8 in a sealed revision: %v", err)
 	}

@@ -286,12 +286,12 @@ func TestSealTampered(t *testing.T) {
 // specification does not follow fails.
 func TestSealDigestEncoding(t *testing.T) {
 	s := &Session{ID: strings.Repeat("ab", 16), Created: time.Date(2025, 1, 2, 3, 4, 5, 600, time.UTC), Revision: 1,
-		Title: "T", Readings: []Reading{{X: "1", Y: "2 µS", Taken: time.Date(2025, 1, 2, 3, 5, 0, 0, time.UTC)}},
-		Settings:   Settings{Level: 0.95},
-		Standards:  []Standard{{Name: "s", Value: "1", Expiry: time.Date(2026, 1, 31, 0, 0, 0, 0, time.UTC)}},
-		Unknowns:   []Unknown{{Name: "u", Readings: []string{"3"}}},
-		Conditions: []Condition{{Name: "temperature", Value: "20", Unit: "°C"}},
-		Seal:       &Seal{PerformedBy: "A", PerformedAt: time.Date(2025, 1, 2, 4, 0, 0, 0, time.UTC)},
+		Content: Content{Title: "T", Readings: []Reading{{X: "1", Y: "2 µS", Taken: time.Date(2025, 1, 2, 3, 5, 0, 0, time.UTC)}},
+			Settings:   Settings{Level: 0.95},
+			Standards:  []Standard{{Name: "s", Value: "1", Expiry: time.Date(2026, 1, 31, 0, 0, 0, 0, time.UTC)}},
+			Unknowns:   []Unknown{{Name: "u", Readings: []string{"3"}}},
+			Conditions: []Condition{{Name: "temperature", Value: "20", Unit: "°C"}}},
+		Seal: &Seal{PerformedBy: "A", PerformedAt: time.Date(2025, 1, 2, 4, 0, 0, 0, time.UTC)},
 	}
 	items := []string{
 		"format pairline-seal-1", "id " + s.ID, "created 2025-01-02T03:04:05.0000006Z", "revision 1", "title T", "site ",
@@ -398,7 +398,7 @@ func TestExpiredStandards(t *testing.T) {
 
 func TestLastRecordFor(t *testing.T) {
 	mk := func(id, serial, site string, created int) *Session {
-		return &Session{Title: fmt.Sprint(created), Instrument: Instrument{ID: id, Serial: serial}, Site: site, Created: at(created)}
+		return &Session{Content: Content{Title: fmt.Sprint(created), Instrument: Instrument{ID: id, Serial: serial}, Site: site}, Created: at(created)}
 	}
 	ss := []*Session{
 		mk("A-1", "S1", "Heron Ford", 1), mk("A-1", "S1", "Heron Ford", 5), mk("a-1 ", "", "heron ford", 3),
@@ -443,7 +443,7 @@ func TestStandardUncertainties(t *testing.T) {
 		{"unreadable and negative", nil, []Standard{{Value: "abc", Uncertainty: "1"}, {Value: "5", Uncertainty: "-1"}, {Value: "6", Uncertainty: "x"}}, []float64{5, 6}, nil, 3},
 	}
 	for _, tc := range tests {
-		s := &Session{DecimalComma: tc.dc, Standards: tc.standards}
+		s := &Session{Content: Content{DecimalComma: tc.dc, Standards: tc.standards}}
 		got, problems := s.StandardUncertainties(tc.x)
 		if !reflect.DeepEqual(got, tc.want) || len(problems) != tc.problems {
 			t.Errorf("%s: %v, problems %q; want %v and %d problems", tc.name, got, problems, tc.want, tc.problems)
@@ -452,12 +452,12 @@ func TestStandardUncertainties(t *testing.T) {
 }
 
 func TestUnknownQueries(t *testing.T) {
-	s := &Session{Unknowns: []Unknown{
+	s := &Session{Content: Content{Unknowns: []Unknown{
 		{Name: "a", Readings: []string{"1", " ", "2.5 µS/cm"}},
 		{Name: "b", Readings: []string{"1", "x"}},
 		{Name: "c"},
 		{Name: "d", Readings: []string{"4"}},
-	}}
+	}}}
 	got := s.UnknownQueries()
 	if len(got.Queries) != 2 || !reflect.DeepEqual(got.Queries[0].Y, []float64{1, 2.5}) || !reflect.DeepEqual(got.Index, []int{0, 3}) {
 		t.Errorf("queries %+v", got)

@@ -302,23 +302,30 @@ func (s *Session) beforeChange(now time.Time) {
 	s.record(now, EditRevision, -1, fmt.Sprint(old), fmt.Sprint(s.Revision))
 }
 
-// freeze is the current revision, with its seal, as a SealedRevision.
+// freeze is the current revision, with its seal, as a SealedRevision
+// holding its own copy of the content.
 func (s *Session) freeze() SealedRevision {
-	f := SealedRevision{
-		Revision: s.Revision, Title: s.Title, Site: s.Site, Instrument: s.Instrument, Operator: s.Operator,
-		XName: s.XName, XUnit: s.XUnit, YName: s.YName, YUnit: s.YUnit, Notes: s.Notes,
-		Readings: append([]Reading(nil), s.Readings...), Settings: s.Settings.clone(),
-		Conditions: cloneConditions(s.Conditions), Standards: cloneStandards(s.Standards), Unknowns: cloneUnknowns(s.Unknowns),
-	}
+	f := SealedRevision{Revision: s.Revision, Content: s.Content.clone()}
 	if s.Seal != nil {
 		f.Seal = *s.Seal
 	}
-	if s.DecimalComma != nil {
-		d := *s.DecimalComma
+	return f
+}
+
+// clone is a deep copy of c: the copy shares no slice or pointer with c.
+func (c *Content) clone() Content {
+	f := *c
+	f.Readings = append([]Reading(nil), c.Readings...)
+	f.Settings = c.Settings.clone()
+	f.Conditions = cloneConditions(c.Conditions)
+	f.Standards = cloneStandards(c.Standards)
+	f.Unknowns = cloneUnknowns(c.Unknowns)
+	if c.DecimalComma != nil {
+		d := *c.DecimalComma
 		f.DecimalComma = &d
 	}
-	if s.Location != nil {
-		l := *s.Location
+	if c.Location != nil {
+		l := *c.Location
 		f.Location = &l
 	}
 	return f
@@ -327,12 +334,7 @@ func (s *Session) freeze() SealedRevision {
 // view is the current revision as a SealedRevision that shares the
 // session's slices (for reading only, as SealDigest does).
 func (s *Session) view() *SealedRevision {
-	f := &SealedRevision{
-		Revision: s.Revision, Title: s.Title, Site: s.Site, Instrument: s.Instrument, Operator: s.Operator,
-		XName: s.XName, XUnit: s.XUnit, YName: s.YName, YUnit: s.YUnit, Notes: s.Notes, DecimalComma: s.DecimalComma,
-		Location: s.Location, Readings: s.Readings, Settings: s.Settings, Conditions: s.Conditions, Standards: s.Standards,
-		Unknowns: s.Unknowns,
-	}
+	f := &SealedRevision{Revision: s.Revision, Content: s.Content}
 	if s.Seal != nil {
 		f.Seal = *s.Seal
 	}

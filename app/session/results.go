@@ -68,9 +68,8 @@ func ResultsTable(s *Session, rep *fitcore.Report, unknowns UnknownSet) [][]stri
 	}
 	add("r squared", rep.RSquared, "", "")
 	add("residual standard deviation", rep.ResidualSE, yu, "")
-	c := rep.Checks
-	checks := []*fitcore.Check{&c.Curvature, c.LackOfFit, &c.BreuschPagan, &c.White, &c.DurbinWatson, &c.Runs, &c.ShapiroWilk, c.XExactness}
-	for _, ch := range checks {
+	for _, info := range fitcore.CheckList() {
+		ch := info.Get(rep)
 		if ch == nil || ch.Name == "" {
 			continue
 		}

@@ -187,26 +187,7 @@ func (s *Session) validate() (string, error) {
 	if !isHexID(s.ID) {
 		return "id", invalid("the session ID %q is not 32 lowercase hex digits", truncate(s.ID, 40))
 	}
-	short := []struct {
-		name string
-		v    string
-	}{
-		{"title", s.Title}, {"site", s.Site}, {"instrument.description", s.Instrument.Description},
-		{"instrument.serial", s.Instrument.Serial}, {"operator", s.Operator}, {"x_name", s.XName},
-		{"x_unit", s.XUnit}, {"y_name", s.YName}, {"y_unit", s.YUnit},
-	}
-	for _, f := range short {
-		if err := checkText(f.v, MaxShortText); err != nil {
-			return f.name, err
-		}
-	}
-	if err := checkText(s.Notes, MaxLongText); err != nil {
-		return "notes", err
-	}
-	if f, err := s.Instrument.validate(); err != nil {
-		return "instrument." + f, err
-	}
-	if f, err := validateLists(s.Conditions, s.Standards, s.Unknowns); err != nil {
+	if f, err := s.Content.validate(); err != nil {
 		return f, err
 	}
 	if s.Seal != nil {
@@ -234,22 +215,6 @@ func (s *Session) validate() (string, error) {
 	if s.Modified.Before(s.Created.Add(-ModifiedSkew)) {
 		return "modified", invalid("the last change (%s) is more than %v before the session was started (%s)",
 			s.Modified.UTC().Format(time.RFC3339), ModifiedSkew, s.Created.UTC().Format(time.RFC3339))
-	}
-	if s.Location != nil {
-		if f, err := s.Location.validate(); err != nil {
-			return "location." + f, err
-		}
-	}
-	if len(s.Readings) > MaxReadings {
-		return "readings", fmt.Errorf("%w: %d readings, at most %d allowed", ErrTooLarge, len(s.Readings), MaxReadings)
-	}
-	for i := range s.Readings {
-		if f, err := s.Readings[i].validate(); err != nil {
-			return fmt.Sprintf("readings[%d].%s", i, f), err
-		}
-	}
-	if f, err := s.Settings.validate(); err != nil {
-		return "settings." + f, err
 	}
 	if len(s.History) > MaxHistory {
 		return "history", fmt.Errorf("%w: %d history entries, at most %d allowed", ErrTooLarge, len(s.History), MaxHistory)
@@ -364,45 +329,52 @@ func (r *SealedRevision) validate() (string, error) {
 	if f, err := r.Seal.validate(); err != nil {
 		return "seal." + f, err
 	}
+	if err := checkText(r.Results, MaxLongText); err != nil {
+		return "results", err
+	}
+	return r.Content.validate()
+}
+
+// validate checks the content of a session or of a sealed revision: its
+// texts, the instrument, the location, the readings, the settings and the
+// record lists; it returns the path of the first field that fails.
+func (c *Content) validate() (string, error) {
 	short := []struct {
 		name string
 		v    string
 	}{
-		{"title", r.Title}, {"site", r.Site}, {"instrument.description", r.Instrument.Description},
-		{"instrument.serial", r.Instrument.Serial}, {"operator", r.Operator}, {"x_name", r.XName},
-		{"x_unit", r.XUnit}, {"y_name", r.YName}, {"y_unit", r.YUnit},
+		{"title", c.Title}, {"site", c.Site}, {"instrument.description", c.Instrument.Description},
+		{"instrument.serial", c.Instrument.Serial}, {"operator", c.Operator}, {"x_name", c.XName},
+		{"x_unit", c.XUnit}, {"y_name", c.YName}, {"y_unit", c.YUnit},
 	}
 	for _, f := range short {
 		if err := checkText(f.v, MaxShortText); err != nil {
 			return f.name, err
 		}
 	}
-	if err := checkText(r.Notes, MaxLongText); err != nil {
+	if err := checkText(c.Notes, MaxLongText); err != nil {
 		return "notes", err
 	}
-	if err := checkText(r.Results, MaxLongText); err != nil {
-		return "results", err
-	}
-	if f, err := r.Instrument.validate(); err != nil {
+	if f, err := c.Instrument.validate(); err != nil {
 		return "instrument." + f, err
 	}
-	if r.Location != nil {
-		if f, err := r.Location.validate(); err != nil {
+	if c.Location != nil {
+		if f, err := c.Location.validate(); err != nil {
 			return "location." + f, err
 		}
 	}
-	if len(r.Readings) > MaxReadings {
-		return "readings", fmt.Errorf("%w: %d readings, at most %d allowed", ErrTooLarge, len(r.Readings), MaxReadings)
+	if len(c.Readings) > MaxReadings {
+		return "readings", fmt.Errorf("%w: %d readings, at most %d allowed", ErrTooLarge, len(c.Readings), MaxReadings)
 	}
-	for i := range r.Readings {
-		if f, err := r.Readings[i].validate(); err != nil {
+	for i := range c.Readings {
+		if f, err := c.Readings[i].validate(); err != nil {
 			return fmt.Sprintf("readings[%d].%s", i, f), err
 		}
 	}
-	if f, err := r.Settings.validate(); err != nil {
+	if f, err := c.Settings.validate(); err != nil {
 		return "settings." + f, err
 	}
-	return validateLists(r.Conditions, r.Standards, r.Unknowns)
+	return validateLists(c.Conditions, c.Standards, c.Unknowns)
 }
 
 // rowCounts reads the counts of a FieldRows entry.

@@ -256,6 +256,7 @@ func (r *readingRow) cell(col session.Column, testid, text, problem string, more
 			c.enter(ctx, r.Row, col)
 		}).
 		OnFocus(func(ctx app.Context, e app.Event) {
+			keepCellInView(ctx.JSSrc())
 			if !c.enIn || c.enRow != r.Row {
 				c.ui.Dispatch(func(app.Context) { c.enRow, c.enIn = r.Row, true })
 			}
@@ -296,4 +297,136 @@ func (c *Shell) enter(ctx app.Context, row int, col session.Column) {
 		c.resyncInputs()
 	}
 	ctx.Defer(func(ctx app.Context) { focus("x-input-" + strconv.Itoa(next)) })
+}
+
+// On a phone the on-screen keyboard covers the lower part of the screen
+// while a cell is typed in. The cell with the focus is kept in the part of
+// the visual viewport (window.visualViewport) that stays visible: below the
+// sticky bar and, until the keyboard is up, in the upper part of the
+// screen, where the keyboard will not come. When the visual viewport
+// changes size (the keyboard opens or closes, the phone turns) the cell is
+// placed again.
+const (
+	// keyboardShare is the part of a phone's screen height an on-screen
+	// keyboard leaves visible: in portrait it takes about 40 % (common
+	// practice, from memory of phones' keyboards), and a cell is kept
+	// above 55 % of the screen until the keyboard is up.
+	keyboardShare = 0.55
+	// keyboardUp: a visual viewport below this share of the tallest seen
+	// means something (the keyboard) covers the rest.
+	keyboardUp = 0.8
+	// cellGap is the room kept around the cell, in CSS pixels.
+	cellGap = 8
+)
+
+// fieldView is what the visual viewport watch knows: whether it listens,
+// and the tallest visual viewport seen (the screen without a keyboard).
+var fieldView struct {
+	watching bool
+	tallest  float64
+}
+
+// narrowOrTouch says whether the screen is a phone's or a tablet's in
+// portrait, or is worked by touch: where an on-screen keyboard comes up.
+func narrowOrTouch() bool {
+	mq := app.Window().Call("matchMedia", "(max-width: 820px), (pointer: coarse)")
+	return mq.Truthy() && mq.Get("matches").Bool()
+}
+
+// stickyTop is the height of the bars that stay at the top of the screen
+// while the page scrolls (the jump bar on a phone, the app bar on a wide
+// screen), in CSS pixels.
+func stickyTop() float64 {
+	w := app.Window()
+	doc := w.Get("document")
+	h := 0.0
+	for _, s := range []string{".pl-jumps", ".pl-bar"} {
+		el := doc.Call("querySelector", s)
+		if !el.Truthy() {
+			continue
+		}
+		if pos := w.Call("getComputedStyle", el).Get("position").String(); pos != "sticky" && pos != "fixed" {
+			continue
+		}
+		h = max(h, el.Get("offsetHeight").Float())
+	}
+	return h
+}
+
+// visibleBand returns the part of the visual viewport, in the layout
+// viewport's coordinates (those of getBoundingClientRect), that a focused
+// cell should sit in: below the sticky bars and above the keyboard, or
+// above where the keyboard will be when it is not up yet.
+func visibleBand() (top, bottom float64, ok bool) {
+	vv := app.Window().Get("visualViewport")
+	if !vv.Truthy() {
+		return 0, 0, false
+	}
+	off, h := vv.Get("offsetTop").Float(), vv.Get("height").Float()
+	fieldView.tallest = max(fieldView.tallest, h)
+	visible := h
+	if h > keyboardUp*fieldView.tallest {
+		visible = keyboardShare * h
+	}
+	return off + max(stickyTop()-off, 0) + cellGap, off + visible - cellGap, true
+}
+
+// keepCellInView scrolls the page so that the grid cell el, which has the
+// focus, sits in visibleBand, one row below its top so that the row before
+// shows too. Nothing happens on a wide screen worked by mouse, or when the
+// cell already sits there.
+func keepCellInView(el app.Value) {
+	if !el.Truthy() || !narrowOrTouch() {
+		return
+	}
+	watchFieldView()
+	top, bottom, ok := visibleBand()
+	if !ok {
+		return
+	}
+	r := el.Call("getBoundingClientRect")
+	cellTop, cellBottom := r.Get("top").Float(), r.Get("bottom").Float()
+	if cellTop >= top && cellBottom <= bottom {
+		return
+	}
+	to := top
+	if h := cellBottom - cellTop; top+2*h <= bottom {
+		to += h
+	}
+	app.Window().Call("scrollBy", 0, cellTop-to)
+}
+
+// watchFieldView starts, once, to follow the visual viewport: the focused
+// grid cell is placed again when it changes size, and the page's style gets
+// --pl-kb (the height the keyboard covers at the bottom of the layout
+// viewport) and --pl-vvh (the visual viewport's height) for the reading
+// panel (web/plots.css).
+func watchFieldView() {
+	w := app.Window()
+	vv := w.Get("visualViewport")
+	if fieldView.watching || !vv.Truthy() {
+		return
+	}
+	fieldView.watching = true
+	setFieldVars()
+	vv.Call("addEventListener", "resize", app.FuncOf(func(this app.Value, args []app.Value) any {
+		setFieldVars()
+		if el := w.Get("document").Get("activeElement"); el.Truthy() && el.Call("matches", ".pl-grid .pl-cell").Bool() {
+			keepCellInView(el)
+		}
+		return nil
+	}))
+}
+
+func setFieldVars() {
+	w := app.Window()
+	vv := w.Get("visualViewport")
+	if !vv.Truthy() {
+		return
+	}
+	h := vv.Get("height").Float()
+	kb := max(0, w.Get("innerHeight").Float()-h-vv.Get("offsetTop").Float())
+	st := w.Get("document").Get("documentElement").Get("style")
+	st.Call("setProperty", "--pl-kb", strconv.FormatFloat(kb, 'f', 0, 64)+"px")
+	st.Call("setProperty", "--pl-vvh", strconv.FormatFloat(h, 'f', 0, 64)+"px")
 }

@@ -9,6 +9,7 @@ import (
 	"pairline/app/session"
 	"pairline/app/wording"
 	"pairline/fitcore"
+	"pairline/app/reftest"
 )
 
 // handbookSession reads a NIST e-Handbook Dataplot file (free text, a line
@@ -17,7 +18,7 @@ import (
 // when the reference files are not beside the repository.
 func handbookSession(t *testing.T, name string, cx, cy int) *session.Session {
 	t.Helper()
-	b, err := os.ReadFile(refPath(t, "nist-handbook", name))
+	b, err := os.ReadFile(reftest.Path(t, "nist-handbook", name))
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -31,6 +31,7 @@ type plotsUI struct {
 	plSel    int // selected reading + 1; 0 = none
 	plReason string
 	plMsg    string
+	plAt     panelPlace // where the panel floats (placed at each tap)
 
 	plCacheRep  *fitcore.Report
 	plCacheSess *session.Session
@@ -379,7 +380,10 @@ func (c *Shell) renderPlots() app.UI {
 			// The same panel without a tap (keyboard, screen reader): it
 			// opens on the first flagged reading, or the first reading.
 			app.Button().Class("pl-btn pl-btn-quiet").Text("Go through the readings").DataSet("testid", "plot-point-open").
-				Hidden(c.plSel > 0).OnClick(func(ctx app.Context, e app.Event) { c.selectPoint(c.firstFlaggedRow()) }),
+				Hidden(c.plSel > 0).OnClick(func(ctx app.Context, e app.Event) {
+				c.plAt = placePanel(app.Null(), 0)
+				c.selectPoint(c.firstFlaggedRow())
+			}),
 		),
 		// The notes and the grid keep their places whether shown or not, so
 		// that go-app never re-mounts the plots because a sibling came or went.
@@ -392,8 +396,8 @@ func (c *Shell) renderPlots() app.UI {
 			plFigure("Residuals against fitted values", ps.Residuals, ps.plRing("plot-residuals", c.plSel-1), nil),
 			plFigure("Residuals in the order entered", ps.Order, ps.plRing("plot-order", c.plSel-1), nil),
 			plFigure("Normal Q–Q plot of the residuals", ps.QQ, ps.plRing("plot-qq", c.plSel-1), nil),
-			// Last in the markup (the stylesheet places the panel beside
-			// the first plot), so that showing it moves no plot.
+			// Last in the markup and floating over the page (position
+			// fixed, web/plots.css), so that showing it moves no plot.
 			app.If(c.plSel > 0, c.renderPointPanel),
 		),
 	)
@@ -462,6 +466,7 @@ func (c *Shell) onPlotTap(ctx app.Context, e app.Event) {
 	}
 	if el := t.Call("closest", ".pl-plot-points [data-row]"); el.Truthy() {
 		if row, err := strconv.Atoi(el.Call("getAttribute", "data-row").String()); err == nil && row >= 0 && row < len(c.sess.Readings) {
+			c.plAt = placePanel(t.Call("closest", ".pl-plot-canvas"), e.Get("clientY").Float())
 			c.selectPoint(row)
 			return
 		}
@@ -488,6 +493,7 @@ func (c *Shell) onPlotTap(ctx app.Context, e app.Event) {
 	if !ok || m.Row < 0 || m.Row >= len(c.sess.Readings) {
 		return
 	}
+	c.plAt = placePanel(t.Call("closest", ".pl-plot-canvas"), e.Get("clientY").Float())
 	c.selectPoint(m.Row)
 }
 
@@ -529,35 +535,56 @@ func (c *Shell) renderPointPanel() app.UI {
 	} else if idx < 0 {
 		status = "Not used: a cell is empty or not a number."
 	}
-	var facts []app.UI
-	fact := func(testid, label string, v float64, shown string) {
-		facts = append(facts, app.Div().Class("pl-fact").Body(
+	// The plain figures show at once; the technical ones (studentized
+	// residual, leverage, Cook's distance) and fitcore's reasons stay
+	// behind "Show the numbers", each with a line of plain meaning.
+	var facts, more []app.UI
+	fact := func(to *[]app.UI, testid, label string, v float64, shown, meaning string) {
+		*to = append(*to, app.Div().Class("pl-fact").Body(
 			app.Dt().Text(label),
 			app.Dd().Class("pl-num-sm").DataSet("testid", testid).DataSet("value", numfmt.Full(v)).Text(shown),
+			app.If(meaning != "", func() app.UI { return app.Dd().Class("pl-fact-meaning").Text(meaning) }),
 		))
 	}
 	var reasons []string
+	flagged, slip := false, ""
 	if idx >= 0 && rep != nil && idx < len(rep.Residuals) {
 		scale := wording.Scale(rep.Transform)
 		suffix := ""
 		if scale != "" {
 			suffix = " (" + scale + " scale)"
 		}
-		fact("plot-point-fitted", "Fitted"+suffix, rep.Fitted[idx], numfmt.Sig(rep.Fitted[idx], numfmt.Precision(c.view.digits)))
-		fact("plot-point-residual", "Residual"+suffix, rep.Residuals[idx], numfmt.Sig(rep.Residuals[idx], 3))
+		fact(&facts, "plot-point-fitted", "Fitted"+suffix, rep.Fitted[idx], numfmt.Sig(rep.Fitted[idx], numfmt.Precision(c.view.digits)), "")
+		fact(&facts, "plot-point-residual", "Residual"+suffix, rep.Residuals[idx], numfmt.Sig(rep.Residuals[idx], 3), "")
 		for _, p := range rep.Influence {
 			if p.Index == idx {
-				fact("plot-point-studentized", "Studentized residual", p.Studentized, numfmt.Sig(p.Studentized, 3))
-				fact("plot-point-leverage", "Leverage", p.Leverage, numfmt.Sig(p.Leverage, 3))
-				fact("plot-point-cooks", "Cook's distance", p.CooksD, numfmt.Sig(p.CooksD, 3))
+				fact(&more, "plot-point-studentized", "Studentized residual", p.Studentized, numfmt.Sig(p.Studentized, 3),
+					"The residual in units of the scatter of the other readings; beyond about ±3 is rare.")
+				fact(&more, "plot-point-leverage", "Leverage", p.Leverage, numfmt.Sig(p.Leverage, 3),
+					"How strongly this reading's x can pull the line, from 0 to 1; the end standards have the most by design.")
+				fact(&more, "plot-point-cooks", "Cook's distance", p.CooksD, numfmt.Sig(p.CooksD, 3),
+					"How far the line moves when this reading is left out.")
 				if p.Flagged {
-					reasons = p.Reasons
+					reasons, flagged = p.Reasons, true
 				}
 			}
 		}
+		if sl := rep.Slip; sl != nil && sl.Index == idx {
+			slip = "It looks like a slipped decimal point: " + r.Y + " where the line expects about " + numfmt.Short(sl.Expected, 4) + "."
+		}
 	}
 	n := len(c.sess.Readings)
-	return app.Aside().Class("pl-point-panel").DataSet("testid", "plot-point-panel").DataSet("row", strconv.Itoa(row)).
+	at := c.plAt
+	if at.h <= 0 {
+		at = placePanel(app.Null(), 0)
+	}
+	place, top := "bottom", "auto"
+	if at.top {
+		place, top = "top", strconv.FormatFloat(at.y, 'f', 0, 64)+"px"
+	}
+	return app.Aside().Class("pl-point-panel pl-at-"+place).DataSet("testid", "plot-point-panel").DataSet("row", strconv.Itoa(row)).
+		DataSet("place", place).
+		Style("--pl-panel-h", strconv.FormatFloat(at.h, 'f', 0, 64)+"px").Style("--pl-panel-top", top).
 		Attr("aria-label", "Reading "+strconv.Itoa(row+1)).Attr("aria-live", "polite").Body(
 		app.Div().Class("pl-point-head").Body(
 			app.H3().Text("Reading "+strconv.Itoa(row+1)),
@@ -575,9 +602,19 @@ func (c *Shell) renderPointPanel() app.UI {
 		),
 		app.If(r.Note != "", func() app.UI { return app.P().Class("pl-point-note").Text("Note: " + r.Note) }),
 		app.P().Class("pl-point-status").DataSet("testid", "plot-point-status").Text(status),
-		app.If(len(reasons) > 0, func() app.UI {
-			return app.Ul().Class("pl-point-reasons").DataSet("testid", "plot-point-flags").Body(
-				app.Range(reasons).Slice(func(i int) app.UI { return app.Li().Text("◆ " + reasons[i]) }),
+		app.If(flagged, func() app.UI {
+			return app.P().Class("pl-point-flag").DataSet("testid", "plot-point-flagged").
+				Text("◆ Flagged: this reading stands out from the line. " + slip)
+		}),
+		app.If(len(more) > 0, func() app.UI {
+			return app.Details().Class("pl-point-more").DataSet("testid", "plot-point-more").Body(
+				app.Summary().Text("Show the numbers"),
+				app.Dl().Class("pl-point-facts").Body(app.Range(more).Slice(func(i int) app.UI { return more[i] })),
+				app.If(len(reasons) > 0, func() app.UI {
+					return app.Ul().Class("pl-point-reasons").DataSet("testid", "plot-point-flags").Body(
+						app.Range(reasons).Slice(func(i int) app.UI { return app.Li().Text(reasons[i]) }),
+					)
+				}),
 			)
 		}),
 		app.If(r.Excluded, func() app.UI {
@@ -608,6 +645,62 @@ func (c *Shell) renderPointPanel() app.UI {
 			return app.P().Class("pl-point-msg").Attr("role", "alert").DataSet("testid", "plot-point-message").Text(c.plMsg)
 		}),
 	)
+}
+
+// panelPlace is where the reading panel floats: at the top of the screen
+// from y (CSS pixels, below the sticky bars) or at its bottom, at most h
+// high (it scrolls inside when its content is longer).
+type panelPlace struct {
+	top  bool
+	y, h float64
+}
+
+// The reading panel's heights, in CSS pixels: the least room it takes
+// beside a plot (its head, the reading's two cells and the reason box),
+// and the most share of the screen it covers.
+const (
+	panelLeast = 240
+	panelShare = 0.6
+	panelGap   = 8
+)
+
+// placePanel decides where the reading panel opens after a tap at screen
+// height tapY on the plot canvas: in the room below the plot or above it,
+// whichever is larger, when that room holds panelLeast; otherwise on the
+// half of the screen away from the tap, so that the reading tapped stays
+// in view (with its 48 px target). Without a canvas (the panel opened from
+// the keyboard) it opens at the bottom. Either way the plot does not move:
+// the panel floats over the page.
+func placePanel(canvas app.Value, tapY float64) panelPlace {
+	w := app.Window()
+	vv := w.Get("visualViewport")
+	watchFieldView()
+	screenH := w.Get("innerHeight").Float()
+	if vv.Truthy() {
+		screenH = vv.Get("height").Float()
+	}
+	if !(screenH > 0) {
+		return panelPlace{h: 360}
+	}
+	top := stickyTop() + panelGap
+	most := panelShare * screenH
+	bottomAt := func(h float64) panelPlace { return panelPlace{h: min(max(h, panelLeast), most)} }
+	if !canvas.Truthy() {
+		return bottomAt(most)
+	}
+	r := canvas.Call("getBoundingClientRect")
+	above := r.Get("top").Float() - top - panelGap
+	below := screenH - r.Get("bottom").Float() - 2*panelGap
+	switch {
+	case below >= panelLeast && below >= above:
+		return bottomAt(below)
+	case above >= panelLeast:
+		return panelPlace{top: true, y: top, h: min(above, most)}
+	case tapY-plotTapPx > (top+screenH)/2:
+		return panelPlace{top: true, y: top, h: min(max(tapY-plotTapPx-top-panelGap, panelLeast), most)}
+	default:
+		return bottomAt(screenH - tapY - plotTapPx - 2*panelGap)
+	}
 }
 
 func (c *Shell) excludePoint(ctx app.Context, row int) {
