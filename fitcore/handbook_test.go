@@ -9,8 +9,8 @@ import (
 	"strings"
 	"testing"
 
-	"pairline/fitcore"
 	"pairline/app/reftest"
+	"pairline/fitcore"
 )
 
 // Worked examples of the NIST/SEMATECH e-Handbook of Statistical Methods

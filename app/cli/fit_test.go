@@ -13,10 +13,10 @@ import (
 	"testing"
 
 	"pairline/app/numfmt"
+	"pairline/app/reftest"
 	"pairline/app/session"
 	"pairline/app/wording"
 	"pairline/fitcore"
-	"pairline/app/reftest"
 )
 
 const csvDir = "../../testdata/csv"

@@ -11,6 +11,7 @@ import (
 
 	"pairline/app/demo"
 	"pairline/app/numfmt"
+	"pairline/app/reftest"
 	"pairline/app/wording"
 	"pairline/fitcore"
 )
@@ -19,7 +20,7 @@ import (
 // (the units are invented for the test: the dataset has none).
 func norrisCSV(t *testing.T) string {
 	t.Helper()
-	b, err := os.ReadFile(refPath(t, "strd", "Norris.txt"))
+	b, err := os.ReadFile(reftest.Path(t, "strd", "Norris.txt"))
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -6,10 +6,10 @@ import (
 	"testing"
 	"time"
 
+	"pairline/app/reftest"
 	"pairline/app/session"
 	"pairline/app/wording"
 	"pairline/fitcore"
-	"pairline/app/reftest"
 )
 
 // handbookSession reads a NIST e-Handbook Dataplot file (free text, a line
