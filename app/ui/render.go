@@ -66,6 +66,7 @@ func (c *Shell) renderNotes() []app.UI {
 		})),
 		c.renderTransferStrips(),
 		app.Div().Class("pl-slot").Body(app.If(c.listOpen, c.renderSessions)),
+		app.Div().Class("pl-slot").Body(app.If(c.instOpen, c.renderInstruments)),
 	}
 }
 
@@ -97,7 +98,16 @@ func (c *Shell) renderBarActions() []app.UI {
 	return []app.UI{
 		app.Button().Class("pl-btn pl-btn-quiet").Text(listLabel(c.listOpen, len(c.sessions))).
 			DataSet("testid", "sessions-open").Attr("aria-expanded", strconv.FormatBool(c.listOpen)).
-			OnClick(func(ctx app.Context, e app.Event) { c.listOpen = !c.listOpen; c.confirmDel = "" }),
+			OnClick(func(ctx app.Context, e app.Event) {
+				c.listOpen = !c.listOpen
+				c.confirmDel = ""
+				if c.listOpen {
+					c.instOpen = false
+					c.refreshInstruments() // the due marks
+				}
+			}),
+		app.Button().Class("pl-btn pl-btn-quiet").Text("Instruments").DataSet("testid", "instruments-open").
+			Attr("aria-expanded", strconv.FormatBool(c.instOpen)).OnClick(c.toggleInstruments),
 		app.Button().Class("pl-btn").Text("New session").DataSet("testid", "session-new").OnClick(c.onNew),
 	}
 }

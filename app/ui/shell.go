@@ -71,6 +71,8 @@ type Shell struct {
 	fieldUI // plots, report, undo, theme and demo (theme.go)
 
 	recordUI // the record cards: identity, standards, unknowns, sign-off (recordui.go)
+
+	instState // the instrument view and the due marks (instruments_shell.go)
 }
 
 type saveJob struct {
