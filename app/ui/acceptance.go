@@ -41,12 +41,7 @@ func (c *Shell) anStoreTemplates(ctx app.Context) {
 }
 
 // anCriteria returns a copy of the session's criteria (zero when none).
-func (c *Shell) anCriteria() fitcore.Criteria {
-	if a := c.sess.Settings.Acceptance; a != nil {
-		return *a
-	}
-	return fitcore.Criteria{}
-}
+func (c *Shell) anCriteria() fitcore.Criteria { return c.criteria() }
 
 func anCriteriaEmpty(k fitcore.Criteria) bool {
 	return k.MinRSquared == nil && k.SlopeLow == nil && k.SlopeHigh == nil &&
@@ -55,13 +50,14 @@ func anCriteriaEmpty(k fitcore.Criteria) bool {
 
 // anSetCriteria stores changed criteria in the session's settings.
 func (c *Shell) anSetCriteria(ctx app.Context, k fitcore.Criteria) {
-	s := c.anSettings()
-	if anCriteriaEmpty(k) {
-		s.Acceptance = nil
-	} else {
-		s.Acceptance = &k
+	if c.sess == nil || c.refuseLocked() {
+		return
 	}
-	c.anSetSettings(ctx, s)
+	if err := c.setCriteria(k); err != nil {
+		c.notice = "This setting could not be used: " + err.Error()
+		return
+	}
+	c.afterChange(ctx)
 }
 
 // renderAcceptance draws the acceptance criteria of the session, the

@@ -36,21 +36,23 @@ func anWithRemedy(st session.Settings, ad *fitcore.Advice) session.Settings {
 	return s
 }
 
-// anRevert stores the settings without the applied remedy: those before
-// the last apply when known (and they had none), otherwise the same
-// settings with no transform and no weights.
-func (c *Shell) anRevert(ctx app.Context) {
-	s := c.anSettings()
-	if c.anUndo != nil && c.anUndoFor == c.sess.ID && !anApplied(*c.anUndo) {
-		s = *c.anUndo
-	} else {
-		s.Transform, s.BoxCoxLambda, s.Weights = fitcore.TransformNone, nil, fitcore.WeightsNone
-		if s.Model == fitcore.ModelWeighted {
-			s.Model = fitcore.ModelOLS
-		}
+// anAdvice applies the advice's remedy (apply) or goes back to the plain
+// line (controller.applyAdvice, revertAdvice).
+func (c *Shell) anAdvice(ctx app.Context, apply bool) {
+	if c.sess == nil || c.refuseLocked() {
+		return
 	}
-	c.anUndo = nil
-	c.anSetSettings(ctx, s)
+	do := c.revertAdvice
+	if apply {
+		do = c.applyAdvice
+	}
+	if err := do(); err != nil {
+		if err != errNoAdvice {
+			c.notice = "This setting could not be used: " + err.Error()
+		}
+		return
+	}
+	c.afterChange(ctx)
 }
 
 // renderAdvice draws the transform or weighting advice: the remedy and its
@@ -103,12 +105,7 @@ func (c *Shell) renderAdvice() app.UI {
 			app.Button().Class("pl-btn pl-btn-wide").DataSet("testid", "advice-apply").DataSet("an", "advice-apply").
 				Text("Use this: "+anRemedyName(remedy)).
 				OnClick(c.anOn("advice-apply", func(ctx app.Context, e app.Event) {
-					if c.view.report == nil || c.view.report.Advice == nil {
-						return
-					}
-					undo := c.anSettings()
-					c.anUndo, c.anUndoFor = &undo, c.sess.ID
-					c.anSetSettings(ctx, anWithRemedy(undo, c.view.report.Advice))
+					c.anAdvice(ctx, true)
 				})),
 		)
 	}
@@ -119,7 +116,7 @@ func (c *Shell) renderAdvice() app.UI {
 
 func (c *Shell) anRevertButton() app.UI {
 	return app.Button().Class("pl-btn pl-btn-quiet pl-btn-wide").DataSet("testid", "advice-revert").DataSet("an", "advice-revert").
-		Text("Undo: back to the plain line").OnClick(c.anOn("advice-revert", func(ctx app.Context, e app.Event) { c.anRevert(ctx) }))
+		Text("Undo: back to the plain line").OnClick(c.anOn("advice-revert", func(ctx app.Context, e app.Event) { c.anAdvice(ctx, false) }))
 }
 
 // anModelText describes the fit in use.

@@ -4,7 +4,6 @@ import (
 	"math"
 	"strconv"
 	"strings"
-	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
@@ -30,11 +29,6 @@ type analysisUI struct {
 	anPredX               []float64
 	anLineX               []float64 // x values of the original-units table (transformed fits)
 	anReqSeq              int       // counts query changes, to answer only the latest in big sessions
-
-	// anUndo holds the settings before the advice was applied, for revert,
-	// and anUndoFor the session they belong to.
-	anUndo    *session.Settings
-	anUndoFor string
 
 	// Acceptance templates, kept in the browser's localStorage.
 	// anHandlers holds this render's event handlers by the element's
@@ -139,22 +133,14 @@ func (c *Shell) anQueries(o *fitcore.Options, x []float64) {
 // anSetSettings stores changed settings in the session (and its history)
 // and re-analyses.
 func (c *Shell) anSetSettings(ctx app.Context, st session.Settings) {
-	if c.sess == nil {
+	if c.sess == nil || c.refuseLocked() {
 		return
 	}
-	if c.refuseLocked() {
-		return
-	}
-	st = tidySettings(st)
-	if _, err := st.Options().Normalize(); err != nil {
+	if err := c.setSettings(st); err != nil {
 		c.notice = "This setting could not be used: " + err.Error()
 		return
 	}
-	if err := c.sess.SetSettings(st, time.Now()); err != nil {
-		c.notice = "This setting could not be used: " + err.Error()
-		return
-	}
-	c.edited(ctx)
+	c.afterChange(ctx)
 }
 
 // tidySettings drops what the other settings make meaningless, so that the
