@@ -534,8 +534,7 @@ type anScale struct {
 	cov         string // unit of cov(intercept, slope)
 }
 
-func (c *Shell) anScaleOf(rep *fitcore.Report) anScale {
-	xu, yu := c.sess.XUnit, c.sess.YUnit
+func anScaleOf(rep *fitcore.Report, xu, yu string) anScale {
 	s := anScale{yName: "y"}
 	yq, xq := "", ""
 	switch rep.Transform {
@@ -578,67 +577,6 @@ func (c *Shell) anScaleOf(rep *fitcore.Report) anScale {
 	return s
 }
 
-// renderMoreNumbers is the "More numbers" disclosure of the Line card:
-// every statistic of the fit, each with data-value for tests.
-func (c *Shell) renderMoreNumbers() app.UI {
-	rep := c.view.report
-	if rep == nil {
-		return nil
-	}
-	open := c.anMoreOpen
-	label := "More numbers ▾"
-	if open {
-		label = "Fewer numbers ▴"
-	}
-	return app.Div().Class("an-more").Body(
-		app.Button().Class("pl-btn pl-btn-quiet an-toggle").Text(label).DataSet("testid", "more-numbers").DataSet("an", "more-numbers").
-			Attr("aria-expanded", strconv.FormatBool(open)).
-			OnClick(c.anOn("more-numbers", func(ctx app.Context, e app.Event) { c.anMoreOpen = !c.anMoreOpen })),
-		app.If(open, c.anNumbers),
-	)
-}
-
-func (c *Shell) anNumbers() app.UI {
-	rep := c.view.report
-	sig := numfmt.Precision(c.view.digits)
-	sc := c.anScaleOf(rep)
-	lvl := anPercent(rep.Level)
-	origin := rep.Model == fitcore.ModelOrigin
-	rows := []app.UI{
-		anCoefTable("slope", wording.Slope, rep.Slope, sc.slope, lvl, sig),
-	}
-	if !origin {
-		rows = append(rows, anCoefTable("intercept", wording.Intercept, rep.Intercept, sc.y, lvl, sig))
-	}
-	fit := []app.UI{
-		anRow("result-residual-se-full", wording.ResidualSD, rep.ResidualSE, numfmt.Sig(rep.ResidualSE, sig), sc.y),
-		anRow("result-df", wording.DegreesOfFreedom, rep.DF, anDF(rep.DF), ""),
-		anRow("result-r-full", wording.CorrelationR, rep.R, numfmt.Decimals(rep.R, 6), ""),
-		anRow("result-r-squared-full", wording.RSquared, rep.RSquared, numfmt.Decimals(rep.RSquared, 6), ""),
-		anRow("result-adj-r-squared", wording.AdjRSquared, rep.AdjRSquared, numfmt.Decimals(rep.AdjRSquared, 6), ""),
-		anRow("result-f", wording.FLine, rep.F, numfmt.Sig(rep.F, 4), ""),
-		anRow("result-f-p", wording.PofF, rep.FP, anP(rep.FP), ""),
-	}
-	if !origin {
-		fit = append(fit, anRow("result-cov", wording.Covariance, rep.CovSlopeIntercept, numfmt.Sig(rep.CovSlopeIntercept, 4), sc.cov))
-	}
-	fit = append(fit,
-		anRow("result-mean-x", wording.MeanX, rep.MeanX, numfmt.Sig(rep.MeanX, sig), ""),
-		anRow("result-mean-y", wording.MeanY, rep.MeanY, numfmt.Sig(rep.MeanY, sig), ""),
-	)
-	return app.Div().Class("an-numbers").DataSet("testid", "more-numbers-body").Body(
-		app.If(sc.transformed, func() app.UI {
-			return app.P().Class("an-hint").Text("These numbers are on the fitted scale (" + sc.yName + "). The table “Line in original units” below the advice gives the line back in " + unitOr(c.sess.YUnit, "y") + ".")
-		}),
-		app.Div().Class("an-coefs").Body(rows...),
-		app.Table().Class("an-table an-kv").Body(
-			app.Caption().Text(wording.FitAsAWhole),
-			app.TBody().Body(fit...),
-		),
-		c.anAnova(rep, sig, sc),
-	)
-}
-
 // anCoefTable is one coefficient: the estimate, its interval (where a
 // technician looks first), the standard error, the test against the
 // reference value and, only when that reference is not 0, the test against
@@ -676,7 +614,7 @@ func anCoefTable(id, name string, k fitcore.Coefficient, unit, lvl string, sig i
 	)
 }
 
-func (c *Shell) anAnova(rep *fitcore.Report, sig int, sc anScale) app.UI {
+func anAnova(rep *fitcore.Report, sig int, sc anScale) app.UI {
 	if len(rep.Anova) == 0 {
 		return nil
 	}
