@@ -24,12 +24,23 @@ const (
 	caJump         = "jump"          // show the grid's row Row and put the focus on its x cell
 	caApplyAdvice  = "advice-apply"  // take the advice's remedy into the settings
 	caRevertAdvice = "advice-revert" // back to the plain, unweighted line
+
+	// The criteria card (acceptance.go).
+	caCriterion        = "criterion"          // the criterion Key (a criteriaFields name) typed as Text; "" clears it
+	caResidualUnit     = "residual-unit"      // the largest residual counted in Key "units" of y or "percent" of its span
+	caTplUse           = "tpl-use"            // use the template named Key
+	caTplDelete        = "tpl-delete"         // ask whether to delete the template named Key
+	caTplKeep          = "tpl-keep"           // keep it after all
+	caTplDeleteConfirm = "tpl-delete-confirm" // delete the template named Key
+	caTplName          = "tpl-name"           // the name typed for saving the criteria is Text
+	caTplSave          = "tpl-save"           // save the criteria in use under that name
 )
 
 // CardAction is one thing asked for on an analysis card.
 type CardAction struct {
 	Kind string
 	Key  string
+	Text string // what was typed
 	Row  int
 }
 
@@ -62,6 +73,13 @@ func (c *Shell) applyCard(ctx app.Context, a CardAction) {
 		c.anAdvice(ctx, true)
 	case caRevertAdvice:
 		c.anAdvice(ctx, false)
+	default:
+		c.applyCriteria(ctx, a)
+		// The number fields show the criteria as stored (a refused text
+		// stays for correcting).
+		if ctx.Src() != nil {
+			ctx.Defer(func(app.Context) { c.anResync() })
+		}
 	}
 }
 

@@ -346,7 +346,7 @@ func (c *Shell) renderSettings() app.UI {
 	}
 	return app.Section().Class("pl-card an-settings").Attr("aria-label", "Fit settings").DataSet("testid", "settings").Body(
 		app.H2().Text("How the line is fitted"),
-		c.anChoice("Model", "settings-model", func() []app.UI {
+		anChoice("Model", "settings-model", func() []app.UI {
 			out := make([]app.UI, len(anModels))
 			for i, m := range anModels {
 				out[i] = c.anChip("settings-model-"+string(m.m), m.label, model == m.m, func(ctx app.Context, e app.Event) {
@@ -356,7 +356,7 @@ func (c *Shell) renderSettings() app.UI {
 			return out
 		}()),
 		app.If(model == fitcore.ModelWeighted, func() app.UI {
-			return c.anChoice("Weights", "settings-weights", func() []app.UI {
+			return anChoice("Weights", "settings-weights", func() []app.UI {
 				out := make([]app.UI, len(anWeightSchemes))
 				for i, w := range anWeightSchemes {
 					out[i] = c.anChip("settings-weights-"+string(w.w), w.label, st.Weights == w.w, func(ctx app.Context, e app.Event) {
@@ -376,7 +376,7 @@ func (c *Shell) renderSettings() app.UI {
 					c.anSetSettings(ctx, settingsWithVarianceRatio(c.anSettings(), p))
 				})
 		}),
-		c.anChoice("Scale", "settings-transform", func() []app.UI {
+		anChoice("Scale", "settings-transform", func() []app.UI {
 			out := make([]app.UI, len(anTransforms))
 			for i, t := range anTransforms {
 				out[i] = c.anChip("settings-transform-"+string(t.t), t.label, tr == t.t, func(ctx app.Context, e app.Event) {
@@ -391,7 +391,7 @@ func (c *Shell) renderSettings() app.UI {
 					c.anSetSettings(ctx, settingsWithLambda(c.anSettings(), p))
 				})
 		}),
-		c.anChoice("Confidence level", "settings-level", func() []app.UI {
+		anChoice("Confidence level", "settings-level", func() []app.UI {
 			out := make([]app.UI, 0, len(anLevels)+1)
 			for _, l := range anLevels {
 				out = append(out, c.anChip("settings-level-"+strconv.Itoa(int(l*100+0.5)), anPercent(l), level == l && !c.anOtherOpen, func(ctx app.Context, e app.Event) {
@@ -443,7 +443,7 @@ func (c *Shell) renderSettings() app.UI {
 }
 
 // anChoice is a labelled group of mutually exclusive buttons.
-func (c *Shell) anChoice(label, testid string, chips []app.UI) app.UI {
+func anChoice(label, testid string, chips []app.UI) app.UI {
 	return app.Div().Class("an-choice").Attr("role", "group").Attr("aria-label", label).DataSet("testid", testid).Body(
 		app.Span().Class("an-choice-label").Text(label),
 		app.Div().Class("an-chips").Body(chips...),
@@ -451,14 +451,19 @@ func (c *Shell) anChoice(label, testid string, chips []app.UI) app.UI {
 }
 
 func (c *Shell) anChip(testid, label string, on bool, h app.EventHandler) app.UI {
+	return anChipUI(testid, label, on).DataSet("an", testid).OnClick(c.anOn(testid, h))
+}
+
+// anChipUI is a chip of a choice, on or off; its handler is the caller's.
+func anChipUI(testid, label string, on bool) app.HTMLButton {
 	cls := "an-chip"
 	mark := ""
 	if on {
 		cls += " an-chip-on"
 		mark = "● "
 	}
-	return app.Button().Class(cls).Text(mark+label).DataSet("testid", testid).DataSet("an", testid).
-		Attr("aria-pressed", strconv.FormatBool(on)).OnClick(c.anOn(testid, h))
+	return app.Button().Class(cls).Text(mark+label).DataSet("testid", testid).
+		Attr("aria-pressed", strconv.FormatBool(on))
 }
 
 // anNumberField is a labelled number input applied on change (Enter or
