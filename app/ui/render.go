@@ -114,11 +114,11 @@ func (c *Shell) onField(field string) app.EventHandler {
 		if c.sess == nil || c.refuseLocked() {
 			return
 		}
-		if err := c.sess.SetField(field, ctx.JSSrc().Get("value").String(), time.Now()); err != nil {
+		if err := c.setField(field, ctx.JSSrc().Get("value").String()); err != nil {
 			c.notice = err.Error()
 			return
 		}
-		c.edited(ctx)
+		c.afterChange(ctx)
 	}
 }
 
