@@ -300,12 +300,14 @@ func boolText(b bool) string {
 // templates lists the saved templates (use, delete) and saves the
 // current criteria under a name.
 func (r *criteriaCard) templates() app.UI {
-	// The buttons of an item name their template in data-name, read when
-	// they are pressed.
-	named := func(kind string) app.EventHandler {
-		return func(ctx app.Context, e app.Event) {
-			r.act(CardAction{Kind: kind, Key: ctx.JSSrc().Get("dataset").Get("name").String()})
-		}
+	// The buttons of an item say what they do in data-act and name their
+	// template in data-name, both read when pressed: go-app keeps a
+	// button's first handler when the item changes (a "Use" button becomes
+	// the confirming "Delete"), since every handler comes from this one
+	// function literal.
+	named := func(ctx app.Context, e app.Event) {
+		ds := ctx.JSSrc().Get("dataset")
+		r.act(CardAction{Kind: ds.Get("act").String(), Key: ds.Get("name").String()})
 	}
 	return app.Div().Class("an-templates").DataSet("testid", "acceptance-templates").Body(
 		app.H3().Text("Saved criteria on this device"),
@@ -318,16 +320,16 @@ func (r *criteriaCard) templates() app.UI {
 				return app.Li().Class("an-tpl an-tpl-confirm").DataSet("testid", "template-item").DataSet("name", t.Name).Body(
 					app.Span().Class("an-tpl-name").Text("Delete “"+t.Name+"”?"),
 					app.Button().Class("pl-btn pl-btn-danger").Text("Delete").DataSet("testid", "template-delete-confirm").
-						DataSet("name", t.Name).OnClick(named(caTplDeleteConfirm)),
-					app.Button().Class("pl-btn pl-btn-quiet").Text("Keep").OnClick(named(caTplKeep)),
+						DataSet("name", t.Name).DataSet("act", caTplDeleteConfirm).OnClick(named),
+					app.Button().Class("pl-btn pl-btn-quiet").Text("Keep").DataSet("act", caTplKeep).OnClick(named),
 				)
 			}
 			return app.Li().Class("an-tpl").DataSet("testid", "template-item").DataSet("name", t.Name).Body(
 				app.Span().Class("an-tpl-name").Text(t.Name),
 				app.Button().Class("pl-btn").Text("Use").DataSet("testid", "template-use").DataSet("name", t.Name).
-					OnClick(named(caTplUse)),
+					DataSet("act", caTplUse).OnClick(named),
 				app.Button().Class("pl-btn pl-btn-quiet").Text("Delete").DataSet("testid", "template-delete").
-					DataSet("name", t.Name).OnClick(named(caTplDelete)),
+					DataSet("name", t.Name).DataSet("act", caTplDelete).OnClick(named),
 			)
 		})),
 		app.Div().Class("an-tpl-save").Body(
