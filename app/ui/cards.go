@@ -25,6 +25,8 @@ const (
 	caApplyAdvice  = "advice-apply"  // take the advice's remedy into the settings
 	caRevertAdvice = "advice-revert" // back to the plain, unweighted line
 
+	caQuery = "query" // the question Key ("inverse", "predict") of "Use the line" typed as Text
+
 	// The criteria card (acceptance.go).
 	caCriterion        = "criterion"          // the criterion Key (a criteriaFields name) typed as Text; "" clears it
 	caResidualUnit     = "residual-unit"      // the largest residual counted in Key "units" of y or "percent" of its span
@@ -73,6 +75,8 @@ func (c *Shell) applyCard(ctx app.Context, a CardAction) {
 		c.anAdvice(ctx, true)
 	case caRevertAdvice:
 		c.anAdvice(ctx, false)
+	case caQuery:
+		c.applyQuery(ctx, a)
 	default:
 		c.applyCriteria(ctx, a)
 		// The number fields show the criteria as stored (a refused text

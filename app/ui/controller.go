@@ -179,6 +179,34 @@ func (k *controller) completeNow() {
 	k.view.plotsLater = true
 }
 
+// requery answers changed questions put to the line (queries: the use
+// card's conversions) without changing the readings or settings: the
+// advice stays as it is, so the one Analyze run leaves it out (SkipAdvice,
+// several times faster) and the report keeps the advice already shown.
+func (k *controller) requery(queries func(o *fitcore.Options, x []float64)) {
+	if k.sess == nil {
+		return
+	}
+	prev := k.view.report
+	if prev == nil || k.view.stale {
+		k.analyse()
+		return
+	}
+	x, y, _, _ := k.pairs.Pairs(k.sess)
+	opt := k.sess.Settings.Options()
+	if queries != nil {
+		queries(&opt, x)
+	}
+	opt.SkipAdvice = true
+	rep, err := fitcore.Analyze(x, y, opt)
+	if err != nil {
+		k.analyse()
+		return
+	}
+	rep.Advice, rep.BoxCox = prev.Advice, prev.BoxCox
+	k.view.report = rep
+}
+
 // changed is called after every change to the open session: it records
 // the step for undo, analyses (from adviceLater readings without the
 // advice, which Shell.edited adds a turn later) and marks the session as
