@@ -75,7 +75,7 @@ var criteriaFields = []struct {
 }
 
 // renderAcceptance hands the criteria card its data. The texts of its
-// number fields are noted for anResync (as anNumberField does).
+// number fields are noted for anResync.
 func (c *Shell) renderAcceptance() app.UI {
 	k := c.anCriteria()
 	if c.anFieldVals == nil {
@@ -220,26 +220,14 @@ func (r *criteriaCard) Render() app.UI {
 	)
 }
 
-// field is a labelled number input sent on change (Enter or leaving the
-// field), as the settings card's anNumberField.
+// field is one criterion's number field (numberField).
 func (r *criteriaCard) field(name, label, hint, value string) app.UI {
 	field := "acceptance_" + name
-	problem := r.FieldErr[field]
-	in := app.Input().Type("text").Class("an-input").Value(value).
-		Attr("inputmode", "decimal").Attr("autocomplete", "off").Attr("placeholder", hint).
-		DataSet("testid", strings.ReplaceAll(field, "_", "-")).DataSet("an", "field:"+field).DataSet("criterion", name).
-		OnChange(func(ctx app.Context, e app.Event) {
-			src := ctx.JSSrc()
-			r.act(CardAction{Kind: caCriterion, Key: src.Get("dataset").Get("criterion").String(), Text: src.Get("value").String()})
-		})
-	if problem != "" {
-		in = in.Attr("aria-invalid", "true")
-	}
-	return app.Label().Class("an-field").Body(
-		app.Span().Class("an-field-label").Text(label),
-		in,
-		app.If(problem != "", func() app.UI { return app.Span().Class("pl-problem").Text(problem) }),
-	)
+	return numberField(field, label, hint, value, r.FieldErr[field], func(ctx app.Context, e app.Event) {
+		src := ctx.JSSrc()
+		name := strings.TrimPrefix(src.Get("dataset").Get("field").String(), "acceptance_")
+		r.act(CardAction{Kind: caCriterion, Key: name, Text: src.Get("value").String()})
+	})
 }
 
 func (r *criteriaCard) chip(testid, label string, on bool, unit string) app.UI {

@@ -25,7 +25,9 @@ const (
 	caApplyAdvice  = "advice-apply"  // take the advice's remedy into the settings
 	caRevertAdvice = "advice-revert" // back to the plain, unweighted line
 
-	caQuery = "query" // the question Key ("inverse", "predict") of "Use the line" typed as Text
+	caQuery        = "query"         // the question Key ("inverse", "predict") of "Use the line" typed as Text
+	caSetting      = "setting"       // a chip of the settings card: Key "model:…", "weights:…", "transform:…", "level:…"
+	caSettingField = "setting-field" // the settings card's number field Key typed as Text
 
 	// The criteria card (acceptance.go).
 	caCriterion        = "criterion"          // the criterion Key (a criteriaFields name) typed as Text; "" clears it
@@ -78,7 +80,11 @@ func (c *Shell) applyCard(ctx app.Context, a CardAction) {
 	case caQuery:
 		c.applyQuery(ctx, a)
 	default:
-		c.applyCriteria(ctx, a)
+		if a.Kind == caSetting || a.Kind == caSettingField {
+			c.applySetting(ctx, a)
+		} else {
+			c.applyCriteria(ctx, a)
+		}
 		// The number fields show the criteria as stored (a refused text
 		// stays for correcting).
 		if ctx.Src() != nil {

@@ -30,13 +30,6 @@ type analysisUI struct {
 	anLineX               []float64 // x values of the original-units table (transformed fits)
 	anReqSeq              int       // counts query changes, to answer only the latest in big sessions
 
-	// Acceptance templates, kept in the browser's localStorage.
-	// anHandlers holds this render's event handlers by the element's
-	// data-an key. go-app keeps an element's first handler when the new
-	// one comes from the same function literal, so handlers that capture
-	// per-element values (a row, a field, a template) are looked up here at
-	// event time instead (see anOn).
-	anHandlers map[string]app.EventHandler
 	// anFieldVals is the text each number field was last rendered with,
 	// and anSeenSess the session the fields were last synced for: go-app
 	// leaves an input's text in place when its value becomes empty, so
@@ -44,30 +37,11 @@ type analysisUI struct {
 	anFieldVals map[string]string
 	anSeenSess  string
 
+	// Acceptance templates, kept in the browser's localStorage.
 	anTemplates    []accTemplate
 	anTplName      string
 	anTplMsg       string
 	anTplConfirmDl string
-}
-
-// anOn registers h under key for this render and returns the dispatcher;
-// the element must carry DataSet("an", key).
-func (c *Shell) anOn(key string, h app.EventHandler) app.EventHandler {
-	if c.anHandlers == nil {
-		c.anHandlers = map[string]app.EventHandler{}
-	}
-	c.anHandlers[key] = h
-	return c.anDispatch
-}
-
-// anDispatch runs the handler registered for the element's data-an key,
-// then brings the number fields in line with the new state.
-func (c *Shell) anDispatch(ctx app.Context, e app.Event) {
-	key := ctx.JSSrc().Get("dataset").Get("an").String()
-	if h := c.anHandlers[key]; h != nil {
-		h(ctx, e)
-	}
-	ctx.Defer(func(ctx app.Context) { c.anResync() })
 }
 
 // anResync writes each number field's rendered text into the page, except
@@ -318,9 +292,9 @@ var anTransforms = []struct {
 
 var anLevels = []float64{0.90, 0.95, 0.99}
 
-// renderSettings draws the fit settings: model, scale, confidence level,
-// reference values and reading uncertainties. Every change is stored in
-// the session through SetSettings.
+// renderSettings hands the settings card its data: the settings as fitcore
+// reads them (weights imply a weighted model) and the text of each number
+// field shown, noted for anResync.
 func (c *Shell) renderSettings() app.UI {
 	c.anSyncOnSwitch()
 	st := c.sess.Settings
@@ -344,14 +318,146 @@ func (c *Shell) renderSettings() app.UI {
 			custom = false
 		}
 	}
+	fields := map[string]string{
+		"settings_slope_ref": anOptText(st.SlopeRef), "settings_intercept_ref": anOptText(st.InterceptRef),
+		"settings_x_uncertainty": anZeroText(st.XUncertainty), "settings_y_uncertainty": anZeroText(st.YUncertainty),
+	}
+	if model == fitcore.ModelDeming {
+		fields["settings_variance_ratio"] = ""
+		if st.VarianceRatio > 0 {
+			fields["settings_variance_ratio"] = numfmt.Full(st.VarianceRatio)
+		}
+	}
+	if tr == fitcore.TransformBoxCox {
+		fields["settings_box_cox_lambda"] = anOptText(st.BoxCoxLambda)
+	}
+	if custom || c.anOtherOpen {
+		fields["settings_level"] = numfmt.Full(anPct(level))
+	}
+	if c.anFieldVals == nil {
+		c.anFieldVals = map[string]string{}
+	}
+	for f, v := range fields {
+		c.anFieldVals[f] = v
+	}
+	return &settingsCard{
+		Model: model, Transform: tr, Weights: st.Weights, Level: level, Custom: custom, OtherOpen: c.anOtherOpen,
+		XUncertain: st.XUncertainty > 0, XUnit: c.sess.XUnit, YUnit: c.sess.YUnit,
+		Fields: fields, FieldErr: c.anFieldErr, OnAction: c.cardAction,
+	}
+}
+
+// applySetting makes a change asked for on the settings card: a chip (Key
+// "model:…", "weights:…", "transform:…", "level:0.95", "level:other") or a
+// number field (Key the field's name, Text as typed; parsed as the
+// readings are), stored through the controller (anSetSettings).
+func (c *Shell) applySetting(ctx app.Context, a CardAction) {
+	st := c.anSettings()
+	if a.Kind == caSetting {
+		kind, v, _ := strings.Cut(a.Key, ":")
+		switch kind {
+		case "model":
+			c.anSetSettings(ctx, settingsWithModel(st, fitcore.Model(v)))
+		case "weights":
+			c.anSetSettings(ctx, settingsWithWeights(st, fitcore.WeightScheme(v)))
+		case "transform":
+			c.anSetSettings(ctx, settingsWithTransform(st, fitcore.Transform(v)))
+		case "level":
+			if v == "other" {
+				c.anOtherOpen = true
+				return
+			}
+			l, err := strconv.ParseFloat(v, 64)
+			if err != nil {
+				return
+			}
+			c.anOtherOpen = false
+			c.anSetSettings(ctx, settingsWithLevel(st, l))
+		}
+		return
+	}
+	p, ok := c.anOptional(a.Key, a.Text)
+	if !ok {
+		return
+	}
+	switch a.Key {
+	case "settings_variance_ratio":
+		c.anSetSettings(ctx, settingsWithVarianceRatio(st, p))
+	case "settings_box_cox_lambda":
+		c.anSetSettings(ctx, settingsWithLambda(st, p))
+	case "settings_level":
+		if p == nil {
+			return
+		}
+		l, msg := levelFromPercent(*p)
+		if msg != "" {
+			c.anFieldErr["settings_level"] = msg
+			return
+		}
+		c.anSetSettings(ctx, settingsWithLevel(st, l))
+	case "settings_slope_ref":
+		c.anSetSettings(ctx, settingsWithSlopeRef(st, p))
+	case "settings_intercept_ref":
+		c.anSetSettings(ctx, settingsWithInterceptRef(st, p))
+	case "settings_x_uncertainty":
+		c.anSetSettings(ctx, settingsWithUncertainty(st, true, p))
+	case "settings_y_uncertainty":
+		c.anSetSettings(ctx, settingsWithUncertainty(st, false, p))
+	}
+}
+
+// settingsCard draws the fit settings: model, scale, confidence level,
+// reference values and reading uncertainties.
+type settingsCard struct {
+	app.Compo
+
+	Model     fitcore.Model
+	Transform fitcore.Transform
+	Weights   fitcore.WeightScheme
+	Level     float64
+	Custom    bool // Level is none of the chips' (anLevels)
+	OtherOpen bool // "Other…" was chosen: the level field is shown
+
+	XUncertain   bool // an x uncertainty is given
+	XUnit, YUnit string
+
+	Fields   map[string]string // the text of each number field shown, by name
+	FieldErr map[string]string // why a typed value was not used, by field
+
+	OnAction func(CardAction)
+}
+
+func (r *settingsCard) act(a CardAction) {
+	if r.OnAction != nil {
+		r.OnAction(a)
+	}
+}
+
+// chip is one choice; its data-setting says what it sets, read when it is
+// pressed (every chip's handler is the same function literal, and go-app
+// keeps an element's first one).
+func (r *settingsCard) chip(testid, label string, on bool, setting string) app.UI {
+	return anChipUI(testid, label, on).DataSet("setting", setting).OnClick(func(ctx app.Context, e app.Event) {
+		r.act(CardAction{Kind: caSetting, Key: ctx.JSSrc().Get("dataset").Get("setting").String()})
+	})
+}
+
+func (r *settingsCard) field(field, label, hint string) app.UI {
+	return numberField(field, label, hint, r.Fields[field], r.FieldErr[field], func(ctx app.Context, e app.Event) {
+		src := ctx.JSSrc()
+		r.act(CardAction{Kind: caSettingField, Key: src.Get("dataset").Get("field").String(), Text: src.Get("value").String()})
+	})
+}
+
+// Render draws the card.
+func (r *settingsCard) Render() app.UI {
+	model, tr, level := r.Model, r.Transform, r.Level
 	return app.Section().Class("pl-card an-settings").Attr("aria-label", "Fit settings").DataSet("testid", "settings").Body(
 		app.H2().Text("How the line is fitted"),
 		anChoice("Model", "settings-model", func() []app.UI {
 			out := make([]app.UI, len(anModels))
 			for i, m := range anModels {
-				out[i] = c.anChip("settings-model-"+string(m.m), m.label, model == m.m, func(ctx app.Context, e app.Event) {
-					c.anSetSettings(ctx, settingsWithModel(c.anSettings(), m.m))
-				})
+				out[i] = r.chip("settings-model-"+string(m.m), m.label, model == m.m, "model:"+string(m.m))
 			}
 			return out
 		}()),
@@ -359,86 +465,63 @@ func (c *Shell) renderSettings() app.UI {
 			return anChoice("Weights", "settings-weights", func() []app.UI {
 				out := make([]app.UI, len(anWeightSchemes))
 				for i, w := range anWeightSchemes {
-					out[i] = c.anChip("settings-weights-"+string(w.w), w.label, st.Weights == w.w, func(ctx app.Context, e app.Event) {
-						c.anSetSettings(ctx, settingsWithWeights(c.anSettings(), w.w))
-					})
+					out[i] = r.chip("settings-weights-"+string(w.w), w.label, r.Weights == w.w, "weights:"+string(w.w))
 				}
 				return out
 			}())
 		}),
 		app.If(model == fitcore.ModelDeming, func() app.UI {
-			vr := ""
-			if st.VarianceRatio > 0 {
-				vr = numfmt.Full(st.VarianceRatio)
-			}
-			return c.anNumberField("settings_variance_ratio", "Variance ratio δ = var(y errors) / var(x errors)", "1 when left empty", vr,
-				func(ctx app.Context, p *float64) {
-					c.anSetSettings(ctx, settingsWithVarianceRatio(c.anSettings(), p))
-				})
+			return r.field("settings_variance_ratio", "Variance ratio δ = var(y errors) / var(x errors)", "1 when left empty")
 		}),
 		anChoice("Scale", "settings-transform", func() []app.UI {
 			out := make([]app.UI, len(anTransforms))
 			for i, t := range anTransforms {
-				out[i] = c.anChip("settings-transform-"+string(t.t), t.label, tr == t.t, func(ctx app.Context, e app.Event) {
-					c.anSetSettings(ctx, settingsWithTransform(c.anSettings(), t.t))
-				})
+				out[i] = r.chip("settings-transform-"+string(t.t), t.label, tr == t.t, "transform:"+string(t.t))
 			}
 			return out
 		}()),
 		app.If(tr == fitcore.TransformBoxCox, func() app.UI {
-			return c.anNumberField("settings_box_cox_lambda", "Power λ", "estimated when left empty", anOptText(st.BoxCoxLambda),
-				func(ctx app.Context, p *float64) {
-					c.anSetSettings(ctx, settingsWithLambda(c.anSettings(), p))
-				})
+			return r.field("settings_box_cox_lambda", "Power λ", "estimated when left empty")
 		}),
 		anChoice("Confidence level", "settings-level", func() []app.UI {
 			out := make([]app.UI, 0, len(anLevels)+1)
 			for _, l := range anLevels {
-				out = append(out, c.anChip("settings-level-"+strconv.Itoa(int(l*100+0.5)), anPercent(l), level == l && !c.anOtherOpen, func(ctx app.Context, e app.Event) {
-					c.anOtherOpen = false
-					c.anSetSettings(ctx, settingsWithLevel(c.anSettings(), l))
-				}))
+				out = append(out, r.chip("settings-level-"+strconv.Itoa(int(l*100+0.5)), anPercent(l), level == l && !r.OtherOpen,
+					"level:"+strconv.FormatFloat(l, 'g', -1, 64)))
 			}
-			out = append(out, c.anChip("settings-level-other", "Other…", custom || c.anOtherOpen, func(ctx app.Context, e app.Event) {
-				c.anOtherOpen = true
-			}))
+			out = append(out, r.chip("settings-level-other", "Other…", r.Custom || r.OtherOpen, "level:other"))
 			return out
 		}()),
-		app.If(custom || c.anOtherOpen, func() app.UI {
-			return c.anNumberField("settings_level", "Confidence level in %", levelRangeText(), numfmt.Full(anPct(level)),
-				func(ctx app.Context, p *float64) {
-					if p == nil {
-						return
-					}
-					l, msg := levelFromPercent(*p)
-					if msg != "" {
-						c.anFieldErr["settings_level"] = msg
-						return
-					}
-					c.anSetSettings(ctx, settingsWithLevel(c.anSettings(), l))
-				})
+		app.If(r.Custom || r.OtherOpen, func() app.UI {
+			return r.field("settings_level", "Confidence level in %", levelRangeText())
 		}),
 		app.Div().Class("an-fields").Body(
-			c.anNumberField("settings_slope_ref", "Test the slope against", "1 when left empty", anOptText(st.SlopeRef),
-				func(ctx app.Context, p *float64) {
-					c.anSetSettings(ctx, settingsWithSlopeRef(c.anSettings(), p))
-				}),
-			c.anNumberField("settings_intercept_ref", "Test the intercept against", "0 when left empty", anOptText(st.InterceptRef),
-				func(ctx app.Context, p *float64) {
-					c.anSetSettings(ctx, settingsWithInterceptRef(c.anSettings(), p))
-				}),
-			c.anNumberField("settings_x_uncertainty", "Standard uncertainty of one x "+anParen(c.sess.XUnit), "empty = x exact", anZeroText(st.XUncertainty),
-				func(ctx app.Context, p *float64) {
-					c.anSetSettings(ctx, settingsWithUncertainty(c.anSettings(), true, p))
-				}),
-			c.anNumberField("settings_y_uncertainty", "Standard uncertainty of one y "+anParen(c.sess.YUnit), "empty = not given", anZeroText(st.YUncertainty),
-				func(ctx app.Context, p *float64) {
-					c.anSetSettings(ctx, settingsWithUncertainty(c.anSettings(), false, p))
-				}),
+			r.field("settings_slope_ref", "Test the slope against", "1 when left empty"),
+			r.field("settings_intercept_ref", "Test the intercept against", "0 when left empty"),
+			r.field("settings_x_uncertainty", "Standard uncertainty of one x "+anParen(r.XUnit), "empty = x exact"),
+			r.field("settings_y_uncertainty", "Standard uncertainty of one y "+anParen(r.YUnit), "empty = not given"),
 		),
-		app.If(st.XUncertainty > 0, func() app.UI {
+		app.If(r.XUncertain, func() app.UI {
 			return app.P().Class("an-hint").Text("With an x uncertainty the checks also test whether x may be treated as exact.")
 		}),
+	)
+}
+
+// numberField is a labelled number input sent on change (Enter or leaving
+// the field) to h, which reads the field's name from data-field; the
+// data-an key lets anResync write the text as stored.
+func numberField(field, label, hint, value, problem string, h app.EventHandler) app.UI {
+	in := app.Input().Type("text").Class("an-input").Value(value).
+		Attr("inputmode", "decimal").Attr("autocomplete", "off").Attr("placeholder", hint).
+		DataSet("testid", strings.ReplaceAll(field, "_", "-")).DataSet("an", "field:"+field).DataSet("field", field).
+		OnChange(h)
+	if problem != "" {
+		in = in.Attr("aria-invalid", "true")
+	}
+	return app.Label().Class("an-field").Body(
+		app.Span().Class("an-field-label").Text(label),
+		in,
+		app.If(problem != "", func() app.UI { return app.Span().Class("pl-problem").Text(problem) }),
 	)
 }
 
@@ -448,10 +531,6 @@ func anChoice(label, testid string, chips []app.UI) app.UI {
 		app.Span().Class("an-choice-label").Text(label),
 		app.Div().Class("an-chips").Body(chips...),
 	)
-}
-
-func (c *Shell) anChip(testid, label string, on bool, h app.EventHandler) app.UI {
-	return anChipUI(testid, label, on).DataSet("an", testid).OnClick(c.anOn(testid, h))
 }
 
 // anChipUI is a chip of a choice, on or off; its handler is the caller's.
@@ -464,34 +543,6 @@ func anChipUI(testid, label string, on bool) app.HTMLButton {
 	}
 	return app.Button().Class(cls).Text(mark+label).DataSet("testid", testid).
 		Attr("aria-pressed", strconv.FormatBool(on))
-}
-
-// anNumberField is a labelled number input applied on change (Enter or
-// leaving the field); empty text passes nil.
-func (c *Shell) anNumberField(field, label, hint, value string, apply func(app.Context, *float64)) app.UI {
-	problem := c.anFieldErr[field]
-	if c.anFieldVals == nil {
-		c.anFieldVals = map[string]string{}
-	}
-	c.anFieldVals[field] = value
-	in := app.Input().Type("text").Class("an-input").Value(value).
-		Attr("inputmode", "decimal").Attr("autocomplete", "off").Attr("placeholder", hint).
-		DataSet("testid", strings.ReplaceAll(field, "_", "-")).DataSet("an", "field:"+field).
-		OnChange(c.anOn("field:"+field, func(ctx app.Context, e app.Event) {
-			p, ok := c.anOptional(field, ctx.JSSrc().Get("value").String())
-			if !ok {
-				return
-			}
-			apply(ctx, p)
-		}))
-	if problem != "" {
-		in = in.Attr("aria-invalid", "true")
-	}
-	return app.Label().Class("an-field").Body(
-		app.Span().Class("an-field-label").Text(label),
-		in,
-		app.If(problem != "", func() app.UI { return app.Span().Class("pl-problem").Text(problem) }),
-	)
 }
 
 func anOptText(p *float64) string {
