@@ -318,21 +318,16 @@ func (c *Shell) renderSettings() app.UI {
 			custom = false
 		}
 	}
-	fields := map[string]string{
-		"settings_slope_ref": anOptText(st.SlopeRef), "settings_intercept_ref": anOptText(st.InterceptRef),
-		"settings_x_uncertainty": anZeroText(st.XUncertainty), "settings_y_uncertainty": anZeroText(st.YUncertainty),
+	shown := map[string]bool{
+		"settings_variance_ratio": model == fitcore.ModelDeming,
+		"settings_box_cox_lambda": tr == fitcore.TransformBoxCox,
+		"settings_level":          custom || c.anOtherOpen,
 	}
-	if model == fitcore.ModelDeming {
-		fields["settings_variance_ratio"] = ""
-		if st.VarianceRatio > 0 {
-			fields["settings_variance_ratio"] = numfmt.Full(st.VarianceRatio)
+	fields := map[string]string{}
+	for _, f := range settingsFields {
+		if show, ok := shown[f.name]; !ok || show {
+			fields[f.name] = f.text(st)
 		}
-	}
-	if tr == fitcore.TransformBoxCox {
-		fields["settings_box_cox_lambda"] = anOptText(st.BoxCoxLambda)
-	}
-	if custom || c.anOtherOpen {
-		fields["settings_level"] = numfmt.Full(anPct(level))
 	}
 	if c.anFieldVals == nil {
 		c.anFieldVals = map[string]string{}
@@ -376,34 +371,96 @@ func (c *Shell) applySetting(ctx app.Context, a CardAction) {
 		}
 		return
 	}
+	f, ok := settingsField(a.Key)
+	if !ok {
+		return
+	}
 	p, ok := c.anOptional(a.Key, a.Text)
 	if !ok {
 		return
 	}
-	switch a.Key {
-	case "settings_variance_ratio":
-		c.anSetSettings(ctx, settingsWithVarianceRatio(st, p))
-	case "settings_box_cox_lambda":
-		c.anSetSettings(ctx, settingsWithLambda(st, p))
-	case "settings_level":
-		if p == nil {
-			return
-		}
-		l, msg := levelFromPercent(*p)
-		if msg != "" {
-			c.anFieldErr["settings_level"] = msg
-			return
-		}
-		c.anSetSettings(ctx, settingsWithLevel(st, l))
-	case "settings_slope_ref":
-		c.anSetSettings(ctx, settingsWithSlopeRef(st, p))
-	case "settings_intercept_ref":
-		c.anSetSettings(ctx, settingsWithInterceptRef(st, p))
-	case "settings_x_uncertainty":
-		c.anSetSettings(ctx, settingsWithUncertainty(st, true, p))
-	case "settings_y_uncertainty":
-		c.anSetSettings(ctx, settingsWithUncertainty(st, false, p))
+	next, msg := f.set(st, p)
+	switch {
+	case msg == errKeep:
+	case msg != "":
+		c.anFieldErr[a.Key] = msg
+	default:
+		c.anSetSettings(ctx, next)
 	}
+}
+
+// errKeep, as the message of a settings field's set, leaves the settings
+// as they are without a word (an emptied level field).
+const errKeep = "\x00"
+
+// settingsFields are the settings card's number fields: the name (its
+// test id with "-" for "_"), label and hint, the text it shows for the
+// settings, and the settings with the value typed (nil: emptied), or why
+// the value is not used. Adding a numeric setting is an entry here, its
+// place in settingsCard.Render and its settingsWith… function.
+var settingsFields = []settingField{
+	{"settings_variance_ratio", "Variance ratio δ = var(y errors) / var(x errors)", "1 when left empty",
+		func(st session.Settings) string { return anZeroText(st.VarianceRatio) },
+		func(st session.Settings, p *float64) (session.Settings, string) {
+			return settingsWithVarianceRatio(st, p), ""
+		}},
+	{"settings_box_cox_lambda", "Power λ", "estimated when left empty",
+		func(st session.Settings) string { return anOptText(st.BoxCoxLambda) },
+		func(st session.Settings, p *float64) (session.Settings, string) { return settingsWithLambda(st, p), "" }},
+	{"settings_level", "Confidence level in %", levelRangeText(),
+		func(st session.Settings) string {
+			if st.Level == 0 {
+				return numfmt.Full(anPct(fitcore.DefaultLevel))
+			}
+			return numfmt.Full(anPct(st.Level))
+		},
+		func(st session.Settings, p *float64) (session.Settings, string) {
+			if p == nil {
+				return st, errKeep
+			}
+			l, msg := levelFromPercent(*p)
+			if msg != "" {
+				return st, msg
+			}
+			return settingsWithLevel(st, l), ""
+		}},
+	{"settings_slope_ref", "Test the slope against", "1 when left empty",
+		func(st session.Settings) string { return anOptText(st.SlopeRef) },
+		func(st session.Settings, p *float64) (session.Settings, string) {
+			return settingsWithSlopeRef(st, p), ""
+		}},
+	{"settings_intercept_ref", "Test the intercept against", "0 when left empty",
+		func(st session.Settings) string { return anOptText(st.InterceptRef) },
+		func(st session.Settings, p *float64) (session.Settings, string) {
+			return settingsWithInterceptRef(st, p), ""
+		}},
+	{"settings_x_uncertainty", "Standard uncertainty of one x", "empty = x exact",
+		func(st session.Settings) string { return anZeroText(st.XUncertainty) },
+		func(st session.Settings, p *float64) (session.Settings, string) {
+			return settingsWithUncertainty(st, true, p), ""
+		}},
+	{"settings_y_uncertainty", "Standard uncertainty of one y", "empty = not given",
+		func(st session.Settings) string { return anZeroText(st.YUncertainty) },
+		func(st session.Settings, p *float64) (session.Settings, string) {
+			return settingsWithUncertainty(st, false, p), ""
+		}},
+}
+
+// settingField is one number field of the settings card (settingsFields).
+type settingField struct {
+	name, label, hint string
+	text              func(session.Settings) string
+	set               func(st session.Settings, p *float64) (session.Settings, string)
+}
+
+// settingsField finds the settings card's number field by name.
+func settingsField(name string) (f settingField, ok bool) {
+	for _, f := range settingsFields {
+		if f.name == name {
+			return f, true
+		}
+	}
+	return f, false
 }
 
 // settingsCard draws the fit settings: model, scale, confidence level,
@@ -442,8 +499,15 @@ func (r *settingsCard) chip(testid, label string, on bool, setting string) app.U
 	})
 }
 
-func (r *settingsCard) field(field, label, hint string) app.UI {
-	return numberField(field, label, hint, r.Fields[field], r.FieldErr[field], func(ctx app.Context, e app.Event) {
+// field is the number field of settingsFields named field; unit, when
+// given, follows its label in brackets.
+func (r *settingsCard) field(field, unit string) app.UI {
+	f, _ := settingsField(field)
+	label := f.label
+	if unit != "" {
+		label += " " + unit
+	}
+	return numberField(field, label, f.hint, r.Fields[field], r.FieldErr[field], func(ctx app.Context, e app.Event) {
 		src := ctx.JSSrc()
 		r.act(CardAction{Kind: caSettingField, Key: src.Get("dataset").Get("field").String(), Text: src.Get("value").String()})
 	})
@@ -471,7 +535,7 @@ func (r *settingsCard) Render() app.UI {
 			}())
 		}),
 		app.If(model == fitcore.ModelDeming, func() app.UI {
-			return r.field("settings_variance_ratio", "Variance ratio δ = var(y errors) / var(x errors)", "1 when left empty")
+			return r.field("settings_variance_ratio", "")
 		}),
 		anChoice("Scale", "settings-transform", func() []app.UI {
 			out := make([]app.UI, len(anTransforms))
@@ -481,7 +545,7 @@ func (r *settingsCard) Render() app.UI {
 			return out
 		}()),
 		app.If(tr == fitcore.TransformBoxCox, func() app.UI {
-			return r.field("settings_box_cox_lambda", "Power λ", "estimated when left empty")
+			return r.field("settings_box_cox_lambda", "")
 		}),
 		anChoice("Confidence level", "settings-level", func() []app.UI {
 			out := make([]app.UI, 0, len(anLevels)+1)
@@ -493,13 +557,13 @@ func (r *settingsCard) Render() app.UI {
 			return out
 		}()),
 		app.If(r.Custom || r.OtherOpen, func() app.UI {
-			return r.field("settings_level", "Confidence level in %", levelRangeText())
+			return r.field("settings_level", "")
 		}),
 		app.Div().Class("an-fields").Body(
-			r.field("settings_slope_ref", "Test the slope against", "1 when left empty"),
-			r.field("settings_intercept_ref", "Test the intercept against", "0 when left empty"),
-			r.field("settings_x_uncertainty", "Standard uncertainty of one x "+anParen(r.XUnit), "empty = x exact"),
-			r.field("settings_y_uncertainty", "Standard uncertainty of one y "+anParen(r.YUnit), "empty = not given"),
+			r.field("settings_slope_ref", ""),
+			r.field("settings_intercept_ref", ""),
+			r.field("settings_x_uncertainty", anParen(r.XUnit)),
+			r.field("settings_y_uncertainty", anParen(r.YUnit)),
 		),
 		app.If(r.XUncertain, func() app.UI {
 			return app.P().Class("an-hint").Text("With an x uncertainty the checks also test whether x may be treated as exact.")
