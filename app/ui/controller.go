@@ -318,23 +318,30 @@ func (k *controller) saveText() string {
 	return ""
 }
 
+// written is the outcome of one write: what was written, the store's
+// error, and the device's list after it.
+type written struct {
+	sum  store.Summary
+	err  error
+	list []store.Summary
+}
+
 // writeNext writes the oldest queued state to st (call it off the UI
 // goroutine: Shell.startSaver loops on it); a refused state is kept whole
-// to be tried again. It returns what was written, the outcome and the
-// device's list after it; ok is false once the queue is closed.
-func writeNext(st store.Store, saves *saveQueue) (sum store.Summary, err error, list []store.Summary, ok bool) {
+// to be tried again. ok is false once the queue is closed.
+func writeNext(st store.Store, saves *saveQueue) (w written, ok bool) {
 	job, ok := saves.next()
 	if !ok {
-		return store.Summary{}, nil, nil, false
+		return written{}, false
 	}
-	err = st.Save(job.sum, job.body)
-	if err != nil {
-		saves.fail(job, err) // kept whole, to be tried again
+	w.sum, w.err = job.sum, st.Save(job.sum, job.body)
+	if w.err != nil {
+		saves.fail(job, w.err) // kept whole, to be tried again
 	} else {
 		saves.giveBack(job.body) // the store keeps its own copy
 	}
-	list, _ = st.List()
-	return job.sum, err, list, true
+	w.list, _ = st.List()
+	return w, true
 }
 
 // saved takes the outcome of one write (writeNext). The save status is the

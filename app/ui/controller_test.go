@@ -49,8 +49,8 @@ func ctlWith(t *testing.T, st store.Store) *controller {
 // goroutine, and hands each outcome back to the controller.
 func writeAll(k *controller) (notices []string) {
 	for k.saves.len() > 0 {
-		sum, err, list, _ := writeNext(k.st, k.saves)
-		if n := k.saved(sum, err, list); n != "" {
+		w, _ := writeNext(k.st, k.saves)
+		if n := k.saved(w.sum, w.err, w.list); n != "" {
 			notices = append(notices, n)
 		}
 	}
@@ -104,11 +104,11 @@ func TestControllerSaveStates(t *testing.T) {
 		}
 	}
 	// One write under way while another change comes: not "saved" yet.
-	sum, err, list, _ := writeNext(st, k.saves)
+	w, _ := writeNext(st, k.saves)
 	if err := k.setCell(1, session.ColumnX, "3"); err != nil {
 		t.Fatal(err)
 	}
-	k.saved(sum, err, list)
+	k.saved(w.sum, w.err, w.list)
 	if k.saveState != SaveSaving {
 		t.Errorf("an older write finished while a newer state waits: %q, want saving", k.saveState)
 	}

@@ -439,11 +439,11 @@ func (c *Shell) startSaver(ctx app.Context) {
 	st, saves := c.st, c.saves
 	ctx.Async(func() {
 		for {
-			sum, err, list, ok := writeNext(st, saves)
+			w, ok := writeNext(st, saves)
 			if !ok {
 				return
 			}
-			ctx.Dispatch(func(ctx app.Context) { c.saveDone(ctx, sum, err, list) })
+			ctx.Dispatch(func(ctx app.Context) { c.saveDone(ctx, w.sum, w.err, w.list) })
 		}
 	})
 }
