@@ -28,7 +28,7 @@ Usage:
   pairline export-csv [--session N|ID] FILE
       Write the readings of a .pairline session file as CSV (the first
       session, or the one chosen by number from 1 or by ID).
-  pairline history [--json|--csv] [--instrument ID] [--interval DAYS] FILE|DIR...
+  pairline history [--json|--csv|--html OUT] [--instrument ID] [--interval DAYS] FILE|DIR...
       Follow each instrument through its calibration records: changes
       against the previous accepted calibration, drift, next due date.
   pairline new [--title T] [--site S] [--instrument D] [--serial N] [--id ID]

@@ -34,7 +34,7 @@ const (
 	historyProgressGap = 200 * time.Millisecond
 )
 
-const historyUsage = `Usage: pairline history [--json|--csv] [--instrument ID] [--interval DAYS]
+const historyUsage = `Usage: pairline history [--json|--csv|--html OUT] [--instrument ID] [--interval DAYS]
        [--slope-limits LOW,HIGH] [--intercept-limits LOW,HIGH] FILE|DIR...
 
 Follow each instrument through its calibration records: every session in the
@@ -44,6 +44,11 @@ description), ordered by the day the readings were taken, compared with the
 previous accepted calibration (equal slopes, then one common line, at
 p < 0.01) and the trend of slope and intercept over time is fitted. Files
 that cannot be read are listed with the reason and skipped.
+
+--html OUT writes one self-contained page (no script, nothing loaded from
+anywhere; "-" = standard output) with, per instrument, its calibrations, the
+comparisons, the drift with charts of slope and intercept against time, and
+what is due. An existing OUT is replaced once the new page is complete.
 
 The comparison and the trend are statistical signals, not a decision: follow
 the instrument maker's procedure and your quality system before taking an
@@ -57,6 +62,7 @@ func History(args []string, stdout, stderr io.Writer) int {
 	fset := newFlags("history", stderr)
 	asJSON := fset.Bool("json", false, "print JSON (documented in app/cli/HISTORY-JSON.md)")
 	asCSV := fset.Bool("csv", false, "print one CSV row per session")
+	htmlOut := fset.String("html", "", "write a self-contained HTML page to this file (\"-\" = standard output)")
 	only := fset.String("instrument", "", "show only the instrument with this ID (or serial, or description)")
 	interval := fset.Int("interval", 0, "calibration interval in days when a record gives none (1 to 36500)")
 	slopeLim := fset.String("slope-limits", "", "LOW,HIGH limits of the slope for the projected day of leaving them (either may be empty)")
@@ -71,8 +77,8 @@ func History(args []string, stdout, stderr io.Writer) int {
 		}
 		return ExitUsage
 	}
-	if *asJSON && *asCSV {
-		fail(stderr, "history", "choose one of --json and --csv")
+	if n := btoi(*asJSON) + btoi(*asCSV) + btoi(*htmlOut != ""); n > 1 {
+		fail(stderr, "history", "choose one of --json, --csv and --html")
 		return ExitUsage
 	}
 	if *interval < 0 || *interval > MaxIntervalDays {
@@ -116,6 +122,20 @@ func History(args []string, stdout, stderr io.Writer) int {
 		return ExitUsage
 	}
 	switch {
+	case *htmlOut != "":
+		err = writeHistoryHTML(*htmlOut, stdout, htmlPage{Now: opt.Now, Files: len(files), Skipped: skipped, Opt: opt,
+			Filter: *only, Instances: ins})
+		if err != nil {
+			fail(stderr, "history", "could not write the page %s: %v", quoted(*htmlOut), err)
+			return ExitFailure
+		}
+		if *htmlOut != "-" {
+			n := 0
+			for _, in := range ins {
+				n += len(in.Entries)
+			}
+			_, err = fmt.Fprintf(stdout, "Wrote %s: %s, %s, %s skipped.\n", term(*htmlOut), count(len(ins), "instrument"), count(n, "session"), count(len(skipped), "file"))
+		}
 	case *asJSON:
 		err = historyJSON(stdout, ins, skipped)
 	case *asCSV:
@@ -133,6 +153,21 @@ func History(args []string, stdout, stderr io.Writer) int {
 		}
 	}
 	return ExitOK
+}
+
+// count is "1 session", "3 sessions".
+func count(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return strconv.Itoa(n) + " " + noun + "s"
+}
+
+func btoi(b bool) int {
+	if b {
+		return 1
+	}
+	return 0
 }
 
 // limitPair reads "LOW,HIGH" (either part may be empty; "" = no limits).

@@ -51,6 +51,18 @@ type Summary struct {
 	Accepted               bool
 	Reason                 string // why the line is not accepted or not fitted
 	X, Y                   []float64
+
+	// For showing the history (the page of `pairline history --html`):
+	// the session's own intervals of slope and intercept at Level, R², the
+	// quantities and units, the instrument and who signed.
+	SlopeLow, SlopeHigh         float64
+	InterceptLow, InterceptHigh float64
+	Level                       float64
+	RSquared                    float64
+	XName, XUnit, YName, YUnit  string
+	Description, Serial         string
+	Operator                    string
+	PerformedBy, ReviewedBy     string // the seal's signatures; "" = not signed
 }
 
 // Summarize fits one session with its own settings and keeps its summary.
@@ -71,6 +83,11 @@ func Summarize(s *session.Session) (Summary, error) {
 		ID: s.ID, Key: session.InstrumentKey(s.Instrument), Title: s.Title, Site: s.Site,
 		Revision: s.Revision, Modified: s.Modified, Taken: s.ReadingsDay(),
 		IntervalDays: s.Instrument.IntervalDays, Digest: d,
+		XName: s.XName, XUnit: s.XUnit, YName: s.YName, YUnit: s.YUnit,
+		Description: s.Instrument.Description, Serial: s.Instrument.Serial, Operator: s.Operator,
+	}
+	if s.Seal != nil {
+		sum.PerformedBy, sum.ReviewedBy = s.Seal.PerformedBy, s.Seal.ReviewedBy
 	}
 	x, y, _, _ := s.Pairs()
 	rep, err := fitcore.Analyze(x, y, s.Settings.Options())
@@ -82,6 +99,9 @@ func Summarize(s *session.Session) (Summary, error) {
 	sum.Slope, sum.SlopeSE = rep.Slope.Estimate, rep.Slope.SE
 	sum.Intercept, sum.InterceptSE = rep.Intercept.Estimate, rep.Intercept.SE
 	sum.X, sum.Y = x, y
+	sum.SlopeLow, sum.SlopeHigh = rep.Slope.CILow, rep.Slope.CIHigh
+	sum.InterceptLow, sum.InterceptHigh = rep.Intercept.CILow, rep.Intercept.CIHigh
+	sum.Level, sum.RSquared = rep.Level, rep.RSquared
 	switch {
 	case rep.Acceptance != nil:
 		sum.Accepted = rep.Acceptance.Pass

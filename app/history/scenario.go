@@ -18,6 +18,9 @@ type ScenarioInstrument struct {
 	SlopeDriftPerMonth float64
 	StepMonth          int
 	Step               float64
+	// The quantities and units of the readings (x: the standards, y: the
+	// instrument's response).
+	XName, XUnit, YName, YUnit string
 }
 
 // ScenarioInstruments are the three instruments of the invented Larkwater
@@ -25,9 +28,12 @@ type ScenarioInstrument struct {
 // chlorine analyser whose slope drifts, and a conductivity probe whose
 // line moves after a cleaning in month 7.
 var ScenarioInstruments = []ScenarioInstrument{
-	{ID: "LVWB-TB-01", Description: "turbidity meter, Harrow Mill works (invented)"},
-	{ID: "LVWB-CL-02", Description: "chlorine analyser, Fenwick reservoir (invented)", SlopeDriftPerMonth: -0.004},
-	{ID: "LVWB-EC-03", Description: "conductivity probe, Stonebeck intake (invented)", StepMonth: 7, Step: 0.8},
+	{ID: "LVWB-TB-01", Description: "turbidity meter, Harrow Mill works (invented)",
+		XName: "turbidity standard", XUnit: "NTU", YName: "meter signal", YUnit: "mV"},
+	{ID: "LVWB-CL-02", Description: "chlorine analyser, Fenwick reservoir (invented)", SlopeDriftPerMonth: -0.004,
+		XName: "free chlorine standard", XUnit: "µg/L", YName: "analyser signal", YUnit: "mV"},
+	{ID: "LVWB-EC-03", Description: "conductivity probe, Stonebeck intake (invented)", StepMonth: 7, Step: 0.8,
+		XName: "conductivity standard", XUnit: "µS/cm", YName: "probe signal", YUnit: "mV"},
 }
 
 // Scenario generates monthly calibration sessions over a year for the
@@ -59,6 +65,10 @@ func Scenario(seed uint64, start time.Time, copies int) ([]*session.Session, err
 					{session.FieldInstrumentID, id},
 					{session.FieldIntervalDays, "35"},
 					{session.FieldOperator, "A. Technician (invented)"},
+					{session.FieldXName, in.XName},
+					{session.FieldXUnit, in.XUnit},
+					{session.FieldYName, in.YName},
+					{session.FieldYUnit, in.YUnit},
 				} {
 					if err := s.SetField(f[0], f[1], day); err != nil {
 						return nil, err
