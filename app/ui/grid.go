@@ -139,7 +139,7 @@ func (c *Shell) row(i int) app.UI {
 		Reason:   reason,
 		Note:     r.Note,
 		Locked:   c.locked(),
-		OnAction: c.rowAction,
+		onAction: c.rowAction,
 	}
 }
 
@@ -241,13 +241,17 @@ type readingRow struct {
 	Note               string
 	Locked             bool // the record is sealed: nothing can be typed
 
-	OnAction func(RowAction)
+	// onAction takes what is done in the row. Unexported: go-app compares
+	// a component's exported fields to decide whether to redraw it, and a
+	// func is never equal, so an exported one would redraw every row on
+	// every edit; it keeps the one given when the row was first drawn.
+	onAction func(RowAction)
 }
 
 func (r *readingRow) act(a RowAction) {
-	if r.OnAction != nil && !r.Locked {
+	if r.onAction != nil && !r.Locked {
 		a.Session, a.Row = r.Session, r.Row
-		r.OnAction(a)
+		r.onAction(a)
 	}
 }
 
