@@ -87,7 +87,7 @@ func (c *Shell) renderBar() app.UI {
 		app.Span().Class("pl-save").DataSet("testid", "save-status").DataSet("state", c.saveState.String()).
 			Attr("role", "status").Text(c.saveText()),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Try again").DataSet("testid", "save-retry").
-			Hidden(!c.retryable()).OnClick(c.retrySave),
+			Hidden(!c.retryable()).OnClick(func(ctx app.Context, e app.Event) { c.retrySave() }),
 		app.Div().Class("pl-bar-acts").Body(c.renderBarActions()...),
 	)
 }
@@ -124,11 +124,11 @@ func (c *Shell) onField(field string) app.EventHandler {
 		if c.sess == nil || c.refuseLocked() {
 			return
 		}
-		if err := c.sess.SetField(field, ctx.JSSrc().Get("value").String(), time.Now()); err != nil {
+		if err := c.setField(field, ctx.JSSrc().Get("value").String()); err != nil {
 			c.notice = err.Error()
 			return
 		}
-		c.edited(ctx)
+		c.afterChange(ctx)
 	}
 }
 
@@ -140,7 +140,7 @@ func (c *Shell) onNew(ctx app.Context, e app.Event) {
 	}
 	c.show(s)
 	c.listOpen = false
-	c.save(ctx)
+	c.save()
 	st := c.st
 	ctx.Async(func() {
 		if st != nil {

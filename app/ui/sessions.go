@@ -114,11 +114,11 @@ func (c *Shell) rename(ctx app.Context, id, title string) {
 		if c.refuseLocked() {
 			return
 		}
-		if err := c.sess.SetField("title", title, time.Now()); err != nil {
+		if err := c.setField("title", title); err != nil {
 			c.notice = err.Error()
 			return
 		}
-		c.edited(ctx)
+		c.afterChange(ctx)
 		return
 	}
 	st := c.st
