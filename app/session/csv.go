@@ -412,11 +412,50 @@ func newCSVScanner(text string, delim rune) *csvScanner {
 
 // next returns the fields of the next row and the line it starts on;
 // fields is nil at the end of the text. The fields are valid until the
-// next call.
+// next call. A row is read in three steps: the empty lines before it are
+// passed over (skipEmptyLines), then each field is read (quotedField or
+// plainField, by its first byte) until a line end or the end of the text
+// closes the row (endRow).
 func (s *csvScanner) next() (fields []string, line int, err *CSVError) {
-	t, d := s.text, s.delim
-	// Empty lines are blank rows; they are passed over here at a few
-	// nanoseconds each and counted in s.empty.
+	s.skipEmptyLines()
+	if s.pos >= len(s.text) {
+		return nil, 0, nil
+	}
+	line = s.line
+	s.fields = s.fields[:0]
+	s.truncated = false
+	for {
+		if len(s.fields) == MaxCSVFields {
+			return nil, line, &CSVError{Line: s.line, Column: columnAt(s.text, s.pos),
+				Err: fmt.Errorf("%w (at most %d cells in a row)", ErrCSVManyFields, MaxCSVFields)}
+		}
+		var f string
+		var ferr *CSVError
+		if s.pos < len(s.text) && s.text[s.pos] == '"' {
+			f, ferr = s.quotedField()
+		} else {
+			f, ferr = s.plainField()
+		}
+		if ferr != nil {
+			return nil, line, ferr
+		}
+		s.fields = append(s.fields, f)
+		if len(s.fields) == s.keep && s.pos < len(s.text) && s.atDelim(s.pos) {
+			s.skipRest()
+		}
+		if s.endRow() {
+			return s.fields, line, nil
+		}
+		s.pos += len(s.delim)
+	}
+}
+
+// skipEmptyLines passes over the empty lines at s.pos. They are blank rows;
+// passing over them here costs a few nanoseconds each, where a row of one
+// empty field would cost a call of next and a blank-row test. They are
+// counted in s.empty (and in s.line).
+func (s *csvScanner) skipEmptyLines() {
+	t := s.text
 	for s.pos < len(t) && (t[s.pos] == '\n' || t[s.pos] == '\r') {
 		if t[s.pos] == '\r' && s.pos+1 < len(t) && t[s.pos+1] == '\n' {
 			s.pos++
@@ -425,107 +464,123 @@ func (s *csvScanner) next() (fields []string, line int, err *CSVError) {
 		s.line++
 		s.empty++
 	}
-	if s.pos >= len(t) {
-		return nil, 0, nil
+}
+
+// quotedField reads the quoted field that starts at s.pos and leaves s.pos
+// just past its closing quote, where the delimiter, a line end or the end
+// of the text must follow. The value is a part of the text unless it holds
+// doubled quotes: then it is a new string without them, or (raw) the text
+// as it stands, quotes and all. Errors name the line the value starts on,
+// since a quoted value may span lines.
+func (s *csvScanner) quotedField() (string, *CSVError) {
+	t, start, startLine := s.text, s.pos, s.line
+	i, seg, doubled, unq := s.closingQuote()
+	if i < 0 {
+		return "", &CSVError{Line: startLine,
+			Err: fmt.Errorf("%w (the quoted value that starts on this line is never closed)", ErrCSVQuote)}
 	}
-	line = s.line
-	s.fields = s.fields[:0]
-	s.truncated = false
+	if i-start > MaxCSVFieldLen {
+		return "", &CSVError{Line: startLine, Column: columnAt(t, start),
+			Err: fmt.Errorf("%w (at most %d bytes in a cell)", ErrCSVLongField, MaxCSVFieldLen)}
+	}
+	var f string
+	switch {
+	case doubled && s.raw:
+		f = t[start : i+1]
+	case doubled:
+		f = string(append(unq, t[seg:i]...))
+	default:
+		f = t[start+1 : i]
+	}
+	s.pos = i + 1
+	if s.pos < len(t) && t[s.pos] != '\n' && t[s.pos] != '\r' && !s.atDelim(s.pos) {
+		return "", &CSVError{Line: s.line, Column: columnAt(t, s.pos),
+			Err: fmt.Errorf("%w (extra text after a closing quote)", ErrCSVQuote)}
+	}
+	return f, nil
+}
+
+// closingQuote finds the quote that closes the quoted value at s.pos,
+// counting the line ends inside it: its index, or −1 when the value is
+// never closed; whether the value held doubled quotes, and then (unless
+// raw) the value without them up to seg, where its last part starts. It
+// stops at the first quote past MaxCSVFieldLen bytes, so a long value
+// costs no more than the limit allows.
+func (s *csvScanner) closingQuote() (end, seg int, doubled bool, unq []byte) {
+	t, start := s.text, s.pos
+	i := start + 1
+	seg = i
 	for {
-		start := s.pos
-		if len(s.fields) == MaxCSVFields {
-			return nil, line, &CSVError{Line: s.line, Column: columnAt(t, start),
-				Err: fmt.Errorf("%w (at most %d cells in a row)", ErrCSVManyFields, MaxCSVFields)}
+		j := strings.IndexByte(t[i:], '"')
+		if j < 0 {
+			return -1, seg, doubled, nil
 		}
-		var f string
-		if start < len(t) && t[start] == '"' {
-			startLine := s.line
-			var unq []byte // the field without its doubled quotes, when it has any
-			doubled := false
-			i, seg := start+1, start+1
-			for {
-				j := strings.IndexByte(t[i:], '"')
-				if j < 0 {
-					return nil, line, &CSVError{Line: startLine,
-						Err: fmt.Errorf("%w (the quoted value that starts on this line is never closed)", ErrCSVQuote)}
-				}
-				s.countLines(t[i : i+j])
-				i += j
-				if i-start > MaxCSVFieldLen {
-					return nil, line, &CSVError{Line: startLine, Column: columnAt(t, start),
-						Err: fmt.Errorf("%w (at most %d bytes in a cell)", ErrCSVLongField, MaxCSVFieldLen)}
-				}
-				if i+1 < len(t) && t[i+1] == '"' {
-					doubled = true
-					if !s.raw {
-						unq = append(unq, t[seg:i+1]...)
-					}
-					i += 2
-					seg = i
-					continue
-				}
-				break
-			}
-			switch {
-			case doubled && s.raw:
-				f = t[start : i+1]
-			case doubled:
-				f = string(append(unq, t[seg:i]...))
-			default:
-				f = t[seg:i]
-			}
-			s.pos = i + 1
-			if s.pos < len(t) && t[s.pos] != '\n' && t[s.pos] != '\r' && !s.atDelim(s.pos) {
-				return nil, line, &CSVError{Line: s.line, Column: columnAt(t, s.pos),
-					Err: fmt.Errorf("%w (extra text after a closing quote)", ErrCSVQuote)}
-			}
-		} else {
-			// The field ends at a line end or the delimiter; a quote inside
-			// it is an error. The scan stops one byte past the longest
-			// field allowed.
-			stop := min(len(t), start+MaxCSVFieldLen+1)
-			i := start
-			for i < stop && !s.special[t[i]] {
-				i++
-			}
-			for i < stop && t[i] != '\n' && t[i] != '\r' && !s.atDelim(i) {
-				if t[i] == '"' {
-					return nil, line, &CSVError{Line: s.line, Column: columnAt(t, i),
-						Err: fmt.Errorf("%w (a quote mark inside a value that does not start with one)", ErrCSVQuote)}
-				}
-				i++ // a byte that starts like a delimiter of several bytes
-				for i < stop && !s.special[t[i]] {
-					i++
-				}
-			}
-			if i-start > MaxCSVFieldLen {
-				return nil, line, &CSVError{Line: s.line, Column: columnAt(t, start),
-					Err: fmt.Errorf("%w (at most %d bytes in a cell)", ErrCSVLongField, MaxCSVFieldLen)}
-			}
-			f = t[start:i]
-			s.pos = i
+		s.countLines(t[i : i+j])
+		i += j
+		if i-start > MaxCSVFieldLen || i+1 >= len(t) || t[i+1] != '"' {
+			break
 		}
-		s.fields = append(s.fields, f)
-		if len(s.fields) == s.keep && s.pos < len(t) && s.atDelim(s.pos) {
-			s.skipRest()
+		doubled = true
+		if !s.raw {
+			unq = append(unq, t[seg:i+1]...)
 		}
-		switch {
-		case s.pos >= len(t):
-			return s.fields, line, nil
-		case t[s.pos] == '\n':
-			s.pos++
-			s.line++
-			return s.fields, line, nil
-		case t[s.pos] == '\r':
-			s.pos++
-			if s.pos < len(t) && t[s.pos] == '\n' {
-				s.pos++
-			}
-			s.line++
-			return s.fields, line, nil
-		}
-		s.pos += len(d) // the delimiter
+		i += 2
+		seg = i
 	}
+	return i, seg, doubled, unq
+}
+
+// plainField reads the unquoted field at s.pos: it ends at a line end or
+// the delimiter, and a quote inside it is an error. The scan runs over the
+// bytes that cannot end it (s.special) in a tight loop and stops one byte
+// past the longest field allowed, so a long field costs no more than the
+// limit.
+func (s *csvScanner) plainField() (string, *CSVError) {
+	t, start := s.text, s.pos
+	stop := min(len(t), start+MaxCSVFieldLen+1)
+	i := start
+	for i < stop && !s.special[t[i]] {
+		i++
+	}
+	for i < stop && t[i] != '\n' && t[i] != '\r' && !s.atDelim(i) {
+		if t[i] == '"' {
+			return "", &CSVError{Line: s.line, Column: columnAt(t, i),
+				Err: fmt.Errorf("%w (a quote mark inside a value that does not start with one)", ErrCSVQuote)}
+		}
+		i++ // a byte that starts like a delimiter of several bytes
+		for i < stop && !s.special[t[i]] {
+			i++
+		}
+	}
+	if i-start > MaxCSVFieldLen {
+		return "", &CSVError{Line: s.line, Column: columnAt(t, start),
+			Err: fmt.Errorf("%w (at most %d bytes in a cell)", ErrCSVLongField, MaxCSVFieldLen)}
+	}
+	s.pos = i
+	return t[start:i], nil
+}
+
+// endRow reports whether the row ends at s.pos (the end of the text or a
+// line end: LF, CRLF or a lone CR, which it passes over); otherwise the
+// delimiter stands there and another field follows.
+func (s *csvScanner) endRow() bool {
+	t := s.text
+	switch {
+	case s.pos >= len(t):
+		return true
+	case t[s.pos] == '\n':
+		s.pos++
+		s.line++
+		return true
+	case t[s.pos] == '\r':
+		s.pos++
+		if s.pos < len(t) && t[s.pos] == '\n' {
+			s.pos++
+		}
+		s.line++
+		return true
+	}
+	return false
 }
 
 // skipRest moves to the line end that ends the current row, passing over
