@@ -1349,42 +1349,78 @@ type tableChoice struct {
 // columns, from the first pass's counts (which it changes: the first row
 // counts as data when it is no header, the units row does not). columns,
 // when not nil, chooses x and y by the header's names.
+//
+// Each decision takes the ones before it: which of the first rows are a
+// header and units (headerRows), the counts made to cover the data rows
+// only (settleCounts), whether the file is a Pairline export (exportHeader),
+// which columns hold numbers (numericColumns), and from those the x and y
+// columns (pickColumns).
 func decideTable(opt CSVOptions, tc *tableCounts, columns func(header []string) (int, int, error)) (tableChoice, error) {
 	var ch tableChoice
-	numbers := func(f []string) int {
-		n := 0
-		for _, c := range f {
-			if isNumberCell(c) {
-				n++
-			}
-		}
-		return n
+	ch.hasHeader, ch.unitsRow = headerAndUnits(opt, tc)
+	if err := ch.settleCounts(tc); err != nil {
+		return ch, err
 	}
+	ch.exportHeader(opt)
+	ch.numeric = numericColumns(tc)
+	xc, yc, err := pickColumns(opt, tc.width, ch.header, ch.numeric, columns)
+	if err != nil {
+		return ch, err
+	}
+	ch.xc, ch.yc = xc, yc
+	return ch, nil
+}
+
+// numberCells is the number of cells of f that read as numbers.
+func numberCells(f []string) int {
+	n := 0
+	for _, c := range f {
+		if isNumberCell(c) {
+			n++
+		}
+	}
+	return n
+}
+
+// headerAndUnits decides whether the first row is a header and the second a
+// units row, as opt says or else from the rows: a header has a cell of
+// text and is followed by a row with more numbers (or is the only row, or
+// is followed by units); a units row is text only, with short cells, and
+// has more numbers after it than the first row has. A units row needs a
+// header above it and a row below it.
+func headerAndUnits(opt CSVOptions, tc *tableCounts) (hasHeader, unitsRow bool) {
 	hasText := false
 	for _, c := range tc.first {
 		if !isBlank(c) && !isNumberCell(c) {
 			hasText = true
 		}
 	}
-	// A units row: text only, short cells, and numbers in the row after it.
-	looksUnits := tc.rows >= 3 && isUnitsRow(tc.second) && numbers(tc.third) > numbers(tc.first)
+	looksUnits := tc.rows >= 3 && isUnitsRow(tc.second) && numberCells(tc.third) > numberCells(tc.first)
 	if opt.Header != nil {
-		ch.hasHeader = *opt.Header
+		hasHeader = *opt.Header
 	} else {
-		ch.hasHeader = hasText && (tc.rows == 1 || numbers(tc.second) > numbers(tc.first) || looksUnits)
+		hasHeader = hasText && (tc.rows == 1 || numberCells(tc.second) > numberCells(tc.first) || looksUnits)
 	}
-	if ch.hasHeader {
-		if opt.UnitsRow != nil {
-			ch.unitsRow = *opt.UnitsRow && tc.rows >= 2
-		} else {
-			ch.unitsRow = looksUnits
-		}
+	if !hasHeader {
+		return false, false
 	}
+	if opt.UnitsRow != nil {
+		return true, *opt.UnitsRow && tc.rows >= 2
+	}
+	return true, looksUnits
+}
+
+// settleCounts makes the first pass's column counts cover the data rows
+// only, now that the header and units are known: the first pass counted
+// every row but the first, so the units row is taken away and a first row
+// that is no header added. It takes the header and units rows from tc, and
+// refuses a table that holds nothing besides them.
+func (ch *tableChoice) settleCounts(tc *tableCounts) error {
 	if ch.unitsRow {
 		ch.units = tc.second
 		tc.count(tc.second, -1) // the units row was counted as data
 		if tc.rows == 2 {
-			return ch, &CSVError{Line: tc.firstLine, Err: fmt.Errorf("%w: there are only a header row and a units row", ErrCSVNoData)}
+			return &CSVError{Line: tc.firstLine, Err: fmt.Errorf("%w: there are only a header row and a units row", ErrCSVNoData)}
 		}
 	}
 	if ch.hasHeader {
@@ -1393,8 +1429,16 @@ func decideTable(opt CSVOptions, tc *tableCounts, columns func(header []string) 
 		tc.count(tc.first, 1)
 	}
 	if ch.hasHeader && tc.rows == 1 {
-		return ch, &CSVError{Line: tc.firstLine, Err: fmt.Errorf("%w: there is only a header row", ErrCSVNoData)}
+		return &CSVError{Line: tc.firstLine, Err: fmt.Errorf("%w: there is only a header row", ErrCSVNoData)}
 	}
+	return nil
+}
+
+// exportHeader decides whether the table is a Pairline export (as opt says,
+// or from the header's names) and then restores the header's neutralised
+// text, as the export wrote it to keep a spreadsheet from reading a name as
+// a formula.
+func (ch *tableChoice) exportHeader(opt CSVOptions) {
 	if opt.PairlineExport != nil {
 		ch.export = *opt.PairlineExport
 	} else {
@@ -1405,28 +1449,41 @@ func decideTable(opt CSVOptions, tc *tableCounts, columns func(header []string) 
 			ch.header[i] = unneutralise(h)
 		}
 	}
+}
+
+// numericColumns are the columns where at least half of the filled data
+// cells (and at least one) are numbers, in order.
+func numericColumns(tc *tableCounts) []int {
+	var numeric []int
 	for c := range tc.filled {
 		if tc.nums[c] > 0 && 2*tc.nums[c] >= tc.filled[c] {
-			ch.numeric = append(ch.numeric, c)
+			numeric = append(numeric, c)
 		}
 	}
-	xc, yc := opt.XCol, opt.YCol
+	return numeric
+}
+
+// pickColumns gives the x and y columns: those of opt, or by the header's
+// names when columns is not nil; a column asked for twice is detected
+// instead; one beyond the widest row is refused; a detected column is the
+// first numeric one the other column does not take.
+func pickColumns(opt CSVOptions, width int, header []string, numeric []int, columns func(header []string) (int, int, error)) (xc, yc int, err error) {
+	xc, yc = opt.XCol, opt.YCol
 	if columns != nil {
-		var err error
-		if xc, yc, err = columns(ch.header); err != nil {
-			return ch, err
+		if xc, yc, err = columns(header); err != nil {
+			return xc, yc, err
 		}
 	}
 	if xc == yc {
 		xc, yc = DetectColumn, DetectColumn
 	}
 	for _, c := range []int{xc, yc} {
-		if c >= tc.width {
-			return ch, &CSVError{Err: fmt.Errorf("%w: column %d (the file has %d columns)", ErrCSVNoColumn, c+1, tc.width)}
+		if c >= width {
+			return xc, yc, &CSVError{Err: fmt.Errorf("%w: column %d (the file has %d columns)", ErrCSVNoColumn, c+1, width)}
 		}
 	}
 	pick := func(not int) int {
-		for _, c := range ch.numeric {
+		for _, c := range numeric {
 			if c != not {
 				return c
 			}
@@ -1440,8 +1497,7 @@ func decideTable(opt CSVOptions, tc *tableCounts, columns func(header []string) 
 		yc = pick(xc)
 	}
 	if xc < 0 || yc < 0 {
-		return ch, &CSVError{Err: ErrCSVColumns}
+		return xc, yc, &CSVError{Err: ErrCSVColumns}
 	}
-	ch.xc, ch.yc = xc, yc
-	return ch, nil
+	return xc, yc, nil
 }
