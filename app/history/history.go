@@ -61,8 +61,13 @@ type Summary struct {
 	RSquared                    float64
 	XName, XUnit, YName, YUnit  string
 	Description, Serial         string
+	InstrumentID                string
 	Operator                    string
 	PerformedBy, ReviewedBy     string // the seal's signatures; "" = not signed
+	// Criteria are the session's acceptance criteria (nil = none): the
+	// limits of the instrument view's charts and of the projected day of
+	// leaving them.
+	Criteria *fitcore.Criteria
 }
 
 // Summarize fits one session with its own settings and keeps its summary.
@@ -84,10 +89,15 @@ func Summarize(s *session.Session) (Summary, error) {
 		Revision: s.Revision, Modified: s.Modified, Taken: s.ReadingsDay(),
 		IntervalDays: s.Instrument.IntervalDays, Digest: d,
 		XName: s.XName, XUnit: s.XUnit, YName: s.YName, YUnit: s.YUnit,
-		Description: s.Instrument.Description, Serial: s.Instrument.Serial, Operator: s.Operator,
+		Description: s.Instrument.Description, Serial: s.Instrument.Serial, InstrumentID: s.Instrument.ID,
+		Operator: s.Operator,
 	}
 	if s.Seal != nil {
 		sum.PerformedBy, sum.ReviewedBy = s.Seal.PerformedBy, s.Seal.ReviewedBy
+	}
+	if c := s.Settings.Acceptance; c != nil {
+		cc := *c
+		sum.Criteria = &cc
 	}
 	x, y, _, _ := s.Pairs()
 	rep, err := fitcore.Analyze(x, y, s.Settings.Options())
@@ -165,6 +175,12 @@ type Instrument struct {
 	LeavesWhich string
 	Due         time.Time // last accepted calibration + interval; zero = unknown
 	Overdue     bool
+	// Latest compares the newest session with a line (accepted or not,
+	// not an earlier revision) with the last accepted calibration before
+	// it: "today against the last accepted". Nil when there is no such
+	// pair or the lines cannot be compared (LatestReason says why).
+	Latest       *Change
+	LatestReason string
 }
 
 // Build groups the summaries by instrument and computes each history.
@@ -256,6 +272,7 @@ func build(g []Summary, opt Options) (Instrument, error) {
 		prev = e
 		acc = append(acc, e)
 	}
+	in.Latest, in.LatestReason = latest(entries)
 	if len(acc) > 0 {
 		in.Origin = acc[0].Taken
 		if interval > 0 {
@@ -292,6 +309,32 @@ func build(g []Summary, opt Options) (Instrument, error) {
 		}
 	}
 	return in, nil
+}
+
+// latest compares the newest fitted session with the last accepted one
+// before it in time order.
+func latest(entries []Entry) (*Change, string) {
+	last := -1
+	for i := len(entries) - 1; i >= 0; i-- {
+		if v := entries[i].Verdict; v == Accepted || v == NotAccepted {
+			last = i
+			break
+		}
+	}
+	if last < 0 {
+		return nil, "no session of this instrument has a line yet"
+	}
+	for j := last - 1; j >= 0; j-- {
+		if entries[j].Verdict != Accepted {
+			continue
+		}
+		c, err := fitcore.CompareLines(entries[j].X, entries[j].Y, entries[last].X, entries[last].Y)
+		if err != nil {
+			return nil, err.Error()
+		}
+		return &Change{Session: entries[last].ID, Previous: entries[j].ID, LineComparison: c}, ""
+	}
+	return nil, "there is no accepted calibration before the newest one"
 }
 
 func verdictOf(s Summary) string {

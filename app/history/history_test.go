@@ -135,3 +135,42 @@ func TestDedupe(t *testing.T) {
 		t.Errorf("superseded %d (want 1), changes %d for %d accepted", superseded, len(in.Changes), accepted)
 	}
 }
+
+// TestLatest: the newest session with a line is compared with the last
+// accepted one before it, whether or not the newest is accepted itself.
+// The probe's month 8 against month 7 straddles the generated step (the
+// line moved); a month 12 that fails its criteria is still compared, with
+// month 11.
+func TestLatest(t *testing.T) {
+	ss, err := history.Scenario(2026, scenarioStart, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	probe := ss[24:36]
+	ins, err := history.Build(summarize(t, probe[:8]), history.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if l := ins[0].Latest; l == nil || l.Session != probe[7].ID || l.Previous != probe[6].ID || l.Verdict != fitcore.LinesMoved {
+		t.Errorf("month 8: %+v (%s), want month 8 against 7, line moved", l, ins[0].LatestReason)
+	}
+	high := 1.0
+	probe[11].Settings.Acceptance = &fitcore.Criteria{SlopeHigh: &high} // slope 1.5 fails
+	ins, err = history.Build(summarize(t, probe), history.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if v := ins[0].Entries[11].Verdict; v != history.NotAccepted {
+		t.Fatalf("month 12 verdict %q, want not accepted", v)
+	}
+	if l := ins[0].Latest; l == nil || l.Session != probe[11].ID || l.Previous != probe[10].ID {
+		t.Errorf("month 12 not accepted: %+v, want it against month 11", l)
+	}
+	ins, err = history.Build(summarize(t, probe[11:]), history.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if ins[0].Latest != nil || ins[0].LatestReason == "" {
+		t.Errorf("one session that is not accepted: %+v, reason %q", ins[0].Latest, ins[0].LatestReason)
+	}
+}

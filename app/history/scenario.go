@@ -7,6 +7,7 @@ import (
 	"time"
 
 	"pairline/app/session"
+	"pairline/fitcore"
 )
 
 // ScenarioInstrument describes one invented instrument of Scenario.
@@ -101,4 +102,31 @@ func (s seededReader) Read(p []byte) (int, error) {
 		p[i] = byte(s.r.Uint32())
 	}
 	return len(p), nil
+}
+
+// ScenarioLimits are the acceptance limits ScenarioRecords sets on every
+// session: slope 1.40–1.60 and intercept −1.0–2.5 (INVENTED; the generated
+// lines stay inside them for the year, and the drifting analyser's slope,
+// 1.5 − 0.004·month, reaches 1.40 in month 26).
+var ScenarioLimits = struct{ SlopeLow, SlopeHigh, InterceptLow, InterceptHigh float64 }{1.40, 1.60, -1.0, 2.5}
+
+// ScenarioRecords is Scenario (one copy) as finished records: the
+// acceptance limits of ScenarioLimits on each session, and each sealed by
+// its operator an hour after the readings. For the app's tests
+// and screenshots. All data are INVENTED.
+func ScenarioRecords(seed uint64, start time.Time) ([]*session.Session, error) {
+	ss, err := Scenario(seed, start, 1)
+	if err != nil {
+		return nil, err
+	}
+	for _, s := range ss {
+		day := s.Created
+		l := ScenarioLimits
+		s.Settings.Acceptance = &fitcore.Criteria{SlopeLow: &l.SlopeLow, SlopeHigh: &l.SlopeHigh,
+			InterceptLow: &l.InterceptLow, InterceptHigh: &l.InterceptHigh}
+		if err := s.SignPerformed(s.Operator, day.Add(time.Hour)); err != nil {
+			return nil, err
+		}
+	}
+	return ss, nil
 }

@@ -41,12 +41,7 @@ func (c *Shell) anStoreTemplates(ctx app.Context) {
 }
 
 // anCriteria returns a copy of the session's criteria (zero when none).
-func (c *Shell) anCriteria() fitcore.Criteria {
-	if a := c.sess.Settings.Acceptance; a != nil {
-		return *a
-	}
-	return fitcore.Criteria{}
-}
+func (c *Shell) anCriteria() fitcore.Criteria { return c.criteria() }
 
 func anCriteriaEmpty(k fitcore.Criteria) bool {
 	return k.MinRSquared == nil && k.SlopeLow == nil && k.SlopeHigh == nil &&
@@ -55,75 +50,197 @@ func anCriteriaEmpty(k fitcore.Criteria) bool {
 
 // anSetCriteria stores changed criteria in the session's settings.
 func (c *Shell) anSetCriteria(ctx app.Context, k fitcore.Criteria) {
-	s := c.anSettings()
-	if anCriteriaEmpty(k) {
-		s.Acceptance = nil
-	} else {
-		s.Acceptance = &k
+	if c.sess == nil || c.refuseLocked() {
+		return
 	}
-	c.anSetSettings(ctx, s)
+	if err := c.setCriteria(k); err != nil {
+		c.notice = "This setting could not be used: " + err.Error()
+		return
+	}
+	c.afterChange(ctx)
 }
 
-// renderAcceptance draws the acceptance criteria of the session, the
-// templates, the pass/fail stamp with its reasons and the caution.
+// criteriaFields are the criteria the card's number fields set, by the
+// name of the field (acceptance_NAME), in the order shown.
+var criteriaFields = []struct {
+	name, label, hint string
+	get               func(*fitcore.Criteria) **float64
+}{
+	{"min_r2", "R² at least", "e.g. 0.999", func(k *fitcore.Criteria) **float64 { return &k.MinRSquared }},
+	{"slope_low", "Slope at least", "empty = no lower limit", func(k *fitcore.Criteria) **float64 { return &k.SlopeLow }},
+	{"slope_high", "Slope at most", "empty = no upper limit", func(k *fitcore.Criteria) **float64 { return &k.SlopeHigh }},
+	{"intercept_low", "Intercept at least", "empty = no lower limit", func(k *fitcore.Criteria) **float64 { return &k.InterceptLow }},
+	{"intercept_high", "Intercept at most", "empty = no upper limit", func(k *fitcore.Criteria) **float64 { return &k.InterceptHigh }},
+	{"max_residual", "Largest residual allowed", "empty = not used", func(k *fitcore.Criteria) **float64 { return &k.MaxResidual }},
+}
+
+// renderAcceptance hands the criteria card its data. The texts of its
+// number fields are noted for anResync.
 func (c *Shell) renderAcceptance() app.UI {
 	k := c.anCriteria()
-	field := func(name, label, hint string, p *float64, set func(*fitcore.Criteria, *float64)) app.UI {
-		return c.anNumberField("acceptance_"+name, label, hint, anOptText(p), func(ctx app.Context, v *float64) {
-			if name == "min_r2" && v != nil && (*v < 0 || *v > 1) {
-				c.anFieldErr["acceptance_"+name] = "Not used: R² lies between 0 and 1 (for example 0.999)."
-				return
-			}
-			if name == "max_residual" && v != nil && *v < 0 {
-				c.anFieldErr["acceptance_"+name] = "Not used: give a size, zero or more."
-				return
-			}
-			kk := c.anCriteria()
-			set(&kk, v)
-			c.anSetCriteria(ctx, kk)
-		})
+	if c.anFieldVals == nil {
+		c.anFieldVals = map[string]string{}
 	}
-	yu := c.sess.YUnit
+	for _, f := range criteriaFields {
+		c.anFieldVals["acceptance_"+f.name] = anOptText(*f.get(&k))
+	}
+	card := &criteriaCard{
+		Criteria: k, Set: c.sess.Settings.Acceptance != nil, HasLine: c.view.report != nil, Message: c.view.message,
+		YUnit: c.sess.YUnit, FieldErr: c.anFieldErr,
+		Templates: c.anTemplates, TplName: c.anTplName, TplMsg: c.anTplMsg, TplConfirm: c.anTplConfirmDl,
+		OnAction: c.cardAction,
+	}
+	if c.view.report != nil {
+		card.Result = c.view.report.Acceptance
+	}
+	return card
+}
+
+// applyCriteria makes a change asked for on the criteria card: a criterion
+// typed (parsed as the readings are, checked, then stored through the
+// controller), the unit of the largest residual, or the templates.
+func (c *Shell) applyCriteria(ctx app.Context, a CardAction) {
+	switch a.Kind {
+	case caCriterion:
+		field := "acceptance_" + a.Key
+		v, ok := c.anOptional(field, a.Text)
+		if !ok {
+			return
+		}
+		if a.Key == "min_r2" && v != nil && (*v < 0 || *v > 1) {
+			c.anFieldErr[field] = "Not used: R² lies between 0 and 1 (for example 0.999)."
+			return
+		}
+		if a.Key == "max_residual" && v != nil && *v < 0 {
+			c.anFieldErr[field] = "Not used: give a size, zero or more."
+			return
+		}
+		kk := c.anCriteria()
+		for _, f := range criteriaFields {
+			if f.name == a.Key {
+				*f.get(&kk) = v
+			}
+		}
+		c.anSetCriteria(ctx, kk)
+	case caResidualUnit:
+		kk := c.anCriteria()
+		kk.MaxResidualPercentOfSpan = a.Key == "percent"
+		c.anSetCriteria(ctx, kk)
+	case caTplUse:
+		for _, t := range c.anTemplates {
+			if t.Name == a.Key {
+				c.anFieldErr = nil
+				c.anSetCriteria(ctx, t.Criteria)
+				c.anTplMsg = "Criteria “" + t.Name + "” are now used for this session."
+			}
+		}
+	case caTplDelete:
+		c.anTplConfirmDl = a.Key
+	case caTplKeep:
+		c.anTplConfirmDl = ""
+	case caTplDeleteConfirm:
+		out := c.anTemplates[:0:0]
+		for _, x := range c.anTemplates {
+			if x.Name != a.Key {
+				out = append(out, x)
+			}
+		}
+		c.anTemplates, c.anTplConfirmDl = out, ""
+		c.anStoreTemplates(ctx)
+	case caTplName:
+		c.anTplName = a.Text
+	case caTplSave:
+		name := strings.TrimSpace(c.anTplName)
+		if name == "" {
+			c.anTplMsg = "Give the criteria a name first."
+			return
+		}
+		kk := c.anCriteria()
+		replaced := false
+		for i := range c.anTemplates {
+			if c.anTemplates[i].Name == name {
+				c.anTemplates[i].Criteria, replaced = kk, true
+			}
+		}
+		if !replaced {
+			c.anTemplates = append(c.anTemplates, accTemplate{Name: name, Criteria: kk})
+		}
+		c.anTplName = ""
+		c.anTplMsg = "Saved “" + name + "” on this device."
+		c.anStoreTemplates(ctx)
+	}
+}
+
+// criteriaCard draws the acceptance criteria of the session, the
+// templates, the pass/fail stamp with its reasons and the caution.
+type criteriaCard struct {
+	app.Compo
+
+	Criteria fitcore.Criteria
+	Set      bool                      // the session has criteria
+	Result   *fitcore.AcceptanceResult // nil: no line, or no criteria
+	HasLine  bool
+	Message  string // why there is no line
+	YUnit    string
+	FieldErr map[string]string // why a typed criterion was not used, by field
+
+	Templates                   []accTemplate
+	TplName, TplMsg, TplConfirm string
+
+	OnAction func(CardAction)
+}
+
+func (r *criteriaCard) act(a CardAction) {
+	if r.OnAction != nil {
+		r.OnAction(a)
+	}
+}
+
+// Render draws the card.
+func (r *criteriaCard) Render() app.UI {
+	k := r.Criteria
+	yu := r.YUnit
 	if yu == "" {
 		yu = "y units"
 	}
+	fields := make([]app.UI, len(criteriaFields))
+	for i, f := range criteriaFields {
+		fields[i] = r.field(f.name, f.label, f.hint, anOptText(*f.get(&k)))
+	}
 	return app.Section().Class("pl-card an-accept").Attr("aria-label", "Acceptance").Body(
 		app.H2().Text("Does the line meet your criteria?"),
-		c.anStamp(),
+		r.stamp(),
 		anCaution(),
-		app.Div().Class("an-fields").Body(
-			field("min_r2", "R² at least", "e.g. 0.999", k.MinRSquared, func(k *fitcore.Criteria, v *float64) { k.MinRSquared = v }),
-			field("slope_low", "Slope at least", "empty = no lower limit", k.SlopeLow, func(k *fitcore.Criteria, v *float64) { k.SlopeLow = v }),
-			field("slope_high", "Slope at most", "empty = no upper limit", k.SlopeHigh, func(k *fitcore.Criteria, v *float64) { k.SlopeHigh = v }),
-			field("intercept_low", "Intercept at least", "empty = no lower limit", k.InterceptLow, func(k *fitcore.Criteria, v *float64) { k.InterceptLow = v }),
-			field("intercept_high", "Intercept at most", "empty = no upper limit", k.InterceptHigh, func(k *fitcore.Criteria, v *float64) { k.InterceptHigh = v }),
-			field("max_residual", "Largest residual allowed", "empty = not used", k.MaxResidual, func(k *fitcore.Criteria, v *float64) { k.MaxResidual = v }),
-		),
-		c.anChoice("Largest residual counted", "acceptance-residual-unit", []app.UI{
-			c.anChip("acceptance-residual-units", "in "+yu, !k.MaxResidualPercentOfSpan, func(ctx app.Context, e app.Event) {
-				kk := c.anCriteria()
-				kk.MaxResidualPercentOfSpan = false
-				c.anSetCriteria(ctx, kk)
-			}),
-			c.anChip("acceptance-residual-percent", "in % of the span of y", k.MaxResidualPercentOfSpan, func(ctx app.Context, e app.Event) {
-				kk := c.anCriteria()
-				kk.MaxResidualPercentOfSpan = true
-				c.anSetCriteria(ctx, kk)
-			}),
+		app.Div().Class("an-fields").Body(fields...),
+		anChoice("Largest residual counted", "acceptance-residual-unit", []app.UI{
+			r.chip("acceptance-residual-units", "in "+yu, !k.MaxResidualPercentOfSpan, "units"),
+			r.chip("acceptance-residual-percent", "in % of the span of y", k.MaxResidualPercentOfSpan, "percent"),
 		}),
-		c.anTemplatesUI(k),
+		r.templates(),
 	)
 }
 
-// anStamp is the pass/fail stamp: data-verdict pass, fail, or n/a when no
+// field is one criterion's number field (numberField).
+func (r *criteriaCard) field(name, label, hint, value string) app.UI {
+	field := "acceptance_" + name
+	return numberField(field, label, hint, value, r.FieldErr[field], func(ctx app.Context, e app.Event) {
+		src := ctx.JSSrc()
+		name := strings.TrimPrefix(src.Get("dataset").Get("field").String(), "acceptance_")
+		r.act(CardAction{Kind: caCriterion, Key: name, Text: src.Get("value").String()})
+	})
+}
+
+func (r *criteriaCard) chip(testid, label string, on bool, unit string) app.UI {
+	return anChipUI(testid, label, on).DataSet("unit", unit).OnClick(func(ctx app.Context, e app.Event) {
+		r.act(CardAction{Kind: caResidualUnit, Key: ctx.JSSrc().Get("dataset").Get("unit").String()})
+	})
+}
+
+// stamp is the pass/fail stamp: data-verdict pass, fail, or n/a when no
 // criteria are set or there is no line.
-func (c *Shell) anStamp() app.UI {
-	rep := c.view.report
+func (r *criteriaCard) stamp() app.UI {
 	verdict, icon, word, cls := "n/a", "○", "No criteria set", "an-v-na"
-	var res *fitcore.AcceptanceResult
-	if rep != nil {
-		res = rep.Acceptance
-	}
+	res := r.Result
 	summary := "Set criteria below, or choose a saved template, to get a pass or fail."
 	switch {
 	case res != nil && len(res.Results) > 0 && res.Pass:
@@ -132,22 +249,22 @@ func (c *Shell) anStamp() app.UI {
 	case res != nil && len(res.Results) > 0:
 		verdict, icon, word, cls = "fail", "✖", "Not accepted", "an-v-fail"
 		summary = res.Summary
-	case rep == nil && c.sess.Settings.Acceptance != nil:
+	case !r.HasLine && r.Set:
 		word = "No line to judge yet"
-		summary = c.view.message
+		summary = r.Message
 	}
 	var reasons []app.UI
 	if res != nil {
-		for _, r := range res.Results {
+		for _, x := range res.Results {
 			ic := "✔"
 			rc := "an-v-pass"
-			if !r.Pass {
+			if !x.Pass {
 				ic, rc = "✖", "an-v-fail"
 			}
 			reasons = append(reasons, app.Li().Class("an-reason-item "+rc).DataSet("testid", "verdict-reason").
-				DataSet("name", r.Name).DataSet("pass", boolText(r.Pass)).Body(
+				DataSet("name", x.Name).DataSet("pass", boolText(x.Pass)).Body(
 				app.Span().Class("an-badge-icon").Attr("aria-hidden", "true").Text(ic+" "),
-				app.Span().Text(r.Reason),
+				app.Span().Text(x.Reason),
 			))
 		}
 	}
@@ -168,78 +285,54 @@ func boolText(b bool) string {
 	return "false"
 }
 
-// anTemplatesUI lists the saved templates (use, delete) and saves the
+// templates lists the saved templates (use, delete) and saves the
 // current criteria under a name.
-func (c *Shell) anTemplatesUI(k fitcore.Criteria) app.UI {
+func (r *criteriaCard) templates() app.UI {
+	// The buttons of an item say what they do in data-act and name their
+	// template in data-name, both read when pressed: go-app keeps a
+	// button's first handler when the item changes (a "Use" button becomes
+	// the confirming "Delete"), since every handler comes from this one
+	// function literal.
+	named := func(ctx app.Context, e app.Event) {
+		ds := ctx.JSSrc().Get("dataset")
+		r.act(CardAction{Kind: ds.Get("act").String(), Key: ds.Get("name").String()})
+	}
 	return app.Div().Class("an-templates").DataSet("testid", "acceptance-templates").Body(
 		app.H3().Text("Saved criteria on this device"),
-		app.If(len(c.anTemplates) == 0, func() app.UI {
+		app.If(len(r.Templates) == 0, func() app.UI {
 			return app.P().Class("an-hint").Text("None yet. Save the criteria above under a name to reuse them in other sessions.")
 		}),
-		app.Ul().Class("an-tpl-list").Body(app.Range(c.anTemplates).Slice(func(i int) app.UI {
-			t := c.anTemplates[i]
-			if c.anTplConfirmDl == t.Name {
+		app.Ul().Class("an-tpl-list").Body(app.Range(r.Templates).Slice(func(i int) app.UI {
+			t := r.Templates[i]
+			if r.TplConfirm == t.Name {
 				return app.Li().Class("an-tpl an-tpl-confirm").DataSet("testid", "template-item").DataSet("name", t.Name).Body(
 					app.Span().Class("an-tpl-name").Text("Delete “"+t.Name+"”?"),
 					app.Button().Class("pl-btn pl-btn-danger").Text("Delete").DataSet("testid", "template-delete-confirm").
-						DataSet("an", "tpl-delete-confirm:"+t.Name).
-						OnClick(c.anOn("tpl-delete-confirm:"+t.Name, func(ctx app.Context, e app.Event) {
-							out := c.anTemplates[:0:0]
-							for _, x := range c.anTemplates {
-								if x.Name != t.Name {
-									out = append(out, x)
-								}
-							}
-							c.anTemplates, c.anTplConfirmDl = out, ""
-							c.anStoreTemplates(ctx)
-						})),
-					app.Button().Class("pl-btn pl-btn-quiet").Text("Keep").
-						OnClick(func(ctx app.Context, e app.Event) { c.anTplConfirmDl = "" }),
+						DataSet("name", t.Name).DataSet("act", caTplDeleteConfirm).OnClick(named),
+					app.Button().Class("pl-btn pl-btn-quiet").Text("Keep").DataSet("act", caTplKeep).OnClick(named),
 				)
 			}
 			return app.Li().Class("an-tpl").DataSet("testid", "template-item").DataSet("name", t.Name).Body(
 				app.Span().Class("an-tpl-name").Text(t.Name),
-				app.Button().Class("pl-btn").Text("Use").DataSet("testid", "template-use").DataSet("an", "tpl-use:"+t.Name).
-					OnClick(c.anOn("tpl-use:"+t.Name, func(ctx app.Context, e app.Event) {
-						c.anFieldErr = nil
-						c.anSetCriteria(ctx, t.Criteria)
-						c.anTplMsg = "Criteria “" + t.Name + "” are now used for this session."
-					})),
+				app.Button().Class("pl-btn").Text("Use").DataSet("testid", "template-use").DataSet("name", t.Name).
+					DataSet("act", caTplUse).OnClick(named),
 				app.Button().Class("pl-btn pl-btn-quiet").Text("Delete").DataSet("testid", "template-delete").
-					DataSet("an", "tpl-delete:"+t.Name).
-					OnClick(c.anOn("tpl-delete:"+t.Name, func(ctx app.Context, e app.Event) { c.anTplConfirmDl = t.Name })),
+					DataSet("name", t.Name).DataSet("act", caTplDelete).OnClick(named),
 			)
 		})),
 		app.Div().Class("an-tpl-save").Body(
-			app.Input().Type("text").Class("an-input").Value(c.anTplName).
+			app.Input().Type("text").Class("an-input").Value(r.TplName).
 				Attr("aria-label", "Name for these criteria").Attr("placeholder", "Name, e.g. Conductivity, weekly check").
 				DataSet("testid", "template-name").
-				OnInput(func(ctx app.Context, e app.Event) { c.anTplName = ctx.JSSrc().Get("value").String() }),
-			app.Button().Class("pl-btn").Text("Save criteria").DataSet("testid", "template-save").
-				Disabled(anCriteriaEmpty(k)).
-				OnClick(func(ctx app.Context, e app.Event) {
-					name := strings.TrimSpace(c.anTplName)
-					if name == "" {
-						c.anTplMsg = "Give the criteria a name first."
-						return
-					}
-					kk := c.anCriteria()
-					replaced := false
-					for i := range c.anTemplates {
-						if c.anTemplates[i].Name == name {
-							c.anTemplates[i].Criteria, replaced = kk, true
-						}
-					}
-					if !replaced {
-						c.anTemplates = append(c.anTemplates, accTemplate{Name: name, Criteria: kk})
-					}
-					c.anTplName = ""
-					c.anTplMsg = "Saved “" + name + "” on this device."
-					c.anStoreTemplates(ctx)
+				OnInput(func(ctx app.Context, e app.Event) {
+					r.act(CardAction{Kind: caTplName, Text: ctx.JSSrc().Get("value").String()})
 				}),
+			app.Button().Class("pl-btn").Text("Save criteria").DataSet("testid", "template-save").
+				Disabled(anCriteriaEmpty(r.Criteria)).
+				OnClick(func(ctx app.Context, e app.Event) { r.act(CardAction{Kind: caTplSave}) }),
 		),
-		app.If(c.anTplMsg != "", func() app.UI {
-			return app.P().Class("an-hint").Attr("role", "status").DataSet("testid", "template-message").Text(c.anTplMsg)
+		app.If(r.TplMsg != "", func() app.UI {
+			return app.P().Class("an-hint").Attr("role", "status").DataSet("testid", "template-message").Text(r.TplMsg)
 		}),
 	)
 }

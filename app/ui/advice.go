@@ -36,44 +36,79 @@ func anWithRemedy(st session.Settings, ad *fitcore.Advice) session.Settings {
 	return s
 }
 
-// anRevert stores the settings without the applied remedy: those before
-// the last apply when known (and they had none), otherwise the same
-// settings with no transform and no weights.
-func (c *Shell) anRevert(ctx app.Context) {
-	s := c.anSettings()
-	if c.anUndo != nil && c.anUndoFor == c.sess.ID && !anApplied(*c.anUndo) {
-		s = *c.anUndo
-	} else {
-		s.Transform, s.BoxCoxLambda, s.Weights = fitcore.TransformNone, nil, fitcore.WeightsNone
-		if s.Model == fitcore.ModelWeighted {
-			s.Model = fitcore.ModelOLS
-		}
+// anAdvice applies the advice's remedy (apply) or goes back to the plain
+// line (controller.applyAdvice, revertAdvice).
+func (c *Shell) anAdvice(ctx app.Context, apply bool) {
+	if c.sess == nil || c.refuseLocked() {
+		return
 	}
-	c.anUndo = nil
-	c.anSetSettings(ctx, s)
+	do := c.revertAdvice
+	if apply {
+		do = c.applyAdvice
+	}
+	if err := do(); err != nil {
+		if err != errNoAdvice {
+			c.notice = "This setting could not be used: " + err.Error()
+		}
+		return
+	}
+	c.afterChange(ctx)
 }
 
-// renderAdvice draws the transform or weighting advice: the remedy and its
+// renderAdvice hands the advice card its data.
+func (c *Shell) renderAdvice() app.UI {
+	if c.view.report == nil && !anApplied(c.sess.Settings) {
+		return nil
+	}
+	s := c.sess
+	return &adviceCard{
+		Report: c.view.report, Applied: anApplied(s.Settings), Pending: c.view.advicePending, Digits: c.view.digits,
+		XName: s.XName, XUnit: s.XUnit, YName: s.YName, YUnit: s.YUnit,
+		LineFrom: len(c.anPredX), LineN: len(c.anLineX), OnAction: c.cardAction,
+	}
+}
+
+// adviceCard draws the transform or weighting advice: the remedy and its
 // reason, the checks and both fits before and after, and one button to
 // apply it (or to revert an applied one).
-func (c *Shell) renderAdvice() app.UI {
-	rep := c.view.report
-	st := c.sess.Settings
-	applied := anApplied(st)
+type adviceCard struct {
+	app.Compo
+
+	Report  *fitcore.Report // nil: the settings in use leave no line
+	Applied bool            // the settings carry a change of scale or a weighting (anApplied)
+	Pending bool            // the advice is worked out in a later turn
+	Digits  int
+
+	XName, XUnit, YName, YUnit string
+
+	// LineFrom and LineN are where the predictions of the "line in
+	// original units" table sit in Report.Predictions (after the use
+	// card's own, anQueries).
+	LineFrom, LineN int
+
+	OnAction func(CardAction)
+}
+
+func (r *adviceCard) act(a CardAction) {
+	if r.OnAction != nil {
+		r.OnAction(a)
+	}
+}
+
+// Render draws the card.
+func (r *adviceCard) Render() app.UI {
+	rep := r.Report
 	if rep == nil {
-		if !applied {
-			return nil
-		}
 		// A change of scale the readings cannot take leaves no report: keep
 		// the way back visible.
 		return app.Section().Class("pl-card an-advice").Attr("aria-label", "Advice").
 			DataSet("testid", "advice").DataSet("transform", "none").Body(
 			app.H2().Text("Advice"),
 			app.P().Text("The fit uses a change of scale or a weighting that these readings cannot take."),
-			c.anRevertButton(),
+			r.revertButton(),
 		)
 	}
-	if rep.Advice == nil && c.view.advicePending {
+	if rep.Advice == nil && r.Pending {
 		return app.Section().Class("pl-card an-advice").Attr("aria-label", "Advice").
 			DataSet("testid", "advice").DataSet("transform", "pending").Body(
 			app.H2().Text("Advice"),
@@ -86,10 +121,10 @@ func (c *Shell) renderAdvice() app.UI {
 		remedy = ad.Remedy
 	}
 	body := []app.UI{app.H2().Text("Advice")}
-	if applied {
+	if r.Applied {
 		body = append(body, app.P().Class("an-applied").DataSet("testid", "advice-applied").Text(
-			"In use: "+c.anModelText(rep)+", as the advice suggested. The button below goes back to the plain, unweighted line."),
-			c.anRevertButton())
+			"In use: "+anModelText(rep)+", as the advice suggested. The button below goes back to the plain, unweighted line."),
+			r.revertButton())
 	}
 	if ad == nil {
 		body = append(body, app.P().Text("No advice could be worked out for this fit."))
@@ -99,31 +134,24 @@ func (c *Shell) renderAdvice() app.UI {
 	if ad != nil && remedy != fitcore.RemedyNone {
 		body = append(body,
 			app.P().Class("an-remedy").Body(app.Strong().Text("Recommended: "), app.Span().Text(anRemedyName(remedy)+".")),
-			c.anBeforeAfter(rep, ad),
-			app.Button().Class("pl-btn pl-btn-wide").DataSet("testid", "advice-apply").DataSet("an", "advice-apply").
+			r.beforeAfter(rep, ad),
+			app.Button().Class("pl-btn pl-btn-wide").DataSet("testid", "advice-apply").
 				Text("Use this: "+anRemedyName(remedy)).
-				OnClick(c.anOn("advice-apply", func(ctx app.Context, e app.Event) {
-					if c.view.report == nil || c.view.report.Advice == nil {
-						return
-					}
-					undo := c.anSettings()
-					c.anUndo, c.anUndoFor = &undo, c.sess.ID
-					c.anSetSettings(ctx, anWithRemedy(undo, c.view.report.Advice))
-				})),
+				OnClick(func(ctx app.Context, e app.Event) { r.act(CardAction{Kind: caApplyAdvice}) }),
 		)
 	}
-	body = append(body, c.anOriginalUnits(rep))
+	body = append(body, r.originalUnits(rep))
 	return app.Section().Class("pl-card an-advice").Attr("aria-label", "Advice").
 		DataSet("testid", "advice").DataSet("transform", string(remedy)).Body(body...)
 }
 
-func (c *Shell) anRevertButton() app.UI {
-	return app.Button().Class("pl-btn pl-btn-quiet pl-btn-wide").DataSet("testid", "advice-revert").DataSet("an", "advice-revert").
-		Text("Undo: back to the plain line").OnClick(c.anOn("advice-revert", func(ctx app.Context, e app.Event) { c.anRevert(ctx) }))
+func (r *adviceCard) revertButton() app.UI {
+	return app.Button().Class("pl-btn pl-btn-quiet pl-btn-wide").DataSet("testid", "advice-revert").
+		Text("Undo: back to the plain line").OnClick(func(ctx app.Context, e app.Event) { r.act(CardAction{Kind: caRevertAdvice}) })
 }
 
 // anModelText describes the fit in use.
-func (c *Shell) anModelText(rep *fitcore.Report) string {
+func anModelText(rep *fitcore.Report) string {
 	t := ""
 	switch rep.Model {
 	case fitcore.ModelOrigin:
@@ -156,9 +184,9 @@ func (c *Shell) anModelText(rep *fitcore.Report) string {
 	return t
 }
 
-// anBeforeAfter is the table of the checks and of both fits, before and
+// beforeAfter is the table of the checks and of both fits, before and
 // after the remedy.
-func (c *Shell) anBeforeAfter(rep *fitcore.Report, ad *fitcore.Advice) app.UI {
+func (r *adviceCard) beforeAfter(rep *fitcore.Report, ad *fitcore.Advice) app.UI {
 	if ad.After == nil {
 		return nil
 	}
@@ -176,7 +204,7 @@ func (c *Shell) anBeforeAfter(rep *fitcore.Report, ad *fitcore.Advice) app.UI {
 			app.Td().Body(anBadge(va)),
 		)
 	}
-	sig := numfmt.Precision(c.view.digits)
+	sig := numfmt.Precision(r.Digits)
 	rows := []app.UI{
 		row("linearity", wording.CheckLinearity, b.Assumptions.Linearity.Verdict, a.Assumptions.Linearity.Verdict),
 		row("spread", wording.CheckSpread, b.Assumptions.Spread.Verdict, a.Assumptions.Spread.Verdict),
@@ -229,19 +257,19 @@ func (c *Shell) anBeforeAfter(rep *fitcore.Report, ad *fitcore.Advice) app.UI {
 	)
 }
 
-// anOriginalUnits shows a line fitted on a transformed scale back in the
+// originalUnits shows a line fitted on a transformed scale back in the
 // units of y: fitcore's predictions (with Duan's smearing on log scales) at
 // five x across the readings.
-func (c *Shell) anOriginalUnits(rep *fitcore.Report) app.UI {
-	if rep.Transform == fitcore.TransformNone || rep.Transform == "" || len(c.anLineX) == 0 {
+func (r *adviceCard) originalUnits(rep *fitcore.Report) app.UI {
+	if rep.Transform == fitcore.TransformNone || rep.Transform == "" || r.LineN == 0 {
 		return nil
 	}
-	off := len(c.anPredX)
-	if len(rep.Predictions) < off+len(c.anLineX) {
+	off := r.LineFrom
+	if len(rep.Predictions) < off+r.LineN {
 		return nil
 	}
-	preds := rep.Predictions[off : off+len(c.anLineX)]
-	sig := numfmt.Precision(c.view.digits)
+	preds := rep.Predictions[off : off+r.LineN]
+	sig := numfmt.Precision(r.Digits)
 	lvl := anPercent(rep.Level)
 	note := ""
 	if rep.Smearing != 0 && rep.Smearing != 1 {
@@ -253,8 +281,8 @@ func (c *Shell) anOriginalUnits(rep *fitcore.Report) app.UI {
 		anScroll("Line in original units").Body(
 			app.Table().Class("an-table an-tests").Body(
 				app.THead().Body(app.Tr().Body(
-					app.Th().Text(colHead(c.sess.XName, c.sess.XUnit, "x")),
-					app.Th().Text("Fitted "+colHead(c.sess.YName, c.sess.YUnit, "y")),
+					app.Th().Text(colHead(r.XName, r.XUnit, "x")),
+					app.Th().Text("Fitted "+colHead(r.YName, r.YUnit, "y")),
 					app.Th().Text("Mean between"),
 					app.Th().Text("New reading between"),
 				)),
@@ -274,18 +302,18 @@ func (c *Shell) anOriginalUnits(rep *fitcore.Report) app.UI {
 
 // anEquation writes the fitted line on the scale it was fitted on
 // (wording.Equation).
-func (c *Shell) anEquation(rep *fitcore.Report, sig int) string {
+func anEquation(rep *fitcore.Report, sig int) string {
 	return wording.Equation(rep, func(v float64) string { return numfmt.Sig(v, sig) })
 }
 
 // anHeadlineUnits gives the units of the headline slope and of y-scale
 // figures: on a transformed scale those of the fitted scale, not of the
-// readings.
-func (c *Shell) anHeadlineUnits(rep *fitcore.Report, slope, y string) (string, string) {
-	if sc := c.anScaleOf(rep); sc.transformed {
+// readings (xu, yu: the units of the readings).
+func anHeadlineUnits(rep *fitcore.Report, xu, yu, slope string) (string, string) {
+	if sc := anScaleOf(rep, xu, yu); sc.transformed {
 		return sc.slope, sc.y
 	}
-	return slope, y
+	return slope, yu
 }
 
 // anScroll is a box that scrolls a wide table sideways on a phone. It can

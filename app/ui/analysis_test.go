@@ -13,7 +13,7 @@ import (
 // comma followed by one or two digits is a decimal comma (the number rules
 // of app/session, ParseNumber).
 func TestSplitReadings(t *testing.T) {
-	c := &Shell{}
+	c := newShell()
 	cases := []struct {
 		in      string
 		want    []float64
@@ -52,7 +52,7 @@ func FuzzSplitReadings(f *testing.F) {
 	for _, s := range []string{"12,5; 12,7", "1e3 2", "abc", ";;", "1,234"} {
 		f.Add(s)
 	}
-	c := &Shell{}
+	c := newShell()
 	f.Fuzz(func(t *testing.T, s string) {
 		got, problem := c.anSplitReadings(s)
 		if problem != "" && got != nil {
@@ -143,7 +143,7 @@ func TestNumberTexts(t *testing.T) {
 // x values to predict at, and, on a transformed scale only, five x across
 // the readings for the line in original units.
 func TestQueries(t *testing.T) {
-	c := &Shell{}
+	c := newShell()
 	c.anInvY, c.anPredX = []float64{2, 3}, []float64{7}
 	var o fitcore.Options
 	c.anQueries(&o, []float64{1, 5, 3})

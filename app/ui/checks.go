@@ -34,41 +34,65 @@ func anBadge(v fitcore.Verdict) app.UI {
 	)
 }
 
-// renderChecks draws one row per assumption of the straight line, with its
-// verdict (icon, word and colour), fitcore's sentence and advice, and the
-// numbers of the underlying tests behind a button.
+// renderChecks hands the checks card its data.
 func (c *Shell) renderChecks() app.UI {
-	rep := c.view.report
-	if rep == nil {
+	if c.view.report == nil {
 		return nil
 	}
+	return &checksCard{Report: c.view.report, Rows: c.view.rows, Digits: c.view.digits, Stale: c.view.stale,
+		Open: c.anOpen, OnAction: c.cardAction}
+}
+
+// checksCard draws one row per assumption of the straight line, with its
+// verdict (icon, word and colour), fitcore's sentence and advice, and the
+// numbers of the underlying tests behind a button.
+type checksCard struct {
+	app.Compo
+
+	Report   *fitcore.Report
+	Rows     []int // grid row of each usable pair (fitcore's index → row)
+	Digits   int
+	Stale    bool
+	Open     map[string]bool // rows whose numbers are shown, by check id
+	OnAction func(CardAction)
+}
+
+func (r *checksCard) act(a CardAction) {
+	if r.OnAction != nil {
+		r.OnAction(a)
+	}
+}
+
+// Render draws the card.
+func (r *checksCard) Render() app.UI {
+	rep := r.Report
 	var rows []app.UI
 	for _, as := range fitcore.AssumptionList() {
 		x := as.Get(rep)
 		switch {
 		case x == nil:
 		case as.ID == fitcore.AssumeInfluence:
-			rows = append(rows, c.anInfluenceRow(*x))
+			rows = append(rows, r.influenceRow(*x))
 		default:
 			var tests app.UI
 			if ts := rep.TestsOf(as.ID); len(ts) > 0 {
-				tests = c.anTests(ts)
+				tests = anTests(ts)
 			}
-			rows = append(rows, c.anCheckRow(strings.ReplaceAll(string(as.ID), "_", "-"), wording.CheckName(as.ID), *x, tests))
+			rows = append(rows, r.checkRow(strings.ReplaceAll(string(as.ID), "_", "-"), wording.CheckName(as.ID), *x, tests))
 		}
 	}
 	return app.Section().Class("pl-card an-checks").Attr("aria-label", "Checks").
-		DataSet("testid", "checks").DataSet("slope", numfmt.Full(c.view.report.Slope.Estimate)).Body(
+		DataSet("testid", "checks").DataSet("slope", numfmt.Full(rep.Slope.Estimate)).Body(
 		app.H2().Text(wording.ChecksTitle),
-		app.P().Class("pl-stale").Hidden(!c.view.stale).Text(staleNote(c.view.stale)),
+		app.P().Class("pl-stale").Hidden(!r.Stale).Text(staleNote(r.Stale)),
 		app.Ul().Class("an-check-list").Body(rows...),
 	)
 }
 
-// anCheckRow is one assumption: verdict, sentence, what to do, numbers.
-func (c *Shell) anCheckRow(id, title string, a fitcore.Assumption, details app.UI, extra ...app.UI) app.UI {
+// checkRow is one assumption: verdict, sentence, what to do, numbers.
+func (r *checksCard) checkRow(id, title string, a fitcore.Assumption, details app.UI, extra ...app.UI) app.UI {
 	_, _, cls := anVerdict(a.Verdict)
-	open := c.anOpen[id]
+	open := r.Open[id]
 	body := []app.UI{
 		app.Div().Class("an-check-head").Body(
 			anBadge(a.Verdict),
@@ -88,14 +112,11 @@ func (c *Shell) anCheckRow(id, title string, a fitcore.Assumption, details app.U
 		}
 		body = append(body,
 			app.Button().Class("pl-btn pl-btn-quiet an-toggle").Text(label).
-				DataSet("testid", "check-"+id+"-more").DataSet("an", "check-"+id+"-more").
+				DataSet("testid", "check-"+id+"-more").DataSet("check", id).
 				Attr("aria-expanded", strconv.FormatBool(open)).
-				OnClick(c.anOn("check-"+id+"-more", func(ctx app.Context, e app.Event) {
-					if c.anOpen == nil {
-						c.anOpen = map[string]bool{}
-					}
-					c.anOpen[id] = !c.anOpen[id]
-				})),
+				OnClick(func(ctx app.Context, e app.Event) {
+					r.act(CardAction{Kind: caToggle, Key: ctx.JSSrc().Get("dataset").Get("check").String()})
+				}),
 			app.If(open, func() app.UI { return details }),
 		)
 	}
@@ -105,7 +126,7 @@ func (c *Shell) anCheckRow(id, title string, a fitcore.Assumption, details app.U
 // anTests lists the tests behind an assumption: name and result, then the
 // statistic, its degrees of freedom and p, then fitcore's sentence. Blocks
 // rather than a table, so that a phone needs no sideways scrolling.
-func (c *Shell) anTests(cs []fitcore.CheckPresent) app.UI {
+func anTests(cs []fitcore.CheckPresent) app.UI {
 	return app.Ul().Class("an-tests-list").Body(app.Range(cs).Slice(func(i int) app.UI {
 		k, sym := cs[i].Check, cs[i].Symbol
 		id := "test-" + anSlug(k.Name) + "-"
@@ -144,10 +165,10 @@ func anSlug(name string) string {
 	return b.String()
 }
 
-// anInfluenceRow is the influence assumption: it names the flagged readings
+// influenceRow is the influence assumption: it names the flagged readings
 // by their row in the grid (from 1), each with a button that jumps there.
-func (c *Shell) anInfluenceRow(a fitcore.Assumption) app.UI {
-	rep := c.view.report
+func (r *checksCard) influenceRow(a fitcore.Assumption) app.UI {
+	rep := r.Report
 	var flagged []fitcore.PointInfluence
 	for _, p := range rep.Influence {
 		if p.Flagged {
@@ -162,57 +183,48 @@ func (c *Shell) anInfluenceRow(a fitcore.Assumption) app.UI {
 			if i == show {
 				break
 			}
-			row := c.anRowOf(p.Index)
+			row := r.rowOf(p.Index)
 			btns = append(btns, app.Button().Class("pl-btn pl-btn-quiet an-jump").
 				Text("Go to row "+strconv.Itoa(row+1)).
 				DataSet("testid", "influence-jump-"+strconv.Itoa(row+1)).DataSet("row", strconv.Itoa(row+1)).
-				DataSet("an", "jump:"+strconv.Itoa(row)).
-				OnClick(c.anOn("jump:"+strconv.Itoa(row), func(ctx app.Context, e app.Event) { c.anJump(ctx, row) })))
+				OnClick(func(ctx app.Context, e app.Event) {
+					n, err := strconv.Atoi(ctx.JSSrc().Get("dataset").Get("row").String())
+					if err == nil {
+						r.act(CardAction{Kind: caJump, Row: n - 1})
+					}
+				}))
 		}
 		extra = append(extra, app.Div().Class("an-jumps").DataSet("testid", "influence-rows").Body(btns...))
 	}
 	var details app.UI
 	switch {
 	case len(rep.Influence) == 0:
-	case c.anOpen["influence"]:
-		details = c.anInfluenceTable(flagged)
+	case r.Open["influence"]:
+		details = r.influenceTable(flagged)
 	default:
 		// Closed: the table of every flagged reading is only built when it
 		// is shown (at 1,000 readings it costs a good part of a frame).
 		details = app.Text("")
 	}
-	return c.anCheckRow("influence", wording.CheckInfluence, a, details, extra...)
+	return r.checkRow("influence", wording.CheckInfluence, a, details, extra...)
 }
 
-// anRowOf maps a position among the usable pairs to the row of the grid.
-func (c *Shell) anRowOf(i int) int {
-	if i >= 0 && i < len(c.view.rows) {
-		return c.view.rows[i]
+// rowOf maps a position among the usable pairs to the row of the grid.
+func (r *checksCard) rowOf(i int) int {
+	if i >= 0 && i < len(r.Rows) {
+		return r.Rows[i]
 	}
 	return i
 }
 
-// anJump shows the grid page holding row and puts the focus on its x cell.
-func (c *Shell) anJump(ctx app.Context, row int) {
-	c.page = row / pageSize
-	id := "x-input-" + strconv.Itoa(row)
-	ctx.Defer(func(ctx app.Context) {
-		el := app.Window().Get("document").Call("querySelector", `[data-testid="`+id+`"]`)
-		if el.Truthy() {
-			el.Call("scrollIntoView", map[string]any{"block": "center"})
-		}
-		focus(id)
-	})
-}
-
-func (c *Shell) anInfluenceTable(flagged []fitcore.PointInfluence) app.UI {
+func (r *checksCard) influenceTable(flagged []fitcore.PointInfluence) app.UI {
 	if len(flagged) == 0 {
 		return app.P().Class("an-hint").Text("No reading is flagged by leverage, studentized residual, Cook's distance or DFFITS.")
 	}
-	sig := numfmt.Precision(c.view.digits)
+	sig := numfmt.Precision(r.Digits)
 	return app.Ul().Class("an-tests-list").DataSet("testid", "influence-table").Body(app.Range(flagged).Slice(func(i int) app.UI {
 		p := flagged[i]
-		row := strconv.Itoa(c.anRowOf(p.Index) + 1)
+		row := strconv.Itoa(r.rowOf(p.Index) + 1)
 		id := "influence-" + row + "-"
 		return app.Li().Class("an-test").Body(
 			app.Div().Class("an-test-head").Body(app.Strong().Text("Row "+row)),

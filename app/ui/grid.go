@@ -3,7 +3,6 @@ package ui
 import (
 	"strconv"
 	"strings"
-	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
@@ -38,12 +37,15 @@ func (c *Shell) renderReadings() app.UI {
 		app.Div().Class("pl-grid-foot").Body(
 			app.Button().Class("pl-btn pl-btn-wide").Text("+ Add reading").DataSet("testid", "add-row").Disabled(c.locked()).
 				OnClick(func(ctx app.Context, e app.Event) {
-					i := c.sess.AddRow("", "", time.Now())
+					i, err := c.addRow()
+					if err != nil {
+						return
+					}
 					if p := i / pageSize; p != c.page {
 						c.page = p
 						c.resyncInputs()
 					}
-					c.edited(ctx)
+					c.afterChange(ctx)
 					ctx.Defer(func(ctx app.Context) { focus("x-input-" + strconv.Itoa(i)) })
 				}),
 			app.P().Class("pl-count").DataSet("testid", "usable-count").DataSet("value", strconv.Itoa(c.view.usable)).
@@ -137,7 +139,67 @@ func (c *Shell) row(i int) app.UI {
 		Reason:   reason,
 		Note:     r.Note,
 		Locked:   c.locked(),
-		shell:    c,
+		onAction: c.rowAction,
+	}
+}
+
+// Kinds of RowAction.
+const (
+	rwType  = "type"  // Text typed into the cell Col of Row (as each key goes in)
+	rwNote  = "note"  // the note of Row set to Text
+	rwEnter = "enter" // Enter pressed in the cell Col of Row
+	rwFocus = "focus" // the focus came into a cell of Row
+	rwLeave = "leave" // the focus left the row for another
+)
+
+// RowAction is one thing done in a row of the readings grid.
+type RowAction struct {
+	Kind    string
+	Session string // ID of the session the row belongs to
+	Row     int
+	Col     session.Column
+	Text    string
+}
+
+// rowAction applies what a row asked for, on the Shell's own context (the
+// row's element may be gone by the time it runs): the cells through the
+// controller, the row being entered (entryUI) for the screen.
+func (c *Shell) rowAction(a RowAction) {
+	apply := func(ctx app.Context) { c.applyRow(ctx, a) }
+	if c.ui.Src() == nil {
+		apply(app.Context{})
+		return
+	}
+	c.ui.Dispatch(apply)
+}
+
+func (c *Shell) applyRow(ctx app.Context, a RowAction) {
+	if c.sess == nil || c.sess.ID != a.Session {
+		return // a row of a session no longer open
+	}
+	switch a.Kind {
+	case rwType, rwNote:
+		if c.locked() {
+			return
+		}
+		if a.Kind == rwType {
+			c.enRow, c.enIn = a.Row, true // typing in it: the row is being entered
+		}
+		if err := c.setCell(a.Row, a.Col, a.Text); err != nil {
+			if a.Kind == rwNote {
+				c.notice = "The note was not kept: " + err.Error()
+			} else {
+				c.notice = err.Error()
+			}
+			return
+		}
+		c.afterChange(ctx)
+	case rwEnter:
+		c.enter(ctx, a.Row, a.Col)
+	case rwFocus:
+		c.enRow, c.enIn = a.Row, true
+	case rwLeave:
+		c.enIn = false
 	}
 }
 
@@ -179,7 +241,18 @@ type readingRow struct {
 	Note               string
 	Locked             bool // the record is sealed: nothing can be typed
 
-	shell *Shell // set when the row is first drawn; go-app keeps it
+	// onAction takes what is done in the row. Unexported: go-app compares
+	// a component's exported fields to decide whether to redraw it, and a
+	// func is never equal, so an exported one would redraw every row on
+	// every edit; it keeps the one given when the row was first drawn.
+	onAction func(RowAction)
+}
+
+func (r *readingRow) act(a RowAction) {
+	if r.onAction != nil && !r.Locked {
+		a.Session, a.Row = r.Session, r.Row
+		r.onAction(a)
+	}
 }
 
 // Render draws the row.
@@ -204,7 +277,6 @@ func (r *readingRow) Render() app.UI {
 // noteCell is the note of the reading (at most session.MaxNoteText bytes;
 // the CSV's note column). Its test id counts rows from 1, as the grid does.
 func (r *readingRow) noteCell() app.UI {
-	c := r.shell
 	num := strconv.Itoa(r.Row + 1)
 	return app.Td().Class("pl-cellwrap pl-note-cell").Body(
 		app.Input().Type("text").Class("pl-cell pl-note").Value(r.Note).
@@ -212,14 +284,7 @@ func (r *readingRow) noteCell() app.UI {
 			Attr("aria-label", "Note of reading "+num).DataSet("testid", "reading-note-"+num).
 			Disabled(r.Locked).
 			OnChange(func(ctx app.Context, e app.Event) {
-				if c.sess == nil || c.sess.ID != r.Session || c.locked() {
-					return
-				}
-				if err := c.sess.SetCell(r.Row, session.ColumnNote, ctx.JSSrc().Get("value").String(), time.Now()); err != nil {
-					c.notice = "The note was not kept: " + err.Error()
-					return
-				}
-				c.edited(ctx)
+				r.act(RowAction{Kind: rwNote, Col: session.ColumnNote, Text: ctx.JSSrc().Get("value").String()})
 			}),
 	)
 }
@@ -229,7 +294,6 @@ func (r *readingRow) cell(col session.Column, testid, text, problem string, more
 	if col == session.ColumnY {
 		label = "y"
 	}
-	c := r.shell
 	// The handlers read the row from r when they run: go-app keeps an
 	// element's first handler when a new one comes from the same function
 	// literal, and updates r's fields in place.
@@ -238,35 +302,25 @@ func (r *readingRow) cell(col session.Column, testid, text, problem string, more
 		Attr("aria-label", label+" of reading "+strconv.Itoa(r.Row+1)).
 		DataSet("testid", testid).DataSet("row", r.Row).Disabled(r.Locked).
 		OnInput(func(ctx app.Context, e app.Event) {
-			if c.sess == nil || c.sess.ID != r.Session || c.locked() {
-				return
-			}
-			c.enRow, c.enIn = r.Row, true // typing in it: the row is being entered
-			if err := c.sess.SetCell(r.Row, col, ctx.JSSrc().Get("value").String(), time.Now()); err != nil {
-				c.notice = err.Error()
-				return
-			}
-			c.edited(ctx)
+			r.act(RowAction{Kind: rwType, Col: col, Text: ctx.JSSrc().Get("value").String()})
 		}).
 		OnKeyDown(func(ctx app.Context, e app.Event) {
 			if e.Get("key").String() != "Enter" {
 				return
 			}
 			e.PreventDefault()
-			c.enter(ctx, r.Row, col)
+			r.act(RowAction{Kind: rwEnter, Col: col})
 		}).
 		OnFocus(func(ctx app.Context, e app.Event) {
 			keepCellInView(ctx.JSSrc())
-			if !c.enIn || c.enRow != r.Row {
-				c.ui.Dispatch(func(app.Context) { c.enRow, c.enIn = r.Row, true })
-			}
+			r.act(RowAction{Kind: rwFocus})
 		}).
 		OnBlur(func(ctx app.Context, e app.Event) {
 			// Moving to the other cell of the same row keeps the row.
 			if to := e.Get("relatedTarget"); to.Truthy() && to.Get("dataset").Get("row").String() == strconv.Itoa(r.Row) {
 				return
 			}
-			c.ui.Dispatch(func(app.Context) { c.enIn = false })
+			r.act(RowAction{Kind: rwLeave})
 		})
 	if problem != "" {
 		in = in.Attr("aria-invalid", "true").Attr("title", problem)
@@ -289,8 +343,10 @@ func (c *Shell) enter(ctx app.Context, row int, col session.Column) {
 	}
 	next := row + 1
 	if next >= len(c.sess.Readings) {
-		c.sess.AddRow("", "", time.Now())
-		c.edited(ctx)
+		if _, err := c.addRow(); err != nil {
+			return
+		}
+		c.afterChange(ctx)
 	}
 	if p := next / pageSize; p != c.page {
 		c.page = p

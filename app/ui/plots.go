@@ -4,7 +4,6 @@ import (
 	"math"
 	"strconv"
 	"strings"
-	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
@@ -712,24 +711,24 @@ func (c *Shell) excludePoint(ctx app.Context, row int) {
 	if c.refuseLocked() {
 		return
 	}
-	if err := c.sess.Exclude(row, reason, time.Now()); err != nil {
+	if err := c.exclude(row, reason); err != nil {
 		c.plMsg = err.Error()
 		return
 	}
 	c.plReason, c.plMsg = "", ""
-	c.edited(c.shellCtx(ctx))
+	c.afterChange(c.shellCtx(ctx))
 }
 
 func (c *Shell) includePoint(ctx app.Context, row int) {
 	if c.refuseLocked() {
 		return
 	}
-	if err := c.sess.Include(row, time.Now()); err != nil {
+	if err := c.include(row); err != nil {
 		c.plMsg = err.Error()
 		return
 	}
 	c.plMsg = ""
-	c.edited(c.shellCtx(ctx))
+	c.afterChange(c.shellCtx(ctx))
 }
 
 // shellCtx returns the Shell's own context when it has one: work that

@@ -17,16 +17,9 @@ import (
 
 // recordUI is the Shell's state of the record cards.
 type recordUI struct {
-	recUnlock  string           // ID of the sealed session the technician opened for its next revision
 	recLast    *session.Session // the last record of the same instrument (and site), offered
 	recKey     string           // instrument key and site recLast was looked up for
 	recNoOffer string           // ID of the session whose offer was used or dismissed
-}
-
-// locked reports whether the open record is sealed and not opened for its
-// next revision: its readings, settings and record cards take no input.
-func (c *Shell) locked() bool {
-	return c.sess != nil && c.sess.Seal != nil && c.recUnlock != c.sess.ID
 }
 
 // refuseLocked says so and returns true when the open record is locked
@@ -53,8 +46,8 @@ func (c *Shell) recordAction(a RecordAction) {
 		if a.Kind == raSeal || a.Kind == raReview {
 			// Signing is no edit to undo: the stacks start again from
 			// the sealed state.
-			c.unSess = nil
-			c.recUnlock = ""
+			c.undoRestart()
+			c.unlocked = ""
 		}
 		c.edited(ctx)
 		c.lookUpLast()
@@ -75,7 +68,7 @@ func (c *Shell) applyRecord(a RecordAction, now time.Time) error {
 	case raReview:
 		return s.SignReviewed(a.Value, now)
 	case raNewRevision:
-		c.recUnlock = s.ID
+		c.unlocked = s.ID
 		return nil
 	}
 	if c.locked() {
@@ -416,7 +409,7 @@ func (c *Shell) renderUnknowns() app.UI {
 // renderSign is the sign-off card.
 func (c *Shell) renderSign() app.UI {
 	s := c.sess
-	info := sealInfo{Revision: s.Revision, Unlocked: c.recUnlock == s.ID}
+	info := sealInfo{Revision: s.Revision, Unlocked: c.unlocked == s.ID}
 	if se := s.Seal; se != nil {
 		info.Sealed, info.PerformedBy, info.Digest = true, se.PerformedBy, se.Digest
 		info.PerformedAt = se.PerformedAt.Local().Format("2 Jan 2006 15:04")

@@ -66,6 +66,7 @@ func (c *Shell) renderNotes() []app.UI {
 		})),
 		c.renderTransferStrips(),
 		app.Div().Class("pl-slot").Body(app.If(c.listOpen, c.renderSessions)),
+		app.Div().Class("pl-slot").Body(app.If(c.instOpen, c.renderInstruments)),
 	}
 }
 
@@ -86,7 +87,7 @@ func (c *Shell) renderBar() app.UI {
 		app.Span().Class("pl-save").DataSet("testid", "save-status").DataSet("state", c.saveState.String()).
 			Attr("role", "status").Text(c.saveText()),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Try again").DataSet("testid", "save-retry").
-			Hidden(!c.retryable()).OnClick(c.retrySave),
+			Hidden(!c.retryable()).OnClick(func(ctx app.Context, e app.Event) { c.retrySave() }),
 		app.Div().Class("pl-bar-acts").Body(c.renderBarActions()...),
 	)
 }
@@ -97,7 +98,16 @@ func (c *Shell) renderBarActions() []app.UI {
 	return []app.UI{
 		app.Button().Class("pl-btn pl-btn-quiet").Text(listLabel(c.listOpen, len(c.sessions))).
 			DataSet("testid", "sessions-open").Attr("aria-expanded", strconv.FormatBool(c.listOpen)).
-			OnClick(func(ctx app.Context, e app.Event) { c.listOpen = !c.listOpen; c.confirmDel = "" }),
+			OnClick(func(ctx app.Context, e app.Event) {
+				c.listOpen = !c.listOpen
+				c.confirmDel = ""
+				if c.listOpen {
+					c.instOpen = false
+					c.refreshInstruments() // the due marks
+				}
+			}),
+		app.Button().Class("pl-btn pl-btn-quiet").Text("Instruments").DataSet("testid", "instruments-open").
+			Attr("aria-expanded", strconv.FormatBool(c.instOpen)).OnClick(c.toggleInstruments),
 		app.Button().Class("pl-btn").Text("New session").DataSet("testid", "session-new").OnClick(c.onNew),
 	}
 }
@@ -114,11 +124,11 @@ func (c *Shell) onField(field string) app.EventHandler {
 		if c.sess == nil || c.refuseLocked() {
 			return
 		}
-		if err := c.sess.SetField(field, ctx.JSSrc().Get("value").String(), time.Now()); err != nil {
+		if err := c.setField(field, ctx.JSSrc().Get("value").String()); err != nil {
 			c.notice = err.Error()
 			return
 		}
-		c.edited(ctx)
+		c.afterChange(ctx)
 	}
 }
 
@@ -130,7 +140,7 @@ func (c *Shell) onNew(ctx app.Context, e app.Event) {
 	}
 	c.show(s)
 	c.listOpen = false
-	c.save(ctx)
+	c.save()
 	st := c.st
 	ctx.Async(func() {
 		if st != nil {

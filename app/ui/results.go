@@ -7,25 +7,54 @@ import (
 
 	"pairline/app/numfmt"
 	"pairline/app/wording"
+	"pairline/fitcore"
 )
 
-// renderLine draws the fitted line's headline numbers, or the sentence that
-// says why there is no line yet.
+// renderLine hands the line card its data.
 func (c *Shell) renderLine() app.UI {
-	rep := c.view.report
+	return &lineCard{
+		Report: c.view.report, Message: c.view.message, Digits: c.view.digits, Stale: c.view.stale,
+		XUnit: c.sess.XUnit, YUnit: c.sess.YUnit, MoreOpen: c.anMoreOpen, OnAction: c.cardAction,
+	}
+}
+
+// lineCard draws the fitted line's headline numbers and, behind "More
+// numbers", every statistic of the fit; or the sentence that says why
+// there is no line yet.
+type lineCard struct {
+	app.Compo
+
+	Report       *fitcore.Report // nil: no line (Message says why)
+	Message      string
+	Digits       int  // most significant digits typed in a usable cell
+	Stale        bool // the readings changed since Report was computed
+	XUnit, YUnit string
+	MoreOpen     bool // "More numbers" is open
+	OnAction     func(CardAction)
+}
+
+func (r *lineCard) act(a CardAction) {
+	if r.OnAction != nil {
+		r.OnAction(a)
+	}
+}
+
+// Render draws the card.
+func (r *lineCard) Render() app.UI {
+	rep := r.Report
 	if rep == nil {
 		return app.Section().Class("pl-card pl-line").Attr("aria-label", "Line").DataSet("testid", "line-card").Body(
 			app.H2().Text("Line"),
-			app.P().Class("pl-message").DataSet("testid", "result-message").Text(c.view.message),
+			app.P().Class("pl-message").DataSet("testid", "result-message").Text(r.Message),
 		)
 	}
-	sig := numfmt.Precision(c.view.digits)
-	xu, yu := c.sess.XUnit, c.sess.YUnit
+	sig := numfmt.Precision(r.Digits)
+	xu, yu := r.XUnit, r.YUnit
 	slopeUnit := ""
 	if xu != "" || yu != "" {
 		slopeUnit = wording.SlopeUnit(yu, xu)
 	}
-	slopeUnit, yu = c.anHeadlineUnits(rep, slopeUnit, yu)
+	slopeUnit, yu = anHeadlineUnits(rep, xu, yu, slopeUnit)
 	// Each estimate to the decimal place of its standard error's second
 	// significant digit (numfmt.Estimate).
 	slopeV, slopeU := numfmt.Estimate(rep.Slope.Estimate, rep.Slope.SE, sig)
@@ -34,8 +63,8 @@ func (c *Shell) renderLine() app.UI {
 		app.H2().Text("Line"),
 		// Always in the markup, so that its coming and going never makes
 		// go-app re-mount the numbers after it.
-		app.P().Class("pl-stale").DataSet("testid", "result-stale").Hidden(!c.view.stale).Text(staleNote(c.view.stale)),
-		app.P().Class("pl-equation").Text(c.anEquation(rep, sig)),
+		app.P().Class("pl-stale").DataSet("testid", "result-stale").Hidden(!r.Stale).Text(staleNote(r.Stale)),
+		app.P().Class("pl-equation").Text(anEquation(rep, sig)),
 		app.Dl().Class("pl-figures").Body(
 			figure("result-n", wording.PairsUsed, float64(rep.N), itoa(rep.N), ""),
 			figure("result-slope", wording.Slope, rep.Slope.Estimate, slopeV, slopeUnit+"  ± "+slopeU+" (SE)"),
@@ -44,7 +73,64 @@ func (c *Shell) renderLine() app.UI {
 			figure("result-r-squared", wording.RSquared, rep.RSquared, numfmt.Decimals(rep.RSquared, 6), ""),
 			figure("result-residual-se", wording.ResidualSD, rep.ResidualSE, numfmt.Sig(rep.ResidualSE, 3), yu),
 		),
-		c.renderMoreNumbers(),
+		r.moreNumbers(),
+	)
+}
+
+// moreNumbers is the "More numbers" disclosure: every statistic of the
+// fit, each with data-value for tests.
+func (r *lineCard) moreNumbers() app.UI {
+	open := r.MoreOpen
+	label := "More numbers ▾"
+	if open {
+		label = "Fewer numbers ▴"
+	}
+	return app.Div().Class("an-more").Body(
+		app.Button().Class("pl-btn pl-btn-quiet an-toggle").Text(label).DataSet("testid", "more-numbers").
+			Attr("aria-expanded", strconv.FormatBool(open)).
+			OnClick(func(ctx app.Context, e app.Event) { r.act(CardAction{Kind: caToggle, Key: "more-numbers"}) }),
+		app.If(open, r.numbers),
+	)
+}
+
+func (r *lineCard) numbers() app.UI {
+	rep := r.Report
+	sig := numfmt.Precision(r.Digits)
+	sc := anScaleOf(rep, r.XUnit, r.YUnit)
+	lvl := anPercent(rep.Level)
+	origin := rep.Model == fitcore.ModelOrigin
+	rows := []app.UI{
+		anCoefTable("slope", wording.Slope, rep.Slope, sc.slope, lvl, sig),
+	}
+	if !origin {
+		rows = append(rows, anCoefTable("intercept", wording.Intercept, rep.Intercept, sc.y, lvl, sig))
+	}
+	fit := []app.UI{
+		anRow("result-residual-se-full", wording.ResidualSD, rep.ResidualSE, numfmt.Sig(rep.ResidualSE, sig), sc.y),
+		anRow("result-df", wording.DegreesOfFreedom, rep.DF, anDF(rep.DF), ""),
+		anRow("result-r-full", wording.CorrelationR, rep.R, numfmt.Decimals(rep.R, 6), ""),
+		anRow("result-r-squared-full", wording.RSquared, rep.RSquared, numfmt.Decimals(rep.RSquared, 6), ""),
+		anRow("result-adj-r-squared", wording.AdjRSquared, rep.AdjRSquared, numfmt.Decimals(rep.AdjRSquared, 6), ""),
+		anRow("result-f", wording.FLine, rep.F, numfmt.Sig(rep.F, 4), ""),
+		anRow("result-f-p", wording.PofF, rep.FP, anP(rep.FP), ""),
+	}
+	if !origin {
+		fit = append(fit, anRow("result-cov", wording.Covariance, rep.CovSlopeIntercept, numfmt.Sig(rep.CovSlopeIntercept, 4), sc.cov))
+	}
+	fit = append(fit,
+		anRow("result-mean-x", wording.MeanX, rep.MeanX, numfmt.Sig(rep.MeanX, sig), ""),
+		anRow("result-mean-y", wording.MeanY, rep.MeanY, numfmt.Sig(rep.MeanY, sig), ""),
+	)
+	return app.Div().Class("an-numbers").DataSet("testid", "more-numbers-body").Body(
+		app.If(sc.transformed, func() app.UI {
+			return app.P().Class("an-hint").Text("These numbers are on the fitted scale (" + sc.yName + "). The table “Line in original units” below the advice gives the line back in " + unitOr(r.YUnit, "y") + ".")
+		}),
+		app.Div().Class("an-coefs").Body(rows...),
+		app.Table().Class("an-table an-kv").Body(
+			app.Caption().Text(wording.FitAsAWhole),
+			app.TBody().Body(fit...),
+		),
+		anAnova(rep, sig, sc),
 	)
 }
 

@@ -82,7 +82,7 @@ func TestSaveFailureShown(t *testing.T) {
 	c.edited(ctx)
 	j, _ := c.saves.next()
 	c.saves.fail(j, store.ErrQuota)
-	c.saved(ctx, j.sum, store.ErrQuota, nil)
+	c.saveDone(ctx, j.sum, store.ErrQuota, nil)
 	if c.saveState != SaveFailed {
 		t.Fatalf("save state %q after a refusal, want failed", c.saveState)
 	}
@@ -107,7 +107,7 @@ func TestSaveFailureShown(t *testing.T) {
 		t.Fatalf("the retried state does not hold the later edit: %v", err)
 	}
 	c.saves.fail(j, store.ErrQuota)
-	c.saved(ctx, j.sum, store.ErrQuota, nil)
+	c.saveDone(ctx, j.sum, store.ErrQuota, nil)
 
 	// Another session: its own status; the first one is named in a notice
 	// and its state is still kept for the next try.
@@ -130,7 +130,7 @@ func TestSaveFailureShown(t *testing.T) {
 	c.saves.retry()
 	j, _ = c.saves.next()
 	c.usageAt = time.Now() // no storage figures to ask for natively
-	c.saved(ctx, j.sum, nil, nil)
+	c.saveDone(ctx, j.sum, nil, nil)
 	if c.saveState == SaveFailed {
 		t.Error("a success of another session left the open one failed")
 	}

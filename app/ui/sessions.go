@@ -59,12 +59,24 @@ func (c *Shell) sessionItem(s store.Summary) app.UI {
 			OnClick(func(ctx app.Context, e app.Event) { c.open(ctx, s.ID) }, scope).Body(
 			app.Span().Class("pl-session-title").Text(s.Title),
 			app.Span().Class("pl-session-meta").Text(sessionMeta(s)),
+			c.sessionDue(s.ID),
 		),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Rename").DataSet("testid", "session-rename").
 			OnClick(func(ctx app.Context, e app.Event) { c.renaming, c.renameText = s.ID, s.Title }, scope),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Delete").DataSet("testid", "session-delete").
 			OnClick(func(ctx app.Context, e app.Event) { c.confirmDel = s.ID }, scope),
 	)
+}
+
+// sessionDue is the due mark of the newest calibration of an instrument
+// (an empty span for the other sessions, so that the button's children
+// keep their places).
+func (c *Shell) sessionDue(id string) app.UI {
+	m, ok := c.dueMarkOf(id)
+	if !ok {
+		return app.Span().Class("pl-due-slot")
+	}
+	return app.Span().Class("pl-due pl-due-"+m.State).DataSet("testid", "session-due").DataSet("state", m.State).Text(m.Text)
 }
 
 func sessionMeta(s store.Summary) string {
@@ -102,11 +114,11 @@ func (c *Shell) rename(ctx app.Context, id, title string) {
 		if c.refuseLocked() {
 			return
 		}
-		if err := c.sess.SetField("title", title, time.Now()); err != nil {
+		if err := c.setField("title", title); err != nil {
 			c.notice = err.Error()
 			return
 		}
-		c.edited(ctx)
+		c.afterChange(ctx)
 		return
 	}
 	st := c.st

@@ -4,7 +4,6 @@ import (
 	"math"
 	"strconv"
 	"strings"
-	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
@@ -31,18 +30,6 @@ type analysisUI struct {
 	anLineX               []float64 // x values of the original-units table (transformed fits)
 	anReqSeq              int       // counts query changes, to answer only the latest in big sessions
 
-	// anUndo holds the settings before the advice was applied, for revert,
-	// and anUndoFor the session they belong to.
-	anUndo    *session.Settings
-	anUndoFor string
-
-	// Acceptance templates, kept in the browser's localStorage.
-	// anHandlers holds this render's event handlers by the element's
-	// data-an key. go-app keeps an element's first handler when the new
-	// one comes from the same function literal, so handlers that capture
-	// per-element values (a row, a field, a template) are looked up here at
-	// event time instead (see anOn).
-	anHandlers map[string]app.EventHandler
 	// anFieldVals is the text each number field was last rendered with,
 	// and anSeenSess the session the fields were last synced for: go-app
 	// leaves an input's text in place when its value becomes empty, so
@@ -50,30 +37,11 @@ type analysisUI struct {
 	anFieldVals map[string]string
 	anSeenSess  string
 
+	// Acceptance templates, kept in the browser's localStorage.
 	anTemplates    []accTemplate
 	anTplName      string
 	anTplMsg       string
 	anTplConfirmDl string
-}
-
-// anOn registers h under key for this render and returns the dispatcher;
-// the element must carry DataSet("an", key).
-func (c *Shell) anOn(key string, h app.EventHandler) app.EventHandler {
-	if c.anHandlers == nil {
-		c.anHandlers = map[string]app.EventHandler{}
-	}
-	c.anHandlers[key] = h
-	return c.anDispatch
-}
-
-// anDispatch runs the handler registered for the element's data-an key,
-// then brings the number fields in line with the new state.
-func (c *Shell) anDispatch(ctx app.Context, e app.Event) {
-	key := ctx.JSSrc().Get("dataset").Get("an").String()
-	if h := c.anHandlers[key]; h != nil {
-		h(ctx, e)
-	}
-	ctx.Defer(func(ctx app.Context) { c.anResync() })
 }
 
 // anResync writes each number field's rendered text into the page, except
@@ -139,22 +107,14 @@ func (c *Shell) anQueries(o *fitcore.Options, x []float64) {
 // anSetSettings stores changed settings in the session (and its history)
 // and re-analyses.
 func (c *Shell) anSetSettings(ctx app.Context, st session.Settings) {
-	if c.sess == nil {
+	if c.sess == nil || c.refuseLocked() {
 		return
 	}
-	if c.refuseLocked() {
-		return
-	}
-	st = tidySettings(st)
-	if _, err := st.Options().Normalize(); err != nil {
+	if err := c.setSettings(st); err != nil {
 		c.notice = "This setting could not be used: " + err.Error()
 		return
 	}
-	if err := c.sess.SetSettings(st, time.Now()); err != nil {
-		c.notice = "This setting could not be used: " + err.Error()
-		return
-	}
-	c.edited(ctx)
+	c.afterChange(ctx)
 }
 
 // tidySettings drops what the other settings make meaningless, so that the
@@ -332,9 +292,9 @@ var anTransforms = []struct {
 
 var anLevels = []float64{0.90, 0.95, 0.99}
 
-// renderSettings draws the fit settings: model, scale, confidence level,
-// reference values and reading uncertainties. Every change is stored in
-// the session through SetSettings.
+// renderSettings hands the settings card its data: the settings as fitcore
+// reads them (weights imply a weighted model) and the text of each number
+// field shown, noted for anResync.
 func (c *Shell) renderSettings() app.UI {
 	c.anSyncOnSwitch()
 	st := c.sess.Settings
@@ -358,141 +318,267 @@ func (c *Shell) renderSettings() app.UI {
 			custom = false
 		}
 	}
+	shown := map[string]bool{
+		"settings_variance_ratio": model == fitcore.ModelDeming,
+		"settings_box_cox_lambda": tr == fitcore.TransformBoxCox,
+		"settings_level":          custom || c.anOtherOpen,
+	}
+	fields := map[string]string{}
+	for _, f := range settingsFields {
+		if show, ok := shown[f.name]; !ok || show {
+			fields[f.name] = f.text(st)
+		}
+	}
+	if c.anFieldVals == nil {
+		c.anFieldVals = map[string]string{}
+	}
+	for f, v := range fields {
+		c.anFieldVals[f] = v
+	}
+	return &settingsCard{
+		Model: model, Transform: tr, Weights: st.Weights, Level: level, Custom: custom, OtherOpen: c.anOtherOpen,
+		XUncertain: st.XUncertainty > 0, XUnit: c.sess.XUnit, YUnit: c.sess.YUnit,
+		Fields: fields, FieldErr: c.anFieldErr, OnAction: c.cardAction,
+	}
+}
+
+// applySetting makes a change asked for on the settings card: a chip (Key
+// "model:…", "weights:…", "transform:…", "level:0.95", "level:other") or a
+// number field (Key the field's name, Text as typed; parsed as the
+// readings are), stored through the controller (anSetSettings).
+func (c *Shell) applySetting(ctx app.Context, a CardAction) {
+	st := c.anSettings()
+	if a.Kind == caSetting {
+		kind, v, _ := strings.Cut(a.Key, ":")
+		switch kind {
+		case "model":
+			c.anSetSettings(ctx, settingsWithModel(st, fitcore.Model(v)))
+		case "weights":
+			c.anSetSettings(ctx, settingsWithWeights(st, fitcore.WeightScheme(v)))
+		case "transform":
+			c.anSetSettings(ctx, settingsWithTransform(st, fitcore.Transform(v)))
+		case "level":
+			if v == "other" {
+				c.anOtherOpen = true
+				return
+			}
+			l, err := strconv.ParseFloat(v, 64)
+			if err != nil {
+				return
+			}
+			c.anOtherOpen = false
+			c.anSetSettings(ctx, settingsWithLevel(st, l))
+		}
+		return
+	}
+	f, ok := settingsField(a.Key)
+	if !ok {
+		return
+	}
+	p, ok := c.anOptional(a.Key, a.Text)
+	if !ok {
+		return
+	}
+	next, msg := f.set(st, p)
+	switch {
+	case msg == errKeep:
+	case msg != "":
+		c.anFieldErr[a.Key] = msg
+	default:
+		c.anSetSettings(ctx, next)
+	}
+}
+
+// errKeep, as the message of a settings field's set, leaves the settings
+// as they are without a word (an emptied level field).
+const errKeep = "\x00"
+
+// settingsFields are the settings card's number fields: the name (its
+// test id with "-" for "_"), label and hint, the text it shows for the
+// settings, and the settings with the value typed (nil: emptied), or why
+// the value is not used. Adding a numeric setting is an entry here, its
+// place in settingsCard.Render and its settingsWith… function.
+var settingsFields = []settingField{
+	{"settings_variance_ratio", "Variance ratio δ = var(y errors) / var(x errors)", "1 when left empty",
+		func(st session.Settings) string { return anZeroText(st.VarianceRatio) },
+		func(st session.Settings, p *float64) (session.Settings, string) {
+			return settingsWithVarianceRatio(st, p), ""
+		}},
+	{"settings_box_cox_lambda", "Power λ", "estimated when left empty",
+		func(st session.Settings) string { return anOptText(st.BoxCoxLambda) },
+		func(st session.Settings, p *float64) (session.Settings, string) { return settingsWithLambda(st, p), "" }},
+	{"settings_level", "Confidence level in %", levelRangeText(),
+		func(st session.Settings) string {
+			if st.Level == 0 {
+				return numfmt.Full(anPct(fitcore.DefaultLevel))
+			}
+			return numfmt.Full(anPct(st.Level))
+		},
+		func(st session.Settings, p *float64) (session.Settings, string) {
+			if p == nil {
+				return st, errKeep
+			}
+			l, msg := levelFromPercent(*p)
+			if msg != "" {
+				return st, msg
+			}
+			return settingsWithLevel(st, l), ""
+		}},
+	{"settings_slope_ref", "Test the slope against", "1 when left empty",
+		func(st session.Settings) string { return anOptText(st.SlopeRef) },
+		func(st session.Settings, p *float64) (session.Settings, string) {
+			return settingsWithSlopeRef(st, p), ""
+		}},
+	{"settings_intercept_ref", "Test the intercept against", "0 when left empty",
+		func(st session.Settings) string { return anOptText(st.InterceptRef) },
+		func(st session.Settings, p *float64) (session.Settings, string) {
+			return settingsWithInterceptRef(st, p), ""
+		}},
+	{"settings_x_uncertainty", "Standard uncertainty of one x", "empty = x exact",
+		func(st session.Settings) string { return anZeroText(st.XUncertainty) },
+		func(st session.Settings, p *float64) (session.Settings, string) {
+			return settingsWithUncertainty(st, true, p), ""
+		}},
+	{"settings_y_uncertainty", "Standard uncertainty of one y", "empty = not given",
+		func(st session.Settings) string { return anZeroText(st.YUncertainty) },
+		func(st session.Settings, p *float64) (session.Settings, string) {
+			return settingsWithUncertainty(st, false, p), ""
+		}},
+}
+
+// settingField is one number field of the settings card (settingsFields).
+type settingField struct {
+	name, label, hint string
+	text              func(session.Settings) string
+	set               func(st session.Settings, p *float64) (session.Settings, string)
+}
+
+// settingsField finds the settings card's number field by name.
+func settingsField(name string) (f settingField, ok bool) {
+	for _, f := range settingsFields {
+		if f.name == name {
+			return f, true
+		}
+	}
+	return f, false
+}
+
+// settingsCard draws the fit settings: model, scale, confidence level,
+// reference values and reading uncertainties.
+type settingsCard struct {
+	app.Compo
+
+	Model     fitcore.Model
+	Transform fitcore.Transform
+	Weights   fitcore.WeightScheme
+	Level     float64
+	Custom    bool // Level is none of the chips' (anLevels)
+	OtherOpen bool // "Other…" was chosen: the level field is shown
+
+	XUncertain   bool // an x uncertainty is given
+	XUnit, YUnit string
+
+	Fields   map[string]string // the text of each number field shown, by name
+	FieldErr map[string]string // why a typed value was not used, by field
+
+	OnAction func(CardAction)
+}
+
+func (r *settingsCard) act(a CardAction) {
+	if r.OnAction != nil {
+		r.OnAction(a)
+	}
+}
+
+// chip is one choice; its data-setting says what it sets, read when it is
+// pressed (every chip's handler is the same function literal, and go-app
+// keeps an element's first one).
+func (r *settingsCard) chip(testid, label string, on bool, setting string) app.UI {
+	return anChipUI(testid, label, on).DataSet("setting", setting).OnClick(func(ctx app.Context, e app.Event) {
+		r.act(CardAction{Kind: caSetting, Key: ctx.JSSrc().Get("dataset").Get("setting").String()})
+	})
+}
+
+// field is the number field of settingsFields named field; unit, when
+// given, follows its label in brackets.
+func (r *settingsCard) field(field, unit string) app.UI {
+	f, _ := settingsField(field)
+	label := f.label
+	if unit != "" {
+		label += " " + unit
+	}
+	return numberField(field, label, f.hint, r.Fields[field], r.FieldErr[field], func(ctx app.Context, e app.Event) {
+		src := ctx.JSSrc()
+		r.act(CardAction{Kind: caSettingField, Key: src.Get("dataset").Get("field").String(), Text: src.Get("value").String()})
+	})
+}
+
+// Render draws the card.
+func (r *settingsCard) Render() app.UI {
+	model, tr, level := r.Model, r.Transform, r.Level
 	return app.Section().Class("pl-card an-settings").Attr("aria-label", "Fit settings").DataSet("testid", "settings").Body(
 		app.H2().Text("How the line is fitted"),
-		c.anChoice("Model", "settings-model", func() []app.UI {
+		anChoice("Model", "settings-model", func() []app.UI {
 			out := make([]app.UI, len(anModels))
 			for i, m := range anModels {
-				out[i] = c.anChip("settings-model-"+string(m.m), m.label, model == m.m, func(ctx app.Context, e app.Event) {
-					c.anSetSettings(ctx, settingsWithModel(c.anSettings(), m.m))
-				})
+				out[i] = r.chip("settings-model-"+string(m.m), m.label, model == m.m, "model:"+string(m.m))
 			}
 			return out
 		}()),
 		app.If(model == fitcore.ModelWeighted, func() app.UI {
-			return c.anChoice("Weights", "settings-weights", func() []app.UI {
+			return anChoice("Weights", "settings-weights", func() []app.UI {
 				out := make([]app.UI, len(anWeightSchemes))
 				for i, w := range anWeightSchemes {
-					out[i] = c.anChip("settings-weights-"+string(w.w), w.label, st.Weights == w.w, func(ctx app.Context, e app.Event) {
-						c.anSetSettings(ctx, settingsWithWeights(c.anSettings(), w.w))
-					})
+					out[i] = r.chip("settings-weights-"+string(w.w), w.label, r.Weights == w.w, "weights:"+string(w.w))
 				}
 				return out
 			}())
 		}),
 		app.If(model == fitcore.ModelDeming, func() app.UI {
-			vr := ""
-			if st.VarianceRatio > 0 {
-				vr = numfmt.Full(st.VarianceRatio)
-			}
-			return c.anNumberField("settings_variance_ratio", "Variance ratio δ = var(y errors) / var(x errors)", "1 when left empty", vr,
-				func(ctx app.Context, p *float64) {
-					c.anSetSettings(ctx, settingsWithVarianceRatio(c.anSettings(), p))
-				})
+			return r.field("settings_variance_ratio", "")
 		}),
-		c.anChoice("Scale", "settings-transform", func() []app.UI {
+		anChoice("Scale", "settings-transform", func() []app.UI {
 			out := make([]app.UI, len(anTransforms))
 			for i, t := range anTransforms {
-				out[i] = c.anChip("settings-transform-"+string(t.t), t.label, tr == t.t, func(ctx app.Context, e app.Event) {
-					c.anSetSettings(ctx, settingsWithTransform(c.anSettings(), t.t))
-				})
+				out[i] = r.chip("settings-transform-"+string(t.t), t.label, tr == t.t, "transform:"+string(t.t))
 			}
 			return out
 		}()),
 		app.If(tr == fitcore.TransformBoxCox, func() app.UI {
-			return c.anNumberField("settings_box_cox_lambda", "Power λ", "estimated when left empty", anOptText(st.BoxCoxLambda),
-				func(ctx app.Context, p *float64) {
-					c.anSetSettings(ctx, settingsWithLambda(c.anSettings(), p))
-				})
+			return r.field("settings_box_cox_lambda", "")
 		}),
-		c.anChoice("Confidence level", "settings-level", func() []app.UI {
+		anChoice("Confidence level", "settings-level", func() []app.UI {
 			out := make([]app.UI, 0, len(anLevels)+1)
 			for _, l := range anLevels {
-				out = append(out, c.anChip("settings-level-"+strconv.Itoa(int(l*100+0.5)), anPercent(l), level == l && !c.anOtherOpen, func(ctx app.Context, e app.Event) {
-					c.anOtherOpen = false
-					c.anSetSettings(ctx, settingsWithLevel(c.anSettings(), l))
-				}))
+				out = append(out, r.chip("settings-level-"+strconv.Itoa(int(l*100+0.5)), anPercent(l), level == l && !r.OtherOpen,
+					"level:"+strconv.FormatFloat(l, 'g', -1, 64)))
 			}
-			out = append(out, c.anChip("settings-level-other", "Other…", custom || c.anOtherOpen, func(ctx app.Context, e app.Event) {
-				c.anOtherOpen = true
-			}))
+			out = append(out, r.chip("settings-level-other", "Other…", r.Custom || r.OtherOpen, "level:other"))
 			return out
 		}()),
-		app.If(custom || c.anOtherOpen, func() app.UI {
-			return c.anNumberField("settings_level", "Confidence level in %", levelRangeText(), numfmt.Full(anPct(level)),
-				func(ctx app.Context, p *float64) {
-					if p == nil {
-						return
-					}
-					l, msg := levelFromPercent(*p)
-					if msg != "" {
-						c.anFieldErr["settings_level"] = msg
-						return
-					}
-					c.anSetSettings(ctx, settingsWithLevel(c.anSettings(), l))
-				})
+		app.If(r.Custom || r.OtherOpen, func() app.UI {
+			return r.field("settings_level", "")
 		}),
 		app.Div().Class("an-fields").Body(
-			c.anNumberField("settings_slope_ref", "Test the slope against", "1 when left empty", anOptText(st.SlopeRef),
-				func(ctx app.Context, p *float64) {
-					c.anSetSettings(ctx, settingsWithSlopeRef(c.anSettings(), p))
-				}),
-			c.anNumberField("settings_intercept_ref", "Test the intercept against", "0 when left empty", anOptText(st.InterceptRef),
-				func(ctx app.Context, p *float64) {
-					c.anSetSettings(ctx, settingsWithInterceptRef(c.anSettings(), p))
-				}),
-			c.anNumberField("settings_x_uncertainty", "Standard uncertainty of one x "+anParen(c.sess.XUnit), "empty = x exact", anZeroText(st.XUncertainty),
-				func(ctx app.Context, p *float64) {
-					c.anSetSettings(ctx, settingsWithUncertainty(c.anSettings(), true, p))
-				}),
-			c.anNumberField("settings_y_uncertainty", "Standard uncertainty of one y "+anParen(c.sess.YUnit), "empty = not given", anZeroText(st.YUncertainty),
-				func(ctx app.Context, p *float64) {
-					c.anSetSettings(ctx, settingsWithUncertainty(c.anSettings(), false, p))
-				}),
+			r.field("settings_slope_ref", ""),
+			r.field("settings_intercept_ref", ""),
+			r.field("settings_x_uncertainty", anParen(r.XUnit)),
+			r.field("settings_y_uncertainty", anParen(r.YUnit)),
 		),
-		app.If(st.XUncertainty > 0, func() app.UI {
+		app.If(r.XUncertain, func() app.UI {
 			return app.P().Class("an-hint").Text("With an x uncertainty the checks also test whether x may be treated as exact.")
 		}),
 	)
 }
 
-// anChoice is a labelled group of mutually exclusive buttons.
-func (c *Shell) anChoice(label, testid string, chips []app.UI) app.UI {
-	return app.Div().Class("an-choice").Attr("role", "group").Attr("aria-label", label).DataSet("testid", testid).Body(
-		app.Span().Class("an-choice-label").Text(label),
-		app.Div().Class("an-chips").Body(chips...),
-	)
-}
-
-func (c *Shell) anChip(testid, label string, on bool, h app.EventHandler) app.UI {
-	cls := "an-chip"
-	mark := ""
-	if on {
-		cls += " an-chip-on"
-		mark = "● "
-	}
-	return app.Button().Class(cls).Text(mark+label).DataSet("testid", testid).DataSet("an", testid).
-		Attr("aria-pressed", strconv.FormatBool(on)).OnClick(c.anOn(testid, h))
-}
-
-// anNumberField is a labelled number input applied on change (Enter or
-// leaving the field); empty text passes nil.
-func (c *Shell) anNumberField(field, label, hint, value string, apply func(app.Context, *float64)) app.UI {
-	problem := c.anFieldErr[field]
-	if c.anFieldVals == nil {
-		c.anFieldVals = map[string]string{}
-	}
-	c.anFieldVals[field] = value
+// numberField is a labelled number input sent on change (Enter or leaving
+// the field) to h, which reads the field's name from data-field; the
+// data-an key lets anResync write the text as stored.
+func numberField(field, label, hint, value, problem string, h app.EventHandler) app.UI {
 	in := app.Input().Type("text").Class("an-input").Value(value).
 		Attr("inputmode", "decimal").Attr("autocomplete", "off").Attr("placeholder", hint).
-		DataSet("testid", strings.ReplaceAll(field, "_", "-")).DataSet("an", "field:"+field).
-		OnChange(c.anOn("field:"+field, func(ctx app.Context, e app.Event) {
-			p, ok := c.anOptional(field, ctx.JSSrc().Get("value").String())
-			if !ok {
-				return
-			}
-			apply(ctx, p)
-		}))
+		DataSet("testid", strings.ReplaceAll(field, "_", "-")).DataSet("an", "field:"+field).DataSet("field", field).
+		OnChange(h)
 	if problem != "" {
 		in = in.Attr("aria-invalid", "true")
 	}
@@ -501,6 +587,26 @@ func (c *Shell) anNumberField(field, label, hint, value string, apply func(app.C
 		in,
 		app.If(problem != "", func() app.UI { return app.Span().Class("pl-problem").Text(problem) }),
 	)
+}
+
+// anChoice is a labelled group of mutually exclusive buttons.
+func anChoice(label, testid string, chips []app.UI) app.UI {
+	return app.Div().Class("an-choice").Attr("role", "group").Attr("aria-label", label).DataSet("testid", testid).Body(
+		app.Span().Class("an-choice-label").Text(label),
+		app.Div().Class("an-chips").Body(chips...),
+	)
+}
+
+// anChipUI is a chip of a choice, on or off; its handler is the caller's.
+func anChipUI(testid, label string, on bool) app.HTMLButton {
+	cls := "an-chip"
+	mark := ""
+	if on {
+		cls += " an-chip-on"
+		mark = "● "
+	}
+	return app.Button().Class(cls).Text(mark+label).DataSet("testid", testid).
+		Attr("aria-pressed", strconv.FormatBool(on))
 }
 
 func anOptText(p *float64) string {
@@ -548,8 +654,7 @@ type anScale struct {
 	cov         string // unit of cov(intercept, slope)
 }
 
-func (c *Shell) anScaleOf(rep *fitcore.Report) anScale {
-	xu, yu := c.sess.XUnit, c.sess.YUnit
+func anScaleOf(rep *fitcore.Report, xu, yu string) anScale {
 	s := anScale{yName: "y"}
 	yq, xq := "", ""
 	switch rep.Transform {
@@ -592,67 +697,6 @@ func (c *Shell) anScaleOf(rep *fitcore.Report) anScale {
 	return s
 }
 
-// renderMoreNumbers is the "More numbers" disclosure of the Line card:
-// every statistic of the fit, each with data-value for tests.
-func (c *Shell) renderMoreNumbers() app.UI {
-	rep := c.view.report
-	if rep == nil {
-		return nil
-	}
-	open := c.anMoreOpen
-	label := "More numbers ▾"
-	if open {
-		label = "Fewer numbers ▴"
-	}
-	return app.Div().Class("an-more").Body(
-		app.Button().Class("pl-btn pl-btn-quiet an-toggle").Text(label).DataSet("testid", "more-numbers").DataSet("an", "more-numbers").
-			Attr("aria-expanded", strconv.FormatBool(open)).
-			OnClick(c.anOn("more-numbers", func(ctx app.Context, e app.Event) { c.anMoreOpen = !c.anMoreOpen })),
-		app.If(open, c.anNumbers),
-	)
-}
-
-func (c *Shell) anNumbers() app.UI {
-	rep := c.view.report
-	sig := numfmt.Precision(c.view.digits)
-	sc := c.anScaleOf(rep)
-	lvl := anPercent(rep.Level)
-	origin := rep.Model == fitcore.ModelOrigin
-	rows := []app.UI{
-		anCoefTable("slope", wording.Slope, rep.Slope, sc.slope, lvl, sig),
-	}
-	if !origin {
-		rows = append(rows, anCoefTable("intercept", wording.Intercept, rep.Intercept, sc.y, lvl, sig))
-	}
-	fit := []app.UI{
-		anRow("result-residual-se-full", wording.ResidualSD, rep.ResidualSE, numfmt.Sig(rep.ResidualSE, sig), sc.y),
-		anRow("result-df", wording.DegreesOfFreedom, rep.DF, anDF(rep.DF), ""),
-		anRow("result-r-full", wording.CorrelationR, rep.R, numfmt.Decimals(rep.R, 6), ""),
-		anRow("result-r-squared-full", wording.RSquared, rep.RSquared, numfmt.Decimals(rep.RSquared, 6), ""),
-		anRow("result-adj-r-squared", wording.AdjRSquared, rep.AdjRSquared, numfmt.Decimals(rep.AdjRSquared, 6), ""),
-		anRow("result-f", wording.FLine, rep.F, numfmt.Sig(rep.F, 4), ""),
-		anRow("result-f-p", wording.PofF, rep.FP, anP(rep.FP), ""),
-	}
-	if !origin {
-		fit = append(fit, anRow("result-cov", wording.Covariance, rep.CovSlopeIntercept, numfmt.Sig(rep.CovSlopeIntercept, 4), sc.cov))
-	}
-	fit = append(fit,
-		anRow("result-mean-x", wording.MeanX, rep.MeanX, numfmt.Sig(rep.MeanX, sig), ""),
-		anRow("result-mean-y", wording.MeanY, rep.MeanY, numfmt.Sig(rep.MeanY, sig), ""),
-	)
-	return app.Div().Class("an-numbers").DataSet("testid", "more-numbers-body").Body(
-		app.If(sc.transformed, func() app.UI {
-			return app.P().Class("an-hint").Text("These numbers are on the fitted scale (" + sc.yName + "). The table “Line in original units” below the advice gives the line back in " + unitOr(c.sess.YUnit, "y") + ".")
-		}),
-		app.Div().Class("an-coefs").Body(rows...),
-		app.Table().Class("an-table an-kv").Body(
-			app.Caption().Text(wording.FitAsAWhole),
-			app.TBody().Body(fit...),
-		),
-		c.anAnova(rep, sig, sc),
-	)
-}
-
 // anCoefTable is one coefficient: the estimate, its interval (where a
 // technician looks first), the standard error, the test against the
 // reference value and, only when that reference is not 0, the test against
@@ -690,7 +734,7 @@ func anCoefTable(id, name string, k fitcore.Coefficient, unit, lvl string, sig i
 	)
 }
 
-func (c *Shell) anAnova(rep *fitcore.Report, sig int, sc anScale) app.UI {
+func anAnova(rep *fitcore.Report, sig int, sc anScale) app.UI {
 	if len(rep.Anova) == 0 {
 		return nil
 	}

@@ -157,7 +157,7 @@ func (c *Shell) renderElsewhere() app.UI {
 					// This tab's version replaces the other one, as chosen;
 					// the other tab then takes it as a fast-forward.
 					c.seenID, c.seen = k.id, k.modified
-					c.save(ctx)
+					c.save()
 				}),
 		),
 	)
@@ -184,7 +184,7 @@ func (c *Shell) keepAsCopy(_ app.Context, k *changedElsewhere) {
 	c.show(&cp)
 	c.opened(&cp)
 	c.seen = 0
-	c.save(ctx)
+	c.save()
 	c.notice = "This tab’s version is kept as a new session; the other tab’s version keeps the original."
 	st := c.st
 	ctx.Async(func() { st.SetLast(id) })
@@ -192,12 +192,8 @@ func (c *Shell) keepAsCopy(_ app.Context, k *changedElsewhere) {
 
 // heldByOtherTab keeps this tab from saving while it asks about a version
 // stored by another tab: saving first would overwrite that version before
-// the technician has chosen.
+// the technician has chosen (the controller's held; it says so in the save
+// state).
 func (c *Shell) heldByOtherTab() bool {
-	if c.elsewhere == nil || c.sess == nil || c.elsewhere.id != c.sess.ID {
-		return false
-	}
-	c.saveFor, c.saveState, c.saveWhy = c.sess.ID, SaveFailed, saveHeld
-	c.saveMessage = "another tab stored a newer version of this session; choose which to keep"
-	return true
+	return c.elsewhere != nil && c.sess != nil && c.elsewhere.id == c.sess.ID
 }

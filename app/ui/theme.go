@@ -5,11 +5,10 @@ import (
 )
 
 // fieldUI is the state of the parts made for work in the field: the plots,
-// the report, undo, the theme and the demo. It is embedded in Shell.
+// the report, the theme and the demo. It is embedded in Shell.
 type fieldUI struct {
 	plotsUI
 	reportUI
-	undoUI
 	themeUI
 	demoUI
 	netUI

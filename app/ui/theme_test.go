@@ -28,7 +28,7 @@ func TestUndo(t *testing.T) {
 	for i, p := range [][2]string{{"1", "2.1"}, {"2", "3.9"}, {"3", "6.2"}, {"4", "8.1"}} {
 		s.AddRow(p[0], p[1], t0.Add(time.Duration(i)*time.Minute))
 	}
-	c := &Shell{}
+	c := newShell()
 	c.show(s)
 	c.undoSync()
 	at := t0.Add(time.Hour)

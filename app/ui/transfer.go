@@ -83,7 +83,7 @@ func (c *Shell) mountTransfer(ctx app.Context) {
 		if doc.Get("visibilityState").String() == "hidden" || (len(args) > 0 && args[0].Get("type").String() == "pagehide") {
 			c.ui.Dispatch(func(ctx app.Context) {
 				if c.toSave {
-					c.save(ctx)
+					c.save()
 				}
 			})
 		}

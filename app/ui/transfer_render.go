@@ -103,8 +103,90 @@ func (c *Shell) renderColumnChoice() app.UI {
 	)
 }
 
-// renderTransfer draws the card for files: import, export, share, storage.
+// renderTransfer hands the files card its data.
 func (c *Shell) renderTransfer() app.UI {
+	return &filesCard{
+		ShareOK: c.shareOK, HasResults: c.view.report != nil,
+		ImportReport: c.importReport, ImportSeq: c.importSeq, ImportTiming: c.importTiming,
+		Usage: c.usage, UsageText: c.usageText(), OnAction: c.fileAction,
+	}
+}
+
+// Kinds of FileAction.
+const (
+	faImport        = "import"         // File was picked
+	faShare         = "share"          // share the session file
+	faExportSession = "export-session" // save the session file
+	faExportAll     = "export-all"     // save every stored session in one file
+	faExportCSV     = "export-csv"     // the readings as CSV
+	faExportResults = "export-results" // the results as CSV
+)
+
+// FileAction is one thing asked for on the files card.
+type FileAction struct {
+	Kind string
+	File app.Value // the file picked (faImport)
+}
+
+// fileAction applies what the files card asked for, on the Shell's own
+// context (the card's element may be gone by the time it runs).
+func (c *Shell) fileAction(a FileAction) {
+	apply := func(ctx app.Context) {
+		switch a.Kind {
+		case faImport:
+			c.importFile(ctx, a.File)
+		case faShare:
+			c.shareSession(ctx, app.Event{})
+		case faExportSession:
+			c.exportSession(ctx, app.Event{})
+		case faExportAll:
+			c.exportAll(ctx, app.Event{})
+		case faExportCSV:
+			c.exportCSV(ctx, app.Event{})
+		case faExportResults:
+			c.exportResults(ctx, app.Event{})
+		}
+	}
+	if c.ui.Src() == nil {
+		apply(app.Context{})
+		return
+	}
+	c.ui.Dispatch(apply)
+}
+
+// filesCard draws the card for files: import, export, share, storage.
+type filesCard struct {
+	app.Compo
+
+	ShareOK      bool // the browser can share files
+	HasResults   bool // there is a line whose results can be exported
+	ImportReport string
+	ImportSeq    int
+	ImportTiming string
+	Usage        store.Usage
+	UsageText    string
+
+	OnAction func(FileAction)
+}
+
+func (r *filesCard) act(a FileAction) {
+	if r.OnAction != nil {
+		r.OnAction(a)
+	}
+}
+
+// button is one of the card's buttons; its data-act says what it does,
+// read when it is pressed (one function literal for all of them, and
+// go-app keeps an element's first handler).
+func (r *filesCard) button(cls, label, testid, act string) app.UI {
+	return app.Button().Class(cls).Text(label).DataSet("testid", testid).DataSet("act", act).
+		OnClick(func(ctx app.Context, e app.Event) {
+			r.act(FileAction{Kind: ctx.JSSrc().Get("dataset").Get("act").String()})
+		})
+}
+
+// Render draws the card.
+func (r *filesCard) Render() app.UI {
 	return app.Section().Class("pl-card pl-xfer").Attr("aria-label", "Files").Body(
 		app.H2().Text("Files"),
 		app.Div().Class("pl-xfer-actions").Body(
@@ -119,25 +201,25 @@ func (c *Shell) renderTransfer() app.UI {
 						}
 						f := files.Index(0)
 						ctx.JSSrc().Set("value", "")
-						c.importFile(ctx, f)
+						r.act(FileAction{Kind: faImport, File: f})
 					}),
 			),
-			app.If(c.shareOK, func() app.UI {
-				return app.Button().Class("pl-btn").Text("Share session…").DataSet("testid", "export-share").OnClick(c.shareSession)
+			app.If(r.ShareOK, func() app.UI {
+				return r.button("pl-btn", "Share session…", "export-share", faShare)
 			}),
-			app.Button().Class("pl-btn pl-btn-quiet").Text("Save session file").DataSet("testid", "export-session").OnClick(c.exportSession),
-			app.Button().Class("pl-btn pl-btn-quiet").Text("Save all sessions").DataSet("testid", "export-all").OnClick(c.exportAll),
-			app.Button().Class("pl-btn pl-btn-quiet").Text("Readings as CSV").DataSet("testid", "export-csv").OnClick(c.exportCSV),
-			app.If(c.view.report != nil, func() app.UI {
-				return app.Button().Class("pl-btn pl-btn-quiet").Text("Results as CSV").DataSet("testid", "export-results").OnClick(c.exportResults)
+			r.button("pl-btn pl-btn-quiet", "Save session file", "export-session", faExportSession),
+			r.button("pl-btn pl-btn-quiet", "Save all sessions", "export-all", faExportAll),
+			r.button("pl-btn pl-btn-quiet", "Readings as CSV", "export-csv", faExportCSV),
+			app.If(r.HasResults, func() app.UI {
+				return r.button("pl-btn pl-btn-quiet", "Results as CSV", "export-results", faExportResults)
 			}),
 		),
 		app.P().Class("pl-xfer-hint").Text("Session files (.pairline) and CSV or tab-separated tables can also be dropped onto the page. A block copied from a spreadsheet can be pasted into an x cell."),
-		app.If(c.importReport != "", func() app.UI {
-			return app.P().Class("pl-xfer-report").DataSet("testid", "import-report").DataSet("seq", c.importSeq).DataSet("timing", c.importTiming).Attr("role", "status").Text(c.importReport)
+		app.If(r.ImportReport != "", func() app.UI {
+			return app.P().Class("pl-xfer-report").DataSet("testid", "import-report").DataSet("seq", r.ImportSeq).DataSet("timing", r.ImportTiming).Attr("role", "status").Text(r.ImportReport)
 		}),
 		app.P().Class("pl-xfer-usage").DataSet("testid", "storage-usage").
-			DataSet("used", strconv.FormatInt(c.usage.Used, 10)).DataSet("quota", strconv.FormatInt(c.usage.Quota, 10)).
-			DataSet("persistent", strconv.FormatBool(c.usage.Persistent)).Text(c.usageText()),
+			DataSet("used", strconv.FormatInt(r.Usage.Used, 10)).DataSet("quota", strconv.FormatInt(r.Usage.Quota, 10)).
+			DataSet("persistent", strconv.FormatBool(r.Usage.Persistent)).Text(r.UsageText),
 	)
 }

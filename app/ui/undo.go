@@ -40,7 +40,7 @@ type undoStep struct {
 	hist0, hist1 int
 }
 
-// undoUI keeps the states of the open session before its last edits (for
+// undoUI (the controller's) keeps the states of the open session before its last edits (for
 // undo) and after the edits undone since (for redo). One step per change
 // in the history: typing a cell key by key is one entry, and one step.
 // Undo and redo never rewrite the history: session.Restore appends an entry
@@ -91,82 +91,103 @@ func snapshot(s *session.Session) *session.Session {
 
 // undoSync starts fresh stacks when another session (or another copy of
 // it, from a file or another tab) is open.
-func (c *Shell) undoSync() {
-	if c.sess != nil && c.unSess != c.sess {
-		c.unSess, c.unBase, c.unHist, c.unStack, c.unRedo, c.unMsg = c.sess, snapshot(c.sess), len(c.sess.History), nil, nil, ""
+func (k *controller) undoSync() {
+	if k.sess != nil && k.unSess != k.sess {
+		k.unSess, k.unBase, k.unHist, k.unStack, k.unRedo, k.unMsg = k.sess, snapshot(k.sess), len(k.sess.History), nil, nil, ""
 	}
 }
 
-// undoTrack is called by edited after every change: a change that added to
-// the history pushes the state before it (and ends what redo could bring
-// back); typing on in the cell of the latest change updates its words; a
-// change typed back to what it was takes its step away.
-func (c *Shell) undoTrack() {
-	if c.sess == nil {
+// undoRestart starts the stacks again from the open session's state
+// (signing is no edit to undo).
+func (k *controller) undoRestart() { k.unSess = nil }
+
+// undoTrack is called by changed after every change: a change that added
+// to the history pushes the state before it (and ends what redo could
+// bring back); typing on in the cell of the latest change updates its
+// words; a change typed back to what it was takes its step away.
+func (k *controller) undoTrack() {
+	if k.sess == nil {
 		return
 	}
-	if c.unSess != c.sess {
-		c.undoSync()
+	if k.unSess != k.sess {
+		k.undoSync()
 		return
 	}
-	h := c.sess.History
+	h := k.sess.History
 	n := len(h)
-	top := len(c.unStack) - 1
+	top := len(k.unStack) - 1
 	switch {
-	case n > c.unHist && c.unBase != nil:
-		c.unStack = append(c.unStack, undoStep{state: c.unBase, what: describeEdits(h[c.unHist:]), hist0: c.unHist, hist1: n})
-		if d := undoDepthFor(len(c.sess.Readings)); len(c.unStack) > d {
-			c.unStack = slices.Delete(c.unStack, 0, len(c.unStack)-d)
+	case n > k.unHist && k.unBase != nil:
+		k.unStack = append(k.unStack, undoStep{state: k.unBase, what: describeEdits(h[k.unHist:]), hist0: k.unHist, hist1: n})
+		if d := undoDepthFor(len(k.sess.Readings)); len(k.unStack) > d {
+			k.unStack = slices.Delete(k.unStack, 0, len(k.unStack)-d)
 		}
-		c.unRedo = nil
-		c.unMsg = ""
-	case top >= 0 && c.unStack[top].hist1 >= 0 && c.unStack[top].hist1 == c.unHist:
+		k.unRedo = nil
+		k.unMsg = ""
+	case top >= 0 && k.unStack[top].hist1 >= 0 && k.unStack[top].hist1 == k.unHist:
 		// The latest change goes on (typing into the same cell) or was
 		// typed back to what it was (its entry left the history).
-		st := &c.unStack[top]
+		st := &k.unStack[top]
 		if n <= st.hist0 {
-			c.unStack = c.unStack[:top]
+			k.unStack = k.unStack[:top]
 		} else {
 			st.hist1, st.what = n, describeEdits(h[st.hist0:n])
 		}
-		c.unMsg = ""
+		k.unMsg = ""
 	}
-	c.unBase, c.unHist = snapshot(c.sess), n
+	k.unBase, k.unHist = snapshot(k.sess), n
 }
 
-// undo takes back the latest change.
-func (c *Shell) undo(ctx app.Context, e app.Event) { c.undoRedo(ctx, true) }
+// undo takes back the latest change; false when there was none to take
+// back (or the record is sealed).
+func (k *controller) undo() bool { return k.undoRedo(true) }
 
 // redo makes the latest change undone again.
-func (c *Shell) redo(ctx app.Context, e app.Event) { c.undoRedo(ctx, false) }
+func (k *controller) redo() bool { return k.undoRedo(false) }
 
 // undoRedo moves one step back (undo) or forward (redo): the open session
 // takes the state of the step through session.Restore, and the state it
-// leaves goes on the other stack. The change then runs as any edit does
-// (analysis, verdict, save), and every text field is written again.
-func (c *Shell) undoRedo(ctx app.Context, back bool) {
-	c.undoSync()
-	from, to, field, word := &c.unStack, &c.unRedo, session.FieldUndo, "Undone: "
+// leaves goes on the other stack. The change then runs as any change does
+// (changed: analysis, verdict, save). It reports whether a step was taken.
+func (k *controller) undoRedo(back bool) bool {
+	k.undoSync()
+	from, to, field, word := &k.unStack, &k.unRedo, session.FieldUndo, "Undone: "
 	if !back {
-		from, to, field, word = &c.unRedo, &c.unStack, session.FieldRedo, "Redone: "
+		from, to, field, word = &k.unRedo, &k.unStack, session.FieldRedo, "Redone: "
 	}
-	if c.sess == nil || len(*from) == 0 || c.locked() {
-		return
+	if k.sess == nil || len(*from) == 0 || k.locked() {
+		return false
 	}
 	step := (*from)[len(*from)-1]
-	leaving := snapshot(c.sess)
-	if err := c.sess.Restore(step.state, field, step.what, time.Now()); err != nil {
-		c.unMsg = "Could not do that: " + err.Error()
-		return
+	leaving := snapshot(k.sess)
+	if err := k.sess.Restore(step.state, field, step.what, time.Now()); err != nil {
+		k.unMsg = "Could not do that: " + err.Error()
+		return false
 	}
 	*from = (*from)[:len(*from)-1]
 	*to = append(*to, undoStep{state: leaving, what: step.what, hist0: -1, hist1: -1})
 	// The entries Restore added are no change of their own to undo.
-	c.unBase, c.unHist = snapshot(c.sess), len(c.sess.History)
+	k.unBase, k.unHist = snapshot(k.sess), len(k.sess.History)
+	k.changed()
+	k.unMsg = word + step.what + "."
+	return true
+}
+
+// undo is the undo button: the controller takes the step, then the screen
+// drops what belonged to the state left (a field's error, the selected
+// reading) and writes every text field again.
+func (c *Shell) undo(ctx app.Context, e app.Event) { c.undoRedoShown(ctx, true) }
+
+// redo is the redo button.
+func (c *Shell) redo(ctx app.Context, e app.Event) { c.undoRedoShown(ctx, false) }
+
+func (c *Shell) undoRedoShown(ctx app.Context, back bool) {
+	if !c.undoRedo(back) {
+		return
+	}
 	c.anFieldErr = nil
 	c.plSel = 0
-	c.edited(ctx)
-	c.unMsg = word + step.what + "."
+	c.afterChange(ctx)
 	c.resyncInputs()
 }
 

@@ -37,24 +37,7 @@ func (c *Shell) anRequery(ctx app.Context) {
 	if c.sess == nil {
 		return
 	}
-	run := func() {
-		prev := c.view.report
-		if prev == nil || c.view.stale {
-			c.analyse()
-			return
-		}
-		x, y, _, _ := c.pairs.Pairs(c.sess)
-		opt := c.sess.Settings.Options()
-		c.anQueries(&opt, x)
-		opt.SkipAdvice = true
-		rep, err := fitcore.Analyze(x, y, opt)
-		if err != nil {
-			c.analyse()
-			return
-		}
-		rep.Advice, rep.BoxCox = prev.Advice, prev.BoxCox
-		c.view.report = rep
-	}
+	run := func() { c.requery(c.anQueries) }
 	if len(c.sess.Readings) < requeryLater {
 		run()
 		return
@@ -76,35 +59,84 @@ const (
 	requeryIdle  = 250 * time.Millisecond
 )
 
-// renderUseLine draws "Use the line": an unknown's readings converted to
-// x with the Fieller interval, y predicted at an x with both intervals, and
-// the detection and quantitation limits.
+// renderUseLine hands the "Use the line" card its data.
 func (c *Shell) renderUseLine() app.UI {
-	rep := c.view.report
-	if rep == nil {
+	if c.view.report == nil {
 		return nil
 	}
-	xq, yq := colHead(c.sess.XName, c.sess.XUnit, "x"), colHead(c.sess.YName, c.sess.YUnit, "y")
+	s := c.sess
+	return &useCard{
+		Report: c.view.report, Digits: c.view.digits,
+		XName: s.XName, XUnit: s.XUnit, YName: s.YName, YUnit: s.YUnit,
+		InvText: c.anInvText, InvErr: c.anInvErr, Inverse: len(c.anInvY) > 0,
+		PredText: c.anPredText, PredErr: c.anPredErr, Predict: len(c.anPredX),
+		OnAction: c.cardAction,
+	}
+}
+
+// applyQuery takes a changed question of "Use the line" (Key "inverse" or
+// "predict", typed as Text): parsed as the readings are, then asked of the
+// line (anRequery).
+func (c *Shell) applyQuery(ctx app.Context, a CardAction) {
+	switch a.Key {
+	case "inverse":
+		c.anInvText = a.Text
+		c.anInvY, c.anInvErr = c.anSplitReadings(a.Text)
+	case "predict":
+		c.anPredText = a.Text
+		c.anPredX, c.anPredErr = c.anSplitReadings(a.Text)
+	default:
+		return
+	}
+	c.anRequery(ctx)
+}
+
+// useCard draws "Use the line": an unknown's readings converted to x with
+// the Fieller interval, y predicted at an x with both intervals, and the
+// detection and quantitation limits.
+type useCard struct {
+	app.Compo
+
+	Report                     *fitcore.Report
+	Digits                     int
+	XName, XUnit, YName, YUnit string
+
+	InvText, InvErr string // the readings of an unknown as typed, and why they are not used
+	Inverse         bool   // they were read: Report.Inverse[0] answers them
+	PredText        string // the x values to predict at, as typed
+	PredErr         string
+	Predict         int // how many: the first Report.Predictions answer them
+
+	OnAction func(CardAction)
+}
+
+func (r *useCard) act(a CardAction) {
+	if r.OnAction != nil {
+		r.OnAction(a)
+	}
+}
+
+// Render draws the card.
+func (r *useCard) Render() app.UI {
+	xq, yq := colHead(r.XName, r.XUnit, "x"), colHead(r.YName, r.YUnit, "y")
 	return app.Section().Class("pl-card an-use").Attr("aria-label", "Use the line").Body(
 		app.H2().Text("Use the line"),
-		c.anQueryField("Readings of an unknown: "+yq, "one or more repeats, e.g. 12.4; 12.6; 12.5", "inverse",
-			&c.anInvText, &c.anInvY, &c.anInvErr),
-		c.anInverseResult(),
-		c.anQueryField("Predict the reading at: "+xq, "an x value, or several", "predict",
-			&c.anPredText, &c.anPredX, &c.anPredErr),
-		c.anPredictResult(),
-		c.anLimits(),
+		r.queryField("Readings of an unknown: "+yq, "one or more repeats, e.g. 12.4; 12.6; 12.5", "inverse", r.InvText, r.InvErr),
+		r.inverseResult(),
+		r.queryField("Predict the reading at: "+xq, "an x value, or several", "predict", r.PredText, r.PredErr),
+		r.predictResult(),
+		r.limits(),
 	)
 }
 
-func (c *Shell) anInverseResult() app.UI {
-	rep := c.view.report
-	if len(c.anInvY) == 0 || len(rep.Inverse) == 0 {
+func (r *useCard) inverseResult() app.UI {
+	rep := r.Report
+	if !r.Inverse || len(rep.Inverse) == 0 {
 		return nil
 	}
 	inv := rep.Inverse[0]
-	sig := numfmt.Precision(c.view.digits)
-	xu := c.sess.XUnit
+	sig := numfmt.Precision(r.Digits)
+	xu := r.XUnit
 	lvl := anPercent(rep.Level)
 	el := app.Div().Class("an-answer").DataSet("testid", "inverse-result").
 		DataSet("value", numfmt.Full(inv.X)).DataSet("low", numfmt.Full(inv.Low)).DataSet("high", numfmt.Full(inv.High)).
@@ -147,14 +179,14 @@ func (c *Shell) anInverseResult() app.UI {
 	return el.Body(body...)
 }
 
-func (c *Shell) anPredictResult() app.UI {
-	rep := c.view.report
-	n := len(c.anPredX)
+func (r *useCard) predictResult() app.UI {
+	rep := r.Report
+	n := r.Predict
 	if n == 0 || len(rep.Predictions) < n {
 		return nil
 	}
-	sig := numfmt.Precision(c.view.digits)
-	yu := c.sess.YUnit
+	sig := numfmt.Precision(r.Digits)
+	yu := r.YUnit
 	lvl := anPercent(rep.Level)
 	preds := rep.Predictions[:n]
 	return app.Div().Class("an-answer").DataSet("testid", "predict-result").
@@ -186,12 +218,12 @@ func (c *Shell) anPredictResult() app.UI {
 	)
 }
 
-func (c *Shell) anLimits() app.UI {
-	rep := c.view.report
+func (r *useCard) limits() app.UI {
+	rep := r.Report
 	if rep.Limits == nil {
 		return nil
 	}
-	xu := c.sess.XUnit
+	xu := r.XUnit
 	return app.Div().Class("an-limits").DataSet("testid", "limits").
 		DataSet("lod", numfmt.Full(rep.Limits.LOD)).DataSet("loq", numfmt.Full(rep.Limits.LOQ)).Body(
 		app.H3().Text("Smallest amounts the line can tell apart"),
@@ -203,26 +235,24 @@ func (c *Shell) anLimits() app.UI {
 	)
 }
 
-// anQueryField is one question put to the line (the readings of an unknown,
-// or x values to predict at): the field, kept as typed in *text, parsed into
-// *values, with the problem in *problem shown under it. The ids are
-// name+"-input" and name+"-problem".
-func (c *Shell) anQueryField(label, placeholder, name string, text *string, values *[]float64, problem *string) app.UI {
+// queryField is one question put to the line (the readings of an unknown,
+// or x values to predict at): the field as typed, and the problem shown
+// under it. The ids are name+"-input" and name+"-problem".
+func (r *useCard) queryField(label, placeholder, name, text, problem string) app.UI {
 	return app.Div().Body(
 		app.Label().Class("an-field").Body(
 			app.Span().Class("an-field-label").Text(label),
-			app.Input().Type("text").Class("an-input").Value(*text).
+			app.Input().Type("text").Class("an-input").Value(text).
 				Attr("inputmode", "decimal").Attr("autocomplete", "off").
 				Attr("placeholder", placeholder).
-				DataSet("testid", name+"-input").
+				DataSet("testid", name+"-input").DataSet("query", name).
 				OnInput(func(ctx app.Context, e app.Event) {
-					*text = ctx.JSSrc().Get("value").String()
-					*values, *problem = c.anSplitReadings(*text)
-					c.anRequery(ctx)
+					src := ctx.JSSrc()
+					r.act(CardAction{Kind: caQuery, Key: src.Get("dataset").Get("query").String(), Text: src.Get("value").String()})
 				}, app.EventScope(name)),
 		),
-		app.If(*problem != "", func() app.UI {
-			return app.P().Class("pl-problem").DataSet("testid", name+"-problem").Text(*problem)
+		app.If(problem != "", func() app.UI {
+			return app.P().Class("pl-problem").DataSet("testid", name+"-problem").Text(problem)
 		}),
 	)
 }

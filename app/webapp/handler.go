@@ -56,6 +56,7 @@ var stylesheets = []string{
 	"report.css",
 	"transfer.css",
 	"record.css",
+	"history.css",
 	"themes.css",
 }
 

@@ -1,0 +1,129 @@
+package ui
+
+// The Shell's hook into the instrument view: it reads the stored sessions
+// off the UI goroutine, keeps their history summaries (history.Summarize:
+// decoding and fitting each session once per change), and hands the worded
+// view to the instrumentsPanel. The session list shows the due marks of the
+// same view.
+
+import (
+	"time"
+
+	"github.com/maxence-charriere/go-app/v10/pkg/app"
+
+	"pairline/app/history"
+	"pairline/app/store"
+)
+
+// instState is the Shell's part of the instrument view.
+type instState struct {
+	instOpen            bool
+	instView            *instView
+	instMsg             string
+	instDone, instTotal int // sessions read of those listed, while a refresh runs
+	instSeq             int // counts refreshes, so that only the newest is shown
+	// instCache keeps each stored session's summary with the time of the
+	// change it was made from, so that a refresh reads only what changed.
+	instCache map[string]instCached
+}
+
+type instCached struct {
+	modified time.Time
+	sum      history.Summary
+	ok       bool
+}
+
+// refreshInstruments reads the listed sessions that changed since the
+// last refresh, summarises them and words the history (buildInstView).
+func (c *Shell) refreshInstruments() {
+	if c.st == nil || c.ui.Src() == nil {
+		return
+	}
+	if c.instCache == nil {
+		c.instCache = map[string]instCached{}
+	}
+	c.instSeq++
+	seq, st, list := c.instSeq, c.st, append([]store.Summary(nil), c.sessions...)
+	cache := make(map[string]instCached, len(c.instCache))
+	for k, v := range c.instCache {
+		cache[k] = v
+	}
+	c.ui.Async(func() {
+		fresh := make(map[string]instCached, len(list))
+		sums := make([]history.Summary, 0, len(list))
+		for i, sm := range list {
+			e, ok := cache[sm.ID]
+			if !ok || !e.modified.Equal(sm.Modified) {
+				e = instCached{modified: sm.Modified}
+				if s, err := load(st, sm.ID); err == nil {
+					if sum, err := history.Summarize(s); err == nil {
+						e.sum, e.ok = sum, true
+					}
+				}
+				if i%8 == 7 {
+					n := i + 1
+					c.ui.Dispatch(func(ctx app.Context) {
+						if seq == c.instSeq {
+							c.instDone, c.instTotal = n, len(list)
+						}
+					})
+					time.Sleep(time.Millisecond) // give the page its turn
+				}
+			}
+			fresh[sm.ID] = e
+			if e.ok {
+				sums = append(sums, e.sum)
+			}
+		}
+		v, err := buildInstView(sums, time.Now())
+		c.ui.Dispatch(func(ctx app.Context) {
+			if seq != c.instSeq {
+				return
+			}
+			c.instCache = fresh
+			c.instDone, c.instTotal = 0, 0
+			if err != nil {
+				c.instMsg = "The history of the instruments could not be made: " + err.Error()
+				return
+			}
+			c.instMsg = ""
+			c.instView = &v
+		})
+	})
+}
+
+// renderInstruments is the instrument view (shown from the bar's
+// Instruments button).
+func (c *Shell) renderInstruments() app.UI {
+	return &instrumentsPanel{
+		View: c.instView, Message: c.instMsg, Done: c.instDone, Total: c.instTotal,
+		OnOpen: func(id string) {
+			c.instOpen = false
+			c.open(c.ui, id)
+		},
+		OnClose: func() { c.instOpen = false },
+	}
+}
+
+// toggleInstruments opens or closes the instrument view.
+func (c *Shell) toggleInstruments(ctx app.Context, e app.Event) {
+	c.instOpen = !c.instOpen
+	if c.instOpen {
+		c.listOpen = false
+		c.instView = nil // the list as stored now, not as it was
+		c.refreshInstruments()
+	}
+}
+
+// dueMarkOf is the due mark the session list shows beside a session: the
+// newest calibration of each instrument carries its instrument's.
+func (c *Shell) dueMarkOf(id string) (dueMark, bool) {
+	if c.instView == nil {
+		return dueMark{}, false
+	}
+	m, ok := c.instView.Due[id]
+	if !ok || m.State == dueNone {
+		return dueMark{}, false
+	}
+	return m, true
+}

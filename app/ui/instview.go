@@ -1,0 +1,559 @@
+package ui
+
+// The instrument view's data: what app/history computes from the sessions
+// on this device, put into the words, rounded figures and chart markup the
+// instrument components show. Pure Go (no go-app, no syscall/js) so that it
+// is tested natively; it computes no statistics: every estimate, interval,
+// test and date comes from history.Build (fitcore.CompareLines and
+// fitcore.Drift). What it does itself is presentation: rounding, unit
+// changes (a rate per year shown per month), relative differences in
+// percent of the value, and days until a due date.
+
+import (
+	"math"
+	"strconv"
+	"strings"
+	"time"
+
+	"pairline/app/history"
+	"pairline/app/numfmt"
+	"pairline/app/plot"
+	"pairline/app/wording"
+	"pairline/fitcore"
+)
+
+// dueSoonDays: an instrument whose next calibration falls within this many
+// days is shown as due (a week's notice to plan the work; our choice).
+const dueSoonDays = 7
+
+// Due states (data-state of the due marks).
+const (
+	dueNone    = "none"    // no interval, or no accepted calibration
+	dueLater   = "ok"      // due later than dueSoonDays from now
+	dueSoon    = "due"     // due within dueSoonDays
+	dueOverdue = "overdue" // past its due date
+)
+
+// dueMark is when an instrument is next due, in words.
+type dueMark struct {
+	State string
+	Date  time.Time // zero when State is dueNone
+	Days  int       // whole days from today to Date (negative: overdue)
+	Text  string
+}
+
+// instView is everything the instrument components show.
+type instView struct {
+	Items []instItem
+	// Unnamed counts the sessions that name no instrument (not followed).
+	Unnamed int
+	// Due is the due mark of the newest session of each instrument, by
+	// session ID, for the session list.
+	Due map[string]dueMark
+}
+
+// instItem is one instrument.
+type instItem struct {
+	Key          string // history key: identifier, serial or description
+	Description  string
+	Site         string
+	Count        int // calibrations (earlier revisions not counted)
+	Accepted     int
+	Duplicates   int
+	Superseded   int
+	Interval     int // days; 0 = none
+	Due          dueMark
+	Rows         []instRow // time order
+	XName, XUnit string
+	YUnit        string
+
+	Slope, Intercept instChart
+	Compare          *instCompare
+	CompareWhy       string // why there is no comparison
+	Drift            []instDrift
+	Leaves           string // the first projected crossing in words, "" = none
+	LeavesAt         time.Time
+}
+
+// instRow is one calibration of an instrument.
+type instRow struct {
+	ID, Title       string
+	Taken           time.Time
+	Date            string
+	Fitted          bool
+	Slope, SlopeSE  float64
+	Icpt, IcptSE    float64
+	R2              float64
+	SlopeText       string // rounded to its standard error, as the line card
+	SlopeSEText     string
+	IcptText        string
+	IcptSEText      string
+	R2Text          string
+	Verdict         string // history.Accepted, NotAccepted, NoFit, Superseded
+	VerdictText     string
+	Reason          string
+	Signed          string // "" = not signed
+	Unit, SlopeUnit string
+	// Change is fitcore's verdict on this accepted calibration against the
+	// previous accepted one (history.Instrument.Changes), "" = none.
+	Change, ChangeText string
+}
+
+// instChart is one trend chart: its SVG, the marks a tap is matched
+// against, and the session drawn at each mark (Mark.Row indexes IDs).
+type instChart struct {
+	SVG   string
+	Marks []plot.Mark
+	IDs   []string
+	W, H  float64
+}
+
+// instCompare is today against the last accepted calibration.
+type instCompare struct {
+	Today, Previous          string // session IDs
+	TodayDate, PreviousDate  string
+	Verdict                  string // fitcore.LinesSame, LinesSlopeChanged, LinesMoved
+	Headline                 string
+	Slopes, Coincident       string // the two tests in words
+	FSlopes, PSlopes         float64
+	FCoincident, PCoincident float64
+	Diffs                    []instDiff
+}
+
+// instDiff is how much today's converted value differs from the previous
+// line's at one point of the range.
+type instDiff struct {
+	Where   string // "middle", "top"
+	X, Diff float64
+	Percent float64 // of the value at X; NaN at X = 0
+	Text    string
+}
+
+// instDrift is the trend of one parameter.
+type instDrift struct {
+	Which                        string // "slope", "intercept"
+	Status                       string // fitcore.DriftTooFew, DriftSteady, DriftDrifting, or "not fitted: …"
+	N                            int
+	PerMonth, Low, High          float64
+	P                            float64
+	Text                         string
+	Leaves                       string
+	LeavesAt, LeavesLo, LeavesHi time.Time
+	Bounded                      bool
+}
+
+// buildInstView runs the history of the summaries (history.Build) and
+// words it. now is today on this device.
+func buildInstView(sums []history.Summary, now time.Time) (instView, error) {
+	ins, err := history.Build(sums, history.Options{Now: now})
+	if err != nil {
+		return instView{}, err
+	}
+	v := instView{Due: map[string]dueMark{}}
+	for _, in := range ins {
+		if in.Key == "" {
+			v.Unnamed += len(in.Entries)
+			continue
+		}
+		// The acceptance limits of the newest calibration that sets them
+		// bound the charts and the projection.
+		if c := latestCriteria(in.Entries); c != nil && (c.SlopeLow != nil || c.SlopeHigh != nil || c.InterceptLow != nil || c.InterceptHigh != nil) {
+			again := make([]history.Summary, len(in.Entries))
+			for i, e := range in.Entries {
+				again[i] = e.Summary
+			}
+			re, err := history.Build(again, history.Options{Now: now,
+				SlopeLow: c.SlopeLow, SlopeHigh: c.SlopeHigh, InterceptLow: c.InterceptLow, InterceptHigh: c.InterceptHigh})
+			if err != nil {
+				return instView{}, err
+			}
+			if len(re) == 1 {
+				re[0].Duplicates = in.Duplicates
+				in = re[0]
+			}
+		}
+		it := wordInstrument(in, now)
+		v.Items = append(v.Items, it)
+		if n := len(it.Rows); n > 0 {
+			for i := n - 1; i >= 0; i-- {
+				if it.Rows[i].Verdict != history.Superseded {
+					v.Due[it.Rows[i].ID] = it.Due
+					break
+				}
+			}
+		}
+	}
+	return v, nil
+}
+
+func latestCriteria(es []history.Entry) *fitcore.Criteria {
+	for i := len(es) - 1; i >= 0; i-- {
+		if es[i].Verdict != history.Superseded && es[i].Criteria != nil {
+			return es[i].Criteria
+		}
+	}
+	return nil
+}
+
+// dayOf formats a date as the app does elsewhere ("3 Nov 2026").
+func dayOf(t time.Time) string { return t.UTC().Format("2 Jan 2006") }
+
+func wordInstrument(in history.Instrument, now time.Time) instItem {
+	it := instItem{Key: in.Key, Duplicates: in.Duplicates}
+	var interval int
+	for _, e := range in.Entries {
+		if e.Verdict == history.Superseded {
+			it.Superseded++
+			continue
+		}
+		it.Count++
+		if e.Verdict == history.Accepted {
+			it.Accepted++
+		}
+		if e.IntervalDays > 0 {
+			interval = e.IntervalDays
+		}
+		if e.Description != "" {
+			it.Description = e.Description
+		}
+		if e.Site != "" {
+			it.Site = e.Site
+		}
+		it.XName, it.XUnit, it.YUnit = e.XName, e.XUnit, e.YUnit
+	}
+	it.Interval = interval
+	it.Due = dueOf(in, interval, now)
+	change := map[string]history.Change{}
+	for _, c := range in.Changes {
+		change[c.Session] = c
+	}
+	for _, e := range in.Entries {
+		r := wordRow(e)
+		if c, ok := change[e.ID]; ok && e.Verdict == history.Accepted {
+			r.Change = c.Verdict
+			switch c.Verdict {
+			case fitcore.LinesSame:
+				r.ChangeText = "same line"
+			case fitcore.LinesSlopeChanged:
+				r.ChangeText = "slope changed"
+			default:
+				r.ChangeText = "line moved"
+			}
+		}
+		it.Rows = append(it.Rows, r)
+	}
+	it.Slope = trendChart(in, "slope", it)
+	it.Intercept = trendChart(in, "intercept", it)
+	if in.Latest != nil {
+		it.Compare = wordCompare(in, it)
+	} else {
+		it.CompareWhy = "Nothing to compare yet: " + in.LatestReason + "."
+	}
+	for _, d := range []struct {
+		which string
+		r     *fitcore.DriftResult
+		unit  string
+	}{{"slope", in.SlopeDrift, ratioless(lastUnit(in, false))}, {"intercept", in.InterceptDrift, lastUnit(in, true)}} {
+		it.Drift = append(it.Drift, wordDrift(d.which, d.r, d.unit, in.Origin, limitsOf(in.Entries, d.which)))
+	}
+	if !in.LeavesAt.IsZero() {
+		it.LeavesAt = in.LeavesAt
+		it.Leaves = "At its present drift the " + in.LeavesWhich + " is projected to leave its acceptance limit around " + dayOf(in.LeavesAt) + "."
+	}
+	return it
+}
+
+// lastUnit is the y unit (intercept) or the slope's unit of the newest
+// calibration.
+func lastUnit(in history.Instrument, intercept bool) string {
+	for i := len(in.Entries) - 1; i >= 0; i-- {
+		e := in.Entries[i]
+		if e.XUnit == "" && e.YUnit == "" {
+			continue
+		}
+		if intercept {
+			return e.YUnit
+		}
+		return wording.SlopeUnit(e.YUnit, e.XUnit)
+	}
+	return ""
+}
+
+// ratioless drops the unit of a slope that is a plain ratio (x and y in
+// the same unit) from a sentence: "−0.004 per month", not "ratio per month".
+func ratioless(u string) string {
+	if u == "ratio" {
+		return ""
+	}
+	return u
+}
+
+func dueOf(in history.Instrument, interval int, now time.Time) dueMark {
+	if in.Due.IsZero() {
+		why := "No due date: no calibration interval is set on the record."
+		if interval > 0 {
+			why = "No due date: there is no accepted calibration yet."
+		}
+		return dueMark{State: dueNone, Text: why}
+	}
+	today := time.Date(now.Year(), now.Month(), now.Day(), 0, 0, 0, 0, time.UTC)
+	due := time.Date(in.Due.Year(), in.Due.Month(), in.Due.Day(), 0, 0, 0, 0, time.UTC)
+	days := int(math.Round(due.Sub(today).Hours() / 24))
+	m := dueMark{Date: in.Due, Days: days}
+	switch {
+	case in.Overdue:
+		m.State = dueOverdue
+		m.Text = "Overdue since " + dayOf(in.Due) + " (" + plural(-days, "day", "days") + ")"
+		if days >= 0 {
+			m.Text = "Overdue since " + dayOf(in.Due)
+		}
+	case days <= dueSoonDays:
+		m.State = dueSoon
+		m.Text = "Due " + dayOf(in.Due) + " (in " + plural(days, "day", "days") + ")"
+		if days == 0 {
+			m.Text = "Due today, " + dayOf(in.Due)
+		}
+	default:
+		m.State = dueLater
+		m.Text = "Next due " + dayOf(in.Due) + " (in " + plural(days, "day", "days") + ")"
+	}
+	return m
+}
+
+func wordRow(e history.Entry) instRow {
+	r := instRow{ID: e.ID, Title: e.Title, Taken: e.Taken, Date: dayOf(e.Taken), Fitted: e.Fitted,
+		Verdict: e.Verdict, Reason: e.Reason, Signed: e.PerformedBy, Unit: e.YUnit}
+	if e.XUnit != "" || e.YUnit != "" {
+		r.SlopeUnit = wording.SlopeUnit(e.YUnit, e.XUnit)
+	}
+	switch e.Verdict {
+	case history.Accepted:
+		r.VerdictText = "accepted"
+	case history.NotAccepted:
+		r.VerdictText = "not accepted"
+	case history.NoFit:
+		r.VerdictText = "no line"
+	default:
+		r.VerdictText = "earlier revision"
+	}
+	if e.Fitted {
+		r.Slope, r.SlopeSE, r.Icpt, r.IcptSE, r.R2 = e.Slope, e.SlopeSE, e.Intercept, e.InterceptSE, e.RSquared
+		sig := numfmt.Precision(0)
+		r.SlopeText, r.SlopeSEText = numfmt.Estimate(e.Slope, e.SlopeSE, sig)
+		r.IcptText, r.IcptSEText = numfmt.Estimate(e.Intercept, e.InterceptSE, sig)
+		r.R2Text = numfmt.Decimals(e.RSquared, 6)
+	}
+	return r
+}
+
+// chartMonths is the chart's time axis: months (a twelfth of
+// history.Year) since the first calibration drawn.
+func chartMonths(t, origin time.Time) float64 { return 12 * history.Years(t.Sub(origin)) }
+
+// trendChart draws slope or intercept against time: each calibration with
+// a line as a point with its confidence interval (a vertical stroke),
+// accepted ones as dots, others as hollow squares; the drift line fitted
+// over the accepted ones; the acceptance limits as dashed lines.
+func trendChart(in history.Instrument, which string, it instItem) instChart {
+	var origin time.Time
+	for _, e := range in.Entries {
+		if e.Fitted && e.Verdict != history.Superseded {
+			origin = e.Taken
+			break
+		}
+	}
+	ch := plot.Chart{TestID: "inst-chart-" + which, Width: 400, Height: 260,
+		XTitle: "Months since " + dayOf(origin)}
+	unit := lastUnit(in, which == "intercept")
+	ch.YTitle = strings.ToUpper(which[:1]) + which[1:]
+	if unit != "" {
+		ch.YTitle += " (" + unit + ")"
+	}
+	var out instChart
+	var lo, hi *float64
+	if c := latestCriteria(in.Entries); c != nil {
+		if which == "slope" {
+			lo, hi = c.SlopeLow, c.SlopeHigh
+		} else {
+			lo, hi = c.InterceptLow, c.InterceptHigh
+		}
+	}
+	for _, l := range []*float64{lo, hi} {
+		if l != nil {
+			ch.HLines = append(ch.HLines, *l)
+		}
+	}
+	for _, e := range in.Entries {
+		if !e.Fitted || e.Verdict == history.Superseded {
+			continue
+		}
+		m := chartMonths(e.Taken, origin)
+		v, l, h := e.Slope, e.SlopeLow, e.SlopeHigh
+		if which == "intercept" {
+			v, l, h = e.Intercept, e.InterceptLow, e.InterceptHigh
+		}
+		mk := plot.Dot
+		if e.Verdict != history.Accepted {
+			mk = plot.HollowSquare
+		}
+		ch.Points = append(ch.Points, plot.Point{X: m, Y: v, Row: len(out.IDs), Marker: mk})
+		ch.Paths = append(ch.Paths, plot.Path{X: []float64{m, m}, Y: []float64{l, h}, Class: "pl-plot-trace", Stroke: "#4a5560", Width: 2})
+		out.IDs = append(out.IDs, e.ID)
+	}
+	d := in.SlopeDrift
+	if which == "intercept" {
+		d = in.InterceptDrift
+	}
+	// The drift line over the span of the accepted calibrations (its
+	// value at the ends from fitcore's intercept and rate, t in years
+	// since in.Origin).
+	if d != nil && d.Status != fitcore.DriftTooFew && !strings.HasPrefix(d.Status, "not fitted") {
+		var t0, t1 float64
+		first := true
+		for _, e := range in.Entries {
+			if e.Verdict != history.Accepted {
+				continue
+			}
+			t := history.Years(e.Taken.Sub(in.Origin))
+			if first {
+				t0, first = t, false
+			}
+			t1 = t
+		}
+		mo := chartMonths(in.Origin, origin)
+		ch.Paths = append(ch.Paths, plot.Path{X: []float64{mo + 12*t0, mo + 12*t1},
+			Y: []float64{d.Intercept + d.Rate*t0, d.Intercept + d.Rate*t1}, Class: "pl-plot-line", Stroke: "#0b4f5c", Width: 2.5, Dash: "8 5"})
+	}
+	ch.Label = strings.ToUpper(which[:1]) + which[1:] + " of " + strconv.Itoa(len(out.IDs)) + " calibrations against time, each with its interval"
+	if len(ch.HLines) > 0 {
+		ch.Label += ", and the acceptance limits"
+	}
+	ch.Attrs = [][2]string{{"data-n", strconv.Itoa(len(out.IDs))}, {"data-limits", strconv.Itoa(len(ch.HLines))}}
+	out.SVG, out.Marks = ch.Draw()
+	out.W, out.H = ch.Size()
+	return out
+}
+
+func wordCompare(in history.Instrument, it instItem) *instCompare {
+	c := in.Latest
+	var today, prev history.Entry
+	for _, e := range in.Entries {
+		if e.ID == c.Session && e.Verdict != history.Superseded {
+			today = e
+		}
+		if e.ID == c.Previous && e.Verdict != history.Superseded {
+			prev = e
+		}
+	}
+	k := &instCompare{Today: c.Session, Previous: c.Previous, TodayDate: dayOf(today.Taken), PreviousDate: dayOf(prev.Taken),
+		Verdict: c.Verdict, FSlopes: c.FSlopes, PSlopes: c.PSlopes, FCoincident: c.FCoincident, PCoincident: c.PCoincident}
+	on := " on " + k.PreviousDate
+	fs := "F = " + numfmt.Sig(c.FSlopes, 3) + " on " + strconv.Itoa(c.DF1Slopes) + " and " + strconv.Itoa(c.DF2Slopes) + " df, " + numfmt.PEq(c.PSlopes)
+	fc := "F = " + numfmt.Sig(c.FCoincident, 3) + " on " + strconv.Itoa(c.DF1Coincident) + " and " + strconv.Itoa(c.DF2Coincident) + " df, " + numfmt.PEq(c.PCoincident)
+	switch c.Verdict {
+	case fitcore.LinesSame:
+		k.Headline = "The line of " + k.TodayDate + " is the same line as the last accepted calibration" + on + ", within the scatter of the readings."
+		k.Slopes = "Equal slopes: no difference shown (" + fs + ")."
+		k.Coincident = "Coincident lines: one line fits both calibrations (" + fc + ")."
+	case fitcore.LinesSlopeChanged:
+		k.Headline = "The slope has changed since the last accepted calibration" + on + "."
+		k.Slopes = "Equal slopes: the slopes differ (" + fs + "): latest " + numfmt.Short(c.Slope2, 5) + " against " + numfmt.Short(c.Slope1, 5) + "."
+		k.Coincident = "Coincident lines: the two calibrations are not one line (" + fc + ")."
+	default:
+		k.Headline = "The line has moved since the last accepted calibration" + on + ": the slopes agree within the scatter, the level differs."
+		k.Slopes = "Equal slopes: no difference shown (" + fs + ")."
+		k.Coincident = "Coincident lines: the two calibrations are not one line (" + fc + "): latest intercept " + numfmt.Short(c.Intercept2, 4) + unitSuffix(it.YUnit) + " against " + numfmt.Short(c.Intercept1, 4) + unitSuffix(it.YUnit) + "."
+	}
+	unit := it.XUnit
+	for _, d := range []struct {
+		where string
+		x     fitcore.XDifference
+	}{{"middle", c.Middle}, {"top", c.Top}} {
+		dd := instDiff{Where: d.where, X: d.x.X, Diff: d.x.Diff, Percent: math.NaN()}
+		at := " at " + numfmt.Short(d.x.X, 4) + unitSuffix(unit)
+		abs := numfmt.Sig(math.Abs(d.x.Diff), 2) + unitSuffix(unit)
+		word := "higher"
+		if d.x.Diff < 0 {
+			word = "lower"
+		}
+		if d.x.X != 0 {
+			dd.Percent = 100 * d.x.Diff / d.x.X
+			dd.Text = "Reads " + numfmt.Sig(math.Abs(dd.Percent), 2) + " % " + word + at + " than" + on + " (" + abs + ")."
+		} else {
+			dd.Text = "Reads " + abs + " " + word + at + " than" + on + "."
+		}
+		if d.x.Diff == 0 {
+			dd.Text = "Reads the same" + at + " as" + on + "."
+		}
+		k.Diffs = append(k.Diffs, dd)
+	}
+	return k
+}
+
+func unitSuffix(u string) string {
+	if u == "" {
+		return ""
+	}
+	return " " + u
+}
+
+// wordDrift says what the trend of one parameter is. fitcore gives the
+// rate per year (t in years); it is shown per month (÷ 12).
+func wordDrift(which string, r *fitcore.DriftResult, unit string, origin time.Time, limits bool) instDrift {
+	d := instDrift{Which: which}
+	if r == nil {
+		d.Status = fitcore.DriftTooFew
+		d.Text = "Too few calibrations to say anything about drift."
+		return d
+	}
+	d.Status, d.N = r.Status, r.N
+	name := strings.ToUpper(which[:1]) + which[1:]
+	switch {
+	case r.Status == fitcore.DriftTooFew:
+		d.Text = name + ": too few calibrations to say anything about drift (" + strconv.Itoa(r.N) + " accepted; at least 3 are needed)."
+		return d
+	case strings.HasPrefix(r.Status, "not fitted"):
+		d.Text = name + ": the drift could not be worked out (" + r.Status + ")."
+		return d
+	}
+	d.PerMonth, d.Low, d.High, d.P = r.Rate/12, r.RateLow/12, r.RateHigh/12, r.P
+	u := unitSuffix(unit)
+	lvl := strings.TrimRight(strings.TrimRight(numfmt.Sig(r.Level*100, 3), "0"), ".")
+	rate := numfmt.Sig(d.PerMonth, 2) + u + " per month (" + lvl + " % interval " + numfmt.Sig(d.Low, 2) + " to " + numfmt.Sig(d.High, 2) + ")"
+	if r.Status == fitcore.DriftDrifting {
+		d.Text = name + " is drifting: " + rate + "; " + numfmt.PEq(r.P) + " for no drift, over " + strconv.Itoa(r.N) + " accepted calibrations."
+	} else {
+		d.Text = name + ": no drift shown: " + rate + "; " + numfmt.PEq(r.P) + " for no drift, over " + strconv.Itoa(r.N) + " accepted calibrations."
+	}
+	if l := r.Leaves; l != nil && r.Status == fitcore.DriftDrifting {
+		d.LeavesAt = origin.Add(history.Duration(l.At))
+		d.Leaves = "At this rate it reaches its " + l.Side + " limit " + numfmt.Short(l.Limit, 4) + u + " around " + dayOf(d.LeavesAt)
+		if l.Bounded {
+			d.Bounded = true
+			d.LeavesLo, d.LeavesHi = origin.Add(history.Duration(l.Low)), origin.Add(history.Duration(l.High))
+			d.Leaves += " (" + lvl + " % interval " + dayOf(d.LeavesLo) + " to " + dayOf(d.LeavesHi) + ")."
+		} else {
+			d.Leaves += " (the trend is too uncertain to bound that date)."
+		}
+	} else if r.Status == fitcore.DriftDrifting {
+		if limits {
+			d.Leaves = "The trend does not head towards an acceptance limit of the " + which + "."
+		} else {
+			d.Leaves = "No acceptance limits are set on the " + which + ", so no date of leaving them is projected."
+		}
+	}
+	return d
+}
+
+// limitsOf reports whether the newest criteria set a limit on the slope or
+// the intercept.
+func limitsOf(es []history.Entry, which string) bool {
+	c := latestCriteria(es)
+	if c == nil {
+		return false
+	}
+	if which == "slope" {
+		return c.SlopeLow != nil || c.SlopeHigh != nil
+	}
+	return c.InterceptLow != nil || c.InterceptHigh != nil
+}
