@@ -312,7 +312,9 @@ func (r *readingRow) cell(col session.Column, testid, text, problem string, more
 			r.act(RowAction{Kind: rwEnter, Col: col})
 		}).
 		OnFocus(func(ctx app.Context, e app.Event) {
-			keepCellInView(ctx.JSSrc())
+			if !windowJustReturned() {
+				keepCellInView(ctx.JSSrc())
+			}
 			r.act(RowAction{Kind: rwFocus})
 		}).
 		OnBlur(func(ctx app.Context, e app.Event) {
@@ -380,6 +382,39 @@ const (
 var fieldView struct {
 	watching bool
 	tallest  float64
+	// returned is when (performance.now, ms) the window last got the
+	// focus back: the browser then gives the focus again to the cell that
+	// had it, and that is no reason to move the page (it would move under
+	// a finger or pointer that is pressing something else).
+	returned float64
+	following bool // the window's focus is followed (followWindowFocus)
+}
+
+// windowReturnMs: a cell's focus within this many milliseconds of the
+// window's is the window's focus coming back, not the technician's.
+const windowReturnMs = 100
+
+// followWindowFocus starts, once, to note when the window gets the focus
+// back (fieldView.returned). The Shell calls it when it mounts.
+func followWindowFocus() {
+	w := app.Window()
+	if fieldView.following || !w.Get("addEventListener").Truthy() {
+		return
+	}
+	fieldView.following = true
+	w.Call("addEventListener", "focus", app.FuncOf(func(this app.Value, args []app.Value) any {
+		fieldView.returned = w.Get("performance").Call("now").Float()
+		return nil
+	}))
+}
+
+// windowJustReturned says whether the window got the focus back a moment
+// ago (windowReturnMs).
+func windowJustReturned() bool {
+	if fieldView.returned == 0 {
+		return false
+	}
+	return app.Window().Get("performance").Call("now").Float()-fieldView.returned < windowReturnMs
 }
 
 // narrowOrTouch says whether the screen is a phone's or a tablet's in

@@ -113,6 +113,7 @@ func (c *Shell) OnMount(ctx app.Context) {
 	}
 	c.mountTransfer(ctx)
 	c.netWatch(ctx)
+	followWindowFocus()
 	c.anLoadTemplates(ctx)
 	ctx.Async(func() {
 		st, err := store.Open()
