@@ -82,11 +82,45 @@ func BoxCoxProfile(x, y []float64, level float64) (*BoxCox, error) {
 			best = i
 		}
 	}
-	// The best point exactly as loglik gives it (it may be the maximum).
-	ells[best] = p.loglik(lams[best])
+	// The best point exactly as loglik gives it (it may be the maximum),
+	// with ℓ′ there.
+	ia, ib := max(best-1, 0), min(best+1, nGrid-1)
+	nf := float64(p.n)
+	vm, dlm := p.logRSSD(lams[best], true)
+	em := -0.5 * nf * vm
+	if math.IsNaN(em) {
+		em = math.Inf(-1)
+	}
+	ells[best] = em
+	// RSS′/RSS(m) from ℓ: RSS = e^{−2ℓ/n} in the unscaled branches (the
+	// only ones with a slope); RSS″/RSS(m) from the parabola through three
+	// neighbouring grid points.
+	slope := func(l float64) (float64, float64) {
+		v, dl := p.logRSSD(l, true)
+		e := -0.5 * nf * v
+		if math.IsNaN(e) {
+			e = math.Inf(-1)
+		}
+		return e, dl * math.Exp(v-vm)
+	}
+	ic := min(max(best, 1), nGrid-2)
+	rel := func(i int) float64 { return math.Exp(-2 * (ells[i] - em) / nf) }
+	c2 := (rel(ic-1) - 2*rel(ic) + rel(ic+1)) / (bcGridStep * bcGridStep)
 
-	// Refine on the bracket around the best grid point.
-	lamHat, ellHat := bcBrentMax(p.loglik, lams[max(best-1, 0)], lams[min(best+1, nGrid-1)], 1e-10)
+	// Refine on the bracket around the best grid point: the root of ℓ′,
+	// or Brent's method where that is not found.
+	floored := p.floored
+	p.minRel = math.Inf(1)
+	lamHat, ellHat, ok := bcSlopeMax(slope, lams[ia], lams[best], lams[ib], dlm, em, c2)
+	if p.floored && !floored || p.minRel < bcSpikeRel {
+		// The slope led to a power where the readings lie on a line, or
+		// nearly (a root of RSS′ can be a zero of the RSS, where ℓ has a
+		// spike): judge that as Brent's method does.
+		ok, p.floored = false, floored
+	}
+	if !ok {
+		lamHat, ellHat = bcBrentMax(p.loglik, lams[ia], lams[ib], 1e-10)
+	}
 	if ells[best] > ellHat { // a bound is the maximum
 		lamHat, ellHat = lams[best], ells[best]
 	}
@@ -149,6 +183,7 @@ type bcProfile struct {
 	sxc     float64   // Σ(x − x̄), the rounding left in xc
 	u       []float64 // work space
 	floored bool      // set when an RSS hit the exact-fit floor
+	minRel  float64   // the smallest RSS/Σ(u − ū)² since it was last reset
 }
 
 // bcNewProfile validates the data and precomputes centred x and log(y/ġ).
@@ -205,6 +240,15 @@ func bcNewProfile(x, y []float64) (*bcProfile, error) {
 // record each pass runs in two halves side by side, whose sums are added in
 // a fixed order, so the result does not depend on the number of cores.
 func (p *bcProfile) logRSS(lam float64) float64 {
+	v, _ := p.logRSSD(lam, false)
+	return v
+}
+
+// logRSSD is logRSS and, with deriv, also d log RSS_u/dλ = 2·Σ r_i·u′_i / RSS
+// (r the residuals about the line; by the normal equations the line's own
+// change adds nothing), u′ = du/dλ, made in the same second pass; NaN where
+// it is not made (the scaled branch, an RSS at the floor).
+func (p *bcProfile) logRSSD(lam float64, deriv bool) (float64, float64) {
 	wAbs := math.Max(-p.wMin, p.wMax)
 	logScale := 0.0
 	mode, c := bcPlain, 0.0
@@ -242,33 +286,58 @@ func (p *bcProfile) logRSS(lam float64) float64 {
 	// rounding left in the centred x.
 	b := (sxu - mu*p.sxc) / p.sxx
 	var syy, rss float64
+	var ds bcDSums
+	useD := deriv && mode != bcScaled
+	sums := func(u, w, xc []float64) (syy, rss float64, d bcDSums) {
+		if useD {
+			return bcSumsD(u, w, xc, mu, b, lam)
+		}
+		syy, rss = bcSums(u, xc, mu, b)
+		return syy, rss, d
+	}
 	if len(u) >= anParallelMin {
 		h := len(u) / 2
 		var wg sync.WaitGroup
 		var syy2, rss2 float64
+		var ds2 bcDSums
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			syy2, rss2 = bcSums(u[h:], xc[h:], mu, b)
+			syy2, rss2, ds2 = sums(u[h:], p.w[h:], xc[h:])
 		}()
-		syy, rss = bcSums(u[:h], xc[:h], mu, b)
+		syy, rss, ds = sums(u[:h], p.w[:h], xc[:h])
 		wg.Wait()
-		syy, rss = syy+syy2, rss+rss2
+		syy, rss, ds = syy+syy2, rss+rss2, ds.add(ds2)
 	} else {
-		syy, rss = bcSums(u, xc, mu, b)
+		syy, rss, ds = sums(u, p.w, xc)
+	}
+	sru := math.NaN()
+	if useD {
+		sru = bcDerivSum(ds, p.n, p.sxc, p.sxx)
 	}
 	// An exact fit would make ℓ infinite; floor the RSS at the rounding level
 	// of the data (the one no-scatter tolerance, NoScatterTol, on the
 	// transformed readings) and remember that it happened.
+	if rel := rss / syy; rel < p.minRel {
+		p.minRel = rel
+	}
 	if floor := syy * NoScatterTol * NoScatterTol; rss <= floor {
 		rss = floor
 		p.floored = true
+		sru = math.NaN()
 	}
 	if !(rss > 0) || !isFiniteNum(rss) {
-		return math.Inf(1) // treated as the worst possible λ
+		return math.Inf(1), math.NaN() // treated as the worst possible λ
 	}
-	return math.Log(rss) + logScale
+	return math.Log(rss) + logScale, 2 * sru / rss
 }
+
+// bcSpikeRel: where an RSS falls below this fraction of Σ(u − ū)² the
+// search for λ̂ by the slope is left to Brent's method (the readings are
+// then on a line for some power, or nearly, and ℓ has a spike there whose
+// depth only rounding decides; FuzzBoxCoxAgainstExhaustive's records of
+// five readings on three x).
+const bcSpikeRel = 1e-12
 
 // How bcFill makes u from w = log(y/ġ).
 const (
@@ -315,6 +384,55 @@ func bcSums(u, xc []float64, mu, b float64) (syy, rss float64) {
 		rss += r * r
 	}
 	return syy, rss
+}
+
+// bcSumsD is bcSums with the sums for Σ r·u′, r = u − ū − b·xc and u′ =
+// du/dλ for u = expm1(λw)/λ (or w at λ = 0): u′ = (w·(λu + 1) − u)/λ, or
+// where |λw| < 1e-3 (where that difference cancels) its series
+// w²/2 + λw³/3 + λ²w⁴/8 + λ³w⁵/30 (the terms k·λ^(k−1)·w^(k+1)/(k+1)!).
+// The rounding of ū and b shifts every r by a line in xc, which would
+// enter Σ r·u′ at first order (it enters the RSS only at second), so the
+// sums Σr, Σr·xc, Σu′ and Σxc·u′ come too: bcDerivSum takes the part of
+// u′ on the line out.
+func bcSumsD(u, w, xc []float64, mu, b, lam float64) (syy, rss float64, d bcDSums) {
+	w, xc = w[:len(u)], xc[:len(u)]
+	for i, v := range u {
+		dv := v - mu
+		syy += dv * dv
+		x := xc[i]
+		r := dv - b*x
+		rss += r * r
+		wi := w[i]
+		var du float64
+		if t := lam * wi; math.Abs(t) < 1e-3 {
+			du = wi * wi * (0.5 + t*(1.0/3+t*(1.0/8+t*(1.0/30))))
+		} else {
+			du = (wi*(lam*v+1) - v) / lam
+		}
+		d.ru += r * du
+		d.r += r
+		d.rx += r * x
+		d.u += du
+		d.xu += x * du
+	}
+	return syy, rss, d
+}
+
+// bcDSums are bcSumsD's sums Σr·u′, Σr, Σr·xc, Σu′, Σxc·u′.
+type bcDSums struct{ ru, r, rx, u, xu float64 }
+
+func (a bcDSums) add(b bcDSums) bcDSums {
+	return bcDSums{a.ru + b.ru, a.r + b.r, a.rx + b.rx, a.u + b.u, a.xu + b.xu}
+}
+
+// bcDerivSum returns Σ r·(u′ − α − β·xc) with α + β·xc the least-squares
+// line of u′ on xc (n readings, Σxc = sxc, Σxc² = sxx), which equals Σ r·u′
+// for the exact residuals.
+func bcDerivSum(d bcDSums, n int, sxc, sxx float64) float64 {
+	mu := d.u / float64(n)
+	beta := (d.xu - mu*sxc) / sxx
+	alpha := mu - beta*sxc/float64(n)
+	return d.ru - alpha*d.r - beta*d.rx
 }
 
 // bcGridN is the number of points of the grid, λ = −3 + k/4, k = 0 … 24;
@@ -471,6 +589,106 @@ func (p *bcProfile) loglik(lam float64) float64 {
 		return math.Inf(-1)
 	}
 	return v
+}
+
+// bcSlopeMax finds the maximum of ℓ on [a, b] (a < m < b, or m one of
+// them; the grid's bracket around its best point m) as the root of the
+// slope of the residual sum of squares, g(λ) = RSS′(λ)/RSS(m), which is
+// close to a straight line near the minimum of the RSS (where ℓ′ is not:
+// the RSS is near a parabola, ℓ = −n/2·log RSS is not). f returns ℓ and g;
+// at m they are em and gm. From m a Newton step with RSS″/RSS(m) = c2 (the
+// parabola's through neighbouring grid points) taken half again as far, so
+// that it passes the root; once g has changed sign from − on the left to +
+// on the right (which brackets a minimum of the RSS), the Illinois regula
+// falsi (as bcRoot) until a step is below 1e-10 in λ. ok is false when no
+// such bracket is found with one more evaluation at the end, or g is not
+// finite; the caller then uses bcBrentMax.
+func bcSlopeMax(f func(float64) (float64, float64), a, m, b, gm, em, c2 float64) (lam, ell float64, ok bool) {
+	if !isFiniteNum(gm) {
+		return 0, 0, false
+	}
+	if gm == 0 {
+		return m, em, true
+	}
+	dm := gm
+	var memo [8]struct{ l, e, d float64 }
+	nm := 0
+	eval := func(l float64) (float64, float64) {
+		for _, s := range memo[:min(nm, len(memo))] {
+			if s.l == l {
+				return s.e, s.d
+			}
+		}
+		e, d := f(l)
+		memo[nm%len(memo)] = struct{ l, e, d float64 }{l, e, d}
+		nm++
+		return e, d
+	}
+	dsl := func(l float64) float64 { _, d := eval(l); return d }
+	end := a
+	if dm < 0 {
+		end = b
+	}
+	if end == m {
+		return 0, 0, false
+	}
+	t := end
+	if c2 > 0 {
+		t = m - 1.5*dm/c2
+		if (t-end)*(t-m) >= 0 { // beyond the end
+			t = end
+		}
+	}
+	dt := dsl(t)
+	if !isFiniteNum(dt) {
+		return 0, 0, false
+	}
+	if dt*dm > 0 && t != end {
+		t, dt = end, dsl(end)
+		if !isFiniteNum(dt) {
+			return 0, 0, false
+		}
+	}
+	if dt*dm > 0 {
+		return 0, 0, false // ℓ′ keeps its sign to the end
+	}
+	// The Illinois regula falsi on g, whose sign is that of dm on the side
+	// of m.
+	in, dIn, out, dOut := m, dm, t, dt
+	side := 0
+	c := t
+	for k := 0; k < 60 && math.Abs(in-out) > 1e-12; k++ {
+		prev := c
+		c = in - dIn*(in-out)/(dIn-dOut)
+		if !(c > math.Min(in, out) && c < math.Max(in, out)) {
+			c = 0.5 * (in + out)
+		}
+		dc := dsl(c)
+		if !isFiniteNum(dc) {
+			return 0, 0, false
+		}
+		if dc == 0 {
+			break
+		}
+		if (dc > 0) == (dm > 0) {
+			in, dIn = c, dc
+			if side == 1 {
+				dOut /= 2
+			}
+			side = 1
+		} else {
+			out, dOut = c, dc
+			if side == -1 {
+				dIn /= 2
+			}
+			side = -1
+		}
+		if math.Abs(c-prev) <= 1e-10 {
+			break
+		}
+	}
+	e, _ := eval(c)
+	return c, e, true
 }
 
 // bcBrentMax maximizes f on [a, b] by Brent's method (golden section with

@@ -588,3 +588,57 @@ func BenchmarkBoxCoxSearch(b *testing.B) {
 		})
 	}
 }
+
+// TestBoxCoxSlopeAgainstBrent checks the search for λ̂ by the slope of the
+// RSS (bcSlopeMax) against Brent's method on the same grid bracket, which
+// it replaced and which remains its fallback, on invented records (the
+// benchmark's bending record with growing scatter, its square, and a
+// reciprocal), at n = 1 000 and 100 000: the slope's search must be taken
+// (no fallback) and λ̂ and ℓ̂ must agree to Brent's tolerance.
+func TestBoxCoxSlopeAgainstBrent(t *testing.T) {
+	for _, n := range []int{1000, 100000} {
+		x, y, _ := benchData(n)
+		for name, f := range map[string]func(v float64, i int) float64{
+			"y":   func(v float64, _ int) float64 { return v },
+			"y²":  func(v float64, i int) float64 { return v * v * (1 + 0.001*float64(i%7)) },
+			"1/y": func(v float64, _ int) float64 { return 1 / v },
+		} {
+			yy := make([]float64, n)
+			for i := range yy {
+				yy[i] = f(y[i], i)
+			}
+			p, err := bcNewProfile(x, yy)
+			if err != nil {
+				t.Fatal(err)
+			}
+			lams, ells := p.gridLoglik()
+			best := 0
+			for i := range ells {
+				if ells[i] > ells[best] {
+					best = i
+				}
+			}
+			if best == 0 || best == len(lams)-1 {
+				t.Fatalf("%s n=%d: maximum at the bound", name, n)
+			}
+			lb, eb := bcBrentMax(p.loglik, lams[best-1], lams[best+1], 1e-10)
+			nf := float64(n)
+			vm, dlm := p.logRSSD(lams[best], true)
+			em := -0.5 * nf * vm
+			ells[best] = em
+			slope := func(l float64) (float64, float64) {
+				v, dl := p.logRSSD(l, true)
+				return -0.5 * nf * v, dl * math.Exp(v-vm)
+			}
+			rel := func(i int) float64 { return math.Exp(-2 * (ells[i] - em) / nf) }
+			c2 := (rel(best-1) - 2*rel(best) + rel(best+1)) / (bcGridStep * bcGridStep)
+			ls, es, ok := bcSlopeMax(slope, lams[best-1], lams[best], lams[best+1], dlm, em, c2)
+			if !ok {
+				t.Fatalf("%s n=%d: the slope's search fell back", name, n)
+			}
+			if math.Abs(ls-lb) > 1e-7 || es < eb-1e-9*math.Abs(eb) {
+				t.Errorf("%s n=%d: slope λ̂ %v ℓ̂ %v, Brent λ̂ %v ℓ̂ %v", name, n, ls, es, lb, eb)
+			}
+		}
+	}
+}

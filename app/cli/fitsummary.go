@@ -99,171 +99,234 @@ func verdict(v fitcore.Verdict) string {
 	return fmt.Sprintf("%-14s", icon+" "+word)
 }
 
+// summaryRest is the summary after its heading and the line's equation:
+// one block per part of the report, in the order the screen shows them,
+// each left out when the report has nothing for it, and the caution last.
 func summaryRest(fr *fitResult, level float64) string {
-	r := fr.report
 	var b strings.Builder
-	w := func(format string, a ...any) { fmt.Fprintf(&b, format, a...) }
-	pct := wording.Percent(level)
+	for _, block := range []func(*strings.Builder, *fitResult, float64){
+		lineBlock, checksBlock, testsBlock, standsOutBlock, adviceBlock,
+		predictionsBlock, inverseBlock, limitsBlock, acceptanceBlock, notesBlock,
+	} {
+		block(&b, fr, level)
+	}
+	b.WriteString("Caution: these statistics describe the readings given. Where the result affects safety\n")
+	b.WriteString("(gas detection, structural loads, drinking water), follow the instrument maker's procedure,\n")
+	b.WriteString("local codes and licensed practice.\n")
+	return b.String()
+}
 
+// lineBlock is the coefficients (the intercept only for a line with one)
+// and the figures of the fit as a whole, as the screen's "More numbers".
+func lineBlock(b *strings.Builder, fr *fitResult, level float64) {
+	r := fr.report
 	origin := r.Model == fitcore.ModelOrigin
 	slopeUnit, yUnit := fr.units()
-	coefBlock(&b, wording.Slope, r.Slope, level, slopeUnit)
+	coefBlock(b, wording.Slope, r.Slope, level, slopeUnit)
 	if !origin {
-		coefBlock(&b, wording.Intercept, r.Intercept, level, yUnit)
+		coefBlock(b, wording.Intercept, r.Intercept, level, yUnit)
 	}
-	w("  %s\n", wording.FitAsAWhole)
+	fmt.Fprintf(b, "  %s\n", wording.FitAsAWhole)
 	// Three digits with the unit of y, as the line card.
-	row(&b, wording.ResidualSD, withUnit(numfmt.Sig(r.ResidualSE, 3), yUnit))
-	row(&b, wording.DegreesOfFreedom, wording.DF(r.DF))
-	row(&b, wording.CorrelationR, numfmt.Decimals(r.R, 6))
-	row(&b, wording.RSquared, numfmt.Decimals(r.RSquared, 6))
-	row(&b, wording.AdjRSquared, numfmt.Decimals(r.AdjRSquared, 6))
-	row(&b, wording.FLine, numfmt.Sig(r.F, 4))
-	row(&b, wording.PofF, wording.P(r.FP))
+	row(b, wording.ResidualSD, withUnit(numfmt.Sig(r.ResidualSE, 3), yUnit))
+	row(b, wording.DegreesOfFreedom, wording.DF(r.DF))
+	row(b, wording.CorrelationR, numfmt.Decimals(r.R, 6))
+	row(b, wording.RSquared, numfmt.Decimals(r.RSquared, 6))
+	row(b, wording.AdjRSquared, numfmt.Decimals(r.AdjRSquared, 6))
+	row(b, wording.FLine, numfmt.Sig(r.F, 4))
+	row(b, wording.PofF, wording.P(r.FP))
 	if !origin {
-		row(&b, wording.Covariance, numfmt.Sig(r.CovSlopeIntercept, 4))
+		row(b, wording.Covariance, numfmt.Sig(r.CovSlopeIntercept, 4))
 	}
-	row(&b, wording.MeanX, num(r.MeanX))
-	row(&b, wording.MeanY, num(r.MeanY))
-	w("\n")
+	row(b, wording.MeanX, num(r.MeanX))
+	row(b, wording.MeanY, num(r.MeanY))
+	b.WriteString("\n")
+}
 
-	w("%s\n", wording.ChecksTitle)
-	as := func(label string, a *fitcore.Assumption) {
+// checksBlock is one line per assumption the report judged (fitcore's
+// list, in its order): verdict, name, message and what to do.
+func checksBlock(b *strings.Builder, fr *fitResult, _ float64) {
+	fmt.Fprintf(b, "%s\n", wording.ChecksTitle)
+	for _, info := range fitcore.AssumptionList() {
+		a := info.Get(fr.report)
 		if a == nil {
-			return
+			continue
 		}
-		w("  %s %-38s %s", verdict(a.Verdict), label, oneLine(a.Message))
+		fmt.Fprintf(b, "  %s %-38s %s", verdict(a.Verdict), wording.CheckName(info.ID), oneLine(a.Message))
 		if a.Advice != "" {
-			w(" What to do: %s", oneLine(a.Advice))
+			fmt.Fprintf(b, " What to do: %s", oneLine(a.Advice))
 		}
-		w("\n")
+		b.WriteString("\n")
 	}
-	for _, a := range fitcore.AssumptionList() {
-		as(wording.CheckName(a.ID), a.Get(r))
-	}
-	w("\n")
+	b.WriteString("\n")
+}
 
-	w("%s\n", wording.Tests)
-	for _, t := range r.Present() {
+// testsBlock is one line per test behind the checks: verdict, name, the
+// statistic and its p (none for a test that could not be computed), and
+// its message.
+func testsBlock(b *strings.Builder, fr *fitResult, _ float64) {
+	fmt.Fprintf(b, "%s\n", wording.Tests)
+	for _, t := range fr.report.Present() {
 		c := t.Check
 		stat := ""
 		if c.Verdict != fitcore.NA {
 			stat = fmt.Sprintf("%s = %s, %s", t.Symbol, numfmt.Sig(c.Statistic, 4), wording.PEq(c.P))
 		}
-		w("  %s %-20s %-24s %s\n", verdict(c.Verdict), c.Name, stat, oneLine(c.Message))
+		fmt.Fprintf(b, "  %s %-20s %-24s %s\n", verdict(c.Verdict), c.Name, stat, oneLine(c.Message))
 	}
-	w("\n")
+	b.WriteString("\n")
+}
 
+// standsOutBlock names the flagged readings, with the file line each came
+// from (fitcore numbers them by pair), their influence figures and why
+// they were flagged; nothing when none is.
+func standsOutBlock(b *strings.Builder, fr *fitResult, _ float64) {
 	var flagged []fitcore.PointInfluence
-	for _, p := range r.Influence {
+	for _, p := range fr.report.Influence {
 		if p.Flagged {
 			flagged = append(flagged, p)
 		}
 	}
-	if len(flagged) > 0 {
-		w("%s\n", wording.StandsOut)
-		for _, p := range flagged {
-			line := ""
-			if p.Index >= 0 && p.Index < len(fr.lines) {
-				line = fmt.Sprintf(" (line %d)", fr.lines[p.Index])
-			}
-			w("  pair %d%s: leverage %s, studentized residual %s, Cook's distance %s",
-				p.Index+1, line, numfmt.Sig(p.Leverage, 3), numfmt.Sig(p.Studentized, 3), numfmt.Sig(p.CooksD, 3))
-			if len(p.Reasons) > 0 {
-				w(" — %s", oneLine(strings.Join(p.Reasons, "; ")))
-			}
-			w("\n")
-		}
-		w("\n")
+	if len(flagged) == 0 {
+		return
 	}
+	fmt.Fprintf(b, "%s\n", wording.StandsOut)
+	for _, p := range flagged {
+		line := ""
+		if p.Index >= 0 && p.Index < len(fr.lines) {
+			line = fmt.Sprintf(" (line %d)", fr.lines[p.Index])
+		}
+		fmt.Fprintf(b, "  pair %d%s: leverage %s, studentized residual %s, Cook's distance %s",
+			p.Index+1, line, numfmt.Sig(p.Leverage, 3), numfmt.Sig(p.Studentized, 3), numfmt.Sig(p.CooksD, 3))
+		if len(p.Reasons) > 0 {
+			fmt.Fprintf(b, " — %s", oneLine(strings.Join(p.Reasons, "; ")))
+		}
+		b.WriteString("\n")
+	}
+	b.WriteString("\n")
+}
 
+// adviceBlock is the Box–Cox power when one was estimated, and the advice
+// when it offers a remedy: the flag that applies it, its reason, the
+// verdicts before and after, and why each other candidate was turned down.
+func adviceBlock(b *strings.Builder, fr *fitResult, level float64) {
+	r := fr.report
 	if r.BoxCox != nil {
-		w("Box–Cox λ = %s (%s %s)\n\n", numfmt.Sig(r.BoxCox.Lambda, 3), wording.Interval(level),
+		fmt.Fprintf(b, "Box–Cox λ = %s (%s %s)\n\n", numfmt.Sig(r.BoxCox.Lambda, 3), wording.Interval(level),
 			wording.Range(numfmt.Sig(r.BoxCox.CILow, 3), numfmt.Sig(r.BoxCox.CIHigh, 3)))
 	}
-	if a := r.Advice; a != nil && a.Remedy != "" {
-		w("Advice: %s%s. %s\n", wording.Remedy(a.Remedy), remedyFlag(a.Remedy), oneLine(a.Reason))
-		if a.After != nil {
-			w("  %s\n", beforeAfter(a.Before.Assumptions, a.After.Assumptions))
-		}
-		for _, c := range a.Candidates {
-			if c.Why != "" {
-				w("  tried %s: %s\n", wording.Remedy(c.Remedy), oneLine(c.Why))
-			}
-		}
-		w("\n")
+	a := r.Advice
+	if a == nil || a.Remedy == "" {
+		return
 	}
+	fmt.Fprintf(b, "Advice: %s%s. %s\n", wording.Remedy(a.Remedy), remedyFlag(a.Remedy), oneLine(a.Reason))
+	if a.After != nil {
+		fmt.Fprintf(b, "  %s\n", beforeAfter(a.Before.Assumptions, a.After.Assumptions))
+	}
+	for _, c := range a.Candidates {
+		if c.Why != "" {
+			fmt.Fprintf(b, "  tried %s: %s\n", wording.Remedy(c.Remedy), oneLine(c.Why))
+		}
+	}
+	b.WriteString("\n")
+}
 
-	if len(r.Predictions) > 0 {
-		w("y at a given x (%s)\n", pct)
-		for _, p := range r.Predictions {
-			w("  At x = %s: ŷ = %s; %s: %s; %s: %s", wording.Ref(p.X), num(p.Fit),
-				wording.MeanReading, wording.Range(num(p.CILow), num(p.CIHigh)),
-				wording.NewReading, wording.Range(num(p.PILow), num(p.PIHigh)))
-			if p.Message != "" {
-				w(" — %s", oneLine(p.Message))
-			}
-			w("\n")
-		}
-		w("\n")
+// predictionsBlock is ŷ at each x asked for, with the intervals of the
+// mean reading and of a new reading.
+func predictionsBlock(b *strings.Builder, fr *fitResult, level float64) {
+	r := fr.report
+	if len(r.Predictions) == 0 {
+		return
 	}
-	if len(r.Inverse) > 0 {
-		w("x from readings (%s)\n", pct)
-		for _, v := range r.Inverse {
-			// x and its interval to the standard error (numfmt.Estimate), as the coefficients.
-			xs, se := numfmt.Estimate(v.X, v.SE, sig)
-			w("  An unknown read as %s (mean of %d) is x = %s, %s %s", withUnit(numfmt.Short(v.Y, sig), fr.yUnit), v.M, withUnit(xs, fr.xUnit),
-				strings.ToLower(wording.StandardError), withUnit(se, fr.xUnit))
-			if v.Bounded {
-				lo, _ := numfmt.Estimate(v.Low, v.SE, sig)
-				hi, _ := numfmt.Estimate(v.High, v.SE, sig)
-				w(", %s %s", wording.Interval(level), withUnit(wording.Range(lo, hi), fr.xUnit))
-			} else {
-				w(", no finite interval")
-			}
-			if v.Message != "" {
-				w(" — %s", oneLine(v.Message))
-			}
-			w("\n")
+	fmt.Fprintf(b, "y at a given x (%s)\n", wording.Percent(level))
+	for _, p := range r.Predictions {
+		fmt.Fprintf(b, "  At x = %s: ŷ = %s; %s: %s; %s: %s", wording.Ref(p.X), num(p.Fit),
+			wording.MeanReading, wording.Range(num(p.CILow), num(p.CIHigh)),
+			wording.NewReading, wording.Range(num(p.PILow), num(p.PIHigh)))
+		if p.Message != "" {
+			fmt.Fprintf(b, " — %s", oneLine(p.Message))
 		}
-		w("\n")
+		b.WriteString("\n")
 	}
-	if r.Limits != nil {
-		// Three digits, as the screen's card of the limits.
-		if fr.xUnit != "" {
-			w("%s %s, %s %s\n\n", wording.DetectionLimit, withUnit(numfmt.Sig(r.Limits.LOD, 3), fr.xUnit),
-				strings.ToLower(wording.QuantitationLimit), withUnit(numfmt.Sig(r.Limits.LOQ, 3), fr.xUnit))
+	b.WriteString("\n")
+}
+
+// inverseBlock is x for each unknown's readings, rounded to its standard
+// error (numfmt.Estimate, as the coefficients), with its interval or the
+// word that it has no finite one.
+func inverseBlock(b *strings.Builder, fr *fitResult, level float64) {
+	r := fr.report
+	if len(r.Inverse) == 0 {
+		return
+	}
+	fmt.Fprintf(b, "x from readings (%s)\n", wording.Percent(level))
+	for _, v := range r.Inverse {
+		xs, se := numfmt.Estimate(v.X, v.SE, sig)
+		fmt.Fprintf(b, "  An unknown read as %s (mean of %d) is x = %s, %s %s", withUnit(numfmt.Short(v.Y, sig), fr.yUnit), v.M, withUnit(xs, fr.xUnit),
+			strings.ToLower(wording.StandardError), withUnit(se, fr.xUnit))
+		if v.Bounded {
+			lo, _ := numfmt.Estimate(v.Low, v.SE, sig)
+			hi, _ := numfmt.Estimate(v.High, v.SE, sig)
+			fmt.Fprintf(b, ", %s %s", wording.Interval(level), withUnit(wording.Range(lo, hi), fr.xUnit))
 		} else {
-			w("%s %s, %s %s (x units)\n\n", wording.DetectionLimit, numfmt.Sig(r.Limits.LOD, 3),
-				strings.ToLower(wording.QuantitationLimit), numfmt.Sig(r.Limits.LOQ, 3))
+			b.WriteString(", no finite interval")
 		}
+		if v.Message != "" {
+			fmt.Fprintf(b, " — %s", oneLine(v.Message))
+		}
+		b.WriteString("\n")
 	}
-	if acc := r.Acceptance; acc != nil {
-		stamp := wording.NotAccepted
-		if acc.Pass {
-			stamp = wording.Accepted
-		}
-		w("Acceptance criteria: %s. %s\n", stamp, oneLine(acc.Summary))
-		for _, c := range acc.Results {
-			out := wording.NotMet
-			if c.Pass {
-				out = wording.Met
-			}
-			w("  %s %s (%s): %s\n", out, c.Name, c.Limit, oneLine(c.Reason))
-		}
-		w("\n")
+	b.WriteString("\n")
+}
+
+// limitsBlock is the limits of detection and quantitation, to three
+// digits as the screen's card of the limits, in the unit of x (or said to
+// be in x units when x has none).
+func limitsBlock(b *strings.Builder, fr *fitResult, _ float64) {
+	l := fr.report.Limits
+	switch {
+	case l == nil:
+	case fr.xUnit != "":
+		fmt.Fprintf(b, "%s %s, %s %s\n\n", wording.DetectionLimit, withUnit(numfmt.Sig(l.LOD, 3), fr.xUnit),
+			strings.ToLower(wording.QuantitationLimit), withUnit(numfmt.Sig(l.LOQ, 3), fr.xUnit))
+	default:
+		fmt.Fprintf(b, "%s %s, %s %s (x units)\n\n", wording.DetectionLimit, numfmt.Sig(l.LOD, 3),
+			strings.ToLower(wording.QuantitationLimit), numfmt.Sig(l.LOQ, 3))
 	}
-	if len(r.Notes) > 0 {
-		w("Notes\n")
-		for _, n := range r.Notes {
-			w("  - %s\n", oneLine(n))
-		}
-		w("\n")
+}
+
+// acceptanceBlock is the stamp of the acceptance criteria and each
+// criterion met or not, with its limit and reason.
+func acceptanceBlock(b *strings.Builder, fr *fitResult, _ float64) {
+	acc := fr.report.Acceptance
+	if acc == nil {
+		return
 	}
-	w("Caution: these statistics describe the readings given. Where the result affects safety\n")
-	w("(gas detection, structural loads, drinking water), follow the instrument maker's procedure,\n")
-	w("local codes and licensed practice.\n")
-	return b.String()
+	stamp := wording.NotAccepted
+	if acc.Pass {
+		stamp = wording.Accepted
+	}
+	fmt.Fprintf(b, "Acceptance criteria: %s. %s\n", stamp, oneLine(acc.Summary))
+	for _, c := range acc.Results {
+		out := wording.NotMet
+		if c.Pass {
+			out = wording.Met
+		}
+		fmt.Fprintf(b, "  %s %s (%s): %s\n", out, c.Name, c.Limit, oneLine(c.Reason))
+	}
+	b.WriteString("\n")
+}
+
+// notesBlock is the report's notes, one a line.
+func notesBlock(b *strings.Builder, fr *fitResult, _ float64) {
+	if len(fr.report.Notes) == 0 {
+		return
+	}
+	b.WriteString("Notes\n")
+	for _, n := range fr.report.Notes {
+		fmt.Fprintf(b, "  - %s\n", oneLine(n))
+	}
+	b.WriteString("\n")
 }
 
 // beforeAfter compares the verdicts of the checks now and with the remedy,

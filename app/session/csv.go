@@ -412,11 +412,50 @@ func newCSVScanner(text string, delim rune) *csvScanner {
 
 // next returns the fields of the next row and the line it starts on;
 // fields is nil at the end of the text. The fields are valid until the
-// next call.
+// next call. A row is read in three steps: the empty lines before it are
+// passed over (skipEmptyLines), then each field is read (quotedField or
+// plainField, by its first byte) until a line end or the end of the text
+// closes the row (endRow).
 func (s *csvScanner) next() (fields []string, line int, err *CSVError) {
-	t, d := s.text, s.delim
-	// Empty lines are blank rows; they are passed over here at a few
-	// nanoseconds each and counted in s.empty.
+	s.skipEmptyLines()
+	if s.pos >= len(s.text) {
+		return nil, 0, nil
+	}
+	line = s.line
+	s.fields = s.fields[:0]
+	s.truncated = false
+	for {
+		if len(s.fields) == MaxCSVFields {
+			return nil, line, &CSVError{Line: s.line, Column: columnAt(s.text, s.pos),
+				Err: fmt.Errorf("%w (at most %d cells in a row)", ErrCSVManyFields, MaxCSVFields)}
+		}
+		var f string
+		var ferr *CSVError
+		if s.pos < len(s.text) && s.text[s.pos] == '"' {
+			f, ferr = s.quotedField()
+		} else {
+			f, ferr = s.plainField()
+		}
+		if ferr != nil {
+			return nil, line, ferr
+		}
+		s.fields = append(s.fields, f)
+		if len(s.fields) == s.keep && s.pos < len(s.text) && s.atDelim(s.pos) {
+			s.skipRest()
+		}
+		if s.endRow() {
+			return s.fields, line, nil
+		}
+		s.pos += len(s.delim)
+	}
+}
+
+// skipEmptyLines passes over the empty lines at s.pos. They are blank rows;
+// passing over them here costs a few nanoseconds each, where a row of one
+// empty field would cost a call of next and a blank-row test. They are
+// counted in s.empty (and in s.line).
+func (s *csvScanner) skipEmptyLines() {
+	t := s.text
 	for s.pos < len(t) && (t[s.pos] == '\n' || t[s.pos] == '\r') {
 		if t[s.pos] == '\r' && s.pos+1 < len(t) && t[s.pos+1] == '\n' {
 			s.pos++
@@ -425,107 +464,123 @@ func (s *csvScanner) next() (fields []string, line int, err *CSVError) {
 		s.line++
 		s.empty++
 	}
-	if s.pos >= len(t) {
-		return nil, 0, nil
+}
+
+// quotedField reads the quoted field that starts at s.pos and leaves s.pos
+// just past its closing quote, where the delimiter, a line end or the end
+// of the text must follow. The value is a part of the text unless it holds
+// doubled quotes: then it is a new string without them, or (raw) the text
+// as it stands, quotes and all. Errors name the line the value starts on,
+// since a quoted value may span lines.
+func (s *csvScanner) quotedField() (string, *CSVError) {
+	t, start, startLine := s.text, s.pos, s.line
+	i, seg, doubled, unq := s.closingQuote()
+	if i < 0 {
+		return "", &CSVError{Line: startLine,
+			Err: fmt.Errorf("%w (the quoted value that starts on this line is never closed)", ErrCSVQuote)}
 	}
-	line = s.line
-	s.fields = s.fields[:0]
-	s.truncated = false
+	if i-start > MaxCSVFieldLen {
+		return "", &CSVError{Line: startLine, Column: columnAt(t, start),
+			Err: fmt.Errorf("%w (at most %d bytes in a cell)", ErrCSVLongField, MaxCSVFieldLen)}
+	}
+	var f string
+	switch {
+	case doubled && s.raw:
+		f = t[start : i+1]
+	case doubled:
+		f = string(append(unq, t[seg:i]...))
+	default:
+		f = t[start+1 : i]
+	}
+	s.pos = i + 1
+	if s.pos < len(t) && t[s.pos] != '\n' && t[s.pos] != '\r' && !s.atDelim(s.pos) {
+		return "", &CSVError{Line: s.line, Column: columnAt(t, s.pos),
+			Err: fmt.Errorf("%w (extra text after a closing quote)", ErrCSVQuote)}
+	}
+	return f, nil
+}
+
+// closingQuote finds the quote that closes the quoted value at s.pos,
+// counting the line ends inside it: its index, or −1 when the value is
+// never closed; whether the value held doubled quotes, and then (unless
+// raw) the value without them up to seg, where its last part starts. It
+// stops at the first quote past MaxCSVFieldLen bytes, so a long value
+// costs no more than the limit allows.
+func (s *csvScanner) closingQuote() (end, seg int, doubled bool, unq []byte) {
+	t, start := s.text, s.pos
+	i := start + 1
+	seg = i
 	for {
-		start := s.pos
-		if len(s.fields) == MaxCSVFields {
-			return nil, line, &CSVError{Line: s.line, Column: columnAt(t, start),
-				Err: fmt.Errorf("%w (at most %d cells in a row)", ErrCSVManyFields, MaxCSVFields)}
+		j := strings.IndexByte(t[i:], '"')
+		if j < 0 {
+			return -1, seg, doubled, nil
 		}
-		var f string
-		if start < len(t) && t[start] == '"' {
-			startLine := s.line
-			var unq []byte // the field without its doubled quotes, when it has any
-			doubled := false
-			i, seg := start+1, start+1
-			for {
-				j := strings.IndexByte(t[i:], '"')
-				if j < 0 {
-					return nil, line, &CSVError{Line: startLine,
-						Err: fmt.Errorf("%w (the quoted value that starts on this line is never closed)", ErrCSVQuote)}
-				}
-				s.countLines(t[i : i+j])
-				i += j
-				if i-start > MaxCSVFieldLen {
-					return nil, line, &CSVError{Line: startLine, Column: columnAt(t, start),
-						Err: fmt.Errorf("%w (at most %d bytes in a cell)", ErrCSVLongField, MaxCSVFieldLen)}
-				}
-				if i+1 < len(t) && t[i+1] == '"' {
-					doubled = true
-					if !s.raw {
-						unq = append(unq, t[seg:i+1]...)
-					}
-					i += 2
-					seg = i
-					continue
-				}
-				break
-			}
-			switch {
-			case doubled && s.raw:
-				f = t[start : i+1]
-			case doubled:
-				f = string(append(unq, t[seg:i]...))
-			default:
-				f = t[seg:i]
-			}
-			s.pos = i + 1
-			if s.pos < len(t) && t[s.pos] != '\n' && t[s.pos] != '\r' && !s.atDelim(s.pos) {
-				return nil, line, &CSVError{Line: s.line, Column: columnAt(t, s.pos),
-					Err: fmt.Errorf("%w (extra text after a closing quote)", ErrCSVQuote)}
-			}
-		} else {
-			// The field ends at a line end or the delimiter; a quote inside
-			// it is an error. The scan stops one byte past the longest
-			// field allowed.
-			stop := min(len(t), start+MaxCSVFieldLen+1)
-			i := start
-			for i < stop && !s.special[t[i]] {
-				i++
-			}
-			for i < stop && t[i] != '\n' && t[i] != '\r' && !s.atDelim(i) {
-				if t[i] == '"' {
-					return nil, line, &CSVError{Line: s.line, Column: columnAt(t, i),
-						Err: fmt.Errorf("%w (a quote mark inside a value that does not start with one)", ErrCSVQuote)}
-				}
-				i++ // a byte that starts like a delimiter of several bytes
-				for i < stop && !s.special[t[i]] {
-					i++
-				}
-			}
-			if i-start > MaxCSVFieldLen {
-				return nil, line, &CSVError{Line: s.line, Column: columnAt(t, start),
-					Err: fmt.Errorf("%w (at most %d bytes in a cell)", ErrCSVLongField, MaxCSVFieldLen)}
-			}
-			f = t[start:i]
-			s.pos = i
+		s.countLines(t[i : i+j])
+		i += j
+		if i-start > MaxCSVFieldLen || i+1 >= len(t) || t[i+1] != '"' {
+			break
 		}
-		s.fields = append(s.fields, f)
-		if len(s.fields) == s.keep && s.pos < len(t) && s.atDelim(s.pos) {
-			s.skipRest()
+		doubled = true
+		if !s.raw {
+			unq = append(unq, t[seg:i+1]...)
 		}
-		switch {
-		case s.pos >= len(t):
-			return s.fields, line, nil
-		case t[s.pos] == '\n':
-			s.pos++
-			s.line++
-			return s.fields, line, nil
-		case t[s.pos] == '\r':
-			s.pos++
-			if s.pos < len(t) && t[s.pos] == '\n' {
-				s.pos++
-			}
-			s.line++
-			return s.fields, line, nil
-		}
-		s.pos += len(d) // the delimiter
+		i += 2
+		seg = i
 	}
+	return i, seg, doubled, unq
+}
+
+// plainField reads the unquoted field at s.pos: it ends at a line end or
+// the delimiter, and a quote inside it is an error. The scan runs over the
+// bytes that cannot end it (s.special) in a tight loop and stops one byte
+// past the longest field allowed, so a long field costs no more than the
+// limit.
+func (s *csvScanner) plainField() (string, *CSVError) {
+	t, start := s.text, s.pos
+	stop := min(len(t), start+MaxCSVFieldLen+1)
+	i := start
+	for i < stop && !s.special[t[i]] {
+		i++
+	}
+	for i < stop && t[i] != '\n' && t[i] != '\r' && !s.atDelim(i) {
+		if t[i] == '"' {
+			return "", &CSVError{Line: s.line, Column: columnAt(t, i),
+				Err: fmt.Errorf("%w (a quote mark inside a value that does not start with one)", ErrCSVQuote)}
+		}
+		i++ // a byte that starts like a delimiter of several bytes
+		for i < stop && !s.special[t[i]] {
+			i++
+		}
+	}
+	if i-start > MaxCSVFieldLen {
+		return "", &CSVError{Line: s.line, Column: columnAt(t, start),
+			Err: fmt.Errorf("%w (at most %d bytes in a cell)", ErrCSVLongField, MaxCSVFieldLen)}
+	}
+	s.pos = i
+	return t[start:i], nil
+}
+
+// endRow reports whether the row ends at s.pos (the end of the text or a
+// line end: LF, CRLF or a lone CR, which it passes over); otherwise the
+// delimiter stands there and another field follows.
+func (s *csvScanner) endRow() bool {
+	t := s.text
+	switch {
+	case s.pos >= len(t):
+		return true
+	case t[s.pos] == '\n':
+		s.pos++
+		s.line++
+		return true
+	case t[s.pos] == '\r':
+		s.pos++
+		if s.pos < len(t) && t[s.pos] == '\n' {
+			s.pos++
+		}
+		s.line++
+		return true
+	}
+	return false
 }
 
 // skipRest moves to the line end that ends the current row, passing over
@@ -1294,42 +1349,78 @@ type tableChoice struct {
 // columns, from the first pass's counts (which it changes: the first row
 // counts as data when it is no header, the units row does not). columns,
 // when not nil, chooses x and y by the header's names.
+//
+// Each decision takes the ones before it: which of the first rows are a
+// header and units (headerRows), the counts made to cover the data rows
+// only (settleCounts), whether the file is a Pairline export (exportHeader),
+// which columns hold numbers (numericColumns), and from those the x and y
+// columns (pickColumns).
 func decideTable(opt CSVOptions, tc *tableCounts, columns func(header []string) (int, int, error)) (tableChoice, error) {
 	var ch tableChoice
-	numbers := func(f []string) int {
-		n := 0
-		for _, c := range f {
-			if isNumberCell(c) {
-				n++
-			}
-		}
-		return n
+	ch.hasHeader, ch.unitsRow = headerAndUnits(opt, tc)
+	if err := ch.settleCounts(tc); err != nil {
+		return ch, err
 	}
+	ch.exportHeader(opt)
+	ch.numeric = numericColumns(tc)
+	xc, yc, err := pickColumns(opt, tc.width, ch.header, ch.numeric, columns)
+	if err != nil {
+		return ch, err
+	}
+	ch.xc, ch.yc = xc, yc
+	return ch, nil
+}
+
+// numberCells is the number of cells of f that read as numbers.
+func numberCells(f []string) int {
+	n := 0
+	for _, c := range f {
+		if isNumberCell(c) {
+			n++
+		}
+	}
+	return n
+}
+
+// headerAndUnits decides whether the first row is a header and the second a
+// units row, as opt says or else from the rows: a header has a cell of
+// text and is followed by a row with more numbers (or is the only row, or
+// is followed by units); a units row is text only, with short cells, and
+// has more numbers after it than the first row has. A units row needs a
+// header above it and a row below it.
+func headerAndUnits(opt CSVOptions, tc *tableCounts) (hasHeader, unitsRow bool) {
 	hasText := false
 	for _, c := range tc.first {
 		if !isBlank(c) && !isNumberCell(c) {
 			hasText = true
 		}
 	}
-	// A units row: text only, short cells, and numbers in the row after it.
-	looksUnits := tc.rows >= 3 && isUnitsRow(tc.second) && numbers(tc.third) > numbers(tc.first)
+	looksUnits := tc.rows >= 3 && isUnitsRow(tc.second) && numberCells(tc.third) > numberCells(tc.first)
 	if opt.Header != nil {
-		ch.hasHeader = *opt.Header
+		hasHeader = *opt.Header
 	} else {
-		ch.hasHeader = hasText && (tc.rows == 1 || numbers(tc.second) > numbers(tc.first) || looksUnits)
+		hasHeader = hasText && (tc.rows == 1 || numberCells(tc.second) > numberCells(tc.first) || looksUnits)
 	}
-	if ch.hasHeader {
-		if opt.UnitsRow != nil {
-			ch.unitsRow = *opt.UnitsRow && tc.rows >= 2
-		} else {
-			ch.unitsRow = looksUnits
-		}
+	if !hasHeader {
+		return false, false
 	}
+	if opt.UnitsRow != nil {
+		return true, *opt.UnitsRow && tc.rows >= 2
+	}
+	return true, looksUnits
+}
+
+// settleCounts makes the first pass's column counts cover the data rows
+// only, now that the header and units are known: the first pass counted
+// every row but the first, so the units row is taken away and a first row
+// that is no header added. It takes the header and units rows from tc, and
+// refuses a table that holds nothing besides them.
+func (ch *tableChoice) settleCounts(tc *tableCounts) error {
 	if ch.unitsRow {
 		ch.units = tc.second
 		tc.count(tc.second, -1) // the units row was counted as data
 		if tc.rows == 2 {
-			return ch, &CSVError{Line: tc.firstLine, Err: fmt.Errorf("%w: there are only a header row and a units row", ErrCSVNoData)}
+			return &CSVError{Line: tc.firstLine, Err: fmt.Errorf("%w: there are only a header row and a units row", ErrCSVNoData)}
 		}
 	}
 	if ch.hasHeader {
@@ -1338,8 +1429,16 @@ func decideTable(opt CSVOptions, tc *tableCounts, columns func(header []string) 
 		tc.count(tc.first, 1)
 	}
 	if ch.hasHeader && tc.rows == 1 {
-		return ch, &CSVError{Line: tc.firstLine, Err: fmt.Errorf("%w: there is only a header row", ErrCSVNoData)}
+		return &CSVError{Line: tc.firstLine, Err: fmt.Errorf("%w: there is only a header row", ErrCSVNoData)}
 	}
+	return nil
+}
+
+// exportHeader decides whether the table is a Pairline export (as opt says,
+// or from the header's names) and then restores the header's neutralised
+// text, as the export wrote it to keep a spreadsheet from reading a name as
+// a formula.
+func (ch *tableChoice) exportHeader(opt CSVOptions) {
 	if opt.PairlineExport != nil {
 		ch.export = *opt.PairlineExport
 	} else {
@@ -1350,28 +1449,41 @@ func decideTable(opt CSVOptions, tc *tableCounts, columns func(header []string) 
 			ch.header[i] = unneutralise(h)
 		}
 	}
+}
+
+// numericColumns are the columns where at least half of the filled data
+// cells (and at least one) are numbers, in order.
+func numericColumns(tc *tableCounts) []int {
+	var numeric []int
 	for c := range tc.filled {
 		if tc.nums[c] > 0 && 2*tc.nums[c] >= tc.filled[c] {
-			ch.numeric = append(ch.numeric, c)
+			numeric = append(numeric, c)
 		}
 	}
-	xc, yc := opt.XCol, opt.YCol
+	return numeric
+}
+
+// pickColumns gives the x and y columns: those of opt, or by the header's
+// names when columns is not nil; a column asked for twice is detected
+// instead; one beyond the widest row is refused; a detected column is the
+// first numeric one the other column does not take.
+func pickColumns(opt CSVOptions, width int, header []string, numeric []int, columns func(header []string) (int, int, error)) (xc, yc int, err error) {
+	xc, yc = opt.XCol, opt.YCol
 	if columns != nil {
-		var err error
-		if xc, yc, err = columns(ch.header); err != nil {
-			return ch, err
+		if xc, yc, err = columns(header); err != nil {
+			return xc, yc, err
 		}
 	}
 	if xc == yc {
 		xc, yc = DetectColumn, DetectColumn
 	}
 	for _, c := range []int{xc, yc} {
-		if c >= tc.width {
-			return ch, &CSVError{Err: fmt.Errorf("%w: column %d (the file has %d columns)", ErrCSVNoColumn, c+1, tc.width)}
+		if c >= width {
+			return xc, yc, &CSVError{Err: fmt.Errorf("%w: column %d (the file has %d columns)", ErrCSVNoColumn, c+1, width)}
 		}
 	}
 	pick := func(not int) int {
-		for _, c := range ch.numeric {
+		for _, c := range numeric {
 			if c != not {
 				return c
 			}
@@ -1385,8 +1497,7 @@ func decideTable(opt CSVOptions, tc *tableCounts, columns func(header []string) 
 		yc = pick(xc)
 	}
 	if xc < 0 || yc < 0 {
-		return ch, &CSVError{Err: ErrCSVColumns}
+		return xc, yc, &CSVError{Err: ErrCSVColumns}
 	}
-	ch.xc, ch.yc = xc, yc
-	return ch, nil
+	return xc, yc, nil
 }
