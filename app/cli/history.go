@@ -16,8 +16,10 @@ import (
 	"time"
 
 	"pairline/app/history"
+	"pairline/app/history/view"
 	"pairline/app/numfmt"
 	"pairline/app/session"
+	"pairline/app/wording"
 	"pairline/fitcore"
 )
 
@@ -141,7 +143,7 @@ func History(args []string, stdout, stderr io.Writer) int {
 	case *asCSV:
 		err = historyCSV(stdout, ins)
 	default:
-		err = historyText(stdout, ins, skipped)
+		err = historyText(stdout, ins, skipped, opt)
 	}
 	if err != nil {
 		fail(stderr, "history", "could not write the output: %v", err)
@@ -437,7 +439,10 @@ func historyCSV(w io.Writer, ins []history.Instrument) error {
 	return session.WriteTable(w, rows, false)
 }
 
-func historyText(w io.Writer, ins []history.Instrument, skipped []skippedFile) error {
+// historyText writes the plain text of `pairline history`: per instrument
+// its sessions, then the drift, the projection and the due date in the
+// words of the app's instrument view (app/history/view).
+func historyText(w io.Writer, ins []history.Instrument, skipped []skippedFile, opt history.Options) error {
 	var b strings.Builder
 	if len(ins) == 0 {
 		b.WriteString("No calibration records found.\n")
@@ -458,32 +463,23 @@ func historyText(w io.Writer, ins []history.Instrument, skipped []skippedFile) e
 		}
 		for _, e := range in.Entries {
 			fmt.Fprintf(&b, "  %s  %s  slope %s ± %s  intercept %s ± %s  %s", day(e.Taken), term(e.ID),
-				numfmt.Sig(e.Slope, 6), numfmt.Sig(e.SlopeSE, 2), numfmt.Sig(e.Intercept, 6), numfmt.Sig(e.InterceptSE, 2), e.Verdict)
+				numfmt.Sig(e.Slope, 6), numfmt.Sig(e.SlopeSE, 2), numfmt.Sig(e.Intercept, 6), numfmt.Sig(e.InterceptSE, 2), view.VerdictWord(e.Verdict))
 			if c, ok := change[e.ID]; ok && e.Verdict == history.Accepted {
-				fmt.Fprintf(&b, "; against the previous: %s (p %s)", c.Verdict, numfmt.Sig(c.PCoincident, 2))
+				fmt.Fprintf(&b, "; against the previous: %s (%s)", view.ChangeWord(c.Verdict), wording.PEq(c.PCoincident))
 			}
 			if e.Reason != "" && e.Verdict != history.Accepted {
 				fmt.Fprintf(&b, " (%s)", longText(e.Reason))
 			}
 			b.WriteString("\n")
 		}
-		d := in.SlopeDrift
-		if d.Status == fitcore.DriftTooFew || d.N < 3 {
-			fmt.Fprintf(&b, "  Slope trend: %s.\n", d.Status)
-		} else {
-			fmt.Fprintf(&b, "  Slope trend: %s per year (%s to %s, %s%%), p %s: %s.\n", numfmt.Sig(d.Rate, 3),
-				numfmt.Sig(d.RateLow, 3), numfmt.Sig(d.RateHigh, 3), strconv.FormatFloat(100*d.Level, 'g', -1, 64), numfmt.Sig(d.P, 2), d.Status)
-		}
-		if !in.LeavesAt.IsZero() {
-			fmt.Fprintf(&b, "  The %s is projected to leave its limit about %s.\n", in.LeavesWhich, day(in.LeavesAt))
-		}
-		if !in.Due.IsZero() {
-			state := "due"
-			if in.Overdue {
-				state = "OVERDUE since"
+		it := view.Word(in, opt.Now, limitsOf(opt))
+		for _, d := range it.Drift {
+			b.WriteString("  " + d.Text + "\n")
+			if d.Leaves != "" {
+				b.WriteString("  " + d.Leaves + "\n")
 			}
-			fmt.Fprintf(&b, "  Next calibration %s %s.\n", state, day(in.Due))
 		}
+		b.WriteString("  " + strings.TrimSuffix(it.Due.Text, ".") + ".\n")
 	}
 	if len(skipped) > 0 {
 		fmt.Fprintf(&b, "%d files skipped (listed on stderr).\n", len(skipped))

@@ -133,7 +133,7 @@ func TestHistoryTextAndCSV(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errb.String())
 	}
 	if s := out.String(); !strings.Contains(s, "Instrument LVWB-CL-02: 12 sessions") || strings.Contains(s, "LVWB-TB-01") ||
-		!strings.Contains(s, "Slope trend:") || !strings.Contains(s, fitcore.DriftDrifting) {
+		!strings.Contains(s, "Slope is drifting:") || !strings.Contains(s, "Next due") && !strings.Contains(s, "Overdue since") {
 		t.Errorf("text:\n%s", s)
 	}
 	out.Reset()

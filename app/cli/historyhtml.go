@@ -14,6 +14,7 @@ import (
 	"time"
 
 	"pairline/app/history"
+	"pairline/app/history/view"
 	"pairline/app/numfmt"
 	"pairline/app/plot"
 	"pairline/app/wording"
@@ -87,13 +88,6 @@ func hpm(v, se float64) string {
 	vs, us := numfmt.Estimate(v, se, 6)
 	return `<span class="pl-rnum" data-value="` + numfmt.Full(v) + `" data-se="` + numfmt.Full(se) + `">` +
 		html.EscapeString(vs) + " ± " + html.EscapeString(us) + `</span>`
-}
-
-// hround writes v rounded to the decimal place of the uncertainty u (as
-// hpm rounds the estimate), with data-value.
-func hround(v, u float64) string {
-	vs, _ := numfmt.Estimate(v, u, 6)
-	return hnum(v, vs)
 }
 
 // htmlPage is what the page needs besides the instruments.
@@ -211,7 +205,7 @@ func writeTOC(b *strings.Builder, p htmlPage) {
 		} else {
 			b.WriteString("—")
 		}
-		b.WriteString(`</td><td data-label="Slope trend">` + driftVerdict(in.SlopeDrift.Status) + `</td><td data-label="Next calibration">` + dueBadge(in) + "</td></tr>")
+		b.WriteString(`</td><td data-label="Slope trend">` + driftVerdict(in.SlopeDrift.Status) + `</td><td data-label="Next calibration">` + dueBadge(in, p.Now) + "</td></tr>")
 	}
 	b.WriteString("</tbody></table></div></section>\n")
 }
@@ -221,7 +215,7 @@ func changeVerdict(v string) string {
 	if v == fitcore.LinesSame {
 		cls = "pl-rv-pass"
 	}
-	return `<span class="pl-rv ` + cls + `" data-verdict="` + hx(v) + `">` + hx(v) + `</span>`
+	return `<span class="pl-rv ` + cls + `" data-verdict="` + hx(v) + `">` + hx(view.ChangeWord(v)) + `</span>`
 }
 
 func driftVerdict(status string) string {
@@ -232,17 +226,20 @@ func driftVerdict(status string) string {
 	case fitcore.DriftSteady:
 		cls = "pl-rv-pass"
 	}
-	return `<span class="pl-rv ` + cls + `" data-verdict="` + hx(status) + `">` + hx(status) + `</span>`
+	return `<span class="pl-rv ` + cls + `" data-verdict="` + hx(status) + `">` + hx(view.DriftWord(status)) + `</span>`
 }
 
-func dueBadge(in *history.Instrument) string {
+// dueBadge is the due mark of the table of contents, in the words of the
+// app's instrument list (view.DueOf).
+func dueBadge(in *history.Instrument, now time.Time) string {
+	m := view.DueOf(*in, 0, now)
 	switch dueState(in) {
 	case "overdue":
-		return `<span class="hf-state hf-state-overdue" data-state="overdue" data-value="` + day(in.Due) + `">overdue since ` + day(in.Due) + `</span>`
+		return `<span class="hf-state hf-state-overdue" data-state="overdue" data-value="` + day(in.Due) + `">` + hx(m.Text) + `</span>`
 	case "due":
-		return `<span class="hf-state hf-state-due" data-state="due" data-value="` + day(in.Due) + `">due ` + day(in.Due) + `</span>`
+		return `<span class="hf-state hf-state-due" data-state="due" data-value="` + day(in.Due) + `">` + hx(m.Text) + `</span>`
 	}
-	return `<span class="hf-state hf-state-unknown" data-state="unknown">no interval set</span>`
+	return `<span class="hf-state hf-state-unknown" data-state="unknown">no due date</span>`
 }
 
 // units of the instrument: those of its latest session that names them.
@@ -302,31 +299,40 @@ func writeInstrument(b *strings.Builder, i int, in *history.Instrument, p htmlPa
 		fmt.Fprintf(b, ` (%d more given twice, counted once)`, in.Duplicates)
 	}
 	b.WriteString(`</li></ul>`)
-	writeDue(b, in, p.Now)
+	it := view.Word(*in, p.Now, limitsOf(p.Opt))
+	writeDue(b, in, it)
 	writeCalibrations(b, in)
-	writeToday(b, in, u)
+	writeToday(b, it)
 	writeChanges(b, in, u)
-	writeDrift(b, in, p.Opt, slopeUnit, u)
+	writeDrift(b, in, it, p.Opt)
 	writeCharts(b, i, in, p.Opt, slopeUnit, u)
 	b.WriteString("</section>\n")
 }
 
-func writeDue(b *strings.Builder, in *history.Instrument, now time.Time) {
+// limitsOf is the command's limits (--slope-limits, --intercept-limits) as
+// the view takes them.
+func limitsOf(o history.Options) view.Limits {
+	return view.Limits{SlopeLow: o.SlopeLow, SlopeHigh: o.SlopeHigh, InterceptLow: o.InterceptLow, InterceptHigh: o.InterceptHigh}
+}
+
+// writeDue says when the instrument is next due, in the words of the app's
+// instrument view (view.Item.Due), and the interval the date comes from.
+func writeDue(b *strings.Builder, in *history.Instrument, it view.Item) {
 	la := lastAccepted(in)
+	m := it.Due
 	switch dueState(in) {
 	case "overdue":
-		late := int(math.Floor(now.Sub(in.Due).Hours() / 24))
-		fmt.Fprintf(b, `<p class="hf-alert" data-testid="hfile-due" data-state="overdue" data-value="%s" data-days="%d"><strong>Overdue by %d days:</strong> the next calibration was due on %s, %d days after the last accepted one (%s).</p>`,
-			day(in.Due), late, late, hday(in.Due), dayCount(la, in.Due), hday(la.Taken))
+		fmt.Fprintf(b, `<p class="hf-alert" data-testid="hfile-due" data-state="overdue" data-value="%s" data-days="%d"><strong>%s.</strong> The due date is %d days after the last accepted calibration (%s).</p>`,
+			day(in.Due), -m.Days, hx(m.Text), dayCount(la, in.Due), hday(la.Taken))
 	case "due":
-		fmt.Fprintf(b, `<p class="hf-calm" data-testid="hfile-due" data-state="due" data-value="%s">Next calibration due on <strong>%s</strong>, %d days after the last accepted one (%s).</p>`,
-			day(in.Due), hday(in.Due), dayCount(la, in.Due), hday(la.Taken))
+		fmt.Fprintf(b, `<p class="hf-calm" data-testid="hfile-due" data-state="due" data-value="%s" data-days="%d"><strong>%s.</strong> The due date is %d days after the last accepted calibration (%s).</p>`,
+			day(in.Due), m.Days, hx(m.Text), dayCount(la, in.Due), hday(la.Taken))
 	default:
-		if la == nil {
-			b.WriteString(`<p class="hf-note" data-testid="hfile-due" data-state="unknown">No accepted calibration, so no due date.</p>`)
-		} else {
-			b.WriteString(`<p class="hf-note" data-testid="hfile-due" data-state="unknown">No calibration interval in the records (give <code>--interval DAYS</code>), so no due date.</p>`)
+		b.WriteString(`<p class="hf-note" data-testid="hfile-due" data-state="unknown">` + hx(m.Text))
+		if la != nil {
+			b.WriteString(` Give <code>--interval DAYS</code> for one.`)
 		}
+		b.WriteString(`</p>`)
 	}
 }
 
@@ -372,7 +378,7 @@ func writeCalibrations(b *strings.Builder, in *history.Instrument) {
 		} else {
 			b.WriteString(`<td data-label="Slope">—</td><td data-label="Intercept">—</td><td data-label="R²">—</td>`)
 		}
-		b.WriteString(`<td data-label="Verdict"><span class="pl-rv ` + verdictClass(e.Verdict) + `">` + hx(e.Verdict) + `</span>`)
+		b.WriteString(`<td data-label="Verdict"><span class="pl-rv ` + verdictClass(e.Verdict) + `">` + hx(view.VerdictWord(e.Verdict)) + `</span>`)
 		if e.Reason != "" && e.Verdict != history.Accepted {
 			b.WriteString(`<br><span class="pl-report-small">` + hx(oneLine(e.Reason)) + `</span>`)
 		}
@@ -442,45 +448,29 @@ func signed(v float64, sig int) string {
 	return s
 }
 
-// writeToday says in words how the latest accepted calibration compares
-// with the one before it.
-func writeToday(b *strings.Builder, in *history.Instrument, u instUnits) {
-	n := len(in.Changes)
-	if n == 0 {
-		b.WriteString(`<p class="hf-note" data-testid="hfile-today">Fewer than two accepted calibrations, so there is nothing to compare the latest with.</p>`)
+// writeToday says how the newest calibration with a line compares with the
+// last accepted one before it, in the words of the app's instrument view
+// (view.Item.Compare), each figure's full value in data attributes.
+func writeToday(b *strings.Builder, it view.Item) {
+	k := it.Compare
+	if k == nil {
+		b.WriteString(`<p class="hf-note" data-testid="hfile-today">` + hx(it.CompareWhy) + `</p>`)
 		return
 	}
-	c := in.Changes[n-1]
-	acc := acceptedByID(in)
-	cur, prev := acc[c.Session], acc[c.Previous]
 	cls := "hf-calm"
-	if c.Verdict != fitcore.LinesSame {
+	if k.Verdict != fitcore.LinesSame {
 		cls = "hf-alert"
 	}
-	fmt.Fprintf(b, `<div class="%s" data-testid="hfile-today" data-verdict="%s"><p><strong>Latest against the previous accepted calibration</strong> (%s against %s): `,
-		cls, hx(c.Verdict), hdayOf(cur), hdayOf(prev))
-	switch c.Verdict {
-	case fitcore.LinesSame:
-		b.WriteString(`the two lines agree (one common line, ` + html.EscapeString(wording.PEq(c.PCoincident)) + `).`)
-	case fitcore.LinesSlopeChanged:
-		b.WriteString(`the slope has changed (equal slopes, ` + html.EscapeString(wording.PEq(c.PSlopes)) + `).`)
-	default:
-		b.WriteString(`the line has moved with the slope kept (one common line, ` + html.EscapeString(wording.PEq(c.PCoincident)) + `; equal slopes, ` + html.EscapeString(wording.PEq(c.PSlopes)) + `).`)
+	fmt.Fprintf(b, `<div class="%s" data-testid="hfile-today" data-verdict="%s" data-today="%s" data-previous="%s"><p><strong>Latest calibration (%s) against the last accepted one before it (%s)</strong></p>`,
+		cls, hx(k.Verdict), hx(k.Today), hx(k.Previous), hx(k.TodayDate), hx(k.PreviousDate))
+	b.WriteString(`<p data-testid="hfile-today-headline">` + hx(k.Headline) + `</p><ul class="hf-facts">`)
+	fmt.Fprintf(b, `<li data-testid="hfile-today-slopes" data-f="%s" data-p="%s">%s</li>`, numfmt.Full(k.FSlopes), numfmt.Full(k.PSlopes), hx(k.Slopes))
+	fmt.Fprintf(b, `<li data-testid="hfile-today-coincident" data-f="%s" data-p="%s">%s</li>`, numfmt.Full(k.FCoincident), numfmt.Full(k.PCoincident), hx(k.Coincident))
+	for _, d := range k.Diffs {
+		fmt.Fprintf(b, `<li data-testid="hfile-today-%s" data-value="%s" data-diff="%s" data-x="%s">%s</li>`,
+			d.Where, numfmt.Full(d.Percent), numfmt.Full(d.Diff), numfmt.Full(d.X), hx(d.Text))
 	}
-	b.WriteString(`</p><p>A response read today at the middle of the range, ` + hnum(c.Middle.X, numfmt.Short(c.Middle.X, 6)) + hunit(u.xUnit) +
-		`, converts with the previous line to ` + readsWord(c.Middle, u.xUnit) + `; at the top, ` + hnum(c.Top.X, numfmt.Short(c.Top.X, 6)) + hunit(u.xUnit) +
-		`, to ` + readsWord(c.Top, u.xUnit) + `.</p></div>`)
-}
-
-func readsWord(d fitcore.XDifference, xUnit string) string {
-	word := "more"
-	if d.Diff < 0 {
-		word = "less"
-	}
-	if d.Diff == 0 {
-		return "the same value"
-	}
-	return hnum(math.Abs(d.Diff), numfmt.Sig(math.Abs(d.Diff), 3)) + hunit(xUnit) + " " + word + " (" + hnum(d.Percent, numfmt.Sig(math.Abs(d.Percent), 2)) + "\u00a0% of the range)"
+	b.WriteString(`</ul></div>`)
 }
 
 func writeChanges(b *strings.Builder, in *history.Instrument, u instUnits) {
@@ -520,52 +510,32 @@ func levelPct(l float64) string {
 	return strconv.FormatFloat(100*l, 'g', -1, 64) + "\u00a0%"
 }
 
-func writeDrift(b *strings.Builder, in *history.Instrument, opt history.Options, slopeUnit string, u instUnits) {
+// writeDrift says what the trend of the slope and the intercept is, in the
+// words of the app's instrument view (view.Item.Drift); the figures of
+// fitcore's rate per year in data attributes.
+func writeDrift(b *strings.Builder, in *history.Instrument, it view.Item, opt history.Options) {
 	b.WriteString(`<h3>Drift</h3>`)
-	for _, d := range []struct {
-		name, testid, unit string
-		r                  *fitcore.DriftResult
-		low, high          *float64
-	}{
-		{"slope", "hfile-drift-slope", slopeUnit, in.SlopeDrift, opt.SlopeLow, opt.SlopeHigh},
-		{"intercept", "hfile-drift-intercept", strings.TrimSpace(u.yUnit), in.InterceptDrift, opt.InterceptLow, opt.InterceptHigh},
-	} {
-		r := d.r
-		unit := ""
-		if d.unit != "" {
-			unit = " " + d.unit
+	lim := limitsOf(opt)
+	for i, r := range []*fitcore.DriftResult{in.SlopeDrift, in.InterceptDrift} {
+		d := it.Drift[i]
+		fmt.Fprintf(b, `<p class="%s" data-testid="hfile-drift-%s" data-verdict="%s" data-n="%d"`, driftClass(r.Status), d.Which, hx(r.Status), r.N)
+		if r.Status == fitcore.DriftSteady || r.Status == fitcore.DriftDrifting {
+			fmt.Fprintf(b, ` data-value="%s" data-low="%s" data-high="%s" data-p="%s" data-per-month="%s"`,
+				numfmt.Full(r.Rate), numfmt.Full(r.RateLow), numfmt.Full(r.RateHigh), numfmt.Full(r.P), numfmt.Full(d.PerMonth))
 		}
-		fmt.Fprintf(b, `<p class="%s" data-testid="%s" data-verdict="%s" data-n="%d"`, driftClass(r.Status), d.testid, hx(r.Status), r.N)
+		b.WriteString(`>` + hx(d.Text))
 		switch {
-		case r.Status == fitcore.DriftTooFew:
-			fmt.Fprintf(b, `><strong>%s:</strong> %d accepted calibrations are too few to say anything about a trend; at least 3 are needed.</p>`, titleCase(d.name), r.N)
-			continue
-		case r.Status != fitcore.DriftSteady && r.Status != fitcore.DriftDrifting:
-			fmt.Fprintf(b, `><strong>%s:</strong> the trend could not be fitted (%s).</p>`, titleCase(d.name), hx(r.Status))
-			continue
-		}
-		fmt.Fprintf(b, ` data-value="%s" data-low="%s" data-high="%s" data-p="%s">`, numfmt.Full(r.Rate), numfmt.Full(r.RateLow), numfmt.Full(r.RateHigh), numfmt.Full(r.P))
-		fmt.Fprintf(b, `<strong>%s: %s.</strong> It changes by %s%s per year (%s per month); %s interval %s to %s per year; test of no change: %s, over %d accepted calibrations.`,
-			titleCase(d.name), hx(r.Status), hround(r.Rate, r.RateSE), hx(unit), hround(r.Rate/12, r.RateSE/12), levelPct(r.Level),
-			hround(r.RateLow, r.RateSE), hround(r.RateHigh, r.RateSE), pnum(r.P), r.N)
-		switch {
-		case d.low == nil && d.high == nil:
-			fmt.Fprintf(b, ` No limits were given for the %s (<code>--%s-limits</code>), so no date of leaving them is projected.`, d.name, d.name)
-		case r.Leaves != nil && r.Status == fitcore.DriftDrifting:
-			at := in.Origin.Add(history.Duration(r.Leaves.At))
-			fmt.Fprintf(b, ` <span data-testid="hfile-leaves" data-which="%s" data-value="%s"`, d.name, day(at))
-			if r.Leaves.Bounded {
-				lo, hi := in.Origin.Add(history.Duration(r.Leaves.Low)), in.Origin.Add(history.Duration(r.Leaves.High))
-				fmt.Fprintf(b, ` data-low="%s" data-high="%s"><strong>Projected to leave its %s limit %s about %s</strong> (%s interval %s to %s).</span>`,
-					day(lo), day(hi), r.Leaves.Side, hnum(r.Leaves.Limit, numfmt.Short(r.Leaves.Limit, 6)), hday(at), levelPct(r.Level), hday(lo), hday(hi))
-			} else {
-				fmt.Fprintf(b, `><strong>Projected to leave its %s limit %s about %s</strong> (the interval of that date is open: the trend is too uncertain to bound it).</span>`,
-					r.Leaves.Side, hnum(r.Leaves.Limit, numfmt.Short(r.Leaves.Limit, 6)), hday(at))
+		case !d.LeavesAt.IsZero():
+			fmt.Fprintf(b, ` <span data-testid="hfile-leaves" data-which="%s" data-value="%s"`, d.Which, day(d.LeavesAt))
+			if d.Bounded {
+				fmt.Fprintf(b, ` data-low="%s" data-high="%s"`, day(d.LeavesLo), day(d.LeavesHi))
 			}
-		case r.Status == fitcore.DriftDrifting:
-			b.WriteString(` The trend does not head for a limit given.`)
-		default:
-			b.WriteString(` No trend was found, so no date of leaving the limits is projected.`)
+			b.WriteString(`><strong>` + hx(d.Leaves) + `</strong></span>`)
+		case d.Leaves != "":
+			b.WriteString(` ` + hx(d.Leaves))
+			if !lim.Set(d.Which) {
+				fmt.Fprintf(b, ` Give <code>--%s-limits</code> for one.`, d.Which)
+			}
 		}
 		b.WriteString(`</p>`)
 	}

@@ -208,7 +208,7 @@ func TestHistoryHTMLScenario(t *testing.T) {
 	if strings.Contains(page, `data-state="overdue"`) || strings.Count(page, `data-testid="hfile-due" data-state="due" data-value="2026-01-10"`) != 3 {
 		t.Error("a day before the due day: overdue shown, or the due day not shown for all three")
 	}
-	if strings.Contains(page, "hfile-leaves") || !strings.Contains(page, "No limits were given for the slope") {
+	if strings.Contains(page, "hfile-leaves") || !strings.Contains(page, "No acceptance limits are set on the slope") {
 		t.Error("without limits: a leaving day projected, or not said that none is")
 	}
 }

@@ -3,12 +3,13 @@ package ui
 // The instrument view: the sessions on this device grouped by instrument
 // (app/history), each instrument's calibrations in time order, the trend
 // charts, today against the last accepted calibration, the drift and the
-// due date. A go-app component with data in (View, an instView worded by
-// buildInstView) and actions out (OnOpen, OnClose); it holds no pointer
+// due date. A go-app component with data in (View, an hv.View worded by
+// hv.Build) and actions out (OnOpen, OnClose); it holds no pointer
 // into the Shell and computes nothing but which point a tap is nearest.
 
 import (
 	"math"
+	hv "pairline/app/history/view"
 	"strconv"
 	"time"
 
@@ -23,9 +24,9 @@ import (
 type instrumentsPanel struct {
 	app.Compo
 
-	View    *instView // nil while the sessions are being read
-	Message string    // why the view could not be made, "" = fine
-	Done    int       // sessions read so far of Total, while View is nil
+	View    *hv.View // nil while the sessions are being read
+	Message string   // why the view could not be made, "" = fine
+	Done    int      // sessions read so far of Total, while View is nil
 	Total   int
 	OnOpen  func(id string)
 	OnClose func()
@@ -40,7 +41,7 @@ func (p *instrumentsPanel) open(id string) {
 	}
 }
 
-func (p *instrumentsPanel) current() *instItem {
+func (p *instrumentsPanel) current() *hv.Item {
 	if p.View == nil {
 		return nil
 	}
@@ -120,7 +121,7 @@ func (p *instrumentsPanel) renderList() app.UI {
 	)
 }
 
-func (p *instrumentsPanel) renderInstrument(it *instItem) app.UI {
+func (p *instrumentsPanel) renderInstrument(it *hv.Item) app.UI {
 	due := it.Due
 	dueDate := ""
 	if !due.Date.IsZero() {
@@ -187,7 +188,7 @@ func dupText(dup, sup int) string {
 	return t
 }
 
-func (p *instrumentsPanel) renderRows(it *instItem) app.UI {
+func (p *instrumentsPanel) renderRows(it *hv.Item) app.UI {
 	return app.Div().Class("pl-inst-tablewrap").Body(
 		app.Table().Class("pl-inst-table").DataSet("testid", "inst-calibrations").Body(
 			app.Caption().Text("Calibrations in time order"),
@@ -264,8 +265,8 @@ func numCell(testid string, fitted bool, v, se float64, vt, set string) app.UI {
 	)
 }
 
-func (p *instrumentsPanel) renderCharts(it *instItem) app.UI {
-	var tapped *instRow
+func (p *instrumentsPanel) renderCharts(it *hv.Item) app.UI {
+	var tapped *hv.Row
 	for i := range it.Rows {
 		if it.Rows[i].ID == p.tapped {
 			tapped = &it.Rows[i]
@@ -288,7 +289,7 @@ func (p *instrumentsPanel) renderCharts(it *instItem) app.UI {
 	)
 }
 
-func (p *instrumentsPanel) chartFigure(title string, ch instChart, key string) app.UI {
+func (p *instrumentsPanel) chartFigure(title string, ch hv.Chart, key string) app.UI {
 	ring := ""
 	for _, m := range ch.Marks {
 		if m.Row >= 0 && m.Row < len(ch.IDs) && ch.IDs[m.Row] == p.tapped {
@@ -306,7 +307,7 @@ func (p *instrumentsPanel) chartFigure(title string, ch instChart, key string) a
 
 // onTap finds the calibration under a tap: the nearest drawn point within
 // plotTapPx, as on the readings' plots.
-func (p *instrumentsPanel) onTap(e app.Event, ch instChart) {
+func (p *instrumentsPanel) onTap(e app.Event, ch hv.Chart) {
 	t := e.Get("target")
 	if !t.Truthy() || !t.Get("closest").Truthy() {
 		return
@@ -336,7 +337,7 @@ func (p *instrumentsPanel) onTap(e app.Event, ch instChart) {
 	p.tapped = ch.IDs[m.Row]
 }
 
-func (p *instrumentsPanel) renderCompare(it *instItem) app.UI {
+func (p *instrumentsPanel) renderCompare(it *hv.Item) app.UI {
 	k := it.Compare
 	if k == nil {
 		return app.Div().Class("pl-inst-block").DataSet("testid", "inst-compare").DataSet("verdict", "n/a").Body(
@@ -368,7 +369,7 @@ func cmpClass(v string) string {
 	return "changed"
 }
 
-func (p *instrumentsPanel) renderDrift(it *instItem) app.UI {
+func (p *instrumentsPanel) renderDrift(it *hv.Item) app.UI {
 	return app.Div().Class("pl-inst-block").DataSet("testid", "inst-drift").Body(
 		app.H4().Text("Drift over time"),
 		app.Range(it.Drift).Slice(func(i int) app.UI {

@@ -7,6 +7,7 @@ package ui
 // same view.
 
 import (
+	hv "pairline/app/history/view"
 	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
@@ -18,7 +19,7 @@ import (
 // instState is the Shell's part of the instrument view.
 type instState struct {
 	instOpen            bool
-	instView            *instView
+	instView            *hv.View
 	instMsg             string
 	instDone, instTotal int // sessions read of those listed, while a refresh runs
 	instSeq             int // counts refreshes, so that only the newest is shown
@@ -34,7 +35,7 @@ type instCached struct {
 }
 
 // refreshInstruments reads the listed sessions that changed since the
-// last refresh, summarises them and words the history (buildInstView).
+// last refresh, summarises them and words the history (view.Build).
 func (c *Shell) refreshInstruments() {
 	if c.st == nil || c.ui.Src() == nil {
 		return
@@ -75,7 +76,7 @@ func (c *Shell) refreshInstruments() {
 				sums = append(sums, e.sum)
 			}
 		}
-		v, err := buildInstView(sums, time.Now())
+		v, err := hv.Build(sums, time.Now())
 		c.ui.Dispatch(func(ctx app.Context) {
 			if seq != c.instSeq {
 				return
@@ -117,13 +118,13 @@ func (c *Shell) toggleInstruments(ctx app.Context, e app.Event) {
 
 // dueMarkOf is the due mark the session list shows beside a session: the
 // newest calibration of each instrument carries its instrument's.
-func (c *Shell) dueMarkOf(id string) (dueMark, bool) {
+func (c *Shell) dueMarkOf(id string) (hv.DueMark, bool) {
 	if c.instView == nil {
-		return dueMark{}, false
+		return hv.DueMark{}, false
 	}
 	m, ok := c.instView.Due[id]
-	if !ok || m.State == dueNone {
-		return dueMark{}, false
+	if !ok || m.State == hv.DueNone {
+		return hv.DueMark{}, false
 	}
 	return m, true
 }

@@ -1,13 +1,15 @@
-package ui
-
-// The instrument view's data: what app/history computes from the sessions
-// on this device, put into the words, rounded figures and chart markup the
-// instrument components show. Pure Go (no go-app, no syscall/js) so that it
-// is tested natively; it computes no statistics: every estimate, interval,
+// Package view words an instrument's calibration history: what app/history
+// computes, put into the words, rounded figures (with their full values
+// beside them) and chart markup that the app's instrument view
+// (app/ui/instruments.go), the page of `pairline history --html` and the
+// text of `pairline history` show, so that the three always say the same.
+// Pure Go (no go-app, no syscall/js, no HTML escaping: each writer escapes
+// what it shows); it computes no statistics: every estimate, interval,
 // test and date comes from history.Build (fitcore.CompareLines and
 // fitcore.Drift). What it does itself is presentation: rounding, unit
 // changes (a rate per year shown per month), relative differences in
 // percent of the value, and days until a due date.
+package view
 
 import (
 	"math"
@@ -22,38 +24,38 @@ import (
 	"pairline/fitcore"
 )
 
-// dueSoonDays: an instrument whose next calibration falls within this many
+// DueSoonDays: an instrument whose next calibration falls within this many
 // days is shown as due (a week's notice to plan the work; our choice).
-const dueSoonDays = 7
+const DueSoonDays = 7
 
 // Due states (data-state of the due marks).
 const (
-	dueNone    = "none"    // no interval, or no accepted calibration
-	dueLater   = "ok"      // due later than dueSoonDays from now
-	dueSoon    = "due"     // due within dueSoonDays
-	dueOverdue = "overdue" // past its due date
+	DueNone    = "none"    // no interval, or no accepted calibration
+	DueLater   = "ok"      // due later than DueSoonDays from now
+	DueSoon    = "due"     // due within DueSoonDays
+	DueOverdue = "overdue" // past its due date
 )
 
-// dueMark is when an instrument is next due, in words.
-type dueMark struct {
+// DueMark is when an instrument is next due, in words.
+type DueMark struct {
 	State string
-	Date  time.Time // zero when State is dueNone
+	Date  time.Time // zero when State is DueNone
 	Days  int       // whole days from today to Date (negative: overdue)
 	Text  string
 }
 
-// instView is everything the instrument components show.
-type instView struct {
-	Items []instItem
+// View is everything the instrument components show.
+type View struct {
+	Items []Item
 	// Unnamed counts the sessions that name no instrument (not followed).
 	Unnamed int
 	// Due is the due mark of the newest session of each instrument, by
 	// session ID, for the session list.
-	Due map[string]dueMark
+	Due map[string]DueMark
 }
 
-// instItem is one instrument.
-type instItem struct {
+// Item is one instrument.
+type Item struct {
 	Key          string // history key: identifier, serial or description
 	Description  string
 	Site         string
@@ -62,21 +64,21 @@ type instItem struct {
 	Duplicates   int
 	Superseded   int
 	Interval     int // days; 0 = none
-	Due          dueMark
-	Rows         []instRow // time order
+	Due          DueMark
+	Rows         []Row // time order
 	XName, XUnit string
 	YUnit        string
 
-	Slope, Intercept instChart
-	Compare          *instCompare
+	Slope, Intercept Chart
+	Compare          *Compare
 	CompareWhy       string // why there is no comparison
-	Drift            []instDrift
+	Drift            []Drift
 	Leaves           string // the first projected crossing in words, "" = none
 	LeavesAt         time.Time
 }
 
-// instRow is one calibration of an instrument.
-type instRow struct {
+// Row is one calibration of an instrument.
+type Row struct {
 	ID, Title       string
 	Taken           time.Time
 	Date            string
@@ -99,17 +101,17 @@ type instRow struct {
 	Change, ChangeText string
 }
 
-// instChart is one trend chart: its SVG, the marks a tap is matched
+// Chart is one trend chart: its SVG, the marks a tap is matched
 // against, and the session drawn at each mark (Mark.Row indexes IDs).
-type instChart struct {
+type Chart struct {
 	SVG   string
 	Marks []plot.Mark
 	IDs   []string
 	W, H  float64
 }
 
-// instCompare is today against the last accepted calibration.
-type instCompare struct {
+// Compare is today against the last accepted calibration.
+type Compare struct {
 	Today, Previous          string // session IDs
 	TodayDate, PreviousDate  string
 	Verdict                  string // fitcore.LinesSame, LinesSlopeChanged, LinesMoved
@@ -117,20 +119,20 @@ type instCompare struct {
 	Slopes, Coincident       string // the two tests in words
 	FSlopes, PSlopes         float64
 	FCoincident, PCoincident float64
-	Diffs                    []instDiff
+	Diffs                    []Diff
 }
 
-// instDiff is how much today's converted value differs from the previous
+// Diff is how much today's converted value differs from the previous
 // line's at one point of the range.
-type instDiff struct {
+type Diff struct {
 	Where   string // "middle", "top"
 	X, Diff float64
 	Percent float64 // of the value at X; NaN at X = 0
 	Text    string
 }
 
-// instDrift is the trend of one parameter.
-type instDrift struct {
+// Drift is the trend of one parameter.
+type Drift struct {
 	Which                        string // "slope", "intercept"
 	Status                       string // fitcore.DriftTooFew, DriftSteady, DriftDrifting, or "not fitted: …"
 	N                            int
@@ -142,14 +144,35 @@ type instDrift struct {
 	Bounded                      bool
 }
 
-// buildInstView runs the history of the summaries (history.Build) and
+// Limits are the acceptance limits of the slope and the intercept that
+// bound the charts and the projection (nil = none). The app takes them from
+// the newest record that sets them (Build), the command from its flags.
+type Limits struct {
+	SlopeLow, SlopeHigh, InterceptLow, InterceptHigh *float64
+}
+
+// Of is the limit pair of "slope" or "intercept".
+func (l Limits) Of(which string) (lo, hi *float64) {
+	if which == "slope" {
+		return l.SlopeLow, l.SlopeHigh
+	}
+	return l.InterceptLow, l.InterceptHigh
+}
+
+// Set reports whether a limit of "slope" or "intercept" is set.
+func (l Limits) Set(which string) bool {
+	lo, hi := l.Of(which)
+	return lo != nil || hi != nil
+}
+
+// Build runs the history of the summaries (history.Build) and
 // words it. now is today on this device.
-func buildInstView(sums []history.Summary, now time.Time) (instView, error) {
+func Build(sums []history.Summary, now time.Time) (View, error) {
 	ins, err := history.Build(sums, history.Options{Now: now})
 	if err != nil {
-		return instView{}, err
+		return View{}, err
 	}
-	v := instView{Due: map[string]dueMark{}}
+	v := View{Due: map[string]DueMark{}}
 	for _, in := range ins {
 		if in.Key == "" {
 			v.Unnamed += len(in.Entries)
@@ -157,7 +180,9 @@ func buildInstView(sums []history.Summary, now time.Time) (instView, error) {
 		}
 		// The acceptance limits of the newest calibration that sets them
 		// bound the charts and the projection.
+		var lim Limits
 		if c := latestCriteria(in.Entries); c != nil && (c.SlopeLow != nil || c.SlopeHigh != nil || c.InterceptLow != nil || c.InterceptHigh != nil) {
+			lim = Limits{c.SlopeLow, c.SlopeHigh, c.InterceptLow, c.InterceptHigh}
 			again := make([]history.Summary, len(in.Entries))
 			for i, e := range in.Entries {
 				again[i] = e.Summary
@@ -165,14 +190,14 @@ func buildInstView(sums []history.Summary, now time.Time) (instView, error) {
 			re, err := history.Build(again, history.Options{Now: now,
 				SlopeLow: c.SlopeLow, SlopeHigh: c.SlopeHigh, InterceptLow: c.InterceptLow, InterceptHigh: c.InterceptHigh})
 			if err != nil {
-				return instView{}, err
+				return View{}, err
 			}
 			if len(re) == 1 {
 				re[0].Duplicates = in.Duplicates
 				in = re[0]
 			}
 		}
-		it := wordInstrument(in, now)
+		it := Word(in, now, lim)
 		v.Items = append(v.Items, it)
 		if n := len(it.Rows); n > 0 {
 			for i := n - 1; i >= 0; i-- {
@@ -195,11 +220,13 @@ func latestCriteria(es []history.Entry) *fitcore.Criteria {
 	return nil
 }
 
-// dayOf formats a date as the app does elsewhere ("3 Nov 2026").
-func dayOf(t time.Time) string { return t.UTC().Format("2 Jan 2006") }
+// Day formats a date as the app does elsewhere ("3 Nov 2026").
+func Day(t time.Time) string { return t.UTC().Format("2 Jan 2006") }
 
-func wordInstrument(in history.Instrument, now time.Time) instItem {
-	it := instItem{Key: in.Key, Duplicates: in.Duplicates}
+// Word words one instrument's history (an element of history.Build's
+// result) as of now, with the acceptance limits lim.
+func Word(in history.Instrument, now time.Time, lim Limits) Item {
+	it := Item{Key: in.Key, Duplicates: in.Duplicates}
 	var interval int
 	for _, e := range in.Entries {
 		if e.Verdict == history.Superseded {
@@ -222,7 +249,7 @@ func wordInstrument(in history.Instrument, now time.Time) instItem {
 		it.XName, it.XUnit, it.YUnit = e.XName, e.XUnit, e.YUnit
 	}
 	it.Interval = interval
-	it.Due = dueOf(in, interval, now)
+	it.Due = DueOf(in, interval, now)
 	change := map[string]history.Change{}
 	for _, c := range in.Changes {
 		change[c.Session] = c
@@ -230,20 +257,12 @@ func wordInstrument(in history.Instrument, now time.Time) instItem {
 	for _, e := range in.Entries {
 		r := wordRow(e)
 		if c, ok := change[e.ID]; ok && e.Verdict == history.Accepted {
-			r.Change = c.Verdict
-			switch c.Verdict {
-			case fitcore.LinesSame:
-				r.ChangeText = "same line"
-			case fitcore.LinesSlopeChanged:
-				r.ChangeText = "slope changed"
-			default:
-				r.ChangeText = "line moved"
-			}
+			r.Change, r.ChangeText = c.Verdict, ChangeWord(c.Verdict)
 		}
 		it.Rows = append(it.Rows, r)
 	}
-	it.Slope = trendChart(in, "slope", it)
-	it.Intercept = trendChart(in, "intercept", it)
+	it.Slope = trendChart(in, "slope", lim)
+	it.Intercept = trendChart(in, "intercept", lim)
 	if in.Latest != nil {
 		it.Compare = wordCompare(in, it)
 	} else {
@@ -254,11 +273,11 @@ func wordInstrument(in history.Instrument, now time.Time) instItem {
 		r     *fitcore.DriftResult
 		unit  string
 	}{{"slope", in.SlopeDrift, ratioless(lastUnit(in, false))}, {"intercept", in.InterceptDrift, lastUnit(in, true)}} {
-		it.Drift = append(it.Drift, wordDrift(d.which, d.r, d.unit, in.Origin, limitsOf(in.Entries, d.which)))
+		it.Drift = append(it.Drift, wordDrift(d.which, d.r, d.unit, in.Origin, lim.Set(d.which)))
 	}
 	if !in.LeavesAt.IsZero() {
 		it.LeavesAt = in.LeavesAt
-		it.Leaves = "At its present drift the " + in.LeavesWhich + " is projected to leave its acceptance limit around " + dayOf(in.LeavesAt) + "."
+		it.Leaves = "At its present drift the " + in.LeavesWhich + " is projected to leave its acceptance limit around " + Day(in.LeavesAt) + "."
 	}
 	return it
 }
@@ -288,54 +307,45 @@ func ratioless(u string) string {
 	return u
 }
 
-func dueOf(in history.Instrument, interval int, now time.Time) dueMark {
+func DueOf(in history.Instrument, interval int, now time.Time) DueMark {
 	if in.Due.IsZero() {
 		why := "No due date: no calibration interval is set on the record."
 		if interval > 0 {
 			why = "No due date: there is no accepted calibration yet."
 		}
-		return dueMark{State: dueNone, Text: why}
+		return DueMark{State: DueNone, Text: why}
 	}
 	today := time.Date(now.Year(), now.Month(), now.Day(), 0, 0, 0, 0, time.UTC)
 	due := time.Date(in.Due.Year(), in.Due.Month(), in.Due.Day(), 0, 0, 0, 0, time.UTC)
 	days := int(math.Round(due.Sub(today).Hours() / 24))
-	m := dueMark{Date: in.Due, Days: days}
+	m := DueMark{Date: in.Due, Days: days}
 	switch {
 	case in.Overdue:
-		m.State = dueOverdue
-		m.Text = "Overdue since " + dayOf(in.Due) + " (" + plural(-days, "day", "days") + ")"
+		m.State = DueOverdue
+		m.Text = "Overdue since " + Day(in.Due) + " (" + plural(-days, "day", "days") + ")"
 		if days >= 0 {
-			m.Text = "Overdue since " + dayOf(in.Due)
+			m.Text = "Overdue since " + Day(in.Due)
 		}
-	case days <= dueSoonDays:
-		m.State = dueSoon
-		m.Text = "Due " + dayOf(in.Due) + " (in " + plural(days, "day", "days") + ")"
+	case days <= DueSoonDays:
+		m.State = DueSoon
+		m.Text = "Due " + Day(in.Due) + " (in " + plural(days, "day", "days") + ")"
 		if days == 0 {
-			m.Text = "Due today, " + dayOf(in.Due)
+			m.Text = "Due today, " + Day(in.Due)
 		}
 	default:
-		m.State = dueLater
-		m.Text = "Next due " + dayOf(in.Due) + " (in " + plural(days, "day", "days") + ")"
+		m.State = DueLater
+		m.Text = "Next due " + Day(in.Due) + " (in " + plural(days, "day", "days") + ")"
 	}
 	return m
 }
 
-func wordRow(e history.Entry) instRow {
-	r := instRow{ID: e.ID, Title: e.Title, Taken: e.Taken, Date: dayOf(e.Taken), Fitted: e.Fitted,
+func wordRow(e history.Entry) Row {
+	r := Row{ID: e.ID, Title: e.Title, Taken: e.Taken, Date: Day(e.Taken), Fitted: e.Fitted,
 		Verdict: e.Verdict, Reason: e.Reason, Signed: e.PerformedBy, Unit: e.YUnit}
 	if e.XUnit != "" || e.YUnit != "" {
 		r.SlopeUnit = wording.SlopeUnit(e.YUnit, e.XUnit)
 	}
-	switch e.Verdict {
-	case history.Accepted:
-		r.VerdictText = "accepted"
-	case history.NotAccepted:
-		r.VerdictText = "not accepted"
-	case history.NoFit:
-		r.VerdictText = "no line"
-	default:
-		r.VerdictText = "earlier revision"
-	}
+	r.VerdictText = VerdictWord(e.Verdict)
 	if e.Fitted {
 		r.Slope, r.SlopeSE, r.Icpt, r.IcptSE, r.R2 = e.Slope, e.SlopeSE, e.Intercept, e.InterceptSE, e.RSquared
 		sig := numfmt.Precision(0)
@@ -354,7 +364,7 @@ func chartMonths(t, origin time.Time) float64 { return 12 * history.Years(t.Sub(
 // a line as a point with its confidence interval (a vertical stroke),
 // accepted ones as dots, others as hollow squares; the drift line fitted
 // over the accepted ones; the acceptance limits as dashed lines.
-func trendChart(in history.Instrument, which string, it instItem) instChart {
+func trendChart(in history.Instrument, which string, lim Limits) Chart {
 	var origin time.Time
 	for _, e := range in.Entries {
 		if e.Fitted && e.Verdict != history.Superseded {
@@ -363,21 +373,14 @@ func trendChart(in history.Instrument, which string, it instItem) instChart {
 		}
 	}
 	ch := plot.Chart{TestID: "inst-chart-" + which, Width: 400, Height: 260,
-		XTitle: "Months since " + dayOf(origin)}
+		XTitle: "Months since " + Day(origin)}
 	unit := lastUnit(in, which == "intercept")
 	ch.YTitle = strings.ToUpper(which[:1]) + which[1:]
 	if unit != "" {
 		ch.YTitle += " (" + unit + ")"
 	}
-	var out instChart
-	var lo, hi *float64
-	if c := latestCriteria(in.Entries); c != nil {
-		if which == "slope" {
-			lo, hi = c.SlopeLow, c.SlopeHigh
-		} else {
-			lo, hi = c.InterceptLow, c.InterceptHigh
-		}
-	}
+	var out Chart
+	lo, hi := lim.Of(which)
 	for _, l := range []*float64{lo, hi} {
 		if l != nil {
 			ch.HLines = append(ch.HLines, *l)
@@ -434,7 +437,7 @@ func trendChart(in history.Instrument, which string, it instItem) instChart {
 	return out
 }
 
-func wordCompare(in history.Instrument, it instItem) *instCompare {
+func wordCompare(in history.Instrument, it Item) *Compare {
 	c := in.Latest
 	var today, prev history.Entry
 	for _, e := range in.Entries {
@@ -445,7 +448,7 @@ func wordCompare(in history.Instrument, it instItem) *instCompare {
 			prev = e
 		}
 	}
-	k := &instCompare{Today: c.Session, Previous: c.Previous, TodayDate: dayOf(today.Taken), PreviousDate: dayOf(prev.Taken),
+	k := &Compare{Today: c.Session, Previous: c.Previous, TodayDate: Day(today.Taken), PreviousDate: Day(prev.Taken),
 		Verdict: c.Verdict, FSlopes: c.FSlopes, PSlopes: c.PSlopes, FCoincident: c.FCoincident, PCoincident: c.PCoincident}
 	on := " on " + k.PreviousDate
 	fs := "F = " + numfmt.Sig(c.FSlopes, 3) + " on " + strconv.Itoa(c.DF1Slopes) + " and " + strconv.Itoa(c.DF2Slopes) + " df, " + numfmt.PEq(c.PSlopes)
@@ -469,7 +472,7 @@ func wordCompare(in history.Instrument, it instItem) *instCompare {
 		where string
 		x     fitcore.XDifference
 	}{{"middle", c.Middle}, {"top", c.Top}} {
-		dd := instDiff{Where: d.where, X: d.x.X, Diff: d.x.Diff, Percent: math.NaN()}
+		dd := Diff{Where: d.where, X: d.x.X, Diff: d.x.Diff, Percent: math.NaN()}
 		at := " at " + numfmt.Short(d.x.X, 4) + unitSuffix(unit)
 		abs := numfmt.Sig(math.Abs(d.x.Diff), 2) + unitSuffix(unit)
 		word := "higher"
@@ -499,8 +502,8 @@ func unitSuffix(u string) string {
 
 // wordDrift says what the trend of one parameter is. fitcore gives the
 // rate per year (t in years); it is shown per month (÷ 12).
-func wordDrift(which string, r *fitcore.DriftResult, unit string, origin time.Time, limits bool) instDrift {
-	d := instDrift{Which: which}
+func wordDrift(which string, r *fitcore.DriftResult, unit string, origin time.Time, limits bool) Drift {
+	d := Drift{Which: which}
 	if r == nil {
 		d.Status = fitcore.DriftTooFew
 		d.Text = "Too few calibrations to say anything about drift."
@@ -527,11 +530,11 @@ func wordDrift(which string, r *fitcore.DriftResult, unit string, origin time.Ti
 	}
 	if l := r.Leaves; l != nil && r.Status == fitcore.DriftDrifting {
 		d.LeavesAt = origin.Add(history.Duration(l.At))
-		d.Leaves = "At this rate it reaches its " + l.Side + " limit " + numfmt.Short(l.Limit, 4) + u + " around " + dayOf(d.LeavesAt)
+		d.Leaves = "At this rate it reaches its " + l.Side + " limit " + numfmt.Short(l.Limit, 4) + u + " around " + Day(d.LeavesAt)
 		if l.Bounded {
 			d.Bounded = true
 			d.LeavesLo, d.LeavesHi = origin.Add(history.Duration(l.Low)), origin.Add(history.Duration(l.High))
-			d.Leaves += " (" + lvl + " % interval " + dayOf(d.LeavesLo) + " to " + dayOf(d.LeavesHi) + ")."
+			d.Leaves += " (" + lvl + " % interval " + Day(d.LeavesLo) + " to " + Day(d.LeavesHi) + ")."
 		} else {
 			d.Leaves += " (the trend is too uncertain to bound that date)."
 		}
@@ -545,15 +548,50 @@ func wordDrift(which string, r *fitcore.DriftResult, unit string, origin time.Ti
 	return d
 }
 
-// limitsOf reports whether the newest criteria set a limit on the slope or
-// the intercept.
-func limitsOf(es []history.Entry, which string) bool {
-	c := latestCriteria(es)
-	if c == nil {
-		return false
+// VerdictWord is a calibration's verdict (history.Accepted, NotAccepted,
+// NoFit, Superseded) in words.
+func VerdictWord(v string) string {
+	switch v {
+	case history.Accepted:
+		return "accepted"
+	case history.NotAccepted:
+		return "not accepted"
+	case history.NoFit:
+		return "no line"
 	}
-	if which == "slope" {
-		return c.SlopeLow != nil || c.SlopeHigh != nil
+	return "earlier revision"
+}
+
+// ChangeWord is fitcore's verdict on a calibration against the previous
+// accepted one (fitcore.LinesSame, LinesSlopeChanged, LinesMoved) in words.
+func ChangeWord(v string) string {
+	switch v {
+	case fitcore.LinesSame:
+		return "same line"
+	case fitcore.LinesSlopeChanged:
+		return "slope changed"
 	}
-	return c.InterceptLow != nil || c.InterceptHigh != nil
+	return "line moved"
+}
+
+// DriftWord is a trend's status (fitcore.DriftTooFew, DriftSteady,
+// DriftDrifting, or "not fitted: …") in words.
+func DriftWord(status string) string {
+	switch {
+	case status == fitcore.DriftSteady:
+		return "no drift shown"
+	case status == fitcore.DriftDrifting:
+		return "drifting"
+	case status == fitcore.DriftTooFew:
+		return "too few calibrations"
+	}
+	return "not worked out"
+}
+
+// plural is "1 day", "3 days".
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return strconv.Itoa(n) + " " + many
 }

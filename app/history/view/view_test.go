@@ -1,4 +1,4 @@
-package ui
+package view
 
 import (
 	"math"
@@ -33,9 +33,9 @@ func instSums(t *testing.T, keep func(s *session.Session, month int) bool) []his
 	return out
 }
 
-func instByKey(t *testing.T, v instView) map[string]instItem {
+func instByKey(t *testing.T, v View) map[string]Item {
 	t.Helper()
-	m := map[string]instItem{}
+	m := map[string]Item{}
 	for _, it := range v.Items {
 		m[it.Key] = it
 	}
@@ -50,7 +50,7 @@ func instByKey(t *testing.T, v instView) map[string]instItem {
 // is 0.8/1.5 = 0.53 in x (1.07 % at x = 50, 0.53 % at x = 100).
 func TestInstViewScenario(t *testing.T) {
 	now := instStart.AddDate(0, 11, 10) // 10 days after the last session
-	v, err := buildInstView(instSums(t, nil), now)
+	v, err := Build(instSums(t, nil), now)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -71,10 +71,10 @@ func TestInstViewScenario(t *testing.T) {
 			}
 		}
 		// Interval 35 days from month 12 (instStart + 11 months): due in 25 days.
-		if it.Due.State != dueLater || it.Due.Days != 25 {
+		if it.Due.State != DueLater || it.Due.Days != 25 {
 			t.Errorf("%s: due %+v, want ok in 25 days", k, it.Due)
 		}
-		if m, ok := v.Due[it.Rows[11].ID]; !ok || m.State != dueLater {
+		if m, ok := v.Due[it.Rows[11].ID]; !ok || m.State != DueLater {
 			t.Errorf("%s: the newest session carries no due mark", k)
 		}
 		if _, ok := v.Due[it.Rows[10].ID]; ok {
@@ -108,7 +108,7 @@ func TestInstViewScenario(t *testing.T) {
 // not, and today reads about 0.53 higher in x (generated step 0.8 / 1.5).
 func TestInstViewStep(t *testing.T) {
 	sums := instSums(t, func(s *session.Session, m int) bool { return s.Instrument.ID == "LVWB-EC-03" && m <= 8 })
-	v, err := buildInstView(sums, instStart.AddDate(0, 7, 3))
+	v, err := Build(sums, instStart.AddDate(0, 7, 3))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -140,14 +140,14 @@ func TestInstViewDueAndDuplicates(t *testing.T) {
 	})
 	sums = append(sums, sums[0], sums[1]) // imported again
 	now := instStart.AddDate(0, 11, 10)
-	v, err := buildInstView(sums, now)
+	v, err := Build(sums, now)
 	if err != nil {
 		t.Fatal(err)
 	}
 	by := instByKey(t, v)
 	tb := by["LVWB-TB-01"]
 	// Month 10 is instStart + 9 months; 5 Oct 2026, due 35 days later, 9 Nov 2026; now is 15 Dec 2026.
-	if tb.Due.State != dueOverdue || tb.Due.Days != -36 || !strings.Contains(tb.Due.Text, "Overdue since 9 Nov 2026 (36 days)") {
+	if tb.Due.State != DueOverdue || tb.Due.Days != -36 || !strings.Contains(tb.Due.Text, "Overdue since 9 Nov 2026 (36 days)") {
 		t.Errorf("overdue: %+v", tb.Due)
 	}
 	if tb.Count != 10 || tb.Duplicates != 2 {
@@ -158,10 +158,10 @@ func TestInstViewDueAndDuplicates(t *testing.T) {
 	}
 	loose := sums[0]
 	loose.ID, loose.Key = "0123456789abcdef0123456789abcdef", ""
-	if v, err := buildInstView(append(sums, loose), now); err != nil || v.Unnamed != 1 || len(v.Items) != 3 {
+	if v, err := Build(append(sums, loose), now); err != nil || v.Unnamed != 1 || len(v.Items) != 3 {
 		t.Errorf("a session naming no instrument: %d unnamed, %d instruments (%v); want 1, 3", v.Unnamed, len(v.Items), err)
 	}
-	few, err := buildInstView(sums[:2], now)
+	few, err := Build(sums[:2], now)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -169,7 +169,7 @@ func TestInstViewDueAndDuplicates(t *testing.T) {
 	if d.Status != fitcore.DriftTooFew || !strings.Contains(d.Text, "too few calibrations") {
 		t.Errorf("two calibrations: %s: %s", d.Status, d.Text)
 	}
-	if due := dueOf(history.Instrument{Due: now.AddDate(0, 0, 3)}, 35, now); due.State != dueSoon || due.Days != 3 {
+	if due := DueOf(history.Instrument{Due: now.AddDate(0, 0, 3)}, 35, now); due.State != DueSoon || due.Days != 3 {
 		t.Errorf("due in 3 days: %+v", due)
 	}
 }
@@ -177,7 +177,7 @@ func TestInstViewDueAndDuplicates(t *testing.T) {
 // TestInstViewStepInTable: over the whole year the probe's line moved once,
 // between months 7 and 8 (the generated step), and nowhere else.
 func TestInstViewStepInTable(t *testing.T) {
-	v, err := buildInstView(instSums(t, nil), instStart.AddDate(0, 11, 10))
+	v, err := Build(instSums(t, nil), instStart.AddDate(0, 11, 10))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -212,7 +212,7 @@ func BenchmarkInstView(b *testing.B) {
 			}
 			sums = append(sums, sum)
 		}
-		if _, err := buildInstView(sums, instStart.AddDate(1, 0, 0)); err != nil {
+		if _, err := Build(sums, instStart.AddDate(1, 0, 0)); err != nil {
 			b.Fatal(err)
 		}
 	}
