@@ -9,7 +9,7 @@ WASM_LDFLAGS := -s -w
 # go-app's chains of element calls inlined cost about 220 kB of app.wasm and
 # gain nothing measurable; the numerical core, the codec and the plots keep it
 # (see DEVELOPERS.md, "What app.wasm is made of").
-WASM_GCFLAGS := -gcflags=pairline/app/ui=-l -gcflags=pairline/app/wording=-l -gcflags=pairline/app/store=-l
+WASM_GCFLAGS := -gcflags=pairline/app/ui=-l -gcflags=pairline/app/wording=-l -gcflags=pairline/app/store=-l -gcflags=pairline/app/history/view=-l -gcflags=pairline/app/plot=-l
 CHROMIUM  ?= $(shell command -v chromium || command -v chromium-browser || true)
 
 .PHONY: all wasm wasm-size axe bin run build test fmt-check vet lint unit browser bench bench-fit fuzz refcheck icons clean
