@@ -386,7 +386,7 @@ var fieldView struct {
 	// focus back: the browser then gives the focus again to the cell that
 	// had it, and that is no reason to move the page (it would move under
 	// a finger or pointer that is pressing something else).
-	returned float64
+	returned  float64
 	following bool // the window's focus is followed (followWindowFocus)
 }
 
