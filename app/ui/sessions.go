@@ -1,93 +1,87 @@
 package ui
 
 import (
-	"strconv"
 	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
+	hv "pairline/app/history/view"
 	"pairline/app/store"
 )
 
-// renderSessions draws the list of stored sessions with open, rename and
-// delete (delete asks first; deleted sessions go to the trash).
+// renderSessions gathers the data of the sessions list (sessionlist.go):
+// the page of summaries drawn, the open session, the due marks of the
+// instrument view, the rename and delete questions and the trash.
 func (c *Shell) renderSessions() app.UI {
-	return app.Section().Class("pl-card pl-sessions").Attr("aria-label", "Stored sessions").Body(
-		app.H2().Text("Sessions on this device"),
-		app.If(len(c.sessions) == 0, func() app.UI {
-			return app.P().Text("No session is stored yet.")
-		}),
-		app.Ul().Class("pl-session-list").DataSet("testid", "session-list").Body(
-			app.Range(c.listShown()).Slice(func(i int) app.UI { return c.sessionItem(c.sessions[i]) }),
-		),
-		c.renderListMore(),
-		c.renderTrash(),
-	)
+	shown := append([]store.Summary(nil), c.listShown()...)
+	due := map[string]hv.DueMark{}
+	for _, s := range shown {
+		if m, ok := c.dueMarkOf(s.ID); ok {
+			due[s.ID] = m
+		}
+	}
+	open := ""
+	if c.sess != nil {
+		open = c.sess.ID
+	}
+	return &sessionsList{
+		Sessions: shown, Older: len(c.sessions) - len(shown), Due: due, OpenID: open,
+		Renaming: c.renaming, RenameText: c.renameText, ConfirmDel: c.confirmDel,
+		TrashOpen: c.trashOpen, Trash: append([]store.Summary(nil), c.trash...),
+		OnAction: c.listAction,
+	}
 }
 
-func (c *Shell) sessionItem(s store.Summary) app.UI {
-	// The scope ties each handler to its session: go-app would otherwise keep
-	// the first handler of a reused list element (same function literal).
-	scope := app.EventScope(s.ID)
-	open := c.sess != nil && c.sess.ID == s.ID
-	cls := "pl-session"
-	if open {
-		cls += " pl-session-open"
+// listAction applies what the list asked for, on the Shell's own context
+// (the list's element may be gone by the time it runs).
+func (c *Shell) listAction(a ListAction) {
+	if c.ui.Src() == nil {
+		c.applyList(app.Context{}, a)
+		return
 	}
-	if c.renaming == s.ID {
-		return app.Li().Class(cls).DataSet("testid", "session-item").DataSet("id", s.ID).Body(
-			app.Input().Type("text").Class("pl-rename").Value(c.renameText).DataSet("testid", "session-rename-input").
-				Attr("aria-label", "New title").
-				OnInput(func(ctx app.Context, e app.Event) { c.renameText = ctx.JSSrc().Get("value").String() }, scope),
-			app.Button().Class("pl-btn").Text("Save title").DataSet("testid", "session-rename-save").
-				OnClick(func(ctx app.Context, e app.Event) { c.rename(ctx, s.ID, c.renameText) }, scope),
-			app.Button().Class("pl-btn pl-btn-quiet").Text("Cancel").
-				OnClick(func(ctx app.Context, e app.Event) { c.renaming = "" }, scope),
-		)
-	}
-	if c.confirmDel == s.ID {
-		return app.Li().Class(cls+" pl-session-confirm").DataSet("testid", "session-item").DataSet("id", s.ID).Body(
-			app.P().Text("Move “"+s.Title+"” to the trash? It can be restored for "+strconv.Itoa(store.TrashDays)+" days."),
-			app.Button().Class("pl-btn pl-btn-danger").Text("Move to trash").DataSet("testid", "session-delete-confirm").
-				OnClick(func(ctx app.Context, e app.Event) { c.delete(ctx, s.ID) }, scope),
-			app.Button().Class("pl-btn pl-btn-quiet").Text("Keep it").
-				OnClick(func(ctx app.Context, e app.Event) { c.confirmDel = "" }, scope),
-		)
-	}
-	return app.Li().Class(cls).DataSet("testid", "session-item").DataSet("id", s.ID).Body(
-		app.Button().Class("pl-session-open-btn").DataSet("testid", "session-open").
-			OnClick(func(ctx app.Context, e app.Event) { c.open(ctx, s.ID) }, scope).Body(
-			app.Span().Class("pl-session-title").Text(s.Title),
-			app.Span().Class("pl-session-meta").Text(sessionMeta(s)),
-			c.sessionDue(s.ID),
-		),
-		app.Button().Class("pl-btn pl-btn-quiet").Text("Rename").DataSet("testid", "session-rename").
-			OnClick(func(ctx app.Context, e app.Event) { c.renaming, c.renameText = s.ID, s.Title }, scope),
-		app.Button().Class("pl-btn pl-btn-quiet").Text("Delete").DataSet("testid", "session-delete").
-			OnClick(func(ctx app.Context, e app.Event) { c.confirmDel = s.ID }, scope),
-	)
+	c.ui.Dispatch(func(ctx app.Context) { c.applyList(ctx, a) })
 }
 
-// sessionDue is the due mark of the newest calibration of an instrument
-// (an empty span for the other sessions, so that the button's children
-// keep their places).
-func (c *Shell) sessionDue(id string) app.UI {
-	m, ok := c.dueMarkOf(id)
-	if !ok {
-		return app.Span().Class("pl-due-slot")
+// applyList makes the change of a: the questions, the paging and the trash
+// are the screen's; open, rename, delete and restore go to the store (and
+// a rename of the open session through the controller).
+func (c *Shell) applyList(ctx app.Context, a ListAction) {
+	switch a.Kind {
+	case laOpen:
+		c.open(ctx, a.ID)
+	case laRename:
+		c.renaming, c.renameText = a.ID, ""
+		for _, s := range c.sessions {
+			if s.ID == a.ID {
+				c.renameText = s.Title
+			}
+		}
+	case laRenameText:
+		c.renameText = a.Text
+	case laRenameSave:
+		if a.ID != "" {
+			c.rename(ctx, a.ID, c.renameText)
+		}
+	case laRenameCancel:
+		c.renaming = ""
+	case laDelete:
+		c.confirmDel = a.ID
+	case laDeleteKeep:
+		c.confirmDel = ""
+	case laDeleteConfirm:
+		if a.ID != "" {
+			c.delete(ctx, a.ID)
+		}
+	case laMore:
+		c.listMore = len(c.listShown()) + listPage
+	case laTrash:
+		c.trashOpen = !c.trashOpen
+		if c.trashOpen {
+			c.refreshTrash(ctx)
+		}
+	case laRestore:
+		c.restore(ctx, a.ID)
 	}
-	return app.Span().Class("pl-due pl-due-"+m.State).DataSet("testid", "session-due").DataSet("state", m.State).Text(m.Text)
-}
-
-func sessionMeta(s store.Summary) string {
-	t := strconv.Itoa(s.Readings) + " reading"
-	if s.Readings != 1 {
-		t += "s"
-	}
-	if s.Site != "" {
-		t += " · " + s.Site
-	}
-	return t + " · changed " + s.Modified.Local().Format("2 Jan 2006 15:04")
 }
 
 func (c *Shell) open(ctx app.Context, id string) {
