@@ -189,6 +189,20 @@ func TestCapacity(t *testing.T) {
 	t.Logf("closing it again (the page without the list): %.0f ms, %.0f ms, %.0f ms", closes[0], closes[1], closes[2])
 	t.Logf("opening the session list with %d sessions (the newest 30 drawn, more on request): %.0f ms, %.0f ms, %.0f ms (click to drawn)",
 		eval[int](t, b, `+tid("sessions-open").textContent.match(/\d+/)[0]`), opens[0], opens[1], opens[2])
+	// "Show more" draws the next listPage (30) each time it is pressed: the
+	// count is read when it is pressed, not when the button was first drawn.
+	total := eval[int](t, b, `+tid("sessions-open").textContent.match(/\d+/)[0]`)
+	b.do(t, chromedp.Click(sel("sessions-open")))
+	waitFor(t, b, "the list", `tids("session-item").length === 30`, 10*time.Second)
+	for _, n := range []int{60, 90} {
+		b.do(t, chromedp.Click(sel("sessions-more")))
+		waitFor(t, b, fmt.Sprintf("%d sessions drawn", n), fmt.Sprintf(`tids("session-item").length === %d`, n), 10*time.Second)
+	}
+	if got, want := textOf(t, b, "sessions-more"), fmt.Sprintf("Show 30 more of %d older sessions", total-90); got != want {
+		t.Errorf("after two presses the button says %q, want %q", got, want)
+	}
+	screenshot(t, b, "capacity-session-list-more-tablet")
+	b.do(t, chromedp.Click(sel("sessions-open")))
 	u := attr(t, b, "storage-usage", "data-used")
 	t.Logf("storage used: %s bytes (%s)", u, textOf(t, b, "storage-usage"))
 }
