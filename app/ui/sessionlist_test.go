@@ -37,7 +37,7 @@ func TestSessionsListRender(t *testing.T) {
 		{"plain", sessionsList{Sessions: sums, OpenID: "b2",
 			Due: map[string]hv.DueMark{"a1": {State: hv.DueOverdue, Text: "overdue by 3 days"}, "c3": {State: hv.DueNone, Text: "no interval"}}},
 			[]string{`data-id="a1"`, "1 reading · Intake · changed ", "5 readings · changed ",
-				`class="pl-session pl-session-open" data-testid="session-item" data-id="b2"`, `data-testid="session-due"`, `data-state="overdue"`, "overdue by 3 days",
+				`data-testid="session-due"`, `data-state="overdue"`, "overdue by 3 days",
 				`class="pl-due-slot"`, `data-act="open"`, `data-act="rename"`, `data-act="delete"`},
 			[]string{"No session is stored yet.", "no interval", `data-testid="sessions-more"`, `data-testid="session-rename-input"`}, 3},
 		{"paged", sessionsList{Sessions: sums, Older: 45},
@@ -66,10 +66,37 @@ func TestSessionsListRender(t *testing.T) {
 				t.Errorf("%s: %q in the markup", tt.name, w)
 			}
 		}
+		if tt.list.OpenID != "" {
+			// go-app writes an element's attributes in no fixed order: find
+			// the open session's tag and look inside it.
+			tag := tagWith(html, `data-id="`+tt.list.OpenID+`"`)
+			if !strings.Contains(tag, "pl-session-open") || !strings.Contains(tag, `data-testid="session-item"`) {
+				t.Errorf("%s: the open session's item is %q, not marked open", tt.name, tag)
+			}
+			for _, o := range tt.list.Sessions {
+				if tag := tagWith(html, `data-id="`+o.ID+`"`); o.ID != tt.list.OpenID && strings.Contains(tag, "pl-session-open") {
+					t.Errorf("%s: %s is marked open: %q", tt.name, o.ID, tag)
+				}
+			}
+		}
 		if n := count(html, `data-testid="session-item"`); n != tt.items {
 			t.Errorf("%s: %d items, want %d", tt.name, n, tt.items)
 		}
 	}
+}
+
+// tagWith returns the first start tag of html that holds attr ("" if none).
+func tagWith(html, attr string) string {
+	i := strings.Index(html, attr)
+	if i < 0 {
+		return ""
+	}
+	lo := strings.LastIndexByte(html[:i], '<')
+	hi := strings.IndexByte(html[i:], '>')
+	if lo < 0 || hi < 0 {
+		return ""
+	}
+	return html[lo : i+hi+1]
 }
 
 // listShell is a Shell natively with a stored list of n invented sessions
