@@ -505,7 +505,7 @@ func pnum(p float64) string {
 
 func levelPct(l float64) string {
 	if l == 0 {
-		l = 0.95
+		l = fitcore.DefaultLevel
 	}
 	return strconv.FormatFloat(100*l, 'g', -1, 64) + "\u00a0%"
 }
@@ -665,7 +665,7 @@ func firstLevel(in *history.Instrument) float64 {
 			return e.Level
 		}
 	}
-	return 0.95
+	return fitcore.DefaultLevel
 }
 
 func writeSkipped(b *strings.Builder, skipped []skippedFile) {

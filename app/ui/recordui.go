@@ -383,7 +383,7 @@ func (c *Shell) renderUnknowns() app.UI {
 	for _, n := range named {
 		byIndex[n.Index] = n.Inv
 	}
-	level := 0.95
+	level := fitcore.DefaultLevel
 	if c.view.report != nil {
 		level = c.view.report.Level
 	}
