@@ -221,7 +221,7 @@ func TestPagingEditsTheRightRow(t *testing.T) {
 	b.do(t, chromedp.Click(sel("page-next")))
 	waitFor(t, b, "page 2", `!!tid("x-input-100")`, 5*time.Second)
 	typeInto(t, b, "y-input-100", "303.5")
-	waitFor(t, b, "the save", `tid("save-status").dataset.state === "saved"`, 10*time.Second)
+	waitTaken(t, b, "y-input-100", "303.5")
 	b.do(t, chromedp.Reload())
 	waitFor(t, b, "the app after reload", appReady, 30*time.Second)
 	if got := valueOf(t, b, "x-input-0"); got != "1.5" {

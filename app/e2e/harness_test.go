@@ -327,6 +327,16 @@ func typeInto(t testing.TB, b *browser, testid, text string) {
 	setValue(t, b, testid, text, "input")
 }
 
+// waitTaken waits until the app has taken value into the grid cell testid
+// and stored it: the cell's data-value is the session's text, and the save
+// status says saved. The status alone is not enough right after a key: the
+// app takes the key at once but draws the next frame up to a frame later,
+// and until then the status still shows the previous save.
+func waitTaken(t testing.TB, b *browser, testid, value string) {
+	t.Helper()
+	waitFor(t, b, testid+" = "+value+" stored", fmt.Sprintf(`tid(%q)?.dataset.value === %q && tid("save-status").dataset.state === "saved"`, testid, value), 20*time.Second)
+}
+
 // artifactDir is the folder for screenshots and saved reports:
 // PAIRLINE_ARTIFACTS when set, else app/e2e/testdata/artifacts (git-ignored).
 func artifactDir(t testing.TB) string {

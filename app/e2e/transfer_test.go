@@ -58,7 +58,7 @@ func typeSteady(t *testing.T, b *browser, from int, pairs [][2]string) {
 			id := fmt.Sprintf("%s-input-%d", col, from+i)
 			waitFor(t, b, "the focus in "+id, fmt.Sprintf(`document.activeElement && document.activeElement.dataset.testid === %q`, id), 10*time.Second)
 			b.do(t, chromedp.KeyEvent(p[j]))
-			waitFor(t, b, "the text in "+id, fmt.Sprintf(`document.activeElement.value === %q`, p[j]), 10*time.Second)
+			waitFor(t, b, "the text in "+id, fmt.Sprintf(`document.activeElement.value === %q && document.activeElement.dataset.value === %q`, p[j], p[j]), 10*time.Second)
 			b.do(t, chromedp.KeyEvent(kb.Enter))
 		}
 	}
@@ -341,7 +341,7 @@ func TestReloadWhileTyping(t *testing.T) {
 	b.do(t, chromedp.KeyEvent("6"), chromedp.KeyEvent(kb.Enter))
 	waitFor(t, b, "the focus in y-input-5", `document.activeElement.dataset.testid === "y-input-5"`, 10*time.Second)
 	b.do(t, chromedp.KeyEvent("13.1"))
-	waitFor(t, b, "saved", `tid("save-status").dataset.state === "saved" && tid("y-input-5").value === "13.1"`, 10*time.Second)
+	waitTaken(t, b, "y-input-5", "13.1")
 	b.do(t, chromedp.Reload())
 	waitFor(t, b, "the app after reload", appReady+` && !!tid("y-input-5")`, 30*time.Second)
 	checkPairs(t, b, append(fivePairs, [2]string{"6", "13.1"}))

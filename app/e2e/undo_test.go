@@ -247,7 +247,7 @@ func TestSaveFailureBelongsToSession(t *testing.T) {
 	waitFor(t, b, "an empty new session", `document.querySelector('[data-testid="x-input-0"]').value === ""`, 10*time.Second)
 	anSet(t, b, "session-title", "Invented second probe", "change")
 	setCell(t, b, "x-input-0", "10")
-	waitFor(t, b, "the save", `document.querySelector('[data-testid="save-status"]').dataset.state === "saved"`, 10*time.Second)
+	waitTaken(t, b, "x-input-0", "10")
 
 	fuOpenTitled(t, b, "Invented first probe")
 	unRefuseStores(t, b, true)

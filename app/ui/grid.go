@@ -300,7 +300,7 @@ func (r *readingRow) cell(col session.Column, testid, text, problem string, more
 	in := app.Input().Type("text").Class("pl-cell").Value(text).
 		Attr("inputmode", "decimal").Attr("autocomplete", "off").Attr("enterkeyhint", "next").
 		Attr("aria-label", label+" of reading "+strconv.Itoa(r.Row+1)).
-		DataSet("testid", testid).DataSet("row", r.Row).Disabled(r.Locked).
+		DataSet("testid", testid).DataSet("row", r.Row).DataSet("value", text).Disabled(r.Locked).
 		OnInput(func(ctx app.Context, e app.Event) {
 			r.act(RowAction{Kind: rwType, Col: col, Text: ctx.JSSrc().Get("value").String()})
 		}).
