@@ -369,7 +369,7 @@ func (c *Shell) renderPlots() app.UI {
 	if c.plSel > len(c.sess.Readings) {
 		c.plSel = 0
 	}
-	card := &plotsCard{Plots: c.plots(), Level: c.view.report.Level, First: c.firstFlaggedRow(),
+	card := &plotsCard{Plots: c.plots(), Level: c.view.report.Level, First: firstFlagged(c.view),
 		Rows: len(c.sess.Readings), Sel: c.plSel - 1, OnAction: c.plotAction}
 	card.Stale = c.plStale // plots() decides it
 	if c.plSel > 0 {
@@ -392,37 +392,57 @@ func (c *Shell) plotAction(a PlotAction) {
 }
 
 // applyPlot makes the change of a: the selection, the panel's place and
-// the reason typed are the screen's; leaving a reading out and putting it
-// back go through the controller.
+// the reason typed are the screen's; leaving a reading out (only with a
+// reason: the record has to show it) and putting it back go through the
+// controller, so that they are saved and undone as any other change.
 func (c *Shell) applyPlot(ctx app.Context, a PlotAction) {
 	if c.sess == nil {
 		return
 	}
 	inRange := a.Row >= 0 && a.Row < len(c.sess.Readings)
-	switch a.Kind {
-	case paTap:
-		if inRange {
-			c.plAt = a.At
-			c.selectPoint(a.Row)
+	sel := func(row int) {
+		if c.plSel != row+1 {
+			c.plReason, c.plMsg = "", ""
 		}
-	case paStep:
-		if inRange {
-			c.selectPoint(a.Row)
-		}
-	case paClose:
+		c.plSel = row + 1
+	}
+	switch {
+	case a.Kind == paClose:
 		c.plSel = 0
-	case paReason:
+	case a.Kind == paReason:
 		if a.Row == c.plSel-1 {
 			c.plReason = a.Text
 		}
-	case paExclude:
-		if inRange {
-			c.excludePoint(ctx, a.Row)
+	case !inRange:
+	case a.Kind == paTap:
+		c.plAt = a.At
+		sel(a.Row)
+	case a.Kind == paStep:
+		sel(a.Row)
+	case a.Kind == paExclude, a.Kind == paInclude:
+		reason := strings.TrimSpace(c.plReason)
+		if a.Kind == paExclude && reason == "" {
+			c.plMsg = "Say why this reading is left out (for example “decimal point slipped”): the record has to show it."
+			return
 		}
-	case paInclude:
-		if inRange {
-			c.includePoint(ctx, a.Row)
+		if c.refuseLocked() {
+			return
 		}
+		var err error
+		if a.Kind == paExclude {
+			err = c.exclude(a.Row, reason)
+		} else {
+			err = c.include(a.Row)
+		}
+		if err != nil {
+			c.plMsg = err.Error()
+			return
+		}
+		if a.Kind == paExclude {
+			c.plReason = ""
+		}
+		c.plMsg = ""
+		c.afterChange(c.shellCtx(ctx))
 	}
 }
 
@@ -479,23 +499,17 @@ func plLegend(level float64) app.UI {
 	)
 }
 
-// firstFlaggedRow is the first reading fitcore flags, or reading 0.
-func (c *Shell) firstFlaggedRow() int {
-	if rep := c.view.report; rep != nil {
+// firstFlagged is the session row of the first reading fitcore flags in
+// the analysis v, or row 0.
+func firstFlagged(v analysis) int {
+	if rep := v.report; rep != nil {
 		for _, p := range rep.Influence {
-			if p.Flagged && p.Index < len(c.view.rows) {
-				return c.view.rows[p.Index]
+			if p.Flagged && p.Index < len(v.rows) {
+				return v.rows[p.Index]
 			}
 		}
 	}
 	return 0
-}
-
-func (c *Shell) selectPoint(row int) {
-	if c.plSel != row+1 {
-		c.plReason, c.plMsg = "", ""
-	}
-	c.plSel = row + 1
 }
 
 // pointView is what the reading panel shows of session row row: its
@@ -610,35 +624,6 @@ func placePanel(canvas app.Value, tapY float64) panelPlace {
 	default:
 		return bottomAt(screenH - tapY - plotTapPx - 2*panelGap)
 	}
-}
-
-func (c *Shell) excludePoint(ctx app.Context, row int) {
-	reason := strings.TrimSpace(c.plReason)
-	if reason == "" {
-		c.plMsg = "Say why this reading is left out (for example “decimal point slipped”): the record has to show it."
-		return
-	}
-	if c.refuseLocked() {
-		return
-	}
-	if err := c.exclude(row, reason); err != nil {
-		c.plMsg = err.Error()
-		return
-	}
-	c.plReason, c.plMsg = "", ""
-	c.afterChange(c.shellCtx(ctx))
-}
-
-func (c *Shell) includePoint(ctx app.Context, row int) {
-	if c.refuseLocked() {
-		return
-	}
-	if err := c.include(row); err != nil {
-		c.plMsg = err.Error()
-		return
-	}
-	c.plMsg = ""
-	c.afterChange(c.shellCtx(ctx))
 }
 
 // shellCtx returns the Shell's own context when it has one: work that

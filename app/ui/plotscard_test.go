@@ -172,6 +172,9 @@ func TestApplyPlot(t *testing.T) {
 			if card.Sel != row || card.Panel.Row != row || card.Panel.At != at || card.Empty {
 				return "the card was not given the selection"
 			}
+			if card.First != row {
+				return "the panel without a tap does not open on the flagged reading but on " + strconv.Itoa(card.First)
+			}
 			return ""
 		}},
 		{"tap outside", PlotAction{Kind: paTap, Row: n, At: panelPlace{}}, func() string {

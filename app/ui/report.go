@@ -72,7 +72,12 @@ func (c *Shell) applyReport(ctx app.Context, a ReportAction) {
 			app.Window().Call("print")
 		}
 	case rdSaveHTML:
-		c.saveReportHTML()
+		if c.sess == nil {
+			return
+		}
+		name := fileBase(c.sess.Title) + " report.html"
+		download(name, "text/html;charset=utf-8", []byte(rpFile(c.sess, c.rpHTML)))
+		c.rpMsg = "Saved “" + name + "” to your downloads."
 	case rdClose:
 		c.rpOpen = false
 	}
@@ -86,17 +91,6 @@ func rpFile(s *session.Session, body string) string {
 		"<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; img-src data:\">" +
 		"<title>" + rpEsc("Pairline report — "+s.Title) + "</title><style>\n" + web.ReportCSS + "\n</style></head>\n<body class=\"pl-report-file\">\n" +
 		body + "\n</body></html>\n"
-}
-
-// saveReportHTML downloads the report file.
-func (c *Shell) saveReportHTML() {
-	if c.sess == nil {
-		return
-	}
-	file := rpFile(c.sess, c.rpHTML)
-	name := fileBase(c.sess.Title) + " report.html"
-	download(name, "text/html;charset=utf-8", []byte(file))
-	c.rpMsg = "Saved “" + name + "” to your downloads."
 }
 
 // rpEsc escapes text for the report's HTML. Text from the session comes
