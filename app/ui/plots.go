@@ -627,7 +627,7 @@ func placePanel(canvas app.Value, tapY float64) panelPlace {
 }
 
 // shellCtx returns the Shell's own context when it has one: work that
-// edited schedules for later must not hang on the element that was tapped,
+// afterChange schedules for later must not hang on the element that was tapped,
 // which the new render may remove (go-app then drops the work).
 func (c *Shell) shellCtx(ctx app.Context) app.Context {
 	if c.ui.Src() != nil {
