@@ -107,8 +107,7 @@ func TestRenumberEverySentence(t *testing.T) {
 	rows := []int{0, 2, 3} // grid row 2 (from 1) is blank
 	// each calls fn on every value of type T in v (a struct), allocating
 	// the nil pointers to T.
-	var each func(v reflect.Value, typ reflect.Type, fn func(reflect.Value))
-	each = func(v reflect.Value, typ reflect.Type, fn func(reflect.Value)) {
+	each := func(v reflect.Value, typ reflect.Type, fn func(reflect.Value)) {
 		for i := 0; i < v.NumField(); i++ {
 			f := v.Field(i)
 			switch {
