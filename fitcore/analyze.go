@@ -2,6 +2,7 @@ package fitcore
 
 import (
 	"fmt"
+	"maps"
 	"math"
 	"reflect"
 	"slices"
@@ -45,11 +46,9 @@ type anScratch struct {
 	x      []float64 // the readings xOrder belongs to
 	xOrder []int32   // positions of x in ascending order; nil when x is in order
 
-	// The Box–Cox profile of the original readings, worked out once.
-	bcX, bcY []float64
-	bcLevel  float64
-	bc       *BoxCox
-	bcErr    error
+	// The Box–Cox profile of the original readings, worked out once and
+	// shared with the scratch of a second worker of the advice (fork).
+	bcc *bcCache
 
 	// What the checks work out from x alone, for the last x they saw (the
 	// original fit and the refits of y on a new scale have the same x).
@@ -65,18 +64,57 @@ type anScratch struct {
 	fitted, resids []float64
 }
 
+// bcCache keeps one Box–Cox profile; mu is held while it is worked out, so
+// that a second asker waits for it rather than working it out again.
+type bcCache struct {
+	mu    sync.Mutex
+	x, y  []float64
+	level float64
+	bc    *BoxCox
+	err   error
+}
+
 // boxCox returns BoxCoxProfile(x, y, level), computing it only the first
-// time it is asked about these readings and level.
+// time it is asked about these readings and level. It may be called from
+// the workers of the advice at once (after sharedBoxCox).
 func (s *anScratch) boxCox(x, y []float64, level float64) (*BoxCox, error) {
 	if level == 0 {
 		level = DefaultLevel
 	}
-	if s.bcX != nil && len(s.bcX) == len(x) && &s.bcX[0] == &x[0] && &s.bcY[0] == &y[0] && s.bcLevel == level {
-		return s.bc, s.bcErr
+	s.sharedBoxCox()
+	c := s.bcc
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if c.x != nil && len(c.x) == len(x) && &c.x[0] == &x[0] && &c.y[0] == &y[0] && c.level == level {
+		return c.bc, c.err
 	}
-	s.bc, s.bcErr = BoxCoxProfile(x, y, level)
-	s.bcX, s.bcY, s.bcLevel = x, y, level
-	return s.bc, s.bcErr
+	c.bc, c.err = BoxCoxProfile(x, y, level)
+	c.x, c.y, c.level = x, y, level
+	return c.bc, c.err
+}
+
+// sharedBoxCox makes the Box–Cox cache, before any worker is started.
+func (s *anScratch) sharedBoxCox() {
+	if s.bcc == nil {
+		s.bcc = new(bcCache)
+	}
+}
+
+// fork returns a work space for a second worker of the advice: its own
+// buffers (sorts, residuals, lack of fit's gathered copies), and, to read
+// only, what s has worked out from x (its order, the checks' basis, the
+// Durbin–Watson design, the levels of x) and the Box–Cox cache (which
+// locks). s must not be in use while fork copies it.
+func (s *anScratch) fork() *anScratch {
+	s.sharedBoxCox()
+	f := &anScratch{
+		x: s.x, xOrder: s.xOrder,
+		bcc:  s.bcc,
+		preX: s.preX, pre: s.pre, dw: s.dw,
+		lof: lofShared{x: s.lof.x, m: s.lof.m, ends: s.lof.ends},
+	}
+	f.sb.swA = maps.Clone(s.sb.swA)
+	return f
 }
 
 // prepare returns ckPrepare(x) with dw set, working it out only when x is
@@ -93,6 +131,11 @@ func (s *anScratch) prepare(x []float64) *ckPre {
 // anParallelMin is the number of readings from which the checks run side
 // by side (below it, starting goroutines costs more than it saves).
 const anParallelMin = 20000
+
+// anAdviceWorkers is the number of remedies the advice refits at once on a
+// record of anParallelMin readings or more (1: one after another). The
+// candidates do not depend on it (TestAdviceWorkersSameReport).
+var anAdviceWorkers = 2
 
 // orderOf returns the positions of x in ascending order (nil when x is
 // already in order), sorting only the first time it is asked about these
@@ -638,12 +681,26 @@ func unitsInRange(rep *Report) error {
 // scrubbed report, scrubs them and counts them in the report's note.
 func complete(rep *Report, x, y []float64, opt Options, level float64, sc *anScratch) {
 	rep.BoxCox = nil
-	if allPositive(y) {
+	positive := allPositive(y)
+	if positive && anAdviceWorkers > 1 && len(x) >= anParallelMin {
+		// The profile is worked out beside the first refits of the advice;
+		// the Box–Cox candidate, which needs it, waits for it (boxCox).
+		sc.sharedBoxCox()
+		done := make(chan struct{})
+		go func() { defer close(done); sc.boxCox(x, y, level) }()
+		rep.Advice = adviseWith(x, y, opt, rep, sc)
+		<-done
+	} else {
+		if positive {
+			sc.boxCox(x, y, level)
+		}
+		rep.Advice = adviseWith(x, y, opt, rep, sc)
+	}
+	if positive {
 		if bc, err := sc.boxCox(x, y, level); err == nil {
 			rep.BoxCox = bc
 		}
 	}
-	rep.Advice = adviseWith(x, y, opt, rep, sc)
 	// The spread's "What to do" and the advice say the same.
 	if sp := &rep.Assumptions.Spread; adBad(sp.Verdict) {
 		sp.Advice = spreadWhatToDo
