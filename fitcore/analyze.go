@@ -159,8 +159,11 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	if err != nil {
 		return nil, err
 	}
-	if err := validatePairs(x, y); err != nil {
-		return nil, err
+	if !sc.refit {
+		// (An advice refit sees the readings its analysis validated.)
+		if err := validatePairs(x, y); err != nil {
+			return nil, err
+		}
 	}
 	if o.XStandardUncertainties != nil && len(o.XStandardUncertainties) != len(x) {
 		return nil, optErr("x_standard_uncertainties", strconv.Itoa(len(o.XStandardUncertainties)), "one standard uncertainty per pair is needed (%d pairs)", len(x))
@@ -364,10 +367,14 @@ func (fc *fitContext) newCheckRun() *checkRun {
 	in := fc.checkInputs()
 	r := &checkRun{fc: fc, in: in, origin: fc.opt.Model == ModelOrigin, n: len(in.xs), np: 2}
 	r.pre = fc.sc.prepare(in.xs)
-	r.pre.xyValid = ckValidate(in.xs, in.ys, in.w, "y value") == ""
-	r.pre.residValid = ckValidate(in.xs, in.pr, nil, "residual") == ""
+	// What ckValidate(xs, ys, w), ckValidate(xs, pr, nil) and
+	// ckValidate(xs, res, w) would say is "", each array read once.
+	n := len(in.xs)
+	xsOK, wOK := ckAllFinite(in.xs), ckWeights(in.w, n) == ""
+	r.pre.xyValid = xsOK && wOK && len(in.ys) == n && ckAllFinite(in.ys)
+	r.pre.residValid = xsOK && len(in.pr) == n && ckAllFinite(in.pr)
 	r.pre.quick = fc.sc.refit
-	r.inflValid = r.pre.residValid && (in.w == nil || ckValidate(in.xs, in.res, in.w, "residual") == "")
+	r.inflValid = r.pre.residValid && (in.w == nil || (wOK && len(in.res) == n && ckAllFinite(in.res)))
 	if r.origin {
 		r.np = 1
 	}
@@ -571,10 +578,20 @@ func (fc *fitContext) capChecks() {
 // an all-zero v). Fourth powers of the scaled values stay between 2^-400
 // and 2^400, far from overflow and underflow.
 func ckSafeScale(v []float64) float64 {
-	var m float64
-	for _, a := range v {
-		m = max(m, math.Abs(a))
+	// Four running maxima (max is exact and order-free, a NaN carries
+	// through), so the loop is not one chain of dependent steps.
+	var m0, m1, m2, m3 float64
+	i := 0
+	for ; i+4 <= len(v); i += 4 {
+		m0 = max(m0, math.Abs(v[i]))
+		m1 = max(m1, math.Abs(v[i+1]))
+		m2 = max(m2, math.Abs(v[i+2]))
+		m3 = max(m3, math.Abs(v[i+3]))
 	}
+	for ; i < len(v); i++ {
+		m0 = max(m0, math.Abs(v[i]))
+	}
+	m := max(max(m0, m1), max(m2, m3))
 	if m == 0 || !isFiniteNum(m) || (m >= 0x1p-100 && m <= 0x1p100) {
 		return 1
 	}
