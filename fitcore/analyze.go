@@ -111,7 +111,7 @@ func (s *anScratch) fork() *anScratch {
 		x: s.x, xOrder: s.xOrder,
 		bcc:  s.bcc,
 		preX: s.preX, pre: s.pre, dw: s.dw,
-		lof: lofShared{x: s.lof.x, m: s.lof.m, ends: s.lof.ends},
+		lof: lofShared{x: s.lof.x, m: s.lof.m, ends: s.lof.ends, xl: s.lof.xl},
 	}
 	f.sb.swA = maps.Clone(s.sb.swA)
 	return f
