@@ -169,6 +169,16 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 		return nil, optErr("x_standard_uncertainties", strconv.Itoa(len(o.XStandardUncertainties)), "one standard uncertainty per pair is needed (%d pairs)", len(x))
 	}
 	rep := &Report{N: len(x), Model: o.Model, Transform: o.Transform, Level: o.Level}
+	if !o.SkipAdvice && !sc.refit && anAdviceWorkers > 1 && len(x) >= anParallelMin && allPositive(y) {
+		// The Box–Cox profile needs only the readings: it is worked out
+		// beside the fit and its checks, and complete takes it from the
+		// cache (waiting for it if need be). Every way out of analyze waits
+		// for it, so nothing reads x and y after Analyze returns.
+		sc.sharedBoxCox()
+		done := make(chan struct{})
+		go func() { defer close(done); sc.boxCox(x, y, o.Level) }()
+		defer func() { <-done }()
+	}
 
 	// Transformed scale.
 	tr, err := newTransformer(o.Transform, x, y, o, rep, sc)
@@ -700,8 +710,9 @@ func complete(rep *Report, x, y []float64, opt Options, level float64, sc *anScr
 	rep.BoxCox = nil
 	positive := allPositive(y)
 	if positive && anAdviceWorkers > 1 && len(x) >= anParallelMin {
-		// The profile is worked out beside the first refits of the advice;
-		// the Box–Cox candidate, which needs it, waits for it (boxCox).
+		// The profile is worked out beside the first refits of the advice
+		// (when analyze has not already started it); the Box–Cox candidate,
+		// which needs it, waits for it (boxCox).
 		sc.sharedBoxCox()
 		done := make(chan struct{})
 		go func() { defer close(done); sc.boxCox(x, y, level) }()
