@@ -119,9 +119,20 @@ func (s *anScratch) fork() *anScratch {
 
 // prepare returns ckPrepare(x) with dw set, working it out only when x is
 // not the slice it was asked about last.
+//
+// What is kept is for the first x asked about (the analysis's, which every
+// refit in the original units shares): the x of a log–log refit is worked
+// out on its own and not kept, so that the refits after it find the
+// original x still there.
 func (s *anScratch) prepare(x []float64) *ckPre {
-	if len(s.preX) != len(x) || len(x) == 0 || &s.preX[0] != &x[0] {
+	if len(x) == 0 {
+		return ckPrepare(x)
+	}
+	if s.preX == nil {
 		s.preX, s.pre = x, *ckPrepare(x)
+	}
+	if len(s.preX) != len(x) || &s.preX[0] != &x[0] {
+		return ckPrepare(x) // dw nil: the design is not kept either
 	}
 	p := s.pre
 	p.dw = &s.dw

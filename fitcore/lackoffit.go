@@ -108,7 +108,8 @@ func lofAt(idx []int32) func(k int) int {
 func lackOfFit(x, y, w []float64, origin bool, idx []int32, sh *lofShared) *Check {
 	const name = "Lack of fit"
 	n := len(x)
-	if sh == nil {
+	if sh == nil || (sh.x != nil && (len(sh.x) != n || n == 0 || &sh.x[0] != &x[0])) {
+		// What sh keeps is for the first x it saw (see anScratch.prepare).
 		sh = new(lofShared)
 	}
 	m := sh.count(x, idx)
