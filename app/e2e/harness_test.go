@@ -240,6 +240,13 @@ func eval[T any](t testing.TB, b *browser, expr string) T {
 // 100 ms until it is truthy.
 func waitFor(t testing.TB, b *browser, what, cond string, timeout time.Duration) {
 	t.Helper()
+	waitForExplained(t, b, what, cond, "", timeout)
+}
+
+// waitForExplained is waitFor that, when the time is up, also reports what
+// the JavaScript expression explain says of the page (a string).
+func waitForExplained(t testing.TB, b *browser, what, cond, explain string, timeout time.Duration) {
+	t.Helper()
 	expr := "(async () => !!(await (" + cond + ")))()"
 	deadline := time.Now().Add(timeout)
 	var last error
@@ -250,6 +257,13 @@ func waitFor(t testing.TB, b *browser, what, cond string, timeout time.Duration)
 		}
 		last = err
 		time.Sleep(100 * time.Millisecond)
+	}
+	if explain != "" {
+		seen, err := chromedp.Run(b.ctx, chromedp.Evaluate[string](explain, chromedp.EvalAwaitPromise))
+		if err != nil {
+			seen = "(" + err.Error() + ")"
+		}
+		t.Fatalf("waiting for %s: not true after %v (last error: %v); the page: %s", what, timeout, last, seen)
 	}
 	t.Fatalf("waiting for %s: not true after %v (last error: %v)", what, timeout, last)
 }
