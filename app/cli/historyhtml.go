@@ -296,7 +296,7 @@ func writeInstrument(b *strings.Builder, i int, in *history.Instrument, p htmlPa
 	b.WriteString(`<li>x: ` + hx(nameWithUnit(u.xName, u.xUnit, "x")) + `; y: ` + hx(nameWithUnit(u.yName, u.yUnit, "y")) + `; slope in ` + hx(slopeUnit) + `</li>`)
 	fmt.Fprintf(b, `<li>%d sessions`, len(in.Entries))
 	if in.Duplicates > 0 {
-		fmt.Fprintf(b, ` (%d more given twice, counted once)`, in.Duplicates)
+		b.WriteString(` (` + hx(view.CopiesText(in.Duplicates)) + `)`)
 	}
 	b.WriteString(`</li></ul>`)
 	it := view.Word(*in, p.Now, limitsOf(p.Opt))

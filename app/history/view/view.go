@@ -605,3 +605,23 @@ func PercentOfValue(d fitcore.XDifference) float64 {
 	}
 	return 100 * d.Diff / d.X
 }
+
+// CopiesText says how many extra copies of calibrations are not counted
+// again (history.Instrument.Duplicates: a file imported twice, a session
+// kept with "Keep both"), "" for none; the app, the history page and the
+// command's text say it in these words.
+func CopiesText(dup int) string {
+	if dup <= 0 {
+		return ""
+	}
+	return plural(dup, "extra copy", "extra copies") + " of a calibration (imported again, or kept with “Keep both”) not counted again"
+}
+
+// RevisionsText says how many earlier revisions of changed records are
+// kept apart, "" for none.
+func RevisionsText(sup int) string {
+	if sup <= 0 {
+		return ""
+	}
+	return plural(sup, "earlier revision", "earlier revisions") + " of changed records kept apart, not counted"
+}
