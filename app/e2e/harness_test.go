@@ -341,6 +341,17 @@ func typeInto(t testing.TB, b *browser, testid, text string) {
 	setValue(t, b, testid, text, "input")
 }
 
+// openApp serves the app, opens it in a fresh browser of the given size
+// and waits until a reading can be typed.
+func openApp(t testing.TB, size [2]int64) (*server, *browser) {
+	t.Helper()
+	srv := startServer(t)
+	b := newBrowser(t, size)
+	b.do(t, chromedp.Navigate(srv.URL))
+	waitFor(t, b, "the app", appReady, 60*time.Second)
+	return srv, b
+}
+
 // waitTaken waits until the app has taken value into the grid cell testid
 // and stored it: the cell's data-value is the session's text, and the save
 // status says saved. The status alone is not enough right after a key: the
