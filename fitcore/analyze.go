@@ -476,10 +476,10 @@ func (r *checkRun) influence() {
 	rep, in := r.fc.rep, &r.in
 	if r.fc.sc.refit {
 		// A candidate needs only the influence summary.
-		r.inflSummary = influenceSummary(in.xs, in.res, in.w, r.origin, r.inflValid)
+		r.inflSummary = influenceSummary(in.xs, in.res, in.w, in.pr, r.origin, r.inflValid)
 	} else {
 		var masks []uint8
-		rep.Influence, masks = influenceRun(in.xs, in.res, in.w, r.origin, r.inflValid, true)
+		rep.Influence, masks = influenceRun(in.xs, in.res, in.w, in.pr, r.origin, r.inflValid, true)
 		r.inflSummary = ckInfluenceFromMasks(masks)
 	}
 	switch {
