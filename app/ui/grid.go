@@ -264,8 +264,8 @@ func (r *readingRow) Render() app.UI {
 	}
 	return app.Tr().Class(cls).Body(
 		app.Td().Class("pl-rownum").Text(strconv.Itoa(r.Row+1)),
-		r.cell(session.ColumnX, "x-input-"+n, r.X, r.XProblem),
-		r.cell(session.ColumnY, "y-input-"+n, r.Y, r.YProblem,
+		r.cell(session.ColumnX, "x-input-"+n, r.shownText(session.ColumnX, r.X), r.X, r.XProblem),
+		r.cell(session.ColumnY, "y-input-"+n, r.shownText(session.ColumnY, r.Y), r.Y, r.YProblem,
 			app.If(r.Excluded, func() app.UI {
 				return app.Span().Class("pl-row-reason").DataSet("testid", "row-reason-"+n).
 					Text("Left out: " + wording.Visible(r.Reason))
@@ -289,7 +289,49 @@ func (r *readingRow) noteCell() app.UI {
 	)
 }
 
-func (r *readingRow) cell(col session.Column, testid, text, problem string, more ...app.UI) app.UI {
+// takenProp is a property of a grid cell's input element: the text the app
+// last took from the cell (its input handler) or wrote into it (a redraw).
+const takenProp = "plTaken"
+
+// cellClass marks a row's x and y inputs, so that the row finds them.
+func cellClass(col session.Column) string {
+	if col == session.ColumnY {
+		return "pl-cell-y"
+	}
+	return "pl-cell-x"
+}
+
+// shownText is the text a redraw gives the row's cell of col: the
+// session's text, unless keys were typed into the cell since the app last
+// took its text. Their input events are then still on their way (go-app
+// takes an event in one turn and draws frames in others, and a frame can
+// come first), and writing the session's older text into the cell would
+// lose those keys: the cell keeps what it holds, and the waiting events
+// bring the session up to it. Natively (prerendering) and before the row
+// is on the page it is the session's text.
+func (r *readingRow) shownText(col session.Column, text string) string {
+	if !app.IsClient || !r.Mounted() {
+		return text
+	}
+	tr := r.JSValue()
+	if !tr.Truthy() {
+		return text
+	}
+	el := tr.Call("querySelector", "input."+cellClass(col))
+	if !el.Truthy() {
+		return text
+	}
+	live := el.Get("value").String()
+	if taken := el.Get(takenProp); taken.Type() == app.TypeString && live != taken.String() {
+		return live
+	}
+	el.Set(takenProp, text) // what this redraw writes (nothing runs in between)
+	return text
+}
+
+// cell is one x or y input: shown is the text drawn into it (shownText),
+// text the session's, which data-value carries.
+func (r *readingRow) cell(col session.Column, testid, shown, text, problem string, more ...app.UI) app.UI {
 	label := "x"
 	if col == session.ColumnY {
 		label = "y"
@@ -297,12 +339,15 @@ func (r *readingRow) cell(col session.Column, testid, text, problem string, more
 	// The handlers read the row from r when they run: go-app keeps an
 	// element's first handler when a new one comes from the same function
 	// literal, and updates r's fields in place.
-	in := app.Input().Type("text").Class("pl-cell").Value(text).
+	in := app.Input().Type("text").Class("pl-cell", cellClass(col)).Value(shown).
 		Attr("inputmode", "decimal").Attr("autocomplete", "off").Attr("enterkeyhint", "next").
 		Attr("aria-label", label+" of reading "+strconv.Itoa(r.Row+1)).
 		DataSet("testid", testid).DataSet("row", r.Row).DataSet("value", text).Disabled(r.Locked).
 		OnInput(func(ctx app.Context, e app.Event) {
-			r.act(RowAction{Kind: rwType, Col: col, Text: ctx.JSSrc().Get("value").String()})
+			src := ctx.JSSrc()
+			v := src.Get("value").String()
+			src.Set(takenProp, v)
+			r.act(RowAction{Kind: rwType, Col: col, Text: v})
 		}).
 		OnKeyDown(func(ctx app.Context, e app.Event) {
 			if e.Get("key").String() != "Enter" {

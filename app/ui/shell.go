@@ -271,6 +271,7 @@ func (c *Shell) syncInputs() {
 		el := doc.Call("querySelector", `[data-testid="`+id+`"]`)
 		if el.Truthy() && el.Get("value").String() != v {
 			el.Set("value", v)
+			el.Set(takenProp, v) // a grid cell: the app wrote it (readingRow.shownText)
 		}
 	}
 	// The fields of the record's list items (standards, conditions), by
@@ -293,6 +294,7 @@ func (c *Shell) syncInputs() {
 		el := doc.Call("querySelector", q)
 		if el.Truthy() && el.Get("value").String() != v {
 			el.Set("value", v)
+			el.Set(takenProp, v) // a grid cell: the app wrote it (readingRow.shownText)
 		}
 	}
 	// The fields of the settings and criteria cards are known once this
