@@ -289,10 +289,6 @@ func (r *readingRow) noteCell() app.UI {
 	)
 }
 
-// takenProp is a property of a grid cell's input element: the text the app
-// last took from the cell (its input handler) or wrote into it (a redraw).
-const takenProp = "plTaken"
-
 // cellClass marks a row's x and y inputs, so that the row finds them.
 func cellClass(col session.Column) string {
 	if col == session.ColumnY {
@@ -302,13 +298,9 @@ func cellClass(col session.Column) string {
 }
 
 // shownText is the text a redraw gives the row's cell of col: the
-// session's text, unless keys were typed into the cell since the app last
-// took its text. Their input events are then still on their way (go-app
-// takes an event in one turn and draws frames in others, and a frame can
-// come first), and writing the session's older text into the cell would
-// lose those keys: the cell keeps what it holds, and the waiting events
-// bring the session up to it. Natively (prerendering) and before the row
-// is on the page it is the session's text.
+// session's text, unless keys typed into the cell are still on their way to
+// the app (keepTyped, typing.go). Natively (prerendering) and before the
+// row is on the page it is the session's text.
 func (r *readingRow) shownText(col session.Column, text string) string {
 	if !app.IsClient || !r.Mounted() {
 		return text
@@ -317,16 +309,7 @@ func (r *readingRow) shownText(col session.Column, text string) string {
 	if !tr.Truthy() {
 		return text
 	}
-	el := tr.Call("querySelector", "input."+cellClass(col))
-	if !el.Truthy() {
-		return text
-	}
-	live := el.Get("value").String()
-	if taken := el.Get(takenProp); taken.Type() == app.TypeString && live != taken.String() {
-		return live
-	}
-	el.Set(takenProp, text) // what this redraw writes (nothing runs in between)
-	return text
+	return keepTyped(tr.Call("querySelector", "input."+cellClass(col)), text)
 }
 
 // cell is one x or y input: shown is the text drawn into it (shownText),
@@ -344,10 +327,7 @@ func (r *readingRow) cell(col session.Column, testid, shown, text, problem strin
 		Attr("aria-label", label+" of reading "+strconv.Itoa(r.Row+1)).
 		DataSet("testid", testid).DataSet("row", r.Row).DataSet("value", text).Disabled(r.Locked).
 		OnInput(func(ctx app.Context, e app.Event) {
-			src := ctx.JSSrc()
-			v := src.Get("value").String()
-			src.Set(takenProp, v)
-			r.act(RowAction{Kind: rwType, Col: col, Text: v})
+			r.act(RowAction{Kind: rwType, Col: col, Text: takeTyped(ctx.JSSrc())})
 		}).
 		OnKeyDown(func(ctx app.Context, e app.Event) {
 			if e.Get("key").String() != "Enter" {

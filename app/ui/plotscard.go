@@ -248,11 +248,11 @@ func (r *plotsCard) renderPanel() app.UI {
 			return app.Div().Class("pl-point-exclude").Body(
 				app.Label().Body(
 					app.Span().Text("Reason for leaving it out"),
-					app.Input().Type("text").Value(p.Reason).DataSet("testid", "plot-point-reason").
+					app.Input().Type("text").Value(typedValue("plot-point-reason", p.Reason)).DataSet("testid", "plot-point-reason").
 						Attr("placeholder", "e.g. decimal point slipped when typing").
 						Attr("enterkeyhint", "done").
 						OnInput(func(ctx app.Context, e app.Event) {
-							r.act(PlotAction{Kind: paReason, Row: r.Panel.Row, Text: ctx.JSSrc().Get("value").String()})
+							r.act(PlotAction{Kind: paReason, Row: r.Panel.Row, Text: takeTyped(ctx.JSSrc())})
 						}).
 						OnKeyDown(func(ctx app.Context, e app.Event) {
 							// Enter confirms, as the button does (a phone's keyboard covers the button).
