@@ -468,6 +468,21 @@ func screenshot(t testing.TB, b *browser, name string) {
 	t.Logf("screenshot: %s", path)
 }
 
+// screenshotView saves what the viewport shows (screenshot saves the whole
+// page, which Chromium refuses for a very long one).
+func screenshotView(t testing.TB, b *browser, name string) {
+	t.Helper()
+	buf, err := chromedp.Run(b.ctx, chromedp.CaptureScreenshot())
+	if err != nil {
+		t.Fatalf("screenshot: %v", err)
+	}
+	path := filepath.Join(artifactDir(t), name+".png")
+	if err := os.WriteFile(path, buf, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("screenshot: %s", path)
+}
+
 // plotPointJS is a JavaScript function (svg, x, y) giving the screen
 // point (a DOMPoint) where the data point (x, y) is drawn on a plot: the
 // svg's data-frame holds its scales (app/plot.Draw).

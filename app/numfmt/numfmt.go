@@ -193,24 +193,29 @@ func Full(v float64) string {
 // with ("12.50" → 4, "0.003" → 1, "1200" → 4); 0 when the text holds no
 // digit. Used to tie shown precision to the precision of the readings.
 func DigitsOf(text string) int {
-	t := strings.TrimSpace(text)
-	if i := strings.IndexAny(t, "eE"); i >= 0 {
-		t = t[:i]
-	}
-	digits := make([]byte, 0, len(t))
-	for i := 0; i < len(t); i++ {
-		if t[i] >= '0' && t[i] <= '9' {
-			digits = append(digits, t[i])
+	// The digits before an exponent, from the first one that is not 0 on
+	// (leading zeros are not significant); a number of zeros only has one.
+	// One pass over the bytes, nothing allocated: the screen calls this for
+	// both cells of every reading on each edit (20,000 calls at 10,000
+	// readings). White space holds no digit and no "e", so it needs no
+	// trimming.
+	n, seen := 0, false
+	for i := 0; i < len(text); i++ {
+		c := text[i]
+		if c == 'e' || c == 'E' {
+			break
+		}
+		if c >= '0' && c <= '9' {
+			seen = true
+			if n > 0 || c != '0' {
+				n++
+			}
 		}
 	}
-	s := strings.TrimLeft(string(digits), "0")
-	if s == "" {
-		if len(digits) > 0 {
-			return 1
-		}
-		return 0
+	if n == 0 && seen {
+		return 1
 	}
-	return len(s)
+	return n
 }
 
 // Precision returns how many significant digits to show for estimates from

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 	"testing"
 )
 
@@ -149,4 +150,54 @@ func ExampleEstimate() {
 func ExampleSig_large() {
 	fmt.Println(Sig(4.2e12, 2), Sig(-1.5e-7, 3))
 	// Output: 4.2 × 10¹² −1.50 × 10⁻⁷
+}
+
+// digitsOfByCopy is DigitsOf as first written (the digits copied out, the
+// leading zeros trimmed): the reference FuzzDigitsOf holds DigitsOf to.
+func digitsOfByCopy(text string) int {
+	t := strings.TrimSpace(text)
+	if i := strings.IndexAny(t, "eE"); i >= 0 {
+		t = t[:i]
+	}
+	digits := make([]byte, 0, len(t))
+	for i := 0; i < len(t); i++ {
+		if t[i] >= '0' && t[i] <= '9' {
+			digits = append(digits, t[i])
+		}
+	}
+	s := strings.TrimLeft(string(digits), "0")
+	if s == "" {
+		if len(digits) > 0 {
+			return 1
+		}
+		return 0
+	}
+	return len(s)
+}
+
+// FuzzDigitsOf: counting the digits in place gives what copying them out
+// and trimming the leading zeros gives, for any text.
+func FuzzDigitsOf(f *testing.F) {
+	for _, s := range []string{"12.50", "0.003", "1200", "", "abc", "0", "000.000", " -0,0450e-3 ", "1e5", "E", "٣.5", "0x1F"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		if got, want := DigitsOf(s), digitsOfByCopy(s); got != want {
+			t.Errorf("DigitsOf(%q) = %d, by copy %d", s, got, want)
+		}
+	})
+}
+
+// BenchmarkDigitsOf is one reading's two cells.
+func BenchmarkDigitsOf(b *testing.B) {
+	for b.Loop() {
+		_ = DigitsOf("12.345") + DigitsOf("0.00412")
+	}
+}
+
+// BenchmarkDigitsOfByCopy is the same as first written, for comparison.
+func BenchmarkDigitsOfByCopy(b *testing.B) {
+	for b.Loop() {
+		_ = digitsOfByCopy("12.345") + digitsOfByCopy("0.00412")
+	}
 }

@@ -24,6 +24,9 @@ func samePairs(t *testing.T, what string, s *Session, pc *PairCache) {
 			t.Fatalf("%s: problem %d: cache %+v, Pairs %+v", what, i, p2[i], p1[i])
 		}
 	}
+	if c1, c2 := s.Count(), pc.Count(s); c1 != c2 {
+		t.Fatalf("%s: counts through the cache %+v, Count %+v", what, c2, c1)
+	}
 }
 
 // TestPairCache: after each kind of change a technician makes (typing,

@@ -764,6 +764,18 @@ type Counts struct {
 // Count returns the reading counts shown beside a session.
 func (s *Session) Count() Counts {
 	_, _, rows, problems := s.Pairs()
+	return s.counts(rows, problems)
+}
+
+// Count is s.Count() with the cells read through the cache (only those
+// that changed are parsed again).
+func (pc *PairCache) Count(s *Session) Counts {
+	_, _, rows, problems := pc.Pairs(s)
+	return s.counts(rows, problems)
+}
+
+// counts is Count from the pairing's rows and problems.
+func (s *Session) counts(rows []int, problems []CellProblem) Counts {
 	c := Counts{Rows: len(s.Readings), Usable: len(rows), Problems: len(problems)}
 	for _, r := range s.Readings {
 		switch {

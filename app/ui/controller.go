@@ -176,7 +176,6 @@ func (k *controller) completeNow() {
 	renumberAdvice(r.Advice, k.view.rows)
 	k.view.report = &r
 	k.view.stale, k.view.advicePending = false, false
-	k.view.plotsLater = true
 }
 
 // requery answers changed questions put to the line (queries: the use

@@ -289,9 +289,9 @@ func plVerdictOf(name string, v fitcore.Verdict) string { return "“" + name + 
 // plots returns the drawing of the open session, from the cache when the
 // report did not change (a new report comes with every edit). While an
 // edit's advice is still to come (the first turn of an edit to a big
-// session, view.stale) and in the turn of that advice (view.plotsLater),
-// the plots shown stay, marked as updating; the turn after draws them once,
-// from the full report.
+// session, view.stale) the plots shown stay, marked as updating; the turn
+// of the advice draws them once, from the full report (a turn of their own
+// cost every edit one more render of the screen and one more frame).
 func (c *Shell) plots() plSet {
 	rep := c.view.report
 	if rep == c.plCacheRep && c.sess == c.plCacheSess && len(c.sess.Readings) == c.plCacheN {
@@ -304,7 +304,7 @@ func (c *Shell) plots() plSet {
 		c.plStale = false
 		return c.plCache
 	}
-	if rep != nil && (c.view.stale || c.view.plotsLater) && c.sess == c.plCacheSess && c.plCacheRep != nil {
+	if rep != nil && c.view.stale && c.sess == c.plCacheSess && c.plCacheRep != nil {
 		c.plStale = true
 		return c.plCache
 	}

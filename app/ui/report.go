@@ -23,7 +23,17 @@ type reportUI struct {
 	rpMsg  string
 	rpHTML string // the report body, built when the report is opened
 	rpFor  *fitcore.Report
+	rpAt   time.Time // when the report was prepared (its "Prepared" line)
+	rpAll  bool      // every reading is listed on the screen ("show all" was pressed)
+
+	rpPrintHook app.Func // the page's beforeprint listener (registered once)
 }
+
+// rpRowsAtOnce is how many readings the report lists on the screen when it
+// opens; "show all" lists the rest, and printing or saving the report always
+// lists every reading. The browser takes most of a second to lay out a
+// table of 10,000 readings (DEVELOPERS.md, "Speed in the browser").
+const rpRowsAtOnce = 500
 
 // openReport builds the report from the open session and its report and
 // shows it.
@@ -31,11 +41,81 @@ func (c *Shell) openReport(ctx app.Context, e app.Event) {
 	if c.sess == nil {
 		return
 	}
-	c.rpOpen, c.rpMsg = true, ""
-	c.rpHTML = rpBody(c.sess, c.view.report, c.view.rows, c.view.message, time.Now())
-	c.rpFor = c.view.report
+	c.rpOpen, c.rpMsg, c.rpAll, c.rpAt = true, "", false, time.Now()
+	c.rpBuild()
+	c.rpListenPrint()
 	if ctx.Src() != nil {
 		ctx.Defer(func(ctx app.Context) { app.Window().Call("scrollTo", 0, 0) })
+	}
+}
+
+// rpBuild builds the report's markup for the screen from the open session,
+// with the plots the screen has drawn when they are of the same report.
+func (c *Shell) rpBuild() {
+	v := rpView{shown: rpRowsAtOnce}
+	if c.rpAll {
+		v.shown = -1
+	}
+	v.plots = c.rpPlots()
+	counts := c.pairs.Count(c.sess)
+	v.counts = &counts
+	c.rpHTML = rpBodyView(c.sess, c.view.report, c.view.rows, c.view.message, c.rpAt, v)
+	c.rpFor = c.view.report
+}
+
+// rpPlots is the plots of the open session's report: the screen's drawing
+// when it is of this report (a tapped reading is then drawn too when the
+// plots are thinned), otherwise drawn from the pairs fitcore was given.
+func (c *Shell) rpPlots() *plSet {
+	if c.view.report == nil {
+		return nil
+	}
+	if c.plCacheRep == c.view.report && c.plCacheSess == c.sess && c.plCacheN == len(c.sess.Readings) && !c.plStale {
+		return &c.plCache
+	}
+	ps := plDraw(c.sess, c.view.report, c.view.rows, c.view.x, c.view.y, -1)
+	return &ps
+}
+
+// rpListenPrint makes every print of the page (the report's button, the
+// browser's menu or keys) list every reading: the browser's beforeprint
+// event comes before the page is laid out for paper, and the listener
+// writes the readings the screen has not listed yet into the report.
+// Registered once; natively (prerendering) there is no page.
+func (c *Shell) rpListenPrint() {
+	if c.rpPrintHook != nil || !app.Window().Get("document").Truthy() {
+		return
+	}
+	c.rpPrintHook = app.FuncOf(func(this app.Value, args []app.Value) any {
+		c.rpFillRest()
+		return nil
+	})
+	app.Window().Call("addEventListener", "beforeprint", c.rpPrintHook)
+}
+
+// rpFillRest writes the readings the screen's report left out into its
+// placeholder (data-from: the first session row not listed) and takes away
+// the "show all" note. It changes only the inside of the report's markup,
+// which go-app replaces as a whole when the report is built again.
+func (c *Shell) rpFillRest() {
+	if !c.rpOpen || c.sess == nil {
+		return
+	}
+	doc := app.Window().Get("document")
+	rest := doc.Call("querySelector", `[data-testid="report-readings-rest"]`)
+	if !rest.Truthy() {
+		return
+	}
+	from, err := strconv.Atoi(rest.Get("dataset").Get("from").String())
+	if err != nil {
+		return
+	}
+	var b rpB
+	rpReadingRows(&b, c.sess, c.view.report, c.view.rows, from, len(c.sess.Readings))
+	rest.Set("innerHTML", b.String())
+	rest.Get("dataset").Set("from", strconv.Itoa(len(c.sess.Readings)))
+	if more := doc.Call("querySelector", `[data-testid="report-readings-more"]`); more.Truthy() {
+		more.Call("remove")
 	}
 }
 
@@ -46,8 +126,8 @@ func (c *Shell) renderReport() app.UI {
 	if c.sess != nil && c.rpFor != c.view.report {
 		// The session changed under an open report (another tab, a late
 		// analysis): show the current state.
-		c.rpHTML = rpBody(c.sess, c.view.report, c.view.rows, c.view.message, time.Now())
-		c.rpFor = c.view.report
+		c.rpAt = time.Now()
+		c.rpBuild()
 	}
 	return &reportDialog{Body: c.rpHTML, Msg: c.rpMsg, OnAction: c.reportAction}
 }
@@ -72,12 +152,10 @@ func (c *Shell) applyReport(ctx app.Context, a ReportAction) {
 			app.Window().Call("print")
 		}
 	case rdSaveHTML:
-		if c.sess == nil {
-			return
-		}
-		name := fileBase(c.sess.Title) + " report.html"
-		download(name, "text/html;charset=utf-8", []byte(rpFile(c.sess, c.rpHTML)))
-		c.rpMsg = "Saved “" + name + "” to your downloads."
+		c.saveReportHTML()
+	case rdShowAll:
+		c.rpAll = true
+		c.rpBuild()
 	case rdClose:
 		c.rpOpen = false
 	}
@@ -91,6 +169,23 @@ func rpFile(s *session.Session, body string) string {
 		"<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; img-src data:\">" +
 		"<title>" + rpEsc("Pairline report — "+s.Title) + "</title><style>\n" + web.ReportCSS + "\n</style></head>\n<body class=\"pl-report-file\">\n" +
 		body + "\n</body></html>\n"
+}
+
+// saveReportHTML downloads the report file.
+func (c *Shell) saveReportHTML() {
+	if c.sess == nil {
+		return
+	}
+	body := c.rpHTML
+	if !c.rpAll && len(c.sess.Readings) > rpRowsAtOnce {
+		// The screen lists the first readings only; the file lists every one.
+		counts := c.pairs.Count(c.sess)
+		body = rpBodyView(c.sess, c.view.report, c.view.rows, c.view.message, c.rpAt, rpView{shown: -1, plots: c.rpPlots(), counts: &counts})
+	}
+	file := rpFile(c.sess, body)
+	name := fileBase(c.sess.Title) + " report.html"
+	download(name, "text/html;charset=utf-8", []byte(file))
+	c.rpMsg = "Saved “" + name + "” to your downloads."
 }
 
 // rpEsc escapes text for the report's HTML. Text from the session comes
@@ -137,10 +232,26 @@ func rpVerdict(v fitcore.Verdict) string {
 	return `<span class="pl-rv pl-rv-` + rpEsc(strings.ReplaceAll(string(v), "/", "")) + `"><span aria-hidden="true">` + icon + `</span> ` + rpEsc(word) + `</span>`
 }
 
-// reportBody renders the report of s from rep (nil when there is no line;
-// message then says why). Every figure is rep's or the session's; the
-// plots are those of the screen (buildPlots).
+// rpBody renders the whole report of s from rep (nil when there is no line;
+// message then says why), every reading listed. Every figure is rep's or
+// the session's; the plots are those of the screen (plBuild).
 func rpBody(s *session.Session, rep *fitcore.Report, rows []int, message string, now time.Time) string {
+	return rpBodyView(s, rep, rows, message, now, rpView{shown: -1})
+}
+
+// rpView is how much of the report is written and what is at hand: shown is
+// the number of session rows the readings table lists (−1: all; the rest
+// then waits in an empty placeholder for rpFillRest), plots the screen's
+// drawing of rep when there is one (nil: drawn here), counts the session's
+// counts of readings (nil: counted here, every cell read again).
+type rpView struct {
+	shown  int
+	plots  *plSet
+	counts *session.Counts // s.Count(), when already known
+}
+
+// rpBodyView is rpBody as v says.
+func rpBodyView(s *session.Session, rep *fitcore.Report, rows []int, message string, now time.Time, v rpView) string {
 	var b rpB
 	b.Grow(32 << 10)
 	b.w(`<article class="pl-report" data-testid="report">`)
@@ -197,7 +308,12 @@ func rpBody(s *session.Session, rep *fitcore.Report, rows []int, message string,
 		rpAcceptance(&b, rep)
 		rpUse(&b, s, rep)
 		rpUnknowns(&b, s, rep)
-		ps := plBuild(s, rep, rows, -1)
+		var ps plSet
+		if v.plots != nil {
+			ps = *v.plots
+		} else {
+			ps = plBuild(s, rep, rows, -1)
+		}
 		b.w(`<section tabindex="0" class="pl-report-sec pl-report-plots"><h2>Plots</h2><div class="pl-report-plotgrid">`)
 		for _, p := range [][2]string{{"Readings and the fitted line", ps.Fit}, {"Residuals against fitted values", ps.Residuals},
 			{"Residuals in the order entered", ps.Order}, {"Normal Q–Q plot of the residuals", ps.QQ}} {
@@ -211,7 +327,7 @@ func rpBody(s *session.Session, rep *fitcore.Report, rows []int, message string,
 		}
 		b.w(`</p></section>`)
 	}
-	rpReadings(&b, s, rep, rows)
+	rpReadings(&b, s, rep, rows, v)
 	rpLeftOut(&b, s)
 	rpHistory(&b, s)
 	rpSignature(&b, s)
@@ -406,17 +522,57 @@ func rpUse(b *rpB, s *session.Session, rep *fitcore.Report) {
 	b.w(`</section>`)
 }
 
-func rpReadings(b *rpB, s *session.Session, rep *fitcore.Report, rows []int) {
-	used := make(map[int]int, len(rows))
-	for i, r := range rows {
-		used[r] = i
+// rpReadings is the table of readings: every one, or when v.shown ≥ 0 and the
+// session has more rows, its first shown rows, an empty placeholder for
+// the rest (rpFillRest, before printing) and a note with a "show all"
+// button (the click is taken by onReportClick).
+func rpReadings(b *rpB, s *session.Session, rep *fitcore.Report, rows []int, v rpView) {
+	shown := v.shown
+	var counts session.Counts
+	if v.counts != nil {
+		counts = *v.counts
+	} else {
+		counts = s.Count()
 	}
-	counts := s.Count()
 	b.w(`<section tabindex="0" class="pl-report-sec pl-report-readings"><h2>Readings</h2><p>`, plCount(counts.Rows, "reading"), `: `,
 		strconv.Itoa(counts.Usable), ` used, `, strconv.Itoa(counts.Excluded), ` left out, `, strconv.Itoa(counts.Problems), ` cells not usable.</p>`)
 	b.w(`<table class="pl-rt pl-rt-readings"><thead><tr><th>#</th><th>`, rpEsc(colHead(s.XName, s.XUnit, "x")), `</th><th>`,
 		rpEsc(colHead(s.YName, s.YUnit, "y")), `</th><th>Residual</th><th>Status and note</th></tr></thead><tbody>`)
-	for r, rd := range s.Readings {
+	n := len(s.Readings)
+	if shown < 0 || shown >= n {
+		rpReadingRows(b, s, rep, rows, 0, n)
+		b.w(`</tbody></table></section>`)
+		return
+	}
+	rpReadingRows(b, s, rep, rows, 0, shown)
+	b.w(`</tbody><tbody data-testid="report-readings-rest" data-from="`, strconv.Itoa(shown), `"></tbody></table>`,
+		`<p class="pl-report-more" data-testid="report-readings-more">Readings 1 to `, strconv.Itoa(shown), ` of `, strconv.Itoa(n),
+		` are listed here; a printed or saved report lists every one. <button type="button" class="pl-btn" data-testid="report-readings-all">Show all `,
+		plCount(n, "reading"), `</button></p></section>`)
+}
+
+// rpReadingRows writes the table rows of session rows from to to−1 (blank
+// rows with nothing to say are skipped).
+func rpReadingRows(b *rpB, s *session.Session, rep *fitcore.Report, rows []int, from, to int) {
+	// fitcore's index of each session row used, and which pairs stand out,
+	// looked up once (not once per reading: at 10,000 readings that was
+	// 10⁸ steps and most of the time the report took to open).
+	used := make(map[int]int, len(rows))
+	for i, r := range rows {
+		if r >= from && r < to {
+			used[r] = i
+		}
+	}
+	standsOut := make([]bool, len(rows))
+	if rep != nil {
+		for _, p := range rep.Influence {
+			if p.Flagged && p.Index >= 0 && p.Index < len(standsOut) {
+				standsOut[p.Index] = true
+			}
+		}
+	}
+	for r := from; r < to && r < len(s.Readings); r++ {
+		rd := s.Readings[r]
 		if rpBlank(rd.X) && rpBlank(rd.Y) && !rd.Excluded && rd.Note == "" {
 			continue
 		}
@@ -429,10 +585,8 @@ func rpReadings(b *rpB, s *session.Session, rep *fitcore.Report, rows []int) {
 			status = "used"
 			if rep != nil && i < len(rep.Residuals) {
 				res = rpNum(rep.Residuals[i], numfmt.Sig(rep.Residuals[i], 3))
-				for _, p := range rep.Influence {
-					if p.Index == i && p.Flagged {
-						status = "◆ used, stands out"
-					}
+				if standsOut[i] {
+					status = "◆ used, stands out"
 				}
 			}
 		default:
@@ -443,7 +597,6 @@ func rpReadings(b *rpB, s *session.Session, rep *fitcore.Report, rows []int) {
 		}
 		b.w(`<tr`, cls, ` data-row="`, strconv.Itoa(r), `"><td>`, strconv.Itoa(r+1), `</td><td>`, rpEsc(rd.X), `</td><td>`, rpEsc(rd.Y), `</td><td>`, res, `</td><td>`, rpEsc(status), `</td></tr>`)
 	}
-	b.w(`</tbody></table></section>`)
 }
 
 func rpBlank(s string) bool { return strings.TrimSpace(s) == "" }

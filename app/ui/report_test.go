@@ -2,6 +2,7 @@ package ui
 
 import (
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -57,5 +58,79 @@ func TestReportFileSelfContained(t *testing.T) {
 		if !strings.Contains(f, want) {
 			t.Errorf("the report does not say %q", want)
 		}
+	}
+}
+
+// The report on the screen lists the first readings of a long session and
+// leaves a placeholder for the rest; what the placeholder is filled with
+// before printing (rpReadingRows from its data-from) makes it the full
+// report's table, row for row, the left-out reading and the one that stands
+// out included.
+func TestReportReadingsShownThenFilled(t *testing.T) {
+	ss, err := demo.Sessions(time.Now(), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := ss[2] // the pressure check with the decimal slip
+	if err := s.Exclude(demo.MistypedRow, "decimal point slipped", time.Now()); err != nil {
+		t.Fatal(err)
+	}
+	rep, rows := analyzed(t, s)
+	now := time.Now()
+	n := len(s.Readings)
+	shown := demo.MistypedRow // the left-out reading is among the rest
+	if shown < 2 || shown >= n-1 {
+		t.Fatalf("demo C has %d readings, the slip at row %d: pick another split", n, demo.MistypedRow)
+	}
+	full := rpBody(s, rep, rows, "", now)
+	part := rpBodyView(s, rep, rows, "", now, rpView{shown: shown})
+	rowRE := regexp.MustCompile(`<tr[^>]* data-row="(\d+)"><td>`)
+	tableRows := func(html string) int {
+		i := strings.Index(html, `pl-rt-readings`)
+		j := strings.Index(html[i:], `</table>`)
+		return len(rowRE.FindAllString(html[i:i+j], -1))
+	}
+	if got := tableRows(full); got != n {
+		t.Errorf("the full report lists %d readings, want %d", got, n)
+	}
+	if got := tableRows(part); got != shown {
+		t.Errorf("the screen's report lists %d readings, want the first %d", got, shown)
+	}
+	ph := `<tbody data-testid="report-readings-rest" data-from="` + strconv.Itoa(shown) + `"></tbody>`
+	if !strings.Contains(part, ph) {
+		t.Fatalf("no placeholder %s for the readings not listed", ph)
+	}
+	for _, want := range []string{`data-testid="report-readings-all"`, "Show all " + strconv.Itoa(n) + " readings", "a printed or saved report lists every one"} {
+		if !strings.Contains(part, want) {
+			t.Errorf("the screen's report does not offer %q", want)
+		}
+	}
+	if strings.Contains(full, `report-readings-rest`) || strings.Contains(full, `report-readings-all`) {
+		t.Error("the full report carries the placeholder or the button")
+	}
+	var rest rpB
+	rpReadingRows(&rest, s, rep, rows, shown, n)
+	// The readings table's rows, and the report around the table.
+	split := func(html string) (rows, around string) {
+		i := strings.Index(html, `pl-rt-readings`)
+		i += strings.Index(html[i:], `</thead>`)
+		j := i + strings.Index(html[i:], `</table>`)
+		rows = strings.NewReplacer(`</thead>`, ``, `<tbody>`, ``, `</tbody>`, ``, ph, ``).Replace(html[i:j])
+		k := strings.Index(html, `<p class="pl-report-more"`)
+		if k < 0 {
+			k = j + len(`</table>`)
+		}
+		return rows, html[:i] + html[k+strings.Index(html[k:], `</section>`):]
+	}
+	fullRows, fullAround := split(full)
+	partRows, partAround := split(part)
+	if partRows+rest.String() != fullRows {
+		t.Error("the rows listed on the screen and those filled in before printing are not the full report's rows")
+	}
+	if partAround != fullAround {
+		t.Error("apart from the readings, the screen's report is not the full report")
+	}
+	if !strings.Contains(rest.String(), "□ Left out: decimal point slipped") {
+		t.Error("the rows filled in do not mark the left-out reading with its reason")
 	}
 }

@@ -22,6 +22,7 @@ const (
 	rdPrint    = "print"     // print the report (or save it as PDF through the print dialog)
 	rdSaveHTML = "save-html" // download the report as one self-contained HTML file
 	rdClose    = "close"     // close the report
+	rdShowAll  = "show-all"  // list every reading on the screen (a long session's report lists the first rpRowsAtOnce)
 )
 
 // ReportAction is one thing asked for on the report.
@@ -54,9 +55,21 @@ func (r *reportDialog) button(b app.HTMLButton, act string) app.HTMLButton {
 	})
 }
 
+// onClick takes the clicks inside the report's markup, which has no
+// handlers of its own: its "show all" button lists every reading. Any other
+// click draws nothing again.
+func (r *reportDialog) onClick(ctx app.Context, e app.Event) {
+	t := e.Get("target")
+	if !t.Truthy() || !t.Get("closest").Truthy() || !t.Call("closest", `[data-testid="report-readings-all"]`).Truthy() {
+		ctx.PreventUpdate()
+		return
+	}
+	r.act(ReportAction{Kind: rdShowAll})
+}
+
 // Render draws the dialog: the tools, then the report.
 func (r *reportDialog) Render() app.UI {
-	return app.Div().Class("pl-report-view").DataSet("testid", "report-view").Attr("role", "dialog").Attr("aria-label", "Report").Body(
+	return app.Div().Class("pl-report-view").DataSet("testid", "report-view").Attr("role", "dialog").Attr("aria-label", "Report").OnClick(r.onClick).Body(
 		app.Div().Class("pl-report-tools").Body(
 			r.button(app.Button().Class("pl-btn").Text("Print or save as PDF").DataSet("testid", "report-print"), rdPrint),
 			r.button(app.Button().Class("pl-btn").Text("Save as HTML file").DataSet("testid", "report-save-html"), rdSaveHTML),

@@ -1,8 +1,10 @@
 package ui
 
 import (
+	"strconv"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
@@ -125,5 +127,27 @@ func TestApplyReport(t *testing.T) {
 	d = c.renderReport().(*reportDialog)
 	if c.rpFor != c.view.report || d.Body == old || !strings.Contains(d.Body, c.sess.Readings[0].Y) {
 		t.Error("the dialog kept the report of before the change")
+	}
+}
+
+// TestApplyReportShowAll: "show all" lists every reading of a long
+// session's report on the screen (the first rpRowsAtOnce before).
+func TestApplyReportShowAll(t *testing.T) {
+	t0 := time.Date(2026, 7, 1, 8, 0, 0, 0, time.UTC)
+	s, err := session.New("Invented long report", t0, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range rpRowsAtOnce + 20 {
+		s.AddRow(strconv.Itoa(i+1), strconv.FormatFloat(2*float64(i+1)+0.1*float64(i%7), 'f', 1, 64), t0)
+	}
+	c := propShell(t, s)
+	c.openReport(app.Context{}, app.Event{})
+	if !strings.Contains(c.rpHTML, `data-testid="report-readings-all"`) {
+		t.Fatal("a long session's report offers no show all")
+	}
+	c.applyReport(app.Context{}, ReportAction{Kind: rdShowAll})
+	if !c.rpAll || strings.Contains(c.rpHTML, `data-testid="report-readings-all"`) {
+		t.Errorf("after show all: rpAll %v, the button still there: %v", c.rpAll, strings.Contains(c.rpHTML, `data-testid="report-readings-all"`))
 	}
 }

@@ -87,9 +87,6 @@ type analysis struct {
 	// advicePending: the advice is worked out in a later turn and there
 	// is no earlier advice to show meanwhile.
 	advicePending bool
-	// plotsLater: the plots of this report are drawn in the next turn (big
-	// sessions: so that no one turn holds up typing for long).
-	plotsLater bool
 
 	// stdProblems: why a standard's value or uncertainty is not used
 	// (session.StandardUncertainties).
@@ -330,7 +327,7 @@ const saveAtOnce = 500
 //     checks (with the advice and plots too below adviceLater readings),
 //     and the screen shows it;
 //  2. below adviceLater nothing more; from it, once that frame is drawn:
-//     the advice, and in the turn after that the plots;
+//     the advice and the plots;
 //  3. below saveAtOnce readings at once (changed); otherwise once that
 //     frame is drawn (from adviceLater readings: once typing pauses for
 //     savePause): the session is encoded and handed to the saver.
@@ -371,12 +368,7 @@ func (c *Shell) afterChange(ctx app.Context) {
 			return
 		}
 		c.completeNow()
-		c.afterFrame(func(app.Context) {
-			if seq == c.editSeq {
-				c.view.plotsLater = false
-			}
-			laterSave()
-		})
+		laterSave()
 	})
 }
 
