@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"sync"
+	"sync/atomic"
 )
 
 // advise looks for a change of scale or a weighting that cures a spread or
@@ -89,8 +91,8 @@ func adviseWith(x, y []float64, opt Options, before *Report, sc *anScratch) *Adv
 	if spreadBad {
 		tries = append(tries, RemedyWeightedX2, RemedyWeightedFitted, RemedyWeightedRepeats, RemedyWeighted)
 	}
-	for _, r := range tries {
-		c := adTry(x, y, opt, r, ad.Before, sc)
+	cands := adTryAll(x, y, opt, tries, ad.Before, sc)
+	for _, c := range cands {
 		ad.Candidates = append(ad.Candidates, c)
 		if c.Usable && c.Score >= base+adMinGain && (best < 0 || c.Score > ad.Candidates[best].Score) {
 			best = len(ad.Candidates) - 1
@@ -114,6 +116,47 @@ func adviseWith(x, y []float64, opt Options, before *Report, sc *anScratch) *Adv
 	}
 	ad.Reason += adCaution
 	return ad
+}
+
+// adTryAll returns adTry of each remedy in tries, in that order. On a
+// record of anParallelMin readings or more it refits anAdviceWorkers
+// remedies at once, each worker with its own work space (sc and its
+// forks), taking the next remedy of the list when it is done; each refit
+// computes exactly what it would alone, so the candidates do not depend
+// on this.
+func adTryAll(x, y []float64, opt Options, tries []Remedy, before CheckSummary, sc *anScratch) []Candidate {
+	cands := make([]Candidate, len(tries))
+	workers := min(anAdviceWorkers, len(tries))
+	if workers < 2 || len(x) < anParallelMin {
+		for i, r := range tries {
+			cands[i] = adTry(x, y, opt, r, before, sc)
+		}
+		return cands
+	}
+	// What every refit reads about x is worked out here, once, before the
+	// work spaces are shared or copied.
+	sc.orderOf(x)
+	scs := []*anScratch{sc}
+	for len(scs) < workers {
+		scs = append(scs, sc.fork())
+	}
+	var next atomic.Int32
+	var wg sync.WaitGroup
+	for _, s := range scs {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				i := int(next.Add(1)) - 1
+				if i >= len(tries) {
+					return
+				}
+				cands[i] = adTry(x, y, opt, tries[i], before, s)
+			}
+		}()
+	}
+	wg.Wait()
+	return cands
 }
 
 // adNothingToDo words the advice when neither spread nor linearity is a

@@ -2,6 +2,7 @@ package fitcore
 
 import (
 	"fmt"
+	"maps"
 	"math"
 	"reflect"
 	"slices"
@@ -45,11 +46,9 @@ type anScratch struct {
 	x      []float64 // the readings xOrder belongs to
 	xOrder []int32   // positions of x in ascending order; nil when x is in order
 
-	// The Box–Cox profile of the original readings, worked out once.
-	bcX, bcY []float64
-	bcLevel  float64
-	bc       *BoxCox
-	bcErr    error
+	// The Box–Cox profile of the original readings, worked out once and
+	// shared with the scratch of a second worker of the advice (fork).
+	bcc *bcCache
 
 	// What the checks work out from x alone, for the last x they saw (the
 	// original fit and the refits of y on a new scale have the same x).
@@ -65,25 +64,75 @@ type anScratch struct {
 	fitted, resids []float64
 }
 
+// bcCache keeps one Box–Cox profile; mu is held while it is worked out, so
+// that a second asker waits for it rather than working it out again.
+type bcCache struct {
+	mu    sync.Mutex
+	x, y  []float64
+	level float64
+	bc    *BoxCox
+	err   error
+}
+
 // boxCox returns BoxCoxProfile(x, y, level), computing it only the first
-// time it is asked about these readings and level.
+// time it is asked about these readings and level. It may be called from
+// the workers of the advice at once (after sharedBoxCox).
 func (s *anScratch) boxCox(x, y []float64, level float64) (*BoxCox, error) {
 	if level == 0 {
 		level = DefaultLevel
 	}
-	if s.bcX != nil && len(s.bcX) == len(x) && &s.bcX[0] == &x[0] && &s.bcY[0] == &y[0] && s.bcLevel == level {
-		return s.bc, s.bcErr
+	s.sharedBoxCox()
+	c := s.bcc
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if c.x != nil && len(c.x) == len(x) && &c.x[0] == &x[0] && &c.y[0] == &y[0] && c.level == level {
+		return c.bc, c.err
 	}
-	s.bc, s.bcErr = BoxCoxProfile(x, y, level)
-	s.bcX, s.bcY, s.bcLevel = x, y, level
-	return s.bc, s.bcErr
+	c.bc, c.err = BoxCoxProfile(x, y, level)
+	c.x, c.y, c.level = x, y, level
+	return c.bc, c.err
+}
+
+// sharedBoxCox makes the Box–Cox cache, before any worker is started.
+func (s *anScratch) sharedBoxCox() {
+	if s.bcc == nil {
+		s.bcc = new(bcCache)
+	}
+}
+
+// fork returns a work space for a second worker of the advice: its own
+// buffers (sorts, residuals, lack of fit's gathered copies), and, to read
+// only, what s has worked out from x (its order, the checks' basis, the
+// Durbin–Watson design, the levels of x) and the Box–Cox cache (which
+// locks). s must not be in use while fork copies it.
+func (s *anScratch) fork() *anScratch {
+	s.sharedBoxCox()
+	f := &anScratch{
+		x: s.x, xOrder: s.xOrder,
+		bcc:  s.bcc,
+		preX: s.preX, pre: s.pre, dw: s.dw,
+		lof: lofShared{x: s.lof.x, m: s.lof.m, ends: s.lof.ends, xl: s.lof.xl},
+	}
+	f.sb.swA = maps.Clone(s.sb.swA)
+	return f
 }
 
 // prepare returns ckPrepare(x) with dw set, working it out only when x is
 // not the slice it was asked about last.
+//
+// What is kept is for the first x asked about (the analysis's, which every
+// refit in the original units shares): the x of a log–log refit is worked
+// out on its own and not kept, so that the refits after it find the
+// original x still there.
 func (s *anScratch) prepare(x []float64) *ckPre {
-	if len(s.preX) != len(x) || len(x) == 0 || &s.preX[0] != &x[0] {
+	if len(x) == 0 {
+		return ckPrepare(x)
+	}
+	if s.preX == nil {
 		s.preX, s.pre = x, *ckPrepare(x)
+	}
+	if len(s.preX) != len(x) || &s.preX[0] != &x[0] {
+		return ckPrepare(x) // dw nil: the design is not kept either
 	}
 	p := s.pre
 	p.dw = &s.dw
@@ -93,6 +142,11 @@ func (s *anScratch) prepare(x []float64) *ckPre {
 // anParallelMin is the number of readings from which the checks run side
 // by side (below it, starting goroutines costs more than it saves).
 const anParallelMin = 20000
+
+// anAdviceWorkers is the number of remedies the advice refits at once on a
+// record of anParallelMin readings or more (1: one after another). The
+// candidates do not depend on it (TestAdviceWorkersSameReport).
+var anAdviceWorkers = 2
 
 // orderOf returns the positions of x in ascending order (nil when x is
 // already in order), sorting only the first time it is asked about these
@@ -116,13 +170,26 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	if err != nil {
 		return nil, err
 	}
-	if err := validatePairs(x, y); err != nil {
-		return nil, err
+	if !sc.refit {
+		// (An advice refit sees the readings its analysis validated.)
+		if err := validatePairs(x, y); err != nil {
+			return nil, err
+		}
 	}
 	if o.XStandardUncertainties != nil && len(o.XStandardUncertainties) != len(x) {
 		return nil, optErr("x_standard_uncertainties", strconv.Itoa(len(o.XStandardUncertainties)), "one standard uncertainty per pair is needed (%d pairs)", len(x))
 	}
 	rep := &Report{N: len(x), Model: o.Model, Transform: o.Transform, Level: o.Level}
+	if !o.SkipAdvice && !sc.refit && anAdviceWorkers > 1 && len(x) >= anParallelMin && allPositive(y) {
+		// The Box–Cox profile needs only the readings: it is worked out
+		// beside the fit and its checks, and complete takes it from the
+		// cache (waiting for it if need be). Every way out of analyze waits
+		// for it, so nothing reads x and y after Analyze returns.
+		sc.sharedBoxCox()
+		done := make(chan struct{})
+		go func() { defer close(done); sc.boxCox(x, y, o.Level) }()
+		defer func() { <-done }()
+	}
 
 	// Transformed scale.
 	tr, err := newTransformer(o.Transform, x, y, o, rep, sc)
@@ -321,10 +388,14 @@ func (fc *fitContext) newCheckRun() *checkRun {
 	in := fc.checkInputs()
 	r := &checkRun{fc: fc, in: in, origin: fc.opt.Model == ModelOrigin, n: len(in.xs), np: 2}
 	r.pre = fc.sc.prepare(in.xs)
-	r.pre.xyValid = ckValidate(in.xs, in.ys, in.w, "y value") == ""
-	r.pre.residValid = ckValidate(in.xs, in.pr, nil, "residual") == ""
+	// What ckValidate(xs, ys, w), ckValidate(xs, pr, nil) and
+	// ckValidate(xs, res, w) would say is "", each array read once.
+	n := len(in.xs)
+	xsOK, wOK := ckAllFinite(in.xs), ckWeights(in.w, n) == ""
+	r.pre.xyValid = xsOK && wOK && len(in.ys) == n && ckAllFinite(in.ys)
+	r.pre.residValid = xsOK && len(in.pr) == n && ckAllFinite(in.pr)
 	r.pre.quick = fc.sc.refit
-	r.inflValid = r.pre.residValid && (in.w == nil || ckValidate(in.xs, in.res, in.w, "residual") == "")
+	r.inflValid = r.pre.residValid && (in.w == nil || (wOK && len(in.res) == n && ckAllFinite(in.res)))
 	if r.origin {
 		r.np = 1
 	}
@@ -405,10 +476,10 @@ func (r *checkRun) influence() {
 	rep, in := r.fc.rep, &r.in
 	if r.fc.sc.refit {
 		// A candidate needs only the influence summary.
-		r.inflSummary = influenceSummary(in.xs, in.res, in.w, r.origin, r.inflValid)
+		r.inflSummary = influenceSummary(in.xs, in.res, in.w, in.pr, r.origin, r.inflValid)
 	} else {
 		var masks []uint8
-		rep.Influence, masks = influenceRun(in.xs, in.res, in.w, r.origin, r.inflValid, true)
+		rep.Influence, masks = influenceRun(in.xs, in.res, in.w, in.pr, r.origin, r.inflValid, true)
 		r.inflSummary = ckInfluenceFromMasks(masks)
 	}
 	switch {
@@ -528,10 +599,20 @@ func (fc *fitContext) capChecks() {
 // an all-zero v). Fourth powers of the scaled values stay between 2^-400
 // and 2^400, far from overflow and underflow.
 func ckSafeScale(v []float64) float64 {
-	var m float64
-	for _, a := range v {
-		m = max(m, math.Abs(a))
+	// Four running maxima (max is exact and order-free, a NaN carries
+	// through), so the loop is not one chain of dependent steps.
+	var m0, m1, m2, m3 float64
+	i := 0
+	for ; i+4 <= len(v); i += 4 {
+		m0 = max(m0, math.Abs(v[i]))
+		m1 = max(m1, math.Abs(v[i+1]))
+		m2 = max(m2, math.Abs(v[i+2]))
+		m3 = max(m3, math.Abs(v[i+3]))
 	}
+	for ; i < len(v); i++ {
+		m0 = max(m0, math.Abs(v[i]))
+	}
+	m := max(max(m0, m1), max(m2, m3))
 	if m == 0 || !isFiniteNum(m) || (m >= 0x1p-100 && m <= 0x1p100) {
 		return 1
 	}
@@ -638,12 +719,27 @@ func unitsInRange(rep *Report) error {
 // scrubbed report, scrubs them and counts them in the report's note.
 func complete(rep *Report, x, y []float64, opt Options, level float64, sc *anScratch) {
 	rep.BoxCox = nil
-	if allPositive(y) {
+	positive := allPositive(y)
+	if positive && anAdviceWorkers > 1 && len(x) >= anParallelMin {
+		// The profile is worked out beside the first refits of the advice
+		// (when analyze has not already started it); the Box–Cox candidate,
+		// which needs it, waits for it (boxCox).
+		sc.sharedBoxCox()
+		done := make(chan struct{})
+		go func() { defer close(done); sc.boxCox(x, y, level) }()
+		rep.Advice = adviseWith(x, y, opt, rep, sc)
+		<-done
+	} else {
+		if positive {
+			sc.boxCox(x, y, level)
+		}
+		rep.Advice = adviseWith(x, y, opt, rep, sc)
+	}
+	if positive {
 		if bc, err := sc.boxCox(x, y, level); err == nil {
 			rep.BoxCox = bc
 		}
 	}
-	rep.Advice = adviseWith(x, y, opt, rep, sc)
 	// The spread's "What to do" and the advice say the same.
 	if sp := &rep.Assumptions.Spread; adBad(sp.Verdict) {
 		sp.Advice = spreadWhatToDo

@@ -600,7 +600,7 @@ func (p *bcProfile) loglik(lam float64) float64 {
 // parabola's through neighbouring grid points) taken half again as far, so
 // that it passes the root; once g has changed sign from − on the left to +
 // on the right (which brackets a minimum of the RSS), the Illinois regula
-// falsi (as bcRoot) until a step is below 1e-10 in λ. ok is false when no
+// falsi (bcIllinois, as bcRoot) until a step is below 1e-10 in λ. ok is false when no
 // such bracket is found with one more evaluation at the end, or g is not
 // finite; the caller then uses bcBrentMax.
 func bcSlopeMax(f func(float64) (float64, float64), a, m, b, gm, em, c2 float64) (lam, ell float64, ok bool) {
@@ -654,38 +654,10 @@ func bcSlopeMax(f func(float64) (float64, float64), a, m, b, gm, em, c2 float64)
 	}
 	// The Illinois regula falsi on g, whose sign is that of dm on the side
 	// of m.
-	in, dIn, out, dOut := m, dm, t, dt
-	side := 0
-	c := t
-	for k := 0; k < 60 && math.Abs(in-out) > 1e-12; k++ {
-		prev := c
-		c = in - dIn*(in-out)/(dIn-dOut)
-		if !(c > math.Min(in, out) && c < math.Max(in, out)) {
-			c = 0.5 * (in + out)
-		}
-		dc := dsl(c)
-		if !isFiniteNum(dc) {
-			return 0, 0, false
-		}
-		if dc == 0 {
-			break
-		}
-		if (dc > 0) == (dm > 0) {
-			in, dIn = c, dc
-			if side == 1 {
-				dOut /= 2
-			}
-			side = 1
-		} else {
-			out, dOut = c, dc
-			if side == -1 {
-				dIn /= 2
-			}
-			side = -1
-		}
-		if math.Abs(c-prev) <= 1e-10 {
-			break
-		}
+	c, ok := bcIllinois(func(l float64) (float64, bool) { d := dsl(l); return d, isFiniteNum(d) },
+		m, dm, t, dt, t, func(d float64) bool { return (d > 0) == (dm > 0) }, 60, 1e-10)
+	if !ok {
+		return 0, 0, false
 	}
 	e, _ := eval(c)
 	return c, e, true
@@ -773,16 +745,35 @@ func bcBrentMax(f func(float64) float64, a, b, tol float64) (float64, float64) {
 // Jarratt 1971, BIT 11), which keeps the bracket and converges
 // superlinearly, to about 1e-12 in λ.
 func bcRoot(g func(float64) float64, out, gOut, in, gIn float64) float64 {
+	c, _ := bcIllinois(func(l float64) (float64, bool) { return g(l), true },
+		in, gIn, out, gOut, in, func(v float64) bool { return v >= 0 }, 100, 1e-13)
+	return c
+}
+
+// bcIllinois is the Illinois variant of regula falsi (Dowell & Jarratt
+// 1971, BIT 11) shared by bcRoot and bcSlopeMax: the root of g between in
+// (g = gIn) and out (g = gOut), of opposite signs; isIn says on which side
+// a value of g puts its point. It starts from c0 and stops after maxIt
+// steps, when the bracket is below 1e-12, when a step is at most tol or g
+// is 0 there, and returns the last point; ok is false when g said its
+// value was not usable (the last point is then returned as well).
+func bcIllinois(g func(float64) (float64, bool), in, gIn, out, gOut, c0 float64, isIn func(float64) bool, maxIt int, tol float64) (c float64, ok bool) {
 	side := 0
-	c := in
-	for k := 0; k < 100 && math.Abs(in-out) > 1e-12; k++ {
+	c = c0
+	for k := 0; k < maxIt && math.Abs(in-out) > 1e-12; k++ {
 		prev := c
 		c = in - gIn*(in-out)/(gIn-gOut)
 		if !(c > math.Min(in, out) && c < math.Max(in, out)) {
 			c = 0.5 * (in + out)
 		}
-		gc := g(c)
-		if gc >= 0 {
+		gc, ok := g(c)
+		if !ok {
+			return c, false
+		}
+		if gc == 0 {
+			break
+		}
+		if isIn(gc) {
 			in, gIn = c, gc
 			if side == 1 {
 				gOut /= 2
@@ -795,9 +786,9 @@ func bcRoot(g func(float64) float64, out, gOut, in, gIn float64) float64 {
 			}
 			side = -1
 		}
-		if math.Abs(c-prev) <= 1e-13 || gc == 0 {
+		if math.Abs(c-prev) <= tol {
 			break
 		}
 	}
-	return c
+	return c, true
 }

@@ -81,6 +81,23 @@ func ckFirstNonFinite(what string, v []float64) string {
 	return ""
 }
 
+// ckAllFinite says whether every value of v is finite (ckFirstNonFinite
+// would return ""), without a branch per value: a·0 is ±0 for a finite a
+// and NaN for ±Inf or NaN, so the sums stay zero exactly when all are
+// finite.
+func ckAllFinite(v []float64) bool {
+	var s0, s1 float64
+	i := 0
+	for ; i+2 <= len(v); i += 2 {
+		s0 += v[i] * 0
+		s1 += v[i+1] * 0
+	}
+	for ; i < len(v); i++ {
+		s0 += v[i] * 0
+	}
+	return s0+s1 == 0
+}
+
 // ckWeights returns a sentence naming the first weight that is not a
 // positive finite number, or "". A nil w is fine (unweighted).
 func ckWeights(w []float64, n int) string {

@@ -308,8 +308,9 @@ func newDWDesign(x, w []float64, origin bool) (*dwDesign, bool) {
 	u1 := make([]float64, n)
 	u2 := make([]float64, n)
 	for t, v := range x {
-		u1[t] = sw(t)
-		u2[t] = sw(t) * ((v - m) / s)
+		st := sw(t)
+		u1[t] = st
+		u2[t] = st * ((v - m) / s)
 	}
 	if normalize(u1) == 0 {
 		return nil, false

@@ -90,14 +90,14 @@ func Influence(x, resid, w []float64, origin bool) []PointInfluence {
 // influence is Influence; valid says the inputs are already known to be
 // valid.
 func influence(x, resid, w []float64, origin, valid bool) []PointInfluence {
-	out, _ := influenceRun(x, resid, w, origin, valid, true)
+	out, _ := influenceRun(x, resid, w, nil, origin, valid, true)
 	return out
 }
 
 // influenceSummary is Summarize's influence assumption for Influence(x,
 // resid, w, origin), found without keeping the per-reading results.
-func influenceSummary(x, resid, w []float64, origin, valid bool) Assumption {
-	_, masks := influenceRun(x, resid, w, origin, valid, false)
+func influenceSummary(x, resid, w, pr []float64, origin, valid bool) Assumption {
+	_, masks := influenceRun(x, resid, w, pr, origin, valid, false)
 	return ckInfluenceFromMasks(masks)
 }
 
@@ -123,8 +123,11 @@ func ckInfluenceFromMasks(masks []uint8) Assumption {
 // influenceRun computes the diagnostics of Influence and the bits of the
 // reasons of every reading (masks; nil when Influence returns nil). With
 // keep it also returns the per-reading results with their reasons
-// written; without, only the bits.
-func influenceRun(x, resid, w []float64, origin, valid, keep bool) (out []PointInfluence, masks []uint8) {
+// written; without, only the bits. pr, when not nil, holds the Pearson
+// residuals √w_i·e_i as the checks made them (math.Sqrt(w[i])·resid[i],
+// the same expression, so the same bits), read instead of being worked
+// out three times over.
+func influenceRun(x, resid, w, pr []float64, origin, valid, keep bool) (out []PointInfluence, masks []uint8) {
 	if !valid && ckValidate(x, resid, w, "residual") != "" {
 		return nil, nil
 	}
@@ -147,6 +150,9 @@ func influenceRun(x, resid, w []float64, origin, valid, keep bool) (out []PointI
 			return resid[i]
 		}
 		return math.Sqrt(w[i]) * resid[i]
+	}
+	if w != nil && len(pr) == n {
+		rAt = func(i int) float64 { return pr[i] }
 	}
 	var big float64
 	for i := range resid {

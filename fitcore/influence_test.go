@@ -2,6 +2,9 @@ package fitcore
 
 import (
 	"fmt"
+	"math"
+	"math/rand/v2"
+	"reflect"
 	"strings"
 	"testing"
 )
@@ -125,4 +128,28 @@ func ExampleInfluence() {
 		}
 	}
 	// Output: reading 6: outlier: studentized residual 25.9, Bonferroni p < 0.001 (limit 0.01)
+}
+
+// TestInfluencePearsonGiven: influenceRun reading the Pearson residuals
+// the checks made (pr) gives bit for bit what it gives working them out
+// itself, on random weighted records with and without an intercept.
+func TestInfluencePearsonGiven(t *testing.T) {
+	r := rand.New(rand.NewPCG(31, 7))
+	for trial := range 200 {
+		n := 3 + r.IntN(400)
+		x, e, w := make([]float64, n), make([]float64, n), make([]float64, n)
+		pr := make([]float64, n)
+		for i := range x {
+			x[i] = r.Float64() * 10
+			e[i] = r.NormFloat64() * (1 + x[i])
+			w[i] = 1 / (0.1 + x[i]*x[i])
+			pr[i] = math.Sqrt(w[i]) * e[i]
+		}
+		origin := trial%3 == 0
+		out1, m1 := influenceRun(x, e, w, nil, origin, true, true)
+		out2, m2 := influenceRun(x, e, w, pr, origin, true, true)
+		if !reflect.DeepEqual(out1, out2) || !reflect.DeepEqual(m1, m2) {
+			t.Fatalf("trial %d: influence with the Pearson residuals given differs", trial)
+		}
+	}
 }

@@ -38,13 +38,18 @@ func LackOfFit(x, y, w []float64, origin bool) *Check {
 }
 
 // lofShared keeps, for the last x lackOfFit saw, its number of levels,
-// where each level ends in ascending order (once asked for), and the space
-// y and w are gathered into.
+// where each level ends in ascending order and its x (once asked for), and
+// the space y and w are gathered into; ysOf and ysIdx are the y and order
+// that ys holds (a refit in the original units has the y of the one
+// before, so it is not gathered again).
 type lofShared struct {
 	x      []float64
 	m      int
 	ends   []int32
+	xl     []float64 // the x of each level
 	ys, ws []float64
+	ysOf   []float64
+	ysIdx  []int32
 }
 
 // count returns the number of distinct values of x, in the order idx (nil:
@@ -54,7 +59,7 @@ func (sh *lofShared) count(x []float64, idx []int32) int {
 	if n > 0 && len(sh.x) == n && &sh.x[0] == &x[0] {
 		return sh.m
 	}
-	sh.x, sh.m, sh.ends = x, 0, nil
+	sh.x, sh.m, sh.ends, sh.xl = x, 0, nil, nil
 	at := lofAt(idx)
 	for k := range n {
 		if k == 0 || x[at(k)] != x[at(k-1)] {
@@ -73,9 +78,13 @@ func (sh *lofShared) levels(x []float64, idx []int32) []int32 {
 	n := len(x)
 	at := lofAt(idx)
 	sh.ends = make([]int32, 0, sh.m)
+	sh.xl = make([]float64, 0, sh.m)
+	start := 0
 	for k := 1; k <= n; k++ {
 		if k == n || x[at(k)] != x[at(k-1)] {
 			sh.ends = append(sh.ends, int32(k))
+			sh.xl = append(sh.xl, x[at(start)])
+			start = k
 		}
 	}
 	return sh.ends
@@ -99,7 +108,8 @@ func lofAt(idx []int32) func(k int) int {
 func lackOfFit(x, y, w []float64, origin bool, idx []int32, sh *lofShared) *Check {
 	const name = "Lack of fit"
 	n := len(x)
-	if sh == nil {
+	if sh == nil || (sh.x != nil && (len(sh.x) != n || n == 0 || &sh.x[0] != &x[0])) {
+		// What sh keeps is for the first x it saw (see anScratch.prepare).
 		sh = new(lofShared)
 	}
 	m := sh.count(x, idx)
@@ -120,11 +130,16 @@ func lackOfFit(x, y, w []float64, origin bool, idx []int32, sh *lofShared) *Chec
 	// read them in sequence.
 	ys, ws := y, w
 	if idx != nil {
-		sh.ys = ckGrowF64(sh.ys, n)
-		ys = sh.ys[:n]
-		for k, i := range idx[:n] {
-			ys[k] = y[i]
+		if len(sh.ysOf) != n || &sh.ysOf[0] != &y[0] || &sh.ysIdx[0] != &idx[0] || len(sh.ys) < n {
+			sh.ys = ckGrowF64(sh.ys, n)
+			for k, i := range idx[:n] {
+				sh.ys[k] = y[i]
+			}
+			// (Holding y here also keeps its memory from being reused
+			// for another slice while ys describes it.)
+			sh.ysOf, sh.ysIdx = y, idx
 		}
+		ys = sh.ys[:n]
 		if w != nil {
 			sh.ws = ckGrowF64(sh.ws, n)
 			ws = sh.ws[:n]
@@ -135,8 +150,20 @@ func lackOfFit(x, y, w []float64, origin bool, idx []int32, sh *lofShared) *Chec
 	}
 	var ssPE, ssLOF, ssY float64
 	start := 0
-	for _, e := range sh.levels(x, idx) {
+	ends := sh.levels(x, idx)
+	xl := sh.xl
+	for l, e := range ends {
 		end := int(e)
+		if ws == nil && end == start+1 {
+			// A single unweighted reading is its own mean: the general
+			// sums below give exactly these (w = 1, d = 0).
+			v := ys[start]
+			ssY += v * v
+			d := v - (b0 + b1*xl[l])
+			ssLOF += d * d
+			start = end
+			continue
+		}
 		var sw, sy float64
 		for k := start; k < end; k++ {
 			wi := ckW(ws, k)
@@ -149,11 +176,7 @@ func lackOfFit(x, y, w []float64, origin bool, idx []int32, sh *lofShared) *Chec
 			ssPE += ckW(ws, k) * d * d
 			ssY += ckW(ws, k) * ys[k] * ys[k]
 		}
-		xg := x[start]
-		if idx != nil {
-			xg = x[idx[start]]
-		}
-		d := mean - (b0 + b1*xg)
+		d := mean - (b0 + b1*xl[l])
 		ssLOF += sw * d * d
 		start = end
 	}

@@ -5,7 +5,8 @@ import (
 	"slices"
 )
 
-// Sorting helpers for the checks. Large samples are sorted by a least
+// Sorting helpers for the checks. Samples of ckMSDMin values or more start
+// with a most significant digit pass (ckSortKeys). Large samples are sorted by a least
 // significant digit radix sort on order-preserving integer keys (Knuth, The
 // Art of Computer Programming, vol. 3, §5.2.5): six stable counting passes of
 // 11 bits over the 64-bit keys, skipping a pass when every key has the same
@@ -47,6 +48,7 @@ type ckSortBuf struct {
 	p1, p2 []ckKeyIdx
 	idx    []int32
 	f      []float64 // sorted values
+	cnt    []int32   // ckSortKeys's counters
 
 	// Shapiro–Wilk's coefficients by sample size: they depend on n only,
 	// so the advice's refits, which share this buffer, work them out once.
@@ -173,6 +175,113 @@ func ckRadixPairs(p, tmp []ckKeyIdx) []ckKeyIdx {
 	return src
 }
 
+// ckMSDMin is the number of keys from which ckSortKeys starts with a most
+// significant digit pass: below it (Shapiro–Wilk's groups of at most 5000)
+// the whole sort fits in the cache and ckRadixKeys is as fast.
+const ckMSDMin = 1 << 15
+
+const (
+	ckMSDBits = 16 // the first, most significant, digit
+	ckLowBits = 8  // the digits of the rest, bits 0 … 47
+	ckLowSize = 1 << ckLowBits
+	ckLowPass = (64 - ckMSDBits) / ckLowBits
+	ckInsMax  = 48 // a bucket this small is sorted by insertion
+)
+
+// ckSortKeys sorts keys ascending using tmp (same length) as work space
+// and returns the slice that holds the result (keys or tmp); cnt is work
+// space of 2^16 counters, kept by the caller between calls. The result is
+// that of ckRadixKeys (a sort of integers has one answer; the test
+// compares them); the way there is shorter for a large sample. One
+// counting pass and one move deal the keys into buckets by their top 16
+// bits (sign, exponent and 4 bits of the fraction of the value); the
+// values of a record of residuals fill a few hundred of them, so the move
+// writes to few places at once, and each bucket, a few thousand keys for
+// such a record, is then sorted on its lower 48 bits inside the cache: by
+// insertion when it holds at most 48 keys, else by six stable counting
+// passes of 8 bits, skipping a pass where every key of the bucket has the
+// same digit. A sample whose values all share their top 16 bits costs
+// about what ckRadixKeys costs.
+func ckSortKeys(keys, tmp []uint64, cnt []int32) []uint64 {
+	if len(keys) < ckMSDMin {
+		return ckRadixKeys(keys, tmp)
+	}
+	cnt = cnt[:1<<ckMSDBits]
+	clear(cnt)
+	for _, k := range keys {
+		cnt[k>>(64-ckMSDBits)]++
+	}
+	var sum int32
+	for d, c := range cnt {
+		cnt[d] = sum
+		sum += c
+	}
+	for _, k := range keys {
+		d := k >> (64 - ckMSDBits)
+		tmp[cnt[d]] = k
+		cnt[d]++
+	}
+	// cnt[d] is now the end of bucket d in tmp.
+	var start int32
+	for _, end := range cnt {
+		if end-start > 1 {
+			ckSortLow(tmp[start:end], keys[start:end])
+		}
+		start = end
+	}
+	return tmp
+}
+
+// ckSortLow sorts b, whose keys share their top 16 bits, ascending in
+// place, using w (same length) as work space.
+func ckSortLow(b, w []uint64) {
+	if len(b) <= ckInsMax {
+		for i := 1; i < len(b); i++ {
+			k := b[i]
+			j := i
+			for j > 0 && b[j-1] > k {
+				b[j] = b[j-1]
+				j--
+			}
+			b[j] = k
+		}
+		return
+	}
+	var cnt [ckLowPass][ckLowSize]int32
+	for _, k := range b {
+		cnt[0][k&(ckLowSize-1)]++
+		cnt[1][(k>>ckLowBits)&(ckLowSize-1)]++
+		cnt[2][(k>>(2*ckLowBits))&(ckLowSize-1)]++
+		cnt[3][(k>>(3*ckLowBits))&(ckLowSize-1)]++
+		cnt[4][(k>>(4*ckLowBits))&(ckLowSize-1)]++
+		cnt[5][(k>>(5*ckLowBits))&(ckLowSize-1)]++
+	}
+	n := int32(len(b))
+	src, dst := b, w
+	for p := range ckLowPass {
+		sh := uint(p * ckLowBits)
+		c := &cnt[p]
+		if c[(b[0]>>sh)&(ckLowSize-1)] == n {
+			continue // every key has this digit
+		}
+		var sum int32
+		for d := range c {
+			v := c[d]
+			c[d] = sum
+			sum += v
+		}
+		for _, k := range src {
+			d := (k >> sh) & (ckLowSize - 1)
+			dst[c[d]] = k
+			c[d]++
+		}
+		src, dst = dst, src
+	}
+	if &src[0] != &b[0] {
+		copy(b, src)
+	}
+}
+
 // sortedCopy returns the values of v sorted ascending in a slice owned by b
 // (valid until the next use of b). v must hold no NaN.
 func (b *ckSortBuf) sortedCopy(v []float64) []float64 {
@@ -189,7 +298,7 @@ func (b *ckSortBuf) sortedCopy(v []float64) []float64 {
 	for i, a := range v {
 		b.k1[i] = ckSortKey(a)
 	}
-	for i, k := range ckRadixKeys(b.k1, b.k2) {
+	for i, k := range b.sortKeys() {
 		out[i] = ckFromKey(k)
 	}
 	return out
@@ -207,9 +316,18 @@ func (b *ckSortBuf) sortInPlace(v []float64) {
 	for i, a := range v {
 		b.k1[i] = ckSortKey(a)
 	}
-	for i, k := range ckRadixKeys(b.k1, b.k2) {
+	for i, k := range b.sortKeys() {
 		v[i] = ckFromKey(k)
 	}
+}
+
+// sortKeys sorts b.k1 by ckSortKeys, with b.k2 and b.cnt as work space,
+// and returns the slice that holds the result.
+func (b *ckSortBuf) sortKeys() []uint64 {
+	if len(b.k1) >= ckMSDMin && b.cnt == nil {
+		b.cnt = make([]int32, 1<<ckMSDBits)
+	}
+	return ckSortKeys(b.k1, b.k2, b.cnt)
 }
 
 // ckAscending says whether v is already in ascending order (−0 before +0).

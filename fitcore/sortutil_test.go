@@ -64,3 +64,75 @@ func TestSortBuf(t *testing.T) {
 		})
 	}
 }
+
+// TestSortKeysAgainstRadix is the oracle test of ckSortKeys (a most
+// significant digit pass, then the buckets in the cache): on many random
+// samples, above and below ckMSDMin, it must give exactly what the plain
+// least significant digit sort ckRadixKeys gives, and both what
+// slices.Sort gives on the keys (the reference). The samples have ties,
+// signed zeros, subnormals, values sharing their top 16 bits (one bucket),
+// values over 600 decades, and buckets on both sides of ckInsMax.
+func TestSortKeysAgainstRadix(t *testing.T) {
+	r := rand.New(rand.NewPCG(13, 2026))
+	specials := []float64{0, math.Copysign(0, -1), 5e-324, -5e-324, math.MaxFloat64, -math.MaxFloat64, 1, -1, 2}
+	gens := []struct {
+		name string
+		gen  func(i int) float64
+	}{
+		{"normal", func(int) float64 { return r.NormFloat64() }},
+		{"normal scaled", func(int) float64 { return 1e-7 * r.NormFloat64() }},
+		{"one bucket", func(int) float64 { return 1 + r.Float64()/32 }},
+		{"ties", func(int) float64 { return float64(r.IntN(50)) }},
+		{"specials", func(int) float64 { return specials[r.IntN(len(specials))] }},
+		{"wide", func(int) float64 { return r.NormFloat64() * math.Pow(10, float64(r.IntN(600)-300)) }},
+		{"sorted", func(i int) float64 { return float64(i) }},
+		{"reversed", func(i int) float64 { return -float64(i) / 7 }},
+		{"few per bucket", func(int) float64 { return math.Ldexp(1+r.Float64(), r.IntN(2000)-1000) }},
+		{"uniform", func(int) float64 { return r.Float64() - 0.5 }},
+	}
+	cnt := make([]int32, 1<<ckMSDBits)
+	for trial := range 60 {
+		g := gens[trial%len(gens)]
+		n := []int{ckMSDMin - 1, ckMSDMin, ckMSDMin + 1 + r.IntN(5000), 100000 + r.IntN(200000)}[trial%4]
+		keys := make([]uint64, n)
+		for i := range keys {
+			keys[i] = ckSortKey(g.gen(i))
+		}
+		want := slices.Clone(keys)
+		slices.Sort(want)
+		old := ckRadixKeys(slices.Clone(keys), make([]uint64, n))
+		got := ckSortKeys(slices.Clone(keys), make([]uint64, n), cnt)
+		for i := range want {
+			if old[i] != want[i] {
+				t.Fatalf("%s, n = %d: ckRadixKeys[%d] = %x, slices.Sort %x", g.name, n, i, old[i], want[i])
+			}
+			if got[i] != want[i] {
+				t.Fatalf("%s, n = %d: ckSortKeys[%d] = %x, slices.Sort %x", g.name, n, i, got[i], want[i])
+			}
+		}
+	}
+}
+
+// BenchmarkSortKeys compares ckRadixKeys with ckSortKeys on the keys of
+// 10⁶ residuals of the invented benchData record.
+func BenchmarkSortKeys(b *testing.B) {
+	_, _, res := benchData(1000000)
+	keys := make([]uint64, len(res))
+	k, tmp := make([]uint64, len(res)), make([]uint64, len(res))
+	cnt := make([]int32, 1<<ckMSDBits)
+	for i, v := range res {
+		keys[i] = ckSortKey(v)
+	}
+	b.Run("radix", func(b *testing.B) {
+		for b.Loop() {
+			copy(k, keys)
+			ckRadixKeys(k, tmp)
+		}
+	})
+	b.Run("msd", func(b *testing.B) {
+		for b.Loop() {
+			copy(k, keys)
+			ckSortKeys(k, tmp, cnt)
+		}
+	})
+}

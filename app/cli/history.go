@@ -454,7 +454,7 @@ func historyText(w io.Writer, ins []history.Instrument, skipped []skippedFile, o
 		}
 		fmt.Fprintf(&b, "Instrument %s: %d sessions", term(name), len(in.Entries))
 		if in.Duplicates > 0 {
-			fmt.Fprintf(&b, " (%d given twice, counted once)", in.Duplicates)
+			b.WriteString(" (" + view.CopiesText(in.Duplicates) + ")")
 		}
 		b.WriteString("\n")
 		change := map[string]history.Change{}

@@ -296,7 +296,7 @@ func writeInstrument(b *strings.Builder, i int, in *history.Instrument, p htmlPa
 	b.WriteString(`<li>x: ` + hx(nameWithUnit(u.xName, u.xUnit, "x")) + `; y: ` + hx(nameWithUnit(u.yName, u.yUnit, "y")) + `; slope in ` + hx(slopeUnit) + `</li>`)
 	fmt.Fprintf(b, `<li>%d sessions`, len(in.Entries))
 	if in.Duplicates > 0 {
-		fmt.Fprintf(b, ` (%d more given twice, counted once)`, in.Duplicates)
+		b.WriteString(` (` + hx(view.CopiesText(in.Duplicates)) + `)`)
 	}
 	b.WriteString(`</li></ul>`)
 	it := view.Word(*in, p.Now, limitsOf(p.Opt))
@@ -433,10 +433,16 @@ func hdayOf(e *history.Entry) string {
 	return hday(e.Taken)
 }
 
-// xdiff writes one difference of converted values: units and % of range.
+// xdiff writes one difference of converted values: units and % of the
+// value there (view.PercentOfValue, as the app words it; none at x = 0).
 func xdiff(d fitcore.XDifference, xUnit string) string {
-	return `<span class="pl-rnum" data-value="` + numfmt.Full(d.Diff) + `" data-x="` + numfmt.Full(d.X) + `" data-percent="` + numfmt.Full(d.Percent) + `">` +
-		html.EscapeString(signed(d.Diff, 3)) + `</span>` + hunit(xUnit) + `<br><span class="pl-report-small">` + hnum(d.Percent, signed(d.Percent, 2)) + "\u00a0%</span>"
+	p := view.PercentOfValue(d)
+	pct := ""
+	if !math.IsNaN(p) {
+		pct = `<br><span class="pl-report-small">` + hnum(p, signed(p, 2)) + "\u00a0%</span>"
+	}
+	return `<span class="pl-rnum" data-value="` + numfmt.Full(d.Diff) + `" data-x="` + numfmt.Full(d.X) + `" data-percent="` + numfmt.Full(p) + `">` +
+		html.EscapeString(signed(d.Diff, 3)) + `</span>` + hunit(xUnit) + pct
 }
 
 // signed is numfmt.Sig with an explicit "+" for positive values.
@@ -478,8 +484,8 @@ func writeChanges(b *strings.Builder, in *history.Instrument, u instUnits) {
 		return
 	}
 	b.WriteString(`<h3>Each accepted calibration against the previous accepted one</h3>` +
-		`<p class="pl-report-small">Equal slopes: separate lines against a common slope, F(1, df). One common line: separate lines against one line through both, F(2, df). A change is claimed at p &lt; 0.01. The differences are the value today's response at that x converts to with the previous line, minus x, in the unit of x and in % of today's range of x.</p>` +
-		`<div class="pl-rt-wrap"><table class="pl-rt pl-rt-stack" data-testid="hfile-changes"><thead><tr><th>Calibration</th><th>Equal slopes</th><th>One common line</th><th>Verdict</th><th>At the middle (x; % of range)</th><th>At the top (x; % of range)</th></tr></thead><tbody>`)
+		`<p class="pl-report-small">Equal slopes: separate lines against a common slope, F(1, df). One common line: separate lines against one line through both, F(2, df). A change is claimed at p &lt; 0.01. The differences are the value today's response at that x converts to with the previous line, minus x, in the unit of x and in % of that x (as the app says it).</p>` +
+		`<div class="pl-rt-wrap"><table class="pl-rt pl-rt-stack" data-testid="hfile-changes"><thead><tr><th>Calibration</th><th>Equal slopes</th><th>One common line</th><th>Verdict</th><th>At the middle (x; % of x)</th><th>At the top (x; % of x)</th></tr></thead><tbody>`)
 	acc := acceptedByID(in)
 	for _, c := range in.Changes {
 		cur, prev := acc[c.Session], acc[c.Previous]

@@ -20,10 +20,7 @@ import (
 // reach the stored session. A redraw of the row for an earlier key must not
 // put the cell back to the text it had then.
 func TestFastTypingKeepsEveryKey(t *testing.T) {
-	srv := startServer(t)
-	b := newBrowser(t, tablet)
-	b.do(t, chromedp.Navigate(srv.URL))
-	waitFor(t, b, "the app", appReady, 60*time.Second)
+	_, b := openApp(t, tablet)
 	fillRows(t, b, 40, "String(i + 1)", "(2 * (i + 1) + (i % 7) * 0.1).toFixed(1)")
 	waitFor(t, b, "40 pairs", `tid("usable-count")?.dataset.value === "40"`, 60*time.Second)
 	slow := func(rate float64) {

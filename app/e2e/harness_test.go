@@ -18,6 +18,7 @@ import (
 	"github.com/chromedp/cdproto/cdp"
 	"github.com/chromedp/cdproto/network"
 	"github.com/chromedp/cdproto/page"
+	"github.com/chromedp/cdproto/runtime"
 	"github.com/chromedp/chromedp"
 )
 
@@ -122,6 +123,79 @@ type browser struct {
 	ctx      context.Context
 	mu       sync.Mutex
 	requests []string
+	console  []string // the page's console lines (Go's own output goes to console.log) and uncaught exceptions, the newest last
+}
+
+// maxConsole is how many console lines a browser keeps for a failing test.
+const maxConsole = 40
+
+// note keeps one console line.
+func (b *browser) note(line string) {
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	b.console = append(b.console, line)
+	if len(b.console) > maxConsole {
+		b.console = b.console[len(b.console)-maxConsole:]
+	}
+}
+
+// watchConsole keeps the page's console lines and exceptions (Go's
+// WebAssembly runtime writes its output, a panic too, with console.log). When the
+// test fails they are logged; a Go panic (the app has stopped) fails the
+// test whatever else it checked.
+func (b *browser) watchConsole(t testing.TB) {
+	t.Helper()
+	calls := chromedp.Events(b.ctx, runtime.ConsoleAPICalled)
+	thrown := chromedp.Events(b.ctx, runtime.ExceptionThrown)
+	go func() {
+		for ev, err := range calls {
+			if err != nil {
+				return
+			}
+			switch ev.Type {
+			case runtime.ConsoleAPICalledTypeError, runtime.ConsoleAPICalledTypeWarning, runtime.ConsoleAPICalledTypeLog:
+			default:
+				continue
+			}
+			var parts []string
+			for _, a := range ev.Args {
+				if len(a.Value) > 0 {
+					parts = append(parts, string(a.Value))
+				} else {
+					parts = append(parts, a.Description)
+				}
+			}
+			b.note("console." + string(ev.Type) + ": " + strings.Join(parts, " "))
+		}
+	}()
+	go func() {
+		for ev, err := range thrown {
+			if err != nil {
+				return
+			}
+			d := ev.ExceptionDetails
+			line := "exception: " + d.Text
+			if d.Exception != nil {
+				line += " " + d.Exception.Description
+			}
+			b.note(line)
+		}
+	}()
+	t.Cleanup(func() {
+		b.mu.Lock()
+		lines := append([]string(nil), b.console...)
+		b.mu.Unlock()
+		for _, l := range lines {
+			if strings.Contains(l, "panic: ") || strings.Contains(l, "fatal error: ") {
+				t.Errorf("the app stopped with a Go panic in the page: %s", l)
+			}
+		}
+		if t.Failed() {
+			for _, l := range lines {
+				t.Logf("page %s", l)
+			}
+		}
+	})
 }
 
 func newBrowser(t testing.TB, size [2]int64) *browser {
@@ -161,6 +235,7 @@ func newBrowser(t testing.TB, size [2]int64) *browser {
 	if err := chromedp.Do(ctx, chromedp.EmulateViewport(size[0], size[1])); err != nil {
 		t.Fatalf("cannot start Chromium: %v", err)
 	}
+	b.watchConsole(t)
 	addTestIDs(t, ctx)
 	events := chromedp.Events(ctx, network.RequestWillBeSent)
 	if err := chromedp.Do(ctx, chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
@@ -202,7 +277,9 @@ func (b *browser) newTab(t testing.TB) *browser {
 	ctx, cancel := chromedp.NewContext(b.ctx)
 	t.Cleanup(cancel)
 	addTestIDs(t, ctx)
-	return &browser{ctx: ctx}
+	tab := &browser{ctx: ctx}
+	tab.watchConsole(t)
+	return tab
 }
 
 // foreign returns the requests that went anywhere but origin.
@@ -240,6 +317,13 @@ func eval[T any](t testing.TB, b *browser, expr string) T {
 // 100 ms until it is truthy.
 func waitFor(t testing.TB, b *browser, what, cond string, timeout time.Duration) {
 	t.Helper()
+	waitForExplained(t, b, what, cond, "", timeout)
+}
+
+// waitForExplained is waitFor that, when the time is up, also reports what
+// the JavaScript expression explain says of the page (a string).
+func waitForExplained(t testing.TB, b *browser, what, cond, explain string, timeout time.Duration) {
+	t.Helper()
 	expr := "(async () => !!(await (" + cond + ")))()"
 	deadline := time.Now().Add(timeout)
 	var last error
@@ -250,6 +334,13 @@ func waitFor(t testing.TB, b *browser, what, cond string, timeout time.Duration)
 		}
 		last = err
 		time.Sleep(100 * time.Millisecond)
+	}
+	if explain != "" {
+		seen, err := chromedp.Run(b.ctx, chromedp.Evaluate[string](explain, chromedp.EvalAwaitPromise))
+		if err != nil {
+			seen = "(" + err.Error() + ")"
+		}
+		t.Fatalf("waiting for %s: not true after %v (last error: %v); the page: %s", what, timeout, last, seen)
 	}
 	t.Fatalf("waiting for %s: not true after %v (last error: %v)", what, timeout, last)
 }
@@ -325,6 +416,17 @@ func setValue(t testing.TB, b *browser, testid, value, event string) {
 func typeInto(t testing.TB, b *browser, testid, text string) {
 	t.Helper()
 	setValue(t, b, testid, text, "input")
+}
+
+// openApp serves the app, opens it in a fresh browser of the given size
+// and waits until a reading can be typed.
+func openApp(t testing.TB, size [2]int64) (*server, *browser) {
+	t.Helper()
+	srv := startServer(t)
+	b := newBrowser(t, size)
+	b.do(t, chromedp.Navigate(srv.URL))
+	waitFor(t, b, "the app", appReady, 60*time.Second)
+	return srv, b
 }
 
 // waitTaken waits until the app has taken value into the grid cell testid

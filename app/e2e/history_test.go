@@ -210,6 +210,31 @@ func historyFlow(t *testing.T, srv *server, name string, size [2]int64) {
 		t.Errorf("session list: the meter's month 10 is marked %q, want overdue", st)
 	}
 	hiShot(t, b, name, "list", "session-list")
+
+	// A calibration imported while the instrument view is open shows in it
+	// at once; the same file kept twice ("Keep both") counts once.
+	all, err := history.ScenarioRecords(2026, start)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var month11 *session.Session
+	for i, s := range all {
+		if s.Instrument.ID == "LVWB-TB-01" && i%12 == 10 {
+			month11 = s
+		}
+	}
+	late := writeSessions(t, dir, "meter-month-11-invented.pairline", month11)
+	click(t, b, "instruments-open")
+	waitFor(t, b, "the instrument list", `tids("instrument-item").length === 3`, 60*time.Second)
+	hiPick(t, b, "LVWB-TB-01")
+	importPath(t, b, late)
+	waitFor(t, b, "month 11 in the open view", `!!tid("instrument-view") && tids("inst-row").length === 11`, 30*time.Second)
+	importPath(t, b, late)
+	click(t, b, "import-keep-both")
+	waitFor(t, b, "the kept copy", `!!tid("import-report") && !tid("import-conflict")`, 20*time.Second)
+	waitFor(t, b, "the copy counted once", `tid("inst-duplicates")?.dataset.value === "1" && tids("inst-row").length === 11`, 30*time.Second)
+	t.Logf("%s: after keeping both: %s", name, text(t, b, "inst-duplicates"))
+	hiShot(t, b, name, "imported-while-open", "instruments")
 }
 
 // hiPick opens one instrument's view.

@@ -58,7 +58,8 @@ func typeSteady(t *testing.T, b *browser, from int, pairs [][2]string) {
 			id := fmt.Sprintf("%s-input-%d", col, from+i)
 			waitFor(t, b, "the focus in "+id, fmt.Sprintf(`document.activeElement && document.activeElement.dataset.testid === %q`, id), 10*time.Second)
 			b.do(t, chromedp.KeyEvent(p[j]))
-			waitFor(t, b, "the text in "+id, fmt.Sprintf(`document.activeElement.value === %q && document.activeElement.dataset.value === %q`, p[j], p[j]), 10*time.Second)
+			waitForExplained(t, b, "the text in "+id, fmt.Sprintf(`document.activeElement.value === %q && document.activeElement.dataset.value === %q`, p[j], p[j]),
+				fmt.Sprintf(`(() => { const a = document.activeElement, c = tid(%q); return "focus on " + (a && (a.dataset.testid || a.tagName)) + "; the cell holds " + JSON.stringify(c && c.value) + ", data-value " + JSON.stringify(c && c.dataset.value) })()`, id), 10*time.Second)
 			b.do(t, chromedp.KeyEvent(kb.Enter))
 		}
 	}

@@ -43,7 +43,11 @@ type Summary struct {
 	Modified     time.Time
 	Taken        time.Time // session.ReadingsDay
 	IntervalDays int
-	Digest       string // SHA-256 of the session's encoding: same ID and digest = same content
+	// Digest is the SHA-256 of the session's encoding with its ID left out:
+	// two summaries with the same digest are one calibration, given twice
+	// or kept twice (an import's "Keep both" copies a session under a new
+	// ID).
+	Digest string
 
 	Fitted                 bool
 	Slope, SlopeSE         float64
@@ -70,6 +74,9 @@ type Summary struct {
 	Criteria *fitcore.Criteria
 }
 
+// anonymousID stands for every session's ID in Summary.Digest.
+const anonymousID = "00000000000000000000000000000000"
+
 // Summarize fits one session with its own settings and keeps its summary.
 // Accepted is the acceptance verdict when the settings have criteria
 // (fitcore Report.Acceptance), else "no assumption failed" (no
@@ -78,7 +85,9 @@ func Summarize(s *session.Session) (Summary, error) {
 	if s == nil {
 		return Summary{}, errors.New("history: no session")
 	}
-	b, err := session.EncodeBytes([]*session.Session{s})
+	anon := *s
+	anon.ID = anonymousID
+	b, err := session.EncodeBytes([]*session.Session{&anon})
 	if err != nil {
 		return Summary{}, fmt.Errorf("history: session %s: %w", s.ID, err)
 	}
@@ -212,18 +221,22 @@ func Build(sums []Summary, opt Options) ([]Instrument, error) {
 
 func build(g []Summary, opt Options) (Instrument, error) {
 	in := Instrument{Key: strings.TrimSpace(g[0].Key)}
-	// Dedupe: same ID and digest = one; same ID with other content = the
-	// highest revision (then latest Modified) counts, the others are kept
-	// apart as earlier revisions.
+	// Dedupe: the same content (Digest, whatever the ID) = one; the same
+	// ID with other content = the highest revision (then latest Modified)
+	// counts, the others are kept apart as earlier revisions.
 	byID := map[string]int{}
 	seen := map[string]bool{}
 	var entries []Entry
 	for _, s := range g {
-		if seen[s.ID+"\x00"+s.Digest] {
+		key := s.Digest
+		if key == "" {
+			key = "id\x00" + s.ID // no digest: only the same ID can repeat it
+		}
+		if seen[key] {
 			in.Duplicates++
 			continue
 		}
-		seen[s.ID+"\x00"+s.Digest] = true
+		seen[key] = true
 		e := Entry{Summary: s, Verdict: verdictOf(s)}
 		if j, ok := byID[s.ID]; ok {
 			cur := &entries[j]

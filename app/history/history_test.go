@@ -136,6 +136,42 @@ func TestDedupe(t *testing.T) {
 	}
 }
 
+// TestDedupeKeptBoth: a session kept twice on import ("Keep both" gives
+// the copy a new ID and nothing else) is one calibration; a copy whose
+// readings differ is another.
+func TestDedupeKeptBoth(t *testing.T) {
+	ss, err := history.Scenario(7, scenarioStart, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ss = ss[:12] // the stable instrument
+	for _, tc := range []struct {
+		name       string
+		change     func(*session.Session)
+		entries    int
+		duplicates int
+	}{
+		{"same content, new ID", func(*session.Session) {}, 12, 1},
+		{"one reading changed", func(s *session.Session) { s.Readings[2].Y += "1" }, 13, 0},
+	} {
+		cp := *ss[4]
+		cp.Readings = append([]session.Reading(nil), ss[4].Readings...)
+		id, err := session.NewID(nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		cp.ID = id
+		tc.change(&cp)
+		ins, err := history.Build(summarize(t, append(append([]*session.Session(nil), ss...), &cp)), history.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(ins) != 1 || len(ins[0].Entries) != tc.entries || ins[0].Duplicates != tc.duplicates {
+			t.Errorf("%s: %d instruments, %d entries, %d duplicates; want 1, %d, %d", tc.name, len(ins), len(ins[0].Entries), ins[0].Duplicates, tc.entries, tc.duplicates)
+		}
+	}
+}
+
 // TestLatest: the newest session with a line is compared with the last
 // accepted one before it, whether or not the newest is accepted itself.
 // The probe's month 8 against month 7 straddles the generated step (the

@@ -47,7 +47,7 @@ func (c *Shell) loadDemo(ctx app.Context, e app.Event) {
 		list, _ := st.List()
 		ctx.Dispatch(func(ctx app.Context) {
 			c.dmBusy = false
-			c.sessions = list
+			c.listChanged(list)
 			if err != nil {
 				c.notice = "The demo could not be loaded: " + err.Error()
 				return

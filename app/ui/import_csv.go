@@ -153,7 +153,7 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 	ctx.Dispatch(func(ctx app.Context) {
 		c.importing, c.progress = "", 1
 		c.importSeq++
-		c.sessions = list
+		c.listChanged(list)
 		t := time.Now()
 		c.openImported(ctx, s)
 		// How long each step took, for the record of speed (data-timing).

@@ -50,7 +50,7 @@ func (c *Shell) importSessionFile(ctx app.Context, name string, data []byte) {
 	ctx.Dispatch(func(ctx app.Context) {
 		c.importing = ""
 		c.importSeq++
-		c.sessions = list
+		c.listChanged(list)
 		for _, w := range f.Warnings {
 			c.importReport += w + " "
 		}
@@ -139,7 +139,7 @@ func (c *Shell) resolveConflict(_ app.Context, how string) {
 		err := saveNow(st, s)
 		list, _ := st.List()
 		ctx.Dispatch(func(ctx app.Context) {
-			c.sessions = list
+			c.listChanged(list)
 			if err != nil {
 				c.importFailed(k.file, err)
 				c.conflict = nil

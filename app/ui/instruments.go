@@ -11,6 +11,7 @@ import (
 	"math"
 	hv "pairline/app/history/view"
 	"strconv"
+	"strings"
 	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
@@ -175,17 +176,13 @@ func intervalText(days int) string {
 }
 
 func dupText(dup, sup int) string {
-	var t string
-	if dup > 0 {
-		t = plural(dup, "copy", "copies") + " of sessions already counted (imported again) counted once."
-	}
-	if sup > 0 {
+	var parts []string
+	for _, t := range []string{hv.CopiesText(dup), hv.RevisionsText(sup)} {
 		if t != "" {
-			t += " "
+			parts = append(parts, t+".")
 		}
-		t += plural(sup, "earlier revision", "earlier revisions") + " of changed records kept apart, not counted."
 	}
-	return t
+	return strings.Join(parts, " ")
 }
 
 func (p *instrumentsPanel) renderRows(it *hv.Item) app.UI {

@@ -93,6 +93,18 @@ func (c *Shell) refreshInstruments() {
 	})
 }
 
+// listChanged takes the stored sessions as the device lists them now (after
+// an import, a delete, a restore, another tab's change): an open instrument
+// view or session list is made again from them, so that a calibration
+// imported while the view is open shows in it (only the sessions that
+// changed are read again).
+func (c *Shell) listChanged(list []store.Summary) {
+	c.sessions = list
+	if c.instOpen || c.listOpen {
+		c.refreshInstruments()
+	}
+}
+
 // renderInstruments is the instrument view (shown from the bar's
 // Instruments button).
 func (c *Shell) renderInstruments() app.UI {

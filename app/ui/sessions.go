@@ -126,7 +126,7 @@ func (c *Shell) rename(ctx app.Context, id, title string) {
 		}
 		list, _ := st.List()
 		c.ui.Dispatch(func(ctx app.Context) {
-			c.sessions = list
+			c.listChanged(list)
 			if err != nil {
 				c.notice = err.Error()
 			}
@@ -142,7 +142,7 @@ func (c *Shell) delete(ctx app.Context, id string) {
 		err := st.Delete(id, time.Now())
 		list, _ := st.List()
 		c.ui.Dispatch(func(ctx app.Context) {
-			c.sessions = list
+			c.listChanged(list)
 			if err != nil {
 				c.notice = err.Error()
 				return

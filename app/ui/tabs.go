@@ -89,7 +89,7 @@ func (c *Shell) otherTabSaved(_ app.Context, id string, mod, base int64) {
 	if c.sess == nil || c.sess.ID != id || mod == c.seen {
 		ctx.Async(func() {
 			list, _ := st.List()
-			ctx.Dispatch(func(ctx app.Context) { c.sessions = list })
+			ctx.Dispatch(func(ctx app.Context) { c.listChanged(list) })
 		})
 		return
 	}
@@ -109,7 +109,7 @@ func (c *Shell) reloadFromStore(_ app.Context, id, note string) {
 		s, err := load(st, id)
 		list, _ := st.List()
 		ctx.Dispatch(func(ctx app.Context) {
-			c.sessions = list
+			c.listChanged(list)
 			if err != nil {
 				c.notice = err.Error()
 				return

@@ -472,7 +472,7 @@ func wordCompare(in history.Instrument, it Item) *Compare {
 		where string
 		x     fitcore.XDifference
 	}{{"middle", c.Middle}, {"top", c.Top}} {
-		dd := Diff{Where: d.where, X: d.x.X, Diff: d.x.Diff, Percent: math.NaN()}
+		dd := Diff{Where: d.where, X: d.x.X, Diff: d.x.Diff, Percent: PercentOfValue(d.x)}
 		at := " at " + numfmt.Short(d.x.X, 4) + unitSuffix(unit)
 		abs := numfmt.Sig(math.Abs(d.x.Diff), 2) + unitSuffix(unit)
 		word := "higher"
@@ -480,7 +480,6 @@ func wordCompare(in history.Instrument, it Item) *Compare {
 			word = "lower"
 		}
 		if d.x.X != 0 {
-			dd.Percent = 100 * d.x.Diff / d.x.X
 			dd.Text = "Reads " + numfmt.Sig(math.Abs(dd.Percent), 2) + " % " + word + at + " than" + on + " (" + abs + ")."
 		} else {
 			dd.Text = "Reads " + abs + " " + word + at + " than" + on + "."
@@ -594,4 +593,35 @@ func plural(n int, one, many string) string {
 		return "1 " + one
 	}
 	return strconv.Itoa(n) + " " + many
+}
+
+// PercentOfValue is a converted value's difference in percent of the value
+// at which it is taken, 100·Diff/X (NaN at X = 0): how the app, the
+// history page and the command word a change, so that all three give the
+// same percent. (fitcore's XDifference.Percent is of the span of x.)
+func PercentOfValue(d fitcore.XDifference) float64 {
+	if d.X == 0 {
+		return math.NaN()
+	}
+	return 100 * d.Diff / d.X
+}
+
+// CopiesText says how many extra copies of calibrations are not counted
+// again (history.Instrument.Duplicates: a file imported twice, a session
+// kept with "Keep both"), "" for none; the app, the history page and the
+// command's text say it in these words.
+func CopiesText(dup int) string {
+	if dup <= 0 {
+		return ""
+	}
+	return plural(dup, "extra copy", "extra copies") + " of a calibration (imported again, or kept with “Keep both”) not counted again"
+}
+
+// RevisionsText says how many earlier revisions of changed records are
+// kept apart, "" for none.
+func RevisionsText(sup int) string {
+	if sup <= 0 {
+		return ""
+	}
+	return plural(sup, "earlier revision", "earlier revisions") + " of changed records kept apart, not counted"
 }

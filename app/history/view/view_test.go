@@ -217,3 +217,23 @@ func BenchmarkInstView(b *testing.B) {
 		}
 	}
 }
+
+// TestCopiesText: the words for copies and revisions not counted (the app,
+// the page and the command use them), and nothing for none.
+func TestCopiesText(t *testing.T) {
+	for _, tc := range []struct {
+		n          int
+		copies, rv string
+	}{
+		{0, "", ""},
+		{1, "1 extra copy of a calibration (imported again, or kept with “Keep both”) not counted again", "1 earlier revision of changed records kept apart, not counted"},
+		{3, "3 extra copies of a calibration (imported again, or kept with “Keep both”) not counted again", "3 earlier revisions of changed records kept apart, not counted"},
+	} {
+		if got := CopiesText(tc.n); got != tc.copies {
+			t.Errorf("CopiesText(%d) = %q, want %q", tc.n, got, tc.copies)
+		}
+		if got := RevisionsText(tc.n); got != tc.rv {
+			t.Errorf("RevisionsText(%d) = %q, want %q", tc.n, got, tc.rv)
+		}
+	}
+}
