@@ -321,11 +321,11 @@ func (r *criteriaCard) templates() app.UI {
 			)
 		})),
 		app.Div().Class("an-tpl-save").Body(
-			app.Input().Type("text").Class("an-input").Value(r.TplName).
+			app.Input().Type("text").Class("an-input").Value(typedValue("template-name", r.TplName)).
 				Attr("aria-label", "Name for these criteria").Attr("placeholder", "Name, e.g. Conductivity, weekly check").
 				DataSet("testid", "template-name").
 				OnInput(func(ctx app.Context, e app.Event) {
-					r.act(CardAction{Kind: caTplName, Text: ctx.JSSrc().Get("value").String()})
+					r.act(CardAction{Kind: caTplName, Text: takeTyped(ctx.JSSrc())})
 				}),
 			app.Button().Class("pl-btn").Text("Save criteria").DataSet("testid", "template-save").
 				Disabled(anCriteriaEmpty(r.Criteria)).

@@ -3,7 +3,7 @@ package ui
 // The controller: the open session, its analysis, its saving and its undo
 // history, with the actions the cards send. It is plain Go (no go-app): the
 // Shell gives it the screen's own queries and says when another tab holds
-// the session, and schedules the later turns of an edit (Shell.edited); the
+// the session, and schedules the later turns of an edit (Shell.afterChange); the
 // tests drive it natively (controller_test.go, undo_property_test.go).
 
 import (
@@ -17,9 +17,9 @@ import (
 )
 
 // controller owns the open session and what follows from it. Every change
-// goes through one of its actions (or, for the cards not yet converted, a
-// change of sess followed by changed), which re-analyses, records the step
-// for undo and hands the session to the saver.
+// goes through one of its actions (the record cards' in
+// controller_record.go), which re-analyses, records the step for undo and
+// hands the session to the saver.
 type controller struct {
 	st       store.Store
 	storeOK  bool // the device's store opened (not the stand-in in memory)
@@ -209,10 +209,10 @@ func (k *controller) requery(queries func(o *fitcore.Options, x []float64)) {
 
 // changed is called after every change to the open session: it records
 // the step for undo, analyses (from adviceLater readings without the
-// advice, which Shell.edited adds a turn later) and marks the session as
+// advice, which Shell.afterChange adds a turn later) and marks the session as
 // being saved; below saveAtOnce readings it hands the session to the saver
 // at once (cheap, and a reload right after keeps it), otherwise
-// Shell.edited does in a later turn.
+// Shell.afterChange does in a later turn.
 func (k *controller) changed() {
 	k.editSeq++
 	k.undoTrack()

@@ -264,8 +264,8 @@ func (r *readingRow) Render() app.UI {
 	}
 	return app.Tr().Class(cls).Body(
 		app.Td().Class("pl-rownum").Text(strconv.Itoa(r.Row+1)),
-		r.cell(session.ColumnX, "x-input-"+n, r.X, r.XProblem),
-		r.cell(session.ColumnY, "y-input-"+n, r.Y, r.YProblem,
+		r.cell(session.ColumnX, "x-input-"+n, r.shownText(session.ColumnX, r.X), r.X, r.XProblem),
+		r.cell(session.ColumnY, "y-input-"+n, r.shownText(session.ColumnY, r.Y), r.Y, r.YProblem,
 			app.If(r.Excluded, func() app.UI {
 				return app.Span().Class("pl-row-reason").DataSet("testid", "row-reason-"+n).
 					Text("Left out: " + wording.Visible(r.Reason))
@@ -289,7 +289,32 @@ func (r *readingRow) noteCell() app.UI {
 	)
 }
 
-func (r *readingRow) cell(col session.Column, testid, text, problem string, more ...app.UI) app.UI {
+// cellClass marks a row's x and y inputs, so that the row finds them.
+func cellClass(col session.Column) string {
+	if col == session.ColumnY {
+		return "pl-cell-y"
+	}
+	return "pl-cell-x"
+}
+
+// shownText is the text a redraw gives the row's cell of col: the
+// session's text, unless keys typed into the cell are still on their way to
+// the app (keepTyped, typing.go). Natively (prerendering) and before the
+// row is on the page it is the session's text.
+func (r *readingRow) shownText(col session.Column, text string) string {
+	if !app.IsClient || !r.Mounted() {
+		return text
+	}
+	tr := r.JSValue()
+	if !tr.Truthy() {
+		return text
+	}
+	return keepTyped(tr.Call("querySelector", "input."+cellClass(col)), text)
+}
+
+// cell is one x or y input: shown is the text drawn into it (shownText),
+// text the session's, which data-value carries.
+func (r *readingRow) cell(col session.Column, testid, shown, text, problem string, more ...app.UI) app.UI {
 	label := "x"
 	if col == session.ColumnY {
 		label = "y"
@@ -297,12 +322,12 @@ func (r *readingRow) cell(col session.Column, testid, text, problem string, more
 	// The handlers read the row from r when they run: go-app keeps an
 	// element's first handler when a new one comes from the same function
 	// literal, and updates r's fields in place.
-	in := app.Input().Type("text").Class("pl-cell").Value(text).
+	in := app.Input().Type("text").Class("pl-cell", cellClass(col)).Value(shown).
 		Attr("inputmode", "decimal").Attr("autocomplete", "off").Attr("enterkeyhint", "next").
 		Attr("aria-label", label+" of reading "+strconv.Itoa(r.Row+1)).
 		DataSet("testid", testid).DataSet("row", r.Row).DataSet("value", text).Disabled(r.Locked).
 		OnInput(func(ctx app.Context, e app.Event) {
-			r.act(RowAction{Kind: rwType, Col: col, Text: ctx.JSSrc().Get("value").String()})
+			r.act(RowAction{Kind: rwType, Col: col, Text: takeTyped(ctx.JSSrc())})
 		}).
 		OnKeyDown(func(ctx app.Context, e app.Event) {
 			if e.Get("key").String() != "Enter" {

@@ -106,6 +106,8 @@ func identityRows(rows []int) bool {
 // renumberReport rewrites the sentences of rep that name readings (the
 // assumptions' messages and advice, the tests' messages, the notes, and
 // the advice when rep has its own) with the grid's row numbers (rowWords).
+// The tests and the assumptions are fitcore's lists (fitcore.CheckList,
+// fitcore.AssumptionList), so a new check needs nothing here.
 // Call it once per fresh report: a second pass would map the numbers
 // again. The numbers of rep are not touched. The unknowns' messages
 // ("Reading 2 of this unknown") count an unknown's own repeats and are
@@ -115,9 +117,8 @@ func renumberReport(rep *fitcore.Report, rows []int) {
 		return
 	}
 	renumberAssumptions(&rep.Assumptions, rows)
-	k := &rep.Checks
-	for _, c := range []*fitcore.Check{&k.Curvature, k.LackOfFit, &k.BreuschPagan, &k.White, &k.DurbinWatson, &k.Runs, &k.ShapiroWilk, k.XExactness} {
-		if c != nil {
+	for _, ci := range fitcore.CheckList() {
+		if c := ci.Get(rep); c != nil {
 			c.Message = rowWords(c.Message, rows)
 		}
 	}
@@ -140,10 +141,15 @@ func renumberAdvice(ad *fitcore.Advice, rows []int) {
 	}
 }
 
+// renumberAssumptions rewrites the sentences of every assumption of a, as
+// fitcore.AssumptionList lists them (its Get takes them from a report: a
+// is lent to one for that, and taken back).
 func renumberAssumptions(a *fitcore.Assumptions, rows []int) {
-	for _, x := range []*fitcore.Assumption{&a.Linearity, &a.Spread, &a.Independence, &a.Normality, &a.Influence, a.XExactness} {
-		if x != nil {
+	r := fitcore.Report{Assumptions: *a}
+	for _, as := range fitcore.AssumptionList() {
+		if x := as.Get(&r); x != nil {
 			x.Message, x.Advice = rowWords(x.Message, rows), rowWords(x.Advice, rows)
 		}
 	}
+	*a = r.Assumptions
 }

@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"reflect"
 	"strings"
 	"testing"
 
@@ -94,4 +95,65 @@ func FuzzRowWords(f *testing.F) {
 			t.Fatalf("rowWords(%q) = %q changed more than digits", s, got)
 		}
 	})
+}
+
+// TestRenumberEverySentence: every test's message and every assumption's
+// message and advice (of the report and of the advice's before and after)
+// is renumbered. The sentences are set by walking the report's structs, not
+// through fitcore's lists, so a check that fitcore.CheckList or
+// fitcore.AssumptionList left out would fail here.
+func TestRenumberEverySentence(t *testing.T) {
+	const in, want = "Reading 2 stands out.", "Reading 3 stands out."
+	rows := []int{0, 2, 3} // grid row 2 (from 1) is blank
+	// each calls fn on every value of type T in v (a struct), allocating
+	// the nil pointers to T.
+	each := func(v reflect.Value, typ reflect.Type, fn func(reflect.Value)) {
+		for i := 0; i < v.NumField(); i++ {
+			f := v.Field(i)
+			switch {
+			case f.Type() == typ:
+				fn(f)
+			case f.Kind() == reflect.Pointer && f.Type().Elem() == typ:
+				if f.IsNil() {
+					f.Set(reflect.New(typ))
+				}
+				fn(f.Elem())
+			}
+		}
+	}
+	checkT, assumeT := reflect.TypeOf(fitcore.Check{}), reflect.TypeOf(fitcore.Assumption{})
+	set := func(f reflect.Value) {
+		for _, name := range []string{"Message", "Advice"} {
+			if m := f.FieldByName(name); m.IsValid() {
+				m.SetString(in)
+			}
+		}
+	}
+	rep := &fitcore.Report{Advice: &fitcore.Advice{After: &fitcore.CheckSummary{}}}
+	sums := []*fitcore.Assumptions{&rep.Assumptions, &rep.Advice.Before.Assumptions, &rep.Advice.After.Assumptions}
+	each(reflect.ValueOf(&rep.Checks).Elem(), checkT, set)
+	for _, a := range sums {
+		each(reflect.ValueOf(a).Elem(), assumeT, set)
+	}
+	renumberReport(rep, rows)
+	n := 0
+	check := func(where string) func(reflect.Value) {
+		return func(f reflect.Value) {
+			for _, name := range []string{"Message", "Advice"} {
+				if m := f.FieldByName(name); m.IsValid() {
+					n++
+					if m.String() != want {
+						t.Errorf("%s: %s is %q, want %q", where, name, m.String(), want)
+					}
+				}
+			}
+		}
+	}
+	each(reflect.ValueOf(&rep.Checks).Elem(), checkT, check("checks"))
+	for i, a := range sums {
+		each(reflect.ValueOf(a).Elem(), assumeT, check([]string{"assumptions", "advice before", "advice after"}[i]))
+	}
+	if want := len(fitcore.CheckList()) + 3*2*len(fitcore.AssumptionList()); n != want {
+		t.Errorf("%d sentences looked at, want %d", n, want)
+	}
 }

@@ -359,47 +359,91 @@ func (ps plSet) plRing(testID string, row int) string {
 	return ""
 }
 
-// renderPlots draws the plots card: four plots, a legend, and the panel of
-// the tapped reading.
+// renderPlots gathers the plots card's data (plotscard.go): the drawing
+// of the open session (plots), the level of its bands, the reading
+// selected and what its panel shows (pointView).
 func (c *Shell) renderPlots() app.UI {
 	if c.sess == nil || c.view.report == nil {
-		return app.Section().Class("pl-card pl-plots").Attr("aria-label", "Plots").Body(
-			app.H2().Text("Plots"),
-			app.P().Class("pl-plot-empty").Text("The plots appear once there are at least 3 usable pairs of readings."),
-		)
+		return &plotsCard{Empty: true, Sel: -1, OnAction: c.plotAction}
 	}
 	if c.plSel > len(c.sess.Readings) {
 		c.plSel = 0
 	}
-	ps := c.plots()
-	return app.Section().Class("pl-card pl-plots").Attr("aria-label", "Plots").Body(
-		app.H2().Text("Plots"),
-		app.Div().Class("pl-plot-hintrow").Body(
-			app.P().Class("pl-plot-hint").Text("Tap a point to see that reading and to leave it out of the line or put it back."),
-			// The same panel without a tap (keyboard, screen reader): it
-			// opens on the first flagged reading, or the first reading.
-			app.Button().Class("pl-btn pl-btn-quiet").Text("Go through the readings").DataSet("testid", "plot-point-open").
-				Hidden(c.plSel > 0).OnClick(func(ctx app.Context, e app.Event) {
-				c.plAt = placePanel(app.Null(), 0)
-				c.selectPoint(c.firstFlaggedRow())
-			}),
-		),
-		// The notes and the grid keep their places whether shown or not, so
-		// that go-app never re-mounts the plots because a sibling came or went.
-		app.P().Class("pl-stale").DataSet("testid", "plot-stale").Hidden(!c.plStale).
-			Text(staleText(c.plStale)),
-		app.P().Class("pl-plot-thinned").DataSet("testid", "plot-thinned").DataSet("value", strconv.Itoa(ps.Drawn)).
-			Hidden(ps.Drawn >= ps.Total).Text(thinText(ps)),
-		app.Div().Class("pl-plots-grid").OnClick(c.onPlotTap).Body(
-			plFigure("Readings and the fitted line", ps.Fit, ps.plRing("plot-fit", c.plSel-1), plLegend(c.view.report.Level)),
-			plFigure("Residuals against fitted values", ps.Residuals, ps.plRing("plot-residuals", c.plSel-1), nil),
-			plFigure("Residuals in the order entered", ps.Order, ps.plRing("plot-order", c.plSel-1), nil),
-			plFigure("Normal Q–Q plot of the residuals", ps.QQ, ps.plRing("plot-qq", c.plSel-1), nil),
-			// Last in the markup and floating over the page (position
-			// fixed, web/plots.css), so that showing it moves no plot.
-			app.If(c.plSel > 0, c.renderPointPanel),
-		),
-	)
+	card := &plotsCard{Plots: c.plots(), Level: c.view.report.Level, First: firstFlagged(c.view),
+		Rows: len(c.sess.Readings), Sel: c.plSel - 1, OnAction: c.plotAction}
+	card.Stale = c.plStale // plots() decides it
+	if c.plSel > 0 {
+		card.Panel = c.pointView(c.plSel - 1)
+	}
+	return card
+}
+
+// plotAction applies what the plots card asked for, on the Shell's own
+// context (the card's element may be gone by the time it runs). The reason
+// typed is taken at once, in the handler of its key: a render between two
+// keys from a dispatch still to come would write an older text back into
+// the box, and the next key would then be typed after it (a key lost).
+func (c *Shell) plotAction(a PlotAction) {
+	if c.ui.Src() == nil || a.Kind == paReason {
+		c.applyPlot(app.Context{}, a)
+		return
+	}
+	c.ui.Dispatch(func(ctx app.Context) { c.applyPlot(ctx, a) })
+}
+
+// applyPlot makes the change of a: the selection, the panel's place and
+// the reason typed are the screen's; leaving a reading out (only with a
+// reason: the record has to show it) and putting it back go through the
+// controller, so that they are saved and undone as any other change.
+func (c *Shell) applyPlot(ctx app.Context, a PlotAction) {
+	if c.sess == nil {
+		return
+	}
+	inRange := a.Row >= 0 && a.Row < len(c.sess.Readings)
+	sel := func(row int) {
+		if c.plSel != row+1 {
+			c.plReason, c.plMsg = "", ""
+		}
+		c.plSel = row + 1
+	}
+	switch {
+	case a.Kind == paClose:
+		c.plSel = 0
+	case a.Kind == paReason:
+		if a.Row == c.plSel-1 {
+			c.plReason = a.Text
+		}
+	case !inRange:
+	case a.Kind == paTap:
+		c.plAt = a.At
+		sel(a.Row)
+	case a.Kind == paStep:
+		sel(a.Row)
+	case a.Kind == paExclude, a.Kind == paInclude:
+		reason := strings.TrimSpace(c.plReason)
+		if a.Kind == paExclude && reason == "" {
+			c.plMsg = "Say why this reading is left out (for example “decimal point slipped”): the record has to show it."
+			return
+		}
+		if c.refuseLocked() {
+			return
+		}
+		var err error
+		if a.Kind == paExclude {
+			err = c.exclude(a.Row, reason)
+		} else {
+			err = c.include(a.Row)
+		}
+		if err != nil {
+			c.plMsg = err.Error()
+			return
+		}
+		if a.Kind == paExclude {
+			c.plReason = ""
+		}
+		c.plMsg = ""
+		c.afterChange(c.shellCtx(ctx))
+	}
 }
 
 func staleText(stale bool) string {
@@ -455,70 +499,23 @@ func plLegend(level float64) app.UI {
 	)
 }
 
-// onPlotTap finds the reading under a tap: a flagged or left-out marker
-// names its reading (data-row); otherwise it is the point of that plot
-// nearest to the tap within plotTapPx (the plain dots are one path).
-func (c *Shell) onPlotTap(ctx app.Context, e app.Event) {
-	t := e.Get("target")
-	if !t.Truthy() || !t.Get("closest").Truthy() || c.sess == nil {
-		return
-	}
-	if el := t.Call("closest", ".pl-plot-points [data-row]"); el.Truthy() {
-		if row, err := strconv.Atoi(el.Call("getAttribute", "data-row").String()); err == nil && row >= 0 && row < len(c.sess.Readings) {
-			c.plAt = placePanel(t.Call("closest", ".pl-plot-canvas"), e.Get("clientY").Float())
-			c.selectPoint(row)
-			return
-		}
-	}
-	svg := t.Call("closest", ".pl-plot-canvas")
-	if svg.Truthy() {
-		svg = svg.Call("querySelector", "svg.pl-plot-svg")
-	}
-	if !svg.Truthy() {
-		return
-	}
-	ctm := svg.Call("getScreenCTM")
-	if !ctm.Truthy() {
-		return
-	}
-	unit := math.Hypot(ctm.Get("a").Float(), ctm.Get("b").Float()) // CSS px per viewBox unit
-	if !(unit > 0) {
-		return
-	}
-	p := app.Window().Get("DOMPoint").New(e.Get("clientX").Float(), e.Get("clientY").Float()).
-		Call("matrixTransform", ctm.Call("inverse"))
-	m, ok := plot.Nearest(c.plCache.Marks[svg.Call("getAttribute", "data-testid").String()],
-		p.Get("x").Float(), p.Get("y").Float(), plotTapPx/unit)
-	if !ok || m.Row < 0 || m.Row >= len(c.sess.Readings) {
-		return
-	}
-	c.plAt = placePanel(t.Call("closest", ".pl-plot-canvas"), e.Get("clientY").Float())
-	c.selectPoint(m.Row)
-}
-
-// firstFlaggedRow is the first reading fitcore flags, or reading 0.
-func (c *Shell) firstFlaggedRow() int {
-	if rep := c.view.report; rep != nil {
+// firstFlagged is the session row of the first reading fitcore flags in
+// the analysis v, or row 0.
+func firstFlagged(v analysis) int {
+	if rep := v.report; rep != nil {
 		for _, p := range rep.Influence {
-			if p.Flagged && p.Index < len(c.view.rows) {
-				return c.view.rows[p.Index]
+			if p.Flagged && p.Index < len(v.rows) {
+				return v.rows[p.Index]
 			}
 		}
 	}
 	return 0
 }
 
-func (c *Shell) selectPoint(row int) {
-	if c.plSel != row+1 {
-		c.plReason, c.plMsg = "", ""
-	}
-	c.plSel = row + 1
-}
-
-// renderPointPanel shows the tapped reading: its cells and note, what the
-// line says of it, and the buttons to leave it out or put it back.
-func (c *Shell) renderPointPanel() app.UI {
-	row := c.plSel - 1
+// pointView is what the reading panel shows of session row row: its
+// cells and note, fitcore's figures for it (formatted, with a line of
+// plain meaning), its flag and reasons, and the reason typed so far.
+func (c *Shell) pointView(row int) pointPanel {
 	r := c.sess.Readings[row]
 	rep := c.view.report
 	idx := -1
@@ -528,122 +525,49 @@ func (c *Shell) renderPointPanel() app.UI {
 			break
 		}
 	}
-	status := "Used in the line."
+	p := pointPanel{Row: row, Rows: len(c.sess.Readings),
+		XHead: colHead(c.sess.XName, c.sess.XUnit, "x"), YHead: colHead(c.sess.YName, c.sess.YUnit, "y"),
+		X: r.X, Y: r.Y, Note: r.Note, Excluded: r.Excluded, Status: "Used in the line.",
+		Reason: c.plReason, Msg: c.plMsg, At: c.plAt}
 	if r.Excluded {
-		status = "Left out of the line: " + r.ExcludeReason
+		p.Status = "Left out of the line: " + r.ExcludeReason
 	} else if idx < 0 {
-		status = "Not used: a cell is empty or not a number."
+		p.Status = "Not used: a cell is empty or not a number."
 	}
 	// The plain figures show at once; the technical ones (studentized
 	// residual, leverage, Cook's distance) and fitcore's reasons stay
 	// behind "Show the numbers", each with a line of plain meaning.
-	var facts, more []app.UI
-	fact := func(to *[]app.UI, testid, label string, v float64, shown, meaning string) {
-		*to = append(*to, app.Div().Class("pl-fact").Body(
-			app.Dt().Text(label),
-			app.Dd().Class("pl-num-sm").DataSet("testid", testid).DataSet("value", numfmt.Full(v)).Text(shown),
-			app.If(meaning != "", func() app.UI { return app.Dd().Class("pl-fact-meaning").Text(meaning) }),
-		))
-	}
-	var reasons []string
-	flagged, slip := false, ""
 	if idx >= 0 && rep != nil && idx < len(rep.Residuals) {
 		scale := wording.Scale(rep.Transform)
 		suffix := ""
 		if scale != "" {
 			suffix = " (" + scale + " scale)"
 		}
-		fact(&facts, "plot-point-fitted", "Fitted"+suffix, rep.Fitted[idx], numfmt.Sig(rep.Fitted[idx], numfmt.Precision(c.view.digits)), "")
-		fact(&facts, "plot-point-residual", "Residual"+suffix, rep.Residuals[idx], numfmt.Sig(rep.Residuals[idx], 3), "")
-		for _, p := range rep.Influence {
-			if p.Index == idx {
-				fact(&more, "plot-point-studentized", "Studentized residual", p.Studentized, numfmt.Sig(p.Studentized, 3),
-					"The residual in units of the scatter of the other readings; beyond about ±3 is rare.")
-				fact(&more, "plot-point-leverage", "Leverage", p.Leverage, numfmt.Sig(p.Leverage, 3),
-					"How strongly this reading's x can pull the line, from 0 to 1; the end standards have the most by design.")
-				fact(&more, "plot-point-cooks", "Cook's distance", p.CooksD, numfmt.Sig(p.CooksD, 3),
-					"How far the line moves when this reading is left out.")
-				if p.Flagged {
-					reasons, flagged = p.Reasons, true
+		p.Facts = append(p.Facts,
+			pointFact{"plot-point-fitted", "Fitted" + suffix, rep.Fitted[idx], numfmt.Sig(rep.Fitted[idx], numfmt.Precision(c.view.digits)), ""},
+			pointFact{"plot-point-residual", "Residual" + suffix, rep.Residuals[idx], numfmt.Sig(rep.Residuals[idx], 3), ""})
+		for _, q := range rep.Influence {
+			if q.Index == idx {
+				p.More = append(p.More,
+					pointFact{"plot-point-studentized", "Studentized residual", q.Studentized, numfmt.Sig(q.Studentized, 3),
+						"The residual in units of the scatter of the other readings; beyond about ±3 is rare."},
+					pointFact{"plot-point-leverage", "Leverage", q.Leverage, numfmt.Sig(q.Leverage, 3),
+						"How strongly this reading's x can pull the line, from 0 to 1; the end standards have the most by design."},
+					pointFact{"plot-point-cooks", "Cook's distance", q.CooksD, numfmt.Sig(q.CooksD, 3),
+						"How far the line moves when this reading is left out."})
+				if q.Flagged {
+					p.Reasons, p.Flagged = q.Reasons, true
 				}
 			}
 		}
 		if sl := rep.Slip; sl != nil && sl.Index == idx {
-			slip = "It looks like a slipped decimal point: " + r.Y + " where the line expects about " + numfmt.Short(sl.Expected, 4) + "."
+			p.Slip = "It looks like a slipped decimal point: " + r.Y + " where the line expects about " + numfmt.Short(sl.Expected, 4) + "."
 		}
 	}
-	n := len(c.sess.Readings)
-	at := c.plAt
-	if at.h <= 0 {
-		at = placePanel(app.Null(), 0)
+	if p.At.h <= 0 {
+		p.At = placePanel(app.Null(), 0)
 	}
-	place, top := "bottom", "auto"
-	if at.top {
-		place, top = "top", strconv.FormatFloat(at.y, 'f', 0, 64)+"px"
-	}
-	return app.Aside().Class("pl-point-panel pl-at-"+place).DataSet("testid", "plot-point-panel").DataSet("row", strconv.Itoa(row)).
-		DataSet("place", place).
-		Style("--pl-panel-h", strconv.FormatFloat(at.h, 'f', 0, 64)+"px").Style("--pl-panel-top", top).
-		Attr("aria-label", "Reading "+strconv.Itoa(row+1)).Attr("aria-live", "polite").Body(
-		app.Div().Class("pl-point-head").Body(
-			app.H3().Text("Reading "+strconv.Itoa(row+1)),
-			app.Button().Class("pl-btn pl-btn-quiet").Text("‹").Attr("aria-label", "Previous reading").DataSet("testid", "plot-point-prev").
-				Disabled(row == 0).OnClick(func(ctx app.Context, e app.Event) { e.StopImmediatePropagation(); c.selectPoint(row - 1) }),
-			app.Button().Class("pl-btn pl-btn-quiet").Text("›").Attr("aria-label", "Next reading").DataSet("testid", "plot-point-next").
-				Disabled(row >= n-1).OnClick(func(ctx app.Context, e app.Event) { e.StopImmediatePropagation(); c.selectPoint(row + 1) }),
-			app.Button().Class("pl-btn pl-btn-quiet").Text("Close").DataSet("testid", "plot-point-close").
-				OnClick(func(ctx app.Context, e app.Event) { e.StopImmediatePropagation(); c.plSel = 0 }),
-		),
-		app.Dl().Class("pl-point-facts").Body(
-			app.Div().Class("pl-fact").Body(app.Dt().Text(colHead(c.sess.XName, c.sess.XUnit, "x")), app.Dd().Class("pl-num-sm").DataSet("testid", "plot-point-x").Text(r.X)),
-			app.Div().Class("pl-fact").Body(app.Dt().Text(colHead(c.sess.YName, c.sess.YUnit, "y")), app.Dd().Class("pl-num-sm").DataSet("testid", "plot-point-y").Text(r.Y)),
-			app.Range(facts).Slice(func(i int) app.UI { return facts[i] }),
-		),
-		app.If(r.Note != "", func() app.UI { return app.P().Class("pl-point-note").Text("Note: " + r.Note) }),
-		app.P().Class("pl-point-status").DataSet("testid", "plot-point-status").Text(status),
-		app.If(flagged, func() app.UI {
-			return app.P().Class("pl-point-flag").DataSet("testid", "plot-point-flagged").
-				Text("◆ Flagged: this reading stands out from the line. " + slip)
-		}),
-		app.If(len(more) > 0, func() app.UI {
-			return app.Details().Class("pl-point-more").DataSet("testid", "plot-point-more").Body(
-				app.Summary().Text("Show the numbers"),
-				app.Dl().Class("pl-point-facts").Body(app.Range(more).Slice(func(i int) app.UI { return more[i] })),
-				app.If(len(reasons) > 0, func() app.UI {
-					return app.Ul().Class("pl-point-reasons").DataSet("testid", "plot-point-flags").Body(
-						app.Range(reasons).Slice(func(i int) app.UI { return app.Li().Text(reasons[i]) }),
-					)
-				}),
-			)
-		}),
-		app.If(r.Excluded, func() app.UI {
-			return app.Button().Class("pl-btn").Text("Put back into the line").DataSet("testid", "plot-point-include").
-				OnClick(func(ctx app.Context, e app.Event) { e.StopImmediatePropagation(); c.includePoint(ctx, row) })
-		}).Else(func() app.UI {
-			return app.Div().Class("pl-point-exclude").Body(
-				app.Label().Body(
-					app.Span().Text("Reason for leaving it out"),
-					app.Input().Type("text").Value(c.plReason).DataSet("testid", "plot-point-reason").
-						Attr("placeholder", "e.g. decimal point slipped when typing").
-						Attr("enterkeyhint", "done").
-						OnInput(func(ctx app.Context, e app.Event) { c.plReason = ctx.JSSrc().Get("value").String() }).
-						OnKeyDown(func(ctx app.Context, e app.Event) {
-							// Enter confirms, as the button does (a phone's keyboard covers the button).
-							if e.Get("key").String() == "Enter" {
-								e.PreventDefault()
-								c.plReason = ctx.JSSrc().Get("value").String()
-								c.excludePoint(ctx, row)
-							}
-						}),
-				),
-				app.Button().Class("pl-btn").Text("Leave out of the line").DataSet("testid", "plot-point-exclude").
-					OnClick(func(ctx app.Context, e app.Event) { e.StopImmediatePropagation(); c.excludePoint(ctx, row) }),
-			)
-		}),
-		app.If(c.plMsg != "", func() app.UI {
-			return app.P().Class("pl-point-msg").Attr("role", "alert").DataSet("testid", "plot-point-message").Text(c.plMsg)
-		}),
-	)
+	return p
 }
 
 // panelPlace is where the reading panel floats: at the top of the screen
@@ -702,37 +626,8 @@ func placePanel(canvas app.Value, tapY float64) panelPlace {
 	}
 }
 
-func (c *Shell) excludePoint(ctx app.Context, row int) {
-	reason := strings.TrimSpace(c.plReason)
-	if reason == "" {
-		c.plMsg = "Say why this reading is left out (for example “decimal point slipped”): the record has to show it."
-		return
-	}
-	if c.refuseLocked() {
-		return
-	}
-	if err := c.exclude(row, reason); err != nil {
-		c.plMsg = err.Error()
-		return
-	}
-	c.plReason, c.plMsg = "", ""
-	c.afterChange(c.shellCtx(ctx))
-}
-
-func (c *Shell) includePoint(ctx app.Context, row int) {
-	if c.refuseLocked() {
-		return
-	}
-	if err := c.include(row); err != nil {
-		c.plMsg = err.Error()
-		return
-	}
-	c.plMsg = ""
-	c.afterChange(c.shellCtx(ctx))
-}
-
 // shellCtx returns the Shell's own context when it has one: work that
-// edited schedules for later must not hang on the element that was tapped,
+// afterChange schedules for later must not hang on the element that was tapped,
 // which the new render may remove (go-app then drops the work).
 func (c *Shell) shellCtx(ctx app.Context) app.Context {
 	if c.ui.Src() != nil {

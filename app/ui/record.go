@@ -291,13 +291,13 @@ func (r *unknownsCard) Render() app.UI {
 		app.Div().Class("pl-rec-grid").Body(
 			app.Label().Class("pl-rec-field").Body(
 				app.Span().Text("Sample name"),
-				app.Input().Type("text").Value(r.name).DataSet("testid", "unknown-name").Attr("maxlength", strconv.Itoa(session.MaxShortText)).
-					Disabled(r.Locked).OnInput(func(ctx app.Context, e app.Event) { r.name = ctx.JSSrc().Get("value").String() }),
+				app.Input().Type("text").Value(typedValue("unknown-name", r.name)).DataSet("testid", "unknown-name").Attr("maxlength", strconv.Itoa(session.MaxShortText)).
+					Disabled(r.Locked).OnInput(func(ctx app.Context, e app.Event) { r.name = takeTyped(ctx.JSSrc()) }),
 			),
 			app.Label().Class("pl-rec-field").Body(
 				app.Span().Text("Readings (y)"),
-				app.Input().Type("text").Value(r.readings).DataSet("testid", "unknown-readings").Attr("inputmode", "decimal").
-					Disabled(r.Locked).OnInput(func(ctx app.Context, e app.Event) { r.readings = ctx.JSSrc().Get("value").String() }),
+				app.Input().Type("text").Value(typedValue("unknown-readings", r.readings)).DataSet("testid", "unknown-readings").Attr("inputmode", "decimal").
+					Disabled(r.Locked).OnInput(func(ctx app.Context, e app.Event) { r.readings = takeTyped(ctx.JSSrc()) }),
 			),
 		),
 		app.Button().Class("pl-btn").Text("Add sample").DataSet("testid", "unknown-add").Disabled(r.Locked).
@@ -446,8 +446,8 @@ func (r *signCard) Render() app.UI {
 					return app.Div().Class("pl-rec-grid").Body(
 						app.Label().Class("pl-rec-field").Body(
 							app.Span().Text("Reviewed by"),
-							app.Input().Type("text").Value(r.reviewed).DataSet("testid", "sign-reviewed").
-								OnInput(func(ctx app.Context, e app.Event) { r.reviewed = ctx.JSSrc().Get("value").String() }),
+							app.Input().Type("text").Value(typedValue("sign-reviewed", r.reviewed)).DataSet("testid", "sign-reviewed").
+								OnInput(func(ctx app.Context, e app.Event) { r.reviewed = takeTyped(ctx.JSSrc()) }),
 						),
 						app.Button().Class("pl-btn").Text("Sign the review").DataSet("testid", "sign-review").
 							OnClick(func(ctx app.Context, e app.Event) { act(RecordAction{Kind: raReview, Value: r.reviewed}) }),
@@ -461,8 +461,8 @@ func (r *signCard) Render() app.UI {
 				app.Div().Class("pl-rec-grid").Body(
 					app.Label().Class("pl-rec-field").Body(
 						app.Span().Text("Performed by"),
-						app.Input().Type("text").Value(r.performed).DataSet("testid", "sign-performed").
-							OnInput(func(ctx app.Context, e app.Event) { r.performed = ctx.JSSrc().Get("value").String() }),
+						app.Input().Type("text").Value(typedValue("sign-performed", r.performed)).DataSet("testid", "sign-performed").
+							OnInput(func(ctx app.Context, e app.Event) { r.performed = takeTyped(ctx.JSSrc()) }),
 					),
 				),
 				app.Button().Class("pl-btn").Text("Seal this record").DataSet("testid", "seal").

@@ -33,23 +33,24 @@ func (c *Shell) refuseLocked() bool {
 }
 
 // recordAction applies what a card asked for, on the Shell's own context
-// (the card's element may be gone by the time it runs).
+// (the card's element may be gone by the time it runs): the controller
+// makes the change (controller.record: saved and undone as any other), the
+// Shell schedules its later turns, keeps the offer of the last record
+// answered, and looks that record up again when the instrument changed.
 func (c *Shell) recordAction(a RecordAction) {
 	apply := func(ctx app.Context) {
 		if c.sess == nil {
 			return
 		}
-		if err := c.applyRecord(a, time.Now()); err != nil {
+		var last *session.Session
+		if a.Kind == raUseLast {
+			c.recNoOffer, last = c.sess.ID, c.recLast
+		}
+		if err := c.record(a, last, time.Now()); err != nil {
 			c.notice = sentence(err.Error())
 			return
 		}
-		if a.Kind == raSeal || a.Kind == raReview {
-			// Signing is no edit to undo: the stacks start again from
-			// the sealed state.
-			c.undoRestart()
-			c.unlocked = ""
-		}
-		c.edited(ctx)
+		c.afterChange(ctx)
 		c.lookUpLast()
 	}
 	if c.ui.Src() == nil {
@@ -57,118 +58,6 @@ func (c *Shell) recordAction(a RecordAction) {
 		return
 	}
 	c.ui.Dispatch(apply)
-}
-
-// applyRecord makes the change of a through the session's methods.
-func (c *Shell) applyRecord(a RecordAction, now time.Time) error {
-	s := c.sess
-	switch a.Kind {
-	case raSeal:
-		return s.SignPerformed(a.Value, now)
-	case raReview:
-		return s.SignReviewed(a.Value, now)
-	case raNewRevision:
-		c.unlocked = s.ID
-		return nil
-	}
-	if c.locked() {
-		return errLocked
-	}
-	switch a.Kind {
-	case raField:
-		return s.SetField(a.Field, a.Value, now)
-	case raCondition:
-		switch a.Field {
-		case session.ConditionTemperature, session.ConditionTemperature + "-unit":
-			i := conditionIndex(s, session.ConditionTemperature)
-			cd := session.Condition{Name: session.ConditionTemperature}
-			if i >= 0 {
-				cd = s.Conditions[i]
-			}
-			if a.Field == session.ConditionTemperature {
-				cd.Value = strings.TrimSpace(a.Value)
-			} else {
-				cd.Unit = strings.TrimSpace(a.Value)
-			}
-			if i < 0 {
-				_, err := s.AddCondition(cd, now)
-				return err
-			}
-			return s.SetCondition(i, cd, now)
-		}
-		if a.Index < 0 {
-			_, err := s.AddCondition(a.Condition, now)
-			return err
-		}
-		return s.SetCondition(a.Index, a.Condition, now)
-	case raCondRemove:
-		return s.RemoveCondition(a.Index, now)
-	case raStandard:
-		if a.Index < 0 {
-			_, err := s.AddStandard(a.Standard, now)
-			return err
-		}
-		return s.SetStandard(a.Index, a.Standard, now)
-	case raStdField:
-		if a.Index < 0 || a.Index >= len(s.Standards) {
-			return session.ErrNoSuchRow
-		}
-		st := s.Standards[a.Index]
-		switch a.Field {
-		case "name":
-			st.Name = a.Value
-		case "certificate":
-			st.Certificate = a.Value
-		case "value":
-			st.Value = strings.TrimSpace(a.Value)
-		case "uncertainty":
-			st.Uncertainty = strings.TrimSpace(a.Value)
-		case "expiry":
-			st.Expiry = time.Time{}
-			if v := strings.TrimSpace(a.Value); v != "" {
-				d, err := time.Parse("2006-01-02", v)
-				if err != nil {
-					return uiError("the expiry date " + strconv.Quote(clip(v, 40)) + " is not a date (year-month-day)")
-				}
-				st.Expiry = d
-			}
-		default:
-			return session.ErrNoSuchField
-		}
-		return s.SetStandard(a.Index, st, now)
-	case raCondField:
-		if a.Index < 0 || a.Index >= len(s.Conditions) {
-			return session.ErrNoSuchRow
-		}
-		cd := s.Conditions[a.Index]
-		switch a.Field {
-		case "name":
-			cd.Name = a.Value
-		case "value":
-			cd.Value = strings.TrimSpace(a.Value)
-		case "unit":
-			cd.Unit = strings.TrimSpace(a.Value)
-		default:
-			return session.ErrNoSuchField
-		}
-		return s.SetCondition(a.Index, cd, now)
-	case raStdRemove:
-		return s.RemoveStandard(a.Index, now)
-	case raUnknown:
-		if a.Index < 0 {
-			if len(a.Unknown.Readings) == 0 {
-				return errNoRepeats
-			}
-			_, err := s.AddUnknown(a.Unknown, now)
-			return err
-		}
-		return s.SetUnknown(a.Index, a.Unknown, now)
-	case raUnkRemove:
-		return s.RemoveUnknown(a.Index, now)
-	case raUseLast:
-		return c.useLast(now)
-	}
-	return nil
 }
 
 type uiError string
@@ -187,58 +76,6 @@ func conditionIndex(s *session.Session, name string) int {
 		}
 	}
 	return -1
-}
-
-// useLast fills the empty parts of the record from the last record of the
-// same instrument: its identity, interval and operator where this record
-// has none, the names and units of x and y, the conditions' names and
-// units (their values are today's to take), and its standards.
-func (c *Shell) useLast(now time.Time) error {
-	s, l := c.sess, c.recLast
-	c.recNoOffer = s.ID
-	if l == nil {
-		return nil
-	}
-	fill := func(field, have, last string) error {
-		if strings.TrimSpace(have) != "" || strings.TrimSpace(last) == "" {
-			return nil
-		}
-		return s.SetField(field, last, now)
-	}
-	for _, f := range []struct{ field, have, last string }{
-		{session.FieldSite, s.Site, l.Site},
-		{session.FieldInstrument, s.Instrument.Description, l.Instrument.Description},
-		{session.FieldSerial, s.Instrument.Serial, l.Instrument.Serial},
-		{session.FieldInstrumentID, s.Instrument.ID, l.Instrument.ID},
-		{session.FieldOperator, s.Operator, l.Operator},
-		{session.FieldXUnit, s.XUnit, l.XUnit},
-		{session.FieldYUnit, s.YUnit, l.YUnit},
-	} {
-		if err := fill(f.field, f.have, f.last); err != nil {
-			return err
-		}
-	}
-	if s.Instrument.IntervalDays == 0 && l.Instrument.IntervalDays > 0 {
-		if err := s.SetField(session.FieldIntervalDays, strconv.Itoa(l.Instrument.IntervalDays), now); err != nil {
-			return err
-		}
-	}
-	for _, cd := range l.Conditions {
-		if conditionIndex(s, strings.TrimSpace(cd.Name)) >= 0 {
-			continue
-		}
-		if _, err := s.AddCondition(session.Condition{Name: cd.Name, Unit: cd.Unit}, now); err != nil {
-			return err
-		}
-	}
-	if len(s.Standards) == 0 {
-		for _, st := range l.Standards {
-			if _, err := s.AddStandard(st, now); err != nil {
-				return err
-			}
-		}
-	}
-	return nil
 }
 
 // lookUpLast finds, off the UI goroutine, the last stored record of the

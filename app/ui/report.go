@@ -34,12 +34,14 @@ func (c *Shell) openReport(ctx app.Context, e app.Event) {
 	c.rpOpen, c.rpMsg = true, ""
 	c.rpHTML = rpBody(c.sess, c.view.report, c.view.rows, c.view.message, time.Now())
 	c.rpFor = c.view.report
-	ctx.Defer(func(ctx app.Context) { app.Window().Call("scrollTo", 0, 0) })
+	if ctx.Src() != nil {
+		ctx.Defer(func(ctx app.Context) { app.Window().Call("scrollTo", 0, 0) })
+	}
 }
 
-// renderReport is the report laid over the screen, with print, save and
-// close. Printing uses web/report.css's @media print rules: only the
-// report is printed.
+// renderReport gathers the report dialog's data (reportdialog.go): the
+// report's markup, built from the open session and fitcore's report, and
+// the line of status under its buttons.
 func (c *Shell) renderReport() app.UI {
 	if c.sess != nil && c.rpFor != c.view.report {
 		// The session changed under an open report (another tab, a late
@@ -47,17 +49,38 @@ func (c *Shell) renderReport() app.UI {
 		c.rpHTML = rpBody(c.sess, c.view.report, c.view.rows, c.view.message, time.Now())
 		c.rpFor = c.view.report
 	}
-	return app.Div().Class("pl-report-view").DataSet("testid", "report-view").Attr("role", "dialog").Attr("aria-label", "Report").Body(
-		app.Div().Class("pl-report-tools").Body(
-			app.Button().Class("pl-btn").Text("Print or save as PDF").DataSet("testid", "report-print").
-				OnClick(func(ctx app.Context, e app.Event) { app.Window().Call("print") }),
-			app.Button().Class("pl-btn").Text("Save as HTML file").DataSet("testid", "report-save-html").OnClick(c.saveReportHTML),
-			app.Button().Class("pl-btn pl-btn-quiet").Text("Close report").DataSet("testid", "report-close").
-				OnClick(func(ctx app.Context, e app.Event) { c.rpOpen = false }),
-			app.If(c.rpMsg != "", func() app.UI { return app.Span().Attr("role", "status").Text(c.rpMsg) }),
-		),
-		app.Raw(c.rpHTML),
-	)
+	return &reportDialog{Body: c.rpHTML, Msg: c.rpMsg, OnAction: c.reportAction}
+}
+
+// reportAction applies what the report dialog asked for, on the Shell's
+// own context (the dialog may be gone by the time it runs).
+func (c *Shell) reportAction(a ReportAction) {
+	if c.ui.Src() == nil {
+		c.applyReport(app.Context{}, a)
+		return
+	}
+	c.ui.Dispatch(func(ctx app.Context) { c.applyReport(ctx, a) })
+}
+
+// applyReport makes the change of a: printing uses web/report.css's
+// @media print rules (only the report is printed); saving downloads the
+// report file; closing hides the dialog.
+func (c *Shell) applyReport(ctx app.Context, a ReportAction) {
+	switch a.Kind {
+	case rdPrint:
+		if ctx.Src() != nil {
+			app.Window().Call("print")
+		}
+	case rdSaveHTML:
+		if c.sess == nil {
+			return
+		}
+		name := fileBase(c.sess.Title) + " report.html"
+		download(name, "text/html;charset=utf-8", []byte(rpFile(c.sess, c.rpHTML)))
+		c.rpMsg = "Saved “" + name + "” to your downloads."
+	case rdClose:
+		c.rpOpen = false
+	}
 }
 
 // reportFile is the report as one self-contained HTML file: inline styles
@@ -68,17 +91,6 @@ func rpFile(s *session.Session, body string) string {
 		"<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; img-src data:\">" +
 		"<title>" + rpEsc("Pairline report — "+s.Title) + "</title><style>\n" + web.ReportCSS + "\n</style></head>\n<body class=\"pl-report-file\">\n" +
 		body + "\n</body></html>\n"
-}
-
-// saveReportHTML downloads the report file.
-func (c *Shell) saveReportHTML(ctx app.Context, e app.Event) {
-	if c.sess == nil {
-		return
-	}
-	file := rpFile(c.sess, c.rpHTML)
-	name := fileBase(c.sess.Title) + " report.html"
-	download(name, "text/html;charset=utf-8", []byte(file))
-	c.rpMsg = "Saved “" + name + "” to your downloads."
 }
 
 // rpEsc escapes text for the report's HTML. Text from the session comes

@@ -78,8 +78,9 @@ func TestSaveFailureShown(t *testing.T) {
 	s.Title = "Invented probe check"
 	c := propShell(t, s)
 	ctx := app.Context{}
-	c.sess.SetCell(0, session.ColumnX, "1", time.Now())
-	c.edited(ctx)
+	if err := c.setCell(0, session.ColumnX, "1"); err != nil {
+		t.Fatal(err)
+	}
 	j, _ := c.saves.next()
 	c.saves.fail(j, store.ErrQuota)
 	c.saveDone(ctx, j.sum, store.ErrQuota, nil)
@@ -94,8 +95,9 @@ func TestSaveFailureShown(t *testing.T) {
 	}
 	// The next edit hands in a newer state (the refused one is replaced);
 	// the failure stays shown until a save succeeds.
-	c.sess.SetCell(0, session.ColumnY, "2", time.Now())
-	c.edited(ctx)
+	if err := c.setCell(0, session.ColumnY, "2"); err != nil {
+		t.Fatal(err)
+	}
 	if !c.saves.pending(s.ID) {
 		t.Fatal("the edit after a refusal was not handed to the saver")
 	}

@@ -110,10 +110,10 @@ func (r *sessionsList) item(s store.Summary) app.UI {
 	}
 	if r.Renaming == s.ID {
 		return app.Li().Class(cls).DataSet("testid", "session-item").DataSet("id", s.ID).Body(
-			app.Input().Type("text").Class("pl-rename").Value(r.RenameText).DataSet("testid", "session-rename-input").
+			app.Input().Type("text").Class("pl-rename").Value(typedValue("session-rename-input", r.RenameText)).DataSet("testid", "session-rename-input").
 				Attr("aria-label", "New title").
 				OnInput(func(ctx app.Context, e app.Event) {
-					r.act(ListAction{Kind: laRenameText, Text: ctx.JSSrc().Get("value").String()})
+					r.act(ListAction{Kind: laRenameText, Text: takeTyped(ctx.JSSrc())})
 				}),
 			r.button(app.Button().Class("pl-btn").Text("Save title").DataSet("testid", "session-rename-save"), laRenameSave),
 			r.button(app.Button().Class("pl-btn pl-btn-quiet").Text("Cancel"), laRenameCancel),

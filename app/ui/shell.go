@@ -271,6 +271,7 @@ func (c *Shell) syncInputs() {
 		el := doc.Call("querySelector", `[data-testid="`+id+`"]`)
 		if el.Truthy() && el.Get("value").String() != v {
 			el.Set("value", v)
+			el.Set(takenProp, v) // a grid cell: the app wrote it (readingRow.shownText)
 		}
 	}
 	// The fields of the record's list items (standards, conditions), by
@@ -293,6 +294,7 @@ func (c *Shell) syncInputs() {
 		el := doc.Call("querySelector", q)
 		if el.Truthy() && el.Get("value").String() != v {
 			el.Set("value", v)
+			el.Set(takenProp, v) // a grid cell: the app wrote it (readingRow.shownText)
 		}
 	}
 	// The fields of the settings and criteria cards are known once this
@@ -319,29 +321,22 @@ const (
 // own turn (encoding that many is quick; figures in DEVELOPERS.md).
 const saveAtOnce = 500
 
-// edited is called after every change to the open session. The work is
+// afterChange schedules the later turns of the change the controller has
+// just taken (controller.changed did the first). The work of a change is
 // split into turns of the browser's event loop so that a keystroke never
 // waits for more than one of them:
 //
-//  1. at once: the readings are paired and fitted with their checks (with
-//     the advice and plots too below adviceLater readings), and the
-//     screen shows it;
+//  1. at once (changed): the readings are paired and fitted with their
+//     checks (with the advice and plots too below adviceLater readings),
+//     and the screen shows it;
 //  2. below adviceLater nothing more; from it, once that frame is drawn:
 //     the advice, and in the turn after that the plots;
-//  3. below saveAtOnce readings at once; otherwise once that frame is
-//     drawn (from adviceLater readings: once typing pauses for savePause):
-//     the session is encoded and handed to the saver.
+//  3. below saveAtOnce readings at once (changed); otherwise once that
+//     frame is drawn (from adviceLater readings: once typing pauses for
+//     savePause): the session is encoded and handed to the saver.
 //
 // A turn that finds a newer edit leaves its work to that edit (a save
 // still goes ahead when the last one is saveEvery old).
-func (c *Shell) edited(ctx app.Context) {
-	c.changed()
-	c.afterChange(ctx)
-}
-
-// afterChange schedules the later turns of the change the controller has
-// just taken (controller.changed did the first): for a big session the
-// advice, then the plots, and the save.
 func (c *Shell) afterChange(ctx app.Context) {
 	if c.sess == nil || len(c.sess.Readings) < saveAtOnce {
 		return // saved in the change's own turn

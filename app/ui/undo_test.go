@@ -84,10 +84,12 @@ func TestUndoRedoCriterion(t *testing.T) {
 	}
 	// Typed and typed back within the typing window: no step.
 	depth := len(c.unStack)
-	c.sess.SetCell(0, session.ColumnX, "17", time.Now())
-	c.edited(ctx)
-	c.sess.SetCell(0, session.ColumnX, "1", time.Now())
-	c.edited(ctx)
+	if err := c.setCell(0, session.ColumnX, "17"); err != nil {
+		t.Fatal(err)
+	}
+	if err := c.setCell(0, session.ColumnX, "1"); err != nil {
+		t.Fatal(err)
+	}
 	if len(c.unStack) != depth {
 		t.Errorf("%d steps to undo after typing a cell back to what it was, want %d", len(c.unStack), depth)
 	}

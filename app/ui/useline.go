@@ -242,13 +242,13 @@ func (r *useCard) queryField(label, placeholder, name, text, problem string) app
 	return app.Div().Body(
 		app.Label().Class("an-field").Body(
 			app.Span().Class("an-field-label").Text(label),
-			app.Input().Type("text").Class("an-input").Value(text).
+			app.Input().Type("text").Class("an-input").Value(typedValue(name+"-input", text)).
 				Attr("inputmode", "decimal").Attr("autocomplete", "off").
 				Attr("placeholder", placeholder).
 				DataSet("testid", name+"-input").DataSet("query", name).
 				OnInput(func(ctx app.Context, e app.Event) {
 					src := ctx.JSSrc()
-					r.act(CardAction{Kind: caQuery, Key: src.Get("dataset").Get("query").String(), Text: src.Get("value").String()})
+					r.act(CardAction{Kind: caQuery, Key: src.Get("dataset").Get("query").String(), Text: takeTyped(src)})
 				}, app.EventScope(name)),
 		),
 		app.If(problem != "", func() app.UI {
