@@ -21,18 +21,22 @@ import (
 )
 
 // Download budgets of app.wasm. The first visit on a field connection is
-// the time to download it: 2.6 MB of brotli is about 2.1 s at 10 Mbit/s and
-// 13 s at 1.6 Mbit/s, before compiling and starting. The raw budget (a
+// the time to download it: 2.5 MB of brotli is about 2 s at 10 Mbit/s and
+// 12.5 s at 1.6 Mbit/s, before compiling and starting. The raw budget (a
 // browser that accepts no compression, and the cache on the device) is
-// 11.5 MiB: it was 11 MiB until the instrument view and the controller with
-// its cards added about 0.54 MB of code (DEVELOPERS.md, "what is large in
-// app.wasm"); a build past it needs a look at what grew before the budget
-// moves again. wasmServeBudget is the brotli copy `pairline serve` makes at
-// start (quality 5 for large files, app/webapp/compress.go; the build's
-// copy is quality 11, about 2.06 MB).
+// 11.9 MB: 11.8 MB since the library code that runs once or never in the
+// page is compiled without inlining (Makefile, WASM_GCFLAGS; DEVELOPERS.md,
+// "What app.wasm is made of"); the target is 11 MB. A build past it needs a
+// look at what grew; the budgets only move down. wasmServeBudget is the
+// brotli copy `pairline serve` makes at start (quality 5 for large files,
+// app/webapp/compress.go, 2.46 MB); wasmMadeBudget is the issue's 2.1 MB for
+// the quality-11 copy `make wasm-br` writes beside app.wasm (web/app.wasm.br,
+// 2.08 MB), which serve sends when it matches the file (`make browser` makes
+// it).
 const (
-	wasmRawBudget   = 11<<20 + 512<<10
-	wasmServeBudget = 2_600_000
+	wasmRawBudget   = 11_900_000
+	wasmServeBudget = 2_500_000
+	wasmMadeBudget  = 2_100_000
 )
 
 // app.wasm stays within its raw budget.
@@ -70,9 +74,17 @@ func TestServerSendsCompressedWasm(t *testing.T) {
 		body, _ := io.ReadAll(res.Body)
 		res.Body.Close()
 		if res.Header.Get("Content-Encoding") == "br" {
-			t.Logf("app.wasm sent as brotli: %d bytes (budget %d), raw %d", len(body), wasmServeBudget, len(raw))
-			if len(body) > wasmServeBudget {
-				t.Errorf("app.wasm is sent as %d bytes of brotli, past its budget of %d", len(body), wasmServeBudget)
+			budget, what := wasmServeBudget, "compressed by serve at start"
+			if made, err := os.ReadFile(filepath.Join(web, "app.wasm.br")); err == nil {
+				if bytes.Equal(body, made) {
+					budget, what = wasmMadeBudget, "web/app.wasm.br, made by make wasm-br"
+				} else {
+					t.Logf("web/app.wasm.br is not a copy of this app.wasm (made for an older build?): serve ignored it; `make wasm-br` makes it again")
+				}
+			}
+			t.Logf("app.wasm sent as brotli: %d bytes, %s (budget %d), raw %d", len(body), what, budget, len(raw))
+			if len(body) > budget {
+				t.Errorf("app.wasm is sent as %d bytes of brotli (%s), past its budget of %d", len(body), what, budget)
 			}
 			if res.Header.Get("Vary") != "Accept-Encoding" {
 				t.Errorf("Vary %q, want Accept-Encoding", res.Header.Get("Vary"))

@@ -5,6 +5,7 @@ import (
 	"compress/gzip"
 	"crypto/sha256"
 	"encoding/hex"
+	"io"
 	"net/http"
 	"path"
 	"strconv"
@@ -59,9 +60,15 @@ type entry struct {
 type encoded struct {
 	next       http.Handler
 	background bool // see ServeHTTP
-	mu         sync.Mutex
-	once       map[string]*sync.Once
-	ents       map[string]*entry
+	// made, when set, returns a brotli copy of the file at URL path p made
+	// beforehand (web/app.wasm.br beside web/app.wasm: `make wasm-br`, or
+	// the web folder `pairline build` writes), or nil. It is used only if
+	// it decodes to the file's bytes exactly; otherwise the file is
+	// compressed as usual.
+	made func(p string) []byte
+	mu   sync.Mutex
+	once map[string]*sync.Once
+	ents map[string]*entry
 }
 
 func newEncoded(next http.Handler) *encoded {
@@ -90,11 +97,20 @@ func (e *encoded) get(p string) *entry {
 		ent.vars[encIdentity] = newVariant(raw.Bytes())
 		if c.code == http.StatusOK && compressible(p) && c.err == nil {
 			ent.vars[encGzip] = newVariant(gzipBytes(raw.Bytes()))
-			q := brotli.BestCompression
-			if e.background && raw.Len() > fastBrotliOver {
-				q = fastBrotliQuality
+			var br []byte
+			if e.made != nil {
+				if b := e.made(p); b != nil && brotliOf(b, raw.Bytes()) {
+					br = b
+				}
 			}
-			ent.vars[encBrotli] = newVariant(brotliBytes(raw.Bytes(), q))
+			if br == nil {
+				q := brotli.BestCompression
+				if e.background && raw.Len() > fastBrotliOver {
+					q = fastBrotliQuality
+				}
+				br = brotliBytes(raw.Bytes(), q)
+			}
+			ent.vars[encBrotli] = newVariant(br)
 		}
 		e.mu.Lock()
 		e.ents[p] = ent
@@ -139,6 +155,14 @@ func brotliBytes(b []byte, quality int) []byte {
 	w.Write(b)
 	w.Close()
 	return out.Bytes()
+}
+
+// brotliOf says whether br is a brotli stream that decodes to raw exactly
+// (a copy made for an older build of the file does not). Decoding stops one
+// byte past len(raw), so a wrong copy costs at most the file's length.
+func brotliOf(br, raw []byte) bool {
+	got, err := io.ReadAll(io.LimitReader(brotli.NewReader(bytes.NewReader(br)), int64(len(raw))+1))
+	return err == nil && bytes.Equal(got, raw)
 }
 
 // Prepare compresses every file of the served set now, so that no request

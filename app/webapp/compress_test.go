@@ -6,6 +6,8 @@ import (
 	"io"
 	"net/http"
 	"net/http/httptest"
+	"os"
+	"path/filepath"
 	"testing"
 
 	"github.com/andybalholm/brotli"
@@ -137,5 +139,61 @@ func TestETagPerFile(t *testing.T) {
 			t.Errorf("%s and %s share ETag %s", p, other, etag)
 		}
 		seen[etag] = p
+	}
+}
+
+// A brotli copy made beforehand beside a web file (app.wasm.br, as
+// `make wasm-br` writes it) is sent as it is when it decodes to the file,
+// and ignored (the file compressed as usual) when it belongs to another
+// build of the file or is not brotli at all.
+func TestMadeBrotliCopy(t *testing.T) {
+	raw := bytes.Repeat([]byte("made beforehand, invented content 0123456789\n"), 4000)
+	made := brotliBytes(raw, 3) // quality 3: not what the server makes (11), so its bytes tell which was sent
+	if bytes.Equal(made, brotliBytes(raw, brotli.BestCompression)) {
+		t.Fatal("quality 3 and 11 give the same bytes; the test cannot tell them apart")
+	}
+	cases := []struct {
+		name   string
+		copyOf []byte // nil: no copy written
+		junk   bool
+		want   []byte // the body expected (nil: the server's own copy)
+	}{
+		{"matching copy", raw, false, made},
+		{"copy of an older build", append(append([]byte(nil), raw...), 'x'), false, nil},
+		{"copy of a shorter build", raw[:len(raw)-1], false, nil},
+		{"not brotli", nil, true, nil},
+		{"no copy", nil, false, nil},
+	}
+	for _, c := range cases {
+		dir := testWeb(t)
+		os.Remove(filepath.Join(dir, "app.wasm.br"))
+		if err := os.WriteFile(filepath.Join(dir, "app.wasm"), raw, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		switch {
+		case c.junk:
+			os.WriteFile(filepath.Join(dir, "app.wasm.br"), []byte("not a brotli stream"), 0o644)
+		case c.copyOf != nil:
+			b := made
+			if !bytes.Equal(c.copyOf, raw) {
+				b = brotliBytes(c.copyOf, 3)
+			}
+			os.WriteFile(filepath.Join(dir, "app.wasm.br"), b, 0o644)
+		}
+		res := request(Site(dir, ""), http.MethodGet, "/web/app.wasm", "br", "")
+		body, _ := io.ReadAll(res.Body)
+		if res.Header.Get("Content-Encoding") != "br" {
+			t.Errorf("%s: Content-Encoding %q", c.name, res.Header.Get("Content-Encoding"))
+			continue
+		}
+		if !bytes.Equal(decode(t, "br", body), raw) {
+			t.Errorf("%s: the body does not decode to app.wasm", c.name)
+		}
+		if c.want != nil && !bytes.Equal(body, c.want) {
+			t.Errorf("%s: the copy made beforehand was not sent (%d bytes, copy %d)", c.name, len(body), len(c.want))
+		}
+		if c.want == nil && bytes.Equal(body, made) {
+			t.Errorf("%s: a copy that does not match the file was sent", c.name)
+		}
 	}
 }

@@ -56,6 +56,7 @@ func site(webDir, version string, lim limits) http.Handler {
 // siteEncoded is site and the store of its compressed files.
 func siteEncoded(webDir, version string, lim limits) (http.Handler, *encoded) {
 	next := newEncoded(WithManifest(Handler(webDir, version)))
+	next.made = func(p string) []byte { return madeBrotli(webDir, p) }
 	return progress(lim, WithHeaders(http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
 		if r.ContentLength != 0 && r.Body != nil && r.Body != http.NoBody {
 			// Nothing the app asks for carries a body. Give its sender a
@@ -359,4 +360,31 @@ func buildFile(h http.Handler, p, target string) error {
 		return fmt.Errorf("writing %s: %w", target, err)
 	}
 	return nil
+}
+
+// madeBrotliMax bounds a brotli copy read from the web folder (app.wasm's is
+// about 2.1 MB).
+const madeBrotliMax = 64 << 20
+
+// madeBrotli is the brotli copy of the web folder's file at URL path p
+// (/web/app.wasm → app.wasm.br in webDir) when there is one, else nil. The
+// copy is checked against the file before use (encoded.get).
+func madeBrotli(webDir, p string) []byte {
+	name, ok := strings.CutPrefix(p, "/web/")
+	if !ok {
+		return nil
+	}
+	f, info, err := openWebFile(webDir, name+".br")
+	if err != nil {
+		return nil
+	}
+	defer f.Close()
+	if info.Size() > madeBrotliMax {
+		return nil
+	}
+	b, err := io.ReadAll(io.LimitReader(f, madeBrotliMax))
+	if err != nil {
+		return nil
+	}
+	return b
 }
