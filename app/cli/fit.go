@@ -297,96 +297,132 @@ func zeroRefused(option string, probe fitcore.Options) error {
 
 // options turns the flags into fitcore options (all but the values that need
 // the file's decimal separator) and checks them with fitcore's one
-// validation, Options.Normalize, before any file is read.
+// validation, Options.Normalize, before any file is read. The stages: the
+// model and weights (modelOptions), the numbers that tune the fit
+// (tuningOptions), the references and uncertainties (referenceOptions).
 func (ff *fitFlags) options() (fitcore.Options, error) {
 	var opt fitcore.Options
-	opt.Model = fitcore.Model(ff.model)
-	if ff.origin {
-		if ff.model != "" && ff.model != string(fitcore.ModelOrigin) {
-			return opt, fmt.Errorf("--origin and --model %s contradict each other", quoted(ff.model))
-		}
-		opt.Model = fitcore.ModelOrigin
-	}
-	switch ff.weights {
-	case "", "none":
-		if opt.Model == fitcore.ModelWeighted {
-			return opt, errors.New("--model weighted needs --weights x, x2, fitted2, repeats or power")
-		}
-	case string(fitcore.WeightsGiven):
-		return opt, errors.New(`--weights given: the command reads no column of weights; use x, x2, fitted2, repeats or power`)
-	default:
-		opt.Weights = fitcore.WeightScheme(ff.weights)
-	}
-	opt.Transform = fitcore.Transform(ff.transform)
-	if ff.lambda.set {
-		l, err := ff.lambda.number("box-cox-lambda")
-		if err != nil {
+	for _, stage := range []func(*fitcore.Options) error{ff.modelOptions, ff.tuningOptions, ff.referenceOptions} {
+		if err := stage(&opt); err != nil {
 			return opt, err
 		}
-		opt.BoxCoxLambda = &l
-	}
-	if ff.level.set {
-		l, err := ff.level.number("level")
-		if err != nil {
-			return opt, err
-		}
-		if l == 0 {
-			return opt, zeroRefused("level", fitcore.Options{Level: math.Inf(-1)})
-		}
-		opt.Level = l
-	}
-	if ff.varianceRatio.set {
-		d, err := ff.varianceRatio.number("variance-ratio")
-		if err != nil {
-			return opt, err
-		}
-		if opt.Model != fitcore.ModelDeming {
-			return opt, errors.New("--variance-ratio goes with --model deming")
-		}
-		if d == 0 {
-			return opt, zeroRefused("variance_ratio", fitcore.Options{Model: fitcore.ModelDeming, VarianceRatio: math.Inf(-1)})
-		}
-		opt.VarianceRatio = d
-	}
-	for _, r := range []struct {
-		name string
-		f    numFlag
-		p    **float64
-	}{{"slope-ref", ff.slopeRef, &opt.SlopeRef}, {"intercept-ref", ff.interceptRef, &opt.InterceptRef}} {
-		if !r.f.set {
-			continue
-		}
-		v, err := r.f.number(r.name)
-		if err != nil {
-			return opt, err
-		}
-		if err := tooLarge(v); err != nil {
-			return opt, fmt.Errorf("--%s %s %v", r.name, quoted(r.f.text), err)
-		}
-		*r.p = &v
-	}
-	for _, u := range []struct {
-		name string
-		f    numFlag
-		p    *float64
-	}{{"x-uncertainty", ff.xUncertainty, &opt.XUncertainty}, {"y-uncertainty", ff.yUncertainty, &opt.YUncertainty}} {
-		if !u.f.set {
-			continue
-		}
-		v, err := u.f.number(u.name)
-		if err != nil {
-			return opt, err
-		}
-		if err := tooLarge(v); err != nil {
-			return opt, fmt.Errorf("--%s %s %v", u.name, quoted(u.f.text), err)
-		}
-		*u.p = v
 	}
 	norm, err := opt.Normalize()
 	if err != nil {
 		return opt, flagError(err)
 	}
 	return norm, nil
+}
+
+// modelOptions sets the model, weights and transform from --model,
+// --origin, --weights and --transform, refusing the combinations that
+// contradict each other.
+func (ff *fitFlags) modelOptions(opt *fitcore.Options) error {
+	opt.Model = fitcore.Model(ff.model)
+	if ff.origin {
+		if ff.model != "" && ff.model != string(fitcore.ModelOrigin) {
+			return fmt.Errorf("--origin and --model %s contradict each other", quoted(ff.model))
+		}
+		opt.Model = fitcore.ModelOrigin
+	}
+	switch ff.weights {
+	case "", "none":
+		if opt.Model == fitcore.ModelWeighted {
+			return errors.New("--model weighted needs --weights x, x2, fitted2, repeats or power")
+		}
+	case string(fitcore.WeightsGiven):
+		return errors.New(`--weights given: the command reads no column of weights; use x, x2, fitted2, repeats or power`)
+	default:
+		opt.Weights = fitcore.WeightScheme(ff.weights)
+	}
+	opt.Transform = fitcore.Transform(ff.transform)
+	return nil
+}
+
+// tuningOptions sets the Box–Cox λ, the level and the variance ratio
+// (which goes with --model deming only); a level or ratio of 0 is refused
+// with Normalize's reason.
+func (ff *fitFlags) tuningOptions(opt *fitcore.Options) error {
+	if ff.lambda.set {
+		l, err := ff.lambda.number("box-cox-lambda")
+		if err != nil {
+			return err
+		}
+		opt.BoxCoxLambda = &l
+	}
+	if ff.level.set {
+		l, err := ff.level.number("level")
+		if err != nil {
+			return err
+		}
+		if l == 0 {
+			return zeroRefused("level", fitcore.Options{Level: math.Inf(-1)})
+		}
+		opt.Level = l
+	}
+	if !ff.varianceRatio.set {
+		return nil
+	}
+	d, err := ff.varianceRatio.number("variance-ratio")
+	if err != nil {
+		return err
+	}
+	if opt.Model != fitcore.ModelDeming {
+		return errors.New("--variance-ratio goes with --model deming")
+	}
+	if d == 0 {
+		return zeroRefused("variance_ratio", fitcore.Options{Model: fitcore.ModelDeming, VarianceRatio: math.Inf(-1)})
+	}
+	opt.VarianceRatio = d
+	return nil
+}
+
+// referenceOptions sets the slope and intercept references and the x and
+// y uncertainties, each a number within the magnitude fitcore accepts.
+func (ff *fitFlags) referenceOptions(opt *fitcore.Options) error {
+	for _, r := range []struct {
+		name string
+		f    numFlag
+		p    **float64
+	}{{"slope-ref", ff.slopeRef, &opt.SlopeRef}, {"intercept-ref", ff.interceptRef, &opt.InterceptRef}} {
+		v, ok, err := sizedNumber(r.name, r.f)
+		if err != nil {
+			return err
+		}
+		if ok {
+			*r.p = &v
+		}
+	}
+	for _, u := range []struct {
+		name string
+		f    numFlag
+		p    *float64
+	}{{"x-uncertainty", ff.xUncertainty, &opt.XUncertainty}, {"y-uncertainty", ff.yUncertainty, &opt.YUncertainty}} {
+		v, ok, err := sizedNumber(u.name, u.f)
+		if err != nil {
+			return err
+		}
+		if ok {
+			*u.p = v
+		}
+	}
+	return nil
+}
+
+// sizedNumber is the number of flag --name when it was given (ok), refused
+// when it is not a number or too large.
+func sizedNumber(name string, f numFlag) (v float64, ok bool, err error) {
+	if !f.set {
+		return 0, false, nil
+	}
+	v, err = f.number(name)
+	if err != nil {
+		return 0, false, err
+	}
+	if err := tooLarge(v); err != nil {
+		return 0, false, fmt.Errorf("--%s %s %v", name, quoted(f.text), err)
+	}
+	return v, true, nil
 }
 
 func triState(flagName, v string) (*bool, error) {
