@@ -243,7 +243,10 @@ type pass1 struct {
 
 // streamPass1 is pass 1 of readTable over blocks, with decodeText's checks
 // (a NUL byte, text that is not UTF-8) made block by block in the order
-// ReadCSV makes them: the size first, then a NUL, then the table.
+// ReadCSV makes them: the size first, then a NUL, then the table. The
+// stages: a UTF-16 byte-order mark sends the file to ReadCSV (fallback),
+// each block is checked and scanned (block), then the end is checked
+// (finish).
 func streamPass1(r io.Reader, opt StreamOptions, res *StreamResult) (*pass1, error) {
 	p := &pass1{}
 	var head [2]byte
@@ -253,51 +256,93 @@ func streamPass1(r io.Reader, opt StreamOptions, res *StreamResult) (*pass1, err
 		return p, nil
 	}
 	br := newBlockReader(io.MultiReader(strings.NewReader(string(head[:n])), r))
-	var scanErr, nulErr *CSVError
-	lineOff := 0
-	for {
-		block := br.next()
-		if block == "" {
-			break
-		}
+	var st pass1State
+	for block := br.next(); block != ""; block = br.next() {
 		if br.total > MaxStreamSize {
-			return nil, &CSVError{Err: fmt.Errorf("%w (more than %d MiB)", ErrCSVTooLarge, MaxStreamSize>>20)}
+			return nil, streamTooLarge()
 		}
-		if nulErr == nil {
-			if i := strings.IndexByte(block, 0); i >= 0 {
-				nulErr = &CSVError{Line: lineOff + lineAt(block, i), Err: ErrCSVNotText}
-			}
+		fallback, err := p.block(block, &st, opt, res)
+		if err != nil {
+			return nil, err
 		}
-		if nulErr == nil && !utf8.ValidString(block) {
+		if fallback {
 			p.fallback = true
 			return p, nil
 		}
-		if res.Delimiter == 0 {
-			res.Delimiter = opt.Delimiter
-			if res.Delimiter == 0 {
-				res.Delimiter = detectDelimiter(block)
-			}
-			d := res.Delimiter
-			if d == '"' || d == '\r' || d == '\n' || !utf8.ValidRune(d) || d == utf8.RuneError {
-				return nil, &CSVError{Err: fmt.Errorf("%q cannot separate fields", d)}
-			}
-		}
-		if scanErr == nil && nulErr == nil {
-			scanErr = p.scan(block, lineOff, res)
-		}
-		lineOff += lineEnds(block)
 	}
+	if err := p.finish(br, &st, opt, res); err != nil {
+		return nil, err
+	}
+	return p, nil
+}
+
+// pass1State is what pass 1 carries from block to block: the first error
+// of the scan and the first NUL byte (each reported only at the end, so
+// that the size is checked first), and the lines before the block.
+type pass1State struct {
+	scanErr, nulErr *CSVError
+	lineOff         int
+}
+
+// streamTooLarge is the error of a text above MaxStreamSize.
+func streamTooLarge() *CSVError {
+	return &CSVError{Err: fmt.Errorf("%w (more than %d MiB)", ErrCSVTooLarge, MaxStreamSize>>20)}
+}
+
+// block checks one block for a NUL byte and for text that is not UTF-8
+// (fallback: ReadCSV then reads the file), chooses the delimiter at the
+// first block, and scans the block while there is no error yet.
+func (p *pass1) block(block string, st *pass1State, opt StreamOptions, res *StreamResult) (fallback bool, err error) {
+	if st.nulErr == nil {
+		if i := strings.IndexByte(block, 0); i >= 0 {
+			st.nulErr = &CSVError{Line: st.lineOff + lineAt(block, i), Err: ErrCSVNotText}
+		}
+	}
+	if st.nulErr == nil && !utf8.ValidString(block) {
+		return true, nil
+	}
+	if res.Delimiter == 0 {
+		if err := streamDelimiter(block, opt, res); err != nil {
+			return false, err
+		}
+	}
+	if st.scanErr == nil && st.nulErr == nil {
+		st.scanErr = p.scan(block, st.lineOff, res)
+	}
+	st.lineOff += lineEnds(block)
+	return false, nil
+}
+
+// streamDelimiter sets the delimiter from the options or, when they give
+// none, from the first block (detectDelimiter), refusing one that cannot
+// separate fields.
+func streamDelimiter(block string, opt StreamOptions, res *StreamResult) error {
+	res.Delimiter = opt.Delimiter
+	if res.Delimiter == 0 {
+		res.Delimiter = detectDelimiter(block)
+	}
+	d := res.Delimiter
+	if d == '"' || d == '\r' || d == '\n' || !utf8.ValidRune(d) || d == utf8.RuneError {
+		return &CSVError{Err: fmt.Errorf("%q cannot separate fields", d)}
+	}
+	return nil
+}
+
+// finish reports, after the last block, a read error, a text too large,
+// the first NUL, the first scan error, or a text without data, in that
+// order; an empty text gets the delimiter an empty first block would.
+func (p *pass1) finish(br *blockReader, st *pass1State, opt StreamOptions, res *StreamResult) error {
 	if br.err != nil {
-		return nil, &CSVError{Err: fmt.Errorf("the file could not be read: %w", br.err)}
+		return &CSVError{Err: fmt.Errorf("the file could not be read: %w", br.err)}
 	}
 	if br.total > MaxStreamSize {
-		return nil, &CSVError{Err: fmt.Errorf("%w (more than %d MiB)", ErrCSVTooLarge, MaxStreamSize>>20)}
+		return streamTooLarge()
 	}
-	if nulErr != nil {
-		return nil, nulErr
+	if st.nulErr != nil {
+		return st.nulErr
 	}
-	if scanErr != nil {
-		return nil, scanErr
+	if st.scanErr != nil {
+		return st.scanErr
 	}
 	if res.Delimiter == 0 { // an empty text
 		res.Delimiter = opt.Delimiter
@@ -306,9 +351,9 @@ func streamPass1(r io.Reader, opt StreamOptions, res *StreamResult) (*pass1, err
 		}
 	}
 	if p.rows == 0 {
-		return nil, &CSVError{Err: ErrCSVNoData}
+		return &CSVError{Err: ErrCSVNoData}
 	}
-	return p, nil
+	return nil
 }
 
 // scan is the loop of readTable's pass 1 over one block.
