@@ -8,11 +8,12 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
-// The functions below are curvatureGap, findSlip, XExactness and
-// durbinWatsonW as they were before each was split into named stages
-// (cyclomatic complexity 25, 23, 21 and 24), kept unchanged as the oracles
-// of TestSplit2MatchesOracle and FuzzSplit2MatchesOracle: the split
-// versions must give the same results bit for bit.
+// The functions below are curvatureGap, findSlip, XExactness,
+// durbinWatsonW and newDWDesign as they were before each was split into
+// named stages (cyclomatic complexity 25, 23, 21, 24 and 24), kept
+// unchanged as the oracles of TestSplit2MatchesOracle and
+// FuzzSplit2MatchesOracle: the split versions must give the same results
+// bit for bit.
 
 // curvatureGapOracle is curvatureGap before the split.
 func curvatureGapOracle(x, y, w []float64, origin bool) (gap, pct, sq float64, ok bool) {
@@ -335,6 +336,103 @@ func durbinWatsonWOracle(x, resid, w []float64, origin bool, pre *ckPre) Check {
 	return c
 }
 
+// newDWDesignOracle is newDWDesign before the split (complexity 24).
+func newDWDesignOracle(x, w []float64, origin bool) (*dwDesign, bool) {
+	n := len(x)
+	dz := &dwDesign{n: n}
+	sw := func(int) float64 { return 1 }
+	if w != nil {
+		wk := ckWeightScale(w)
+		sw = func(t int) float64 { return math.Sqrt(w[t] * wk) }
+	}
+	normalize := func(v []float64) float64 {
+		var big float64
+		for _, a := range v {
+			big = max(big, math.Abs(a))
+		}
+		if big == 0 || !ckFinite(big) {
+			return 0
+		}
+		var ss float64
+		for _, a := range v {
+			a /= big
+			ss += a * a
+		}
+		nrm := big * math.Sqrt(ss)
+		for i := range v {
+			v[i] /= nrm
+		}
+		return nrm
+	}
+	if origin {
+		var big float64
+		for _, v := range x {
+			big = max(big, math.Abs(v))
+		}
+		if big == 0 || !ckFinite(big) {
+			return nil, false
+		}
+		u := make([]float64, n)
+		for t, v := range x {
+			u[t] = sw(t) * (v / big)
+		}
+		if normalize(u) == 0 {
+			return nil, false
+		}
+		dz.u[0], dz.k = u, 1
+		return dz, true
+	}
+	m, s := ckMeanSD(x)
+	if s == 0 || !ckFinite(s) {
+		return nil, false
+	}
+	u1 := make([]float64, n)
+	u2 := make([]float64, n)
+	for t, v := range x {
+		u1[t] = sw(t)
+		u2[t] = sw(t) * ((v - m) / s)
+	}
+	if normalize(u1) == 0 {
+		return nil, false
+	}
+	var before float64
+	for _, a := range u2 {
+		before += a * a
+	}
+	for range 2 {
+		var dot float64
+		for t := range u2 {
+			dot += u1[t] * u2[t]
+		}
+		for t := range u2 {
+			u2[t] -= dot * u1[t]
+		}
+	}
+	var after float64
+	for _, a := range u2 {
+		after += a * a
+	}
+	if !(math.Sqrt(after) > 1e-10*math.Sqrt(before)) || normalize(u2) == 0 {
+		return nil, false
+	}
+	dz.u[0], dz.u[1], dz.k = u1, u2, 2
+	return dz, true
+}
+
+// sameDWDesign compares newDWDesign with its oracle.
+func sameDWDesign(t *testing.T, x, w []float64, origin bool) {
+	t.Helper()
+	show := func(d *dwDesign, ok bool) string {
+		if d == nil {
+			return fmt.Sprint("nil ", ok)
+		}
+		return fmt.Sprintf("%+v %v", *d, ok)
+	}
+	if got, want := show(newDWDesign(x, w, origin)), show(newDWDesignOracle(x, w, origin)); got != want {
+		t.Fatalf("newDWDesign(x=%v, w=%v, origin=%v):\n got %s\nwant %s", x, w, origin, got, want)
+	}
+}
+
 // split2All compares the four functions with their oracles on the
 // readings splitCase builds from data (see split_oracle_test.go).
 func split2All(t *testing.T, data []byte) {
@@ -350,6 +448,11 @@ func split2All(t *testing.T, data []byte) {
 	}
 	for _, origin := range []bool{false, true} {
 		for _, wt := range [][]float64{nil, w} {
+			sameDWDesign(t, x, wt, origin)
+			sameDWDesign(t, make([]float64, len(x)), wt, origin)
+			if len(x) > 1 {
+				sameDWDesign(t, append([]float64{math.Inf(1)}, x[1:]...), wt, origin)
+			}
 			g1, g2, g3, gok := curvatureGap(x, y, wt, origin)
 			o1, o2, o3, ook := curvatureGapOracle(x, y, wt, origin)
 			if got, want := fmt.Sprint(g1, g2, g3, gok), fmt.Sprint(o1, o2, o3, ook); got != want {
