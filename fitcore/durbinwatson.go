@@ -286,62 +286,92 @@ type dwDesign struct {
 // false when the x column is, to 1e-10 of its norm, a multiple of the
 // first (no spread).
 func newDWDesign(x, w []float64, origin bool) (*dwDesign, bool) {
-	n := len(x)
-	dz := &dwDesign{n: n}
-	sw := func(int) float64 { return 1 }
-	if w != nil {
-		wk := ckWeightScale(w)
-		sw = func(t int) float64 { return math.Sqrt(w[t] * wk) }
-	}
-	normalize := func(v []float64) float64 {
-		var big float64
-		for _, a := range v {
-			big = max(big, math.Abs(a))
-		}
-		if big == 0 || !ckFinite(big) {
-			return 0
-		}
-		var ss float64
-		for _, a := range v {
-			a /= big
-			ss += a * a
-		}
-		nrm := big * math.Sqrt(ss)
-		for i := range v {
-			v[i] /= nrm
-		}
-		return nrm
-	}
+	sw := dwRootWeights(w)
 	if origin {
-		var big float64
-		for _, v := range x {
-			big = max(big, math.Abs(v))
-		}
-		if big == 0 || !ckFinite(big) {
+		u, ok := dwOriginColumn(x, sw)
+		if !ok {
 			return nil, false
 		}
-		u := make([]float64, n)
-		for t, v := range x {
-			u[t] = sw(t) * (v / big)
-		}
-		if normalize(u) == 0 {
-			return nil, false
-		}
-		dz.u[0], dz.k = u, 1
-		return dz, true
+		return &dwDesign{n: len(x), u: [2][]float64{u}, k: 1}, true
 	}
-	m, s := ckMeanSD(x)
-	if s == 0 || !ckFinite(s) {
+	u1, u2, ok := dwLineColumns(x, sw)
+	if !ok {
 		return nil, false
 	}
-	u1 := make([]float64, n)
-	u2 := make([]float64, n)
+	return &dwDesign{n: len(x), u: [2][]float64{u1, u2}, k: 2}, true
+}
+
+// dwRootWeights is t ↦ √w_t, the weights scaled by ckWeightScale (1
+// without weights).
+func dwRootWeights(w []float64) func(int) float64 {
+	if w == nil {
+		return func(int) float64 { return 1 }
+	}
+	wk := ckWeightScale(w)
+	return func(t int) float64 { return math.Sqrt(w[t] * wk) }
+}
+
+// dwNormalize scales v to unit length (its norm found through v/max|v| so
+// that it cannot overflow) and returns the norm, or 0, leaving v as it
+// is, when v is zero or not finite.
+func dwNormalize(v []float64) float64 {
+	var big float64
+	for _, a := range v {
+		big = max(big, math.Abs(a))
+	}
+	if big == 0 || !ckFinite(big) {
+		return 0
+	}
+	var ss float64
+	for _, a := range v {
+		a /= big
+		ss += a * a
+	}
+	nrm := big * math.Sqrt(ss)
+	for i := range v {
+		v[i] /= nrm
+	}
+	return nrm
+}
+
+// dwOriginColumn is the one column of a line through the origin,
+// √w·x/max|x| normalized; ok is false when x is zero or not finite.
+func dwOriginColumn(x []float64, sw func(int) float64) ([]float64, bool) {
+	var big float64
+	for _, v := range x {
+		big = max(big, math.Abs(v))
+	}
+	if big == 0 || !ckFinite(big) {
+		return nil, false
+	}
+	u := make([]float64, len(x))
+	for t, v := range x {
+		u[t] = sw(t) * (v / big)
+	}
+	if dwNormalize(u) == 0 {
+		return nil, false
+	}
+	return u, true
+}
+
+// dwLineColumns are the two orthonormal columns of a line with an
+// intercept: √w normalized, and √w·z, z = (x − mean)/sd, made orthogonal
+// to it by Gram–Schmidt twice, then normalized; ok is false when x has no
+// spread (what is left of the second column is below 1e-10 of it).
+func dwLineColumns(x []float64, sw func(int) float64) (u1, u2 []float64, ok bool) {
+	m, s := ckMeanSD(x)
+	if s == 0 || !ckFinite(s) {
+		return nil, nil, false
+	}
+	n := len(x)
+	u1 = make([]float64, n)
+	u2 = make([]float64, n)
 	for t, v := range x {
 		u1[t] = sw(t)
 		u2[t] = sw(t) * ((v - m) / s)
 	}
-	if normalize(u1) == 0 {
-		return nil, false
+	if dwNormalize(u1) == 0 {
+		return nil, nil, false
 	}
 	var before float64
 	for _, a := range u2 {
@@ -360,11 +390,10 @@ func newDWDesign(x, w []float64, origin bool) (*dwDesign, bool) {
 	for _, a := range u2 {
 		after += a * a
 	}
-	if !(math.Sqrt(after) > 1e-10*math.Sqrt(before)) || normalize(u2) == 0 {
-		return nil, false
+	if !(math.Sqrt(after) > 1e-10*math.Sqrt(before)) || dwNormalize(u2) == 0 {
+		return nil, nil, false
 	}
-	dz.u[0], dz.u[1], dz.k = u1, u2, 2
-	return dz, true
+	return u1, u2, true
 }
 
 // dwA applies the first-difference matrix A to v at t.
