@@ -13,6 +13,8 @@ import (
 	"os"
 	"reflect"
 	"testing"
+
+	"github.com/vmihailenco/msgpack/v5/msgpcode"
 )
 
 // decodeOracle is Decode as it was before it was split into stages
@@ -105,6 +107,112 @@ func decodeOracle(r io.Reader) (*File, error) {
 	}
 	migrate(f)
 	return f, nil
+}
+
+// skipOracle is bodyDecoder.skip as it was before it was split into
+// stages (cyclomatic complexity 24), kept unchanged as the oracle of
+// TestSkipMatchesOracle and FuzzSkipMatchesOracle.
+func (b *bodyDecoder) skipOracle(field string, depth int) *FormatError {
+	off := b.off()
+	if b.pos >= len(b.b) {
+		return b.short(off, field, "a value")
+	}
+	c := b.b[b.pos]
+	var n int
+	switch sz, ok := numberSize(c); {
+	case c <= msgpcode.PosFixedNumHigh || c >= msgpcode.NegFixedNumLow:
+		b.pos++
+		return nil
+	case ok:
+		n = 1 + sz
+	default:
+		if k, isStr, done := b.header(msgpcode.FixedStrLow, 32, msgpcode.Str8, msgpcode.Str16, msgpcode.Str32); isStr || !done {
+			if !done {
+				return b.short(off, field, "a value")
+			}
+			n = k
+			break
+		}
+		if k, isBin, done := b.header(0, 0, msgpcode.Bin8, msgpcode.Bin16, msgpcode.Bin32); isBin || !done {
+			if !done {
+				return b.short(off, field, "a value")
+			}
+			n = k
+			break
+		}
+		if _, k, isExt, done := b.extHeader(); isExt || !done {
+			if !done {
+				return b.short(off, field, "a value")
+			}
+			n = k
+			break
+		}
+		k, isMap, done := b.header(msgpcode.FixedMapLow, 16, 0, msgpcode.Map16, msgpcode.Map32)
+		if isMap {
+			k *= 2
+		} else if done {
+			k, isMap, done = b.header(msgpcode.FixedArrayLow, 16, 0, msgpcode.Array16, msgpcode.Array32)
+			if done && !isMap {
+				return b.fail(off, field, invalid("the value has a type MessagePack does not define (code 0x%02x)", c))
+			}
+		}
+		if !done {
+			return b.short(off, field, "a value")
+		}
+		if depth >= MaxNesting {
+			return b.fail(off, field, invalid("values are nested more than %d deep", MaxNesting))
+		}
+		if k > b.left() {
+			return b.fail(off, field, invalid("a value claims %d entries but only %d bytes are left", k, b.left()))
+		}
+		for i := 0; i < k; i++ {
+			if ferr := b.skipOracle(field, depth+1); ferr != nil {
+				return ferr
+			}
+		}
+		return nil
+	}
+	if n > b.left() {
+		return b.short(off, field, "a value")
+	}
+	b.pos += n
+	return nil
+}
+
+// sameSkip compares skip with its oracle on b: the same error and the same
+// position after it.
+func sameSkip(t *testing.T, b []byte, depth int) {
+	t.Helper()
+	d1, d2 := newBodyDecoder(b), newBodyDecoder(b)
+	e1, e2 := d1.skip("x", depth), d2.skipOracle("x", depth)
+	if fmt.Sprint(e1) != fmt.Sprint(e2) || d1.pos != d2.pos {
+		t.Fatalf("skip(% x, depth %d): got %v at %d, want %v at %d", b, depth, e1, d1.pos, e2, d2.pos)
+	}
+}
+
+func TestSkipMatchesOracle(t *testing.T) {
+	body := marshalBody(t, genericSession(), genericSession())
+	for i := range body {
+		for _, depth := range []int{0, MaxNesting - 1, MaxNesting} {
+			sameSkip(t, body[i:], depth)
+			sameSkip(t, body[:i], depth)
+		}
+	}
+	for c := range 256 {
+		for _, tail := range [][]byte{nil, {0}, {0, 1}, {0xff, 0xff, 0xff, 0xff, 0xff}, {1, 2, 3, 4, 5, 6, 7, 8, 9, 10}} {
+			sameSkip(t, append([]byte{byte(c)}, tail...), 0)
+		}
+	}
+}
+
+// FuzzSkipMatchesOracle: skip passes over what the body it was split from
+// passes over, and fails where it fails, for any bytes.
+func FuzzSkipMatchesOracle(f *testing.F) {
+	f.Add(marshalBody(f, genericSession()), 0)
+	f.Add([]byte{0x91, 0x91, 0x91, 0xc0}, MaxNesting-2)
+	f.Fuzz(func(t *testing.T, b []byte, depth int) {
+		sameSkip(t, b, min(max(depth, 0), MaxNesting))
+	})
 }
 
 // plainReader hides the Len method of a bytes.Reader, so that Decode
