@@ -1124,64 +1124,71 @@ func (b *bodyDecoder) skip(field string, depth int) *FormatError {
 		return b.short(off, field, "a value")
 	}
 	c := b.b[b.pos]
-	var n int
-	switch sz, ok := numberSize(c); {
-	case c <= msgpcode.PosFixedNumHigh || c >= msgpcode.NegFixedNumLow:
+	if c <= msgpcode.PosFixedNumHigh || c >= msgpcode.NegFixedNumLow {
 		b.pos++
 		return nil
-	case ok:
-		n = 1 + sz
-	default:
-		if k, isStr, done := b.header(msgpcode.FixedStrLow, 32, msgpcode.Str8, msgpcode.Str16, msgpcode.Str32); isStr || !done {
-			if !done {
-				return b.short(off, field, "a value")
-			}
-			n = k
-			break
-		}
-		if k, isBin, done := b.header(0, 0, msgpcode.Bin8, msgpcode.Bin16, msgpcode.Bin32); isBin || !done {
-			if !done {
-				return b.short(off, field, "a value")
-			}
-			n = k
-			break
-		}
-		if _, k, isExt, done := b.extHeader(); isExt || !done {
-			if !done {
-				return b.short(off, field, "a value")
-			}
-			n = k
-			break
-		}
-		k, isMap, done := b.header(msgpcode.FixedMapLow, 16, 0, msgpcode.Map16, msgpcode.Map32)
-		if isMap {
-			k *= 2
-		} else if done {
-			k, isMap, done = b.header(msgpcode.FixedArrayLow, 16, 0, msgpcode.Array16, msgpcode.Array32)
-			if done && !isMap {
-				return b.fail(off, field, invalid("the value has a type MessagePack does not define (code 0x%02x)", c))
-			}
-		}
-		if !done {
-			return b.short(off, field, "a value")
-		}
-		if depth >= MaxNesting {
-			return b.fail(off, field, invalid("values are nested more than %d deep", MaxNesting))
-		}
-		if k > b.left() {
-			return b.fail(off, field, invalid("a value claims %d entries but only %d bytes are left", k, b.left()))
-		}
-		for i := 0; i < k; i++ {
-			if ferr := b.skip(field, depth+1); ferr != nil {
-				return ferr
-			}
-		}
-		return nil
+	}
+	n, scalar, done := b.scalarSize(c)
+	if !done {
+		return b.short(off, field, "a value")
+	}
+	if !scalar {
+		return b.skipContainer(field, depth, off, c)
 	}
 	if n > b.left() {
 		return b.short(off, field, "a value")
 	}
 	b.pos += n
+	return nil
+}
+
+// scalarSize is, for a value that starts with byte c and holds no other
+// values (a number, string, binary or extension), the bytes left to pass
+// over after what it read of its header (scalar). done is false when the
+// body ends inside the header.
+func (b *bodyDecoder) scalarSize(c byte) (n int, scalar, done bool) {
+	if sz, ok := numberSize(c); ok {
+		return 1 + sz, true, true
+	}
+	if k, isStr, done := b.header(msgpcode.FixedStrLow, 32, msgpcode.Str8, msgpcode.Str16, msgpcode.Str32); isStr || !done {
+		return k, true, done
+	}
+	if k, isBin, done := b.header(0, 0, msgpcode.Bin8, msgpcode.Bin16, msgpcode.Bin32); isBin || !done {
+		return k, true, done
+	}
+	if _, k, isExt, done := b.extHeader(); isExt || !done {
+		return k, true, done
+	}
+	return 0, false, true
+}
+
+// skipContainer passes over a map or array (starting with byte c at file
+// offset off) and every value in it, one level deeper; anything else is a
+// type MessagePack does not define.
+func (b *bodyDecoder) skipContainer(field string, depth int, off int64, c byte) *FormatError {
+	k, isMap, done := b.header(msgpcode.FixedMapLow, 16, 0, msgpcode.Map16, msgpcode.Map32)
+	if isMap {
+		k *= 2
+	} else if done {
+		k, isMap, done = b.header(msgpcode.FixedArrayLow, 16, 0, msgpcode.Array16, msgpcode.Array32)
+		if done && !isMap {
+			return b.fail(off, field, invalid("the value has a type MessagePack does not define (code 0x%02x)", c))
+		}
+	}
+	if !done {
+		return b.short(off, field, "a value")
+	}
+	if depth >= MaxNesting {
+		return b.fail(off, field, invalid("values are nested more than %d deep", MaxNesting))
+	}
+	if k > b.left() {
+		return b.fail(off, field, invalid("a value claims %d entries but only %d bytes are left", k, b.left()))
+	}
+	for i := 0; i < k; i++ {
+		if ferr := b.skip(field, depth+1); ferr != nil {
+			return ferr
+		}
+	}
 	return nil
 }
 
