@@ -193,89 +193,80 @@ const adMinGain = 0.25
 const adCaution = "Before relying on the results for safety-related work, check them against the " +
 	"instrument maker's procedure and local rules."
 
-// adTry fits one remedy and scores it against the original summary.
+// adTry fits one remedy and scores it against the original summary, in
+// three stages: whether the readings allow the remedy (adDomainOf), the
+// options of its refit (adSettings) and the refit and its score (adRefit).
 func adTry(x, y []float64, opt Options, r Remedy, before CheckSummary, sc *anScratch) Candidate {
 	c := Candidate{Remedy: r}
-	o := Options{Model: ModelOLS, Level: opt.Level, SlopeRef: opt.SlopeRef, InterceptRef: opt.InterceptRef, SkipAdvice: true}
-	cost := 0.0
-	var note string
+	if why := adDomainOf(x, y, r, sc); why != "" {
+		c.Why = why
+		return c
+	}
+	o, cost, note, why := adSettings(x, y, opt, r, sc, &c)
+	if why != "" {
+		c.Why = why
+		return c
+	}
+	return adRefit(x, y, o, c, before, cost, note, sc)
+}
+
+// adDomainOf returns why the readings cannot take remedy r (a log or
+// reciprocal needs values above zero, a square root values at zero or
+// above, weights from x values other than zero, weights from repeats two
+// readings at every x), or "" when they can.
+func adDomainOf(x, y []float64, r Remedy, sc *anScratch) string {
 	switch r {
 	case RemedyLogY:
-		if why := adDomain("A log scale needs every y above zero", "y", y, adPositive); why != "" {
-			c.Why = why
-			return c
-		}
-		o.Transform = TransformLogY
+		return adDomain("A log scale needs every y above zero", "y", y, adPositive)
 	case RemedyLogLog:
 		if why := adDomain("A log–log scale needs every x above zero", "x", x, adPositive); why != "" {
-			c.Why = why
-			return c
+			return why
 		}
-		if why := adDomain("A log–log scale needs every y above zero", "y", y, adPositive); why != "" {
-			c.Why = why
-			return c
+		return adDomain("A log–log scale needs every y above zero", "y", y, adPositive)
+	case RemedySqrtY:
+		return adDomain("A square-root scale needs every y at zero or above", "y", y, adNonNegative)
+	case RemedyReciprocal:
+		return adDomain("A reciprocal scale needs every y above zero", "y", y, adPositive)
+	case RemedyBoxCox:
+		return adDomain("The Box–Cox transform needs every y above zero", "y", y, adPositive)
+	case RemedyWeighted:
+		return adDomain("Weights that follow a power of x need every x other than zero", "x", x, adNonZero)
+	case RemedyWeightedX2:
+		return adDomain("Weights 1/x² need every x other than zero", "x", x, adNonZero)
+	case RemedyWeightedRepeats:
+		// Checked on the analysis's sorted order of x first, so that a
+		// record without repeats costs no refit (and no second sort).
+		if i, ok := adEveryXRepeated(x, sc.orderOf(x)); !ok {
+			return fmt.Sprintf("Weights from repeats need at least two readings at every x; reading %d (x = %s) has none beside it.", i+1, ckG4(x[i]))
 		}
+	}
+	return ""
+}
+
+// adSettings returns the options of the refit for remedy r, its cost in
+// the score (documented on advise) and the note that tells what it
+// assumed; for Box–Cox it also writes c.Lambda, and why is the reason
+// when the power found asks for no change of scale.
+func adSettings(x, y []float64, opt Options, r Remedy, sc *anScratch, c *Candidate) (o Options, cost float64, note, why string) {
+	o = Options{Model: ModelOLS, Level: opt.Level, SlopeRef: opt.SlopeRef, InterceptRef: opt.InterceptRef, SkipAdvice: true}
+	switch r {
+	case RemedyLogY:
+		o.Transform = TransformLogY
+	case RemedyLogLog:
 		o.Transform = TransformLogLog
 	case RemedySqrtY:
-		if why := adDomain("A square-root scale needs every y at zero or above", "y", y, adNonNegative); why != "" {
-			c.Why = why
-			return c
-		}
 		o.Transform = TransformSqrtY
 		cost = 0.25
 	case RemedyReciprocal:
-		if why := adDomain("A reciprocal scale needs every y above zero", "y", y, adPositive); why != "" {
-			c.Why = why
-			return c
-		}
 		o.Transform = TransformReciprocal
 		cost = 0.5
 	case RemedyBoxCox:
-		if why := adDomain("The Box–Cox transform needs every y above zero", "y", y, adPositive); why != "" {
-			c.Why = why
-			return c
-		}
-		bc, err := sc.boxCox(x, y, opt.Level)
-		if err != nil {
-			c.Why = "The Box–Cox power could not be estimated: " + err.Error() + "."
-			return c
-		}
-		lam := bc.Lambda
-		c.Lambda = lam
-		if (bc.CILow <= 1 && 1 <= bc.CIHigh) || math.Abs(lam-1) < 0.1 {
-			// λ = 1 is the scale of the readings themselves, and a power
-			// within 0.1 of it is no change a technician could explain: a
-			// Box–Cox fit there would only look better by chance.
-			c.Why = fmt.Sprintf("The Box–Cox power λ = %.3g (interval %.3g to %.3g) is at or next to 1: the readings themselves do not ask for a change of scale.", lam, bc.CILow, bc.CIHigh)
-			return c
-		}
-		o.Transform = TransformBoxCox
-		o.BoxCoxLambda = &lam
-		cost = 0.75
-		note = fmt.Sprintf("λ = %.3g (%g %% interval %.3g to %.3g).", lam, 100*adLevel(opt.Level), bc.CILow, bc.CIHigh)
-		for _, s := range []struct {
-			lam  float64
-			name string
-		}{{0, "the plain log scale"}, {0.5, "the square-root scale"}, {-1, "the reciprocal scale"}} {
-			if bc.CILow <= s.lam && s.lam <= bc.CIHigh {
-				cost += 0.75
-				note += fmt.Sprintf(" The interval contains %g, so %s does the same job more simply.", s.lam, s.name)
-				break
-			}
-		}
+		cost, note, why = adBoxCoxSettings(x, y, opt.Level, sc, c, &o)
 	case RemedyWeighted:
-		if why := adDomain("Weights that follow a power of x need every x other than zero", "x", x, adNonZero); why != "" {
-			c.Why = why
-			return c
-		}
 		o.Weights = WeightsPowerFit
 		o.Model = ModelWeighted
 		cost = 0.5
 	case RemedyWeightedX2:
-		if why := adDomain("Weights 1/x² need every x other than zero", "x", x, adNonZero); why != "" {
-			c.Why = why
-			return c
-		}
 		o.Weights, o.Model = WeightsX2, ModelWeighted
 		cost = 0.25
 		note = "Scatter taken to grow in proportion to x."
@@ -284,28 +275,64 @@ func adTry(x, y []float64, opt Options, r Remedy, before CheckSummary, sc *anScr
 		cost = 0.25
 		note = "Scatter taken to grow in proportion to the reading."
 	case RemedyWeightedRepeats:
-		// Checked on the analysis's sorted order of x first, so that a
-		// record without repeats costs no refit (and no second sort).
-		if i, ok := adEveryXRepeated(x, sc.orderOf(x)); !ok {
-			c.Why = fmt.Sprintf("Weights from repeats need at least two readings at every x; reading %d (x = %s) has none beside it.", i+1, ckG4(x[i]))
-			return c
-		}
 		o.Weights, o.Model = WeightsRepeats, ModelWeighted
 		cost = 0.5
 		note = "Scatter taken from the repeats at each standard."
 	}
+	return o, cost, note, why
+}
+
+// adBoxCoxSettings estimates the Box–Cox power λ of the readings (at the
+// level), writes it into c.Lambda and sets o to refit at it. It returns
+// why instead when λ cannot be estimated or is at or next to 1; the cost
+// is 0.75, plus 0.75 when λ's interval contains 0, ½ or −1 (the simpler
+// scale the note then names).
+func adBoxCoxSettings(x, y []float64, level float64, sc *anScratch, c *Candidate, o *Options) (cost float64, note, why string) {
+	bc, err := sc.boxCox(x, y, level)
+	if err != nil {
+		return 0, "", "The Box–Cox power could not be estimated: " + err.Error() + "."
+	}
+	lam := bc.Lambda
+	c.Lambda = lam
+	if (bc.CILow <= 1 && 1 <= bc.CIHigh) || math.Abs(lam-1) < 0.1 {
+		// λ = 1 is the scale of the readings themselves, and a power
+		// within 0.1 of it is no change a technician could explain: a
+		// Box–Cox fit there would only look better by chance.
+		return 0, "", fmt.Sprintf("The Box–Cox power λ = %.3g (interval %.3g to %.3g) is at or next to 1: the readings themselves do not ask for a change of scale.", lam, bc.CILow, bc.CIHigh)
+	}
+	o.Transform = TransformBoxCox
+	o.BoxCoxLambda = &lam
+	cost = 0.75
+	note = fmt.Sprintf("λ = %.3g (%g %% interval %.3g to %.3g).", lam, 100*adLevel(level), bc.CILow, bc.CIHigh)
+	for _, s := range []struct {
+		lam  float64
+		name string
+	}{{0, "the plain log scale"}, {0.5, "the square-root scale"}, {-1, "the reciprocal scale"}} {
+		if bc.CILow <= s.lam && s.lam <= bc.CIHigh {
+			cost += 0.75
+			note += fmt.Sprintf(" The interval contains %g, so %s does the same job more simply.", s.lam, s.name)
+			break
+		}
+	}
+	return cost, note, ""
+}
+
+// adRefit refits the readings with the remedy's options o and fills in c:
+// its summary, line and score against before (less cost), or why the
+// refit failed.
+func adRefit(x, y []float64, o Options, c Candidate, before CheckSummary, cost float64, note string, sc *anScratch) Candidate {
 	sc.refit = true
 	rep, err := analyze(x, y, o, sc)
 	sc.refit = false
 	if err != nil {
-		if _, _, ws := r.Settings(); ws != WeightsNone {
+		if _, _, ws := c.Remedy.Settings(); ws != WeightsNone {
 			c.Why = "These weights cannot be used on these readings: " + err.Error() + "."
 		} else {
 			c.Why = "The refit on this scale failed: " + err.Error() + "."
 		}
 		return c
 	}
-	if r == RemedyWeighted {
+	if c.Remedy == RemedyWeighted {
 		c.Power = rep.WeightPower
 		note = fmt.Sprintf("Scatter taken to grow as |x|^%.2g.", c.Power)
 	}

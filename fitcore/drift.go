@@ -70,6 +70,10 @@ type DriftResult struct {
 // practice, the same inversion as an inverse prediction's interval).
 //
 // Fewer than 3 calibrations give Status DriftTooFew and nothing else.
+//
+// The stages: the weights and weighted means (driftSums), the line and
+// its scale (fit), the results with their interval and verdict (report),
+// then the first limit the line leaves (leaves).
 func Drift(t, v, se []float64, level float64, lower, upper *float64) (*DriftResult, error) {
 	if len(t) != len(v) || len(t) != len(se) {
 		return nil, errors.New("drift: times, values and standard errors must have the same length")
@@ -83,6 +87,30 @@ func Drift(t, v, se []float64, level float64, lower, upper *float64) (*DriftResu
 		res.Status = DriftTooFew
 		return res, nil
 	}
+	d, err := driftSums(t, v, se)
+	if err != nil {
+		return nil, err
+	}
+	if err := d.fit(t, v); err != nil {
+		return nil, err
+	}
+	d.report(res, level, float64(len(t)-2))
+	res.Leaves = d.leaves(lower, upper)
+	return res, nil
+}
+
+// driftLine is the weighted fit of Drift as it is built: the weights w,
+// Σw, the weighted means t̄ and v̄, the last time, Σw(t−t̄)², the rate r,
+// s², and k = t²·s² for the crossings.
+type driftLine struct {
+	w                []float64
+	sw, tb, vb, tmax float64
+	stt, r, s2, k    float64
+}
+
+// driftSums checks every calibration and works out the weights, Σw and
+// the weighted means of t and v.
+func driftSums(t, v, se []float64) (*driftLine, error) {
 	var sw, swt, swv, tmax float64
 	tmax = math.Inf(-1)
 	w := make([]float64, len(t))
@@ -99,30 +127,43 @@ func Drift(t, v, se []float64, level float64, lower, upper *float64) (*DriftResu
 		swv += w[i] * v[i]
 		tmax = math.Max(tmax, t[i])
 	}
-	tb, vb := swt/sw, swv/sw
+	return &driftLine{w: w, sw: sw, tb: swt / sw, vb: swv / sw, tmax: tmax}, nil
+}
+
+// fit works out Σw(t−t̄)², the rate r and s² = Σw e²/(N−2); the dates must
+// not all be the same.
+func (d *driftLine) fit(t, v []float64) error {
 	var stt, stv float64
 	for i := range t {
-		dt := t[i] - tb
-		stt += w[i] * dt * dt
-		stv += w[i] * dt * (v[i] - vb)
+		dt := t[i] - d.tb
+		stt += d.w[i] * dt * dt
+		stv += d.w[i] * dt * (v[i] - d.vb)
 	}
 	if !(stt > 0) {
-		return nil, errors.New("drift: the calibrations need at least two different dates")
+		return errors.New("drift: the calibrations need at least two different dates")
 	}
 	r := stv / stt
 	var sse float64
 	for i := range t {
-		e := v[i] - vb - r*(t[i]-tb)
-		sse += w[i] * e * e
+		e := v[i] - d.vb - r*(t[i]-d.tb)
+		sse += d.w[i] * e * e
 	}
-	df := float64(len(t) - 2)
-	s2 := sse / df
+	d.stt, d.r = stt, r
+	d.s2 = sse / float64(len(t)-2)
+	return nil
+}
+
+// report writes the rate, intercept, their standard errors, the interval
+// of the rate at the level (df degrees of freedom), its p and the verdict
+// into res.
+func (d *driftLine) report(res *DriftResult, level, df float64) {
+	r, s2, tb := d.r, d.s2, d.tb
 	res.Sigma = math.Sqrt(s2)
 	res.Rate = r
-	res.RateSE = math.Sqrt(s2 / stt)
+	res.RateSE = math.Sqrt(s2 / d.stt)
 	res.MeanT = tb
-	res.Intercept = vb - r*tb
-	res.InterceptSE = math.Sqrt(s2 * (1/sw + tb*tb/stt))
+	res.Intercept = d.vb - r*tb
+	res.InterceptSE = math.Sqrt(s2 * (1/d.sw + tb*tb/d.stt))
 	tc := lnTCrit(level, df)
 	res.RateLow, res.RateHigh = r-tc*res.RateSE, r+tc*res.RateSE
 	res.P = lnTwoSidedP(lnRatio(r, res.RateSE), df)
@@ -130,39 +171,48 @@ func Drift(t, v, se []float64, level float64, lower, upper *float64) (*DriftResu
 	if res.P < DriftAlpha {
 		res.Status = DriftDrifting
 	}
-	k := tc * tc * s2
-	cross := func(side string, lim float64) *LimitCrossing {
-		if r == 0 {
-			return nil
-		}
-		at := tb + (lim-vb)/r
-		if !(at > tmax) {
-			return nil
-		}
-		c := &LimitCrossing{Side: side, Limit: lim, At: at}
-		d := lim - vb
-		a := r*r - k/stt
-		b := -2 * r * d
-		cc := d*d - k/sw
-		disc := b*b - 4*a*cc
-		if a > 0 && disc >= 0 {
-			q := math.Sqrt(disc)
-			u1, u2 := (-b-q)/(2*a), (-b+q)/(2*a)
-			c.Low, c.High, c.Bounded = tb+math.Min(u1, u2), tb+math.Max(u1, u2), true
-		}
-		return c
-	}
+	d.k = tc * tc * s2
+}
+
+// leaves returns the first limit the line reaches after the last time:
+// the lower one when it falls, the upper one when it rises (nil: none).
+func (d *driftLine) leaves(lower, upper *float64) *LimitCrossing {
 	var best *LimitCrossing
-	if lower != nil && r < 0 {
-		best = cross("lower", *lower)
+	if lower != nil && d.r < 0 {
+		best = d.cross("lower", *lower)
 	}
-	if upper != nil && r > 0 {
-		if c := cross("upper", *upper); c != nil && (best == nil || c.At < best.At) {
+	if upper != nil && d.r > 0 {
+		if c := d.cross("upper", *upper); c != nil && (best == nil || c.At < best.At) {
 			best = c
 		}
 	}
-	res.Leaves = best
-	return res, nil
+	return best
+}
+
+// cross is where the line meets lim, with the band-inversion interval
+// documented on Drift, or nil when it does not meet it after the last
+// time.
+func (d *driftLine) cross(side string, lim float64) *LimitCrossing {
+	r, tb, vb := d.r, d.tb, d.vb
+	if r == 0 {
+		return nil
+	}
+	at := tb + (lim-vb)/r
+	if !(at > d.tmax) {
+		return nil
+	}
+	c := &LimitCrossing{Side: side, Limit: lim, At: at}
+	dl := lim - vb
+	a := r*r - d.k/d.stt
+	b := -2 * r * dl
+	cc := dl*dl - d.k/d.sw
+	disc := b*b - 4*a*cc
+	if a > 0 && disc >= 0 {
+		q := math.Sqrt(disc)
+		u1, u2 := (-b-q)/(2*a), (-b+q)/(2*a)
+		c.Low, c.High, c.Bounded = tb+math.Min(u1, u2), tb+math.Max(u1, u2), true
+	}
+	return c
 }
 
 func finiteWithin(v float64) bool {

@@ -88,27 +88,14 @@ func DurbinWatsonWeighted(x, pearson, w []float64, origin bool) Check {
 func dwNearThreshold(pBeta float64) bool { return pBeta >= CheckFailP/3 && pBeta <= 5*CheckWarnP }
 
 // durbinWatsonW is DurbinWatsonWeighted with what is known about x in pre
-// (nil: validate the inputs here).
+// (nil: validate the inputs here). The stages: check the inputs and work
+// out d (dwInputs), choose between the exact p and the beta approximation
+// (dwMethod), then word the verdict (dwWord).
 func durbinWatsonW(x, resid, w []float64, origin bool, pre *ckPre) Check {
 	const name = "Durbin–Watson"
-	if pre == nil || !pre.residValid {
-		if s := ckValidate(x, resid, w, "residual"); s != "" {
-			return ckNA(name, s)
-		}
-	} else if s := ckWeights(w, len(x)); s != "" {
-		return ckNA(name, s)
-	}
-	n := len(x)
-	k := 2
-	if origin {
-		k = 1
-	}
-	if n < k+2 {
-		return ckNA(name, fmt.Sprintf("The Durbin–Watson check needs at least %d readings for this fit; there are %d.", k+2, n))
-	}
-	d, ok := ckDWStat(resid)
-	if !ok {
-		return ckNA(name, "The residuals are all zero, so there is no pattern in their order to test.")
+	d, k, why := dwInputs(x, resid, w, origin, pre)
+	if why != "" {
+		return ckNA(name, why)
 	}
 	var shared *dwShared
 	if pre != nil {
@@ -118,10 +105,55 @@ func durbinWatsonW(x, resid, w []float64, origin bool, pre *ckPre) Check {
 	if !ok {
 		return ckNA(name, "The x values do not spread enough to judge the order of the residuals.")
 	}
-	c := Check{Name: name, Statistic: d, DF: float64(n - k)}
+	c := Check{Name: name, Statistic: d, DF: float64(len(x) - k)}
+	cdf, how, ok := dwMethod(dz, d, mean, variance, len(x), pre)
+	if !ok {
+		c.Verdict, c.P = NA, 1
+		c.Message = fmt.Sprintf("Durbin–Watson d = %.3f, but too few readings to judge it.", d)
+		return c
+	}
+	p := ckClampP(2 * math.Min(cdf, 1-cdf))
+	c.P = p
+	c.Verdict = ckVerdict(p, ckWarnP, ckFailP)
+	c.Message = dwWord(c.Verdict, d, mean, p, how)
+	return c
+}
+
+// dwInputs checks the inputs of durbinWatsonW (validated here unless pre
+// says they were) and returns d, the number of line parameters k, or why
+// the check does not apply.
+func dwInputs(x, resid, w []float64, origin bool, pre *ckPre) (d float64, k int, why string) {
+	if pre == nil || !pre.residValid {
+		if s := ckValidate(x, resid, w, "residual"); s != "" {
+			return 0, 0, s
+		}
+	} else if s := ckWeights(w, len(x)); s != "" {
+		return 0, 0, s
+	}
+	n := len(x)
+	k = 2
+	if origin {
+		k = 1
+	}
+	if n < k+2 {
+		return 0, 0, fmt.Sprintf("The Durbin–Watson check needs at least %d readings for this fit; there are %d.", k+2, n)
+	}
+	d, ok := ckDWStat(resid)
+	if !ok {
+		return 0, 0, "The residuals are all zero, so there is no pattern in their order to test."
+	}
+	return d, k, ""
+}
+
+// dwMethod is the null cdf of d for n readings and how it was found: the
+// exact distribution (Imhof) up to DWExactMax readings, else the beta
+// approximation; the beta value also far in the tail, where Imhof cannot
+// resolve the p, and for the advice's refits (pre.quick) away from the
+// thresholds. ok is false when neither gives a value.
+func dwMethod(dz *dwDesign, d, mean, variance float64, n int, pre *ckPre) (cdf float64, how string, ok bool) {
 	bcdf, bok := ckDWBetaCDF(d, mean, variance)
 	exact := n <= DWExactMax
-	how := "exact"
+	how = "exact"
 	if bok && math.Min(bcdf, 1-bcdf) < dwTailCut {
 		// Imhof's integral cannot resolve a p this small (its absolute
 		// error is about 1e-10), so the beta value is kept and said so.
@@ -135,7 +167,7 @@ func durbinWatsonW(x, resid, w []float64, origin bool, pre *ckPre) Check {
 			exact, how = false, "beta approximation"
 		}
 	}
-	cdf := bcdf
+	cdf = bcdf
 	ok = bok
 	if exact {
 		if f, fok := dz.cdf(d); fok {
@@ -146,27 +178,24 @@ func durbinWatsonW(x, resid, w []float64, origin bool, pre *ckPre) Check {
 	} else if how == "exact" {
 		how = "beta approximation"
 	}
-	if !ok {
-		c.Verdict, c.P = NA, 1
-		c.Message = fmt.Sprintf("Durbin–Watson d = %.3f, but too few readings to judge it.", d)
-		return c
-	}
-	p := ckClampP(2 * math.Min(cdf, 1-cdf))
-	c.P = p
-	c.Verdict = ckVerdict(p, ckWarnP, ckFailP)
+	return cdf, how, ok
+}
+
+// dwWord is the message of the verdict v for d (below its null mean:
+// drift; above: alternation), with p and the method.
+func dwWord(v Verdict, d, mean, p float64, how string) string {
 	what := "neighbouring readings tend to sit on the same side of the line (drift)"
 	if d > mean {
 		what = "neighbouring readings tend to alternate about the line"
 	}
-	switch c.Verdict {
+	switch v {
 	case Fail:
-		c.Message = fmt.Sprintf("In the order entered, %s (Durbin–Watson d = %.3f, %s, %s).", what, d, ckFmtP(p), how)
+		return fmt.Sprintf("In the order entered, %s (Durbin–Watson d = %.3f, %s, %s).", what, d, ckFmtP(p), how)
 	case Warn:
-		c.Message = fmt.Sprintf("In the order entered, there are signs that %s (Durbin–Watson d = %.3f, %s, %s).", what, d, ckFmtP(p), how)
+		return fmt.Sprintf("In the order entered, there are signs that %s (Durbin–Watson d = %.3f, %s, %s).", what, d, ckFmtP(p), how)
 	default:
-		c.Message = fmt.Sprintf("In the order entered, the residuals look independent (Durbin–Watson d = %.3f, %s, %s).", d, ckFmtP(p), how)
+		return fmt.Sprintf("In the order entered, the residuals look independent (Durbin–Watson d = %.3f, %s, %s).", d, ckFmtP(p), how)
 	}
-	return c
 }
 
 // dwShared keeps the design of the last x the Durbin–Watson check saw
@@ -257,63 +286,93 @@ type dwDesign struct {
 // false when the x column is, to 1e-10 of its norm, a multiple of the
 // first (no spread).
 func newDWDesign(x, w []float64, origin bool) (*dwDesign, bool) {
-	n := len(x)
-	dz := &dwDesign{n: n}
-	sw := func(int) float64 { return 1 }
-	if w != nil {
-		wk := ckWeightScale(w)
-		sw = func(t int) float64 { return math.Sqrt(w[t] * wk) }
-	}
-	normalize := func(v []float64) float64 {
-		var big float64
-		for _, a := range v {
-			big = max(big, math.Abs(a))
-		}
-		if big == 0 || !ckFinite(big) {
-			return 0
-		}
-		var ss float64
-		for _, a := range v {
-			a /= big
-			ss += a * a
-		}
-		nrm := big * math.Sqrt(ss)
-		for i := range v {
-			v[i] /= nrm
-		}
-		return nrm
-	}
+	sw := dwRootWeights(w)
 	if origin {
-		var big float64
-		for _, v := range x {
-			big = max(big, math.Abs(v))
-		}
-		if big == 0 || !ckFinite(big) {
+		u, ok := dwOriginColumn(x, sw)
+		if !ok {
 			return nil, false
 		}
-		u := make([]float64, n)
-		for t, v := range x {
-			u[t] = sw(t) * (v / big)
-		}
-		if normalize(u) == 0 {
-			return nil, false
-		}
-		dz.u[0], dz.k = u, 1
-		return dz, true
+		return &dwDesign{n: len(x), u: [2][]float64{u}, k: 1}, true
 	}
-	m, s := ckMeanSD(x)
-	if s == 0 || !ckFinite(s) {
+	u1, u2, ok := dwLineColumns(x, sw)
+	if !ok {
 		return nil, false
 	}
-	u1 := make([]float64, n)
-	u2 := make([]float64, n)
+	return &dwDesign{n: len(x), u: [2][]float64{u1, u2}, k: 2}, true
+}
+
+// dwRootWeights is t ↦ √w_t, the weights scaled by ckWeightScale (1
+// without weights).
+func dwRootWeights(w []float64) func(int) float64 {
+	if w == nil {
+		return func(int) float64 { return 1 }
+	}
+	wk := ckWeightScale(w)
+	return func(t int) float64 { return math.Sqrt(w[t] * wk) }
+}
+
+// dwNormalize scales v to unit length (its norm found through v/max|v| so
+// that it cannot overflow) and returns the norm, or 0, leaving v as it
+// is, when v is zero or not finite.
+func dwNormalize(v []float64) float64 {
+	var big float64
+	for _, a := range v {
+		big = max(big, math.Abs(a))
+	}
+	if big == 0 || !ckFinite(big) {
+		return 0
+	}
+	var ss float64
+	for _, a := range v {
+		a /= big
+		ss += a * a
+	}
+	nrm := big * math.Sqrt(ss)
+	for i := range v {
+		v[i] /= nrm
+	}
+	return nrm
+}
+
+// dwOriginColumn is the one column of a line through the origin,
+// √w·x/max|x| normalized; ok is false when x is zero or not finite.
+func dwOriginColumn(x []float64, sw func(int) float64) ([]float64, bool) {
+	var big float64
+	for _, v := range x {
+		big = max(big, math.Abs(v))
+	}
+	if big == 0 || !ckFinite(big) {
+		return nil, false
+	}
+	u := make([]float64, len(x))
+	for t, v := range x {
+		u[t] = sw(t) * (v / big)
+	}
+	if dwNormalize(u) == 0 {
+		return nil, false
+	}
+	return u, true
+}
+
+// dwLineColumns are the two orthonormal columns of a line with an
+// intercept: √w normalized, and √w·z, z = (x − mean)/sd, made orthogonal
+// to it by Gram–Schmidt twice, then normalized; ok is false when x has no
+// spread (what is left of the second column is below 1e-10 of it).
+func dwLineColumns(x []float64, sw func(int) float64) (u1, u2 []float64, ok bool) {
+	m, s := ckMeanSD(x)
+	if s == 0 || !ckFinite(s) {
+		return nil, nil, false
+	}
+	n := len(x)
+	u1 = make([]float64, n)
+	u2 = make([]float64, n)
 	for t, v := range x {
 		st := sw(t)
 		u1[t] = st
 		u2[t] = st * ((v - m) / s)
 	}
-	if normalize(u1) == 0 {
-		return nil, false
+	if dwNormalize(u1) == 0 {
+		return nil, nil, false
 	}
 	var before float64
 	for _, a := range u2 {
@@ -332,11 +391,10 @@ func newDWDesign(x, w []float64, origin bool) (*dwDesign, bool) {
 	for _, a := range u2 {
 		after += a * a
 	}
-	if !(math.Sqrt(after) > 1e-10*math.Sqrt(before)) || normalize(u2) == 0 {
-		return nil, false
+	if !(math.Sqrt(after) > 1e-10*math.Sqrt(before)) || dwNormalize(u2) == 0 {
+		return nil, nil, false
 	}
-	dz.u[0], dz.u[1], dz.k = u1, u2, 2
-	return dz, true
+	return u1, u2, true
 }
 
 // dwA applies the first-difference matrix A to v at t.

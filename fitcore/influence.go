@@ -123,10 +123,13 @@ func ckInfluenceFromMasks(masks []uint8) Assumption {
 // influenceRun computes the diagnostics of Influence and the bits of the
 // reasons of every reading (masks; nil when Influence returns nil). With
 // keep it also returns the per-reading results with their reasons
-// written; without, only the bits. pr, when not nil, holds the Pearson
-// residuals √w_i·e_i as the checks made them (math.Sqrt(w[i])·resid[i],
-// the same expression, so the same bits), read instead of being worked
-// out three times over.
+// written; without, only the bits. The stages: check the input, set up
+// the scaled residuals and the t distribution of the deleted fits
+// (newInfluenceStats), work out each reading (point), then write the
+// reasons of the flagged readings into one buffer (writeInfluenceReasons).
+// pr, when not nil, holds the Pearson residuals √w_i·e_i as the checks
+// made them (math.Sqrt(w[i])·resid[i], the same expression, so the same
+// bits), read instead of being worked out again.
 func influenceRun(x, resid, w, pr []float64, origin, valid, keep bool) (out []PointInfluence, masks []uint8) {
 	if !valid && ckValidate(x, resid, w, "residual") != "" {
 		return nil, nil
@@ -143,45 +146,7 @@ func influenceRun(x, resid, w, pr []float64, origin, valid, keep bool) (out []Po
 	if !ok {
 		return nil, nil
 	}
-	nf, pf := float64(n), float64(p)
-	// r_i = √w_i·e_i, evaluated where needed.
-	rAt := func(i int) float64 {
-		if w == nil {
-			return resid[i]
-		}
-		return math.Sqrt(w[i]) * resid[i]
-	}
-	if w != nil && len(pr) == n {
-		rAt = func(i int) float64 { return pr[i] }
-	}
-	var big float64
-	for i := range resid {
-		big = max(big, math.Abs(rAt(i)))
-	}
-	// Work with r scaled by its largest magnitude so S cannot overflow.
-	var sse float64
-	if big > 0 {
-		for i := range resid {
-			v := rAt(i) / big
-			sse += v * v
-		}
-	}
-	dfRes := nf - pf
-	s2 := sse / dfRes
-	dfDel := dfRes - 1
-	var tdist distuv.StudentsT
-	// Below |t| = tOne the Bonferroni p, n·2·P(T > |t|), is at least 1 and
-	// so exactly 1 after capping: skip the incomplete-beta call there.
-	tOne := 0.0
-	if dfDel >= 1 {
-		tdist = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: dfDel}
-		tOne = tdist.Quantile(1 - 1/(2*nf))
-		if !ckFinite(tOne) {
-			tOne = 0
-		}
-	}
-	cut := newInfluenceCuts(pf, nf, dfRes, dfDel >= 1)
-
+	st := newInfluenceStats(resid, w, pr, float64(n), float64(p))
 	if keep {
 		out = make([]PointInfluence, n)
 	}
@@ -195,65 +160,145 @@ func influenceRun(x, resid, w, pr []float64, origin, valid, keep bool) (out []Po
 		if keep {
 			pi = &out[i]
 		}
-		h := lev.at(i)
-		pi.Index, pi.Leverage, pi.Residual, pi.OutlierP = i, h, resid[i], 1
-		pi.CooksD, pi.Studentized, pi.DFFITS = 0, 0, 0
-		ri := 0.0
-		if big > 0 {
-			ri = rAt(i) / big
-		}
-		var m uint8
-		switch {
-		case h >= 1-1e-12:
-			pi.Leverage = math.Min(h, 1)
-			m = 1 << ckBitLeverageOne
-		case sse == 0:
-			// All residuals zero: nothing stands out.
-		default:
-			om := 1 - h
-			if s2 > 0 {
-				pi.CooksD = ri * ri * h / (pf * s2 * om * om)
-			}
-			if dfDel >= 1 {
-				sd2 := (sse - ri*ri/om) / dfDel
-				var t float64
-				if sd2 > 1e-24*sse {
-					t = ri / math.Sqrt(sd2*om)
-				} else if ri != 0 {
-					t = math.Copysign(ckStudentCap, ri)
-				}
-				if math.Abs(t) > ckStudentCap {
-					t = math.Copysign(ckStudentCap, t)
-				}
-				pi.Studentized = t
-				if math.Abs(t) > tOne {
-					pi.OutlierP = ckClampP(nf * 2 * tdist.Survival(math.Abs(t)))
-				}
-				pi.DFFITS = t * math.Sqrt(h/om)
-			}
-		}
-		if !ckFinite(pi.CooksD) {
-			pi.CooksD = 0
-		}
-		if !ckFinite(pi.DFFITS) {
-			pi.DFFITS = 0
-		}
-		m |= cut.mask(pi)
-		if m != 0 {
+		if m := st.point(pi, i, lev.at(i)); m != 0 {
 			masks[i] = m
 			pi.Flagged = true
 			nReasons += bits.OnesCount8(m)
 		}
 	}
 	if keep && nReasons > 0 {
-		rw := newReasonWriter(nReasons)
-		for i, m := range masks {
-			if m != 0 {
-				out[i].Reasons = rw.write(&out[i], m, &cut)
-			}
-		}
+		writeInfluenceReasons(out, masks, nReasons, &st.cut)
 	}
 	return out, masks
+}
+
+// ckInfluenceStats is what every reading's diagnostics share: the
+// residuals r_i = √w_i·e_i scaled by their largest magnitude big (so that
+// S = Σ(r_i/big)² cannot overflow), s² = S/(n − p), the degrees of freedom
+// of a deleted fit, the t distribution with them and the thresholds.
+type ckInfluenceStats struct {
+	resid, w    []float64
+	pr          []float64 // the Pearson residuals the checks made, or nil (r works them out)
+	big, sse    float64
+	nf, pf, s2  float64
+	dfDel, tOne float64
+	tdist       distuv.StudentsT
+	cut         ckInfluenceCuts
+}
+
+// newInfluenceStats sets up the shared part of influenceRun for n = nf
+// readings and p = pf parameters.
+func newInfluenceStats(resid, w, pr []float64, nf, pf float64) ckInfluenceStats {
+	st := ckInfluenceStats{resid: resid, w: w, nf: nf, pf: pf}
+	if w != nil && len(pr) == len(resid) {
+		st.pr = pr
+	}
+	for i := range resid {
+		st.big = max(st.big, math.Abs(st.r(i)))
+	}
+	if st.big > 0 {
+		for i := range resid {
+			v := st.r(i) / st.big
+			st.sse += v * v
+		}
+	}
+	dfRes := nf - pf
+	st.s2 = st.sse / dfRes
+	st.dfDel = dfRes - 1
+	// Below |t| = tOne the Bonferroni p, n·2·P(T > |t|), is at least 1 and
+	// so exactly 1 after capping: skip the incomplete-beta call there.
+	if st.dfDel >= 1 {
+		st.tdist = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: st.dfDel}
+		st.tOne = st.tdist.Quantile(1 - 1/(2*nf))
+		if !ckFinite(st.tOne) {
+			st.tOne = 0
+		}
+	}
+	st.cut = newInfluenceCuts(pf, nf, dfRes, st.dfDel >= 1)
+	return st
+}
+
+// r is r_i = √w_i·e_i (e_i without weights).
+func (st *ckInfluenceStats) r(i int) float64 {
+	if st.w == nil {
+		return st.resid[i]
+	}
+	if st.pr != nil {
+		return st.pr[i]
+	}
+	return math.Sqrt(st.w[i]) * st.resid[i]
+}
+
+// point writes reading i's diagnostics (leverage h) into pi, all but its
+// reasons, and returns the bits of the reasons it is flagged for.
+func (st *ckInfluenceStats) point(pi *PointInfluence, i int, h float64) uint8 {
+	pi.Index, pi.Leverage, pi.Residual, pi.OutlierP = i, h, st.resid[i], 1
+	pi.CooksD, pi.Studentized, pi.DFFITS = 0, 0, 0
+	var m uint8
+	switch {
+	case h >= 1-1e-12:
+		pi.Leverage = math.Min(h, 1)
+		m = 1 << ckBitLeverageOne
+	case st.sse == 0:
+		// All residuals zero: nothing stands out.
+	default:
+		st.deleted(pi, i, h)
+	}
+	if !ckFinite(pi.CooksD) {
+		pi.CooksD = 0
+	}
+	if !ckFinite(pi.DFFITS) {
+		pi.DFFITS = 0
+	}
+	return m | st.cut.mask(pi)
+}
+
+// deleted works out Cook's distance, the externally studentized residual
+// t (capped at ±ckStudentCap), its Bonferroni p and DFFITS of reading i
+// with leverage h < 1:
+//
+//	D = r²h/(p·s²·(1−h)²),  s²₍ᵢ₎ = (S − r²/(1−h))/(n−p−1),
+//	t = r/√(s²₍ᵢ₎(1−h)),  DFFITS = t·√(h/(1−h))
+//
+// (r and S scaled by big, which cancels in every ratio).
+func (st *ckInfluenceStats) deleted(pi *PointInfluence, i int, h float64) {
+	ri := 0.0
+	if st.big > 0 {
+		ri = st.r(i) / st.big
+	}
+	om := 1 - h
+	if st.s2 > 0 {
+		pi.CooksD = ri * ri * h / (st.pf * st.s2 * om * om)
+	}
+	if st.dfDel < 1 {
+		return
+	}
+	sd2 := (st.sse - ri*ri/om) / st.dfDel
+	var t float64
+	if sd2 > 1e-24*st.sse {
+		t = ri / math.Sqrt(sd2*om)
+	} else if ri != 0 {
+		t = math.Copysign(ckStudentCap, ri)
+	}
+	if math.Abs(t) > ckStudentCap {
+		t = math.Copysign(ckStudentCap, t)
+	}
+	pi.Studentized = t
+	if math.Abs(t) > st.tOne {
+		pi.OutlierP = ckClampP(st.nf * 2 * st.tdist.Survival(math.Abs(t)))
+	}
+	pi.DFFITS = t * math.Sqrt(h/om)
+}
+
+// writeInfluenceReasons writes the reasons of every flagged reading of out
+// (its bits in masks, nReasons in all) into one buffer.
+func writeInfluenceReasons(out []PointInfluence, masks []uint8, nReasons int, cut *ckInfluenceCuts) {
+	rw := newReasonWriter(nReasons)
+	for i, m := range masks {
+		if m != 0 {
+			out[i].Reasons = rw.write(&out[i], m, cut)
+		}
+	}
 }
 
 // The reasons Influence can give a reading, in the order they are listed.

@@ -227,52 +227,11 @@ func curvatureGap(x, y, w []float64, origin bool) (gap, pct, sq float64, ok bool
 	if !okl || len(x) < 3 {
 		return 0, 0, 0, false
 	}
-	lo, hi := x[0], x[0]
-	var sw, swx float64
-	for i, v := range x {
-		lo, hi = min(lo, v), max(hi, v)
-		sw += ckW(w, i)
-		swx += ckW(w, i) * v
+	lo, hi, m := curvRangeMean(x, w)
+	q0, q1, q2, okq := curvQuadratic(x, y, w, m)
+	if !okq {
+		return 0, 0, 0, false
 	}
-	m := swx / sw
-	// Normal equations of y = a0 + a1·u + a2·u², u = x − m (with origin the
-	// line has no intercept but the quadratic's gap is judged the same way).
-	var s [5]float64
-	var t [3]float64
-	for i, v := range x {
-		u := v - m
-		wi := ckW(w, i)
-		p := wi
-		for k := range 5 {
-			s[k] += p
-			if k < 3 {
-				t[k] += p * y[i]
-			}
-			p *= u
-		}
-	}
-	a := [3][4]float64{{s[0], s[1], s[2], t[0]}, {s[1], s[2], s[3], t[1]}, {s[2], s[3], s[4], t[2]}}
-	for c := range 3 {
-		piv := c
-		for r := c + 1; r < 3; r++ {
-			if math.Abs(a[r][c]) > math.Abs(a[piv][c]) {
-				piv = r
-			}
-		}
-		a[c], a[piv] = a[piv], a[c]
-		if a[c][c] == 0 || math.Abs(a[c][c]) < 1e-13*math.Abs(s[0]+s[2]+s[4]) {
-			return 0, 0, 0, false
-		}
-		for r := range 3 {
-			if r != c {
-				f := a[r][c] / a[c][c]
-				for k := c; k < 4; k++ {
-					a[r][k] -= f * a[c][k]
-				}
-			}
-		}
-	}
-	q0, q1, q2 := a[0][3]/a[0][0], a[1][3]/a[1][1], a[2][3]/a[2][2]
 	diff := func(v float64) float64 {
 		u := v - m
 		l := b1 * v
@@ -291,18 +250,91 @@ func curvatureGap(x, y, w []float64, origin bool) (gap, pct, sq float64, ok bool
 		pct = 100 * gap / span
 	}
 	if len(x) > 3 {
-		var sse float64
-		for i, v := range x {
-			u := v - m
-			r := y[i] - (q0 + q1*u + q2*u*u)
-			sse += ckW(w, i) * r * r
-		}
-		sq = math.Sqrt(sse / float64(len(x)-3))
+		sq = curvScatter(x, y, w, m, q0, q1, q2)
 	}
 	if !ckFinite(gap) || !ckFinite(pct) || !ckFinite(sq) {
 		return 0, 0, 0, false
 	}
 	return gap, pct, sq, true
+}
+
+// curvRangeMean is the range of x and its weighted mean m = Σwx/Σw.
+func curvRangeMean(x, w []float64) (lo, hi, m float64) {
+	lo, hi = x[0], x[0]
+	var sw, swx float64
+	for i, v := range x {
+		lo, hi = min(lo, v), max(hi, v)
+		sw += ckW(w, i)
+		swx += ckW(w, i) * v
+	}
+	return lo, hi, swx / sw
+}
+
+// curvQuadratic fits y = q0 + q1·u + q2·u², u = x − m, by weighted least
+// squares: the normal equations solved by Gauss–Jordan elimination with
+// partial pivoting; ok is false when a pivot is negligible (below 1e-13 of
+// the size of the equations).
+func curvQuadratic(x, y, w []float64, m float64) (q0, q1, q2 float64, ok bool) {
+	// Normal equations of y = a0 + a1·u + a2·u², u = x − m (with origin the
+	// line has no intercept but the quadratic's gap is judged the same way).
+	var s [5]float64
+	var t [3]float64
+	for i, v := range x {
+		u := v - m
+		wi := ckW(w, i)
+		p := wi
+		for k := range 5 {
+			s[k] += p
+			if k < 3 {
+				t[k] += p * y[i]
+			}
+			p *= u
+		}
+	}
+	a := [3][4]float64{{s[0], s[1], s[2], t[0]}, {s[1], s[2], s[3], t[1]}, {s[2], s[3], s[4], t[2]}}
+	tiny := 1e-13 * math.Abs(s[0]+s[2]+s[4])
+	for c := range 3 {
+		if !curvEliminate(&a, c, tiny) {
+			return 0, 0, 0, false
+		}
+	}
+	return a[0][3] / a[0][0], a[1][3] / a[1][1], a[2][3] / a[2][2], true
+}
+
+// curvEliminate is one column c of Gauss–Jordan elimination on the
+// augmented 3×4 system a: the largest pivot is swapped up and column c is
+// cleared from the other rows; false when the pivot is zero or below tiny.
+func curvEliminate(a *[3][4]float64, c int, tiny float64) bool {
+	piv := c
+	for r := c + 1; r < 3; r++ {
+		if math.Abs(a[r][c]) > math.Abs(a[piv][c]) {
+			piv = r
+		}
+	}
+	a[c], a[piv] = a[piv], a[c]
+	if a[c][c] == 0 || math.Abs(a[c][c]) < tiny {
+		return false
+	}
+	for r := range 3 {
+		if r != c {
+			f := a[r][c] / a[c][c]
+			for k := c; k < 4; k++ {
+				a[r][k] -= f * a[c][k]
+			}
+		}
+	}
+	return true
+}
+
+// curvScatter is the residual scale of the quadratic, √(Σw r²/(n − 3)).
+func curvScatter(x, y, w []float64, m, q0, q1, q2 float64) float64 {
+	var sse float64
+	for i, v := range x {
+		u := v - m
+		r := y[i] - (q0 + q1*u + q2*u*u)
+		sse += ckW(w, i) * r * r
+	}
+	return math.Sqrt(sse / float64(len(x)-3))
 }
 
 // The sentences of an assumption whose Fail was turned into a Check

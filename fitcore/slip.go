@@ -45,17 +45,41 @@ func findSlip(x, y, w []float64, origin bool, infl []PointInfluence) *SlippedDec
 	if n-p-1 < 2 {
 		return nil
 	}
+	best := slipSuspect(infl)
+	if best < 0 || y[best] == 0 {
+		return nil
+	}
+	fit, half, ok := slipInterval(x, y, w, origin, best, float64(n-1-p))
+	if !ok {
+		return nil
+	}
+	for _, f := range slipFactors {
+		if v := y[best] * f; math.Abs(v-fit) <= half {
+			return &SlippedDecimal{Index: best, Value: y[best], Expected: fit, Likely: v, Factor: f}
+		}
+	}
+	return nil
+}
+
+// slipSuspect is the reading with the smallest outlier p below
+// OutlierWarnP (the first of equals), or −1.
+func slipSuspect(infl []PointInfluence) int {
 	best := -1
 	for i, pi := range infl {
 		if pi.OutlierP < OutlierWarnP && (best < 0 || pi.OutlierP < infl[best].OutlierP) {
 			best = i
 		}
 	}
-	if best < 0 || y[best] == 0 {
-		return nil
-	}
-	xs := make([]float64, 0, n-1)
-	ys := make([]float64, 0, n-1)
+	return best
+}
+
+// slipInterval refits the line without reading best (df residual degrees
+// of freedom) and returns its value at x_best and the half-width of the
+// 95 % prediction interval there; ok is false when the refit fails or the
+// figures are not finite.
+func slipInterval(x, y, w []float64, origin bool, best int, df float64) (fit, half float64, ok bool) {
+	xs := make([]float64, 0, len(x)-1)
+	ys := make([]float64, 0, len(x)-1)
 	var ws []float64
 	for j := range x {
 		if j == best {
@@ -68,7 +92,7 @@ func findSlip(x, y, w []float64, origin bool, infl []PointInfluence) *SlippedDec
 	}
 	b0, b1, resid, ok := ckLine(xs, ys, ws, origin)
 	if !ok {
-		return nil
+		return 0, 0, false
 	}
 	var sse, sw, swx float64
 	for j, e := range resid {
@@ -76,41 +100,40 @@ func findSlip(x, y, w []float64, origin bool, infl []PointInfluence) *SlippedDec
 		sw += ckW(ws, j)
 		swx += ckW(ws, j) * xs[j]
 	}
-	df := float64(n - 1 - p)
 	s := math.Sqrt(sse / df)
-	var h float64
+	h := slipLeverage(xs, ws, x[best], origin, sw, swx)
+	wi := 1.0
+	if w != nil {
+		wi = w[best]
+	}
+	half = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: df}.Quantile(0.975) * s * math.Sqrt(1/wi+h)
+	fit = b1 * x[best]
+	if !origin {
+		fit += b0
+	}
+	if !ckFinite(half) || !ckFinite(fit) {
+		return 0, 0, false
+	}
+	return fit, half, true
+}
+
+// slipLeverage is the leverage of a new x0 in the weighted fit of xs (Σw
+// = sw, Σwx = swx): x0²/Σwx² through the origin, else
+// 1/Σw + (x0 − x̄)²/Σw(x − x̄)².
+func slipLeverage(xs, ws []float64, x0 float64, origin bool, sw, swx float64) float64 {
 	if origin {
 		var sxx float64
 		for j, v := range xs {
 			sxx += ckW(ws, j) * v * v
 		}
-		h = x[best] * x[best] / sxx
-	} else {
-		mx := swx / sw
-		var sxx float64
-		for j, v := range xs {
-			sxx += ckW(ws, j) * (v - mx) * (v - mx)
-		}
-		h = 1/sw + (x[best]-mx)*(x[best]-mx)/sxx
+		return x0 * x0 / sxx
 	}
-	wi := 1.0
-	if w != nil {
-		wi = w[best]
+	mx := swx / sw
+	var sxx float64
+	for j, v := range xs {
+		sxx += ckW(ws, j) * (v - mx) * (v - mx)
 	}
-	half := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: df}.Quantile(0.975) * s * math.Sqrt(1/wi+h)
-	fit := b1 * x[best]
-	if !origin {
-		fit += b0
-	}
-	if !ckFinite(half) || !ckFinite(fit) {
-		return nil
-	}
-	for _, f := range slipFactors {
-		if v := y[best] * f; math.Abs(v-fit) <= half {
-			return &SlippedDecimal{Index: best, Value: y[best], Expected: fit, Likely: v, Factor: f}
-		}
-	}
-	return nil
+	return 1/sw + (x0-mx)*(x0-mx)/sxx
 }
 
 // slipSentence words a slipped decimal point for the influence assumption,

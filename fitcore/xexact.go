@@ -39,20 +39,41 @@ func XExactness(x, y []float64, xu, yu float64, level float64) (Check, Assumptio
 	na := func(why string) (Check, Assumption) {
 		return ckNA(name, why), Assumption{Verdict: NA, Message: why}
 	}
-	if s := ckValidate(x, y, nil, "y value"); s != "" {
-		return na(s)
-	}
-	if !(xu > 0) || !ckFinite(xu) {
-		return na("No uncertainty was given for the x readings, so their exactness was not checked.")
-	}
-	if !(yu >= 0) || !ckFinite(yu) {
-		return na(fmt.Sprintf("The y uncertainty %v is not a usable number.", yu))
-	}
-	n := len(x)
-	if n < 3 {
-		return na(fmt.Sprintf("The x exactness check needs at least 3 readings; there are %d.", n))
+	if why := xeInputsNA(x, y, xu, yu); why != "" {
+		return na(why)
 	}
 	level = levelOrDefault(level)
+	b, bd, se, why := xeSlopes(x, y, xu, yu)
+	if why != "" {
+		return na(why)
+	}
+	c := xeCheck(name, b, bd, se, level)
+	a := ckXExactAssumption(c)
+	return c, a
+}
+
+// xeInputsNA is why XExactness cannot check these inputs, or "".
+func xeInputsNA(x, y []float64, xu, yu float64) string {
+	if s := ckValidate(x, y, nil, "y value"); s != "" {
+		return s
+	}
+	if !(xu > 0) || !ckFinite(xu) {
+		return "No uncertainty was given for the x readings, so their exactness was not checked."
+	}
+	if !(yu >= 0) || !ckFinite(yu) {
+		return fmt.Sprintf("The y uncertainty %v is not a usable number.", yu)
+	}
+	if n := len(x); n < 3 {
+		return fmt.Sprintf("The x exactness check needs at least 3 readings; there are %d.", n)
+	}
+	return ""
+}
+
+// xeSlopes is the OLS slope b with its standard error se and the Deming
+// slope bd with δ = u_y²/u_x² (u_y = s when yu is 0), or why they cannot
+// be compared.
+func xeSlopes(x, y []float64, xu, yu float64) (b, bd, se float64, why string) {
+	n := len(x)
 	mx, _ := ckMeanSD(x)
 	my, _ := ckMeanSD(y)
 	var sxx, syy, sxy float64
@@ -63,20 +84,20 @@ func XExactness(x, y []float64, xu, yu float64, level float64) (Check, Assumptio
 		sxy += dx * dy
 	}
 	if !(sxx > 0) || !ckFinite(sxx) || !ckFinite(syy) || !ckFinite(sxy) {
-		return na("All x values are the same, so no slope can be fitted.")
+		return 0, 0, 0, "All x values are the same, so no slope can be fitted."
 	}
 	if sxy == 0 {
-		return na("The readings show no trend at all, so there is no slope to compare.")
+		return 0, 0, 0, "The readings show no trend at all, so there is no slope to compare."
 	}
-	b := sxy / sxx
+	b = sxy / sxx
 	sse := syy - b*sxy
 	if sse < 0 {
 		sse = 0
 	}
 	s := math.Sqrt(sse / float64(n-2))
-	se := s / math.Sqrt(sxx)
+	se = s / math.Sqrt(sxx)
 	if !(se > 0) || !ckFinite(se) {
-		return na("The readings lie exactly on a line, so the slope's standard error is zero and no comparison is possible.")
+		return 0, 0, 0, "The readings lie exactly on a line, so the slope's standard error is zero and no comparison is possible."
 	}
 	uy := yu
 	if uy == 0 {
@@ -85,8 +106,14 @@ func XExactness(x, y []float64, xu, yu float64, level float64) (Check, Assumptio
 	delta := (uy * uy) / (xu * xu)
 	bd, ok := ckDemingSlope(sxx, syy, sxy, delta)
 	if !ok {
-		return na("The Deming slope could not be computed for these readings.")
+		return 0, 0, 0, "The Deming slope could not be computed for these readings."
 	}
+	return b, bd, se, ""
+}
+
+// xeCheck is the check's z = (bd − b)/se, its p, verdict and message with
+// the coverage of the level's interval.
+func xeCheck(name string, b, bd, se, level float64) Check {
 	z := (bd - b) / se
 	p := ckZ2(z)
 	c := Check{Name: name, Statistic: z, P: p}
@@ -107,8 +134,7 @@ func XExactness(x, y []float64, xu, yu float64, level float64) (Check, Assumptio
 	} else {
 		c.Message = fmt.Sprintf("The uncertainty of the x readings shifts the slope noticeably (%s); the %.0f %% interval for the slope would cover the true slope only about %.0f %% of the time.", detail, 100*level, 100*cover)
 	}
-	a := ckXExactAssumption(c)
-	return c, a
+	return c
 }
 
 // ckDemingSlope is the closed-form Deming slope for error-variance ratio

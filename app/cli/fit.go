@@ -297,96 +297,132 @@ func zeroRefused(option string, probe fitcore.Options) error {
 
 // options turns the flags into fitcore options (all but the values that need
 // the file's decimal separator) and checks them with fitcore's one
-// validation, Options.Normalize, before any file is read.
+// validation, Options.Normalize, before any file is read. The stages: the
+// model and weights (modelOptions), the numbers that tune the fit
+// (tuningOptions), the references and uncertainties (referenceOptions).
 func (ff *fitFlags) options() (fitcore.Options, error) {
 	var opt fitcore.Options
-	opt.Model = fitcore.Model(ff.model)
-	if ff.origin {
-		if ff.model != "" && ff.model != string(fitcore.ModelOrigin) {
-			return opt, fmt.Errorf("--origin and --model %s contradict each other", quoted(ff.model))
-		}
-		opt.Model = fitcore.ModelOrigin
-	}
-	switch ff.weights {
-	case "", "none":
-		if opt.Model == fitcore.ModelWeighted {
-			return opt, errors.New("--model weighted needs --weights x, x2, fitted2, repeats or power")
-		}
-	case string(fitcore.WeightsGiven):
-		return opt, errors.New(`--weights given: the command reads no column of weights; use x, x2, fitted2, repeats or power`)
-	default:
-		opt.Weights = fitcore.WeightScheme(ff.weights)
-	}
-	opt.Transform = fitcore.Transform(ff.transform)
-	if ff.lambda.set {
-		l, err := ff.lambda.number("box-cox-lambda")
-		if err != nil {
+	for _, stage := range []func(*fitcore.Options) error{ff.modelOptions, ff.tuningOptions, ff.referenceOptions} {
+		if err := stage(&opt); err != nil {
 			return opt, err
 		}
-		opt.BoxCoxLambda = &l
-	}
-	if ff.level.set {
-		l, err := ff.level.number("level")
-		if err != nil {
-			return opt, err
-		}
-		if l == 0 {
-			return opt, zeroRefused("level", fitcore.Options{Level: math.Inf(-1)})
-		}
-		opt.Level = l
-	}
-	if ff.varianceRatio.set {
-		d, err := ff.varianceRatio.number("variance-ratio")
-		if err != nil {
-			return opt, err
-		}
-		if opt.Model != fitcore.ModelDeming {
-			return opt, errors.New("--variance-ratio goes with --model deming")
-		}
-		if d == 0 {
-			return opt, zeroRefused("variance_ratio", fitcore.Options{Model: fitcore.ModelDeming, VarianceRatio: math.Inf(-1)})
-		}
-		opt.VarianceRatio = d
-	}
-	for _, r := range []struct {
-		name string
-		f    numFlag
-		p    **float64
-	}{{"slope-ref", ff.slopeRef, &opt.SlopeRef}, {"intercept-ref", ff.interceptRef, &opt.InterceptRef}} {
-		if !r.f.set {
-			continue
-		}
-		v, err := r.f.number(r.name)
-		if err != nil {
-			return opt, err
-		}
-		if err := tooLarge(v); err != nil {
-			return opt, fmt.Errorf("--%s %s %v", r.name, quoted(r.f.text), err)
-		}
-		*r.p = &v
-	}
-	for _, u := range []struct {
-		name string
-		f    numFlag
-		p    *float64
-	}{{"x-uncertainty", ff.xUncertainty, &opt.XUncertainty}, {"y-uncertainty", ff.yUncertainty, &opt.YUncertainty}} {
-		if !u.f.set {
-			continue
-		}
-		v, err := u.f.number(u.name)
-		if err != nil {
-			return opt, err
-		}
-		if err := tooLarge(v); err != nil {
-			return opt, fmt.Errorf("--%s %s %v", u.name, quoted(u.f.text), err)
-		}
-		*u.p = v
 	}
 	norm, err := opt.Normalize()
 	if err != nil {
 		return opt, flagError(err)
 	}
 	return norm, nil
+}
+
+// modelOptions sets the model, weights and transform from --model,
+// --origin, --weights and --transform, refusing the combinations that
+// contradict each other.
+func (ff *fitFlags) modelOptions(opt *fitcore.Options) error {
+	opt.Model = fitcore.Model(ff.model)
+	if ff.origin {
+		if ff.model != "" && ff.model != string(fitcore.ModelOrigin) {
+			return fmt.Errorf("--origin and --model %s contradict each other", quoted(ff.model))
+		}
+		opt.Model = fitcore.ModelOrigin
+	}
+	switch ff.weights {
+	case "", "none":
+		if opt.Model == fitcore.ModelWeighted {
+			return errors.New("--model weighted needs --weights x, x2, fitted2, repeats or power")
+		}
+	case string(fitcore.WeightsGiven):
+		return errors.New(`--weights given: the command reads no column of weights; use x, x2, fitted2, repeats or power`)
+	default:
+		opt.Weights = fitcore.WeightScheme(ff.weights)
+	}
+	opt.Transform = fitcore.Transform(ff.transform)
+	return nil
+}
+
+// tuningOptions sets the Box–Cox λ, the level and the variance ratio
+// (which goes with --model deming only); a level or ratio of 0 is refused
+// with Normalize's reason.
+func (ff *fitFlags) tuningOptions(opt *fitcore.Options) error {
+	if ff.lambda.set {
+		l, err := ff.lambda.number("box-cox-lambda")
+		if err != nil {
+			return err
+		}
+		opt.BoxCoxLambda = &l
+	}
+	if ff.level.set {
+		l, err := ff.level.number("level")
+		if err != nil {
+			return err
+		}
+		if l == 0 {
+			return zeroRefused("level", fitcore.Options{Level: math.Inf(-1)})
+		}
+		opt.Level = l
+	}
+	if !ff.varianceRatio.set {
+		return nil
+	}
+	d, err := ff.varianceRatio.number("variance-ratio")
+	if err != nil {
+		return err
+	}
+	if opt.Model != fitcore.ModelDeming {
+		return errors.New("--variance-ratio goes with --model deming")
+	}
+	if d == 0 {
+		return zeroRefused("variance_ratio", fitcore.Options{Model: fitcore.ModelDeming, VarianceRatio: math.Inf(-1)})
+	}
+	opt.VarianceRatio = d
+	return nil
+}
+
+// referenceOptions sets the slope and intercept references and the x and
+// y uncertainties, each a number within the magnitude fitcore accepts.
+func (ff *fitFlags) referenceOptions(opt *fitcore.Options) error {
+	for _, r := range []struct {
+		name string
+		f    numFlag
+		p    **float64
+	}{{"slope-ref", ff.slopeRef, &opt.SlopeRef}, {"intercept-ref", ff.interceptRef, &opt.InterceptRef}} {
+		v, ok, err := sizedNumber(r.name, r.f)
+		if err != nil {
+			return err
+		}
+		if ok {
+			*r.p = &v
+		}
+	}
+	for _, u := range []struct {
+		name string
+		f    numFlag
+		p    *float64
+	}{{"x-uncertainty", ff.xUncertainty, &opt.XUncertainty}, {"y-uncertainty", ff.yUncertainty, &opt.YUncertainty}} {
+		v, ok, err := sizedNumber(u.name, u.f)
+		if err != nil {
+			return err
+		}
+		if ok {
+			*u.p = v
+		}
+	}
+	return nil
+}
+
+// sizedNumber is the number of flag --name when it was given (ok), refused
+// when it is not a number or too large.
+func sizedNumber(name string, f numFlag) (v float64, ok bool, err error) {
+	if !f.set {
+		return 0, false, nil
+	}
+	v, err = f.number(name)
+	if err != nil {
+		return 0, false, err
+	}
+	if err := tooLarge(v); err != nil {
+		return 0, false, fmt.Errorf("--%s %s %v", name, quoted(f.text), err)
+	}
+	return v, true, nil
 }
 
 func triState(flagName, v string) (*bool, error) {
@@ -456,7 +492,10 @@ func quoteList(h []string) string {
 
 // runFit reads the input and analyses it with opt, the checked options of
 // the flags. The input is streamed into float64 columns (session.StreamCSV):
-// no cell is kept as text but those that are not numbers.
+// no cell is kept as text but those that are not numbers. The stages: read
+// the columns (fitColumns), name the rows skipped (fitSkipNotes), check
+// there is a line to fit (fitEnough), read --predict-x and --inverse-y in
+// the file's decimal separator (fitQueries), then analyse.
 func runFit(ff *fitFlags, opt fitcore.Options, stdin io.Reader) (*fitResult, error) {
 	co, err := ff.csvOptions()
 	if err != nil {
@@ -467,39 +506,66 @@ func runFit(ff *fitFlags, opt fitcore.Options, stdin io.Reader) (*fitResult, err
 		return nil, err
 	}
 	defer done()
-	so := session.StreamOptions{CSVOptions: co}
-	if ff.xCol != "" || ff.yCol != "" {
-		so.Columns = func(header []string) (int, int, error) {
-			x, y := -1, -1
-			var err error
-			if ff.xCol != "" {
-				if x, err = column("x-col", ff.xCol, header); err != nil {
-					return 0, 0, err
-				}
-			}
-			if ff.yCol != "" {
-				if y, err = column("y-col", ff.yCol, header); err != nil {
-					return 0, 0, err
-				}
-			}
-			if x == y {
-				return 0, 0, fmt.Errorf("x and y are both column %d; choose two different columns", x+1)
-			}
-			return x, y, nil
-		}
-	}
-	res, err := session.StreamCSV(in, so)
+	res, err := session.StreamCSV(in, session.StreamOptions{CSVOptions: co, Columns: ff.fitColumns()})
 	if err != nil {
 		return nil, err
 	}
-	// Rows whose chosen cells are not numbers are skipped and named, like
-	// the incomplete rows listed in Skipped.
 	x, y := res.X, res.Y
 	lines := make([]int, len(res.Lines))
 	for i, l := range res.Lines {
 		lines[i] = int(l)
 	}
-	var notes []string
+	notes, skipped := fitSkipNotes(res)
+	if err := fitEnough(x, notes, skipped); err != nil {
+		return nil, err
+	}
+	if err := ff.fitQueries(&opt, res.DecimalComma); err != nil {
+		return nil, err
+	}
+	rep, err := fitcore.Analyze(x, y, opt)
+	if err != nil {
+		return nil, explainFitError(err, lines)
+	}
+	rep.NSkipped = skipped
+	rep.Notes = append(notes, rep.Notes...)
+	rep.Notes = append(rep.Notes, res.Warnings...)
+	out := &fitResult{report: rep, lines: lines,
+		xName: term(columnName(res, res.XCol, "x")), yName: term(columnName(res, res.YCol, "y")),
+		xUnit: term(unitOf(res, res.XCol)), yUnit: term(unitOf(res, res.YCol))}
+	return out, nil
+}
+
+// fitColumns chooses the x and y columns from the header by --x-col and
+// --y-col (nil: neither given, the import detects them); the two must
+// differ.
+func (ff *fitFlags) fitColumns() func(header []string) (int, int, error) {
+	if ff.xCol == "" && ff.yCol == "" {
+		return nil
+	}
+	return func(header []string) (int, int, error) {
+		x, y := -1, -1
+		var err error
+		if ff.xCol != "" {
+			if x, err = column("x-col", ff.xCol, header); err != nil {
+				return 0, 0, err
+			}
+		}
+		if ff.yCol != "" {
+			if y, err = column("y-col", ff.yCol, header); err != nil {
+				return 0, 0, err
+			}
+		}
+		if x == y {
+			return 0, 0, fmt.Errorf("x and y are both column %d; choose two different columns", x+1)
+		}
+		return x, y, nil
+	}
+}
+
+// fitSkipNotes names every row left out: the incomplete rows listed in
+// Skipped, then the rows whose chosen cells are not numbers; skipped counts
+// the rows.
+func fitSkipNotes(res *session.StreamResult) (notes []string, skipped int) {
 	for _, s := range res.Skipped {
 		notes = append(notes, fmt.Sprintf("Line %d skipped: %s.", s.Line, strings.TrimSuffix(s.Reason, ".")))
 	}
@@ -513,58 +579,69 @@ func runFit(ff *fitFlags, opt fitcore.Options, stdin io.Reader) (*fitResult, err
 		notes = append(notes, fmt.Sprintf("Line %d skipped: the %s cell (column %d) %q %s.",
 			p.Line, what, col+1, p.Text, strings.TrimSuffix(p.Reason, ".")))
 	}
-	skipped := len(res.Skipped) + len(badRows)
+	return notes, len(res.Skipped) + len(badRows)
+}
+
+// fitEnough refuses fewer than 3 pairs (naming the first row skipped) and
+// x values that are all the same.
+func fitEnough(x []float64, notes []string, skipped int) error {
 	if len(x) < 3 {
 		why := ""
 		if len(notes) > 0 {
 			why = "; first: " + strings.TrimSuffix(notes[0], ".")
 		}
-		return nil, fmt.Errorf("only %d usable pair(s) of readings (%d row(s) skipped%s); a line needs at least 3",
+		return fmt.Errorf("only %d usable pair(s) of readings (%d row(s) skipped%s); a line needs at least 3",
 			len(x), skipped, why)
 	}
 	if allEqual(x) {
-		return nil, fmt.Errorf("all %d x values are %s, so no line can be fitted; x must vary",
+		return fmt.Errorf("all %d x values are %s, so no line can be fitted; x must vary",
 			len(x), numfmt.Full(x[0]))
 	}
+	return nil
+}
+
+// fitQueries reads --predict-x and --inverse-y into opt, in the file's
+// decimal separator (decimalComma).
+func (ff *fitFlags) fitQueries(opt *fitcore.Options, decimalComma bool) error {
 	for _, s := range ff.predictX {
-		v, err := session.ParseNumberHint(s, res.DecimalComma)
+		v, err := session.ParseNumberHint(s, decimalComma)
 		if err == nil {
 			err = tooLarge(v)
 		}
 		if err != nil {
-			return nil, fmt.Errorf("--predict-x %s %v", quoted(s), numberReason(err))
+			return fmt.Errorf("--predict-x %s %v", quoted(s), numberReason(err))
 		}
 		opt.PredictX = append(opt.PredictX, v)
 	}
 	for _, s := range ff.inverseY {
-		var q fitcore.InverseQuery
-		parts := session.SplitRepeats(s)
-		if len(parts) == 0 {
-			return nil, fmt.Errorf("--inverse-y %s holds no reading (separate repeat readings with ';' or spaces)", quoted(s))
-		}
-		for _, part := range parts {
-			v, err := session.ParseNumberHint(part, res.DecimalComma)
-			if err == nil {
-				err = tooLarge(v)
-			}
-			if err != nil {
-				return nil, fmt.Errorf("--inverse-y %s: %s %v (separate repeat readings with ';' or spaces)", quoted(s), quoted(part), numberReason(err))
-			}
-			q.Y = append(q.Y, v)
+		q, err := fitInverseQuery(s, decimalComma)
+		if err != nil {
+			return err
 		}
 		opt.Inverse = append(opt.Inverse, q)
 	}
-	rep, err := fitcore.Analyze(x, y, opt)
-	if err != nil {
-		return nil, explainFitError(err, lines)
+	return nil
+}
+
+// fitInverseQuery reads one --inverse-y value: one or more repeat readings
+// of an unknown, separated by ';' or spaces.
+func fitInverseQuery(s string, decimalComma bool) (fitcore.InverseQuery, error) {
+	var q fitcore.InverseQuery
+	parts := session.SplitRepeats(s)
+	if len(parts) == 0 {
+		return q, fmt.Errorf("--inverse-y %s holds no reading (separate repeat readings with ';' or spaces)", quoted(s))
 	}
-	rep.NSkipped = skipped
-	rep.Notes = append(notes, rep.Notes...)
-	rep.Notes = append(rep.Notes, res.Warnings...)
-	out := &fitResult{report: rep, lines: lines,
-		xName: term(columnName(res, res.XCol, "x")), yName: term(columnName(res, res.YCol, "y")),
-		xUnit: term(unitOf(res, res.XCol)), yUnit: term(unitOf(res, res.YCol))}
-	return out, nil
+	for _, part := range parts {
+		v, err := session.ParseNumberHint(part, decimalComma)
+		if err == nil {
+			err = tooLarge(v)
+		}
+		if err != nil {
+			return q, fmt.Errorf("--inverse-y %s: %s %v (separate repeat readings with ';' or spaces)", quoted(s), quoted(part), numberReason(err))
+		}
+		q.Y = append(q.Y, v)
+	}
+	return q, nil
 }
 
 // unitOf is the unit of column c from the file's units row, or "".

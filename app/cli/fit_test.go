@@ -134,6 +134,14 @@ func TestFitBadInput(t *testing.T) {
 		{"column zero", []string{"--x-col", "0", f("columns.csv")}, "", "numbered from 1"},
 		{"stdin two pairs", []string{"-"}, "1,2\n2,3\n", "at least 3"},
 		{"stdin empty", []string{"-"}, "", ""},
+		{"bad delimiter", []string{"--delimiter", "|", "-"}, "1,2\n2,3\n3,5\n", "--delimiter"},
+		{"bad header choice", []string{"--header", "maybe", "-"}, "1,2\n2,3\n3,5\n", "--header"},
+		{"bad decimal-comma choice", []string{"--decimal-comma", "perhaps", "-"}, "1,2\n2,3\n3,5\n", "--decimal-comma"},
+		{"unknown y column name", []string{"--y-col", "depth", f("columns.csv")}, "", "no such column"},
+		{"same column twice", []string{"--x-col", "2", "--y-col", "2", "-"}, "1,2,3\n2,3,4\n3,5,6\n", "both column 2"},
+		{"too few, first skip named", []string{"-"}, "x,y\n1,2\n2,abc\n3,4\n", "(1 row(s) skipped; first: Line 3 skipped: the y cell (column 2) \"abc\""},
+		{"empty inverse-y", []string{"--inverse-y", " ", "-"}, "1,2\n2,3\n3,5\n", "holds no reading"},
+		{"log of a negative y", []string{"--transform", "log_y", "-"}, "1,-2\n2,3\n3,5\n", "y"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {

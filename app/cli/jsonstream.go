@@ -317,75 +317,96 @@ var fieldLists sync.Map
 // skipped, the fields of embedded structs without a tag name promoted, and
 // of fields with the same name the shallowest wins, a tagged one before an
 // untagged one at the same depth, and neither when that does not decide.
+// The stages: every candidate field, depth by depth (jsonCandidates), the
+// dominant one of each name (jsonDominant), then the struct's order.
 func jsonFieldsOf(t reflect.Type) []jsonField {
 	if f, ok := fieldLists.Load(t); ok {
 		return f.([]jsonField)
 	}
-	type level struct {
-		t     reflect.Type
-		index []int
-	}
+	out := jsonDominant(jsonCandidates(t))
+	// In the order of the fields in the struct, embedded ones at the place
+	// of their embedding.
+	slices.SortStableFunc(out, func(a, b jsonField) int { return slices.Compare(a.index, b.index) })
+	fieldLists.Store(t, out)
+	return out
+}
+
+// jsonLevel is one struct type met in jsonCandidates, at its index path.
+type jsonLevel struct {
+	t     reflect.Type
+	index []int
+}
+
+// jsonCandidates lists every field of t that encoding/json could write,
+// breadth first: the fields of t, then those of the structs it embeds
+// without a tag name, and so on, each struct type looked at once.
+func jsonCandidates(t reflect.Type) []jsonField {
 	var all []jsonField
 	visited := map[reflect.Type]bool{}
-	for current := []level{{t: t}}; len(current) > 0; {
-		var next []level
+	for current := []jsonLevel{{t: t}}; len(current) > 0; {
+		var next []jsonLevel
 		for _, l := range current {
 			if visited[l.t] {
 				continue
 			}
 			visited[l.t] = true
 			for i := 0; i < l.t.NumField(); i++ {
-				sf := l.t.Field(i)
-				ft := sf.Type
-				if sf.Anonymous {
-					if ft.Kind() == reflect.Pointer {
-						ft = ft.Elem()
-					}
-					if !sf.IsExported() && ft.Kind() != reflect.Struct {
-						continue
-					}
-				} else if !sf.IsExported() {
-					continue
+				f, embed, ok := jsonCandidate(l.t.Field(i), append(append([]int(nil), l.index...), i))
+				switch {
+				case embed != nil:
+					next = append(next, jsonLevel{t: embed, index: f.index})
+				case ok:
+					all = append(all, f)
 				}
-				tag := sf.Tag.Get("json")
-				if tag == "-" {
-					continue
-				}
-				name, opts, _ := strings.Cut(tag, ",")
-				index := append(append([]int(nil), l.index...), i)
-				if name == "" && sf.Anonymous && ft.Kind() == reflect.Struct {
-					next = append(next, level{t: ft, index: index})
-					continue
-				}
-				f := jsonField{name: name, index: index, tagged: name != "",
-					omitEmpty: hasOption(opts, "omitempty"), omitZero: hasOption(opts, "omitzero")}
-				if f.name == "" {
-					f.name = sf.Name
-				}
-				all = append(all, f)
 			}
 		}
 		current = next
 	}
-	// Of the fields sharing a name, the dominant one (encoding/json's
-	// rule); the others are dropped.
+	return all
+}
+
+// jsonCandidate is struct field sf at index path index as encoding/json
+// sees it: a member f (ok), a struct whose fields are promoted (embed), or
+// neither (unexported, or tagged "-").
+func jsonCandidate(sf reflect.StructField, index []int) (f jsonField, embed reflect.Type, ok bool) {
+	ft := sf.Type
+	if sf.Anonymous {
+		if ft.Kind() == reflect.Pointer {
+			ft = ft.Elem()
+		}
+		if !sf.IsExported() && ft.Kind() != reflect.Struct {
+			return f, nil, false
+		}
+	} else if !sf.IsExported() {
+		return f, nil, false
+	}
+	tag := sf.Tag.Get("json")
+	if tag == "-" {
+		return f, nil, false
+	}
+	name, opts, _ := strings.Cut(tag, ",")
+	if name == "" && sf.Anonymous && ft.Kind() == reflect.Struct {
+		return jsonField{index: index}, ft, false
+	}
+	f = jsonField{name: name, index: index, tagged: name != "",
+		omitEmpty: hasOption(opts, "omitempty"), omitZero: hasOption(opts, "omitzero")}
+	if f.name == "" {
+		f.name = sf.Name
+	}
+	return f, nil, true
+}
+
+// jsonDominant keeps, of the fields sharing a name, the dominant one
+// (encoding/json's rule) with its key written as JSON; the others are
+// dropped, and all of them when none dominates.
+func jsonDominant(all []jsonField) []jsonField {
 	byName := map[string][]jsonField{}
 	for _, f := range all {
 		byName[f.name] = append(byName[f.name], f)
 	}
 	var out []jsonField
 	for _, f := range all {
-		group := byName[f.name]
-		best := group[0]
-		ambiguous := false
-		for _, g := range group[1:] {
-			switch {
-			case len(g.index) < len(best.index) || len(g.index) == len(best.index) && g.tagged && !best.tagged:
-				best, ambiguous = g, false
-			case len(g.index) == len(best.index) && g.tagged == best.tagged:
-				ambiguous = true
-			}
-		}
+		best, ambiguous := jsonBest(byName[f.name])
 		if ambiguous || !slices.Equal(best.index, f.index) {
 			continue
 		}
@@ -393,11 +414,23 @@ func jsonFieldsOf(t reflect.Type) []jsonField {
 		f.key = jsonText(key)
 		out = append(out, f)
 	}
-	// In the order of the fields in the struct, embedded ones at the place
-	// of their embedding.
-	slices.SortStableFunc(out, func(a, b jsonField) int { return slices.Compare(a.index, b.index) })
-	fieldLists.Store(t, out)
 	return out
+}
+
+// jsonBest is the dominant field of a group sharing one name: the
+// shallowest, a tagged one before an untagged one at the same depth;
+// ambiguous when that does not decide.
+func jsonBest(group []jsonField) (best jsonField, ambiguous bool) {
+	best = group[0]
+	for _, g := range group[1:] {
+		switch {
+		case len(g.index) < len(best.index) || len(g.index) == len(best.index) && g.tagged && !best.tagged:
+			best, ambiguous = g, false
+		case len(g.index) == len(best.index) && g.tagged == best.tagged:
+			ambiguous = true
+		}
+	}
+	return best, ambiguous
 }
 
 func hasOption(opts, name string) bool {

@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"runtime"
 	"strings"
 	"testing"
@@ -266,4 +267,56 @@ func TestJSONStreamMemory(t *testing.T) {
 		t.Errorf("writing %d bytes of JSON held %d bytes beyond the analysis; the bound is 8 MiB", w.n, held)
 	}
 	runtime.KeepAlive(a)
+}
+
+// jsonLoop embeds a pointer to itself: its fields are looked at once.
+type jsonLoop struct {
+	*jsonLoop
+	L int `json:"l"`
+}
+
+// TestJSONStreamFieldRules: encoding/json's rules for which fields a struct
+// writes (names shared at one depth with and without tags, unexported
+// embedded structs and non-structs, embedded pointers, a type embedded
+// twice or in itself, options after the name), each against MarshalIndent,
+// in structs that hold a slice long enough to be streamed.
+func TestJSONStreamFieldRules(t *testing.T) {
+	type inner struct {
+		X int `json:"x"`
+		Y int
+		Z int `json:",omitempty"`
+	}
+	type other struct {
+		X int `json:"x"` // same depth, both tagged: neither is written
+		Y int `json:"Y"` // tagged beats inner's untagged Y
+		W int `json:"w,omitempty"`
+	}
+	type myInt int
+	type deep struct{ inner }
+	type rules struct {
+		inner
+		*other
+		deep  // inner again, one level deeper: its fields lose
+		myInt // unexported embedded non-struct: skipped
+		jsonLoop
+		Pub  myInt `json:"pub,omitzero"`
+		skip int
+		Dup  int   `json:"inner"`
+		Long []int `json:"long"`
+	}
+	long := make([]int, streamThreshold+5)
+	for i := range long {
+		long[i] = i
+	}
+	for i, v := range []rules{
+		{},
+		{inner: inner{X: 1, Y: -1, Z: 1}, deep: deep{inner{X: 1, Y: 2, Z: 3}}, myInt: 4, Pub: 2, skip: 5, Dup: 6, Long: long},
+		{other: &other{X: 7, Y: 8, W: 3}, jsonLoop: jsonLoop{jsonLoop: &jsonLoop{L: 9}, L: 10}, Long: long},
+	} {
+		_ = v.skip
+		for _, prefix := range []string{"", "  "} {
+			sameJSON(t, fmt.Sprintf("field rules %d", i), v, prefix)
+			sameJSON(t, fmt.Sprintf("field rules %d, pointer", i), &v, prefix)
+		}
+	}
 }

@@ -63,3 +63,63 @@ func TestNew(t *testing.T) {
 		}
 	}
 }
+
+// TestNewRefusals pins what `pairline new` says and returns for each way it
+// can refuse (exit status, the start of the message) and that it then
+// writes no file; and that --taken with today's date gives today's day.
+func TestNewRefusals(t *testing.T) {
+	dir := t.TempDir()
+	csv := filepath.Join(dir, "cal.csv")
+	if err := os.WriteFile(csv, []byte("standard,reading\n0,0.51\n5,8.02\n10,15.49\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	bad := filepath.Join(dir, "bad.csv")
+	if err := os.WriteFile(bad, []byte("only words here\nand more words\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(dir, "out.pairline")
+	for _, tc := range []struct {
+		args []string
+		code int
+		says string
+	}{
+		{[]string{"new", "-h"}, ExitOK, "Usage: pairline new"},
+		{[]string{"new", "--bogus", csv, "-o", out}, ExitUsage, "flag provided but not defined: -bogus"},
+		{[]string{"new", csv, "--bogus", "-o", out}, ExitUsage, "flag provided but not defined: -bogus"},
+		{[]string{"new", csv, csv, "-o", out}, ExitUsage, "give one CSV file and -o OUT.pairline"},
+		{[]string{"new", "-o", out}, ExitUsage, "give one CSV file and -o OUT.pairline"},
+		{[]string{"new", csv}, ExitUsage, "give one CSV file and -o OUT.pairline"},
+		{[]string{"new", "--taken", "1899-12-31", csv, "-o", out}, ExitUsage, "--taken must be a day YYYY-MM-DD from 1900 to today"},
+		{[]string{"new", filepath.Join(dir, "missing.csv"), "-o", out}, ExitUsage, "missing.csv: cannot open the file"},
+		{[]string{"new", bad, "-o", out}, ExitUsage, "bad.csv: "},
+		{[]string{"new", "--title", strings.Repeat("t", 100_000), csv, "-o", out}, ExitUsage, "the session would not be valid"},
+		{[]string{"new", csv, "-o", filepath.Join(dir, "no-such-dir", "x.pairline")}, ExitFailure, "cannot create the file (it is not overwritten if it exists)"},
+	} {
+		var so, se bytes.Buffer
+		code := Main(tc.args, nil, &so, &se)
+		if code != tc.code || !strings.Contains(se.String(), tc.says) {
+			t.Errorf("%q: exit %d, stderr %q; want exit %d and %q", tc.args[:min(len(tc.args), 4)], code, se.String(), tc.code, tc.says)
+		}
+		if _, err := os.Stat(out); err == nil {
+			t.Fatalf("%q wrote %s", tc.args[:min(len(tc.args), 4)], out)
+		}
+	}
+	today := time.Now().UTC().Format(historyDateLayout)
+	var so, se bytes.Buffer
+	if code := Main([]string{"new", "--taken", today, csv, "-o", out}, nil, &so, &se); code != ExitOK {
+		t.Fatalf("--taken %s: exit %d: %s", today, code, se.String())
+	}
+	f, err := openSessionFile(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := f.Sessions[0]
+	if got := s.ReadingsDay().Format(historyDateLayout); got != today {
+		t.Errorf("--taken %s: readings day %s", today, got)
+	}
+	for i, r := range s.Readings {
+		if r.Taken.After(time.Now()) {
+			t.Errorf("reading %d taken %v, in the future", i+1, r.Taken)
+		}
+	}
+}

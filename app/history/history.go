@@ -219,21 +219,39 @@ func Build(sums []Summary, opt Options) ([]Instrument, error) {
 	return out, nil
 }
 
+// build is the history of one instrument's summaries g. The stages: keep
+// one entry per content and mark earlier revisions (dedupe), order them
+// (sortEntries), compare each accepted calibration with the one before
+// (compareAccepted), the newest line against the last accepted, the due
+// day (setDue), the drift of slope and intercept (fitDrift) and the
+// projected day of leaving a limit (setLeaves).
 func build(g []Summary, opt Options) (Instrument, error) {
 	in := Instrument{Key: strings.TrimSpace(g[0].Key)}
-	// Dedupe: the same content (Digest, whatever the ID) = one; the same
-	// ID with other content = the highest revision (then latest Modified)
-	// counts, the others are kept apart as earlier revisions.
+	in.Entries, in.Duplicates = dedupe(g)
+	sortEntries(in.Entries)
+	acc, interval := in.compareAccepted(opt.DefaultIntervalDays)
+	in.Latest, in.LatestReason = latest(in.Entries)
+	in.setDue(acc, interval, opt.Now)
+	in.fitDrift(acc, opt)
+	in.setLeaves()
+	return in, nil
+}
+
+// dedupe keeps one entry per session content: the same digest again
+// (whatever the ID: Summary.Digest leaves it out) is a duplicate (counted,
+// dropped); the same ID with other content
+// keeps the highest revision (then latest Modified) and marks the others
+// Superseded, kept apart as earlier revisions.
+func dedupe(g []Summary) (entries []Entry, duplicates int) {
 	byID := map[string]int{}
 	seen := map[string]bool{}
-	var entries []Entry
 	for _, s := range g {
 		key := s.Digest
 		if key == "" {
 			key = "id\x00" + s.ID // no digest: only the same ID can repeat it
 		}
 		if seen[key] {
-			in.Duplicates++
+			duplicates++
 			continue
 		}
 		seen[key] = true
@@ -251,6 +269,11 @@ func build(g []Summary, opt Options) (Instrument, error) {
 		}
 		entries = append(entries, e)
 	}
+	return entries, duplicates
+}
+
+// sortEntries orders the entries by the day taken, then ID, then revision.
+func sortEntries(entries []Entry) {
 	sort.SliceStable(entries, func(i, j int) bool {
 		a, b := entries[i], entries[j]
 		if !a.Taken.Equal(b.Taken) {
@@ -261,12 +284,18 @@ func build(g []Summary, opt Options) (Instrument, error) {
 		}
 		return a.Revision < b.Revision
 	})
-	in.Entries = entries
+}
+
+// compareAccepted walks the entries in order, past earlier revisions,
+// comparing each accepted calibration with the previous accepted one
+// (in.Changes, where the lines can be compared). It returns the accepted
+// entries and the interval in force at the end: the last one a record
+// gives, else defaultDays.
+func (in *Instrument) compareAccepted(defaultDays int) (acc []*Entry, interval int) {
 	var prev *Entry
-	var acc []*Entry
-	interval := opt.DefaultIntervalDays
-	for i := range entries {
-		e := &entries[i]
+	interval = defaultDays
+	for i := range in.Entries {
+		e := &in.Entries[i]
 		if e.Verdict == Superseded {
 			continue
 		}
@@ -285,14 +314,27 @@ func build(g []Summary, opt Options) (Instrument, error) {
 		prev = e
 		acc = append(acc, e)
 	}
-	in.Latest, in.LatestReason = latest(entries)
-	if len(acc) > 0 {
-		in.Origin = acc[0].Taken
-		if interval > 0 {
-			in.Due = acc[len(acc)-1].Taken.AddDate(0, 0, interval)
-			in.Overdue = !opt.Now.IsZero() && opt.Now.After(in.Due)
-		}
+	return acc, interval
+}
+
+// setDue sets the drift's origin (the first accepted calibration) and,
+// with an interval, the day the next one is due after the last accepted
+// one and whether it is overdue at now (never for a zero now).
+func (in *Instrument) setDue(acc []*Entry, interval int, now time.Time) {
+	if len(acc) == 0 {
+		return
 	}
+	in.Origin = acc[0].Taken
+	if interval > 0 {
+		in.Due = acc[len(acc)-1].Taken.AddDate(0, 0, interval)
+		in.Overdue = !now.IsZero() && now.After(in.Due)
+	}
+}
+
+// fitDrift fits the drift of slope and intercept over the accepted
+// calibrations, t in years since the origin; a fit Drift refuses gives a
+// result whose Status says why.
+func (in *Instrument) fitDrift(acc []*Entry, opt Options) {
 	t := make([]float64, len(acc))
 	sl, sls := make([]float64, len(acc)), make([]float64, len(acc))
 	ic, ics := make([]float64, len(acc)), make([]float64, len(acc))
@@ -307,6 +349,11 @@ func build(g []Summary, opt Options) (Instrument, error) {
 	if in.InterceptDrift, err = fitcore.Drift(t, ic, ics, opt.Level, opt.InterceptLow, opt.InterceptHigh); err != nil {
 		in.InterceptDrift = &fitcore.DriftResult{N: len(acc), Status: "not fitted: " + err.Error()}
 	}
+}
+
+// setLeaves sets the first projected day slope or intercept leaves its
+// limit, and which.
+func (in *Instrument) setLeaves() {
 	for _, d := range []struct {
 		name string
 		r    *fitcore.DriftResult
@@ -321,7 +368,6 @@ func build(g []Summary, opt Options) (Instrument, error) {
 			in.LeavesAt, in.LeavesWhich = at, d.name
 		}
 	}
-	return in, nil
 }
 
 // latest compares the newest fitted session with the last accepted one

@@ -495,40 +495,101 @@ func encodeSealedRevision(e *enc, r *SealedRevision) {
 // (finite numbers, bounded and valid UTF-8 text, times in MinTime … MaxTime,
 // counts within the Max… limits). A newer minor version is read, its unknown
 // keys skipped, and a warning added. Errors are *FormatError.
+//
+// The stages: the header (decodeHeader), the body and checksum
+// (decodeRest), the checksum compared, then the sessions (decodeSessions).
 func Decode(r io.Reader) (*File, error) {
 	var hdr [headerSize]byte
+	major, minor, length, err := decodeHeader(r, &hdr)
+	if err != nil {
+		return nil, err
+	}
+	body, stored, err := decodeRest(r, length)
+	if err != nil {
+		return nil, err
+	}
+	h := sha256.New()
+	h.Write(hdr[:])
+	h.Write(body)
+	if subtle.ConstantTimeCompare(h.Sum(nil), stored) != 1 {
+		return nil, &FormatError{Offset: headerSize + int64(length), Field: "checksum", Err: ErrChecksum}
+	}
+	f := &File{Major: major, Minor: minor, Checksum: hex.EncodeToString(stored)}
+	sessions, err := decodeSessions(body)
+	if err != nil {
+		return nil, err
+	}
+	f.Sessions = sessions
+	if minor > FormatMinor {
+		f.Warnings = append(f.Warnings, fmt.Sprintf(
+			"The file was written by a newer Pairline (format %d.%d; this one knows %d.%d). "+
+				"Everything this version knows was read; newer details were skipped and are lost if you save from here.",
+			major, minor, FormatMajor, FormatMinor))
+	}
+	migrate(f)
+	return f, nil
+}
+
+// decodeHeader reads the header into hdr and checks it: the magic, the
+// major version (one this Pairline reads) and the body length (at most
+// maxBodySize).
+func decodeHeader(r io.Reader, hdr *[headerSize]byte) (major, minor int, length uint64, err error) {
 	n, err := io.ReadFull(r, hdr[:])
 	if err != nil && !errors.Is(err, io.ErrUnexpectedEOF) && !errors.Is(err, io.EOF) {
-		return nil, &FormatError{Offset: int64(n), Err: fmt.Errorf("%w: the file could not be read: %v", ErrTruncated, err)}
+		return 0, 0, 0, &FormatError{Offset: int64(n), Err: fmt.Errorf("%w: the file could not be read: %v", ErrTruncated, err)}
 	}
 	m := min(n, len(Magic))
 	if !bytes.Equal(hdr[:m], Magic[:m]) {
-		return nil, &FormatError{Offset: 0, Err: notSessionFile(hdr[:n])}
+		return 0, 0, 0, &FormatError{Offset: 0, Err: notSessionFile(hdr[:n])}
 	}
 	if n == 0 {
-		return nil, &FormatError{Offset: 0, Err: fmt.Errorf("%w: the file is empty", ErrTruncated)}
+		return 0, 0, 0, &FormatError{Offset: 0, Err: fmt.Errorf("%w: the file is empty", ErrTruncated)}
 	}
 	if n < headerSize {
-		return nil, &FormatError{Offset: int64(n), Err: fmt.Errorf("%w: the file ends inside its %d-byte header", ErrTruncated, headerSize)}
+		return 0, 0, 0, &FormatError{Offset: int64(n), Err: fmt.Errorf("%w: the file ends inside its %d-byte header", ErrTruncated, headerSize)}
 	}
-	major := int(binary.BigEndian.Uint16(hdr[8:]))
-	minor := int(binary.BigEndian.Uint16(hdr[10:]))
+	major = int(binary.BigEndian.Uint16(hdr[8:]))
+	minor = int(binary.BigEndian.Uint16(hdr[10:]))
 	if major > FormatMajor {
-		return nil, &FormatError{Offset: 8, Field: "major version", Err: fmt.Errorf(
+		return 0, 0, 0, &FormatError{Offset: 8, Field: "major version", Err: fmt.Errorf(
 			"%w (the file has format %d.%d; this Pairline reads format %d.x)", ErrNewerVersion, major, minor, FormatMajor)}
 	}
 	if major < 1 {
-		return nil, &FormatError{Offset: 8, Field: "major version", Err: invalid("format version %d.%d was never written by Pairline", major, minor)}
+		return 0, 0, 0, &FormatError{Offset: 8, Field: "major version", Err: invalid("format version %d.%d was never written by Pairline", major, minor)}
 	}
-	length := binary.BigEndian.Uint64(hdr[12:])
+	length = binary.BigEndian.Uint64(hdr[12:])
 	if length > maxBodySize {
-		return nil, &FormatError{Offset: 12, Field: "body length", Err: fmt.Errorf(
+		return 0, 0, 0, &FormatError{Offset: 12, Field: "body length", Err: fmt.Errorf(
 			"%w: it claims %d bytes of contents, at most %d are allowed", ErrTooLarge, length, maxBodySize)}
 	}
+	return major, minor, length, nil
+}
+
+// decodeRest reads the body of length bytes and the stored checksum after
+// the header, refusing a file that ends early or goes on after them.
+func decodeRest(r io.Reader, length uint64) (body, stored []byte, err error) {
 	want := int64(length) + checksumSize
-	// The buffer starts at what the reader says it holds (a bytes.Reader in
-	// the browser, a file natively), never at what the header claims: a
-	// 200-byte file claiming 64 MiB gets a small buffer.
+	rest, err := readAtMost(r, want, decodeBufferStart(r))
+	got := int64(len(rest))
+	if err != nil {
+		return nil, nil, &FormatError{Offset: headerSize + got, Err: fmt.Errorf("%w: the file could not be read: %v", ErrTruncated, err)}
+	}
+	if got < want {
+		return nil, nil, &FormatError{Offset: headerSize + got, Err: fmt.Errorf(
+			"%w: the file has %d bytes, its header says %d", ErrTruncated, headerSize+got, headerSize+want)}
+	}
+	var extra [1]byte
+	if k, _ := io.ReadFull(r, extra[:]); k > 0 {
+		return nil, nil, &FormatError{Offset: headerSize + want, Err: invalid("there are extra bytes after the end of the file")}
+	}
+	return rest[:length], rest[length:], nil
+}
+
+// decodeBufferStart is the size the body's buffer starts at: what the
+// reader says it holds (a bytes.Reader in the browser, a file natively),
+// never what the header claims, so a 200-byte file claiming 64 MiB gets a
+// small buffer; 64 KiB when the reader does not say.
+func decodeBufferStart(r io.Reader) int64 {
 	start := int64(64 << 10)
 	if l, ok := r.(interface{ Len() int }); ok {
 		start = int64(l.Len())
@@ -537,27 +598,12 @@ func Decode(r io.Reader) (*File, error) {
 			start = fi.Size() - headerSize
 		}
 	}
-	rest, err := readAtMost(r, want, start)
-	got := int64(len(rest))
-	if err != nil {
-		return nil, &FormatError{Offset: headerSize + got, Err: fmt.Errorf("%w: the file could not be read: %v", ErrTruncated, err)}
-	}
-	if got < want {
-		return nil, &FormatError{Offset: headerSize + got, Err: fmt.Errorf(
-			"%w: the file has %d bytes, its header says %d", ErrTruncated, headerSize+got, headerSize+want)}
-	}
-	var extra [1]byte
-	if k, _ := io.ReadFull(r, extra[:]); k > 0 {
-		return nil, &FormatError{Offset: headerSize + want, Err: invalid("there are extra bytes after the end of the file")}
-	}
-	body, stored := rest[:length], rest[length:]
-	h := sha256.New()
-	h.Write(hdr[:])
-	h.Write(body)
-	if subtle.ConstantTimeCompare(h.Sum(nil), stored) != 1 {
-		return nil, &FormatError{Offset: headerSize + int64(length), Field: "checksum", Err: ErrChecksum}
-	}
-	f := &File{Major: major, Minor: minor, Checksum: hex.EncodeToString(stored)}
+	return start
+}
+
+// decodeSessions decodes the body's sessions and checks each as Validate
+// does, and that no two share an ID.
+func decodeSessions(body []byte) ([]*Session, error) {
 	d := newBodyDecoder(body)
 	sessions, starts, ferr := d.bundle()
 	if ferr != nil {
@@ -573,15 +619,7 @@ func Decode(r io.Reader) (*File, error) {
 		}
 		seen[s.ID] = true
 	}
-	f.Sessions = sessions
-	if minor > FormatMinor {
-		f.Warnings = append(f.Warnings, fmt.Sprintf(
-			"The file was written by a newer Pairline (format %d.%d; this one knows %d.%d). "+
-				"Everything this version knows was read; newer details were skipped and are lost if you save from here.",
-			major, minor, FormatMajor, FormatMinor))
-	}
-	migrate(f)
-	return f, nil
+	return sessions, nil
 }
 
 // readAtMost reads up to want bytes from r into a buffer that starts at
@@ -1086,64 +1124,71 @@ func (b *bodyDecoder) skip(field string, depth int) *FormatError {
 		return b.short(off, field, "a value")
 	}
 	c := b.b[b.pos]
-	var n int
-	switch sz, ok := numberSize(c); {
-	case c <= msgpcode.PosFixedNumHigh || c >= msgpcode.NegFixedNumLow:
+	if c <= msgpcode.PosFixedNumHigh || c >= msgpcode.NegFixedNumLow {
 		b.pos++
 		return nil
-	case ok:
-		n = 1 + sz
-	default:
-		if k, isStr, done := b.header(msgpcode.FixedStrLow, 32, msgpcode.Str8, msgpcode.Str16, msgpcode.Str32); isStr || !done {
-			if !done {
-				return b.short(off, field, "a value")
-			}
-			n = k
-			break
-		}
-		if k, isBin, done := b.header(0, 0, msgpcode.Bin8, msgpcode.Bin16, msgpcode.Bin32); isBin || !done {
-			if !done {
-				return b.short(off, field, "a value")
-			}
-			n = k
-			break
-		}
-		if _, k, isExt, done := b.extHeader(); isExt || !done {
-			if !done {
-				return b.short(off, field, "a value")
-			}
-			n = k
-			break
-		}
-		k, isMap, done := b.header(msgpcode.FixedMapLow, 16, 0, msgpcode.Map16, msgpcode.Map32)
-		if isMap {
-			k *= 2
-		} else if done {
-			k, isMap, done = b.header(msgpcode.FixedArrayLow, 16, 0, msgpcode.Array16, msgpcode.Array32)
-			if done && !isMap {
-				return b.fail(off, field, invalid("the value has a type MessagePack does not define (code 0x%02x)", c))
-			}
-		}
-		if !done {
-			return b.short(off, field, "a value")
-		}
-		if depth >= MaxNesting {
-			return b.fail(off, field, invalid("values are nested more than %d deep", MaxNesting))
-		}
-		if k > b.left() {
-			return b.fail(off, field, invalid("a value claims %d entries but only %d bytes are left", k, b.left()))
-		}
-		for i := 0; i < k; i++ {
-			if ferr := b.skip(field, depth+1); ferr != nil {
-				return ferr
-			}
-		}
-		return nil
+	}
+	n, scalar, done := b.scalarSize(c)
+	if !done {
+		return b.short(off, field, "a value")
+	}
+	if !scalar {
+		return b.skipContainer(field, depth, off, c)
 	}
 	if n > b.left() {
 		return b.short(off, field, "a value")
 	}
 	b.pos += n
+	return nil
+}
+
+// scalarSize is, for a value that starts with byte c and holds no other
+// values (a number, string, binary or extension), the bytes left to pass
+// over after what it read of its header (scalar). done is false when the
+// body ends inside the header.
+func (b *bodyDecoder) scalarSize(c byte) (n int, scalar, done bool) {
+	if sz, ok := numberSize(c); ok {
+		return 1 + sz, true, true
+	}
+	if k, isStr, done := b.header(msgpcode.FixedStrLow, 32, msgpcode.Str8, msgpcode.Str16, msgpcode.Str32); isStr || !done {
+		return k, true, done
+	}
+	if k, isBin, done := b.header(0, 0, msgpcode.Bin8, msgpcode.Bin16, msgpcode.Bin32); isBin || !done {
+		return k, true, done
+	}
+	if _, k, isExt, done := b.extHeader(); isExt || !done {
+		return k, true, done
+	}
+	return 0, false, true
+}
+
+// skipContainer passes over a map or array (starting with byte c at file
+// offset off) and every value in it, one level deeper; anything else is a
+// type MessagePack does not define.
+func (b *bodyDecoder) skipContainer(field string, depth int, off int64, c byte) *FormatError {
+	k, isMap, done := b.header(msgpcode.FixedMapLow, 16, 0, msgpcode.Map16, msgpcode.Map32)
+	if isMap {
+		k *= 2
+	} else if done {
+		k, isMap, done = b.header(msgpcode.FixedArrayLow, 16, 0, msgpcode.Array16, msgpcode.Array32)
+		if done && !isMap {
+			return b.fail(off, field, invalid("the value has a type MessagePack does not define (code 0x%02x)", c))
+		}
+	}
+	if !done {
+		return b.short(off, field, "a value")
+	}
+	if depth >= MaxNesting {
+		return b.fail(off, field, invalid("values are nested more than %d deep", MaxNesting))
+	}
+	if k > b.left() {
+		return b.fail(off, field, invalid("a value claims %d entries but only %d bytes are left", k, b.left()))
+	}
+	for i := 0; i < k; i++ {
+		if ferr := b.skip(field, depth+1); ferr != nil {
+			return ferr
+		}
+	}
 	return nil
 }
 

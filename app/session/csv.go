@@ -306,7 +306,13 @@ func columnAt(text string, i int) int {
 // detectDelimiter applies the rule documented on ReadCSV. It looks at the
 // first 100 non-blank rows only (a lone CR ends a row, as in the reader).
 func detectDelimiter(text string) rune {
-	cands := []rune{'\t', ';', ','}
+	return delimiterByCounts(delimiterCounts(text))
+}
+
+// delimiterCounts counts the tabs, semicolons and commas outside quotes
+// of each of the first 100 non-blank rows of text (a row of only spaces
+// is blank; a lone CR ends a row).
+func delimiterCounts(text string) [][3]int {
 	var counts [][3]int
 	var cur [3]int
 	inQuote, nonEmpty := false, false
@@ -322,18 +328,11 @@ func detectDelimiter(text string) rune {
 				counts = append(counts, cur)
 			}
 			cur, nonEmpty = [3]int{}, false
-		case c == '\t':
-			cur[0]++
-		case c == ';':
-			cur[1]++
-		case c == ',':
-			cur[2]++
-		case c == ' ' || c == '\v' || c == '\f':
-		case c < utf8.RuneSelf:
-			nonEmpty = true
+		case c == '\t' || c == ';' || c == ',':
+			cur[strings.IndexByte("\t;,", c)]++
 		default:
-			r, n := utf8.DecodeRuneInString(text[i:])
-			if !unicode.IsSpace(r) {
+			var n int
+			if delimiterVisible(text[i:], &n) {
 				nonEmpty = true
 			}
 			i += n - 1
@@ -342,6 +341,30 @@ func detectDelimiter(text string) rune {
 	if nonEmpty && len(counts) < 100 {
 		counts = append(counts, cur)
 	}
+	return counts
+}
+
+// delimiterVisible reports whether the character at the start of s makes
+// a row non-blank (anything but white space), with its length in n.
+func delimiterVisible(s string, n *int) bool {
+	c := s[0]
+	*n = 1
+	switch {
+	case c == ' ' || c == '\v' || c == '\f':
+		return false
+	case c < utf8.RuneSelf:
+		return true
+	}
+	r, size := utf8.DecodeRuneInString(s)
+	*n = size
+	return !unicode.IsSpace(r)
+}
+
+// delimiterByCounts is the candidate (tab, semicolon, comma, in that order
+// of preference) whose most common non-zero count per row is shared by the
+// most rows; a comma when none is found.
+func delimiterByCounts(counts [][3]int) rune {
+	cands := []rune{'\t', ';', ','}
 	best, bestScore := ',', 0
 	freq := map[int]int{}
 	for i, d := range cands {

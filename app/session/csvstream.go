@@ -243,7 +243,10 @@ type pass1 struct {
 
 // streamPass1 is pass 1 of readTable over blocks, with decodeText's checks
 // (a NUL byte, text that is not UTF-8) made block by block in the order
-// ReadCSV makes them: the size first, then a NUL, then the table.
+// ReadCSV makes them: the size first, then a NUL, then the table. The
+// stages: a UTF-16 byte-order mark sends the file to ReadCSV (fallback),
+// each block is checked and scanned (block), then the end is checked
+// (finish).
 func streamPass1(r io.Reader, opt StreamOptions, res *StreamResult) (*pass1, error) {
 	p := &pass1{}
 	var head [2]byte
@@ -253,51 +256,93 @@ func streamPass1(r io.Reader, opt StreamOptions, res *StreamResult) (*pass1, err
 		return p, nil
 	}
 	br := newBlockReader(io.MultiReader(strings.NewReader(string(head[:n])), r))
-	var scanErr, nulErr *CSVError
-	lineOff := 0
-	for {
-		block := br.next()
-		if block == "" {
-			break
-		}
+	var st pass1State
+	for block := br.next(); block != ""; block = br.next() {
 		if br.total > MaxStreamSize {
-			return nil, &CSVError{Err: fmt.Errorf("%w (more than %d MiB)", ErrCSVTooLarge, MaxStreamSize>>20)}
+			return nil, streamTooLarge()
 		}
-		if nulErr == nil {
-			if i := strings.IndexByte(block, 0); i >= 0 {
-				nulErr = &CSVError{Line: lineOff + lineAt(block, i), Err: ErrCSVNotText}
-			}
+		fallback, err := p.block(block, &st, opt, res)
+		if err != nil {
+			return nil, err
 		}
-		if nulErr == nil && !utf8.ValidString(block) {
+		if fallback {
 			p.fallback = true
 			return p, nil
 		}
-		if res.Delimiter == 0 {
-			res.Delimiter = opt.Delimiter
-			if res.Delimiter == 0 {
-				res.Delimiter = detectDelimiter(block)
-			}
-			d := res.Delimiter
-			if d == '"' || d == '\r' || d == '\n' || !utf8.ValidRune(d) || d == utf8.RuneError {
-				return nil, &CSVError{Err: fmt.Errorf("%q cannot separate fields", d)}
-			}
-		}
-		if scanErr == nil && nulErr == nil {
-			scanErr = p.scan(block, lineOff, res)
-		}
-		lineOff += lineEnds(block)
 	}
+	if err := p.finish(br, &st, opt, res); err != nil {
+		return nil, err
+	}
+	return p, nil
+}
+
+// pass1State is what pass 1 carries from block to block: the first error
+// of the scan and the first NUL byte (each reported only at the end, so
+// that the size is checked first), and the lines before the block.
+type pass1State struct {
+	scanErr, nulErr *CSVError
+	lineOff         int
+}
+
+// streamTooLarge is the error of a text above MaxStreamSize.
+func streamTooLarge() *CSVError {
+	return &CSVError{Err: fmt.Errorf("%w (more than %d MiB)", ErrCSVTooLarge, MaxStreamSize>>20)}
+}
+
+// block checks one block for a NUL byte and for text that is not UTF-8
+// (fallback: ReadCSV then reads the file), chooses the delimiter at the
+// first block, and scans the block while there is no error yet.
+func (p *pass1) block(block string, st *pass1State, opt StreamOptions, res *StreamResult) (fallback bool, err error) {
+	if st.nulErr == nil {
+		if i := strings.IndexByte(block, 0); i >= 0 {
+			st.nulErr = &CSVError{Line: st.lineOff + lineAt(block, i), Err: ErrCSVNotText}
+		}
+	}
+	if st.nulErr == nil && !utf8.ValidString(block) {
+		return true, nil
+	}
+	if res.Delimiter == 0 {
+		if err := streamDelimiter(block, opt, res); err != nil {
+			return false, err
+		}
+	}
+	if st.scanErr == nil && st.nulErr == nil {
+		st.scanErr = p.scan(block, st.lineOff, res)
+	}
+	st.lineOff += lineEnds(block)
+	return false, nil
+}
+
+// streamDelimiter sets the delimiter from the options or, when they give
+// none, from the first block (detectDelimiter), refusing one that cannot
+// separate fields.
+func streamDelimiter(block string, opt StreamOptions, res *StreamResult) error {
+	res.Delimiter = opt.Delimiter
+	if res.Delimiter == 0 {
+		res.Delimiter = detectDelimiter(block)
+	}
+	d := res.Delimiter
+	if d == '"' || d == '\r' || d == '\n' || !utf8.ValidRune(d) || d == utf8.RuneError {
+		return &CSVError{Err: fmt.Errorf("%q cannot separate fields", d)}
+	}
+	return nil
+}
+
+// finish reports, after the last block, a read error, a text too large,
+// the first NUL, the first scan error, or a text without data, in that
+// order; an empty text gets the delimiter an empty first block would.
+func (p *pass1) finish(br *blockReader, st *pass1State, opt StreamOptions, res *StreamResult) error {
 	if br.err != nil {
-		return nil, &CSVError{Err: fmt.Errorf("the file could not be read: %w", br.err)}
+		return &CSVError{Err: fmt.Errorf("the file could not be read: %w", br.err)}
 	}
 	if br.total > MaxStreamSize {
-		return nil, &CSVError{Err: fmt.Errorf("%w (more than %d MiB)", ErrCSVTooLarge, MaxStreamSize>>20)}
+		return streamTooLarge()
 	}
-	if nulErr != nil {
-		return nil, nulErr
+	if st.nulErr != nil {
+		return st.nulErr
 	}
-	if scanErr != nil {
-		return nil, scanErr
+	if st.scanErr != nil {
+		return st.scanErr
 	}
 	if res.Delimiter == 0 { // an empty text
 		res.Delimiter = opt.Delimiter
@@ -306,9 +351,9 @@ func streamPass1(r io.Reader, opt StreamOptions, res *StreamResult) (*pass1, err
 		}
 	}
 	if p.rows == 0 {
-		return nil, &CSVError{Err: ErrCSVNoData}
+		return &CSVError{Err: ErrCSVNoData}
 	}
-	return p, nil
+	return nil
 }
 
 // scan is the loop of readTable's pass 1 over one block.
@@ -426,82 +471,117 @@ func streamPass2(r io.ReadSeeker, res *StreamResult, rows int) error {
 	if _, err := r.Seek(0, io.SeekStart); err != nil {
 		return &CSVError{Err: fmt.Errorf("the file could not be read again: %w", err)}
 	}
-	xc, yc := res.XCol, res.YCol
 	br := newBlockReader(r)
 	q := &pass2{}
 	// Pass 1 counted the rows: the columns are made once, at their size.
 	res.X, res.Y, res.Lines = make([]float64, 0, rows), make([]float64, 0, rows), make([]int32, 0, rows)
-	seen, pendingBlank, data, complete := 0, 0, 0, 0
+	var st pass2Rows
 	lineOff := 0
-	for {
-		block := br.next()
-		if block == "" {
-			break
-		}
+	for block := br.next(); block != ""; block = br.next() {
 		sc := newCSVScanner(block, res.Delimiter)
 		sc.line += lineOff
 		lineOff += lineEnds(block)
-		for {
-			sc.keep, sc.raw = max(xc, yc)+1, true
-			empty, pos, posLine := sc.empty, sc.pos, sc.line
-			fields, line, cerr := sc.next()
-			if cerr == nil && sc.truncated && isBlankRow(fields) {
-				sc.pos, sc.line, sc.empty, sc.keep = pos, posLine, empty, 0
-				fields, line, cerr = sc.next()
-			}
-			if cerr != nil {
-				return cerr // only if the text changed since pass 1
-			}
-			if seen > 0 {
-				pendingBlank += sc.empty - empty
-			}
-			if fields == nil {
-				break
-			}
-			if isBlankRow(fields) {
-				if seen > 0 {
-					pendingBlank++
-				}
-				continue
-			}
-			seen++
-			res.Blank += pendingBlank
-			pendingBlank = 0
-			if seen == 1 && res.HasHeader || seen == 2 && res.UnitsRow {
-				continue
-			}
-			if data++; data > MaxStreamRows {
-				return &CSVError{Line: line, Err: fmt.Errorf("%w (at most %d)", ErrCSVStreamRows, MaxStreamRows)}
-			}
-			x, y, why := rowPair(fields, xc, yc, true, res.PairlineExport)
-			if why != "" {
-				res.Incomplete++
-				res.Skipped = append(res.Skipped, SkippedRow{line, why})
-				continue
-			}
-			i := len(res.X)
-			xv, xerr := q.cell(x, 2*i)
-			yv, yerr := q.cell(y, 2*i+1)
-			if xerr != nil {
-				res.Problems = append(res.Problems, StreamProblem{CellProblem{Row: complete, Column: ColumnX, Text: strings.Clone(x)}, line})
-			}
-			if yerr != nil {
-				res.Problems = append(res.Problems, StreamProblem{CellProblem{Row: complete, Column: ColumnY, Text: strings.Clone(y)}, line})
-			}
-			complete++
-			if xerr != nil || yerr != nil {
-				q.clear(2 * i)
-				q.clear(2*i + 1)
-				continue
-			}
-			res.X, res.Y = append(res.X, xv), append(res.Y, yv)
-			res.Lines = append(res.Lines, int32(line))
+		if err := q.block(sc, &st, res); err != nil {
+			return err
 		}
 	}
 	if br.err != nil {
 		return &CSVError{Err: fmt.Errorf("the file could not be read: %w", br.err)}
 	}
 	return q.finish(res)
+}
+
+// pass2Rows counts the rows of pass 2 across blocks: the non-blank rows
+// seen, the blank rows since the last of them (counted in Blank once a
+// non-blank row follows), the data rows and the complete ones.
+type pass2Rows struct {
+	seen, pendingBlank, data, complete int
+}
+
+// block reads the rows of one block, keeping only the cells up to the
+// chosen columns.
+func (q *pass2) block(sc *csvScanner, st *pass2Rows, res *StreamResult) error {
+	keep := max(res.XCol, res.YCol) + 1
+	for {
+		fields, line, empty, cerr := sc.nextKept(keep)
+		if cerr != nil {
+			return cerr // only if the text changed since pass 1
+		}
+		if st.seen > 0 {
+			st.pendingBlank += sc.empty - empty
+		}
+		if fields == nil {
+			return nil
+		}
+		if err := q.row(fields, line, st, res); err != nil {
+			return err
+		}
+	}
+}
+
+// nextKept is the scanner's next row with only its first keep cells; a
+// row cut short that turns out blank is read again whole, so that it is
+// judged as pass 1 judged it. empty is the count of empty rows before it.
+func (sc *csvScanner) nextKept(keep int) (fields []string, line, empty int, cerr *CSVError) {
+	sc.keep, sc.raw = keep, true
+	empty, pos, posLine := sc.empty, sc.pos, sc.line
+	fields, line, cerr = sc.next()
+	if cerr == nil && sc.truncated && isBlankRow(fields) {
+		sc.pos, sc.line, sc.empty, sc.keep = pos, posLine, empty, 0
+		fields, line, cerr = sc.next()
+	}
+	return fields, line, empty, cerr
+}
+
+// row takes one row: blank rows are counted, the header and units rows
+// passed over, and a data row's pair read (pair).
+func (q *pass2) row(fields []string, line int, st *pass2Rows, res *StreamResult) error {
+	if isBlankRow(fields) {
+		if st.seen > 0 {
+			st.pendingBlank++
+		}
+		return nil
+	}
+	st.seen++
+	res.Blank += st.pendingBlank
+	st.pendingBlank = 0
+	if st.seen == 1 && res.HasHeader || st.seen == 2 && res.UnitsRow {
+		return nil
+	}
+	if st.data++; st.data > MaxStreamRows {
+		return &CSVError{Line: line, Err: fmt.Errorf("%w (at most %d)", ErrCSVStreamRows, MaxStreamRows)}
+	}
+	x, y, why := rowPair(fields, res.XCol, res.YCol, true, res.PairlineExport)
+	if why != "" {
+		res.Incomplete++
+		res.Skipped = append(res.Skipped, SkippedRow{line, why})
+		return nil
+	}
+	q.pair(x, y, line, st, res)
+	return nil
+}
+
+// pair parses the chosen cells of a complete row: both numbers join the
+// columns; a cell that is not one is listed in Problems and the row left
+// out.
+func (q *pass2) pair(x, y string, line int, st *pass2Rows, res *StreamResult) {
+	i := len(res.X)
+	xv, xerr := q.cell(x, 2*i)
+	yv, yerr := q.cell(y, 2*i+1)
+	if xerr != nil {
+		res.Problems = append(res.Problems, StreamProblem{CellProblem{Row: st.complete, Column: ColumnX, Text: strings.Clone(x)}, line})
+	}
+	if yerr != nil {
+		res.Problems = append(res.Problems, StreamProblem{CellProblem{Row: st.complete, Column: ColumnY, Text: strings.Clone(y)}, line})
+	}
+	st.complete++
+	if xerr != nil || yerr != nil {
+		q.clear(2 * i)
+		q.clear(2*i + 1)
+		return
+	}
+	res.X, res.Y = append(res.X, xv), append(res.Y, yv)
+	res.Lines = append(res.Lines, int32(line))
 }
 
 // clear forgets the ambiguity of a cell whose pair was not kept (its index

@@ -99,39 +99,9 @@ func plainNumber(s string) (float64, bool) {
 	if len(s) == 0 || len(s) > 24 {
 		return 0, false
 	}
-	i := 0
-	neg := false
-	if s[0] == '-' || s[0] == '+' {
-		neg = s[0] == '-'
-		i = 1
-	}
-	start := i
-	var m uint64
-	digits := 0
-	for i < len(s) && isDigit(s[i]) {
-		m = m*10 + uint64(s[i]-'0')
-		digits++
-		i++
-	}
-	if i == start {
+	m, digits, k, neg, ok := plainDigits(s)
+	if !ok {
 		return 0, false
-	}
-	k := 0
-	if i < len(s) {
-		if s[i] != '.' {
-			return 0, false
-		}
-		i++
-		frac := i
-		for i < len(s) && isDigit(s[i]) {
-			m = m*10 + uint64(s[i]-'0')
-			digits++
-			i++
-		}
-		k = i - frac
-		if i != len(s) || k == 0 || k == 3 {
-			return 0, false
-		}
 	}
 	if digits <= 19 && m <= 1<<53 && k <= 22 {
 		// 19 digits cannot overflow a uint64.
@@ -152,6 +122,45 @@ func plainNumber(s string) (float64, bool) {
 		return 0, false
 	}
 	return v, true
+}
+
+// plainDigits reads s (not empty) as an optional sign, digits and, after a
+// dot, digits other than exactly three: m is the digits as one integer
+// (exact for up to 19 of them), k the number after the dot. ok is false
+// for any other text.
+func plainDigits(s string) (m uint64, digits, k int, neg, ok bool) {
+	i := 0
+	if s[0] == '-' || s[0] == '+' {
+		neg = s[0] == '-'
+		i = 1
+	}
+	start := i
+	for i < len(s) && isDigit(s[i]) {
+		m = m*10 + uint64(s[i]-'0')
+		digits++
+		i++
+	}
+	if i == start {
+		return 0, 0, 0, false, false
+	}
+	if i == len(s) {
+		return m, digits, 0, neg, true
+	}
+	if s[i] != '.' {
+		return 0, 0, 0, false, false
+	}
+	i++
+	frac := i
+	for i < len(s) && isDigit(s[i]) {
+		m = m*10 + uint64(s[i]-'0')
+		digits++
+		i++
+	}
+	k = i - frac
+	if i != len(s) || k == 0 || k == 3 {
+		return 0, 0, 0, false, false
+	}
+	return m, digits, k, neg, true
 }
 
 // plainPow10[k] is 10^k, exact in float64 for k ≤ 22.
