@@ -142,14 +142,11 @@ func renumberAdvice(ad *fitcore.Advice, rows []int) {
 }
 
 // renumberAssumptions rewrites the sentences of every assumption of a, as
-// fitcore.AssumptionList lists them (its Get takes them from a report: a
-// is lent to one for that, and taken back).
+// fitcore.AssumptionList lists them.
 func renumberAssumptions(a *fitcore.Assumptions, rows []int) {
-	r := fitcore.Report{Assumptions: *a}
 	for _, as := range fitcore.AssumptionList() {
-		if x := as.Get(&r); x != nil {
+		if x := as.Of(a); x != nil {
 			x.Message, x.Advice = rowWords(x.Message, rows), rowWords(x.Advice, rows)
 		}
 	}
-	*a = r.Assumptions
 }

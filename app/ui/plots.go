@@ -380,11 +380,9 @@ func (c *Shell) renderPlots() app.UI {
 
 // plotAction applies what the plots card asked for, on the Shell's own
 // context (the card's element may be gone by the time it runs). The reason
-// typed is taken at once, in the handler of its key: a render between two
-// keys from a dispatch still to come would write an older text back into
-// the box, and the next key would then be typed after it (a key lost).
+// box keeps each key itself while the dispatch is on its way (typing.go).
 func (c *Shell) plotAction(a PlotAction) {
-	if c.ui.Src() == nil || a.Kind == paReason {
+	if c.ui.Src() == nil {
 		c.applyPlot(app.Context{}, a)
 		return
 	}
