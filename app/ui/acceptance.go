@@ -41,7 +41,7 @@ func (c *Shell) anStoreTemplates(ctx app.Context) {
 }
 
 // anCriteria returns a copy of the session's criteria (zero when none).
-func (c *Shell) anCriteria() fitcore.Criteria { return c.criteria() }
+func (c *Shell) anCriteria() fitcore.Criteria { return c.ctl.criteria() }
 
 func anCriteriaEmpty(k fitcore.Criteria) bool {
 	return k.MinRSquared == nil && k.SlopeLow == nil && k.SlopeHigh == nil &&
@@ -50,10 +50,10 @@ func anCriteriaEmpty(k fitcore.Criteria) bool {
 
 // anSetCriteria stores changed criteria in the session's settings.
 func (c *Shell) anSetCriteria(ctx app.Context, k fitcore.Criteria) {
-	if c.sess == nil || c.refuseLocked() {
+	if c.ctl.sess == nil || c.refuseLocked() {
 		return
 	}
-	if err := c.setCriteria(k); err != nil {
+	if err := c.ctl.setCriteria(k); err != nil {
 		c.notice = "This setting could not be used: " + err.Error()
 		return
 	}
@@ -85,13 +85,13 @@ func (c *Shell) renderAcceptance() app.UI {
 		c.anFieldVals["acceptance_"+f.name] = anOptText(*f.get(&k))
 	}
 	card := &criteriaCard{
-		Criteria: k, Set: c.sess.Settings.Acceptance != nil, HasLine: c.view.report != nil, Message: c.view.message,
-		YUnit: c.sess.YUnit, FieldErr: c.anFieldErr,
+		Criteria: k, Set: c.ctl.sess.Settings.Acceptance != nil, HasLine: c.ctl.view.report != nil, Message: c.ctl.view.message,
+		YUnit: c.ctl.sess.YUnit, FieldErr: c.anFieldErr,
 		Templates: c.anTemplates, TplName: c.anTplName, TplMsg: c.anTplMsg, TplConfirm: c.anTplConfirmDl,
 		OnAction: c.cardAction,
 	}
-	if c.view.report != nil {
-		card.Result = c.view.report.Acceptance
+	if c.ctl.view.report != nil {
+		card.Result = c.ctl.view.report.Acceptance
 	}
 	return card
 }

@@ -39,12 +39,12 @@ func anWithRemedy(st session.Settings, ad *fitcore.Advice) session.Settings {
 // anAdvice applies the advice's remedy (apply) or goes back to the plain
 // line (controller.applyAdvice, revertAdvice).
 func (c *Shell) anAdvice(ctx app.Context, apply bool) {
-	if c.sess == nil || c.refuseLocked() {
+	if c.ctl.sess == nil || c.refuseLocked() {
 		return
 	}
-	do := c.revertAdvice
+	do := c.ctl.revertAdvice
 	if apply {
-		do = c.applyAdvice
+		do = c.ctl.applyAdvice
 	}
 	if err := do(); err != nil {
 		if err != errNoAdvice {
@@ -57,12 +57,12 @@ func (c *Shell) anAdvice(ctx app.Context, apply bool) {
 
 // renderAdvice hands the advice card its data.
 func (c *Shell) renderAdvice() app.UI {
-	if c.view.report == nil && !anApplied(c.sess.Settings) {
+	if c.ctl.view.report == nil && !anApplied(c.ctl.sess.Settings) {
 		return nil
 	}
-	s := c.sess
+	s := c.ctl.sess
 	return &adviceCard{
-		Report: c.view.report, Applied: anApplied(s.Settings), Pending: c.view.advicePending, Digits: c.view.digits,
+		Report: c.ctl.view.report, Applied: anApplied(s.Settings), Pending: c.ctl.view.advicePending, Digits: c.ctl.view.digits,
 		XName: s.XName, XUnit: s.XUnit, YName: s.YName, YUnit: s.YUnit,
 		LineFrom: len(c.anPredX), LineN: len(c.anLineX), OnAction: c.cardAction,
 	}

@@ -37,16 +37,16 @@ func TestApplyCard(t *testing.T) {
 		check func(c *Shell) string // "" when right
 	}{
 		{"criterion typed", CardAction{Kind: caCriterion, Key: "min_r2", Text: "0.999"}, func(c *Shell) string {
-			if k := c.criteria(); k.MinRSquared == nil || *k.MinRSquared != 0.999 {
+			if k := c.ctl.criteria(); k.MinRSquared == nil || *k.MinRSquared != 0.999 {
 				return "R² at least 0.999 not stored"
 			}
-			if c.view.report.Acceptance == nil || len(c.view.report.Acceptance.Results) != 1 {
+			if c.ctl.view.report.Acceptance == nil || len(c.ctl.view.report.Acceptance.Results) != 1 {
 				return "the criterion was not judged"
 			}
 			return ""
 		}},
 		{"criterion out of range", CardAction{Kind: caCriterion, Key: "min_r2", Text: "2"}, func(c *Shell) string {
-			if c.sess.Settings.Acceptance != nil {
+			if c.ctl.sess.Settings.Acceptance != nil {
 				return "an R² of 2 was stored"
 			}
 			if !strings.Contains(c.anFieldErr["acceptance_min_r2"], "between 0 and 1") {
@@ -55,7 +55,7 @@ func TestApplyCard(t *testing.T) {
 			return ""
 		}},
 		{"criterion not a number", CardAction{Kind: caCriterion, Key: "max_residual", Text: "abc"}, func(c *Shell) string {
-			if c.sess.Settings.Acceptance != nil || c.anFieldErr["acceptance_max_residual"] == "" {
+			if c.ctl.sess.Settings.Acceptance != nil || c.anFieldErr["acceptance_max_residual"] == "" {
 				return "text that is no number was stored or not refused"
 			}
 			return ""
@@ -63,42 +63,42 @@ func TestApplyCard(t *testing.T) {
 		{"residual in % of the span", CardAction{Kind: caResidualUnit, Key: "percent"}, func(c *Shell) string {
 			// Without a residual limit there is nothing to count: the
 			// session keeps no criteria.
-			if c.sess.Settings.Acceptance != nil {
+			if c.ctl.sess.Settings.Acceptance != nil {
 				return "a unit alone was stored as criteria"
 			}
 			c.applyCard(app.Context{}, CardAction{Kind: caCriterion, Key: "max_residual", Text: "1"})
 			c.applyCard(app.Context{}, CardAction{Kind: caResidualUnit, Key: "percent"})
-			if k := c.criteria(); !k.MaxResidualPercentOfSpan || k.MaxResidual == nil || *k.MaxResidual != 1 {
+			if k := c.ctl.criteria(); !k.MaxResidualPercentOfSpan || k.MaxResidual == nil || *k.MaxResidual != 1 {
 				return "the largest residual is not counted in % of the span"
 			}
 			return ""
 		}},
 		{"model chip", CardAction{Kind: caSetting, Key: "model:" + string(fitcore.ModelDeming)}, func(c *Shell) string {
-			if c.sess.Settings.Model != fitcore.ModelDeming || c.view.report.Model != fitcore.ModelDeming {
+			if c.ctl.sess.Settings.Model != fitcore.ModelDeming || c.ctl.view.report.Model != fitcore.ModelDeming {
 				return "the Deming fit was not taken"
 			}
 			return ""
 		}},
 		{"level chip", CardAction{Kind: caSetting, Key: "level:0.99"}, func(c *Shell) string {
-			if c.sess.Settings.Level != 0.99 || c.view.report.Level != 0.99 {
+			if c.ctl.sess.Settings.Level != 0.99 || c.ctl.view.report.Level != 0.99 {
 				return "the 99 % level was not taken"
 			}
 			return ""
 		}},
 		{"level typed out of range", CardAction{Kind: caSettingField, Key: "settings_level", Text: "101"}, func(c *Shell) string {
-			if c.view.report.Level != fitcore.DefaultLevel || c.anFieldErr["settings_level"] == "" {
+			if c.ctl.view.report.Level != fitcore.DefaultLevel || c.anFieldErr["settings_level"] == "" {
 				return "a level of 101 % was stored or not refused"
 			}
 			return ""
 		}},
 		{"slope reference typed", CardAction{Kind: caSettingField, Key: "settings_slope_ref", Text: "2"}, func(c *Shell) string {
-			if p := c.sess.Settings.SlopeRef; p == nil || *p != 2 || c.view.report.Slope.Ref != 2 {
+			if p := c.ctl.sess.Settings.SlopeRef; p == nil || *p != 2 || c.ctl.view.report.Slope.Ref != 2 {
 				return "the slope is not tested against 2"
 			}
 			return ""
 		}},
 		{"question to the line", CardAction{Kind: caQuery, Key: "predict", Text: "2.5"}, func(c *Shell) string {
-			if len(c.anPredX) != 1 || c.anPredX[0] != 2.5 || c.view.report.Predictions[0].X != 2.5 {
+			if len(c.anPredX) != 1 || c.anPredX[0] != 2.5 || c.ctl.view.report.Predictions[0].X != 2.5 {
 				return "no prediction at x = 2.5"
 			}
 			return ""
@@ -110,7 +110,7 @@ func TestApplyCard(t *testing.T) {
 			return ""
 		}},
 		{"revert with nothing applied", CardAction{Kind: caRevertAdvice}, func(c *Shell) string {
-			if c.sess.Settings.Transform != fitcore.TransformNone || c.sess.Settings.Weights != fitcore.WeightsNone {
+			if c.ctl.sess.Settings.Transform != fitcore.TransformNone || c.ctl.sess.Settings.Weights != fitcore.WeightsNone {
 				return "the plain line has a transform or weights"
 			}
 			return ""
@@ -131,7 +131,7 @@ func TestApplyCard(t *testing.T) {
 // prerenders), with the numbers fitcore computed in data-value.
 func TestCardsRender(t *testing.T) {
 	c := cardsShell(t)
-	rep := c.view.report
+	rep := c.ctl.view.report
 	cards := []struct {
 		name string
 		ui   app.UI

@@ -36,10 +36,10 @@ func anBadge(v fitcore.Verdict) app.UI {
 
 // renderChecks hands the checks card its data.
 func (c *Shell) renderChecks() app.UI {
-	if c.view.report == nil {
+	if c.ctl.view.report == nil {
 		return nil
 	}
-	return &checksCard{Report: c.view.report, Rows: c.view.rows, Digits: c.view.digits, Stale: c.view.stale,
+	return &checksCard{Report: c.ctl.view.report, Rows: c.ctl.view.rows, Digits: c.ctl.view.digits, Stale: c.ctl.view.stale,
 		Open: c.anOpen, OnAction: c.cardAction}
 }
 

@@ -138,15 +138,15 @@ func TestControllerRecord(t *testing.T) {
 func TestRecordActionThroughShell(t *testing.T) {
 	c := cardsShell(t)
 	c.recordAction(RecordAction{Kind: raField, Field: session.FieldOperator, Value: "B. Invented"})
-	if c.sess.Operator != "B. Invented" || len(c.unStack) == 0 {
-		t.Fatalf("operator %q, %d steps to undo", c.sess.Operator, len(c.unStack))
+	if c.ctl.sess.Operator != "B. Invented" || len(c.ctl.unStack) == 0 {
+		t.Fatalf("operator %q, %d steps to undo", c.ctl.sess.Operator, len(c.ctl.unStack))
 	}
 	c.undo(app.Context{}, app.Event{})
-	if c.sess.Operator != "" {
-		t.Errorf("undo left the operator %q", c.sess.Operator)
+	if c.ctl.sess.Operator != "" {
+		t.Errorf("undo left the operator %q", c.ctl.sess.Operator)
 	}
 	c.recordAction(RecordAction{Kind: raUseLast})
-	if c.recNoOffer != c.sess.ID {
+	if c.recNoOffer != c.ctl.sess.ID {
 		t.Error("the offer of the last record is still shown after it was used")
 	}
 	c.recordAction(RecordAction{Kind: raStdField, Index: 3, Field: "name"})

@@ -20,17 +20,17 @@ type demoUI struct {
 // and never overwrites the first (or the changes made to it). The first
 // demo session opens and the session list shows the others.
 func (c *Shell) loadDemo(ctx app.Context, e app.Event) {
-	if c.dmBusy || c.st == nil {
+	if c.dmBusy || c.ctl.st == nil {
 		return
 	}
 	c.dmBusy = true
 	again := false
-	for _, s := range c.sessions {
+	for _, s := range c.ctl.sessions {
 		if strings.HasPrefix(s.Title, "Demo (invented)") {
 			again = true
 		}
 	}
-	st := c.st
+	st := c.ctl.st
 	ctx = c.shellCtx(ctx)
 	ctx.Async(func() {
 		ss, err := demo.Sessions(time.Now(), nil)

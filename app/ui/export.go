@@ -13,11 +13,11 @@ import (
 
 // sessionFile encodes the open session as a session file.
 func (c *Shell) sessionFile() ([]byte, error) {
-	return session.EncodeBytes([]*session.Session{c.sess})
+	return session.EncodeBytes([]*session.Session{c.ctl.sess})
 }
 
 func (c *Shell) exportSession(ctx app.Context, e app.Event) {
-	if c.sess == nil {
+	if c.ctl.sess == nil {
 		return
 	}
 	b, err := c.sessionFile()
@@ -25,12 +25,12 @@ func (c *Shell) exportSession(ctx app.Context, e app.Event) {
 		c.notice = "The session could not be exported: " + err.Error()
 		return
 	}
-	download(fileBase(c.sess.Title)+session.FileExtension, session.MediaType, b)
+	download(fileBase(c.ctl.sess.Title)+session.FileExtension, session.MediaType, b)
 }
 
 func (c *Shell) shareSession(_ app.Context, e app.Event) {
 	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
-	if c.sess == nil {
+	if c.ctl.sess == nil {
 		return
 	}
 	b, err := c.sessionFile()
@@ -38,7 +38,7 @@ func (c *Shell) shareSession(_ app.Context, e app.Event) {
 		c.notice = "The session could not be shared: " + err.Error()
 		return
 	}
-	name, title := fileBase(c.sess.Title)+session.FileExtension, c.sess.Title
+	name, title := fileBase(c.ctl.sess.Title)+session.FileExtension, c.ctl.sess.Title
 	ctx.Async(func() {
 		if err := shareFile(name, session.MediaType, title, b); err != nil {
 			ctx.Dispatch(func(ctx app.Context) {
@@ -51,7 +51,7 @@ func (c *Shell) shareSession(_ app.Context, e app.Event) {
 // exportAll writes every stored session (not the trash) into one file.
 func (c *Shell) exportAll(_ app.Context, e app.Event) {
 	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
-	st := c.st
+	st := c.ctl.st
 	if st == nil {
 		return
 	}
@@ -82,15 +82,15 @@ func (c *Shell) exportAll(_ app.Context, e app.Event) {
 }
 
 func (c *Shell) exportCSV(ctx app.Context, e app.Event) {
-	if c.sess == nil {
+	if c.ctl.sess == nil {
 		return
 	}
 	var buf bytes.Buffer
-	if err := session.WriteReadingsCSV(&buf, c.sess); err != nil {
+	if err := session.WriteReadingsCSV(&buf, c.ctl.sess); err != nil {
 		c.notice = "The readings could not be exported: " + err.Error()
 		return
 	}
-	download(fileBase(c.sess.Title)+" readings.csv", "text/csv", buf.Bytes())
+	download(fileBase(c.ctl.sess.Title)+" readings.csv", "text/csv", buf.Bytes())
 }
 
 // exportResults writes the results of the record as CSV: session.
@@ -98,19 +98,19 @@ func (c *Shell) exportCSV(ctx app.Context, e app.Event) {
 // (the line, its checks, the acceptance, each unknown sample by name with
 // its conversion and interval; full precision, no cell a formula).
 func (c *Shell) exportResults(ctx app.Context, e app.Event) {
-	rep := c.view.report
-	if c.sess == nil || rep == nil {
+	rep := c.ctl.view.report
+	if c.ctl.sess == nil || rep == nil {
 		return
 	}
 	// The report holds the screen's own conversion first; the table is
 	// about the record's unknowns only (unknownResults).
-	adhoc, _ := unknownResults(c.sess, rep)
+	adhoc, _ := unknownResults(c.ctl.sess, rep)
 	r := *rep
 	r.Inverse = rep.Inverse[len(adhoc):]
 	var buf bytes.Buffer
-	if err := session.WriteResultsCSV(&buf, c.sess, &r, c.sess.UnknownQueries()); err != nil {
+	if err := session.WriteResultsCSV(&buf, c.ctl.sess, &r, c.ctl.sess.UnknownQueries()); err != nil {
 		c.notice = "The results could not be exported: " + err.Error()
 		return
 	}
-	download(fileBase(c.sess.Title)+" results.csv", "text/csv", buf.Bytes())
+	download(fileBase(c.ctl.sess.Title)+" results.csv", "text/csv", buf.Bytes())
 }

@@ -13,8 +13,8 @@ import (
 // renderReadings draws the readings table: quantity names and units on top,
 // one row of x and y cells per reading, and the count of usable pairs.
 func (c *Shell) renderReadings() app.UI {
-	s := c.sess
-	nProblems := len(c.view.problems) - c.heldProblems()
+	s := c.ctl.sess
+	nProblems := len(c.ctl.view.problems) - c.heldProblems()
 	lo, hi := c.pageRange()
 	return app.Section().Class("pl-card pl-readings").Attr("aria-label", "Readings").DataSet("testid", "readings-card").Body(
 		app.H2().Text("Readings"),
@@ -35,9 +35,9 @@ func (c *Shell) renderReadings() app.UI {
 		),
 		app.If(len(s.Readings) > pageSize, func() app.UI { return c.pager(lo, hi) }),
 		app.Div().Class("pl-grid-foot").Body(
-			app.Button().Class("pl-btn pl-btn-wide").Text("+ Add reading").DataSet("testid", "add-row").Disabled(c.locked()).
+			app.Button().Class("pl-btn pl-btn-wide").Text("+ Add reading").DataSet("testid", "add-row").Disabled(c.ctl.locked()).
 				OnClick(func(ctx app.Context, e app.Event) {
-					i, err := c.addRow()
+					i, err := c.ctl.addRow()
 					if err != nil {
 						return
 					}
@@ -48,8 +48,8 @@ func (c *Shell) renderReadings() app.UI {
 					c.afterChange(ctx)
 					ctx.Defer(func(ctx app.Context) { focus("x-input-" + strconv.Itoa(i)) })
 				}),
-			app.P().Class("pl-count").DataSet("testid", "usable-count").DataSet("value", strconv.Itoa(c.view.usable)).
-				Text(countText(c.view.usable, nProblems)),
+			app.P().Class("pl-count").DataSet("testid", "usable-count").DataSet("value", strconv.Itoa(c.ctl.view.usable)).
+				Text(countText(c.ctl.view.usable, nProblems)),
 		),
 	)
 }
@@ -59,7 +59,7 @@ func (c *Shell) renderReadings() app.UI {
 const pageSize = 100
 
 func (c *Shell) pageRange() (lo, hi int) {
-	n := len(c.sess.Readings)
+	n := len(c.ctl.sess.Readings)
 	last := max(0, (n-1)/pageSize)
 	c.page = min(max(c.page, 0), last)
 	lo = c.page * pageSize
@@ -67,7 +67,7 @@ func (c *Shell) pageRange() (lo, hi int) {
 }
 
 func (c *Shell) pager(lo, hi int) app.UI {
-	n := len(c.sess.Readings)
+	n := len(c.ctl.sess.Readings)
 	return app.Div().Class("pl-pager").Body(
 		app.Button().Class("pl-btn pl-btn-quiet").Text("‹ Previous").DataSet("testid", "page-prev").
 			Disabled(lo == 0).OnClick(func(ctx app.Context, e app.Event) { c.page--; c.resyncInputs() }),
@@ -119,8 +119,8 @@ func (c *Shell) quantity(col, label, name, unit, nameField, unitField string) ap
 }
 
 func (c *Shell) row(i int) app.UI {
-	r := c.sess.Readings[i]
-	yProblem := c.view.problems[cellKey{i, session.ColumnY}]
+	r := c.ctl.sess.Readings[i]
+	yProblem := c.ctl.view.problems[cellKey{i, session.ColumnY}]
 	if c.heldY(i) {
 		yProblem = ""
 	}
@@ -129,16 +129,16 @@ func (c *Shell) row(i int) app.UI {
 		reason = r.ExcludeReason
 	}
 	return &readingRow{
-		Session:  c.sess.ID,
+		Session:  c.ctl.sess.ID,
 		Row:      i,
 		X:        r.X,
 		Y:        r.Y,
-		XProblem: c.view.problems[cellKey{i, session.ColumnX}],
+		XProblem: c.ctl.view.problems[cellKey{i, session.ColumnX}],
 		YProblem: yProblem,
 		Excluded: r.Excluded,
 		Reason:   reason,
 		Note:     r.Note,
-		Locked:   c.locked(),
+		Locked:   c.ctl.locked(),
 		onAction: c.rowAction,
 	}
 }
@@ -174,18 +174,18 @@ func (c *Shell) rowAction(a RowAction) {
 }
 
 func (c *Shell) applyRow(ctx app.Context, a RowAction) {
-	if c.sess == nil || c.sess.ID != a.Session {
+	if c.ctl.sess == nil || c.ctl.sess.ID != a.Session {
 		return // a row of a session no longer open
 	}
 	switch a.Kind {
 	case rwType, rwNote:
-		if c.locked() {
+		if c.ctl.locked() {
 			return
 		}
 		if a.Kind == rwType {
 			c.enRow, c.enIn = a.Row, true // typing in it: the row is being entered
 		}
-		if err := c.setCell(a.Row, a.Col, a.Text); err != nil {
+		if err := c.ctl.setCell(a.Row, a.Col, a.Text); err != nil {
 			if a.Kind == rwNote {
 				c.notice = "The note was not kept: " + err.Error()
 			} else {
@@ -214,8 +214,8 @@ type entryUI struct {
 
 // heldY: the y cell of row i is empty and waits for its turn.
 func (c *Shell) heldY(i int) bool {
-	return c.enIn && c.enRow == i && i < len(c.sess.Readings) && strings.TrimSpace(c.sess.Readings[i].Y) == "" &&
-		c.view.problems[cellKey{i, session.ColumnY}] != ""
+	return c.enIn && c.enRow == i && i < len(c.ctl.sess.Readings) && strings.TrimSpace(c.ctl.sess.Readings[i].Y) == "" &&
+		c.ctl.view.problems[cellKey{i, session.ColumnY}] != ""
 }
 
 // heldProblems is how many problems heldY keeps back (0 or 1).
@@ -369,8 +369,8 @@ func (c *Shell) enter(ctx app.Context, row int, col session.Column) {
 		return
 	}
 	next := row + 1
-	if next >= len(c.sess.Readings) {
-		if _, err := c.addRow(); err != nil {
+	if next >= len(c.ctl.sess.Readings) {
+		if _, err := c.ctl.addRow(); err != nil {
 			return
 		}
 		c.afterChange(ctx)

@@ -30,7 +30,7 @@ func numericColumns(res *session.CSVResult) []int { return res.NumericColumns }
 // read by session.CSVChunks; this function only paces them and shows the
 // progress.
 func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol int) {
-	st := c.st
+	st := c.ctl.st
 	fail := func(err error) { ctx.Dispatch(func(ctx app.Context) { c.importFailed(name, err) }) }
 	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
 	probe, chunked, err := session.ProbeCSV(data)

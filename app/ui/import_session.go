@@ -17,7 +17,7 @@ import (
 // importSessionFile decodes a session file and stores its sessions in one
 // transaction; sessions whose ID is already stored wait for the technician.
 func (c *Shell) importSessionFile(ctx app.Context, name string, data []byte) {
-	st := c.st
+	st := c.ctl.st
 	ctx.Dispatch(func(ctx app.Context) { c.importPhase = "checking the file" })
 	f, err := session.Decode(bytes.NewReader(data))
 	if err != nil {
@@ -106,7 +106,7 @@ func (c *Shell) openImported(_ app.Context, s *session.Session) {
 	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
 	c.showStored(s)
 	c.listOpen = false
-	st, id := c.st, s.ID
+	st, id := c.ctl.st, s.ID
 	ctx.Async(func() { st.SetLast(id) })
 }
 
@@ -134,7 +134,7 @@ func (c *Shell) resolveConflict(_ app.Context, how string) {
 		}
 		s.ID = id
 	}
-	st := c.st
+	st := c.ctl.st
 	ctx.Async(func() {
 		err := saveNow(st, s)
 		list, _ := st.List()

@@ -37,14 +37,14 @@ type instCached struct {
 // refreshInstruments reads the listed sessions that changed since the
 // last refresh, summarises them and words the history (view.Build).
 func (c *Shell) refreshInstruments() {
-	if c.st == nil || c.ui.Src() == nil {
+	if c.ctl.st == nil || c.ui.Src() == nil {
 		return
 	}
 	if c.instCache == nil {
 		c.instCache = map[string]instCached{}
 	}
 	c.instSeq++
-	seq, st, list := c.instSeq, c.st, append([]store.Summary(nil), c.sessions...)
+	seq, st, list := c.instSeq, c.ctl.st, append([]store.Summary(nil), c.ctl.sessions...)
 	cache := make(map[string]instCached, len(c.instCache))
 	for k, v := range c.instCache {
 		cache[k] = v
@@ -99,7 +99,7 @@ func (c *Shell) refreshInstruments() {
 // imported while the view is open shows in it (only the sessions that
 // changed are read again).
 func (c *Shell) listChanged(list []store.Summary) {
-	c.sessions = list
+	c.ctl.sessions = list
 	if c.instOpen || c.listOpen {
 		c.refreshInstruments()
 	}

@@ -10,10 +10,10 @@ import (
 // first column goes to x, the second to y, one reading per line, overwriting
 // the rows below and adding rows as needed.
 func (c *Shell) pasteBlock(ctx app.Context, row int, text string) {
-	if c.sess == nil || c.refuseLocked() {
+	if c.ctl.sess == nil || c.refuseLocked() {
 		return
 	}
-	done, err := c.paste(row, text)
+	done, err := c.ctl.paste(row, text)
 	if err != nil {
 		c.notice = "The pasted block was not used: " + err.Error()
 		if err == errTooManyReadings {

@@ -332,8 +332,8 @@ func plVerdictOf(name string, v fitcore.Verdict) string { return "“" + name + 
 // of the advice draws them once, from the full report (a turn of their own
 // cost every edit one more render of the screen and one more frame).
 func (c *Shell) plots() plSet {
-	rep := c.view.report
-	if rep == c.plCacheRep && c.sess == c.plCacheSess && len(c.sess.Readings) == c.plCacheN {
+	rep := c.ctl.view.report
+	if rep == c.plCacheRep && c.ctl.sess == c.plCacheSess && len(c.ctl.sess.Readings) == c.plCacheN {
 		return c.plCache
 	}
 	if k := c.plKeyNow(); rep != nil && k == c.plCacheKey {
@@ -343,7 +343,7 @@ func (c *Shell) plots() plSet {
 		c.plStale = false
 		return c.plCache
 	}
-	if rep != nil && c.view.stale && c.sess == c.plCacheSess && c.plCacheRep != nil {
+	if rep != nil && c.ctl.view.stale && c.ctl.sess == c.plCacheSess && c.plCacheRep != nil {
 		c.plStale = true
 		return c.plCache
 	}
@@ -364,19 +364,19 @@ type plKey struct {
 }
 
 func (c *Shell) plKeyNow() plKey {
-	k := plKey{sess: c.sess, readings: len(c.sess.Readings), hist: len(c.sess.History)}
+	k := plKey{sess: c.ctl.sess, readings: len(c.ctl.sess.Readings), hist: len(c.ctl.sess.History)}
 	if k.hist > 0 {
-		k.last = c.sess.History[k.hist-1]
+		k.last = c.ctl.sess.History[k.hist-1]
 	}
-	if r := c.view.report; r != nil {
+	if r := c.ctl.view.report; r != nil {
 		k.n, k.slope, k.icpt, k.se, k.lvl, k.model, k.transform = r.N, r.Slope.Estimate, r.Intercept.Estimate, r.ResidualSE, r.Level, r.Model, r.Transform
 	}
 	return k
 }
 
 func (c *Shell) plBuildNow() {
-	c.plCache = plDraw(c.sess, c.view.report, c.view.rows, c.view.x, c.view.y, c.plSel-1)
-	c.plCacheRep, c.plCacheSess, c.plCacheN, c.plCacheKey = c.view.report, c.sess, len(c.sess.Readings), c.plKeyNow()
+	c.plCache = plDraw(c.ctl.sess, c.ctl.view.report, c.ctl.view.rows, c.ctl.view.x, c.ctl.view.y, c.plSel-1)
+	c.plCacheRep, c.plCacheSess, c.plCacheN, c.plCacheKey = c.ctl.view.report, c.ctl.sess, len(c.ctl.sess.Readings), c.plKeyNow()
 	c.plStale = false
 }
 
@@ -402,14 +402,14 @@ func (ps plSet) plRing(testID string, row int) string {
 // of the open session (plots), the level of its bands, the reading
 // selected and what its panel shows (pointView).
 func (c *Shell) renderPlots() app.UI {
-	if c.sess == nil || c.view.report == nil {
+	if c.ctl.sess == nil || c.ctl.view.report == nil {
 		return &plotsCard{Empty: true, Sel: -1, OnAction: c.plotAction}
 	}
-	if c.plSel > len(c.sess.Readings) {
+	if c.plSel > len(c.ctl.sess.Readings) {
 		c.plSel = 0
 	}
-	card := &plotsCard{Plots: c.plots(), Level: c.view.report.Level, First: firstFlagged(c.view),
-		Rows: len(c.sess.Readings), Sel: c.plSel - 1, OnAction: c.plotAction}
+	card := &plotsCard{Plots: c.plots(), Level: c.ctl.view.report.Level, First: firstFlagged(c.ctl.view),
+		Rows: len(c.ctl.sess.Readings), Sel: c.plSel - 1, OnAction: c.plotAction}
 	card.Stale = c.plStale // plots() decides it
 	if c.plSel > 0 {
 		card.Panel = c.pointView(c.plSel - 1)
@@ -433,10 +433,10 @@ func (c *Shell) plotAction(a PlotAction) {
 // reason: the record has to show it) and putting it back go through the
 // controller, so that they are saved and undone as any other change.
 func (c *Shell) applyPlot(ctx app.Context, a PlotAction) {
-	if c.sess == nil {
+	if c.ctl.sess == nil {
 		return
 	}
-	inRange := a.Row >= 0 && a.Row < len(c.sess.Readings)
+	inRange := a.Row >= 0 && a.Row < len(c.ctl.sess.Readings)
 	sel := func(row int) {
 		if c.plSel != row+1 {
 			c.plReason, c.plMsg = "", ""
@@ -467,9 +467,9 @@ func (c *Shell) applyPlot(ctx app.Context, a PlotAction) {
 		}
 		var err error
 		if a.Kind == paExclude {
-			err = c.exclude(a.Row, reason)
+			err = c.ctl.exclude(a.Row, reason)
 		} else {
-			err = c.include(a.Row)
+			err = c.ctl.include(a.Row)
 		}
 		if err != nil {
 			c.plMsg = err.Error()
@@ -553,17 +553,17 @@ func firstFlagged(v analysis) int {
 // cells and note, fitcore's figures for it (formatted, with a line of
 // plain meaning), its flag and reasons, and the reason typed so far.
 func (c *Shell) pointView(row int) pointPanel {
-	r := c.sess.Readings[row]
-	rep := c.view.report
+	r := c.ctl.sess.Readings[row]
+	rep := c.ctl.view.report
 	idx := -1
-	for i, rr := range c.view.rows {
+	for i, rr := range c.ctl.view.rows {
 		if rr == row {
 			idx = i
 			break
 		}
 	}
-	p := pointPanel{Row: row, Rows: len(c.sess.Readings),
-		XHead: colHead(c.sess.XName, c.sess.XUnit, "x"), YHead: colHead(c.sess.YName, c.sess.YUnit, "y"),
+	p := pointPanel{Row: row, Rows: len(c.ctl.sess.Readings),
+		XHead: colHead(c.ctl.sess.XName, c.ctl.sess.XUnit, "x"), YHead: colHead(c.ctl.sess.YName, c.ctl.sess.YUnit, "y"),
 		X: r.X, Y: r.Y, Note: r.Note, Excluded: r.Excluded, Status: "Used in the line.",
 		Reason: c.plReason, Msg: c.plMsg, At: c.plAt}
 	if r.Excluded {
@@ -581,7 +581,7 @@ func (c *Shell) pointView(row int) pointPanel {
 			suffix = " (" + scale + " scale)"
 		}
 		p.Facts = append(p.Facts,
-			pointFact{"plot-point-fitted", "Fitted" + suffix, rep.Fitted[idx], numfmt.Sig(rep.Fitted[idx], numfmt.Precision(c.view.digits)), ""},
+			pointFact{"plot-point-fitted", "Fitted" + suffix, rep.Fitted[idx], numfmt.Sig(rep.Fitted[idx], numfmt.Precision(c.ctl.view.digits)), ""},
 			pointFact{"plot-point-residual", "Residual" + suffix, rep.Residuals[idx], numfmt.Sig(rep.Residuals[idx], 3), ""})
 		for _, q := range rep.Influence {
 			if q.Index == idx {

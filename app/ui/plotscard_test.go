@@ -117,10 +117,10 @@ func boolAttr(tag, name string) bool {
 // the Shell's.
 func TestPointViewIsFitcores(t *testing.T) {
 	c := plotsShell(t)
-	rep, rows := c.view.report, c.view.rows
+	rep, rows := c.ctl.view.report, c.ctl.view.rows
 	for i, row := range rows {
 		p := c.pointView(row)
-		if p.Row != row || p.X != c.sess.Readings[row].X || p.Y != c.sess.Readings[row].Y || p.Status != "Used in the line." {
+		if p.Row != row || p.X != c.ctl.sess.Readings[row].X || p.Y != c.ctl.sess.Readings[row].Y || p.Status != "Used in the line." {
 			t.Fatalf("row %d: panel %+v", row, p)
 		}
 		if len(p.Facts) != 2 || p.Facts[0].Value != rep.Fitted[i] || p.Facts[1].Value != rep.Residuals[i] {
@@ -141,9 +141,9 @@ func TestPointViewIsFitcores(t *testing.T) {
 			t.Errorf("row %d: slip sentence %q", row, p.Slip)
 		}
 	}
-	c.sess.Readings[0].Y = "not a number"
+	c.ctl.sess.Readings[0].Y = "not a number"
 	c.plReason, c.plMsg = "invented reason", "invented refusal"
-	c.changed()
+	c.ctl.changed()
 	p := c.pointView(0)
 	if p.Status != "Not used: a cell is empty or not a number." || len(p.Facts) != 0 || p.Reason != "invented reason" || p.Msg != "invented refusal" {
 		t.Errorf("a reading not used: %+v", p)
@@ -157,7 +157,7 @@ func TestPointViewIsFitcores(t *testing.T) {
 func TestApplyPlot(t *testing.T) {
 	c := plotsShell(t)
 	row := demo.MistypedRow
-	n := len(c.sess.Readings)
+	n := len(c.ctl.sess.Readings)
 	at := panelPlace{top: true, y: 80, h: 300}
 	tests := []struct {
 		name  string
@@ -190,7 +190,7 @@ func TestApplyPlot(t *testing.T) {
 			return ""
 		}},
 		{"exclude without a reason", PlotAction{Kind: paExclude, Row: row}, func() string {
-			if c.sess.Readings[row].Excluded || !strings.Contains(c.plMsg, "Say why") {
+			if c.ctl.sess.Readings[row].Excluded || !strings.Contains(c.plMsg, "Say why") {
 				return "left out without a reason, or not said why not: " + c.plMsg
 			}
 			return ""
@@ -208,17 +208,17 @@ func TestApplyPlot(t *testing.T) {
 			return ""
 		}},
 		{"exclude", PlotAction{Kind: paExclude, Row: row}, func() string {
-			rd := c.sess.Readings[row]
+			rd := c.ctl.sess.Readings[row]
 			if !rd.Excluded || rd.ExcludeReason != "invented: decimal point slipped" || c.plReason != "" || c.plMsg != "" {
 				return "not left out with its reason"
 			}
-			if c.view.report.N != n-1 || len(c.unStack) == 0 {
+			if c.ctl.view.report.N != n-1 || len(c.ctl.unStack) == 0 {
 				return "the line or the undo history did not see it"
 			}
 			return ""
 		}},
 		{"include", PlotAction{Kind: paInclude, Row: row}, func() string {
-			if c.sess.Readings[row].Excluded || c.view.report.N != n {
+			if c.ctl.sess.Readings[row].Excluded || c.ctl.view.report.N != n {
 				return "not put back"
 			}
 			return ""
@@ -248,7 +248,7 @@ func TestApplyPlot(t *testing.T) {
 			t.Errorf("%s: %s", tt.name, msg)
 		}
 	}
-	if !c.controller.undo() || !c.sess.Readings[row].Excluded {
+	if !c.ctl.undo() || !c.ctl.sess.Readings[row].Excluded {
 		t.Error("undo did not take back the putting back")
 	}
 }

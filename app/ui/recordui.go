@@ -25,10 +25,10 @@ type recordUI struct {
 // refuseLocked says so and returns true when the open record is locked
 // (a change from outside the frozen cards: a paste, a rename, a setting).
 func (c *Shell) refuseLocked() bool {
-	if !c.locked() {
+	if !c.ctl.locked() {
 		return false
 	}
-	c.notice = "This record is sealed, so it was not changed. To change it, choose “Start revision " + strconv.Itoa(c.sess.Revision+1) + "” on the sign-off card."
+	c.notice = "This record is sealed, so it was not changed. To change it, choose “Start revision " + strconv.Itoa(c.ctl.sess.Revision+1) + "” on the sign-off card."
 	return true
 }
 
@@ -39,14 +39,14 @@ func (c *Shell) refuseLocked() bool {
 // answered, and looks that record up again when the instrument changed.
 func (c *Shell) recordAction(a RecordAction) {
 	apply := func(ctx app.Context) {
-		if c.sess == nil {
+		if c.ctl.sess == nil {
 			return
 		}
 		var last *session.Session
 		if a.Kind == raUseLast {
-			c.recNoOffer, last = c.sess.ID, c.recLast
+			c.recNoOffer, last = c.ctl.sess.ID, c.recLast
 		}
-		if err := c.record(a, last, time.Now()); err != nil {
+		if err := c.ctl.record(a, last, time.Now()); err != nil {
 			c.notice = sentence(err.Error())
 			return
 		}
@@ -82,8 +82,8 @@ func conditionIndex(s *session.Session, name string) int {
 // open record's instrument at its site (session.LastRecordFor) when the
 // instrument or site changed. The newest 200 stored sessions are read.
 func (c *Shell) lookUpLast() {
-	s := c.sess
-	if s == nil || c.st == nil || c.ui.Src() == nil {
+	s := c.ctl.sess
+	if s == nil || c.ctl.st == nil || c.ui.Src() == nil {
 		return
 	}
 	key := session.InstrumentKey(s.Instrument)
@@ -95,7 +95,7 @@ func (c *Shell) lookUpLast() {
 	if key == "" {
 		return
 	}
-	st, id, site, list := c.st, s.ID, s.Site, c.sessions
+	st, id, site, list := c.ctl.st, s.ID, s.Site, c.ctl.sessions
 	c.ui.Async(func() {
 		var all []*session.Session
 		for i, sm := range list {
@@ -114,7 +114,7 @@ func (c *Shell) lookUpLast() {
 			last = session.LastRecordFor(all, key, "")
 		}
 		c.ui.Dispatch(func(ctx app.Context) {
-			if c.sess != nil && c.sess.ID == id && c.recKey == want {
+			if c.ctl.sess != nil && c.ctl.sess.ID == id && c.recKey == want {
 				c.recLast = last
 			}
 		})
@@ -123,7 +123,7 @@ func (c *Shell) lookUpLast() {
 
 // renderRecord is the identity and standards cards.
 func (c *Shell) renderRecord() app.UI {
-	s := c.sess
+	s := c.ctl.sess
 	f := recordFields{Site: s.Site, Instrument: s.Instrument.Description, Serial: s.Instrument.Serial, InstrumentID: s.Instrument.ID,
 		Operator: s.Operator, Notes: s.Notes}
 	if s.Instrument.IntervalDays > 0 {
@@ -142,7 +142,7 @@ func (c *Shell) renderRecord() app.UI {
 	if l := c.recLast; l != nil && c.recNoOffer != s.ID {
 		offer = &lastOffer{Title: l.Title, When: l.Created.Local().Format("2 Jan 2006"), What: lastWhat(l)}
 	}
-	locked := c.locked()
+	locked := c.ctl.locked()
 	return app.Div().Class("pl-slot").Body(
 		&identityCard{Fields: f, Conditions: conds, Index: index, Locked: locked, Offer: offer, OnAction: c.recordAction},
 		c.renderStandards(locked),
@@ -172,7 +172,7 @@ func lastWhat(l *session.Session) string {
 }
 
 func (c *Shell) renderStandards(locked bool) app.UI {
-	s := c.sess
+	s := c.ctl.sess
 	expired := map[int]session.StandardExpiry{}
 	for _, e := range s.ExpiredStandards() {
 		expired[e.Index] = e
@@ -188,7 +188,7 @@ func (c *Shell) renderStandards(locked bool) app.UI {
 				". Do not use a record made with an expired standard until the standard's maker or your procedure allows it."
 		}
 	}
-	return &standardsCard{Standards: rows, Problems: c.view.stdProblems, Day: s.ReadingsDay().Format("2 Jan 2006"), Locked: locked, OnAction: c.recordAction}
+	return &standardsCard{Standards: rows, Problems: c.ctl.view.stdProblems, Day: s.ReadingsDay().Format("2 Jan 2006"), Locked: locked, OnAction: c.recordAction}
 }
 
 // namedInverse is one unknown of the record with fitcore's conversion.
@@ -214,15 +214,15 @@ func unknownResults(s *session.Session, rep *fitcore.Report) (adhoc []fitcore.In
 }
 
 func (c *Shell) renderUnknowns() app.UI {
-	s := c.sess
-	_, named := unknownResults(s, c.view.report)
+	s := c.ctl.sess
+	_, named := unknownResults(s, c.ctl.view.report)
 	byIndex := map[int]*fitcore.Inverse{}
 	for _, n := range named {
 		byIndex[n.Index] = n.Inv
 	}
 	level := fitcore.DefaultLevel
-	if c.view.report != nil {
-		level = c.view.report.Level
+	if c.ctl.view.report != nil {
+		level = c.ctl.view.report.Level
 	}
 	rows := make([]unknownRow, len(s.Unknowns))
 	for i, u := range s.Unknowns {
@@ -234,19 +234,19 @@ func (c *Shell) renderUnknowns() app.UI {
 				r.Shown += ", " + rpLevel(level) + " interval " + numfmt.Sig(inv.Low, 6) + " to " + numfmt.Sig(inv.High, 6)
 			}
 			r.Shown += " (mean of " + plCount(inv.M, "reading") + ")"
-		} else if c.view.report == nil {
+		} else if c.ctl.view.report == nil {
 			r.Message = "Not converted: there is no line yet."
 		}
 		rows[i] = r
 	}
 	return &unknownsCard{Unknowns: rows, Problems: s.UnknownQueries().Problems, Level: rpLevel(level), XUnit: s.XUnit,
-		Locked: c.locked(), OnAction: c.recordAction}
+		Locked: c.ctl.locked(), OnAction: c.recordAction}
 }
 
 // renderSign is the sign-off card.
 func (c *Shell) renderSign() app.UI {
-	s := c.sess
-	info := sealInfo{Revision: s.Revision, Unlocked: c.unlocked == s.ID}
+	s := c.ctl.sess
+	info := sealInfo{Revision: s.Revision, Unlocked: c.ctl.unlocked == s.ID}
 	if se := s.Seal; se != nil {
 		info.Sealed, info.PerformedBy, info.Digest = true, se.PerformedBy, se.Digest
 		info.PerformedAt = se.PerformedAt.Local().Format("2 Jan 2006 15:04")

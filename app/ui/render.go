@@ -22,7 +22,7 @@ func (c *Shell) Render() app.UI {
 		// report dialog), so that a screen reader can move between them.
 		app.Header().Class("pl-head").Body(c.renderBar(), c.renderTools()),
 		app.Section().Class("pl-notes").Attr("aria-label", "Messages").Body(c.renderNotes()...),
-		app.If(c.sess == nil, func() app.UI {
+		app.If(c.ctl.sess == nil, func() app.UI {
 			return app.Main().Class("pl-main").Body(app.P().Class("pl-wait").Text("Opening your sessions…"))
 		}).Else(func() app.UI {
 			// A sealed record takes no input until the technician starts
@@ -30,7 +30,7 @@ func (c *Shell) Render() app.UI {
 			// it (it is laid out as if absent: web/record.css).
 			return app.Main().Class("pl-main").Body(
 				c.renderJumps(),
-				app.FieldSet().Class("pl-lockset").Disabled(c.locked()).Body(
+				app.FieldSet().Class("pl-lockset").Disabled(c.ctl.locked()).Body(
 					c.renderRecord(),
 					c.renderReadings(),
 					c.renderLine(),
@@ -40,11 +40,11 @@ func (c *Shell) Render() app.UI {
 					c.renderUnknowns(),
 				),
 				c.renderSign(),
-				app.FieldSet().Class("pl-lockset").Disabled(c.locked()).Body(c.renderSettings()),
+				app.FieldSet().Class("pl-lockset").Disabled(c.ctl.locked()).Body(c.renderSettings()),
 				c.renderTransfer(),
 			)
 		}),
-		app.If(c.rpOpen && c.sess != nil, c.renderReport),
+		app.If(c.rpOpen && c.ctl.sess != nil, c.renderReport),
 	)
 }
 
@@ -72,8 +72,8 @@ func (c *Shell) renderNotes() []app.UI {
 
 func (c *Shell) renderBar() app.UI {
 	title := ""
-	if c.sess != nil {
-		title = c.sess.Title
+	if c.ctl.sess != nil {
+		title = c.ctl.sess.Title
 	}
 	return app.Div().Class("pl-bar").DataSet("testid", "app-bar").Body(
 		// The mark is decoration beside the name: aria-hidden, and an alt
@@ -82,12 +82,12 @@ func (c *Shell) renderBar() app.UI {
 		app.Img().Class("pl-mark").Src("/web/icons/icon.svg").Alt("Pairline mark").Attr("aria-hidden", "true"),
 		app.H1().Class("pl-name").Text("Pairline"),
 		app.Input().Class("pl-title").Type("text").Value(title).
-			Attr("aria-label", "Session title").DataSet("testid", "session-title").Disabled(c.locked()).
+			Attr("aria-label", "Session title").DataSet("testid", "session-title").Disabled(c.ctl.locked()).
 			OnChange(c.onField(session.FieldTitle)),
-		app.Span().Class("pl-save").DataSet("testid", "save-status").DataSet("state", c.saveState.String()).
-			Attr("role", "status").Text(c.saveText()),
+		app.Span().Class("pl-save").DataSet("testid", "save-status").DataSet("state", c.ctl.saveState.String()).
+			Attr("role", "status").Text(c.ctl.saveText()),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Try again").DataSet("testid", "save-retry").
-			Hidden(!c.retryable()).OnClick(func(ctx app.Context, e app.Event) { c.retrySave() }),
+			Hidden(!c.ctl.retryable()).OnClick(func(ctx app.Context, e app.Event) { c.ctl.retrySave() }),
 		app.Div().Class("pl-bar-acts").Body(c.renderBarActions()...),
 	)
 }
@@ -96,7 +96,7 @@ func (c *Shell) renderBar() app.UI {
 // a phone can give them one row that scrolls sideways.
 func (c *Shell) renderBarActions() []app.UI {
 	return []app.UI{
-		app.Button().Class("pl-btn pl-btn-quiet").Text(listLabel(c.listOpen, len(c.sessions))).
+		app.Button().Class("pl-btn pl-btn-quiet").Text(listLabel(c.listOpen, len(c.ctl.sessions))).
 			DataSet("testid", "sessions-open").Attr("aria-expanded", strconv.FormatBool(c.listOpen)).
 			OnClick(func(ctx app.Context, e app.Event) {
 				c.listOpen = !c.listOpen
@@ -121,10 +121,10 @@ func listLabel(open bool, n int) string {
 
 func (c *Shell) onField(field string) app.EventHandler {
 	return func(ctx app.Context, e app.Event) {
-		if c.sess == nil || c.refuseLocked() {
+		if c.ctl.sess == nil || c.refuseLocked() {
 			return
 		}
-		if err := c.setField(field, ctx.JSSrc().Get("value").String()); err != nil {
+		if err := c.ctl.setField(field, ctx.JSSrc().Get("value").String()); err != nil {
 			c.notice = err.Error()
 			return
 		}
@@ -140,8 +140,8 @@ func (c *Shell) onNew(ctx app.Context, e app.Event) {
 	}
 	c.show(s)
 	c.listOpen = false
-	c.save()
-	st := c.st
+	c.ctl.save()
+	st := c.ctl.st
 	ctx.Async(func() {
 		if st != nil {
 			st.SetLast(s.ID)

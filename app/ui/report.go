@@ -38,7 +38,7 @@ const rpRowsAtOnce = 500
 // openReport builds the report from the open session and its report and
 // shows it.
 func (c *Shell) openReport(ctx app.Context, e app.Event) {
-	if c.sess == nil {
+	if c.ctl.sess == nil {
 		return
 	}
 	c.rpOpen, c.rpMsg, c.rpAll, c.rpAt = true, "", false, time.Now()
@@ -57,23 +57,23 @@ func (c *Shell) rpBuild() {
 		v.shown = -1
 	}
 	v.plots = c.rpPlots()
-	counts := c.pairs.Count(c.sess)
+	counts := c.ctl.pairs.Count(c.ctl.sess)
 	v.counts = &counts
-	c.rpHTML = rpBodyView(c.sess, c.view.report, c.view.rows, c.view.message, c.rpAt, v)
-	c.rpFor = c.view.report
+	c.rpHTML = rpBodyView(c.ctl.sess, c.ctl.view.report, c.ctl.view.rows, c.ctl.view.message, c.rpAt, v)
+	c.rpFor = c.ctl.view.report
 }
 
 // rpPlots is the plots of the open session's report: the screen's drawing
 // when it is of this report (a tapped reading is then drawn too when the
 // plots are thinned), otherwise drawn from the pairs fitcore was given.
 func (c *Shell) rpPlots() *plSet {
-	if c.view.report == nil {
+	if c.ctl.view.report == nil {
 		return nil
 	}
-	if c.plCacheRep == c.view.report && c.plCacheSess == c.sess && c.plCacheN == len(c.sess.Readings) && !c.plStale {
+	if c.plCacheRep == c.ctl.view.report && c.plCacheSess == c.ctl.sess && c.plCacheN == len(c.ctl.sess.Readings) && !c.plStale {
 		return &c.plCache
 	}
-	ps := plDraw(c.sess, c.view.report, c.view.rows, c.view.x, c.view.y, -1)
+	ps := plDraw(c.ctl.sess, c.ctl.view.report, c.ctl.view.rows, c.ctl.view.x, c.ctl.view.y, -1)
 	return &ps
 }
 
@@ -98,7 +98,7 @@ func (c *Shell) rpListenPrint() {
 // the "show all" note. It changes only the inside of the report's markup,
 // which go-app replaces as a whole when the report is built again.
 func (c *Shell) rpFillRest() {
-	if !c.rpOpen || c.sess == nil {
+	if !c.rpOpen || c.ctl.sess == nil {
 		return
 	}
 	doc := app.Window().Get("document")
@@ -111,9 +111,9 @@ func (c *Shell) rpFillRest() {
 		return
 	}
 	var b rpB
-	rpReadingRows(&b, c.sess, c.view.report, c.view.rows, from, len(c.sess.Readings))
+	rpReadingRows(&b, c.ctl.sess, c.ctl.view.report, c.ctl.view.rows, from, len(c.ctl.sess.Readings))
 	rest.Set("innerHTML", b.String())
-	rest.Get("dataset").Set("from", strconv.Itoa(len(c.sess.Readings)))
+	rest.Get("dataset").Set("from", strconv.Itoa(len(c.ctl.sess.Readings)))
 	if more := doc.Call("querySelector", `[data-testid="report-readings-more"]`); more.Truthy() {
 		more.Call("remove")
 	}
@@ -123,7 +123,7 @@ func (c *Shell) rpFillRest() {
 // report's markup, built from the open session and fitcore's report, and
 // the line of status under its buttons.
 func (c *Shell) renderReport() app.UI {
-	if c.sess != nil && c.rpFor != c.view.report {
+	if c.ctl.sess != nil && c.rpFor != c.ctl.view.report {
 		// The session changed under an open report (another tab, a late
 		// analysis): show the current state.
 		c.rpAt = time.Now()
@@ -173,17 +173,17 @@ func rpFile(s *session.Session, body string) string {
 
 // saveReportHTML downloads the report file.
 func (c *Shell) saveReportHTML() {
-	if c.sess == nil {
+	if c.ctl.sess == nil {
 		return
 	}
 	body := c.rpHTML
-	if !c.rpAll && len(c.sess.Readings) > rpRowsAtOnce {
+	if !c.rpAll && len(c.ctl.sess.Readings) > rpRowsAtOnce {
 		// The screen lists the first readings only; the file lists every one.
-		counts := c.pairs.Count(c.sess)
-		body = rpBodyView(c.sess, c.view.report, c.view.rows, c.view.message, c.rpAt, rpView{shown: -1, plots: c.rpPlots(), counts: &counts})
+		counts := c.ctl.pairs.Count(c.ctl.sess)
+		body = rpBodyView(c.ctl.sess, c.ctl.view.report, c.ctl.view.rows, c.ctl.view.message, c.rpAt, rpView{shown: -1, plots: c.rpPlots(), counts: &counts})
 	}
-	file := rpFile(c.sess, body)
-	name := fileBase(c.sess.Title) + " report.html"
+	file := rpFile(c.ctl.sess, body)
+	name := fileBase(c.ctl.sess.Title) + " report.html"
 	download(name, "text/html;charset=utf-8", []byte(file))
 	c.rpMsg = "Saved “" + name + "” to your downloads."
 }

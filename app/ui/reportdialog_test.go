@@ -71,7 +71,7 @@ func TestReportDialogActs(t *testing.T) {
 func TestApplyReport(t *testing.T) {
 	c := cardsShell(t)
 	c.openReport(app.Context{}, app.Event{})
-	if !c.rpOpen || c.rpFor != c.view.report || !strings.Contains(c.rpHTML, `data-testid="report"`) {
+	if !c.rpOpen || c.rpFor != c.ctl.view.report || !strings.Contains(c.rpHTML, `data-testid="report"`) {
 		t.Fatalf("the report did not open from the analysis (open %v)", c.rpOpen)
 	}
 	d, ok := c.renderReport().(*reportDialog)
@@ -90,7 +90,7 @@ func TestApplyReport(t *testing.T) {
 			return ""
 		}},
 		{"save", ReportAction{Kind: rdSaveHTML}, func() string {
-			if want := "Saved “" + fileBase(c.sess.Title) + " report.html” to your downloads."; c.rpMsg != want {
+			if want := "Saved “" + fileBase(c.ctl.sess.Title) + " report.html” to your downloads."; c.rpMsg != want {
 				return "message " + c.rpMsg + ", want " + want
 			}
 			if d := c.renderReport().(*reportDialog); d.Msg != c.rpMsg {
@@ -121,11 +121,11 @@ func TestApplyReport(t *testing.T) {
 	// A change under an open report: the dialog shows the new figures.
 	c.openReport(app.Context{}, app.Event{})
 	old := c.rpHTML
-	if err := c.setCell(0, session.ColumnY, "2.5"); err != nil {
+	if err := c.ctl.setCell(0, session.ColumnY, "2.5"); err != nil {
 		t.Fatal(err)
 	}
 	d = c.renderReport().(*reportDialog)
-	if c.rpFor != c.view.report || d.Body == old || !strings.Contains(d.Body, c.sess.Readings[0].Y) {
+	if c.rpFor != c.ctl.view.report || d.Body == old || !strings.Contains(d.Body, c.ctl.sess.Readings[0].Y) {
 		t.Error("the dialog kept the report of before the change")
 	}
 }

@@ -13,8 +13,8 @@ import (
 // renderLine hands the line card its data.
 func (c *Shell) renderLine() app.UI {
 	return &lineCard{
-		Report: c.view.report, Message: c.view.message, Digits: c.view.digits, Stale: c.view.stale,
-		XUnit: c.sess.XUnit, YUnit: c.sess.YUnit, MoreOpen: c.anMoreOpen, OnAction: c.cardAction,
+		Report: c.ctl.view.report, Message: c.ctl.view.message, Digits: c.ctl.view.digits, Stale: c.ctl.view.stale,
+		XUnit: c.ctl.sess.XUnit, YUnit: c.ctl.sess.YUnit, MoreOpen: c.anMoreOpen, OnAction: c.cardAction,
 	}
 }
 

@@ -78,16 +78,16 @@ func TestSaveFailureShown(t *testing.T) {
 	s.Title = "Invented probe check"
 	c := propShell(t, s)
 	ctx := app.Context{}
-	if err := c.setCell(0, session.ColumnX, "1"); err != nil {
+	if err := c.ctl.setCell(0, session.ColumnX, "1"); err != nil {
 		t.Fatal(err)
 	}
-	j, _ := c.saves.next()
-	c.saves.fail(j, store.ErrQuota)
+	j, _ := c.ctl.saves.next()
+	c.ctl.saves.fail(j, store.ErrQuota)
 	c.saveDone(ctx, j.sum, store.ErrQuota, nil)
-	if c.saveState != SaveFailed {
-		t.Fatalf("save state %q after a refusal, want failed", c.saveState)
+	if c.ctl.saveState != SaveFailed {
+		t.Fatalf("save state %q after a refusal, want failed", c.ctl.saveState)
 	}
-	txt := c.saveText()
+	txt := c.ctl.saveText()
 	for _, want := range []string{"Not saved: this device refused to store the session", "no room left", "Your changes are kept on screen", "Try again"} {
 		if !strings.Contains(txt, want) {
 			t.Errorf("save status %q does not say %q", txt, want)
@@ -95,20 +95,20 @@ func TestSaveFailureShown(t *testing.T) {
 	}
 	// The next edit hands in a newer state (the refused one is replaced);
 	// the failure stays shown until a save succeeds.
-	if err := c.setCell(0, session.ColumnY, "2"); err != nil {
+	if err := c.ctl.setCell(0, session.ColumnY, "2"); err != nil {
 		t.Fatal(err)
 	}
-	if !c.saves.pending(s.ID) {
+	if !c.ctl.saves.pending(s.ID) {
 		t.Fatal("the edit after a refusal was not handed to the saver")
 	}
-	if c.saveState != SaveSaving && c.saveState != SaveFailed {
-		t.Errorf("save state %q while the retry waits", c.saveState)
+	if c.ctl.saveState != SaveSaving && c.ctl.saveState != SaveFailed {
+		t.Errorf("save state %q while the retry waits", c.ctl.saveState)
 	}
-	j, _ = c.saves.next()
+	j, _ = c.ctl.saves.next()
 	if f, err := session.Decode(strings.NewReader(string(j.body))); err != nil || f.Sessions[0].Readings[0].Y != "2" {
 		t.Fatalf("the retried state does not hold the later edit: %v", err)
 	}
-	c.saves.fail(j, store.ErrQuota)
+	c.ctl.saves.fail(j, store.ErrQuota)
 	c.saveDone(ctx, j.sum, store.ErrQuota, nil)
 
 	// Another session: its own status; the first one is named in a notice
@@ -118,27 +118,27 @@ func TestSaveFailureShown(t *testing.T) {
 		t.Fatal(err)
 	}
 	c.show(other)
-	if c.saveState == SaveFailed {
+	if c.ctl.saveState == SaveFailed {
 		t.Errorf("the failure of %q is shown for the session opened after it", s.Title)
 	}
 	if !strings.Contains(c.notice, s.Title) || !strings.Contains(c.notice, "not saved") {
 		t.Errorf("notice %q does not say that %q is not saved yet", c.notice, s.Title)
 	}
-	if _, ok := c.saves.failure(s.ID); !ok {
+	if _, ok := c.ctl.saves.failure(s.ID); !ok {
 		t.Error("the refused state of the session left was dropped")
 	}
 	// Its next save succeeds: the status of the open session is not
 	// touched by the other session's outcome.
-	c.saves.retry()
-	j, _ = c.saves.next()
+	c.ctl.saves.retry()
+	j, _ = c.ctl.saves.next()
 	c.usageAt = time.Now() // no storage figures to ask for natively
 	c.saveDone(ctx, j.sum, nil, nil)
-	if c.saveState == SaveFailed {
+	if c.ctl.saveState == SaveFailed {
 		t.Error("a success of another session left the open one failed")
 	}
 	// Back to the first: saved now.
 	c.show(s)
-	if c.saveState == SaveFailed {
-		t.Errorf("save state %q for a session whose state was written", c.saveState)
+	if c.ctl.saveState == SaveFailed {
+		t.Errorf("save state %q for a session whose state was written", c.ctl.saveState)
 	}
 }

@@ -109,9 +109,9 @@ func listShell(t *testing.T, n int) *Shell {
 		t.Fatal(err)
 	}
 	c := propShell(t, s)
-	c.sessions = []store.Summary{{ID: s.ID, Title: s.Title, Modified: t0}}
+	c.ctl.sessions = []store.Summary{{ID: s.ID, Title: s.Title, Modified: t0}}
 	for i := 1; i < n; i++ {
-		c.sessions = append(c.sessions, store.Summary{ID: "x" + strconv.Itoa(i), Title: "Invented " + strconv.Itoa(i), Modified: t0})
+		c.ctl.sessions = append(c.ctl.sessions, store.Summary{ID: "x" + strconv.Itoa(i), Title: "Invented " + strconv.Itoa(i), Modified: t0})
 	}
 	return c
 }
@@ -122,7 +122,7 @@ func listShell(t *testing.T, n int) *Shell {
 func TestApplyList(t *testing.T) {
 	c := listShell(t, 75)
 	list := func() *sessionsList { return c.renderSessions().(*sessionsList) }
-	if l := list(); len(l.Sessions) != listPage || l.Older != 75-listPage || l.OpenID != c.sess.ID {
+	if l := list(); len(l.Sessions) != listPage || l.Older != 75-listPage || l.OpenID != c.ctl.sess.ID {
 		t.Fatalf("first page: %d drawn, %d older, open %q", len(l.Sessions), l.Older, l.OpenID)
 	}
 	c.applyList(app.Context{}, ListAction{Kind: laMore})
@@ -152,15 +152,15 @@ func TestApplyList(t *testing.T) {
 		t.Errorf("cancelled: still renaming %q", l.Renaming)
 	}
 
-	id := c.sess.ID
+	id := c.ctl.sess.ID
 	c.applyList(app.Context{}, ListAction{Kind: laRename, ID: id})
 	c.applyList(app.Context{}, ListAction{Kind: laRenameText, Text: "Invented new title"})
 	if l := list(); l.RenameText != "Invented new title" {
 		t.Errorf("typed: %q", l.RenameText)
 	}
 	c.applyList(app.Context{}, ListAction{Kind: laRenameSave, ID: id})
-	if c.sess.Title != "Invented new title" || c.renaming != "" {
-		t.Errorf("open session renamed to %q (renaming %q)", c.sess.Title, c.renaming)
+	if c.ctl.sess.Title != "Invented new title" || c.renaming != "" {
+		t.Errorf("open session renamed to %q (renaming %q)", c.ctl.sess.Title, c.renaming)
 	}
 
 	c.applyList(app.Context{}, ListAction{Kind: laTrash})

@@ -21,11 +21,11 @@ func (c *Shell) renderSessions() app.UI {
 		}
 	}
 	open := ""
-	if c.sess != nil {
-		open = c.sess.ID
+	if c.ctl.sess != nil {
+		open = c.ctl.sess.ID
 	}
 	return &sessionsList{
-		Sessions: shown, Older: len(c.sessions) - len(shown), Due: due, OpenID: open,
+		Sessions: shown, Older: len(c.ctl.sessions) - len(shown), Due: due, OpenID: open,
 		Renaming: c.renaming, RenameText: c.renameText, ConfirmDel: c.confirmDel,
 		TrashOpen: c.trashOpen, Trash: append([]store.Summary(nil), c.trash...),
 		OnAction: c.listAction,
@@ -51,7 +51,7 @@ func (c *Shell) applyList(ctx app.Context, a ListAction) {
 		c.open(ctx, a.ID)
 	case laRename:
 		c.renaming, c.renameText = a.ID, ""
-		for _, s := range c.sessions {
+		for _, s := range c.ctl.sessions {
 			if s.ID == a.ID {
 				c.renameText = s.Title
 			}
@@ -85,7 +85,7 @@ func (c *Shell) applyList(ctx app.Context, a ListAction) {
 }
 
 func (c *Shell) open(ctx app.Context, id string) {
-	st := c.st
+	st := c.ctl.st
 	c.ui.Async(func() {
 		s, err := load(st, id)
 		if err == nil {
@@ -104,18 +104,18 @@ func (c *Shell) open(ctx app.Context, id string) {
 
 func (c *Shell) rename(ctx app.Context, id, title string) {
 	c.renaming = ""
-	if c.sess != nil && c.sess.ID == id {
+	if c.ctl.sess != nil && c.ctl.sess.ID == id {
 		if c.refuseLocked() {
 			return
 		}
-		if err := c.setField("title", title); err != nil {
+		if err := c.ctl.setField("title", title); err != nil {
 			c.notice = err.Error()
 			return
 		}
 		c.afterChange(ctx)
 		return
 	}
-	st := c.st
+	st := c.ctl.st
 	c.ui.Async(func() {
 		s, err := load(st, id)
 		if err == nil {
@@ -136,8 +136,8 @@ func (c *Shell) rename(ctx app.Context, id, title string) {
 
 func (c *Shell) delete(ctx app.Context, id string) {
 	c.confirmDel = ""
-	st := c.st
-	wasOpen := c.sess != nil && c.sess.ID == id
+	st := c.ctl.st
+	wasOpen := c.ctl.sess != nil && c.ctl.sess.ID == id
 	c.ui.Async(func() {
 		err := st.Delete(id, time.Now())
 		list, _ := st.List()

@@ -64,11 +64,11 @@ func (c *Shell) anResync() {
 
 // anSyncOnSwitch resyncs the fields once after another session was opened.
 func (c *Shell) anSyncOnSwitch() {
-	if c.sess == nil || c.sess.ID == c.anSeenSess {
+	if c.ctl.sess == nil || c.ctl.sess.ID == c.anSeenSess {
 		return
 	}
 	first := c.anSeenSess == ""
-	c.anSeenSess = c.sess.ID
+	c.anSeenSess = c.ctl.sess.ID
 	c.anFieldErr = nil
 	if first {
 		return
@@ -107,10 +107,10 @@ func (c *Shell) anQueries(o *fitcore.Options, x []float64) {
 // anSetSettings stores changed settings in the session (and its history)
 // and re-analyses.
 func (c *Shell) anSetSettings(ctx app.Context, st session.Settings) {
-	if c.sess == nil || c.refuseLocked() {
+	if c.ctl.sess == nil || c.refuseLocked() {
 		return
 	}
-	if err := c.setSettings(st); err != nil {
+	if err := c.ctl.setSettings(st); err != nil {
 		c.notice = "This setting could not be used: " + err.Error()
 		return
 	}
@@ -230,12 +230,12 @@ func settingsWithUncertainty(s session.Settings, x bool, p *float64) session.Set
 
 // anSettings returns a copy of the session's settings whose pointer fields
 // may be replaced (SetSettings copies what it keeps).
-func (c *Shell) anSettings() session.Settings { return c.sess.Settings }
+func (c *Shell) anSettings() session.Settings { return c.ctl.sess.Settings }
 
 // anParse reads one number as the readings are read (decimal comma allowed).
 func (c *Shell) anParse(text string) (float64, error) {
-	if c.sess != nil && c.sess.DecimalComma != nil {
-		return session.ParseNumberHint(text, *c.sess.DecimalComma)
+	if c.ctl.sess != nil && c.ctl.sess.DecimalComma != nil {
+		return session.ParseNumberHint(text, *c.ctl.sess.DecimalComma)
 	}
 	return session.ParseNumber(text)
 }
@@ -297,7 +297,7 @@ var anLevels = []float64{0.90, 0.95, 0.99}
 // field shown, noted for anResync.
 func (c *Shell) renderSettings() app.UI {
 	c.anSyncOnSwitch()
-	st := c.sess.Settings
+	st := c.ctl.sess.Settings
 	model, tr := st.Model, st.Transform
 	if o, err := st.Options().Normalize(); err == nil {
 		model, tr = o.Model, o.Transform // weights imply a weighted model
@@ -337,7 +337,7 @@ func (c *Shell) renderSettings() app.UI {
 	}
 	return &settingsCard{
 		Model: model, Transform: tr, Weights: st.Weights, Level: level, Custom: custom, OtherOpen: c.anOtherOpen,
-		XUncertain: st.XUncertainty > 0, XUnit: c.sess.XUnit, YUnit: c.sess.YUnit,
+		XUncertain: st.XUncertainty > 0, XUnit: c.ctl.sess.XUnit, YUnit: c.ctl.sess.YUnit,
 		Fields: fields, FieldErr: c.anFieldErr, OnAction: c.cardAction,
 	}
 }

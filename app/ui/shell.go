@@ -33,7 +33,7 @@ type Shell struct {
 	// The open session, its analysis, saving and undo history, and the
 	// actions that change them (controller.go). The Shell reads its state
 	// to hand it to the cards; changes go through its actions.
-	*controller
+	ctl *controller
 
 	listOpen    bool
 	confirmDel  string // id of the session whose deletion is being confirmed
@@ -66,12 +66,12 @@ type Shell struct {
 // own questions (conversions, the plots' grid) in every analysis and saves
 // nothing while another tab holds the open session.
 func newShell() *Shell {
-	c := &Shell{controller: newController(nil)}
-	c.queries = func(o *fitcore.Options, x []float64) {
+	c := &Shell{ctl: newController(nil)}
+	c.ctl.queries = func(o *fitcore.Options, x []float64) {
 		c.anQueries(o, x)
 		c.plotQueries(o, x)
 	}
-	c.held = c.heldByOtherTab
+	c.ctl.held = c.heldByOtherTab
 	return c
 }
 
@@ -105,8 +105,8 @@ type cellKey struct {
 func (c *Shell) OnMount(ctx app.Context) {
 	c.ui = ctx
 	c.updateReady = ctx.AppUpdateAvailable()
-	if c.saves == nil {
-		c.saves = newSaveQueue() // mounted again after OnDismount
+	if c.ctl.saves == nil {
+		c.ctl.saves = newSaveQueue() // mounted again after OnDismount
 	}
 	c.mountTransfer(ctx)
 	c.netWatch(ctx)
@@ -123,15 +123,15 @@ func (c *Shell) OnMount(ctx app.Context) {
 		sess, err := openLast(st)
 		list, _ := st.List()
 		ctx.Dispatch(func(ctx app.Context) {
-			c.st, c.storeOK = st, err == nil
-			c.sessions = list
+			c.ctl.st, c.ctl.storeOK = st, err == nil
+			c.ctl.sessions = list
 			if err != nil {
 				c.notice = err.Error()
 			}
 			c.showStored(sess)
 			c.startSaver(ctx)
 			if len(list) == 0 || list[0].ID != sess.ID {
-				c.save()
+				c.ctl.save()
 			}
 			ctx.Async(func() { st.SetLast(sess.ID) })
 		})
@@ -190,7 +190,7 @@ func newSession(now time.Time) (*session.Session, error) {
 // for it: the first page of readings, its record offer, every text field
 // written again.
 func (c *Shell) show(s *session.Session) {
-	if n := c.openSession(s); n != "" {
+	if n := c.ctl.openSession(s); n != "" {
 		c.notice = n
 	}
 	c.page = 0
@@ -206,7 +206,7 @@ func (c *Shell) show(s *session.Session) {
 // "saved", since what is shown is what the device holds.
 func (c *Shell) showStored(s *session.Session) {
 	c.show(s)
-	c.markStored()
+	c.ctl.markStored()
 }
 
 // resyncInputs asks the next render to make every text field show the open
@@ -235,7 +235,7 @@ func afterRender(fn func()) {
 // syncInputs runs at the start of Render when a sync is pending. Natively
 // (prerendering) there is no document and it does nothing.
 func (c *Shell) syncInputs() {
-	if !c.needSync || c.sess == nil {
+	if !c.needSync || c.ctl.sess == nil {
 		return
 	}
 	c.needSync = false
@@ -243,7 +243,7 @@ func (c *Shell) syncInputs() {
 	if !doc.Truthy() {
 		return
 	}
-	s := c.sess
+	s := c.ctl.sess
 	want := map[string]string{
 		"session-title": s.Title,
 		"x-name":        s.XName, "x-unit": s.XUnit,
@@ -335,15 +335,15 @@ const saveAtOnce = 500
 // A turn that finds a newer edit leaves its work to that edit (a save
 // still goes ahead when the last one is saveEvery old).
 func (c *Shell) afterChange(ctx app.Context) {
-	if c.sess == nil || len(c.sess.Readings) < saveAtOnce {
+	if c.ctl.sess == nil || len(c.ctl.sess.Readings) < saveAtOnce {
 		return // saved in the change's own turn
 	}
-	seq := c.editSeq
-	big := c.big()
-	stateWas := c.saveStamp()
+	seq := c.ctl.editSeq
+	big := c.ctl.big()
+	stateWas := c.ctl.saveStamp()
 	saveTurn := func(ctx app.Context) {
-		if seq == c.editSeq || time.Since(c.lastSave) >= saveEvery {
-			c.save()
+		if seq == c.ctl.editSeq || time.Since(c.ctl.lastSave) >= saveEvery {
+			c.ctl.save()
 		}
 		c.keepScreen(ctx, stateWas)
 	}
@@ -352,22 +352,22 @@ func (c *Shell) afterChange(ctx app.Context) {
 		return
 	}
 	laterSave := func() {
-		if c.ui.Src() == nil || time.Since(c.lastSave) >= saveEvery {
+		if c.ui.Src() == nil || time.Since(c.ctl.lastSave) >= saveEvery {
 			c.afterFrame(saveTurn)
 			return
 		}
 		c.ui.After(savePause, func(ctx app.Context) {
-			if seq == c.editSeq {
+			if seq == c.ctl.editSeq {
 				saveTurn(ctx)
 			}
 		})
 	}
 	c.afterFrame(func(app.Context) {
-		if seq != c.editSeq {
+		if seq != c.ctl.editSeq {
 			laterSave()
 			return
 		}
-		c.completeNow()
+		c.ctl.completeNow()
 		laterSave()
 	})
 }
@@ -379,7 +379,7 @@ func (c *Shell) afterChange(ctx app.Context) {
 // allocation then helps to mark; DEVELOPERS.md has the figures). Only in
 // the browser; nothing on the screen changes.
 func (c *Shell) collectAfterLoad() {
-	if c.ui.Src() == nil || c.sess == nil || len(c.sess.Readings) < saveAtOnce {
+	if c.ui.Src() == nil || c.ctl.sess == nil || len(c.ctl.sess.Readings) < saveAtOnce {
 		return
 	}
 	c.afterFrame(func(ctx app.Context) {
@@ -394,7 +394,7 @@ func (c *Shell) collectAfterLoad() {
 // the whole screen is the costliest part of a turn. Another change queued
 // for the same frame still redraws it.
 func (c *Shell) keepScreen(ctx app.Context, was string) {
-	if ctx.Src() != nil && c.saveStamp() == was {
+	if ctx.Src() != nil && c.ctl.saveStamp() == was {
 		ctx.PreventUpdate()
 	}
 }
@@ -426,7 +426,7 @@ func saveNow(st store.Store, s *session.Session) error {
 // startSaver writes queued states one after the other, off the UI
 // goroutine (writeNext), and hands each outcome to the controller on it.
 func (c *Shell) startSaver(ctx app.Context) {
-	st, saves := c.st, c.saves
+	st, saves := c.ctl.st, c.ctl.saves
 	ctx.Async(func() {
 		for {
 			w, ok := writeNext(st, saves)
@@ -441,7 +441,7 @@ func (c *Shell) startSaver(ctx app.Context) {
 // saveDone shows the outcome of one write: the controller's save status,
 // a notice when a session left before failed, the storage figures.
 func (c *Shell) saveDone(ctx app.Context, sum store.Summary, err error, list []store.Summary) {
-	if n := c.saved(sum, err, list); n != "" {
+	if n := c.ctl.saved(sum, err, list); n != "" {
 		c.notice = n
 	}
 	if err == nil {
@@ -451,9 +451,9 @@ func (c *Shell) saveDone(ctx app.Context, sum store.Summary, err error, list []s
 
 // OnDismount stops the saver.
 func (c *Shell) OnDismount() {
-	if c.saves != nil {
-		c.saves.close()
-		c.saves = nil
+	if c.ctl.saves != nil {
+		c.ctl.saves.close()
+		c.ctl.saves = nil
 	}
 }
 

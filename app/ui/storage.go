@@ -13,7 +13,7 @@ import (
 
 // refreshUsageWhenReady waits for the store to open, then reads the usage.
 func (c *Shell) refreshUsageWhenReady(ctx app.Context, tries int) {
-	if c.st != nil {
+	if c.ctl.st != nil {
 		c.refreshUsage(ctx)
 		return
 	}
@@ -26,7 +26,7 @@ func (c *Shell) refreshUsageWhenReady(ctx app.Context, tries int) {
 // store.Usage, for persistent storage).
 func (c *Shell) refreshUsage(_ app.Context) {
 	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
-	st := c.st
+	st := c.ctl.st
 	if st == nil {
 		return
 	}

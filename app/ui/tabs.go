@@ -57,7 +57,7 @@ func (c *Shell) announceSaved(ctx app.Context, sum store.Summary) {
 	if c.seenID == sum.ID {
 		base = c.seen
 	}
-	if c.sess != nil && c.sess.ID == sum.ID {
+	if c.ctl.sess != nil && c.ctl.sess.ID == sum.ID {
 		c.seenID, c.seen = sum.ID, mod
 	}
 	if time.Since(c.usageAt) > 5*time.Second {
@@ -75,18 +75,18 @@ func (c *Shell) announceSaved(ctx app.Context, sum store.Summary) {
 
 // unsaved reports whether the open session has edits not yet stored.
 func (c *Shell) unsaved() bool {
-	return c.sess != nil && (c.sess.Modified.UnixMilli() > c.seen || c.seenID != c.sess.ID ||
-		c.saveState == SaveSaving || c.saveState == SaveFailed || c.view.stale)
+	return c.ctl.sess != nil && (c.ctl.sess.Modified.UnixMilli() > c.seen || c.seenID != c.ctl.sess.ID ||
+		c.ctl.saveState == SaveSaving || c.ctl.saveState == SaveFailed || c.ctl.view.stale)
 }
 
 // otherTabSaved handles a save made by another tab.
 func (c *Shell) otherTabSaved(_ app.Context, id string, mod, base int64) {
 	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
-	st := c.st
+	st := c.ctl.st
 	if st == nil {
 		return
 	}
-	if c.sess == nil || c.sess.ID != id || mod == c.seen {
+	if c.ctl.sess == nil || c.ctl.sess.ID != id || mod == c.seen {
 		ctx.Async(func() {
 			list, _ := st.List()
 			ctx.Dispatch(func(ctx app.Context) { c.listChanged(list) })
@@ -103,8 +103,8 @@ func (c *Shell) otherTabSaved(_ app.Context, id string, mod, base int64) {
 // reloadFromStore shows the stored version of the open session.
 func (c *Shell) reloadFromStore(_ app.Context, id, note string) {
 	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
-	st := c.st
-	seq := c.editSeq
+	st := c.ctl.st
+	seq := c.ctl.editSeq
 	ctx.Async(func() {
 		s, err := load(st, id)
 		list, _ := st.List()
@@ -114,10 +114,10 @@ func (c *Shell) reloadFromStore(_ app.Context, id, note string) {
 				c.notice = err.Error()
 				return
 			}
-			if c.sess == nil || c.sess.ID != id {
+			if c.ctl.sess == nil || c.ctl.sess.ID != id {
 				return
 			}
-			if c.editSeq != seq {
+			if c.ctl.editSeq != seq {
 				// Edited while the stored version was loading: showing it
 				// now would drop that edit without a word, so ask instead.
 				c.elsewhere = &changedElsewhere{id: id, modified: s.Modified.UnixMilli()}
@@ -127,7 +127,7 @@ func (c *Shell) reloadFromStore(_ app.Context, id, note string) {
 			c.showStored(s)
 			c.opened(s)
 			c.page = page
-			c.saveState, c.saveMessage, c.saveWhy = SaveSaved, "", ""
+			c.ctl.saveState, c.ctl.saveMessage, c.ctl.saveWhy = SaveSaved, "", ""
 			c.notice = note
 		})
 	})
@@ -157,7 +157,7 @@ func (c *Shell) renderElsewhere() app.UI {
 					// This tab's version replaces the other one, as chosen;
 					// the other tab then takes it as a fast-forward.
 					c.seenID, c.seen = k.id, k.modified
-					c.save()
+					c.ctl.save()
 				}),
 		),
 	)
@@ -173,20 +173,20 @@ func (c *Shell) keepAsCopy(_ app.Context, k *changedElsewhere) {
 		c.notice = err.Error()
 		return
 	}
-	cp := *c.sess
+	cp := *c.ctl.sess
 	cp.ID = id
-	cp.Readings = append([]session.Reading(nil), c.sess.Readings...)
-	cp.History = append([]session.Edit(nil), c.sess.History...)
-	if err := cp.SetField(session.FieldTitle, c.sess.Title+" (copy from this tab)", time.Now()); err != nil {
+	cp.Readings = append([]session.Reading(nil), c.ctl.sess.Readings...)
+	cp.History = append([]session.Edit(nil), c.ctl.sess.History...)
+	if err := cp.SetField(session.FieldTitle, c.ctl.sess.Title+" (copy from this tab)", time.Now()); err != nil {
 		c.notice = err.Error()
 		return
 	}
 	c.show(&cp)
 	c.opened(&cp)
 	c.seen = 0
-	c.save()
+	c.ctl.save()
 	c.notice = "This tab’s version is kept as a new session; the other tab’s version keeps the original."
-	st := c.st
+	st := c.ctl.st
 	ctx.Async(func() { st.SetLast(id) })
 }
 
@@ -195,5 +195,5 @@ func (c *Shell) keepAsCopy(_ app.Context, k *changedElsewhere) {
 // the technician has chosen (the controller's held; it says so in the save
 // state).
 func (c *Shell) heldByOtherTab() bool {
-	return c.elsewhere != nil && c.sess != nil && c.elsewhere.id == c.sess.ID
+	return c.elsewhere != nil && c.ctl.sess != nil && c.elsewhere.id == c.ctl.sess.ID
 }

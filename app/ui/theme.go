@@ -72,7 +72,7 @@ func (c *Shell) renderTools() app.UI {
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Try the demo").DataSet("testid", "demo-open").
 			Attr("title", "Adds four invented sessions of a fictional water board").OnClick(c.loadDemo),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Report").DataSet("testid", "report-open").
-			Disabled(c.sess == nil).OnClick(c.openReport),
+			Disabled(c.ctl.sess == nil).OnClick(c.openReport),
 		c.renderUndo(),
 		c.renderNet(),
 		app.Label().Class("pl-theme").Body(

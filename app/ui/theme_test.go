@@ -12,8 +12,8 @@ import (
 // edit applies a change as the screen does: change, then edited's hook.
 func (c *Shell) testEdit(f func()) {
 	f()
-	c.undoTrack()
-	c.analyse()
+	c.ctl.undoTrack()
+	c.ctl.analyse()
 }
 
 // TestUndo: typing a cell key by key is one step; leaving a reading out is
@@ -30,36 +30,36 @@ func TestUndo(t *testing.T) {
 	}
 	c := newShell()
 	c.show(s)
-	c.undoSync()
+	c.ctl.undoSync()
 	at := t0.Add(time.Hour)
 	row := s.AddRow("", "", at)
 	c.testEdit(func() {})
 	for i, txt := range []string{"5", "5.", "5.0"} {
-		c.testEdit(func() { c.sess.SetCell(row, session.ColumnX, txt, at.Add(time.Duration(i+1)*time.Second)) })
+		c.testEdit(func() { c.ctl.sess.SetCell(row, session.ColumnX, txt, at.Add(time.Duration(i+1)*time.Second)) })
 	}
-	c.testEdit(func() { c.sess.Exclude(1, "invented reason", at.Add(time.Minute)) })
-	if got := len(c.unStack); got != 3 {
+	c.testEdit(func() { c.ctl.sess.Exclude(1, "invented reason", at.Add(time.Minute)) })
+	if got := len(c.ctl.unStack); got != 3 {
 		t.Fatalf("%d undo steps, want 3 (row added, x typed, reading left out)", got)
 	}
-	hist := len(c.sess.History)
+	hist := len(c.ctl.sess.History)
 	c.undo(app.Context{}, app.Event{})
-	if c.sess.Readings[1].Excluded {
+	if c.ctl.sess.Readings[1].Excluded {
 		t.Error("undo did not put reading 2 back")
 	}
-	if c.sess.Readings[row].X != "5.0" {
-		t.Errorf("undo went too far: x of the new row is %q", c.sess.Readings[row].X)
+	if c.ctl.sess.Readings[row].X != "5.0" {
+		t.Errorf("undo went too far: x of the new row is %q", c.ctl.sess.Readings[row].X)
 	}
-	if len(c.sess.History) != hist+1 || c.sess.History[hist].Field != "undo" {
-		t.Errorf("history has %d entries (was %d), last %+v: want every entry kept and the undo recorded", len(c.sess.History), hist, c.sess.History[len(c.sess.History)-1])
+	if len(c.ctl.sess.History) != hist+1 || c.ctl.sess.History[hist].Field != "undo" {
+		t.Errorf("history has %d entries (was %d), last %+v: want every entry kept and the undo recorded", len(c.ctl.sess.History), hist, c.ctl.sess.History[len(c.ctl.sess.History)-1])
 	}
 	c.undo(app.Context{}, app.Event{})
-	if c.sess.Readings[row].X != "" {
-		t.Errorf("undoing the typing leaves %q, want the empty cell", c.sess.Readings[row].X)
+	if c.ctl.sess.Readings[row].X != "" {
+		t.Errorf("undoing the typing leaves %q, want the empty cell", c.ctl.sess.Readings[row].X)
 	}
-	if c.view.report == nil || c.view.report.N != 4 {
-		t.Errorf("after undo the line uses %v pairs, want 4", c.view.report)
+	if c.ctl.view.report == nil || c.ctl.view.report.N != 4 {
+		t.Errorf("after undo the line uses %v pairs, want 4", c.ctl.view.report)
 	}
-	if err := c.sess.Validate(); err != nil {
+	if err := c.ctl.sess.Validate(); err != nil {
 		t.Errorf("the restored session is not valid: %v", err)
 	}
 }

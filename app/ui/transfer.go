@@ -82,8 +82,8 @@ func (c *Shell) mountTransfer(ctx app.Context) {
 	flush := app.FuncOf(func(this app.Value, args []app.Value) any {
 		if doc.Get("visibilityState").String() == "hidden" || (len(args) > 0 && args[0].Get("type").String() == "pagehide") {
 			c.ui.Dispatch(func(ctx app.Context) {
-				if c.toSave {
-					c.save()
+				if c.ctl.toSave {
+					c.ctl.save()
 				}
 			})
 		}
@@ -177,7 +177,7 @@ func (c *Shell) importFile(_ app.Context, f app.Value) {
 		c.importFailed(name, fmt.Errorf("%w (%d MiB; at most %d MiB)", session.ErrTooLarge, size>>20, session.MaxFileSize>>20))
 		return
 	}
-	if c.st == nil {
+	if c.ctl.st == nil {
 		c.importErr = "Pairline is still opening its storage; try again in a moment."
 		return
 	}

@@ -35,7 +35,7 @@ func (c *Shell) renderTransferStrips() app.UI {
 		app.If(c.conflict != nil && len(c.conflict.pending) > 0, c.renderConflict),
 		app.If(c.choice != nil, c.renderColumnChoice),
 		app.If(c.elsewhere != nil, c.renderElsewhere),
-		app.If(c.saveState == SaveFailed && c.saveMessage == store.ErrQuota.Error(), func() app.UI {
+		app.If(c.ctl.saveState == SaveFailed && c.ctl.saveMessage == store.ErrQuota.Error(), func() app.UI {
 			return app.Div().Class("pl-strip pl-xfer-full").DataSet("testid", "storage-full").Attr("role", "alert").
 				Text("⚠ The device is full. The last change was not saved; what was saved before it is kept. Export this session, then delete old sessions to make room.")
 		}),
@@ -106,7 +106,7 @@ func (c *Shell) renderColumnChoice() app.UI {
 // renderTransfer hands the files card its data.
 func (c *Shell) renderTransfer() app.UI {
 	return &filesCard{
-		ShareOK: c.shareOK, HasResults: c.view.report != nil,
+		ShareOK: c.shareOK, HasResults: c.ctl.view.report != nil,
 		ImportReport: c.importReport, ImportSeq: c.importSeq, ImportTiming: c.importTiming,
 		Usage: c.usage, UsageText: c.usageText(), OnAction: c.fileAction,
 	}

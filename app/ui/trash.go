@@ -8,7 +8,7 @@ import (
 
 func (c *Shell) refreshTrash(_ app.Context) {
 	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
-	st := c.st
+	st := c.ctl.st
 	if st == nil || ctx.Src() == nil { // natively (unmounted): no store to read off the page's goroutine
 		return
 	}
@@ -26,13 +26,13 @@ func (c *Shell) refreshTrash(_ app.Context) {
 
 func (c *Shell) restore(_ app.Context, id string) {
 	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
-	st := c.st
+	st := c.ctl.st
 	ctx.Async(func() {
 		err := st.Restore(id)
 		list, _ := st.List()
 		trash, _ := st.Trash()
 		ctx.Dispatch(func(ctx app.Context) {
-			c.sessions, c.trash = list, trash
+			c.ctl.sessions, c.trash = list, trash
 			if err != nil {
 				c.notice = err.Error()
 				return
@@ -49,5 +49,5 @@ const listPage = 30
 
 // listShown returns the sessions the list draws.
 func (c *Shell) listShown() []store.Summary {
-	return c.sessions[:min(len(c.sessions), max(c.listMore, listPage))]
+	return c.ctl.sessions[:min(len(c.ctl.sessions), max(c.listMore, listPage))]
 }

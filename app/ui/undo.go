@@ -182,7 +182,7 @@ func (c *Shell) undo(ctx app.Context, e app.Event) { c.undoRedoShown(ctx, true) 
 func (c *Shell) redo(ctx app.Context, e app.Event) { c.undoRedoShown(ctx, false) }
 
 func (c *Shell) undoRedoShown(ctx app.Context, back bool) {
-	if !c.undoRedo(back) {
+	if !c.ctl.undoRedo(back) {
 		return
 	}
 	c.anFieldErr = nil
@@ -402,23 +402,23 @@ func describeSettings(oldJSON, newJSON string) string {
 // narrow screen it floats at the bottom corner (web/plots.css), in reach of
 // a thumb wherever the page is scrolled.
 func (c *Shell) renderUndo() app.UI {
-	c.undoSync()
-	nu, nr := len(c.unStack), len(c.unRedo)
+	c.ctl.undoSync()
+	nu, nr := len(c.ctl.unStack), len(c.ctl.unRedo)
 	undoLabel, redoLabel := "Nothing to undo", "Nothing to redo"
 	if nu > 0 {
-		undoLabel = "Undo " + c.unStack[nu-1].what + " (" + strconv.Itoa(nu) + " can be undone)"
+		undoLabel = "Undo " + c.ctl.unStack[nu-1].what + " (" + strconv.Itoa(nu) + " can be undone)"
 	}
 	if nr > 0 {
-		redoLabel = "Redo " + c.unRedo[nr-1].what + " (" + strconv.Itoa(nr) + " can be redone)"
+		redoLabel = "Redo " + c.ctl.unRedo[nr-1].what + " (" + strconv.Itoa(nr) + " can be redone)"
 	}
 	return app.Div().Class("pl-undo").Attr("role", "group").Attr("aria-label", "Undo and redo").Body(
 		app.Button().Class("pl-btn pl-btn-quiet").Text("↶ Undo").DataSet("testid", "undo").
 			DataSet("depth", strconv.Itoa(nu)).Attr("aria-label", undoLabel).Attr("title", undoLabel).
-			Disabled(nu == 0 || c.locked()).OnClick(c.undo),
+			Disabled(nu == 0 || c.ctl.locked()).OnClick(c.undo),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("↷ Redo").DataSet("testid", "redo").
 			DataSet("depth", strconv.Itoa(nr)).Attr("aria-label", redoLabel).Attr("title", redoLabel).
-			Disabled(nr == 0 || c.locked()).OnClick(c.redo),
+			Disabled(nr == 0 || c.ctl.locked()).OnClick(c.redo),
 		app.Span().Class("pl-tools-msg").Attr("role", "status").DataSet("testid", "undo-message").
-			Hidden(c.unMsg == "").Text(c.unMsg),
+			Hidden(c.ctl.unMsg == "").Text(c.ctl.unMsg),
 	)
 }

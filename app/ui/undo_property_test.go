@@ -22,7 +22,7 @@ import (
 func propShell(t *testing.T, s *session.Session) *Shell {
 	t.Helper()
 	c := newShell()
-	c.st = store.NewMemory()
+	c.ctl.st = store.NewMemory()
 	c.show(s)
 	return c
 }

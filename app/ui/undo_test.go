@@ -56,10 +56,10 @@ func TestUndoRedoCriterion(t *testing.T) {
 	k.MinRSquared = &v
 	c.anSetCriteria(ctx, k)
 	judged := func() int {
-		if c.view.report == nil || c.view.report.Acceptance == nil {
+		if c.ctl.view.report == nil || c.ctl.view.report.Acceptance == nil {
 			return 0
 		}
-		return len(c.view.report.Acceptance.Results)
+		return len(c.ctl.view.report.Acceptance.Results)
 	}
 	box := func() string {
 		c.renderAcceptance()
@@ -69,11 +69,11 @@ func TestUndoRedoCriterion(t *testing.T) {
 		t.Fatalf("criterion not in use: box %q", box())
 	}
 	c.undo(ctx, app.Event{})
-	if c.sess.Settings.Acceptance != nil || box() != "" || judged() != 0 {
-		t.Errorf("after undo: settings %+v, box %q, %d criteria judged; want none", c.sess.Settings.Acceptance, box(), judged())
+	if c.ctl.sess.Settings.Acceptance != nil || box() != "" || judged() != 0 {
+		t.Errorf("after undo: settings %+v, box %q, %d criteria judged; want none", c.ctl.sess.Settings.Acceptance, box(), judged())
 	}
-	if c.unMsg != "Undone: smallest R² allowed set to 0.9." {
-		t.Errorf("undo message %q", c.unMsg)
+	if c.ctl.unMsg != "Undone: smallest R² allowed set to 0.9." {
+		t.Errorf("undo message %q", c.ctl.unMsg)
 	}
 	if !c.needSync {
 		t.Error("undo did not ask for the text fields to be written again")
@@ -83,15 +83,15 @@ func TestUndoRedoCriterion(t *testing.T) {
 		t.Errorf("after redo: box %q, %d criteria judged; want the criterion back", box(), judged())
 	}
 	// Typed and typed back within the typing window: no step.
-	depth := len(c.unStack)
-	if err := c.setCell(0, session.ColumnX, "17"); err != nil {
+	depth := len(c.ctl.unStack)
+	if err := c.ctl.setCell(0, session.ColumnX, "17"); err != nil {
 		t.Fatal(err)
 	}
-	if err := c.setCell(0, session.ColumnX, "1"); err != nil {
+	if err := c.ctl.setCell(0, session.ColumnX, "1"); err != nil {
 		t.Fatal(err)
 	}
-	if len(c.unStack) != depth {
-		t.Errorf("%d steps to undo after typing a cell back to what it was, want %d", len(c.unStack), depth)
+	if len(c.ctl.unStack) != depth {
+		t.Errorf("%d steps to undo after typing a cell back to what it was, want %d", len(c.ctl.unStack), depth)
 	}
 }
 

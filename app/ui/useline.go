@@ -34,11 +34,11 @@ func (c *Shell) anSplitReadings(text string) ([]float64, string) {
 // report keeps the advice already shown. A very big session (requeryLater
 // readings and more) waits for typing to pause.
 func (c *Shell) anRequery(ctx app.Context) {
-	if c.sess == nil {
+	if c.ctl.sess == nil {
 		return
 	}
-	run := func() { c.requery(c.anQueries) }
-	if len(c.sess.Readings) < requeryLater {
+	run := func() { c.ctl.requery(c.anQueries) }
+	if len(c.ctl.sess.Readings) < requeryLater {
 		run()
 		return
 	}
@@ -61,12 +61,12 @@ const (
 
 // renderUseLine hands the "Use the line" card its data.
 func (c *Shell) renderUseLine() app.UI {
-	if c.view.report == nil {
+	if c.ctl.view.report == nil {
 		return nil
 	}
-	s := c.sess
+	s := c.ctl.sess
 	return &useCard{
-		Report: c.view.report, Digits: c.view.digits,
+		Report: c.ctl.view.report, Digits: c.ctl.view.digits,
 		XName: s.XName, XUnit: s.XUnit, YName: s.YName, YUnit: s.YUnit,
 		InvText: c.anInvText, InvErr: c.anInvErr, Inverse: len(c.anInvY) > 0,
 		PredText: c.anPredText, PredErr: c.anPredErr, Predict: len(c.anPredX),
