@@ -21,27 +21,100 @@ type accTemplate struct {
 // accTemplatesKey is the localStorage key of the templates.
 const accTemplatesKey = "pairline.acceptance-templates"
 
-// anLoadTemplates reads the saved templates (called once when the app starts).
-func (c *Shell) anLoadTemplates(ctx app.Context) {
-	var t []accTemplate
-	if err := ctx.LocalStorage().Get(accTemplatesKey, &t); err != nil {
-		c.anTplMsg = "The saved templates could not be read: " + err.Error()
+// criteriaTemplates is the templates kept on the device and the state of
+// their part of the criteria card: the name being typed, the last message,
+// the template whose deletion is being confirmed. It reads and writes the
+// browser's localStorage it is given; the Shell applies a template's
+// criteria through the controller.
+type criteriaTemplates struct {
+	list    []accTemplate
+	name    string // the name typed for the criteria to save
+	msg     string
+	confirm string // name of the template whose deletion is asked
+}
+
+// load reads the saved templates (called once when the app starts).
+func (t *criteriaTemplates) load(ls app.BrowserStorage) {
+	var list []accTemplate
+	if err := ls.Get(accTemplatesKey, &list); err != nil {
+		t.msg = "The saved templates could not be read: " + err.Error()
 		return
 	}
-	c.anTemplates = t
+	t.list = list
 }
 
-func (c *Shell) anStoreTemplates(ctx app.Context) {
-	sort.Slice(c.anTemplates, func(i, j int) bool {
-		return strings.ToLower(c.anTemplates[i].Name) < strings.ToLower(c.anTemplates[j].Name)
+// store writes the templates, sorted by name, to ls.
+func (t *criteriaTemplates) store(ls app.BrowserStorage) {
+	sort.Slice(t.list, func(i, j int) bool {
+		return strings.ToLower(t.list[i].Name) < strings.ToLower(t.list[j].Name)
 	})
-	if err := ctx.LocalStorage().Set(accTemplatesKey, c.anTemplates); err != nil {
-		c.anTplMsg = "The templates could not be saved on this device: " + err.Error()
+	if err := ls.Set(accTemplatesKey, t.list); err != nil {
+		t.msg = "The templates could not be saved on this device: " + err.Error()
 	}
 }
 
-// anCriteria returns a copy of the session's criteria (zero when none).
-func (c *Shell) anCriteria() fitcore.Criteria { return c.ctl.criteria() }
+// apply makes a change of the templates asked for on the criteria card (a
+// CardAction of kind caTplDelete, caTplKeep, caTplDeleteConfirm, caTplName
+// or caTplSave; cur is the session's criteria, saved by caTplSave) and
+// reports whether a was one of those.
+func (t *criteriaTemplates) apply(ls app.BrowserStorage, a CardAction, cur fitcore.Criteria) bool {
+	switch a.Kind {
+	case caTplDelete:
+		t.confirm = a.Key
+	case caTplKeep:
+		t.confirm = ""
+	case caTplDeleteConfirm:
+		out := t.list[:0:0]
+		for _, x := range t.list {
+			if x.Name != a.Key {
+				out = append(out, x)
+			}
+		}
+		t.list, t.confirm = out, ""
+		t.store(ls)
+	case caTplName:
+		t.name = a.Text
+	case caTplSave:
+		t.save(ls, cur)
+	default:
+		return false
+	}
+	return true
+}
+
+// use returns the criteria of the template named name (false when there is
+// none) and says they are now used.
+func (t *criteriaTemplates) use(name string) (fitcore.Criteria, bool) {
+	for _, x := range t.list {
+		if x.Name == name {
+			t.msg = "Criteria “" + x.Name + "” are now used for this session."
+			return x.Criteria, true
+		}
+	}
+	return fitcore.Criteria{}, false
+}
+
+// save keeps the criteria k on the device under the name typed, replacing
+// a template of that name.
+func (t *criteriaTemplates) save(ls app.BrowserStorage, k fitcore.Criteria) {
+	name := strings.TrimSpace(t.name)
+	if name == "" {
+		t.msg = "Give the criteria a name first."
+		return
+	}
+	replaced := false
+	for i := range t.list {
+		if t.list[i].Name == name {
+			t.list[i].Criteria, replaced = k, true
+		}
+	}
+	if !replaced {
+		t.list = append(t.list, accTemplate{Name: name, Criteria: k})
+	}
+	t.name = ""
+	t.msg = "Saved “" + name + "” on this device."
+	t.store(ls)
+}
 
 func anCriteriaEmpty(k fitcore.Criteria) bool {
 	return k.MinRSquared == nil && k.SlopeLow == nil && k.SlopeHigh == nil &&
@@ -77,7 +150,7 @@ var criteriaFields = []struct {
 // renderAcceptance hands the criteria card its data. The texts of its
 // number fields are noted for anResync.
 func (c *Shell) renderAcceptance() app.UI {
-	k := c.anCriteria()
+	k := c.ctl.criteria()
 	if c.anFieldVals == nil {
 		c.anFieldVals = map[string]string{}
 	}
@@ -87,7 +160,7 @@ func (c *Shell) renderAcceptance() app.UI {
 	card := &criteriaCard{
 		Criteria: k, Set: c.ctl.sess.Settings.Acceptance != nil, HasLine: c.ctl.view.report != nil, Message: c.ctl.view.message,
 		YUnit: c.ctl.sess.YUnit, FieldErr: c.anFieldErr,
-		Templates: c.anTemplates, TplName: c.anTplName, TplMsg: c.anTplMsg, TplConfirm: c.anTplConfirmDl,
+		Templates: c.tpl.list, TplName: c.tpl.name, TplMsg: c.tpl.msg, TplConfirm: c.tpl.confirm,
 		OnAction: c.cardAction,
 	}
 	if c.ctl.view.report != nil {
@@ -104,28 +177,17 @@ func (c *Shell) applyCriteria(ctx app.Context, a CardAction) {
 	case caCriterion:
 		c.applyCriterion(ctx, a.Key, a.Text)
 	case caResidualUnit:
-		kk := c.anCriteria()
+		kk := c.ctl.criteria()
 		kk.MaxResidualPercentOfSpan = a.Key == "percent"
 		c.anSetCriteria(ctx, kk)
 	case caTplUse:
-		c.useTemplate(ctx, a.Key)
-	case caTplDelete:
-		c.anTplConfirmDl = a.Key
-	case caTplKeep:
-		c.anTplConfirmDl = ""
-	case caTplDeleteConfirm:
-		out := c.anTemplates[:0:0]
-		for _, x := range c.anTemplates {
-			if x.Name != a.Key {
-				out = append(out, x)
-			}
+		// A template's criteria are the session's through the controller.
+		if k, ok := c.tpl.use(a.Key); ok {
+			c.anFieldErr = nil
+			c.anSetCriteria(ctx, k)
 		}
-		c.anTemplates, c.anTplConfirmDl = out, ""
-		c.anStoreTemplates(ctx)
-	case caTplName:
-		c.anTplName = a.Text
-	case caTplSave:
-		c.saveTemplate(ctx)
+	default:
+		c.tpl.apply(ctx.LocalStorage(), a, c.ctl.criteria())
 	}
 }
 
@@ -155,47 +217,13 @@ func (c *Shell) applyCriterion(ctx app.Context, key, text string) {
 		c.anFieldErr[field] = why
 		return
 	}
-	kk := c.anCriteria()
+	kk := c.ctl.criteria()
 	for _, f := range criteriaFields {
 		if f.name == key {
 			*f.get(&kk) = v
 		}
 	}
 	c.anSetCriteria(ctx, kk)
-}
-
-// useTemplate makes the criteria of the template named name this session's.
-func (c *Shell) useTemplate(ctx app.Context, name string) {
-	for _, t := range c.anTemplates {
-		if t.Name == name {
-			c.anFieldErr = nil
-			c.anSetCriteria(ctx, t.Criteria)
-			c.anTplMsg = "Criteria “" + t.Name + "” are now used for this session."
-		}
-	}
-}
-
-// saveTemplate keeps the session's criteria on the device under the name
-// typed, replacing a template of that name.
-func (c *Shell) saveTemplate(ctx app.Context) {
-	name := strings.TrimSpace(c.anTplName)
-	if name == "" {
-		c.anTplMsg = "Give the criteria a name first."
-		return
-	}
-	kk := c.anCriteria()
-	replaced := false
-	for i := range c.anTemplates {
-		if c.anTemplates[i].Name == name {
-			c.anTemplates[i].Criteria, replaced = kk, true
-		}
-	}
-	if !replaced {
-		c.anTemplates = append(c.anTemplates, accTemplate{Name: name, Criteria: kk})
-	}
-	c.anTplName = ""
-	c.anTplMsg = "Saved “" + name + "” on this device."
-	c.anStoreTemplates(ctx)
 }
 
 // criteriaCard draws the acceptance criteria of the session, the

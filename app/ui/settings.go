@@ -36,12 +36,6 @@ type analysisUI struct {
 	// anResync writes the fields after a change (see resyncInputs).
 	anFieldVals map[string]string
 	anSeenSess  string
-
-	// Acceptance templates, kept in the browser's localStorage.
-	anTemplates    []accTemplate
-	anTplName      string
-	anTplMsg       string
-	anTplConfirmDl string
 }
 
 // anResync writes each number field's rendered text into the page, except
@@ -57,8 +51,8 @@ func (c *Shell) anResync() {
 			el.Set("value", v)
 		}
 	}
-	if el := doc.Call("querySelector", `[data-testid="template-name"]`); el.Truthy() && el.Get("value").String() != c.anTplName {
-		el.Set("value", c.anTplName)
+	if el := doc.Call("querySelector", `[data-testid="template-name"]`); el.Truthy() && el.Get("value").String() != c.tpl.name {
+		el.Set("value", c.tpl.name)
 	}
 }
 

@@ -55,6 +55,8 @@ type Shell struct {
 
 	analysisUI // settings, checks, advice, use of the line, acceptance (settings.go)
 
+	tpl criteriaTemplates // the criteria templates on the device (acceptance.go)
+
 	fieldUI // plots, report, theme and demo (theme.go)
 
 	recordUI // the record cards: identity, standards, unknowns, sign-off (recordui.go)
@@ -111,7 +113,7 @@ func (c *Shell) OnMount(ctx app.Context) {
 	c.mountTransfer(ctx)
 	c.netWatch(ctx)
 	followWindowFocus()
-	c.anLoadTemplates(ctx)
+	c.tpl.load(ctx.LocalStorage())
 	ctx.Async(func() {
 		st, err := store.Open()
 		if err != nil {

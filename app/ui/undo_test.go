@@ -52,7 +52,7 @@ func TestUndoRedoCriterion(t *testing.T) {
 	c := propShell(t, s)
 	ctx := app.Context{}
 	v := 0.9
-	k := c.anCriteria()
+	k := c.ctl.criteria()
 	k.MinRSquared = &v
 	c.anSetCriteria(ctx, k)
 	judged := func() int {
