@@ -102,7 +102,8 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 		c.importTiming = fmt.Sprintf("read=%d encode=%d store=%d analyse=%d ms",
 			parsed.Sub(started).Milliseconds(), encoded.Sub(parsed).Milliseconds(), stored.Sub(encoded).Milliseconds(), time.Since(t).Milliseconds())
 		c.importReport = report
-		c.announceSaved(ctx, job.sum)
+		c.tabs.announce(job.sum, c.ctl.sess)
+		c.usage.refreshStale(c.ui, c.ctl.st)
 	})
 }
 

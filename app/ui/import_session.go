@@ -62,7 +62,7 @@ func (c *Shell) importSessionFile(ctx app.Context, name string, data []byte) {
 			return
 		}
 		c.importReport += importedText(name, len(fresh), 0)
-		c.refreshUsage(ctx)
+		c.usage.refresh(c.ui, c.ctl.st)
 	})
 }
 
@@ -159,5 +159,5 @@ func (c *Shell) afterConflict(ctx app.Context, k *importConflict) {
 	c.conflict = nil
 	c.importSeq++
 	c.importReport = importedText(k.file, k.added, 0)
-	c.refreshUsage(ctx)
+	c.usage.refresh(c.ui, c.ctl.st)
 }

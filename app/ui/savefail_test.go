@@ -131,7 +131,7 @@ func TestSaveFailureShown(t *testing.T) {
 	// touched by the other session's outcome.
 	c.ctl.saves.retry()
 	j, _ = c.ctl.saves.next()
-	c.usageAt = time.Now() // no storage figures to ask for natively
+	c.usage.at = time.Now() // no storage figures to ask for natively
 	c.saveDone(ctx, j.sum, nil, nil)
 	if c.ctl.saveState == SaveFailed {
 		t.Error("a success of another session left the open one failed")

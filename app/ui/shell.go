@@ -51,7 +51,11 @@ type Shell struct {
 	// source element has left the page, as a button in a closed list has.
 	ui app.Context
 
-	transferState // files in and out, trash, storage, other tabs (transfer.go)
+	transferState // files in and out, trash, storage (transfer.go)
+
+	tabs tabSync // other tabs with the same session open (tabs.go)
+
+	usage storageUse // the storage figures (storage.go)
 
 	analysisUI // settings, checks, advice, use of the line, acceptance (settings.go)
 
@@ -73,7 +77,7 @@ func newShell() *Shell {
 		c.anQueries(o, x)
 		c.plotQueries(o, x)
 	}
-	c.ctl.held = c.heldByOtherTab
+	c.ctl.held = func() bool { return c.tabs.held(c.ctl.sess) }
 	return c
 }
 
@@ -197,7 +201,7 @@ func (c *Shell) show(s *session.Session) {
 	}
 	c.page = 0
 	c.recKey, c.recLast = "", nil
-	c.opened(s)
+	c.tabs.opened(s)
 	c.resyncInputs()
 	c.collectAfterLoad()
 	c.lookUpLast()
@@ -447,7 +451,8 @@ func (c *Shell) saveDone(ctx app.Context, sum store.Summary, err error, list []s
 		c.notice = n
 	}
 	if err == nil {
-		c.announceSaved(ctx, sum)
+		c.tabs.announce(sum, c.ctl.sess)
+		c.usage.refreshStale(c.ui, c.ctl.st)
 	}
 }
 

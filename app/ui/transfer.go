@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"strconv"
 	"strings"
-	"time"
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
@@ -24,20 +23,13 @@ type transferState struct {
 	progress     float64         // 0 … 1 while importing
 	conflict     *importConflict // imported sessions whose ID is already stored
 	choice       *columnChoice   // a table with more than two columns of numbers
-	usage        store.Usage
-	usageKnown   bool
-	usageAt      time.Time
 	trash        []store.Summary
 	trashOpen    bool
-	elsewhere    *changedElsewhere
-	channel      app.Value // BroadcastChannel("pairline"), or nil
-	seenID       string    // the session whose stored version is seen
-	seen         int64     // Modified (Unix ms) of the stored version this tab has
-	shareOK      bool      // the browser can share files (Web Share API level 2)
-	importSeq    int       // counts finished imports (data-seq, for tests and screen readers)
-	listMore     int       // sessions the list draws beyond the first listPage
-	importPhase  string    // what the import is doing now: "reading", "saving", …
-	importTiming string    // how long the steps of the last table import took
+	shareOK      bool   // the browser can share files (Web Share API level 2)
+	importSeq    int    // counts finished imports (data-seq, for tests and screen readers)
+	listMore     int    // sessions the list draws beyond the first listPage
+	importPhase  string // what the import is doing now: "reading", "saving", …
+	importTiming string // how long the steps of the last table import took
 }
 
 // importConflict asks, one session at a time, what to do with imported
@@ -149,8 +141,8 @@ func (c *Shell) mountTransfer(ctx app.Context) {
 			return nil
 		}))
 	}
-	c.mountTabs(ctx)
-	c.refreshUsageWhenReady(ctx, 0)
+	c.tabs.mount(ctx, c.otherTabSaved)
+	c.usage.refreshWhenReady(ctx, c.ctl, 0)
 }
 
 func hasFiles(e app.Value) bool {

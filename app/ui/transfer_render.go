@@ -34,7 +34,9 @@ func (c *Shell) renderTransferStrips() app.UI {
 		}),
 		app.If(c.conflict != nil && len(c.conflict.pending) > 0, c.renderConflict),
 		app.If(c.choice != nil, c.renderColumnChoice),
-		app.If(c.elsewhere != nil, c.renderElsewhere),
+		app.If(c.tabs.elsewhere != nil, func() app.UI {
+			return c.tabs.render(c.reloadFromStore, c.keepAsCopy, c.ctl.save)
+		}),
 		app.If(c.ctl.saveState == SaveFailed && c.ctl.saveMessage == store.ErrQuota.Error(), func() app.UI {
 			return app.Div().Class("pl-strip pl-xfer-full").DataSet("testid", "storage-full").Attr("role", "alert").
 				Text("⚠ The device is full. The last change was not saved; what was saved before it is kept. Export this session, then delete old sessions to make room.")
@@ -108,7 +110,7 @@ func (c *Shell) renderTransfer() app.UI {
 	return &filesCard{
 		ShareOK: c.shareOK, HasResults: c.ctl.view.report != nil,
 		ImportReport: c.importReport, ImportSeq: c.importSeq, ImportTiming: c.importTiming,
-		Usage: c.usage, UsageText: c.usageText(), OnAction: c.fileAction,
+		Usage: c.usage.usage, UsageText: c.usage.text(), OnAction: c.fileAction,
 	}
 }
 
