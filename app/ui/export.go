@@ -1,6 +1,11 @@
 package ui
 
-// Files out: session file, all sessions, readings and results CSV, and sharing.
+// Files out: session file, all sessions, readings and results CSV, and
+// sharing. Each takes what it hands out (the open session, its report, the
+// store) and returns the sentence for the message strip when it cannot
+// ("" when it did); work that finishes later comes back through ctx, the
+// Shell's own context (the element that asked may be gone by then), and
+// says so through say.
 
 import (
 	"bytes"
@@ -9,49 +14,50 @@ import (
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
 	"pairline/app/session"
+	"pairline/app/store"
+	"pairline/fitcore"
 )
 
-// sessionFile encodes the open session as a session file.
-func (c *Shell) sessionFile() ([]byte, error) {
-	return session.EncodeBytes([]*session.Session{c.ctl.sess})
+// sessionFile encodes s as a session file.
+func sessionFile(s *session.Session) ([]byte, error) {
+	return session.EncodeBytes([]*session.Session{s})
 }
 
-func (c *Shell) exportSession(ctx app.Context, e app.Event) {
-	if c.ctl.sess == nil {
-		return
+// exportSession downloads s as a session file.
+func exportSession(s *session.Session) string {
+	if s == nil {
+		return ""
 	}
-	b, err := c.sessionFile()
+	b, err := sessionFile(s)
 	if err != nil {
-		c.notice = "The session could not be exported: " + err.Error()
-		return
+		return "The session could not be exported: " + err.Error()
 	}
-	download(fileBase(c.ctl.sess.Title)+session.FileExtension, session.MediaType, b)
+	download(fileBase(s.Title)+session.FileExtension, session.MediaType, b)
+	return ""
 }
 
-func (c *Shell) shareSession(_ app.Context, e app.Event) {
-	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
-	if c.ctl.sess == nil {
-		return
+// shareSession hands s as a session file to the device's share sheet.
+func shareSession(ctx app.Context, s *session.Session, say func(string)) string {
+	if s == nil {
+		return ""
 	}
-	b, err := c.sessionFile()
+	b, err := sessionFile(s)
 	if err != nil {
-		c.notice = "The session could not be shared: " + err.Error()
-		return
+		return "The session could not be shared: " + err.Error()
 	}
-	name, title := fileBase(c.ctl.sess.Title)+session.FileExtension, c.ctl.sess.Title
+	name, title := fileBase(s.Title)+session.FileExtension, s.Title
 	ctx.Async(func() {
 		if err := shareFile(name, session.MediaType, title, b); err != nil {
 			ctx.Dispatch(func(ctx app.Context) {
-				c.notice = "The session was not shared (" + err.Error() + "). Use “Save session file” instead."
+				say("The session was not shared (" + err.Error() + "). Use “Save session file” instead.")
 			})
 		}
 	})
+	return ""
 }
 
-// exportAll writes every stored session (not the trash) into one file.
-func (c *Shell) exportAll(_ app.Context, e app.Event) {
-	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
-	st := c.ctl.st
+// exportAll writes every session stored in st (not the trash) into one file.
+func exportAll(ctx app.Context, st store.Store, say func(string)) {
 	if st == nil {
 		return
 	}
@@ -73,7 +79,7 @@ func (c *Shell) exportAll(_ app.Context, e app.Event) {
 		}
 		ctx.Dispatch(func(ctx app.Context) {
 			if err != nil {
-				c.notice = "The sessions could not be exported: " + err.Error()
+				say("The sessions could not be exported: " + err.Error())
 				return
 			}
 			download("pairline-sessions-"+time.Now().Format("2006-01-02")+session.FileExtension, session.MediaType, buf.Bytes())
@@ -81,36 +87,37 @@ func (c *Shell) exportAll(_ app.Context, e app.Event) {
 	})
 }
 
-func (c *Shell) exportCSV(ctx app.Context, e app.Event) {
-	if c.ctl.sess == nil {
-		return
+// exportCSV downloads the readings of s as CSV.
+func exportCSV(s *session.Session) string {
+	if s == nil {
+		return ""
 	}
 	var buf bytes.Buffer
-	if err := session.WriteReadingsCSV(&buf, c.ctl.sess); err != nil {
-		c.notice = "The readings could not be exported: " + err.Error()
-		return
+	if err := session.WriteReadingsCSV(&buf, s); err != nil {
+		return "The readings could not be exported: " + err.Error()
 	}
-	download(fileBase(c.ctl.sess.Title)+" readings.csv", "text/csv", buf.Bytes())
+	download(fileBase(s.Title)+" readings.csv", "text/csv", buf.Bytes())
+	return ""
 }
 
-// exportResults writes the results of the record as CSV: session.
-// WriteResultsCSV, the same table `pairline export-csv --results` writes
-// (the line, its checks, the acceptance, each unknown sample by name with
-// its conversion and interval; full precision, no cell a formula).
-func (c *Shell) exportResults(ctx app.Context, e app.Event) {
-	rep := c.ctl.view.report
-	if c.ctl.sess == nil || rep == nil {
-		return
+// exportResults writes the results of the record s, with its report rep, as
+// CSV: session.WriteResultsCSV, the same table `pairline export-csv
+// --results` writes (the line, its checks, the acceptance, each unknown
+// sample by name with its conversion and interval; full precision, no cell
+// a formula).
+func exportResults(s *session.Session, rep *fitcore.Report) string {
+	if s == nil || rep == nil {
+		return ""
 	}
 	// The report holds the screen's own conversion first; the table is
 	// about the record's unknowns only (unknownResults).
-	adhoc, _ := unknownResults(c.ctl.sess, rep)
+	adhoc, _ := unknownResults(s, rep)
 	r := *rep
 	r.Inverse = rep.Inverse[len(adhoc):]
 	var buf bytes.Buffer
-	if err := session.WriteResultsCSV(&buf, c.ctl.sess, &r, c.ctl.sess.UnknownQueries()); err != nil {
-		c.notice = "The results could not be exported: " + err.Error()
-		return
+	if err := session.WriteResultsCSV(&buf, s, &r, s.UnknownQueries()); err != nil {
+		return "The results could not be exported: " + err.Error()
 	}
-	download(fileBase(c.ctl.sess.Title)+" results.csv", "text/csv", buf.Bytes())
+	download(fileBase(s.Title)+" results.csv", "text/csv", buf.Bytes())
+	return ""
 }

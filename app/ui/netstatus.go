@@ -10,26 +10,26 @@ import (
 // but a share or an update waits; not installed, the browser may clear the
 // stored sessions sooner and the app needs its tab.
 type netUI struct {
-	netOffline   bool // zero value online: the prerendered page says nothing alarming
-	netInstalled bool
-	netWatching  bool
+	offline   bool // zero value online: the prerendered page says nothing alarming
+	installed bool
+	watching  bool
 }
 
-// netWatch reads both states and follows the browser's online and offline
+// watch reads both states and follows the browser's online and offline
 // events and the display mode (natively, Window is a no-op: online, not
-// installed).
-func (c *Shell) netWatch(ctx app.Context) {
+// installed); dispatch runs a change on the UI goroutine (the Shell's).
+func (n *netUI) watch(dispatch func(func(app.Context))) {
 	win := app.Window()
 	nav := win.Get("navigator")
-	if !nav.Truthy() || c.netWatching {
+	if !nav.Truthy() || n.watching {
 		return
 	}
-	c.netWatching = true
-	c.netOffline = !nav.Get("onLine").Bool()
-	c.netInstalled = netStandalone()
+	n.watching = true
+	n.offline = !nav.Get("onLine").Bool()
+	n.installed = netStandalone()
 	on := func(offline bool) app.Func {
 		return app.FuncOf(func(this app.Value, args []app.Value) any {
-			c.ui.Dispatch(func(ctx app.Context) { c.netOffline = offline })
+			dispatch(func(ctx app.Context) { n.offline = offline })
 			return nil
 		})
 	}
@@ -37,7 +37,7 @@ func (c *Shell) netWatch(ctx app.Context) {
 	win.Call("addEventListener", "offline", on(true))
 	if mq := win.Call("matchMedia", "(display-mode: standalone)"); mq.Truthy() {
 		mq.Call("addEventListener", "change", app.FuncOf(func(this app.Value, args []app.Value) any {
-			c.ui.Dispatch(func(ctx app.Context) { c.netInstalled = netStandalone() })
+			dispatch(func(ctx app.Context) { n.installed = netStandalone() })
 			return nil
 		}))
 	}
@@ -46,7 +46,7 @@ func (c *Shell) netWatch(ctx app.Context) {
 // OnAppInstallChange is called by go-app when the app is installed or
 // removed.
 func (c *Shell) OnAppInstallChange(ctx app.Context) {
-	c.netInstalled = netStandalone()
+	c.net.installed = netStandalone()
 }
 
 // netStandalone: the page runs in the installed app's own window.
@@ -74,18 +74,18 @@ func netWords(online, installed bool) (net, inst, hint string) {
 	return net, inst, hint
 }
 
-// renderNet draws the network and install states.
-func (c *Shell) renderNet() app.UI {
-	net, inst, hint := netWords(!c.netOffline, c.netInstalled)
+// render draws the network and install states.
+func (n *netUI) render() app.UI {
+	net, inst, hint := netWords(!n.offline, n.installed)
 	return app.Div().Class("pl-net").Body(
 		app.Span().Class("pl-net-state").DataSet("testid", "net-status").
-			DataSet("state", map[bool]string{true: "online", false: "offline"}[!c.netOffline]).
+			DataSet("state", map[bool]string{true: "online", false: "offline"}[!n.offline]).
 			Attr("role", "status").Text(net),
 		app.Span().Class("pl-net-inst").DataSet("testid", "install-status").
-			DataSet("state", map[bool]string{true: "installed", false: "browser"}[c.netInstalled]).
+			DataSet("state", map[bool]string{true: "installed", false: "browser"}[n.installed]).
 			Attr("title", hint).Body(
 			app.Span().Text(inst),
-			app.If(!c.netInstalled, func() app.UI {
+			app.If(!n.installed, func() app.UI {
 				return app.Span().Class("pl-net-hint").Text(" · menu › Install")
 			}),
 		),

@@ -16,7 +16,7 @@ func digitsOf(text string) int { return numfmt.DigitsOf(text) }
 // Render draws the whole screen.
 func (c *Shell) Render() app.UI {
 	c.syncInputs()
-	return app.Div().Class("pl-app", c.themeClass()).Body(
+	return app.Div().Class("pl-app", c.theme.class()).Body(
 		// The bar and the tools strip are one banner landmark; everything
 		// else sits in a landmark too (the messages region, main, the
 		// report dialog), so that a screen reader can move between them.

@@ -13,7 +13,7 @@ import (
 // the page of summaries drawn, the open session, the due marks of the
 // instrument view, the rename and delete questions and the trash.
 func (c *Shell) renderSessions() app.UI {
-	shown := append([]store.Summary(nil), c.listShown()...)
+	shown := append([]store.Summary(nil), listShown(c.ctl.sessions, c.listMore)...)
 	due := map[string]hv.DueMark{}
 	for _, s := range shown {
 		if m, ok := c.dueMarkOf(s.ID); ok {
@@ -27,7 +27,7 @@ func (c *Shell) renderSessions() app.UI {
 	return &sessionsList{
 		Sessions: shown, Older: len(c.ctl.sessions) - len(shown), Due: due, OpenID: open,
 		Renaming: c.renaming, RenameText: c.renameText, ConfirmDel: c.confirmDel,
-		TrashOpen: c.trashOpen, Trash: append([]store.Summary(nil), c.trash...),
+		TrashOpen: c.trash.open, Trash: append([]store.Summary(nil), c.trash.items...),
 		OnAction: c.listAction,
 	}
 }
@@ -73,14 +73,11 @@ func (c *Shell) applyList(ctx app.Context, a ListAction) {
 			c.delete(ctx, a.ID)
 		}
 	case laMore:
-		c.listMore = len(c.listShown()) + listPage
+		c.listMore = len(listShown(c.ctl.sessions, c.listMore)) + listPage
 	case laTrash:
-		c.trashOpen = !c.trashOpen
-		if c.trashOpen {
-			c.refreshTrash(ctx)
-		}
+		c.trash.toggle(c.ui, c.ctl.st, c.say)
 	case laRestore:
-		c.restore(ctx, a.ID)
+		c.trash.restore(c.ui, c.ctl, a.ID, c.say)
 	}
 }
 

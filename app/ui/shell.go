@@ -57,6 +57,12 @@ type Shell struct {
 
 	usage storageUse // the storage figures (storage.go)
 
+	trash trashBin // the sessions list's trash (trash.go)
+
+	theme themeUI // the screen's colours (theme.go)
+
+	net netUI // network and install states (netstatus.go)
+
 	analysisUI // settings, checks, advice, use of the line, acceptance (settings.go)
 
 	tpl criteriaTemplates // the criteria templates on the device (acceptance.go)
@@ -115,7 +121,7 @@ func (c *Shell) OnMount(ctx app.Context) {
 		c.ctl.saves = newSaveQueue() // mounted again after OnDismount
 	}
 	c.mountTransfer(ctx)
-	c.netWatch(ctx)
+	c.net.watch(c.dispatch)
 	followWindowFocus()
 	c.tpl.load(ctx.LocalStorage())
 	ctx.Async(func() {
@@ -454,6 +460,25 @@ func (c *Shell) saveDone(ctx app.Context, sum store.Summary, err error, list []s
 		c.tabs.announce(sum, c.ctl.sess)
 		c.usage.refreshStale(c.ui, c.ctl.st)
 	}
+}
+
+// say shows n in the message strip; "" leaves the strip as it is. The
+// Shell's parts that do their work apart (the trash, the files out) are
+// given it.
+func (c *Shell) say(n string) {
+	if n != "" {
+		c.notice = n
+	}
+}
+
+// dispatch runs fn on the UI goroutine through the Shell's own context, in
+// a later turn (natively, unmounted: at once, with no context).
+func (c *Shell) dispatch(fn func(app.Context)) {
+	if c.ui.Src() == nil {
+		fn(app.Context{})
+		return
+	}
+	c.ui.Dispatch(fn)
 }
 
 // OnDismount stops the saver.

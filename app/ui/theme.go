@@ -5,13 +5,11 @@ import (
 )
 
 // fieldUI is the state of the parts made for work in the field: the plots,
-// the report, the theme and the demo. It is embedded in Shell.
+// the report, the demo and the typing in the grid. It is embedded in Shell.
 type fieldUI struct {
 	plotsUI
 	reportUI
-	themeUI
 	demoUI
-	netUI
 	entryUI
 }
 
@@ -24,38 +22,41 @@ const (
 	themeKey      = "pairline.theme"
 )
 
+// themeUI is the screen's colours, chosen on the tools strip and kept in
+// the browser's localStorage.
 type themeUI struct {
-	thName   string
-	thLoaded bool
+	name   string
+	loaded bool
 }
 
-// themeClass returns the class of the chosen theme, reading the choice
-// from localStorage the first time (natively there is none: standard).
-func (c *Shell) themeClass() string {
-	if !c.thLoaded {
-		c.thLoaded = true
+// class returns the class of the chosen theme, reading the choice from
+// localStorage the first time (natively there is none: standard).
+func (t *themeUI) class() string {
+	if !t.loaded {
+		t.loaded = true
 		if ls := app.Window().Get("localStorage"); ls.Truthy() {
 			if v := ls.Call("getItem", themeKey); v.Truthy() {
-				c.thName = v.String()
+				t.name = v.String()
 			}
 		}
 	}
-	switch c.thName {
+	switch t.name {
 	case themeOutdoor, themeDark:
 	default:
-		c.thName = themeStandard
+		t.name = themeStandard
 	}
-	return "pl-theme-" + c.thName
+	return "pl-theme-" + t.name
 }
 
-func (c *Shell) onTheme(ctx app.Context, e app.Event) {
+// choose takes the theme chosen in the select (its handler).
+func (t *themeUI) choose(ctx app.Context, e app.Event) {
 	v := ctx.JSSrc().Get("value").String()
 	switch v {
 	case themeStandard, themeOutdoor, themeDark:
 	default:
 		return
 	}
-	c.thName = v
+	t.name = v
 	if ls := app.Window().Get("localStorage"); ls.Truthy() {
 		ls.Call("setItem", themeKey, v)
 	}
@@ -64,7 +65,7 @@ func (c *Shell) onTheme(ctx app.Context, e app.Event) {
 // renderTools is the strip under the bar: demo, report, undo and redo
 // (undo.go), and the theme.
 func (c *Shell) renderTools() app.UI {
-	th := c.thName
+	th := c.theme.name
 	opt := func(v, label string) app.UI {
 		return app.Option().Value(v).Selected(th == v).Text(label)
 	}
@@ -74,10 +75,10 @@ func (c *Shell) renderTools() app.UI {
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Report").DataSet("testid", "report-open").
 			Disabled(c.ctl.sess == nil).OnClick(c.openReport),
 		c.renderUndo(),
-		c.renderNet(),
+		c.net.render(),
 		app.Label().Class("pl-theme").Body(
 			app.Span().Text("Screen"),
-			app.Select().DataSet("testid", "theme-select").Attr("aria-label", "Screen colours").OnChange(c.onTheme).Body(
+			app.Select().DataSet("testid", "theme-select").Attr("aria-label", "Screen colours").OnChange(c.theme.choose).Body(
 				opt(themeStandard, "Standard"),
 				opt(themeOutdoor, "Outdoor, high contrast"),
 				opt(themeDark, "Dark"),

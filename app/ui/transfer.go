@@ -23,13 +23,11 @@ type transferState struct {
 	progress     float64         // 0 … 1 while importing
 	conflict     *importConflict // imported sessions whose ID is already stored
 	choice       *columnChoice   // a table with more than two columns of numbers
-	trash        []store.Summary
-	trashOpen    bool
-	shareOK      bool   // the browser can share files (Web Share API level 2)
-	importSeq    int    // counts finished imports (data-seq, for tests and screen readers)
-	listMore     int    // sessions the list draws beyond the first listPage
-	importPhase  string // what the import is doing now: "reading", "saving", …
-	importTiming string // how long the steps of the last table import took
+	shareOK      bool            // the browser can share files (Web Share API level 2)
+	importSeq    int             // counts finished imports (data-seq, for tests and screen readers)
+	listMore     int             // sessions the list draws beyond the first listPage
+	importPhase  string          // what the import is doing now: "reading", "saving", …
+	importTiming string          // how long the steps of the last table import took
 }
 
 // importConflict asks, one session at a time, what to do with imported

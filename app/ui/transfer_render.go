@@ -138,15 +138,15 @@ func (c *Shell) fileAction(a FileAction) {
 		case faImport:
 			c.importFile(ctx, a.File)
 		case faShare:
-			c.shareSession(ctx, app.Event{})
+			c.say(shareSession(c.ui, c.ctl.sess, c.say))
 		case faExportSession:
-			c.exportSession(ctx, app.Event{})
+			c.say(exportSession(c.ctl.sess))
 		case faExportAll:
-			c.exportAll(ctx, app.Event{})
+			exportAll(c.ui, c.ctl.st, c.say)
 		case faExportCSV:
-			c.exportCSV(ctx, app.Event{})
+			c.say(exportCSV(c.ctl.sess))
 		case faExportResults:
-			c.exportResults(ctx, app.Event{})
+			c.say(exportResults(c.ctl.sess, c.ctl.view.report))
 		}
 	}
 	if c.ui.Src() == nil {

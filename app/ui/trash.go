@@ -6,9 +6,25 @@ import (
 	"pairline/app/store"
 )
 
-func (c *Shell) refreshTrash(_ app.Context) {
-	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
-	st := c.ctl.st
+// trashBin is the sessions list's trash: whether it is open and the
+// sessions in it, read from the store it is given. Work that finishes
+// later comes back through ctx, the Shell's own context (the element that
+// asked may be gone by then); say shows a sentence in the message strip.
+type trashBin struct {
+	items []store.Summary
+	open  bool
+}
+
+// toggle opens or closes the trash, reading it when it opens.
+func (t *trashBin) toggle(ctx app.Context, st store.Store, say func(string)) {
+	t.open = !t.open
+	if t.open {
+		t.refresh(ctx, st, say)
+	}
+}
+
+// refresh reads the trash from st.
+func (t *trashBin) refresh(ctx app.Context, st store.Store, say func(string)) {
 	if st == nil || ctx.Src() == nil { // natively (unmounted): no store to read off the page's goroutine
 		return
 	}
@@ -16,28 +32,29 @@ func (c *Shell) refreshTrash(_ app.Context) {
 		trash, err := st.Trash()
 		ctx.Dispatch(func(ctx app.Context) {
 			if err != nil {
-				c.notice = err.Error()
+				say(err.Error())
 				return
 			}
-			c.trash = trash
+			t.items = trash
 		})
 	})
 }
 
-func (c *Shell) restore(_ app.Context, id string) {
-	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
-	st := c.ctl.st
+// restore takes session id out of the trash of the controller's store and
+// gives the controller the list again.
+func (t *trashBin) restore(ctx app.Context, k *controller, id string, say func(string)) {
+	st := k.st
 	ctx.Async(func() {
 		err := st.Restore(id)
 		list, _ := st.List()
 		trash, _ := st.Trash()
 		ctx.Dispatch(func(ctx app.Context) {
-			c.ctl.sessions, c.trash = list, trash
+			k.sessions, t.items = list, trash
 			if err != nil {
-				c.notice = err.Error()
+				say(err.Error())
 				return
 			}
-			c.notice = "The session was restored from the trash."
+			say("The session was restored from the trash.")
 		})
 	})
 }
@@ -47,7 +64,8 @@ func (c *Shell) restore(_ app.Context, id string) {
 // the list slow to open on a tablet.
 const listPage = 30
 
-// listShown returns the sessions the list draws.
-func (c *Shell) listShown() []store.Summary {
-	return c.ctl.sessions[:min(len(c.ctl.sessions), max(c.listMore, listPage))]
+// listShown returns the sessions of all the list draws: the first listPage,
+// or more when "show more" asked for them.
+func listShown(all []store.Summary, more int) []store.Summary {
+	return all[:min(len(all), max(more, listPage))]
 }
