@@ -31,7 +31,7 @@ func (c *Shell) loadDemo(ctx app.Context, e app.Event) {
 		}
 	}
 	st := c.ctl.st
-	ctx = c.shellCtx(ctx)
+	ctx = shellCtx(c.ui, ctx)
 	ctx.Async(func() {
 		ss, err := demo.Sessions(time.Now(), nil)
 		if err == nil {

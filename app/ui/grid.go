@@ -139,7 +139,7 @@ func (c *Shell) row(i int) app.UI {
 		Reason:   reason,
 		Note:     r.Note,
 		Locked:   c.ctl.locked(),
-		onAction: c.rowAction,
+		onAction: sendTo(c.dispatch, c.applyRow),
 	}
 }
 
@@ -161,18 +161,9 @@ type RowAction struct {
 	Text    string
 }
 
-// rowAction applies what a row asked for, on the Shell's own context (the
-// row's element may be gone by the time it runs): the cells through the
-// controller, the row being entered (entryUI) for the screen.
-func (c *Shell) rowAction(a RowAction) {
-	apply := func(ctx app.Context) { c.applyRow(ctx, a) }
-	if c.ui.Src() == nil {
-		apply(app.Context{})
-		return
-	}
-	c.ui.Dispatch(apply)
-}
-
+// applyRow makes the change a row asked for (through sendTo, on the
+// Shell's own context): the cells through the controller, the row being
+// entered (entryUI) for the screen.
 func (c *Shell) applyRow(ctx app.Context, a RowAction) {
 	if c.ctl.sess == nil || c.ctl.sess.ID != a.Session {
 		return // a row of a session no longer open

@@ -43,7 +43,7 @@ type plotsUI struct {
 // plotQueries adds the x grid of the drawn line to the options of the one
 // Analyze run of an edit, after every other query (the plots read the last
 // plotGridN predictions). x are the usable readings.
-func (c *Shell) plotQueries(o *fitcore.Options, x []float64) {
+func plotQueries(o *fitcore.Options, x []float64) {
 	o.PredictX = append(o.PredictX, plGrid(x, o.Transform == fitcore.TransformLogLog)...)
 }
 
@@ -331,24 +331,24 @@ func plVerdictOf(name string, v fitcore.Verdict) string { return "“" + name + 
 // session, view.stale) the plots shown stay, marked as updating; the turn
 // of the advice draws them once, from the full report (a turn of their own
 // cost every edit one more render of the screen and one more frame).
-func (c *Shell) plots() plSet {
-	rep := c.ctl.view.report
-	if rep == c.plCacheRep && c.ctl.sess == c.plCacheSess && len(c.ctl.sess.Readings) == c.plCacheN {
-		return c.plCache
+func (p *plotsUI) drawing(k *controller) plSet {
+	rep := k.view.report
+	if rep == p.plCacheRep && k.sess == p.plCacheSess && len(k.sess.Readings) == p.plCacheN {
+		return p.plCache
 	}
-	if k := c.plKeyNow(); rep != nil && k == c.plCacheKey {
+	if key := p.keyNow(k); rep != nil && key == p.plCacheKey {
 		// A second analysis of the same readings (the advice worked out
 		// in the next turn) draws the same plots.
-		c.plCacheRep = rep
-		c.plStale = false
-		return c.plCache
+		p.plCacheRep = rep
+		p.plStale = false
+		return p.plCache
 	}
-	if rep != nil && c.ctl.view.stale && c.ctl.sess == c.plCacheSess && c.plCacheRep != nil {
-		c.plStale = true
-		return c.plCache
+	if rep != nil && k.view.stale && k.sess == p.plCacheSess && p.plCacheRep != nil {
+		p.plStale = true
+		return p.plCache
 	}
-	c.plBuildNow()
-	return c.plCache
+	p.buildNow(k)
+	return p.plCache
 }
 
 // plKey is what the plots are drawn from: the session and its last change,
@@ -363,21 +363,36 @@ type plKey struct {
 	transform            fitcore.Transform
 }
 
-func (c *Shell) plKeyNow() plKey {
-	k := plKey{sess: c.ctl.sess, readings: len(c.ctl.sess.Readings), hist: len(c.ctl.sess.History)}
-	if k.hist > 0 {
-		k.last = c.ctl.sess.History[k.hist-1]
+func (p *plotsUI) keyNow(k *controller) plKey {
+	key := plKey{sess: k.sess, readings: len(k.sess.Readings), hist: len(k.sess.History)}
+	if key.hist > 0 {
+		key.last = k.sess.History[key.hist-1]
 	}
-	if r := c.ctl.view.report; r != nil {
-		k.n, k.slope, k.icpt, k.se, k.lvl, k.model, k.transform = r.N, r.Slope.Estimate, r.Intercept.Estimate, r.ResidualSE, r.Level, r.Model, r.Transform
+	if r := k.view.report; r != nil {
+		key.n, key.slope, key.icpt, key.se, key.lvl, key.model, key.transform = r.N, r.Slope.Estimate, r.Intercept.Estimate, r.ResidualSE, r.Level, r.Model, r.Transform
 	}
-	return k
+	return key
 }
 
-func (c *Shell) plBuildNow() {
-	c.plCache = plDraw(c.ctl.sess, c.ctl.view.report, c.ctl.view.rows, c.ctl.view.x, c.ctl.view.y, c.plSel-1)
-	c.plCacheRep, c.plCacheSess, c.plCacheN, c.plCacheKey = c.ctl.view.report, c.ctl.sess, len(c.ctl.sess.Readings), c.plKeyNow()
-	c.plStale = false
+func (p *plotsUI) buildNow(k *controller) {
+	p.plCache = plDraw(k.sess, k.view.report, k.view.rows, k.view.x, k.view.y, p.plSel-1)
+	p.plCacheRep, p.plCacheSess, p.plCacheN, p.plCacheKey = k.view.report, k.sess, len(k.sess.Readings), p.keyNow(k)
+	p.plStale = false
+}
+
+// forReport is the plots of the open session's report: the screen's
+// drawing when it is of this report (a tapped reading is then drawn too
+// when the plots are thinned), otherwise drawn from the pairs fitcore was
+// given.
+func (p *plotsUI) forReport(k *controller) *plSet {
+	if k.view.report == nil {
+		return nil
+	}
+	if p.plCacheRep == k.view.report && p.plCacheSess == k.sess && p.plCacheN == len(k.sess.Readings) && !p.plStale {
+		return &p.plCache
+	}
+	ps := plDraw(k.sess, k.view.report, k.view.rows, k.view.x, k.view.y, -1)
+	return &ps
 }
 
 // plotTapPx is how far from a point, in CSS pixels, a tap still finds it:
@@ -403,29 +418,18 @@ func (ps plSet) plRing(testID string, row int) string {
 // selected and what its panel shows (pointView).
 func (c *Shell) renderPlots() app.UI {
 	if c.ctl.sess == nil || c.ctl.view.report == nil {
-		return &plotsCard{Empty: true, Sel: -1, OnAction: c.plotAction}
+		return &plotsCard{Empty: true, Sel: -1, OnAction: sendTo(c.dispatch, c.applyPlot)}
 	}
-	if c.plSel > len(c.ctl.sess.Readings) {
-		c.plSel = 0
+	if c.pl.plSel > len(c.ctl.sess.Readings) {
+		c.pl.plSel = 0
 	}
-	card := &plotsCard{Plots: c.plots(), Level: c.ctl.view.report.Level, First: firstFlagged(c.ctl.view),
-		Rows: len(c.ctl.sess.Readings), Sel: c.plSel - 1, OnAction: c.plotAction}
-	card.Stale = c.plStale // plots() decides it
-	if c.plSel > 0 {
-		card.Panel = c.pointView(c.plSel - 1)
+	card := &plotsCard{Plots: c.pl.drawing(c.ctl), Level: c.ctl.view.report.Level, First: firstFlagged(c.ctl.view),
+		Rows: len(c.ctl.sess.Readings), Sel: c.pl.plSel - 1, OnAction: sendTo(c.dispatch, c.applyPlot)}
+	card.Stale = c.pl.plStale // plots() decides it
+	if c.pl.plSel > 0 {
+		card.Panel = c.pl.point(c.ctl, c.pl.plSel-1)
 	}
 	return card
-}
-
-// plotAction applies what the plots card asked for, on the Shell's own
-// context (the card's element may be gone by the time it runs). The reason
-// box keeps each key itself while the dispatch is on its way (typing.go).
-func (c *Shell) plotAction(a PlotAction) {
-	if c.ui.Src() == nil {
-		c.applyPlot(app.Context{}, a)
-		return
-	}
-	c.ui.Dispatch(func(ctx app.Context) { c.applyPlot(ctx, a) })
 }
 
 // applyPlot makes the change of a: the selection, the panel's place and
@@ -438,28 +442,28 @@ func (c *Shell) applyPlot(ctx app.Context, a PlotAction) {
 	}
 	inRange := a.Row >= 0 && a.Row < len(c.ctl.sess.Readings)
 	sel := func(row int) {
-		if c.plSel != row+1 {
-			c.plReason, c.plMsg = "", ""
+		if c.pl.plSel != row+1 {
+			c.pl.plReason, c.pl.plMsg = "", ""
 		}
-		c.plSel = row + 1
+		c.pl.plSel = row + 1
 	}
 	switch {
 	case a.Kind == paClose:
-		c.plSel = 0
+		c.pl.plSel = 0
 	case a.Kind == paReason:
-		if a.Row == c.plSel-1 {
-			c.plReason = a.Text
+		if a.Row == c.pl.plSel-1 {
+			c.pl.plReason = a.Text
 		}
 	case !inRange:
 	case a.Kind == paTap:
-		c.plAt = a.At
+		c.pl.plAt = a.At
 		sel(a.Row)
 	case a.Kind == paStep:
 		sel(a.Row)
 	case a.Kind == paExclude, a.Kind == paInclude:
-		reason := strings.TrimSpace(c.plReason)
+		reason := strings.TrimSpace(c.pl.plReason)
 		if a.Kind == paExclude && reason == "" {
-			c.plMsg = "Say why this reading is left out (for example “decimal point slipped”): the record has to show it."
+			c.pl.plMsg = "Say why this reading is left out (for example “decimal point slipped”): the record has to show it."
 			return
 		}
 		if c.refuseLocked() {
@@ -472,14 +476,14 @@ func (c *Shell) applyPlot(ctx app.Context, a PlotAction) {
 			err = c.ctl.include(a.Row)
 		}
 		if err != nil {
-			c.plMsg = err.Error()
+			c.pl.plMsg = err.Error()
 			return
 		}
 		if a.Kind == paExclude {
-			c.plReason = ""
+			c.pl.plReason = ""
 		}
-		c.plMsg = ""
-		c.afterChange(c.shellCtx(ctx))
+		c.pl.plMsg = ""
+		c.afterChange(shellCtx(c.ui, ctx))
 	}
 }
 
@@ -552,24 +556,24 @@ func firstFlagged(v analysis) int {
 // pointView is what the reading panel shows of session row row: its
 // cells and note, fitcore's figures for it (formatted, with a line of
 // plain meaning), its flag and reasons, and the reason typed so far.
-func (c *Shell) pointView(row int) pointPanel {
-	r := c.ctl.sess.Readings[row]
-	rep := c.ctl.view.report
+func (p *plotsUI) point(k *controller, row int) pointPanel {
+	r := k.sess.Readings[row]
+	rep := k.view.report
 	idx := -1
-	for i, rr := range c.ctl.view.rows {
+	for i, rr := range k.view.rows {
 		if rr == row {
 			idx = i
 			break
 		}
 	}
-	p := pointPanel{Row: row, Rows: len(c.ctl.sess.Readings),
-		XHead: colHead(c.ctl.sess.XName, c.ctl.sess.XUnit, "x"), YHead: colHead(c.ctl.sess.YName, c.ctl.sess.YUnit, "y"),
+	pp := pointPanel{Row: row, Rows: len(k.sess.Readings),
+		XHead: colHead(k.sess.XName, k.sess.XUnit, "x"), YHead: colHead(k.sess.YName, k.sess.YUnit, "y"),
 		X: r.X, Y: r.Y, Note: r.Note, Excluded: r.Excluded, Status: "Used in the line.",
-		Reason: c.plReason, Msg: c.plMsg, At: c.plAt}
+		Reason: p.plReason, Msg: p.plMsg, At: p.plAt}
 	if r.Excluded {
-		p.Status = "Left out of the line: " + r.ExcludeReason
+		pp.Status = "Left out of the line: " + r.ExcludeReason
 	} else if idx < 0 {
-		p.Status = "Not used: a cell is empty or not a number."
+		pp.Status = "Not used: a cell is empty or not a number."
 	}
 	// The plain figures show at once; the technical ones (studentized
 	// residual, leverage, Cook's distance) and fitcore's reasons stay
@@ -580,12 +584,12 @@ func (c *Shell) pointView(row int) pointPanel {
 		if scale != "" {
 			suffix = " (" + scale + " scale)"
 		}
-		p.Facts = append(p.Facts,
-			pointFact{"plot-point-fitted", "Fitted" + suffix, rep.Fitted[idx], numfmt.Sig(rep.Fitted[idx], numfmt.Precision(c.ctl.view.digits)), ""},
+		pp.Facts = append(pp.Facts,
+			pointFact{"plot-point-fitted", "Fitted" + suffix, rep.Fitted[idx], numfmt.Sig(rep.Fitted[idx], numfmt.Precision(k.view.digits)), ""},
 			pointFact{"plot-point-residual", "Residual" + suffix, rep.Residuals[idx], numfmt.Sig(rep.Residuals[idx], 3), ""})
 		for _, q := range rep.Influence {
 			if q.Index == idx {
-				p.More = append(p.More,
+				pp.More = append(pp.More,
 					pointFact{"plot-point-studentized", "Studentized residual", q.Studentized, numfmt.Sig(q.Studentized, 3),
 						"The residual in units of the scatter of the other readings; beyond about ±3 is rare."},
 					pointFact{"plot-point-leverage", "Leverage", q.Leverage, numfmt.Sig(q.Leverage, 3),
@@ -593,18 +597,18 @@ func (c *Shell) pointView(row int) pointPanel {
 					pointFact{"plot-point-cooks", "Cook's distance", q.CooksD, numfmt.Sig(q.CooksD, 3),
 						"How far the line moves when this reading is left out."})
 				if q.Flagged {
-					p.Reasons, p.Flagged = q.Reasons, true
+					pp.Reasons, pp.Flagged = q.Reasons, true
 				}
 			}
 		}
 		if sl := rep.Slip; sl != nil && sl.Index == idx {
-			p.Slip = "It looks like a slipped decimal point: " + r.Y + " where the line expects about " + numfmt.Short(sl.Expected, 4) + "."
+			pp.Slip = "It looks like a slipped decimal point: " + r.Y + " where the line expects about " + numfmt.Short(sl.Expected, 4) + "."
 		}
 	}
-	if p.At.h <= 0 {
-		p.At = placePanel(app.Null(), 0)
+	if pp.At.h <= 0 {
+		pp.At = placePanel(app.Null(), 0)
 	}
-	return p
+	return pp
 }
 
 // panelPlace is where the reading panel floats: at the top of the screen
@@ -663,12 +667,12 @@ func placePanel(canvas app.Value, tapY float64) panelPlace {
 	}
 }
 
-// shellCtx returns the Shell's own context when it has one: work that
+// shellCtx returns the Shell's own context ui when it has one: work that
 // afterChange schedules for later must not hang on the element that was tapped,
 // which the new render may remove (go-app then drops the work).
-func (c *Shell) shellCtx(ctx app.Context) app.Context {
-	if c.ui.Src() != nil {
-		return c.ui
+func shellCtx(ui, ctx app.Context) app.Context {
+	if ui.Src() != nil {
+		return ui
 	}
 	return ctx
 }

@@ -31,9 +31,9 @@ func plotsShell(t *testing.T) *Shell {
 // left-out reading; a refusal as an alert.
 func TestPlotsCardRender(t *testing.T) {
 	c := plotsShell(t)
-	ps := c.plots()
+	ps := c.pl.drawing(c.ctl)
 	row := demo.MistypedRow
-	panel := c.pointView(row)
+	panel := c.pl.point(c.ctl, row)
 	if !panel.Flagged || len(panel.More) != 3 {
 		t.Fatalf("the mistyped reading's panel is not flagged with its figures: %+v", panel)
 	}
@@ -119,7 +119,7 @@ func TestPointViewIsFitcores(t *testing.T) {
 	c := plotsShell(t)
 	rep, rows := c.ctl.view.report, c.ctl.view.rows
 	for i, row := range rows {
-		p := c.pointView(row)
+		p := c.pl.point(c.ctl, row)
 		if p.Row != row || p.X != c.ctl.sess.Readings[row].X || p.Y != c.ctl.sess.Readings[row].Y || p.Status != "Used in the line." {
 			t.Fatalf("row %d: panel %+v", row, p)
 		}
@@ -142,9 +142,9 @@ func TestPointViewIsFitcores(t *testing.T) {
 		}
 	}
 	c.ctl.sess.Readings[0].Y = "not a number"
-	c.plReason, c.plMsg = "invented reason", "invented refusal"
+	c.pl.plReason, c.pl.plMsg = "invented reason", "invented refusal"
 	c.ctl.changed()
-	p := c.pointView(0)
+	p := c.pl.point(c.ctl, 0)
 	if p.Status != "Not used: a cell is empty or not a number." || len(p.Facts) != 0 || p.Reason != "invented reason" || p.Msg != "invented refusal" {
 		t.Errorf("a reading not used: %+v", p)
 	}
@@ -165,8 +165,8 @@ func TestApplyPlot(t *testing.T) {
 		check func() string
 	}{
 		{"tap", PlotAction{Kind: paTap, Row: row, At: at}, func() string {
-			if c.plSel != row+1 || c.plAt != at {
-				return "not selected where tapped: " + strconv.Itoa(c.plSel)
+			if c.pl.plSel != row+1 || c.pl.plAt != at {
+				return "not selected where tapped: " + strconv.Itoa(c.pl.plSel)
 			}
 			card := c.renderPlots().(*plotsCard)
 			if card.Sel != row || card.Panel.Row != row || card.Panel.At != at || card.Empty {
@@ -178,38 +178,38 @@ func TestApplyPlot(t *testing.T) {
 			return ""
 		}},
 		{"tap outside", PlotAction{Kind: paTap, Row: n, At: panelPlace{}}, func() string {
-			if c.plSel != row+1 || c.plAt != at {
+			if c.pl.plSel != row+1 || c.pl.plAt != at {
 				return "a tap past the last reading changed the selection"
 			}
 			return ""
 		}},
 		{"reason cleared", PlotAction{Kind: paReason, Row: row, Text: ""}, func() string {
-			if c.plReason != "" {
-				return "the reason is " + c.plReason
+			if c.pl.plReason != "" {
+				return "the reason is " + c.pl.plReason
 			}
 			return ""
 		}},
 		{"exclude without a reason", PlotAction{Kind: paExclude, Row: row}, func() string {
-			if c.ctl.sess.Readings[row].Excluded || !strings.Contains(c.plMsg, "Say why") {
-				return "left out without a reason, or not said why not: " + c.plMsg
+			if c.ctl.sess.Readings[row].Excluded || !strings.Contains(c.pl.plMsg, "Say why") {
+				return "left out without a reason, or not said why not: " + c.pl.plMsg
 			}
 			return ""
 		}},
 		{"reason for another reading", PlotAction{Kind: paReason, Row: row + 1, Text: "wrong reading"}, func() string {
-			if c.plReason != "" {
+			if c.pl.plReason != "" {
 				return "a reason typed for another reading was kept"
 			}
 			return ""
 		}},
 		{"reason", PlotAction{Kind: paReason, Row: row, Text: "invented: decimal point slipped"}, func() string {
-			if c.plReason != "invented: decimal point slipped" || c.renderPlots().(*plotsCard).Panel.Reason != c.plReason {
+			if c.pl.plReason != "invented: decimal point slipped" || c.renderPlots().(*plotsCard).Panel.Reason != c.pl.plReason {
 				return "the reason was not kept for the panel"
 			}
 			return ""
 		}},
 		{"exclude", PlotAction{Kind: paExclude, Row: row}, func() string {
 			rd := c.ctl.sess.Readings[row]
-			if !rd.Excluded || rd.ExcludeReason != "invented: decimal point slipped" || c.plReason != "" || c.plMsg != "" {
+			if !rd.Excluded || rd.ExcludeReason != "invented: decimal point slipped" || c.pl.plReason != "" || c.pl.plMsg != "" {
 				return "not left out with its reason"
 			}
 			if c.ctl.view.report.N != n-1 || len(c.ctl.unStack) == 0 {
@@ -224,26 +224,26 @@ func TestApplyPlot(t *testing.T) {
 			return ""
 		}},
 		{"step back", PlotAction{Kind: paStep, Row: row - 1}, func() string {
-			if c.plSel != row || c.plAt != at {
+			if c.pl.plSel != row || c.pl.plAt != at {
 				return "not stepped back, or the panel moved"
 			}
 			return ""
 		}},
 		{"step past the start", PlotAction{Kind: paStep, Row: -1}, func() string {
-			if c.plSel != row {
+			if c.pl.plSel != row {
 				return "stepped before the first reading"
 			}
 			return ""
 		}},
 		{"close", PlotAction{Kind: paClose}, func() string {
-			if c.plSel != 0 || c.renderPlots().(*plotsCard).Sel != -1 {
+			if c.pl.plSel != 0 || c.renderPlots().(*plotsCard).Sel != -1 {
 				return "the panel is still open"
 			}
 			return ""
 		}},
 	}
 	for _, tt := range tests {
-		c.plotAction(tt.a)
+		c.renderPlots().(*plotsCard).OnAction(tt.a)
 		if msg := tt.check(); msg != "" {
 			t.Errorf("%s: %s", tt.name, msg)
 		}

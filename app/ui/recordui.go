@@ -53,11 +53,7 @@ func (c *Shell) recordAction(a RecordAction) {
 		c.afterChange(ctx)
 		c.lookUpLast()
 	}
-	if c.ui.Src() == nil {
-		apply(app.Context{})
-		return
-	}
-	c.ui.Dispatch(apply)
+	c.dispatch(apply)
 }
 
 type uiError string

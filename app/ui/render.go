@@ -44,7 +44,7 @@ func (c *Shell) Render() app.UI {
 				c.renderTransfer(),
 			)
 		}),
-		app.If(c.rpOpen && c.ctl.sess != nil, c.renderReport),
+		app.If(c.rp.rpOpen && c.ctl.sess != nil, c.renderReport),
 	)
 }
 

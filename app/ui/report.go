@@ -35,70 +35,56 @@ type reportUI struct {
 // table of 10,000 readings (DEVELOPERS.md, "Speed in the browser").
 const rpRowsAtOnce = 500
 
-// openReport builds the report from the open session and its report and
-// shows it.
-func (c *Shell) openReport(ctx app.Context, e app.Event) {
-	if c.ctl.sess == nil {
+// show builds the report from the controller's open session and report
+// and shows it (the plots drawn by pl when they are of that report).
+func (r *reportUI) show(ctx app.Context, k *controller, pl *plotsUI) {
+	if k.sess == nil {
 		return
 	}
-	c.rpOpen, c.rpMsg, c.rpAll, c.rpAt = true, "", false, time.Now()
-	c.rpBuild()
-	c.rpListenPrint()
+	r.rpOpen, r.rpMsg, r.rpAll, r.rpAt = true, "", false, time.Now()
+	r.build(k, pl)
+	r.listenPrint(k)
 	if ctx.Src() != nil {
 		ctx.Defer(func(ctx app.Context) { app.Window().Call("scrollTo", 0, 0) })
 	}
 }
 
-// rpBuild builds the report's markup for the screen from the open session,
+// build builds the report's markup for the screen from the open session,
 // with the plots the screen has drawn when they are of the same report.
-func (c *Shell) rpBuild() {
+func (r *reportUI) build(k *controller, pl *plotsUI) {
 	v := rpView{shown: rpRowsAtOnce}
-	if c.rpAll {
+	if r.rpAll {
 		v.shown = -1
 	}
-	v.plots = c.rpPlots()
-	counts := c.ctl.pairs.Count(c.ctl.sess)
+	v.plots = pl.forReport(k)
+	counts := k.pairs.Count(k.sess)
 	v.counts = &counts
-	c.rpHTML = rpBodyView(c.ctl.sess, c.ctl.view.report, c.ctl.view.rows, c.ctl.view.message, c.rpAt, v)
-	c.rpFor = c.ctl.view.report
+	r.rpHTML = rpBodyView(k.sess, k.view.report, k.view.rows, k.view.message, r.rpAt, v)
+	r.rpFor = k.view.report
 }
 
-// rpPlots is the plots of the open session's report: the screen's drawing
-// when it is of this report (a tapped reading is then drawn too when the
-// plots are thinned), otherwise drawn from the pairs fitcore was given.
-func (c *Shell) rpPlots() *plSet {
-	if c.ctl.view.report == nil {
-		return nil
-	}
-	if c.plCacheRep == c.ctl.view.report && c.plCacheSess == c.ctl.sess && c.plCacheN == len(c.ctl.sess.Readings) && !c.plStale {
-		return &c.plCache
-	}
-	ps := plDraw(c.ctl.sess, c.ctl.view.report, c.ctl.view.rows, c.ctl.view.x, c.ctl.view.y, -1)
-	return &ps
-}
-
-// rpListenPrint makes every print of the page (the report's button, the
+// listenPrint makes every print of the page (the report's button, the
 // browser's menu or keys) list every reading: the browser's beforeprint
 // event comes before the page is laid out for paper, and the listener
 // writes the readings the screen has not listed yet into the report.
 // Registered once; natively (prerendering) there is no page.
-func (c *Shell) rpListenPrint() {
-	if c.rpPrintHook != nil || !app.Window().Get("document").Truthy() {
+func (r *reportUI) listenPrint(k *controller) {
+	if r.rpPrintHook != nil || !app.Window().Get("document").Truthy() {
 		return
 	}
-	c.rpPrintHook = app.FuncOf(func(this app.Value, args []app.Value) any {
-		c.rpFillRest()
+	r.rpPrintHook = app.FuncOf(func(this app.Value, args []app.Value) any {
+		r.fillRest(k)
 		return nil
 	})
-	app.Window().Call("addEventListener", "beforeprint", c.rpPrintHook)
+	app.Window().Call("addEventListener", "beforeprint", r.rpPrintHook)
 }
 
-// rpFillRest writes the readings the screen's report left out into its
+// fillRest writes the readings the screen's report left out into its
 // placeholder (data-from: the first session row not listed) and takes away
 // the "show all" note. It changes only the inside of the report's markup,
 // which go-app replaces as a whole when the report is built again.
-func (c *Shell) rpFillRest() {
-	if !c.rpOpen || c.ctl.sess == nil {
+func (r *reportUI) fillRest(k *controller) {
+	if !r.rpOpen || k.sess == nil {
 		return
 	}
 	doc := app.Window().Get("document")
@@ -111,9 +97,9 @@ func (c *Shell) rpFillRest() {
 		return
 	}
 	var b rpB
-	rpReadingRows(&b, c.ctl.sess, c.ctl.view.report, c.ctl.view.rows, from, len(c.ctl.sess.Readings))
+	rpReadingRows(&b, k.sess, k.view.report, k.view.rows, from, len(k.sess.Readings))
 	rest.Set("innerHTML", b.String())
-	rest.Get("dataset").Set("from", strconv.Itoa(len(c.ctl.sess.Readings)))
+	rest.Get("dataset").Set("from", strconv.Itoa(len(k.sess.Readings)))
 	if more := doc.Call("querySelector", `[data-testid="report-readings-more"]`); more.Truthy() {
 		more.Call("remove")
 	}
@@ -123,41 +109,33 @@ func (c *Shell) rpFillRest() {
 // report's markup, built from the open session and fitcore's report, and
 // the line of status under its buttons.
 func (c *Shell) renderReport() app.UI {
-	if c.ctl.sess != nil && c.rpFor != c.ctl.view.report {
+	if c.ctl.sess != nil && c.rp.rpFor != c.ctl.view.report {
 		// The session changed under an open report (another tab, a late
 		// analysis): show the current state.
-		c.rpAt = time.Now()
-		c.rpBuild()
+		c.rp.rpAt = time.Now()
+		c.rp.build(c.ctl, &c.pl)
 	}
-	return &reportDialog{Body: c.rpHTML, Msg: c.rpMsg, OnAction: c.reportAction}
+	return &reportDialog{Body: c.rp.rpHTML, Msg: c.rp.rpMsg, OnAction: sendTo(c.dispatch, func(ctx app.Context, a ReportAction) {
+		c.rp.apply(ctx, c.ctl, &c.pl, a)
+	})}
 }
 
-// reportAction applies what the report dialog asked for, on the Shell's
-// own context (the dialog may be gone by the time it runs).
-func (c *Shell) reportAction(a ReportAction) {
-	if c.ui.Src() == nil {
-		c.applyReport(app.Context{}, a)
-		return
-	}
-	c.ui.Dispatch(func(ctx app.Context) { c.applyReport(ctx, a) })
-}
-
-// applyReport makes the change of a: printing uses web/report.css's
-// @media print rules (only the report is printed); saving downloads the
-// report file; closing hides the dialog.
-func (c *Shell) applyReport(ctx app.Context, a ReportAction) {
+// apply makes the change of a: printing uses web/report.css's @media print
+// rules (only the report is printed); saving downloads the report file;
+// closing hides the dialog.
+func (r *reportUI) apply(ctx app.Context, k *controller, pl *plotsUI, a ReportAction) {
 	switch a.Kind {
 	case rdPrint:
 		if ctx.Src() != nil {
 			app.Window().Call("print")
 		}
 	case rdSaveHTML:
-		c.saveReportHTML()
+		r.saveHTML(k, pl)
 	case rdShowAll:
-		c.rpAll = true
-		c.rpBuild()
+		r.rpAll = true
+		r.build(k, pl)
 	case rdClose:
-		c.rpOpen = false
+		r.rpOpen = false
 	}
 }
 
@@ -171,21 +149,21 @@ func rpFile(s *session.Session, body string) string {
 		body + "\n</body></html>\n"
 }
 
-// saveReportHTML downloads the report file.
-func (c *Shell) saveReportHTML() {
-	if c.ctl.sess == nil {
+// saveHTML downloads the report file.
+func (r *reportUI) saveHTML(k *controller, pl *plotsUI) {
+	if k.sess == nil {
 		return
 	}
-	body := c.rpHTML
-	if !c.rpAll && len(c.ctl.sess.Readings) > rpRowsAtOnce {
+	body := r.rpHTML
+	if !r.rpAll && len(k.sess.Readings) > rpRowsAtOnce {
 		// The screen lists the first readings only; the file lists every one.
-		counts := c.ctl.pairs.Count(c.ctl.sess)
-		body = rpBodyView(c.ctl.sess, c.ctl.view.report, c.ctl.view.rows, c.ctl.view.message, c.rpAt, rpView{shown: -1, plots: c.rpPlots(), counts: &counts})
+		counts := k.pairs.Count(k.sess)
+		body = rpBodyView(k.sess, k.view.report, k.view.rows, k.view.message, r.rpAt, rpView{shown: -1, plots: pl.forReport(k), counts: &counts})
 	}
-	file := rpFile(c.ctl.sess, body)
-	name := fileBase(c.ctl.sess.Title) + " report.html"
+	file := rpFile(k.sess, body)
+	name := fileBase(k.sess.Title) + " report.html"
 	download(name, "text/html;charset=utf-8", []byte(file))
-	c.rpMsg = "Saved “" + name + "” to your downloads."
+	r.rpMsg = "Saved “" + name + "” to your downloads."
 }
 
 // rpEsc escapes text for the report's HTML. Text from the session comes

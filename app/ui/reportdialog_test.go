@@ -70,12 +70,12 @@ func TestReportDialogActs(t *testing.T) {
 // changed under the open report.
 func TestApplyReport(t *testing.T) {
 	c := cardsShell(t)
-	c.openReport(app.Context{}, app.Event{})
-	if !c.rpOpen || c.rpFor != c.ctl.view.report || !strings.Contains(c.rpHTML, `data-testid="report"`) {
-		t.Fatalf("the report did not open from the analysis (open %v)", c.rpOpen)
+	c.rp.show(app.Context{}, c.ctl, &c.pl)
+	if !c.rp.rpOpen || c.rp.rpFor != c.ctl.view.report || !strings.Contains(c.rp.rpHTML, `data-testid="report"`) {
+		t.Fatalf("the report did not open from the analysis (open %v)", c.rp.rpOpen)
 	}
 	d, ok := c.renderReport().(*reportDialog)
-	if !ok || d.Body != c.rpHTML || d.Msg != "" || d.OnAction == nil {
+	if !ok || d.Body != c.rp.rpHTML || d.Msg != "" || d.OnAction == nil {
 		t.Fatalf("the dialog was not given the report: %#v", d)
 	}
 	tests := []struct {
@@ -84,48 +84,48 @@ func TestApplyReport(t *testing.T) {
 		check func() string
 	}{
 		{"print natively does nothing", ReportAction{Kind: rdPrint}, func() string {
-			if !c.rpOpen || c.rpMsg != "" {
+			if !c.rp.rpOpen || c.rp.rpMsg != "" {
 				return "printing changed the dialog"
 			}
 			return ""
 		}},
 		{"save", ReportAction{Kind: rdSaveHTML}, func() string {
-			if want := "Saved “" + fileBase(c.ctl.sess.Title) + " report.html” to your downloads."; c.rpMsg != want {
-				return "message " + c.rpMsg + ", want " + want
+			if want := "Saved “" + fileBase(c.ctl.sess.Title) + " report.html” to your downloads."; c.rp.rpMsg != want {
+				return "message " + c.rp.rpMsg + ", want " + want
 			}
-			if d := c.renderReport().(*reportDialog); d.Msg != c.rpMsg {
+			if d := c.renderReport().(*reportDialog); d.Msg != c.rp.rpMsg {
 				return "the dialog does not show the message"
 			}
 			return ""
 		}},
 		{"unknown kind", ReportAction{Kind: "no-such"}, func() string {
-			if !c.rpOpen {
+			if !c.rp.rpOpen {
 				return "an unknown action closed the report"
 			}
 			return ""
 		}},
 		{"close", ReportAction{Kind: rdClose}, func() string {
-			if c.rpOpen {
+			if c.rp.rpOpen {
 				return "the report is still open"
 			}
 			return ""
 		}},
 	}
 	for _, tt := range tests {
-		c.reportAction(tt.a)
+		c.renderReport().(*reportDialog).OnAction(tt.a)
 		if msg := tt.check(); msg != "" {
 			t.Errorf("%s: %s", tt.name, msg)
 		}
 	}
 
 	// A change under an open report: the dialog shows the new figures.
-	c.openReport(app.Context{}, app.Event{})
-	old := c.rpHTML
+	c.rp.show(app.Context{}, c.ctl, &c.pl)
+	old := c.rp.rpHTML
 	if err := c.ctl.setCell(0, session.ColumnY, "2.5"); err != nil {
 		t.Fatal(err)
 	}
 	d = c.renderReport().(*reportDialog)
-	if c.rpFor != c.ctl.view.report || d.Body == old || !strings.Contains(d.Body, c.ctl.sess.Readings[0].Y) {
+	if c.rp.rpFor != c.ctl.view.report || d.Body == old || !strings.Contains(d.Body, c.ctl.sess.Readings[0].Y) {
 		t.Error("the dialog kept the report of before the change")
 	}
 }
@@ -142,12 +142,12 @@ func TestApplyReportShowAll(t *testing.T) {
 		s.AddRow(strconv.Itoa(i+1), strconv.FormatFloat(2*float64(i+1)+0.1*float64(i%7), 'f', 1, 64), t0)
 	}
 	c := propShell(t, s)
-	c.openReport(app.Context{}, app.Event{})
-	if !strings.Contains(c.rpHTML, `data-testid="report-readings-all"`) {
+	c.rp.show(app.Context{}, c.ctl, &c.pl)
+	if !strings.Contains(c.rp.rpHTML, `data-testid="report-readings-all"`) {
 		t.Fatal("a long session's report offers no show all")
 	}
-	c.applyReport(app.Context{}, ReportAction{Kind: rdShowAll})
-	if !c.rpAll || strings.Contains(c.rpHTML, `data-testid="report-readings-all"`) {
-		t.Errorf("after show all: rpAll %v, the button still there: %v", c.rpAll, strings.Contains(c.rpHTML, `data-testid="report-readings-all"`))
+	c.rp.apply(app.Context{}, c.ctl, &c.pl, ReportAction{Kind: rdShowAll})
+	if !c.rp.rpAll || strings.Contains(c.rp.rpHTML, `data-testid="report-readings-all"`) {
+		t.Errorf("after show all: rpAll %v, the button still there: %v", c.rp.rpAll, strings.Contains(c.rp.rpHTML, `data-testid="report-readings-all"`))
 	}
 }

@@ -28,18 +28,8 @@ func (c *Shell) renderSessions() app.UI {
 		Sessions: shown, Older: len(c.ctl.sessions) - len(shown), Due: due, OpenID: open,
 		Renaming: c.renaming, RenameText: c.renameText, ConfirmDel: c.confirmDel,
 		TrashOpen: c.trash.open, Trash: append([]store.Summary(nil), c.trash.items...),
-		OnAction: c.listAction,
+		OnAction: sendTo(c.dispatch, c.applyList),
 	}
-}
-
-// listAction applies what the list asked for, on the Shell's own context
-// (the list's element may be gone by the time it runs).
-func (c *Shell) listAction(a ListAction) {
-	if c.ui.Src() == nil {
-		c.applyList(app.Context{}, a)
-		return
-	}
-	c.ui.Dispatch(func(ctx app.Context) { c.applyList(ctx, a) })
 }
 
 // applyList makes the change of a: the questions, the paging and the trash

@@ -67,7 +67,11 @@ type Shell struct {
 
 	tpl criteriaTemplates // the criteria templates on the device (acceptance.go)
 
-	fieldUI // plots, report, theme and demo (theme.go)
+	fieldUI // the demo and the typing in the grid (theme.go)
+
+	pl plotsUI // the plots: the reading selected, the drawing kept (plots.go)
+
+	rp reportUI // the report dialog (report.go)
 
 	recordUI // the record cards: identity, standards, unknowns, sign-off (recordui.go)
 
@@ -81,7 +85,7 @@ func newShell() *Shell {
 	c := &Shell{ctl: newController(nil)}
 	c.ctl.queries = func(o *fitcore.Options, x []float64) {
 		c.anQueries(o, x)
-		c.plotQueries(o, x)
+		plotQueries(o, x)
 	}
 	c.ctl.held = func() bool { return c.tabs.held(c.ctl.sess) }
 	return c

@@ -7,8 +7,6 @@ import (
 // fieldUI is the state of the parts made for work in the field: the plots,
 // the report, the demo and the typing in the grid. It is embedded in Shell.
 type fieldUI struct {
-	plotsUI
-	reportUI
 	demoUI
 	entryUI
 }
@@ -73,7 +71,7 @@ func (c *Shell) renderTools() app.UI {
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Try the demo").DataSet("testid", "demo-open").
 			Attr("title", "Adds four invented sessions of a fictional water board").OnClick(c.loadDemo),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Report").DataSet("testid", "report-open").
-			Disabled(c.ctl.sess == nil).OnClick(c.openReport),
+			Disabled(c.ctl.sess == nil).OnClick(func(ctx app.Context, e app.Event) { c.rp.show(ctx, c.ctl, &c.pl) }),
 		c.renderUndo(),
 		c.net.render(),
 		app.Label().Class("pl-theme").Body(

@@ -149,11 +149,7 @@ func (c *Shell) fileAction(a FileAction) {
 			c.say(exportResults(c.ctl.sess, c.ctl.view.report))
 		}
 	}
-	if c.ui.Src() == nil {
-		apply(app.Context{})
-		return
-	}
-	c.ui.Dispatch(apply)
+	c.dispatch(apply)
 }
 
 // filesCard draws the card for files: import, export, share, storage.

@@ -186,7 +186,7 @@ func (c *Shell) undoRedoShown(ctx app.Context, back bool) {
 		return
 	}
 	c.anFieldErr = nil
-	c.plSel = 0
+	c.pl.plSel = 0
 	c.afterChange(ctx)
 	c.resyncInputs()
 }
