@@ -148,18 +148,18 @@ var criteriaFields = []struct {
 }
 
 // renderAcceptance hands the criteria card its data. The texts of its
-// number fields are noted for anResync.
+// number fields are noted for analysisUI.resync.
 func (c *Shell) renderAcceptance() app.UI {
 	k := c.ctl.criteria()
-	if c.anFieldVals == nil {
-		c.anFieldVals = map[string]string{}
+	if c.an.anFieldVals == nil {
+		c.an.anFieldVals = map[string]string{}
 	}
 	for _, f := range criteriaFields {
-		c.anFieldVals["acceptance_"+f.name] = anOptText(*f.get(&k))
+		c.an.anFieldVals["acceptance_"+f.name] = anOptText(*f.get(&k))
 	}
 	card := &criteriaCard{
 		Criteria: k, Set: c.ctl.sess.Settings.Acceptance != nil, HasLine: c.ctl.view.report != nil, Message: c.ctl.view.message,
-		YUnit: c.ctl.sess.YUnit, FieldErr: c.anFieldErr,
+		YUnit: c.ctl.sess.YUnit, FieldErr: c.an.anFieldErr,
 		Templates: c.tpl.list, TplName: c.tpl.name, TplMsg: c.tpl.msg, TplConfirm: c.tpl.confirm,
 		OnAction: c.cardAction,
 	}
@@ -183,7 +183,7 @@ func (c *Shell) applyCriteria(ctx app.Context, a CardAction) {
 	case caTplUse:
 		// A template's criteria are the session's through the controller.
 		if k, ok := c.tpl.use(a.Key); ok {
-			c.anFieldErr = nil
+			c.an.anFieldErr = nil
 			c.anSetCriteria(ctx, k)
 		}
 	default:
@@ -209,12 +209,12 @@ func criterionLimit(key string, v *float64) string {
 // controller; a reason beside the field otherwise.
 func (c *Shell) applyCriterion(ctx app.Context, key, text string) {
 	field := "acceptance_" + key
-	v, ok := c.anOptional(field, text)
+	v, ok := c.an.optional(c.ctl.sess, field, text)
 	if !ok {
 		return
 	}
 	if why := criterionLimit(key, v); why != "" {
-		c.anFieldErr[field] = why
+		c.an.anFieldErr[field] = why
 		return
 	}
 	kk := c.ctl.criteria()

@@ -64,7 +64,7 @@ func (c *Shell) renderAdvice() app.UI {
 	return &adviceCard{
 		Report: c.ctl.view.report, Applied: anApplied(s.Settings), Pending: c.ctl.view.advicePending, Digits: c.ctl.view.digits,
 		XName: s.XName, XUnit: s.XUnit, YName: s.YName, YUnit: s.YUnit,
-		LineFrom: len(c.anPredX), LineN: len(c.anLineX), OnAction: c.cardAction,
+		LineFrom: len(c.an.anPredX), LineN: len(c.an.anLineX), OnAction: c.cardAction,
 	}
 }
 
@@ -83,7 +83,7 @@ type adviceCard struct {
 
 	// LineFrom and LineN are where the predictions of the "line in
 	// original units" table sit in Report.Predictions (after the use
-	// card's own, anQueries).
+	// card's own, analysisUI.queries).
 	LineFrom, LineN int
 
 	OnAction func(CardAction)

@@ -27,7 +27,7 @@ func TestSplitReadings(t *testing.T) {
 		{"−2.5", []float64{-2.5}, ""},
 	}
 	for _, k := range cases {
-		got, problem := c.anSplitReadings(k.in)
+		got, problem := splitReadings(c.ctl.sess, k.in)
 		if k.problem != "" {
 			if !strings.Contains(problem, k.problem) {
 				t.Errorf("%q: problem %q, want it to name %q", k.in, problem, k.problem)
@@ -54,7 +54,7 @@ func FuzzSplitReadings(f *testing.F) {
 	}
 	c := newShell()
 	f.Fuzz(func(t *testing.T, s string) {
-		got, problem := c.anSplitReadings(s)
+		got, problem := splitReadings(c.ctl.sess, s)
 		if problem != "" && got != nil {
 			t.Fatalf("%q: both numbers %v and a problem %q", s, got, problem)
 		}
@@ -144,14 +144,14 @@ func TestNumberTexts(t *testing.T) {
 // the readings for the line in original units.
 func TestQueries(t *testing.T) {
 	c := newShell()
-	c.anInvY, c.anPredX = []float64{2, 3}, []float64{7}
+	c.an.anInvY, c.an.anPredX = []float64{2, 3}, []float64{7}
 	var o fitcore.Options
-	c.anQueries(&o, []float64{1, 5, 3})
-	if len(o.Inverse) != 1 || len(o.Inverse[0].Y) != 2 || len(o.PredictX) != 1 || len(c.anLineX) != 0 {
-		t.Fatalf("untransformed: %+v, line x %v", o, c.anLineX)
+	c.an.queries(&o, []float64{1, 5, 3})
+	if len(o.Inverse) != 1 || len(o.Inverse[0].Y) != 2 || len(o.PredictX) != 1 || len(c.an.anLineX) != 0 {
+		t.Fatalf("untransformed: %+v, line x %v", o, c.an.anLineX)
 	}
 	o = fitcore.Options{Transform: fitcore.TransformLogY}
-	c.anQueries(&o, []float64{1, 5, 3})
+	c.an.queries(&o, []float64{1, 5, 3})
 	want := []float64{7, 1, 2, 3, 4, 5}
 	if len(o.PredictX) != len(want) {
 		t.Fatalf("PredictX = %v, want %v", o.PredictX, want)

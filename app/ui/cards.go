@@ -66,13 +66,13 @@ func (c *Shell) applyCard(ctx app.Context, a CardAction) {
 	switch a.Kind {
 	case caToggle:
 		if a.Key == "more-numbers" {
-			c.anMoreOpen = !c.anMoreOpen
+			c.an.anMoreOpen = !c.an.anMoreOpen
 			return
 		}
-		if c.anOpen == nil {
-			c.anOpen = map[string]bool{}
+		if c.an.anOpen == nil {
+			c.an.anOpen = map[string]bool{}
 		}
-		c.anOpen[a.Key] = !c.anOpen[a.Key]
+		c.an.anOpen[a.Key] = !c.an.anOpen[a.Key]
 	case caJump:
 		c.anJump(ctx, a.Row)
 	case caApplyAdvice:
@@ -90,7 +90,7 @@ func (c *Shell) applyCard(ctx app.Context, a CardAction) {
 		// The number fields show the criteria as stored (a refused text
 		// stays for correcting).
 		if ctx.Src() != nil {
-			ctx.Defer(func(app.Context) { c.anResync() })
+			ctx.Defer(func(app.Context) { c.an.resync(&c.tpl) })
 		}
 	}
 }

@@ -49,13 +49,13 @@ func TestApplyCard(t *testing.T) {
 			if c.ctl.sess.Settings.Acceptance != nil {
 				return "an R² of 2 was stored"
 			}
-			if !strings.Contains(c.anFieldErr["acceptance_min_r2"], "between 0 and 1") {
-				return "no reason beside the field: " + c.anFieldErr["acceptance_min_r2"]
+			if !strings.Contains(c.an.anFieldErr["acceptance_min_r2"], "between 0 and 1") {
+				return "no reason beside the field: " + c.an.anFieldErr["acceptance_min_r2"]
 			}
 			return ""
 		}},
 		{"criterion not a number", CardAction{Kind: caCriterion, Key: "max_residual", Text: "abc"}, func(c *Shell) string {
-			if c.ctl.sess.Settings.Acceptance != nil || c.anFieldErr["acceptance_max_residual"] == "" {
+			if c.ctl.sess.Settings.Acceptance != nil || c.an.anFieldErr["acceptance_max_residual"] == "" {
 				return "text that is no number was stored or not refused"
 			}
 			return ""
@@ -86,7 +86,7 @@ func TestApplyCard(t *testing.T) {
 			return ""
 		}},
 		{"level typed out of range", CardAction{Kind: caSettingField, Key: "settings_level", Text: "101"}, func(c *Shell) string {
-			if c.ctl.view.report.Level != fitcore.DefaultLevel || c.anFieldErr["settings_level"] == "" {
+			if c.ctl.view.report.Level != fitcore.DefaultLevel || c.an.anFieldErr["settings_level"] == "" {
 				return "a level of 101 % was stored or not refused"
 			}
 			return ""
@@ -98,13 +98,13 @@ func TestApplyCard(t *testing.T) {
 			return ""
 		}},
 		{"question to the line", CardAction{Kind: caQuery, Key: "predict", Text: "2.5"}, func(c *Shell) string {
-			if len(c.anPredX) != 1 || c.anPredX[0] != 2.5 || c.ctl.view.report.Predictions[0].X != 2.5 {
+			if len(c.an.anPredX) != 1 || c.an.anPredX[0] != 2.5 || c.ctl.view.report.Predictions[0].X != 2.5 {
 				return "no prediction at x = 2.5"
 			}
 			return ""
 		}},
 		{"disclosure", CardAction{Kind: caToggle, Key: "linearity"}, func(c *Shell) string {
-			if !c.anOpen["linearity"] {
+			if !c.an.anOpen["linearity"] {
 				return "the numbers of the linearity check are not shown"
 			}
 			return ""

@@ -40,7 +40,7 @@ func (c *Shell) renderChecks() app.UI {
 		return nil
 	}
 	return &checksCard{Report: c.ctl.view.report, Rows: c.ctl.view.rows, Digits: c.ctl.view.digits, Stale: c.ctl.view.stale,
-		Open: c.anOpen, OnAction: c.cardAction}
+		Open: c.an.anOpen, OnAction: c.cardAction}
 }
 
 // checksCard draws one row per assumption of the straight line, with its

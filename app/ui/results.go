@@ -14,7 +14,7 @@ import (
 func (c *Shell) renderLine() app.UI {
 	return &lineCard{
 		Report: c.ctl.view.report, Message: c.ctl.view.message, Digits: c.ctl.view.digits, Stale: c.ctl.view.stale,
-		XUnit: c.ctl.sess.XUnit, YUnit: c.ctl.sess.YUnit, MoreOpen: c.anMoreOpen, OnAction: c.cardAction,
+		XUnit: c.ctl.sess.XUnit, YUnit: c.ctl.sess.YUnit, MoreOpen: c.an.anMoreOpen, OnAction: c.cardAction,
 	}
 }
 

@@ -33,17 +33,17 @@ type analysisUI struct {
 	// anFieldVals is the text each number field was last rendered with,
 	// and anSeenSess the session the fields were last synced for: go-app
 	// leaves an input's text in place when its value becomes empty, so
-	// anResync writes the fields after a change (see resyncInputs).
+	// resync writes the fields after a change (see resyncInputs).
 	anFieldVals map[string]string
 	anSeenSess  string
 }
 
-// anResync writes each number field's rendered text into the page, except
+// resync writes each number field's rendered text into the page, except
 // for fields whose typed text was refused (the text stays for correcting).
-func (c *Shell) anResync() {
+func (an *analysisUI) resync(t *criteriaTemplates) {
 	doc := app.Window().Get("document")
-	for f, v := range c.anFieldVals {
-		if c.anFieldErr[f] != "" {
+	for f, v := range an.anFieldVals {
+		if an.anFieldErr[f] != "" {
 			continue
 		}
 		el := doc.Call("querySelector", `[data-an="field:`+f+`"]`)
@@ -51,40 +51,41 @@ func (c *Shell) anResync() {
 			el.Set("value", v)
 		}
 	}
-	if el := doc.Call("querySelector", `[data-testid="template-name"]`); el.Truthy() && el.Get("value").String() != c.tpl.name {
-		el.Set("value", c.tpl.name)
+	if el := doc.Call("querySelector", `[data-testid="template-name"]`); el.Truthy() && el.Get("value").String() != t.name {
+		el.Set("value", t.name)
 	}
 }
 
-// anSyncOnSwitch resyncs the fields once after another session was opened.
-func (c *Shell) anSyncOnSwitch() {
-	if c.ctl.sess == nil || c.ctl.sess.ID == c.anSeenSess {
+// syncOnSwitch resyncs the fields once after another session (open) was
+// opened.
+func (an *analysisUI) syncOnSwitch(open *session.Session, t *criteriaTemplates) {
+	if open == nil || open.ID == an.anSeenSess {
 		return
 	}
-	first := c.anSeenSess == ""
-	c.anSeenSess = c.ctl.sess.ID
-	c.anFieldErr = nil
+	first := an.anSeenSess == ""
+	an.anSeenSess = open.ID
+	an.anFieldErr = nil
 	if first {
 		return
 	}
 	var fn app.Func
 	fn = app.FuncOf(func(this app.Value, args []app.Value) any {
-		c.anResync()
+		an.resync(t)
 		fn.Release()
 		return nil
 	})
 	app.Window().Call("setTimeout", fn, 0)
 }
 
-// anQueries adds the questions of "Use the line" and, on a transformed
+// queries adds the questions of "Use the line" and, on a transformed
 // scale, the x values of the original-units table to the options of the
 // one Analyze run of an edit. x are the usable readings.
-func (c *Shell) anQueries(o *fitcore.Options, x []float64) {
-	if len(c.anInvY) > 0 {
-		o.Inverse = []fitcore.InverseQuery{{Y: append([]float64(nil), c.anInvY...)}}
+func (an *analysisUI) queries(o *fitcore.Options, x []float64) {
+	if len(an.anInvY) > 0 {
+		o.Inverse = []fitcore.InverseQuery{{Y: append([]float64(nil), an.anInvY...)}}
 	}
-	o.PredictX = append([]float64(nil), c.anPredX...)
-	c.anLineX = nil
+	o.PredictX = append([]float64(nil), an.anPredX...)
+	an.anLineX = nil
 	if o.Transform != "" && o.Transform != fitcore.TransformNone && len(x) > 0 {
 		lo, hi := x[0], x[0]
 		for _, v := range x {
@@ -92,9 +93,9 @@ func (c *Shell) anQueries(o *fitcore.Options, x []float64) {
 		}
 		const k = 5
 		for i := range k {
-			c.anLineX = append(c.anLineX, lo+(hi-lo)*float64(i)/float64(k-1))
+			an.anLineX = append(an.anLineX, lo+(hi-lo)*float64(i)/float64(k-1))
 		}
-		o.PredictX = append(o.PredictX, c.anLineX...)
+		o.PredictX = append(o.PredictX, an.anLineX...)
 	}
 }
 
@@ -224,28 +225,29 @@ func settingsWithUncertainty(s session.Settings, x bool, p *float64) session.Set
 
 // anSettings returns a copy of the session's settings whose pointer fields
 // may be replaced (SetSettings copies what it keeps).
-func (c *Shell) anSettings() session.Settings { return c.ctl.sess.Settings }
 
-// anParse reads one number as the readings are read (decimal comma allowed).
-func (c *Shell) anParse(text string) (float64, error) {
-	if c.ctl.sess != nil && c.ctl.sess.DecimalComma != nil {
-		return session.ParseNumberHint(text, *c.ctl.sess.DecimalComma)
+// parseAs reads one number as the readings of s are read (decimal comma
+// allowed).
+func parseAs(s *session.Session, text string) (float64, error) {
+	if s != nil && s.DecimalComma != nil {
+		return session.ParseNumberHint(text, *s.DecimalComma)
 	}
 	return session.ParseNumber(text)
 }
 
-// anOptional parses an optional number: empty text gives nil.
-func (c *Shell) anOptional(field, text string) (*float64, bool) {
-	if c.anFieldErr == nil {
-		c.anFieldErr = map[string]string{}
+// optional parses an optional number for field as the readings of s are
+// read: empty text gives nil; a number refused says why in anFieldErr.
+func (an *analysisUI) optional(s *session.Session, field, text string) (*float64, bool) {
+	if an.anFieldErr == nil {
+		an.anFieldErr = map[string]string{}
 	}
-	delete(c.anFieldErr, field)
+	delete(an.anFieldErr, field)
 	if strings.TrimSpace(text) == "" {
 		return nil, true
 	}
-	v, err := c.anParse(text)
+	v, err := parseAs(s, text)
 	if err != nil {
-		c.anFieldErr[field] = "Not used: " + err.Error() + "."
+		an.anFieldErr[field] = "Not used: " + err.Error() + "."
 		return nil, false
 	}
 	return &v, true
@@ -288,9 +290,9 @@ var anLevels = []float64{0.90, 0.95, 0.99}
 
 // renderSettings hands the settings card its data: the settings as fitcore
 // reads them (weights imply a weighted model) and the text of each number
-// field shown, noted for anResync.
+// field shown, noted for analysisUI.resync.
 func (c *Shell) renderSettings() app.UI {
-	c.anSyncOnSwitch()
+	c.an.syncOnSwitch(c.ctl.sess, &c.tpl)
 	st := c.ctl.sess.Settings
 	model, tr := st.Model, st.Transform
 	if o, err := st.Options().Normalize(); err == nil {
@@ -315,7 +317,7 @@ func (c *Shell) renderSettings() app.UI {
 	shown := map[string]bool{
 		"settings_variance_ratio": model == fitcore.ModelDeming,
 		"settings_box_cox_lambda": tr == fitcore.TransformBoxCox,
-		"settings_level":          custom || c.anOtherOpen,
+		"settings_level":          custom || c.an.anOtherOpen,
 	}
 	fields := map[string]string{}
 	for _, f := range settingsFields {
@@ -323,16 +325,16 @@ func (c *Shell) renderSettings() app.UI {
 			fields[f.name] = f.text(st)
 		}
 	}
-	if c.anFieldVals == nil {
-		c.anFieldVals = map[string]string{}
+	if c.an.anFieldVals == nil {
+		c.an.anFieldVals = map[string]string{}
 	}
 	for f, v := range fields {
-		c.anFieldVals[f] = v
+		c.an.anFieldVals[f] = v
 	}
 	return &settingsCard{
-		Model: model, Transform: tr, Weights: st.Weights, Level: level, Custom: custom, OtherOpen: c.anOtherOpen,
+		Model: model, Transform: tr, Weights: st.Weights, Level: level, Custom: custom, OtherOpen: c.an.anOtherOpen,
 		XUncertain: st.XUncertainty > 0, XUnit: c.ctl.sess.XUnit, YUnit: c.ctl.sess.YUnit,
-		Fields: fields, FieldErr: c.anFieldErr, OnAction: c.cardAction,
+		Fields: fields, FieldErr: c.an.anFieldErr, OnAction: c.cardAction,
 	}
 }
 
@@ -341,7 +343,7 @@ func (c *Shell) renderSettings() app.UI {
 // number field (Key the field's name, Text as typed; parsed as the
 // readings are), stored through the controller (anSetSettings).
 func (c *Shell) applySetting(ctx app.Context, a CardAction) {
-	st := c.anSettings()
+	st := c.ctl.sess.Settings
 	if a.Kind == caSetting {
 		kind, v, _ := strings.Cut(a.Key, ":")
 		switch kind {
@@ -353,14 +355,14 @@ func (c *Shell) applySetting(ctx app.Context, a CardAction) {
 			c.anSetSettings(ctx, settingsWithTransform(st, fitcore.Transform(v)))
 		case "level":
 			if v == "other" {
-				c.anOtherOpen = true
+				c.an.anOtherOpen = true
 				return
 			}
 			l, err := strconv.ParseFloat(v, 64)
 			if err != nil {
 				return
 			}
-			c.anOtherOpen = false
+			c.an.anOtherOpen = false
 			c.anSetSettings(ctx, settingsWithLevel(st, l))
 		}
 		return
@@ -369,7 +371,7 @@ func (c *Shell) applySetting(ctx app.Context, a CardAction) {
 	if !ok {
 		return
 	}
-	p, ok := c.anOptional(a.Key, a.Text)
+	p, ok := c.an.optional(c.ctl.sess, a.Key, a.Text)
 	if !ok {
 		return
 	}
@@ -377,7 +379,7 @@ func (c *Shell) applySetting(ctx app.Context, a CardAction) {
 	switch {
 	case msg == errKeep:
 	case msg != "":
-		c.anFieldErr[a.Key] = msg
+		c.an.anFieldErr[a.Key] = msg
 	default:
 		c.anSetSettings(ctx, next)
 	}
@@ -567,7 +569,7 @@ func (r *settingsCard) Render() app.UI {
 
 // numberField is a labelled number input sent on change (Enter or leaving
 // the field) to h, which reads the field's name from data-field; the
-// data-an key lets anResync write the text as stored.
+// data-an key lets analysisUI.resync write the text as stored.
 func numberField(field, label, hint, value, problem string, h app.EventHandler) app.UI {
 	in := app.Input().Type("text").Class("an-input").Value(value).
 		Attr("inputmode", "decimal").Attr("autocomplete", "off").Attr("placeholder", hint).

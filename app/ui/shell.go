@@ -63,7 +63,7 @@ type Shell struct {
 
 	net netUI // network and install states (netstatus.go)
 
-	analysisUI // settings, checks, advice, use of the line, acceptance (settings.go)
+	an analysisUI // settings, checks, advice, use of the line, acceptance (settings.go)
 
 	tpl criteriaTemplates // the criteria templates on the device (acceptance.go)
 
@@ -84,7 +84,7 @@ type Shell struct {
 func newShell() *Shell {
 	c := &Shell{ctl: newController(nil)}
 	c.ctl.queries = func(o *fitcore.Options, x []float64) {
-		c.anQueries(o, x)
+		c.an.queries(o, x)
 		plotQueries(o, x)
 	}
 	c.ctl.held = func() bool { return c.tabs.held(c.ctl.sess) }
@@ -312,7 +312,7 @@ func (c *Shell) syncInputs() {
 	}
 	// The fields of the settings and criteria cards are known once this
 	// render has drawn them: an undone criterion must leave its box empty.
-	afterRender(c.anResync)
+	afterRender(func() { c.an.resync(&c.tpl) })
 }
 
 // adviceLater is the number of readings from which an edit's transform

@@ -185,7 +185,7 @@ func (c *Shell) undoRedoShown(ctx app.Context, back bool) {
 	if !c.ctl.undoRedo(back) {
 		return
 	}
-	c.anFieldErr = nil
+	c.an.anFieldErr = nil
 	c.pl.plSel = 0
 	c.afterChange(ctx)
 	c.resyncInputs()

@@ -63,7 +63,7 @@ func TestUndoRedoCriterion(t *testing.T) {
 	}
 	box := func() string {
 		c.renderAcceptance()
-		return c.anFieldVals["acceptance_min_r2"]
+		return c.an.anFieldVals["acceptance_min_r2"]
 	}
 	if box() != "0.9" || judged() != 1 {
 		t.Fatalf("criterion not in use: box %q", box())

@@ -11,15 +11,15 @@ import (
 	"pairline/fitcore"
 )
 
-// anSplitReadings splits typed repeat readings at spaces and semicolons
+// splitReadings splits typed repeat readings at spaces and semicolons
 // (tabs and new lines too; a comma stays inside a number as a decimal
-// comma) and parses each as the readings are parsed. The error names the
+// comma) and parses each as the readings of s are parsed. The error names the
 // reading, counted from 1.
-func (c *Shell) anSplitReadings(text string) ([]float64, string) {
+func splitReadings(s *session.Session, text string) ([]float64, string) {
 	fields := session.SplitRepeats(text)
 	out := make([]float64, 0, len(fields))
 	for i, f := range fields {
-		v, err := c.anParse(f)
+		v, err := parseAs(s, f)
 		if err != nil {
 			return nil, "Reading " + strconv.Itoa(i+1) + " is not used: " + err.Error() + "."
 		}
@@ -37,15 +37,15 @@ func (c *Shell) anRequery(ctx app.Context) {
 	if c.ctl.sess == nil {
 		return
 	}
-	run := func() { c.ctl.requery(c.anQueries) }
+	run := func() { c.ctl.requery(c.an.queries) }
 	if len(c.ctl.sess.Readings) < requeryLater {
 		run()
 		return
 	}
-	c.anReqSeq++ // never editSeq: that would cancel an edit's pending save
-	seq := c.anReqSeq
+	c.an.anReqSeq++ // never editSeq: that would cancel an edit's pending save
+	seq := c.an.anReqSeq
 	ctx.After(requeryIdle, func(ctx app.Context) {
-		if seq == c.anReqSeq {
+		if seq == c.an.anReqSeq {
 			run()
 		}
 	})
@@ -68,8 +68,8 @@ func (c *Shell) renderUseLine() app.UI {
 	return &useCard{
 		Report: c.ctl.view.report, Digits: c.ctl.view.digits,
 		XName: s.XName, XUnit: s.XUnit, YName: s.YName, YUnit: s.YUnit,
-		InvText: c.anInvText, InvErr: c.anInvErr, Inverse: len(c.anInvY) > 0,
-		PredText: c.anPredText, PredErr: c.anPredErr, Predict: len(c.anPredX),
+		InvText: c.an.anInvText, InvErr: c.an.anInvErr, Inverse: len(c.an.anInvY) > 0,
+		PredText: c.an.anPredText, PredErr: c.an.anPredErr, Predict: len(c.an.anPredX),
 		OnAction: c.cardAction,
 	}
 }
@@ -80,11 +80,11 @@ func (c *Shell) renderUseLine() app.UI {
 func (c *Shell) applyQuery(ctx app.Context, a CardAction) {
 	switch a.Key {
 	case "inverse":
-		c.anInvText = a.Text
-		c.anInvY, c.anInvErr = c.anSplitReadings(a.Text)
+		c.an.anInvText = a.Text
+		c.an.anInvY, c.an.anInvErr = splitReadings(c.ctl.sess, a.Text)
 	case "predict":
-		c.anPredText = a.Text
-		c.anPredX, c.anPredErr = c.anSplitReadings(a.Text)
+		c.an.anPredText = a.Text
+		c.an.anPredX, c.an.anPredErr = splitReadings(c.ctl.sess, a.Text)
 	default:
 		return
 	}
