@@ -14,7 +14,7 @@ import (
 // one row of x and y cells per reading, and the count of usable pairs.
 func (c *Shell) renderReadings() app.UI {
 	s := c.ctl.sess
-	nProblems := len(c.ctl.view.problems) - c.heldProblems()
+	nProblems := len(c.ctl.view.problems) - c.en.heldProblems(c.ctl)
 	lo, hi := c.pageRange()
 	return app.Section().Class("pl-card pl-readings").Attr("aria-label", "Readings").DataSet("testid", "readings-card").Body(
 		app.H2().Text("Readings"),
@@ -121,7 +121,7 @@ func (c *Shell) quantity(col, label, name, unit, nameField, unitField string) ap
 func (c *Shell) row(i int) app.UI {
 	r := c.ctl.sess.Readings[i]
 	yProblem := c.ctl.view.problems[cellKey{i, session.ColumnY}]
-	if c.heldY(i) {
+	if c.en.heldY(c.ctl, i) {
 		yProblem = ""
 	}
 	reason := ""
@@ -174,7 +174,7 @@ func (c *Shell) applyRow(ctx app.Context, a RowAction) {
 			return
 		}
 		if a.Kind == rwType {
-			c.enRow, c.enIn = a.Row, true // typing in it: the row is being entered
+			c.en.enRow, c.en.enIn = a.Row, true // typing in it: the row is being entered
 		}
 		if err := c.ctl.setCell(a.Row, a.Col, a.Text); err != nil {
 			if a.Kind == rwNote {
@@ -188,9 +188,9 @@ func (c *Shell) applyRow(ctx app.Context, a RowAction) {
 	case rwEnter:
 		c.enter(ctx, a.Row, a.Col)
 	case rwFocus:
-		c.enRow, c.enIn = a.Row, true
+		c.en.enRow, c.en.enIn = a.Row, true
 	case rwLeave:
-		c.enIn = false
+		c.en.enIn = false
 	}
 }
 
@@ -204,14 +204,14 @@ type entryUI struct {
 }
 
 // heldY: the y cell of row i is empty and waits for its turn.
-func (c *Shell) heldY(i int) bool {
-	return c.enIn && c.enRow == i && i < len(c.ctl.sess.Readings) && strings.TrimSpace(c.ctl.sess.Readings[i].Y) == "" &&
-		c.ctl.view.problems[cellKey{i, session.ColumnY}] != ""
+func (e *entryUI) heldY(k *controller, i int) bool {
+	return e.enIn && e.enRow == i && i < len(k.sess.Readings) && strings.TrimSpace(k.sess.Readings[i].Y) == "" &&
+		k.view.problems[cellKey{i, session.ColumnY}] != ""
 }
 
 // heldProblems is how many problems heldY keeps back (0 or 1).
-func (c *Shell) heldProblems() int {
-	if c.heldY(c.enRow) {
+func (e *entryUI) heldProblems(k *controller) int {
+	if e.heldY(k, e.enRow) {
 		return 1
 	}
 	return 0

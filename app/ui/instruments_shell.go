@@ -34,22 +34,23 @@ type instCached struct {
 	ok       bool
 }
 
-// refreshInstruments reads the listed sessions that changed since the
-// last refresh, summarises them and words the history (view.Build).
-func (c *Shell) refreshInstruments() {
-	if c.ctl.st == nil || c.ui.Src() == nil {
+// refresh reads the controller's listed sessions that changed since the
+// last refresh, summarises them and words the history (view.Build), off
+// the UI goroutine; the result comes through ctx, the Shell's own context.
+func (in *instState) refresh(ctx app.Context, k *controller) {
+	if k.st == nil || ctx.Src() == nil {
 		return
 	}
-	if c.instCache == nil {
-		c.instCache = map[string]instCached{}
+	if in.instCache == nil {
+		in.instCache = map[string]instCached{}
 	}
-	c.instSeq++
-	seq, st, list := c.instSeq, c.ctl.st, append([]store.Summary(nil), c.ctl.sessions...)
-	cache := make(map[string]instCached, len(c.instCache))
-	for k, v := range c.instCache {
-		cache[k] = v
+	in.instSeq++
+	seq, st, list := in.instSeq, k.st, append([]store.Summary(nil), k.sessions...)
+	cache := make(map[string]instCached, len(in.instCache))
+	for id, v := range in.instCache {
+		cache[id] = v
 	}
-	c.ui.Async(func() {
+	ctx.Async(func() {
 		fresh := make(map[string]instCached, len(list))
 		sums := make([]history.Summary, 0, len(list))
 		for i, sm := range list {
@@ -63,9 +64,9 @@ func (c *Shell) refreshInstruments() {
 				}
 				if i%8 == 7 {
 					n := i + 1
-					c.ui.Dispatch(func(ctx app.Context) {
-						if seq == c.instSeq {
-							c.instDone, c.instTotal = n, len(list)
+					ctx.Dispatch(func(ctx app.Context) {
+						if seq == in.instSeq {
+							in.instDone, in.instTotal = n, len(list)
 						}
 					})
 					time.Sleep(time.Millisecond) // give the page its turn
@@ -77,18 +78,18 @@ func (c *Shell) refreshInstruments() {
 			}
 		}
 		v, err := hv.Build(sums, time.Now())
-		c.ui.Dispatch(func(ctx app.Context) {
-			if seq != c.instSeq {
+		ctx.Dispatch(func(ctx app.Context) {
+			if seq != in.instSeq {
 				return
 			}
-			c.instCache = fresh
-			c.instDone, c.instTotal = 0, 0
+			in.instCache = fresh
+			in.instDone, in.instTotal = 0, 0
 			if err != nil {
-				c.instMsg = "The history of the instruments could not be made: " + err.Error()
+				in.instMsg = "The history of the instruments could not be made: " + err.Error()
 				return
 			}
-			c.instMsg = ""
-			c.instView = &v
+			in.instMsg = ""
+			in.instView = &v
 		})
 	})
 }
@@ -100,8 +101,8 @@ func (c *Shell) refreshInstruments() {
 // changed are read again).
 func (c *Shell) listChanged(list []store.Summary) {
 	c.ctl.sessions = list
-	if c.instOpen || c.listOpen {
-		c.refreshInstruments()
+	if c.inst.instOpen || c.listOpen {
+		c.inst.refresh(c.ui, c.ctl)
 	}
 }
 
@@ -109,32 +110,32 @@ func (c *Shell) listChanged(list []store.Summary) {
 // Instruments button).
 func (c *Shell) renderInstruments() app.UI {
 	return &instrumentsPanel{
-		View: c.instView, Message: c.instMsg, Done: c.instDone, Total: c.instTotal,
+		View: c.inst.instView, Message: c.inst.instMsg, Done: c.inst.instDone, Total: c.inst.instTotal,
 		OnOpen: func(id string) {
-			c.instOpen = false
+			c.inst.instOpen = false
 			c.open(c.ui, id)
 		},
-		OnClose: func() { c.instOpen = false },
+		OnClose: func() { c.inst.instOpen = false },
 	}
 }
 
 // toggleInstruments opens or closes the instrument view.
 func (c *Shell) toggleInstruments(ctx app.Context, e app.Event) {
-	c.instOpen = !c.instOpen
-	if c.instOpen {
+	c.inst.instOpen = !c.inst.instOpen
+	if c.inst.instOpen {
 		c.listOpen = false
-		c.instView = nil // the list as stored now, not as it was
-		c.refreshInstruments()
+		c.inst.instView = nil // the list as stored now, not as it was
+		c.inst.refresh(c.ui, c.ctl)
 	}
 }
 
 // dueMarkOf is the due mark the session list shows beside a session: the
 // newest calibration of each instrument carries its instrument's.
-func (c *Shell) dueMarkOf(id string) (hv.DueMark, bool) {
-	if c.instView == nil {
+func (in *instState) dueMarkOf(id string) (hv.DueMark, bool) {
+	if in.instView == nil {
 		return hv.DueMark{}, false
 	}
-	m, ok := c.instView.Due[id]
+	m, ok := in.instView.Due[id]
 	if !ok || m.State == hv.DueNone {
 		return hv.DueMark{}, false
 	}

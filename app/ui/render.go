@@ -66,7 +66,7 @@ func (c *Shell) renderNotes() []app.UI {
 		})),
 		c.renderTransferStrips(),
 		app.Div().Class("pl-slot").Body(app.If(c.listOpen, c.renderSessions)),
-		app.Div().Class("pl-slot").Body(app.If(c.instOpen, c.renderInstruments)),
+		app.Div().Class("pl-slot").Body(app.If(c.inst.instOpen, c.renderInstruments)),
 	}
 }
 
@@ -102,12 +102,12 @@ func (c *Shell) renderBarActions() []app.UI {
 				c.listOpen = !c.listOpen
 				c.confirmDel = ""
 				if c.listOpen {
-					c.instOpen = false
-					c.refreshInstruments() // the due marks
+					c.inst.instOpen = false
+					c.inst.refresh(c.ui, c.ctl) // the due marks
 				}
 			}),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Instruments").DataSet("testid", "instruments-open").
-			Attr("aria-expanded", strconv.FormatBool(c.instOpen)).OnClick(c.toggleInstruments),
+			Attr("aria-expanded", strconv.FormatBool(c.inst.instOpen)).OnClick(c.toggleInstruments),
 		app.Button().Class("pl-btn").Text("New session").DataSet("testid", "session-new").OnClick(c.onNew),
 	}
 }

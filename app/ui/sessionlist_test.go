@@ -174,7 +174,7 @@ func TestApplyList(t *testing.T) {
 
 	// The due marks are values of the instrument view's, for the drawn
 	// sessions only.
-	c.instView = &hv.View{Due: map[string]hv.DueMark{"x1": {State: hv.DueSoon, Text: "due in 2 days"}, "x2": {State: hv.DueNone}}}
+	c.inst.instView = &hv.View{Due: map[string]hv.DueMark{"x1": {State: hv.DueSoon, Text: "due in 2 days"}, "x2": {State: hv.DueNone}}}
 	l := list()
 	if m, ok := l.Due["x1"]; !ok || m.State != hv.DueSoon {
 		t.Errorf("due mark of x1: %+v %v", m, ok)
@@ -182,7 +182,7 @@ func TestApplyList(t *testing.T) {
 	if _, ok := l.Due["x2"]; ok {
 		t.Error("a session without a due date got a mark")
 	}
-	c.instView.Due["x1"] = hv.DueMark{State: hv.DueOverdue}
+	c.inst.instView.Due["x1"] = hv.DueMark{State: hv.DueOverdue}
 	if l.Due["x1"].State != hv.DueSoon {
 		t.Error("the list's due marks share the instrument view's map")
 	}

@@ -16,7 +16,7 @@ func (c *Shell) renderSessions() app.UI {
 	shown := append([]store.Summary(nil), listShown(c.ctl.sessions, c.listMore)...)
 	due := map[string]hv.DueMark{}
 	for _, s := range shown {
-		if m, ok := c.dueMarkOf(s.ID); ok {
+		if m, ok := c.inst.dueMarkOf(s.ID); ok {
 			due[s.ID] = m
 		}
 	}

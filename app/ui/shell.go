@@ -67,7 +67,9 @@ type Shell struct {
 
 	tpl criteriaTemplates // the criteria templates on the device (acceptance.go)
 
-	fieldUI // the demo and the typing in the grid (theme.go)
+	demoUI // the demo being added (demo.go)
+
+	en entryUI // the row being typed into (grid.go)
 
 	pl plotsUI // the plots: the reading selected, the drawing kept (plots.go)
 
@@ -75,7 +77,7 @@ type Shell struct {
 
 	recordUI // the record cards: identity, standards, unknowns, sign-off (recordui.go)
 
-	instState // the instrument view and the due marks (instruments_shell.go)
+	inst instState // the instrument view and the due marks (instruments_shell.go)
 }
 
 // newShell returns the Shell with its controller, which asks the screen's

@@ -4,13 +4,6 @@ import (
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 )
 
-// fieldUI is the state of the parts made for work in the field: the plots,
-// the report, the demo and the typing in the grid. It is embedded in Shell.
-type fieldUI struct {
-	demoUI
-	entryUI
-}
-
 // Themes. The class goes on the app's root element; web/themes.css sets the
 // colour variables of web/pairline.css for it.
 const (
