@@ -48,17 +48,12 @@ type CardAction struct {
 	Row  int
 }
 
-// sendTo returns the OnAction of a component: each action it sends is
-// applied by apply in a turn of its own, run by dispatch (the Shell's, on
-// its own context: the element that sent the action may be gone by the
-// time it runs).
-func sendTo[A any](dispatch func(func(app.Context)), apply func(app.Context, A)) func(A) {
-	return func(a A) { dispatch(func(ctx app.Context) { apply(ctx, a) }) }
+// cardAction applies what an analysis card asked for, in a turn of its own
+// on the Shell's own context (dispatch: the card's element may be gone by
+// the time it runs). Every component's OnAction does the same.
+func (c *Shell) cardAction(a CardAction) {
+	c.dispatch(func(ctx app.Context) { c.applyCard(ctx, a) })
 }
-
-// cardAction applies what an analysis card asked for (applyCard, through
-// sendTo).
-func (c *Shell) cardAction(a CardAction) { sendTo(c.dispatch, c.applyCard)(a) }
 
 // applyCard makes the change of a: the disclosures and the jump are the
 // screen's; the advice goes through the controller.

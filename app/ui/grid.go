@@ -139,7 +139,7 @@ func (c *Shell) row(i int) app.UI {
 		Reason:   reason,
 		Note:     r.Note,
 		Locked:   c.ctl.locked(),
-		onAction: sendTo(c.dispatch, c.applyRow),
+		onAction: func(a RowAction) { c.dispatch(func(ctx app.Context) { c.applyRow(ctx, a) }) },
 	}
 }
 
@@ -161,7 +161,7 @@ type RowAction struct {
 	Text    string
 }
 
-// applyRow makes the change a row asked for (through sendTo, on the
+// applyRow makes the change a row asked for (through dispatch, on the
 // Shell's own context): the cells through the controller, the row being
 // entered (entryUI) for the screen.
 func (c *Shell) applyRow(ctx app.Context, a RowAction) {

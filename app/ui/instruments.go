@@ -147,7 +147,7 @@ func (p *instrumentsPanel) renderInstrument(it *hv.Item) app.UI {
 			if len(warn) > 1 {
 				t += " and the " + warn[1]
 			}
-			t += " of this instrument " + map[bool]string{true: "are", false: "is"}[len(warn) > 1] + " moving steadily from one calibration to the next."
+			t += " of this instrument " + pick(len(warn) > 1, "are", "is") + " moving steadily from one calibration to the next."
 			if it.Leaves != "" {
 				t += " " + it.Leaves
 			}

@@ -79,10 +79,10 @@ func (n *netUI) render() app.UI {
 	net, inst, hint := netWords(!n.offline, n.installed)
 	return app.Div().Class("pl-net").Body(
 		app.Span().Class("pl-net-state").DataSet("testid", "net-status").
-			DataSet("state", map[bool]string{true: "online", false: "offline"}[!n.offline]).
+			DataSet("state", pick(n.offline, "offline", "online")).
 			Attr("role", "status").Text(net),
 		app.Span().Class("pl-net-inst").DataSet("testid", "install-status").
-			DataSet("state", map[bool]string{true: "installed", false: "browser"}[n.installed]).
+			DataSet("state", pick(n.installed, "installed", "browser")).
 			Attr("title", hint).Body(
 			app.Span().Text(inst),
 			app.If(!n.installed, func() app.UI {

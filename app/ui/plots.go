@@ -418,18 +418,24 @@ func (ps plSet) plRing(testID string, row int) string {
 // selected and what its panel shows (pointView).
 func (c *Shell) renderPlots() app.UI {
 	if c.ctl.sess == nil || c.ctl.view.report == nil {
-		return &plotsCard{Empty: true, Sel: -1, OnAction: sendTo(c.dispatch, c.applyPlot)}
+		return &plotsCard{Empty: true, Sel: -1, OnAction: c.plotAction}
 	}
 	if c.pl.plSel > len(c.ctl.sess.Readings) {
 		c.pl.plSel = 0
 	}
 	card := &plotsCard{Plots: c.pl.drawing(c.ctl), Level: c.ctl.view.report.Level, First: firstFlagged(c.ctl.view),
-		Rows: len(c.ctl.sess.Readings), Sel: c.pl.plSel - 1, OnAction: sendTo(c.dispatch, c.applyPlot)}
+		Rows: len(c.ctl.sess.Readings), Sel: c.pl.plSel - 1, OnAction: c.plotAction}
 	card.Stale = c.pl.plStale // plots() decides it
 	if c.pl.plSel > 0 {
 		card.Panel = c.pl.point(c.ctl, c.pl.plSel-1)
 	}
 	return card
+}
+
+// plotAction applies what the plots card asked for, on the Shell's own
+// context (the card's element may be gone by the time it runs).
+func (c *Shell) plotAction(a PlotAction) {
+	c.dispatch(func(ctx app.Context) { c.applyPlot(ctx, a) })
 }
 
 // applyPlot makes the change of a: the selection, the panel's place and

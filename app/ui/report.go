@@ -115,9 +115,9 @@ func (c *Shell) renderReport() app.UI {
 		c.rp.rpAt = time.Now()
 		c.rp.build(c.ctl, &c.pl)
 	}
-	return &reportDialog{Body: c.rp.rpHTML, Msg: c.rp.rpMsg, OnAction: sendTo(c.dispatch, func(ctx app.Context, a ReportAction) {
-		c.rp.apply(ctx, c.ctl, &c.pl, a)
-	})}
+	return &reportDialog{Body: c.rp.rpHTML, Msg: c.rp.rpMsg, OnAction: func(a ReportAction) {
+		c.dispatch(func(ctx app.Context) { c.rp.apply(ctx, c.ctl, &c.pl, a) })
+	}}
 }
 
 // apply makes the change of a: printing uses web/report.css's @media print

@@ -155,7 +155,7 @@ func (r *sessionsList) trash() app.UI {
 	return app.Div().Class("pl-trash").Body(
 		r.button(app.Button().Class("pl-btn pl-btn-quiet").DataSet("testid", "trash-open").
 			Attr("aria-expanded", strconv.FormatBool(r.TrashOpen)).
-			Text(map[bool]string{true: "Hide the trash", false: "Show the trash"}[r.TrashOpen]), laTrash),
+			Text(pick(r.TrashOpen, "Hide the trash", "Show the trash")), laTrash),
 		app.If(r.TrashOpen, func() app.UI {
 			return app.Section().Class("pl-trash-list").Attr("aria-label", "Trash").Body(
 				app.H3().Text("Trash"),

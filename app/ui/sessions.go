@@ -28,7 +28,7 @@ func (c *Shell) renderSessions() app.UI {
 		Sessions: shown, Older: len(c.ctl.sessions) - len(shown), Due: due, OpenID: open,
 		Renaming: c.renaming, RenameText: c.renameText, ConfirmDel: c.confirmDel,
 		TrashOpen: c.trash.open, Trash: append([]store.Summary(nil), c.trash.items...),
-		OnAction: sendTo(c.dispatch, c.applyList),
+		OnAction: func(a ListAction) { c.dispatch(func(ctx app.Context) { c.applyList(ctx, a) }) },
 	}
 }
 

@@ -516,6 +516,15 @@ func sentence(s string) string {
 	return s
 }
 
+// pick returns yes when b holds, otherwise no (a map literal of bool to
+// string, as the screen once had, costs a map built on every call).
+func pick(b bool, yes, no string) string {
+	if b {
+		return yes
+	}
+	return no
+}
+
 func isAre(n int) string {
 	if n == 1 {
 		return "is"
