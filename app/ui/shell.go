@@ -262,60 +262,62 @@ func (c *Shell) syncInputs() {
 		return
 	}
 	s := c.ctl.sess
-	want := map[string]string{
-		"session-title": s.Title,
-		"x-name":        s.XName, "x-unit": s.XUnit,
-		"y-name": s.YName, "y-unit": s.YUnit,
-		"record-site": s.Site, "record-instrument": s.Instrument.Description, "record-serial": s.Instrument.Serial,
-		"record-identifier": s.Instrument.ID, "record-operator": s.Operator, "record-notes": s.Notes,
-		"record-interval": "", "record-temperature": "", "record-temperature-unit": "",
-	}
+	// Each field by its data-testid (the grid's, the record's), then the
+	// fields of the record's list items by item and field: a slice, not a
+	// map (a map literal costs app.wasm a call per entry; the order of the
+	// writes does not matter).
+	interval, temp, tempUnit := "", "", ""
 	if s.Instrument.IntervalDays > 0 {
-		want["record-interval"] = strconv.Itoa(s.Instrument.IntervalDays)
+		interval = strconv.Itoa(s.Instrument.IntervalDays)
 	}
 	if i := conditionIndex(s, session.ConditionTemperature); i >= 0 {
-		want["record-temperature"], want["record-temperature-unit"] = s.Conditions[i].Value, s.Conditions[i].Unit
+		temp, tempUnit = s.Conditions[i].Value, s.Conditions[i].Unit
+	}
+	want := []fieldText{
+		{"session-title", s.Title},
+		{"x-name", s.XName}, {"x-unit", s.XUnit},
+		{"y-name", s.YName}, {"y-unit", s.YUnit},
+		{"record-site", s.Site}, {"record-instrument", s.Instrument.Description}, {"record-serial", s.Instrument.Serial},
+		{"record-identifier", s.Instrument.ID}, {"record-operator", s.Operator}, {"record-notes", s.Notes},
+		{"record-interval", interval}, {"record-temperature", temp}, {"record-temperature-unit", tempUnit},
 	}
 	lo, hi := c.pageRange()
 	for i := lo; i < hi; i++ {
 		n := strconv.Itoa(i)
-		want["x-input-"+n], want["y-input-"+n] = s.Readings[i].X, s.Readings[i].Y
-		want["reading-note-"+strconv.Itoa(i+1)] = s.Readings[i].Note
+		want = append(want, fieldText{"x-input-" + n, s.Readings[i].X}, fieldText{"y-input-" + n, s.Readings[i].Y},
+			fieldText{"reading-note-" + strconv.Itoa(i+1), s.Readings[i].Note})
 	}
-	for id, v := range want {
-		el := doc.Call("querySelector", `[data-testid="`+id+`"]`)
-		if el.Truthy() && el.Get("value").String() != v {
-			el.Set("value", v)
-			el.Set(takenProp, v) // a grid cell: the app wrote it (readingRow.shownText)
-		}
+	for i := range want {
+		want[i].sel = `[data-testid="` + want[i].sel + `"]`
 	}
-	// The fields of the record's list items (standards, conditions), by
-	// item and field.
-	items := map[string]string{}
 	for i, st := range s.Standards {
 		exp := ""
 		if !st.Expiry.IsZero() {
 			exp = st.Expiry.UTC().Format("2006-01-02")
 		}
 		pre := `[data-testid="standard-item"][data-index="` + strconv.Itoa(i) + `"] [data-testid="standard-`
-		items[pre+`name"]`], items[pre+`certificate"]`], items[pre+`value"]`] = st.Name, st.Certificate, st.Value
-		items[pre+`uncertainty"]`], items[pre+`expiry"]`] = st.Uncertainty, exp
+		want = append(want, fieldText{pre + `name"]`, st.Name}, fieldText{pre + `certificate"]`, st.Certificate}, fieldText{pre + `value"]`, st.Value},
+			fieldText{pre + `uncertainty"]`, st.Uncertainty}, fieldText{pre + `expiry"]`, exp})
 	}
 	for i, cd := range s.Conditions {
 		pre := `[data-testid="condition-item"][data-index="` + strconv.Itoa(i) + `"] [data-testid="condition-`
-		items[pre+`name"]`], items[pre+`value"]`], items[pre+`unit"]`] = cd.Name, cd.Value, cd.Unit
+		want = append(want, fieldText{pre + `name"]`, cd.Name}, fieldText{pre + `value"]`, cd.Value}, fieldText{pre + `unit"]`, cd.Unit})
 	}
-	for q, v := range items {
-		el := doc.Call("querySelector", q)
-		if el.Truthy() && el.Get("value").String() != v {
-			el.Set("value", v)
-			el.Set(takenProp, v) // a grid cell: the app wrote it (readingRow.shownText)
+	for _, w := range want {
+		el := doc.Call("querySelector", w.sel)
+		if el.Truthy() && el.Get("value").String() != w.v {
+			el.Set("value", w.v)
+			el.Set(takenProp, w.v) // a grid cell: the app wrote it (readingRow.shownText)
 		}
 	}
 	// The fields of the settings and criteria cards are known once this
 	// render has drawn them: an undone criterion must leave its box empty.
 	afterRender(func() { c.an.resync(&c.tpl) })
 }
+
+// fieldText is a text field of the screen, by its CSS selector, and the
+// text it must show (syncInputs).
+type fieldText struct{ sel, v string }
 
 // adviceLater is the number of readings from which an edit's transform
 // advice (it refits the readings several ways) and plots come one turn
