@@ -31,7 +31,7 @@ func numericColumns(res *session.CSVResult) []int { return res.NumericColumns }
 // progress.
 func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol int) {
 	st := c.ctl.st
-	fail := func(err error) { ctx.Dispatch(func(ctx app.Context) { c.importFailed(name, err) }) }
+	fail := func(err error) { ctx.Dispatch(func(ctx app.Context) { c.xfer.failed(name, err) }) }
 	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
 	probe, chunked, err := session.ProbeCSV(data)
 	if err != nil {
@@ -41,9 +41,9 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 	labels := columnLabels(probe)
 	if xCol < 0 && len(numericColumns(probe)) > 2 {
 		ctx.Dispatch(func(ctx app.Context) {
-			c.importing = ""
-			c.importSeq++
-			c.choice = &columnChoice{file: name, data: data, labels: labels, x: probe.XCol, y: probe.YCol}
+			c.xfer.importing = ""
+			c.xfer.importSeq++
+			c.xfer.choice = &columnChoice{file: name, data: data, labels: labels, x: probe.XCol, y: probe.YCol}
 		})
 		return
 	}
@@ -74,7 +74,7 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 	// Encoding, storing and analysing a big session each take a while; a
 	// pause between them lets the page draw the progress in between.
 	parsed := time.Now()
-	ctx.Dispatch(func(ctx app.Context) { c.importPhase = "storing the session" })
+	ctx.Dispatch(func(ctx app.Context) { c.xfer.importPhase = "storing the session" })
 	time.Sleep(time.Millisecond)
 	job, err := encodeJob(s)
 	encoded := time.Now()
@@ -87,21 +87,21 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 		fail(err)
 		return
 	}
-	ctx.Dispatch(func(ctx app.Context) { c.importPhase = "fitting the line" })
+	ctx.Dispatch(func(ctx app.Context) { c.xfer.importPhase = "fitting the line" })
 	time.Sleep(time.Millisecond)
 	took := time.Since(started)
 	list, _ := st.List()
 	report := csvSummaryText(&sum, name, len(s.Readings), labels, xCol, yCol, took)
 	ctx.Dispatch(func(ctx app.Context) {
-		c.importing, c.progress = "", 1
-		c.importSeq++
+		c.xfer.importing, c.xfer.progress = "", 1
+		c.xfer.importSeq++
 		c.listChanged(list)
 		t := time.Now()
 		c.openImported(ctx, s)
 		// How long each step took, for the record of speed (data-timing).
-		c.importTiming = fmt.Sprintf("read=%d encode=%d store=%d analyse=%d ms",
+		c.xfer.importTiming = fmt.Sprintf("read=%d encode=%d store=%d analyse=%d ms",
 			parsed.Sub(started).Milliseconds(), encoded.Sub(parsed).Milliseconds(), stored.Sub(encoded).Milliseconds(), time.Since(t).Milliseconds())
-		c.importReport = report
+		c.xfer.importReport = report
 		c.tabs.announce(job.sum, c.ctl.sess)
 		c.usage.refreshStale(c.ui, c.ctl.st)
 	})
@@ -147,7 +147,7 @@ func (c *Shell) importReadings(ctx app.Context, s *session.Session, data []byte,
 // when a chunk read alone differs from the whole file (a chunk whose rows
 // are all short, say): then nothing was imported and the whole file decides.
 func (c *Shell) importChunks(ctx app.Context, s *session.Session, sum *session.CSVTally, data []byte, probe *session.CSVResult, xCol, yCol int, now time.Time) (bool, error) {
-	ctx.Dispatch(func(ctx app.Context) { c.importPhase = "reading the readings" })
+	ctx.Dispatch(func(ctx app.Context) { c.xfer.importPhase = "reading the readings" })
 	var parts []*session.CSVResult
 	shown := time.Now()
 	chunks := session.NewCSVChunks(data, probe, xCol, yCol, chunkLines)
@@ -161,7 +161,7 @@ func (c *Shell) importChunks(ctx app.Context, s *session.Session, sum *session.C
 		if time.Since(shown) > 150*time.Millisecond {
 			shown = time.Now()
 			done := chunks.Done()
-			ctx.Dispatch(func(ctx app.Context) { c.progress = 0.8 * done })
+			ctx.Dispatch(func(ctx app.Context) { c.xfer.progress = 0.8 * done })
 		}
 		time.Sleep(time.Millisecond)
 	}
@@ -175,7 +175,7 @@ func (c *Shell) importChunks(ctx app.Context, s *session.Session, sum *session.C
 		sum.Add(res)
 		if i%10 == 9 {
 			p := 0.8 + 0.2*float64(i+1)/float64(len(parts))
-			ctx.Dispatch(func(ctx app.Context) { c.progress = p })
+			ctx.Dispatch(func(ctx app.Context) { c.xfer.progress = p })
 			time.Sleep(time.Millisecond)
 		}
 	}

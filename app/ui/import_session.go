@@ -18,17 +18,17 @@ import (
 // transaction; sessions whose ID is already stored wait for the technician.
 func (c *Shell) importSessionFile(ctx app.Context, name string, data []byte) {
 	st := c.ctl.st
-	ctx.Dispatch(func(ctx app.Context) { c.importPhase = "checking the file" })
+	ctx.Dispatch(func(ctx app.Context) { c.xfer.importPhase = "checking the file" })
 	f, err := session.Decode(bytes.NewReader(data))
 	if err != nil {
-		ctx.Dispatch(func(ctx app.Context) { c.importFailed(name, err) })
+		ctx.Dispatch(func(ctx app.Context) { c.xfer.failed(name, err) })
 		return
 	}
 	stored := map[string]store.Summary{}
 	list, err1 := st.List()
 	trash, err2 := st.Trash()
 	if err := errors.Join(err1, err2); err != nil {
-		ctx.Dispatch(func(ctx app.Context) { c.importFailed(name, err) })
+		ctx.Dispatch(func(ctx app.Context) { c.xfer.failed(name, err) })
 		return
 	}
 	for _, s := range append(list, trash...) {
@@ -43,25 +43,25 @@ func (c *Shell) importSessionFile(ctx app.Context, name string, data []byte) {
 		}
 	}
 	if err := saveAll(st, fresh); err != nil {
-		ctx.Dispatch(func(ctx app.Context) { c.importFailed(name, err) })
+		ctx.Dispatch(func(ctx app.Context) { c.xfer.failed(name, err) })
 		return
 	}
 	list, _ = st.List()
 	ctx.Dispatch(func(ctx app.Context) {
-		c.importing = ""
-		c.importSeq++
+		c.xfer.importing = ""
+		c.xfer.importSeq++
 		c.listChanged(list)
 		for _, w := range f.Warnings {
-			c.importReport += w + " "
+			c.xfer.importReport += w + " "
 		}
 		if len(fresh) > 0 {
 			c.openImported(ctx, fresh[0])
 		}
 		if len(clash) > 0 {
-			c.conflict = &importConflict{file: name, pending: clash, stored: stored, added: len(fresh)}
+			c.xfer.conflict = &importConflict{file: name, pending: clash, stored: stored, added: len(fresh)}
 			return
 		}
-		c.importReport += importedText(name, len(fresh), 0)
+		c.xfer.importReport += importedText(name, len(fresh), 0)
 		c.usage.refresh(c.ui, c.ctl.st)
 	})
 }
@@ -115,9 +115,9 @@ func (c *Shell) openImported(_ app.Context, s *session.Session) {
 // leaves the stored one alone.
 func (c *Shell) resolveConflict(_ app.Context, how string) {
 	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
-	k := c.conflict
+	k := c.xfer.conflict
 	if k == nil || len(k.pending) == 0 {
-		c.conflict = nil
+		c.xfer.conflict = nil
 		return
 	}
 	s := k.pending[0]
@@ -129,7 +129,7 @@ func (c *Shell) resolveConflict(_ app.Context, how string) {
 	if how == "both" {
 		id, err := session.NewID(nil)
 		if err != nil {
-			c.importFailed(k.file, err)
+			c.xfer.failed(k.file, err)
 			return
 		}
 		s.ID = id
@@ -141,8 +141,8 @@ func (c *Shell) resolveConflict(_ app.Context, how string) {
 		ctx.Dispatch(func(ctx app.Context) {
 			c.listChanged(list)
 			if err != nil {
-				c.importFailed(k.file, err)
-				c.conflict = nil
+				c.xfer.failed(k.file, err)
+				c.xfer.conflict = nil
 				return
 			}
 			k.added++
@@ -156,8 +156,8 @@ func (c *Shell) afterConflict(ctx app.Context, k *importConflict) {
 	if len(k.pending) > 0 {
 		return
 	}
-	c.conflict = nil
-	c.importSeq++
-	c.importReport = importedText(k.file, k.added, 0)
+	c.xfer.conflict = nil
+	c.xfer.importSeq++
+	c.xfer.importReport = importedText(k.file, k.added, 0)
 	c.usage.refresh(c.ui, c.ctl.st)
 }

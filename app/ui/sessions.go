@@ -13,7 +13,7 @@ import (
 // the page of summaries drawn, the open session, the due marks of the
 // instrument view, the rename and delete questions and the trash.
 func (c *Shell) renderSessions() app.UI {
-	shown := append([]store.Summary(nil), listShown(c.ctl.sessions, c.listMore)...)
+	shown := append([]store.Summary(nil), listShown(c.ctl.sessions, c.xfer.listMore)...)
 	due := map[string]hv.DueMark{}
 	for _, s := range shown {
 		if m, ok := c.inst.dueMarkOf(s.ID); ok {
@@ -63,7 +63,7 @@ func (c *Shell) applyList(ctx app.Context, a ListAction) {
 			c.delete(ctx, a.ID)
 		}
 	case laMore:
-		c.listMore = len(listShown(c.ctl.sessions, c.listMore)) + listPage
+		c.xfer.listMore = len(listShown(c.ctl.sessions, c.xfer.listMore)) + listPage
 	case laTrash:
 		c.trash.toggle(c.ui, c.ctl.st, c.say)
 	case laRestore:

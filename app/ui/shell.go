@@ -51,7 +51,7 @@ type Shell struct {
 	// source element has left the page, as a button in a closed list has.
 	ui app.Context
 
-	transferState // files in and out, trash, storage (transfer.go)
+	xfer transferState // files in and out (transfer.go)
 
 	tabs tabSync // other tabs with the same session open (tabs.go)
 
@@ -365,7 +365,13 @@ func (c *Shell) afterChange(ctx app.Context) {
 		if seq == c.ctl.editSeq || time.Since(c.ctl.lastSave) >= saveEvery {
 			c.ctl.save()
 		}
-		c.keepScreen(ctx, stateWas)
+		// A save handed to the saver changes nothing on the page, and a
+		// redraw of the whole screen is the costliest part of a turn: none
+		// when the save state is still what it was (another change queued
+		// for the same frame still redraws it).
+		if ctx.Src() != nil && c.ctl.saveStamp() == stateWas {
+			ctx.PreventUpdate()
+		}
 	}
 	if !big {
 		c.afterFrame(saveTurn)
@@ -406,17 +412,6 @@ func (c *Shell) collectAfterLoad() {
 		runtime.GC()
 		ctx.PreventUpdate()
 	})
-}
-
-// keepScreen tells go-app not to redraw the screen after the turn of ctx
-// when the save state is still was (saveState, NUL, saveMessage): a
-// save handed to the saver changes nothing on the page, and a redraw of
-// the whole screen is the costliest part of a turn. Another change queued
-// for the same frame still redraws it.
-func (c *Shell) keepScreen(ctx app.Context, was string) {
-	if ctx.Src() != nil && c.ctl.saveStamp() == was {
-		ctx.PreventUpdate()
-	}
 }
 
 // afterFrame runs fn on the UI goroutine in a later turn of the event loop,

@@ -65,7 +65,7 @@ func (c *Shell) mountTransfer(ctx app.Context) {
 	if !doc.Truthy() {
 		return
 	}
-	c.shareOK = canShareFiles()
+	c.xfer.shareOK = canShareFiles()
 	// Leaving the app (another app, the tab closed, the tablet put to
 	// sleep) writes an edit still waiting for its save turn at once: a big
 	// session is otherwise saved only once typing pauses.
@@ -130,7 +130,7 @@ func (c *Shell) mountTransfer(ctx app.Context) {
 				f, err := awaitJS(handle.Call("getFile"))
 				ctx.Dispatch(func(ctx app.Context) {
 					if err != nil {
-						c.importErr = "The file could not be opened: " + err.Error()
+						c.xfer.importErr = "The file could not be opened: " + err.Error()
 						return
 					}
 					c.importFile(ctx, f)
@@ -164,19 +164,19 @@ func (c *Shell) importFile(_ app.Context, f app.Value) {
 	ctx := c.ui // dispatch through the Shell: the element that asked may be gone by then
 	name := f.Get("name").String()
 	if size := int64(f.Get("size").Float()); size > session.MaxFileSize {
-		c.importFailed(name, fmt.Errorf("%w (%d MiB; at most %d MiB)", session.ErrTooLarge, size>>20, session.MaxFileSize>>20))
+		c.xfer.failed(name, fmt.Errorf("%w (%d MiB; at most %d MiB)", session.ErrTooLarge, size>>20, session.MaxFileSize>>20))
 		return
 	}
 	if c.ctl.st == nil {
-		c.importErr = "Pairline is still opening its storage; try again in a moment."
+		c.xfer.importErr = "Pairline is still opening its storage; try again in a moment."
 		return
 	}
-	c.importErr, c.importReport, c.choice, c.conflict = "", "", nil, nil
-	c.importing, c.progress, c.importPhase = name, 0, "reading"
+	c.xfer.importErr, c.xfer.importReport, c.xfer.choice, c.xfer.conflict = "", "", nil, nil
+	c.xfer.importing, c.xfer.progress, c.xfer.importPhase = name, 0, "reading"
 	ctx.Async(func() {
 		data, err := readFile(f)
 		if err != nil {
-			ctx.Dispatch(func(ctx app.Context) { c.importFailed(name, fmt.Errorf("the file could not be read: %w", err)) })
+			ctx.Dispatch(func(ctx app.Context) { c.xfer.failed(name, fmt.Errorf("the file could not be read: %w", err)) })
 			return
 		}
 		c.importData(ctx, name, data, -1, -1)
@@ -193,9 +193,9 @@ func (c *Shell) importData(ctx app.Context, name string, data []byte, xCol, yCol
 	c.importCSV(ctx, name, data, xCol, yCol)
 }
 
-// importFailed shows why a file was refused. Nothing stored has changed.
-func (c *Shell) importFailed(name string, err error) {
-	c.importing, c.choice = "", nil
-	c.importSeq++
-	c.importErr = "“" + name + "” was not imported, and nothing stored was changed: " + err.Error()
+// failed shows why a file was refused. Nothing stored has changed.
+func (t *transferState) failed(name string, err error) {
+	t.importing, t.choice = "", nil
+	t.importSeq++
+	t.importErr = "“" + name + "” was not imported, and nothing stored was changed: " + err.Error()
 }

@@ -16,24 +16,24 @@ import (
 // renderTransferStrips draws what an import or another tab asks or reports.
 func (c *Shell) renderTransferStrips() app.UI {
 	return app.Div().Class("pl-xfer-strips").Body(
-		app.If(c.importing != "", func() app.UI {
+		app.If(c.xfer.importing != "", func() app.UI {
 			return app.Div().Class("pl-strip pl-xfer-progress").Attr("role", "status").Body(
-				app.Span().Text("Importing “"+c.importing+"”: "+c.importPhase+"…"),
-				app.Progress().Max(1).Value(c.progress).DataSet("testid", "import-progress").
-					DataSet("value", numfmt.Full(c.progress)).Attr("aria-label", "Import progress"),
-				app.Span().Text(strconv.Itoa(int(c.progress*100))+" %"),
+				app.Span().Text("Importing “"+c.xfer.importing+"”: "+c.xfer.importPhase+"…"),
+				app.Progress().Max(1).Value(c.xfer.progress).DataSet("testid", "import-progress").
+					DataSet("value", numfmt.Full(c.xfer.progress)).Attr("aria-label", "Import progress"),
+				app.Span().Text(strconv.Itoa(int(c.xfer.progress*100))+" %"),
 			)
 		}),
-		app.If(c.importErr != "", func() app.UI {
+		app.If(c.xfer.importErr != "", func() app.UI {
 			return app.Div().Class("pl-strip pl-xfer-error").Attr("role", "alert").Body(
 				app.Span().Class("pl-xfer-icon").Attr("aria-hidden", "true").Text("✖"),
-				app.Span().DataSet("testid", "import-error").DataSet("seq", c.importSeq).Text(c.importErr),
+				app.Span().DataSet("testid", "import-error").DataSet("seq", c.xfer.importSeq).Text(c.xfer.importErr),
 				app.Button().Class("pl-btn pl-btn-quiet").Text("Dismiss").
-					OnClick(func(ctx app.Context, e app.Event) { c.importErr = "" }),
+					OnClick(func(ctx app.Context, e app.Event) { c.xfer.importErr = "" }),
 			)
 		}),
-		app.If(c.conflict != nil && len(c.conflict.pending) > 0, c.renderConflict),
-		app.If(c.choice != nil, c.renderColumnChoice),
+		app.If(c.xfer.conflict != nil && len(c.xfer.conflict.pending) > 0, c.renderConflict),
+		app.If(c.xfer.choice != nil, c.renderColumnChoice),
 		app.If(c.tabs.elsewhere != nil, func() app.UI {
 			return c.tabs.render(c.reloadFromStore, c.keepAsCopy, c.ctl.save)
 		}),
@@ -45,14 +45,14 @@ func (c *Shell) renderTransferStrips() app.UI {
 }
 
 func (c *Shell) renderConflict() app.UI {
-	k := c.conflict
+	k := c.xfer.conflict
 	s := k.pending[0]
 	old := k.stored[s.ID]
 	where := ""
 	if !old.Deleted.IsZero() {
 		where = " (in the trash)"
 	}
-	return app.Div().Class("pl-strip pl-xfer-ask").Attr("role", "alertdialog").DataSet("testid", "import-conflict").DataSet("seq", c.importSeq).Body(
+	return app.Div().Class("pl-strip pl-xfer-ask").Attr("role", "alertdialog").DataSet("testid", "import-conflict").DataSet("seq", c.xfer.importSeq).Body(
 		app.P().Text(fmt.Sprintf("“%s” from the file (%s, changed %s) is already on this device%s as “%s” (%s, changed %s). Replace the stored one, or keep both?",
 			s.Title, plural(len(s.Readings), "reading", "readings"), s.Modified.Local().Format("2 Jan 2006 15:04"),
 			where, old.Title, plural(old.Readings, "reading", "readings"), old.Modified.Local().Format("2 Jan 2006 15:04"))),
@@ -68,7 +68,7 @@ func (c *Shell) renderConflict() app.UI {
 }
 
 func (c *Shell) renderColumnChoice() app.UI {
-	ch := c.choice
+	ch := c.xfer.choice
 	pick := func(testid, label string, cur int, set func(int)) app.UI {
 		return app.Label().Class("pl-xfer-col").Body(
 			app.Span().Text(label),
@@ -83,7 +83,7 @@ func (c *Shell) renderColumnChoice() app.UI {
 			),
 		)
 	}
-	return app.Div().Class("pl-strip pl-xfer-ask").Attr("role", "dialog").DataSet("testid", "import-columns").DataSet("seq", c.importSeq).Body(
+	return app.Div().Class("pl-strip pl-xfer-ask").Attr("role", "dialog").DataSet("testid", "import-columns").DataSet("seq", c.xfer.importSeq).Body(
 		app.P().Text("“"+ch.file+"” has more than two columns of numbers. Which columns hold the known values (x) and the instrument values (y)?"),
 		app.Div().Class("pl-xfer-actions").Body(
 			pick("import-x-col", "x (known value)", ch.x, func(v int) { ch.x = v }),
@@ -92,15 +92,15 @@ func (c *Shell) renderColumnChoice() app.UI {
 				OnClick(func(_ app.Context, e app.Event) {
 					name, data, x, y := ch.file, ch.data, ch.x, ch.y
 					if x == y {
-						c.importFailed(name, &session.CSVError{Err: session.ErrCSVSameColum})
+						c.xfer.failed(name, &session.CSVError{Err: session.ErrCSVSameColum})
 						return
 					}
-					c.choice, c.importing, c.progress, c.importPhase = nil, name, 0, "reading"
+					c.xfer.choice, c.xfer.importing, c.xfer.progress, c.xfer.importPhase = nil, name, 0, "reading"
 					ctx := c.ui // the import outlives this button: dispatch through the Shell
 					ctx.Async(func() { c.importCSV(ctx, name, data, x, y) })
 				}),
 			app.Button().Class("pl-btn pl-btn-quiet").Text("Cancel").DataSet("testid", "import-cancel").
-				OnClick(func(ctx app.Context, e app.Event) { c.choice = nil }),
+				OnClick(func(ctx app.Context, e app.Event) { c.xfer.choice = nil }),
 		),
 	)
 }
@@ -108,8 +108,8 @@ func (c *Shell) renderColumnChoice() app.UI {
 // renderTransfer hands the files card its data.
 func (c *Shell) renderTransfer() app.UI {
 	return &filesCard{
-		ShareOK: c.shareOK, HasResults: c.ctl.view.report != nil,
-		ImportReport: c.importReport, ImportSeq: c.importSeq, ImportTiming: c.importTiming,
+		ShareOK: c.xfer.shareOK, HasResults: c.ctl.view.report != nil,
+		ImportReport: c.xfer.importReport, ImportSeq: c.xfer.importSeq, ImportTiming: c.xfer.importTiming,
 		Usage: c.usage.usage, UsageText: c.usage.text(), OnAction: c.fileAction,
 	}
 }
