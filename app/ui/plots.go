@@ -414,8 +414,8 @@ func (ps plSet) plRing(testID string, row int) string {
 }
 
 // renderPlots gathers the plots card's data (plotscard.go): the drawing
-// of the open session (plots), the level of its bands, the reading
-// selected and what its panel shows (pointView).
+// of the open session (plotsUI.drawing), the level of its bands, the
+// reading selected and what its panel shows (plotsUI.point).
 func (c *Shell) renderPlots() app.UI {
 	if c.ctl.sess == nil || c.ctl.view.report == nil {
 		return &plotsCard{Empty: true, Sel: -1, OnAction: c.plotAction}
@@ -559,7 +559,7 @@ func firstFlagged(v analysis) int {
 	return 0
 }
 
-// pointView is what the reading panel shows of session row row: its
+// point is what the reading panel shows of session row row: its
 // cells and note, fitcore's figures for it (formatted, with a line of
 // plain meaning), its flag and reasons, and the reason typed so far.
 func (p *plotsUI) point(k *controller, row int) pointPanel {

@@ -8,7 +8,7 @@ package ui
 // PlotAction through OnAction; the Shell applies it (applyPlot, plots.go).
 // The card computes nothing: the drawing is plDraw's, from fitcore's
 // report, and the panel's figures are fitcore's, formatted by the Shell
-// (pointView).
+// (plotsUI.point).
 //
 // A handler reads what it acts on from its component when it runs (the
 // reading shown is Panel.Row), never from a variable of the render that

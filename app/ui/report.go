@@ -219,7 +219,7 @@ func rpBody(s *session.Session, rep *fitcore.Report, rows []int, message string,
 
 // rpView is how much of the report is written and what is at hand: shown is
 // the number of session rows the readings table lists (−1: all; the rest
-// then waits in an empty placeholder for rpFillRest), plots the screen's
+// then waits in an empty placeholder for reportUI.fillRest), plots the screen's
 // drawing of rep when there is one (nil: drawn here), counts the session's
 // counts of readings (nil: counted here, every cell read again).
 type rpView struct {
@@ -501,7 +501,7 @@ func rpUse(b *rpB, s *session.Session, rep *fitcore.Report) {
 
 // rpReadings is the table of readings: every one, or when v.shown ≥ 0 and the
 // session has more rows, its first shown rows, an empty placeholder for
-// the rest (rpFillRest, before printing) and a note with a "show all"
+// the rest (reportUI.fillRest, before printing) and a note with a "show all"
 // button (the click is taken by onReportClick).
 func rpReadings(b *rpB, s *session.Session, rep *fitcore.Report, rows []int, v rpView) {
 	shown := v.shown

@@ -5,7 +5,7 @@ package ui
 // markup, which the Shell builds from the open session and fitcore's
 // report with rpBody, and the line of status under its buttons), never a
 // pointer into the Shell, and what the technician asks for goes out as a
-// ReportAction through OnAction; the Shell applies it (applyReport,
+// ReportAction through OnAction; the Shell applies it (reportUI.apply,
 // report.go). The dialog computes nothing: every figure in Body is
 // fitcore's or the session's.
 //

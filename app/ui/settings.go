@@ -223,9 +223,6 @@ func settingsWithUncertainty(s session.Settings, x bool, p *float64) session.Set
 	return s
 }
 
-// anSettings returns a copy of the session's settings whose pointer fields
-// may be replaced (SetSettings copies what it keeps).
-
 // parseAs reads one number as the readings of s are read (decimal comma
 // allowed).
 func parseAs(s *session.Session, text string) (float64, error) {

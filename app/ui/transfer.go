@@ -14,8 +14,7 @@ import (
 	"pairline/app/store"
 )
 
-// transferState is the Shell's state for files in and out, the trash, the
-// storage figures and other tabs. It is embedded in Shell.
+// transferState is the Shell's state for files in and out (Shell.xfer).
 type transferState struct {
 	importErr    string          // why the last import was refused; nothing stored changed
 	importReport string          // what the last import did
