@@ -1,6 +1,7 @@
 package session
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
@@ -151,25 +152,30 @@ func (b *blockReader) fill(n int) {
 
 // rowEnd is the end (exclusive) of the last row end outside quotes in p,
 // 0 when there is none. A CR is a row end only when the byte after it is
-// known and not LF, so a CRLF is never cut in two.
+// known and not LF, so a CRLF is never cut in two. A line end is outside
+// quotes when an even number of quotes comes before it, so the search runs
+// back from the end of p (a row's length, not the block's) after one count
+// of the quotes.
 func rowEnd(p []byte) int {
-	in, end := false, 0
-	for i, c := range p {
-		switch c {
+	quotes := bytes.Count(p, quoteByte) // quotes before p[i], as i runs back
+	for i := len(p) - 1; i >= 0; i-- {
+		switch p[i] {
 		case '"':
-			in = !in
+			quotes--
 		case '\n':
-			if !in {
-				end = i + 1
+			if quotes%2 == 0 {
+				return i + 1
 			}
 		case '\r':
-			if !in && i+1 < len(p) && p[i+1] != '\n' {
-				end = i + 1
+			if quotes%2 == 0 && i+1 < len(p) && p[i+1] != '\n' {
+				return i + 1
 			}
 		}
 	}
-	return end
+	return 0
 }
+
+var quoteByte = []byte{'"'}
 
 // rowsAtLeast reports whether text holds n non-blank rows, counted as
 // detectDelimiter counts them.
@@ -233,8 +239,15 @@ func (b *blockReader) next() string {
 	}
 }
 
-// lineEnds is the number of line ends in s (LF, CRLF, a lone CR).
-func lineEnds(s string) int { return lineAt(s, len(s)) - 1 }
+// lineEnds is the number of line ends in s (LF, CRLF, a lone CR), as
+// lineAt(s, len(s)) − 1 counts them.
+func lineEnds(s string) int {
+	n := strings.Count(s, "\n")
+	if cr := strings.Count(s, "\r"); cr > 0 {
+		n += cr - strings.Count(s, "\r\n")
+	}
+	return n
+}
 
 type pass1 struct {
 	tableCounts

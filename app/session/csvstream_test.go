@@ -321,3 +321,37 @@ func TestStreamCSVMemoryBound(t *testing.T) {
 		t.Errorf("StreamCSV allocated %d bytes for %d pairs; the bound is %d", got, n, limit)
 	}
 }
+
+// bigFileText is n invented rows in the form `make bench-fit` reads
+// (gen_fit_big.py: a conductivity probe of the fictional Larkwater Valley
+// Water Board against standards, "%.6f,%.7f", about 23 bytes a row).
+func bigFileText(n int) []byte {
+	b := []byte("standard_uS_cm,probe_uS_cm\n")
+	seed := uint64(20261202)
+	next := func() float64 {
+		seed = seed*6364136223846793005 + 1442695040888963407
+		return float64(seed>>11) / (1 << 53)
+	}
+	for range n {
+		x := 1 + 499*next()
+		y := 0.98*x + 0.3 + (next()-0.5)*0.035*x
+		b = strconv.AppendFloat(b, x, 'f', 6, 64)
+		b = append(b, ',')
+		b = strconv.AppendFloat(b, y, 'f', 7, 64)
+		b = append(b, '\n')
+	}
+	return b
+}
+
+// BenchmarkStreamCSVFile: StreamCSV on a million rows of the form of
+// `make bench-fit` (the text made once, in memory, outside the timing).
+func BenchmarkStreamCSVFile(b *testing.B) {
+	text := bigFileText(1_000_000)
+	b.SetBytes(int64(len(text)))
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := StreamCSV(bytes.NewReader(text), StreamOptions{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
