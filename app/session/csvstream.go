@@ -440,15 +440,16 @@ func (q *pass2) setAmb(cell, kind int) {
 // votes as readTable's decimal-comma rule does, and remembers how the value
 // read with a decimal comma differs (cell is its index in amb).
 func (q *pass2) cell(s string, cell int) (float64, *NumberError) {
-	if v, ok := plainNumber(s); ok {
-		if strings.IndexByte(s, '.') >= 0 {
-			q.dot++
+	v, info, alt, ok := decimalCell(s)
+	var aerr *NumberError
+	if !ok {
+		var err *NumberError
+		if v, info, err = parseNumber(s, hintDot); err != nil {
+			return 0, err
 		}
-		return v, nil
-	}
-	v, info, err := parseNumber(s, hintDot)
-	if err != nil {
-		return 0, err
+		if info.ambiguous {
+			alt, _, aerr = parseNumber(s, hintComma)
+		}
 	}
 	if !info.ambiguous {
 		switch info.dec {
@@ -459,7 +460,6 @@ func (q *pass2) cell(s string, cell int) (float64, *NumberError) {
 		}
 		return v, nil
 	}
-	alt, _, aerr := parseNumber(s, hintComma)
 	switch {
 	case aerr == nil && alt == math.Round(v*1000) && math.Signbit(alt) == math.Signbit(v):
 		q.setAmb(cell, ambTimes)
