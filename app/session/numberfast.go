@@ -50,12 +50,12 @@ func decimalCell(s string) (v float64, info numInfo, alt float64, ok bool) {
 // digits as one integer m (ni before the separator, nf after it), the
 // separator ('.', ',' or 0), the exponent, and where the digits start.
 type cellDigits struct {
-	m             uint64
-	ni, nf        int
-	sep           byte
-	exp           int
-	neg           bool
-	intStart      int
+	m        uint64
+	ni, nf   int
+	sep      byte
+	exp      int
+	neg      bool
+	intStart int
 }
 
 // decimalDigits takes s apart as decimalCell reads it; ok is false for text
