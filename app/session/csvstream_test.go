@@ -223,6 +223,11 @@ func FuzzStreamCSV(f *testing.F) {
 		if d := sameStream(got, want, gerr, werr); d != "" {
 			t.Errorf("blocks of %d bytes: %s", blockSize, d)
 		}
+		// A text that cannot tell its size: two passes, no look-ahead.
+		got, gerr = StreamCSV(&countingReader{r: bytes.NewReader(b), noSize: true}, StreamOptions{CSVOptions: opt})
+		if d := sameStream(got, want, gerr, werr); d != "" {
+			t.Errorf("two passes, blocks of %d bytes: %s", blockSize, d)
+		}
 	})
 }
 
@@ -320,6 +325,20 @@ func TestStreamCSVMemoryBound(t *testing.T) {
 	if limit := uint64(3*16*n + 4<<20); got > limit {
 		t.Errorf("StreamCSV allocated %d bytes for %d pairs; the bound is %d", got, n, limit)
 	}
+	// The same text from a reader that tells its size: read once, the
+	// columns made at the row count estimated from the first block.
+	text, err := io.ReadAll(&rowsReader{n: n})
+	if err != nil {
+		t.Fatal(err)
+	}
+	got = allocated(func() { res, err = StreamCSV(bytes.NewReader(text), StreamOptions{}) })
+	if err != nil || len(res.X) != n {
+		t.Fatalf("%v, %d pairs", err, len(res.X))
+	}
+	if limit := uint64(3*16*n + 4<<20); got > limit {
+		t.Errorf("StreamCSV allocated %d bytes for %d pairs read once; the bound is %d", got, n, limit)
+	}
+	t.Logf("read once: %d bytes allocated for %d pairs", got, n)
 }
 
 // bigFileText is n invented rows in the form `make bench-fit` reads
@@ -352,6 +371,67 @@ func BenchmarkStreamCSVFile(b *testing.B) {
 	for b.Loop() {
 		if _, err := StreamCSV(bytes.NewReader(text), StreamOptions{}); err != nil {
 			b.Fatal(err)
+		}
+	}
+}
+
+// countingReader is a text that counts the bytes read from it; with
+// noSize it cannot tell its size, so StreamCSV reads it in two passes.
+type countingReader struct {
+	r      *bytes.Reader
+	read   int64
+	noSize bool
+}
+
+func (c *countingReader) Read(p []byte) (int, error) {
+	n, err := c.r.Read(p)
+	c.read += int64(n)
+	return n, err
+}
+
+func (c *countingReader) Seek(off int64, whence int) (int64, error) {
+	if c.noSize && (off != 0 || whence != io.SeekStart) {
+		return 0, errors.New("only back to the start")
+	}
+	return c.r.Seek(off, whence)
+}
+
+// TestStreamCSVOnePass: a text whose first block chooses what the whole
+// text chooses is read once; one whose later rows change the choice (a
+// column of text that holds numbers further down), or that cannot tell its
+// size, is read twice. All three give what ReadCSV gives (the oracle).
+func TestStreamCSVOnePass(t *testing.T) {
+	defer func(n int) { blockSize = n }(blockSize)
+	blockSize = 256
+	var same, changed strings.Builder
+	same.WriteString("id,std,read\n")
+	changed.WriteString("id,std,read\n")
+	for i := range 600 {
+		fmt.Fprintf(&same, "n/a,%d,%d.5\n", i, i)
+		id := "n/a"
+		if i >= 150 {
+			id = strconv.Itoa(i)
+		}
+		fmt.Fprintf(&changed, "%s,%d,%d.25\n", id, i, i)
+	}
+	for _, tc := range []struct {
+		name   string
+		text   string
+		noSize bool
+		passes int64
+	}{
+		{"same choice", same.String(), false, 1},
+		{"choice changed", changed.String(), false, 2},
+		{"size not known", same.String(), true, 2},
+	} {
+		r := &countingReader{r: bytes.NewReader([]byte(tc.text)), noSize: tc.noSize}
+		got, err := StreamCSV(r, StreamOptions{})
+		want, werr := streamOracle(tc.text, CSVOptions{})
+		if d := sameStream(got, want, err, werr); d != "" {
+			t.Errorf("%s: %s", tc.name, d)
+		}
+		if r.read != tc.passes*int64(len(tc.text)) {
+			t.Errorf("%s: read %d bytes of %d, want %d passes", tc.name, r.read, len(tc.text), tc.passes)
 		}
 	}
 }
