@@ -230,7 +230,7 @@ func parseFitFlags(args []string) (*fitFlags, error) {
 // fitResult is a report with what the command learnt about the input.
 type fitResult struct {
 	report *fitcore.Report
-	lines  []int // file line of each pair given to Analyze
+	lines  []int32 // file line of each pair given to Analyze (as StreamCSV keeps them)
 	xName  string
 	yName  string
 	// xUnit, yUnit are the units of x and y (a CSV file's units row, a
@@ -510,11 +510,7 @@ func runFit(ff *fitFlags, opt fitcore.Options, stdin io.Reader) (*fitResult, err
 	if err != nil {
 		return nil, err
 	}
-	x, y := res.X, res.Y
-	lines := make([]int, len(res.Lines))
-	for i, l := range res.Lines {
-		lines[i] = int(l)
-	}
+	x, y, lines := res.X, res.Y, res.Lines
 	notes, skipped := fitSkipNotes(res)
 	if err := fitEnough(x, notes, skipped); err != nil {
 		return nil, err
@@ -732,7 +728,7 @@ func unwrapPath(err error) error {
 
 // explainFitError adds the file line to fitcore's data errors, which name
 // the reading by its position.
-func explainFitError(err error, lines []int) error {
+func explainFitError(err error, lines []int32) error {
 	var de *fitcore.DataError
 	if errors.As(err, &de) && de.Index >= 0 && de.Index < len(lines) {
 		return fmt.Errorf("line %d: %v", lines[de.Index], err)
