@@ -557,19 +557,18 @@ func (tc *tableCounts) addSeen(fields []string, line int, keep func([]string) []
 		tc.filled, tc.nums = append(tc.filled, 0), append(tc.nums, 0)
 	}
 	for c, f := range fields {
-		if isBlank(f) {
-			continue
-		}
-		tc.filled[c]++
 		var num bool
 		switch {
-		case c == seen.xc && f == seen.x:
+		case c == seen.xc && f == seen.x: // not blank: pass 2 read it
 			num = seen.xok
 		case c == seen.yc && f == seen.y:
 			num = seen.yok
+		case isBlank(f):
+			continue
 		default:
 			num = isNumberCell(f)
 		}
+		tc.filled[c]++
 		if num {
 			tc.nums[c]++
 		}

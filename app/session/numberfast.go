@@ -15,106 +15,96 @@ package session
 // multiplication or division m·10^k is the correctly rounded value, the
 // bits strconv.ParseFloat gives for the same text (FuzzDecimalCell checks
 // it against strconv.ParseFloat and the full parser under each hint). ok is
-// false for any other text, for more than 19 digits, beyond those bounds,
+// false for any other text, for more than 19 digits, an exponent of more than four digits, beyond those bounds,
 // and for a negative zero (all of which the full parser reads).
 func decimalCell(s string) (v float64, info numInfo, alt float64, ok bool) {
-	d, ok := decimalDigits(s)
-	if !ok {
+	// One pass over the bytes, in locals (the cell of every row of a big
+	// file comes through here): sign, digits, separator and digits, exponent.
+	n := len(s)
+	if n == 0 || n > 32 {
 		return 0, info, 0, false
+	}
+	i, neg := 0, false
+	if c := s[0]; c == '-' || c == '+' {
+		neg, i = c == '-', 1
+	}
+	intStart := i
+	var m uint64 // exact for up to 19 digits; more are refused below
+	for ; i < n && s[i]-'0' <= 9; i++ {
+		m = m*10 + uint64(s[i]-'0')
+	}
+	ni, nf, sep := i-intStart, 0, byte(0)
+	if ni == 0 {
+		return 0, info, 0, false
+	}
+	if i < n && (s[i] == '.' || s[i] == ',') {
+		sep = s[i]
+		i++
+		fracStart := i
+		for ; i < n && s[i]-'0' <= 9; i++ {
+			m = m*10 + uint64(s[i]-'0')
+		}
+		if nf = i - fracStart; nf == 0 {
+			return 0, info, 0, false
+		}
+	}
+	if ni+nf > 19 || m == 0 && neg {
+		return 0, info, 0, false
+	}
+	exp := 0
+	if i < n {
+		if exp, ok = cellExponent(s[i:]); !ok {
+			return 0, info, 0, false
+		}
 	}
 	// The exponent of the digits read as one integer, the separator a
 	// decimal one (point) or a thousands one (grouped).
-	point, grouped := d.exp-d.nf, d.exp
-	amb := d.sep != 0 && d.nf == 3 && d.ni <= 3 && s[d.intStart] != '0'
+	point, grouped := exp-nf, exp
+	amb := sep != 0 && nf == 3 && ni <= 3 && s[intStart] != '0'
 	info.ambiguous = amb
 	switch {
-	case d.sep == 0:
-		v, ok = exactValue(d.m, grouped, d.neg)
-	case d.sep == ',' && amb: // with the decimal point, "1,234" is 1234
-		v, ok = exactValue(d.m, grouped, d.neg)
+	case sep == 0:
+		v, ok = exactValue(m, grouped, neg)
+	case sep == ',' && amb: // with the decimal point, "1,234" is 1234
+		v, ok = exactValue(m, grouped, neg)
 	default:
-		info.dec = rune(d.sep)
-		v, ok = exactValue(d.m, point, d.neg)
+		info.dec = rune(sep)
+		v, ok = exactValue(m, point, neg)
 	}
 	if ok && amb {
 		k := grouped // "1.234" with the decimal comma is 1234
-		if d.sep == ',' {
+		if sep == ',' {
 			k = point
 		}
-		alt, ok = exactValue(d.m, k, d.neg)
+		alt, ok = exactValue(m, k, neg)
 	}
 	return v, info, alt, ok
 }
 
-// cellDigits is the text of a plain decimal cell taken apart: the sign, the
-// digits as one integer m (ni before the separator, nf after it), the
-// separator ('.', ',' or 0), the exponent, and where the digits start.
-type cellDigits struct {
-	m        uint64
-	ni, nf   int
-	sep      byte
-	exp      int
-	neg      bool
-	intStart int
-}
-
-// decimalDigits takes s apart as decimalCell reads it; ok is false for text
-// of another form, more than 19 digits or an exponent above 9999.
-func decimalDigits(s string) (d cellDigits, ok bool) {
-	if len(s) == 0 || len(s) > 32 {
-		return d, false
+// cellExponent reads the exponent that ends a plain decimal cell: 'e' or
+// 'E', an optional '+' or '-', at least one digit, nothing after; ok is
+// false for other text and for exponents above 9999.
+func cellExponent(t string) (exp int, ok bool) {
+	if t[0] != 'e' && t[0] != 'E' {
+		return 0, false
 	}
-	i := 0
-	if s[0] == '-' || s[0] == '+' {
-		d.neg, i = s[0] == '-', 1
+	i, neg := 1, false
+	if i < len(t) && (t[i] == '-' || t[i] == '+') {
+		neg, i = t[i] == '-', i+1
 	}
-	d.intStart = i
-	i = d.digits(s, i)
-	d.ni = i - d.intStart
-	if d.ni == 0 {
-		return d, false
+	if i == len(t) || len(t)-i > 4 {
+		return 0, false
 	}
-	if i < len(s) && (s[i] == '.' || s[i] == ',') {
-		d.sep = s[i]
-		j := d.digits(s, i+1)
-		d.nf = j - i - 1
-		if d.nf == 0 {
-			return d, false
+	for ; i < len(t); i++ {
+		if t[i]-'0' > 9 {
+			return 0, false
 		}
-		i = j
+		exp = 10*exp + int(t[i]-'0')
 	}
-	if d.ni+d.nf > 19 || d.m == 0 && d.neg {
-		return d, false
+	if neg {
+		exp = -exp
 	}
-	if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
-		i++
-		eneg := false
-		if i < len(s) && (s[i] == '-' || s[i] == '+') {
-			eneg, i = s[i] == '-', i+1
-		}
-		start := i
-		for i < len(s) && isDigit(s[i]) && d.exp <= 9999 {
-			d.exp = 10*d.exp + int(s[i]-'0')
-			i++
-		}
-		if i == start || d.exp > 9999 {
-			return d, false
-		}
-		if eneg {
-			d.exp = -d.exp
-		}
-	}
-	return d, i == len(s)
-}
-
-// digits adds the digits of s from i to d.m (exact up to 19 of them; the
-// caller refuses more) and returns the index after them.
-func (d *cellDigits) digits(s string, i int) int {
-	for i < len(s) && isDigit(s[i]) {
-		d.m = d.m*10 + uint64(s[i]-'0')
-		i++
-	}
-	return i
+	return exp, true
 }
 
 // exactValue is ±m·10^k when m ≤ 2^53 and |k| ≤ 22, where it is one
