@@ -88,14 +88,19 @@ type StreamOptions struct {
 // ReadCSV's rules (delimiter, header, column and decimal-comma detection,
 // line ends, quotes, the per-cell and per-row limits) and error sentences,
 // and ParseNumberHint for the numbers, but keeps the chosen columns as
-// float64 (not as text) and reads r in blocks of whole rows, twice: r must
-// be at its start and is sought back to it for the second pass.
+// float64 (not as text) and reads r in blocks of whole rows: r must be at
+// its start. Pass 1 (counts for the header and column choice) and pass 2
+// (the chosen cells as numbers) run together on the choice the first block
+// gives (lookAhead); only when the whole text chooses differently, or r
+// cannot tell its size, is r sought back to its start and read again for
+// pass 2. Either way the result is the same.
 //
-// Limits: MaxStreamSize bytes, MaxStreamRows data rows. Cost: two passes,
-// linear in the text; memory about 20 bytes a pair (two float64 and an
-// int32 line, made once at the row count of pass 1), half a byte a pair
-// for the cells whose decimal separator is ambiguous, the cells that are
-// not numbers, and a buffer of about a MiB.
+// Limits: MaxStreamSize bytes, MaxStreamRows data rows. Cost: linear in
+// the text, one pass or two; memory about 20 bytes a pair (two float64 and
+// an int32 line, made once at the row count estimated from the first
+// block's rows per byte, or counted by pass 1), half a byte a pair for the
+// cells whose decimal separator is ambiguous, the cells that are not
+// numbers, and a buffer of about a MiB.
 //
 // Text that is not UTF-8 (read as Latin-1) or UTF-16 is read with ReadCSV
 // itself, within its limits (MaxCSVSize, MaxReadings): such files come from
