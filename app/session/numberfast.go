@@ -18,65 +18,92 @@ package session
 // false for any other text, for more than 19 digits, an exponent of more than four digits, beyond those bounds,
 // and for a negative zero (all of which the full parser reads).
 func decimalCell(s string) (v float64, info numInfo, alt float64, ok bool) {
-	// One pass over the bytes, in locals (the cell of every row of a big
-	// file comes through here): sign, digits, separator and digits, exponent.
+	p, ok := cellPartsOf(s)
+	if !ok {
+		return 0, info, 0, false
+	}
+	return p.values()
+}
+
+// cellParts is a plain decimal cell taken apart: the digits as one integer
+// m (ni before the separator, nf after it; exact for up to 19 of them), the
+// separator ('.', ',' or 0), the exponent and the sign; lead0 says the
+// first digit is 0.
+type cellParts struct {
+	m          uint64
+	ni, nf     int
+	exp        int
+	sep        byte
+	neg, lead0 bool
+}
+
+// cellPartsOf takes s apart in one pass over its bytes (every cell of a big
+// file comes through here): sign, digits, separator and digits, exponent.
+// ok is false for text of another form, more than 19 digits and a
+// negative zero.
+func cellPartsOf(s string) (p cellParts, ok bool) {
 	n := len(s)
 	if n == 0 || n > 32 {
-		return 0, info, 0, false
+		return p, false
 	}
-	i, neg := 0, false
+	i := 0
 	if c := s[0]; c == '-' || c == '+' {
-		neg, i = c == '-', 1
+		p.neg, i = c == '-', 1
 	}
-	intStart := i
-	var m uint64 // exact for up to 19 digits; more are refused below
-	for ; i < n && s[i]-'0' <= 9; i++ {
+	start := i
+	p.m, i = addDigits(s, i, 0)
+	if p.ni = i - start; p.ni == 0 {
+		return p, false
+	}
+	p.lead0 = s[start] == '0'
+	if i < n && (s[i] == '.' || s[i] == ',') {
+		p.sep = s[i]
+		p.m, i = addDigits(s, i+1, p.m)
+		if p.nf = i - start - p.ni - 1; p.nf == 0 {
+			return p, false
+		}
+	}
+	if p.ni+p.nf > 19 || p.m == 0 && p.neg {
+		return p, false
+	}
+	if i < n {
+		p.exp, ok = cellExponent(s[i:])
+		return p, ok
+	}
+	return p, true
+}
+
+// addDigits adds the digits of s from i on to m and returns it with the
+// index after them.
+func addDigits(s string, i int, m uint64) (uint64, int) {
+	for ; i < len(s) && s[i]-'0' <= 9; i++ {
 		m = m*10 + uint64(s[i]-'0')
 	}
-	ni, nf, sep := i-intStart, 0, byte(0)
-	if ni == 0 {
-		return 0, info, 0, false
-	}
-	if i < n && (s[i] == '.' || s[i] == ',') {
-		sep = s[i]
-		i++
-		fracStart := i
-		for ; i < n && s[i]-'0' <= 9; i++ {
-			m = m*10 + uint64(s[i]-'0')
-		}
-		if nf = i - fracStart; nf == 0 {
-			return 0, info, 0, false
-		}
-	}
-	if ni+nf > 19 || m == 0 && neg {
-		return 0, info, 0, false
-	}
-	exp := 0
-	if i < n {
-		if exp, ok = cellExponent(s[i:]); !ok {
-			return 0, info, 0, false
-		}
-	}
+	return m, i
+}
+
+// values is what parseNumber gives for the cell with the decimal point
+// (and, in the ambiguous form, alt: with the decimal comma), by the exact
+// fast path; ok is false beyond its bounds.
+func (p cellParts) values() (v float64, info numInfo, alt float64, ok bool) {
 	// The exponent of the digits read as one integer, the separator a
 	// decimal one (point) or a thousands one (grouped).
-	point, grouped := exp-nf, exp
-	amb := sep != 0 && nf == 3 && ni <= 3 && s[intStart] != '0'
+	point, grouped := p.exp-p.nf, p.exp
+	amb := p.sep != 0 && p.nf == 3 && p.ni <= 3 && !p.lead0
 	info.ambiguous = amb
 	switch {
-	case sep == 0:
-		v, ok = exactValue(m, grouped, neg)
-	case sep == ',' && amb: // with the decimal point, "1,234" is 1234
-		v, ok = exactValue(m, grouped, neg)
+	case p.sep == 0, p.sep == ',' && amb: // with the decimal point, "1,234" is 1234
+		v, ok = exactValue(p.m, grouped, p.neg)
 	default:
-		info.dec = rune(sep)
-		v, ok = exactValue(m, point, neg)
+		info.dec = rune(p.sep)
+		v, ok = exactValue(p.m, point, p.neg)
 	}
 	if ok && amb {
 		k := grouped // "1.234" with the decimal comma is 1234
-		if sep == ',' {
+		if p.sep == ',' {
 			k = point
 		}
-		alt, ok = exactValue(m, k, neg)
+		alt, ok = exactValue(p.m, k, p.neg)
 	}
 	return v, info, alt, ok
 }
