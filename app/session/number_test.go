@@ -348,3 +348,14 @@ func checkDecimalCell(t *testing.T, s string) {
 		}
 	}
 }
+
+// BenchmarkDecimalCell: the fast path on the cells of `make bench-fit`'s
+// file and a few other plain forms.
+func BenchmarkDecimalCell(b *testing.B) {
+	cells := []string{"189.590210", "191.2120784", "80.664576", "79.1984701", "12,5", "1.234", "-1.5e-3", "1200"}
+	for b.Loop() {
+		for _, s := range cells {
+			decimalCell(s)
+		}
+	}
+}

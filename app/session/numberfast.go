@@ -18,11 +18,40 @@ package session
 // false for any other text, for more than 19 digits, an exponent of more than four digits, beyond those bounds,
 // and for a negative zero (all of which the full parser reads).
 func decimalCell(s string) (v float64, info numInfo, alt float64, ok bool) {
-	p, ok := cellPartsOf(s)
-	if !ok {
+	// The cell of nearly every row of a big file: digits, maybe one
+	// separator with other than three digits after it, no exponent. It is
+	// read here in one pass over locals; every other cell is taken apart
+	// by cellPartsOf.
+	if len(s) == 0 || len(s) > 32 {
 		return 0, info, 0, false
 	}
-	return p.values()
+	i, neg := 0, false
+	if c := s[0]; c == '-' || c == '+' {
+		neg, i = c == '-', 1
+	}
+	m, j := addDigits(s, i, 0)
+	ni, nf, sep := j-i, 0, byte(0)
+	if j < len(s) && (s[j] == '.' || s[j] == ',') {
+		sep = s[j]
+		m, j = addDigits(s, j+1, m)
+		nf = j - i - ni - 1
+	}
+	if j < len(s) || !plainShape(ni, nf, sep != 0) || m == 0 && neg {
+		p, ok := cellPartsOf(s)
+		if !ok {
+			return 0, info, 0, false
+		}
+		return p.values()
+	}
+	info.dec = rune(sep)
+	v, ok = exactValue(m, -nf, neg)
+	return v, info, 0, ok
+}
+
+// plainShape: digits before the separator, and after it (if there is one)
+// other than three, 19 digits at most: no exponent, not the ambiguous form.
+func plainShape(ni, nf int, sep bool) bool {
+	return ni > 0 && ni+nf <= 19 && (!sep || nf > 0 && nf != 3)
 }
 
 // cellParts is a plain decimal cell taken apart: the digits as one integer
