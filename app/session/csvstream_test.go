@@ -232,15 +232,22 @@ func FuzzStreamCSV(f *testing.F) {
 }
 
 // rowsReader is a text of a header and n rows "i,2i+1", made as it is read.
+// With noHeader the header is left out; with sized it tells its size
+// (Seek to the end), so StreamCSV reads it once.
 type rowsReader struct {
-	n, i int
-	buf  []byte
+	n, i            int
+	buf             []byte
+	noHeader, sized bool
+	pos             int64 // the offset
+	total           int64 // bytes read, over all passes
 }
 
 func (r *rowsReader) Read(p []byte) (int, error) {
 	for len(r.buf) < len(p) && r.i <= r.n {
 		if r.i == 0 {
-			r.buf = append(r.buf, "x,y\n"...)
+			if !r.noHeader {
+				r.buf = append(r.buf, "x,y\n"...)
+			}
 		} else {
 			r.buf = strconv.AppendInt(r.buf, int64(r.i), 10)
 			r.buf = append(r.buf, ',')
@@ -254,14 +261,30 @@ func (r *rowsReader) Read(p []byte) (int, error) {
 	}
 	n := copy(p, r.buf)
 	r.buf = r.buf[:copy(r.buf, r.buf[n:])]
+	r.pos += int64(n)
+	r.total += int64(n)
 	return n, nil
 }
 
 func (r *rowsReader) Seek(off int64, whence int) (int64, error) {
-	if off != 0 || whence != io.SeekStart {
+	switch {
+	case r.sized && off == 0 && whence == io.SeekCurrent:
+		return r.pos, nil
+	case r.sized && off == 0 && whence == io.SeekEnd:
+		size := int64(4)
+		if r.noHeader {
+			size = 0
+		}
+		for i := 1; i <= r.n; i++ {
+			size += int64(len(strconv.Itoa(i)) + len(strconv.Itoa(2*i+1)) + 2)
+		}
+		return size, nil
+	case r.sized && whence == io.SeekStart && off == r.pos:
+		return r.pos, nil // streamSize going back to where it was
+	case off != 0 || whence != io.SeekStart:
 		return 0, errors.New("only back to the start")
 	}
-	r.i, r.buf = 0, r.buf[:0]
+	r.i, r.buf, r.pos = 0, r.buf[:0], 0
 	return 0, nil
 }
 
@@ -280,6 +303,37 @@ func TestStreamCSVRowLimit(t *testing.T) {
 	if ce.Line != MaxStreamRows+2 || !strings.Contains(err.Error(), strconv.Itoa(MaxStreamRows)) {
 		t.Errorf("got %q at line %d; want line %d naming %d", err, ce.Line, MaxStreamRows+2, MaxStreamRows)
 	}
+}
+
+// TestStreamCSVRowLimitNoHeader: MaxStreamRows+1 data rows without a
+// header pass pass 1's count of rows (which leaves room for a header) and
+// are refused by pass 2 at the first row too many, read once (the
+// look-ahead) or twice, with the same error.
+func TestStreamCSVRowLimitNoHeader(t *testing.T) {
+	if testing.Short() {
+		t.Skip("reads 10⁷ rows twice")
+	}
+	for _, sized := range []bool{true, false} {
+		r := &rowsReader{n: MaxStreamRows + 1, noHeader: true, sized: sized}
+		_, err := StreamCSV(r, StreamOptions{})
+		var ce *CSVError
+		if !errors.As(err, &ce) || !errors.Is(err, ErrCSVStreamRows) || ce.Line != MaxStreamRows+1 {
+			t.Errorf("read once %v: got %v; want the row limit at line %d", sized, err, MaxStreamRows+1)
+		}
+		if once := r.total == r.mustSize(t); once != sized {
+			t.Errorf("read once %v: read %d bytes", sized, r.total)
+		}
+	}
+}
+
+func (r *rowsReader) mustSize(t *testing.T) int64 {
+	sized := *r
+	sized.sized = true
+	n, err := sized.Seek(0, io.SeekEnd)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return n
 }
 
 // TestStreamCSVNumbers: the numbers of a generated text of many rows are
