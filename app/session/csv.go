@@ -389,9 +389,6 @@ func delimiterByCounts(counts [][3]int) rune {
 // the ambiguous form). Cells that cannot start a number (a letter, a quote)
 // are turned down at once: the column counts check every cell.
 func isNumberCell(s string) bool {
-	if _, _, _, ok := decimalCell(s); ok {
-		return true
-	}
 	if _, ok := plainNumber(s); ok {
 		return true
 	}

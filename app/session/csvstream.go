@@ -571,7 +571,8 @@ func (tc *tableCounts) addSeen(fields []string, line int, keep func([]string) []
 		case isBlank(f):
 			continue
 		default:
-			num = isNumberCell(f)
+			_, _, _, num = decimalCell(f)
+			num = num || isNumberCell(f) // decimalCell's cells are numbers to isNumberCell
 		}
 		tc.filled[c]++
 		if num {

@@ -67,12 +67,6 @@ func ParseNumber(s string) (float64, error) {
 // 1.234. Unambiguous text reads the same whatever the hint: "3,14" is 3.14
 // and "3.14" is 3.14 in both cases.
 func ParseNumberHint(s string, decimalComma bool) (float64, error) {
-	if v, info, alt, ok := decimalCell(s); ok {
-		if info.ambiguous && decimalComma {
-			return alt, nil
-		}
-		return v, nil
-	}
 	if v, ok := plainNumber(s); ok {
 		return v, nil
 	}
