@@ -62,6 +62,8 @@ type anScratch struct {
 	// texts or per-reading influence, residuals in the space below).
 	refit          bool
 	fitted, resids []float64
+	yt             []float64 // a refit's y on its scale
+	w, pr          []float64 // a refit's weights and Pearson residuals
 }
 
 // bcCache keeps one Box–Cox profile; mu is held while it is worked out, so
@@ -114,6 +116,7 @@ func (s *anScratch) fork() *anScratch {
 		lof: lofShared{x: s.lof.x, m: s.lof.m, ends: s.lof.ends, xl: s.lof.xl},
 	}
 	f.sb.swA = maps.Clone(s.sb.swA)
+	f.dw.buf = [2][]float64{} // (its own space for weighted designs)
 	return f
 }
 
@@ -196,7 +199,18 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	if err != nil {
 		return nil, err
 	}
-	xt, yt, err := tr.apply(x, y)
+	var ybuf []float64
+	if sc.refit {
+		// A refit's y on its scale lives in sc until the next refit;
+		// lack of fit's copy of the last one, gathered in the order of x,
+		// no longer describes the space and is let go.
+		sc.yt = ckGrowF64(sc.yt, len(y))
+		ybuf = sc.yt
+		if l := &sc.lof; len(l.ysOf) > 0 && len(ybuf) > 0 && &l.ysOf[0] == &ybuf[0] {
+			l.ysOf = nil
+		}
+	}
+	xt, yt, err := tr.applyIn(x, y, ybuf)
 	if err != nil {
 		return nil, err
 	}
@@ -213,7 +227,13 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 		f, err = fitDeming(xt, yt, o.VarianceRatio)
 	default:
 		if o.Weights != WeightsNone {
-			w, wm, err = schemeWeights(o.Weights, xt, yt, o.GivenWeights, origin, rep)
+			var wbuf []float64
+			if sc.refit {
+				// (A refit's weights live in sc until the next refit.)
+				sc.w = ckGrowF64(sc.w, len(xt))
+				wbuf = sc.w
+			}
+			w, wm, err = schemeWeights(o.Weights, xt, yt, o.GivenWeights, origin, rep, wbuf)
 			if err != nil {
 				return nil, err
 			}
@@ -349,8 +369,13 @@ func (fc *fitContext) checkInputs() checkInputs {
 		in.w = safeScaled(in.w)
 	}
 	in.pr = in.res
-	if in.w != nil {
+	if in.w != nil && fc.sc.refit {
+		fc.sc.pr = ckGrowF64(fc.sc.pr, len(in.res))
+		in.pr = fc.sc.pr
+	} else if in.w != nil {
 		in.pr = make([]float64, len(in.res))
+	}
+	if in.w != nil {
 		for i, e := range in.res {
 			in.pr[i] = math.Sqrt(in.w[i]) * e
 		}

@@ -238,6 +238,10 @@ type ckPre struct {
 	// dw, when set, keeps the Durbin–Watson design between the analyses
 	// that share it (the advice's refits).
 	dw *dwShared
+	// sq keeps the moments of e² that Breusch–Pagan worked out for White,
+	// which asks about the same residuals (sqOf) next.
+	sqOf []float64
+	sq   ckSqMoments
 }
 
 func ckPrepare(x []float64) *ckPre {

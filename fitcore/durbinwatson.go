@@ -208,6 +208,10 @@ type dwShared struct {
 	dz             *dwDesign
 	ok             bool
 	mean, variance float64
+
+	// buf is the space of the columns of a weighted design (worked out
+	// anew for every weighting, used only while its check runs).
+	buf [2][]float64
 }
 
 // design returns newDWDesign(x, w, origin) and its moments, from s when s
@@ -215,7 +219,11 @@ type dwShared struct {
 // nothing.
 func (s *dwShared) design(x, w []float64, origin bool) (dz *dwDesign, mean, variance float64, ok bool) {
 	if s == nil || w != nil || len(x) == 0 {
-		if dz, ok = newDWDesign(x, w, origin); ok {
+		var buf *[2][]float64
+		if s != nil {
+			buf = &s.buf
+		}
+		if dz, ok = newDWDesignIn(x, w, origin, buf); ok {
 			mean, variance = dz.moments()
 		}
 		return dz, mean, variance, ok
@@ -286,15 +294,26 @@ type dwDesign struct {
 // false when the x column is, to 1e-10 of its norm, a multiple of the
 // first (no spread).
 func newDWDesign(x, w []float64, origin bool) (*dwDesign, bool) {
+	return newDWDesignIn(x, w, origin, nil)
+}
+
+// newDWDesignIn is newDWDesign with the columns in the space buf (nil:
+// new slices); the design then lives in buf until buf is used again.
+func newDWDesignIn(x, w []float64, origin bool, buf *[2][]float64) (*dwDesign, bool) {
 	sw := dwRootWeights(w)
+	var u1, u2 []float64
+	if buf != nil {
+		buf[0], buf[1] = ckGrowF64(buf[0], len(x)), ckGrowF64(buf[1], len(x))
+		u1, u2 = buf[0][:len(x)], buf[1][:len(x)]
+	}
 	if origin {
-		u, ok := dwOriginColumn(x, sw)
+		u, ok := dwOriginColumn(x, sw, u1)
 		if !ok {
 			return nil, false
 		}
 		return &dwDesign{n: len(x), u: [2][]float64{u}, k: 1}, true
 	}
-	u1, u2, ok := dwLineColumns(x, sw)
+	u1, u2, ok := dwLineColumns(x, sw, u1, u2)
 	if !ok {
 		return nil, false
 	}
@@ -336,7 +355,7 @@ func dwNormalize(v []float64) float64 {
 
 // dwOriginColumn is the one column of a line through the origin,
 // √w·x/max|x| normalized; ok is false when x is zero or not finite.
-func dwOriginColumn(x []float64, sw func(int) float64) ([]float64, bool) {
+func dwOriginColumn(x []float64, sw func(int) float64, u []float64) ([]float64, bool) {
 	var big float64
 	for _, v := range x {
 		big = max(big, math.Abs(v))
@@ -344,7 +363,9 @@ func dwOriginColumn(x []float64, sw func(int) float64) ([]float64, bool) {
 	if big == 0 || !ckFinite(big) {
 		return nil, false
 	}
-	u := make([]float64, len(x))
+	if len(u) != len(x) {
+		u = make([]float64, len(x))
+	}
 	for t, v := range x {
 		u[t] = sw(t) * (v / big)
 	}
@@ -357,15 +378,18 @@ func dwOriginColumn(x []float64, sw func(int) float64) ([]float64, bool) {
 // dwLineColumns are the two orthonormal columns of a line with an
 // intercept: √w normalized, and √w·z, z = (x − mean)/sd, made orthogonal
 // to it by Gram–Schmidt twice, then normalized; ok is false when x has no
-// spread (what is left of the second column is below 1e-10 of it).
-func dwLineColumns(x []float64, sw func(int) float64) (u1, u2 []float64, ok bool) {
+// spread (what is left of the second column is below 1e-10 of it). The
+// columns are written into u1 and u2 when they have the length of x (new
+// slices otherwise).
+func dwLineColumns(x []float64, sw func(int) float64, u1, u2 []float64) ([]float64, []float64, bool) {
 	m, s := ckMeanSD(x)
 	if s == 0 || !ckFinite(s) {
 		return nil, nil, false
 	}
 	n := len(x)
-	u1 = make([]float64, n)
-	u2 = make([]float64, n)
+	if len(u1) != n || len(u2) != n {
+		u1, u2 = make([]float64, n), make([]float64, n)
+	}
 	for t, v := range x {
 		st := sw(t)
 		u1[t] = st

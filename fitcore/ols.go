@@ -272,7 +272,10 @@ func (f *lineFit) safe() bool {
 func fitScaled(f *lineFit, x, y, w []float64, origin bool, kx, ky, cw float64) bool {
 	n := len(x)
 	*f = lineFit{n: n, origin: origin, weighted: w != nil, kx: kx, ky: ky, cw: cw}
-	if w != nil {
+	switch {
+	case w != nil && cw == 1:
+		f.w = w // w·1 is w, bit for bit (f.w is only read)
+	case w != nil:
 		ws := make([]float64, n)
 		for i, wi := range w {
 			ws[i] = wi * cw
@@ -577,10 +580,14 @@ func (m *weightModel) at(x float64) (float64, bool) {
 //	                                 Transformation and Weighting in Regression, 1988, §3.3)
 //
 // Source for the weighting: Draper & Smith §9.2; NIST/SEMATECH e-Handbook §4.4.5.2.
-func schemeWeights(scheme WeightScheme, x, y, given []float64, origin bool, rep *Report) ([]float64, *weightModel, error) {
+//
+// The weights are written into buf when its capacity is at least len(x)
+// (a new slice otherwise; nil: always new).
+func schemeWeights(scheme WeightScheme, x, y, given []float64, origin bool, rep *Report, buf []float64) ([]float64, *weightModel, error) {
 	n := len(x)
 	m := &weightModel{scheme: scheme}
-	w := make([]float64, n)
+	w := ckGrowF64(buf, n)
+	clear(w)
 	bad := func(i int, col string, v float64, hint string) error {
 		return &DataError{Index: i, Column: col, Value: v, Err: ErrBadWeight, Hint: hint}
 	}
