@@ -5,7 +5,6 @@ import (
 	"maps"
 	"math"
 	"reflect"
-	"slices"
 	"strconv"
 	"sync"
 )
@@ -42,7 +41,6 @@ func Analyze(x, y []float64, opt Options) (*Report, error) {
 // advice (which all see the same x).
 type anScratch struct {
 	sb     ckSortBuf // Shapiro–Wilk's
-	xsb    ckSortBuf // the order of x
 	x      []float64 // the readings xOrder belongs to
 	xOrder []int32   // positions of x in ascending order; nil when x is in order
 
@@ -60,10 +58,10 @@ type anScratch struct {
 	// refit is set while the advice refits a remedy: only what a Candidate
 	// takes from the report is needed (no Box–Cox profile, no reasons
 	// texts or per-reading influence, residuals in the space below).
-	refit          bool
-	fitted, resids []float64
-	yt             []float64 // a refit's y on its scale
-	w, pr          []float64 // a refit's weights and Pearson residuals
+	refit  bool
+	resids []float64
+	yt     []float64 // a refit's y on its scale
+	w, pr  []float64 // a refit's weights and Pearson residuals
 }
 
 // bcCache keeps one Box–Cox profile; mu is held while it is worked out, so
@@ -162,7 +160,10 @@ func (s *anScratch) orderOf(x []float64) []int32 {
 	if ckAscending(x) {
 		s.xOrder = nil
 	} else {
-		s.xOrder = slices.Clone(s.xsb.order(x))
+		// The sort's work space (two key–position pairs a reading) is let
+		// go at once; only the positions are kept.
+		var b ckSortBuf
+		s.xOrder = b.order(x)
 	}
 	return s.xOrder
 }
@@ -265,16 +266,21 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	} else {
 		rep.R = f.pearsonR()
 	}
+	fitOK, fitBad := true, 0.0
 	if sc.refit {
-		sc.fitted = ckGrowF64(sc.fitted, len(xt))
+		// A candidate takes neither: the residuals live in sc and the
+		// fitted values are only looked at for being finite.
 		sc.resids = ckGrowF64(sc.resids, len(xt))
-		rep.Fitted, rep.Residuals = sc.fitted, sc.resids
-		f.fittedResidualsInto(xt, yt, rep.Fitted, rep.Residuals)
+		rep.Residuals = sc.resids
+		fitBad, fitOK = f.residualsInto(xt, yt, rep.Residuals)
 	} else {
 		rep.Fitted, rep.Residuals = f.fittedResiduals(xt, yt)
 	}
 	if err := unitsInRange(rep); err != nil {
 		return nil, err
+	}
+	if !fitOK {
+		return nil, unitsErr("the fitted values and residuals", fitBad)
 	}
 	tr.setSmearing(rep.Residuals)
 	if tr.isLogY() {
@@ -705,12 +711,7 @@ var tooLargeHint = fmt.Sprintf("Readings may be at most %g in size; rescale the 
 // figures shown in the readings' units are at stake.
 func unitsInRange(rep *Report) error {
 	const tiny = 0x1p-1000
-	bad := func(what string, v float64) error {
-		if isFiniteNum(v) {
-			return fmt.Errorf("%w: the readings are too small (or too close together) for %s to be given in their units without losing its digits; rescale the units (for example to milli- or micro-units)", ErrOutOfRange, what)
-		}
-		return fmt.Errorf("%w: the readings are too large for %s to be given in their units (it exceeds 1.8e308); rescale the units (for example to kilo- or mega-units)", ErrOutOfRange, what)
-	}
+	bad := unitsErr
 	if !(rep.Sxx >= tiny) || !isFiniteNum(rep.Sxx) {
 		return bad("the sum of squares of x about its mean", rep.Sxx)
 	}
@@ -738,6 +739,15 @@ func unitsInRange(rep *Report) error {
 		}
 	}
 	return nil
+}
+
+// unitsErr is unitsInRange's error for the figure what, of value v (finite:
+// too small to keep its digits; not finite: too large).
+func unitsErr(what string, v float64) error {
+	if isFiniteNum(v) {
+		return fmt.Errorf("%w: the readings are too small (or too close together) for %s to be given in their units without losing its digits; rescale the units (for example to milli- or micro-units)", ErrOutOfRange, what)
+	}
+	return fmt.Errorf("%w: the readings are too large for %s to be given in their units (it exceeds 1.8e308); rescale the units (for example to kilo- or mega-units)", ErrOutOfRange, what)
 }
 
 // complete adds the Box–Cox profile (when every y > 0) and the advice to a

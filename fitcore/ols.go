@@ -505,6 +505,30 @@ func (f *lineFit) fittedResidualsInto(x, y, fitted, resid []float64) {
 	}
 }
 
+// residualsInto is fittedResidualsInto without keeping the fitted values:
+// the same residuals, bit for bit, and ok false when a fitted value or a
+// residual is not finite (bad is then fitted + residual of the first).
+func (f *lineFit) residualsInto(x, y, resid []float64) (bad float64, ok bool) {
+	n := len(x)
+	kx, ky, xc, a, b1 := f.kx, f.ky, f.xc, f.a, f.b1
+	iy := 1 / ky
+	ok = true
+	for i := range n {
+		fs := a + b1*(x[i]*kx-xc)
+		fv := fs * iy
+		r := (y[i]*ky - fs) * iy
+		resid[i] = r
+		if s := fv + r; s-s != 0 && ok {
+			// (x − x is 0 for every finite x; a sum of finite values
+			// can still overflow, so each is looked at.)
+			if !isFiniteNum(fv) || !isFiniteNum(r) {
+				bad, ok = s, false
+			}
+		}
+	}
+	return bad, ok
+}
+
 // fitAt is ŷ at x (original units in and out).
 func (f *lineFit) fitAt(x float64) float64 {
 	return (f.a + f.b1*(x*f.kx-f.xc)) / f.ky
