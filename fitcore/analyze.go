@@ -531,8 +531,13 @@ func (fc *fitContext) finishChecks(inflSummary Assumption) {
 	rep := fc.rep
 	origin := fc.opt.Model == ModelOrigin
 	var dep *Departures
-	if !fc.noScatter && (!fc.sc.refit || fc.sizedFail()) {
-		dep = departures(fc.xt, fc.yt, rep.Residuals, fc.w, origin, fc.allowedResidual())
+	parts := depAll
+	if fc.sc.refit {
+		// A refit's sizes are read only where a Fail could become a Warn.
+		parts = fc.failedParts()
+	}
+	if !fc.noScatter && (parts.curvature || parts.scatter || parts.drift) {
+		dep = departuresOf(fc.xt, fc.yt, rep.Residuals, fc.w, origin, fc.allowedResidual(), parts)
 	}
 	if fc.sc.refit {
 		rep.Assumptions = summarize(rep.Checks, inflSummary, dep)
@@ -578,15 +583,25 @@ func (fc *fitContext) nameSlip() {
 	}
 }
 
-// sizedFail says whether a check whose Fail needs a practical size failed.
-func (fc *fitContext) sizedFail() bool {
+// failedParts says which practical sizes a Fail of the checks needs: the
+// curvature gap for a Fail of curvature or lack of fit, the scatter in
+// thirds for Breusch–Pagan or White, the drift for Durbin–Watson or runs
+// (summarize reads each only for a Fail of its assumption).
+func (fc *fitContext) failedParts() depParts {
 	c := &fc.rep.Checks
-	for _, k := range []*Check{&c.Curvature, c.LackOfFit, &c.BreuschPagan, &c.White, &c.DurbinWatson, &c.Runs} {
-		if k != nil && k.Verdict == Fail {
-			return true
+	failed := func(ks ...*Check) bool {
+		for _, k := range ks {
+			if k != nil && k.Verdict == Fail {
+				return true
+			}
 		}
+		return false
 	}
-	return false
+	return depParts{
+		curvature: failed(&c.Curvature, c.LackOfFit),
+		scatter:   failed(&c.BreuschPagan, &c.White),
+		drift:     failed(&c.DurbinWatson, &c.Runs),
+	}
 }
 
 // allowedResidual is the largest residual the acceptance criteria allow,

@@ -88,29 +88,57 @@ const (
 // largest residual the acceptance criteria allow in y units of the fitted
 // scale (0: none).
 func departures(xt, yt, e, w []float64, origin bool, allowed float64) *Departures {
+	return departuresOf(xt, yt, e, w, origin, allowed, depAll)
+}
+
+// depParts says which of the sizes departuresOf works out.
+type depParts struct{ curvature, scatter, drift bool }
+
+var depAll = depParts{true, true, true}
+
+// departuresOf is departures working out only the parts asked for (the
+// fields of the others stay zero, Known… false).
+func departuresOf(xt, yt, e, w []float64, origin bool, allowed float64, parts depParts) *Departures {
 	d := &Departures{}
-	if g, pc, sq, ok := curvatureGap(xt, yt, w, origin); ok {
-		d.CurvatureGap, d.CurvatureGapPercent, d.KnownCurvature = g, pc, true
-		if sq > 0 {
-			d.CurvatureGapSD = g / sq
-		}
-		if allowed > 0 {
-			d.CurvatureGapOfAllowed = g / allowed
-			d.CurvatureMatters = g > CurvatureSizeAllowed*allowed
-		} else {
-			d.CurvatureMatters = (sq == 0 && g > 0) || g > CurvatureSizeSD*sq
-		}
+	if parts.curvature {
+		d.curvature(xt, yt, w, origin, allowed)
 	}
-	d.scatterThirds(xt, e, w)
+	var k float64 // the scale of the Pearson residuals, shared by both
+	if parts.scatter || parts.drift {
+		k = sizesScale(e, w)
+	}
+	if parts.scatter {
+		d.scatterThirds(xt, e, w, k)
+	}
 	np := 2
 	if origin {
 		np = 1
 	}
-	d.drift(e, w, np)
+	if parts.drift {
+		d.drift(e, w, np, k)
+	}
 	if !ckFinite(d.CurvatureGapSD) || !ckFinite(d.CurvatureGapOfAllowed) {
 		d.CurvatureGapSD, d.CurvatureGapOfAllowed = 0, 0
 	}
 	return d
+}
+
+// curvature sets the Curvature… fields from curvatureGap.
+func (d *Departures) curvature(xt, yt, w []float64, origin bool, allowed float64) {
+	g, pc, sq, ok := curvatureGap(xt, yt, w, origin)
+	if !ok {
+		return
+	}
+	d.CurvatureGap, d.CurvatureGapPercent, d.KnownCurvature = g, pc, true
+	if sq > 0 {
+		d.CurvatureGapSD = g / sq
+	}
+	if allowed > 0 {
+		d.CurvatureGapOfAllowed = g / allowed
+		d.CurvatureMatters = g > CurvatureSizeAllowed*allowed
+	} else {
+		d.CurvatureMatters = (sq == 0 && g > 0) || g > CurvatureSizeSD*sq
+	}
 }
 
 // sizesPearson returns √w_i·e_i divided by k, with k = max|√w·e| (so that
@@ -134,8 +162,9 @@ func sizesScale(e, w []float64) float64 {
 // scatterThirds sets the Scatter… fields: thirds of the range of x by
 // value, lo + (hi − lo)/3 and lo + 2(hi − lo)/3 the boundaries (a reading
 // on a boundary counts in the lower part).
-func (d *Departures) scatterThirds(x, e, w []float64) {
-	k := sizesScale(e, w)
+//
+// k is sizesScale(e, w).
+func (d *Departures) scatterThirds(x, e, w []float64, k float64) {
 	if !(k > 0) || !ckFinite(k) {
 		return
 	}
@@ -187,10 +216,9 @@ func (d *Departures) scatterThirds(x, e, w []float64) {
 }
 
 // drift sets Drift and DriftMatters from the (weighted) residuals in entry
-// order.
-func (d *Departures) drift(e, w []float64, np int) {
+// order; k is sizesScale(e, w).
+func (d *Departures) drift(e, w []float64, np int, k float64) {
 	n := len(e)
-	k := sizesScale(e, w)
 	if n-np < 1 || n < 3 || !(k > 0) || !ckFinite(k) {
 		return
 	}
