@@ -472,7 +472,9 @@ func (r *checkRun) limit(name string, run func() Check) Check {
 
 func (r *checkRun) shapiroWilk() {
 	c, in := &r.fc.rep.Checks, &r.in
-	c.ShapiroWilk = r.limit("Shapiro–Wilk", func() Check { return shapiroWilkCheck(in.pr, &r.fc.sc.sb, r.pre.residValid) })
+	c.ShapiroWilk = r.limit("Shapiro–Wilk", func() Check {
+		return shapiroWilkCheckIf(in.pr, &r.fc.sc.sb, r.pre.residValid, r.pre.quick)
+	})
 }
 
 // others runs curvature, lack of fit, the spread and the independence
