@@ -168,6 +168,52 @@ func (s *anScratch) orderOf(x []float64) []int32 {
 	return s.xOrder
 }
 
+// yBuf returns the space for a refit's y on its scale (nil outside a
+// refit: a new slice), which lives in s until the next refit; lack of
+// fit's copy of the last one, gathered in the order of x, no longer
+// describes that space and is let go.
+func (s *anScratch) yBuf(n int) []float64 {
+	if !s.refit {
+		return nil
+	}
+	s.yt = ckGrowF64(s.yt, n)
+	if l := &s.lof; len(l.ysOf) > 0 && n > 0 && &l.ysOf[0] == &s.yt[0] {
+		l.ysOf = nil
+	}
+	return s.yt
+}
+
+// wBuf returns the space for a refit's weights (nil outside a refit).
+func (s *anScratch) wBuf(n int) []float64 {
+	if !s.refit {
+		return nil
+	}
+	s.w = ckGrowF64(s.w, n)
+	return s.w
+}
+
+// residuals sets rep's fitted values and residuals of the fit f of yt on
+// xt and refuses figures that cannot be given in the readings' units
+// (unitsInRange). A refit's candidate takes neither: its residuals live
+// in s and its fitted values are only looked at for being finite.
+func (s *anScratch) residuals(f *lineFit, xt, yt []float64, rep *Report) error {
+	fitOK, fitBad := true, 0.0
+	if s.refit {
+		s.resids = ckGrowF64(s.resids, len(xt))
+		rep.Residuals = s.resids
+		fitBad, fitOK = f.residualsInto(xt, yt, rep.Residuals)
+	} else {
+		rep.Fitted, rep.Residuals = f.fittedResiduals(xt, yt)
+	}
+	if err := unitsInRange(rep); err != nil {
+		return err
+	}
+	if !fitOK {
+		return unitsErr("the fitted values and residuals", fitBad)
+	}
+	return nil
+}
+
 // analyze is Analyze with its work space in sc.
 func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	o, err := normalizeOptions(opt)
@@ -200,18 +246,7 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	if err != nil {
 		return nil, err
 	}
-	var ybuf []float64
-	if sc.refit {
-		// A refit's y on its scale lives in sc until the next refit;
-		// lack of fit's copy of the last one, gathered in the order of x,
-		// no longer describes the space and is let go.
-		sc.yt = ckGrowF64(sc.yt, len(y))
-		ybuf = sc.yt
-		if l := &sc.lof; len(l.ysOf) > 0 && len(ybuf) > 0 && &l.ysOf[0] == &ybuf[0] {
-			l.ysOf = nil
-		}
-	}
-	xt, yt, err := tr.applyIn(x, y, ybuf)
+	xt, yt, err := tr.applyIn(x, y, sc.yBuf(len(y)))
 	if err != nil {
 		return nil, err
 	}
@@ -228,13 +263,7 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 		f, err = fitDeming(xt, yt, o.VarianceRatio)
 	default:
 		if o.Weights != WeightsNone {
-			var wbuf []float64
-			if sc.refit {
-				// (A refit's weights live in sc until the next refit.)
-				sc.w = ckGrowF64(sc.w, len(xt))
-				wbuf = sc.w
-			}
-			w, wm, err = schemeWeights(o.Weights, xt, yt, o.GivenWeights, origin, rep, wbuf)
+			w, wm, err = schemeWeights(o.Weights, xt, yt, o.GivenWeights, origin, rep, sc.wBuf(len(xt)))
 			if err != nil {
 				return nil, err
 			}
@@ -266,21 +295,8 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	} else {
 		rep.R = f.pearsonR()
 	}
-	fitOK, fitBad := true, 0.0
-	if sc.refit {
-		// A candidate takes neither: the residuals live in sc and the
-		// fitted values are only looked at for being finite.
-		sc.resids = ckGrowF64(sc.resids, len(xt))
-		rep.Residuals = sc.resids
-		fitBad, fitOK = f.residualsInto(xt, yt, rep.Residuals)
-	} else {
-		rep.Fitted, rep.Residuals = f.fittedResiduals(xt, yt)
-	}
-	if err := unitsInRange(rep); err != nil {
+	if err := sc.residuals(f, xt, yt, rep); err != nil {
 		return nil, err
-	}
-	if !fitOK {
-		return nil, unitsErr("the fitted values and residuals", fitBad)
 	}
 	tr.setSmearing(rep.Residuals)
 	if tr.isLogY() {

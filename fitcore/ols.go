@@ -272,15 +272,9 @@ func (f *lineFit) safe() bool {
 func fitScaled(f *lineFit, x, y, w []float64, origin bool, kx, ky, cw float64) bool {
 	n := len(x)
 	*f = lineFit{n: n, origin: origin, weighted: w != nil, kx: kx, ky: ky, cw: cw}
-	switch {
-	case w != nil && cw == 1:
-		f.w = w // w·1 is w, bit for bit (f.w is only read)
-	case w != nil:
-		ws := make([]float64, n)
-		for i, wi := range w {
-			ws[i] = wi * cw
-		}
-		f.w = ws
+	if f.w = w; w != nil && cw != 1 {
+		// (w·1 is w, bit for bit, and f.w is only read: no copy then.)
+		f.w = scaledCopy(w, cw)
 	}
 	wi := f.w
 	scaled := kx != 1 || ky != 1
