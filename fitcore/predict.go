@@ -18,7 +18,9 @@ import (
 // ends are back-transformed (monotone transforms keep coverage); on log
 // scales the fit and confidence interval are multiplied by Duan's smearing
 // factor so they describe the mean, while the prediction interval is not.
-func (fc *fitContext) predictAt(x float64) Prediction {
+// tc is t_{1−α/2,df} (lnTCrit of the report's level and the fit's df), the
+// same for every x, so the caller computes it once.
+func (fc *fitContext) predictAt(x, tc float64) Prediction {
 	p := Prediction{X: x}
 	f, tr := fc.f, fc.tr
 	if !isFiniteNum(x) {
@@ -30,7 +32,6 @@ func (fc *fitContext) predictAt(x float64) Prediction {
 		p.Message = "This x cannot be used on a log scale (it must be above zero)."
 		return p
 	}
-	tc := lnTCrit(fc.rep.Level, f.df)
 	ys := f.a + f.b1*(xt*f.kx-f.xc)
 	vm := math.Max(f.meanVarAt(xt), 0)
 	wx, wok := fc.wm.at(xt)
@@ -100,8 +101,9 @@ func (fc *fitContext) predictions() {
 		return
 	}
 	fc.rep.Predictions = make([]Prediction, len(fc.opt.PredictX))
+	tc := lnTCrit(fc.rep.Level, fc.f.df)
 	for i, x := range fc.opt.PredictX {
-		fc.rep.Predictions[i] = finitePrediction(fc.predictAt(x))
+		fc.rep.Predictions[i] = finitePrediction(fc.predictAt(x, tc))
 	}
 }
 

@@ -185,13 +185,18 @@ type CheckInfo struct {
 }
 
 // AssumptionInfo describes one assumption: its id, the tests behind it in
-// display order, and how to take it from a report (nil when not judged, as
-// x exactness without uncertainties).
+// display order, and how to take it from a set of verdicts (nil when not
+// judged, as x exactness without uncertainties).
 type AssumptionInfo struct {
 	ID    AssumptionID
 	Tests []CheckID
-	Get   func(*Report) *Assumption
+	// Of takes the assumption from a set of verdicts: a report's, or the
+	// advice's before and after a remedy.
+	Of func(*Assumptions) *Assumption
 }
+
+// Get takes the assumption from a report (nil when not judged).
+func (i AssumptionInfo) Get(r *Report) *Assumption { return i.Of(&r.Assumptions) }
 
 var checkList = []CheckInfo{
 	{CheckCurvature, "t", AssumeLinearity, func(r *Report) *Check { return &r.Checks.Curvature }},
@@ -205,12 +210,12 @@ var checkList = []CheckInfo{
 }
 
 var assumptionList = []AssumptionInfo{
-	{AssumeLinearity, []CheckID{CheckCurvature, CheckLackOfFit}, func(r *Report) *Assumption { return &r.Assumptions.Linearity }},
-	{AssumeSpread, []CheckID{CheckBreuschPagan, CheckWhite}, func(r *Report) *Assumption { return &r.Assumptions.Spread }},
-	{AssumeIndependence, []CheckID{CheckDurbinWatson, CheckRuns}, func(r *Report) *Assumption { return &r.Assumptions.Independence }},
-	{AssumeNormality, []CheckID{CheckShapiroWilk}, func(r *Report) *Assumption { return &r.Assumptions.Normality }},
-	{AssumeInfluence, nil, func(r *Report) *Assumption { return &r.Assumptions.Influence }},
-	{AssumeXExactness, []CheckID{CheckXExactness}, func(r *Report) *Assumption { return r.Assumptions.XExactness }},
+	{AssumeLinearity, []CheckID{CheckCurvature, CheckLackOfFit}, func(a *Assumptions) *Assumption { return &a.Linearity }},
+	{AssumeSpread, []CheckID{CheckBreuschPagan, CheckWhite}, func(a *Assumptions) *Assumption { return &a.Spread }},
+	{AssumeIndependence, []CheckID{CheckDurbinWatson, CheckRuns}, func(a *Assumptions) *Assumption { return &a.Independence }},
+	{AssumeNormality, []CheckID{CheckShapiroWilk}, func(a *Assumptions) *Assumption { return &a.Normality }},
+	{AssumeInfluence, nil, func(a *Assumptions) *Assumption { return &a.Influence }},
+	{AssumeXExactness, []CheckID{CheckXExactness}, func(a *Assumptions) *Assumption { return a.XExactness }},
 }
 
 // CheckList gives every test in display order. The slice is a copy.

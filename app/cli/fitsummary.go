@@ -338,11 +338,11 @@ func beforeAfter(bf, af fitcore.Assumptions) string {
 		i2, w2 := wording.Verdict(y.Verdict)
 		parts = append(parts, fmt.Sprintf("%s %s %s → %s %s", name, i1, w1, i2, w2))
 	}
-	pair(wording.CheckLinearity, bf.Linearity, af.Linearity)
-	pair(wording.CheckSpread, bf.Spread, af.Spread)
-	pair(wording.CheckIndependence, bf.Independence, af.Independence)
-	pair(wording.CheckNormality, bf.Normality, af.Normality)
-	pair(wording.CheckInfluence, bf.Influence, af.Influence)
+	for _, as := range fitcore.AssumptionList() {
+		if x, y := as.Of(&bf), as.Of(&af); x != nil && y != nil {
+			pair(wording.CheckName(as.ID), *x, *y)
+		}
+	}
 	return "now → with the remedy: " + strings.Join(parts, "; ")
 }
 

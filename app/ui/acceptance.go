@@ -102,38 +102,13 @@ func (c *Shell) renderAcceptance() app.UI {
 func (c *Shell) applyCriteria(ctx app.Context, a CardAction) {
 	switch a.Kind {
 	case caCriterion:
-		field := "acceptance_" + a.Key
-		v, ok := c.anOptional(field, a.Text)
-		if !ok {
-			return
-		}
-		if a.Key == "min_r2" && v != nil && (*v < 0 || *v > 1) {
-			c.anFieldErr[field] = "Not used: R² lies between 0 and 1 (for example 0.999)."
-			return
-		}
-		if a.Key == "max_residual" && v != nil && *v < 0 {
-			c.anFieldErr[field] = "Not used: give a size, zero or more."
-			return
-		}
-		kk := c.anCriteria()
-		for _, f := range criteriaFields {
-			if f.name == a.Key {
-				*f.get(&kk) = v
-			}
-		}
-		c.anSetCriteria(ctx, kk)
+		c.applyCriterion(ctx, a.Key, a.Text)
 	case caResidualUnit:
 		kk := c.anCriteria()
 		kk.MaxResidualPercentOfSpan = a.Key == "percent"
 		c.anSetCriteria(ctx, kk)
 	case caTplUse:
-		for _, t := range c.anTemplates {
-			if t.Name == a.Key {
-				c.anFieldErr = nil
-				c.anSetCriteria(ctx, t.Criteria)
-				c.anTplMsg = "Criteria “" + t.Name + "” are now used for this session."
-			}
-		}
+		c.useTemplate(ctx, a.Key)
 	case caTplDelete:
 		c.anTplConfirmDl = a.Key
 	case caTplKeep:
@@ -150,25 +125,77 @@ func (c *Shell) applyCriteria(ctx app.Context, a CardAction) {
 	case caTplName:
 		c.anTplName = a.Text
 	case caTplSave:
-		name := strings.TrimSpace(c.anTplName)
-		if name == "" {
-			c.anTplMsg = "Give the criteria a name first."
-			return
-		}
-		kk := c.anCriteria()
-		replaced := false
-		for i := range c.anTemplates {
-			if c.anTemplates[i].Name == name {
-				c.anTemplates[i].Criteria, replaced = kk, true
-			}
-		}
-		if !replaced {
-			c.anTemplates = append(c.anTemplates, accTemplate{Name: name, Criteria: kk})
-		}
-		c.anTplName = ""
-		c.anTplMsg = "Saved “" + name + "” on this device."
-		c.anStoreTemplates(ctx)
+		c.saveTemplate(ctx)
 	}
+}
+
+// criterionLimit says why value v of criterion key is not used ("" when it
+// is fine): R² lies in [0, 1], the largest residual is a size ≥ 0.
+func criterionLimit(key string, v *float64) string {
+	switch {
+	case v == nil:
+	case key == "min_r2" && (*v < 0 || *v > 1):
+		return "Not used: R² lies between 0 and 1 (for example 0.999)."
+	case key == "max_residual" && *v < 0:
+		return "Not used: give a size, zero or more."
+	}
+	return ""
+}
+
+// applyCriterion takes the text typed for criterion key: parsed as the
+// readings are, checked (criterionLimit), then stored through the
+// controller; a reason beside the field otherwise.
+func (c *Shell) applyCriterion(ctx app.Context, key, text string) {
+	field := "acceptance_" + key
+	v, ok := c.anOptional(field, text)
+	if !ok {
+		return
+	}
+	if why := criterionLimit(key, v); why != "" {
+		c.anFieldErr[field] = why
+		return
+	}
+	kk := c.anCriteria()
+	for _, f := range criteriaFields {
+		if f.name == key {
+			*f.get(&kk) = v
+		}
+	}
+	c.anSetCriteria(ctx, kk)
+}
+
+// useTemplate makes the criteria of the template named name this session's.
+func (c *Shell) useTemplate(ctx app.Context, name string) {
+	for _, t := range c.anTemplates {
+		if t.Name == name {
+			c.anFieldErr = nil
+			c.anSetCriteria(ctx, t.Criteria)
+			c.anTplMsg = "Criteria “" + t.Name + "” are now used for this session."
+		}
+	}
+}
+
+// saveTemplate keeps the session's criteria on the device under the name
+// typed, replacing a template of that name.
+func (c *Shell) saveTemplate(ctx app.Context) {
+	name := strings.TrimSpace(c.anTplName)
+	if name == "" {
+		c.anTplMsg = "Give the criteria a name first."
+		return
+	}
+	kk := c.anCriteria()
+	replaced := false
+	for i := range c.anTemplates {
+		if c.anTemplates[i].Name == name {
+			c.anTemplates[i].Criteria, replaced = kk, true
+		}
+	}
+	if !replaced {
+		c.anTemplates = append(c.anTemplates, accTemplate{Name: name, Criteria: kk})
+	}
+	c.anTplName = ""
+	c.anTplMsg = "Saved “" + name + "” on this device."
+	c.anStoreTemplates(ctx)
 }
 
 // criteriaCard draws the acceptance criteria of the session, the

@@ -205,12 +205,13 @@ func (r *adviceCard) beforeAfter(rep *fitcore.Report, ad *fitcore.Advice) app.UI
 		)
 	}
 	sig := numfmt.Precision(r.Digits)
-	rows := []app.UI{
-		row("linearity", wording.CheckLinearity, b.Assumptions.Linearity.Verdict, a.Assumptions.Linearity.Verdict),
-		row("spread", wording.CheckSpread, b.Assumptions.Spread.Verdict, a.Assumptions.Spread.Verdict),
-		row("independence", wording.CheckIndependence, b.Assumptions.Independence.Verdict, a.Assumptions.Independence.Verdict),
-		row("normality", wording.CheckNormality, b.Assumptions.Normality.Verdict, a.Assumptions.Normality.Verdict),
-		row("influence", wording.CheckInfluence, b.Assumptions.Influence.Verdict, a.Assumptions.Influence.Verdict),
+	var rows []app.UI
+	for _, as := range fitcore.AssumptionList() {
+		if vb, va := as.Of(&b.Assumptions), as.Of(&a.Assumptions); vb != nil && va != nil {
+			rows = append(rows, row(string(as.ID), wording.CheckName(as.ID), vb.Verdict, va.Verdict))
+		}
+	}
+	rows = append(rows,
 		app.Tr().Body(
 			app.Th().Attr("scope", "row").Text("R²"),
 			app.Td().Body(anNum("advice-r2-before", b.RSquared, numfmt.Decimals(b.RSquared, 4))),
@@ -226,7 +227,7 @@ func (r *adviceCard) beforeAfter(rep *fitcore.Report, ad *fitcore.Advice) app.UI
 			app.Td().Body(anNum("", b.CurvatureP, anP(b.CurvatureP))),
 			app.Td().Body(anNum("", a.CurvatureP, anP(a.CurvatureP))),
 		),
-	}
+	)
 	if cand != nil {
 		rows = append(rows,
 			app.Tr().Body(

@@ -36,7 +36,9 @@ func (k *controller) record(a RecordAction, last *session.Session, now time.Time
 	return nil
 }
 
-// recordChange is record's change of the session alone.
+// recordChange is record's change of the session alone: signing and
+// revisions are taken on a sealed record, every other change only on an
+// open one (recordEdit).
 func (k *controller) recordChange(a RecordAction, last *session.Session, now time.Time) error {
 	s := k.sess
 	switch a.Kind {
@@ -51,101 +53,128 @@ func (k *controller) recordChange(a RecordAction, last *session.Session, now tim
 	if k.locked() {
 		return errLocked
 	}
+	return recordEdit(s, a, last, now)
+}
+
+// recordEdit makes a change of an open record.
+func recordEdit(s *session.Session, a RecordAction, last *session.Session, now time.Time) error {
 	switch a.Kind {
 	case raField:
 		return s.SetField(a.Field, a.Value, now)
 	case raCondition:
-		switch a.Field {
-		case session.ConditionTemperature, session.ConditionTemperature + "-unit":
-			i := conditionIndex(s, session.ConditionTemperature)
-			cd := session.Condition{Name: session.ConditionTemperature}
-			if i >= 0 {
-				cd = s.Conditions[i]
-			}
-			if a.Field == session.ConditionTemperature {
-				cd.Value = strings.TrimSpace(a.Value)
-			} else {
-				cd.Unit = strings.TrimSpace(a.Value)
-			}
-			if i < 0 {
-				_, err := s.AddCondition(cd, now)
-				return err
-			}
-			return s.SetCondition(i, cd, now)
+		if a.Field == session.ConditionTemperature || a.Field == session.ConditionTemperature+"-unit" {
+			return recordTemperature(s, a, now)
 		}
-		if a.Index < 0 {
-			_, err := s.AddCondition(a.Condition, now)
-			return err
-		}
-		return s.SetCondition(a.Index, a.Condition, now)
+		return addOrSet(s.AddCondition, s.SetCondition, a.Index, a.Condition, now)
 	case raCondRemove:
 		return s.RemoveCondition(a.Index, now)
 	case raStandard:
-		if a.Index < 0 {
-			_, err := s.AddStandard(a.Standard, now)
-			return err
-		}
-		return s.SetStandard(a.Index, a.Standard, now)
+		return addOrSet(s.AddStandard, s.SetStandard, a.Index, a.Standard, now)
 	case raStdField:
-		if a.Index < 0 || a.Index >= len(s.Standards) {
-			return session.ErrNoSuchRow
-		}
-		st := s.Standards[a.Index]
-		switch a.Field {
-		case "name":
-			st.Name = a.Value
-		case "certificate":
-			st.Certificate = a.Value
-		case "value":
-			st.Value = strings.TrimSpace(a.Value)
-		case "uncertainty":
-			st.Uncertainty = strings.TrimSpace(a.Value)
-		case "expiry":
-			st.Expiry = time.Time{}
-			if v := strings.TrimSpace(a.Value); v != "" {
-				d, err := time.Parse("2006-01-02", v)
-				if err != nil {
-					return uiError("the expiry date " + strconv.Quote(clip(v, 40)) + " is not a date (year-month-day)")
-				}
-				st.Expiry = d
-			}
-		default:
-			return session.ErrNoSuchField
-		}
-		return s.SetStandard(a.Index, st, now)
+		return recordStdField(s, a, now)
 	case raCondField:
-		if a.Index < 0 || a.Index >= len(s.Conditions) {
-			return session.ErrNoSuchRow
-		}
-		cd := s.Conditions[a.Index]
-		switch a.Field {
-		case "name":
-			cd.Name = a.Value
-		case "value":
-			cd.Value = strings.TrimSpace(a.Value)
-		case "unit":
-			cd.Unit = strings.TrimSpace(a.Value)
-		default:
-			return session.ErrNoSuchField
-		}
-		return s.SetCondition(a.Index, cd, now)
+		return recordCondField(s, a, now)
 	case raStdRemove:
 		return s.RemoveStandard(a.Index, now)
 	case raUnknown:
-		if a.Index < 0 {
-			if len(a.Unknown.Readings) == 0 {
-				return errNoRepeats
-			}
-			_, err := s.AddUnknown(a.Unknown, now)
-			return err
+		if a.Index < 0 && len(a.Unknown.Readings) == 0 {
+			return errNoRepeats
 		}
-		return s.SetUnknown(a.Index, a.Unknown, now)
+		return addOrSet(s.AddUnknown, s.SetUnknown, a.Index, a.Unknown, now)
 	case raUnkRemove:
 		return s.RemoveUnknown(a.Index, now)
 	case raUseLast:
 		return useLast(s, last, now)
 	}
 	return nil
+}
+
+// addOrSet adds v as a new row (index < 0) or sets row index to it, through
+// the session's method for the kind of row.
+func addOrSet[T any](add func(T, time.Time) (int, error), set func(int, T, time.Time) error, index int, v T, now time.Time) error {
+	if index < 0 {
+		_, err := add(v, now)
+		return err
+	}
+	return set(index, v, now)
+}
+
+// recordTemperature sets the value (a.Field is the condition's name) or the
+// unit (the name and "-unit") of the temperature condition, adding it when
+// the record has none yet.
+func recordTemperature(s *session.Session, a RecordAction, now time.Time) error {
+	i := conditionIndex(s, session.ConditionTemperature)
+	cd := session.Condition{Name: session.ConditionTemperature}
+	if i >= 0 {
+		cd = s.Conditions[i]
+	}
+	if a.Field == session.ConditionTemperature {
+		cd.Value = strings.TrimSpace(a.Value)
+	} else {
+		cd.Unit = strings.TrimSpace(a.Value)
+	}
+	return addOrSet(s.AddCondition, s.SetCondition, i, cd, now)
+}
+
+// recordStdField sets one field of standard a.Index (name, certificate,
+// value, uncertainty or expiry as year-month-day; an empty expiry clears it).
+func recordStdField(s *session.Session, a RecordAction, now time.Time) error {
+	if a.Index < 0 || a.Index >= len(s.Standards) {
+		return session.ErrNoSuchRow
+	}
+	st := s.Standards[a.Index]
+	switch a.Field {
+	case "name":
+		st.Name = a.Value
+	case "certificate":
+		st.Certificate = a.Value
+	case "value":
+		st.Value = strings.TrimSpace(a.Value)
+	case "uncertainty":
+		st.Uncertainty = strings.TrimSpace(a.Value)
+	case "expiry":
+		d, err := expiryDate(a.Value)
+		if err != nil {
+			return err
+		}
+		st.Expiry = d
+	default:
+		return session.ErrNoSuchField
+	}
+	return s.SetStandard(a.Index, st, now)
+}
+
+// expiryDate reads a standard's expiry date, year-month-day; empty text is
+// no date.
+func expiryDate(text string) (time.Time, error) {
+	v := strings.TrimSpace(text)
+	if v == "" {
+		return time.Time{}, nil
+	}
+	d, err := time.Parse("2006-01-02", v)
+	if err != nil {
+		return time.Time{}, uiError("the expiry date " + strconv.Quote(clip(v, 40)) + " is not a date (year-month-day)")
+	}
+	return d, nil
+}
+
+// recordCondField sets one field of condition a.Index (name, value, unit).
+func recordCondField(s *session.Session, a RecordAction, now time.Time) error {
+	if a.Index < 0 || a.Index >= len(s.Conditions) {
+		return session.ErrNoSuchRow
+	}
+	cd := s.Conditions[a.Index]
+	switch a.Field {
+	case "name":
+		cd.Name = a.Value
+	case "value":
+		cd.Value = strings.TrimSpace(a.Value)
+	case "unit":
+		cd.Unit = strings.TrimSpace(a.Value)
+	default:
+		return session.ErrNoSuchField
+	}
+	return s.SetCondition(a.Index, cd, now)
 }
 
 // useLast fills the empty parts of record s from l, the last record of

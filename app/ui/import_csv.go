@@ -65,69 +65,11 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 	if lines := bytes.Count(data, []byte("\n")) + 1; lines <= session.MaxReadings {
 		s.Readings = make([]session.Reading, 0, lines)
 	}
-	sum := session.CSVTally{}
 	started := time.Now()
-	if chunked {
-		ctx.Dispatch(func(ctx app.Context) { c.importPhase = "reading the readings" })
-		var parts []*session.CSVResult
-		shown := time.Now()
-		chunks := session.NewCSVChunks(data, probe, xCol, yCol, chunkLines)
-		res, err := chunks.Next()
-		for ; err == nil; res, err = chunks.Next() {
-			if res != nil {
-				parts = append(parts, res)
-			}
-			// Every redraw of the page costs time too: show progress a few
-			// times a second, but let the page have its turn after every chunk.
-			if time.Since(shown) > 150*time.Millisecond {
-				shown = time.Now()
-				done := chunks.Done()
-				ctx.Dispatch(func(ctx app.Context) { c.progress = 0.8 * done })
-			}
-			time.Sleep(time.Millisecond)
-		}
-		// A chunk read alone can differ from the whole file (a chunk whose
-		// rows are all short, say): then the whole file decides.
-		chunked = err == io.EOF
-		for i, res := range parts {
-			if !chunked {
-				break
-			}
-			if _, err := s.Import(res, now); err != nil {
-				fail(err)
-				return
-			}
-			sum.Add(res)
-			if i%10 == 9 {
-				p := 0.8 + 0.2*float64(i+1)/float64(len(parts))
-				ctx.Dispatch(func(ctx app.Context) { c.progress = p })
-				time.Sleep(time.Millisecond)
-			}
-		}
-		if chunked {
-			sum.Blank += chunks.Blank()
-		}
-	}
-	if !chunked {
-		res, err := session.ReadCSV(bytes.NewReader(data), session.CSVOptions{XCol: xCol, YCol: yCol})
-		if err == nil {
-			_, err = s.Import(res, now)
-		}
-		if err != nil {
-			fail(err)
-			return
-		}
-		sum.Add(res)
-	}
-	if len(s.Readings) == 0 {
-		fail(&session.CSVError{Err: session.ErrCSVNoData})
+	sum, err := c.importReadings(ctx, s, data, probe, chunked, xCol, yCol, now)
+	if err != nil {
+		fail(err)
 		return
-	}
-	if s.XName == "" {
-		s.XName = "Reference"
-	}
-	if s.YName == "" {
-		s.YName = "Reading"
 	}
 	// Encoding, storing and analysing a big session each take a while; a
 	// pause between them lets the page draw the progress in between.
@@ -162,6 +104,82 @@ func (c *Shell) importCSV(ctx app.Context, name string, data []byte, xCol, yCol 
 		c.importReport = report
 		c.announceSaved(ctx, job.sum)
 	})
+}
+
+// importReadings reads the readings of data into s: in chunks when the
+// probe found the file can be read so (importChunks), else, or when the
+// chunks disagree with the whole file, in one go. A file without names for
+// x and y gets the usual ones. It returns what was left out.
+func (c *Shell) importReadings(ctx app.Context, s *session.Session, data []byte, probe *session.CSVResult, chunked bool, xCol, yCol int, now time.Time) (session.CSVTally, error) {
+	sum := session.CSVTally{}
+	if chunked {
+		var err error
+		if chunked, err = c.importChunks(ctx, s, &sum, data, probe, xCol, yCol, now); err != nil {
+			return sum, err
+		}
+	}
+	if !chunked {
+		res, err := session.ReadCSV(bytes.NewReader(data), session.CSVOptions{XCol: xCol, YCol: yCol})
+		if err == nil {
+			_, err = s.Import(res, now)
+		}
+		if err != nil {
+			return sum, err
+		}
+		sum.Add(res)
+	}
+	if len(s.Readings) == 0 {
+		return sum, &session.CSVError{Err: session.ErrCSVNoData}
+	}
+	if s.XName == "" {
+		s.XName = "Reference"
+	}
+	if s.YName == "" {
+		s.YName = "Reading"
+	}
+	return sum, nil
+}
+
+// importChunks reads data in chunks of chunkLines lines (session.CSVChunks),
+// pausing after each so that the page stays responsive and showing the
+// progress a few times a second, then imports them into s. It returns false
+// when a chunk read alone differs from the whole file (a chunk whose rows
+// are all short, say): then nothing was imported and the whole file decides.
+func (c *Shell) importChunks(ctx app.Context, s *session.Session, sum *session.CSVTally, data []byte, probe *session.CSVResult, xCol, yCol int, now time.Time) (bool, error) {
+	ctx.Dispatch(func(ctx app.Context) { c.importPhase = "reading the readings" })
+	var parts []*session.CSVResult
+	shown := time.Now()
+	chunks := session.NewCSVChunks(data, probe, xCol, yCol, chunkLines)
+	res, err := chunks.Next()
+	for ; err == nil; res, err = chunks.Next() {
+		if res != nil {
+			parts = append(parts, res)
+		}
+		// Every redraw of the page costs time too: show progress a few
+		// times a second, but let the page have its turn after every chunk.
+		if time.Since(shown) > 150*time.Millisecond {
+			shown = time.Now()
+			done := chunks.Done()
+			ctx.Dispatch(func(ctx app.Context) { c.progress = 0.8 * done })
+		}
+		time.Sleep(time.Millisecond)
+	}
+	if err != io.EOF {
+		return false, nil
+	}
+	for i, res := range parts {
+		if _, err := s.Import(res, now); err != nil {
+			return true, err
+		}
+		sum.Add(res)
+		if i%10 == 9 {
+			p := 0.8 + 0.2*float64(i+1)/float64(len(parts))
+			ctx.Dispatch(func(ctx app.Context) { c.progress = p })
+			time.Sleep(time.Millisecond)
+		}
+	}
+	sum.Blank += chunks.Blank()
+	return true, nil
 }
 
 // csvSummaryText is the import's summary in words, from what the chunks

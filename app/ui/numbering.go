@@ -33,60 +33,81 @@ func rowWords(s string, rows []int) string {
 		if j < 0 {
 			break
 		}
-		j += i
-		// "Reading"/"reading" as a word of its own.
-		if j == 0 || (s[j-1] != 'R' && s[j-1] != 'r') || (j >= 2 && isWordByte(s[j-2])) {
-			b.WriteString(s[i : j+6])
-			i = j + 6
-			continue
-		}
-		k := j + 6
-		if k < len(s) && s[k] == 's' {
-			k++
-		}
-		if k >= len(s) || s[k] != ' ' {
-			b.WriteString(s[i:k])
-			i = k
-			continue
-		}
-		k++
+		k, list := readingWordEnd(s, i+j)
 		b.WriteString(s[i:k])
 		i = k
-		// The list of numbers.
-		for {
-			d := i
-			for d < len(s) && s[d] >= '0' && s[d] <= '9' {
-				d++
-			}
-			if d == i || d-i > 9 || s[i] == '0' {
-				break // not a number fitcore writes (none has a leading zero)
-			}
-			if strings.HasPrefix(s[d:], " more") {
-				break // a count, not a reading
-			}
-			n, _ := strconv.Atoi(s[i:d])
-			if n >= 1 && n <= len(rows) {
-				b.WriteString(strconv.Itoa(rows[n-1] + 1))
-			} else {
-				b.WriteString(s[i:d])
-			}
-			i = d
-			sep := ""
-			switch {
-			case strings.HasPrefix(s[i:], ", "):
-				sep = ", "
-			case strings.HasPrefix(s[i:], " and "):
-				sep = " and "
-			}
-			if sep == "" || i+len(sep) >= len(s) || s[i+len(sep)] < '0' || s[i+len(sep)] > '9' {
-				break
-			}
-			b.WriteString(sep)
-			i += len(sep)
+		if list {
+			i = rowList(&b, s, i, rows)
 		}
 	}
 	b.WriteString(s[i:])
 	return b.String()
+}
+
+// readingWordEnd looks at the "eading" at j of s: when it is the word
+// "Reading" or "Readings" (either case) followed by a space, it returns the
+// index after that space and true (a list of numbers may follow); else the
+// index after what was looked at, and false.
+func readingWordEnd(s string, j int) (int, bool) {
+	if j == 0 || (s[j-1] != 'R' && s[j-1] != 'r') || (j >= 2 && isWordByte(s[j-2])) {
+		return j + 6, false
+	}
+	k := j + 6
+	if k < len(s) && s[k] == 's' {
+		k++
+	}
+	if k >= len(s) || s[k] != ' ' {
+		return k, false
+	}
+	return k + 1, true
+}
+
+// rowList writes the list of reading numbers at i of s ("9", "9 and 11",
+// "1, 4, 9 and 3 more") to b with each number a position among the pairs
+// renumbered as a grid row (rowNumber), and returns the index after it.
+func rowList(b *strings.Builder, s string, i int, rows []int) int {
+	for {
+		d := i
+		for d < len(s) && s[d] >= '0' && s[d] <= '9' {
+			d++
+		}
+		if d == i || d-i > 9 || s[i] == '0' {
+			return i // not a number fitcore writes (none has a leading zero)
+		}
+		if strings.HasPrefix(s[d:], " more") {
+			return i // a count, not a reading
+		}
+		b.WriteString(rowNumber(s[i:d], rows))
+		i = d
+		sep := listSep(s[i:])
+		if sep == "" || i+len(sep) >= len(s) || s[i+len(sep)] < '0' || s[i+len(sep)] > '9' {
+			return i
+		}
+		b.WriteString(sep)
+		i += len(sep)
+	}
+}
+
+// rowNumber is position num (from 1) as the grid's row number from 1; a
+// number outside rows is kept.
+func rowNumber(num string, rows []int) string {
+	n, _ := strconv.Atoi(num)
+	if n >= 1 && n <= len(rows) {
+		return strconv.Itoa(rows[n-1] + 1)
+	}
+	return num
+}
+
+// listSep is the separator of a list of numbers that s starts with
+// (", " or " and "), or "".
+func listSep(s string) string {
+	switch {
+	case strings.HasPrefix(s, ", "):
+		return ", "
+	case strings.HasPrefix(s, " and "):
+		return " and "
+	}
+	return ""
 }
 
 func isWordByte(c byte) bool {
@@ -142,14 +163,11 @@ func renumberAdvice(ad *fitcore.Advice, rows []int) {
 }
 
 // renumberAssumptions rewrites the sentences of every assumption of a, as
-// fitcore.AssumptionList lists them (its Get takes them from a report: a
-// is lent to one for that, and taken back).
+// fitcore.AssumptionList lists them.
 func renumberAssumptions(a *fitcore.Assumptions, rows []int) {
-	r := fitcore.Report{Assumptions: *a}
 	for _, as := range fitcore.AssumptionList() {
-		if x := as.Get(&r); x != nil {
+		if x := as.Of(a); x != nil {
 			x.Message, x.Advice = rowWords(x.Message, rows), rowWords(x.Advice, rows)
 		}
 	}
-	*a = r.Assumptions
 }

@@ -115,43 +115,70 @@ func plDraw(s *session.Session, rep *fitcore.Report, rows []int, x, y []float64,
 	if s == nil || rep == nil || len(rows) != rep.N || len(x) != rep.N || len(y) != rep.N || len(rep.Residuals) != rep.N || len(rep.Fitted) != rep.N {
 		return ps
 	}
+	d := newPlDrawing(s, rep, rows, x, y, sel)
+	ps.Drawn, ps.Total = len(d.drawn), d.n
+	d.fitChart(&ps)
+	resTitle := d.residualChart(&ps)
+	d.orderChart(&ps, resTitle)
+	d.qqChart(&ps)
+	return ps
+}
+
+// plDrawing is what the four plots share: the pairs, which of them are
+// flagged and drawn, and their studentized residuals.
+type plDrawing struct {
+	s       *session.Session
+	rep     *fitcore.Report
+	rows    []int
+	x, y    []float64
+	n       int
+	flagged []bool
+	stud    []float64
+	nFlag   int
+	drawn   []int // the pairs drawn (plot.Thin keeps the flagged and the selected)
+}
+
+func newPlDrawing(s *session.Session, rep *fitcore.Report, rows []int, x, y []float64, sel int) *plDrawing {
 	n := rep.N
-	flagged := make([]bool, n)
-	stud := make([]float64, n)
-	nFlag := 0
+	d := &plDrawing{s: s, rep: rep, rows: rows, x: x, y: y, n: n, flagged: make([]bool, n), stud: make([]float64, n)}
 	for _, p := range rep.Influence {
 		if p.Index >= 0 && p.Index < n {
-			flagged[p.Index] = p.Flagged
-			stud[p.Index] = p.Studentized
+			d.flagged[p.Index] = p.Flagged
+			d.stud[p.Index] = p.Studentized
 			if p.Flagged {
-				nFlag++
+				d.nFlag++
 			}
 		}
 	}
-	keep := func(i int) bool { return flagged[i] || rows[i] == sel }
-	drawn := plot.Thin(n, plotMaxDraw, x, y, keep)
-	ps.Drawn, ps.Total = len(drawn), n
-	marker := func(i int) plot.Marker {
-		if flagged[i] {
-			return plot.Flagged
-		}
-		return plot.Dot
-	}
-	points := func(xs, ys []float64) []plot.Point {
-		pts := make([]plot.Point, 0, len(drawn))
-		for _, i := range drawn {
-			pts = append(pts, plot.Point{X: xs[i], Y: ys[i], Row: rows[i], Marker: marker(i)})
-		}
-		return pts
-	}
+	keep := func(i int) bool { return d.flagged[i] || rows[i] == sel }
+	d.drawn = plot.Thin(n, plotMaxDraw, x, y, keep)
+	return d
+}
 
-	xTitle := colHead(s.XName, s.XUnit, "x")
-	yTitle := colHead(s.YName, s.YUnit, "y")
-	level := numfmt.Sig(rep.Level*100, 3)
-	level = strings.TrimRight(strings.TrimRight(level, "0"), ".")
+// points are the drawn pairs at (xs[i], ys[i]), flagged ones as diamonds.
+func (d *plDrawing) points(xs, ys []float64) []plot.Point {
+	pts := make([]plot.Point, 0, len(d.drawn))
+	for _, i := range d.drawn {
+		m := plot.Dot
+		if d.flagged[i] {
+			m = plot.Flagged
+		}
+		pts = append(pts, plot.Point{X: xs[i], Y: ys[i], Row: d.rows[i], Marker: m})
+	}
+	return pts
+}
 
-	// 1. Readings with the line and its bands (original units).
-	fitPts := points(x, y)
+// level is the confidence level in per cent as the plots' words give it.
+func (d *plDrawing) level() string {
+	level := numfmt.Sig(d.rep.Level*100, 3)
+	return strings.TrimRight(strings.TrimRight(level, "0"), ".")
+}
+
+// fitChart is plot 1: the readings with the line and its bands (original
+// units), the left-out readings as hollow squares.
+func (d *plDrawing) fitChart(ps *plSet) {
+	s, rep, n := d.s, d.rep, d.n
+	fitPts := d.points(d.x, d.y)
 	for r, rd := range s.Readings {
 		if !rd.Excluded {
 			continue
@@ -171,23 +198,28 @@ func plDraw(s *session.Session, rep *fitcore.Report, rows []int, x, y []float64,
 		piLo, piHi = append(piLo, p.PILow), append(piHi, p.PIHigh)
 	}
 	fitChart := plot.Chart{
-		TestID: "plot-fit", XTitle: xTitle, YTitle: yTitle, Points: fitPts,
+		TestID: "plot-fit", XTitle: colHead(s.XName, s.XUnit, "x"), YTitle: colHead(s.YName, s.YUnit, "y"), Points: fitPts,
 		Bands: []plot.Band{
 			{X: gx, Lo: piLo, Hi: piHi, Class: "pl-plot-pi", Fill: "#d3e6ea"},
 			{X: gx, Lo: ciLo, Hi: ciHi, Class: "pl-plot-ci", Fill: "#7fb4c0"},
 		},
 		Paths: []plot.Path{{X: gx, Y: fit, Class: "pl-plot-line"}},
-		Attrs: [][2]string{{"data-n", strconv.Itoa(n)}, {"data-drawn", strconv.Itoa(len(drawn))}, {"data-excluded", strconv.Itoa(ps.Excluded)},
+		Attrs: [][2]string{{"data-n", strconv.Itoa(n)}, {"data-drawn", strconv.Itoa(len(d.drawn))}, {"data-excluded", strconv.Itoa(ps.Excluded)},
 			{"data-slope", numfmt.Full(rep.Slope.Estimate)}},
 	}
+	level := d.level()
 	ps.FitSum = "Plot of " + plCount(n, "reading") + " of " + plNameOr(s.YName, "y") + " against " + plNameOr(s.XName, "x") +
 		" with the fitted line, its " + level + " % confidence band and the " + level + " % prediction band for a new reading; " +
-		plCount(nFlag, "reading") + " flagged as influential (diamonds) and " + plCount(ps.Excluded, "reading") + " left out (hollow squares)."
+		plCount(d.nFlag, "reading") + " flagged as influential (diamonds) and " + plCount(ps.Excluded, "reading") + " left out (hollow squares)."
 	fitChart.Label = ps.FitSum
 	ps.Fit, ps.Marks[fitChart.TestID] = fitChart.Draw()
 	ps.W, ps.H = fitChart.Size()
+}
 
-	// 2. Residuals against fitted values (on the fitted scale).
+// residualChart is plot 2: the residuals against the fitted values (on the
+// fitted scale). It returns the residuals' axis title, which plot 3 shares.
+func (d *plDrawing) residualChart(ps *plSet) string {
+	s, rep, n := d.s, d.rep, d.n
 	scale := wording.Scale(rep.Transform)
 	resTitle, fitTitle := "Residual ("+unitOr(s.YUnit, "y")+")", "Fitted "+colHead(s.YName, s.YUnit, "y")
 	if scale != "" {
@@ -198,33 +230,41 @@ func plDraw(s *session.Session, rep *fitcore.Report, rows []int, x, y []float64,
 	}
 	lo, hi, loI, hiI := plExtremes(rep.Residuals)
 	resChart := plot.Chart{TestID: "plot-residuals", XTitle: fitTitle, YTitle: resTitle,
-		Points: points(rep.Fitted, rep.Residuals), HLines: []float64{0},
+		Points: d.points(rep.Fitted, rep.Residuals), HLines: []float64{0},
 		Attrs: [][2]string{{"data-n", strconv.Itoa(n)}}}
 	ps.ResSum = "Residuals against fitted values for " + plCount(n, "reading") + ", from " + numfmt.Sig(lo, 3) + " (reading " +
-		strconv.Itoa(rows[loI]+1) + ") to " + numfmt.Sig(hi, 3) + " (reading " + strconv.Itoa(rows[hiI]+1) + "); " + plVerdictOf(wording.CheckSpread, rep.Assumptions.Spread.Verdict) + "."
+		strconv.Itoa(d.rows[loI]+1) + ") to " + numfmt.Sig(hi, 3) + " (reading " + strconv.Itoa(d.rows[hiI]+1) + "); " + plVerdictOf(wording.CheckSpread, rep.Assumptions.Spread.Verdict) + "."
 	resChart.Label = ps.ResSum
 	ps.Residuals, ps.Marks[resChart.TestID] = resChart.Draw()
+	return resTitle
+}
 
-	// 3. Residuals in the order entered.
+// orderChart is plot 3: the residuals in the order entered, joined up.
+func (d *plDrawing) orderChart(ps *plSet, resTitle string) {
+	rep, n := d.rep, d.n
 	order := make([]float64, n)
-	for i, r := range rows {
+	for i, r := range d.rows {
 		order[i] = float64(r + 1)
 	}
 	var ox, oy []float64
-	for _, i := range drawn {
+	for _, i := range d.drawn {
 		ox, oy = append(ox, order[i]), append(oy, rep.Residuals[i])
 	}
 	ordChart := plot.Chart{TestID: "plot-order", XTitle: "Reading number (order entered)", YTitle: resTitle,
-		Points: points(order, rep.Residuals), HLines: []float64{0},
+		Points: d.points(order, rep.Residuals), HLines: []float64{0},
 		Paths: []plot.Path{{X: ox, Y: oy, Class: "pl-plot-trace", Stroke: "#5b6770", Width: 1.2}},
 		Attrs: [][2]string{{"data-n", strconv.Itoa(n)}}}
 	ps.OrderSum = "Residuals of " + plCount(n, "reading") + " in the order entered, joined up so that a drift or a run shows; " +
 		plVerdictOf(wording.CheckIndependence, rep.Assumptions.Independence.Verdict) + "."
 	ordChart.Label = ps.OrderSum
 	ps.Order, ps.Marks[ordChart.TestID] = ordChart.Draw()
+}
 
-	// 4. Normal Q–Q of the studentized residuals (Blom positions, fitcore).
-	qq := fitcore.NormalQQ(stud)
+// qqChart is plot 4: the normal Q–Q plot of the studentized residuals
+// (Blom positions, fitcore.NormalQQ).
+func (d *plDrawing) qqChart(ps *plSet) {
+	rep, n := d.rep, d.n
+	qq := fitcore.NormalQQ(d.stud)
 	qx, qy := make([]float64, n), make([]float64, n)
 	for _, q := range qq {
 		qx[q.Index], qy[q.Index] = q.Theoretical, q.Sample
@@ -234,14 +274,13 @@ func plDraw(s *session.Session, rep *fitcore.Report, rows []int, x, y []float64,
 		refLo, refHi = qq[0].Theoretical, qq[len(qq)-1].Theoretical
 	}
 	qqChart := plot.Chart{TestID: "plot-qq", XTitle: "Expected normal quantile", YTitle: "Studentized residual",
-		Points: points(qx, qy),
+		Points: d.points(qx, qy),
 		Paths:  []plot.Path{{X: []float64{refLo, refHi}, Y: []float64{refLo, refHi}, Class: "pl-plot-line", Dash: "8 5", Width: 2}},
 		Attrs:  [][2]string{{"data-n", strconv.Itoa(n)}}}
 	ps.QQSum = "Normal Q–Q plot of " + plCount(n, "studentized residual") + " against the quantiles expected of a bell-shaped scatter; " +
 		"points near the dashed line mean normal scatter; " + plVerdictOf(wording.CheckNormality, rep.Assumptions.Normality.Verdict) + "."
 	qqChart.Label = ps.QQSum
 	ps.QQ, ps.Marks[qqChart.TestID] = qqChart.Draw()
-	return ps
 }
 
 func plExtremes(v []float64) (lo, hi float64, loI, hiI int) {
@@ -380,11 +419,9 @@ func (c *Shell) renderPlots() app.UI {
 
 // plotAction applies what the plots card asked for, on the Shell's own
 // context (the card's element may be gone by the time it runs). The reason
-// typed is taken at once, in the handler of its key: a render between two
-// keys from a dispatch still to come would write an older text back into
-// the box, and the next key would then be typed after it (a key lost).
+// box keeps each key itself while the dispatch is on its way (typing.go).
 func (c *Shell) plotAction(a PlotAction) {
-	if c.ui.Src() == nil || a.Kind == paReason {
+	if c.ui.Src() == nil {
 		c.applyPlot(app.Context{}, a)
 		return
 	}

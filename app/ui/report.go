@@ -454,12 +454,11 @@ func rpAdvice(b *rpB, rep *fitcore.Report) {
 		pair := func(name string, x, y fitcore.Assumption) {
 			b.w(`<tr><th scope="row">`, rpEsc(name), `</th><td>`, rpVerdict(x.Verdict), `</td><td>`, rpVerdict(y.Verdict), `</td></tr>`)
 		}
-		bf, af := ad.Before.Assumptions, ad.After.Assumptions
-		pair(wording.CheckLinearity, bf.Linearity, af.Linearity)
-		pair(wording.CheckSpread, bf.Spread, af.Spread)
-		pair(wording.CheckIndependence, bf.Independence, af.Independence)
-		pair(wording.CheckNormality, bf.Normality, af.Normality)
-		pair(wording.CheckInfluence, bf.Influence, af.Influence)
+		for _, as := range fitcore.AssumptionList() {
+			if x, y := as.Of(&ad.Before.Assumptions), as.Of(&ad.After.Assumptions); x != nil && y != nil {
+				pair(wording.CheckName(as.ID), *x, *y)
+			}
+		}
 		b.w(`</tbody></table>`)
 	}
 	b.w(`</section>`)
