@@ -381,6 +381,13 @@ func dwOriginColumn(x []float64, sw func(int) float64, u []float64) ([]float64, 
 // spread (what is left of the second column is below 1e-10 of it). The
 // columns are written into u1 and u2 when they have the length of x (new
 // slices otherwise).
+//
+// Each sweep over the readings does what the next step can do in the same
+// order: the largest |u1| and Σu2² with the columns; the division of u1
+// by its norm with the first dot product; each subtraction with the dot
+// product or the sums that follow it (dwNormalize's steps, written out).
+// Every value is the one the steps taken one after another give
+// (dwLineColumnsByStep in the tests, the code before).
 func dwLineColumns(x []float64, sw func(int) float64, u1, u2 []float64) ([]float64, []float64, bool) {
 	m, s := ckMeanSD(x)
 	if s == 0 || !ckFinite(s) {
@@ -390,35 +397,61 @@ func dwLineColumns(x []float64, sw func(int) float64, u1, u2 []float64) ([]float
 	if len(u1) != n || len(u2) != n {
 		u1, u2 = make([]float64, n), make([]float64, n)
 	}
+	u2 = u2[:len(u1)]
+	var big1, before float64
 	for t, v := range x {
 		st := sw(t)
 		u1[t] = st
-		u2[t] = st * ((v - m) / s)
-	}
-	if dwNormalize(u1) == 0 {
-		return nil, nil, false
-	}
-	var before float64
-	for _, a := range u2 {
+		a := st * ((v - m) / s)
+		u2[t] = a
+		big1 = max(big1, math.Abs(st))
 		before += a * a
 	}
-	for range 2 {
-		var dot float64
-		for t := range u2 {
-			dot += u1[t] * u2[t]
-		}
-		for t := range u2 {
-			u2[t] -= dot * u1[t]
-		}
-	}
-	var after float64
-	for _, a := range u2 {
-		after += a * a
-	}
-	if !(math.Sqrt(after) > 1e-10*math.Sqrt(before)) || dwNormalize(u2) == 0 {
+	nrm1, ok := dwNorm(u1, big1)
+	if !ok {
 		return nil, nil, false
 	}
+	var dot float64
+	for t := range u1 {
+		u1[t] /= nrm1
+		dot += u1[t] * u2[t]
+	}
+	var dot2 float64
+	for t, a := range u1 {
+		u2[t] -= dot * a
+		dot2 += a * u2[t]
+	}
+	var after, big2 float64
+	for t, a := range u1 {
+		u2[t] -= dot2 * a
+		after += u2[t] * u2[t]
+		big2 = max(big2, math.Abs(u2[t]))
+	}
+	if !(math.Sqrt(after) > 1e-10*math.Sqrt(before)) {
+		return nil, nil, false
+	}
+	nrm2, ok := dwNorm(u2, big2)
+	if !ok {
+		return nil, nil, false
+	}
+	for t := range u2 {
+		u2[t] /= nrm2
+	}
 	return u1, u2, true
+}
+
+// dwNorm is the norm dwNormalize finds for v, given big = max|v|; ok is
+// false when v is zero or not finite.
+func dwNorm(v []float64, big float64) (float64, bool) {
+	if big == 0 || !ckFinite(big) {
+		return 0, false
+	}
+	var ss float64
+	for _, a := range v {
+		a /= big
+		ss += a * a
+	}
+	return big * math.Sqrt(ss), true
 }
 
 // dwA applies the first-difference matrix A to v at t.
