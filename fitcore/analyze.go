@@ -54,6 +54,8 @@ type anScratch struct {
 	pre  ckPre
 	dw   dwShared
 	lof  lofShared
+	lev  ckLevCache // the leverages' sums of the unweighted refits
+	xsf  xScaleFinite
 
 	// refit is set while the advice refits a remedy: only what a Candidate
 	// takes from the report is needed (no Box–Cox profile, no reasons
@@ -110,12 +112,33 @@ func (s *anScratch) fork() *anScratch {
 	f := &anScratch{
 		x: s.x, xOrder: s.xOrder,
 		bcc:  s.bcc,
-		preX: s.preX, pre: s.pre, dw: s.dw,
+		preX: s.preX, pre: s.pre, dw: s.dw, lev: s.lev, xsf: s.xsf,
 		lof: lofShared{x: s.lof.x, m: s.lof.m, ends: s.lof.ends, xl: s.lof.xl},
 	}
 	f.sb.swA = maps.Clone(s.sb.swA)
 	f.dw.buf = [2][]float64{} // (its own space for weighted designs)
 	return f
+}
+
+// xScaleFinite is ckSafeScale and ckAllFinite of one x (the slice).
+type xScaleFinite struct {
+	x      []float64
+	k      float64
+	finite bool
+}
+
+// scaleFinite returns ckSafeScale(x) and ckAllFinite(x), worked out once
+// for the first x asked about (the analysis's, which every refit in the
+// original units or on a new scale of y shares; see prepare).
+func (s *anScratch) scaleFinite(x []float64) (k float64, finite bool) {
+	if c := &s.xsf; len(x) > 0 && len(c.x) == len(x) && &c.x[0] == &x[0] {
+		return c.k, c.finite
+	}
+	k, finite = ckSafeScale(x), ckAllFinite(x)
+	if s.xsf.x == nil && len(x) > 0 {
+		s.xsf = xScaleFinite{x: x, k: k, finite: finite}
+	}
+	return k, finite
 }
 
 // prepare returns ckPrepare(x) with dw set, working it out only when x is
@@ -386,7 +409,10 @@ func (fc *fitContext) checkInputs() checkInputs {
 		in.res = scaledCopy(rep.Residuals, f.ky)
 		in.w = f.w
 	}
-	in.xs, in.ys, in.res = safeScaled(in.xs), safeScaled(in.ys), safeScaled(in.res)
+	if k, _ := fc.sc.scaleFinite(in.xs); k != 1 {
+		in.xs = scaledCopy(in.xs, k)
+	}
+	in.ys, in.res = safeScaled(in.ys), safeScaled(in.res)
 	if in.w != nil {
 		in.w = safeScaled(in.w)
 	}
@@ -438,7 +464,8 @@ func (fc *fitContext) newCheckRun() *checkRun {
 	// What ckValidate(xs, ys, w), ckValidate(xs, pr, nil) and
 	// ckValidate(xs, res, w) would say is "", each array read once.
 	n := len(in.xs)
-	xsOK, wOK := ckAllFinite(in.xs), ckWeights(in.w, n) == ""
+	_, xsOK := fc.sc.scaleFinite(in.xs)
+	wOK := ckWeights(in.w, n) == ""
 	r.pre.xyValid = xsOK && wOK && len(in.ys) == n && ckAllFinite(in.ys)
 	r.pre.residValid = xsOK && len(in.pr) == n && ckAllFinite(in.pr)
 	r.pre.quick = fc.sc.refit
@@ -525,7 +552,7 @@ func (r *checkRun) influence() {
 	rep, in := r.fc.rep, &r.in
 	if r.fc.sc.refit {
 		// A candidate needs only the influence summary.
-		r.inflSummary = influenceSummary(in.xs, in.res, in.w, in.pr, r.origin, r.inflValid)
+		r.inflSummary = influenceSummary(in.xs, in.res, in.w, in.pr, r.origin, r.inflValid, &r.fc.sc.lev)
 	} else {
 		var masks []uint8
 		rep.Influence, masks = influenceRun(in.xs, in.res, in.w, in.pr, r.origin, r.inflValid, true)

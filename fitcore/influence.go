@@ -96,9 +96,35 @@ func influence(x, resid, w []float64, origin, valid bool) []PointInfluence {
 
 // influenceSummary is Summarize's influence assumption for Influence(x,
 // resid, w, origin), found without keeping the per-reading results.
-func influenceSummary(x, resid, w, pr []float64, origin, valid bool) Assumption {
-	_, masks := influenceRun(x, resid, w, pr, origin, valid, false)
+//
+// lc, when not nil, keeps the leverages' sums of the first unweighted x
+// it is asked about, for the refits of the advice that share that x.
+func influenceSummary(x, resid, w, pr []float64, origin, valid bool, lc *ckLevCache) Assumption {
+	_, masks := influenceRunWith(x, resid, w, pr, origin, valid, false, lc)
 	return ckInfluenceFromMasks(masks)
+}
+
+// ckLevCache keeps ckNewLeverage(x, nil, origin) for one x (the slice).
+type ckLevCache struct {
+	lev ckLev
+	ok  bool
+}
+
+// leverage returns ckNewLeverage(x, w, origin), from c when it holds the
+// same unweighted x (c nil: nothing is kept). What c keeps is for the
+// first x asked about (see anScratch.prepare).
+func (c *ckLevCache) leverage(x, w []float64, origin bool) (ckLev, bool) {
+	if c == nil || w != nil || len(x) == 0 {
+		return ckNewLeverage(x, w, origin)
+	}
+	if l := &c.lev; len(l.x) == len(x) && &l.x[0] == &x[0] && l.w == nil && l.origin == origin {
+		return c.lev, c.ok
+	}
+	lev, ok := ckNewLeverage(x, nil, origin)
+	if c.lev.x == nil {
+		c.lev, c.ok = lev, ok
+	}
+	return lev, ok
 }
 
 // ckInfluenceFromMasks is ckSummarizeInfluence from the reason bits of
@@ -131,6 +157,12 @@ func ckInfluenceFromMasks(masks []uint8) Assumption {
 // made them (math.Sqrt(w[i])·resid[i], the same expression, so the same
 // bits), read instead of being worked out again.
 func influenceRun(x, resid, w, pr []float64, origin, valid, keep bool) (out []PointInfluence, masks []uint8) {
+	return influenceRunWith(x, resid, w, pr, origin, valid, keep, nil)
+}
+
+// influenceRunWith is influenceRun with the leverages' sums from lc (see
+// influenceSummary).
+func influenceRunWith(x, resid, w, pr []float64, origin, valid, keep bool, lc *ckLevCache) (out []PointInfluence, masks []uint8) {
 	if !valid && ckValidate(x, resid, w, "residual") != "" {
 		return nil, nil
 	}
@@ -142,7 +174,7 @@ func influenceRun(x, resid, w, pr []float64, origin, valid, keep bool) (out []Po
 	if n <= p {
 		return nil, nil
 	}
-	lev, ok := ckNewLeverage(x, w, origin)
+	lev, ok := lc.leverage(x, w, origin)
 	if !ok {
 		return nil, nil
 	}
