@@ -237,6 +237,19 @@ func (s *anScratch) residuals(f *lineFit, xt, yt []float64, rep *Report) error {
 	return nil
 }
 
+// smearing sets Duan's factor of a log scale from rep's residuals, but
+// not for a refit: the factor, an exponential of every residual, is for
+// predictions, which a candidate has none of.
+func (s *anScratch) smearing(tr *transformer, rep *Report) {
+	if s.refit {
+		return
+	}
+	tr.setSmearing(rep.Residuals)
+	if tr.isLogY() {
+		rep.Smearing = tr.smearing
+	}
+}
+
 // analyze is Analyze with its work space in sc.
 func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	o, err := normalizeOptions(opt)
@@ -321,10 +334,7 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	if err := sc.residuals(f, xt, yt, rep); err != nil {
 		return nil, err
 	}
-	tr.setSmearing(rep.Residuals)
-	if tr.isLogY() {
-		rep.Smearing = tr.smearing
-	}
+	sc.smearing(tr, rep)
 
 	fc := &fitContext{f: f, tr: tr, wm: wm, x: x, y: y, xt: xt, yt: yt, w: w, opt: o, rep: rep, sc: sc}
 	fc.runChecks()
