@@ -125,6 +125,7 @@ type xScaleFinite struct {
 	x      []float64
 	k      float64
 	finite bool
+	lo, hi float64 // rangeOf(x)
 }
 
 // scaleFinite returns ckSafeScale(x) and ckAllFinite(x), worked out once
@@ -137,8 +138,17 @@ func (s *anScratch) scaleFinite(x []float64) (k float64, finite bool) {
 	k, finite = ckSafeScale(x), ckAllFinite(x)
 	if s.xsf.x == nil && len(x) > 0 {
 		s.xsf = xScaleFinite{x: x, k: k, finite: finite}
+		s.xsf.lo, s.xsf.hi = rangeOf(x)
 	}
 	return k, finite
+}
+
+// rangeOfX is rangeOf(x), from what scaleFinite keeps when x is its x.
+func (s *anScratch) rangeOfX(x []float64) (lo, hi float64) {
+	if c := &s.xsf; len(x) > 0 && len(c.x) == len(x) && &c.x[0] == &x[0] {
+		return c.lo, c.hi
+	}
+	return rangeOf(x)
 }
 
 // prepare returns ckPrepare(x) with dw set, working it out only when x is
@@ -375,7 +385,7 @@ type fitContext struct {
 // prediction and inverse asks for it).
 func (fc *fitContext) xRange() (lo, hi float64) {
 	if !fc.xRanged {
-		fc.xLo, fc.xHi = rangeOf(fc.x)
+		fc.xLo, fc.xHi = fc.sc.rangeOfX(fc.x)
 		fc.xRanged = true
 	}
 	return fc.xLo, fc.xHi
@@ -591,6 +601,7 @@ func (fc *fitContext) finishChecks(inflSummary Assumption) {
 		// A refit's sizes are read only where a Fail could become a Warn.
 		parts = fc.failedParts()
 	}
+	parts.xRange = fc.sc.rangeOfX
 	if !fc.noScatter && (parts.curvature || parts.scatter || parts.drift) {
 		dep = departuresOf(fc.xt, fc.yt, rep.Residuals, fc.w, origin, fc.allowedResidual(), parts)
 	}

@@ -63,8 +63,8 @@ func shapiroWilk(x []float64, b *ckSortBuf, valid bool) (w, p float64, err error
 // shapiroWilkIf is shapiroWilk, but for n > swBlock, when needW is not
 // nil, the p-value of the groups comes first and W (the sort of all n
 // values) is worked out only when needW(p) says so; haveW says whether it
-// was. Whether the values have no spread (an error) is found from their
-// range, as the sort would find it.
+// was. Whether the values have no spread (an error) is found, without the
+// sort, from their range, as the sort would find it.
 func shapiroWilkIf(x []float64, b *ckSortBuf, valid bool, needW func(p float64) bool) (w, p float64, haveW bool, err error) {
 	n := len(x)
 	if needW == nil || n <= swBlock {
@@ -76,13 +76,14 @@ func shapiroWilkIf(x []float64, b *ckSortBuf, valid bool, needW func(p float64) 
 			return 0, 0, false, fmt.Errorf("value %d (%v): %w", i+1, v, errSWNotFinite)
 		}
 	}
-	lo, hi := rangeOf(x)
-	if rng := hi - lo; !(rng > 0) || !ckFinite(rng) {
-		return 0, 0, false, errSWConstant
-	}
 	b.f = ckGrowF64(b.f, n)
 	p = swGroupsP(x, b, b.f)
 	if !needW(p) {
+		// (Values without spread give groups without spread, p = 1.)
+		lo, hi := rangeOf(x)
+		if rng := hi - lo; !(rng > 0) || !ckFinite(rng) {
+			return 0, 0, false, errSWConstant
+		}
 		return 0, p, false, nil
 	}
 	s := b.sortedCopy(x)

@@ -91,10 +91,14 @@ func departures(xt, yt, e, w []float64, origin bool, allowed float64) *Departure
 	return departuresOf(xt, yt, e, w, origin, allowed, depAll)
 }
 
-// depParts says which of the sizes departuresOf works out.
-type depParts struct{ curvature, scatter, drift bool }
+// depParts says which of the sizes departuresOf works out; xRange, when
+// set, gives rangeOf of x (from what an analysis keeps about its x).
+type depParts struct {
+	curvature, scatter, drift bool
+	xRange                    func([]float64) (lo, hi float64)
+}
 
-var depAll = depParts{true, true, true}
+var depAll = depParts{curvature: true, scatter: true, drift: true}
 
 // departuresOf is departures working out only the parts asked for (the
 // fields of the others stay zero, Known… false).
@@ -108,7 +112,11 @@ func departuresOf(xt, yt, e, w []float64, origin bool, allowed float64, parts de
 		k = sizesScale(e, w)
 	}
 	if parts.scatter {
-		d.scatterThirds(xt, e, w, k)
+		rng := parts.xRange
+		if rng == nil {
+			rng = rangeOf
+		}
+		d.scatterThirds(xt, e, w, k, rng)
 	}
 	np := 2
 	if origin {
@@ -163,12 +171,12 @@ func sizesScale(e, w []float64) float64 {
 // value, lo + (hi − lo)/3 and lo + 2(hi − lo)/3 the boundaries (a reading
 // on a boundary counts in the lower part).
 //
-// k is sizesScale(e, w).
-func (d *Departures) scatterThirds(x, e, w []float64, k float64) {
+// k is sizesScale(e, w) and rng is rangeOf (or gives what it gives).
+func (d *Departures) scatterThirds(x, e, w []float64, k float64, rng func([]float64) (lo, hi float64)) {
 	if !(k > 0) || !ckFinite(k) {
 		return
 	}
-	lo, hi := rangeOf(x)
+	lo, hi := rng(x)
 	if !(hi > lo) {
 		return
 	}
