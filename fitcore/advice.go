@@ -17,7 +17,8 @@ import (
 // (adNothingToDo). Otherwise each remedy
 // is tried in this fixed order, by refitting with Analyze (intercept model,
 // the same level and reference values, SkipAdvice) and re-running all the
-// checks:
+// checks (a refit works out only what its Candidate shows, and gives the
+// candidate of the full analysis on the remedy's options exactly):
 //
 //	log_y         ln y on x                   needs every y > 0
 //	log_log       ln y on ln x                needs every x > 0 and y > 0

@@ -58,8 +58,11 @@ type anScratch struct {
 	xsf  xScaleFinite
 
 	// refit is set while the advice refits a remedy: only what a Candidate
-	// takes from the report is needed (no Box–Cox profile, no reasons
-	// texts or per-reading influence, residuals in the space below).
+	// takes from the report is needed (no Box–Cox profile, no fitted
+	// values, smearing factor, reasons texts or per-reading influence;
+	// only the practical sizes a failed check reads; Shapiro–Wilk's W only
+	// for a verdict other than Pass; buffers below), and each candidate is
+	// that of the full analysis (TestRefitEqualsFullAnalysis).
 	refit  bool
 	resids []float64
 	yt     []float64 // a refit's y on its scale
