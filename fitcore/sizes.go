@@ -315,18 +315,33 @@ func curvQuadratic(x, y, w []float64, m float64) (q0, q1, q2 float64, ok bool) {
 	// line has no intercept but the quadratic's gap is judged the same way).
 	var s [5]float64
 	var t [3]float64
+	// The powers p = w·u^k, k = 0 … 4, and their sums, written out (the
+	// same products and sums, in the same order, as a loop over k).
+	s0, s1, s2, s3, s4 := s[0], s[1], s[2], s[3], s[4]
+	t0, t1, t2 := t[0], t[1], t[2]
+	y = y[:len(x)]
 	for i, v := range x {
 		u := v - m
-		wi := ckW(w, i)
-		p := wi
-		for k := range 5 {
-			s[k] += p
-			if k < 3 {
-				t[k] += p * y[i]
-			}
-			p *= u
+		yi := y[i]
+		p := 1.0
+		if w != nil {
+			p = w[i]
 		}
+		s0 += p
+		t0 += p * yi
+		p *= u
+		s1 += p
+		t1 += p * yi
+		p *= u
+		s2 += p
+		t2 += p * yi
+		p *= u
+		s3 += p
+		p *= u
+		s4 += p
 	}
+	s = [5]float64{s0, s1, s2, s3, s4}
+	t = [3]float64{t0, t1, t2}
 	a := [3][4]float64{{s[0], s[1], s[2], t[0]}, {s[1], s[2], s[3], t[1]}, {s[2], s[3], s[4], t[2]}}
 	tiny := 1e-13 * math.Abs(s[0]+s[2]+s[4])
 	for c := range 3 {
