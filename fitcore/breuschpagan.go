@@ -65,7 +65,7 @@ func ckSpread(name string, x, resid []float64, quad bool, pre *ckPre) Check {
 			}
 		}
 	}
-	r2, ok := ckSpreadR2With(x, resid, bs, quad, &sq)
+	r2, ok := ckSpreadR2With(x, resid, bs, quad, &sq, pre)
 	if !ok {
 		return ckNA(name, "The residuals are all the same size (for example all zero), so their spread cannot change with x.")
 	}
@@ -88,7 +88,7 @@ func ckSpread(name string, x, resid []float64, quad bool, pre *ckPre) Check {
 // or a basis member is degenerate.
 func ckSpreadR2(x, resid []float64, bs *ckBasis, quad bool) (float64, bool) {
 	sq := ckNewSqMoments(resid)
-	return ckSpreadR2With(x, resid, bs, quad, &sq)
+	return ckSpreadR2With(x, resid, bs, quad, &sq, nil)
 }
 
 // ckSqMoments are the largest e², the mean of e² and its root mean
@@ -98,18 +98,16 @@ type ckSqMoments struct {
 }
 
 // ckNewSqMoments works out the moments of e² for the residuals resid: the
-// largest, then the mean, then the deviations about it with the
-// compensated second pass (Chan, Golub & LeVeque).
+// largest and the mean in one pass, then the deviations about the mean
+// with the compensated second pass (Chan, Golub & LeVeque).
 func ckNewSqMoments(resid []float64) ckSqMoments {
 	var m ckSqMoments
-	for _, e := range resid {
-		m.big = max(m.big, e*e)
-	}
-	n := float64(len(resid))
 	var mean float64
 	for _, e := range resid {
+		m.big = max(m.big, e*e)
 		mean += e * e
 	}
+	n := float64(len(resid))
 	mean /= n
 	var ss, corr float64
 	for _, e := range resid {
@@ -133,13 +131,15 @@ func (p *ckPre) sqMoments(resid []float64) ckSqMoments {
 		return ckNewSqMoments(resid)
 	}
 	if len(p.sqOf) != len(resid) || &p.sqOf[0] != &resid[0] {
-		p.sqOf, p.sq = resid, ckNewSqMoments(resid)
+		p.sqOf, p.sq, p.sqFirstOK = resid, ckNewSqMoments(resid), false
 	}
 	return p.sq
 }
 
-// ckSpreadR2With is ckSpreadR2 with the moments of e² in sq.
-func ckSpreadR2With(x, resid []float64, bs *ckBasis, quad bool, sq *ckSqMoments) (float64, bool) {
+// ckSpreadR2With is ckSpreadR2 with the moments of e² in sq; pre, when not
+// nil, is where sq came from (sqMoments), and keeps the first pass of the
+// projection for the other of Breusch–Pagan and White.
+func ckSpreadR2With(x, resid []float64, bs *ckBasis, quad bool, sq *ckSqMoments, pre *ckPre) (float64, bool) {
 	n := float64(len(resid))
 	mean, rms := sq.mean, sq.rms
 	if rms == 0 || !ckFinite(rms) {
@@ -149,7 +149,18 @@ func ckSpreadR2With(x, resid []float64, bs *ckBasis, quad bool, sq *ckSqMoments)
 		return 0, false
 	}
 	is := 1 / rms
-	f := bs.project(x, nil, quad, resid, true, mean, is)
+	var f1 ckFirstPass
+	switch {
+	case pre != nil && pre.sqFirstOK:
+		f1 = pre.sqFirst
+	case pre != nil:
+		// With the quadratic sum as well when White can use it.
+		f1 = bs.firstPass(x, nil, bs.okG, resid, true, mean, is)
+		pre.sqFirst, pre.sqFirstOK = f1, bs.okG
+	default:
+		f1 = bs.firstPass(x, nil, quad, resid, true, mean, is)
+	}
+	f := bs.projectFrom(f1, x, nil, quad, resid, true, mean, is)
 	r2 := 1 - f.sse/n
 	if r2 < 0 {
 		r2 = 0
