@@ -416,6 +416,9 @@ func (fc *fitContext) runChecks() {
 // residuals themselves without weights).
 type checkInputs struct {
 	xs, ys, res, w, pr []float64
+	// whether every value of ys, res and pr is finite (ckAllFinite),
+	// found in the passes that made them
+	ysFinite, resFinite, prFinite bool
 }
 
 // checkInputs takes x, y, the residuals and the weights back from the
@@ -435,11 +438,12 @@ func (fc *fitContext) checkInputs() checkInputs {
 	if k, _ := fc.sc.scaleFinite(in.xs); k != 1 {
 		in.xs = scaledCopy(in.xs, k)
 	}
-	in.ys, in.res = safeScaled(in.ys), safeScaled(in.res)
+	in.ys, in.ysFinite = safeScaledFinite(in.ys)
+	in.res, in.resFinite = safeScaledFinite(in.res)
 	if in.w != nil {
 		in.w = safeScaled(in.w)
 	}
-	in.pr = in.res
+	in.pr, in.prFinite = in.res, in.resFinite
 	if in.w != nil && fc.sc.refit {
 		fc.sc.pr = ckGrowF64(fc.sc.pr, len(in.res))
 		in.pr = fc.sc.pr
@@ -447,11 +451,47 @@ func (fc *fitContext) checkInputs() checkInputs {
 		in.pr = make([]float64, len(in.res))
 	}
 	if in.w != nil {
+		var s0 float64 // as ckAllFinite: 0 unless a value is not finite
 		for i, e := range in.res {
-			in.pr[i] = math.Sqrt(in.w[i]) * e
+			v := math.Sqrt(in.w[i]) * e
+			in.pr[i] = v
+			s0 += v * 0
 		}
+		in.prFinite = s0 == 0
 	}
 	return in
+}
+
+// safeScaledFinite is safeScaled(v) and ckAllFinite of it, from one pass
+// over v (a power of two that brings the largest |v| into [½, 1) keeps
+// every finite value finite, and ckSafeScale leaves v as it is when a
+// value is not).
+func safeScaledFinite(v []float64) ([]float64, bool) {
+	k, finite := ckSafeScaleFinite(v)
+	if k != 1 {
+		return scaledCopy(v, k), finite
+	}
+	return v, finite
+}
+
+// ckSafeScaleFinite is ckSafeScale(v) and ckAllFinite(v) in one pass.
+func ckSafeScaleFinite(v []float64) (k float64, finite bool) {
+	var m0, m1, m2, m3, s0, s1 float64
+	i := 0
+	for ; i+4 <= len(v); i += 4 {
+		a, b, c, d := v[i], v[i+1], v[i+2], v[i+3]
+		m0 = max(m0, math.Abs(a))
+		m1 = max(m1, math.Abs(b))
+		m2 = max(m2, math.Abs(c))
+		m3 = max(m3, math.Abs(d))
+		s0 += a*0 + c*0
+		s1 += b*0 + d*0
+	}
+	for ; i < len(v); i++ {
+		m0 = max(m0, math.Abs(v[i]))
+		s0 += v[i] * 0
+	}
+	return ckScaleOfMax(max(max(m0, m1), max(m2, m3))), s0+s1 == 0
 }
 
 // safeScaled is v, or a copy of v scaled by ckSafeScale's power of two.
@@ -489,10 +529,10 @@ func (fc *fitContext) newCheckRun() *checkRun {
 	n := len(in.xs)
 	_, xsOK := fc.sc.scaleFinite(in.xs)
 	wOK := ckWeights(in.w, n) == ""
-	r.pre.xyValid = xsOK && wOK && len(in.ys) == n && ckAllFinite(in.ys)
-	r.pre.residValid = xsOK && len(in.pr) == n && ckAllFinite(in.pr)
+	r.pre.xyValid = xsOK && wOK && len(in.ys) == n && in.ysFinite
+	r.pre.residValid = xsOK && len(in.pr) == n && in.prFinite
 	r.pre.quick = fc.sc.refit
-	r.inflValid = r.pre.residValid && (in.w == nil || (wOK && len(in.res) == n && ckAllFinite(in.res)))
+	r.inflValid = r.pre.residValid && (in.w == nil || (wOK && len(in.res) == n && in.resFinite))
 	if r.origin {
 		r.np = 1
 	}
@@ -727,7 +767,11 @@ func ckSafeScale(v []float64) float64 {
 	for ; i < len(v); i++ {
 		m0 = max(m0, math.Abs(v[i]))
 	}
-	m := max(max(m0, m1), max(m2, m3))
+	return ckScaleOfMax(max(max(m0, m1), max(m2, m3)))
+}
+
+// ckScaleOfMax is ckSafeScale's power of two for the largest magnitude m.
+func ckScaleOfMax(m float64) float64 {
 	if m == 0 || !isFiniteNum(m) || (m >= 0x1p-100 && m <= 0x1p100) {
 		return 1
 	}
