@@ -144,6 +144,18 @@ func BenchmarkFitBig(b *testing.B) {
 	}
 }
 
+// BenchmarkFitBigJSON: `pairline fit --json` (default options) on a
+// million rows, the JSON written to nowhere; it asserts nothing.
+func BenchmarkFitBigJSON(b *testing.B) {
+	path, _, _ := writeBigCSV(b, b.TempDir(), 1_000_000)
+	b.ReportAllocs()
+	for b.Loop() {
+		if code := Fit([]string{"--json", path}, nil, io.Discard, io.Discard); code != ExitOK {
+			b.Fatal(code)
+		}
+	}
+}
+
 // TestFitBigFileEqualsAnalyze: `pairline fit --json` on a file of more rows
 // than a session holds gives the report fitcore.Analyze gives on the same
 // numbers (parsed here with strconv.ParseFloat, the reference for plain

@@ -114,9 +114,10 @@ flags:
 
 Numbers in flags are finite and at most %[7]g in size. A value out of range
 is refused with one line naming the flag and the range (exit status 2).
-The file may hold up to %[8]d data rows and %[9]d MiB; it is read twice,
-keeping the two columns as numbers (standard input from a pipe is copied to
-a temporary file for that).
+The file may hold up to %[8]d data rows and %[9]d MiB. Only the two columns
+are kept, as numbers; the file is read once, or twice when its later rows
+change which columns hold numbers (standard input from a pipe is copied to a
+temporary file for that).
 `, fitcore.MinLevel, fitcore.MaxLevel, fitcore.DefaultLevel, fitcore.MaxBoxCoxLambda,
 	fitcore.MinVarianceRatio, fitcore.MaxVarianceRatio, MaxFlagNumber, MaxFitRows, MaxInputBytes>>20)
 
@@ -230,7 +231,7 @@ func parseFitFlags(args []string) (*fitFlags, error) {
 // fitResult is a report with what the command learnt about the input.
 type fitResult struct {
 	report *fitcore.Report
-	lines  []int // file line of each pair given to Analyze
+	lines  []int32 // file line of each pair given to Analyze (as StreamCSV keeps them)
 	xName  string
 	yName  string
 	// xUnit, yUnit are the units of x and y (a CSV file's units row, a
@@ -510,11 +511,7 @@ func runFit(ff *fitFlags, opt fitcore.Options, stdin io.Reader) (*fitResult, err
 	if err != nil {
 		return nil, err
 	}
-	x, y := res.X, res.Y
-	lines := make([]int, len(res.Lines))
-	for i, l := range res.Lines {
-		lines[i] = int(l)
-	}
+	x, y, lines := res.X, res.Y, res.Lines
 	notes, skipped := fitSkipNotes(res)
 	if err := fitEnough(x, notes, skipped); err != nil {
 		return nil, err
@@ -663,9 +660,11 @@ func columnName(res *session.StreamResult, c int, fallback string) string {
 	return fmt.Sprintf("%s (column %d)", fallback, c+1)
 }
 
-// openInput opens the file, or standard input for "-", for two passes:
-// standard input that cannot seek (a pipe) is copied to a temporary file
-// first, at most MaxInputBytes+1 bytes of it. done closes and removes what
+// openInput opens the file, or standard input for "-", for
+// session.StreamCSV, which reads it once when it can tell its size and a
+// second time when the first block chose other columns than the whole file
+// does: standard input that cannot seek (a pipe) is copied to a temporary
+// file first, at most MaxInputBytes+1 bytes of it. done closes and removes what
 // openInput made.
 func openInput(file string, stdin io.Reader) (io.ReadSeeker, func(), error) {
 	if file != "-" {
@@ -732,7 +731,7 @@ func unwrapPath(err error) error {
 
 // explainFitError adds the file line to fitcore's data errors, which name
 // the reading by its position.
-func explainFitError(err error, lines []int) error {
+func explainFitError(err error, lines []int32) error {
 	var de *fitcore.DataError
 	if errors.As(err, &de) && de.Index >= 0 && de.Index < len(lines) {
 		return fmt.Errorf("line %d: %v", lines[de.Index], err)

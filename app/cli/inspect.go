@@ -427,9 +427,9 @@ func sessionText(b *strings.Builder, i, n int, a *sessionAnalysis) {
 			w("Analysis not possible: %s\n", longText(a.AnalysisError))
 			return
 		}
-		lines := make([]int, len(a.Rows))
+		lines := make([]int32, len(a.Rows))
 		for k, r := range a.Rows {
-			lines[k] = r + 1 // rows as the table numbers them
+			lines[k] = int32(r + 1) // rows as the table numbers them (at most MaxReadings)
 		}
 		fr := &fitResult{report: a.Report, lines: lines,
 			xName: nameUnit(s.XName, s.XUnit, "x"), yName: nameUnit(s.YName, s.YUnit, "y"),

@@ -35,6 +35,7 @@ type jsonStream struct {
 	indent string
 	err    error
 	buf    bytes.Buffer
+	fast   fastJSON
 }
 
 func writeJSONIndented(w *bufio.Writer, v any, prefix, indent string) error {
@@ -141,7 +142,10 @@ func (js *jsonStream) slice(v reflect.Value, at string) {
 	}
 	inner := at + js.indent
 	js.write("[")
-	flat := flatType(v.Type().Elem())
+	// Elements of a flat type, or of one fastJSON writes (whose slices, such
+	// as an influence row's reasons, are short), are written in chunks
+	// without asking each whether it holds a long slice.
+	flat := flatType(v.Type().Elem()) || fastType(v.Type().Elem())
 	for i := 0; i < v.Len() && js.err == nil; {
 		if i > 0 {
 			js.write(",")
@@ -171,6 +175,17 @@ const chunkLen = 1024
 // written without its brackets, which gives the bytes MarshalIndent gives
 // for those elements of the whole slice.
 func (js *jsonStream) chunk(v reflect.Value, at string) {
+	if fastType(v.Type().Elem()) {
+		f := &js.fast
+		if len(f.levels) == 0 || f.levels[0] != at || f.indent != js.indent {
+			f.indent, f.levels = js.indent, append(f.levels[:0], at)
+		}
+		f.b = f.b[:0]
+		if f.elements(v) {
+			js.writeBytes(jsonText(f.b))
+			return
+		}
+	}
 	inner := at + js.indent
 	b, err := json.Marshal(v.Interface())
 	if err != nil {
@@ -307,6 +322,7 @@ type jsonField struct {
 	index               []int
 	tagged              bool
 	omitEmpty, omitZero bool
+	quoted              bool // the ",string" option, which fastJSON does not take
 }
 
 // fieldLists caches jsonFieldsOf.
@@ -389,7 +405,7 @@ func jsonCandidate(sf reflect.StructField, index []int) (f jsonField, embed refl
 		return jsonField{index: index}, ft, false
 	}
 	f = jsonField{name: name, index: index, tagged: name != "",
-		omitEmpty: hasOption(opts, "omitempty"), omitZero: hasOption(opts, "omitzero")}
+		omitEmpty: hasOption(opts, "omitempty"), omitZero: hasOption(opts, "omitzero"), quoted: hasOption(opts, "string")}
 	if f.name == "" {
 		f.name = sf.Name
 	}

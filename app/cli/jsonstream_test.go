@@ -5,6 +5,8 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"math"
+	"reflect"
 	"runtime"
 	"strings"
 	"testing"
@@ -12,6 +14,7 @@ import (
 
 	"pairline/app/demo"
 	"pairline/app/session"
+	"pairline/fitcore"
 )
 
 // streamed is what writeJSONIndented writes for v.
@@ -319,4 +322,51 @@ func TestJSONStreamFieldRules(t *testing.T) {
 			sameJSON(t, fmt.Sprintf("field rules %d, pointer", i), &v, prefix)
 		}
 	}
+}
+
+// FuzzJSONFloat: appendJSONFloat writes a float64 as json.Marshal does
+// (the oracle), for any bits, and refuses what Marshal refuses.
+func FuzzJSONFloat(f *testing.F) {
+	for _, v := range []float64{0, math.Copysign(0, -1), 1, -1.5, 1e-6, 9.999999e-7, 1e-7, 1e21, 9.99e20, 1e-300,
+		5e-324, math.MaxFloat64, 123456.789, 1e100, math.NaN(), math.Inf(1), math.Inf(-1)} {
+		f.Add(math.Float64bits(v))
+	}
+	f.Fuzz(func(t *testing.T, bits uint64) {
+		v := math.Float64frombits(bits)
+		got, ok := appendJSONFloat(nil, v)
+		want, err := json.Marshal(v)
+		if ok != (err == nil) || ok && string(got) != string(want) {
+			t.Fatalf("%v (%#x): %q %v; json.Marshal %q %v", v, bits, got, ok, want, err)
+		}
+	})
+}
+
+// TestJSONStreamInfluence: the influence rows of a big report, with
+// reasons holding what JSON escapes, and long slices of numbers of every
+// size of float, are MarshalIndent's bytes (the oracle) through fastJSON.
+func TestJSONStreamInfluence(t *testing.T) {
+	n := 3*chunkLen + 5
+	rows := make([]fitcore.PointInfluence, n)
+	nums := make([]float64, n)
+	for i := range rows {
+		v := math.Float64frombits(uint64(i)*0x9e3779b97f4a7c15 | 1)
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			v = float64(i)
+		}
+		nums[i] = v
+		rows[i] = fitcore.PointInfluence{Index: i, Leverage: v, Residual: -v / 3, Studentized: float64(i) * 1e-8,
+			CooksD: 1e21 * float64(i), DFFITS: 1 / float64(i+1), Flagged: i%7 == 0}
+		if i%7 == 0 {
+			rows[i].Reasons = []string{"leverage > 3p/n & \"large\"", "µ \u2028 \x7f tab\t", ""}
+		}
+	}
+	v := struct {
+		Rows []fitcore.PointInfluence `json:"rows"`
+		Nums []float64                `json:"nums"`
+	}{rows, nums}
+	if !fastType(reflect.TypeFor[fitcore.PointInfluence]()) {
+		t.Fatal("PointInfluence is not written by fastJSON")
+	}
+	sameJSON(t, "influence", v, "  ")
+	sameJSON(t, "influence, no prefix", v, "")
 }

@@ -187,7 +187,7 @@ func summaryRestOracle(fr *fitResult, level float64) string {
 // opt, and gives the fit as the command holds it, or nil when Analyze
 // refuses the readings.
 func summaryFit(n int, noise []byte, bend, spread float64, slip int, opt fitcore.Options, xUnit, yUnit string) *fitResult {
-	x, y, lines := make([]float64, n), make([]float64, n), make([]int, n)
+	x, y, lines := make([]float64, n), make([]float64, n), make([]int32, n)
 	for i := range n {
 		x[i] = float64(i%8) * 2.5
 		e := 0.0
@@ -198,7 +198,7 @@ func summaryFit(n int, noise []byte, bend, spread float64, slip int, opt fitcore
 		if i == slip {
 			y[i] /= 10
 		}
-		lines[i] = i + 2
+		lines[i] = int32(i + 2)
 	}
 	r, err := fitcore.Analyze(x, y, opt)
 	if err != nil {

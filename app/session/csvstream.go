@@ -1,6 +1,7 @@
 package session
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
@@ -87,21 +88,27 @@ type StreamOptions struct {
 // ReadCSV's rules (delimiter, header, column and decimal-comma detection,
 // line ends, quotes, the per-cell and per-row limits) and error sentences,
 // and ParseNumberHint for the numbers, but keeps the chosen columns as
-// float64 (not as text) and reads r in blocks of whole rows, twice: r must
-// be at its start and is sought back to it for the second pass.
+// float64 (not as text) and reads r in blocks of whole rows: r must be at
+// its start. Pass 1 (counts for the header and column choice) and pass 2
+// (the chosen cells as numbers) run together on the choice the first block
+// gives (lookAhead); only when the whole text chooses differently, or r
+// cannot tell its size, is r sought back to its start and read again for
+// pass 2. Either way the result is the same.
 //
-// Limits: MaxStreamSize bytes, MaxStreamRows data rows. Cost: two passes,
-// linear in the text; memory about 20 bytes a pair (two float64 and an
-// int32 line, made once at the row count of pass 1), half a byte a pair
-// for the cells whose decimal separator is ambiguous, the cells that are
-// not numbers, and a buffer of about a MiB.
+// Limits: MaxStreamSize bytes, MaxStreamRows data rows. Cost: linear in
+// the text, one pass or two; memory about 20 bytes a pair (two float64 and
+// an int32 line, made once at the row count estimated from the first
+// block's rows per byte, or counted by pass 1), half a byte a pair for the
+// cells whose decimal separator is ambiguous, the cells that are not
+// numbers, and a buffer of about a MiB.
 //
 // Text that is not UTF-8 (read as Latin-1) or UTF-16 is read with ReadCSV
 // itself, within its limits (MaxCSVSize, MaxReadings): such files come from
 // old spreadsheets, not from data loggers of millions of rows.
 func StreamCSV(r io.ReadSeeker, opt StreamOptions) (*StreamResult, error) {
 	res := &StreamResult{decided: opt.DecimalComma}
-	p1, err := streamPass1(r, opt, res)
+	opt.Columns = memoColumns(opt.Columns)
+	p1, err := streamPass1(r, opt, res, streamSize(r))
 	if err != nil {
 		return nil, err
 	}
@@ -111,10 +118,52 @@ func StreamCSV(r io.ReadSeeker, opt StreamOptions) (*StreamResult, error) {
 	if err := streamChoose(opt, res, p1); err != nil {
 		return nil, err
 	}
+	if la := p1.ahead; la != nil && la.same(res) {
+		return la.result(res)
+	}
+	p1.ahead = nil // its columns are garbage before pass 2 makes its own
 	if err := streamPass2(r, res, p1.rows); err != nil {
 		return nil, err
 	}
 	return res, nil
+}
+
+// streamSize is the number of bytes from r's offset to its end, or −1 when
+// r cannot tell (it is then read in two passes). r is left where it was.
+func streamSize(r io.Seeker) int64 {
+	cur, err := r.Seek(0, io.SeekCurrent)
+	if err != nil {
+		return -1
+	}
+	end, err := r.Seek(0, io.SeekEnd)
+	if _, serr := r.Seek(cur, io.SeekStart); err != nil || serr != nil || end < cur {
+		return -1
+	}
+	return end - cur
+}
+
+// memoColumns is f answering each header once: StreamCSV may ask it after
+// the first block (for the look-ahead) and again at the end of pass 1.
+func memoColumns(f func(header []string) (int, int, error)) func(header []string) (int, int, error) {
+	if f == nil {
+		return nil
+	}
+	type answer struct {
+		header []string
+		x, y   int
+		err    error
+	}
+	var answers []answer
+	return func(header []string) (int, int, error) {
+		for _, a := range answers {
+			if (a.header == nil) == (header == nil) && slices.Equal(a.header, header) {
+				return a.x, a.y, a.err
+			}
+		}
+		x, y, err := f(header)
+		answers = append(answers, answer{slices.Clone(header), x, y, err})
+		return x, y, err
+	}
 }
 
 // blockReader cuts a text into blocks that end at a row end outside quotes.
@@ -151,25 +200,30 @@ func (b *blockReader) fill(n int) {
 
 // rowEnd is the end (exclusive) of the last row end outside quotes in p,
 // 0 when there is none. A CR is a row end only when the byte after it is
-// known and not LF, so a CRLF is never cut in two.
+// known and not LF, so a CRLF is never cut in two. A line end is outside
+// quotes when an even number of quotes comes before it, so the search runs
+// back from the end of p (a row's length, not the block's) after one count
+// of the quotes.
 func rowEnd(p []byte) int {
-	in, end := false, 0
-	for i, c := range p {
-		switch c {
+	quotes := bytes.Count(p, quoteByte) // quotes before p[i], as i runs back
+	for i := len(p) - 1; i >= 0; i-- {
+		switch p[i] {
 		case '"':
-			in = !in
+			quotes--
 		case '\n':
-			if !in {
-				end = i + 1
+			if quotes%2 == 0 {
+				return i + 1
 			}
 		case '\r':
-			if !in && i+1 < len(p) && p[i+1] != '\n' {
-				end = i + 1
+			if quotes%2 == 0 && i+1 < len(p) && p[i+1] != '\n' {
+				return i + 1
 			}
 		}
 	}
-	return end
+	return 0
 }
+
+var quoteByte = []byte{'"'}
 
 // rowsAtLeast reports whether text holds n non-blank rows, counted as
 // detectDelimiter counts them.
@@ -233,12 +287,20 @@ func (b *blockReader) next() string {
 	}
 }
 
-// lineEnds is the number of line ends in s (LF, CRLF, a lone CR).
-func lineEnds(s string) int { return lineAt(s, len(s)) - 1 }
+// lineEnds is the number of line ends in s (LF, CRLF, a lone CR), as
+// lineAt(s, len(s)) − 1 counts them.
+func lineEnds(s string) int {
+	n := strings.Count(s, "\n")
+	if cr := strings.Count(s, "\r"); cr > 0 {
+		n += cr - strings.Count(s, "\r\n")
+	}
+	return n
+}
 
 type pass1 struct {
 	tableCounts
 	fallback bool
+	ahead    *lookAhead // pass 2 run alongside, on the first block's choice
 }
 
 // streamPass1 is pass 1 of readTable over blocks, with decodeText's checks
@@ -247,7 +309,7 @@ type pass1 struct {
 // stages: a UTF-16 byte-order mark sends the file to ReadCSV (fallback),
 // each block is checked and scanned (block), then the end is checked
 // (finish).
-func streamPass1(r io.Reader, opt StreamOptions, res *StreamResult) (*pass1, error) {
+func streamPass1(r io.Reader, opt StreamOptions, res *StreamResult, size int64) (*pass1, error) {
 	p := &pass1{}
 	var head [2]byte
 	n, _ := io.ReadFull(r, head[:])
@@ -256,7 +318,7 @@ func streamPass1(r io.Reader, opt StreamOptions, res *StreamResult) (*pass1, err
 		return p, nil
 	}
 	br := newBlockReader(io.MultiReader(strings.NewReader(string(head[:n])), r))
-	var st pass1State
+	st := pass1State{size: size}
 	for block := br.next(); block != ""; block = br.next() {
 		if br.total > MaxStreamSize {
 			return nil, streamTooLarge()
@@ -282,6 +344,7 @@ func streamPass1(r io.Reader, opt StreamOptions, res *StreamResult) (*pass1, err
 type pass1State struct {
 	scanErr, nulErr *CSVError
 	lineOff         int
+	size            int64 // of the text, −1 when not known
 }
 
 // streamTooLarge is the error of a text above MaxStreamSize.
@@ -304,6 +367,9 @@ func (p *pass1) block(block string, st *pass1State, opt StreamOptions, res *Stre
 	if res.Delimiter == 0 {
 		if err := streamDelimiter(block, opt, res); err != nil {
 			return false, err
+		}
+		if st.nulErr == nil && st.size >= 0 {
+			p.ahead = newLookAhead(block, opt, res, st.size)
 		}
 	}
 	if st.scanErr == nil && st.nulErr == nil {
@@ -356,26 +422,162 @@ func (p *pass1) finish(br *blockReader, st *pass1State, opt StreamOptions, res *
 	return nil
 }
 
-// scan is the loop of readTable's pass 1 over one block.
+// scan is the loop of readTable's pass 1 over one block, each row also
+// handed to the look-ahead, whose reading of the x and y cells the column
+// counts then take instead of reading them again.
 func (p *pass1) scan(block string, lineOff int, res *StreamResult) *CSVError {
 	sc := newCSVScanner(block, res.Delimiter)
 	sc.line += lineOff
+	la := p.ahead
 	for {
 		sc.raw = p.rows >= 3 // the first three rows are kept as they are read
+		empty := sc.empty
 		fields, line, cerr := sc.next()
 		if cerr != nil {
 			return cerr
 		}
+		la.emptyLines(sc.empty - empty)
 		if fields == nil {
 			return nil
 		}
-		if isBlankRow(fields) {
-			continue
-		}
-		if p.rows+1 > MaxStreamRows+1 {
+		blank := isBlankRow(fields)
+		if !blank && p.rows+1 > MaxStreamRows+1 {
 			return &CSVError{Line: line, Err: fmt.Errorf("%w (at most %d)", ErrCSVStreamRows, MaxStreamRows)}
 		}
-		p.add(fields, line, cloneFields)
+		seen := la.row(fields, line, sc.raw)
+		if !blank {
+			p.addSeen(fields, line, cloneFields, seen)
+		}
+	}
+}
+
+// lookAhead is pass 2 run inside pass 1, on the header, units row, export
+// and columns that decideTable chooses from the first block alone (a
+// look-ahead of about a MiB, at least 100 rows). When the choice from the
+// whole file is the same, which it is unless the rows after the first block
+// change which columns hold numbers or make a chosen column exist, its
+// columns are the result and the file is read once; otherwise it is
+// dropped and pass 2 reads the file again. Each row gets exactly the steps
+// pass 2 gives it (pass2.row), so either way the result is the same.
+type lookAhead struct {
+	q   pass2
+	st  pass2Rows
+	res StreamResult // the choice, and what the rows gave under it
+	err error        // the first error of pass 2 (the row limit)
+}
+
+// newLookAhead scans the first block into counts of its own and chooses
+// from them; nil when the block gives no choice (an error, no rows: pass 1
+// reports it, or pass 2 runs). size is the text's, to make the columns
+// once at about the row count (the rows per byte of the first block).
+func newLookAhead(block string, opt StreamOptions, res *StreamResult, size int64) *lookAhead {
+	first := &pass1{}
+	if first.scan(block, 0, res) != nil || first.rows == 0 {
+		return nil
+	}
+	ch, err := decideTable(opt.CSVOptions, &first.tableCounts, opt.Columns)
+	if err != nil {
+		return nil
+	}
+	n := int64(first.rows)
+	if int64(len(block)) < size {
+		n = n*size/int64(len(block)) + n/64 + 64
+	}
+	n = min(n, MaxStreamRows)
+	return &lookAhead{res: StreamResult{Delimiter: res.Delimiter, HasHeader: ch.hasHeader, UnitsRow: ch.unitsRow,
+		PairlineExport: ch.export, XCol: ch.xc, YCol: ch.yc,
+		X: make([]float64, 0, n), Y: make([]float64, 0, n), Lines: make([]int32, 0, n)}}
+}
+
+// emptyLines counts n empty lines passed over before the next row as pass
+// 2's block does.
+func (la *lookAhead) emptyLines(n int) {
+	if la != nil && la.err == nil && la.st.seen > 0 {
+		la.st.pendingBlank += n
+	}
+}
+
+// row is pass2.row on one row of pass 1 (raw: its fields as sc.raw gave
+// them); it returns the x and y cells it read, for the column counts.
+func (la *lookAhead) row(fields []string, line int, raw bool) cellsSeen {
+	if la == nil || la.err != nil {
+		return cellsSeen{}
+	}
+	if err := la.q.row(fields, line, raw, &la.st, &la.res); err != nil {
+		la.err = err
+		return cellsSeen{}
+	}
+	return la.q.seen
+}
+
+// same reports whether the whole file's choice is the look-ahead's.
+func (la *lookAhead) same(res *StreamResult) bool {
+	g := &la.res
+	return g.HasHeader == res.HasHeader && g.UnitsRow == res.UnitsRow && g.PairlineExport == res.PairlineExport &&
+		g.XCol == res.XCol && g.YCol == res.YCol
+}
+
+// result is res with the look-ahead's columns and counts, finished as pass
+// 2 finishes, or pass 2's error.
+func (la *lookAhead) result(res *StreamResult) (*StreamResult, error) {
+	if la.err != nil {
+		return nil, la.err
+	}
+	g := &la.res
+	res.X, res.Y, res.Lines, res.Problems = g.X, g.Y, g.Lines, g.Problems
+	res.Skipped, res.Blank, res.Incomplete = g.Skipped, g.Blank, g.Incomplete
+	if err := la.q.finish(res); err != nil {
+		return nil, err
+	}
+	return res, nil
+}
+
+// cellsSeen are the x and y cells of a data row as pass 2 read them (read:
+// the row had both), the columns, and whether each is a number.
+type cellsSeen struct {
+	read     bool
+	x, y     string
+	xc, yc   int
+	xok, yok bool
+}
+
+// addSeen is tableCounts.add with the x and y cells as the look-ahead read
+// them: a cell of the same text in the same column is a number when the
+// look-ahead read one (isNumberCell and pass 2's reading take the same
+// texts), so it is not read twice.
+func (tc *tableCounts) addSeen(fields []string, line int, keep func([]string) []string, seen cellsSeen) {
+	if !seen.read || tc.rows == 0 {
+		tc.add(fields, line, keep)
+		return
+	}
+	tc.rows++
+	tc.width = max(tc.width, len(fields))
+	switch tc.rows {
+	case 2:
+		tc.second = keep(fields)
+	case 3:
+		tc.third = keep(fields)
+	}
+	for len(tc.filled) < len(fields) {
+		tc.filled, tc.nums = append(tc.filled, 0), append(tc.nums, 0)
+	}
+	for c, f := range fields {
+		var num bool
+		switch {
+		case c == seen.xc && f == seen.x: // not blank: pass 2 read it
+			num = seen.xok
+		case c == seen.yc && f == seen.y:
+			num = seen.yok
+		case isBlank(f):
+			continue
+		default:
+			_, _, _, num = decimalCell(f)
+			num = num || isNumberCell(f) // decimalCell's cells are numbers to isNumberCell
+		}
+		tc.filled[c]++
+		if num {
+			tc.nums[c]++
+		}
 	}
 }
 
@@ -414,6 +616,7 @@ type pass2 struct {
 	amb        []uint64 // 2 bits per cell, cell 2i is X[i], 2i+1 is Y[i]
 	other      map[int]float64
 	comma, dot int
+	seen       cellsSeen // the cells of the last row, for the look-ahead
 }
 
 func (q *pass2) setAmb(cell, kind int) {
@@ -427,15 +630,16 @@ func (q *pass2) setAmb(cell, kind int) {
 // votes as readTable's decimal-comma rule does, and remembers how the value
 // read with a decimal comma differs (cell is its index in amb).
 func (q *pass2) cell(s string, cell int) (float64, *NumberError) {
-	if v, ok := plainNumber(s); ok {
-		if strings.IndexByte(s, '.') >= 0 {
-			q.dot++
+	v, info, alt, ok := decimalCell(s)
+	var aerr *NumberError
+	if !ok {
+		var err *NumberError
+		if v, info, err = parseNumber(s, hintDot); err != nil {
+			return 0, err
 		}
-		return v, nil
-	}
-	v, info, err := parseNumber(s, hintDot)
-	if err != nil {
-		return 0, err
+		if info.ambiguous {
+			alt, _, aerr = parseNumber(s, hintComma)
+		}
 	}
 	if !info.ambiguous {
 		switch info.dec {
@@ -446,7 +650,6 @@ func (q *pass2) cell(s string, cell int) (float64, *NumberError) {
 		}
 		return v, nil
 	}
-	alt, _, aerr := parseNumber(s, hintComma)
 	switch {
 	case aerr == nil && alt == math.Round(v*1000) && math.Signbit(alt) == math.Signbit(v):
 		q.setAmb(cell, ambTimes)
@@ -513,7 +716,7 @@ func (q *pass2) block(sc *csvScanner, st *pass2Rows, res *StreamResult) error {
 		if fields == nil {
 			return nil
 		}
-		if err := q.row(fields, line, st, res); err != nil {
+		if err := q.row(fields, line, true, st, res); err != nil {
 			return err
 		}
 	}
@@ -535,7 +738,7 @@ func (sc *csvScanner) nextKept(keep int) (fields []string, line, empty int, cerr
 
 // row takes one row: blank rows are counted, the header and units rows
 // passed over, and a data row's pair read (pair).
-func (q *pass2) row(fields []string, line int, st *pass2Rows, res *StreamResult) error {
+func (q *pass2) row(fields []string, line int, raw bool, st *pass2Rows, res *StreamResult) error {
 	if isBlankRow(fields) {
 		if st.seen > 0 {
 			st.pendingBlank++
@@ -543,6 +746,7 @@ func (q *pass2) row(fields []string, line int, st *pass2Rows, res *StreamResult)
 		return nil
 	}
 	st.seen++
+	q.seen.read = false
 	res.Blank += st.pendingBlank
 	st.pendingBlank = 0
 	if st.seen == 1 && res.HasHeader || st.seen == 2 && res.UnitsRow {
@@ -551,7 +755,7 @@ func (q *pass2) row(fields []string, line int, st *pass2Rows, res *StreamResult)
 	if st.data++; st.data > MaxStreamRows {
 		return &CSVError{Line: line, Err: fmt.Errorf("%w (at most %d)", ErrCSVStreamRows, MaxStreamRows)}
 	}
-	x, y, why := rowPair(fields, res.XCol, res.YCol, true, res.PairlineExport)
+	x, y, why := rowPair(fields, res.XCol, res.YCol, raw, res.PairlineExport)
 	if why != "" {
 		res.Incomplete++
 		res.Skipped = append(res.Skipped, SkippedRow{line, why})
@@ -575,6 +779,7 @@ func (q *pass2) pair(x, y string, line int, st *pass2Rows, res *StreamResult) {
 		res.Problems = append(res.Problems, StreamProblem{CellProblem{Row: st.complete, Column: ColumnY, Text: strings.Clone(y)}, line})
 	}
 	st.complete++
+	q.seen = cellsSeen{read: true, x: x, y: y, xc: res.XCol, yc: res.YCol, xok: xerr == nil, yok: yerr == nil}
 	if xerr != nil || yerr != nil {
 		q.clear(2 * i)
 		q.clear(2*i + 1)

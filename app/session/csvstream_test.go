@@ -223,19 +223,31 @@ func FuzzStreamCSV(f *testing.F) {
 		if d := sameStream(got, want, gerr, werr); d != "" {
 			t.Errorf("blocks of %d bytes: %s", blockSize, d)
 		}
+		// A text that cannot tell its size: two passes, no look-ahead.
+		got, gerr = StreamCSV(&countingReader{r: bytes.NewReader(b), noSize: true}, StreamOptions{CSVOptions: opt})
+		if d := sameStream(got, want, gerr, werr); d != "" {
+			t.Errorf("two passes, blocks of %d bytes: %s", blockSize, d)
+		}
 	})
 }
 
 // rowsReader is a text of a header and n rows "i,2i+1", made as it is read.
+// With noHeader the header is left out; with sized it tells its size
+// (Seek to the end), so StreamCSV reads it once.
 type rowsReader struct {
-	n, i int
-	buf  []byte
+	n, i            int
+	buf             []byte
+	noHeader, sized bool
+	pos             int64 // the offset
+	total           int64 // bytes read, over all passes
 }
 
 func (r *rowsReader) Read(p []byte) (int, error) {
 	for len(r.buf) < len(p) && r.i <= r.n {
 		if r.i == 0 {
-			r.buf = append(r.buf, "x,y\n"...)
+			if !r.noHeader {
+				r.buf = append(r.buf, "x,y\n"...)
+			}
 		} else {
 			r.buf = strconv.AppendInt(r.buf, int64(r.i), 10)
 			r.buf = append(r.buf, ',')
@@ -249,14 +261,30 @@ func (r *rowsReader) Read(p []byte) (int, error) {
 	}
 	n := copy(p, r.buf)
 	r.buf = r.buf[:copy(r.buf, r.buf[n:])]
+	r.pos += int64(n)
+	r.total += int64(n)
 	return n, nil
 }
 
 func (r *rowsReader) Seek(off int64, whence int) (int64, error) {
-	if off != 0 || whence != io.SeekStart {
+	switch {
+	case r.sized && off == 0 && whence == io.SeekCurrent:
+		return r.pos, nil
+	case r.sized && off == 0 && whence == io.SeekEnd:
+		size := int64(4)
+		if r.noHeader {
+			size = 0
+		}
+		for i := 1; i <= r.n; i++ {
+			size += int64(len(strconv.Itoa(i)) + len(strconv.Itoa(2*i+1)) + 2)
+		}
+		return size, nil
+	case r.sized && whence == io.SeekStart && off == r.pos:
+		return r.pos, nil // streamSize going back to where it was
+	case off != 0 || whence != io.SeekStart:
 		return 0, errors.New("only back to the start")
 	}
-	r.i, r.buf = 0, r.buf[:0]
+	r.i, r.buf, r.pos = 0, r.buf[:0], 0
 	return 0, nil
 }
 
@@ -275,6 +303,37 @@ func TestStreamCSVRowLimit(t *testing.T) {
 	if ce.Line != MaxStreamRows+2 || !strings.Contains(err.Error(), strconv.Itoa(MaxStreamRows)) {
 		t.Errorf("got %q at line %d; want line %d naming %d", err, ce.Line, MaxStreamRows+2, MaxStreamRows)
 	}
+}
+
+// TestStreamCSVRowLimitNoHeader: MaxStreamRows+1 data rows without a
+// header pass pass 1's count of rows (which leaves room for a header) and
+// are refused by pass 2 at the first row too many, read once (the
+// look-ahead) or twice, with the same error.
+func TestStreamCSVRowLimitNoHeader(t *testing.T) {
+	if testing.Short() {
+		t.Skip("reads 10⁷ rows twice")
+	}
+	for _, sized := range []bool{true, false} {
+		r := &rowsReader{n: MaxStreamRows + 1, noHeader: true, sized: sized}
+		_, err := StreamCSV(r, StreamOptions{})
+		var ce *CSVError
+		if !errors.As(err, &ce) || !errors.Is(err, ErrCSVStreamRows) || ce.Line != MaxStreamRows+1 {
+			t.Errorf("read once %v: got %v; want the row limit at line %d", sized, err, MaxStreamRows+1)
+		}
+		if once := r.total == r.mustSize(t); once != sized {
+			t.Errorf("read once %v: read %d bytes", sized, r.total)
+		}
+	}
+}
+
+func (r *rowsReader) mustSize(t *testing.T) int64 {
+	sized := *r
+	sized.sized = true
+	n, err := sized.Seek(0, io.SeekEnd)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return n
 }
 
 // TestStreamCSVNumbers: the numbers of a generated text of many rows are
@@ -319,5 +378,114 @@ func TestStreamCSVMemoryBound(t *testing.T) {
 	}
 	if limit := uint64(3*16*n + 4<<20); got > limit {
 		t.Errorf("StreamCSV allocated %d bytes for %d pairs; the bound is %d", got, n, limit)
+	}
+	// The same text from a reader that tells its size: read once, the
+	// columns made at the row count estimated from the first block.
+	text, err := io.ReadAll(&rowsReader{n: n})
+	if err != nil {
+		t.Fatal(err)
+	}
+	got = allocated(func() { res, err = StreamCSV(bytes.NewReader(text), StreamOptions{}) })
+	if err != nil || len(res.X) != n {
+		t.Fatalf("%v, %d pairs", err, len(res.X))
+	}
+	if limit := uint64(3*16*n + 4<<20); got > limit {
+		t.Errorf("StreamCSV allocated %d bytes for %d pairs read once; the bound is %d", got, n, limit)
+	}
+	t.Logf("read once: %d bytes allocated for %d pairs", got, n)
+}
+
+// bigFileText is n invented rows in the form `make bench-fit` reads
+// (gen_fit_big.py: a conductivity probe of the fictional Larkwater Valley
+// Water Board against standards, "%.6f,%.7f", about 23 bytes a row).
+func bigFileText(n int) []byte {
+	b := []byte("standard_uS_cm,probe_uS_cm\n")
+	seed := uint64(20261202)
+	next := func() float64 {
+		seed = seed*6364136223846793005 + 1442695040888963407
+		return float64(seed>>11) / (1 << 53)
+	}
+	for range n {
+		x := 1 + 499*next()
+		y := 0.98*x + 0.3 + (next()-0.5)*0.035*x
+		b = strconv.AppendFloat(b, x, 'f', 6, 64)
+		b = append(b, ',')
+		b = strconv.AppendFloat(b, y, 'f', 7, 64)
+		b = append(b, '\n')
+	}
+	return b
+}
+
+// BenchmarkStreamCSVFile: StreamCSV on a million rows of the form of
+// `make bench-fit` (the text made once, in memory, outside the timing).
+func BenchmarkStreamCSVFile(b *testing.B) {
+	text := bigFileText(1_000_000)
+	b.SetBytes(int64(len(text)))
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := StreamCSV(bytes.NewReader(text), StreamOptions{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// countingReader is a text that counts the bytes read from it; with
+// noSize it cannot tell its size, so StreamCSV reads it in two passes.
+type countingReader struct {
+	r      *bytes.Reader
+	read   int64
+	noSize bool
+}
+
+func (c *countingReader) Read(p []byte) (int, error) {
+	n, err := c.r.Read(p)
+	c.read += int64(n)
+	return n, err
+}
+
+func (c *countingReader) Seek(off int64, whence int) (int64, error) {
+	if c.noSize && (off != 0 || whence != io.SeekStart) {
+		return 0, errors.New("only back to the start")
+	}
+	return c.r.Seek(off, whence)
+}
+
+// TestStreamCSVOnePass: a text whose first block chooses what the whole
+// text chooses is read once; one whose later rows change the choice (a
+// column of text that holds numbers further down), or that cannot tell its
+// size, is read twice. All three give what ReadCSV gives (the oracle).
+func TestStreamCSVOnePass(t *testing.T) {
+	defer func(n int) { blockSize = n }(blockSize)
+	blockSize = 256
+	var same, changed strings.Builder
+	same.WriteString("id,std,read\n")
+	changed.WriteString("id,std,read\n")
+	for i := range 600 {
+		fmt.Fprintf(&same, "n/a,%d,%d.5\n", i, i)
+		id := "n/a"
+		if i >= 150 {
+			id = strconv.Itoa(i)
+		}
+		fmt.Fprintf(&changed, "%s,%d,%d.25\n", id, i, i)
+	}
+	for _, tc := range []struct {
+		name   string
+		text   string
+		noSize bool
+		passes int64
+	}{
+		{"same choice", same.String(), false, 1},
+		{"choice changed", changed.String(), false, 2},
+		{"size not known", same.String(), true, 2},
+	} {
+		r := &countingReader{r: bytes.NewReader([]byte(tc.text)), noSize: tc.noSize}
+		got, err := StreamCSV(r, StreamOptions{})
+		want, werr := streamOracle(tc.text, CSVOptions{})
+		if d := sameStream(got, want, err, werr); d != "" {
+			t.Errorf("%s: %s", tc.name, d)
+		}
+		if r.read != tc.passes*int64(len(tc.text)) {
+			t.Errorf("%s: read %d bytes of %d, want %d passes", tc.name, r.read, len(tc.text), tc.passes)
+		}
 	}
 }

@@ -257,3 +257,105 @@ func TestSplitRepeats(t *testing.T) {
 		}
 	}
 }
+
+// decimalCellSeeds are the seeds of FuzzDecimalCell: each form of the
+// fast path, the ambiguous form both ways, and the edges where it gives
+// the cell to the full parser (2^53, 10^±22, 19 digits, a negative zero).
+var decimalCellSeeds = []string{
+	"12.5", "12,5", "-0.0031", "1200", "+7", "1.234", "1,234", "12.345e3", "-1,234E-2", "0,125", "0.125",
+	"1234,5", "1.5e3", "1,5e-3", "2E+10", "189.590210", "191.2120784", "9007199254740992", "9007199254740993",
+	"1e22", "1e23", "1e-22", "1.0e-22", "1234567890123456789", "12345678901234567890", "-0", "-0,0", "0",
+	"0e5", "1.", "1,", ".5", "1e", "1e+", "1.2.3", "1,2,3", "1.234,5", "5 mg/L", "00,123", "999,999", "1000,000",
+}
+
+// FuzzDecimalCell: the fast path of a plain decimal cell gives exactly
+// what the full parser gives under each hint (value, decimal separator,
+// ambiguity) and the bits of strconv.ParseFloat on the same text written
+// with a decimal point (the reference for plain decimal text).
+func FuzzDecimalCell(f *testing.F) {
+	for _, s := range decimalCellSeeds {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		checkDecimalCell(t, s)
+	})
+}
+
+// TestDecimalCell runs the fuzz test's checks on its seeds, and checks
+// that the fast path takes the cells it is for.
+func TestDecimalCell(t *testing.T) {
+	for _, s := range decimalCellSeeds {
+		checkDecimalCell(t, s)
+	}
+	for _, s := range []string{"12.5", "12,5", "1,234", "1.234", "-1,234E-2", "189.590210", "2E+10", "1e22", "1e-22"} {
+		if _, _, _, ok := decimalCell(s); !ok {
+			t.Errorf("%q: the fast path left it to the full parser", s)
+		}
+	}
+}
+
+func checkDecimalCell(t *testing.T, s string) {
+	t.Helper()
+	v, info, alt, ok := decimalCell(s)
+	if !ok {
+		return
+	}
+	w, winfo, err := parseNumber(s, hintDot)
+	if err != nil || math.Float64bits(v) != math.Float64bits(w) || info != winfo {
+		t.Fatalf("%q: the fast path reads %v %+v, the full parser (decimal point) %v %+v %v", s, v, info, w, winfo, err)
+	}
+	c, _, err := parseNumber(s, hintComma)
+	want := v
+	if info.ambiguous {
+		want = alt
+	}
+	if err != nil || math.Float64bits(want) != math.Float64bits(c) {
+		t.Fatalf("%q: the fast path reads %v with a decimal comma, the full parser %v %v", s, want, c, err)
+	}
+	for _, dc := range []bool{false, true} {
+		h, err := ParseNumberHint(s, dc)
+		if n, _, nerr := parseNumber(s, map[bool]numberHint{false: hintDot, true: hintComma}[dc]); err != nil || nerr != nil || math.Float64bits(h) != math.Float64bits(n) {
+			t.Fatalf("%q: ParseNumberHint(%v) = %v %v, the full parser %v %v", s, dc, h, err, n, nerr)
+		}
+	}
+	// strconv.ParseFloat on the text with a decimal point, or without
+	// the separator where it groups thousands.
+	for _, r := range []struct {
+		v     float64
+		comma bool
+	}{{v, false}, {alt, true}} {
+		if r.comma && !info.ambiguous {
+			continue
+		}
+		text := s
+		if info.ambiguous {
+			sep := byte('.')
+			if strings.Contains(s, ",") {
+				sep = ','
+			}
+			grouping := (sep == ',') != r.comma
+			if grouping {
+				text = strings.Replace(s, string(sep), "", 1)
+			} else {
+				text = strings.Replace(s, string(sep), ".", 1)
+			}
+		} else {
+			text = strings.Replace(s, ",", ".", 1)
+		}
+		p, err := strconv.ParseFloat(text, 64)
+		if err != nil || math.Float64bits(p) != math.Float64bits(r.v) {
+			t.Fatalf("%q: the fast path reads %v, strconv.ParseFloat(%q) %v %v", s, r.v, text, p, err)
+		}
+	}
+}
+
+// BenchmarkDecimalCell: the fast path on the cells of `make bench-fit`'s
+// file and a few other plain forms.
+func BenchmarkDecimalCell(b *testing.B) {
+	cells := []string{"189.590210", "191.2120784", "80.664576", "79.1984701", "12,5", "1.234", "-1.5e-3", "1200"}
+	for b.Loop() {
+		for _, s := range cells {
+			decimalCell(s)
+		}
+	}
+}
