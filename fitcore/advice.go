@@ -17,7 +17,8 @@ import (
 // (adNothingToDo). Otherwise each remedy
 // is tried in this fixed order, by refitting with Analyze (intercept model,
 // the same level and reference values, SkipAdvice) and re-running all the
-// checks:
+// checks (a refit works out only what its Candidate shows, and gives the
+// candidate of the full analysis on the remedy's options exactly):
 //
 //	log_y         ln y on x                   needs every y > 0
 //	log_log       ln y on ln x                needs every x > 0 and y > 0
@@ -215,24 +216,26 @@ func adTry(x, y []float64, opt Options, r Remedy, before CheckSummary, sc *anScr
 // above, weights from x values other than zero, weights from repeats two
 // readings at every x), or "" when they can.
 func adDomainOf(x, y []float64, r Remedy, sc *anScratch) string {
+	// (Each value is first tested by a tight loop, allPositive and the
+	// like; the sentence naming the readings only when one fails.)
 	switch r {
 	case RemedyLogY:
-		return adDomain("A log scale needs every y above zero", "y", y, adPositive)
+		return adDomainIf("A log scale needs every y above zero", "y", y, adPositive, allPositive(y))
 	case RemedyLogLog:
-		if why := adDomain("A log–log scale needs every x above zero", "x", x, adPositive); why != "" {
+		if why := adDomainIf("A log–log scale needs every x above zero", "x", x, adPositive, allPositive(x)); why != "" {
 			return why
 		}
-		return adDomain("A log–log scale needs every y above zero", "y", y, adPositive)
+		return adDomainIf("A log–log scale needs every y above zero", "y", y, adPositive, allPositive(y))
 	case RemedySqrtY:
-		return adDomain("A square-root scale needs every y at zero or above", "y", y, adNonNegative)
+		return adDomainIf("A square-root scale needs every y at zero or above", "y", y, adNonNegative, allNonNegative(y))
 	case RemedyReciprocal:
-		return adDomain("A reciprocal scale needs every y above zero", "y", y, adPositive)
+		return adDomainIf("A reciprocal scale needs every y above zero", "y", y, adPositive, allPositive(y))
 	case RemedyBoxCox:
-		return adDomain("The Box–Cox transform needs every y above zero", "y", y, adPositive)
+		return adDomainIf("The Box–Cox transform needs every y above zero", "y", y, adPositive, allPositive(y))
 	case RemedyWeighted:
-		return adDomain("Weights that follow a power of x need every x other than zero", "x", x, adNonZero)
+		return adDomainIf("Weights that follow a power of x need every x other than zero", "x", x, adNonZero, allNonZero(x))
 	case RemedyWeightedX2:
-		return adDomain("Weights 1/x² need every x other than zero", "x", x, adNonZero)
+		return adDomainIf("Weights 1/x² need every x other than zero", "x", x, adNonZero, allNonZero(x))
 	case RemedyWeightedRepeats:
 		// Checked on the analysis's sorted order of x first, so that a
 		// record without repeats costs no refit (and no second sort).
@@ -413,6 +416,26 @@ func adSummarize(r *Report) CheckSummary {
 	}
 }
 
+// allNonNegative says whether every value is at zero or above (adNonNegative).
+func allNonNegative(v []float64) bool {
+	for _, a := range v {
+		if !(a >= 0) {
+			return false
+		}
+	}
+	return true
+}
+
+// allNonZero says whether every value is other than zero (adNonZero).
+func allNonZero(v []float64) bool {
+	for _, a := range v {
+		if a == 0 {
+			return false
+		}
+	}
+	return true
+}
+
 func adPositive(v float64) bool    { return v > 0 }
 func adNonNegative(v float64) bool { return v >= 0 }
 func adNonZero(v float64) bool     { return v != 0 }
@@ -420,6 +443,15 @@ func adNonZero(v float64) bool     { return v != 0 }
 // adDomain returns "" when every value passes ok, or a sentence naming the
 // readings (counted from 1) that do not, with their values.
 func adDomain(need, col string, v []float64, ok func(float64) bool) string {
+	return adDomainIf(need, col, v, ok, false)
+}
+
+// adDomainIf is adDomain; known says every value is already known to pass
+// (a tight loop found it, so the sentence is "").
+func adDomainIf(need, col string, v []float64, ok func(float64) bool, known bool) string {
+	if known {
+		return ""
+	}
 	var bad []string
 	count := 0
 	for i, a := range v {

@@ -5,7 +5,6 @@ import (
 	"maps"
 	"math"
 	"reflect"
-	"slices"
 	"strconv"
 	"sync"
 )
@@ -42,7 +41,6 @@ func Analyze(x, y []float64, opt Options) (*Report, error) {
 // advice (which all see the same x).
 type anScratch struct {
 	sb     ckSortBuf // Shapiro–Wilk's
-	xsb    ckSortBuf // the order of x
 	x      []float64 // the readings xOrder belongs to
 	xOrder []int32   // positions of x in ascending order; nil when x is in order
 
@@ -56,12 +54,19 @@ type anScratch struct {
 	pre  ckPre
 	dw   dwShared
 	lof  lofShared
+	lev  ckLevCache // the leverages' sums of the unweighted refits
+	xsf  xScaleFinite
 
 	// refit is set while the advice refits a remedy: only what a Candidate
-	// takes from the report is needed (no Box–Cox profile, no reasons
-	// texts or per-reading influence, residuals in the space below).
-	refit          bool
-	fitted, resids []float64
+	// takes from the report is needed (no Box–Cox profile, no fitted
+	// values, smearing factor, reasons texts or per-reading influence;
+	// only the practical sizes a failed check reads; Shapiro–Wilk's W only
+	// for a verdict other than Pass; buffers below), and each candidate is
+	// that of the full analysis (TestRefitEqualsFullAnalysis).
+	refit  bool
+	resids []float64
+	yt     []float64 // a refit's y on its scale
+	w, pr  []float64 // a refit's weights and Pearson residuals
 }
 
 // bcCache keeps one Box–Cox profile; mu is held while it is worked out, so
@@ -110,11 +115,43 @@ func (s *anScratch) fork() *anScratch {
 	f := &anScratch{
 		x: s.x, xOrder: s.xOrder,
 		bcc:  s.bcc,
-		preX: s.preX, pre: s.pre, dw: s.dw,
+		preX: s.preX, pre: s.pre, dw: s.dw, lev: s.lev, xsf: s.xsf,
 		lof: lofShared{x: s.lof.x, m: s.lof.m, ends: s.lof.ends, xl: s.lof.xl},
 	}
 	f.sb.swA = maps.Clone(s.sb.swA)
+	f.dw.buf = [2][]float64{} // (its own space for weighted designs)
 	return f
+}
+
+// xScaleFinite is ckSafeScale and ckAllFinite of one x (the slice).
+type xScaleFinite struct {
+	x      []float64
+	k      float64
+	finite bool
+	lo, hi float64 // rangeOf(x)
+}
+
+// scaleFinite returns ckSafeScale(x) and ckAllFinite(x), worked out once
+// for the first x asked about (the analysis's, which every refit in the
+// original units or on a new scale of y shares; see prepare).
+func (s *anScratch) scaleFinite(x []float64) (k float64, finite bool) {
+	if c := &s.xsf; len(x) > 0 && len(c.x) == len(x) && &c.x[0] == &x[0] {
+		return c.k, c.finite
+	}
+	k, finite = ckSafeScale(x), ckAllFinite(x)
+	if s.xsf.x == nil && len(x) > 0 {
+		s.xsf = xScaleFinite{x: x, k: k, finite: finite}
+		s.xsf.lo, s.xsf.hi = rangeOf(x)
+	}
+	return k, finite
+}
+
+// rangeOfX is rangeOf(x), from what scaleFinite keeps when x is its x.
+func (s *anScratch) rangeOfX(x []float64) (lo, hi float64) {
+	if c := &s.xsf; len(x) > 0 && len(c.x) == len(x) && &c.x[0] == &x[0] {
+		return c.lo, c.hi
+	}
+	return rangeOf(x)
 }
 
 // prepare returns ckPrepare(x) with dw set, working it out only when x is
@@ -159,9 +196,71 @@ func (s *anScratch) orderOf(x []float64) []int32 {
 	if ckAscending(x) {
 		s.xOrder = nil
 	} else {
-		s.xOrder = slices.Clone(s.xsb.order(x))
+		// The sort's work space (two key–position pairs a reading) is let
+		// go at once; only the positions are kept.
+		var b ckSortBuf
+		s.xOrder = b.order(x)
 	}
 	return s.xOrder
+}
+
+// yBuf returns the space for a refit's y on its scale (nil outside a
+// refit: a new slice), which lives in s until the next refit; lack of
+// fit's copy of the last one, gathered in the order of x, no longer
+// describes that space and is let go.
+func (s *anScratch) yBuf(n int) []float64 {
+	if !s.refit {
+		return nil
+	}
+	s.yt = ckGrowF64(s.yt, n)
+	if l := &s.lof; len(l.ysOf) > 0 && n > 0 && &l.ysOf[0] == &s.yt[0] {
+		l.ysOf = nil
+	}
+	return s.yt
+}
+
+// wBuf returns the space for a refit's weights (nil outside a refit).
+func (s *anScratch) wBuf(n int) []float64 {
+	if !s.refit {
+		return nil
+	}
+	s.w = ckGrowF64(s.w, n)
+	return s.w
+}
+
+// residuals sets rep's fitted values and residuals of the fit f of yt on
+// xt and refuses figures that cannot be given in the readings' units
+// (unitsInRange). A refit's candidate takes neither: its residuals live
+// in s and its fitted values are only looked at for being finite.
+func (s *anScratch) residuals(f *lineFit, xt, yt []float64, rep *Report) error {
+	fitOK, fitBad := true, 0.0
+	if s.refit {
+		s.resids = ckGrowF64(s.resids, len(xt))
+		rep.Residuals = s.resids
+		fitBad, fitOK = f.residualsInto(xt, yt, rep.Residuals)
+	} else {
+		rep.Fitted, rep.Residuals = f.fittedResiduals(xt, yt)
+	}
+	if err := unitsInRange(rep); err != nil {
+		return err
+	}
+	if !fitOK {
+		return unitsErr("the fitted values and residuals", fitBad)
+	}
+	return nil
+}
+
+// smearing sets Duan's factor of a log scale from rep's residuals, but
+// not for a refit: the factor, an exponential of every residual, is for
+// predictions, which a candidate has none of.
+func (s *anScratch) smearing(tr *transformer, rep *Report) {
+	if s.refit {
+		return
+	}
+	tr.setSmearing(rep.Residuals)
+	if tr.isLogY() {
+		rep.Smearing = tr.smearing
+	}
 }
 
 // analyze is Analyze with its work space in sc.
@@ -196,7 +295,7 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	if err != nil {
 		return nil, err
 	}
-	xt, yt, err := tr.apply(x, y)
+	xt, yt, err := tr.applyIn(x, y, sc.yBuf(len(y)))
 	if err != nil {
 		return nil, err
 	}
@@ -213,7 +312,7 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 		f, err = fitDeming(xt, yt, o.VarianceRatio)
 	default:
 		if o.Weights != WeightsNone {
-			w, wm, err = schemeWeights(o.Weights, xt, yt, o.GivenWeights, origin, rep)
+			w, wm, err = schemeWeights(o.Weights, xt, yt, o.GivenWeights, origin, rep, sc.wBuf(len(xt)))
 			if err != nil {
 				return nil, err
 			}
@@ -245,21 +344,10 @@ func analyze(x, y []float64, opt Options, sc *anScratch) (*Report, error) {
 	} else {
 		rep.R = f.pearsonR()
 	}
-	if sc.refit {
-		sc.fitted = ckGrowF64(sc.fitted, len(xt))
-		sc.resids = ckGrowF64(sc.resids, len(xt))
-		rep.Fitted, rep.Residuals = sc.fitted, sc.resids
-		f.fittedResidualsInto(xt, yt, rep.Fitted, rep.Residuals)
-	} else {
-		rep.Fitted, rep.Residuals = f.fittedResiduals(xt, yt)
-	}
-	if err := unitsInRange(rep); err != nil {
+	if err := sc.residuals(f, xt, yt, rep); err != nil {
 		return nil, err
 	}
-	tr.setSmearing(rep.Residuals)
-	if tr.isLogY() {
-		rep.Smearing = tr.smearing
-	}
+	sc.smearing(tr, rep)
 
 	fc := &fitContext{f: f, tr: tr, wm: wm, x: x, y: y, xt: xt, yt: yt, w: w, opt: o, rep: rep, sc: sc}
 	fc.runChecks()
@@ -300,7 +388,7 @@ type fitContext struct {
 // prediction and inverse asks for it).
 func (fc *fitContext) xRange() (lo, hi float64) {
 	if !fc.xRanged {
-		fc.xLo, fc.xHi = rangeOf(fc.x)
+		fc.xLo, fc.xHi = fc.sc.rangeOfX(fc.x)
 		fc.xRanged = true
 	}
 	return fc.xLo, fc.xHi
@@ -328,6 +416,9 @@ func (fc *fitContext) runChecks() {
 // residuals themselves without weights).
 type checkInputs struct {
 	xs, ys, res, w, pr []float64
+	// whether every value of ys, res and pr is finite (ckAllFinite),
+	// found in the passes that made them
+	ysFinite, resFinite, prFinite bool
 }
 
 // checkInputs takes x, y, the residuals and the weights back from the
@@ -344,18 +435,63 @@ func (fc *fitContext) checkInputs() checkInputs {
 		in.res = scaledCopy(rep.Residuals, f.ky)
 		in.w = f.w
 	}
-	in.xs, in.ys, in.res = safeScaled(in.xs), safeScaled(in.ys), safeScaled(in.res)
+	if k, _ := fc.sc.scaleFinite(in.xs); k != 1 {
+		in.xs = scaledCopy(in.xs, k)
+	}
+	in.ys, in.ysFinite = safeScaledFinite(in.ys)
+	in.res, in.resFinite = safeScaledFinite(in.res)
 	if in.w != nil {
 		in.w = safeScaled(in.w)
 	}
-	in.pr = in.res
-	if in.w != nil {
+	in.pr, in.prFinite = in.res, in.resFinite
+	if in.w != nil && fc.sc.refit {
+		fc.sc.pr = ckGrowF64(fc.sc.pr, len(in.res))
+		in.pr = fc.sc.pr
+	} else if in.w != nil {
 		in.pr = make([]float64, len(in.res))
+	}
+	if in.w != nil {
+		var s0 float64 // as ckAllFinite: 0 unless a value is not finite
 		for i, e := range in.res {
-			in.pr[i] = math.Sqrt(in.w[i]) * e
+			v := math.Sqrt(in.w[i]) * e
+			in.pr[i] = v
+			s0 += v * 0
 		}
+		in.prFinite = s0 == 0
 	}
 	return in
+}
+
+// safeScaledFinite is safeScaled(v) and ckAllFinite of it, from one pass
+// over v (a power of two that brings the largest |v| into [½, 1) keeps
+// every finite value finite, and ckSafeScale leaves v as it is when a
+// value is not).
+func safeScaledFinite(v []float64) ([]float64, bool) {
+	k, finite := ckSafeScaleFinite(v)
+	if k != 1 {
+		return scaledCopy(v, k), finite
+	}
+	return v, finite
+}
+
+// ckSafeScaleFinite is ckSafeScale(v) and ckAllFinite(v) in one pass.
+func ckSafeScaleFinite(v []float64) (k float64, finite bool) {
+	var m0, m1, m2, m3, s0, s1 float64
+	i := 0
+	for ; i+4 <= len(v); i += 4 {
+		a, b, c, d := v[i], v[i+1], v[i+2], v[i+3]
+		m0 = max(m0, math.Abs(a))
+		m1 = max(m1, math.Abs(b))
+		m2 = max(m2, math.Abs(c))
+		m3 = max(m3, math.Abs(d))
+		s0 += a*0 + c*0
+		s1 += b*0 + d*0
+	}
+	for ; i < len(v); i++ {
+		m0 = max(m0, math.Abs(v[i]))
+		s0 += v[i] * 0
+	}
+	return ckScaleOfMax(max(max(m0, m1), max(m2, m3))), s0+s1 == 0
 }
 
 // safeScaled is v, or a copy of v scaled by ckSafeScale's power of two.
@@ -391,11 +527,12 @@ func (fc *fitContext) newCheckRun() *checkRun {
 	// What ckValidate(xs, ys, w), ckValidate(xs, pr, nil) and
 	// ckValidate(xs, res, w) would say is "", each array read once.
 	n := len(in.xs)
-	xsOK, wOK := ckAllFinite(in.xs), ckWeights(in.w, n) == ""
-	r.pre.xyValid = xsOK && wOK && len(in.ys) == n && ckAllFinite(in.ys)
-	r.pre.residValid = xsOK && len(in.pr) == n && ckAllFinite(in.pr)
+	_, xsOK := fc.sc.scaleFinite(in.xs)
+	wOK := ckWeights(in.w, n) == ""
+	r.pre.xyValid = xsOK && wOK && len(in.ys) == n && in.ysFinite
+	r.pre.residValid = xsOK && len(in.pr) == n && in.prFinite
 	r.pre.quick = fc.sc.refit
-	r.inflValid = r.pre.residValid && (in.w == nil || (wOK && len(in.res) == n && ckAllFinite(in.res)))
+	r.inflValid = r.pre.residValid && (in.w == nil || (wOK && len(in.res) == n && in.resFinite))
 	if r.origin {
 		r.np = 1
 	}
@@ -441,7 +578,9 @@ func (r *checkRun) limit(name string, run func() Check) Check {
 
 func (r *checkRun) shapiroWilk() {
 	c, in := &r.fc.rep.Checks, &r.in
-	c.ShapiroWilk = r.limit("Shapiro–Wilk", func() Check { return shapiroWilkCheck(in.pr, &r.fc.sc.sb, r.pre.residValid) })
+	c.ShapiroWilk = r.limit("Shapiro–Wilk", func() Check {
+		return shapiroWilkCheckIf(in.pr, &r.fc.sc.sb, r.pre.residValid, r.pre.quick)
+	})
 }
 
 // others runs curvature, lack of fit, the spread and the independence
@@ -476,7 +615,7 @@ func (r *checkRun) influence() {
 	rep, in := r.fc.rep, &r.in
 	if r.fc.sc.refit {
 		// A candidate needs only the influence summary.
-		r.inflSummary = influenceSummary(in.xs, in.res, in.w, in.pr, r.origin, r.inflValid)
+		r.inflSummary = influenceSummary(in.xs, in.res, in.w, in.pr, r.origin, r.inflValid, &r.fc.sc.lev)
 	} else {
 		var masks []uint8
 		rep.Influence, masks = influenceRun(in.xs, in.res, in.w, in.pr, r.origin, r.inflValid, true)
@@ -500,8 +639,14 @@ func (fc *fitContext) finishChecks(inflSummary Assumption) {
 	rep := fc.rep
 	origin := fc.opt.Model == ModelOrigin
 	var dep *Departures
-	if !fc.noScatter && (!fc.sc.refit || fc.sizedFail()) {
-		dep = departures(fc.xt, fc.yt, rep.Residuals, fc.w, origin, fc.allowedResidual())
+	parts := depAll
+	if fc.sc.refit {
+		// A refit's sizes are read only where a Fail could become a Warn.
+		parts = fc.failedParts()
+	}
+	parts.xRange = fc.sc.rangeOfX
+	if !fc.noScatter && (parts.curvature || parts.scatter || parts.drift) {
+		dep = departuresOf(fc.xt, fc.yt, rep.Residuals, fc.w, origin, fc.allowedResidual(), parts)
 	}
 	if fc.sc.refit {
 		rep.Assumptions = summarize(rep.Checks, inflSummary, dep)
@@ -547,15 +692,25 @@ func (fc *fitContext) nameSlip() {
 	}
 }
 
-// sizedFail says whether a check whose Fail needs a practical size failed.
-func (fc *fitContext) sizedFail() bool {
+// failedParts says which practical sizes a Fail of the checks needs: the
+// curvature gap for a Fail of curvature or lack of fit, the scatter in
+// thirds for Breusch–Pagan or White, the drift for Durbin–Watson or runs
+// (summarize reads each only for a Fail of its assumption).
+func (fc *fitContext) failedParts() depParts {
 	c := &fc.rep.Checks
-	for _, k := range []*Check{&c.Curvature, c.LackOfFit, &c.BreuschPagan, &c.White, &c.DurbinWatson, &c.Runs} {
-		if k != nil && k.Verdict == Fail {
-			return true
+	failed := func(ks ...*Check) bool {
+		for _, k := range ks {
+			if k != nil && k.Verdict == Fail {
+				return true
+			}
 		}
+		return false
 	}
-	return false
+	return depParts{
+		curvature: failed(&c.Curvature, c.LackOfFit),
+		scatter:   failed(&c.BreuschPagan, &c.White),
+		drift:     failed(&c.DurbinWatson, &c.Runs),
+	}
 }
 
 // allowedResidual is the largest residual the acceptance criteria allow,
@@ -612,7 +767,11 @@ func ckSafeScale(v []float64) float64 {
 	for ; i < len(v); i++ {
 		m0 = max(m0, math.Abs(v[i]))
 	}
-	m := max(max(m0, m1), max(m2, m3))
+	return ckScaleOfMax(max(max(m0, m1), max(m2, m3)))
+}
+
+// ckScaleOfMax is ckSafeScale's power of two for the largest magnitude m.
+func ckScaleOfMax(m float64) float64 {
 	if m == 0 || !isFiniteNum(m) || (m >= 0x1p-100 && m <= 0x1p100) {
 		return 1
 	}
@@ -680,12 +839,7 @@ var tooLargeHint = fmt.Sprintf("Readings may be at most %g in size; rescale the 
 // figures shown in the readings' units are at stake.
 func unitsInRange(rep *Report) error {
 	const tiny = 0x1p-1000
-	bad := func(what string, v float64) error {
-		if isFiniteNum(v) {
-			return fmt.Errorf("%w: the readings are too small (or too close together) for %s to be given in their units without losing its digits; rescale the units (for example to milli- or micro-units)", ErrOutOfRange, what)
-		}
-		return fmt.Errorf("%w: the readings are too large for %s to be given in their units (it exceeds 1.8e308); rescale the units (for example to kilo- or mega-units)", ErrOutOfRange, what)
-	}
+	bad := unitsErr
 	if !(rep.Sxx >= tiny) || !isFiniteNum(rep.Sxx) {
 		return bad("the sum of squares of x about its mean", rep.Sxx)
 	}
@@ -713,6 +867,15 @@ func unitsInRange(rep *Report) error {
 		}
 	}
 	return nil
+}
+
+// unitsErr is unitsInRange's error for the figure what, of value v (finite:
+// too small to keep its digits; not finite: too large).
+func unitsErr(what string, v float64) error {
+	if isFiniteNum(v) {
+		return fmt.Errorf("%w: the readings are too small (or too close together) for %s to be given in their units without losing its digits; rescale the units (for example to milli- or micro-units)", ErrOutOfRange, what)
+	}
+	return fmt.Errorf("%w: the readings are too large for %s to be given in their units (it exceeds 1.8e308); rescale the units (for example to kilo- or mega-units)", ErrOutOfRange, what)
 }
 
 // complete adds the Box–Cox profile (when every y > 0) and the advice to a

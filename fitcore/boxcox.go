@@ -543,43 +543,154 @@ func (p *bcProfile) gridLoglik() (lams, ells []float64) {
 // gridPass runs pass 1 (Σv, Σxc·v; storing q = e^{w/4} in p.u) or pass 2
 // (Σ(v − v̄)², Σ(v − v̄ − b·xc)², with v̄ and b from pass 1) of gridLoglik
 // over the readings i0 … i1−1 for the points lo … hi, into s.
+//
+// The readings are taken bcGridBlock at a time, and in each block point
+// by point, so that a point's two sums stay in registers while the block's
+// powers e^{λw} are carried from one point to the next in e. Each sum adds
+// the same terms in the same order (the readings in order), and each power
+// is the same product, as one reading at a time would give (the oracle,
+// gridPassByReading in the tests, is the code before).
 func (p *bcProfile) gridPass(s *bcGridSums, i0, i1, lo, hi, pass int, mu, slope *[bcGridN]float64) {
 	w, xc, q := p.w[i0:i1], p.xc[i0:i1], p.u[i0:i1]
-	var v [bcGridN]float64
-	for i, wi := range w {
-		var qi float64
+	var e, iq [bcGridBlock]float64
+	for b0 := 0; b0 < len(w); b0 += bcGridBlock {
+		b1 := min(b0+bcGridBlock, len(w))
+		wb, xb, qb := w[b0:b1], xc[b0:b1], q[b0:b1]
+		eb, ib := e[:len(wb)], iq[:len(wb)]
 		if pass == 1 {
-			qi = math.Exp(bcGridStep * wi)
-			q[i] = qi
-		} else {
-			qi = q[i]
-		}
-		v[bcGridZero] = wi
-		e := 1.0
-		for k := bcGridZero + 1; k <= hi; k++ {
-			e *= qi
-			v[k] = e - 1
-		}
-		e, iq := 1.0, 1/qi
-		for k := bcGridZero - 1; k >= lo; k-- {
-			e *= iq
-			v[k] = e - 1
-		}
-		x := xc[i]
-		if pass == 1 {
-			for k := lo; k <= hi; k++ {
-				s.sv[k] += v[k]
-				s.sxv[k] += x * v[k]
+			for i, wi := range wb {
+				qb[i] = math.Exp(bcGridStep * wi)
 			}
-			continue
 		}
-		for k := lo; k <= hi; k++ {
-			d := v[k] - mu[k]
-			s.syy[k] += d * d
-			r := d - slope[k]*x
-			s.rss[k] += r * r
+		// λ = 0: v = w.
+		copy(eb, wb)
+		gridPoint(s, bcGridZero, eb, xb, nil, pass, mu, slope, false)
+		for i := range eb {
+			eb[i] = 1
+		}
+		// (lo ≤ bcGridZero ≤ hi: every point from 0 outwards is summed.)
+		k := bcGridZero + 1
+		for ; k+3 <= hi; k += 4 {
+			gridPoints4(s, k, 1, eb, xb, qb, pass, mu, slope)
+		}
+		for ; k <= hi; k++ {
+			gridPoint(s, k, eb, xb, qb, pass, mu, slope, true)
+		}
+		for i, qi := range qb {
+			eb[i], ib[i] = 1, 1/qi
+		}
+		k = bcGridZero - 1
+		for ; k-3 >= lo; k -= 4 {
+			gridPoints4(s, k, -1, eb, xb, ib, pass, mu, slope)
+		}
+		for ; k >= lo; k-- {
+			gridPoint(s, k, eb, xb, ib, pass, mu, slope, true)
 		}
 	}
+}
+
+// bcGridBlock is the number of readings gridPass carries from one point
+// to the next (their powers, factors and x fit in the first-level cache).
+const bcGridBlock = 256
+
+// gridPoint adds point k's terms of one block to s: e holds the block's
+// powers e^{λw} of the point before, which are multiplied by f (nil: e
+// holds v itself, the point λ = 0) to give this point's; v = e − 1. The
+// sums are taken only when add is set (the powers are carried on anyway).
+func gridPoint(s *bcGridSums, k int, e, x, f []float64, pass int, mu, slope *[bcGridN]float64, add bool) {
+	if f == nil {
+		// λ = 0: v = w, held in e.
+		gridSums(s, k, e, x, pass, mu, slope, 0)
+		return
+	}
+	f = f[:len(e)]
+	for i := range e {
+		e[i] *= f[i]
+	}
+	if add {
+		gridSums(s, k, e, x, pass, mu, slope, 1)
+	}
+}
+
+// gridPoints4 is gridPoint for the four points k, k+dk, k+2dk, k+3dk in
+// one sweep of the block (their eight sums are independent chains, so
+// that one addition need not wait for the one before): the same products
+// and the same terms in the same order as four calls of gridPoint.
+func gridPoints4(s *bcGridSums, k, dk int, e, x, f []float64, pass int, mu, slope *[bcGridN]float64) {
+	k1, k2, k3 := k+dk, k+2*dk, k+3*dk
+	f, x = f[:len(e)], x[:len(e)]
+	if pass == 1 {
+		a0, a1, a2, a3 := s.sv[k], s.sv[k1], s.sv[k2], s.sv[k3]
+		b0, b1, b2, b3 := s.sxv[k], s.sxv[k1], s.sxv[k2], s.sxv[k3]
+		for i, ei := range e {
+			fi, xi := f[i], x[i]
+			e0 := ei * fi
+			e1 := e0 * fi
+			e2 := e1 * fi
+			e3 := e2 * fi
+			e[i] = e3
+			v0, v1, v2, v3 := e0-1, e1-1, e2-1, e3-1
+			a0 += v0
+			a1 += v1
+			a2 += v2
+			a3 += v3
+			b0 += xi * v0
+			b1 += xi * v1
+			b2 += xi * v2
+			b3 += xi * v3
+		}
+		s.sv[k], s.sv[k1], s.sv[k2], s.sv[k3] = a0, a1, a2, a3
+		s.sxv[k], s.sxv[k1], s.sxv[k2], s.sxv[k3] = b0, b1, b2, b3
+		return
+	}
+	m0, m1, m2, m3 := mu[k], mu[k1], mu[k2], mu[k3]
+	c0, c1, c2, c3 := slope[k], slope[k1], slope[k2], slope[k3]
+	a0, a1, a2, a3 := s.syy[k], s.syy[k1], s.syy[k2], s.syy[k3]
+	b0, b1, b2, b3 := s.rss[k], s.rss[k1], s.rss[k2], s.rss[k3]
+	for i, ei := range e {
+		fi, xi := f[i], x[i]
+		e0 := ei * fi
+		e1 := e0 * fi
+		e2 := e1 * fi
+		e3 := e2 * fi
+		e[i] = e3
+		d0, d1, d2, d3 := (e0-1)-m0, (e1-1)-m1, (e2-1)-m2, (e3-1)-m3
+		a0 += d0 * d0
+		a1 += d1 * d1
+		a2 += d2 * d2
+		a3 += d3 * d3
+		r0, r1, r2, r3 := d0-c0*xi, d1-c1*xi, d2-c2*xi, d3-c3*xi
+		b0 += r0 * r0
+		b1 += r1 * r1
+		b2 += r2 * r2
+		b3 += r3 * r3
+	}
+	s.syy[k], s.syy[k1], s.syy[k2], s.syy[k3] = a0, a1, a2, a3
+	s.rss[k], s.rss[k1], s.rss[k2], s.rss[k3] = b0, b1, b2, b3
+}
+
+// gridSums adds to s the sums of point k over v = e − off of one block
+// (pass 1: Σv, Σxc·v; pass 2: Σ(v − v̄)², Σ(v − v̄ − b·xc)²).
+func gridSums(s *bcGridSums, k int, e, x []float64, pass int, mu, slope *[bcGridN]float64, off float64) {
+	x = x[:len(e)]
+	if pass == 1 {
+		sv, sxv := s.sv[k], s.sxv[k]
+		for i, ei := range e {
+			v := ei - off
+			sv += v
+			sxv += x[i] * v
+		}
+		s.sv[k], s.sxv[k] = sv, sxv
+		return
+	}
+	syy, rss, m, b := s.syy[k], s.rss[k], mu[k], slope[k]
+	for i, ei := range e {
+		d := (ei - off) - m
+		syy += d * d
+		r := d - b*x[i]
+		rss += r * r
+	}
+	s.syy[k], s.rss[k] = syy, rss
 }
 
 // loglik returns ℓ(λ) up to a constant that does not depend on λ.

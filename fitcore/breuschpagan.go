@@ -57,18 +57,15 @@ func ckSpread(name string, x, resid []float64, quad bool, pre *ckPre) Check {
 	if quad {
 		df = 2
 	}
-	var big float64
-	for _, e := range resid {
-		big = max(big, e*e)
-	}
-	if !ckFinite(big) {
+	sq := pre.sqMoments(resid)
+	if !ckFinite(sq.big) {
 		for i, e := range resid {
 			if !ckFinite(e * e) {
 				return ckNA(name, fmt.Sprintf("A residual is too large to square: Reading %d has a squared residual that is not a number (%v).", i+1, e*e))
 			}
 		}
 	}
-	r2, ok := ckSpreadR2(x, resid, bs, quad)
+	r2, ok := ckSpreadR2With(x, resid, bs, quad, &sq, pre)
 	if !ok {
 		return ckNA(name, "The residuals are all the same size (for example all zero), so their spread cannot change with x.")
 	}
@@ -90,11 +87,27 @@ func ckSpread(name string, x, resid []float64, quad bool, pre *ckPre) Check {
 // rms) on the basis bs: R² = 1 − SSE/n. ok is false when e² has no spread
 // or a basis member is degenerate.
 func ckSpreadR2(x, resid []float64, bs *ckBasis, quad bool) (float64, bool) {
-	n := float64(len(resid))
+	sq := ckNewSqMoments(resid)
+	return ckSpreadR2With(x, resid, bs, quad, &sq, nil)
+}
+
+// ckSqMoments are the largest e², the mean of e² and its root mean
+// square deviation, as ckSpreadR2 takes them.
+type ckSqMoments struct {
+	big, mean, rms float64
+}
+
+// ckNewSqMoments works out the moments of e² for the residuals resid: the
+// largest and the mean in one pass, then the deviations about the mean
+// with the compensated second pass (Chan, Golub & LeVeque).
+func ckNewSqMoments(resid []float64) ckSqMoments {
+	var m ckSqMoments
 	var mean float64
 	for _, e := range resid {
+		m.big = max(m.big, e*e)
 		mean += e * e
 	}
+	n := float64(len(resid))
 	mean /= n
 	var ss, corr float64
 	for _, e := range resid {
@@ -106,8 +119,29 @@ func ckSpreadR2(x, resid []float64, bs *ckBasis, quad bool) (float64, bool) {
 	if ss < 0 {
 		ss = 0
 	}
-	mean += corr / n
-	rms := math.Sqrt(ss / n)
+	m.mean = mean + corr/n
+	m.rms = math.Sqrt(ss / n)
+	return m
+}
+
+// sqMoments is ckNewSqMoments(resid), worked out once for the checks of
+// one run that ask about the same residuals (Breusch–Pagan, then White).
+func (p *ckPre) sqMoments(resid []float64) ckSqMoments {
+	if len(resid) == 0 {
+		return ckNewSqMoments(resid)
+	}
+	if len(p.sqOf) != len(resid) || &p.sqOf[0] != &resid[0] {
+		p.sqOf, p.sq, p.sqFirstOK = resid, ckNewSqMoments(resid), false
+	}
+	return p.sq
+}
+
+// ckSpreadR2With is ckSpreadR2 with the moments of e² in sq; pre, when not
+// nil, is where sq came from (sqMoments), and keeps the first pass of the
+// projection for the other of Breusch–Pagan and White.
+func ckSpreadR2With(x, resid []float64, bs *ckBasis, quad bool, sq *ckSqMoments, pre *ckPre) (float64, bool) {
+	n := float64(len(resid))
+	mean, rms := sq.mean, sq.rms
 	if rms == 0 || !ckFinite(rms) {
 		return 0, false
 	}
@@ -115,7 +149,18 @@ func ckSpreadR2(x, resid []float64, bs *ckBasis, quad bool) (float64, bool) {
 		return 0, false
 	}
 	is := 1 / rms
-	f := bs.project(x, nil, quad, resid, true, mean, is)
+	var f1 ckFirstPass
+	switch {
+	case pre != nil && pre.sqFirstOK:
+		f1 = pre.sqFirst
+	case pre != nil:
+		// With the quadratic sum as well when White can use it.
+		f1 = bs.firstPass(x, nil, bs.okG, resid, true, mean, is)
+		pre.sqFirst, pre.sqFirstOK = f1, bs.okG
+	default:
+		f1 = bs.firstPass(x, nil, quad, resid, true, mean, is)
+	}
+	f := bs.projectFrom(f1, x, nil, quad, resid, true, mean, is)
 	r2 := 1 - f.sse/n
 	if r2 < 0 {
 		r2 = 0

@@ -147,16 +147,22 @@ type ckProj struct {
 // second residual minus the squares of its (tiny) projections. quad says
 // whether g takes part.
 func (b *ckBasis) project(x, w []float64, quad bool, y []float64, sq bool, mean, is float64) ckProj {
-	val := func(i int) float64 {
-		v := y[i]
-		if sq {
-			v = (v*v - mean) * is
-		}
-		return v
-	}
+	return b.projectFrom(b.firstPass(x, w, quad, y, sq, mean, is), x, w, quad, y, sq, mean, is)
+}
+
+// ckFirstPass holds the sums of project's first pass: Σv, Σv·d and (with
+// quad) Σv·g.
+type ckFirstPass struct{ sv, sdv, sgv float64 }
+
+// firstPass is project's first pass. Its Σv and Σv·d do not depend on
+// quad, so one pass with quad serves a projection without it as well.
+func (b *ckBasis) firstPass(x, w []float64, quad bool, y []float64, sq bool, mean, is float64) ckFirstPass {
 	var sv, sdv, sgv float64
 	for i, xi := range x {
-		vi := val(i)
+		vi := y[i]
+		if sq {
+			vi = (vi*vi - mean) * is
+		}
 		if w != nil {
 			vi *= w[i] * b.wk
 		}
@@ -167,6 +173,19 @@ func (b *ckBasis) project(x, w []float64, quad bool, y []float64, sq bool, mean,
 			sgv += vi * b.g(d)
 		}
 	}
+	return ckFirstPass{sv, sdv, sgv}
+}
+
+// projectFrom is project from the sums of its first pass, f1.
+func (b *ckBasis) projectFrom(f1 ckFirstPass, x, w []float64, quad bool, y []float64, sq bool, mean, is float64) ckProj {
+	val := func(i int) float64 {
+		v := y[i]
+		if sq {
+			v = (v*v - mean) * is
+		}
+		return v
+	}
+	sv, sdv, sgv := f1.sv, f1.sdv, f1.sgv
 	var p ckProj
 	p.a, p.b = sv/b.s0, sdv/b.sdd
 	if quad {
@@ -238,6 +257,14 @@ type ckPre struct {
 	// dw, when set, keeps the Durbin–Watson design between the analyses
 	// that share it (the advice's refits).
 	dw *dwShared
+	// sq keeps the moments of e² that Breusch–Pagan worked out for White,
+	// which asks about the same residuals (sqOf) next.
+	sqOf []float64
+	sq   ckSqMoments
+	// sqFirst, when sqFirstOK, is the first pass of the projection of e²
+	// on the quadratic basis (the linear one takes its first two sums).
+	sqFirst   ckFirstPass
+	sqFirstOK bool
 }
 
 func ckPrepare(x []float64) *ckPre {

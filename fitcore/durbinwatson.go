@@ -208,6 +208,10 @@ type dwShared struct {
 	dz             *dwDesign
 	ok             bool
 	mean, variance float64
+
+	// buf is the space of the columns of a weighted design (worked out
+	// anew for every weighting, used only while its check runs).
+	buf [2][]float64
 }
 
 // design returns newDWDesign(x, w, origin) and its moments, from s when s
@@ -215,7 +219,11 @@ type dwShared struct {
 // nothing.
 func (s *dwShared) design(x, w []float64, origin bool) (dz *dwDesign, mean, variance float64, ok bool) {
 	if s == nil || w != nil || len(x) == 0 {
-		if dz, ok = newDWDesign(x, w, origin); ok {
+		var buf *[2][]float64
+		if s != nil {
+			buf = &s.buf
+		}
+		if dz, ok = newDWDesignIn(x, w, origin, buf); ok {
 			mean, variance = dz.moments()
 		}
 		return dz, mean, variance, ok
@@ -286,15 +294,26 @@ type dwDesign struct {
 // false when the x column is, to 1e-10 of its norm, a multiple of the
 // first (no spread).
 func newDWDesign(x, w []float64, origin bool) (*dwDesign, bool) {
+	return newDWDesignIn(x, w, origin, nil)
+}
+
+// newDWDesignIn is newDWDesign with the columns in the space buf (nil:
+// new slices); the design then lives in buf until buf is used again.
+func newDWDesignIn(x, w []float64, origin bool, buf *[2][]float64) (*dwDesign, bool) {
 	sw := dwRootWeights(w)
+	var u1, u2 []float64
+	if buf != nil {
+		buf[0], buf[1] = ckGrowF64(buf[0], len(x)), ckGrowF64(buf[1], len(x))
+		u1, u2 = buf[0][:len(x)], buf[1][:len(x)]
+	}
 	if origin {
-		u, ok := dwOriginColumn(x, sw)
+		u, ok := dwOriginColumn(x, sw, u1)
 		if !ok {
 			return nil, false
 		}
 		return &dwDesign{n: len(x), u: [2][]float64{u}, k: 1}, true
 	}
-	u1, u2, ok := dwLineColumns(x, sw)
+	u1, u2, ok := dwLineColumns(x, sw, u1, u2)
 	if !ok {
 		return nil, false
 	}
@@ -336,7 +355,7 @@ func dwNormalize(v []float64) float64 {
 
 // dwOriginColumn is the one column of a line through the origin,
 // √w·x/max|x| normalized; ok is false when x is zero or not finite.
-func dwOriginColumn(x []float64, sw func(int) float64) ([]float64, bool) {
+func dwOriginColumn(x []float64, sw func(int) float64, u []float64) ([]float64, bool) {
 	var big float64
 	for _, v := range x {
 		big = max(big, math.Abs(v))
@@ -344,7 +363,9 @@ func dwOriginColumn(x []float64, sw func(int) float64) ([]float64, bool) {
 	if big == 0 || !ckFinite(big) {
 		return nil, false
 	}
-	u := make([]float64, len(x))
+	if len(u) != len(x) {
+		u = make([]float64, len(x))
+	}
 	for t, v := range x {
 		u[t] = sw(t) * (v / big)
 	}
@@ -357,44 +378,80 @@ func dwOriginColumn(x []float64, sw func(int) float64) ([]float64, bool) {
 // dwLineColumns are the two orthonormal columns of a line with an
 // intercept: √w normalized, and √w·z, z = (x − mean)/sd, made orthogonal
 // to it by Gram–Schmidt twice, then normalized; ok is false when x has no
-// spread (what is left of the second column is below 1e-10 of it).
-func dwLineColumns(x []float64, sw func(int) float64) (u1, u2 []float64, ok bool) {
+// spread (what is left of the second column is below 1e-10 of it). The
+// columns are written into u1 and u2 when they have the length of x (new
+// slices otherwise).
+//
+// Each sweep over the readings does what the next step can do in the same
+// order: the largest |u1| and Σu2² with the columns; the division of u1
+// by its norm with the first dot product; each subtraction with the dot
+// product or the sums that follow it (dwNormalize's steps, written out).
+// Every value is the one the steps taken one after another give
+// (dwLineColumnsByStep in the tests, the code before).
+func dwLineColumns(x []float64, sw func(int) float64, u1, u2 []float64) ([]float64, []float64, bool) {
 	m, s := ckMeanSD(x)
 	if s == 0 || !ckFinite(s) {
 		return nil, nil, false
 	}
 	n := len(x)
-	u1 = make([]float64, n)
-	u2 = make([]float64, n)
+	if len(u1) != n || len(u2) != n {
+		u1, u2 = make([]float64, n), make([]float64, n)
+	}
+	u2 = u2[:len(u1)]
+	var big1, before float64
 	for t, v := range x {
 		st := sw(t)
 		u1[t] = st
-		u2[t] = st * ((v - m) / s)
-	}
-	if dwNormalize(u1) == 0 {
-		return nil, nil, false
-	}
-	var before float64
-	for _, a := range u2 {
+		a := st * ((v - m) / s)
+		u2[t] = a
+		big1 = max(big1, math.Abs(st))
 		before += a * a
 	}
-	for range 2 {
-		var dot float64
-		for t := range u2 {
-			dot += u1[t] * u2[t]
-		}
-		for t := range u2 {
-			u2[t] -= dot * u1[t]
-		}
-	}
-	var after float64
-	for _, a := range u2 {
-		after += a * a
-	}
-	if !(math.Sqrt(after) > 1e-10*math.Sqrt(before)) || dwNormalize(u2) == 0 {
+	nrm1, ok := dwNorm(u1, big1)
+	if !ok {
 		return nil, nil, false
 	}
+	var dot float64
+	for t := range u1 {
+		u1[t] /= nrm1
+		dot += u1[t] * u2[t]
+	}
+	var dot2 float64
+	for t, a := range u1 {
+		u2[t] -= dot * a
+		dot2 += a * u2[t]
+	}
+	var after, big2 float64
+	for t, a := range u1 {
+		u2[t] -= dot2 * a
+		after += u2[t] * u2[t]
+		big2 = max(big2, math.Abs(u2[t]))
+	}
+	if !(math.Sqrt(after) > 1e-10*math.Sqrt(before)) {
+		return nil, nil, false
+	}
+	nrm2, ok := dwNorm(u2, big2)
+	if !ok {
+		return nil, nil, false
+	}
+	for t := range u2 {
+		u2[t] /= nrm2
+	}
 	return u1, u2, true
+}
+
+// dwNorm is the norm dwNormalize finds for v, given big = max|v|; ok is
+// false when v is zero or not finite.
+func dwNorm(v []float64, big float64) (float64, bool) {
+	if big == 0 || !ckFinite(big) {
+		return 0, false
+	}
+	var ss float64
+	for _, a := range v {
+		a /= big
+		ss += a * a
+	}
+	return big * math.Sqrt(ss), true
 }
 
 // dwA applies the first-difference matrix A to v at t.

@@ -96,9 +96,35 @@ func influence(x, resid, w []float64, origin, valid bool) []PointInfluence {
 
 // influenceSummary is Summarize's influence assumption for Influence(x,
 // resid, w, origin), found without keeping the per-reading results.
-func influenceSummary(x, resid, w, pr []float64, origin, valid bool) Assumption {
-	_, masks := influenceRun(x, resid, w, pr, origin, valid, false)
+//
+// lc, when not nil, keeps the leverages' sums of the first unweighted x
+// it is asked about, for the refits of the advice that share that x.
+func influenceSummary(x, resid, w, pr []float64, origin, valid bool, lc *ckLevCache) Assumption {
+	_, masks := influenceRunWith(x, resid, w, pr, origin, valid, false, lc)
 	return ckInfluenceFromMasks(masks)
+}
+
+// ckLevCache keeps ckNewLeverage(x, nil, origin) for one x (the slice).
+type ckLevCache struct {
+	lev ckLev
+	ok  bool
+}
+
+// leverage returns ckNewLeverage(x, w, origin), from c when it holds the
+// same unweighted x (c nil: nothing is kept). What c keeps is for the
+// first x asked about (see anScratch.prepare).
+func (c *ckLevCache) leverage(x, w []float64, origin bool) (ckLev, bool) {
+	if c == nil || w != nil || len(x) == 0 {
+		return ckNewLeverage(x, w, origin)
+	}
+	if l := &c.lev; len(l.x) == len(x) && &l.x[0] == &x[0] && l.w == nil && l.origin == origin {
+		return c.lev, c.ok
+	}
+	lev, ok := ckNewLeverage(x, nil, origin)
+	if c.lev.x == nil {
+		c.lev, c.ok = lev, ok
+	}
+	return lev, ok
 }
 
 // ckInfluenceFromMasks is ckSummarizeInfluence from the reason bits of
@@ -131,6 +157,12 @@ func ckInfluenceFromMasks(masks []uint8) Assumption {
 // made them (math.Sqrt(w[i])·resid[i], the same expression, so the same
 // bits), read instead of being worked out again.
 func influenceRun(x, resid, w, pr []float64, origin, valid, keep bool) (out []PointInfluence, masks []uint8) {
+	return influenceRunWith(x, resid, w, pr, origin, valid, keep, nil)
+}
+
+// influenceRunWith is influenceRun with the leverages' sums from lc (see
+// influenceSummary).
+func influenceRunWith(x, resid, w, pr []float64, origin, valid, keep bool, lc *ckLevCache) (out []PointInfluence, masks []uint8) {
 	if !valid && ckValidate(x, resid, w, "residual") != "" {
 		return nil, nil
 	}
@@ -142,7 +174,7 @@ func influenceRun(x, resid, w, pr []float64, origin, valid, keep bool) (out []Po
 	if n <= p {
 		return nil, nil
 	}
-	lev, ok := ckNewLeverage(x, w, origin)
+	lev, ok := lc.leverage(x, w, origin)
 	if !ok {
 		return nil, nil
 	}
@@ -155,10 +187,16 @@ func influenceRun(x, resid, w, pr []float64, origin, valid, keep bool) (out []Po
 	masks = make([]uint8, n)
 	nReasons := 0
 	var tmp PointInfluence
+	var q ckQuiet
+	if !keep {
+		q = st.quietBounds(&lev)
+	}
 	for i := range n {
 		pi := &tmp
 		if keep {
 			pi = &out[i]
+		} else if q.ok && st.quiet(&q, &lev, i) {
+			continue
 		}
 		if m := st.point(pi, i, lev.at(i)); m != 0 {
 			masks[i] = m
@@ -251,6 +289,77 @@ func (st *ckInfluenceStats) point(pi *PointInfluence, i int, h float64) uint8 {
 		pi.DFFITS = 0
 	}
 	return m | st.cut.mask(pi)
+}
+
+// ckQuiet holds what quiet needs: the readings' bounds below which no
+// reason can be found, each 1e-9 (relative) inside the threshold it
+// stands for, and the reciprocals of the sums of the leverage.
+type ckQuiet struct {
+	ok           bool
+	ib2          float64 // 1/big²
+	hMax         float64 // bound on h: below it, no leverage 1
+	cookK        float64 // 1/(p·s²): D ≈ r²·ib2·h·cookK/(1 − h)²
+	cookMax      float64 // bound on D, or +Inf when Cook's D flags nothing
+	t2Max        float64 // bound on t², or +Inf when t flags nothing
+	isw, isxx    float64 // 1/Σw and 1/Sxx (origin: 1/(big_x²·Sxx))
+	useT, useCoo bool
+}
+
+// quietBounds sets up quiet; ok is false when it cannot be used (every
+// reading then goes through point).
+func (st *ckInfluenceStats) quietBounds(l *ckLev) ckQuiet {
+	const margin = 1 - 1e-9
+	q := ckQuiet{hMax: (1 - 1e-12) * margin, cookMax: math.Inf(1), t2Max: math.Inf(1)}
+	if st.sse == 0 || !(st.big > 0) || !(st.s2 > 0) || !ckFinite(st.sse) {
+		return q
+	}
+	q.ib2 = 1 / (st.big * st.big)
+	q.cookK = 1 / (st.pf * st.s2)
+	if l.origin {
+		q.isxx = 1 / (l.big * l.big * l.sxx)
+	} else {
+		q.isw, q.isxx = 1/l.sw, 1/l.sxx
+	}
+	if st.cut.studentOK && ckFinite(st.cut.fMedian) {
+		q.cookMax, q.useCoo = st.cut.fMedian*margin, true
+	}
+	if st.dfDel >= 1 {
+		if !(st.tOne > 0) {
+			return q // every t goes through the t distribution
+		}
+		q.t2Max, q.useT = st.tOne*st.tOne*margin, true
+	}
+	q.ok = ckFinite(q.ib2) && ckFinite(q.cookK) && ckFinite(q.isw) && ckFinite(q.isxx) && q.ib2 > 0
+	return q
+}
+
+// quiet says that reading i certainly has no reason (point would return
+// 0): its leverage, Cook's distance and studentized residual, worked out
+// with products instead of point's quotients and square roots (within a
+// few units in the last place of point's), are each 1e-9 or more inside
+// their thresholds. A reading near a threshold, or with any figure not
+// finite, is not quiet and goes through point, so the reasons found are
+// exactly point's.
+func (st *ckInfluenceStats) quiet(q *ckQuiet, l *ckLev, i int) bool {
+	var h float64
+	v := l.x[i]
+	if l.origin {
+		h = ckW(l.w, i) * v * v * q.isxx
+	} else {
+		d := v - l.mx
+		h = ckW(l.w, i) * (q.isw + d*d*q.isxx)
+	}
+	if !(h < q.hMax) {
+		return false
+	}
+	r := st.r(i)
+	r2 := r * r * q.ib2 // (r/big)²
+	om := 1 - h
+	if q.useCoo && !(r2*h*q.cookK < q.cookMax*om*om) {
+		return false
+	}
+	// t² = r2/(s²₍ᵢ₎(1−h)), s²₍ᵢ₎(1−h) = (S(1−h) − r2)/(n−p−1).
+	return !q.useT || r2*st.dfDel < q.t2Max*(st.sse*om-r2)
 }
 
 // deleted works out Cook's distance, the externally studentized residual

@@ -153,3 +153,58 @@ func TestInfluencePearsonGiven(t *testing.T) {
 		}
 	}
 }
+
+// TestInfluenceQuietSameMasks: the summary's shortcut (quiet, which skips
+// readings certainly without a reason) finds exactly the reasons of every
+// reading that the full diagnostics find (keep), on random records with
+// heavy-tailed scatter, readings far out in x, weights, near-exact fits
+// and through the origin. The oracle is influenceRun with keep, which
+// works out every reading through point.
+func TestInfluenceQuietSameMasks(t *testing.T) {
+	r := rand.New(rand.NewPCG(41, 3))
+	flagged := 0
+	for trial := range 600 {
+		n := 4 + r.IntN(3000)
+		x, e, w := make([]float64, n), make([]float64, n), make([]float64, n)
+		scale := math.Pow(10, float64(r.IntN(9)-4))
+		for i := range x {
+			x[i] = r.Float64() * 10
+			switch trial % 4 {
+			case 0:
+				e[i] = r.NormFloat64()
+			case 1:
+				e[i] = r.NormFloat64() / (0.05 + math.Abs(r.NormFloat64())) // heavy tails
+			case 2:
+				e[i] = r.NormFloat64() * (1 + x[i])
+			case 3:
+				e[i] = 1e-9 * r.NormFloat64() // nearly exact, one large below
+			}
+			e[i] *= scale
+			w[i] = 1 / (0.1 + x[i]*x[i])
+		}
+		for range r.IntN(4) {
+			e[r.IntN(n)] *= 20 + 50*r.Float64()
+		}
+		if trial%5 == 0 {
+			x[r.IntN(n)] = 100 + 1000*r.Float64() // high leverage
+		}
+		var ww []float64
+		if trial%2 == 1 {
+			ww = w
+		}
+		origin := trial%3 == 0
+		_, want := influenceRun(x, e, ww, nil, origin, true, true)
+		_, got := influenceRun(x, e, ww, nil, origin, true, false)
+		if !reflect.DeepEqual(got, want) {
+			t.Fatalf("trial %d (n = %d): the summary's reasons differ from the full diagnostics'", trial, n)
+		}
+		for _, m := range want {
+			if m != 0 {
+				flagged++
+			}
+		}
+	}
+	if flagged < 100 {
+		t.Fatalf("only %d flagged readings in all trials: the test does not reach the thresholds", flagged)
+	}
+}

@@ -272,12 +272,9 @@ func (f *lineFit) safe() bool {
 func fitScaled(f *lineFit, x, y, w []float64, origin bool, kx, ky, cw float64) bool {
 	n := len(x)
 	*f = lineFit{n: n, origin: origin, weighted: w != nil, kx: kx, ky: ky, cw: cw}
-	if w != nil {
-		ws := make([]float64, n)
-		for i, wi := range w {
-			ws[i] = wi * cw
-		}
-		f.w = ws
+	if f.w = w; w != nil && cw != 1 {
+		// (w·1 is w, bit for bit, and f.w is only read: no copy then.)
+		f.w = scaledCopy(w, cw)
 	}
 	wi := f.w
 	scaled := kx != 1 || ky != 1
@@ -502,6 +499,30 @@ func (f *lineFit) fittedResidualsInto(x, y, fitted, resid []float64) {
 	}
 }
 
+// residualsInto is fittedResidualsInto without keeping the fitted values:
+// the same residuals, bit for bit, and ok false when a fitted value or a
+// residual is not finite (bad is then fitted + residual of the first).
+func (f *lineFit) residualsInto(x, y, resid []float64) (bad float64, ok bool) {
+	n := len(x)
+	kx, ky, xc, a, b1 := f.kx, f.ky, f.xc, f.a, f.b1
+	iy := 1 / ky
+	ok = true
+	for i := range n {
+		fs := a + b1*(x[i]*kx-xc)
+		fv := fs * iy
+		r := (y[i]*ky - fs) * iy
+		resid[i] = r
+		if s := fv + r; s-s != 0 && ok {
+			// (x − x is 0 for every finite x; a sum of finite values
+			// can still overflow, so each is looked at.)
+			if !isFiniteNum(fv) || !isFiniteNum(r) {
+				bad, ok = s, false
+			}
+		}
+	}
+	return bad, ok
+}
+
 // fitAt is ŷ at x (original units in and out).
 func (f *lineFit) fitAt(x float64) float64 {
 	return (f.a + f.b1*(x*f.kx-f.xc)) / f.ky
@@ -577,10 +598,14 @@ func (m *weightModel) at(x float64) (float64, bool) {
 //	                                 Transformation and Weighting in Regression, 1988, §3.3)
 //
 // Source for the weighting: Draper & Smith §9.2; NIST/SEMATECH e-Handbook §4.4.5.2.
-func schemeWeights(scheme WeightScheme, x, y, given []float64, origin bool, rep *Report) ([]float64, *weightModel, error) {
+//
+// The weights are written into buf when its capacity is at least len(x)
+// (a new slice otherwise; nil: always new).
+func schemeWeights(scheme WeightScheme, x, y, given []float64, origin bool, rep *Report, buf []float64) ([]float64, *weightModel, error) {
 	n := len(x)
 	m := &weightModel{scheme: scheme}
-	w := make([]float64, n)
+	w := ckGrowF64(buf, n)
+	clear(w)
 	bad := func(i int, col string, v float64, hint string) error {
 		return &DataError{Index: i, Column: col, Value: v, Err: ErrBadWeight, Hint: hint}
 	}

@@ -56,6 +56,46 @@ func ShapiroWilk(x []float64) (w, p float64, err error) {
 // size share their coefficients, and so do the calls that share b.
 // valid says x is already known to be finite.
 func shapiroWilk(x []float64, b *ckSortBuf, valid bool) (w, p float64, err error) {
+	w, p, _, err = shapiroWilkIf(x, b, valid, nil)
+	return w, p, err
+}
+
+// shapiroWilkIf is shapiroWilk, but for n > swBlock, when needW is not
+// nil, the p-value of the groups comes first and W (the sort of all n
+// values) is worked out only when needW(p) says so; haveW says whether it
+// was. Whether the values have no spread (an error) is found, without the
+// sort, from their range, as the sort would find it.
+func shapiroWilkIf(x []float64, b *ckSortBuf, valid bool, needW func(p float64) bool) (w, p float64, haveW bool, err error) {
+	n := len(x)
+	if needW == nil || n <= swBlock {
+		w, p, err = shapiroWilkAll(x, b, valid)
+		return w, p, err == nil, err
+	}
+	for i := 0; i < n && !valid; i++ {
+		if v := x[i]; !ckFinite(v) {
+			return 0, 0, false, fmt.Errorf("value %d (%v): %w", i+1, v, errSWNotFinite)
+		}
+	}
+	b.f = ckGrowF64(b.f, n)
+	p = swGroupsP(x, b, b.f)
+	if !needW(p) {
+		// (Values without spread give groups without spread, p = 1.)
+		lo, hi := rangeOf(x)
+		if rng := hi - lo; !(rng > 0) || !ckFinite(rng) {
+			return 0, 0, false, errSWConstant
+		}
+		return 0, p, false, nil
+	}
+	s := b.sortedCopy(x)
+	w, _, ok := swSorted(s, b.swCoef(n))
+	if !ok {
+		return 0, 0, false, errSWConstant
+	}
+	return w, p, true, nil
+}
+
+// shapiroWilkAll is shapiroWilk: W from the sort of all values, then p.
+func shapiroWilkAll(x []float64, b *ckSortBuf, valid bool) (w, p float64, err error) {
 	n := len(x)
 	if n < 3 {
 		return 0, 0, errSWTooFew
@@ -78,10 +118,19 @@ func shapiroWilk(x []float64, b *ckSortBuf, valid bool) (w, p float64, err error
 	if !ok {
 		return 0, 0, errSWConstant
 	}
+	// The sorted sample is no longer needed, so its space holds one group
+	// at a time.
+	return w, swGroupsP(x, b, s), nil
+}
+
+// swGroupsP is the p-value of ShapiroWilk for n > swBlock values: the
+// groups' p-values combined by Fisher's method. Group j holds the values
+// at positions j, j+k, j+2k, …: n/k of them, one more for j < n mod k;
+// space (of n values at least) holds one group at a time.
+func swGroupsP(x []float64, b *ckSortBuf, space []float64) float64 {
+	n := len(x)
+	s := space
 	k := (n + swBlock - 1) / swBlock
-	// Group j holds the values at positions j, j+k, j+2k, …: n/k of them,
-	// one more for j < n mod k. The sorted sample is no longer needed, so
-	// its space holds one group at a time.
 	var fisher float64
 	groups := 0
 	for j := range k {
@@ -98,7 +147,7 @@ func shapiroWilk(x []float64, b *ckSortBuf, valid bool) (w, p float64, err error
 		fisher += -2 * math.Log(math.Max(pj, 1e-300))
 		groups++
 	}
-	return w, ckChi2SF(fisher, float64(2*groups)), nil
+	return ckChi2SF(fisher, float64(2*groups))
 }
 
 // swSorted computes W and Royston's p for sorted s (3 ≤ n) with a =
@@ -233,6 +282,15 @@ func ShapiroWilkCheck(resid []float64) Check {
 // shapiroWilkCheck is ShapiroWilkCheck with its work space in b; valid
 // says resid is already known to be finite.
 func shapiroWilkCheck(resid []float64, b *ckSortBuf, valid bool) Check {
+	return shapiroWilkCheckIf(resid, b, valid, false)
+}
+
+// shapiroWilkCheckIf is shapiroWilkCheck; with verdictOnly (an advice
+// refit, which takes only the normality assumption, whose Pass has no
+// figures) a Pass from the groups' p of more than swBlock residuals is
+// given without W, the sort of all of them (Statistic 0 and a message
+// saying so). Every other outcome is shapiroWilkCheck's.
+func shapiroWilkCheckIf(resid []float64, b *ckSortBuf, valid, verdictOnly bool) Check {
 	const name = "Shapiro–Wilk"
 	if !valid {
 		if s := ckFirstNonFinite("residual", resid); s != "" {
@@ -242,11 +300,19 @@ func shapiroWilkCheck(resid []float64, b *ckSortBuf, valid bool) Check {
 	if len(resid) < 3 {
 		return ckNA(name, fmt.Sprintf("The Shapiro–Wilk check needs at least 3 readings; there are %d.", len(resid)))
 	}
-	w, p, err := shapiroWilk(resid, b, true)
+	var needW func(float64) bool
+	if verdictOnly {
+		needW = func(p float64) bool { return ckVerdict(p, ckWarnP, ckFailP) != Pass }
+	}
+	w, p, haveW, err := shapiroWilkIf(resid, b, true, needW)
 	if err != nil {
 		return ckNA(name, "The residuals are all the same (for example all zero), so their shape cannot be judged.")
 	}
 	c := Check{Name: name, Statistic: w, P: p, Verdict: ckVerdict(p, ckWarnP, ckFailP)}
+	if !haveW {
+		c.Message = fmt.Sprintf("The residuals are consistent with a normal (bell-shaped) spread (%s; W not worked out for this verdict).", ckFmtP(p))
+		return c
+	}
 	switch c.Verdict {
 	case Fail:
 		c.Message = fmt.Sprintf("The residuals do not follow a normal (bell-shaped) spread (W = %.4f, %s).", w, ckFmtP(p))

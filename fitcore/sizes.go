@@ -88,29 +88,65 @@ const (
 // largest residual the acceptance criteria allow in y units of the fitted
 // scale (0: none).
 func departures(xt, yt, e, w []float64, origin bool, allowed float64) *Departures {
+	return departuresOf(xt, yt, e, w, origin, allowed, depAll)
+}
+
+// depParts says which of the sizes departuresOf works out; xRange, when
+// set, gives rangeOf of x (from what an analysis keeps about its x).
+type depParts struct {
+	curvature, scatter, drift bool
+	xRange                    func([]float64) (lo, hi float64)
+}
+
+var depAll = depParts{curvature: true, scatter: true, drift: true}
+
+// departuresOf is departures working out only the parts asked for (the
+// fields of the others stay zero, Known… false).
+func departuresOf(xt, yt, e, w []float64, origin bool, allowed float64, parts depParts) *Departures {
 	d := &Departures{}
-	if g, pc, sq, ok := curvatureGap(xt, yt, w, origin); ok {
-		d.CurvatureGap, d.CurvatureGapPercent, d.KnownCurvature = g, pc, true
-		if sq > 0 {
-			d.CurvatureGapSD = g / sq
-		}
-		if allowed > 0 {
-			d.CurvatureGapOfAllowed = g / allowed
-			d.CurvatureMatters = g > CurvatureSizeAllowed*allowed
-		} else {
-			d.CurvatureMatters = (sq == 0 && g > 0) || g > CurvatureSizeSD*sq
-		}
+	if parts.curvature {
+		d.curvature(xt, yt, w, origin, allowed)
 	}
-	d.scatterThirds(xt, e, w)
+	var k float64 // the scale of the Pearson residuals, shared by both
+	if parts.scatter || parts.drift {
+		k = sizesScale(e, w)
+	}
+	if parts.scatter {
+		rng := parts.xRange
+		if rng == nil {
+			rng = rangeOf
+		}
+		d.scatterThirds(xt, e, w, k, rng)
+	}
 	np := 2
 	if origin {
 		np = 1
 	}
-	d.drift(e, w, np)
+	if parts.drift {
+		d.drift(e, w, np, k)
+	}
 	if !ckFinite(d.CurvatureGapSD) || !ckFinite(d.CurvatureGapOfAllowed) {
 		d.CurvatureGapSD, d.CurvatureGapOfAllowed = 0, 0
 	}
 	return d
+}
+
+// curvature sets the Curvature… fields from curvatureGap.
+func (d *Departures) curvature(xt, yt, w []float64, origin bool, allowed float64) {
+	g, pc, sq, ok := curvatureGap(xt, yt, w, origin)
+	if !ok {
+		return
+	}
+	d.CurvatureGap, d.CurvatureGapPercent, d.KnownCurvature = g, pc, true
+	if sq > 0 {
+		d.CurvatureGapSD = g / sq
+	}
+	if allowed > 0 {
+		d.CurvatureGapOfAllowed = g / allowed
+		d.CurvatureMatters = g > CurvatureSizeAllowed*allowed
+	} else {
+		d.CurvatureMatters = (sq == 0 && g > 0) || g > CurvatureSizeSD*sq
+	}
 }
 
 // sizesPearson returns √w_i·e_i divided by k, with k = max|√w·e| (so that
@@ -134,12 +170,13 @@ func sizesScale(e, w []float64) float64 {
 // scatterThirds sets the Scatter… fields: thirds of the range of x by
 // value, lo + (hi − lo)/3 and lo + 2(hi − lo)/3 the boundaries (a reading
 // on a boundary counts in the lower part).
-func (d *Departures) scatterThirds(x, e, w []float64) {
-	k := sizesScale(e, w)
+//
+// k is sizesScale(e, w) and rng is rangeOf (or gives what it gives).
+func (d *Departures) scatterThirds(x, e, w []float64, k float64, rng func([]float64) (lo, hi float64)) {
 	if !(k > 0) || !ckFinite(k) {
 		return
 	}
-	lo, hi := rangeOf(x)
+	lo, hi := rng(x)
 	if !(hi > lo) {
 		return
 	}
@@ -187,10 +224,9 @@ func (d *Departures) scatterThirds(x, e, w []float64) {
 }
 
 // drift sets Drift and DriftMatters from the (weighted) residuals in entry
-// order.
-func (d *Departures) drift(e, w []float64, np int) {
+// order; k is sizesScale(e, w).
+func (d *Departures) drift(e, w []float64, np int, k float64) {
 	n := len(e)
-	k := sizesScale(e, w)
 	if n-np < 1 || n < 3 || !(k > 0) || !ckFinite(k) {
 		return
 	}
@@ -279,18 +315,33 @@ func curvQuadratic(x, y, w []float64, m float64) (q0, q1, q2 float64, ok bool) {
 	// line has no intercept but the quadratic's gap is judged the same way).
 	var s [5]float64
 	var t [3]float64
+	// The powers p = w·u^k, k = 0 … 4, and their sums, written out (the
+	// same products and sums, in the same order, as a loop over k).
+	s0, s1, s2, s3, s4 := s[0], s[1], s[2], s[3], s[4]
+	t0, t1, t2 := t[0], t[1], t[2]
+	y = y[:len(x)]
 	for i, v := range x {
 		u := v - m
-		wi := ckW(w, i)
-		p := wi
-		for k := range 5 {
-			s[k] += p
-			if k < 3 {
-				t[k] += p * y[i]
-			}
-			p *= u
+		yi := y[i]
+		p := 1.0
+		if w != nil {
+			p = w[i]
 		}
+		s0 += p
+		t0 += p * yi
+		p *= u
+		s1 += p
+		t1 += p * yi
+		p *= u
+		s2 += p
+		t2 += p * yi
+		p *= u
+		s3 += p
+		p *= u
+		s4 += p
 	}
+	s = [5]float64{s0, s1, s2, s3, s4}
+	t = [3]float64{t0, t1, t2}
 	a := [3][4]float64{{s[0], s[1], s[2], t[0]}, {s[1], s[2], s[3], t[1]}, {s[2], s[3], s[4], t[2]}}
 	tiny := 1e-13 * math.Abs(s[0]+s[2]+s[4])
 	for c := range 3 {

@@ -54,8 +54,8 @@ func TestScatterThirdsAndDrift(t *testing.T) {
 			math.Sqrt((1+0.5625+0.25)/3) / math.Sqrt((0.0625+0+0.0625)/3), true, 2 / math.Sqrt(3.75/7), true},
 	} {
 		var d Departures
-		d.scatterThirds(x, tc.e, nil)
-		d.drift(tc.e, nil, 2)
+		d.scatterThirds(x, tc.e, nil, sizesScale(tc.e, nil), rangeOf)
+		d.drift(tc.e, nil, 2, sizesScale(tc.e, nil))
 		near := func(a, b float64) bool { return math.Abs(a-b) <= 1e-12*math.Max(1, math.Abs(b)) }
 		if !d.KnownScatter || !near(d.ScatterLow, tc.low) || !near(d.ScatterMid, tc.mid) || !near(d.ScatterHigh, tc.high) ||
 			!near(d.ScatterRatio, tc.ratio) || !near(d.ScatterSpread, tc.spread) || d.ScatterMatters != tc.matters {

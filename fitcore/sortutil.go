@@ -376,8 +376,102 @@ func (b *ckSortBuf) order(v []float64) []int32 {
 	for i, a := range v {
 		p1[i] = ckKeyIdx{ckSortKey(a), int32(i)}
 	}
-	for j, e := range ckRadixPairs(p1, p2) {
+	var sorted []ckKeyIdx
+	if n >= ckMSDMin {
+		if b.cnt == nil {
+			b.cnt = make([]int32, 1<<ckMSDBits)
+		}
+		sorted = ckSortPairs(p1, p2, b.cnt)
+	} else {
+		sorted = ckRadixPairs(p1, p2)
+	}
+	for j, e := range sorted {
 		b.idx[j] = e.i
 	}
 	return b.idx
+}
+
+// ckSortPairs is ckRadixPairs the way ckSortKeys sorts keys: one stable
+// counting pass and move by the top 16 bits of the key into tmp, then each
+// bucket stably on the lower 48 bits in the cache (by insertion up to
+// ckInsMax pairs, else by 8-bit counting passes), so that equal keys keep
+// their order and the result is ckRadixPairs's (a stable sort has one
+// answer; the test compares them). It returns the slice that holds the
+// result; cnt is work space of 2^16 counters.
+func ckSortPairs(p, tmp []ckKeyIdx, cnt []int32) []ckKeyIdx {
+	cnt = cnt[:1<<ckMSDBits]
+	clear(cnt)
+	for _, e := range p {
+		cnt[e.k>>(64-ckMSDBits)]++
+	}
+	var sum int32
+	for d, c := range cnt {
+		cnt[d] = sum
+		sum += c
+	}
+	for _, e := range p {
+		d := e.k >> (64 - ckMSDBits)
+		tmp[cnt[d]] = e
+		cnt[d]++
+	}
+	// cnt[d] is now the end of bucket d in tmp.
+	var start int32
+	for _, end := range cnt {
+		if end-start > 1 {
+			ckSortLowPairs(tmp[start:end], p[start:end])
+		}
+		start = end
+	}
+	return tmp
+}
+
+// ckSortLowPairs sorts b, whose keys share their top 16 bits, stably by
+// key in place, using w (same length) as work space.
+func ckSortLowPairs(b, w []ckKeyIdx) {
+	if len(b) <= ckInsMax {
+		for i := 1; i < len(b); i++ {
+			e := b[i]
+			j := i
+			for j > 0 && b[j-1].k > e.k {
+				b[j] = b[j-1]
+				j--
+			}
+			b[j] = e
+		}
+		return
+	}
+	var cnt [ckLowPass][ckLowSize]int32
+	for _, e := range b {
+		k := e.k
+		cnt[0][k&(ckLowSize-1)]++
+		cnt[1][(k>>ckLowBits)&(ckLowSize-1)]++
+		cnt[2][(k>>(2*ckLowBits))&(ckLowSize-1)]++
+		cnt[3][(k>>(3*ckLowBits))&(ckLowSize-1)]++
+		cnt[4][(k>>(4*ckLowBits))&(ckLowSize-1)]++
+		cnt[5][(k>>(5*ckLowBits))&(ckLowSize-1)]++
+	}
+	n := int32(len(b))
+	src, dst := b, w
+	for q := range ckLowPass {
+		sh := uint(q * ckLowBits)
+		c := &cnt[q]
+		if c[(b[0].k>>sh)&(ckLowSize-1)] == n {
+			continue // every key has this digit
+		}
+		var sum int32
+		for d := range c {
+			v := c[d]
+			c[d] = sum
+			sum += v
+		}
+		for _, e := range src {
+			d := (e.k >> sh) & (ckLowSize - 1)
+			dst[c[d]] = e
+			c[d]++
+		}
+		src, dst = dst, src
+	}
+	if &src[0] != &b[0] {
+		copy(b, src)
+	}
 }

@@ -1,6 +1,7 @@
 package fitcore
 
 import (
+	"cmp"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -133,6 +134,64 @@ func BenchmarkSortKeys(b *testing.B) {
 		for b.Loop() {
 			copy(k, keys)
 			ckSortKeys(k, tmp, cnt)
+		}
+	})
+}
+
+// TestSortPairsAgainstRadix: ckSortPairs (the order of x from ckMSDMin
+// readings) gives exactly the pairs of ckRadixPairs, stable for equal keys,
+// and both the order of slices.SortStableFunc on the keys (the reference),
+// on samples with many ties, signed zeros, one bucket, buckets on both
+// sides of ckInsMax, sorted and reversed.
+func TestSortPairsAgainstRadix(t *testing.T) {
+	r := rand.New(rand.NewPCG(17, 2026))
+	gens := []func(i int) float64{
+		func(int) float64 { return r.NormFloat64() },
+		func(int) float64 { return float64(r.IntN(40)) }, // repeats at 40 standards
+		func(i int) float64 { return float64(i%997) + 0.001*float64(i) },
+		func(int) float64 { return 1 + r.Float64()/32 }, // one bucket
+		func(int) float64 { return []float64{0, math.Copysign(0, -1), 1, -1}[r.IntN(4)] },
+		func(i int) float64 { return -float64(i) / 7 },
+		func(int) float64 { return math.Ldexp(1+r.Float64(), r.IntN(2000)-1000) },
+	}
+	cnt := make([]int32, 1<<ckMSDBits)
+	for trial := range 28 {
+		g := gens[trial%len(gens)]
+		n := []int{ckMSDMin, ckMSDMin + 1 + r.IntN(5000), 100000 + r.IntN(100000), 2 * ckMSDMin}[trial%4]
+		p := make([]ckKeyIdx, n)
+		for i := range p {
+			p[i] = ckKeyIdx{ckSortKey(g(i)), int32(i)}
+		}
+		want := slices.Clone(p)
+		slices.SortStableFunc(want, func(a, b ckKeyIdx) int { return cmp.Compare(a.k, b.k) })
+		old := ckRadixPairs(slices.Clone(p), make([]ckKeyIdx, n))
+		got := ckSortPairs(slices.Clone(p), make([]ckKeyIdx, n), cnt)
+		if !slices.Equal(old, want) || !slices.Equal(got, want) {
+			t.Fatalf("trial %d (n = %d): ckRadixPairs equal %v, ckSortPairs equal %v to the stable sort", trial, n, slices.Equal(old, want), slices.Equal(got, want))
+		}
+	}
+}
+
+// BenchmarkSortPairs compares ckRadixPairs with ckSortPairs on the x of
+// 10⁶ readings of the invented benchData record (the order of x).
+func BenchmarkSortPairs(b *testing.B) {
+	x, _, _ := benchData(1000000)
+	p := make([]ckKeyIdx, len(x))
+	for i, v := range x {
+		p[i] = ckKeyIdx{ckSortKey(v), int32(i)}
+	}
+	q, tmp := make([]ckKeyIdx, len(p)), make([]ckKeyIdx, len(p))
+	cnt := make([]int32, 1<<ckMSDBits)
+	b.Run("radix", func(b *testing.B) {
+		for b.Loop() {
+			copy(q, p)
+			ckRadixPairs(q, tmp)
+		}
+	})
+	b.Run("msd", func(b *testing.B) {
+		for b.Loop() {
+			copy(q, p)
+			ckSortPairs(q, tmp, cnt)
 		}
 	})
 }

@@ -64,6 +64,12 @@ func firstBad(v []float64, ok func(float64) bool) int {
 // for TransformNone) or a *DataError naming the first reading the
 // transform cannot take.
 func (t *transformer) apply(x, y []float64) (xt, yt []float64, err error) {
+	return t.applyIn(x, y, nil)
+}
+
+// applyIn is apply with y on the fitted scale written into ybuf when its
+// capacity is at least len(y) (a new slice otherwise).
+func (t *transformer) applyIn(x, y, ybuf []float64) (xt, yt []float64, err error) {
 	xt, yt = x, y
 	if t.kind == TransformNone {
 		return x, y, nil
@@ -78,7 +84,7 @@ func (t *transformer) apply(x, y []float64) (xt, yt []float64, err error) {
 			xt[i] = math.Log(v)
 		}
 	}
-	yt = make([]float64, len(y))
+	yt = ckGrowF64(ybuf, len(y))
 	for i, v := range y {
 		u, ok := t.fwdY(v)
 		if !ok {
