@@ -83,16 +83,8 @@ func ckSpread(name string, x, resid []float64, quad bool, pre *ckPre) Check {
 	return c
 }
 
-// ckSpreadR2 is the R² of the auxiliary regression of v = e² standardized (centred and scaled by its
-// rms) on the basis bs: R² = 1 − SSE/n. ok is false when e² has no spread
-// or a basis member is degenerate.
-func ckSpreadR2(x, resid []float64, bs *ckBasis, quad bool) (float64, bool) {
-	sq := ckNewSqMoments(resid)
-	return ckSpreadR2With(x, resid, bs, quad, &sq, nil)
-}
-
 // ckSqMoments are the largest e², the mean of e² and its root mean
-// square deviation, as ckSpreadR2 takes them.
+// square deviation, as ckSpreadR2With takes them.
 type ckSqMoments struct {
 	big, mean, rms float64
 }
@@ -136,8 +128,11 @@ func (p *ckPre) sqMoments(resid []float64) ckSqMoments {
 	return p.sq
 }
 
-// ckSpreadR2With is ckSpreadR2 with the moments of e² in sq; pre, when not
-// nil, is where sq came from (sqMoments), and keeps the first pass of the
+// ckSpreadR2With is the R² of the auxiliary regression of v = e²
+// standardized (centred and scaled by its rms) on the basis bs,
+// R² = 1 − SSE/n, with the moments of e² in sq (ckNewSqMoments); ok is false
+// when e² has no spread or a basis member is degenerate. pre, when not nil,
+// is where sq came from (sqMoments), and keeps the first pass of the
 // projection for the other of Breusch–Pagan and White.
 func ckSpreadR2With(x, resid []float64, bs *ckBasis, quad bool, sq *ckSqMoments, pre *ckPre) (float64, bool) {
 	n := float64(len(resid))

@@ -83,14 +83,6 @@ const (
 	DriftSizeSD = 1.0
 )
 
-// departures computes every size for the fit of yt on xt (fitted scale)
-// with residuals e and weights w (nil when unweighted). allowed is the
-// largest residual the acceptance criteria allow in y units of the fitted
-// scale (0: none).
-func departures(xt, yt, e, w []float64, origin bool, allowed float64) *Departures {
-	return departuresOf(xt, yt, e, w, origin, allowed, depAll)
-}
-
 // depParts says which of the sizes departuresOf works out; xRange, when
 // set, gives rangeOf of x (from what an analysis keeps about its x).
 type depParts struct {
@@ -100,8 +92,11 @@ type depParts struct {
 
 var depAll = depParts{curvature: true, scatter: true, drift: true}
 
-// departuresOf is departures working out only the parts asked for (the
-// fields of the others stay zero, Known… false).
+// departuresOf computes the sizes for the fit of yt on xt (fitted scale)
+// with residuals e and weights w (nil when unweighted), only the parts
+// asked for (depAll: every one; the fields of the others stay zero, Known…
+// false). allowed is the largest residual the acceptance criteria allow in
+// y units of the fitted scale (0: none).
 func departuresOf(xt, yt, e, w []float64, origin bool, allowed float64, parts depParts) *Departures {
 	d := &Departures{}
 	if parts.curvature {

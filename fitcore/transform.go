@@ -60,15 +60,10 @@ func firstBad(v []float64, ok func(float64) bool) int {
 	return -1
 }
 
-// apply returns the readings on the fitted scale (the inputs themselves
+// applyIn returns the readings on the fitted scale (the inputs themselves
 // for TransformNone) or a *DataError naming the first reading the
-// transform cannot take.
-func (t *transformer) apply(x, y []float64) (xt, yt []float64, err error) {
-	return t.applyIn(x, y, nil)
-}
-
-// applyIn is apply with y on the fitted scale written into ybuf when its
-// capacity is at least len(y) (a new slice otherwise).
+// transform cannot take; y on the fitted scale is written into ybuf when
+// its capacity is at least len(y) (a new slice otherwise).
 func (t *transformer) applyIn(x, y, ybuf []float64) (xt, yt []float64, err error) {
 	xt, yt = x, y
 	if t.kind == TransformNone {
