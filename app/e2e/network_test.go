@@ -28,17 +28,25 @@ import (
 // page is compiled without inlining (Makefile, WASM_GCFLAGS; DEVELOPERS.md,
 // "What app.wasm is made of"), then 11.90 MB with the advice's parallel
 // refits and bucket sort, the long report's paging and the guard for keys
-// typed ahead; the target is 11 MB. A build past it needs a look at what
-// grew; the budgets move up only with what grew named here. wasmServeBudget is the
-// brotli copy `pairline serve` makes at start (quality 5 for large files,
-// app/webapp/compress.go, 2.46 MB); wasmMadeBudget is the issue's 2.1 MB for
-// the quality-11 copy `make wasm-br` writes beside app.wasm (web/app.wasm.br,
-// 2.08 MB), which serve sends when it matches the file (`make browser` makes
-// it).
+// typed ahead, then 12.05 MB on 3 December: the advice's refits at 10⁶
+// readings (fitcore +29.5 kB of code: the refits' own Shapiro–Wilk,
+// influence and Durbin–Watson paths, the blocked Box–Cox grid, a pair sort)
+// and the Shell's split into parts (+3.5 kB) made 12,013,189 bytes. The
+// target is 11 MB. A build past it needs a look at what grew; the budgets
+// move up only with what grew named here. wasmServeBudget is the brotli copy
+// `pairline serve` makes at start (quality 5 for large files,
+// app/webapp/compress.go, 2.46 MB); wasmMadeBudget is for the quality-11
+// copy `make wasm-br` writes beside app.wasm (web/app.wasm.br), which serve
+// sends when it matches the file (`make browser` makes it): the issue's
+// target is 2.1 MB, met until 3 December (2.097 MB), 2.117 MB since the
+// same change. Compiling app/session without inlining would win 20 kB of
+// brotli back, but a 100,000-row import took 4.9 s instead of 4.4 and a
+// 500-session bundle 4.8 s instead of 3.8 (TestCapacity, load about 2), so
+// it stays inlined.
 const (
-	wasmRawBudget   = 11_950_000
+	wasmRawBudget   = 12_050_000
 	wasmServeBudget = 2_500_000
-	wasmMadeBudget  = 2_100_000
+	wasmMadeBudget  = 2_125_000
 )
 
 // app.wasm stays within its raw budget.
