@@ -434,15 +434,8 @@ func (c *Shell) renderPlots() app.UI {
 
 // plotAction applies what the plots card asked for, on the Shell's own
 // context (the card's element may be gone by the time it runs). The reason
-// typed is taken at once, in the handler of its key: through the dispatch,
-// a render between two keys wrote an older text back into the box and the
-// next key came after it (TestPlots, TestRecordCSV and TestA11yField lost
-// letters in 6–7 of 12 runs under load; see DEVELOPERS.md).
+// box keeps its keys while the dispatch is on its way (typing.go).
 func (c *Shell) plotAction(a PlotAction) {
-	if a.Kind == paReason {
-		c.applyPlot(app.Context{}, a)
-		return
-	}
 	c.dispatch(func(ctx app.Context) { c.applyPlot(ctx, a) })
 }
 

@@ -10,6 +10,12 @@ package ui
 // (takenProp), the text the app last took from it or wrote into it; while
 // the box holds something else, keys are on their way and a redraw leaves
 // the box as it is. The waiting input events bring the app's copy up to it.
+//
+// A handler hands what it took to the app through a dispatch, a turn later,
+// so a redraw can also come between the taking and the app's copy holding
+// it. Until the app's copy has reached the text taken (pendingProp), a
+// redraw that would write an older text keeps the box as it is too; once it
+// has, a text the app writes (a box cleared after saving) is shown.
 
 import "github.com/maxence-charriere/go-app/v10/pkg/app"
 
@@ -17,24 +23,39 @@ import "github.com/maxence-charriere/go-app/v10/pkg/app"
 // last took from it (takeTyped) or wrote into it (keepTyped).
 const takenProp = "plTaken"
 
-// takeTyped is what an input handler reads: the box's text, noted as taken.
+// pendingProp is true on an input element from takeTyped until a redraw
+// finds the app's copy equal to the text taken.
+const pendingProp = "plTakenPending"
+
+// takeTyped is what an input handler reads: the box's text, noted as taken
+// and not yet in the app's copy.
 func takeTyped(src app.Value) string {
 	v := src.Get("value").String()
 	src.Set(takenProp, v)
+	src.Set(pendingProp, true)
 	return v
 }
 
 // keepTyped returns the text a redraw gives the input element el: text (the
 // app's copy), unless keys were typed into el since the app last took or
-// wrote its text; then what el holds. An element not yet on the page (not
-// Truthy), or one the app never took from, gets text.
+// wrote its text, or the text last taken has not reached the app's copy
+// yet; then what el holds. An element not yet on the page (not Truthy), or
+// one the app never took from, gets text.
 func keepTyped(el app.Value, text string) string {
 	if !el.Truthy() {
 		return text
 	}
 	live := el.Get("value").String()
-	if taken := el.Get(takenProp); taken.Type() == app.TypeString && live != taken.String() {
-		return live
+	if taken := el.Get(takenProp); taken.Type() == app.TypeString {
+		if live != taken.String() {
+			return live
+		}
+		if el.Get(pendingProp).Truthy() {
+			if text != live {
+				return live // the dispatch with the text taken is still to come
+			}
+			el.Set(pendingProp, false)
+		}
 	}
 	el.Set(takenProp, text) // what this redraw writes: nothing runs before the page has it
 	return text
