@@ -23,12 +23,12 @@ func fmaSame(a, b float64) bool {
 func TestFMAEmulatedIsFMA(t *testing.T) {
 	ulp := func(v float64) float64 { return math.Nextafter(math.Abs(v), math.Inf(1)) - math.Abs(v) }
 	cases := [][3]float64{
-		{1 + 0x1p-52, 1 + 0x1p-52, -1},      // the product's low bits decide
-		{1 + 0x1p-27, 1 - 0x1p-27, -1},      // exact cancellation to −2^-54
-		{1 + 0x1p-52, 1 - 0x1p-52, 0},       // c = 0: the rounded product
-		{3, 1.0 / 3, -1},                    // a tiny residue
-		{0x1p-500, 0x1p-500, 1},             // beyond the range: math.FMA
-		{0x1p901, 1, -1}, {1, 1, 0x1p901},   // beyond the range
+		{1 + 0x1p-52, 1 + 0x1p-52, -1},    // the product's low bits decide
+		{1 + 0x1p-27, 1 - 0x1p-27, -1},    // exact cancellation to −2^-54
+		{1 + 0x1p-52, 1 - 0x1p-52, 0},     // c = 0: the rounded product
+		{3, 1.0 / 3, -1},                  // a tiny residue
+		{0x1p-500, 0x1p-500, 1},           // beyond the range: math.FMA
+		{0x1p901, 1, -1}, {1, 1, 0x1p901}, // beyond the range
 		{0, 5, -0.0}, {math.Copysign(0, -1), 5, 0}, {2, 3, math.NaN()},
 		{math.Inf(1), 0, 1}, {1e300, 1e10, -1e308},
 		{0.1, 10, -1}, {-0.1, 10, 1}, {1 + 0x1p-30, 1 + 0x1p-24, -(1 + 0x1p-24 + 0x1p-30)},
