@@ -618,12 +618,19 @@ func (r *checkRun) influence() {
 		r.inflSummary = influenceSummary(in.xs, in.res, in.w, in.pr, r.origin, r.inflValid, &r.fc.sc.lev)
 	} else {
 		var masks []uint8
-		rep.Influence, masks = influenceRun(in.xs, in.res, in.w, in.pr, r.origin, r.inflValid, true)
+		mode := inflAll
+		if r.fc.opt.FlaggedInfluenceOnly {
+			mode = inflFlagged
+		}
+		rep.Influence, masks = influenceRunWith(in.xs, in.res, in.w, in.pr, r.origin, r.inflValid, mode, nil)
 		r.inflSummary = ckInfluenceFromMasks(masks)
 	}
 	switch {
 	case r.noScatter:
 		ckClearInfluence(rep.Influence)
+		if r.fc.opt.FlaggedInfluenceOnly {
+			rep.Influence = rep.Influence[:0] // none is flagged
+		}
 		r.inflSummary = Assumption{Verdict: NA, Message: NoScatterSentence}
 	case r.n-r.np < MinInfluenceDF:
 		r.inflSummary = ckFewInfluence(r.n, r.np)
@@ -655,7 +662,7 @@ func (fc *fitContext) finishChecks(inflSummary Assumption) {
 	}
 	// The one unit-bearing figure of influence is the raw residual.
 	for i := range rep.Influence {
-		rep.Influence[i].Residual = rep.Residuals[i]
+		rep.Influence[i].Residual = rep.Residuals[rep.Influence[i].Index]
 	}
 	var xa *Assumption
 	if fc.opt.XUncertainty > 0 {

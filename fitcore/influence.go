@@ -100,7 +100,7 @@ func influence(x, resid, w []float64, origin, valid bool) []PointInfluence {
 // lc, when not nil, keeps the leverages' sums of the first unweighted x
 // it is asked about, for the refits of the advice that share that x.
 func influenceSummary(x, resid, w, pr []float64, origin, valid bool, lc *ckLevCache) Assumption {
-	_, masks := influenceRunWith(x, resid, w, pr, origin, valid, false, lc)
+	_, masks := influenceRunWith(x, resid, w, pr, origin, valid, inflMasks, lc)
 	return ckInfluenceFromMasks(masks)
 }
 
@@ -157,12 +157,24 @@ func ckInfluenceFromMasks(masks []uint8) Assumption {
 // made them (math.Sqrt(w[i])·resid[i], the same expression, so the same
 // bits), read instead of being worked out again.
 func influenceRun(x, resid, w, pr []float64, origin, valid, keep bool) (out []PointInfluence, masks []uint8) {
-	return influenceRunWith(x, resid, w, pr, origin, valid, keep, nil)
+	mode := inflMasks
+	if keep {
+		mode = inflAll
+	}
+	return influenceRunWith(x, resid, w, pr, origin, valid, mode, nil)
 }
 
+// What influenceRunWith returns besides the bits of the reasons.
+const (
+	inflMasks   = iota // nothing else
+	inflAll            // every reading's diagnostics
+	inflFlagged        // the diagnostics of the flagged readings only, in input order
+)
+
 // influenceRunWith is influenceRun with the leverages' sums from lc (see
-// influenceSummary).
-func influenceRunWith(x, resid, w, pr []float64, origin, valid, keep bool, lc *ckLevCache) (out []PointInfluence, masks []uint8) {
+// influenceSummary), returning what mode says. Without every reading's
+// diagnostics, a reading that certainly has no reason (quiet) is skipped.
+func influenceRunWith(x, resid, w, pr []float64, origin, valid bool, mode int, lc *ckLevCache) (out []PointInfluence, masks []uint8) {
 	if !valid && ckValidate(x, resid, w, "residual") != "" {
 		return nil, nil
 	}
@@ -179,6 +191,7 @@ func influenceRunWith(x, resid, w, pr []float64, origin, valid, keep bool, lc *c
 		return nil, nil
 	}
 	st := newInfluenceStats(resid, w, pr, float64(n), float64(p))
+	keep := mode == inflAll
 	if keep {
 		out = make([]PointInfluence, n)
 	}
@@ -202,9 +215,12 @@ func influenceRunWith(x, resid, w, pr []float64, origin, valid, keep bool, lc *c
 			masks[i] = m
 			pi.Flagged = true
 			nReasons += bits.OnesCount8(m)
+			if mode == inflFlagged {
+				out = append(out, *pi)
+			}
 		}
 	}
-	if keep && nReasons > 0 {
+	if mode != inflMasks && nReasons > 0 {
 		writeInfluenceReasons(out, masks, nReasons, &st.cut)
 	}
 	return out, masks
@@ -403,8 +419,8 @@ func (st *ckInfluenceStats) deleted(pi *PointInfluence, i int, h float64) {
 // (its bits in masks, nReasons in all) into one buffer.
 func writeInfluenceReasons(out []PointInfluence, masks []uint8, nReasons int, cut *ckInfluenceCuts) {
 	rw := newReasonWriter(nReasons)
-	for i, m := range masks {
-		if m != 0 {
+	for i := range out {
+		if m := masks[out[i].Index]; m != 0 {
 			out[i].Reasons = rw.write(&out[i], m, cut)
 		}
 	}

@@ -136,6 +136,12 @@ type Options struct {
 	// (the two parts that refit the readings several times); Complete adds
 	// them to such a report later.
 	SkipAdvice bool
+	// FlaggedInfluenceOnly keeps in Report.Influence only the readings
+	// Influence flags (each with its Index, in input order) instead of one
+	// entry per reading: every verdict, message and the slipped decimal
+	// point are the same, and a summary of a million readings does not
+	// hold a million entries it never shows (88 bytes each).
+	FlaggedInfluenceOnly bool
 
 	// noSlip: the refit without a slipped decimal point (slipClears) does
 	// not look for another.
@@ -354,7 +360,7 @@ type Report struct {
 
 	Checks      Checks            `json:"checks"`
 	Assumptions Assumptions       `json:"assumptions"`
-	Influence   []PointInfluence  `json:"influence"`
+	Influence   []PointInfluence  `json:"influence"` // one per reading; only the flagged with Options.FlaggedInfluenceOnly
 	BoxCox      *BoxCox           `json:"box_cox"`
 	Advice      *Advice           `json:"advice"`
 	Predictions []Prediction      `json:"predictions"`

@@ -45,8 +45,12 @@ func findSlip(x, y, w []float64, origin bool, infl []PointInfluence) *SlippedDec
 	if n-p-1 < 2 {
 		return nil
 	}
-	best := slipSuspect(infl)
-	if best < 0 || y[best] == 0 {
+	j := slipSuspect(infl)
+	if j < 0 {
+		return nil
+	}
+	best := infl[j].Index // infl may hold the flagged readings only
+	if y[best] == 0 {
 		return nil
 	}
 	fit, half, ok := slipInterval(x, y, w, origin, best, float64(n-1-p))
@@ -61,8 +65,8 @@ func findSlip(x, y, w []float64, origin bool, infl []PointInfluence) *SlippedDec
 	return nil
 }
 
-// slipSuspect is the reading with the smallest outlier p below
-// OutlierWarnP (the first of equals), or −1.
+// slipSuspect is the position in infl of the reading with the smallest
+// outlier p below OutlierWarnP (the first of equals), or −1.
 func slipSuspect(infl []PointInfluence) int {
 	best := -1
 	for i, pi := range infl {

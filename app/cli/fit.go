@@ -519,6 +519,8 @@ func runFit(ff *fitFlags, opt fitcore.Options, stdin io.Reader) (*fitResult, err
 	if err := ff.fitQueries(&opt, res.DecimalComma); err != nil {
 		return nil, err
 	}
+	// The text names only the flagged readings; the JSON has every one.
+	opt.FlaggedInfluenceOnly = !ff.json
 	rep, err := fitcore.Analyze(x, y, opt)
 	if err != nil {
 		return nil, explainFitError(err, lines)
