@@ -301,4 +301,3 @@ func BenchmarkDrift(b *testing.B) {
 		}
 	}
 }
-

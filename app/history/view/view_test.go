@@ -237,3 +237,49 @@ func TestCopiesText(t *testing.T) {
 		}
 	}
 }
+
+// TestInstViewShift: over the whole invented year the probe's intercept
+// steps up by 0.8 mV after month 7 and is level before and after (how the
+// data were generated, history.ScenarioInstruments): it is worded as one
+// shift between the days of months 7 and 8, of about +0.8 mV, with the
+// levels 0.5 and 1.3 mV inside a few standard errors, with the warning to
+// look for what changed and no projected day of leaving a limit (the
+// records set intercept limits, so a line through the step would have
+// been projected to leave the upper one). The probe's slope, flat, stays
+// "no drift shown", and the analyser's slope, a real trend, stays drifting
+// (TestInstViewScenario).
+func TestInstViewShift(t *testing.T) {
+	v, err := Build(instSums(t, nil), instStart.AddDate(0, 11, 10))
+	if err != nil {
+		t.Fatal(err)
+	}
+	it := instByKey(t, v)["LVWB-EC-03"]
+	if s := it.Drift[0]; s.Status != fitcore.DriftSteady {
+		t.Errorf("probe slope: %s: %s", s.Status, s.Text)
+	}
+	d := it.Drift[1]
+	if d.Status != fitcore.DriftShifted {
+		t.Fatalf("probe intercept: %s: %s", d.Status, d.Text)
+	}
+	m7, m8 := instStart.AddDate(0, 6, 0), instStart.AddDate(0, 7, 0)
+	if !d.StepFrom.Equal(it.Rows[6].Taken) || !d.StepTo.Equal(it.Rows[7].Taken) || Day(d.StepFrom) != Day(m7) || Day(d.StepTo) != Day(m8) {
+		t.Errorf("step between %v and %v, want the days of months 7 and 8 (%s, %s)", d.StepFrom, d.StepTo, Day(m7), Day(m8))
+	}
+	if math.Abs(d.Step-0.8) > 4*d.StepSE || math.Abs(d.Before-0.5) > 0.1 || math.Abs(d.After-1.3) > 0.1 || !(d.StepP < fitcore.DriftAlpha) {
+		t.Errorf("step %.4g ± %.2g from %.4g to %.4g (p %.2g), want about +0.8 from 0.5 to 1.3", d.Step, d.StepSE, d.Before, d.After, d.StepP)
+	}
+	for _, want := range []string{"Intercept shifted once, between " + Day(m7) + " and " + Day(m8) + ", by +0.", " mV", "no date of leaving a limit is projected"} {
+		if !strings.Contains(d.Text, want) {
+			t.Errorf("text %q lacks %q", d.Text, want)
+		}
+	}
+	if !strings.Contains(d.StepAlert, "Find what changed then") || !strings.Contains(d.StepAlert, "maker's procedure") {
+		t.Errorf("alert %q", d.StepAlert)
+	}
+	if d.Leaves != "" || !d.LeavesAt.IsZero() || strings.Contains(it.Leaves, "intercept") || strings.Contains(d.Text, "drifting") {
+		t.Errorf("a step projected or called drifting: %q / %q / %q", d.Text, d.Leaves, it.Leaves)
+	}
+	if DriftWord(d.Status) != "shifted once" {
+		t.Errorf("word %q", DriftWord(d.Status))
+	}
+}
