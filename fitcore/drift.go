@@ -100,7 +100,12 @@ type DriftResult struct {
 // each split's F has its exact F distribution, and the bound keeps the
 // chance of a false step at or below DriftAlpha whatever the times and
 // weights, where a critical value simulated for one design would not carry
-// over to another (it is conservative: the splits' F are correlated).
+// over to another. It is conservative, the splits' F being correlated, but
+// little at this level: for 12 equally spaced, equally weighted
+// calibrations the 99th percentile of the largest F over the line among
+// the 9 splits is 21.9 by simulation (200,000 trials, measured once; see
+// DEVELOPERS.md) against Bonferroni's 22.1, that of the largest F against
+// one level 19.6 against 20.4.
 // Status is DriftShifted, in place of DriftDrifting or DriftSteady, when
 // the step leaves less scatter than the line (its s is smaller, both on
 // N − 2 df) and both adjusted p are below DriftAlpha: the step explains

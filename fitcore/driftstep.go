@@ -32,6 +32,12 @@ type DriftStep struct {
 	LevelAfter, LevelAfterSE   float64
 	Size, SizeSE               float64
 	Sigma                      float64
+	// BetterThanLine: the step leaves less scatter than the straight line
+	// (Sigma below DriftResult.Sigma, both on N − 2 df). Without a called
+	// step it says that a jump would explain the values at least as well
+	// as the trend, which the data cannot tell apart (a hint, not a
+	// verdict).
+	BetterThanLine bool
 
 	// Splits is how many places the step was looked for. F is the step
 	// against one constant level (1 and N − 2 df), FOverTrend the step
@@ -183,11 +189,15 @@ func fRatio(num, den float64) float64 {
 	return num / den
 }
 
-// shifted is the step verdict: the step leaves less scatter than the line
-// (Sigma below the line's, both on N − 2 df), it is significant against one
-// level (P < DriftAlpha) and it adds significantly to the line
+// shifted sets BetterThanLine and gives the step verdict: the step leaves
+// less scatter than the line, it is significant against one level
+// (P < DriftAlpha) and it adds significantly to the line
 // (POverTrend < DriftAlpha), both after the Bonferroni allowance for the
 // search.
 func (st *DriftStep) shifted(lineSigma float64) bool {
-	return st != nil && st.Sigma < lineSigma && st.P < DriftAlpha && st.POverTrend < DriftAlpha
+	if st == nil {
+		return false
+	}
+	st.BetterThanLine = st.Sigma < lineSigma
+	return st.BetterThanLine && st.P < DriftAlpha && st.POverTrend < DriftAlpha
 }

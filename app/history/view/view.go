@@ -548,6 +548,11 @@ func wordDrift(which string, r *fitcore.DriftResult, unit string, origin time.Ti
 	rate := numfmt.Sig(d.PerMonth, 2) + u + " per month (" + lvl + " % interval " + numfmt.Sig(d.Low, 2) + " to " + numfmt.Sig(d.High, 2) + ")"
 	if r.Status == fitcore.DriftDrifting {
 		d.Text = name + " is drifting: " + rate + "; " + numfmt.PEq(r.P) + " for no drift, over " + strconv.Itoa(r.N) + " accepted calibrations."
+		if st := r.Step; st != nil && st.BetterThanLine && st.Before < len(days) && st.After < len(days) {
+			// fitcore could not tell a jump from the trend: say so.
+			d.Text += " A single jump between " + Day(days[st.Before]) + " and " + Day(days[st.After]) +
+				" would explain these values at least as well; if the instrument was repaired, adjusted or given new standards then, do not plan for steady wear."
+		}
 	} else {
 		d.Text = name + ": no drift shown: " + rate + "; " + numfmt.PEq(r.P) + " for no drift, over " + strconv.Itoa(r.N) + " accepted calibrations."
 	}

@@ -283,3 +283,43 @@ func TestInstViewShift(t *testing.T) {
 		t.Errorf("word %q", DriftWord(d.Status))
 	}
 }
+
+// TestWordDriftJumpHint: invented monthly values, level, then 5 se higher
+// from month 7 on, with a fixed wobble of up to 2 se: too close to call
+// between a step and a line (fitcore says drifting, and that the step
+// leaves less scatter), so the words add that a single jump between the
+// days of months 6 and 7 would explain them at least as well. The
+// analyser's slope in the invented scenario, a clear trend, gets no such
+// hint.
+func TestWordDriftJumpHint(t *testing.T) {
+	wobble := []float64{1, -1, 2, 0, -2, 1, -1, 0, 2, -1, 1, -2}
+	tm, v, se := make([]float64, 12), make([]float64, 12), make([]float64, 12)
+	days := make([]time.Time, 12)
+	for i := range tm {
+		days[i] = instStart.AddDate(0, i, 0)
+		tm[i] = history.Years(days[i].Sub(instStart))
+		se[i] = 0.01
+		v[i] = 1.5 + 0.01*wobble[i]
+		if i >= 6 {
+			v[i] += 0.052
+		}
+	}
+	r, err := fitcore.Drift(tm, v, se, 0.95, nil, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Status != fitcore.DriftDrifting || r.Step == nil || !r.Step.BetterThanLine || r.Step.NBefore != 6 {
+		t.Fatalf("the invented values no longer fall between the verdicts: %s, step %+v", r.Status, r.Step)
+	}
+	d := wordDrift("intercept", r, "mV", instStart, false, days)
+	if want := "A single jump between " + Day(days[5]) + " and " + Day(days[6]) + " would explain these values at least as well"; !strings.Contains(d.Text, want) || !strings.Contains(d.Text, "Intercept is drifting") {
+		t.Errorf("text %q lacks %q", d.Text, want)
+	}
+	v2, err := Build(instSums(t, nil), instStart.AddDate(0, 11, 10))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s := instByKey(t, v2)["LVWB-CL-02"].Drift[0]; s.Status != fitcore.DriftDrifting || strings.Contains(s.Text, "single jump") {
+		t.Errorf("analyser slope: %s: %s", s.Status, s.Text)
+	}
+}
