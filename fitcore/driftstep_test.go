@@ -303,24 +303,33 @@ func ExampleDrift() {
 	// shifted by 0.058 ± 0.004 between t = 0.417 and 0.500 (p = 7e-07); projected: false
 }
 
-// BenchmarkDrift: the line and the step search over MaxDriftPoints
-// calibrations given out of time order (the sort is linear).
+// BenchmarkDrift: the line and the step search over 1,000 to
+// MaxDriftPoints calibrations, given in time order and out of it (the
+// sort is linear: a radix sort from 512 calibrations); timings in
+// DEVELOPERS.md.
 func BenchmarkDrift(b *testing.B) {
-	n := fitcore.MaxDriftPoints
-	r := rand.New(rand.NewPCG(1, 2))
-	tm, v, se := make([]float64, n), make([]float64, n), make([]float64, n)
-	for i := range tm {
-		tm[i] = 10 * r.Float64()
-		se[i] = 0.01
-		v[i] = 1 + 0.01*r.NormFloat64()
-		if tm[i] > 6 {
-			v[i] += 0.02
-		}
-	}
-	b.ResetTimer()
-	for range b.N {
-		if _, err := fitcore.Drift(tm, v, se, 0.95, nil, nil); err != nil {
-			b.Fatal(err)
+	for _, n := range []int{1000, 10_000, fitcore.MaxDriftPoints} {
+		for _, sorted := range []bool{true, false} {
+			r := rand.New(rand.NewPCG(1, 2))
+			tm, v, se := make([]float64, n), make([]float64, n), make([]float64, n)
+			for i := range tm {
+				tm[i] = 10 * r.Float64()
+				if sorted {
+					tm[i] = 10 * float64(i) / float64(n)
+				}
+				se[i] = 0.01
+				v[i] = 1 + 0.01*r.NormFloat64()
+				if tm[i] > 6 {
+					v[i] += 0.02
+				}
+			}
+			b.Run(fmt.Sprintf("n=%d/sorted=%v", n, sorted), func(b *testing.B) {
+				for range b.N {
+					if _, err := fitcore.Drift(tm, v, se, 0.95, nil, nil); err != nil {
+						b.Fatal(err)
+					}
+				}
+			})
 		}
 	}
 }

@@ -607,6 +607,10 @@ func writeCharts(b *strings.Builder, i int, in *history.Instrument, opt history.
 			Label: fmt.Sprintf("%s of %s against time: each calibration with its interval, the fitted trend (%s) and the limits given.",
 				titleCase(c.name), wording.Visible(instName(in)), c.r.Status),
 		}
+		if c.r.Status == fitcore.DriftShifted {
+			ch.Label = fmt.Sprintf("%s of %s against time: each calibration with its interval, the levels before and after a step, and the limits given.",
+				titleCase(c.name), wording.Visible(instName(in)))
+		}
 		var tmax float64
 		nacc, nrej := 0, 0
 		for k := range in.Entries {

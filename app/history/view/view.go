@@ -136,8 +136,8 @@ type Drift struct {
 	Which                        string // "slope", "intercept"
 	Status                       string // fitcore.DriftTooFew, DriftSteady, DriftDrifting, DriftShifted, or "not fitted: …"
 	N                            int
-	PerMonth, Low, High          float64
-	P                            float64
+	PerMonth, Low, High          float64 // 0 for a step
+	P                            float64 // of the rate; for a step, the step's (StepP)
 	Text                         string
 	Leaves                       string
 	LeavesAt, LeavesLo, LeavesHi time.Time
@@ -580,6 +580,7 @@ func wordDrift(which string, r *fitcore.DriftResult, unit string, origin time.Ti
 // what to do; no date of leaving a limit is projected from it.
 func wordStep(d Drift, name string, r *fitcore.DriftResult, unit string, days []time.Time) Drift {
 	st := r.Step
+	d.P = st.P
 	d.StepFrom, d.StepTo = days[st.Before], days[st.After]
 	d.Before, d.After, d.Step, d.StepSE, d.StepP = st.LevelBefore, st.LevelAfter, st.Size, st.SizeSE, st.P
 	u := unitSuffix(unit)
