@@ -66,10 +66,13 @@ type DriftStep struct {
 //
 // (the second by projecting z on the line's columns first: the
 // Frisch–Waugh–Lovell theorem, e.g. Davidson & MacKinnon, "Econometric
-// Theory and Methods", §2.4; from memory). Each is a difference of prefix
-// sums over the sorted order, so every split costs O(1). The best split
-// minimises RSS_step (ties: the earliest); its figures are then worked out
-// again directly, in two passes, for their digits.
+// Theory and Methods", §2.4; from memory). The search needs only
+// RSS_step, a difference of prefix sums over the sorted order, so every
+// split costs O(1); the best split minimises it (ties: the earliest). At
+// that split alone the levels, RSS_step and the line-plus-step fit (its
+// residuals e − γ·z̃, γ = E_a/Q_a, z̃ the indicator's residual on the
+// line's columns) are then worked out directly, in two passes, for their
+// digits.
 func (d *driftLine) driftStep(t, v []float64) *DriftStep {
 	n := len(t)
 	if n < DriftStepMin {
@@ -77,9 +80,9 @@ func (d *driftLine) driftStep(t, v []float64) *DriftStep {
 	}
 	var buf ckSortBuf
 	ord := buf.order(t)
-	// Prefix sums over the sorted order of w, w·(v−v̄); the search needs
-	// no more.
-	var sw, sv, svv float64
+	// Prefix sums over the sorted order of w and w·(v−v̄); the search
+	// needs no more.
+	var sw, sv float64
 	best, bestGain, splits := -1, math.Inf(-1), 0
 	distinct := 1
 	for j := 1; j < n; j++ {
@@ -87,7 +90,6 @@ func (d *driftLine) driftStep(t, v []float64) *DriftStep {
 		dv := v[i] - d.vb
 		sw += d.w[i]
 		sv += d.w[i] * dv
-		svv += d.w[i] * dv * dv
 		if t[ord[j]] == t[i] {
 			continue
 		}
@@ -178,15 +180,16 @@ func (d *driftLine) stepAt(t, v []float64, ord []int32, j, splits int) *DriftSte
 }
 
 // fRatio is num/den for an F statistic: 0 when num ≤ 0 (rounding in a
-// difference of sums), +Inf for an exact fit (den = 0).
+// difference of sums), math.MaxFloat64 for an exact fit (den = 0), as
+// lnRatio keeps a perfect fit without a non-finite number.
 func fRatio(num, den float64) float64 {
 	if !(num > 0) {
 		return 0
 	}
-	if den <= 0 {
-		return math.Inf(1)
+	if !(den > 0) {
+		return math.MaxFloat64
 	}
-	return num / den
+	return math.Min(num/den, math.MaxFloat64)
 }
 
 // shifted sets BetterThanLine and gives the step verdict: the step leaves

@@ -119,6 +119,11 @@ func TestDriftStepEdges(t *testing.T) {
 			if r.Step == nil {
 				return
 			}
+			for _, f := range []float64{r.Step.F, r.Step.FOverTrend, r.Step.P, r.Step.POverTrend, r.Step.Sigma, r.Step.SizeSE} {
+				if math.IsNaN(f) || math.IsInf(f, 0) {
+					t.Errorf("a figure that is not finite: %+v", r.Step)
+				}
+			}
 			if r.Step.NBefore < fitcore.DriftStepSide || r.Step.NAfter < fitcore.DriftStepSide {
 				t.Errorf("a side with fewer than %d: %+v", fitcore.DriftStepSide, r.Step)
 			}
