@@ -480,15 +480,15 @@ func ckSafeScaleFinite(v []float64) (k float64, finite bool) {
 	i := 0
 	for ; i+4 <= len(v); i += 4 {
 		a, b, c, d := v[i], v[i+1], v[i+2], v[i+3]
-		m0 = max(m0, math.Abs(a))
-		m1 = max(m1, math.Abs(b))
-		m2 = max(m2, math.Abs(c))
-		m3 = max(m3, math.Abs(d))
+		m0 = absMax(m0, a)
+		m1 = absMax(m1, b)
+		m2 = absMax(m2, c)
+		m3 = absMax(m3, d)
 		s0 += a*0 + c*0
 		s1 += b*0 + d*0
 	}
 	for ; i < len(v); i++ {
-		m0 = max(m0, math.Abs(v[i]))
+		m0 = absMax(m0, v[i])
 		s0 += v[i] * 0
 	}
 	return ckScaleOfMax(max(max(m0, m1), max(m2, m3))), s0+s1 == 0
@@ -759,13 +759,13 @@ func ckSafeScale(v []float64) float64 {
 	var m0, m1, m2, m3 float64
 	i := 0
 	for ; i+4 <= len(v); i += 4 {
-		m0 = max(m0, math.Abs(v[i]))
-		m1 = max(m1, math.Abs(v[i+1]))
-		m2 = max(m2, math.Abs(v[i+2]))
-		m3 = max(m3, math.Abs(v[i+3]))
+		m0 = absMax(m0, v[i])
+		m1 = absMax(m1, v[i+1])
+		m2 = absMax(m2, v[i+2])
+		m3 = absMax(m3, v[i+3])
 	}
 	for ; i < len(v); i++ {
-		m0 = max(m0, math.Abs(v[i]))
+		m0 = absMax(m0, v[i])
 	}
 	return ckScaleOfMax(max(max(m0, m1), max(m2, m3)))
 }

@@ -225,8 +225,8 @@ func bcNewProfile(x, y []float64) (*bcProfile, error) {
 	p.wMin, p.wMax = math.Inf(1), math.Inf(-1)
 	for i := range p.w {
 		p.w[i] -= my
-		p.wMin = min(p.wMin, p.w[i])
-		p.wMax = max(p.wMax, p.w[i])
+		p.wMin = ckMin(p.wMin, p.w[i])
+		p.wMax = ckMax(p.wMax, p.w[i])
 	}
 	if p.wMax-p.wMin == 0 {
 		return nil, fmt.Errorf("%w (all %d are %v), so the Box–Cox power cannot be estimated", ErrNoSpreadInY, n, y[0])

@@ -96,7 +96,7 @@ func ckNewSqMoments(resid []float64) ckSqMoments {
 	var m ckSqMoments
 	var mean float64
 	for _, e := range resid {
-		m.big = max(m.big, e*e)
+		m.big = posMax(m.big, e*e)
 		mean += e * e
 	}
 	n := float64(len(resid))

@@ -231,7 +231,7 @@ func ckWeightScale(w []float64) float64 {
 	}
 	var mw float64
 	for _, v := range w {
-		mw = max(mw, v)
+		mw = posMax(mw, v)
 	}
 	if !(mw > 0) || !ckFinite(mw) {
 		return 1

@@ -245,3 +245,40 @@ func ckLineCoef(x, y, w []float64, origin bool) (b0, b1 float64, ok bool) {
 	b1 = sxy / sxx
 	return my - b1*mx, b1, true
 }
+
+// absMax is max(m, |v|) for a running maximum m that starts at +0: the
+// value of the builtin max, a NaN in v carrying through and staying, but
+// as a comparison the compiler keeps in the loop (on WebAssembly the
+// builtin max of two floats is a call into the runtime, which a loop over
+// every reading pays once per value).
+func absMax(m, v float64) float64 {
+	return posMax(m, math.Abs(v))
+}
+
+// posMax is max(m, v) for a running maximum m that starts at +0 and only
+// grows (so it is never −0): v when v > m or v is a NaN, else m. A NaN m
+// stays, as with max.
+func posMax(m, v float64) float64 {
+	if v > m || v != v {
+		return v
+	}
+	return m
+}
+
+// ckMin and ckMax are the builtin min and max of two floats (a NaN wins,
+// min(−0, +0) = −0, max(−0, +0) = +0) as comparisons, for loops over
+// every reading (on WebAssembly the builtins are a call into the runtime).
+func ckMin(a, b float64) float64 {
+	if b < a || b != b || (b == a && math.Signbit(b)) {
+		return b
+	}
+	return a
+}
+
+// ckMax: see ckMin.
+func ckMax(a, b float64) float64 {
+	if b > a || b != b || (b == a && !math.Signbit(b)) {
+		return b
+	}
+	return a
+}

@@ -77,7 +77,7 @@ func fitDeming(x, y []float64, delta float64) (*lineFit, error) {
 	}
 	k := (nf - 1) / nf
 	f.v1, f.va, f.cab = k*vb.val(), k*va.val(), k*cab.val()
-	f.b0 = math.FMA(-b1, f.xc, f.a)
+	f.b0 = ckFMA(-b1, f.xc, f.a)
 	f.sse = f.residualSS(x, y)
 	f.df = nf - 2
 	return f, nil

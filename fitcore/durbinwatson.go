@@ -256,7 +256,7 @@ func ckDWBetaCDF(d, mean, variance float64) (float64, bool) {
 func ckDWStat(e []float64) (float64, bool) {
 	var big float64
 	for _, v := range e {
-		big = max(big, math.Abs(v))
+		big = absMax(big, v)
 	}
 	if big == 0 {
 		return 0, false
@@ -336,7 +336,7 @@ func dwRootWeights(w []float64) func(int) float64 {
 func dwNormalize(v []float64) float64 {
 	var big float64
 	for _, a := range v {
-		big = max(big, math.Abs(a))
+		big = absMax(big, a)
 	}
 	if big == 0 || !ckFinite(big) {
 		return 0
@@ -358,7 +358,7 @@ func dwNormalize(v []float64) float64 {
 func dwOriginColumn(x []float64, sw func(int) float64, u []float64) ([]float64, bool) {
 	var big float64
 	for _, v := range x {
-		big = max(big, math.Abs(v))
+		big = absMax(big, v)
 	}
 	if big == 0 || !ckFinite(big) {
 		return nil, false
@@ -404,7 +404,7 @@ func dwLineColumns(x []float64, sw func(int) float64, u1, u2 []float64) ([]float
 		u1[t] = st
 		a := st * ((v - m) / s)
 		u2[t] = a
-		big1 = max(big1, math.Abs(st))
+		big1 = absMax(big1, st)
 		before += a * a
 	}
 	nrm1, ok := dwNorm(u1, big1)
@@ -425,7 +425,7 @@ func dwLineColumns(x []float64, sw func(int) float64, u1, u2 []float64) ([]float
 	for t, a := range u1 {
 		u2[t] -= dot2 * a
 		after += u2[t] * u2[t]
-		big2 = max(big2, math.Abs(u2[t]))
+		big2 = absMax(big2, u2[t])
 	}
 	if !(math.Sqrt(after) > 1e-10*math.Sqrt(before)) {
 		return nil, nil, false

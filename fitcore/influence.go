@@ -232,7 +232,7 @@ func newInfluenceStats(resid, w, pr []float64, nf, pf float64) ckInfluenceStats 
 		st.pr = pr
 	}
 	for i := range resid {
-		st.big = max(st.big, math.Abs(st.r(i)))
+		st.big = absMax(st.big, st.r(i))
 	}
 	if st.big > 0 {
 		for i := range resid {
@@ -558,7 +558,7 @@ func ckNewLeverage(x, w []float64, origin bool) (ckLev, bool) {
 	l := ckLev{x: x, w: w, origin: origin}
 	if origin {
 		for _, v := range x {
-			l.big = max(l.big, math.Abs(v))
+			l.big = absMax(l.big, v)
 		}
 		if l.big == 0 {
 			return l, false

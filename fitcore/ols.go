@@ -142,10 +142,10 @@ func fitLine(f *lineFit, x, y, w []float64, origin bool) error {
 	// the readings scaled by powers of two and the sums taken again.
 	var mx, my, mw float64
 	for i := range x {
-		mx = max(mx, math.Abs(x[i]))
-		my = max(my, math.Abs(y[i]))
+		mx = absMax(mx, x[i])
+		my = absMax(my, y[i])
 		if w != nil {
-			mw = max(mw, w[i])
+			mw = posMax(mw, w[i])
 		}
 	}
 	cw := 1.0
@@ -210,14 +210,14 @@ func fitSmall(f *lineFit, x, y []float64, origin bool) (done bool, err error) {
 	xc, yc := xbar, ybar
 	b0g := 0.0
 	if !origin {
-		b0g = math.FMA(-b1, xc, yc)
+		b0g = ckFMA(-b1, xc, yc)
 	} else {
 		xc, yc = 0, 0
 	}
 	var be, bde, bee, bd float64
 	for i, xi := range x {
 		dx := xi - xc
-		r := math.FMA(-b1, dx, y[i]-yc)
+		r := ckFMA(-b1, dx, y[i]-yc)
 		be += r
 		bde += dx * r
 		bee += r * r
@@ -404,7 +404,7 @@ func (f *lineFit) refine(x, y []float64) {
 	kx, ky, xc, yc, b1 := f.kx, f.ky, f.xc, f.a, f.b1
 	b0g := 0.0
 	if !f.origin {
-		b0g = math.FMA(-b1, xc, yc)
+		b0g = ckFMA(-b1, xc, yc)
 	} else {
 		xc, yc = 0, 0
 	}
@@ -415,7 +415,7 @@ func (f *lineFit) refine(x, y []float64) {
 		if f.w == nil {
 			for i := s; i < e; i++ {
 				dx := x[i]*kx - xc
-				r := math.FMA(-b1, dx, y[i]*ky-yc)
+				r := ckFMA(-b1, dx, y[i]*ky-yc)
 				be += r
 				bde += dx * r
 				bee += r * r
@@ -424,7 +424,7 @@ func (f *lineFit) refine(x, y []float64) {
 		} else {
 			for i := s; i < e; i++ {
 				dx := x[i]*kx - xc
-				r := math.FMA(-b1, dx, y[i]*ky-yc)
+				r := ckFMA(-b1, dx, y[i]*ky-yc)
 				ww := f.w[i]
 				wr := ww * r
 				be += wr

@@ -110,7 +110,7 @@ func (fc *fitContext) predictions() {
 func rangeOf(v []float64) (lo, hi float64) {
 	lo, hi = v[0], v[0]
 	for _, a := range v[1:] {
-		lo, hi = min(lo, a), max(hi, a)
+		lo, hi = ckMin(lo, a), ckMax(hi, a)
 	}
 	return lo, hi
 }

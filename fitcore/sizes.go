@@ -294,7 +294,7 @@ func curvRangeMean(x, w []float64) (lo, hi, m float64) {
 	lo, hi = x[0], x[0]
 	var sw, swx float64
 	for i, v := range x {
-		lo, hi = min(lo, v), max(hi, v)
+		lo, hi = ckMin(lo, v), ckMax(hi, v)
 		sw += ckW(w, i)
 		swx += ckW(w, i) * v
 	}

@@ -421,7 +421,10 @@ func plReportSpeed(t *testing.T, b *browser, n int) {
 	if got := listed(); got != plReportRowsAtOnce {
 		t.Errorf("%d readings: the report on the screen lists %d readings, want the first %d", n, got, plReportRowsAtOnce)
 	}
-	if got, want := textOf(t, b, "report-readings-all"), fmt.Sprintf("Show all %d readings", n); got != want {
+	// Counts from 10,000 up are grouped by threes with a narrow no-break
+	// space (ISO 80000-1 §7.3.1).
+	count := map[int]string{1000: "1000", 10000: "10\u202f000"}[n]
+	if got, want := textOf(t, b, "report-readings-all"), "Show all "+count+" readings"; got != want {
 		t.Errorf("the report's button says %q, want %q", got, want)
 	}
 	b.do(t, chromedp.ScrollIntoView(sel("report-readings-more")))

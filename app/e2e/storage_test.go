@@ -125,8 +125,10 @@ func TestCapacity(t *testing.T) {
 	}
 	// Every reading is in the session: the file is the reference.
 	waitFor(t, b, "the line from every pair", `tid("result-n")?.dataset.value === "100000"`, 60*time.Second)
-	if got := textOf(t, b, "page-info"); !strings.Contains(got, "of 100000") {
-		t.Errorf("page-info %q, want … of 100000", got)
+	// (Counts from 10,000 up are grouped by threes with a narrow space,
+	// ISO 80000-1 §7.3.1: numfmt.Count.)
+	if got := textOf(t, b, "page-info"); !strings.Contains(got, "of 100\u202f000") {
+		t.Errorf("page-info %q, want … of 100 000 (a narrow no-break space between the groups)", got)
 	}
 	if got := valueOf(t, b, "x-input-0"); got != "0,20000" {
 		t.Errorf("first x = %q, want 0,20000 as written in the file", got)

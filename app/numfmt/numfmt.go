@@ -232,3 +232,32 @@ func Precision(maxDigits int) int {
 	}
 	return p
 }
+
+// Count writes a count of things (readings, sessions, cells) in digits,
+// grouped by threes with a narrow no-break space (U+202F) from 10,000 up:
+// "9999", "10 000", "1 250 000". A space and not a comma or a point,
+// because a session may write its decimals with either (ISO 80000-1,
+// §7.3.1, and the SI brochure, §5.4.4: digits in groups of three separated
+// by a small space, never by a point or a comma; four digits may stay
+// together). A negative count has the minus sign U+2212.
+func Count(n int) string {
+	if n < 0 {
+		return "−" + Count(-n)
+	}
+	s := strconv.Itoa(n)
+	if len(s) <= 4 {
+		return s
+	}
+	var b strings.Builder
+	b.Grow(len(s) + 3*(len(s)-1)/3)
+	lead := len(s) % 3
+	if lead == 0 {
+		lead = 3
+	}
+	b.WriteString(s[:lead])
+	for i := lead; i < len(s); i += 3 {
+		b.WriteString("\u202f")
+		b.WriteString(s[i : i+3])
+	}
+	return b.String()
+}

@@ -201,3 +201,28 @@ func BenchmarkDigitsOfByCopy(b *testing.B) {
 		_ = digitsOfByCopy("12.345") + digitsOfByCopy("0.00412")
 	}
 }
+
+// TestCount: groups of three from five digits on, the separator the narrow
+// no-break space of ISO 80000-1 §7.3.1 (common practice for four digits:
+// left together).
+func TestCount(t *testing.T) {
+	const s = "\u202f"
+	for _, c := range []struct {
+		n    int
+		want string
+	}{
+		{0, "0"}, {7, "7"}, {999, "999"}, {1000, "1000"}, {9999, "9999"},
+		{10000, "10" + s + "000"}, {100000, "100" + s + "000"}, {250000, "250" + s + "000"},
+		{1234567, "1" + s + "234" + s + "567"}, {10000000, "10" + s + "000" + s + "000"},
+		{-12345, "−12" + s + "345"},
+	} {
+		if got := Count(c.n); got != c.want {
+			t.Errorf("Count(%d) = %q, want %q", c.n, got, c.want)
+		}
+	}
+}
+
+func ExampleCount() {
+	fmt.Println(strings.ReplaceAll(Count(10000), "\u202f", "_"), Count(2500))
+	// Output: 10_000 2500
+}

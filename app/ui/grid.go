@@ -6,6 +6,7 @@ import (
 
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
+	"pairline/app/numfmt"
 	"pairline/app/session"
 	"pairline/app/wording"
 )
@@ -71,7 +72,7 @@ func (c *Shell) pager(lo, hi int) app.UI {
 	return app.Div().Class("pl-pager").Body(
 		app.Button().Class("pl-btn pl-btn-quiet").Text("‹ Previous").DataSet("testid", "page-prev").
 			Disabled(lo == 0).OnClick(func(ctx app.Context, e app.Event) { c.page--; c.resyncInputs() }),
-		app.Span().DataSet("testid", "page-info").Text("Readings "+strconv.Itoa(lo+1)+"–"+strconv.Itoa(hi)+" of "+strconv.Itoa(n)),
+		app.Span().DataSet("testid", "page-info").Text("Readings "+numfmt.Count(lo+1)+"–"+numfmt.Count(hi)+" of "+numfmt.Count(n)),
 		app.Button().Class("pl-btn pl-btn-quiet").Text("Next ›").DataSet("testid", "page-next").
 			Disabled(hi >= n).OnClick(func(ctx app.Context, e app.Event) { c.page++; c.resyncInputs() }),
 	)
@@ -88,7 +89,7 @@ func colHead(name, unit, fallback string) string {
 }
 
 func countText(usable, problems int) string {
-	t := strconv.Itoa(usable) + " usable pair"
+	t := numfmt.Count(usable) + " usable pair"
 	if usable != 1 {
 		t += "s"
 	}
@@ -97,7 +98,7 @@ func countText(usable, problems int) string {
 	case 1:
 		t += " · 1 cell needs attention"
 	default:
-		t += " · " + strconv.Itoa(problems) + " cells need attention"
+		t += " · " + numfmt.Count(problems) + " cells need attention"
 	}
 	return t
 }

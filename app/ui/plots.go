@@ -319,7 +319,7 @@ func plCount(n int, word string) string {
 	if n == 1 {
 		return "1 " + word
 	}
-	return strconv.Itoa(n) + " " + word + "s"
+	return numfmt.Count(n) + " " + word + "s"
 }
 
 // plVerdictOf names a check with its verdict: "“Even scatter”: Check".

@@ -364,7 +364,7 @@ func rpLine(b *rpB, s *session.Session, rep *fitcore.Report) {
 	fig := func(name string, v float64, shown string) {
 		b.w(`<tr><th scope="row">`, rpEsc(name), `</th><td>`, rpNum(v, shown), `</td></tr>`)
 	}
-	fig(wording.PairsUsed, float64(rep.N), strconv.Itoa(rep.N))
+	fig(wording.PairsUsed, float64(rep.N), numfmt.Count(rep.N))
 	fig(wording.CorrelationR, rep.R, numfmt.Decimals(rep.R, 6))
 	fig(wording.RSquared, rep.RSquared, numfmt.Decimals(rep.RSquared, 6))
 	fig(wording.AdjRSquared, rep.AdjRSquared, numfmt.Decimals(rep.AdjRSquared, 6))
@@ -523,7 +523,7 @@ func rpReadings(b *rpB, s *session.Session, rep *fitcore.Report, rows []int, v r
 	}
 	rpReadingRows(b, s, rep, rows, 0, shown)
 	b.w(`</tbody><tbody data-testid="report-readings-rest" data-from="`, strconv.Itoa(shown), `"></tbody></table>`,
-		`<p class="pl-report-more" data-testid="report-readings-more">Readings 1 to `, strconv.Itoa(shown), ` of `, strconv.Itoa(n),
+		`<p class="pl-report-more" data-testid="report-readings-more">Readings 1 to `, numfmt.Count(shown), ` of `, numfmt.Count(n),
 		` are listed here; a printed or saved report lists every one. <button type="button" class="pl-btn" data-testid="report-readings-all">Show all `,
 		plCount(n, "reading"), `</button></p></section>`)
 }

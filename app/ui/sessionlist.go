@@ -20,6 +20,7 @@ import (
 	"github.com/maxence-charriere/go-app/v10/pkg/app"
 
 	hv "pairline/app/history/view"
+	"pairline/app/numfmt"
 	"pairline/app/store"
 )
 
@@ -97,7 +98,7 @@ func (r *sessionsList) Render() app.UI {
 		),
 		app.If(r.Older > 0, func() app.UI {
 			return r.button(app.Button().Class("pl-btn pl-btn-quiet pl-btn-wide").DataSet("testid", "sessions-more").
-				Text("Show "+strconv.Itoa(min(listPage, r.Older))+" more of "+strconv.Itoa(r.Older)+" older sessions"), laMore)
+				Text("Show "+numfmt.Count(min(listPage, r.Older))+" more of "+numfmt.Count(r.Older)+" older sessions"), laMore)
 		}),
 		r.trash(),
 	)

@@ -398,9 +398,9 @@ func describeSettings(oldJSON, newJSON string) string {
 	return strings.Join(out, ", ")
 }
 
-// renderUndo is the undo/redo pair with the message of the last step. On a
-// narrow screen it floats at the bottom corner (web/plots.css), in reach of
-// a thumb wherever the page is scrolled.
+// renderUndo is the undo/redo pair with the message of the last step. It
+// floats at the bottom corner (web/plots.css), in reach of a thumb wherever
+// the page is scrolled; on a phone it docks as a bar along the bottom edge.
 func (c *Shell) renderUndo() app.UI {
 	c.ctl.undoSync()
 	nu, nr := len(c.ctl.unStack), len(c.ctl.unRedo)
