@@ -369,19 +369,43 @@ type historyJSONChange struct {
 }
 
 type historyJSONDrift struct {
-	N            int     `json:"n"`
-	PerYear      float64 `json:"slope_per_year"`
-	PerYearLow   float64 `json:"slope_per_year_low"`
-	PerYearHigh  float64 `json:"slope_per_year_high"`
-	P            float64 `json:"p"`
-	Verdict      string  `json:"verdict"`
-	LeavesLimits *string `json:"leaves_limits"`
-	Level        float64 `json:"level"`
+	N            int              `json:"n"`
+	PerYear      float64          `json:"slope_per_year"`
+	PerYearLow   float64          `json:"slope_per_year_low"`
+	PerYearHigh  float64          `json:"slope_per_year_high"`
+	P            float64          `json:"p"`
+	Verdict      string           `json:"verdict"`
+	LeavesLimits *string          `json:"leaves_limits"`
+	Level        float64          `json:"level"`
+	Step         *historyJSONStep `json:"step"`
 }
 
-func driftJSON(d *fitcore.DriftResult, leaves *string) historyJSONDrift {
-	return historyJSONDrift{N: d.N, PerYear: d.Rate, PerYearLow: d.RateLow, PerYearHigh: d.RateHigh,
+// historyJSONStep is a step (verdict "shifted"): the days of the last
+// calibration before it and the first after, the levels with their
+// standard errors, the step and its p (fitcore.DriftStep).
+type historyJSONStep struct {
+	Before         string  `json:"before"`
+	After          string  `json:"after"`
+	LevelBefore    float64 `json:"level_before"`
+	LevelBeforeSE  float64 `json:"level_before_se"`
+	LevelAfter     float64 `json:"level_after"`
+	LevelAfterSE   float64 `json:"level_after_se"`
+	Size           float64 `json:"size"`
+	SizeSE         float64 `json:"size_se"`
+	P              float64 `json:"p"`
+	POverTrend     float64 `json:"p_over_trend"`
+	PlacesSearched int     `json:"places_searched"`
+}
+
+func driftJSON(d *fitcore.DriftResult, leaves *string, days []time.Time) historyJSONDrift {
+	j := historyJSONDrift{N: d.N, PerYear: d.Rate, PerYearLow: d.RateLow, PerYearHigh: d.RateHigh,
 		P: d.P, Verdict: d.Status, LeavesLimits: leaves, Level: d.Level}
+	if st := d.Step; d.Status == fitcore.DriftShifted && st != nil && st.Before < len(days) && st.After < len(days) {
+		j.Step = &historyJSONStep{Before: day(days[st.Before]), After: day(days[st.After]),
+			LevelBefore: st.LevelBefore, LevelBeforeSE: st.LevelBeforeSE, LevelAfter: st.LevelAfter, LevelAfterSE: st.LevelAfterSE,
+			Size: st.Size, SizeSE: st.SizeSE, P: st.P, POverTrend: st.POverTrend, PlacesSearched: st.Splits}
+	}
+	return j
 }
 
 func historyJSON(w io.Writer, ins []history.Instrument, skipped []skippedFile) error {
@@ -408,8 +432,12 @@ func historyJSON(w io.Writer, ins []history.Instrument, skipped []skippedFile) e
 		} else if in.LeavesWhich == "intercept" {
 			ic = dayPtr(in.LeavesAt)
 		}
-		j.Drift = driftJSON(in.SlopeDrift, sl)
-		j.Intercept = driftJSON(in.InterceptDrift, ic)
+		var days []time.Time
+		for _, e := range in.DriftEntries() {
+			days = append(days, e.Taken)
+		}
+		j.Drift = driftJSON(in.SlopeDrift, sl, days)
+		j.Intercept = driftJSON(in.InterceptDrift, ic, days)
 		out.Instruments = append(out.Instruments, j)
 	}
 	b, err := json.MarshalIndent(out, "", "  ")
@@ -475,6 +503,9 @@ func historyText(w io.Writer, ins []history.Instrument, skipped []skippedFile, o
 		it := view.Word(in, opt.Now, limitsOf(opt))
 		for _, d := range it.Drift {
 			b.WriteString("  " + d.Text + "\n")
+			if d.StepAlert != "" {
+				b.WriteString("  " + d.StepAlert + "\n")
+			}
 			if d.Leaves != "" {
 				b.WriteString("  " + d.Leaves + "\n")
 			}

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -80,6 +81,19 @@ func TestHistoryJSON(t *testing.T) {
 				High    float64 `json:"slope_per_year_high"`
 				Verdict string  `json:"verdict"`
 			} `json:"drift"`
+			Intercept struct {
+				Verdict string  `json:"verdict"`
+				Leaves  *string `json:"leaves_limits"`
+				Step    *struct {
+					Before, After  string
+					LevelBefore    float64 `json:"level_before"`
+					LevelAfter     float64 `json:"level_after"`
+					Size           float64 `json:"size"`
+					SizeSE         float64 `json:"size_se"`
+					P              float64 `json:"p"`
+					PlacesSearched int     `json:"places_searched"`
+				} `json:"step"`
+			} `json:"intercept_drift"`
 			Due        *string `json:"due"`
 			Duplicates int     `json:"duplicates"`
 		} `json:"instruments"`
@@ -117,6 +131,17 @@ func TestHistoryJSON(t *testing.T) {
 			if nchanged != 1 || in.Changes[6].Verdict != fitcore.LinesMoved {
 				t.Errorf("step: %d changes, change 7 %s", nchanged, in.Changes[6].Verdict)
 			}
+			// The intercept steps up by 0.8 after month 7 (generated):
+			// shifted between months 7 and 8, not drifting, no day.
+			ic := in.Intercept
+			if st := ic.Step; ic.Verdict != fitcore.DriftShifted || ic.Leaves != nil || st == nil ||
+				st.Before != in.Sessions[6].Taken || st.After != in.Sessions[7].Taken ||
+				math.Abs(st.Size-0.8) > 4*st.SizeSE || !(st.P < 0.01) || st.PlacesSearched != 9 {
+				t.Errorf("step: intercept %+v, step %+v; want shifted between %s and %s by about 0.8", ic, ic.Step, in.Sessions[6].Taken, in.Sessions[7].Taken)
+			}
+			if in.Drift.Verdict != fitcore.DriftSteady {
+				t.Errorf("step: slope %s, want steady", in.Drift.Verdict)
+			}
 		default:
 			t.Errorf("unexpected instrument %q", in.ID)
 		}
@@ -134,6 +159,16 @@ func TestHistoryTextAndCSV(t *testing.T) {
 	}
 	if s := out.String(); !strings.Contains(s, "Instrument LVWB-CL-02: 12 sessions") || strings.Contains(s, "LVWB-TB-01") ||
 		!strings.Contains(s, "Slope is drifting:") || !strings.Contains(s, "Next due") && !strings.Contains(s, "Overdue since") {
+		t.Errorf("text:\n%s", s)
+	}
+	out.Reset()
+	// The probe's intercept stepped once (after month 7, generated): the
+	// shift and its warning, no projected day, not "drifting".
+	if code := Main([]string{"history", "--instrument", "lvwb-ec-03", "--intercept-limits", "-1,2.5", dir}, nil, &out, &errb); code != ExitOK {
+		t.Fatalf("exit %d: %s", code, errb.String())
+	}
+	if s := out.String(); !strings.Contains(s, "Intercept shifted once, between 6 Jul 2025 and 6 Aug 2025") ||
+		!strings.Contains(s, "Find what changed then") || strings.Contains(s, "Intercept is drifting") || strings.Contains(s, "reaches its") {
 		t.Errorf("text:\n%s", s)
 	}
 	out.Reset()

@@ -221,7 +221,7 @@ func changeVerdict(v string) string {
 func driftVerdict(status string) string {
 	cls := "pl-rv-na"
 	switch status {
-	case fitcore.DriftDrifting:
+	case fitcore.DriftDrifting, fitcore.DriftShifted:
 		cls = "pl-rv-fail"
 	case fitcore.DriftSteady:
 		cls = "pl-rv-pass"
@@ -529,7 +529,14 @@ func writeDrift(b *strings.Builder, in *history.Instrument, it view.Item, opt hi
 			fmt.Fprintf(b, ` data-value="%s" data-low="%s" data-high="%s" data-p="%s" data-per-month="%s"`,
 				numfmt.Full(r.Rate), numfmt.Full(r.RateLow), numfmt.Full(r.RateHigh), numfmt.Full(r.P), numfmt.Full(d.PerMonth))
 		}
+		if st := r.Step; r.Status == fitcore.DriftShifted && st != nil {
+			fmt.Fprintf(b, ` data-step-from="%s" data-step-to="%s" data-step="%s" data-step-se="%s" data-before="%s" data-after="%s" data-p="%s"`,
+				day(d.StepFrom), day(d.StepTo), numfmt.Full(st.Size), numfmt.Full(st.SizeSE), numfmt.Full(st.LevelBefore), numfmt.Full(st.LevelAfter), numfmt.Full(st.P))
+		}
 		b.WriteString(`>` + hx(d.Text))
+		if d.StepAlert != "" {
+			b.WriteString(` <strong data-testid="hfile-shift">` + hx(d.StepAlert) + `</strong>`)
+		}
 		switch {
 		case !d.LeavesAt.IsZero():
 			fmt.Fprintf(b, ` <span data-testid="hfile-leaves" data-which="%s" data-value="%s"`, d.Which, day(d.LeavesAt))
@@ -556,7 +563,7 @@ func titleCase(s string) string {
 
 func driftClass(status string) string {
 	switch status {
-	case fitcore.DriftDrifting:
+	case fitcore.DriftDrifting, fitcore.DriftShifted:
 		return "hf-alert"
 	case fitcore.DriftSteady:
 		return "hf-calm"
@@ -580,7 +587,7 @@ func writeCharts(b *strings.Builder, i int, in *history.Instrument, opt history.
 		return
 	}
 	b.WriteString(`<div class="pl-report-plotgrid">`)
-	limits, projected := false, false
+	limits, projected, stepped := false, false, false
 	for _, c := range []struct {
 		name, title string
 		val         func(e *history.Entry) (v, lo, hi float64)
@@ -599,6 +606,10 @@ func writeCharts(b *strings.Builder, i int, in *history.Instrument, opt history.
 			YTitle: wording.Visible(c.title),
 			Label: fmt.Sprintf("%s of %s against time: each calibration with its interval, the fitted trend (%s) and the limits given.",
 				titleCase(c.name), wording.Visible(instName(in)), c.r.Status),
+		}
+		if c.r.Status == fitcore.DriftShifted {
+			ch.Label = fmt.Sprintf("%s of %s against time: each calibration with its interval, the levels before and after a step, and the limits given.",
+				titleCase(c.name), wording.Visible(instName(in)))
 		}
 		var tmax float64
 		nacc, nrej := 0, 0
@@ -620,7 +631,16 @@ func writeCharts(b *strings.Builder, i int, in *history.Instrument, opt history.
 			ch.Points = append(ch.Points, plot.Point{X: x, Y: v, Row: k, Marker: mk})
 			ch.Paths = append(ch.Paths, plot.Path{X: []float64{x, x}, Y: []float64{lo, hi}, Class: "hf-bar", Stroke: "#3a434b", Width: 1.6})
 		}
-		if r := c.r; r.Status == fitcore.DriftSteady || r.Status == fitcore.DriftDrifting {
+		if r := c.r; r.Status == fitcore.DriftShifted && r.Step != nil {
+			// A step: the level before it and the level after, each over
+			// its own calibrations (t in years since in.Origin); no line.
+			off := in.Origin.Sub(t0).Hours() / 24
+			st := r.Step
+			ch.Paths = append(ch.Paths,
+				plot.Path{X: []float64{off, off + 365.25*st.From}, Y: []float64{st.LevelBefore, st.LevelBefore}, Class: "hf-trend", Stroke: "#0b4f5c", Width: 3},
+				plot.Path{X: []float64{off + 365.25*st.To, tmax}, Y: []float64{st.LevelAfter, st.LevelAfter}, Class: "hf-trend", Stroke: "#0b4f5c", Width: 3})
+			stepped = true
+		} else if r.Status == fitcore.DriftSteady || r.Status == fitcore.DriftDrifting {
 			// The fitted trend v = a + r·t (t in years since in.Origin),
 			// over the accepted calibrations' span.
 			off := in.Origin.Sub(t0).Hours() / 24
@@ -654,6 +674,9 @@ func writeCharts(b *strings.Builder, i int, in *history.Instrument, opt history.
 	}
 	b.WriteString(`</div><p class="hf-legend">Dots: accepted calibrations, each with its own ` + levelPct(firstLevel(in)) +
 		` interval; hollow squares: calibrations not accepted; solid line: the fitted trend over the accepted ones`)
+	if stepped {
+		b.WriteString(`; where a step is found, the solid lines are the levels before and after it, not a trend`)
+	}
 	if projected {
 		b.WriteString(`; dotted line: the trend carried on to the limit it is projected to leave`)
 	}

@@ -182,6 +182,13 @@ func TestHistoryHTMLScenario(t *testing.T) {
 			t.Errorf("step probe: difference at the middle %g µS/cm, want about +0.53", v)
 		}
 	}
+	// Its intercept stepped once (generated): called shifted, between the
+	// days of months 7 and 8, with the warning, and not projected.
+	sm := reAttr(`data-testid="hfile-drift-intercept" data-verdict="shifted" data-n="12" data-step-from`).FindStringSubmatch(ec)
+	if sm == nil || sm[1] != "2025-07-06" || !strings.Contains(ec, `data-step-to="2025-08-06"`) || !strings.Contains(ec, `data-testid="hfile-shift"`) ||
+		!strings.Contains(ec, `data-intercept-drift="shifted"`) || strings.Contains(ec, `data-which="intercept"`) || !strings.Contains(ec, "levels before and after it") {
+		t.Errorf("step probe: intercept not shown as one shift between 2025-07-06 and 2025-08-06 without a projection (%v)", sm)
+	}
 
 	for _, want := range []string{`data-testid="hfile-caution"`, "drinking water", "instrument maker's", "local codes",
 		`data-testid="hfile-skipped"`, "cut.pairline", "the file is incomplete", "days since 2025-01-06",

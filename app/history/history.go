@@ -179,7 +179,8 @@ type Instrument struct {
 	Origin                     time.Time // t = 0 of the drift
 	// LeavesAt is the projected day the first of slope/intercept leaves its
 	// limit (zero = not projected), and LeavesWhich names it; only a trend
-	// with Status fitcore.DriftDrifting is projected.
+	// with Status fitcore.DriftDrifting is projected (never a step,
+	// fitcore.DriftShifted).
 	LeavesAt    time.Time
 	LeavesWhich string
 	Due         time.Time // last accepted calibration + interval; zero = unknown
@@ -351,6 +352,21 @@ func (in *Instrument) fitDrift(acc []*Entry, opt Options) {
 	}
 }
 
+// DriftEntries are the accepted calibrations the drift is fitted over, in
+// the order of the times given to fitcore.Drift (the order of Entries):
+// DriftEntries()[i] is calibration i of SlopeDrift and InterceptDrift, so
+// a step's Before and After (fitcore.DriftStep) name their sessions and
+// days.
+func (in *Instrument) DriftEntries() []*Entry {
+	var acc []*Entry
+	for i := range in.Entries {
+		if in.Entries[i].Verdict == Accepted {
+			acc = append(acc, &in.Entries[i])
+		}
+	}
+	return acc
+}
+
 // setLeaves sets the first projected day slope or intercept leaves its
 // limit, and which.
 func (in *Instrument) setLeaves() {
@@ -359,7 +375,8 @@ func (in *Instrument) setLeaves() {
 		r    *fitcore.DriftResult
 	}{{"slope", in.SlopeDrift}, {"intercept", in.InterceptDrift}} {
 		// Projected only for a trend that is significant (DriftDrifting):
-		// a flat trend with a slight slope would give a far, meaningless day.
+		// a flat trend with a slight slope would give a far, meaningless day,
+		// and a step (DriftShifted) is no trend at all.
 		if d.r.Leaves == nil || d.r.Status != fitcore.DriftDrifting {
 			continue
 		}

@@ -1,6 +1,7 @@
 package history_test
 
 import (
+	"math"
 	"testing"
 	"time"
 
@@ -29,7 +30,8 @@ func summarize(t testing.TB, ss []*session.Session) []history.Summary {
 // from Pairline's output): the stable meter shows no change and no drift,
 // the drifting analyser's slope trend is "drifting" with a negative rate
 // whose interval holds the generated −0.048/year, and the probe's line moves
-// once, between months 7 and 8, and nowhere else.
+// once, between months 7 and 8, and nowhere else: its intercept is a step
+// (shifted), not a drift.
 func TestScenario(t *testing.T) {
 	ss, err := history.Scenario(2026, scenarioStart, 1)
 	if err != nil {
@@ -86,6 +88,21 @@ func TestScenario(t *testing.T) {
 	}
 	if moved != 1 {
 		t.Errorf("step: %d changes, want 1", moved)
+	}
+	// The probe's intercept is level, steps up by 0.8 after month 7 and is
+	// level again: one shift between the 7th and 8th accepted
+	// calibrations, not a drift, and nothing projected; its slope stays
+	// steady.
+	ic := step.InterceptDrift
+	if st := ic.Step; ic.Status != fitcore.DriftShifted || st == nil || st.Before != 6 || st.After != 7 || ic.Leaves != nil ||
+		math.Abs(st.Size-0.8) > 4*st.SizeSE {
+		t.Errorf("step intercept: %s, step %+v", ic.Status, ic.Step)
+	}
+	if acc := step.DriftEntries(); len(acc) != 12 || !acc[ic.Step.Before].Taken.Equal(step.Entries[6].Taken) || !acc[ic.Step.After].Taken.Equal(step.Entries[7].Taken) {
+		t.Errorf("step: DriftEntries does not name months 7 and 8")
+	}
+	if step.SlopeDrift.Status != fitcore.DriftSteady || stable.InterceptDrift.Status != fitcore.DriftSteady || drifting.InterceptDrift.Status != fitcore.DriftSteady {
+		t.Errorf("flat parameters: probe slope %s, meter intercept %s, analyser intercept %s", step.SlopeDrift.Status, stable.InterceptDrift.Status, drifting.InterceptDrift.Status)
 	}
 }
 

@@ -27,7 +27,8 @@ type ScenarioInstrument struct {
 // ScenarioInstruments are the three instruments of the invented Larkwater
 // Valley Water Board scenario (INVENTED data): a stable turbidity meter, a
 // chlorine analyser whose slope drifts, and a conductivity probe whose
-// line moves after a cleaning in month 7.
+// line moves after a cleaning in month 7 (its intercept steps once: the
+// drift calls it shifted, not drifting).
 var ScenarioInstruments = []ScenarioInstrument{
 	{ID: "LVWB-TB-01", Description: "turbidity meter, Harrow Mill works (invented)",
 		XName: "turbidity standard", XUnit: "NTU", YName: "meter signal", YUnit: "mV"},

@@ -129,9 +129,13 @@ func (p *instrumentsPanel) renderInstrument(it *hv.Item) app.UI {
 		dueDate = due.Date.UTC().Format("2006-01-02")
 	}
 	var warn []string
+	var steps []hv.Drift
 	for _, d := range it.Drift {
 		if d.Status == "drifting" {
 			warn = append(warn, d.Which)
+		}
+		if d.StepAlert != "" {
+			steps = append(steps, d)
 		}
 	}
 	return app.Div().Class("pl-inst-view").DataSet("testid", "instrument-view").DataSet("key", it.Key).Body(
@@ -153,6 +157,11 @@ func (p *instrumentsPanel) renderInstrument(it *hv.Item) app.UI {
 			}
 			return app.P().Class("pl-inst-warn").Attr("role", "alert").DataSet("testid", "inst-drift-warning").
 				DataSet("value", isoDay(it.LeavesAt)).Text(t)
+		}),
+		app.Range(steps).Slice(func(i int) app.UI {
+			return app.P().Class("pl-inst-warn").Attr("role", "alert").DataSet("testid", "inst-shift-warning").
+				DataSet("which", steps[i].Which).DataSet("from", isoDay(steps[i].StepFrom)).DataSet("to", isoDay(steps[i].StepTo)).
+				Text(steps[i].StepAlert)
 		}),
 		p.renderCompare(it),
 		p.renderCharts(it),
@@ -381,7 +390,7 @@ func (p *instrumentsPanel) renderDrift(it *hv.Item) app.UI {
 				}),
 			)
 		}),
-		app.P().Class("pl-inst-hint").Text("A weighted line through the accepted calibrations against time (weights from each one's standard error); its rate is tested against zero."),
+		app.P().Class("pl-inst-hint").Text("A weighted line through the accepted calibrations against time (weights from each one's standard error); its rate is tested against zero. A single jump between two calibrations, level before and after, is tested too and called a shift, not a drift."),
 	)
 }
 

@@ -134,14 +134,22 @@ type Diff struct {
 // Drift is the trend of one parameter.
 type Drift struct {
 	Which                        string // "slope", "intercept"
-	Status                       string // fitcore.DriftTooFew, DriftSteady, DriftDrifting, or "not fitted: …"
+	Status                       string // fitcore.DriftTooFew, DriftSteady, DriftDrifting, DriftShifted, or "not fitted: …"
 	N                            int
-	PerMonth, Low, High          float64
-	P                            float64
+	PerMonth, Low, High          float64 // 0 for a step
+	P                            float64 // of the rate; for a step, the step's (StepP)
 	Text                         string
 	Leaves                       string
 	LeavesAt, LeavesLo, LeavesHi time.Time
 	Bounded                      bool
+	// For a step (Status fitcore.DriftShifted): the days of the last
+	// calibration before it and the first after, the levels, the step with
+	// its standard error and its p (fitcore.DriftStep), and the warning
+	// the instrument view shows.
+	StepFrom, StepTo    time.Time
+	Before, After, Step float64
+	StepSE, StepP       float64
+	StepAlert           string
 }
 
 // Limits are the acceptance limits of the slope and the intercept that
@@ -268,12 +276,16 @@ func Word(in history.Instrument, now time.Time, lim Limits) Item {
 	} else {
 		it.CompareWhy = "Nothing to compare yet: " + in.LatestReason + "."
 	}
+	var days []time.Time
+	for _, e := range in.DriftEntries() {
+		days = append(days, e.Taken)
+	}
 	for _, d := range []struct {
 		which string
 		r     *fitcore.DriftResult
 		unit  string
 	}{{"slope", in.SlopeDrift, ratioless(lastUnit(in, false))}, {"intercept", in.InterceptDrift, lastUnit(in, true)}} {
-		it.Drift = append(it.Drift, wordDrift(d.which, d.r, d.unit, in.Origin, lim.Set(d.which)))
+		it.Drift = append(it.Drift, wordDrift(d.which, d.r, d.unit, in.Origin, lim.Set(d.which), days))
 	}
 	if !in.LeavesAt.IsZero() {
 		it.LeavesAt = in.LeavesAt
@@ -424,8 +436,16 @@ func trendChart(in history.Instrument, which string, lim Limits) Chart {
 			t1 = t
 		}
 		mo := chartMonths(in.Origin, origin)
-		ch.Paths = append(ch.Paths, plot.Path{X: []float64{mo + 12*t0, mo + 12*t1},
-			Y: []float64{d.Intercept + d.Rate*t0, d.Intercept + d.Rate*t1}, Class: "pl-plot-line", Stroke: "#0b4f5c", Width: 2.5, Dash: "8 5"})
+		if st := d.Step; d.Status == fitcore.DriftShifted && st != nil {
+			// A step: the level before it and the level after, each over
+			// its own calibrations, and no line.
+			ch.Paths = append(ch.Paths,
+				plot.Path{X: []float64{mo + 12*t0, mo + 12*st.From}, Y: []float64{st.LevelBefore, st.LevelBefore}, Class: "pl-plot-line", Stroke: "#0b4f5c", Width: 2.5, Dash: "8 5"},
+				plot.Path{X: []float64{mo + 12*st.To, mo + 12*t1}, Y: []float64{st.LevelAfter, st.LevelAfter}, Class: "pl-plot-line", Stroke: "#0b4f5c", Width: 2.5, Dash: "8 5"})
+		} else {
+			ch.Paths = append(ch.Paths, plot.Path{X: []float64{mo + 12*t0, mo + 12*t1},
+				Y: []float64{d.Intercept + d.Rate*t0, d.Intercept + d.Rate*t1}, Class: "pl-plot-line", Stroke: "#0b4f5c", Width: 2.5, Dash: "8 5"})
+		}
 	}
 	ch.Label = strings.ToUpper(which[:1]) + which[1:] + " of " + strconv.Itoa(len(out.IDs)) + " calibrations against time, each with its interval"
 	if len(ch.HLines) > 0 {
@@ -500,8 +520,10 @@ func unitSuffix(u string) string {
 }
 
 // wordDrift says what the trend of one parameter is. fitcore gives the
-// rate per year (t in years); it is shown per month (÷ 12).
-func wordDrift(which string, r *fitcore.DriftResult, unit string, origin time.Time, limits bool) Drift {
+// rate per year (t in years); it is shown per month (÷ 12). days are the
+// days of the calibrations the drift was fitted over, in its order
+// (history.Instrument.DriftEntries), for naming a step's two days.
+func wordDrift(which string, r *fitcore.DriftResult, unit string, origin time.Time, limits bool, days []time.Time) Drift {
 	d := Drift{Which: which}
 	if r == nil {
 		d.Status = fitcore.DriftTooFew
@@ -517,6 +539,8 @@ func wordDrift(which string, r *fitcore.DriftResult, unit string, origin time.Ti
 	case strings.HasPrefix(r.Status, "not fitted"):
 		d.Text = name + ": the drift could not be worked out (" + r.Status + ")."
 		return d
+	case r.Status == fitcore.DriftShifted && r.Step != nil && r.Step.Before < len(days) && r.Step.After < len(days):
+		return wordStep(d, name, r, unit, days)
 	}
 	d.PerMonth, d.Low, d.High, d.P = r.Rate/12, r.RateLow/12, r.RateHigh/12, r.P
 	u := unitSuffix(unit)
@@ -524,6 +548,11 @@ func wordDrift(which string, r *fitcore.DriftResult, unit string, origin time.Ti
 	rate := numfmt.Sig(d.PerMonth, 2) + u + " per month (" + lvl + " % interval " + numfmt.Sig(d.Low, 2) + " to " + numfmt.Sig(d.High, 2) + ")"
 	if r.Status == fitcore.DriftDrifting {
 		d.Text = name + " is drifting: " + rate + "; " + numfmt.PEq(r.P) + " for no drift, over " + strconv.Itoa(r.N) + " accepted calibrations."
+		if st := r.Step; st != nil && st.BetterThanLine && st.Before < len(days) && st.After < len(days) {
+			// fitcore could not tell a jump from the trend: say so.
+			d.Text += " A single jump between " + Day(days[st.Before]) + " and " + Day(days[st.After]) +
+				" would explain these values at least as well; if the instrument was repaired, adjusted or given new standards then, do not plan for steady wear."
+		}
 	} else {
 		d.Text = name + ": no drift shown: " + rate + "; " + numfmt.PEq(r.P) + " for no drift, over " + strconv.Itoa(r.N) + " accepted calibrations."
 	}
@@ -544,6 +573,32 @@ func wordDrift(which string, r *fitcore.DriftResult, unit string, origin time.Ti
 			d.Leaves = "No acceptance limits are set on the " + which + ", so no date of leaving them is projected."
 		}
 	}
+	return d
+}
+
+// wordStep words a step (fitcore.DriftShifted): where, by how much, and
+// what to do; no date of leaving a limit is projected from it.
+func wordStep(d Drift, name string, r *fitcore.DriftResult, unit string, days []time.Time) Drift {
+	st := r.Step
+	d.P = st.P
+	d.StepFrom, d.StepTo = days[st.Before], days[st.After]
+	d.Before, d.After, d.Step, d.StepSE, d.StepP = st.LevelBefore, st.LevelAfter, st.Size, st.SizeSE, st.P
+	u := unitSuffix(unit)
+	sig := numfmt.Precision(0)
+	before, _ := numfmt.Estimate(st.LevelBefore, st.LevelBeforeSE, sig)
+	after, _ := numfmt.Estimate(st.LevelAfter, st.LevelAfterSE, sig)
+	size, sizeSE := numfmt.Estimate(st.Size, st.SizeSE, sig)
+	if st.Size > 0 {
+		size = "+" + size
+	}
+	between := "between " + Day(d.StepFrom) + " and " + Day(d.StepTo)
+	d.Text = name + " shifted once, " + between + ", by " + size + " ± " + sizeSE + u +
+		" (level before " + before + u + ", after " + after + u + "; " + numfmt.PEq(st.P) +
+		" for no step, allowing for the " + strconv.Itoa(st.Splits) + " places looked at), over " + strconv.Itoa(r.N) +
+		" accepted calibrations. This is a jump, not a steady drift, so no date of leaving a limit is projected."
+	d.StepAlert = "Step: the " + d.Which + " of this instrument jumped " + between +
+		" and was level before and after. Find what changed then (a repair, an adjustment, a new sensor or a new batch of standards), " +
+		"check the calibrations since against the instrument maker's procedure, and do not plan for steady wear."
 	return d
 }
 
@@ -574,13 +629,15 @@ func ChangeWord(v string) string {
 }
 
 // DriftWord is a trend's status (fitcore.DriftTooFew, DriftSteady,
-// DriftDrifting, or "not fitted: …") in words.
+// DriftDrifting, DriftShifted, or "not fitted: …") in words.
 func DriftWord(status string) string {
 	switch {
 	case status == fitcore.DriftSteady:
 		return "no drift shown"
 	case status == fitcore.DriftDrifting:
 		return "drifting"
+	case status == fitcore.DriftShifted:
+		return "shifted once"
 	case status == fitcore.DriftTooFew:
 		return "too few calibrations"
 	}

@@ -237,3 +237,89 @@ func TestCopiesText(t *testing.T) {
 		}
 	}
 }
+
+// TestInstViewShift: over the whole invented year the probe's intercept
+// steps up by 0.8 mV after month 7 and is level before and after (how the
+// data were generated, history.ScenarioInstruments): it is worded as one
+// shift between the days of months 7 and 8, of about +0.8 mV, with the
+// levels 0.5 and 1.3 mV inside a few standard errors, with the warning to
+// look for what changed and no projected day of leaving a limit (the
+// records set intercept limits, so a line through the step would have
+// been projected to leave the upper one). The probe's slope, flat, stays
+// "no drift shown", and the analyser's slope, a real trend, stays drifting
+// (TestInstViewScenario).
+func TestInstViewShift(t *testing.T) {
+	v, err := Build(instSums(t, nil), instStart.AddDate(0, 11, 10))
+	if err != nil {
+		t.Fatal(err)
+	}
+	it := instByKey(t, v)["LVWB-EC-03"]
+	if s := it.Drift[0]; s.Status != fitcore.DriftSteady {
+		t.Errorf("probe slope: %s: %s", s.Status, s.Text)
+	}
+	d := it.Drift[1]
+	if d.Status != fitcore.DriftShifted {
+		t.Fatalf("probe intercept: %s: %s", d.Status, d.Text)
+	}
+	m7, m8 := instStart.AddDate(0, 6, 0), instStart.AddDate(0, 7, 0)
+	if !d.StepFrom.Equal(it.Rows[6].Taken) || !d.StepTo.Equal(it.Rows[7].Taken) || Day(d.StepFrom) != Day(m7) || Day(d.StepTo) != Day(m8) {
+		t.Errorf("step between %v and %v, want the days of months 7 and 8 (%s, %s)", d.StepFrom, d.StepTo, Day(m7), Day(m8))
+	}
+	if math.Abs(d.Step-0.8) > 4*d.StepSE || math.Abs(d.Before-0.5) > 0.1 || math.Abs(d.After-1.3) > 0.1 || !(d.StepP < fitcore.DriftAlpha) {
+		t.Errorf("step %.4g ± %.2g from %.4g to %.4g (p %.2g), want about +0.8 from 0.5 to 1.3", d.Step, d.StepSE, d.Before, d.After, d.StepP)
+	}
+	for _, want := range []string{"Intercept shifted once, between " + Day(m7) + " and " + Day(m8) + ", by +0.", " mV", "no date of leaving a limit is projected"} {
+		if !strings.Contains(d.Text, want) {
+			t.Errorf("text %q lacks %q", d.Text, want)
+		}
+	}
+	if !strings.Contains(d.StepAlert, "Find what changed then") || !strings.Contains(d.StepAlert, "maker's procedure") {
+		t.Errorf("alert %q", d.StepAlert)
+	}
+	if d.Leaves != "" || !d.LeavesAt.IsZero() || strings.Contains(it.Leaves, "intercept") || strings.Contains(d.Text, "drifting") {
+		t.Errorf("a step projected or called drifting: %q / %q / %q", d.Text, d.Leaves, it.Leaves)
+	}
+	if DriftWord(d.Status) != "shifted once" {
+		t.Errorf("word %q", DriftWord(d.Status))
+	}
+}
+
+// TestWordDriftJumpHint: invented monthly values, level, then 5 se higher
+// from month 7 on, with a fixed wobble of up to 2 se: too close to call
+// between a step and a line (fitcore says drifting, and that the step
+// leaves less scatter), so the words add that a single jump between the
+// days of months 6 and 7 would explain them at least as well. The
+// analyser's slope in the invented scenario, a clear trend, gets no such
+// hint.
+func TestWordDriftJumpHint(t *testing.T) {
+	wobble := []float64{1, -1, 2, 0, -2, 1, -1, 0, 2, -1, 1, -2}
+	tm, v, se := make([]float64, 12), make([]float64, 12), make([]float64, 12)
+	days := make([]time.Time, 12)
+	for i := range tm {
+		days[i] = instStart.AddDate(0, i, 0)
+		tm[i] = history.Years(days[i].Sub(instStart))
+		se[i] = 0.01
+		v[i] = 1.5 + 0.01*wobble[i]
+		if i >= 6 {
+			v[i] += 0.052
+		}
+	}
+	r, err := fitcore.Drift(tm, v, se, 0.95, nil, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Status != fitcore.DriftDrifting || r.Step == nil || !r.Step.BetterThanLine || r.Step.NBefore != 6 {
+		t.Fatalf("the invented values no longer fall between the verdicts: %s, step %+v", r.Status, r.Step)
+	}
+	d := wordDrift("intercept", r, "mV", instStart, false, days)
+	if want := "A single jump between " + Day(days[5]) + " and " + Day(days[6]) + " would explain these values at least as well"; !strings.Contains(d.Text, want) || !strings.Contains(d.Text, "Intercept is drifting") {
+		t.Errorf("text %q lacks %q", d.Text, want)
+	}
+	v2, err := Build(instSums(t, nil), instStart.AddDate(0, 11, 10))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s := instByKey(t, v2)["LVWB-CL-02"].Drift[0]; s.Status != fitcore.DriftDrifting || strings.Contains(s.Text, "single jump") {
+		t.Errorf("analyser slope: %s: %s", s.Status, s.Text)
+	}
+}
