@@ -5,6 +5,7 @@ package e2e
 import (
 	"fmt"
 	"strconv"
+	"strings"
 	"testing"
 	"time"
 
@@ -12,6 +13,7 @@ import (
 
 	"pairline/app/history"
 	"pairline/app/session"
+	"pairline/fitcore"
 )
 
 // hiSessions is the invented three-instrument year (history.ScenarioRecords:
@@ -173,6 +175,28 @@ func historyFlow(t *testing.T, srv *server, name string, size [2]int64) {
 	if exists(t, b, "inst-drift-warning") && attr(t, b, "inst-drift-slope", "data-status") == "drifting" {
 		t.Error("the probe's slope is called drifting")
 	}
+	// The invented scenario steps the probe's intercept up once, after
+	// month 7 (app/history/scenario.go): the view says it shifted between
+	// months 7 and 8, as an alert, with no projected day of leaving a limit.
+	if got := attr(t, b, "inst-drift-intercept", "data-status"); got != fitcore.DriftShifted {
+		t.Errorf("the probe's intercept is %q over time, want %q (one step after month 7)", got, fitcore.DriftShifted)
+	}
+	if !exists(t, b, "inst-shift-warning") {
+		t.Error("no alert for the probe's shifted intercept")
+	} else {
+		from, to := attr(t, b, "inst-shift-warning", "data-from"), attr(t, b, "inst-shift-warning", "data-to")
+		if from >= to || from == "" {
+			t.Errorf("the shift is between %q and %q", from, to)
+		}
+		if w := textOf(t, b, "inst-shift-warning"); !strings.Contains(w, "jumped between") || !strings.Contains(w, "maker") {
+			t.Errorf("the shift alert says %q: want the jump and the maker's procedure", w)
+		}
+		t.Logf("%s: probe intercept: %s", name, textOf(t, b, "inst-shift-warning"))
+	}
+	if exists(t, b, "inst-leaves-intercept") {
+		t.Error("a day of leaving a limit is projected for the probe's intercept, which shifted once and does not drift")
+	}
+	hiShot(t, b, name, "probe-shift", "inst-shift-warning")
 	hiShot(t, b, name, "probe", "inst-calibrations")
 
 	// The stable meter: overdue, counted once despite the second import.
