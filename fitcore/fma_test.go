@@ -29,7 +29,7 @@ func TestFMAEmulatedIsFMA(t *testing.T) {
 		{3, 1.0 / 3, -1},                  // a tiny residue
 		{0x1p-500, 0x1p-500, 1},           // beyond the range: math.FMA
 		{0x1p901, 1, -1}, {1, 1, 0x1p901}, // beyond the range
-		{0, 5, -0.0}, {math.Copysign(0, -1), 5, 0}, {2, 3, math.NaN()},
+		{0, 5, math.Copysign(0, -1)}, {math.Copysign(0, -1), 5, 0}, {2, 3, math.NaN()},
 		{math.Inf(1), 0, 1}, {1e300, 1e10, -1e308},
 		{0.1, 10, -1}, {-0.1, 10, 1}, {1 + 0x1p-30, 1 + 0x1p-24, -(1 + 0x1p-24 + 0x1p-30)},
 		{0.5 + 0x1p-53, 2, -1}, // a tie in the sum

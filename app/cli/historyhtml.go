@@ -611,57 +611,9 @@ func writeCharts(b *strings.Builder, i int, in *history.Instrument, opt history.
 			ch.Label = fmt.Sprintf("%s of %s against time: each calibration with its interval, the levels before and after a step, and the limits given.",
 				titleCase(c.name), wording.Visible(instName(in)))
 		}
-		var tmax float64
-		nacc, nrej := 0, 0
-		for k := range in.Entries {
-			e := &in.Entries[k]
-			if e.Verdict == history.Superseded || !e.Fitted {
-				continue
-			}
-			x := e.Taken.Sub(t0).Hours() / 24
-			tmax = math.Max(tmax, x)
-			v, lo, hi := c.val(e)
-			mk := plot.Dot
-			if e.Verdict != history.Accepted {
-				mk = plot.HollowSquare
-				nrej++
-			} else {
-				nacc++
-			}
-			ch.Points = append(ch.Points, plot.Point{X: x, Y: v, Row: k, Marker: mk})
-			ch.Paths = append(ch.Paths, plot.Path{X: []float64{x, x}, Y: []float64{lo, hi}, Class: "hf-bar", Stroke: "#3a434b", Width: 1.6})
-		}
-		if r := c.r; r.Status == fitcore.DriftShifted && r.Step != nil {
-			// A step: the level before it and the level after, each over
-			// its own calibrations (t in years since in.Origin); no line.
-			off := in.Origin.Sub(t0).Hours() / 24
-			st := r.Step
-			ch.Paths = append(ch.Paths,
-				plot.Path{X: []float64{off, off + 365.25*st.From}, Y: []float64{st.LevelBefore, st.LevelBefore}, Class: "hf-trend", Stroke: "#0b4f5c", Width: 3},
-				plot.Path{X: []float64{off + 365.25*st.To, tmax}, Y: []float64{st.LevelAfter, st.LevelAfter}, Class: "hf-trend", Stroke: "#0b4f5c", Width: 3})
-			stepped = true
-		} else if r.Status == fitcore.DriftSteady || r.Status == fitcore.DriftDrifting {
-			// The fitted trend v = a + r·t (t in years since in.Origin),
-			// over the accepted calibrations' span.
-			off := in.Origin.Sub(t0).Hours() / 24
-			var xs, ys []float64
-			for _, x := range []float64{off, tmax} {
-				t := (x - off) / 365.25
-				xs, ys = append(xs, x), append(ys, r.Intercept+r.Rate*t)
-			}
-			ch.Paths = append(ch.Paths, plot.Path{X: xs, Y: ys, Class: "hf-trend", Stroke: "#0b4f5c", Width: 3})
-			// The projection to the limit, dotted, when it falls within
-			// as long again as the calibrations span (at least half a
-			// year): a far one would squeeze the calibrations together.
-			if r.Status == fitcore.DriftDrifting && r.Leaves != nil {
-				xc := off + 365.25*r.Leaves.At
-				if xc > tmax && xc-tmax <= math.Max(tmax-off, 183) {
-					ch.Paths = append(ch.Paths, plot.Path{X: []float64{tmax, xc}, Y: []float64{ys[1], r.Leaves.Limit},
-						Class: "hf-projection", Stroke: "#0b4f5c", Width: 2.5, Dash: "2 5"})
-					projected = true
-				}
-			}
-		}
+		tmax, nacc, nrej := chartCalibrations(ch, in, t0, c.val)
+		st, pr := chartTrend(ch, c.r, in.Origin.Sub(t0).Hours()/24, tmax)
+		stepped, projected = stepped || st, projected || pr
 		for _, l := range []*float64{c.low, c.high} {
 			if l != nil {
 				ch.HLines = append(ch.HLines, *l)
@@ -684,6 +636,66 @@ func writeCharts(b *strings.Builder, i int, in *history.Instrument, opt history.
 		b.WriteString(`; dashed lines: the limits given`)
 	}
 	b.WriteString(`.</p>`)
+}
+
+// chartCalibrations adds each calibration of in to ch at its day since t0:
+// accepted ones as dots, others as hollow squares, each with its interval
+// (val gives the value and its interval). It returns the last day and how
+// many were and were not accepted.
+func chartCalibrations(ch *plot.Chart, in *history.Instrument, t0 time.Time, val func(e *history.Entry) (v, lo, hi float64)) (tmax float64, nacc, nrej int) {
+	for k := range in.Entries {
+		e := &in.Entries[k]
+		if e.Verdict == history.Superseded || !e.Fitted {
+			continue
+		}
+		x := e.Taken.Sub(t0).Hours() / 24
+		tmax = math.Max(tmax, x)
+		v, lo, hi := val(e)
+		mk := plot.Dot
+		if e.Verdict != history.Accepted {
+			mk = plot.HollowSquare
+			nrej++
+		} else {
+			nacc++
+		}
+		ch.Points = append(ch.Points, plot.Point{X: x, Y: v, Row: k, Marker: mk})
+		ch.Paths = append(ch.Paths, plot.Path{X: []float64{x, x}, Y: []float64{lo, hi}, Class: "hf-bar", Stroke: "#3a434b", Width: 1.6})
+	}
+	return tmax, nacc, nrej
+}
+
+// chartTrend draws what the drift of r found over days off (the drift's
+// origin) to tmax: for a step the level before it and the level after, each
+// over its own calibrations, and no line; otherwise the fitted trend and,
+// for a drift, its projection to the limit when that falls within as long
+// again as the calibrations span (at least half a year: a far one would
+// squeeze the calibrations together). It says which it drew.
+func chartTrend(ch *plot.Chart, r *fitcore.DriftResult, off, tmax float64) (stepped, projected bool) {
+	switch {
+	case r.Status == fitcore.DriftShifted && r.Step != nil:
+		st := r.Step // t in years since the origin
+		ch.Paths = append(ch.Paths,
+			plot.Path{X: []float64{off, off + 365.25*st.From}, Y: []float64{st.LevelBefore, st.LevelBefore}, Class: "hf-trend", Stroke: "#0b4f5c", Width: 3},
+			plot.Path{X: []float64{off + 365.25*st.To, tmax}, Y: []float64{st.LevelAfter, st.LevelAfter}, Class: "hf-trend", Stroke: "#0b4f5c", Width: 3})
+		return true, false
+	case r.Status == fitcore.DriftSteady || r.Status == fitcore.DriftDrifting:
+		// v = a + r·t, t in years since the origin.
+		var xs, ys []float64
+		for _, x := range []float64{off, tmax} {
+			t := (x - off) / 365.25
+			xs, ys = append(xs, x), append(ys, r.Intercept+r.Rate*t)
+		}
+		ch.Paths = append(ch.Paths, plot.Path{X: xs, Y: ys, Class: "hf-trend", Stroke: "#0b4f5c", Width: 3})
+		if r.Status == fitcore.DriftDrifting && r.Leaves != nil {
+			xc := off + 365.25*r.Leaves.At
+			if xc > tmax && xc-tmax <= math.Max(tmax-off, 183) {
+				ch.Paths = append(ch.Paths, plot.Path{X: []float64{tmax, xc}, Y: []float64{ys[1], r.Leaves.Limit},
+					Class: "hf-projection", Stroke: "#0b4f5c", Width: 2.5, Dash: "2 5"})
+				return false, true
+			}
+		}
+	}
+	return false, false
 }
 
 // firstLevel is the level of the sessions' own intervals (the first that

@@ -419,34 +419,7 @@ func trendChart(in history.Instrument, which string, lim Limits) Chart {
 	if which == "intercept" {
 		d = in.InterceptDrift
 	}
-	// The drift line over the span of the accepted calibrations (its
-	// value at the ends from fitcore's intercept and rate, t in years
-	// since in.Origin).
-	if d != nil && d.Status != fitcore.DriftTooFew && !strings.HasPrefix(d.Status, "not fitted") {
-		var t0, t1 float64
-		first := true
-		for _, e := range in.Entries {
-			if e.Verdict != history.Accepted {
-				continue
-			}
-			t := history.Years(e.Taken.Sub(in.Origin))
-			if first {
-				t0, first = t, false
-			}
-			t1 = t
-		}
-		mo := chartMonths(in.Origin, origin)
-		if st := d.Step; d.Status == fitcore.DriftShifted && st != nil {
-			// A step: the level before it and the level after, each over
-			// its own calibrations, and no line.
-			ch.Paths = append(ch.Paths,
-				plot.Path{X: []float64{mo + 12*t0, mo + 12*st.From}, Y: []float64{st.LevelBefore, st.LevelBefore}, Class: "pl-plot-line", Stroke: "#0b4f5c", Width: 2.5, Dash: "8 5"},
-				plot.Path{X: []float64{mo + 12*st.To, mo + 12*t1}, Y: []float64{st.LevelAfter, st.LevelAfter}, Class: "pl-plot-line", Stroke: "#0b4f5c", Width: 2.5, Dash: "8 5"})
-		} else {
-			ch.Paths = append(ch.Paths, plot.Path{X: []float64{mo + 12*t0, mo + 12*t1},
-				Y: []float64{d.Intercept + d.Rate*t0, d.Intercept + d.Rate*t1}, Class: "pl-plot-line", Stroke: "#0b4f5c", Width: 2.5, Dash: "8 5"})
-		}
-	}
+	driftPaths(&ch, in, d, chartMonths(in.Origin, origin))
 	ch.Label = strings.ToUpper(which[:1]) + which[1:] + " of " + strconv.Itoa(len(out.IDs)) + " calibrations against time, each with its interval"
 	if len(ch.HLines) > 0 {
 		ch.Label += ", and the acceptance limits"
@@ -455,6 +428,37 @@ func trendChart(in history.Instrument, which string, lim Limits) Chart {
 	out.SVG, out.Marks = ch.Draw()
 	out.W, out.H = ch.Size()
 	return out
+}
+
+// driftPaths adds to ch what the drift d found, over the span of in's
+// accepted calibrations (mo: the months from the chart's origin to
+// in.Origin, where the drift's t, in years, is 0): the drift line, from
+// fitcore's intercept and rate at the ends; for a step, the level before
+// it and the level after, each over its own calibrations, and no line.
+func driftPaths(ch *plot.Chart, in history.Instrument, d *fitcore.DriftResult, mo float64) {
+	if d == nil || d.Status == fitcore.DriftTooFew || strings.HasPrefix(d.Status, "not fitted") {
+		return
+	}
+	var t0, t1 float64
+	first := true
+	for _, e := range in.Entries {
+		if e.Verdict != history.Accepted {
+			continue
+		}
+		t := history.Years(e.Taken.Sub(in.Origin))
+		if first {
+			t0, first = t, false
+		}
+		t1 = t
+	}
+	if st := d.Step; d.Status == fitcore.DriftShifted && st != nil {
+		ch.Paths = append(ch.Paths,
+			plot.Path{X: []float64{mo + 12*t0, mo + 12*st.From}, Y: []float64{st.LevelBefore, st.LevelBefore}, Class: "pl-plot-line", Stroke: "#0b4f5c", Width: 2.5, Dash: "8 5"},
+			plot.Path{X: []float64{mo + 12*st.To, mo + 12*t1}, Y: []float64{st.LevelAfter, st.LevelAfter}, Class: "pl-plot-line", Stroke: "#0b4f5c", Width: 2.5, Dash: "8 5"})
+		return
+	}
+	ch.Paths = append(ch.Paths, plot.Path{X: []float64{mo + 12*t0, mo + 12*t1},
+		Y: []float64{d.Intercept + d.Rate*t0, d.Intercept + d.Rate*t1}, Class: "pl-plot-line", Stroke: "#0b4f5c", Width: 2.5, Dash: "8 5"})
 }
 
 func wordCompare(in history.Instrument, it Item) *Compare {
