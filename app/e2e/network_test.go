@@ -42,11 +42,15 @@ import (
 // same change. Compiling app/session without inlining would win 20 kB of
 // brotli back, but a 100,000-row import took 4.9 s instead of 4.4 and a
 // 500-session bundle 4.8 s instead of 3.8 (TestCapacity, load about 2), so
-// it stays inlined.
+// it stays inlined. Also 3 December: the drift's step check and its words
+// (fitcore.DriftShifted, the instrument view's shift alert and chart) took
+// 12,015,589 → 12,048,585 bytes raw and 2,118,012 → 2,123,897 of brotli,
+// the emulated FMA and the comparisons of fitcore's loops about 3 kB raw;
+// the budgets were raised by that and a small margin.
 const (
-	wasmRawBudget   = 12_050_000
+	wasmRawBudget   = 12_090_000
 	wasmServeBudget = 2_500_000
-	wasmMadeBudget  = 2_125_000
+	wasmMadeBudget  = 2_130_000
 )
 
 // app.wasm stays within its raw budget.
