@@ -432,10 +432,7 @@ func historyJSON(w io.Writer, ins []history.Instrument, skipped []skippedFile) e
 		} else if in.LeavesWhich == "intercept" {
 			ic = dayPtr(in.LeavesAt)
 		}
-		var days []time.Time
-		for _, e := range in.DriftEntries() {
-			days = append(days, e.Taken)
-		}
+		days := in.DriftDays()
 		j.Drift = driftJSON(in.SlopeDrift, sl, days)
 		j.Intercept = driftJSON(in.InterceptDrift, ic, days)
 		out.Instruments = append(out.Instruments, j)

@@ -367,6 +367,17 @@ func (in *Instrument) DriftEntries() []*Entry {
 	return acc
 }
 
+// DriftDays are the days of DriftEntries, in the same order: DriftDays()[i]
+// is the day of calibration i of SlopeDrift and InterceptDrift.
+func (in *Instrument) DriftDays() []time.Time {
+	acc := in.DriftEntries()
+	days := make([]time.Time, len(acc))
+	for i, e := range acc {
+		days[i] = e.Taken
+	}
+	return days
+}
+
 // setLeaves sets the first projected day slope or intercept leaves its
 // limit, and which.
 func (in *Instrument) setLeaves() {

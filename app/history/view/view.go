@@ -276,10 +276,7 @@ func Word(in history.Instrument, now time.Time, lim Limits) Item {
 	} else {
 		it.CompareWhy = "Nothing to compare yet: " + in.LatestReason + "."
 	}
-	var days []time.Time
-	for _, e := range in.DriftEntries() {
-		days = append(days, e.Taken)
-	}
+	days := in.DriftDays()
 	for _, d := range []struct {
 		which string
 		r     *fitcore.DriftResult
