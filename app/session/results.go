@@ -47,11 +47,8 @@ func ResultsTable(s *Session, rep *fitcore.Report, unknowns UnknownSet) [][]stri
 		slopeUnit = orOne(yu) + "/" + orOne(xu)
 	}
 	level := fullNumber(rep.Level*100) + " %"
-	rows := [][]string{{"figure", "value", "unit", "detail"}}
-	add := func(name string, v float64, unit, detail string) {
-		rows = append(rows, []string{name, fullNumber(v), unit, detail})
-	}
-	addText := func(name, v, detail string) { rows = append(rows, []string{name, v, "", detail}) }
+	t := &resultRows{rows: [][]string{{"figure", "value", "unit", "detail"}}}
+	add, addText := t.add, t.addText
 	addText("record", s.Title, "revision "+strconv.Itoa(s.Revision))
 	addText("x", s.XName, s.XUnit)
 	addText("y", s.YName, s.YUnit)
@@ -86,7 +83,7 @@ func ResultsTable(s *Session, rep *fitcore.Report, unknowns UnknownSet) [][]stri
 			if r.Pass {
 				pass = "pass"
 			}
-			rows = append(rows, []string{"criterion: " + r.Name, fullNumber(r.Value), "", pass + ": " + oneLineText(strings.TrimSpace(r.Limit+"; "+r.Reason))})
+			t.rows = append(t.rows, []string{"criterion: " + r.Name, fullNumber(r.Value), "", pass + ": " + oneLineText(strings.TrimSpace(r.Limit+"; "+r.Reason))})
 		}
 	} else {
 		addText("acceptance", "not set", "no acceptance criteria in the settings")
@@ -116,7 +113,26 @@ func ResultsTable(s *Session, rep *fitcore.Report, unknowns UnknownSet) [][]stri
 	for _, pr := range unknowns.Problems {
 		addText("unknown not converted", "", pr)
 	}
-	return rows
+	return t.rows
+}
+
+// resultRows builds ResultsTable's rows. Its methods are not inlined: the
+// table is made once per export, and each of its thirty-odd rows inlined
+// cost app.wasm about 15 kB (DEVELOPERS.md, "What app.wasm is made of").
+type resultRows struct{ rows [][]string }
+
+// add appends a row of a number at full precision with its unit and detail.
+//
+//go:noinline
+func (t *resultRows) add(name string, v float64, unit, detail string) {
+	t.rows = append(t.rows, []string{name, fullNumber(v), unit, detail})
+}
+
+// addText appends a row of a text value and its detail (no unit).
+//
+//go:noinline
+func (t *resultRows) addText(name, v, detail string) {
+	t.rows = append(t.rows, []string{name, v, "", detail})
 }
 
 func orOne(u string) string {
