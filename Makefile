@@ -114,7 +114,7 @@ browser: wasm-br bin axe
 bench:
 	$(GO) test -run '^$$' -bench . -benchmem ./fitcore/ ./app/session/ ./app/plot/ ./app/cli/ ./app/ui/
 
-## bench-fit: time bin/pairline fit against pandas + statsmodels on a
+## bench-fit: time bin/pairline fit (with and without --no-advice) against pandas + statsmodels on a
 ## generated CSV of N rows (default 10⁶), best of 3 each, and the ratio
 bench-fit: bin
 	bash testdata/refgen/bench_fit.sh

@@ -3,6 +3,7 @@ package cli
 import (
 	"bufio"
 	"bytes"
+	"encoding/json"
 	"fmt"
 	"io"
 	"os"
@@ -214,5 +215,57 @@ func TestFitStdinPipe(t *testing.T) {
 	}
 	if left, _ := os.ReadDir(os.Getenv("TMPDIR")); len(left) != 0 {
 		t.Errorf("%d temporary file(s) left behind", len(left))
+	}
+}
+
+// TestFitNoAdvice: `pairline fit --no-advice` gives the report
+// fitcore.Analyze gives with SkipAdvice (the line and every check; no
+// advice and no Box–Cox power), its checks are those of the full report,
+// and the text says the advice was not worked out instead of naming a
+// remedy. The readings (invented, writeBigCSV) scatter more at larger x,
+// so the full report does advise a remedy.
+func TestFitNoAdvice(t *testing.T) {
+	path, x, y := writeBigCSV(t, t.TempDir(), 3000)
+	run := func(args ...string) string {
+		t.Helper()
+		var out, errOut bytes.Buffer
+		if code := Fit(append(args, path), nil, &out, &errOut); code != ExitOK {
+			t.Fatalf("fit %v: exit %d: %s", args, code, errOut.String())
+		}
+		return out.String()
+	}
+	var got fitcore.Report
+	if err := json.Unmarshal([]byte(run("--no-advice", "--json")), &got); err != nil {
+		t.Fatal(err)
+	}
+	want, err := fitcore.Analyze(x, y, fitcore.Options{SkipAdvice: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	full, err := fitcore.Analyze(x, y, fitcore.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if full.Advice == nil || full.Advice.Remedy == fitcore.RemedyNone {
+		t.Fatalf("the full report advises no remedy for these readings: the test needs one")
+	}
+	if got.Advice != nil || got.BoxCox != nil {
+		t.Errorf("--no-advice: advice %+v, Box–Cox %+v; want neither", got.Advice, got.BoxCox)
+	}
+	if got.Slope != want.Slope || got.Intercept != want.Intercept || got.N != want.N {
+		t.Errorf("--no-advice line %+v %+v (n %d), Analyze's %+v %+v (n %d)", got.Slope, got.Intercept, got.N, want.Slope, want.Intercept, want.N)
+	}
+	for _, info := range fitcore.CheckList() {
+		g, w, f := info.Get(&got), info.Get(want), info.Get(full)
+		if (g == nil) != (w == nil) || g != nil && (g.Verdict != w.Verdict || g.Message != w.Message || g.Verdict != f.Verdict || g.Message != f.Message) {
+			t.Errorf("check %s: --no-advice %+v; Analyze with SkipAdvice %+v; full %+v", info.ID, g, w, f)
+		}
+	}
+	text := run("--no-advice")
+	if !strings.Contains(text, "Advice: not worked out (--no-advice)") || strings.Contains(text, "tried ") {
+		t.Errorf("--no-advice text does not say the advice was not worked out, or names remedies tried:\n%s", text)
+	}
+	if text := run(); !strings.Contains(text, "Advice: ") || strings.Contains(text, "not worked out") {
+		t.Errorf("the text without --no-advice has no advice:\n%s", text)
 	}
 }

@@ -207,7 +207,7 @@ func standsOutBlock(b *strings.Builder, fr *fitResult, _ float64) {
 }
 
 // adviceBlock is the Box–Cox power when one was estimated, and the advice
-// when it offers a remedy: the flag that applies it, its reason, the
+// when it offers a remedy (or that it was not worked out, with --no-advice): the flag that applies it, its reason, the
 // verdicts before and after, and why each other candidate was turned down.
 func adviceBlock(b *strings.Builder, fr *fitResult, level float64) {
 	r := fr.report
@@ -216,6 +216,10 @@ func adviceBlock(b *strings.Builder, fr *fitResult, level float64) {
 			wording.Range(numfmt.Sig(r.BoxCox.CILow, 3), numfmt.Sig(r.BoxCox.CIHigh, 3)))
 	}
 	a := r.Advice
+	if a == nil && fr.noAdvice {
+		b.WriteString("Advice: not worked out (--no-advice): no transform or weighting was tried.\n\n")
+		return
+	}
 	if a == nil || a.Remedy == "" {
 		return
 	}
