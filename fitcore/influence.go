@@ -504,8 +504,22 @@ func newReasonWriter(nReasons int) *ckReasonWriter {
 	return rw
 }
 
+// g3 writes v to 3 significant digits.
+//
+//go:noinline
 func (rw *ckReasonWriter) g3(v float64) {
 	rw.sb.Write(strconv.AppendFloat(rw.num[:0], v, 'g', 3, 64))
+}
+
+// s writes each of parts. It and g3 are not inlined: in the browser build
+// write's nine wordings with them inlined cost about 8 kB of app.wasm, and
+// write runs once per flagged reading.
+//
+//go:noinline
+func (rw *ckReasonWriter) s(parts ...string) {
+	for _, p := range parts {
+		rw.sb.WriteString(p)
+	}
 }
 
 // write returns the reasons of one reading for the bits m. The wording of
@@ -517,40 +531,39 @@ func (rw *ckReasonWriter) write(pi *PointInfluence, m uint8, c *ckInfluenceCuts)
 			continue
 		}
 		start := rw.sb.Len()
-		sb := &rw.sb
 		switch b {
 		case ckBitLeverageOne:
-			sb.WriteString(ckReasonLeverageOne + ": this reading alone fixes the line at its x, so its residual says nothing")
+			rw.s(ckReasonLeverageOne + ": this reading alone fixes the line at its x, so its residual says nothing")
 		case ckBitVeryLeverage:
-			sb.WriteString(ckReasonVeryLeverage + ": h = ")
+			rw.s(ckReasonVeryLeverage + ": h = ")
 			rw.g3(pi.Leverage)
-			sb.WriteString(c.levVeryTxt)
+			rw.s(c.levVeryTxt)
 		case ckBitLeverage:
-			sb.WriteString(ckReasonLeverage + ": h = ")
+			rw.s(ckReasonLeverage + ": h = ")
 			rw.g3(pi.Leverage)
-			sb.WriteString(c.levHighTxt)
+			rw.s(c.levHighTxt)
 		case ckBitOutlier:
 			// As a technician reads numbers (app/numfmt): one minus
 			// sign, one p format ("p < 0.001").
-			sb.WriteString(ckReasonOutlier + ": studentized residual " + numfmt.Sig(pi.Studentized, 3) +
-				", Bonferroni " + numfmt.PEq(pi.OutlierP) + " (limit 0.01)")
+			rw.s(ckReasonOutlier+": studentized residual ", numfmt.Sig(pi.Studentized, 3),
+				", Bonferroni ", numfmt.PEq(pi.OutlierP), " (limit 0.01)")
 		case ckBitLargeResid:
 			// As a technician reads numbers (app/numfmt): one minus
 			// sign, one p format ("p < 0.001").
-			sb.WriteString(ckReasonLargeResid + ": studentized residual " + numfmt.Sig(pi.Studentized, 3) +
-				", Bonferroni " + numfmt.PEq(pi.OutlierP) + " (limit 0.05)")
+			rw.s(ckReasonLargeResid+": studentized residual ", numfmt.Sig(pi.Studentized, 3),
+				", Bonferroni ", numfmt.PEq(pi.OutlierP), " (limit 0.05)")
 		case ckBitVeryInfluence:
-			sb.WriteString(ckReasonVeryInfluence + ": Cook's distance ")
+			rw.s(ckReasonVeryInfluence + ": Cook's distance ")
 			rw.g3(pi.CooksD)
-			sb.WriteString(c.fMedianTxt)
+			rw.s(c.fMedianTxt)
 		case ckBitInfluence:
-			sb.WriteString(ckReasonInfluence + ": Cook's distance ")
+			rw.s(ckReasonInfluence + ": Cook's distance ")
 			rw.g3(pi.CooksD)
-			sb.WriteString(c.cookLowTxt)
+			rw.s(c.cookLowTxt)
 		case ckBitDFFITS:
-			sb.WriteString(ckReasonDFFITS + ": DFFITS ")
+			rw.s(ckReasonDFFITS + ": DFFITS ")
 			rw.g3(pi.DFFITS)
-			sb.WriteString(c.dffitsTxt)
+			rw.s(c.dffitsTxt)
 		}
 		// Builder never changes bytes already written, so the substring
 		// stays valid (and, within the size grown for, shares the buffer).
