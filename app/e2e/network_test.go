@@ -46,11 +46,14 @@ import (
 // (fitcore.DriftShifted, the instrument view's shift alert and chart) took
 // 12,015,589 → 12,048,585 bytes raw and 2,118,012 → 2,123,897 of brotli,
 // the emulated FMA and the comparisons of fitcore's loops about 3 kB raw;
-// the budgets were raised by that and a small margin.
+// the budgets were raised by that and a small margin. Later that day
+// session.ResultsTable's rows were added by two methods not inlined and
+// the browser build compiled package time without inlining: 12,031,626
+// bytes raw, 2,113,158 of brotli, and the brotli budget came down again.
 const (
 	wasmRawBudget   = 12_090_000
 	wasmServeBudget = 2_500_000
-	wasmMadeBudget  = 2_130_000
+	wasmMadeBudget  = 2_120_000
 )
 
 // app.wasm stays within its raw budget.
