@@ -47,11 +47,18 @@ type DriftResult struct {
 	Status string // DriftTooFew, DriftSteady, DriftDrifting or DriftShifted
 
 	Rate, RateSE, RateLow, RateHigh float64 // change per unit of t (per year when t is in years)
-	P                               float64 // two-sided p for rate = 0, t with N − 2 df
+	P                               float64 // two-sided p for rate = 0, t with N − 2 df (or simulated, below)
 	Intercept, InterceptSE          float64 // fitted value at t = 0
 	MeanT                           float64 // weighted mean time
 	Sigma                           float64 // residual scale s (1 when the se are exact)
 	Level                           float64
+	// Simulated is the number of simulated histories P and the rate's
+	// interval (and a crossing's) come from (DriftEstimated, the standard
+	// errors being estimates); 0 when they come from Student's t. PBound
+	// says that none of them reached the observed statistic: P is then
+	// 1/(Simulated + 1) and only a bound, p ≤ P.
+	Simulated int
+	PBound    bool
 
 	// Leaves is the first limit the trend reaches after the last time, or
 	// nil; always nil when Status is DriftShifted (there is no trend to
@@ -118,8 +125,18 @@ type DriftResult struct {
 // the best step and its verdict (driftStep), then the first limit the line
 // leaves (leaves). The cost is linear in N (driftStep's sort included).
 func Drift(t, v, se []float64, level float64, lower, upper *float64) (*DriftResult, error) {
+	return drift(t, v, se, nil, level, lower, upper)
+}
+
+// drift is Drift, and DriftEstimated when df is not nil: then the rate's
+// p and interval come from simulated histories (driftReference) instead
+// of Student's t.
+func drift(t, v, se, df []float64, level float64, lower, upper *float64) (*DriftResult, error) {
 	if len(t) != len(v) || len(t) != len(se) {
 		return nil, errors.New("drift: times, values and standard errors must have the same length")
+	}
+	if df != nil && len(df) != len(t) {
+		return nil, fmt.Errorf("drift: one number of degrees of freedom is needed for each calibration's standard error (%d given for %d calibrations)", len(df), len(t))
 	}
 	if len(t) > MaxDriftPoints {
 		return nil, fmt.Errorf("drift: at most %d calibrations", MaxDriftPoints)
@@ -137,7 +154,11 @@ func Drift(t, v, se []float64, level float64, lower, upper *float64) (*DriftResu
 	if err := d.fit(t, v); err != nil {
 		return nil, err
 	}
-	d.report(res, level, float64(len(t)-2))
+	ref, err := driftReferenceFor(t, se, df, d.w)
+	if err != nil {
+		return nil, err
+	}
+	d.report(res, level, float64(len(t)-2), ref)
 	res.Step = d.driftStep(t, v)
 	if res.Step.shifted(res.Sigma) {
 		res.Status = DriftShifted
@@ -202,9 +223,9 @@ func (d *driftLine) fit(t, v []float64) error {
 }
 
 // report writes the rate, intercept, their standard errors, the interval
-// of the rate at the level (df degrees of freedom), its p and the verdict
-// into res.
-func (d *driftLine) report(res *DriftResult, level, df float64) {
+// of the rate at the level (df degrees of freedom, or the simulated
+// reference ref when it is not nil), its p and the verdict into res.
+func (d *driftLine) report(res *DriftResult, level, df float64, ref *driftReference) {
 	r, s2, tb := d.r, d.s2, d.tb
 	res.Sigma = math.Sqrt(s2)
 	res.Rate = r
@@ -213,8 +234,13 @@ func (d *driftLine) report(res *DriftResult, level, df float64) {
 	res.Intercept = d.vb - r*tb
 	res.InterceptSE = math.Sqrt(s2 * (1/d.sw + tb*tb/d.stt))
 	tc := lnTCrit(level, df)
-	res.RateLow, res.RateHigh = r-tc*res.RateSE, r+tc*res.RateSE
 	res.P = lnTwoSidedP(lnRatio(r, res.RateSE), df)
+	if ref != nil {
+		tc = ref.quantile(level)
+		res.P, res.PBound = ref.p(lnRatio(r, res.RateSE))
+		res.Simulated = len(ref.abs)
+	}
+	res.RateLow, res.RateHigh = r-tc*res.RateSE, r+tc*res.RateSE
 	res.Status = DriftSteady
 	if res.P < DriftAlpha {
 		res.Status = DriftDrifting
