@@ -374,6 +374,7 @@ type historyJSONDrift struct {
 	PerYearLow   float64          `json:"slope_per_year_low"`
 	PerYearHigh  float64          `json:"slope_per_year_high"`
 	P            float64          `json:"p"`
+	Simulated    int              `json:"simulated"`
 	Verdict      string           `json:"verdict"`
 	LeavesLimits *string          `json:"leaves_limits"`
 	Level        float64          `json:"level"`
@@ -399,7 +400,7 @@ type historyJSONStep struct {
 
 func driftJSON(d *fitcore.DriftResult, leaves *string, days []time.Time) historyJSONDrift {
 	j := historyJSONDrift{N: d.N, PerYear: d.Rate, PerYearLow: d.RateLow, PerYearHigh: d.RateHigh,
-		P: d.P, Verdict: d.Status, LeavesLimits: leaves, Level: d.Level}
+		P: d.P, Simulated: d.Simulated, Verdict: d.Status, LeavesLimits: leaves, Level: d.Level}
 	if st := d.Step; d.Status == fitcore.DriftShifted && st != nil && st.Before < len(days) && st.After < len(days) {
 		j.Step = &historyJSONStep{Before: day(days[st.Before]), After: day(days[st.After]),
 			LevelBefore: st.LevelBefore, LevelBeforeSE: st.LevelBeforeSE, LevelAfter: st.LevelAfter, LevelAfterSE: st.LevelAfterSE,

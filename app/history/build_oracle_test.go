@@ -91,15 +91,19 @@ func buildOracle(g []Summary, opt Options) (Instrument, error) {
 	t := make([]float64, len(acc))
 	sl, sls := make([]float64, len(acc)), make([]float64, len(acc))
 	ic, ics := make([]float64, len(acc)), make([]float64, len(acc))
+	df := make([]float64, len(acc))
 	for i, e := range acc {
 		t[i] = Years(e.Taken.Sub(in.Origin))
 		sl[i], sls[i], ic[i], ics[i] = e.Slope, e.SlopeSE, e.Intercept, e.InterceptSE
+		df[i] = seDF(e.DF)
 	}
+	// (Since 3 December the drift allows for the standard errors being
+	// estimates: DriftEstimated, as Build does.)
 	var err error
-	if in.SlopeDrift, err = fitcore.Drift(t, sl, sls, opt.Level, opt.SlopeLow, opt.SlopeHigh); err != nil {
+	if in.SlopeDrift, err = fitcore.DriftEstimated(t, sl, sls, df, opt.Level, opt.SlopeLow, opt.SlopeHigh); err != nil {
 		in.SlopeDrift = &fitcore.DriftResult{N: len(acc), Status: "not fitted: " + err.Error()}
 	}
-	if in.InterceptDrift, err = fitcore.Drift(t, ic, ics, opt.Level, opt.InterceptLow, opt.InterceptHigh); err != nil {
+	if in.InterceptDrift, err = fitcore.DriftEstimated(t, ic, ics, df, opt.Level, opt.InterceptLow, opt.InterceptHigh); err != nil {
 		in.InterceptDrift = &fitcore.DriftResult{N: len(acc), Status: "not fitted: " + err.Error()}
 	}
 	for _, d := range []struct {

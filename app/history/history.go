@@ -12,6 +12,7 @@ import (
 	"encoding/hex"
 	"errors"
 	"fmt"
+	"math"
 	"sort"
 	"strings"
 	"time"
@@ -52,9 +53,13 @@ type Summary struct {
 	Fitted                 bool
 	Slope, SlopeSE         float64
 	Intercept, InterceptSE float64
-	Accepted               bool
-	Reason                 string // why the line is not accepted or not fitted
-	X, Y                   []float64
+	// DF is the degrees of freedom of SlopeSE and InterceptSE (the
+	// line's residual degrees of freedom, fitcore Report.DF): they are
+	// estimates, and the drift allows for it (fitcore.DriftEstimated).
+	DF       float64
+	Accepted bool
+	Reason   string // why the line is not accepted or not fitted
+	X, Y     []float64
 
 	// For showing the history (the page of `pairline history --html`):
 	// the session's own intervals of slope and intercept at Level, R², the
@@ -117,6 +122,7 @@ func Summarize(s *session.Session) (Summary, error) {
 	sum.Fitted = true
 	sum.Slope, sum.SlopeSE = rep.Slope.Estimate, rep.Slope.SE
 	sum.Intercept, sum.InterceptSE = rep.Intercept.Estimate, rep.Intercept.SE
+	sum.DF = rep.DF
 	sum.X, sum.Y = x, y
 	sum.SlopeLow, sum.SlopeHigh = rep.Slope.CILow, rep.Slope.CIHigh
 	sum.InterceptLow, sum.InterceptHigh = rep.Intercept.CILow, rep.Intercept.CIHigh
@@ -339,17 +345,29 @@ func (in *Instrument) fitDrift(acc []*Entry, opt Options) {
 	t := make([]float64, len(acc))
 	sl, sls := make([]float64, len(acc)), make([]float64, len(acc))
 	ic, ics := make([]float64, len(acc)), make([]float64, len(acc))
+	df := make([]float64, len(acc))
 	for i, e := range acc {
 		t[i] = Years(e.Taken.Sub(in.Origin))
 		sl[i], sls[i], ic[i], ics[i] = e.Slope, e.SlopeSE, e.Intercept, e.InterceptSE
+		df[i] = seDF(e.DF)
 	}
 	var err error
-	if in.SlopeDrift, err = fitcore.Drift(t, sl, sls, opt.Level, opt.SlopeLow, opt.SlopeHigh); err != nil {
+	if in.SlopeDrift, err = fitcore.DriftEstimated(t, sl, sls, df, opt.Level, opt.SlopeLow, opt.SlopeHigh); err != nil {
 		in.SlopeDrift = &fitcore.DriftResult{N: len(acc), Status: "not fitted: " + err.Error()}
 	}
-	if in.InterceptDrift, err = fitcore.Drift(t, ic, ics, opt.Level, opt.InterceptLow, opt.InterceptHigh); err != nil {
+	if in.InterceptDrift, err = fitcore.DriftEstimated(t, ic, ics, df, opt.Level, opt.InterceptLow, opt.InterceptHigh); err != nil {
 		in.InterceptDrift = &fitcore.DriftResult{N: len(acc), Status: "not fitted: " + err.Error()}
 	}
+}
+
+// seDF is the degrees of freedom fitcore.DriftEstimated is given for a
+// calibration's standard errors: its line's residual degrees of freedom,
+// or +Inf (taken as exact) when a summary does not know them.
+func seDF(df float64) float64 {
+	if df > 0 && !math.IsNaN(df) {
+		return df
+	}
+	return math.Inf(1)
 }
 
 // DriftEntries are the accepted calibrations the drift is fitted over, in

@@ -390,7 +390,7 @@ func (p *instrumentsPanel) renderDrift(it *hv.Item) app.UI {
 				}),
 			)
 		}),
-		app.P().Class("pl-inst-hint").Text("A weighted line through the accepted calibrations against time (weights from each one's standard error); its rate is tested against zero. A single jump between two calibrations, level before and after, is tested too and called a shift, not a drift."),
+		app.P().Class("pl-inst-hint").Text("A weighted line through the accepted calibrations against time (weights from each one's standard error); its rate is tested against zero, allowing for each standard error being itself an estimate from that calibration's few readings. A single jump between two calibrations, level before and after, is tested too and called a shift, not a drift."),
 	)
 }
 

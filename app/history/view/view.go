@@ -548,14 +548,14 @@ func wordDrift(which string, r *fitcore.DriftResult, unit string, origin time.Ti
 	lvl := strings.TrimRight(strings.TrimRight(numfmt.Sig(r.Level*100, 3), "0"), ".")
 	rate := numfmt.Sig(d.PerMonth, 2) + u + " per month (" + lvl + " % interval " + numfmt.Sig(d.Low, 2) + " to " + numfmt.Sig(d.High, 2) + ")"
 	if r.Status == fitcore.DriftDrifting {
-		d.Text = name + " is drifting: " + rate + "; " + numfmt.PEq(r.P) + " for no drift, over " + strconv.Itoa(r.N) + " accepted calibrations."
+		d.Text = name + " is drifting: " + rate + "; " + driftP(r) + " for no drift, over " + strconv.Itoa(r.N) + " accepted calibrations."
 		if st := r.Step; st != nil && st.BetterThanLine && st.Before < len(days) && st.After < len(days) {
 			// fitcore could not tell a jump from the trend: say so.
 			d.Text += " A single jump between " + Day(days[st.Before]) + " and " + Day(days[st.After]) +
 				" would explain these values at least as well; if the instrument was repaired, adjusted or given new standards then, do not plan for steady wear."
 		}
 	} else {
-		d.Text = name + ": no drift shown: " + rate + "; " + numfmt.PEq(r.P) + " for no drift, over " + strconv.Itoa(r.N) + " accepted calibrations."
+		d.Text = name + ": no drift shown: " + rate + "; " + driftP(r) + " for no drift, over " + strconv.Itoa(r.N) + " accepted calibrations."
 	}
 	if l := r.Leaves; l != nil && r.Status == fitcore.DriftDrifting {
 		d.LeavesAt = origin.Add(history.Duration(l.At))
@@ -579,6 +579,16 @@ func wordDrift(which string, r *fitcore.DriftResult, unit string, origin time.Ti
 
 // wordStep words a step (fitcore.DriftShifted): where, by how much, and
 // what to do; no date of leaving a limit is projected from it.
+// driftP is the rate's p in words: "p = 0.012", or "p ≤ 0.0010" when
+// it is only a bound (fitcore.DriftResult.PBound: no simulated history
+// reached the observed one).
+func driftP(r *fitcore.DriftResult) string {
+	if r.PBound {
+		return "p ≤ " + numfmt.P(r.P)
+	}
+	return numfmt.PEq(r.P)
+}
+
 func wordStep(d Drift, name string, r *fitcore.DriftResult, unit string, days []time.Time) Drift {
 	st := r.Step
 	d.P = st.P

@@ -323,3 +323,36 @@ func TestWordDriftJumpHint(t *testing.T) {
 		t.Errorf("analyser slope: %s: %s", s.Status, s.Text)
 	}
 }
+
+// TestWordDriftPBound: a drift whose p comes from simulated histories of
+// which none reached the observed one (fitcore.DriftResult.PBound) is
+// worded "p ≤ 0.0010", not "p = 0.0010"; the same trend with exact
+// standard errors keeps "p < 0.001" (Student's t). Invented: a clear
+// monthly trend of 12 calibrations, each se on 6 degrees of freedom.
+func TestWordDriftPBound(t *testing.T) {
+	tm, v, se, df := make([]float64, 12), make([]float64, 12), make([]float64, 12), make([]float64, 12)
+	days := make([]time.Time, 12)
+	for i := range tm {
+		days[i] = instStart.AddDate(0, i, 0)
+		tm[i] = history.Years(days[i].Sub(instStart))
+		se[i], df[i] = 0.01, 6
+		v[i] = 1.5 - 0.2*tm[i] + 0.002*float64(i%3-1)
+	}
+	r, err := fitcore.DriftEstimated(tm, v, se, df, 0.95, nil, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !r.PBound || r.Status != fitcore.DriftDrifting {
+		t.Fatalf("the invented trend is no longer beyond every simulated history: %+v", r)
+	}
+	if d := wordDrift("slope", r, "", instStart, false, days); !strings.Contains(d.Text, "p ≤ 0.0010 for no drift") {
+		t.Errorf("text %q: want p ≤ 0.0010", d.Text)
+	}
+	e, err := fitcore.Drift(tm, v, se, 0.95, nil, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d := wordDrift("slope", e, "", instStart, false, days); !strings.Contains(d.Text, "p < 0.001 for no drift") {
+		t.Errorf("text %q: want p < 0.001", d.Text)
+	}
+}
