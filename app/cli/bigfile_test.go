@@ -145,6 +145,19 @@ func BenchmarkFitBig(b *testing.B) {
 	}
 }
 
+// BenchmarkFitBigNoAdvice: `pairline fit --no-advice` (the line and its
+// checks, no remedy tried: the work of the pandas + statsmodels script
+// `make bench-fit` times beside it) on a million rows; it asserts nothing.
+func BenchmarkFitBigNoAdvice(b *testing.B) {
+	path, _, _ := writeBigCSV(b, b.TempDir(), 1_000_000)
+	b.ReportAllocs()
+	for b.Loop() {
+		if code := Fit([]string{"--no-advice", path}, nil, io.Discard, io.Discard); code != ExitOK {
+			b.Fatal(code)
+		}
+	}
+}
+
 // BenchmarkFitBigJSON: `pairline fit --json` (default options) on a
 // million rows, the JSON written to nowhere; it asserts nothing.
 func BenchmarkFitBigJSON(b *testing.B) {
