@@ -97,10 +97,16 @@ func driftReferenceFor(t, se, df, w []float64) (*driftReference, error) {
 	if !estimated || len(t) > DriftSimulatedMax {
 		return nil, nil
 	}
+	return driftSimulate(t, se, df, w, DriftDraws, uint64(len(t))), nil
+}
+
+// driftSimulate draws the reference from draws histories, the generator
+// seeded by seed.
+func driftSimulate(t, se, df, w []float64, draws int, seed uint64) *driftReference {
 	n := len(t)
-	rng := rand.New(rand.NewPCG(0x7061_6972_6c69_6e65, uint64(n)))
+	rng := rand.New(rand.NewPCG(0x7061_6972_6c69_6e65, seed))
 	vs, ws := make([]float64, n), make([]float64, n)
-	ref := &driftReference{abs: make([]float64, DriftDraws)}
+	ref := &driftReference{abs: make([]float64, draws)}
 	for b := range ref.abs {
 		for i := range vs {
 			vs[i] = se[i] * rng.NormFloat64()
@@ -114,7 +120,7 @@ func driftReferenceFor(t, se, df, w []float64) (*driftReference, error) {
 	// (A NaN, from a degenerate draw, sorts first and so never counts as
 	// beyond the observed |T|.)
 	slices.Sort(ref.abs)
-	return ref, nil
+	return ref
 }
 
 // driftT is the t statistic r/se(r) of the weighted line v = a + r·t with
