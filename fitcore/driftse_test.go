@@ -292,3 +292,41 @@ func TestDriftEstimatedR(t *testing.T) {
 		t.Errorf("DriftEstimated p %.6f, quantile %.5f; R's %.6f, %.5f", e.P, qe, pR, qR)
 	}
 }
+
+// FuzzDriftEstimated: any calibrations (each four bytes: time, value, se
+// and df, the last 0 for "exact") give DriftEstimated an error or a
+// result without a panic, whose p is in [0, 1] (at least 1/(draws + 1)
+// when simulated) and whose interval holds the rate, simulated exactly
+// when some df is finite.
+func FuzzDriftEstimated(f *testing.F) {
+	f.Add([]byte{0, 10, 5, 6, 1, 11, 6, 6, 2, 12, 5, 6, 3, 12, 7, 6})
+	f.Add([]byte{0, 10, 5, 0, 1, 11, 6, 0, 2, 12, 5, 0})
+	f.Add([]byte{0, 0, 1, 1, 0, 0, 1, 1, 9, 200, 255, 255})
+	f.Fuzz(func(t *testing.T, data []byte) {
+		n := len(data) / 4
+		tm, v, se, df := make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
+		finite := false
+		for i := range n {
+			b := data[4*i : 4*i+4]
+			tm[i], v[i], se[i] = float64(b[0])/12, 1+float64(b[1])/100, float64(b[2])/1000
+			df[i] = math.Inf(1)
+			if b[3] > 0 {
+				df[i], finite = float64(b[3])/4, true
+			}
+		}
+		d, err := fitcore.DriftEstimated(tm, v, se, df, 0.95, nil, nil)
+		if err != nil || d.Status == fitcore.DriftTooFew {
+			return
+		}
+		pMin := 0.0 // Student's t gives 0 for values exactly on a line
+		if d.Simulated > 0 {
+			pMin = 1 / float64(d.Simulated+1)
+		}
+		if !(d.P >= pMin && d.P <= 1) || d.RateLow > d.Rate || d.Rate > d.RateHigh {
+			t.Errorf("p %g (at least %g), rate %g in [%g, %g]", d.P, pMin, d.Rate, d.RateLow, d.RateHigh)
+		}
+		if want := finite && n <= fitcore.DriftSimulatedMax; (d.Simulated > 0) != want {
+			t.Errorf("simulated %d, some df finite %v", d.Simulated, finite)
+		}
+	})
+}
