@@ -91,8 +91,8 @@ commas are detected; blank and incomplete rows are skipped and counted.
 flags:
   --json               print one JSON object (keys in app/cli/FIT-JSON.md)
   --no-advice          the line and its checks only: no remedy is tried (no
-                       transform, weighting or Box–Cox power); about half
-                       the time on a file of a million rows
+                       transform, weighting or Box–Cox power); about a
+                       third of the time on a file of a million rows
   --model M            ols (default) | origin | weighted | deming
   --origin             same as --model origin
   --weights W          none | x | x2 | fitted2 | repeats | power (implies

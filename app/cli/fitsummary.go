@@ -207,8 +207,9 @@ func standsOutBlock(b *strings.Builder, fr *fitResult, _ float64) {
 }
 
 // adviceBlock is the Box–Cox power when one was estimated, and the advice
-// when it offers a remedy (or that it was not worked out, with --no-advice): the flag that applies it, its reason, the
-// verdicts before and after, and why each other candidate was turned down.
+// when it offers a remedy: the flag that applies it, its reason, the
+// verdicts before and after, and why each other candidate was turned down
+// (with --no-advice, a line saying it was not worked out).
 func adviceBlock(b *strings.Builder, fr *fitResult, level float64) {
 	r := fr.report
 	if r.BoxCox != nil {

@@ -577,8 +577,6 @@ func wordDrift(which string, r *fitcore.DriftResult, unit string, origin time.Ti
 	return d
 }
 
-// wordStep words a step (fitcore.DriftShifted): where, by how much, and
-// what to do; no date of leaving a limit is projected from it.
 // driftP is the rate's p in words: "p = 0.012", or "p ≤ 0.0010" when
 // it is only a bound (fitcore.DriftResult.PBound: no simulated history
 // reached the observed one).
@@ -589,6 +587,8 @@ func driftP(r *fitcore.DriftResult) string {
 	return numfmt.PEq(r.P)
 }
 
+// wordStep words a step (fitcore.DriftShifted): where, by how much, and
+// what to do; no date of leaving a limit is projected from it.
 func wordStep(d Drift, name string, r *fitcore.DriftResult, unit string, days []time.Time) Drift {
 	st := r.Step
 	d.P = st.P
