@@ -82,7 +82,9 @@ type DriftResult struct {
 // (weighted least squares, e.g. Draper & Smith, "Applied Regression
 // Analysis", §9; from memory). The interval is r ± t_{1−α/2,N−2}·se(r) and
 // P is the two-sided t test of r = 0. The scale s is estimated as lm does,
-// so the se need only be right relative to one another.
+// so the se need only be right relative to one another; when they are
+// themselves estimates from a few readings each, DriftEstimated allows
+// for that.
 //
 // With lower and/or upper limits (nil = none) the projected crossing is the
 // first limit the fitted line reaches after the last time: At = t̄ + (L − v̄)/r.
