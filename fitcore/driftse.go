@@ -124,7 +124,8 @@ func driftSimulate(t, se, df, w []float64, draws int, seed uint64) *driftReferen
 }
 
 // driftT is the t statistic r/se(r) of the weighted line v = a + r·t with
-// weights w, as driftLine works it out (s² = Σw e²/(N−2)).
+// weights w, worked out by driftLine.fit as Drift works it out (s² =
+// Σw e²/(N−2)); NaN when t has no spread.
 func driftT(t, v, w []float64) float64 {
 	var sw, swt, swv float64
 	for i := range t {
@@ -132,20 +133,11 @@ func driftT(t, v, w []float64) float64 {
 		swt += w[i] * t[i]
 		swv += w[i] * v[i]
 	}
-	tb, vb := swt/sw, swv/sw
-	var stt, stv float64
-	for i := range t {
-		dt := t[i] - tb
-		stt += w[i] * dt * dt
-		stv += w[i] * dt * (v[i] - vb)
+	d := driftLine{w: w, sw: sw, tb: swt / sw, vb: swv / sw}
+	if d.fit(t, v) != nil {
+		return math.NaN()
 	}
-	r := stv / stt
-	var sse float64
-	for i := range t {
-		e := v[i] - vb - r*(t[i]-tb)
-		sse += w[i] * e * e
-	}
-	return lnRatio(r, math.Sqrt(sse/float64(len(t)-2)/stt))
+	return lnRatio(d.r, math.Sqrt(d.s2/d.stt))
 }
 
 // chiSquaredDraw draws from χ² with k > 0 degrees of freedom as 2·G, G

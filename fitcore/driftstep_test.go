@@ -372,14 +372,7 @@ func TestDriftStepRatesEstimatedSE(t *testing.T) {
 			var shifted, drifting int
 			for range trials {
 				stepTrial(r, n, tc.truth, tm, v, se)
-				for i := range se {
-					var c float64
-					for range df {
-						z := r.NormFloat64()
-						c += z * z
-					}
-					se[i] *= math.Sqrt(c / df)
-				}
+				estimatedSE(r, se, df)
 				d, err := fitcore.Drift(tm, v, se, 0.95, nil, nil)
 				if err != nil {
 					t.Fatal(err)
