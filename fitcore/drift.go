@@ -235,12 +235,14 @@ func (d *driftLine) report(res *DriftResult, level, df float64, ref *driftRefere
 	res.MeanT = tb
 	res.Intercept = d.vb - r*tb
 	res.InterceptSE = math.Sqrt(s2 * (1/d.sw + tb*tb/d.stt))
-	tc := lnTCrit(level, df)
-	res.P = lnTwoSidedP(lnRatio(r, res.RateSE), df)
+	var tc float64
 	if ref != nil {
 		tc = ref.quantile(level)
 		res.P, res.PBound = ref.p(lnRatio(r, res.RateSE))
 		res.Simulated = len(ref.abs)
+	} else {
+		tc = lnTCrit(level, df)
+		res.P = lnTwoSidedP(lnRatio(r, res.RateSE), df)
 	}
 	res.RateLow, res.RateHigh = r-tc*res.RateSE, r+tc*res.RateSE
 	res.Status = DriftSteady

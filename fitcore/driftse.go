@@ -49,6 +49,8 @@ const DriftSimulatedMax = 2000
 // calibrations, the result is Drift's (DriftResult.Simulated = 0).
 func DriftEstimated(t, v, se, df []float64, level float64, lower, upper *float64) (*DriftResult, error) {
 	if df == nil {
+		// Not nil: drift then asks for one df per calibration, where nil
+		// would quietly give Drift's t test.
 		df = []float64{}
 	}
 	return drift(t, v, se, df, level, lower, upper)
