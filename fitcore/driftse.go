@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"slices"
+	"sort"
 )
 
 // DriftDraws is the number of simulated histories behind the p and the
@@ -69,7 +69,16 @@ func (r *driftReference) p(t float64) (p float64, bound bool) {
 	if math.IsNaN(t) {
 		return 1, false
 	}
-	at, _ := slices.BinarySearch(r.abs, math.Abs(t))
+	// at is the first position holding |t| or more (the NaNs sort first).
+	at, hi, abs := 0, len(r.abs), math.Abs(t)
+	for at < hi {
+		m := int(uint(at+hi) >> 1)
+		if a := r.abs[m]; a < abs || a != a {
+			at = m + 1
+		} else {
+			hi = m
+		}
+	}
 	return float64(1+len(r.abs)-at) / float64(len(r.abs)+1), at == len(r.abs)
 }
 
@@ -121,7 +130,7 @@ func driftSimulate(t, se, df, w []float64, draws int, seed uint64) *driftReferen
 	}
 	// (A NaN, from a degenerate draw, sorts first and so never counts as
 	// beyond the observed |T|.)
-	slices.Sort(ref.abs)
+	sort.Sort(sort.Float64Slice(ref.abs))
 	return ref
 }
 

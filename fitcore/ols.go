@@ -1,10 +1,9 @@
 package fitcore
 
 import (
-	"cmp"
 	"fmt"
 	"math"
-	"slices"
+	"sort"
 )
 
 // This file holds the least-squares engine shared by every model: ordinary
@@ -673,13 +672,24 @@ func schemeWeights(scheme WeightScheme, x, y, given []float64, origin bool, rep 
 	return w, m, nil
 }
 
+// byValueAt orders positions by the value at them (sort.Interface; x holds
+// no NaN).
+type byValueAt struct {
+	idx []int
+	x   []float64
+}
+
+func (s byValueAt) Len() int           { return len(s.idx) }
+func (s byValueAt) Swap(i, j int)      { s.idx[i], s.idx[j] = s.idx[j], s.idx[i] }
+func (s byValueAt) Less(i, j int) bool { return s.x[s.idx[i]] < s.x[s.idx[j]] }
+
 // repeatWeights sets w_i = 1/s²_j from the repeats at each distinct x.
 func repeatWeights(x, y, w []float64) error {
 	idx := make([]int, len(x))
 	for i := range idx {
 		idx[i] = i
 	}
-	slices.SortFunc(idx, func(a, b int) int { return cmp.Compare(x[a], x[b]) })
+	sort.Sort(byValueAt{idx, x})
 	for s := 0; s < len(idx); {
 		e := s + 1
 		for e < len(idx) && x[idx[e]] == x[idx[s]] {

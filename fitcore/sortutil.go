@@ -2,7 +2,7 @@ package fitcore
 
 import (
 	"math"
-	"slices"
+	"sort"
 )
 
 // Sorting helpers for the checks. Samples of ckMSDMin values or more start
@@ -11,7 +11,10 @@ import (
 // Art of Computer Programming, vol. 3, §5.2.5): six stable counting passes of
 // 11 bits over the 64-bit keys, skipping a pass when every key has the same
 // digit there, so the cost is O(n) with a small constant and never worse than
-// O(n log n). Small samples use slices.Sort.
+// O(n log n). Small samples use package sort's interface sort (sort.Sort),
+// which the standard library links into the browser build anyway: a
+// generic sort (slices.Sort, slices.SortFunc) would add an instantiation of
+// its own, 6 to 15 kB of app.wasm each (DEVELOPERS.md, "Fifth cut").
 
 // ckRadixMin is the sample size from which the radix sort is used; below it
 // the comparison sort is faster.
@@ -147,6 +150,15 @@ func ckRadixKeys(keys, tmp []uint64) []uint64 {
 type ckKeyIdx struct {
 	k uint64
 	i int32
+}
+
+// ckKeyIdxSlice sorts pairs by key, then by position (sort.Interface).
+type ckKeyIdxSlice []ckKeyIdx
+
+func (s ckKeyIdxSlice) Len() int      { return len(s) }
+func (s ckKeyIdxSlice) Swap(i, j int) { s[i], s[j] = s[j], s[i] }
+func (s ckKeyIdxSlice) Less(i, j int) bool {
+	return s[i].k < s[j].k || (s[i].k == s[j].k && s[i].i < s[j].i)
 }
 
 // ckRadixPairs sorts p ascending by key, stable (equal keys keep their
@@ -290,7 +302,7 @@ func (b *ckSortBuf) sortedCopy(v []float64) []float64 {
 	out := b.f
 	if n < ckRadixMin {
 		copy(out, v)
-		slices.Sort(out)
+		sort.Sort(sort.Float64Slice(out))
 		return out
 	}
 	b.k1 = ckGrowU64(b.k1, n)
@@ -308,7 +320,7 @@ func (b *ckSortBuf) sortedCopy(v []float64) []float64 {
 func (b *ckSortBuf) sortInPlace(v []float64) {
 	n := len(v)
 	if n < ckRadixMin {
-		slices.Sort(v)
+		sort.Sort(sort.Float64Slice(v))
 		return
 	}
 	b.k1 = ckGrowU64(b.k1, n)
@@ -352,22 +364,6 @@ func (b *ckSortBuf) order(v []float64) []int32 {
 		}
 		return b.idx
 	}
-	if n < ckRadixMin {
-		idx := b.idx
-		for i := range idx {
-			idx[i] = int32(i)
-		}
-		slices.SortStableFunc(idx, func(p, q int32) int {
-			switch kp, kq := ckSortKey(v[p]), ckSortKey(v[q]); {
-			case kp < kq:
-				return -1
-			case kp > kq:
-				return 1
-			}
-			return 0
-		})
-		return idx
-	}
 	if cap(b.p1) < n {
 		b.p1 = make([]ckKeyIdx, n)
 		b.p2 = make([]ckKeyIdx, n)
@@ -377,7 +373,12 @@ func (b *ckSortBuf) order(v []float64) []int32 {
 		p1[i] = ckKeyIdx{ckSortKey(a), int32(i)}
 	}
 	var sorted []ckKeyIdx
-	if n >= ckMSDMin {
+	if n < ckRadixMin {
+		// Ordered by key, then position: one answer, that of a stable
+		// sort by key.
+		sort.Sort(ckKeyIdxSlice(p1))
+		sorted = p1
+	} else if n >= ckMSDMin {
 		if b.cnt == nil {
 			b.cnt = make([]int32, 1<<ckMSDBits)
 		}

@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"slices"
+	"sort"
 	"testing"
 )
 
@@ -194,4 +195,57 @@ func BenchmarkSortPairs(b *testing.B) {
 			ckSortPairs(q, tmp, cnt)
 		}
 	})
+}
+
+// TestInterfaceSortsMatchSlices: the small-sample sorts go through package
+// sort's interface sort (to keep generic sorts out of app.wasm); on the same
+// input they give, bit for bit and tie for tie, what slices.Sort and
+// slices.SortFunc gave before (the two are generated from one template of
+// the standard library, sort/gen_sort_variants.go), signed zeros and ties
+// included.
+func TestInterfaceSortsMatchSlices(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 11))
+	for _, n := range []int{0, 1, 2, 5, 11, 12, 13, 40, 100, 511, 700, 3000} {
+		for trial := range 20 {
+			v := make([]float64, n)
+			for i := range v {
+				switch rng.IntN(4) {
+				case 0:
+					v[i] = math.Copysign(0, float64(rng.IntN(2))-0.5)
+				case 1:
+					v[i] = float64(rng.IntN(5))
+				default:
+					v[i] = rng.NormFloat64()
+				}
+			}
+			want := slices.Clone(v)
+			slices.Sort(want)
+			got := slices.Clone(v)
+			sort.Sort(sort.Float64Slice(got))
+			for i := range want {
+				if math.Float64bits(got[i]) != math.Float64bits(want[i]) {
+					t.Fatalf("n=%d trial %d: value %d is %v, slices.Sort gives %v", n, trial, i, got[i], want[i])
+				}
+			}
+			wi, gi := make([]int, n), make([]int, n)
+			for i := range wi {
+				wi[i], gi[i] = i, i
+			}
+			slices.SortFunc(wi, func(a, b int) int { return cmp.Compare(v[a], v[b]) })
+			sort.Sort(byValueAt{gi, v})
+			if !slices.Equal(wi, gi) {
+				t.Fatalf("n=%d trial %d: positions %v, slices.SortFunc gives %v", n, trial, gi, wi)
+			}
+			// order: by value, equal values by position (a stable sort).
+			ws := make([]int32, n)
+			for i := range ws {
+				ws[i] = int32(i)
+			}
+			slices.SortStableFunc(ws, func(a, b int32) int { return cmp.Compare(ckSortKey(v[a]), ckSortKey(v[b])) })
+			var b ckSortBuf
+			if got := b.order(v); !slices.Equal(got, ws) {
+				t.Fatalf("n=%d trial %d: order %v, a stable sort gives %v", n, trial, got, ws)
+			}
+		}
+	}
 }
