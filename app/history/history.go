@@ -279,18 +279,41 @@ func dedupe(g []Summary) (entries []Entry, duplicates int) {
 	return entries, duplicates
 }
 
-// sortEntries orders the entries by the day taken, then ID, then revision.
+// sortEntries orders the entries by the day taken, then ID, then revision;
+// entries equal in all three keep their order. (Through sort.Sort, which
+// the standard library links into the browser build anyway: sort.Slice and
+// sort.SliceStable would add their own copies of the sort to app.wasm.)
 func sortEntries(entries []Entry) {
-	sort.SliceStable(entries, func(i, j int) bool {
-		a, b := entries[i], entries[j]
-		if !a.Taken.Equal(b.Taken) {
-			return a.Taken.Before(b.Taken)
-		}
-		if a.ID != b.ID {
-			return a.ID < b.ID
-		}
+	pos := make([]int, len(entries))
+	for i := range pos {
+		pos[i] = i
+	}
+	sort.Sort(entryOrder{entries, pos})
+}
+
+// entryOrder is sortEntries' order (sort.Interface): pos holds each
+// entry's position before the sort, the last key.
+type entryOrder struct {
+	e   []Entry
+	pos []int
+}
+
+func (s entryOrder) Len() int { return len(s.e) }
+func (s entryOrder) Swap(i, j int) {
+	s.e[i], s.e[j] = s.e[j], s.e[i]
+	s.pos[i], s.pos[j] = s.pos[j], s.pos[i]
+}
+func (s entryOrder) Less(i, j int) bool {
+	a, b := &s.e[i], &s.e[j]
+	switch {
+	case !a.Taken.Equal(b.Taken):
+		return a.Taken.Before(b.Taken)
+	case a.ID != b.ID:
+		return a.ID < b.ID
+	case a.Revision != b.Revision:
 		return a.Revision < b.Revision
-	})
+	}
+	return s.pos[i] < s.pos[j]
 }
 
 // compareAccepted walks the entries in order, past earlier revisions,

@@ -43,11 +43,19 @@ func (t *criteriaTemplates) load(ls app.BrowserStorage) {
 	t.list = list
 }
 
+// byTemplateName orders templates by name, ignoring case (sort.Interface:
+// sort.Slice would add a copy of the sort of its own to app.wasm).
+type byTemplateName []accTemplate
+
+func (s byTemplateName) Len() int      { return len(s) }
+func (s byTemplateName) Swap(i, j int) { s[i], s[j] = s[j], s[i] }
+func (s byTemplateName) Less(i, j int) bool {
+	return strings.ToLower(s[i].Name) < strings.ToLower(s[j].Name)
+}
+
 // store writes the templates, sorted by name, to ls.
 func (t *criteriaTemplates) store(ls app.BrowserStorage) {
-	sort.Slice(t.list, func(i, j int) bool {
-		return strings.ToLower(t.list[i].Name) < strings.ToLower(t.list[j].Name)
-	})
+	sort.Sort(byTemplateName(t.list))
 	if err := ls.Set(accTemplatesKey, t.list); err != nil {
 		t.msg = "The templates could not be saved on this device: " + err.Error()
 	}
@@ -328,7 +336,7 @@ func (r *criteriaCard) stamp() app.UI {
 			app.Span().Class("an-badge-icon").Attr("aria-hidden", "true").Text(icon+" "),
 			app.Span().Text(word),
 		),
-		app.P().Class("an-stamp-summary").Text(summary),
+		anPText("an-stamp-summary", summary),
 		app.If(len(reasons) > 0, func() app.UI { return app.Ul().Class("an-reasons").Body(reasons...) }),
 	)
 }
@@ -355,23 +363,23 @@ func (r *criteriaCard) templates() app.UI {
 	return app.Div().Class("an-templates").DataSet("testid", "acceptance-templates").Body(
 		app.H3().Text("Saved criteria on this device"),
 		app.If(len(r.Templates) == 0, func() app.UI {
-			return app.P().Class("an-hint").Text("None yet. Save the criteria above under a name to reuse them in other sessions.")
+			return anPText("an-hint", "None yet. Save the criteria above under a name to reuse them in other sessions.")
 		}),
 		app.Ul().Class("an-tpl-list").Body(app.Range(r.Templates).Slice(func(i int) app.UI {
 			t := r.Templates[i]
 			if r.TplConfirm == t.Name {
 				return app.Li().Class("an-tpl an-tpl-confirm").DataSet("testid", "template-item").DataSet("name", t.Name).Body(
-					app.Span().Class("an-tpl-name").Text("Delete “"+t.Name+"”?"),
-					app.Button().Class("pl-btn pl-btn-danger").Text("Delete").DataSet("testid", "template-delete-confirm").
+					anSpanText("an-tpl-name", "Delete “"+t.Name+"”?"),
+					anButton("pl-btn pl-btn-danger", "Delete", "template-delete-confirm").
 						DataSet("name", t.Name).DataSet("act", caTplDeleteConfirm).OnClick(named),
 					app.Button().Class("pl-btn pl-btn-quiet").Text("Keep").DataSet("act", caTplKeep).OnClick(named),
 				)
 			}
 			return app.Li().Class("an-tpl").DataSet("testid", "template-item").DataSet("name", t.Name).Body(
-				app.Span().Class("an-tpl-name").Text(t.Name),
-				app.Button().Class("pl-btn").Text("Use").DataSet("testid", "template-use").DataSet("name", t.Name).
+				anSpanText("an-tpl-name", t.Name),
+				anButton("pl-btn", "Use", "template-use").DataSet("name", t.Name).
 					DataSet("act", caTplUse).OnClick(named),
-				app.Button().Class("pl-btn pl-btn-quiet").Text("Delete").DataSet("testid", "template-delete").
+				anButton("pl-btn pl-btn-quiet", "Delete", "template-delete").
 					DataSet("name", t.Name).DataSet("act", caTplDelete).OnClick(named),
 			)
 		})),
@@ -382,7 +390,7 @@ func (r *criteriaCard) templates() app.UI {
 				OnInput(func(ctx app.Context, e app.Event) {
 					r.act(CardAction{Kind: caTplName, Text: takeTyped(ctx.JSSrc())})
 				}),
-			app.Button().Class("pl-btn").Text("Save criteria").DataSet("testid", "template-save").
+			anButton("pl-btn", "Save criteria", "template-save").
 				Disabled(anCriteriaEmpty(r.Criteria)).
 				OnClick(func(ctx app.Context, e app.Event) { r.act(CardAction{Kind: caTplSave}) }),
 		),
