@@ -212,34 +212,14 @@ func (r *adviceCard) beforeAfter(rep *fitcore.Report, ad *fitcore.Advice) app.UI
 		}
 	}
 	rows = append(rows,
-		app.Tr().Body(
-			app.Th().Attr("scope", "row").Text("R²"),
-			app.Td().Body(anNum("advice-r2-before", b.RSquared, numfmt.Decimals(b.RSquared, 4))),
-			app.Td().Body(anNum("advice-r2-after", a.RSquared, numfmt.Decimals(a.RSquared, 4))),
-		),
-		app.Tr().Body(
-			app.Th().Attr("scope", "row").Text(wording.TestP("Breusch–Pagan")),
-			app.Td().Body(anNum("", b.BreuschPaganP, anP(b.BreuschPaganP))),
-			app.Td().Body(anNum("", a.BreuschPaganP, anP(a.BreuschPaganP))),
-		),
-		app.Tr().Body(
-			app.Th().Attr("scope", "row").Text(wording.TestP("Curvature")),
-			app.Td().Body(anNum("", b.CurvatureP, anP(b.CurvatureP))),
-			app.Td().Body(anNum("", a.CurvatureP, anP(a.CurvatureP))),
-		),
+		baNumRow("R²", "advice-r2-", b.RSquared, a.RSquared, numfmt.Decimals(b.RSquared, 4), numfmt.Decimals(a.RSquared, 4)),
+		baNumRow(wording.TestP("Breusch–Pagan"), "", b.BreuschPaganP, a.BreuschPaganP, anP(b.BreuschPaganP), anP(a.BreuschPaganP)),
+		baNumRow(wording.TestP("Curvature"), "", b.CurvatureP, a.CurvatureP, anP(b.CurvatureP), anP(a.CurvatureP)),
 	)
 	if cand != nil {
 		rows = append(rows,
-			app.Tr().Body(
-				app.Th().Attr("scope", "row").Text("Slope"),
-				app.Td().Body(anNum("advice-slope-before", rep.Slope.Estimate, numfmt.Sig(rep.Slope.Estimate, sig))),
-				app.Td().Body(anNum("advice-slope-after", cand.Slope, numfmt.Sig(cand.Slope, sig))),
-			),
-			app.Tr().Body(
-				app.Th().Attr("scope", "row").Text("Intercept"),
-				app.Td().Body(anNum("advice-intercept-before", rep.Intercept.Estimate, numfmt.Sig(rep.Intercept.Estimate, sig))),
-				app.Td().Body(anNum("advice-intercept-after", cand.Intercept, numfmt.Sig(cand.Intercept, sig))),
-			),
+			baNumRow("Slope", "advice-slope-", rep.Slope.Estimate, cand.Slope, numfmt.Sig(rep.Slope.Estimate, sig), numfmt.Sig(cand.Slope, sig)),
+			baNumRow("Intercept", "advice-intercept-", rep.Intercept.Estimate, cand.Intercept, numfmt.Sig(rep.Intercept.Estimate, sig), numfmt.Sig(cand.Intercept, sig)),
 		)
 	}
 	after := "After"
@@ -253,8 +233,23 @@ func (r *adviceCard) beforeAfter(rep *fitcore.Report, ad *fitcore.Advice) app.UI
 			app.TBody().Body(rows...),
 		),
 		app.If(cand != nil && weighted == fitcore.WeightsNone, func() app.UI {
-			return app.P().Class("an-hint").Text("After: slope and intercept on the new scale.")
+			return anPText("an-hint", "After: slope and intercept on the new scale.")
 		}),
+	)
+}
+
+// baNumRow is a row of the before-and-after table: the label, then the
+// number now (shown as bs, full value vb) and after the remedy; id, when
+// not empty, is the start of the cells' test ids (id+"before", id+"after").
+func baNumRow(label, id string, vb, va float64, bs, as string) app.UI {
+	ib, ia := "", ""
+	if id != "" {
+		ib, ia = id+"before", id+"after"
+	}
+	return app.Tr().Body(
+		app.Th().Attr("scope", "row").Text(label),
+		app.Td().Body(anNum(ib, vb, bs)),
+		app.Td().Body(anNum(ia, va, as)),
 	)
 }
 
@@ -278,7 +273,7 @@ func (r *adviceCard) originalUnits(rep *fitcore.Report) app.UI {
 	}
 	return app.Div().Class("an-orig").DataSet("testid", "original-units").Body(
 		app.H3().Text("Line in original units"),
-		app.P().Class("an-hint").Text(note+"Intervals are at "+lvl+"."),
+		anPText("an-hint", note+"Intervals are at "+lvl+"."),
 		anScroll("Line in original units").Body(
 			app.Table().Class("an-table an-tests").Body(
 				app.THead().Body(app.Tr().Body(

@@ -147,7 +147,7 @@ func anTests(cs []fitcore.CheckPresent) app.UI {
 		return app.Li().Class("an-test").DataSet("testid", "test-"+anSlug(k.Name)).DataSet("verdict", string(k.Verdict)).Body(
 			app.Div().Class("an-test-head").Body(app.Strong().Text(k.Name), anBadge(k.Verdict)),
 			app.If(len(nums) > 0, func() app.UI { return app.P().Class("an-test-nums").Body(nums...) }),
-			app.If(k.Message != "", func() app.UI { return app.P().Class("an-test-msg").Text(k.Message) }),
+			app.If(k.Message != "", func() app.UI { return anPText("an-test-msg", k.Message) }),
 		)
 	}))
 }
@@ -219,7 +219,7 @@ func (r *checksCard) rowOf(i int) int {
 
 func (r *checksCard) influenceTable(flagged []fitcore.PointInfluence) app.UI {
 	if len(flagged) == 0 {
-		return app.P().Class("an-hint").Text("No reading is flagged by leverage, studentized residual, Cook's distance or DFFITS.")
+		return anPText("an-hint", "No reading is flagged by leverage, studentized residual, Cook's distance or DFFITS.")
 	}
 	sig := numfmt.Precision(r.Digits)
 	return app.Ul().Class("an-tests-list").DataSet("testid", "influence-table").Body(app.Range(flagged).Slice(func(i int) app.UI {
@@ -234,7 +234,7 @@ func (r *checksCard) influenceTable(flagged []fitcore.PointInfluence) app.UI {
 				app.Span().Text(" · leverage "), anNum(id+"leverage", p.Leverage, numfmt.Sig(p.Leverage, 3)),
 				app.Span().Text(" · Cook's D "), anNum(id+"cooks", p.CooksD, numfmt.Sig(p.CooksD, 3)),
 			),
-			app.P().Class("an-test-msg").Text(strings.Join(p.Reasons, "; ")),
+			anPText("an-test-msg", strings.Join(p.Reasons, "; ")),
 		)
 	}))
 }

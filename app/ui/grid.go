@@ -36,7 +36,7 @@ func (c *Shell) renderReadings() app.UI {
 		),
 		app.If(len(s.Readings) > pageSize, func() app.UI { return c.pager(lo, hi) }),
 		app.Div().Class("pl-grid-foot").Body(
-			app.Button().Class("pl-btn pl-btn-wide").Text("+ Add reading").DataSet("testid", "add-row").Disabled(c.ctl.locked()).
+			anButton("pl-btn pl-btn-wide", "+ Add reading", "add-row").Disabled(c.ctl.locked()).
 				OnClick(func(ctx app.Context, e app.Event) {
 					i, err := c.ctl.addRow()
 					if err != nil {
@@ -70,10 +70,10 @@ func (c *Shell) pageRange() (lo, hi int) {
 func (c *Shell) pager(lo, hi int) app.UI {
 	n := len(c.ctl.sess.Readings)
 	return app.Div().Class("pl-pager").Body(
-		app.Button().Class("pl-btn pl-btn-quiet").Text("‹ Previous").DataSet("testid", "page-prev").
+		anButton("pl-btn pl-btn-quiet", "‹ Previous", "page-prev").
 			Disabled(lo == 0).OnClick(func(ctx app.Context, e app.Event) { c.page--; c.resyncInputs() }),
 		app.Span().DataSet("testid", "page-info").Text("Readings "+numfmt.Count(lo+1)+"–"+numfmt.Count(hi)+" of "+numfmt.Count(n)),
-		app.Button().Class("pl-btn pl-btn-quiet").Text("Next ›").DataSet("testid", "page-next").
+		anButton("pl-btn pl-btn-quiet", "Next ›", "page-next").
 			Disabled(hi >= n).OnClick(func(ctx app.Context, e app.Event) { c.page++; c.resyncInputs() }),
 	)
 }

@@ -60,14 +60,14 @@ func (p *instrumentsPanel) Render() app.UI {
 	return app.Section().Class("pl-card pl-instruments").Attr("aria-label", "Instruments").DataSet("testid", "instruments").Body(
 		app.Div().Class("pl-inst-head").Body(
 			app.H2().Text("Instruments"),
-			app.Button().Class("pl-btn pl-btn-quiet").Text("Close").DataSet("testid", "instruments-close").
+			anButton("pl-btn pl-btn-quiet", "Close", "instruments-close").
 				OnClick(func(ctx app.Context, e app.Event) {
 					if p.OnClose != nil {
 						p.OnClose()
 					}
 				}),
 		),
-		app.P().Class("pl-inst-hint").Text("Every calibration on this device, by the instrument's identifier or serial number on the record card."),
+		anPText("pl-inst-hint", "Every calibration on this device, by the instrument's identifier or serial number on the record card."),
 		app.If(p.Message != "", func() app.UI {
 			return app.P().Class("pl-inst-msg").Attr("role", "alert").DataSet("testid", "instruments-message").Text(p.Message)
 		}),
@@ -105,8 +105,8 @@ func (p *instrumentsPanel) renderList() app.UI {
 							// On a phone the view is below the list: bring it up.
 							ctx.Defer(func(ctx app.Context) { scrollToTestID("instrument-view") })
 						}, app.EventScope(in.Key)).Body(
-						app.Span().Class("pl-inst-key").Text(in.Key),
-						app.Span().Class("pl-inst-desc").Text(in.Description),
+						anSpanText("pl-inst-key", in.Key),
+						anSpanText("pl-inst-desc", in.Description),
 						app.Span().Class("pl-inst-count").DataSet("testid", "instrument-count").DataSet("value", strconv.Itoa(in.Count)).
 							Text(plural(in.Count, "calibration", "calibrations")),
 						app.Span().Class("pl-due pl-due-"+in.Due.State).DataSet("testid", "instrument-due").DataSet("state", in.Due.State).
@@ -267,7 +267,7 @@ func numCell(testid string, fitted bool, v, se float64, vt, set string) app.UI {
 	// seven columns fit a tablet.
 	return app.Span().Class("pl-num-sm pl-inst-est").DataSet("testid", testid).DataSet("value", numfmt.Full(v)).DataSet("se", numfmt.Full(se)).Body(
 		app.Span().Text(vt),
-		app.Span().Class("pl-inst-se").Text(" ± "+set),
+		anSpanText("pl-inst-se", " ± "+set),
 	)
 }
 
@@ -279,7 +279,7 @@ func (p *instrumentsPanel) renderCharts(it *hv.Item) app.UI {
 		}
 	}
 	return app.Div().Class("pl-inst-charts").Body(
-		app.P().Class("pl-inst-hint").Text("Each point is one calibration with its confidence interval; dashed: the drift line and the acceptance limits. Tap a point to see which session it is."),
+		anPText("pl-inst-hint", "Each point is one calibration with its confidence interval; dashed: the drift line and the acceptance limits. Tap a point to see which session it is."),
 		app.Div().Class("pl-plots-grid").Body(
 			p.chartFigure("Slope against time", it.Slope, it.Key),
 			p.chartFigure("Intercept against time", it.Intercept, it.Key),
@@ -288,7 +288,7 @@ func (p *instrumentsPanel) renderCharts(it *hv.Item) app.UI {
 			r := *tapped
 			return app.Div().Class("pl-inst-point").Attr("role", "status").DataSet("testid", "inst-point").DataSet("id", r.ID).Body(
 				app.Span().Text("Calibration of "+r.Date+" · "+r.Title+" · slope "+r.SlopeText+", intercept "+r.IcptText+" · "+r.VerdictText),
-				app.Button().Class("pl-btn").Text("Open this session").DataSet("testid", "inst-point-open").
+				anButton("pl-btn", "Open this session", "inst-point-open").
 					OnClick(func(ctx app.Context, e app.Event) { p.open(r.ID) }, app.EventScope(r.ID)),
 			)
 		}),
@@ -364,7 +364,7 @@ func (p *instrumentsPanel) renderCompare(it *hv.Item) app.UI {
 					DataSet("diff", numfmt.Full(d.Diff)).DataSet("x", numfmt.Full(d.X)).Text(d.Text)
 			}),
 		),
-		app.P().Class("pl-inst-hint").Text("“Reads higher” means: a sample measured on "+k.TodayDate+" and converted with the line of "+k.PreviousDate+" comes out higher than with the line of "+k.TodayDate+". Comparison of two straight lines by F-tests (separate lines against parallel lines, and against one common line)."),
+		anPText("pl-inst-hint", "“Reads higher” means: a sample measured on "+k.TodayDate+" and converted with the line of "+k.PreviousDate+" comes out higher than with the line of "+k.TodayDate+". Comparison of two straight lines by F-tests (separate lines against parallel lines, and against one common line)."),
 	)
 }
 
@@ -390,7 +390,7 @@ func (p *instrumentsPanel) renderDrift(it *hv.Item) app.UI {
 				}),
 			)
 		}),
-		app.P().Class("pl-inst-hint").Text("A weighted line through the accepted calibrations against time (weights from each one's standard error); its rate is tested against zero, allowing for each standard error being itself an estimate from that calibration's few readings. A single jump between two calibrations, level before and after, is tested too and called a shift, not a drift."),
+		anPText("pl-inst-hint", "A weighted line through the accepted calibrations against time (weights from each one's standard error); its rate is tested against zero, allowing for each standard error being itself an estimate from that calibration's few readings. A single jump between two calibrations, level before and after, is tested too and called a shift, not a drift."),
 	)
 }
 

@@ -86,7 +86,7 @@ func (n *netUI) render() app.UI {
 			Attr("title", hint).Body(
 			app.Span().Text(inst),
 			app.If(!n.installed, func() app.UI {
-				return app.Span().Class("pl-net-hint").Text(" · menu › Install")
+				return anSpanText("pl-net-hint", " · menu › Install")
 			}),
 		),
 	)

@@ -98,17 +98,17 @@ func (r *plotsCard) Render() app.UI {
 	if r.Empty {
 		return app.Section().Class("pl-card pl-plots").Attr("aria-label", "Plots").Body(
 			app.H2().Text("Plots"),
-			app.P().Class("pl-plot-empty").Text("The plots appear once there are at least 3 usable pairs of readings."),
+			anPText("pl-plot-empty", "The plots appear once there are at least 3 usable pairs of readings."),
 		)
 	}
 	ps := r.Plots
 	return app.Section().Class("pl-card pl-plots").Attr("aria-label", "Plots").Body(
 		app.H2().Text("Plots"),
 		app.Div().Class("pl-plot-hintrow").Body(
-			app.P().Class("pl-plot-hint").Text("Tap a point to see that reading and to leave it out of the line or put it back."),
+			anPText("pl-plot-hint", "Tap a point to see that reading and to leave it out of the line or put it back."),
 			// The same panel without a tap (keyboard, screen reader): it
 			// opens on the first flagged reading, or the first reading.
-			app.Button().Class("pl-btn pl-btn-quiet").Text("Go through the readings").DataSet("testid", "plot-point-open").
+			anButton("pl-btn pl-btn-quiet", "Go through the readings", "plot-point-open").
 				Hidden(r.Sel >= 0).OnClick(func(ctx app.Context, e app.Event) {
 				r.act(PlotAction{Kind: paTap, Row: r.First, At: placePanel(app.Null(), 0)})
 			}),
@@ -218,14 +218,14 @@ func (r *plotsCard) renderPanel() app.UI {
 				Disabled(p.Row == 0), paStep, -1),
 			r.button(app.Button().Class("pl-btn pl-btn-quiet").Text("›").Attr("aria-label", "Next reading").DataSet("testid", "plot-point-next").
 				Disabled(p.Row >= p.Rows-1), paStep, +1),
-			r.button(app.Button().Class("pl-btn pl-btn-quiet").Text("Close").DataSet("testid", "plot-point-close"), paClose, 0),
+			r.button(anButton("pl-btn pl-btn-quiet", "Close", "plot-point-close"), paClose, 0),
 		),
 		app.Dl().Class("pl-point-facts").Body(
 			app.Div().Class("pl-fact").Body(app.Dt().Text(p.XHead), app.Dd().Class("pl-num-sm").DataSet("testid", "plot-point-x").Text(p.X)),
 			app.Div().Class("pl-fact").Body(app.Dt().Text(p.YHead), app.Dd().Class("pl-num-sm").DataSet("testid", "plot-point-y").Text(p.Y)),
 			app.Range(plain).Slice(func(i int) app.UI { return plain[i] }),
 		),
-		app.If(p.Note != "", func() app.UI { return app.P().Class("pl-point-note").Text("Note: " + p.Note) }),
+		app.If(p.Note != "", func() app.UI { return anPText("pl-point-note", "Note: "+p.Note) }),
 		app.P().Class("pl-point-status").DataSet("testid", "plot-point-status").Text(p.Status),
 		app.If(p.Flagged, func() app.UI {
 			return app.P().Class("pl-point-flag").DataSet("testid", "plot-point-flagged").
@@ -243,7 +243,7 @@ func (r *plotsCard) renderPanel() app.UI {
 			)
 		}),
 		app.If(p.Excluded, func() app.UI {
-			return r.button(app.Button().Class("pl-btn").Text("Put back into the line").DataSet("testid", "plot-point-include"), paInclude, 0)
+			return r.button(anButton("pl-btn", "Put back into the line", "plot-point-include"), paInclude, 0)
 		}).Else(func() app.UI {
 			return app.Div().Class("pl-point-exclude").Body(
 				app.Label().Body(
@@ -263,7 +263,7 @@ func (r *plotsCard) renderPanel() app.UI {
 							}
 						}),
 				),
-				r.button(app.Button().Class("pl-btn").Text("Leave out of the line").DataSet("testid", "plot-point-exclude"), paExclude, 0),
+				r.button(anButton("pl-btn", "Leave out of the line", "plot-point-exclude"), paExclude, 0),
 			)
 		}),
 		app.If(p.Msg != "", func() app.UI {

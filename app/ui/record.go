@@ -94,12 +94,12 @@ func (r *identityCard) Render() app.UI {
 	f := r.Fields
 	return app.Section().Class("pl-card pl-record").Attr("aria-label", "Record").DataSet("testid", "record-card").Body(
 		app.H2().Text("Record"),
-		app.P().Class("pl-hint").Text("Who, what and where: filled once per instrument. The values used last time for the same instrument and site are offered."),
+		anPText("pl-hint", "Who, what and where: filled once per instrument. The values used last time for the same instrument and site are offered."),
 		app.If(r.Offer != nil, func() app.UI {
 			o := r.Offer
 			return app.Div().Class("pl-rec-offer").DataSet("testid", "record-suggest").Body(
 				app.P().Text("Last record of this instrument: “"+o.Title+"”, "+o.When+". It had "+o.What+"."),
-				app.Button().Class("pl-btn").Text("Use those values").DataSet("testid", "record-suggest-use").Disabled(r.Locked).
+				anButton("pl-btn", "Use those values", "record-suggest-use").Disabled(r.Locked).
 					OnClick(func(ctx app.Context, e app.Event) { r.act(RecordAction{Kind: raUseLast}) }),
 			)
 		}),
@@ -135,7 +135,7 @@ func (r *identityCard) Render() app.UI {
 		app.Ul().Class("pl-rec-list").Body(
 			app.Range(r.Conditions).Slice(func(i int) app.UI { return r.condition(i) }),
 		),
-		app.Button().Class("pl-btn pl-btn-quiet").Text("+ Add a condition").DataSet("testid", "condition-add").Disabled(r.Locked).
+		anButton("pl-btn pl-btn-quiet", "+ Add a condition", "condition-add").Disabled(r.Locked).
 			OnClick(func(ctx app.Context, e app.Event) {
 				r.act(RecordAction{Kind: raCondition, Index: -1, Condition: session.Condition{}})
 			}),
@@ -167,7 +167,7 @@ func (r *identityCard) condition(i int) app.UI {
 			}, scope),
 		app.Input().Type("text").Value(cd.Unit).DataSet("testid", "condition-unit").Attr("aria-label", "Unit").Class("pl-rec-unit").
 			Disabled(r.Locked).OnChange(func(ctx app.Context, e app.Event) { set("unit", val(ctx)) }, scope),
-		app.Button().Class("pl-btn pl-btn-quiet").Text("Remove").DataSet("testid", "condition-remove").Disabled(r.Locked).
+		anButton("pl-btn pl-btn-quiet", "Remove", "condition-remove").Disabled(r.Locked).
 			OnClick(func(ctx app.Context, e app.Event) {
 				r.act(RecordAction{Kind: raCondRemove, Index: idx})
 			}, scope),
@@ -202,7 +202,7 @@ func (r *standardsCard) act(a RecordAction) {
 func (r *standardsCard) Render() app.UI {
 	return app.Section().Class("pl-card pl-standards").Attr("aria-label", "Standards").Body(
 		app.H2().Text("Reference standards"),
-		app.P().Class("pl-hint").Text("The standards whose certified values are the known x values. A reading whose x equals a standard's value "+
+		anPText("pl-hint", "The standards whose certified values are the known x values. A reading whose x equals a standard's value "+
 			"carries that standard's uncertainty into the unknowns' intervals. Expiry is checked against the day of the readings ("+r.Day+")."),
 		app.Ul().Class("pl-rec-list").Body(
 			app.Range(r.Standards).Slice(func(i int) app.UI { return r.item(i) }),
@@ -210,7 +210,7 @@ func (r *standardsCard) Render() app.UI {
 		app.Range(r.Problems).Slice(func(i int) app.UI {
 			return app.P().Class("pl-problem").DataSet("testid", "standard-problem").Text("▲ " + sentence(r.Problems[i]))
 		}),
-		app.Button().Class("pl-btn").Text("+ Add a standard").DataSet("testid", "standard-add").Disabled(r.Locked).
+		anButton("pl-btn", "+ Add a standard", "standard-add").Disabled(r.Locked).
 			OnClick(func(ctx app.Context, e app.Event) { r.act(RecordAction{Kind: raStandard, Index: -1}) }),
 	)
 }
@@ -248,7 +248,7 @@ func (r *standardsCard) item(i int) app.UI {
 		app.If(st.Expired != "", func() app.UI {
 			return app.P().Class("pl-warn").Attr("role", "alert").DataSet("testid", "standard-expired").Text("⚠ " + st.Expired)
 		}),
-		app.Button().Class("pl-btn pl-btn-quiet").Text("Remove this standard").DataSet("testid", "standard-remove").Disabled(r.Locked).
+		anButton("pl-btn pl-btn-quiet", "Remove this standard", "standard-remove").Disabled(r.Locked).
 			OnClick(func(ctx app.Context, e app.Event) { r.act(RecordAction{Kind: raStdRemove, Index: i}) }, scope),
 	)
 }
@@ -286,7 +286,7 @@ type unknownsCard struct {
 func (r *unknownsCard) Render() app.UI {
 	return app.Section().Class("pl-card pl-unknowns").Attr("aria-label", "Unknown samples").Body(
 		app.H2().Text("Unknown samples"),
-		app.P().Class("pl-hint").Text("A sample measured with the instrument, converted to x through the line, with its "+r.Level+" interval. "+
+		anPText("pl-hint", "A sample measured with the instrument, converted to x through the line, with its "+r.Level+" interval. "+
 			"Give one or more repeat readings, separated by spaces or semicolons."),
 		app.Div().Class("pl-rec-grid").Body(
 			app.Label().Class("pl-rec-field").Body(
@@ -300,7 +300,7 @@ func (r *unknownsCard) Render() app.UI {
 					Disabled(r.Locked).OnInput(func(ctx app.Context, e app.Event) { r.readings = takeTyped(ctx.JSSrc()) }),
 			),
 		),
-		app.Button().Class("pl-btn").Text("Add sample").DataSet("testid", "unknown-add").Disabled(r.Locked).
+		anButton("pl-btn", "Add sample", "unknown-add").Disabled(r.Locked).
 			OnClick(func(ctx app.Context, e app.Event) {
 				if r.OnAction == nil || r.Locked {
 					return
@@ -329,10 +329,10 @@ func (r *unknownsCard) item(i int) app.UI {
 	}
 	return li.Body(
 		app.Strong().Text(nonEmpty(u.Name, "(no name)")),
-		app.Span().Class("pl-unk-readings").Text(" — readings "+u.Readings),
-		app.If(u.Shown != "", func() app.UI { return app.P().Class("pl-unk-result").Text(u.Shown) }),
-		app.If(u.Message != "", func() app.UI { return app.P().Class("pl-hint").Text(u.Message) }),
-		app.Button().Class("pl-btn pl-btn-quiet").Text("Remove").DataSet("testid", "unknown-remove").Disabled(r.Locked).
+		anSpanText("pl-unk-readings", " — readings "+u.Readings),
+		app.If(u.Shown != "", func() app.UI { return anPText("pl-unk-result", u.Shown) }),
+		app.If(u.Message != "", func() app.UI { return anPText("pl-hint", u.Message) }),
+		anButton("pl-btn pl-btn-quiet", "Remove", "unknown-remove").Disabled(r.Locked).
 			OnClick(func(ctx app.Context, e app.Event) {
 				if r.OnAction != nil && !r.Locked {
 					r.OnAction(RecordAction{Kind: raUnkRemove, Index: i})
@@ -426,17 +426,17 @@ func (r *signCard) Render() app.UI {
 				app.P().Body(app.Strong().Text("Revision "+strconv.Itoa(s.Revision)+" is sealed.")),
 				app.P().Text("Performed by "+s.PerformedBy+", "+s.PerformedAt+"."),
 				app.If(s.ReviewedBy != "", func() app.UI { return app.P().Text("Reviewed by " + s.ReviewedBy + ", " + s.ReviewedAt + ".") }),
-				app.P().Class("pl-digest").Text("Digest (SHA-256): "+s.Digest),
+				anPText("pl-digest", "Digest (SHA-256): "+s.Digest),
 				app.If(!s.Valid, func() app.UI {
-					return app.P().Class("pl-problem").Text("▲ The seal does not match the record: " + s.Problem)
+					return anPText("pl-problem", "▲ The seal does not match the record: "+s.Problem)
 				}),
 				app.If(!s.Unlocked, func() app.UI {
-					return app.P().Class("pl-hint").Text("The readings, the settings and the results of a sealed record are frozen. " +
-						"To change anything, start revision " + strconv.Itoa(s.Revision+1) + ": the sealed revision " + strconv.Itoa(s.Revision) +
+					return anPText("pl-hint", "The readings, the settings and the results of a sealed record are frozen. "+
+						"To change anything, start revision "+strconv.Itoa(s.Revision+1)+": the sealed revision "+strconv.Itoa(s.Revision)+
 						" stays in the record as it was signed.")
 				}),
 				app.If(!s.Unlocked, func() app.UI {
-					return app.Button().Class("pl-btn").Text("Start revision "+strconv.Itoa(s.Revision+1)).DataSet("testid", "revision-start").
+					return anButton("pl-btn", "Start revision "+strconv.Itoa(s.Revision+1), "revision-start").
 						OnClick(func(ctx app.Context, e app.Event) { act(RecordAction{Kind: raNewRevision}) })
 				}).Else(func() app.UI {
 					return app.P().Class("pl-warn").DataSet("testid", "revision-open").Text("Revision " + strconv.Itoa(s.Revision+1) +
@@ -449,14 +449,14 @@ func (r *signCard) Render() app.UI {
 							app.Input().Type("text").Value(typedValue("sign-reviewed", r.reviewed)).DataSet("testid", "sign-reviewed").
 								OnInput(func(ctx app.Context, e app.Event) { r.reviewed = takeTyped(ctx.JSSrc()) }),
 						),
-						app.Button().Class("pl-btn").Text("Sign the review").DataSet("testid", "sign-review").
+						anButton("pl-btn", "Sign the review", "sign-review").
 							OnClick(func(ctx app.Context, e app.Event) { act(RecordAction{Kind: raReview, Value: r.reviewed}) }),
 					)
 				}),
 			)
 		}).Else(func() app.UI {
 			return app.Div().Body(
-				app.P().Class("pl-hint").Text("Sealing signs this revision of the record: the readings, settings, standards, unknowns and results "+
+				anPText("pl-hint", "Sealing signs this revision of the record: the readings, settings, standards, unknowns and results "+
 					"as they are now. A change afterwards starts a new revision; the sealed one stays readable."),
 				app.Div().Class("pl-rec-grid").Body(
 					app.Label().Class("pl-rec-field").Body(
@@ -465,7 +465,7 @@ func (r *signCard) Render() app.UI {
 							OnInput(func(ctx app.Context, e app.Event) { r.performed = takeTyped(ctx.JSSrc()) }),
 					),
 				),
-				app.Button().Class("pl-btn").Text("Seal this record").DataSet("testid", "seal").
+				anButton("pl-btn", "Seal this record", "seal").
 					OnClick(func(ctx app.Context, e app.Event) { act(RecordAction{Kind: raSeal, Value: r.performed}) }),
 			)
 		}),

@@ -23,7 +23,7 @@ func (c *Shell) Render() app.UI {
 		app.Header().Class("pl-head").Body(c.renderBar(), c.renderTools()),
 		app.Section().Class("pl-notes").Attr("aria-label", "Messages").Body(c.renderNotes()...),
 		app.If(c.ctl.sess == nil, func() app.UI {
-			return app.Main().Class("pl-main").Body(app.P().Class("pl-wait").Text("Opening your sessions…"))
+			return app.Main().Class("pl-main").Body(anPText("pl-wait", "Opening your sessions…"))
 		}).Else(func() app.UI {
 			// A sealed record takes no input until the technician starts
 			// its next revision: the fieldset disables every control in
@@ -86,7 +86,7 @@ func (c *Shell) renderBar() app.UI {
 			OnChange(c.onField(session.FieldTitle)),
 		app.Span().Class("pl-save").DataSet("testid", "save-status").DataSet("state", c.ctl.saveState.String()).
 			Attr("role", "status").Text(c.ctl.saveText()),
-		app.Button().Class("pl-btn pl-btn-quiet").Text("Try again").DataSet("testid", "save-retry").
+		anButton("pl-btn pl-btn-quiet", "Try again", "save-retry").
 			Hidden(!c.ctl.retryable()).OnClick(func(ctx app.Context, e app.Event) { c.ctl.retrySave() }),
 		app.Div().Class("pl-bar-acts").Body(c.renderBarActions()...),
 	)
@@ -106,9 +106,9 @@ func (c *Shell) renderBarActions() []app.UI {
 					c.inst.refresh(c.ui, c.ctl) // the due marks
 				}
 			}),
-		app.Button().Class("pl-btn pl-btn-quiet").Text("Instruments").DataSet("testid", "instruments-open").
+		anButton("pl-btn pl-btn-quiet", "Instruments", "instruments-open").
 			Attr("aria-expanded", strconv.FormatBool(c.inst.instOpen)).OnClick(c.toggleInstruments),
-		app.Button().Class("pl-btn").Text("New session").DataSet("testid", "session-new").OnClick(c.onNew),
+		anButton("pl-btn", "New session", "session-new").OnClick(c.onNew),
 	}
 }
 
@@ -181,7 +181,7 @@ func (c *Shell) renderJumps() app.UI {
 	return app.Nav().Class("pl-jumps").Attr("aria-label", "Go to").DataSet("testid", "jumps").Body(
 		app.Range(jumps).Slice(func(i int) app.UI {
 			j := jumps[i]
-			return app.Button().Class("pl-jump").Text(j.label).DataSet("testid", "jump-"+strings.ToLower(j.label)).
+			return anButton("pl-jump", j.label, "jump-"+strings.ToLower(j.label)).
 				OnClick(func(ctx app.Context, e app.Event) { scrollToCard(j.card) }, app.EventScope(j.card))
 		}),
 	)

@@ -71,9 +71,9 @@ func (r *reportDialog) onClick(ctx app.Context, e app.Event) {
 func (r *reportDialog) Render() app.UI {
 	return app.Div().Class("pl-report-view").DataSet("testid", "report-view").Attr("role", "dialog").Attr("aria-label", "Report").OnClick(r.onClick).Body(
 		app.Div().Class("pl-report-tools").Body(
-			r.button(app.Button().Class("pl-btn").Text("Print or save as PDF").DataSet("testid", "report-print"), rdPrint),
-			r.button(app.Button().Class("pl-btn").Text("Save as HTML file").DataSet("testid", "report-save-html"), rdSaveHTML),
-			r.button(app.Button().Class("pl-btn pl-btn-quiet").Text("Close report").DataSet("testid", "report-close"), rdClose),
+			r.button(anButton("pl-btn", "Print or save as PDF", "report-print"), rdPrint),
+			r.button(anButton("pl-btn", "Save as HTML file", "report-save-html"), rdSaveHTML),
+			r.button(anButton("pl-btn pl-btn-quiet", "Close report", "report-close"), rdClose),
 			app.If(r.Msg != "", func() app.UI { return app.Span().Attr("role", "status").Text(r.Msg) }),
 		),
 		app.Raw(r.Body),

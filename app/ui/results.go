@@ -64,7 +64,7 @@ func (r *lineCard) Render() app.UI {
 		// Always in the markup, so that its coming and going never makes
 		// go-app re-mount the numbers after it.
 		app.P().Class("pl-stale").DataSet("testid", "result-stale").Hidden(!r.Stale).Text(staleNote(r.Stale)),
-		app.P().Class("pl-equation").Text(anEquation(rep, sig)),
+		anPText("pl-equation", anEquation(rep, sig)),
 		app.Dl().Class("pl-figures").Body(
 			figure("result-n", wording.PairsUsed, float64(rep.N), itoa(rep.N), ""),
 			figure("result-slope", wording.Slope, rep.Slope.Estimate, slopeV, slopeUnit+"  ± "+slopeU+" (SE)"),
@@ -86,7 +86,7 @@ func (r *lineCard) moreNumbers() app.UI {
 		label = "Fewer numbers ▴"
 	}
 	return app.Div().Class("an-more").Body(
-		app.Button().Class("pl-btn pl-btn-quiet an-toggle").Text(label).DataSet("testid", "more-numbers").
+		anButton("pl-btn pl-btn-quiet an-toggle", label, "more-numbers").
 			Attr("aria-expanded", strconv.FormatBool(open)).
 			OnClick(func(ctx app.Context, e app.Event) { r.act(CardAction{Kind: caToggle, Key: "more-numbers"}) }),
 		app.If(open, r.numbers),
@@ -123,7 +123,7 @@ func (r *lineCard) numbers() app.UI {
 	)
 	return app.Div().Class("an-numbers").DataSet("testid", "more-numbers-body").Body(
 		app.If(sc.transformed, func() app.UI {
-			return app.P().Class("an-hint").Text("These numbers are on the fitted scale (" + sc.yName + "). The table “Line in original units” below the advice gives the line back in " + unitOr(r.YUnit, "y") + ".")
+			return anPText("an-hint", "These numbers are on the fitted scale ("+sc.yName+"). The table “Line in original units” below the advice gives the line back in "+unitOr(r.YUnit, "y")+".")
 		}),
 		app.Div().Class("an-coefs").Body(rows...),
 		app.Table().Class("an-table an-kv").Body(
@@ -147,7 +147,7 @@ func figure(testid, label string, value float64, shown, unit string) app.UI {
 		app.Dt().Text(label),
 		app.Dd().Body(
 			app.Span().Class("pl-num").DataSet("testid", testid).DataSet("value", numfmt.Full(value)).Text(shown),
-			app.If(unit != "", func() app.UI { return app.Span().Class("pl-unit").Text(" " + unit) }),
+			app.If(unit != "", func() app.UI { return anSpanText("pl-unit", " "+unit) }),
 		),
 	)
 }

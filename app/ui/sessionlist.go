@@ -116,25 +116,25 @@ func (r *sessionsList) item(s store.Summary) app.UI {
 				OnInput(func(ctx app.Context, e app.Event) {
 					r.act(ListAction{Kind: laRenameText, Text: takeTyped(ctx.JSSrc())})
 				}),
-			r.button(app.Button().Class("pl-btn").Text("Save title").DataSet("testid", "session-rename-save"), laRenameSave),
+			r.button(anButton("pl-btn", "Save title", "session-rename-save"), laRenameSave),
 			r.button(app.Button().Class("pl-btn pl-btn-quiet").Text("Cancel"), laRenameCancel),
 		)
 	}
 	if r.ConfirmDel == s.ID {
 		return app.Li().Class(cls+" pl-session-confirm").DataSet("testid", "session-item").DataSet("id", s.ID).Body(
 			app.P().Text("Move “"+s.Title+"” to the trash? It can be restored for "+strconv.Itoa(store.TrashDays)+" days."),
-			r.button(app.Button().Class("pl-btn pl-btn-danger").Text("Move to trash").DataSet("testid", "session-delete-confirm"), laDeleteConfirm),
+			r.button(anButton("pl-btn pl-btn-danger", "Move to trash", "session-delete-confirm"), laDeleteConfirm),
 			r.button(app.Button().Class("pl-btn pl-btn-quiet").Text("Keep it"), laDeleteKeep),
 		)
 	}
 	return app.Li().Class(cls).DataSet("testid", "session-item").DataSet("id", s.ID).Body(
 		r.button(app.Button().Class("pl-session-open-btn").DataSet("testid", "session-open"), laOpen).Body(
-			app.Span().Class("pl-session-title").Text(s.Title),
-			app.Span().Class("pl-session-meta").Text(sessionMeta(s)),
+			anSpanText("pl-session-title", s.Title),
+			anSpanText("pl-session-meta", sessionMeta(s)),
 			r.due(s.ID),
 		),
-		r.button(app.Button().Class("pl-btn pl-btn-quiet").Text("Rename").DataSet("testid", "session-rename"), laRename),
-		r.button(app.Button().Class("pl-btn pl-btn-quiet").Text("Delete").DataSet("testid", "session-delete"), laDelete),
+		r.button(anButton("pl-btn pl-btn-quiet", "Rename", "session-rename"), laRename),
+		r.button(anButton("pl-btn pl-btn-quiet", "Delete", "session-delete"), laDelete),
 	)
 }
 
@@ -173,11 +173,11 @@ func (r *sessionsList) trashItem(s store.Summary) app.UI {
 	until := s.Deleted.Add(store.TrashDays * 24 * time.Hour).Local().Format("2 Jan 2006")
 	return app.Li().Class("pl-session").DataSet("testid", "trash-item").DataSet("id", s.ID).Body(
 		app.Div().Class("pl-session-open-btn").Body(
-			app.Span().Class("pl-session-title").Text(s.Title),
-			app.Span().Class("pl-session-meta").Text(plural(s.Readings, "reading", "readings")+
+			anSpanText("pl-session-title", s.Title),
+			anSpanText("pl-session-meta", plural(s.Readings, "reading", "readings")+
 				" · deleted "+s.Deleted.Local().Format("2 Jan 2006 15:04")+" · can be restored until "+until),
 		),
-		r.button(app.Button().Class("pl-btn").Text("Restore").DataSet("testid", "trash-restore"), laRestore),
+		r.button(anButton("pl-btn", "Restore", "trash-restore"), laRestore),
 	)
 }
 

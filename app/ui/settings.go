@@ -559,7 +559,7 @@ func (r *settingsCard) Render() app.UI {
 			r.field("settings_y_uncertainty", anParen(r.YUnit)),
 		),
 		app.If(r.XUncertain, func() app.UI {
-			return app.P().Class("an-hint").Text("With an x uncertainty the checks also test whether x may be treated as exact.")
+			return anPText("an-hint", "With an x uncertainty the checks also test whether x may be treated as exact.")
 		}),
 	)
 }
@@ -576,16 +576,16 @@ func numberField(field, label, hint, value, problem string, h app.EventHandler) 
 		in = in.Attr("aria-invalid", "true")
 	}
 	return app.Label().Class("an-field").Body(
-		app.Span().Class("an-field-label").Text(label),
+		anSpanText("an-field-label", label),
 		in,
-		app.If(problem != "", func() app.UI { return app.Span().Class("pl-problem").Text(problem) }),
+		app.If(problem != "", func() app.UI { return anSpanText("pl-problem", problem) }),
 	)
 }
 
 // anChoice is a labelled group of mutually exclusive buttons.
 func anChoice(label, testid string, chips []app.UI) app.UI {
 	return app.Div().Class("an-choice").Attr("role", "group").Attr("aria-label", label).DataSet("testid", testid).Body(
-		app.Span().Class("an-choice-label").Text(label),
+		anSpanText("an-choice-label", label),
 		app.Div().Class("an-chips").Body(chips...),
 	)
 }
@@ -706,7 +706,7 @@ func anCoefTable(id, name string, k fitcore.Coefficient, unit, lvl string, sig i
 				anNum(p+"ci-low", k.CILow, numfmt.Sig(k.CILow, sig)),
 				app.Span().Text(" to "),
 				anNum(p+"ci-high", k.CIHigh, numfmt.Sig(k.CIHigh, sig)),
-				app.If(unit != "", func() app.UI { return app.Span().Class("pl-unit").Text(" " + unit) }),
+				app.If(unit != "", func() app.UI { return anSpanText("pl-unit", " "+unit) }),
 			),
 		),
 		anRow(p+"se", wording.StandardError, k.SE, numfmt.Sig(k.SE, 3), unit),
@@ -780,7 +780,7 @@ func anRow(testid, label string, v float64, shown, unit string) app.UI {
 		app.Th().Attr("scope", "row").Text(label),
 		app.Td().Body(
 			anNum(testid, v, shown),
-			app.If(unit != "", func() app.UI { return app.Span().Class("pl-unit").Text(" " + unit) }),
+			app.If(unit != "", func() app.UI { return anSpanText("pl-unit", " "+unit) }),
 		),
 	)
 }

@@ -192,14 +192,14 @@ func (t *tabSync) render(reload func(ctx app.Context, id, note string), keepCopy
 			app.Text(" (saved there at "+at+") while this tab has changes of its own. Nothing is overwritten until you choose."),
 		),
 		app.Div().Class("pl-xfer-actions").Body(
-			app.Button().Class("pl-btn").Text("Show the other tab’s version").DataSet("testid", "changed-elsewhere-load").
+			anButton("pl-btn", "Show the other tab’s version", "changed-elsewhere-load").
 				OnClick(func(ctx app.Context, e app.Event) {
 					t.elsewhere = nil
 					reload(ctx, k.id, "Showing the version saved in the other tab; the changes made here were set aside.")
 				}),
-			app.Button().Class("pl-btn pl-btn-quiet").Text("Keep this tab’s version as a copy").DataSet("testid", "changed-elsewhere-copy").
+			anButton("pl-btn pl-btn-quiet", "Keep this tab’s version as a copy", "changed-elsewhere-copy").
 				OnClick(func(ctx app.Context, e app.Event) { keepCopy(ctx, k) }),
-			app.Button().Class("pl-btn pl-btn-quiet").Text("Keep this tab’s version").DataSet("testid", "changed-elsewhere-keep").
+			anButton("pl-btn pl-btn-quiet", "Keep this tab’s version", "changed-elsewhere-keep").
 				OnClick(func(ctx app.Context, e app.Event) {
 					t.keep(k)
 					save()

@@ -61,9 +61,9 @@ func (c *Shell) renderTools() app.UI {
 		return app.Option().Value(v).Selected(th == v).Text(label)
 	}
 	return app.Div().Class("pl-tools").DataSet("testid", "tools").Body(
-		app.Button().Class("pl-btn pl-btn-quiet").Text("Try the demo").DataSet("testid", "demo-open").
+		anButton("pl-btn pl-btn-quiet", "Try the demo", "demo-open").
 			Attr("title", "Adds four invented sessions of a fictional water board").OnClick(c.loadDemo),
-		app.Button().Class("pl-btn pl-btn-quiet").Text("Report").DataSet("testid", "report-open").
+		anButton("pl-btn pl-btn-quiet", "Report", "report-open").
 			Disabled(c.ctl.sess == nil).OnClick(func(ctx app.Context, e app.Event) { c.rp.show(ctx, c.ctl, &c.pl) }),
 		c.renderUndo(),
 		c.net.render(),

@@ -57,11 +57,11 @@ func (c *Shell) renderConflict() app.UI {
 			s.Title, plural(len(s.Readings), "reading", "readings"), s.Modified.Local().Format("2 Jan 2006 15:04"),
 			where, old.Title, plural(old.Readings, "reading", "readings"), old.Modified.Local().Format("2 Jan 2006 15:04"))),
 		app.Div().Class("pl-xfer-actions").Body(
-			app.Button().Class("pl-btn").Text("Keep both").DataSet("testid", "import-keep-both").
+			anButton("pl-btn", "Keep both", "import-keep-both").
 				OnClick(func(ctx app.Context, e app.Event) { c.resolveConflict(ctx, "both") }),
-			app.Button().Class("pl-btn pl-btn-danger").Text("Replace the stored one").DataSet("testid", "import-replace").
+			anButton("pl-btn pl-btn-danger", "Replace the stored one", "import-replace").
 				OnClick(func(ctx app.Context, e app.Event) { c.resolveConflict(ctx, "replace") }),
-			app.Button().Class("pl-btn pl-btn-quiet").Text("Skip this one").DataSet("testid", "import-skip").
+			anButton("pl-btn pl-btn-quiet", "Skip this one", "import-skip").
 				OnClick(func(ctx app.Context, e app.Event) { c.resolveConflict(ctx, "skip") }),
 		),
 	)
@@ -88,7 +88,7 @@ func (c *Shell) renderColumnChoice() app.UI {
 		app.Div().Class("pl-xfer-actions").Body(
 			pick("import-x-col", "x (known value)", ch.x, func(v int) { ch.x = v }),
 			pick("import-y-col", "y (instrument value)", ch.y, func(v int) { ch.y = v }),
-			app.Button().Class("pl-btn").Text("Import these columns").DataSet("testid", "import-columns-ok").
+			anButton("pl-btn", "Import these columns", "import-columns-ok").
 				OnClick(func(_ app.Context, e app.Event) {
 					name, data, x, y := ch.file, ch.data, ch.x, ch.y
 					if x == y {
@@ -99,7 +99,7 @@ func (c *Shell) renderColumnChoice() app.UI {
 					ctx := c.ui // the import outlives this button: dispatch through the Shell
 					ctx.Async(func() { c.importCSV(ctx, name, data, x, y) })
 				}),
-			app.Button().Class("pl-btn pl-btn-quiet").Text("Cancel").DataSet("testid", "import-cancel").
+			anButton("pl-btn pl-btn-quiet", "Cancel", "import-cancel").
 				OnClick(func(ctx app.Context, e app.Event) { c.xfer.choice = nil }),
 		),
 	)
@@ -212,7 +212,7 @@ func (r *filesCard) Render() app.UI {
 				return r.button("pl-btn pl-btn-quiet", "Results as CSV", "export-results", faExportResults)
 			}),
 		),
-		app.P().Class("pl-xfer-hint").Text("Session files (.pairline) and CSV or tab-separated tables can also be dropped onto the page. A block copied from a spreadsheet can be pasted into an x cell."),
+		anPText("pl-xfer-hint", "Session files (.pairline) and CSV or tab-separated tables can also be dropped onto the page. A block copied from a spreadsheet can be pasted into an x cell."),
 		app.If(r.ImportReport != "", func() app.UI {
 			return app.P().Class("pl-xfer-report").DataSet("testid", "import-report").DataSet("seq", r.ImportSeq).DataSet("timing", r.ImportTiming).Attr("role", "status").Text(r.ImportReport)
 		}),

@@ -412,10 +412,10 @@ func (c *Shell) renderUndo() app.UI {
 		redoLabel = "Redo " + c.ctl.unRedo[nr-1].what + " (" + strconv.Itoa(nr) + " can be redone)"
 	}
 	return app.Div().Class("pl-undo").Attr("role", "group").Attr("aria-label", "Undo and redo").Body(
-		app.Button().Class("pl-btn pl-btn-quiet").Text("↶ Undo").DataSet("testid", "undo").
+		anButton("pl-btn pl-btn-quiet", "↶ Undo", "undo").
 			DataSet("depth", strconv.Itoa(nu)).Attr("aria-label", undoLabel).Attr("title", undoLabel).
 			Disabled(nu == 0 || c.ctl.locked()).OnClick(c.undo),
-		app.Button().Class("pl-btn pl-btn-quiet").Text("↷ Redo").DataSet("testid", "redo").
+		anButton("pl-btn pl-btn-quiet", "↷ Redo", "redo").
 			DataSet("depth", strconv.Itoa(nr)).Attr("aria-label", redoLabel).Attr("title", redoLabel).
 			Disabled(nr == 0 || c.ctl.locked()).OnClick(c.redo),
 		app.Span().Class("pl-tools-msg").Attr("role", "status").DataSet("testid", "undo-message").

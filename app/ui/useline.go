@@ -155,7 +155,7 @@ func (r *useCard) inverseResult() app.UI {
 		app.P().Class("an-answer-main").Body(
 			app.Span().Text("x̂ = "),
 			app.Strong().Class("an-big").Text(numfmt.Sig(inv.X, sig)),
-			app.If(xu != "", func() app.UI { return app.Span().Class("pl-unit").Text(" " + xu) }),
+			app.If(xu != "", func() app.UI { return anSpanText("pl-unit", " "+xu) }),
 		),
 	}
 	if inv.Bounded {
@@ -164,7 +164,7 @@ func (r *useCard) inverseResult() app.UI {
 			anNum("inverse-low", inv.Low, numfmt.Sig(inv.Low, sig)),
 			app.Span().Text(" to "),
 			anNum("inverse-high", inv.High, numfmt.Sig(inv.High, sig)),
-			app.If(xu != "", func() app.UI { return app.Span().Class("pl-unit").Text(" " + xu) }),
+			app.If(xu != "", func() app.UI { return anSpanText("pl-unit", " "+xu) }),
 			app.Span().Text(" · standard error "),
 			anNum("inverse-se", inv.SE, numfmt.Sig(inv.SE, 3)),
 		))
@@ -172,7 +172,7 @@ func (r *useCard) inverseResult() app.UI {
 		body = append(body, app.P().Class("an-warn-text").DataSet("testid", "inverse-unbounded").Text(
 			"▲ No interval can be given: the line is too flat against its scatter to read x back with confidence."))
 	}
-	body = append(body, app.P().Class("an-hint").Text(mean+" reads back as this x on the line."))
+	body = append(body, anPText("an-hint", mean+" reads back as this x on the line."))
 	if inv.Message != "" {
 		body = append(body, app.P().Class("an-hint").DataSet("testid", "inverse-message").Text(inv.Message))
 	}
@@ -200,7 +200,7 @@ func (r *useCard) predictResult() app.UI {
 				app.P().Class("an-answer-main").Body(
 					app.Span().Text("At x = "+anFullText(p.X)+": ŷ = "),
 					app.Strong().Class("an-big").Body(anNum(id+"fit", p.Fit, numfmt.Sig(p.Fit, sig))),
-					app.If(yu != "", func() app.UI { return app.Span().Class("pl-unit").Text(" " + yu) }),
+					app.If(yu != "", func() app.UI { return anSpanText("pl-unit", " "+yu) }),
 				),
 				app.P().Body(
 					app.Span().Text("Mean reading ("+lvl+"): "),
@@ -212,7 +212,7 @@ func (r *useCard) predictResult() app.UI {
 					anNum(id+"pi-low", p.PILow, numfmt.Sig(p.PILow, sig)), app.Span().Text(" to "),
 					anNum(id+"pi-high", p.PIHigh, numfmt.Sig(p.PIHigh, sig)),
 				),
-				app.If(p.Message != "", func() app.UI { return app.P().Class("an-hint").Text(p.Message) }),
+				app.If(p.Message != "", func() app.UI { return anPText("an-hint", p.Message) }),
 			)
 		}),
 	)
@@ -231,7 +231,7 @@ func (r *useCard) limits() app.UI {
 			anRow("limits-lod", "Detection limit (3.3·s / slope)", rep.Limits.LOD, numfmt.Sig(rep.Limits.LOD, 3), xu),
 			anRow("limits-loq", "Quantitation limit (10·s / slope)", rep.Limits.LOQ, numfmt.Sig(rep.Limits.LOQ, 3), xu),
 		)),
-		app.P().Class("an-hint").Text("For calibrations: below the detection limit a result cannot be told from zero; below the quantitation limit it is too uncertain to report as a number."),
+		anPText("an-hint", "For calibrations: below the detection limit a result cannot be told from zero; below the quantitation limit it is too uncertain to report as a number."),
 	)
 }
 
@@ -241,7 +241,7 @@ func (r *useCard) limits() app.UI {
 func (r *useCard) queryField(label, placeholder, name, text, problem string) app.UI {
 	return app.Div().Body(
 		app.Label().Class("an-field").Body(
-			app.Span().Class("an-field-label").Text(label),
+			anSpanText("an-field-label", label),
 			app.Input().Type("text").Class("an-input").Value(typedValue(name+"-input", text)).
 				Attr("inputmode", "decimal").Attr("autocomplete", "off").
 				Attr("placeholder", placeholder).
