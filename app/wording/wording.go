@@ -186,7 +186,8 @@ func RemedyAction(r fitcore.Remedy) string {
 }
 
 // RemedyTag names the fit a remedy gives in a few words, for the heading
-// of its column ("After (ln y)", "After (weighted 1/x²)").
+// of its column ("After (ln y)", "After (ln y on ln x)", "After (weighted
+// 1/x²)"): a log–log fit names both scales.
 func RemedyTag(r fitcore.Remedy) string {
 	_, t, w := r.Settings()
 	switch {
@@ -194,6 +195,8 @@ func RemedyTag(r fitcore.Remedy) string {
 		return "weighted " + WeightTag(w)
 	case t == fitcore.TransformBoxCox:
 		return "power of y"
+	case t == fitcore.TransformLogLog:
+		return "ln y on ln x"
 	case t != fitcore.TransformNone:
 		return FittedY(t, nil)
 	}

@@ -120,3 +120,25 @@ func TestCriterionWords(t *testing.T) {
 		t.Error("an unknown name is not kept")
 	}
 }
+
+// TestRemedyTag: the heading of the advice's "after" column names the
+// scale of the refit, both scales for a log–log fit (common practice: the
+// fit is ln y against ln x, and "ln y" alone would read as a log of y only).
+func TestRemedyTag(t *testing.T) {
+	for _, c := range []struct {
+		r    fitcore.Remedy
+		want string
+	}{
+		{fitcore.RemedyLogY, "ln y"},
+		{fitcore.RemedyLogLog, "ln y on ln x"},
+		{fitcore.RemedySqrtY, "√y"},
+		{fitcore.RemedyReciprocal, "1/y"},
+		{fitcore.RemedyBoxCox, "power of y"},
+		{fitcore.RemedyWeightedX2, "weighted 1/x²"},
+		{fitcore.RemedyNone, ""},
+	} {
+		if got := RemedyTag(c.r); got != c.want {
+			t.Errorf("RemedyTag(%s) = %q, want %q", c.r, got, c.want)
+		}
+	}
+}
