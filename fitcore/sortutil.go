@@ -302,6 +302,7 @@ func (b *ckSortBuf) sortedCopy(v []float64) []float64 {
 	out := b.f
 	if n < ckRadixMin {
 		copy(out, v)
+		//lint:ignore S1032 sort.Float64s is slices.Sort, a generic sort of its own in app.wasm
 		sort.Sort(sort.Float64Slice(out))
 		return out
 	}
@@ -320,6 +321,7 @@ func (b *ckSortBuf) sortedCopy(v []float64) []float64 {
 func (b *ckSortBuf) sortInPlace(v []float64) {
 	n := len(v)
 	if n < ckRadixMin {
+		//lint:ignore S1032 sort.Float64s is slices.Sort, a generic sort of its own in app.wasm
 		sort.Sort(sort.Float64Slice(v))
 		return
 	}
