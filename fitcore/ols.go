@@ -3,7 +3,6 @@ package fitcore
 import (
 	"fmt"
 	"math"
-	"sort"
 )
 
 // This file holds the least-squares engine shared by every model: ordinary
@@ -672,24 +671,12 @@ func schemeWeights(scheme WeightScheme, x, y, given []float64, origin bool, rep 
 	return w, m, nil
 }
 
-// byValueAt orders positions by the value at them (sort.Interface; x holds
-// no NaN).
-type byValueAt struct {
-	idx []int
-	x   []float64
-}
-
-func (s byValueAt) Len() int           { return len(s.idx) }
-func (s byValueAt) Swap(i, j int)      { s.idx[i], s.idx[j] = s.idx[j], s.idx[i] }
-func (s byValueAt) Less(i, j int) bool { return s.x[s.idx[i]] < s.x[s.idx[j]] }
-
-// repeatWeights sets w_i = 1/s²_j from the repeats at each distinct x.
+// repeatWeights sets w_i = 1/s²_j from the repeats at each distinct x,
+// found in the ascending order of x (ckSortBuf.order: equal x in the order
+// of the readings).
 func repeatWeights(x, y, w []float64) error {
-	idx := make([]int, len(x))
-	for i := range idx {
-		idx[i] = i
-	}
-	sort.Sort(byValueAt{idx, x})
+	var b ckSortBuf
+	idx := b.order(x)
 	for s := 0; s < len(idx); {
 		e := s + 1
 		for e < len(idx) && x[idx[e]] == x[idx[s]] {
@@ -697,7 +684,7 @@ func repeatWeights(x, y, w []float64) error {
 		}
 		g := idx[s:e]
 		if len(g) < 2 {
-			return &DataError{Index: g[0], Column: "x", Value: x[g[0]], Err: ErrNoRepeats,
+			return &DataError{Index: int(g[0]), Column: "x", Value: x[g[0]], Err: ErrNoRepeats,
 				Hint: "Weights from repeats need at least two readings at every x; add repeats here or choose another weighting."}
 		}
 		var mu float64
@@ -712,7 +699,7 @@ func repeatWeights(x, y, w []float64) error {
 		}
 		v := ss / float64(len(g)-1)
 		if !(v > 0) {
-			return &DataError{Index: g[0], Column: "x", Value: x[g[0]], Err: ErrNoRepeats,
+			return &DataError{Index: int(g[0]), Column: "x", Value: x[g[0]], Err: ErrNoRepeats,
 				Hint: "The repeat readings at this x are identical, so their spread gives no weight; choose another weighting."}
 		}
 		for _, i := range g {
