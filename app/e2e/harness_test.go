@@ -407,6 +407,9 @@ func click(t testing.TB, b *browser, testid string) {
 // ("input" or "change").
 func setValue(t testing.TB, b *browser, testid, value, event string) {
 	t.Helper()
+	// A cell the last key press adds (the empty row after the last
+	// reading) is on the page a frame later.
+	waitFor(t, b, testid, fmt.Sprintf(`!!tid(%q)`, testid), 20*time.Second)
 	eval[bool](t, b, fmt.Sprintf(`(() => { const el = tid(%q); if (!el) throw new Error('no %s');
 		el.value = %q; el.dispatchEvent(new Event(%q, { bubbles: true })); return true; })()`, testid, testid, value, event))
 }
