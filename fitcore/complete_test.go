@@ -40,6 +40,19 @@ func TestComplete(t *testing.T) {
 		}
 		recs = append(recs, rec{fmt.Sprintf("invented percentage error n=%d", n), x, y, fitcore.Options{Level: 0.99}})
 	}
+	// Past anParallelMin the full analysis runs its checks side by side
+	// and keeps their work space for the refits, while SkipAdvice runs
+	// them one after another and lets each one's go (checkRun.lean): the
+	// x are out of order and repeated (lack of fit's sort and levels) and
+	// one record is weighted (Durbin–Watson's weighted design).
+	const big = 30000
+	bx, by := make([]float64, big), make([]float64, big)
+	for i := range bx {
+		bx[i] = float64(1 + r.IntN(400))
+		by[i] = 3 + 2*bx[i]*(1+0.05*r.NormFloat64())
+	}
+	recs = append(recs, rec{"invented shuffled repeats n=30000", bx, by, fitcore.Options{}},
+		rec{"invented shuffled repeats n=30000 weighted x2", bx, by, fitcore.Options{Weights: fitcore.WeightsX2}})
 	for _, c := range recs {
 		full, errFull := fitcore.Analyze(c.x, c.y, c.opt)
 		quick := c.opt
