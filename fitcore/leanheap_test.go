@@ -53,14 +53,13 @@ func peakLiveHeap(f func()) uint64 {
 // TestLeanRunPeakHeap: an analysis no advice refit shares its work space
 // with (Options.SkipAdvice; with FlaggedInfluenceOnly, the work of
 // `pairline fit --no-advice`, whose report then holds no n-sized table of
-// influence) runs
-// its checks one group after another and lets each group's work space go
-// (checkRun.lean), so that its heap beyond x and y stays within 64 bytes a
-// reading: the report's fitted values and residuals (16), lack of fit's
-// sort of x (two key–position pairs, 32, and the positions, 4) and small
-// change. Measured on 300,000 readings: 52.1 bytes a reading; with the
-// three groups side by side and their work spaces held to the end (before
-// checkRun.lean), 76.1.
+// influence) runs its checks one group after another and lets each
+// group's work space go (checkRun.lean), so that its heap beyond x and y
+// stays within 64 bytes a reading: the report's fitted values and
+// residuals (16), lack of fit's sort of x (two key–position pairs, 32, and
+// the positions, 4) and small change. Measured on 300,000 readings: 52.1
+// bytes a reading; with the three groups side by side and their work
+// spaces held to the end (before checkRun.lean), 76.1.
 func TestLeanRunPeakHeap(t *testing.T) {
 	if testing.Short() {
 		t.Skip("analyses 300,000 readings")
