@@ -5,32 +5,38 @@ SHELL := /bin/bash
 ADDR      ?= 127.0.0.1:8000
 GO        ?= go
 WASM_LDFLAGS := -s -w
+# The browser build uses a copy of go-app without its HTTP server
+# (testdata/wasmdeps writes it and a go.work that points the build at it):
+# go-app's server files have no build constraint, and through them net/http
+# and crypto/tls cost about 1.6 MB of app.wasm that never runs in a page
+# (see DEVELOPERS.md, "What app.wasm is made of"). The native command keeps
+# go-app as the module cache holds it.
+WASMDEPS  := bin/wasmdeps
+WASM_ENV   = GOWORK="$(CURDIR)/$(WASMDEPS)/go.work" GOOS=js GOARCH=wasm
 # The screen's packages are compiled without inlining in the browser build:
 # go-app's chains of element calls inlined cost about 220 kB of app.wasm and
-# gain nothing measurable; the numerical core, the codec and the plots keep it
-# (see DEVELOPERS.md, "What app.wasm is made of").
+# gain nothing measurable; the numerical core, the codec and the plots keep it.
 #
 # Likewise the library code that runs once or never in the browser: go-app
 # (its diff of a frame is not where an edit's time goes), encoding/json, fmt,
-# regexp, mime, net/url, log, math/big and the public-key code that go-app's
-# net/http import links (TLS is never used in the page): 196 kB raw, 83 kB of
-# brotli; and time (a few dates read and written at a time: 7 kB less brotli,
-# 4 kB more raw, 3 December). The field arithmetic of the elliptic curves (nistec/fiat,
-# edwards25519) grows without inlining and keeps it.
+# regexp, mime, net/url, log, math/big; and time (a few dates read and
+# written at a time).
 WASM_GCFLAGS := -gcflags=pairline/app/ui=-l -gcflags=pairline/app/wording=-l -gcflags=pairline/app/store=-l -gcflags=pairline/app/history/view=-l -gcflags=pairline/app/plot=-l \
 	-gcflags=github.com/maxence-charriere/go-app/v10/pkg/app=-l -gcflags=encoding/json=-l -gcflags=fmt=-l -gcflags=internal/fmtsort=-l -gcflags=time=-l \
-	-gcflags=regexp/...=-l -gcflags=mime/...=-l -gcflags=math/big=-l -gcflags=log=-l -gcflags=net/url=-l \
-	-gcflags=crypto/internal/fips140/nistec=-l -gcflags=crypto/internal/fips140/ecdsa=-l -gcflags=crypto/internal/fips140/bigmod=-l \
-	-gcflags=crypto/internal/fips140/rsa=-l -gcflags=crypto/internal/fips140/ecdh=-l -gcflags=crypto/internal/fips140/ed25519=-l
+	-gcflags=regexp/...=-l -gcflags=mime/...=-l -gcflags=math/big=-l -gcflags=log=-l -gcflags=net/url=-l
 CHROMIUM  ?= $(shell command -v chromium || command -v chromium-browser || true)
 
-.PHONY: all wasm wasm-br wasm-size axe bin run build test fmt-check vet lint unit browser bench bench-fit fuzz refcheck icons clean
+.PHONY: all wasm-deps wasm wasm-br wasm-size axe bin run build test fmt-check vet lint unit browser bench bench-fit fuzz refcheck icons clean
 
 all: wasm bin
 
+## wasm-deps: the browser build's copy of go-app without its server, and its go.work (bin/wasmdeps)
+wasm-deps:
+	$(GO) run ./testdata/wasmdeps -out $(WASMDEPS)
+
 ## wasm: compile the app to web/app.wasm
-wasm:
-	GOOS=js GOARCH=wasm $(GO) build -trimpath -ldflags="$(WASM_LDFLAGS)" $(WASM_GCFLAGS) -o web/app.wasm ./wasm
+wasm: wasm-deps
+	$(WASM_ENV) $(GO) build -trimpath -ldflags="$(WASM_LDFLAGS)" $(WASM_GCFLAGS) -o web/app.wasm ./wasm
 
 ## wasm-br: web/app.wasm.br, brotli quality 11 of app.wasm (about a minute of
 ## a core), which `pairline serve` sends instead of compressing at quality 5 at
@@ -40,8 +46,8 @@ wasm-br: wasm
 	brotli -q 11 -w 24 -f -o web/app.wasm.br web/app.wasm
 
 ## wasm-size: what each package costs in app.wasm (an unstripped build, read by testdata/wasmsize)
-wasm-size:
-	GOOS=js GOARCH=wasm $(GO) build -trimpath $(WASM_GCFLAGS) -o bin/app-names.wasm ./wasm
+wasm-size: wasm-deps
+	$(WASM_ENV) $(GO) build -trimpath $(WASM_GCFLAGS) -o bin/app-names.wasm ./wasm
 	$(GO) run ./testdata/wasmsize -top 30 bin/app-names.wasm
 
 ## bin: build the native command bin/pairline
@@ -65,7 +71,7 @@ fmt-check:
 	if [ -n "$$out" ]; then echo "gofmt needed on:"; echo "$$out"; exit 1; fi
 
 vet:
-	$(GO) vet ./...
+	$(GO) vet ./... ./testdata/wasmdeps/
 	GOOS=js GOARCH=wasm $(GO) vet ./wasm ./app/...
 	$(GO) vet -tags e2e ./app/e2e/
 
@@ -74,13 +80,13 @@ STATICCHECK_VERSION ?= v0.8.2
 lint:
 	GOBIN="$(CURDIR)/bin" $(GO) install honnef.co/go/tools/cmd/staticcheck@$(STATICCHECK_VERSION)
 	@st=0; \
-	echo "staticcheck ./..."; ./bin/staticcheck ./... || st=1; \
+	echo "staticcheck ./... ./testdata/wasmdeps/"; ./bin/staticcheck ./... ./testdata/wasmdeps/ || st=1; \
 	echo "GOOS=js GOARCH=wasm staticcheck ./wasm ./app/..."; GOOS=js GOARCH=wasm ./bin/staticcheck ./wasm ./app/... || st=1; \
 	echo "staticcheck -tags e2e ./app/e2e/"; ./bin/staticcheck -tags e2e ./app/e2e/ || st=1; \
 	exit $$st
 
 unit:
-	$(GO) test -count=1 ./...
+	$(GO) test -count=1 ./... ./testdata/wasmdeps/
 
 ## axe: axe-core for the accessibility browser test, from the npm registry,
 ## checked against its SHA-256 (app/e2e/testdata/axe/README.md); not kept in git
