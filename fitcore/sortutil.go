@@ -6,7 +6,7 @@ import (
 )
 
 // Sorting helpers for the checks. Samples of ckMSDMin values or more start
-// with a most significant digit pass (ckSortKeys). Large samples are sorted by a least
+// with a most significant digit pass (ckSortFloats, orderLarge). Large samples are sorted by a least
 // significant digit radix sort on order-preserving integer keys (Knuth, The
 // Art of Computer Programming, vol. 3, §5.2.5): six stable counting passes of
 // 11 bits over the 64-bit keys, skipping a pass when every key has the same
@@ -51,7 +51,10 @@ type ckSortBuf struct {
 	p1, p2 []ckKeyIdx
 	idx    []int32
 	f      []float64 // sorted values
-	cnt    []int32   // ckSortKeys's counters
+	cnt    []int32   // ckSortFloats's and orderLarge's counters
+	// orderBucket's counters for its three depths and its work space
+	deep [3][]int32
+	tmp  []int32
 
 	// Shapiro–Wilk's coefficients by sample size: they depend on n only,
 	// so the advice's refits, which share this buffer, work them out once.
@@ -187,7 +190,7 @@ func ckRadixPairs(p, tmp []ckKeyIdx) []ckKeyIdx {
 	return src
 }
 
-// ckMSDMin is the number of keys from which ckSortKeys starts with a most
+// ckMSDMin is the number of values from which ckSortFloats starts with a most
 // significant digit pass: below it (Shapiro–Wilk's groups of at most 5000)
 // the whole sort fits in the cache and ckRadixKeys is as fast.
 const ckMSDMin = 1 << 15
@@ -200,48 +203,61 @@ const (
 	ckInsMax  = 48 // a bucket this small is sorted by insertion
 )
 
-// ckSortKeys sorts keys ascending using tmp (same length) as work space
-// and returns the slice that holds the result (keys or tmp); cnt is work
-// space of 2^16 counters, kept by the caller between calls. The result is
-// that of ckRadixKeys (a sort of integers has one answer; the test
-// compares them); the way there is shorter for a large sample. One
-// counting pass and one move deal the keys into buckets by their top 16
-// bits (sign, exponent and 4 bits of the fraction of the value); the
-// values of a record of residuals fill a few hundred of them, so the move
-// writes to few places at once, and each bucket, a few thousand keys for
-// such a record, is then sorted on its lower 48 bits inside the cache: by
-// insertion when it holds at most 48 keys, else by six stable counting
-// passes of 8 bits, skipping a pass where every key of the bucket has the
-// same digit. A sample whose values all share their top 16 bits costs
-// about what ckRadixKeys costs.
-func ckSortKeys(keys, tmp []uint64, cnt []int32) []uint64 {
-	if len(keys) < ckMSDMin {
-		return ckRadixKeys(keys, tmp)
+// ckSortFloats sets out (len(v) long, not v) to the values of v sorted
+// ascending, for a large sample (ckMSDMin values or more): one counting
+// pass and one move deal the values into out in buckets by the top 16 bits
+// of their keys (ckSortKey: sign, exponent and 4 bits of the fraction;
+// b.cnt, 2^16 counters, is the work space); the values of a record of
+// residuals fill a few hundred of them, so the move writes to few places
+// at once, and each bucket, a few thousand values for such a record, is
+// then sorted as keys on their lower 48 bits inside the cache (ckSortLow:
+// by insertion when it holds at most ckInsMax keys, else by six stable
+// counting passes of 8 bits, skipping a pass where every key of the bucket
+// has the same digit) and written back as values. The keys and their work
+// space (b.k1, b.k2) are one bucket long, as long as the largest bucket,
+// so beside its result the sort needs little more than the counters
+// (until 4 December the keys of the whole sample and their work space:
+// 16 bytes a value; DEVELOPERS.md, "Memory of a big fit"). The result is
+// that of ckRadixKeys (a sort of integers has one answer;
+// TestSortKeysAgainstRadix compares them). A sample whose values all share
+// their top 16 bits costs about what ckRadixKeys costs.
+func ckSortFloats(v, out []float64, b *ckSortBuf) {
+	if b.cnt == nil {
+		b.cnt = make([]int32, 1<<ckMSDBits)
 	}
-	cnt = cnt[:1<<ckMSDBits]
+	cnt := b.cnt[:1<<ckMSDBits]
 	clear(cnt)
-	for _, k := range keys {
-		cnt[k>>(64-ckMSDBits)]++
+	for _, a := range v {
+		cnt[ckSortKey(a)>>(64-ckMSDBits)]++
 	}
-	var sum int32
+	var sum, most int32
 	for d, c := range cnt {
 		cnt[d] = sum
 		sum += c
+		most = max(most, c)
 	}
-	for _, k := range keys {
-		d := k >> (64 - ckMSDBits)
-		tmp[cnt[d]] = k
+	for _, a := range v {
+		d := ckSortKey(a) >> (64 - ckMSDBits)
+		out[cnt[d]] = a
 		cnt[d]++
 	}
-	// cnt[d] is now the end of bucket d in tmp.
+	// cnt[d] is now the end of bucket d in out.
+	b.k1 = ckGrowU64(b.k1, int(most))
+	b.k2 = ckGrowU64(b.k2, int(most))
 	var start int32
 	for _, end := range cnt {
 		if end-start > 1 {
-			ckSortLow(tmp[start:end], keys[start:end])
+			bucket, keys := out[start:end], b.k1[:end-start]
+			for i, a := range bucket {
+				keys[i] = ckSortKey(a)
+			}
+			ckSortLow(keys, b.k2[:end-start])
+			for i, k := range keys {
+				bucket[i] = ckFromKey(k)
+			}
 		}
 		start = end
 	}
-	return tmp
 }
 
 // ckSortLow sorts b, whose keys share their top 16 bits, ascending in
@@ -300,48 +316,46 @@ func (b *ckSortBuf) sortedCopy(v []float64) []float64 {
 	n := len(v)
 	b.f = ckGrowF64(b.f, n)
 	out := b.f
-	if n < ckRadixMin {
+	switch {
+	case n < ckRadixMin:
 		copy(out, v)
 		//lint:ignore S1032 sort.Float64s is slices.Sort, a generic sort of its own in app.wasm
 		sort.Sort(sort.Float64Slice(out))
-		return out
-	}
-	b.k1 = ckGrowU64(b.k1, n)
-	b.k2 = ckGrowU64(b.k2, n)
-	for i, a := range v {
-		b.k1[i] = ckSortKey(a)
-	}
-	for i, k := range b.sortKeys() {
-		out[i] = ckFromKey(k)
+	case n < ckMSDMin:
+		for i, k := range b.radixKeys(v) {
+			out[i] = ckFromKey(k)
+		}
+	default:
+		ckSortFloats(v, out, b)
 	}
 	return out
 }
 
 // sortInPlace sorts v ascending, using b's key space. v must hold no NaN.
 func (b *ckSortBuf) sortInPlace(v []float64) {
-	n := len(v)
-	if n < ckRadixMin {
+	switch n := len(v); {
+	case n < ckRadixMin:
 		//lint:ignore S1032 sort.Float64s is slices.Sort, a generic sort of its own in app.wasm
 		sort.Sort(sort.Float64Slice(v))
-		return
+	case n < ckMSDMin:
+		for i, k := range b.radixKeys(v) {
+			v[i] = ckFromKey(k)
+		}
+	default:
+		copy(v, b.sortedCopy(v))
 	}
+}
+
+// radixKeys returns the keys (ckSortKey) of v sorted ascending by
+// ckRadixKeys, in b.k1 or b.k2.
+func (b *ckSortBuf) radixKeys(v []float64) []uint64 {
+	n := len(v)
 	b.k1 = ckGrowU64(b.k1, n)
 	b.k2 = ckGrowU64(b.k2, n)
 	for i, a := range v {
 		b.k1[i] = ckSortKey(a)
 	}
-	for i, k := range b.sortKeys() {
-		v[i] = ckFromKey(k)
-	}
-}
-
-// sortKeys sorts b.k1 by ckSortKeys, with b.k2 and b.cnt as work space,
-// and returns the slice that holds the result.
-func (b *ckSortBuf) sortKeys() []uint64 {
-	if len(b.k1) >= ckMSDMin && b.cnt == nil {
-		b.cnt = make([]int32, 1<<ckMSDBits)
-	}
-	return ckSortKeys(b.k1, b.k2, b.cnt)
+	return ckRadixKeys(b.k1, b.k2)
 }
 
 // ckAscending says whether v is already in ascending order (−0 before +0).
@@ -366,11 +380,11 @@ func (b *ckSortBuf) order(v []float64) []int32 {
 		}
 		return b.idx
 	}
-	if cap(b.p1) < n {
-		b.p1 = make([]ckKeyIdx, n)
-		b.p2 = make([]ckKeyIdx, n)
+	if n >= ckMSDMin {
+		b.orderLarge(v)
+		return b.idx
 	}
-	p1, p2 := b.p1[:n], b.p2[:n]
+	p1, p2 := b.pairs(n)
 	for i, a := range v {
 		p1[i] = ckKeyIdx{ckSortKey(a), int32(i)}
 	}
@@ -380,11 +394,6 @@ func (b *ckSortBuf) order(v []float64) []int32 {
 		// sort by key.
 		sort.Sort(ckKeyIdxSlice(p1))
 		sorted = p1
-	} else if n >= ckMSDMin {
-		if b.cnt == nil {
-			b.cnt = make([]int32, 1<<ckMSDBits)
-		}
-		sorted = ckSortPairs(p1, p2, b.cnt)
 	} else {
 		sorted = ckRadixPairs(p1, p2)
 	}
@@ -394,38 +403,120 @@ func (b *ckSortBuf) order(v []float64) []int32 {
 	return b.idx
 }
 
-// ckSortPairs is ckRadixPairs the way ckSortKeys sorts keys: one stable
-// counting pass and move by the top 16 bits of the key into tmp, then each
-// bucket stably on the lower 48 bits in the cache (by insertion up to
-// ckInsMax pairs, else by 8-bit counting passes), so that equal keys keep
-// their order and the result is ckRadixPairs's (a stable sort has one
-// answer; the test compares them). It returns the slice that holds the
-// result; cnt is work space of 2^16 counters.
-func ckSortPairs(p, tmp []ckKeyIdx, cnt []int32) []ckKeyIdx {
-	cnt = cnt[:1<<ckMSDBits]
+// pairs returns b's two spaces of n key–position pairs.
+func (b *ckSortBuf) pairs(n int) (p1, p2 []ckKeyIdx) {
+	if cap(b.p1) < n {
+		b.p1 = make([]ckKeyIdx, n)
+		b.p2 = make([]ckKeyIdx, n)
+	}
+	return b.p1[:n], b.p2[:n]
+}
+
+// ckPairMax is the largest bucket orderLarge sorts as key–position pairs
+// (b.p1 and b.p2, 16 bytes a pair each: 2 MiB in all); a larger bucket is
+// dealt again by its next 16 bits.
+const ckPairMax = 1 << 16
+
+// orderLarge sets b.idx (len(v) long) to the positions of v in ascending
+// order of value, equal values in order of position, with little work
+// space beside the positions (which the result is): one counting pass and
+// one stable move deal the positions into buckets by the top 16 bits of
+// their values' keys (b.cnt), each bucket is then sorted as key–position
+// pairs, gathered from v, by ckSortLowPairs in the cache (orderBucket).
+// Until 4 December the whole sort ran on pairs: 32 bytes a value of work
+// space beside the 4 of the result, the largest part of the heap of
+// `pairline fit --no-advice` on 10⁶ rows; now it needs 2 MiB of pairs
+// and, only where one bucket holds more than ckPairMax values, 4 bytes a
+// value of that bucket. The answer is the same (a sort by key, then
+// position, has one; TestOrderLarge compares it with a stable sort).
+func (b *ckSortBuf) orderLarge(v []float64) {
+	idx := b.idx
+	if b.cnt == nil {
+		b.cnt = make([]int32, 1<<ckMSDBits)
+	}
+	cnt := b.cnt[:1<<ckMSDBits]
 	clear(cnt)
-	for _, e := range p {
-		cnt[e.k>>(64-ckMSDBits)]++
+	for _, a := range v {
+		cnt[ckSortKey(a)>>(64-ckMSDBits)]++
+	}
+	var sum, most int32
+	for d, c := range cnt {
+		cnt[d] = sum
+		sum += c
+		most = max(most, c)
+	}
+	b.pairs(min(int(most), ckPairMax)) // made once, at its largest
+	for i, a := range v {
+		d := ckSortKey(a) >> (64 - ckMSDBits)
+		idx[cnt[d]] = int32(i)
+		cnt[d]++
+	}
+	// cnt[d] is now the end of bucket d; each bucket is in position order.
+	var start int32
+	for _, end := range cnt {
+		if end-start > 1 {
+			b.orderBucket(v, idx[start:end], 64-ckMSDBits)
+		}
+		start = end
+	}
+}
+
+// orderBucket sorts idx, positions in ascending order whose values' keys
+// agree in every bit from bit low up, by key and then position: as pairs
+// when there are at most ckPairMax of them, else by a stable counting
+// move on the 16 bits below low (b.deep's counters for that depth, b.tmp as
+// work space) and then each of those buckets in turn.
+func (b *ckSortBuf) orderBucket(v []float64, idx []int32, low uint) {
+	m := len(idx)
+	if m <= ckPairMax {
+		p, w := b.pairs(m)
+		for j, i := range idx {
+			p[j] = ckKeyIdx{ckSortKey(v[i]), i}
+		}
+		ckSortLowPairs(p, w) // the keys share their top 16 bits at least
+		for j := range p {
+			idx[j] = p[j].i
+		}
+		return
+	}
+	if low == 0 {
+		return // equal keys, in order of position
+	}
+	low -= ckMSDBits
+	depth := 2 - int(low/ckMSDBits) // low 32, 16, 0 → 0, 1, 2
+	if b.deep[depth] == nil {
+		b.deep[depth] = make([]int32, 1<<ckMSDBits)
+	}
+	cnt := b.deep[depth]
+	clear(cnt)
+	const mask = 1<<ckMSDBits - 1
+	for _, i := range idx {
+		cnt[(ckSortKey(v[i])>>low)&mask]++
+	}
+	if cnt[(ckSortKey(v[idx[0]])>>low)&mask] == int32(m) {
+		b.orderBucket(v, idx, low) // one digit: nothing moves
+		return
 	}
 	var sum int32
 	for d, c := range cnt {
 		cnt[d] = sum
 		sum += c
 	}
-	for _, e := range p {
-		d := e.k >> (64 - ckMSDBits)
-		tmp[cnt[d]] = e
+	b.tmp = ckGrowI32(b.tmp, m)
+	tmp := b.tmp
+	for _, i := range idx {
+		d := (ckSortKey(v[i]) >> low) & mask
+		tmp[cnt[d]] = i
 		cnt[d]++
 	}
-	// cnt[d] is now the end of bucket d in tmp.
+	copy(idx, tmp)
 	var start int32
 	for _, end := range cnt {
 		if end-start > 1 {
-			ckSortLowPairs(tmp[start:end], p[start:end])
+			b.orderBucket(v, idx[start:end], low)
 		}
 		start = end
 	}
-	return tmp
 }
 
 // ckSortLowPairs sorts b, whose keys share their top 16 bits, stably by

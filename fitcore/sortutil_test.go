@@ -67,7 +67,7 @@ func TestSortBuf(t *testing.T) {
 	}
 }
 
-// TestSortKeysAgainstRadix is the oracle test of ckSortKeys (a most
+// TestSortKeysAgainstRadix is the oracle test of ckSortFloats (a most
 // significant digit pass, then the buckets in the cache): on many random
 // samples, above and below ckMSDMin, it must give exactly what the plain
 // least significant digit sort ckRadixKeys gives, and both what
@@ -92,36 +92,40 @@ func TestSortKeysAgainstRadix(t *testing.T) {
 		{"few per bucket", func(int) float64 { return math.Ldexp(1+r.Float64(), r.IntN(2000)-1000) }},
 		{"uniform", func(int) float64 { return r.Float64() - 0.5 }},
 	}
-	cnt := make([]int32, 1<<ckMSDBits)
 	for trial := range 60 {
 		g := gens[trial%len(gens)]
 		n := []int{ckMSDMin - 1, ckMSDMin, ckMSDMin + 1 + r.IntN(5000), 100000 + r.IntN(200000)}[trial%4]
+		vals := make([]float64, n)
 		keys := make([]uint64, n)
 		for i := range keys {
-			keys[i] = ckSortKey(g.gen(i))
+			vals[i] = g.gen(i)
+			keys[i] = ckSortKey(vals[i])
 		}
 		want := slices.Clone(keys)
 		slices.Sort(want)
 		old := ckRadixKeys(slices.Clone(keys), make([]uint64, n))
-		got := ckSortKeys(slices.Clone(keys), make([]uint64, n), cnt)
+		var b ckSortBuf
+		got := make([]uint64, n)
+		for i, v := range b.sortedCopy(vals) {
+			got[i] = ckSortKey(v)
+		}
 		for i := range want {
 			if old[i] != want[i] {
 				t.Fatalf("%s, n = %d: ckRadixKeys[%d] = %x, slices.Sort %x", g.name, n, i, old[i], want[i])
 			}
 			if got[i] != want[i] {
-				t.Fatalf("%s, n = %d: ckSortKeys[%d] = %x, slices.Sort %x", g.name, n, i, got[i], want[i])
+				t.Fatalf("%s, n = %d: sortedCopy[%d] = %x, slices.Sort %x", g.name, n, i, got[i], want[i])
 			}
 		}
 	}
 }
 
-// BenchmarkSortKeys compares ckRadixKeys with ckSortKeys on the keys of
+// BenchmarkSortKeys compares ckRadixKeys with sortedCopy (ckSortFloats) on
 // 10⁶ residuals of the invented benchData record.
 func BenchmarkSortKeys(b *testing.B) {
 	_, _, res := benchData(1000000)
 	keys := make([]uint64, len(res))
 	k, tmp := make([]uint64, len(res)), make([]uint64, len(res))
-	cnt := make([]int32, 1<<ckMSDBits)
 	for i, v := range res {
 		keys[i] = ckSortKey(v)
 	}
@@ -131,20 +135,23 @@ func BenchmarkSortKeys(b *testing.B) {
 			ckRadixKeys(k, tmp)
 		}
 	})
+	var sb ckSortBuf
 	b.Run("msd", func(b *testing.B) {
 		for b.Loop() {
-			copy(k, keys)
-			ckSortKeys(k, tmp, cnt)
+			sb.sortedCopy(res)
 		}
 	})
 }
 
-// TestSortPairsAgainstRadix: ckSortPairs (the order of x from ckMSDMin
-// readings) gives exactly the pairs of ckRadixPairs, stable for equal keys,
-// and both the order of slices.SortStableFunc on the keys (the reference),
-// on samples with many ties, signed zeros, one bucket, buckets on both
-// sides of ckInsMax, sorted and reversed.
-func TestSortPairsAgainstRadix(t *testing.T) {
+// TestOrderLarge: the order of x from ckMSDMin readings (orderLarge: the
+// positions dealt into buckets, each bucket sorted as pairs or dealt
+// again) gives exactly the order of slices.SortStableFunc on the keys (the
+// reference), and ckRadixPairs (the plain stable sort of pairs) agrees, on
+// samples with many ties, signed zeros, one bucket past ckPairMax, two
+// close values and two values each filling a bucket past ckPairMax (dealt
+// again down to the last bits), buckets on both sides of ckInsMax, sorted
+// and reversed.
+func TestOrderLarge(t *testing.T) {
 	r := rand.New(rand.NewPCG(17, 2026))
 	gens := []func(i int) float64{
 		func(int) float64 { return r.NormFloat64() },
@@ -154,45 +161,55 @@ func TestSortPairsAgainstRadix(t *testing.T) {
 		func(int) float64 { return []float64{0, math.Copysign(0, -1), 1, -1}[r.IntN(4)] },
 		func(i int) float64 { return -float64(i) / 7 },
 		func(int) float64 { return math.Ldexp(1+r.Float64(), r.IntN(2000)-1000) },
+		func(int) float64 { return 1 + float64(r.IntN(2))*0x1p-45 }, // one bucket, two keys
+		func(int) float64 { return []float64{2, 3}[r.IntN(2)] },     // two buckets of ties
+		func(int) float64 { return 1 + float64(r.IntN(3000))*0x1p-50 },
 	}
-	cnt := make([]int32, 1<<ckMSDBits)
-	for trial := range 28 {
+	for trial := range 40 {
 		g := gens[trial%len(gens)]
-		n := []int{ckMSDMin, ckMSDMin + 1 + r.IntN(5000), 100000 + r.IntN(100000), 2 * ckMSDMin}[trial%4]
+		n := []int{ckMSDMin, ckMSDMin + 1 + r.IntN(5000), 150000 + r.IntN(100000), 2 * ckMSDMin}[trial%4]
+		v := make([]float64, n)
 		p := make([]ckKeyIdx, n)
 		for i := range p {
-			p[i] = ckKeyIdx{ckSortKey(g(i)), int32(i)}
+			v[i] = g(i)
+			p[i] = ckKeyIdx{ckSortKey(v[i]), int32(i)}
 		}
 		want := slices.Clone(p)
 		slices.SortStableFunc(want, func(a, b ckKeyIdx) int { return cmp.Compare(a.k, b.k) })
 		old := ckRadixPairs(slices.Clone(p), make([]ckKeyIdx, n))
-		got := ckSortPairs(slices.Clone(p), make([]ckKeyIdx, n), cnt)
-		if !slices.Equal(old, want) || !slices.Equal(got, want) {
-			t.Fatalf("trial %d (n = %d): ckRadixPairs equal %v, ckSortPairs equal %v to the stable sort", trial, n, slices.Equal(old, want), slices.Equal(got, want))
+		var b ckSortBuf
+		got := b.order(v)
+		if !slices.Equal(old, want) {
+			t.Fatalf("trial %d (n = %d): ckRadixPairs differs from the stable sort", trial, n)
+		}
+		for j := range want {
+			if got[j] != want[j].i {
+				t.Fatalf("trial %d (n = %d): order[%d] = %d, the stable sort %d", trial, n, j, got[j], want[j].i)
+			}
 		}
 	}
 }
 
-// BenchmarkSortPairs compares ckRadixPairs with ckSortPairs on the x of
+// BenchmarkOrder compares ckRadixPairs (the pairs sorted whole) with
+// ckSortBuf.order (positions dealt into buckets, orderLarge) on the x of
 // 10⁶ readings of the invented benchData record (the order of x).
-func BenchmarkSortPairs(b *testing.B) {
+func BenchmarkOrder(b *testing.B) {
 	x, _, _ := benchData(1000000)
 	p := make([]ckKeyIdx, len(x))
 	for i, v := range x {
 		p[i] = ckKeyIdx{ckSortKey(v), int32(i)}
 	}
 	q, tmp := make([]ckKeyIdx, len(p)), make([]ckKeyIdx, len(p))
-	cnt := make([]int32, 1<<ckMSDBits)
 	b.Run("radix", func(b *testing.B) {
 		for b.Loop() {
 			copy(q, p)
 			ckRadixPairs(q, tmp)
 		}
 	})
-	b.Run("msd", func(b *testing.B) {
+	var sb ckSortBuf
+	b.Run("buckets", func(b *testing.B) {
 		for b.Loop() {
-			copy(q, p)
-			ckSortPairs(q, tmp, cnt)
+			sb.order(x)
 		}
 	})
 }
