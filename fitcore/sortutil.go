@@ -203,6 +203,27 @@ const (
 	ckInsMax  = 48 // a bucket this small is sorted by insertion
 )
 
+// topBuckets returns b.cnt set to the start of each bucket of v's values
+// by the top 16 bits of their keys (ckSortKey), and the size of the
+// largest bucket.
+func (b *ckSortBuf) topBuckets(v []float64) (cnt []int32, most int32) {
+	if b.cnt == nil {
+		b.cnt = make([]int32, 1<<ckMSDBits)
+	}
+	cnt = b.cnt[:1<<ckMSDBits]
+	clear(cnt)
+	for _, a := range v {
+		cnt[ckSortKey(a)>>(64-ckMSDBits)]++
+	}
+	var sum int32
+	for d, c := range cnt {
+		cnt[d] = sum
+		sum += c
+		most = max(most, c)
+	}
+	return cnt, most
+}
+
 // ckSortFloats sets out (len(v) long, not v) to the values of v sorted
 // ascending, for a large sample (ckMSDMin values or more): one counting
 // pass and one move deal the values into out in buckets by the top 16 bits
@@ -222,20 +243,7 @@ const (
 // TestSortKeysAgainstRadix compares them). A sample whose values all share
 // their top 16 bits costs about what ckRadixKeys costs.
 func ckSortFloats(v, out []float64, b *ckSortBuf) {
-	if b.cnt == nil {
-		b.cnt = make([]int32, 1<<ckMSDBits)
-	}
-	cnt := b.cnt[:1<<ckMSDBits]
-	clear(cnt)
-	for _, a := range v {
-		cnt[ckSortKey(a)>>(64-ckMSDBits)]++
-	}
-	var sum, most int32
-	for d, c := range cnt {
-		cnt[d] = sum
-		sum += c
-		most = max(most, c)
-	}
+	cnt, most := b.topBuckets(v)
 	for _, a := range v {
 		d := ckSortKey(a) >> (64 - ckMSDBits)
 		out[cnt[d]] = a
@@ -431,20 +439,7 @@ const ckPairMax = 1 << 16
 // position, has one; TestOrderLarge compares it with a stable sort).
 func (b *ckSortBuf) orderLarge(v []float64) {
 	idx := b.idx
-	if b.cnt == nil {
-		b.cnt = make([]int32, 1<<ckMSDBits)
-	}
-	cnt := b.cnt[:1<<ckMSDBits]
-	clear(cnt)
-	for _, a := range v {
-		cnt[ckSortKey(a)>>(64-ckMSDBits)]++
-	}
-	var sum, most int32
-	for d, c := range cnt {
-		cnt[d] = sum
-		sum += c
-		most = max(most, c)
-	}
+	cnt, most := b.topBuckets(v)
 	b.pairs(min(int(most), ckPairMax)) // made once, at its largest
 	for i, a := range v {
 		d := ckSortKey(a) >> (64 - ckMSDBits)
