@@ -196,20 +196,49 @@ type unit struct {
 // whole. Files that already have a build constraint are refused.
 func split(srcs map[string][]byte, server string) ([]byte, error) {
 	fset := token.NewFileSet()
-	var units []*unit
-	var pkgName string
 	names := make([]string, 0, len(srcs))
 	for name := range srcs {
 		names = append(names, name)
 	}
 	sort.Strings(names)
+	units, pkgName, err := parseUnits(fset, srcs, names)
+	if err != nil {
+		return nil, err
+	}
+	serverSide := markServer(units, server)
+	var body bytes.Buffer
+	used := map[string]bool{}
+	var stubs []string
+	for _, u := range units {
+		if serverSide[u] {
+			stubs = append(stubs, exportedTypes(u)...)
+			continue
+		}
+		for p := range u.pkgs {
+			used[p] = true
+		}
+		start, end := u.decl.Pos(), u.decl.End()
+		if doc := docOf(u.decl); doc != nil {
+			start = doc.Pos()
+		}
+		body.Write(srcs[u.file][fset.Position(start).Offset:fset.Position(end).Offset])
+		body.WriteString("\n\n")
+	}
+	return render(names, server, pkgName, used, body.Bytes(), stubs)
+}
+
+// parseUnits parses the files (in the order of names) into their
+// top-level declarations, imports left out, and returns the package name.
+func parseUnits(fset *token.FileSet, srcs map[string][]byte, names []string) ([]*unit, string, error) {
+	var units []*unit
+	var pkgName string
 	for _, name := range names {
 		if bytes.Contains(srcs[name], []byte("//go:build")) {
-			return nil, fmt.Errorf("%s already has a build constraint: this version of %s needs a new look", name, goApp)
+			return nil, "", fmt.Errorf("%s already has a build constraint: this version of %s needs a new look", name, goApp)
 		}
 		f, err := parser.ParseFile(fset, name, srcs[name], parser.ParseComments)
 		if err != nil {
-			return nil, err
+			return nil, "", err
 		}
 		pkgName = f.Name.Name
 		imports := map[string]string{} // local name → path
@@ -228,59 +257,69 @@ func split(srcs map[string][]byte, server string) ([]byte, error) {
 			units = append(units, newUnit(name, d, imports))
 		}
 	}
+	return units, pkgName, nil
+}
+
+// markServer returns the units that reach the import path server, by the
+// rules written on split, repeated until nothing more is marked.
+func markServer(units []*unit, server string) map[*unit]bool {
 	serverSide := map[*unit]bool{}
 	serverNames := map[string]bool{}
 	for changed := true; changed; {
 		changed = false
 		for _, u := range units {
-			if serverSide[u] {
+			if serverSide[u] || !u.reaches(server, serverNames) {
 				continue
 			}
-			hit := u.pkgs[server] || serverNames[u.recv]
-			for n := range u.uses {
-				// (A method is matched by its name alone: x.m for any x.)
-				hit = hit || serverNames[n] || serverNames["."+n]
-			}
+			serverSide[u], changed = true, true
 			for _, n := range u.names {
-				hit = hit || serverNames[n] // a type with a server method
+				serverNames[n] = true
 			}
-			if hit {
-				serverSide[u], changed = true, true
-				for _, n := range u.names {
-					serverNames[n] = true
-				}
-				if u.recv != "" {
-					serverNames[u.recv] = true
-					serverNames["."+u.method] = true
-				}
+			if u.recv != "" {
+				serverNames[u.recv] = true
+				serverNames["."+u.method] = true
 			}
 		}
 	}
-	var body bytes.Buffer
-	used := map[string]bool{}
-	var stubs []string
-	for _, u := range units {
-		if serverSide[u] {
-			if g, ok := u.decl.(*ast.GenDecl); ok && g.Tok == token.TYPE {
-				for _, n := range u.names {
-					if ast.IsExported(n) {
-						stubs = append(stubs, n)
-					}
-				}
-			}
-			continue
-		}
-		for p := range u.pkgs {
-			used[p] = true
-		}
-		start, end := u.decl.Pos(), u.decl.End()
-		if doc := docOf(u.decl); doc != nil {
-			start = doc.Pos()
-		}
-		src := srcs[u.file]
-		body.Write(src[fset.Position(start).Offset:fset.Position(end).Offset])
-		body.WriteString("\n\n")
+	return serverSide
+}
+
+// reaches says whether u uses the import path server or a name already
+// marked (a method name as ".m").
+func (u *unit) reaches(server string, serverNames map[string]bool) bool {
+	if u.pkgs[server] || serverNames[u.recv] {
+		return true
 	}
+	for n := range u.uses {
+		// (A method is matched by its name alone: x.m for any x.)
+		if serverNames[n] || serverNames["."+n] {
+			return true
+		}
+	}
+	for _, n := range u.names {
+		if serverNames[n] { // a type with a server method
+			return true
+		}
+	}
+	return false
+}
+
+// exportedTypes are the exported type names a type declaration declares.
+func exportedTypes(u *unit) []string {
+	var out []string
+	if g, ok := u.decl.(*ast.GenDecl); ok && g.Tok == token.TYPE {
+		for _, n := range u.names {
+			if ast.IsExported(n) {
+				out = append(out, n)
+			}
+		}
+	}
+	return out
+}
+
+// render writes the generated file: the constraint, its header, the
+// imports used, the kept declarations and an empty struct per stub.
+func render(names []string, server, pkgName string, used map[string]bool, body []byte, stubs []string) ([]byte, error) {
 	var b bytes.Buffer
 	b.WriteString("//go:build wasm\n\n")
 	b.WriteString("// Code generated by testdata/wasmdeps from " + strings.Join(names, " and ") + "; DO NOT EDIT.\n")
@@ -299,7 +338,7 @@ func split(srcs map[string][]byte, server string) ([]byte, error) {
 		}
 		b.WriteString(")\n\n")
 	}
-	b.Write(body.Bytes())
+	b.Write(body)
 	sort.Strings(stubs)
 	for _, n := range stubs {
 		fmt.Fprintf(&b, "// %s has no server in the browser build; it is here for the signatures\n// of the package's browser stubs, which panic.\ntype %s struct{}\n\n", n, n)

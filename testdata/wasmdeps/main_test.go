@@ -133,8 +133,14 @@ func TestBrowserBuildHasNoServer(t *testing.T) {
 			t.Errorf("the browser build links %s", p)
 		}
 	}
-	// The copy against the module: the same files, byte for byte, but the
-	// two server files (the constraint line added) and browser_wasm.go.
+	compareCopy(t, root, out)
+}
+
+// compareCopy: the copy in out against the module: the same files, byte
+// for byte, but the two server files (the constraint line added) and
+// browser_wasm.go.
+func compareCopy(t *testing.T, root, out string) {
+	t.Helper()
 	dl := exec.Command("go", "list", "-m", "-f", "{{.Dir}}", goApp)
 	dl.Dir = root
 	dl.Env = append(os.Environ(), "GOWORK=off")
