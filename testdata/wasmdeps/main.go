@@ -53,6 +53,9 @@ const (
 
 var serverFiles = []string{"http.go", "resource.go"}
 
+// serverConstraint is what the copy puts before each of serverFiles.
+const serverConstraint = "//go:build !wasm\n\n"
+
 func main() {
 	out := flag.String("out", "bin/wasmdeps", "directory to write the copy and go.work into")
 	flag.Parse()
@@ -167,7 +170,7 @@ func trimServer(dir string) error {
 		return err
 	}
 	for name, b := range srcs {
-		if err := os.WriteFile(filepath.Join(dir, name), append([]byte("//go:build !wasm\n\n"), b...), 0o644); err != nil {
+		if err := os.WriteFile(filepath.Join(dir, name), append([]byte(serverConstraint), b...), 0o644); err != nil {
 			return err
 		}
 	}

@@ -4,6 +4,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -133,22 +134,19 @@ func TestBrowserBuildHasNoServer(t *testing.T) {
 			t.Errorf("the browser build links %s", p)
 		}
 	}
-	compareCopy(t, root, out)
+	compareCopy(t, out)
 }
 
 // compareCopy: the copy in out against the module: the same files, byte
 // for byte, but the two server files (the constraint line added) and
 // browser_wasm.go.
-func compareCopy(t *testing.T, root, out string) {
+func compareCopy(t *testing.T, out string) {
 	t.Helper()
-	dl := exec.Command("go", "list", "-m", "-f", "{{.Dir}}", goApp)
-	dl.Dir = root
-	dl.Env = append(os.Environ(), "GOWORK=off")
-	d, err := dl.Output()
+	d, err := goOutput("list", "-m", "-f", "{{.Dir}}", goApp)
 	if err != nil {
 		t.Fatal(err)
 	}
-	orig := filepath.Join(strings.TrimSpace(string(d)), appDir)
+	orig := filepath.Join(d, appDir)
 	matches, _ := filepath.Glob(filepath.Join(out, "go-app@*", appDir))
 	if len(matches) != 1 {
 		t.Fatalf("copy of %s not found in %s", appDir, out)
@@ -168,8 +166,8 @@ func compareCopy(t *testing.T, root, out string) {
 			continue
 		}
 		want := string(a)
-		if e.Name() == "http.go" || e.Name() == "resource.go" {
-			want = "//go:build !wasm\n\n" + want
+		if slices.Contains(serverFiles, e.Name()) {
+			want = serverConstraint + want
 		}
 		if string(c) != want {
 			t.Errorf("%s differs from the module's", e.Name())
